@@ -1,0 +1,138 @@
+#include "clients/cli/backend.h"
+
+#include <chrono>
+#include <fstream>
+#include <sstream>
+
+#include "absl/strings/str_cat.h"
+#include "grpcpp/grpcpp.h"
+#include "server/convert.h"
+#include "shellwright/v1/electron_structure.grpc.pb.h"
+
+namespace shellwright::cli {
+namespace {
+
+class InProcessBackend final : public Backend {
+ public:
+  absl::Status DescribeAtom(const v1::DescribeAtomRequest& request,
+                            v1::AtomDescription* response) override {
+    return DescribeAtomMessage(request, response);
+  }
+  absl::Status ListElements(v1::ListElementsResponse* response) override {
+    ListElementsMessage(response);
+    return absl::OkStatus();
+  }
+};
+
+absl::Status FromGrpc(const grpc::Status& s) {
+  if (s.ok()) return absl::OkStatus();
+  return absl::Status(static_cast<absl::StatusCode>(s.error_code()),
+                      s.error_message());
+}
+
+class RemoteBackend final : public Backend {
+ public:
+  RemoteBackend(std::shared_ptr<grpc::Channel> channel, std::string token,
+                absl::Duration timeout)
+      : stub_(v1::ElectronStructure::NewStub(std::move(channel))),
+        token_(std::move(token)),
+        timeout_(timeout) {}
+
+  absl::Status DescribeAtom(const v1::DescribeAtomRequest& request,
+                            v1::AtomDescription* response) override {
+    grpc::ClientContext context;
+    Prepare(&context);
+    return FromGrpc(stub_->DescribeAtom(&context, request, response));
+  }
+
+  absl::Status ListElements(v1::ListElementsResponse* response) override {
+    grpc::ClientContext context;
+    Prepare(&context);
+    return FromGrpc(
+        stub_->ListElements(&context, v1::ListElementsRequest(), response));
+  }
+
+ private:
+  void Prepare(grpc::ClientContext* context) const {
+    context->set_deadline(std::chrono::system_clock::now() +
+                          absl::ToChronoMilliseconds(timeout_));
+    if (!token_.empty()) {
+      context->AddMetadata("authorization", absl::StrCat("Bearer ", token_));
+    }
+  }
+
+  std::unique_ptr<v1::ElectronStructure::Stub> stub_;
+  const std::string token_;
+  const absl::Duration timeout_;
+};
+
+}  // namespace
+
+absl::StatusOr<std::string> ReadSmallFile(const std::string& path, bool trim) {
+  std::ifstream in(path, std::ios::binary);
+  if (!in) {
+    return absl::InvalidArgumentError(
+        absl::StrCat("cannot read file '", path, "'"));
+  }
+  std::ostringstream buf;
+  buf << in.rdbuf();
+  std::string text = buf.str();
+  if (text.size() > (1 << 20)) {
+    return absl::InvalidArgumentError(
+        absl::StrCat("file '", path, "' is larger than 1 MiB"));
+  }
+  if (trim) {
+    while (!text.empty() && (text.back() == '\n' || text.back() == '\r' ||
+                             text.back() == ' ')) {
+      text.pop_back();
+    }
+  }
+  return text;
+}
+
+std::unique_ptr<Backend> MakeInProcessBackend() {
+  return std::make_unique<InProcessBackend>();
+}
+
+absl::StatusOr<std::unique_ptr<Backend>> MakeRemoteBackend(
+    const RemoteOptions& options) {
+  std::shared_ptr<grpc::ChannelCredentials> credentials;
+  if (!options.tls_ca_file.empty() || !options.tls_cert_file.empty()) {
+    grpc::SslCredentialsOptions ssl;
+    if (!options.tls_ca_file.empty()) {
+      absl::StatusOr<std::string> ca = ReadSmallFile(options.tls_ca_file, false);
+      if (!ca.ok()) return ca.status();
+      ssl.pem_root_certs = *ca;
+    }
+    if (!options.tls_cert_file.empty() || !options.tls_key_file.empty()) {
+      absl::StatusOr<std::string> cert =
+          ReadSmallFile(options.tls_cert_file, false);
+      if (!cert.ok()) return cert.status();
+      absl::StatusOr<std::string> key =
+          ReadSmallFile(options.tls_key_file, false);
+      if (!key.ok()) return key.status();
+      ssl.pem_cert_chain = *cert;
+      ssl.pem_private_key = *key;
+    }
+    credentials = grpc::SslCredentials(ssl);
+  } else {
+    credentials = grpc::InsecureChannelCredentials();
+  }
+  std::string token;
+  if (!options.token_file.empty()) {
+    absl::StatusOr<std::string> t = ReadSmallFile(options.token_file, true);
+    if (!t.ok()) return t.status();
+    token = *t;
+  }
+  grpc::ChannelArguments args;
+  args.SetMaxReceiveMessageSize(64 << 20);
+  if (!options.tls_server_name.empty()) {
+    args.SetSslTargetNameOverride(options.tls_server_name);
+  }
+  auto channel =
+      grpc::CreateCustomChannel(options.address, credentials, args);
+  return std::unique_ptr<Backend>(
+      new RemoteBackend(std::move(channel), std::move(token), options.timeout));
+}
+
+}  // namespace shellwright::cli

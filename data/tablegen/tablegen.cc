@@ -1,0 +1,379 @@
+// tablegen: validates the TSV tables in data/ and turns them into a C++
+// source file that defines the tables declared in
+// engine/internal/data_tables.h.
+//
+// It runs at build time (see data/CMakeLists.txt). Any problem in a table
+// stops the build with "FILE:LINE: problem". Configurations and term
+// symbols are checked with the engine's own parsers, so a table can never
+// hold a value that the engine would reject.
+//
+// Usage:
+//   tablegen --elements=elements.tsv --exceptions=configuration_exceptions.tsv
+//            --departures=ground_level_departures.tsv
+//            --moments=measured_moments.tsv
+//            --oxidation=oxidation_states.tsv --out=data_tables.cc
+
+#include <cerrno>
+#include <cmath>
+#include <cstdio>
+#include <cstdlib>
+#include <fstream>
+#include <iostream>
+#include <map>
+#include <set>
+#include <sstream>
+#include <string>
+#include <vector>
+
+#include "absl/strings/str_cat.h"
+#include "absl/strings/str_split.h"
+#include "engine/configuration.h"
+#include "engine/term_symbol.h"
+
+namespace {
+
+struct Row {
+  int line = 0;
+  std::vector<std::string> fields;
+};
+
+struct Table {
+  std::string path;
+  std::vector<std::string> header;
+  std::vector<Row> rows;
+};
+
+[[noreturn]] void Fail(const std::string& path, int line,
+                       const std::string& problem) {
+  std::cerr << path << ":" << line << ": " << problem << "\n";
+  std::exit(1);
+}
+
+Table ReadTable(const std::string& path,
+                const std::vector<std::string>& expected_header) {
+  std::ifstream in(path);
+  if (!in) Fail(path, 0, "cannot open file");
+  Table t;
+  t.path = path;
+  std::string text;
+  int line_no = 0;
+  while (std::getline(in, text)) {
+    ++line_no;
+    if (!text.empty() && text.back() == '\r') {
+      Fail(path, line_no, "CRLF line ending; use LF");
+    }
+    if (text.empty() || text[0] == '#') continue;
+    if (text.back() == ' ' || text.back() == '\t') {
+      Fail(path, line_no, "trailing whitespace");
+    }
+    std::vector<std::string> fields = absl::StrSplit(text, '\t');
+    if (t.header.empty()) {
+      if (fields != expected_header) {
+        std::string want;
+        for (const auto& h : expected_header) absl::StrAppend(&want, h, " ");
+        Fail(path, line_no, "header row must be (tab-separated): " + want);
+      }
+      t.header = fields;
+      continue;
+    }
+    if (fields.size() != t.header.size()) {
+      Fail(path, line_no,
+           absl::StrCat("expected ", t.header.size(), " tab-separated fields, "
+                        "found ", fields.size()));
+    }
+    for (size_t i = 0; i < fields.size(); ++i) {
+      if (fields[i].empty()) {
+        Fail(path, line_no,
+             absl::StrCat("column '", t.header[i], "' is empty (use '-')"));
+      }
+    }
+    t.rows.push_back(Row{line_no, std::move(fields)});
+  }
+  if (t.header.empty()) Fail(path, line_no, "no header row");
+  return t;
+}
+
+long ParseInt(const Table& t, const Row& r, size_t col, long lo, long hi) {
+  const std::string& s = r.fields[col];
+  char* end = nullptr;
+  errno = 0;
+  long v = std::strtol(s.c_str(), &end, 10);
+  if (errno != 0 || end == s.c_str() || *end != '\0' || v < lo || v > hi) {
+    Fail(t.path, r.line,
+         absl::StrCat("column '", t.header[col], "': expected an integer from ",
+                      lo, " to ", hi, ", got '", s, "'"));
+  }
+  return v;
+}
+
+double ParseDecimal(const Table& t, const Row& r, size_t col,
+                    const std::string& s, double lo, double hi) {
+  char* end = nullptr;
+  errno = 0;
+  double v = std::strtod(s.c_str(), &end);
+  if (errno != 0 || end == s.c_str() || *end != '\0' || !std::isfinite(v) ||
+      v < lo || v > hi) {
+    Fail(t.path, r.line,
+         absl::StrCat("column '", t.header[col], "': expected a number from ",
+                      lo, " to ", hi, ", got '", s, "'"));
+  }
+  return v;
+}
+
+// A C++ string literal for `s`.
+std::string Literal(const std::string& s) {
+  std::string out = "\"";
+  for (char c : s) {
+    if (c == '"' || c == '\\') out.push_back('\\');
+    out.push_back(c);
+  }
+  out.push_back('"');
+  return out;
+}
+
+std::string Double(double v) {
+  char buf[64];
+  std::snprintf(buf, sizeof(buf), "%.17g", v);
+  return buf;
+}
+
+std::map<std::string, std::string> ParseArgs(int argc, char** argv) {
+  std::map<std::string, std::string> args;
+  for (int i = 1; i < argc; ++i) {
+    std::string a = argv[i];
+    size_t eq = a.find('=');
+    if (a.rfind("--", 0) != 0 || eq == std::string::npos) {
+      std::cerr << "tablegen: bad argument '" << a << "'\n";
+      std::exit(2);
+    }
+    args[a.substr(2, eq - 2)] = a.substr(eq + 1);
+  }
+  for (const char* required :
+       {"elements", "exceptions", "departures", "moments", "oxidation", "out"}) {
+    if (!args.count(required)) {
+      std::cerr << "tablegen: missing --" << required << "=\n";
+      std::exit(2);
+    }
+  }
+  return args;
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  const auto args = ParseArgs(argc, argv);
+  std::ostringstream out;
+  out << "// Generated by data/tablegen from the TSV tables in data/.\n"
+         "// Do not edit: change the TSV files instead.\n\n"
+         "#include \"engine/internal/data_tables.h\"\n\n"
+         "namespace shellwright::internal {\nnamespace {\n\n";
+
+  // --- elements.tsv ---------------------------------------------------------
+  const Table elements = ReadTable(
+      args.at("elements"),
+      {"atomic_number", "symbol", "name", "period", "group", "block",
+       "standard_atomic_weight", "pauling_electronegativity"});
+  std::map<std::string, int> z_by_symbol;
+  std::set<std::string> names;
+  out << "constexpr ElementRow kElements[] = {\n";
+  for (const Row& r : elements.rows) {
+    const int z = static_cast<int>(ParseInt(elements, r, 0, 1, 118));
+    if (z != static_cast<int>(z_by_symbol.size()) + 1) {
+      Fail(elements.path, r.line,
+           absl::StrCat("atomic_number ", z, " out of sequence; expected ",
+                        z_by_symbol.size() + 1));
+    }
+    const std::string& symbol = r.fields[1];
+    const bool symbol_ok =
+        (symbol.size() == 1 || symbol.size() == 2 || symbol.size() == 3) &&
+        std::isupper(static_cast<unsigned char>(symbol[0])) &&
+        (symbol.size() < 2 ||
+         std::islower(static_cast<unsigned char>(symbol[1]))) &&
+        (symbol.size() < 3 ||
+         std::islower(static_cast<unsigned char>(symbol[2])));
+    if (!symbol_ok) {
+      Fail(elements.path, r.line,
+           "symbol '" + symbol + "' must be one capital then lowercase letters");
+    }
+    if (!z_by_symbol.emplace(symbol, z).second) {
+      Fail(elements.path, r.line, "duplicate symbol '" + symbol + "'");
+    }
+    if (!names.insert(r.fields[2]).second) {
+      Fail(elements.path, r.line, "duplicate name '" + r.fields[2] + "'");
+    }
+    const long period = ParseInt(elements, r, 3, 1, 7);
+    const long group =
+        r.fields[4] == "-" ? 0 : ParseInt(elements, r, 4, 1, 18);
+    const std::string& block = r.fields[5];
+    if (block != "s" && block != "p" && block != "d" && block != "f") {
+      Fail(elements.path, r.line,
+           "column 'block': expected s, p, d or f, got '" + block + "'");
+    }
+    std::string weight_text = r.fields[6];
+    bool mass_number = false;
+    if (weight_text.size() > 2 && weight_text.front() == '[' &&
+        weight_text.back() == ']') {
+      mass_number = true;
+      weight_text = weight_text.substr(1, weight_text.size() - 2);
+    }
+    const double weight = ParseDecimal(elements, r, 6, weight_text, 1, 300);
+    const bool has_en = r.fields[7] != "-";
+    const double en =
+        has_en ? ParseDecimal(elements, r, 7, r.fields[7], 0.5, 4.0) : 0.0;
+    out << "    {" << z << ", " << Literal(symbol) << ", "
+        << Literal(r.fields[2]) << ", " << period << ", " << group << ", '"
+        << block << "', " << Double(weight) << ", "
+        << (mass_number ? "true" : "false") << ", "
+        << (has_en ? "true" : "false") << ", " << Double(en) << "},\n";
+  }
+  if (z_by_symbol.size() != 118) {
+    Fail(elements.path, 0,
+         absl::StrCat("expected 118 elements, found ", z_by_symbol.size()));
+  }
+  out << "};\n\n";
+
+  auto symbol_to_z = [&](const Table& t, const Row& r, size_t col) {
+    auto it = z_by_symbol.find(r.fields[col]);
+    if (it == z_by_symbol.end()) {
+      Fail(t.path, r.line, "unknown element symbol '" + r.fields[col] + "'");
+    }
+    return it->second;
+  };
+  auto check_symbol_matches = [&](const Table& t, const Row& r, int z) {
+    if (symbol_to_z(t, r, 1) != z) {
+      Fail(t.path, r.line,
+           absl::StrCat("symbol '", r.fields[1], "' does not match atomic "
+                        "number ", z));
+    }
+  };
+
+  // --- configuration_exceptions.tsv -----------------------------------------
+  const Table exceptions =
+      ReadTable(args.at("exceptions"),
+                {"atomic_number", "symbol", "configuration", "source"});
+  out << "constexpr ConfigurationExceptionRow kExceptions[] = {\n";
+  std::set<int> exception_z;
+  for (const Row& r : exceptions.rows) {
+    const int z = static_cast<int>(ParseInt(exceptions, r, 0, 1, 118));
+    check_symbol_matches(exceptions, r, z);
+    if (!exception_z.insert(z).second) {
+      Fail(exceptions.path, r.line, absl::StrCat("duplicate row for Z ", z));
+    }
+    auto config = shellwright::Configuration::Parse(r.fields[2]);
+    if (!config.ok()) {
+      Fail(exceptions.path, r.line, std::string(config.status().message()));
+    }
+    if (config->electrons() != z) {
+      Fail(exceptions.path, r.line,
+           absl::StrCat("configuration holds ", config->electrons(),
+                        " electrons, but Z is ", z));
+    }
+    if (*config == shellwright::Configuration::Madelung(z)) {
+      Fail(exceptions.path, r.line,
+           "configuration equals Madelung filling; it is not an exception");
+    }
+    out << "    {" << z << ", " << Literal(r.fields[2]) << ", "
+        << Literal(r.fields[3]) << "},\n";
+  }
+  out << "};\n\n";
+
+  // --- ground_level_departures.tsv ------------------------------------------
+  const Table departures = ReadTable(
+      args.at("departures"),
+      {"atomic_number", "symbol", "observed_level", "hund_level", "source"});
+  out << "constexpr GroundLevelDepartureRow kDepartures[] = {\n";
+  for (const Row& r : departures.rows) {
+    const int z = static_cast<int>(ParseInt(departures, r, 0, 1, 118));
+    check_symbol_matches(departures, r, z);
+    for (size_t col : {2u, 3u}) {
+      auto term = shellwright::TermSymbol::Parse(r.fields[col]);
+      if (!term.ok()) {
+        Fail(departures.path, r.line,
+             absl::StrCat("column '", departures.header[col],
+                          "': ", term.status().message()));
+      }
+    }
+    if (r.fields[2] == r.fields[3]) {
+      Fail(departures.path, r.line,
+           "observed_level equals hund_level; it is not a departure");
+    }
+    out << "    {" << z << ", " << Literal(r.fields[2]) << ", "
+        << Literal(r.fields[3]) << ", " << Literal(r.fields[4]) << "},\n";
+  }
+  out << "};\n\n";
+
+  // --- measured_moments.tsv -------------------------------------------------
+  const Table moments =
+      ReadTable(args.at("moments"),
+                {"symbol", "charge", "measured_moment", "source"});
+  out << "constexpr MeasuredMomentRow kMoments[] = {\n";
+  for (const Row& r : moments.rows) {
+    const int z = symbol_to_z(moments, r, 0);
+    const long charge = ParseInt(moments, r, 1, -8, 118);
+    const bool has = r.fields[2] != "-";
+    const double m = has ? ParseDecimal(moments, r, 2, r.fields[2], 0, 20) : 0;
+    out << "    {" << z << ", " << charge << ", " << (has ? "true" : "false")
+        << ", " << Double(m) << ", " << Literal(r.fields[3]) << "},\n";
+  }
+  out << "};\n\n";
+
+  // --- oxidation_states.tsv -------------------------------------------------
+  const Table oxidation = ReadTable(args.at("oxidation"),
+                                    {"symbol", "state", "common", "source"});
+  out << "constexpr OxidationStateRow kOxidation[] = {\n";
+  int last_z = 0;
+  int last_state = -100;
+  for (const Row& r : oxidation.rows) {
+    const int z = symbol_to_z(oxidation, r, 0);
+    const long state = ParseInt(oxidation, r, 1, -5, 9);
+    if (state == 0) {
+      Fail(oxidation.path, r.line, "state 0 is implied; do not list it");
+    }
+    if (z < last_z || (z == last_z && state <= last_state)) {
+      Fail(oxidation.path, r.line,
+           "rows must be ordered by atomic number, then by increasing state, "
+           "with no duplicates");
+    }
+    last_z = z;
+    last_state = static_cast<int>(state);
+    const std::string& common = r.fields[2];
+    if (common != "yes" && common != "no") {
+      Fail(oxidation.path, r.line,
+           "column 'common': expected yes or no, got '" + common + "'");
+    }
+    out << "    {" << z << ", " << state << ", "
+        << (common == "yes" ? "true" : "false") << ", " << Literal(r.fields[3])
+        << "},\n";
+  }
+  out << "};\n\n";
+
+  out << "}  // namespace\n\n"
+         "absl::Span<const ElementRow> ElementRows() { return kElements; }\n"
+         "absl::Span<const ConfigurationExceptionRow> "
+         "ConfigurationExceptionRows() {\n  return kExceptions;\n}\n"
+         "absl::Span<const GroundLevelDepartureRow> "
+         "GroundLevelDepartureRows() {\n  return kDepartures;\n}\n"
+         "absl::Span<const MeasuredMomentRow> MeasuredMomentRows() {\n"
+         "  return kMoments;\n}\n"
+         "absl::Span<const OxidationStateRow> OxidationStateRows() {\n"
+         "  return kOxidation;\n}\n\n"
+         "}  // namespace shellwright::internal\n";
+
+  // Write only when changed, so that an unchanged table does not trigger a
+  // rebuild of everything that depends on it.
+  const std::string& out_path = args.at("out");
+  const std::string generated = out.str();
+  {
+    std::ifstream existing(out_path);
+    std::stringstream buf;
+    buf << existing.rdbuf();
+    if (existing && buf.str() == generated) return 0;
+  }
+  std::ofstream file(out_path, std::ios::trunc);
+  file << generated;
+  if (!file) {
+    std::cerr << "tablegen: cannot write " << out_path << "\n";
+    return 1;
+  }
+  return 0;
+}

@@ -1,0 +1,374 @@
+#include "engine/atom.h"
+
+#include <array>
+#include <cmath>
+#include <utility>
+
+#include "absl/strings/str_cat.h"
+#include "engine/aufbau.h"
+#include "engine/internal/data_tables.h"
+#include "engine/internal/text.h"
+#include "engine/magnetism.h"
+
+namespace shellwright {
+namespace {
+
+using internal::QuoteForMessage;
+
+absl::Status SpecError(absl::string_view spec, absl::string_view problem) {
+  return absl::InvalidArgumentError(
+      absl::StrCat("species ", QuoteForMessage(spec), ": ", problem));
+}
+
+// Stock numerals; index is the oxidation state.
+constexpr absl::string_view kRomanNumerals[] = {
+    "0", "I", "II", "III", "IV", "V", "VI", "VII", "VIII", "IX", "X"};
+
+absl::StatusOr<int> ParseCharge(absl::string_view spec, absl::string_view rest) {
+  if (rest.front() == '(') {
+    if (rest.back() != ')' || rest.size() < 3) {
+      return SpecError(spec, "a Stock numeral must be written like (III)");
+    }
+    absl::string_view numeral = rest.substr(1, rest.size() - 2);
+    int sign = 1;
+    if (numeral.front() == '-' || numeral.front() == '+') {
+      sign = numeral.front() == '-' ? -1 : 1;
+      numeral.remove_prefix(1);
+    }
+    for (int value = 0; value < static_cast<int>(std::size(kRomanNumerals));
+         ++value) {
+      if (numeral == kRomanNumerals[value]) return sign * value;
+    }
+    return SpecError(spec, absl::StrCat("invalid Stock numeral ",
+                                        QuoteForMessage(numeral),
+                                        " (expected 0 or I to X)"));
+  }
+  size_t i = 0;
+  int sign = 0;
+  if (rest[i] == '+' || rest[i] == '-') {
+    sign = rest[i] == '-' ? -1 : 1;
+    ++i;
+  }
+  int magnitude = 0;
+  const size_t digits_start = i;
+  while (i < rest.size() && rest[i] >= '0' && rest[i] <= '9') {
+    if (i - digits_start >= 3) return SpecError(spec, "charge is too large");
+    magnitude = magnitude * 10 + (rest[i] - '0');
+    ++i;
+  }
+  const bool has_digits = i > digits_start;
+  if (sign == 0) {
+    // Digits then sign: "3+", "2-".
+    if (!has_digits || i == rest.size() || (rest[i] != '+' && rest[i] != '-')) {
+      return SpecError(spec,
+                       absl::StrCat("malformed charge ", QuoteForMessage(rest),
+                                    " (expected e.g. 3+, +3, 2- or (III))"));
+    }
+    sign = rest[i] == '-' ? -1 : 1;
+    ++i;
+  } else if (!has_digits) {
+    magnitude = 1;  // "Cl-", "Na+"
+  }
+  if (i != rest.size()) {
+    return SpecError(spec, absl::StrCat("unexpected text ",
+                                        QuoteForMessage(rest.substr(i)),
+                                        " after the charge"));
+  }
+  return sign * magnitude;
+}
+
+// Outermost shell; for d-block also (n-1)d; for f-block also (n-1)d and
+// (n-2)f. Subshells beyond the period (anions, excited states) count too.
+int ValenceElectrons(const Element& e, const Configuration& c) {
+  int total = 0;
+  for (Subshell s : c.OccupiedSubshells()) {
+    const bool counts =
+        s.n >= e.period ||
+        (s.l == 2 && s.n == e.period - 1 &&
+         (e.block == Block::kD || e.block == Block::kF)) ||
+        (s.l == 3 && s.n == e.period - 2 && e.block == Block::kF);
+    if (counts) total += c.occupancy(s);
+  }
+  return total;
+}
+
+std::optional<TermSymbol> ObservedGroundLevel(int z) {
+  for (const internal::GroundLevelDepartureRow& row :
+       internal::GroundLevelDepartureRows()) {
+    if (row.atomic_number == z) {
+      absl::StatusOr<TermSymbol> t = TermSymbol::Parse(row.observed_level);
+      if (t.ok()) return *t;
+    }
+  }
+  return std::nullopt;
+}
+
+absl::string_view ObservedGroundLevelSource(int z) {
+  for (const internal::GroundLevelDepartureRow& row :
+       internal::GroundLevelDepartureRows()) {
+    if (row.atomic_number == z) return row.source;
+  }
+  return {};
+}
+
+// Picks the d subshell a ligand field acts on: the single open d subshell,
+// or, for a d-block element with a closed or empty d subshell, its
+// (period-1)d subshell. nullopt when the field does not apply.
+std::optional<Subshell> LigandFieldSubshell(const Element& e,
+                                            const Configuration& c) {
+  std::optional<Subshell> open_d;
+  int open_d_count = 0;
+  for (Subshell s : c.OpenSubshells()) {
+    if (s.l == 2) {
+      open_d = s;
+      ++open_d_count;
+    }
+  }
+  if (open_d_count == 1) return open_d;
+  if (open_d_count == 0 && e.block == Block::kD && e.period >= 4) {
+    return Subshell{e.period - 1, 2};
+  }
+  return std::nullopt;
+}
+
+AtomDescriptionPtr Build(const Element& element, int charge,
+                         const Configuration& configuration,
+                         bool user_supplied, Geometry geometry,
+                         SpinStatePreference spin) {
+  auto d = std::make_shared<AtomDescription>();
+  const int z = element.atomic_number;
+  d->element = &element;
+  d->charge = charge;
+  d->electrons = configuration.electrons();
+  d->configuration = configuration;
+  d->configuration_user_supplied = user_supplied;
+
+  const bool neutral_noble_gas =
+      charge == 0 && element.group == 18 && !user_supplied;
+  d->configuration_notation = configuration.ToCoreNotation(
+      neutral_noble_gas ? z - 1 : std::numeric_limits<int>::max());
+  d->full_notation = configuration.ToFullNotation();
+  d->filling_order_notation = configuration.ToFillingOrderNotation();
+  for (Subshell s : configuration.OccupiedSubshells()) {
+    const int e = configuration.occupancy(s);
+    d->subshells.push_back(
+        {s, e, s.Capacity(), HundUnpairedElectrons(s.l, e)});
+  }
+  d->open_subshells = configuration.OpenSubshells();
+  d->valence_electrons = ValenceElectrons(element, configuration);
+
+  if (charge == 0 && !user_supplied) {
+    const absl::string_view source = MadelungExceptionSource(z);
+    if (!source.empty()) {
+      d->madelung_exception = true;
+      d->madelung_exception_source = std::string(source);
+      d->notes.push_back(absl::StrCat(
+          "measured ground configuration departs from Madelung filling (",
+          Configuration::Madelung(z).ToCoreNotation(), "); source: ", source));
+    }
+  }
+
+  // Term symbol: Hund's rules, or the observed level where it departs.
+  const TermSymbol hund = HundGroundTerm(configuration);
+  d->term = hund;
+  d->term_source = "Hund's rules";
+  if (charge == 0 && !user_supplied) {
+    if (std::optional<TermSymbol> observed = ObservedGroundLevel(z);
+        observed.has_value() && *observed != hund) {
+      d->term = *observed;
+      d->hund_term = hund;
+      d->term_source = std::string(ObservedGroundLevelSource(z));
+      d->notes.push_back(absl::StrCat(
+          "observed ground level ", observed->ToAscii(),
+          " differs from the Hund's-rules prediction ", hund.ToAscii(),
+          "; source: ", d->term_source));
+    }
+  }
+
+  // Unpaired electrons, with the ligand field where it applies.
+  d->unpaired_electrons = configuration.UnpairedElectrons();
+  if (geometry != Geometry::kFree) {
+    if (std::optional<Subshell> ds = LigandFieldSubshell(element,
+                                                         configuration)) {
+      const int de = configuration.occupancy(*ds);
+      LigandFieldResult lf{
+          *ds, SplitD(de, geometry, ResolveSpinState(geometry, spin, ds->n))};
+      d->unpaired_electrons +=
+          lf.splitting.unpaired - HundUnpairedElectrons(2, de);
+      d->ligand_field = std::move(lf);
+    } else {
+      d->notes.push_back(absl::StrCat(
+          "geometry ", GeometryName(geometry),
+          " ignored: ligand-field splitting is modelled only for ions with "
+          "one open d subshell or a d-block element's d subshell"));
+    }
+  }
+
+  Moments& m = d->moments;
+  m.spin_only = SpinOnlyMoment(d->unpaired_electrons);
+  m.lande_g = LandeG(d->term);
+  m.j_moment = JMoment(d->term);
+  m.saturation = SaturationMoment(d->term);
+  m.spin_moment = d->unpaired_electrons;
+  bool open_f = false;
+  for (Subshell s : d->open_subshells) open_f |= s.l == 3;
+  if (open_f) {
+    m.recommended = m.j_moment;
+    m.recommended_basis = MomentBasis::kJ;
+  } else {
+    m.recommended = m.spin_only;
+    m.recommended_basis = MomentBasis::kSpinOnly;
+  }
+  if (!user_supplied) {
+    if (std::optional<MeasuredMoment> measured = FindMeasuredMoment(z, charge)) {
+      m.measured = measured->moment;
+      m.measured_source = measured->source;
+      if (std::abs(measured->moment - m.recommended) > 0.5) {
+        d->notes.push_back(absl::StrCat(
+            "measured moment ", measured->moment,
+            " μB departs from the free-ion estimate because excited J "
+            "multiplets lie close to the ground level; source: ",
+            measured->source));
+      }
+    }
+  }
+  return d;
+}
+
+// Precomputed descriptions for every (Z, charge) with no geometry and no
+// override: charge runs from -kMaxAnionCharge to +Z.
+class DescriptionCache {
+ public:
+  DescriptionCache() {
+    int offset = 0;
+    for (int z = 1; z <= kMaxAtomicNumber; ++z) {
+      offsets_[z] = offset;
+      offset += z + kMaxAnionCharge + 1;
+    }
+    entries_.resize(offset);
+    for (const Element& e : AllElements()) {
+      for (int charge = -kMaxAnionCharge; charge <= e.atomic_number;
+           ++charge) {
+        absl::StatusOr<Configuration> c =
+            IonConfiguration(e.atomic_number, charge);
+        if (!c.ok()) continue;
+        entries_[Slot(e.atomic_number, charge)] =
+            Build(e, charge, *c, /*user_supplied=*/false, Geometry::kFree,
+                  SpinStatePreference::kAuto);
+      }
+    }
+  }
+
+  // REQUIRES: -kMaxAnionCharge <= charge <= z.
+  const AtomDescriptionPtr& Get(int z, int charge) const {
+    return entries_[Slot(z, charge)];
+  }
+
+ private:
+  int Slot(int z, int charge) const {
+    return offsets_[z] + charge + kMaxAnionCharge;
+  }
+  std::array<int, kMaxAtomicNumber + 1> offsets_{};
+  std::vector<AtomDescriptionPtr> entries_;
+};
+
+const DescriptionCache& Cache() {
+  static const DescriptionCache* const kCache = new DescriptionCache;
+  return *kCache;
+}
+
+}  // namespace
+
+absl::StatusOr<SpeciesSpec> ParseSpeciesSpec(absl::string_view spec) {
+  if (spec.empty()) return absl::InvalidArgumentError("species is empty");
+  if (spec.size() > kMaxSpeciesSpecLength) {
+    return SpecError(spec, absl::StrCat("longer than ", kMaxSpeciesSpecLength,
+                                        " bytes"));
+  }
+  SpeciesSpec out;
+  size_t i = 0;
+  if (spec[0] >= '0' && spec[0] <= '9') {
+    while (i < spec.size() && spec[i] >= '0' && spec[i] <= '9') ++i;
+    if (i != spec.size()) {
+      return SpecError(spec,
+                       "an atomic number must stand alone; give the charge "
+                       "separately (e.g. --charge 3) or use a symbol (Fe3+)");
+    }
+    absl::StatusOr<const Element*> e = LookupElement(spec);
+    if (!e.ok()) return e.status();
+    out.element = *e;
+    return out;
+  }
+  while (i < spec.size() && ((spec[i] >= 'a' && spec[i] <= 'z') ||
+                             (spec[i] >= 'A' && spec[i] <= 'Z'))) {
+    ++i;
+  }
+  if (i == 0) {
+    return SpecError(spec, "must start with an element symbol, name or "
+                           "atomic number");
+  }
+  absl::StatusOr<const Element*> e = LookupElement(spec.substr(0, i));
+  if (!e.ok()) return e.status();
+  out.element = *e;
+  if (i < spec.size()) {
+    absl::StatusOr<int> charge = ParseCharge(spec, spec.substr(i));
+    if (!charge.ok()) return charge.status();
+    out.charge = *charge;
+  }
+  return out;
+}
+
+absl::StatusOr<AtomQuery> ParseAtomQuery(absl::string_view spec,
+                                         std::optional<int> charge) {
+  absl::StatusOr<SpeciesSpec> parsed = ParseSpeciesSpec(spec);
+  if (!parsed.ok()) return parsed.status();
+  if (parsed->charge.has_value() && charge.has_value() &&
+      *parsed->charge != *charge) {
+    return SpecError(spec, absl::StrCat("its charge ", *parsed->charge,
+                                        " contradicts the separate charge ",
+                                        *charge));
+  }
+  AtomQuery q;
+  q.element = parsed->element;
+  q.charge = parsed->charge.value_or(charge.value_or(0));
+  return q;
+}
+
+absl::StatusOr<AtomDescriptionPtr> DescribeAtom(const AtomQuery& query) {
+  if (query.element == nullptr) {
+    return absl::InvalidArgumentError("no element given");
+  }
+  const Element& e = *query.element;
+  const int z = e.atomic_number;
+  if (query.charge > z) {
+    return absl::InvalidArgumentError(absl::StrCat(
+        e.symbol, " with charge +", query.charge, ": would remove ",
+        query.charge, " electrons, but ", e.name, " has only ", z));
+  }
+  if (query.charge < -kMaxAnionCharge) {
+    return absl::InvalidArgumentError(absl::StrCat(
+        e.symbol, " with charge ", query.charge,
+        ": anion charge is beyond the supported bound of -",
+        kMaxAnionCharge));
+  }
+  if (query.configuration.has_value()) {
+    const int want = z - query.charge;
+    const int have = query.configuration->electrons();
+    if (have != want) {
+      return absl::InvalidArgumentError(absl::StrCat(
+          "configuration holds ", have, " electrons, but ", e.symbol,
+          " with charge ", query.charge, " has ", want));
+    }
+    return Build(e, query.charge, *query.configuration,
+                 /*user_supplied=*/true, query.geometry, query.spin_state);
+  }
+  if (query.geometry == Geometry::kFree) {
+    return Cache().Get(z, query.charge);
+  }
+  absl::StatusOr<Configuration> c = IonConfiguration(z, query.charge);
+  if (!c.ok()) return c.status();
+  return Build(e, query.charge, *c, /*user_supplied=*/false, query.geometry,
+               query.spin_state);
+}
+
+}  // namespace shellwright

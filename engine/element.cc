@@ -1,0 +1,146 @@
+#include "engine/element.h"
+
+#include <array>
+#include <string>
+
+#include "absl/container/flat_hash_map.h"
+#include "absl/strings/ascii.h"
+#include "absl/strings/str_cat.h"
+#include "engine/internal/data_tables.h"
+#include "engine/internal/text.h"
+
+namespace shellwright {
+namespace {
+
+using internal::QuoteForMessage;
+
+Block BlockFromLetter(char c) {
+  switch (c) {
+    case 's':
+      return Block::kS;
+    case 'p':
+      return Block::kP;
+    case 'd':
+      return Block::kD;
+    default:
+      return Block::kF;
+  }
+}
+
+struct ElementIndex {
+  std::array<Element, kMaxAtomicNumber> elements;
+  absl::flat_hash_map<absl::string_view, const Element*> by_symbol;
+  absl::flat_hash_map<std::string, const Element*> by_lower_symbol;
+  absl::flat_hash_map<std::string, const Element*> by_lower_name;
+};
+
+const ElementIndex& Index() {
+  static const ElementIndex* const kIndex = [] {
+    auto* index = new ElementIndex;
+    const auto rows = internal::ElementRows();
+    for (size_t i = 0; i < rows.size() && i < kMaxAtomicNumber; ++i) {
+      const internal::ElementRow& r = rows[i];
+      Element& e = index->elements[i];
+      e.atomic_number = r.atomic_number;
+      e.symbol = r.symbol;
+      e.name = r.name;
+      e.period = r.period;
+      e.group = r.group;
+      e.block = BlockFromLetter(r.block);
+      e.standard_atomic_weight = r.standard_atomic_weight;
+      e.atomic_weight_is_mass_number = r.weight_is_mass_number;
+      if (r.has_electronegativity) {
+        e.pauling_electronegativity = r.pauling_electronegativity;
+      }
+      index->by_symbol[e.symbol] = &e;
+      index->by_lower_symbol[internal::AsciiLower(e.symbol)] = &e;
+      index->by_lower_name[internal::AsciiLower(e.name)] = &e;
+    }
+    // Common alternative spellings.
+    index->by_lower_name["aluminum"] = &index->elements[12];
+    index->by_lower_name["cesium"] = &index->elements[54];
+    index->by_lower_name["sulphur"] = &index->elements[15];
+    return index;
+  }();
+  return *kIndex;
+}
+
+}  // namespace
+
+char BlockLetter(Block block) {
+  switch (block) {
+    case Block::kS:
+      return 's';
+    case Block::kP:
+      return 'p';
+    case Block::kD:
+      return 'd';
+    case Block::kF:
+      return 'f';
+  }
+  return '?';
+}
+
+absl::Span<const Element> AllElements() { return Index().elements; }
+
+absl::StatusOr<const Element*> ElementByAtomicNumber(int z) {
+  if (z < 1 || z > kMaxAtomicNumber) {
+    return absl::InvalidArgumentError(absl::StrCat(
+        "atomic number ", z, " is out of range (1 to ", kMaxAtomicNumber,
+        ")"));
+  }
+  return &Index().elements[z - 1];
+}
+
+const Element* FindElementBySymbol(absl::string_view symbol) {
+  const auto& map = Index().by_symbol;
+  auto it = map.find(symbol);
+  return it == map.end() ? nullptr : it->second;
+}
+
+absl::StatusOr<const Element*> LookupElement(absl::string_view spec) {
+  if (spec.empty()) {
+    return absl::InvalidArgumentError("element is empty");
+  }
+  if (spec.size() > 64) {
+    return absl::InvalidArgumentError(absl::StrCat(
+        "unknown element ", QuoteForMessage(spec), " (too long)"));
+  }
+  if (absl::ascii_isdigit(static_cast<unsigned char>(spec[0]))) {
+    int z = 0;
+    for (char c : spec) {
+      if (!absl::ascii_isdigit(static_cast<unsigned char>(c))) {
+        return absl::InvalidArgumentError(
+            absl::StrCat("unknown element ", QuoteForMessage(spec),
+                         " (an atomic number must be a whole number)"));
+      }
+      if (z <= 1000) z = z * 10 + (c - '0');
+    }
+    if (z > 1000) {
+      return absl::InvalidArgumentError(
+          absl::StrCat("atomic number ", QuoteForMessage(spec),
+                       " is out of range (1 to ", kMaxAtomicNumber, ")"));
+    }
+    return ElementByAtomicNumber(z);
+  }
+  if (const Element* e = FindElementBySymbol(spec)) return e;
+  const ElementIndex& index = Index();
+  const std::string lower = internal::AsciiLower(spec);
+  if (auto it = index.by_lower_name.find(lower);
+      it != index.by_lower_name.end()) {
+    return it->second;
+  }
+  if (auto it = index.by_lower_symbol.find(lower);
+      it != index.by_lower_symbol.end()) {
+    return absl::InvalidArgumentError(absl::StrCat(
+        "unknown element ", QuoteForMessage(spec),
+        " (element symbols are case-sensitive: did you mean '",
+        it->second->symbol, "'?)"));
+  }
+  return absl::InvalidArgumentError(
+      absl::StrCat("unknown element ", QuoteForMessage(spec),
+                   " (expected a symbol such as Fe, an atomic number 1-118, "
+                   "or a name such as iron)"));
+}
+
+}  // namespace shellwright

@@ -1,0 +1,72 @@
+// Compiled-in copies of the TSV tables in data/. Not part of the API.
+//
+// The definitions are generated at build time by data/tablegen from the TSV
+// files, which are the single source of truth; see docs/data-sources.md.
+// Public code reaches this data through element.h, aufbau.h and the other
+// engine headers.
+//
+// Example:
+//   for (const ElementRow& row : ElementRows()) { ... }
+
+#ifndef SHELLWRIGHT_ENGINE_INTERNAL_DATA_TABLES_H_
+#define SHELLWRIGHT_ENGINE_INTERNAL_DATA_TABLES_H_
+
+#include "absl/types/span.h"
+
+namespace shellwright::internal {
+
+// data/elements.tsv
+struct ElementRow {
+  int atomic_number;
+  const char* symbol;
+  const char* name;
+  int period;
+  int group;   // 1..18, or 0 for elements without a group.
+  char block;  // 's', 'p', 'd' or 'f'.
+  double standard_atomic_weight;
+  bool weight_is_mass_number;  // True for "[98]"-style entries.
+  bool has_electronegativity;
+  double pauling_electronegativity;
+};
+
+// data/configuration_exceptions.tsv
+struct ConfigurationExceptionRow {
+  int atomic_number;
+  const char* configuration;  // Noble-gas-core notation.
+  const char* source;
+};
+
+// data/ground_level_departures.tsv
+struct GroundLevelDepartureRow {
+  int atomic_number;
+  const char* observed_level;  // ASCII term symbol.
+  const char* hund_level;
+  const char* source;
+};
+
+// data/measured_moments.tsv
+struct MeasuredMomentRow {
+  int atomic_number;
+  int charge;
+  bool has_measured_moment;
+  double measured_moment;  // Bohr magnetons.
+  const char* source;
+};
+
+// data/oxidation_states.tsv
+struct OxidationStateRow {
+  int atomic_number;
+  int state;
+  bool common;
+  const char* source;
+};
+
+absl::Span<const ElementRow> ElementRows();
+absl::Span<const ConfigurationExceptionRow> ConfigurationExceptionRows();
+absl::Span<const GroundLevelDepartureRow> GroundLevelDepartureRows();
+absl::Span<const MeasuredMomentRow> MeasuredMomentRows();
+absl::Span<const OxidationStateRow> OxidationStateRows();
+
+}  // namespace shellwright::internal
+
+#endif  // SHELLWRIGHT_ENGINE_INTERNAL_DATA_TABLES_H_

@@ -1,0 +1,86 @@
+// Spin states of d-electron ions in a ligand (crystal) field.
+//
+// The five d orbitals split into levels whose order depends on the
+// coordination geometry. Electrons fill the levels lowest first:
+//   - high spin: one electron in every orbital, lowest level first, before
+//     any pairing (Hund's first rule across the split levels);
+//   - low spin: each level fills completely before the next one opens.
+// Levels, lowest first:
+//   octahedral     t2g (3 orbitals), eg (2)
+//   tetrahedral    e (2), t2 (3)
+//   square planar  eg (dxz, dyz), a1g (dz2), b2g (dxy), b1g (dx2-y2)
+// SpinStatePreference::kAuto picks high spin for 3d ions and low spin for
+// 4d and 5d ions in octahedral fields, high spin in tetrahedral fields,
+// and low spin in square-planar fields (common practice, no source: the
+// splitting grows down a group, tetrahedral splitting is about 4/9 of
+// octahedral, and square-planar d8 is diamagnetic).
+//
+// These are idealised one-electron pictures. Real spin states depend on
+// the ligands, and measurement decides.
+//
+// Example:
+//
+//   shellwright::SplitD(6, shellwright::Geometry::kOctahedral,
+//                       shellwright::SpinState::kLow);
+//   // levels t2g6 eg0, unpaired 0, Notation() "t2g6 eg0"
+//
+// Thread safety: pure functions.
+
+#ifndef SHELLWRIGHT_ENGINE_LIGAND_FIELD_H_
+#define SHELLWRIGHT_ENGINE_LIGAND_FIELD_H_
+
+#include <string>
+#include "absl/strings/string_view.h"
+#include <vector>
+
+#include "absl/status/statusor.h"
+
+namespace shellwright {
+
+enum class Geometry { kFree, kOctahedral, kTetrahedral, kSquarePlanar };
+enum class SpinStatePreference { kAuto, kHigh, kLow };
+enum class SpinState { kHigh, kLow };
+
+// "free", "octahedral", "tetrahedral", "square_planar".
+absl::string_view GeometryName(Geometry g);
+// "auto", "high", "low".
+absl::string_view SpinStatePreferenceName(SpinStatePreference s);
+// "high", "low".
+absl::string_view SpinStateName(SpinState s);
+
+// Parse the names above (also "square-planar"); INVALID_ARGUMENT otherwise.
+absl::StatusOr<Geometry> ParseGeometry(absl::string_view text);
+absl::StatusOr<SpinStatePreference> ParseSpinStatePreference(
+    absl::string_view text);
+
+// One split level of the d subshell.
+struct SplitLevel {
+  absl::string_view name;  // "t2g", "eg", ...
+  int orbitals;           // Spatial orbitals in the level.
+  int electrons;          // 0..2*orbitals.
+  int unpaired;
+};
+
+struct LigandFieldSplitting {
+  Geometry geometry = Geometry::kFree;
+  SpinState spin_state = SpinState::kHigh;
+  std::vector<SplitLevel> levels;  // Lowest level first.
+  int unpaired = 0;
+
+  // "t2g6 eg0".
+  std::string Notation() const;
+};
+
+// The spin state that kAuto resolves to for a d subshell of principal
+// quantum number `n` (3 for 3d) in `geometry`.
+SpinState ResolveSpinState(Geometry geometry, SpinStatePreference preference,
+                           int n);
+
+// Distributes `d_electrons` (0..10) over the levels of `geometry`.
+// REQUIRES: geometry != kFree, 0 <= d_electrons <= 10.
+LigandFieldSplitting SplitD(int d_electrons, Geometry geometry,
+                            SpinState spin_state);
+
+}  // namespace shellwright
+
+#endif  // SHELLWRIGHT_ENGINE_LIGAND_FIELD_H_

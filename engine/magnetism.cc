@@ -1,0 +1,42 @@
+#include "engine/magnetism.h"
+
+#include <cmath>
+
+#include "engine/internal/data_tables.h"
+
+namespace shellwright {
+
+double SpinOnlyMoment(int unpaired_electrons) {
+  const double n = unpaired_electrons;
+  return std::sqrt(n * (n + 2.0));
+}
+
+double LandeG(const TermSymbol& term) {
+  if (term.two_j == 0) return 0.0;
+  const double s = term.two_s / 2.0;
+  const double l = term.l;
+  const double j = term.two_j / 2.0;
+  return 1.5 + (s * (s + 1.0) - l * (l + 1.0)) / (2.0 * j * (j + 1.0));
+}
+
+double JMoment(const TermSymbol& term) {
+  const double j = term.two_j / 2.0;
+  return LandeG(term) * std::sqrt(j * (j + 1.0));
+}
+
+double SaturationMoment(const TermSymbol& term) {
+  return LandeG(term) * term.two_j / 2.0;
+}
+
+std::optional<MeasuredMoment> FindMeasuredMoment(int z, int charge) {
+  for (const internal::MeasuredMomentRow& row :
+       internal::MeasuredMomentRows()) {
+    if (row.atomic_number == z && row.charge == charge &&
+        row.has_measured_moment) {
+      return MeasuredMoment{row.measured_moment, row.source};
+    }
+  }
+  return std::nullopt;
+}
+
+}  // namespace shellwright

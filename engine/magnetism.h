@@ -1,0 +1,52 @@
+// Magnetic moments of free ions and of ions in a ligand field, in Bohr
+// magnetons (μB).
+//
+//   spin-only moment   μ_so  = √(n(n+2))        n unpaired electrons
+//   Landé g-factor     g_J   = 3/2 + [S(S+1) − L(L+1)] / [2J(J+1)]
+//                              (electron g-factor taken as 2)
+//   J moment           μ_J   = g_J √(J(J+1))
+//   saturation moment  μ_sat = g_J J
+//   spin moment        μ_S   = 2S
+// For J = 0 the g-factor is undefined; it is reported as 0, and so are the
+// J and saturation moments, because a J = 0 level carries no moment.
+//
+// These are idealised free-ion or crystal-field estimates. Orbital
+// quenching, spin-orbit mixing, covalency and exchange all move real
+// moments; verify against measurement before relying on them.
+//
+// Example:
+//
+//   shellwright::SpinOnlyMoment(5);  // 5.916
+//   auto gd = shellwright::TermSymbol::Parse("8So7/2");
+//   shellwright::LandeG(*gd);        // 2.0
+//   shellwright::JMoment(*gd);       // 7.937
+//
+// Thread safety: pure functions.
+
+#ifndef SHELLWRIGHT_ENGINE_MAGNETISM_H_
+#define SHELLWRIGHT_ENGINE_MAGNETISM_H_
+
+#include <optional>
+#include "absl/strings/string_view.h"
+
+#include "engine/term_symbol.h"
+
+namespace shellwright {
+
+double SpinOnlyMoment(int unpaired_electrons);
+double LandeG(const TermSymbol& term);
+double JMoment(const TermSymbol& term);
+double SaturationMoment(const TermSymbol& term);
+
+// A measured effective moment from data/measured_moments.tsv.
+struct MeasuredMoment {
+  double moment;  // μB.
+  absl::string_view source;
+};
+
+// The measured effective moment of the ion (`z`, `charge`), if tabulated.
+std::optional<MeasuredMoment> FindMeasuredMoment(int z, int charge);
+
+}  // namespace shellwright
+
+#endif  // SHELLWRIGHT_ENGINE_MAGNETISM_H_

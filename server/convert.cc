@@ -1,0 +1,234 @@
+#include "server/convert.h"
+
+#include <string>
+
+#include "absl/strings/str_cat.h"
+#include "engine/aufbau.h"
+#include "engine/configuration.h"
+
+namespace shellwright {
+namespace {
+
+absl::Status FieldError(absl::string_view field, const absl::Status& status) {
+  return absl::Status(status.code(),
+                      absl::StrCat(field, ": ", status.message()));
+}
+
+absl::StatusOr<Geometry> GeometryFromProto(v1::Geometry g) {
+  switch (g) {
+    case v1::GEOMETRY_UNSPECIFIED:
+    case v1::GEOMETRY_FREE:
+      return Geometry::kFree;
+    case v1::GEOMETRY_OCTAHEDRAL:
+      return Geometry::kOctahedral;
+    case v1::GEOMETRY_TETRAHEDRAL:
+      return Geometry::kTetrahedral;
+    case v1::GEOMETRY_SQUARE_PLANAR:
+      return Geometry::kSquarePlanar;
+    default:
+      break;
+  }
+  return absl::InvalidArgumentError(
+      absl::StrCat("geometry: unknown value ", static_cast<int>(g)));
+}
+
+absl::StatusOr<SpinStatePreference> SpinFromProto(v1::SpinStatePreference s) {
+  switch (s) {
+    case v1::SPIN_STATE_PREFERENCE_UNSPECIFIED:
+    case v1::SPIN_STATE_AUTO:
+      return SpinStatePreference::kAuto;
+    case v1::SPIN_STATE_HIGH:
+      return SpinStatePreference::kHigh;
+    case v1::SPIN_STATE_LOW:
+      return SpinStatePreference::kLow;
+    default:
+      break;
+  }
+  return absl::InvalidArgumentError(
+      absl::StrCat("spin_state: unknown value ", static_cast<int>(s)));
+}
+
+std::string TermParity(const TermSymbol& t) {
+  return t.parity == Parity::kOdd ? "odd" : "even";
+}
+
+}  // namespace
+
+absl::StatusOr<AtomQuery> AtomQueryFromProto(
+    const v1::DescribeAtomRequest& request) {
+  std::optional<int> charge;
+  if (request.has_charge()) charge = request.charge();
+  AtomQuery query;
+  switch (request.species_case()) {
+    case v1::DescribeAtomRequest::kSpec: {
+      absl::StatusOr<AtomQuery> q = ParseAtomQuery(request.spec(), charge);
+      if (!q.ok()) return FieldError("spec", q.status());
+      query = *q;
+      break;
+    }
+    case v1::DescribeAtomRequest::kAtomicNumber: {
+      absl::StatusOr<const Element*> e =
+          ElementByAtomicNumber(request.atomic_number());
+      if (!e.ok()) return FieldError("atomic_number", e.status());
+      query.element = *e;
+      query.charge = charge.value_or(0);
+      break;
+    }
+    default:
+      return absl::InvalidArgumentError(
+          "spec: give a species spec or an atomic_number");
+  }
+  absl::StatusOr<Geometry> geometry = GeometryFromProto(request.geometry());
+  if (!geometry.ok()) return geometry.status();
+  query.geometry = *geometry;
+  absl::StatusOr<SpinStatePreference> spin =
+      SpinFromProto(request.spin_state());
+  if (!spin.ok()) return spin.status();
+  query.spin_state = *spin;
+  if (!request.configuration().empty()) {
+    absl::StatusOr<Configuration> c =
+        Configuration::Parse(request.configuration());
+    if (!c.ok()) return FieldError("configuration", c.status());
+    query.configuration = *c;
+  }
+  return query;
+}
+
+void AtomDescriptionToProto(const AtomDescription& d,
+                            v1::AtomDescription* out) {
+  out->Clear();
+  const Element& e = *d.element;
+  out->set_symbol(std::string(e.symbol));
+  out->set_name(std::string(e.name));
+  out->set_atomic_number(e.atomic_number);
+  out->set_charge(d.charge);
+  out->set_electrons(d.electrons);
+  out->set_configuration(d.configuration_notation);
+  out->set_full_configuration(d.full_notation);
+  out->set_filling_order_configuration(d.filling_order_notation);
+  for (const SubshellOccupancy& s : d.subshells) {
+    v1::Subshell* p = out->add_subshells();
+    p->set_n(s.subshell.n);
+    p->set_l(std::string(1, s.subshell.Letter()));
+    p->set_electrons(s.electrons);
+    p->set_capacity(s.capacity);
+    p->set_unpaired_electrons(s.unpaired);
+  }
+  out->set_unpaired_electrons(d.unpaired_electrons);
+  out->set_valence_electrons(d.valence_electrons);
+  out->set_block(std::string(1, BlockLetter(e.block)));
+  out->set_period(e.period);
+  out->set_group(e.group);
+  out->set_configuration_user_supplied(d.configuration_user_supplied);
+  out->set_madelung_exception(d.madelung_exception);
+  out->set_configuration_source(
+      d.configuration_user_supplied ? "user supplied"
+      : d.madelung_exception        ? d.madelung_exception_source
+                                    : "Madelung filling");
+
+  out->set_term_symbol(d.term.ToAscii());
+  out->set_term_symbol_unicode(d.term.ToUnicode());
+  out->set_spin_multiplicity(d.term.Multiplicity());
+  out->set_total_spin(d.term.two_s / 2.0);
+  out->set_orbital_angular_momentum(d.term.l);
+  out->set_total_angular_momentum(d.term.two_j / 2.0);
+  out->set_parity(TermParity(d.term));
+  out->set_hund_term_symbol(d.hund_term.value_or(d.term).ToAscii());
+  out->set_term_source(d.term_source);
+
+  if (d.ligand_field.has_value()) {
+    const LigandFieldSplitting& s = d.ligand_field->splitting;
+    out->set_geometry(std::string(GeometryName(s.geometry)));
+    out->set_spin_state(std::string(SpinStateName(s.spin_state)));
+    v1::LigandField* lf = out->mutable_ligand_field();
+    lf->set_subshell(d.ligand_field->subshell.ToString());
+    lf->set_geometry(std::string(GeometryName(s.geometry)));
+    lf->set_spin_state(std::string(SpinStateName(s.spin_state)));
+    lf->set_occupancy(s.Notation());
+    for (const SplitLevel& level : s.levels) {
+      v1::SplitLevel* p = lf->add_levels();
+      p->set_name(std::string(level.name));
+      p->set_orbitals(level.orbitals);
+      p->set_electrons(level.electrons);
+      p->set_unpaired_electrons(level.unpaired);
+    }
+    lf->set_unpaired_electrons(s.unpaired);
+  } else {
+    out->set_geometry("free");
+  }
+
+  const Moments& m = d.moments;
+  out->set_spin_only_moment(m.spin_only);
+  out->set_lande_g(m.lande_g);
+  out->set_j_moment(m.j_moment);
+  out->set_saturation_moment(m.saturation);
+  out->set_spin_moment(m.spin_moment);
+  out->set_recommended_moment(m.recommended);
+  out->set_recommended_moment_basis(
+      m.recommended_basis == MomentBasis::kJ ? "j_moment" : "spin_only");
+  if (m.measured.has_value()) {
+    out->set_measured_moment(*m.measured);
+    out->set_measured_moment_source(std::string(m.measured_source));
+  }
+  for (const std::string& note : d.notes) out->add_notes(note);
+}
+
+void ElementToProto(const Element& e, v1::Element* out) {
+  out->Clear();
+  out->set_atomic_number(e.atomic_number);
+  out->set_symbol(std::string(e.symbol));
+  out->set_name(std::string(e.name));
+  out->set_period(e.period);
+  out->set_group(e.group);
+  out->set_block(std::string(1, BlockLetter(e.block)));
+  out->set_standard_atomic_weight(e.standard_atomic_weight);
+  out->set_atomic_weight_is_mass_number(e.atomic_weight_is_mass_number);
+  if (e.pauling_electronegativity.has_value()) {
+    out->set_pauling_electronegativity(*e.pauling_electronegativity);
+  }
+  AtomQuery q;
+  q.element = &e;
+  absl::StatusOr<AtomDescriptionPtr> d = DescribeAtom(q);
+  if (d.ok()) out->set_ground_configuration((*d)->configuration_notation);
+}
+
+absl::Status DescribeAtomMessage(const v1::DescribeAtomRequest& request,
+                                 v1::AtomDescription* out) {
+  absl::StatusOr<AtomQuery> query = AtomQueryFromProto(request);
+  if (!query.ok()) return query.status();
+  absl::StatusOr<AtomDescriptionPtr> d = DescribeAtom(*query);
+  if (!d.ok()) {
+    const char* field = query->configuration.has_value() ? "configuration"
+                        : request.has_charge()           ? "charge"
+                                                         : "spec";
+    return FieldError(field, d.status());
+  }
+  AtomDescriptionToProto(**d, out);
+  return absl::OkStatus();
+}
+
+absl::Status DescribeAtomsMessage(const v1::DescribeAtomsRequest& request,
+                                  v1::DescribeAtomsResponse* out) {
+  out->Clear();
+  if (request.requests_size() > kMaxDescribeAtomsBatch) {
+    return absl::InvalidArgumentError(absl::StrCat(
+        "requests: ", request.requests_size(), " items, above the limit of ",
+        kMaxDescribeAtomsBatch, " per call"));
+  }
+  for (const v1::DescribeAtomRequest& item : request.requests()) {
+    v1::DescribeAtomResult* result = out->add_results();
+    absl::Status s = DescribeAtomMessage(item, result->mutable_description());
+    if (!s.ok()) {
+      result->mutable_error()->set_code(static_cast<int>(s.code()));
+      result->mutable_error()->set_message(std::string(s.message()));
+    }
+  }
+  return absl::OkStatus();
+}
+
+void ListElementsMessage(v1::ListElementsResponse* out) {
+  out->Clear();
+  for (const Element& e : AllElements()) ElementToProto(e, out->add_elements());
+}
+
+}  // namespace shellwright
