@@ -1,0 +1,120 @@
+// Tests that data/tablegen rejects malformed tables with a message naming
+// file, line and problem, and accepts the real tables.
+
+#include <cstdio>
+#include <fstream>
+#include <map>
+#include <string>
+
+#include "gmock/gmock.h"
+#include "gtest/gtest.h"
+#include "tests/testing/subprocess.h"
+
+namespace shellwright {
+namespace {
+
+using ::shellwright::testing::BinPath;
+using ::shellwright::testing::CommandResult;
+using ::shellwright::testing::RunCommand;
+using ::shellwright::testing::SourcePath;
+using ::testing::HasSubstr;
+
+std::string ReadFile(const std::string& path) {
+  std::ifstream in(path);
+  return std::string(std::istreambuf_iterator<char>(in), {});
+}
+
+std::string TempDir() {
+  const char* t = std::getenv("TEST_TMPDIR");
+  std::string base = t ? t : "/tmp";
+  char tmpl[256];
+  std::snprintf(tmpl, sizeof(tmpl), "%s/tablegenXXXXXX", base.c_str());
+  return mkdtemp(tmpl);
+}
+
+// Runs tablegen with the real tables, replacing `table` by `contents`.
+CommandResult RunWith(const std::string& table, const std::string& contents) {
+  const std::string dir = TempDir();
+  std::map<std::string, std::string> paths;
+  for (const char* name :
+       {"elements", "configuration_exceptions", "ground_level_departures",
+        "measured_moments", "oxidation_states"}) {
+    paths[name] = SourcePath(std::string("data/") + name + ".tsv");
+  }
+  if (!table.empty()) {
+    paths[table] = dir + "/" + table + ".tsv";
+    std::ofstream(paths[table]) << contents;
+  }
+  return RunCommand({BinPath("data/shellwright_tablegen"),
+                     "--elements=" + paths["elements"],
+                     "--exceptions=" + paths["configuration_exceptions"],
+                     "--departures=" + paths["ground_level_departures"],
+                     "--moments=" + paths["measured_moments"],
+                     "--oxidation=" + paths["oxidation_states"],
+                     "--out=" + dir + "/out.cc"});
+}
+
+std::string RealTable(const std::string& name) {
+  return ReadFile(SourcePath("data/" + name + ".tsv"));
+}
+
+TEST(Tablegen, AcceptsTheRealTables) {
+  CommandResult r = RunWith("", "");
+  EXPECT_EQ(r.exit_code, 0) << r.err;
+}
+
+TEST(Tablegen, WrongColumnCountNamesFileAndLine) {
+  std::string t = RealTable("configuration_exceptions");
+  t += "24\tCr\n";
+  CommandResult r = RunWith("configuration_exceptions", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("configuration_exceptions.tsv:"));
+  EXPECT_THAT(r.err, HasSubstr("expected 4 tab-separated fields"));
+}
+
+TEST(Tablegen, OverCapacityConfigurationIsRejected) {
+  std::string t = RealTable("configuration_exceptions");
+  t += "26\tFe\t[Ar] 3d11 4s2\tinvented for this test\n";
+  CommandResult r = RunWith("configuration_exceptions", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("Pauli capacity"));
+}
+
+TEST(Tablegen, ElectronCountMustEqualZ) {
+  std::string t = RealTable("configuration_exceptions");
+  t += "26\tFe\t[Ar] 3d7 4s2\tinvented for this test\n";
+  CommandResult r = RunWith("configuration_exceptions", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("holds 27 electrons, but Z is 26"));
+}
+
+TEST(Tablegen, BadNumberInElementsTable) {
+  std::string t = RealTable("elements");
+  const size_t pos = t.find("55.845");
+  ASSERT_NE(pos, std::string::npos);
+  t.replace(pos, 6, "heavy");
+  CommandResult r = RunWith("elements", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("elements.tsv:"));
+  EXPECT_THAT(r.err, HasSubstr("standard_atomic_weight"));
+}
+
+TEST(Tablegen, UnknownSymbolInOxidationTable) {
+  std::string t = RealTable("oxidation_states");
+  t += "Xq\t2\tyes\tinvented for this test\n";
+  CommandResult r = RunWith("oxidation_states", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("unknown element symbol 'Xq'"));
+}
+
+TEST(Tablegen, MalformedTermSymbol) {
+  std::string t = RealTable("ground_level_departures");
+  t += "26\tFe\t5Q9\t5D4\tinvented for this test\n";
+  CommandResult r = RunWith("ground_level_departures", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("ground_level_departures.tsv:"));
+  EXPECT_THAT(r.err, HasSubstr("term symbol"));
+}
+
+}  // namespace
+}  // namespace shellwright
