@@ -4,26 +4,62 @@
 
 namespace shellwright::internal {
 
+namespace {
+
+// Length of the valid UTF-8 sequence starting at text[i], or 0.
+size_t Utf8SequenceLength(absl::string_view text, size_t i) {
+  const unsigned char c = static_cast<unsigned char>(text[i]);
+  size_t len = 0;
+  if (c >= 0xC2 && c <= 0xDF) {
+    len = 2;
+  } else if (c >= 0xE0 && c <= 0xEF) {
+    len = 3;
+  } else if (c >= 0xF0 && c <= 0xF4) {
+    len = 4;
+  } else {
+    return 0;
+  }
+  if (i + len > text.size()) return 0;
+  for (size_t k = 1; k < len; ++k) {
+    const unsigned char cc = static_cast<unsigned char>(text[i + k]);
+    if ((cc & 0xC0) != 0x80) return 0;
+  }
+  const unsigned char c1 = static_cast<unsigned char>(text[i + 1]);
+  if (c == 0xE0 && c1 < 0xA0) return 0;  // Overlong.
+  if (c == 0xED && c1 >= 0xA0) return 0;  // Surrogate.
+  if (c == 0xF0 && c1 < 0x90) return 0;  // Overlong.
+  if (c == 0xF4 && c1 >= 0x90) return 0;  // Above U+10FFFF.
+  return len;
+}
+
+}  // namespace
+
 std::string QuoteForMessage(absl::string_view text, size_t max_chars) {
   std::string out = "'";
   size_t shown = 0;
-  for (unsigned char c : text) {
+  size_t i = 0;
+  while (i < text.size()) {
     if (shown == max_chars) {
       out += "...";
       break;
     }
+    const unsigned char c = static_cast<unsigned char>(text[i]);
     if (c >= 0x20 && c < 0x7f && c != '\'') {
       out.push_back(static_cast<char>(c));
+      ++i;
     } else if (c == '\'') {
       out += "\\'";
-    } else if (c >= 0x80) {
-      // Keep UTF-8 sequences readable: pass through bytes of multi-byte
-      // characters, which are common in formulas (·, ₂, ²).
-      out.push_back(static_cast<char>(c));
+      ++i;
+    } else if (size_t len = c >= 0x80 ? Utf8SequenceLength(text, i) : 0;
+               len > 0) {
+      // Valid UTF-8 (·, ₂, ²) stays readable.
+      out.append(text.data() + i, len);
+      i += len;
     } else {
       char buf[8];
       std::snprintf(buf, sizeof(buf), "\\x%02x", c);
       out += buf;
+      ++i;
     }
     ++shown;
   }

@@ -12,7 +12,7 @@
 
 namespace shellwright::internal {
 
-// Single-quoted, with control and non-ASCII bytes escaped as \xNN and the
+// Single-quoted, with control bytes and invalid UTF-8 escaped as \xNN and the
 // text cut to `max_chars` characters (with "..." appended) so that hostile
 // input cannot flood an error message.
 std::string QuoteForMessage(absl::string_view text, size_t max_chars = 64);
