@@ -1,0 +1,375 @@
+#include "engine/formula.h"
+
+#include <array>
+#include <utility>
+
+#include "absl/strings/str_cat.h"
+#include "engine/internal/text.h"
+
+namespace shellwright {
+namespace {
+
+using internal::QuoteForMessage;
+
+// Amounts beyond this (numerator or denominator) are rejected so that the
+// exact arithmetic downstream can never overflow.
+constexpr int64_t kMaxExactMagnitude = 1000000000000;  // 1e12
+
+using Items = std::vector<std::pair<const Element*, Rational>>;
+
+bool CheckedMultiply(const Rational& a, const Rational& b, Rational* out) {
+  const __int128 num = static_cast<__int128>(a.num()) * b.num();
+  const __int128 den = static_cast<__int128>(a.den()) * b.den();
+  // Reduce before range-checking: 0.5 * 2 is fine however large the parts.
+  __int128 x = num < 0 ? -num : num, y = den;
+  while (y != 0) {
+    __int128 t = x % y;
+    x = y;
+    y = t;
+  }
+  const __int128 g = x == 0 ? 1 : x;
+  const __int128 rn = num / g, rd = den / g;
+  if (rn > kMaxExactMagnitude || rd > kMaxExactMagnitude) return false;
+  *out = Rational(static_cast<int64_t>(rn), static_cast<int64_t>(rd));
+  return true;
+}
+
+class FormulaParser {
+ public:
+  explicit FormulaParser(absl::string_view text) : text_(text) {}
+
+  absl::StatusOr<Formula> Parse(FormulaIssue* error) {
+    Formula formula;
+    std::array<int, kMaxAtomicNumber + 1> slot;
+    slot.fill(-1);
+    bool first_part = true;
+    while (true) {
+      const size_t part_start = pos_;
+      Rational multiplier(1);
+      if (pos_ < text_.size() && IsAsciiDigit(text_[pos_])) {
+        bool decimal = false;
+        if (!ParseCount(&multiplier, &decimal, /*warn_hydrate=*/false)) {
+          return Failed(error);
+        }
+      }
+      Items items;
+      if (!ParseSequence(0, '\0', &items)) return Failed(error);
+      if (items.empty()) {
+        if (text_.empty()) {
+          Fail("empty_formula", 0, "formula is empty");
+          issue_.column = 0;
+        } else {
+          Fail("malformed_formula", pos_,
+               absl::StrCat("expected an element symbol at column ",
+                            Column(pos_), Near(pos_)));
+        }
+        return Failed(error);
+      }
+      for (auto& [element, count] : items) {
+        Rational total;
+        if (!CheckedMultiply(count, multiplier, &total)) {
+          Fail("count_too_large", part_start, "stoichiometry is too large");
+          return Failed(error);
+        }
+        int& s = slot[element->atomic_number];
+        if (s < 0) {
+          s = static_cast<int>(formula.amounts.size());
+          formula.amounts.push_back({element, total});
+        } else {
+          formula.amounts[s].count = formula.amounts[s].count + total;
+          if (formula.amounts[s].count.num() > kMaxExactMagnitude ||
+              formula.amounts[s].count.den() > kMaxExactMagnitude) {
+            Fail("count_too_large", part_start, "stoichiometry is too large");
+            return Failed(error);
+          }
+        }
+      }
+      first_part = false;
+      if (pos_ == text_.size()) break;
+      if (size_t len = SeparatorLength(pos_); len > 0) {
+        pos_ += len;
+        if (pos_ == text_.size()) {
+          Fail("malformed_formula", pos_ - len,
+               absl::StrCat("nothing follows the separator at column ",
+                            Column(pos_ - len)));
+          return Failed(error);
+        }
+        continue;
+      }
+      const char c = text_[pos_];
+      if (c == ')' || c == ']') {
+        Fail("malformed_formula", pos_,
+             absl::StrCat("unmatched '", std::string(1, c), "' at column ",
+                          Column(pos_)));
+      } else {
+        Fail("malformed_formula", pos_, UnexpectedMessage(pos_));
+      }
+      return Failed(error);
+    }
+    formula.warnings = std::move(warnings_);
+    return formula;
+  }
+
+ private:
+  static bool IsAsciiDigit(char c) { return c >= '0' && c <= '9'; }
+  static bool IsUpper(char c) { return c >= 'A' && c <= 'Z'; }
+  static bool IsLower(char c) { return c >= 'a' && c <= 'z'; }
+
+  // 1-based column in characters (UTF-8 continuation bytes do not count).
+  int Column(size_t byte_pos) const {
+    int column = 1;
+    for (size_t i = 0; i < byte_pos && i < text_.size(); ++i) {
+      if ((static_cast<unsigned char>(text_[i]) & 0xC0) != 0x80) ++column;
+    }
+    return column;
+  }
+
+  std::string Near(size_t byte_pos) const {
+    if (byte_pos >= text_.size()) return " (end of formula)";
+    return absl::StrCat(" near ", QuoteForMessage(text_.substr(byte_pos), 12));
+  }
+
+  std::string UnexpectedMessage(size_t byte_pos) const {
+    const unsigned char c = static_cast<unsigned char>(text_[byte_pos]);
+    if (c == ' ' || c == '\t') {
+      return absl::StrCat("unexpected space at column ", Column(byte_pos));
+    }
+    // Show the whole UTF-8 character.
+    size_t len = 1;
+    while (byte_pos + len < text_.size() &&
+           (static_cast<unsigned char>(text_[byte_pos + len]) & 0xC0) == 0x80) {
+      ++len;
+    }
+    return absl::StrCat("unexpected character ",
+                        QuoteForMessage(text_.substr(byte_pos, len)),
+                        " at column ", Column(byte_pos));
+  }
+
+  void Fail(absl::string_view code, size_t byte_pos, std::string message) {
+    issue_.code = std::string(code);
+    issue_.column = Column(byte_pos);
+    issue_.message = std::move(message);
+  }
+
+  absl::Status Failed(FormulaIssue* error) {
+    if (error != nullptr) *error = issue_;
+    return absl::InvalidArgumentError(
+        absl::StrCat("formula ", QuoteForMessage(text_), ": ", issue_.message));
+  }
+
+  size_t SeparatorLength(size_t p) const {
+    const absl::string_view rest = text_.substr(p);
+    if (!rest.empty() && rest[0] == '*') return 1;
+    if (rest.size() >= 2 && static_cast<unsigned char>(rest[0]) == 0xC2 &&
+        static_cast<unsigned char>(rest[1]) == 0xB7) {
+      return 2;  // U+00B7 middle dot.
+    }
+    if (rest.size() >= 3 && static_cast<unsigned char>(rest[0]) == 0xE2) {
+      const unsigned char b1 = rest[1], b2 = rest[2];
+      if (b1 == 0x80 && b2 == 0xA2) return 3;  // U+2022 bullet.
+      if (b1 == 0x88 && b2 == 0x99) return 3;  // U+2219 bullet operator.
+      if (b1 == 0x8B && b2 == 0x85) return 3;  // U+22C5 dot operator.
+    }
+    return 0;
+  }
+
+  // Parses a count at pos_ (ASCII integer or decimal, or subscript digits).
+  // Returns false on error. Leaves `count` untouched if there is none.
+  // `warn_hydrate` is false for the leading multiplier of a part, where a
+  // separator has already been written.
+  bool ParseCount(Rational* count, bool* decimal, bool warn_hydrate = true) {
+    const size_t start = pos_;
+    int64_t integer = 0;
+    int digits = 0;
+    bool subscript = false;
+    while (pos_ < text_.size()) {
+      int value = 0;
+      const size_t used = internal::DecodeDigit(
+          text_.substr(pos_), internal::DigitForms::kAsciiOrSubscript, &value);
+      if (used == 0) break;
+      if (used > 1) subscript = true;
+      if (integer <= kMaxFormulaCount) integer = integer * 10 + value;
+      ++digits;
+      pos_ += used;
+    }
+    if (digits == 0) return true;
+    int64_t frac_num = 0, frac_den = 1;
+    int decimals = 0;
+    if (!subscript && pos_ < text_.size() && text_[pos_] == '.' &&
+        pos_ + 1 < text_.size() && IsAsciiDigit(text_[pos_ + 1])) {
+      const size_t dot = pos_;
+      ++pos_;
+      while (pos_ < text_.size() && IsAsciiDigit(text_[pos_])) {
+        if (decimals < kMaxCountDecimals) {
+          frac_num = frac_num * 10 + (text_[pos_] - '0');
+          frac_den *= 10;
+        }
+        ++decimals;
+        ++pos_;
+      }
+      if (decimals > kMaxCountDecimals) {
+        Fail("count_too_large", start,
+             absl::StrCat("count at column ", Column(start), " has more than ",
+                          kMaxCountDecimals, " decimals"));
+        return false;
+      }
+      *decimal = true;
+      if (warn_hydrate && text_.substr(pos_, 3) == "H2O") {
+        warnings_.push_back(FormulaIssue{
+            "possible_hydrate_typo", Column(dot),
+            absl::StrCat("'.' at column ", Column(dot),
+                         " makes a decimal count followed by H2O; if a "
+                         "hydrate was meant, write '·' or '*' instead")});
+      }
+    }
+    if (integer > kMaxFormulaCount) {
+      Fail("count_too_large", start,
+           absl::StrCat("count at column ", Column(start), " exceeds ",
+                        kMaxFormulaCount));
+      return false;
+    }
+    *count = Rational(integer * frac_den + frac_num, frac_den);
+    if (count->IsZero()) {
+      Fail("malformed_formula", start,
+           absl::StrCat("count at column ", Column(start), " is zero"));
+      return false;
+    }
+    return true;
+  }
+
+  // Parses items until end, a separator, or a closing bracket. A closing
+  // bracket that matches `closer` is left for the caller.
+  bool ParseSequence(int depth, char closer, Items* items) {
+    while (pos_ < text_.size()) {
+      const char c = text_[pos_];
+      if (IsUpper(c)) {
+        const size_t start = pos_;
+        size_t end = pos_ + 1;
+        while (end < text_.size() && IsLower(text_[end]) && end - start < 3) {
+          ++end;
+        }
+        if (end < text_.size() && IsLower(text_[end])) {
+          while (end < text_.size() && IsLower(text_[end])) ++end;
+        }
+        const absl::string_view symbol = text_.substr(start, end - start);
+        const Element* element = FindElementBySymbol(symbol);
+        if (element == nullptr) {
+          Fail("unknown_element", start,
+               absl::StrCat("unknown element ", QuoteForMessage(symbol),
+                            " at column ", Column(start)));
+          return false;
+        }
+        pos_ = end;
+        Rational count(1);
+        bool decimal = false;
+        if (!ParseCount(&count, &decimal)) return false;
+        items->emplace_back(element, count);
+        continue;
+      }
+      if (c == '(' || c == '[') {
+        const size_t open = pos_;
+        const char want = c == '(' ? ')' : ']';
+        if (depth + 1 > kMaxFormulaDepth) {
+          Fail("nesting_too_deep", open,
+               absl::StrCat("groups nest deeper than ", kMaxFormulaDepth,
+                            " at column ", Column(open)));
+          return false;
+        }
+        ++pos_;
+        Items inner;
+        if (!ParseSequence(depth + 1, want, &inner)) return false;
+        if (pos_ >= text_.size() || text_[pos_] != want) {
+          Fail("malformed_formula", open,
+               absl::StrCat("'", std::string(1, c), "' at column ",
+                            Column(open), " is never closed"));
+          return false;
+        }
+        if (inner.empty()) {
+          Fail("malformed_formula", open,
+               absl::StrCat("empty group at column ", Column(open)));
+          return false;
+        }
+        ++pos_;
+        Rational count(1);
+        bool decimal = false;
+        if (!ParseCount(&count, &decimal)) return false;
+        for (auto& [element, n] : inner) {
+          Rational total;
+          if (!CheckedMultiply(n, count, &total)) {
+            Fail("count_too_large", open, "stoichiometry is too large");
+            return false;
+          }
+          items->emplace_back(element, total);
+        }
+        continue;
+      }
+      if (c == ')' || c == ']') {
+        if (c == closer) return true;
+        if (closer != '\0') {
+          Fail("malformed_formula", pos_,
+               absl::StrCat("'", std::string(1, c), "' at column ",
+                            Column(pos_), " does not match the open '",
+                            std::string(1, closer == ')' ? '(' : '['), "'"));
+          return false;
+        }
+        return true;  // Unmatched at top level: the caller reports it.
+      }
+      if (SeparatorLength(pos_) > 0) {
+        if (closer != '\0') {
+          Fail("malformed_formula", pos_,
+               absl::StrCat("separator at column ", Column(pos_),
+                            " inside a group"));
+          return false;
+        }
+        return true;
+      }
+      if (IsLower(c)) {
+        std::string upper(1, static_cast<char>(c - 'a' + 'A'));
+        Fail("malformed_formula", pos_,
+             absl::StrCat("lowercase '", std::string(1, c), "' at column ",
+                          Column(pos_),
+                          " does not start an element symbol (symbols start "
+                          "with a capital: did you mean '",
+                          upper, "'?)"));
+        return false;
+      }
+      if (IsAsciiDigit(c) || c == '.') {
+        Fail("malformed_formula", pos_,
+             absl::StrCat("misplaced number at column ", Column(pos_),
+                          Near(pos_)));
+        return false;
+      }
+      Fail("malformed_formula", pos_, UnexpectedMessage(pos_));
+      return false;
+    }
+    return true;
+  }
+
+  absl::string_view text_;
+  size_t pos_ = 0;
+  FormulaIssue issue_;
+  std::vector<FormulaIssue> warnings_;
+};
+
+}  // namespace
+
+Rational Formula::TotalAtoms() const {
+  Rational total(0);
+  for (const ElementAmount& a : amounts) total = total + a.count;
+  return total;
+}
+
+absl::StatusOr<Formula> ParseFormula(absl::string_view text,
+                                     FormulaIssue* error) {
+  if (text.size() > kMaxFormulaLength) {
+    FormulaIssue issue{"formula_too_long", 0,
+                       absl::StrCat("formula is ", text.size(),
+                                    " bytes long, above the limit of ",
+                                    kMaxFormulaLength)};
+    if (error != nullptr) *error = issue;
+    return absl::InvalidArgumentError(issue.message);
+  }
+  return FormulaParser(text).Parse(error);
+}
+
+}  // namespace shellwright

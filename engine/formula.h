@@ -1,0 +1,82 @@
+// Chemical formula parsing with exact stoichiometry.
+//
+// Accepted syntax:
+//   - element symbols with their standard capitalisation: Fe, O, Uuo is not;
+//   - counts after a symbol or group: integers (Fe2), decimals (La0.7) or
+//     Unicode subscript digits (Fe₂O₃);
+//   - nested groups () and [] with a count after the closing bracket:
+//     Ca3(PO4)2, K3[Fe(CN)6];
+//   - adduct or hydrate parts joined by '·' (U+00B7), '•' (U+2022) or '*',
+//     each with an optional leading multiplier: CuSO4·5H2O, NiSO4*6H2O.
+// '.' is always a decimal point. A decimal count directly followed by H2O
+// (CuSO4.5H2O) parses as written, but earns the warning
+// "possible_hydrate_typo": the author may have meant CuSO4·5H2O.
+//
+// Limits: kMaxFormulaLength bytes, nesting depth kMaxFormulaDepth, each
+// count at most kMaxFormulaCount with at most kMaxCountDecimals decimals.
+// Errors carry a code, a 1-based column (in characters) and the offending
+// text, e.g. "column 6: unmatched ')'".
+//
+// Example:
+//
+//   shellwright::FormulaIssue issue;
+//   absl::StatusOr<shellwright::Formula> f =
+//       shellwright::ParseFormula("La0.7Sr0.3MnO3", &issue);
+//   f->amounts[0].element->symbol;       // "La"
+//   f->amounts[0].count.ToString();      // "7/10"
+//   shellwright::ParseFormula("Fe2O3)", &issue);
+//   // issue.code == "malformed_formula", issue.column == 6
+//
+// Thread safety: pure functions.
+
+#ifndef SHELLWRIGHT_ENGINE_FORMULA_H_
+#define SHELLWRIGHT_ENGINE_FORMULA_H_
+
+#include <string>
+#include <vector>
+
+#include "absl/status/statusor.h"
+#include "absl/strings/string_view.h"
+#include "engine/element.h"
+#include "engine/rational.h"
+
+namespace shellwright {
+
+inline constexpr size_t kMaxFormulaLength = 1024;
+inline constexpr int kMaxFormulaDepth = 16;
+inline constexpr int64_t kMaxFormulaCount = 1000000;
+inline constexpr int kMaxCountDecimals = 6;
+
+// How much of one element a formula unit holds.
+struct ElementAmount {
+  const Element* element;
+  Rational count;  // Atoms per formula unit, > 0.
+};
+
+// A problem found while parsing: an error (returned as the status) or a
+// warning (in Formula::warnings).
+struct FormulaIssue {
+  std::string code;     // "malformed_formula", "unknown_element", ...
+  int column = 0;       // 1-based character column; 0 when not positional.
+  std::string message;  // Human-readable, names the column and the text.
+};
+
+struct Formula {
+  // One entry per element, in order of first appearance.
+  std::vector<ElementAmount> amounts;
+  std::vector<FormulaIssue> warnings;
+
+  // Total atoms per formula unit.
+  Rational TotalAtoms() const;
+};
+
+// Parses `text`. On error returns INVALID_ARGUMENT with the issue's message
+// and, when `error` is not null, fills it with the code and column. Codes:
+// "empty_formula", "formula_too_long", "malformed_formula",
+// "unknown_element", "nesting_too_deep", "count_too_large".
+absl::StatusOr<Formula> ParseFormula(absl::string_view text,
+                                     FormulaIssue* error = nullptr);
+
+}  // namespace shellwright
+
+#endif  // SHELLWRIGHT_ENGINE_FORMULA_H_

@@ -1,0 +1,545 @@
+// Tests for engine/formula.h: stoichiometry, hydrates, warnings, the error
+// catalogue and robustness against arbitrary input.
+//
+// Expected counts are worked out by hand from the formulas themselves; the
+// formulas are standard textbook compounds (common practice, no source)
+// unless a comment says otherwise.
+
+#include "engine/formula.h"
+
+#include <cstdint>
+#include <ostream>
+#include <random>
+#include <string>
+#include <utility>
+#include <vector>
+
+#include "absl/status/status.h"
+#include "absl/strings/str_cat.h"
+#include "engine/rational.h"
+#include "gmock/gmock.h"
+#include "gtest/gtest.h"
+
+namespace shellwright {
+
+// Rational has no operator<<; print it in gtest messages. Declared here,
+// outside the unnamed namespace, so that argument-dependent lookup finds it.
+void PrintTo(const Rational& r, std::ostream* os) { *os << r.ToString(); }
+void PrintTo(const FormulaIssue& issue, std::ostream* os) {
+  *os << "{" << issue.code << ", column " << issue.column << ", \""
+      << issue.message << "\"}";
+}
+
+namespace {
+
+using ::testing::ElementsAre;
+using ::testing::ElementsAreArray;
+using ::testing::HasSubstr;
+using ::testing::IsEmpty;
+using ::testing::Pair;
+
+// (symbol, count) pairs in the formula's order, for readable matchers.
+using Counts = std::vector<std::pair<std::string, Rational>>;
+
+Counts CountsOf(const Formula& f) {
+  Counts out;
+  for (const ElementAmount& a : f.amounts) {
+    out.emplace_back(a.element == nullptr ? std::string("<null>")
+                                          : std::string(a.element->symbol),
+                     a.count);
+  }
+  return out;
+}
+
+// Parses `text`; fails the current test on error.
+Formula ParseOrFail(absl::string_view text) {
+  FormulaIssue issue;
+  absl::StatusOr<Formula> f = ParseFormula(text, &issue);
+  EXPECT_TRUE(f.ok()) << text << ": " << f.status() << " (code " << issue.code
+                      << ", column " << issue.column << ")";
+  return f.ok() ? *f : Formula();
+}
+
+Counts Parse(absl::string_view text) { return CountsOf(ParseOrFail(text)); }
+
+// True when `s` is well-formed UTF-8 (no overlongs, surrogates or values
+// above U+10FFFF).
+bool IsValidUtf8(absl::string_view s) {
+  size_t i = 0;
+  while (i < s.size()) {
+    const unsigned char c = static_cast<unsigned char>(s[i]);
+    int len;
+    uint32_t cp;
+    if (c < 0x80) {
+      ++i;
+      continue;
+    } else if (c >= 0xC2 && c <= 0xDF) {
+      len = 2;
+      cp = c & 0x1F;
+    } else if (c >= 0xE0 && c <= 0xEF) {
+      len = 3;
+      cp = c & 0x0F;
+    } else if (c >= 0xF0 && c <= 0xF4) {
+      len = 4;
+      cp = c & 0x07;
+    } else {
+      return false;
+    }
+    if (i + len > s.size()) return false;
+    for (int k = 1; k < len; ++k) {
+      const unsigned char cc = static_cast<unsigned char>(s[i + k]);
+      if ((cc & 0xC0) != 0x80) return false;
+      cp = (cp << 6) | (cc & 0x3F);
+    }
+    if ((len == 3 && cp < 0x800) || (len == 4 && cp < 0x10000) ||
+        (cp >= 0xD800 && cp <= 0xDFFF) || cp > 0x10FFFF) {
+      return false;
+    }
+    i += len;
+  }
+  return true;
+}
+
+// Number of characters (code points) in valid UTF-8 text.
+int CharCount(absl::string_view s) {
+  int n = 0;
+  for (char c : s) {
+    if ((static_cast<unsigned char>(c) & 0xC0) != 0x80) ++n;
+  }
+  return n;
+}
+
+// ---------------------------------------------------------------------------
+// Simple formulas.
+
+TEST(Formula, SodiumChloride) {
+  EXPECT_THAT(Parse("NaCl"),
+              ElementsAre(Pair("Na", Rational(1)), Pair("Cl", Rational(1))));
+}
+
+TEST(Formula, IronOxideCountsInOrderOfAppearance) {
+  EXPECT_THAT(Parse("Fe2O3"),
+              ElementsAre(Pair("Fe", Rational(2)), Pair("O", Rational(3))));
+  // Order follows the text, not the periodic table or the alphabet.
+  EXPECT_THAT(Parse("O3Fe2"),
+              ElementsAre(Pair("O", Rational(3)), Pair("Fe", Rational(2))));
+}
+
+TEST(Formula, LithiumIronPhosphate) {
+  EXPECT_THAT(Parse("LiFePO4"),
+              ElementsAre(Pair("Li", Rational(1)), Pair("Fe", Rational(1)),
+                          Pair("P", Rational(1)), Pair("O", Rational(4))));
+}
+
+TEST(Formula, CapitalisationSeparatesSymbols) {
+  // "Co" is cobalt; "CO" is carbon and oxygen (see element.h).
+  EXPECT_THAT(Parse("Co"), ElementsAre(Pair("Co", Rational(1))));
+  EXPECT_THAT(Parse("CO"),
+              ElementsAre(Pair("C", Rational(1)), Pair("O", Rational(1))));
+  EXPECT_THAT(Parse("NO2"),
+              ElementsAre(Pair("N", Rational(1)), Pair("O", Rational(2))));
+  EXPECT_THAT(Parse("SnS2"),
+              ElementsAre(Pair("Sn", Rational(1)), Pair("S", Rational(2))));
+}
+
+TEST(Formula, FractionalPerovskiteIsExact) {
+  // La0.7Sr0.3MnO3, a common manganite composition (common practice, no
+  // source).
+  const Formula f = ParseOrFail("La0.7Sr0.3MnO3");
+  EXPECT_THAT(
+      CountsOf(f),
+      ElementsAre(Pair("La", Rational(7, 10)), Pair("Sr", Rational(3, 10)),
+                  Pair("Mn", Rational(1)), Pair("O", Rational(3))));
+  ASSERT_FALSE(f.amounts.empty());
+  EXPECT_EQ(f.amounts[0].count.num(), 7);
+  EXPECT_EQ(f.amounts[0].count.den(), 10);
+  EXPECT_EQ(f.amounts[0].count.ToString(), "7/10");
+  EXPECT_THAT(f.warnings, IsEmpty());
+}
+
+TEST(Formula, HalfDelithiatedCobaltOxide) {
+  EXPECT_THAT(Parse("Li0.5CoO2"),
+              ElementsAre(Pair("Li", Rational(1, 2)), Pair("Co", Rational(1)),
+                          Pair("O", Rational(2))));
+}
+
+TEST(Formula, DecimalLimitsAreInclusive) {
+  // kMaxFormulaCount and kMaxCountDecimals themselves are accepted.
+  EXPECT_THAT(Parse("Fe1000000"), ElementsAre(Pair("Fe", Rational(1000000))));
+  EXPECT_THAT(Parse("Fe0.000001"),
+              ElementsAre(Pair("Fe", Rational(1, 1000000))));
+  EXPECT_THAT(Parse("Fe1.125"), ElementsAre(Pair("Fe", Rational(9, 8))));
+}
+
+TEST(Formula, UnicodeSubscriptsMatchAsciiDigits) {
+  EXPECT_THAT(Parse("Fe₂O₃"),
+              ElementsAre(Pair("Fe", Rational(2)), Pair("O", Rational(3))));
+  // Multi-digit subscripts: sucrose C12H22O11.
+  EXPECT_THAT(Parse("C₁₂H₂₂O₁₁"),
+              ElementsAre(Pair("C", Rational(12)), Pair("H", Rational(22)),
+                          Pair("O", Rational(11))));
+}
+
+TEST(Formula, NestedGroupsMultiply) {
+  // Calcium phosphate: (PO4)2 gives P 2, O 8.
+  EXPECT_THAT(Parse("Ca3(PO4)2"),
+              ElementsAre(Pair("Ca", Rational(3)), Pair("P", Rational(2)),
+                          Pair("O", Rational(8))));
+  // Potassium ferricyanide: (CN)6 inside [..] gives C 6, N 6.
+  EXPECT_THAT(Parse("K3[Fe(CN)6]"),
+              ElementsAre(Pair("K", Rational(3)), Pair("Fe", Rational(1)),
+                          Pair("C", Rational(6)), Pair("N", Rational(6))));
+  // Counts compose through several levels: ((OH)2)3 gives O 6, H 6.
+  EXPECT_THAT(Parse("Al((OH)2)3"),
+              ElementsAre(Pair("Al", Rational(1)), Pair("O", Rational(6)),
+                          Pair("H", Rational(6))));
+  // A group without a count counts once.
+  EXPECT_THAT(Parse("(NH4)Cl"),
+              ElementsAre(Pair("N", Rational(1)), Pair("H", Rational(4)),
+                          Pair("Cl", Rational(1))));
+}
+
+TEST(Formula, MohrSalt) {
+  // Ammonium iron(II) sulfate hexahydrate: N 2, H 8 + 12 = 20,
+  // Fe 1, S 2, O 8 + 6 = 14.
+  EXPECT_THAT(Parse("(NH4)2Fe(SO4)2·6H2O"),
+              ElementsAre(Pair("N", Rational(2)), Pair("H", Rational(20)),
+                          Pair("Fe", Rational(1)), Pair("S", Rational(2)),
+                          Pair("O", Rational(14))));
+}
+
+TEST(Formula, HydrateSeparators) {
+  // Copper(II) sulfate pentahydrate: O 4 + 5 = 9, H 10.
+  const Counts copper = {{"Cu", Rational(1)},
+                         {"S", Rational(1)},
+                         {"O", Rational(9)},
+                         {"H", Rational(10)}};
+  EXPECT_THAT(Parse("CuSO4·5H2O"), ElementsAreArray(copper));  // U+00B7
+  EXPECT_THAT(Parse("CuSO4•5H2O"), ElementsAreArray(copper));  // U+2022
+  EXPECT_THAT(Parse("CuSO4*5H2O"), ElementsAreArray(copper));
+  // Nickel(II) sulfate hexahydrate: O 4 + 6 = 10, H 12.
+  EXPECT_THAT(Parse("NiSO4*6H2O"),
+              ElementsAre(Pair("Ni", Rational(1)), Pair("S", Rational(1)),
+                          Pair("O", Rational(10)), Pair("H", Rational(12))));
+}
+
+TEST(Formula, LeadingMultipliersOnLaterParts) {
+  // Washing soda Na2CO3·10H2O: a multi-digit multiplier.
+  EXPECT_THAT(Parse("Na2CO3·10H2O"),
+              ElementsAre(Pair("Na", Rational(2)), Pair("C", Rational(1)),
+                          Pair("O", Rational(13)), Pair("H", Rational(20))));
+  // Plaster of Paris CaSO4·0.5H2O: a decimal multiplier, O 4 + 1/2.
+  EXPECT_THAT(Parse("CaSO4·0.5H2O"),
+              ElementsAre(Pair("Ca", Rational(1)), Pair("S", Rational(1)),
+                          Pair("O", Rational(9, 2)), Pair("H", Rational(1))));
+  // A multiplier scales a whole part, groups included.
+  EXPECT_THAT(Parse("KCl·2Mg(OH)2"),
+              ElementsAre(Pair("K", Rational(1)), Pair("Cl", Rational(1)),
+                          Pair("Mg", Rational(2)), Pair("O", Rational(4)),
+                          Pair("H", Rational(4))));
+  // Three parts; the multiplier applies only to its own part.
+  EXPECT_THAT(Parse("NaCl·2H2O·NH3"),
+              ElementsAre(Pair("Na", Rational(1)), Pair("Cl", Rational(1)),
+                          Pair("H", Rational(7)), Pair("O", Rational(2)),
+                          Pair("N", Rational(1))));
+}
+
+TEST(Formula, LeadingMultiplierOnFirstPart) {
+  // 3CdSO4·8H2O, cadmium sulfate octahydrate as usually written: Cd 3,
+  // S 3, O 12 + 8 = 20, H 16.
+  EXPECT_THAT(Parse("3CdSO4·8H2O"),
+              ElementsAre(Pair("Cd", Rational(3)), Pair("S", Rational(3)),
+                          Pair("O", Rational(20)), Pair("H", Rational(16))));
+}
+
+TEST(Formula, RepeatedElementsMerge) {
+  // Acetic acid CH3COOH: C 2, H 4, O 2, kept at first appearance.
+  EXPECT_THAT(Parse("CH3COOH"),
+              ElementsAre(Pair("C", Rational(2)), Pair("H", Rational(4)),
+                          Pair("O", Rational(2))));
+  // Merging works across groups and parts too.
+  EXPECT_THAT(Parse("Fe(OH)3·FeO"),
+              ElementsAre(Pair("Fe", Rational(2)), Pair("O", Rational(4)),
+                          Pair("H", Rational(3))));
+  // And sums fractions exactly: 0.1 + 0.2 = 3/10.
+  EXPECT_THAT(Parse("Fe0.1OFe0.2"),
+              ElementsAre(Pair("Fe", Rational(3, 10)), Pair("O", Rational(1))));
+}
+
+TEST(Formula, HighEntropyOxide) {
+  // Rock-salt (Mg,Co,Ni,Cu,Zn)O with equimolar cations (Rost et al., Nat.
+  // Commun. 6, 8485 (2015)).
+  const Formula f = ParseOrFail("(Mg0.2Co0.2Ni0.2Cu0.2Zn0.2)O");
+  EXPECT_THAT(
+      CountsOf(f),
+      ElementsAre(Pair("Mg", Rational(1, 5)), Pair("Co", Rational(1, 5)),
+                  Pair("Ni", Rational(1, 5)), Pair("Cu", Rational(1, 5)),
+                  Pair("Zn", Rational(1, 5)), Pair("O", Rational(1))));
+  EXPECT_EQ(f.TotalAtoms(), Rational(2));
+}
+
+TEST(Formula, TotalAtoms) {
+  EXPECT_EQ(ParseOrFail("Fe2O3").TotalAtoms(), Rational(5));
+  EXPECT_EQ(ParseOrFail("La0.7Sr0.3MnO3").TotalAtoms(), Rational(5));
+  EXPECT_EQ(ParseOrFail("Li0.5CoO2").TotalAtoms(), Rational(7, 2));
+  EXPECT_EQ(ParseOrFail("K3[Fe(CN)6]").TotalAtoms(), Rational(16));
+  // (NH4)2 10 + Fe 1 + (SO4)2 10 + 6H2O 18 = 39.
+  EXPECT_EQ(ParseOrFail("(NH4)2Fe(SO4)2·6H2O").TotalAtoms(), Rational(39));
+  EXPECT_EQ(Formula().TotalAtoms(), Rational(0));
+}
+
+// ---------------------------------------------------------------------------
+// Warnings.
+
+TEST(Formula, DotBeforeWaterWarnsOfHydrateTypo) {
+  const Formula f = ParseOrFail("CuSO4.5H2O");
+  // Parsed as written: O4.5 then H2O, so O 9/2 + 1 = 11/2.
+  EXPECT_THAT(CountsOf(f),
+              ElementsAre(Pair("Cu", Rational(1)), Pair("S", Rational(1)),
+                          Pair("O", Rational(11, 2)), Pair("H", Rational(2))));
+  ASSERT_EQ(f.warnings.size(), 1u);
+  EXPECT_EQ(f.warnings[0].code, "possible_hydrate_typo");
+  EXPECT_EQ(f.warnings[0].column, 6);  // The '.'.
+  EXPECT_FALSE(f.warnings[0].message.empty());
+  EXPECT_TRUE(IsValidUtf8(f.warnings[0].message));
+}
+
+TEST(Formula, OrdinaryDecimalsDoNotWarn) {
+  EXPECT_THAT(ParseOrFail("La0.7Sr0.3MnO3").warnings, IsEmpty());
+  EXPECT_THAT(ParseOrFail("Li0.5CoO2").warnings, IsEmpty());
+  // A real hydrate separator is no typo.
+  EXPECT_THAT(ParseOrFail("CuSO4·5H2O").warnings, IsEmpty());
+  EXPECT_THAT(ParseOrFail("Fe2O3").warnings, IsEmpty());
+}
+
+TEST(Formula, DecimalHydrateMultiplierDoesNotWarn) {
+  // In CaSO4·0.5H2O the author already wrote '·'; the decimal is the
+  // hydrate multiplier, so reading the '.' as a mistyped '·' makes no sense.
+  EXPECT_THAT(ParseOrFail("CaSO4·0.5H2O").warnings, IsEmpty());
+  EXPECT_THAT(ParseOrFail("CaSO4*1.5H2O").warnings, IsEmpty());
+}
+
+// ---------------------------------------------------------------------------
+// Errors.
+
+// Sentinel: the error is not tied to one column, so any is accepted.
+constexpr int kAnyColumn = -1;
+
+struct BadCase {
+  std::string text;
+  const char* code;
+  int column;
+  int alt_column = kAnyColumn;  // A second acceptable column, if any.
+};
+
+std::vector<BadCase> BadCases() {
+  std::string deep;
+  for (int i = 0; i < kMaxFormulaDepth + 1; ++i) deep += "(";
+  deep += "H";
+  for (int i = 0; i < kMaxFormulaDepth + 1; ++i) deep += ")";
+  std::string too_long;
+  while (too_long.size() < 2000) too_long += "H2O";
+  too_long.resize(2000);
+
+  return {
+      {"", "empty_formula", 0},  // Not positional: column 0 (formula.h).
+      {"Fe2O3)", "malformed_formula", 6},
+      {"Fe2O3]", "malformed_formula", 6},
+      {"Ca3(PO4", "malformed_formula", 4},  // The unclosed '('.
+      {"H2O(", "malformed_formula", 4},
+      {"K3[Fe(CN)6", "malformed_formula", 3},  // The unclosed '['.
+      {"(Fe]", "malformed_formula", 4},        // ']' cannot close '('.
+      {"[Fe)", "malformed_formula", 4},
+      {"()", "malformed_formula", 1, 2},  // Empty group.
+      {"Fe2o3", "malformed_formula", 4},
+      {"Fe2O3!", "malformed_formula", 6},
+      {"Fe2 O3", "malformed_formula", 4},
+      {"Fe-2", "malformed_formula", 3},
+      {"Fe0", "malformed_formula", 3},        // Zero count.
+      {"Fe₀", "malformed_formula", 3},        // Zero subscript.
+      {"Fe0.0", "malformed_formula", 3},      // Zero decimal count.
+      {"Fe(OH)0", "malformed_formula", 7},    // Zero group count.
+      {"Fe.5", "malformed_formula", 3},       // No digit before '.'.
+      {"·H2O", "malformed_formula", 1},       // Nothing before '·'.
+      {"CuSO4·", "malformed_formula", 6, 7},  // Nothing after '·'.
+      {"CuSO4*", "malformed_formula", 6, 7},
+      {"Fe2O3··H2O", "malformed_formula", 7},  // Empty part.
+      {"2", "malformed_formula", 1, 2},        // A multiplier alone: not empty.
+      {"2·H2O", "malformed_formula", 1, 2},
+      {"H2O·2", "malformed_formula", 5, 6},
+      {"Xx2O3", "unknown_element", 1},
+      {"Ee", "unknown_element", 1},
+      {"Uuo", "unknown_element", 1},  // Not accepted (formula.h).
+      {"NaClXx", "unknown_element", 5},
+      {"Fe1.1234567", "count_too_large", 3},  // 7 decimals.
+      {"Fe10000000", "count_too_large", 3},
+      {"Fe1000001", "count_too_large", 3},
+      {"CuSO4·10000000H2O", "count_too_large", 7},
+      {deep, "nesting_too_deep", kMaxFormulaDepth + 1},
+      {too_long, "formula_too_long", 0, kMaxFormulaLength + 1},
+      // Columns count characters, not bytes: '₂' and '₃' are 3 bytes each.
+      {"Fe₂O₃)", "malformed_formula", 6},
+      {"CuSO4·5H2O)", "malformed_formula", 11},
+      {"Fe\xff", "malformed_formula", 3},
+      {"\xc3", "malformed_formula", 1},  // Truncated UTF-8 sequence.
+  };
+}
+
+TEST(Formula, MalformedCatalogue) {
+  const std::vector<BadCase> cases = BadCases();
+  ASSERT_GE(cases.size(), 20u);
+  for (const BadCase& c : cases) {
+    SCOPED_TRACE(absl::StrCat("input \"", c.text.substr(0, 40), "\""));
+    FormulaIssue issue;
+    absl::StatusOr<Formula> f = ParseFormula(c.text, &issue);
+    ASSERT_FALSE(f.ok()) << "parsed to " << f->amounts.size() << " elements";
+    EXPECT_EQ(f.status().code(), absl::StatusCode::kInvalidArgument);
+    EXPECT_EQ(issue.code, c.code);
+    if (c.column != kAnyColumn) {
+      if (c.alt_column == kAnyColumn) {
+        EXPECT_EQ(issue.column, c.column);
+      } else {
+        EXPECT_THAT(issue.column, ::testing::AnyOf(c.column, c.alt_column));
+      }
+    }
+    EXPECT_FALSE(issue.message.empty());
+    EXPECT_TRUE(IsValidUtf8(issue.message)) << issue.message;
+    EXPECT_TRUE(IsValidUtf8(f.status().message())) << f.status().message();
+    EXPECT_THAT(std::string(f.status().message()), HasSubstr(issue.message));
+    if (issue.column > 0) {
+      EXPECT_THAT(issue.message,
+                  HasSubstr(absl::StrCat("column ", issue.column)));
+    }
+  }
+}
+
+TEST(Formula, ErrorMessageNamesColumnAndText) {
+  FormulaIssue issue;
+  absl::StatusOr<Formula> f = ParseFormula("Fe2O3)", &issue);
+  ASSERT_FALSE(f.ok());
+  EXPECT_THAT(issue.message, HasSubstr("column 6"));
+  EXPECT_THAT(issue.message, HasSubstr(")"));
+  EXPECT_THAT(f.status().message(), HasSubstr("column 6"));
+
+  ASSERT_FALSE(ParseFormula("Xx2O3", &issue).ok());
+  EXPECT_THAT(issue.message, HasSubstr("column 1"));
+  EXPECT_THAT(issue.message, HasSubstr("Xx"));
+}
+
+TEST(Formula, NestingAtTheLimitIsAccepted) {
+  std::string text;
+  for (int i = 0; i < kMaxFormulaDepth; ++i) text += "(";
+  text += "H";
+  for (int i = 0; i < kMaxFormulaDepth; ++i) text += ")";
+  EXPECT_THAT(Parse(text), ElementsAre(Pair("H", Rational(1))));
+}
+
+TEST(Formula, LengthAtTheLimitIsAccepted) {
+  // 341 copies of "H2O" plus "H" is exactly kMaxFormulaLength bytes:
+  // H 2 * 341 + 1 = 683, O 341.
+  std::string text;
+  for (int i = 0; i < 341; ++i) text += "H2O";
+  text += "H";
+  ASSERT_EQ(text.size(), kMaxFormulaLength);
+  EXPECT_THAT(Parse(text),
+              ElementsAre(Pair("H", Rational(683)), Pair("O", Rational(341))));
+  FormulaIssue issue;
+  EXPECT_FALSE(ParseFormula(text + "H", &issue).ok());
+  EXPECT_EQ(issue.code, "formula_too_long");
+}
+
+TEST(Formula, NullIssuePointerIsAllowed) {
+  absl::StatusOr<Formula> f = ParseFormula("Fe2O3)");
+  ASSERT_FALSE(f.ok());
+  EXPECT_EQ(f.status().code(), absl::StatusCode::kInvalidArgument);
+  EXPECT_TRUE(ParseFormula("Fe2O3").ok());
+}
+
+TEST(Formula, ProductOfNestedCountsDoesNotOverflow) {
+  // Each count is within kMaxFormulaCount, but the product 10^24 exceeds
+  // int64. The parser must reject it rather than return a wrapped count.
+  const std::string big = "(((H1000000)1000000)1000000)1000000";
+  FormulaIssue issue;
+  absl::StatusOr<Formula> f = ParseFormula(big, &issue);
+  EXPECT_FALSE(f.ok()) << "H = " << f->amounts[0].count.ToString();
+  if (!f.ok()) {
+    EXPECT_EQ(issue.code, "count_too_large");
+  }
+
+  // Likewise denominators: (10^-6)^4 needs 10^24 below the line.
+  const std::string tiny = "(((H0.000001)0.000001)0.000001)0.000001";
+  f = ParseFormula(tiny, &issue);
+  EXPECT_FALSE(f.ok()) << "H = " << f->amounts[0].count.ToString();
+  if (!f.ok()) {
+    EXPECT_EQ(issue.code, "count_too_large");
+  }
+}
+
+TEST(Formula, ParsedCountsNeverWrap) {
+  // Whatever the parser accepts must be exact. Summing many large counts of
+  // one element stays far below int64 only if the parser bounds it.
+  std::string text;
+  for (int i = 0; i < 50; ++i) text += "(H1000000)1000000";
+  ASSERT_LE(text.size(), kMaxFormulaLength);
+  FormulaIssue issue;
+  absl::StatusOr<Formula> f = ParseFormula(text, &issue);
+  if (f.ok()) {
+    ASSERT_EQ(f->amounts.size(), 1u);
+    // 50 * 10^12.
+    EXPECT_EQ(f->amounts[0].count, Rational(50000000000000));
+  } else {
+    EXPECT_EQ(issue.code, "count_too_large");
+  }
+}
+
+// ---------------------------------------------------------------------------
+// Robustness.
+
+TEST(Formula, RandomInputNeverCrashes) {
+  // clang-format off
+  const std::vector<std::string> alphabet = {
+      // Letters of element symbols (and "X", "x" for unknown ones).
+      "H", "C", "N", "O", "F", "e", "a", "l", "u", "o", "i", "n", "r", "s",
+      "S", "P", "K", "L", "M", "Z", "X", "x",
+      // Counts.
+      "0", "1", "2", "3", "4", "5", "6", "7", "8", "9", "₂", "₃", "₀",
+      // Structure.
+      "(", ")", "[", "]", "·", "•", "*", ".",
+      // Junk, including invalid and truncated UTF-8.
+      " ", "!", "-", "\xff", "\x80", "\xc3", "\xe2\x82",
+  };
+  // clang-format on
+  std::mt19937 rng(20240611);
+  std::uniform_int_distribution<int> length_dist(0, 40);
+  std::uniform_int_distribution<size_t> pick(0, alphabet.size() - 1);
+  int successes = 0;
+  for (int iter = 0; iter < 20000; ++iter) {
+    std::string text;
+    const int length = length_dist(rng);
+    for (int i = 0; i < length; ++i) text += alphabet[pick(rng)];
+    FormulaIssue issue;
+    absl::StatusOr<Formula> f = ParseFormula(text, &issue);
+    if (f.ok()) {
+      ++successes;
+      ASSERT_FALSE(f->amounts.empty()) << text;
+      for (const ElementAmount& a : f->amounts) {
+        ASSERT_NE(a.element, nullptr) << text;
+        ASSERT_TRUE(Rational(0) < a.count)
+            << text << ": " << a.count.ToString();
+      }
+    } else {
+      ASSERT_FALSE(issue.code.empty()) << text;
+      ASSERT_FALSE(issue.message.empty()) << text;
+      ASSERT_TRUE(IsValidUtf8(issue.message)) << text;
+      const int limit = IsValidUtf8(text) ? CharCount(text) + 1
+                                          : static_cast<int>(text.size()) + 1;
+      ASSERT_GE(issue.column, 0) << text;
+      ASSERT_LE(issue.column, limit) << text << ": " << issue.message;
+    }
+  }
+  // Sanity: the alphabet is rich enough that some inputs parse.
+  EXPECT_GT(successes, 0);
+}
+
+}  // namespace
+}  // namespace shellwright
