@@ -42,7 +42,6 @@ class FormulaParser {
     Formula formula;
     std::array<int, kMaxAtomicNumber + 1> slot;
     slot.fill(-1);
-    bool first_part = true;
     while (true) {
       const size_t part_start = pos_;
       Rational multiplier(1);
@@ -84,7 +83,6 @@ class FormulaParser {
           }
         }
       }
-      first_part = false;
       if (pos_ == text_.size()) break;
       if (size_t len = SeparatorLength(pos_); len > 0) {
         pos_ += len;

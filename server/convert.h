@@ -20,6 +20,7 @@
 #include "absl/status/status.h"
 #include "absl/status/statusor.h"
 #include "engine/atom.h"
+#include "engine/composition.h"
 #include "engine/element.h"
 #include "shellwright/v1/electron_structure.pb.h"
 
@@ -52,6 +53,23 @@ absl::Status DescribeAtomsMessage(const v1::DescribeAtomsRequest& request,
 
 // The whole element table.
 void ListElementsMessage(v1::ListElementsResponse* out);
+
+// Most alternatives a record may ask for.
+inline constexpr int kMaxAlternatives = 5;
+
+// Translates a record into engine input. Never fails: out-of-range values
+// are clamped or left for AnalyzeComposition to diagnose.
+CompositionInput CompositionInputFromProto(const v1::CompositionRecord& record);
+
+// Fills `out` (cleared first) from an engine report; `record` supplies the
+// echoed row and formula.
+void RecordReportToProto(const CompositionReport& report,
+                         const v1::CompositionRecord& record,
+                         v1::RecordReport* out);
+
+// Analyses one record: exactly one report, never an error status.
+void AnalyzeRecordToReport(const v1::CompositionRecord& record,
+                           v1::RecordReport* out);
 
 }  // namespace shellwright
 

@@ -22,6 +22,11 @@ class InProcessBackend final : public Backend {
     ListElementsMessage(response);
     return absl::OkStatus();
   }
+  absl::Status AnalyzeCompound(const v1::CompositionRecord& record,
+                               v1::RecordReport* report) override {
+    AnalyzeRecordToReport(record, report);
+    return absl::OkStatus();
+  }
 };
 
 absl::Status FromGrpc(const grpc::Status& s) {
@@ -30,32 +35,65 @@ absl::Status FromGrpc(const grpc::Status& s) {
                       s.error_message());
 }
 
+class RemoteRecordStream final : public Backend::RecordStream {
+ public:
+  RemoteRecordStream(v1::ElectronStructure::Stub* stub,
+                     std::unique_ptr<grpc::ClientContext> context)
+      : context_(std::move(context)), stream_(stub->AnalyzeRecords(context_.get())) {}
+  bool Write(const v1::RecordBatch& batch) override {
+    return stream_->Write(batch);
+  }
+  bool Read(v1::ReportBatch* batch) override { return stream_->Read(batch); }
+  bool WritesDone() override { return stream_->WritesDone(); }
+  absl::Status Finish() override { return FromGrpc(stream_->Finish()); }
+
+ private:
+  std::unique_ptr<grpc::ClientContext> context_;
+  std::unique_ptr<grpc::ClientReaderWriter<v1::RecordBatch, v1::ReportBatch>>
+      stream_;
+};
+
 class RemoteBackend final : public Backend {
  public:
   RemoteBackend(std::shared_ptr<grpc::Channel> channel, std::string token,
-                absl::Duration timeout)
+                absl::Duration timeout, absl::Duration stream_timeout)
       : stub_(v1::ElectronStructure::NewStub(std::move(channel))),
         token_(std::move(token)),
-        timeout_(timeout) {}
+        timeout_(timeout),
+        stream_timeout_(stream_timeout) {}
+
+  absl::Status AnalyzeCompound(const v1::CompositionRecord& record,
+                               v1::RecordReport* report) override {
+    grpc::ClientContext context;
+    Prepare(&context, timeout_);
+    return FromGrpc(stub_->AnalyzeCompound(&context, record, report));
+  }
+
+  std::unique_ptr<RecordStream> OpenRecordStream() override {
+    auto context = std::make_unique<grpc::ClientContext>();
+    Prepare(context.get(), stream_timeout_);
+    return std::make_unique<RemoteRecordStream>(stub_.get(),
+                                                std::move(context));
+  }
 
   absl::Status DescribeAtom(const v1::DescribeAtomRequest& request,
                             v1::AtomDescription* response) override {
     grpc::ClientContext context;
-    Prepare(&context);
+    Prepare(&context, timeout_);
     return FromGrpc(stub_->DescribeAtom(&context, request, response));
   }
 
   absl::Status ListElements(v1::ListElementsResponse* response) override {
     grpc::ClientContext context;
-    Prepare(&context);
+    Prepare(&context, timeout_);
     return FromGrpc(
         stub_->ListElements(&context, v1::ListElementsRequest(), response));
   }
 
  private:
-  void Prepare(grpc::ClientContext* context) const {
+  void Prepare(grpc::ClientContext* context, absl::Duration timeout) const {
     context->set_deadline(std::chrono::system_clock::now() +
-                          absl::ToChronoMilliseconds(timeout_));
+                          absl::ToChronoMilliseconds(timeout));
     if (!token_.empty()) {
       context->AddMetadata("authorization", absl::StrCat("Bearer ", token_));
     }
@@ -64,6 +102,7 @@ class RemoteBackend final : public Backend {
   std::unique_ptr<v1::ElectronStructure::Stub> stub_;
   const std::string token_;
   const absl::Duration timeout_;
+  const absl::Duration stream_timeout_;
 };
 
 }  // namespace
@@ -132,7 +171,8 @@ absl::StatusOr<std::unique_ptr<Backend>> MakeRemoteBackend(
   auto channel =
       grpc::CreateCustomChannel(options.address, credentials, args);
   return std::unique_ptr<Backend>(
-      new RemoteBackend(std::move(channel), std::move(token), options.timeout));
+      new RemoteBackend(std::move(channel), std::move(token), options.timeout,
+                        options.stream_timeout));
 }
 
 }  // namespace shellwright::cli

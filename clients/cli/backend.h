@@ -34,6 +34,22 @@ class Backend {
   virtual absl::Status DescribeAtom(const v1::DescribeAtomRequest& request,
                                     v1::AtomDescription* response) = 0;
   virtual absl::Status ListElements(v1::ListElementsResponse* response) = 0;
+  virtual absl::Status AnalyzeCompound(const v1::CompositionRecord& record,
+                                       v1::RecordReport* report) = 0;
+
+  // A bidirectional AnalyzeRecords stream, for remote backends; nullptr for
+  // the in-process backend, where `check` runs its own worker threads.
+  class RecordStream {
+   public:
+    virtual ~RecordStream() = default;
+    // Returns false when the stream is broken (then call Finish()).
+    virtual bool Write(const v1::RecordBatch& batch) = 0;
+    virtual bool Read(v1::ReportBatch* batch) = 0;
+    // Half-closes the sending side. Thread-safe against Read.
+    virtual bool WritesDone() = 0;
+    virtual absl::Status Finish() = 0;
+  };
+  virtual std::unique_ptr<RecordStream> OpenRecordStream() { return nullptr; }
 };
 
 std::unique_ptr<Backend> MakeInProcessBackend();
@@ -46,6 +62,8 @@ struct RemoteOptions {
   std::string tls_server_name;  // Overrides the name checked in the cert.
   std::string token_file;       // Bearer token, sent as authorization.
   absl::Duration timeout = absl::Seconds(30);  // Per-call deadline.
+  // Deadline for a whole AnalyzeRecords stream.
+  absl::Duration stream_timeout = absl::Hours(24);
 };
 
 // Connects lazily; a bad file path gives INVALID_ARGUMENT naming the file.

@@ -7,6 +7,8 @@
 // Exit codes: 0 ok; 1 invalid input (one line on stderr naming what was
 // wrong); 2 usage error, I/O error or an unreachable server.
 
+#include <unistd.h>
+
 #include <cstdlib>
 #include <iostream>
 #include <map>
@@ -20,6 +22,8 @@
 #include "absl/strings/str_cat.h"
 #include "clients/cli/atom_format.h"
 #include "clients/cli/backend.h"
+#include "clients/cli/check.h"
+#include "clients/cli/report_format.h"
 #include "shellwright/v1/electron_structure.pb.h"
 
 namespace shellwright::cli {
@@ -39,6 +43,23 @@ Commands:
       --spin-state S       auto | high | low (default auto)
       --configuration C    explicit configuration, e.g. "[Ar] 3d5 4s1"
       --json               print the shellwright.v1.AtomDescription as JSON
+  compound FORMULA validate one composition: oxidation states, ions,
+                   moments ("Fe3O4", "La0.7Sr0.3MnO3", "CuSO4·5H2O")
+      --charge N           net charge of the formula unit
+      --declared S         declared states, e.g. "Fe:3,O:-2"
+      --geometry S         per-element geometry, e.g. "Co:tetrahedral"
+      --spin-state S       per-element spin state, e.g. "Co:low"
+      --measured-moment X  measured μB per formula unit
+      --moment-tolerance X tolerance in μB (default 0.5)
+      --alternatives K     alternatives to report, 0-5 (default 2)
+      --json               print the shellwright.v1.RecordReport as JSON
+  check INPUT      validate a CSV or JSONL file of records ('-' for stdin)
+      --out OUTPUT         JSONL or CSV by extension ('-' for stdout, default)
+      --format F           input format csv|jsonl (default: by extension)
+      --out-format F       output format csv|jsonl (default: by extension)
+      --jobs N             worker threads (default: all cores)
+      --batch-size N       records per batch (default 500)
+      --no-progress        no progress bar even on a terminal
   elements         list the element table (--json for JSON)
   help             print this text
 
@@ -52,7 +73,8 @@ Global options:
   --token-file FILE        file holding a bearer token for the server
   --timeout SECONDS        per-call deadline (default 30)
 
-Exit codes: 0 ok, 1 invalid input, 2 usage or connection error.
+Exit codes: 0 ok (check: every row valid), 1 invalid input (check: some
+rows invalid), 2 usage, I/O or connection error.
 )";
 
 struct Args {
@@ -66,12 +88,14 @@ const std::set<std::string>& ValueOptions() {
   static const auto* const kOptions = new std::set<std::string>{
       "server", "tls-ca", "tls-cert", "tls-key", "tls-server-name",
       "token-file", "timeout", "charge", "geometry", "spin-state",
-      "configuration"};
+      "configuration", "declared", "measured-moment", "moment-tolerance",
+      "alternatives", "out", "format", "out-format", "jobs", "batch-size"};
   return *kOptions;
 }
 
 const std::set<std::string>& FlagOptions() {
-  static const auto* const kFlags = new std::set<std::string>{"json", "help"};
+  static const auto* const kFlags =
+      new std::set<std::string>{"json", "help", "no-progress"};
   return *kFlags;
 }
 
@@ -185,6 +209,106 @@ int RunAtom(const Args& args, Backend& backend) {
   return kExitOk;
 }
 
+int RunCompound(const Args& args, Backend& backend) {
+  if (args.positional.size() != 2) {
+    return Usage("compound takes exactly one FORMULA (e.g. Fe3O4)");
+  }
+  v1::CompositionRecord record;
+  record.set_formula(args.positional[1]);
+  auto get = [&](const char* name) -> const std::string* {
+    auto it = args.values.find(name);
+    return it == args.values.end() ? nullptr : &it->second;
+  };
+  if (const std::string* v = get("charge")) {
+    int charge = 0;
+    if (!absl::SimpleAtoi(*v, &charge)) {
+      return Usage(absl::StrCat("--charge must be an integer, got '", *v, "'"));
+    }
+    record.set_charge(charge);
+  }
+  if (const std::string* v = get("declared")) record.set_declared_states(*v);
+  if (const std::string* v = get("geometry")) record.set_geometry(*v);
+  if (const std::string* v = get("spin-state")) record.set_spin_state(*v);
+  if (const std::string* v = get("measured-moment")) {
+    double m = 0;
+    if (!absl::SimpleAtod(*v, &m)) return Usage("--measured-moment must be a number");
+    record.set_measured_moment(m);
+  }
+  if (const std::string* v = get("moment-tolerance")) {
+    double t = 0;
+    if (!absl::SimpleAtod(*v, &t)) return Usage("--moment-tolerance must be a number");
+    record.set_moment_tolerance(t);
+  }
+  if (const std::string* v = get("alternatives")) {
+    int k = 0;
+    if (!absl::SimpleAtoi(*v, &k) || k < 0 || k > 5) {
+      return Usage("--alternatives must be an integer from 0 to 5");
+    }
+    record.set_max_alternatives(k);
+  }
+  v1::RecordReport report;
+  absl::Status status = backend.AnalyzeCompound(record, &report);
+  if (!status.ok()) return Fail(status);
+  if (args.flags.count("json")) {
+    std::cout << ToJson(report, /*pretty=*/true) << "\n";
+  } else {
+    std::cout << FormatReportHuman(report);
+  }
+  if (!report.valid()) {
+    for (const v1::Diagnostic& d : report.diagnostics()) {
+      if (d.severity() == "error") {
+        std::cerr << "shellwright: invalid input: " << d.message() << "\n";
+        break;
+      }
+    }
+    return kExitInvalidInput;
+  }
+  return kExitOk;
+}
+
+int RunCheck(const Args& args, Backend* remote) {
+  if (args.positional.size() != 2) {
+    return Usage("check takes exactly one INPUT file ('-' for stdin)");
+  }
+  CheckOptions options;
+  options.input = args.positional[1];
+  auto get = [&](const char* name) -> const std::string* {
+    auto it = args.values.find(name);
+    return it == args.values.end() ? nullptr : &it->second;
+  };
+  if (const std::string* v = get("out")) options.output = *v;
+  for (auto [flag, target] :
+       {std::pair<const char*, RecordFormat*>{"format", &options.input_format},
+        {"out-format", &options.output_format}}) {
+    if (const std::string* v = get(flag)) {
+      absl::StatusOr<RecordFormat> f = ParseRecordFormat(*v);
+      if (!f.ok()) return Usage(absl::StrCat("--", flag, ": ", f.status().message()));
+      *target = *f;
+    }
+  }
+  if (const std::string* v = get("jobs")) {
+    if (!absl::SimpleAtoi(*v, &options.jobs) || options.jobs < 1 ||
+        options.jobs > 256) {
+      return Usage("--jobs must be an integer from 1 to 256");
+    }
+  }
+  if (const std::string* v = get("batch-size")) {
+    if (!absl::SimpleAtoi(*v, &options.batch_size) ||
+        options.batch_size < 1 || options.batch_size > 10000) {
+      return Usage("--batch-size must be an integer from 1 to 10000");
+    }
+  }
+  options.progress = !args.flags.count("no-progress") && isatty(2) &&
+                     std::getenv("CI") == nullptr;
+  absl::StatusOr<CheckSummary> summary = cli::RunCheck(options, remote, std::cerr);
+  if (!summary.ok()) {
+    std::cerr << "shellwright: check: " << summary.status().message() << "\n";
+    return kExitUsage;
+  }
+  std::cerr << FormatSummary(*summary);
+  return summary->invalid > 0 ? kExitInvalidInput : kExitOk;
+}
+
 int RunElements(const Args& args, Backend& backend) {
   if (args.positional.size() != 1) return Usage("elements takes no operands");
   v1::ListElementsResponse elements;
@@ -249,6 +373,11 @@ int Main(int argc, char** argv) {
   const std::string& command = args->positional[0];
   if (command == "atom") return RunAtom(*args, *backend);
   if (command == "elements") return RunElements(*args, *backend);
+  if (command == "compound") return RunCompound(*args, *backend);
+  if (command == "check") {
+    return RunCheck(*args,
+                    args->values.count("server") ? backend.get() : nullptr);
+  }
   return Usage(absl::StrCat("unknown command '", command, "'"));
 }
 

@@ -1,0 +1,432 @@
+#include "clients/cli/check.h"
+
+#include <sys/stat.h>
+#include <unistd.h>
+
+#include <atomic>
+#include <condition_variable>
+#include <deque>
+#include <fstream>
+#include <iostream>
+#include <mutex>
+#include <optional>
+#include <thread>
+#include <vector>
+
+#include "absl/strings/match.h"
+#include "absl/strings/str_cat.h"
+#include "absl/strings/str_format.h"
+#include "absl/time/clock.h"
+#include "clients/cli/record_io.h"
+#include "server/convert.h"
+
+namespace shellwright::cli {
+namespace {
+
+struct Item {
+  v1::CompositionRecord record;
+  std::string error;  // Non-empty: malformed line, answered locally.
+  v1::RecordReport report;
+};
+
+struct Batch {
+  int64_t seq = 0;
+  std::vector<Item> items;
+  std::string text;  // Formatted output lines.
+  CheckSummary summary;
+};
+
+// A blocking FIFO with a capacity, closed by the producer.
+template <typename T>
+class BoundedQueue {
+ public:
+  explicit BoundedQueue(size_t capacity) : capacity_(capacity) {}
+  BoundedQueue(const BoundedQueue&) = delete;
+  BoundedQueue& operator=(const BoundedQueue&) = delete;
+
+  // Returns false if the queue was cancelled.
+  bool Push(T value) {
+    std::unique_lock<std::mutex> lock(mu_);
+    not_full_.wait(lock,
+                   [&] { return items_.size() < capacity_ || cancelled_; });
+    if (cancelled_) return false;
+    items_.push_back(std::move(value));
+    not_empty_.notify_one();
+    return true;
+  }
+  // Returns nullopt when closed and drained, or cancelled.
+  std::optional<T> Pop() {
+    std::unique_lock<std::mutex> lock(mu_);
+    not_empty_.wait(lock,
+                    [&] { return !items_.empty() || closed_ || cancelled_; });
+    if (cancelled_ || items_.empty()) return std::nullopt;
+    T value = std::move(items_.front());
+    items_.pop_front();
+    not_full_.notify_one();
+    return value;
+  }
+  void Close() {
+    std::lock_guard<std::mutex> lock(mu_);
+    closed_ = true;
+    not_empty_.notify_all();
+  }
+  void Cancel() {
+    std::lock_guard<std::mutex> lock(mu_);
+    cancelled_ = true;
+    not_empty_.notify_all();
+    not_full_.notify_all();
+  }
+
+ private:
+  std::mutex mu_;
+  std::condition_variable not_empty_, not_full_;
+  std::deque<T> items_;
+  const size_t capacity_;
+  bool closed_ = false;
+  bool cancelled_ = false;
+};
+
+// Collects finished batches and releases them in sequence order. Producers
+// block while they are more than `window` batches ahead of the writer.
+class OrderedSink {
+ public:
+  explicit OrderedSink(int64_t window) : window_(window) {}
+  void Put(Batch batch) {
+    std::unique_lock<std::mutex> lock(mu_);
+    room_.wait(lock, [&] {
+      return batch.seq < next_ + window_ || cancelled_;
+    });
+    if (cancelled_) return;
+    const int64_t seq = batch.seq;
+    done_.emplace(seq, std::move(batch));
+    ready_.notify_all();
+  }
+  // Returns the next batch in order, or nullopt once `total` are out.
+  std::optional<Batch> Next(const std::atomic<int64_t>& total,
+                            const std::atomic<bool>& total_known) {
+    std::unique_lock<std::mutex> lock(mu_);
+    ready_.wait_for(lock, std::chrono::milliseconds(200), [&] {
+      return done_.count(next_) > 0 || cancelled_ ||
+             (total_known.load() && next_ >= total.load());
+    });
+    if (cancelled_) return std::nullopt;
+    auto it = done_.find(next_);
+    if (it == done_.end()) {
+      if (total_known.load() && next_ >= total.load()) return std::nullopt;
+      return Batch{-1, {}, {}, {}};  // Nothing yet; caller retries.
+    }
+    Batch b = std::move(it->second);
+    done_.erase(it);
+    ++next_;
+    room_.notify_all();
+    return b;
+  }
+  void Cancel() {
+    std::lock_guard<std::mutex> lock(mu_);
+    cancelled_ = true;
+    ready_.notify_all();
+    room_.notify_all();
+  }
+  void Wake() { ready_.notify_all(); }
+
+ private:
+  std::mutex mu_;
+  std::condition_variable ready_, room_;
+  std::map<int64_t, Batch> done_;
+  int64_t next_ = 0;
+  const int64_t window_;
+  bool cancelled_ = false;
+};
+
+RecordFormat FormatFromPath(const std::string& path, RecordFormat fallback) {
+  if (absl::EndsWithIgnoreCase(path, ".csv")) return RecordFormat::kCsv;
+  if (absl::EndsWithIgnoreCase(path, ".jsonl") ||
+      absl::EndsWithIgnoreCase(path, ".ndjson") ||
+      absl::EndsWithIgnoreCase(path, ".json")) {
+    return RecordFormat::kJsonl;
+  }
+  return fallback;
+}
+
+// Formats the reports of a batch and counts them.
+void Finish(RecordFormat output, Batch* b) {
+  for (Item& item : b->items) {
+    const v1::RecordReport& r = item.report;
+    b->text += output == RecordFormat::kCsv ? ReportToCsvLine(r)
+                                            : ReportToJsonLine(r);
+    b->text.push_back('\n');
+    ++b->summary.rows;
+    ++(r.valid() ? b->summary.valid : b->summary.invalid);
+    for (const v1::Diagnostic& d : r.diagnostics()) {
+      ++b->summary.by_code[d.code()];
+    }
+  }
+  b->items.clear();
+  b->items.shrink_to_fit();
+}
+
+}  // namespace
+
+absl::StatusOr<RecordFormat> ParseRecordFormat(absl::string_view text) {
+  if (text == "csv") return RecordFormat::kCsv;
+  if (text == "jsonl") return RecordFormat::kJsonl;
+  if (text == "auto") return RecordFormat::kAuto;
+  return absl::InvalidArgumentError(
+      absl::StrCat("unknown format '", text, "' (expected csv or jsonl)"));
+}
+
+std::string FormatSummary(const CheckSummary& s) {
+  std::string out = absl::StrFormat("%d rows: %d valid, %d invalid\n", s.rows,
+                                    s.valid, s.invalid);
+  for (const auto& [code, count] : s.by_code) {
+    absl::StrAppendFormat(&out, "  %-36s %d\n", code, count);
+  }
+  return out;
+}
+
+absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
+                                      Backend* remote, std::ostream& log) {
+  RecordFormat in_format = options.input_format;
+  if (in_format == RecordFormat::kAuto) {
+    in_format = FormatFromPath(options.input, RecordFormat::kAuto);
+    if (in_format == RecordFormat::kAuto) {
+      return absl::InvalidArgumentError(absl::StrCat(
+          "cannot tell the format of '", options.input,
+          "' from its name; give --format csv or --format jsonl"));
+    }
+  }
+  RecordFormat out_format = options.output_format;
+  if (out_format == RecordFormat::kAuto) {
+    out_format = FormatFromPath(options.output, RecordFormat::kJsonl);
+  }
+
+  std::ifstream in_file;
+  std::istream* in = &std::cin;
+  off_t input_size = 0;
+  if (options.input != "-") {
+    in_file.open(options.input, std::ios::binary);
+    if (!in_file) {
+      return absl::NotFoundError(
+          absl::StrCat("cannot open input '", options.input, "'"));
+    }
+    struct stat st;
+    if (stat(options.input.c_str(), &st) == 0 && S_ISREG(st.st_mode)) {
+      input_size = st.st_size;
+    }
+    in = &in_file;
+  }
+  std::ofstream out_file;
+  std::ostream* out = &std::cout;
+  if (options.output != "-") {
+    out_file.open(options.output, std::ios::binary | std::ios::trunc);
+    if (!out_file) {
+      return absl::PermissionDeniedError(
+          absl::StrCat("cannot open output '", options.output, "'"));
+    }
+    out = &out_file;
+  }
+
+  // The CSV header is read up front so that a bad header is a usage error.
+  CsvRecordReader csv;
+  int line_no = 0;
+  std::string line;
+  std::atomic<int64_t> bytes_read{0};
+  if (in_format == RecordFormat::kCsv) {
+    while (std::getline(*in, line)) {
+      ++line_no;
+      bytes_read += line.size() + 1;
+      if (!line.empty() && line.back() == '\r') line.pop_back();
+      if (!line.empty()) break;
+    }
+    if (line.empty()) {
+      return absl::InvalidArgumentError("CSV input has no header line");
+    }
+    absl::Status s = csv.ReadHeader(line);
+    if (!s.ok()) return s;
+  }
+  if (out_format == RecordFormat::kCsv) *out << ReportCsvHeader() << "\n";
+
+  const int jobs = options.jobs > 0
+                       ? options.jobs
+                       : std::max(1u, std::thread::hardware_concurrency());
+  const int batch_size = std::max(1, options.batch_size);
+  BoundedQueue<Batch> input_queue(2 * jobs + 2);
+  OrderedSink sink(4 * jobs + 4);
+  std::atomic<int64_t> batches_total{0};
+  std::atomic<bool> total_known{false};
+  std::atomic<bool> failed{false};
+  absl::Status failure;
+  std::mutex failure_mu;
+  auto fail = [&](absl::Status s) {
+    std::lock_guard<std::mutex> lock(failure_mu);
+    if (failure.ok()) failure = std::move(s);
+    failed = true;
+    input_queue.Cancel();
+    sink.Cancel();
+  };
+
+  std::thread reader([&] {
+    Batch batch;
+    int64_t seq = 0;
+    auto flush = [&] {
+      batch.seq = seq++;
+      if (!input_queue.Push(std::move(batch))) return false;
+      batch = Batch();
+      batch.items.reserve(batch_size);
+      return true;
+    };
+    batch.items.reserve(batch_size);
+    while (!failed && std::getline(*in, line)) {
+      ++line_no;
+      bytes_read += line.size() + 1;
+      if (!line.empty() && line.back() == '\r') line.pop_back();
+      if (line.empty()) continue;
+      ParsedLine p = in_format == RecordFormat::kCsv
+                         ? csv.ParseLine(line, line_no)
+                         : ParseJsonLine(line, line_no);
+      Item item;
+      item.record = std::move(p.record);
+      item.error = std::move(p.error);
+      batch.items.push_back(std::move(item));
+      if (static_cast<int>(batch.items.size()) == batch_size && !flush()) {
+        break;
+      }
+    }
+    if (in->bad()) fail(absl::DataLossError("error reading the input"));
+    if (!batch.items.empty() && !failed) flush();
+    batches_total = seq;
+    total_known = true;
+    input_queue.Close();
+    sink.Wake();
+  });
+
+  auto answer_malformed = [](Batch* b) {
+    for (Item& item : b->items) {
+      if (!item.error.empty()) {
+        ParsedLine p{item.record, item.error};
+        item.report = MalformedRecordReport(p);
+      }
+    }
+  };
+
+  std::vector<std::thread> workers;
+  std::thread receiver;
+  std::unique_ptr<Backend::RecordStream> stream;
+  BoundedQueue<Batch> awaiting(4);
+  if (remote == nullptr) {
+    for (int j = 0; j < jobs; ++j) {
+      workers.emplace_back([&] {
+        while (std::optional<Batch> b = input_queue.Pop()) {
+          answer_malformed(&*b);
+          for (Item& item : b->items) {
+            if (item.error.empty()) {
+              AnalyzeRecordToReport(item.record, &item.report);
+            }
+          }
+          Finish(out_format, &*b);
+          sink.Put(std::move(*b));
+        }
+      });
+    }
+  } else {
+    stream = remote->OpenRecordStream();
+    if (stream == nullptr) {
+      fail(absl::InternalError("the backend cannot stream records"));
+    } else {
+      // Sender: ship each batch's well-formed records as one RecordBatch.
+      workers.emplace_back([&] {
+        while (std::optional<Batch> b = input_queue.Pop()) {
+          v1::RecordBatch request;
+          for (Item& item : b->items) {
+            if (item.error.empty()) *request.add_records() = item.record;
+          }
+          if (request.records_size() > 0 && !stream->Write(request)) {
+            fail(absl::UnavailableError("the server closed the stream"));
+            break;
+          }
+          if (!awaiting.Push(std::move(*b))) break;
+        }
+        stream->WritesDone();
+        awaiting.Close();
+      });
+      // Receiver: match each reply to its batch, in order.
+      receiver = std::thread([&] {
+        while (std::optional<Batch> b = awaiting.Pop()) {
+          answer_malformed(&*b);
+          int expected = 0;
+          for (const Item& item : b->items) expected += item.error.empty();
+          if (expected > 0) {
+            v1::ReportBatch reply;
+            if (!stream->Read(&reply) || reply.reports_size() != expected) {
+              fail(absl::DataLossError(absl::StrCat(
+                  "the server's reply to batch ", b->seq,
+                  " is missing or has the wrong number of reports")));
+              break;
+            }
+            int k = 0;
+            for (Item& item : b->items) {
+              if (item.error.empty()) item.report = std::move(*reply.mutable_reports(k++));
+            }
+          }
+          Finish(out_format, &*b);
+          sink.Put(std::move(*b));
+        }
+      });
+    }
+  }
+
+  // Writer (this thread).
+  CheckSummary summary;
+  const absl::Time start = absl::Now();
+  absl::Time last_progress = start;
+  while (true) {
+    std::optional<Batch> b = sink.Next(batches_total, total_known);
+    if (!b.has_value()) break;
+    if (b->seq >= 0) {
+      *out << b->text;
+      summary.rows += b->summary.rows;
+      summary.valid += b->summary.valid;
+      summary.invalid += b->summary.invalid;
+      for (const auto& [code, count] : b->summary.by_code) {
+        summary.by_code[code] += count;
+      }
+      if (!*out) {
+        fail(absl::DataLossError("error writing the output"));
+        break;
+      }
+    }
+    if (options.progress && absl::Now() - last_progress > absl::Milliseconds(250)) {
+      last_progress = absl::Now();
+      const double seconds = absl::ToDoubleSeconds(last_progress - start);
+      const double rate = seconds > 0 ? summary.rows / seconds : 0;
+      std::string eta = "?";
+      if (input_size > 0 && bytes_read > 0 && seconds > 0) {
+        const double fraction =
+            std::min(1.0, static_cast<double>(bytes_read) / input_size);
+        const int width = 30;
+        const int filled = static_cast<int>(fraction * width);
+        eta = absl::StrFormat("[%s%s] ETA %.0fs", std::string(filled, '#'),
+                              std::string(width - filled, '.'),
+                              fraction > 0 ? seconds * (1 - fraction) / fraction
+                                           : 0.0);
+      }
+      log << absl::StrFormat("\r%d rows, %.0f rows/s %s   ", summary.rows,
+                             rate, eta)
+          << std::flush;
+    }
+  }
+  input_queue.Cancel();
+  reader.join();
+  for (std::thread& w : workers) w.join();
+  if (receiver.joinable()) receiver.join();
+  if (stream != nullptr) {
+    absl::Status s = stream->Finish();
+    if (!s.ok() && !failed) fail(s);
+  }
+  out->flush();
+  if (options.progress) log << "\r" << std::string(72, ' ') << "\r";
+  if (failed) return failure;
+  return summary;
+}
+
+}  // namespace shellwright::cli

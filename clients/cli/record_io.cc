@@ -1,0 +1,245 @@
+#include "clients/cli/record_io.h"
+
+#include <cmath>
+
+#include "absl/strings/numbers.h"
+#include "absl/strings/str_cat.h"
+#include "absl/strings/str_format.h"
+#include "absl/strings/str_join.h"
+#include "absl/strings/strip.h"
+#include "clients/cli/atom_format.h"
+#include "google/protobuf/util/json_util.h"
+
+namespace shellwright::cli {
+namespace {
+
+std::string Clip(absl::string_view text, size_t n = 40) {
+  std::string out(text.substr(0, n));
+  if (text.size() > n) out += "...";
+  return out;
+}
+
+std::string CsvQuote(absl::string_view field) {
+  if (field.find_first_of(",\"\n\r") == absl::string_view::npos) {
+    return std::string(field);
+  }
+  std::string out = "\"";
+  for (char c : field) {
+    if (c == '"') out.push_back('"');
+    out.push_back(c);
+  }
+  out.push_back('"');
+  return out;
+}
+
+}  // namespace
+
+bool SplitCsvLine(absl::string_view line, std::vector<std::string>* fields,
+                  std::string* error) {
+  fields->clear();
+  std::string field;
+  size_t i = 0;
+  bool at_field_start = true;
+  while (true) {
+    if (i < line.size() && line[i] == '"' && at_field_start) {
+      ++i;
+      bool closed = false;
+      while (i < line.size()) {
+        if (line[i] == '"') {
+          if (i + 1 < line.size() && line[i + 1] == '"') {
+            field.push_back('"');
+            i += 2;
+            continue;
+          }
+          ++i;
+          closed = true;
+          break;
+        }
+        field.push_back(line[i++]);
+      }
+      if (!closed) {
+        *error = absl::StrCat("unterminated quote in field ",
+                              fields->size() + 1);
+        return false;
+      }
+      if (i < line.size() && line[i] != ',') {
+        *error = absl::StrCat("text after the closing quote of field ",
+                              fields->size() + 1);
+        return false;
+      }
+    }
+    while (i < line.size() && line[i] != ',') {
+      if (line[i] == '"') {
+        *error = absl::StrCat("stray quote inside unquoted field ",
+                              fields->size() + 1);
+        return false;
+      }
+      field.push_back(line[i++]);
+    }
+    fields->push_back(std::move(field));
+    field.clear();
+    if (i >= line.size()) break;
+    ++i;  // The comma.
+    at_field_start = true;
+  }
+  return true;
+}
+
+absl::Status CsvRecordReader::ReadHeader(absl::string_view line) {
+  std::string error;
+  if (!SplitCsvLine(line, &columns_, &error)) {
+    return absl::InvalidArgumentError(absl::StrCat("CSV header: ", error));
+  }
+  for (size_t i = 0; i < columns_.size(); ++i) {
+    std::string name(absl::StripAsciiWhitespace(columns_[i]));
+    if (!index_.emplace(name, i).second) {
+      return absl::InvalidArgumentError(
+          absl::StrCat("CSV header names column '", name, "' twice"));
+    }
+  }
+  for (const char* required : {"id", "formula"}) {
+    if (!index_.count(required)) {
+      return absl::InvalidArgumentError(
+          absl::StrCat("CSV header has no '", required, "' column"));
+    }
+  }
+  return absl::OkStatus();
+}
+
+ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) const {
+  ParsedLine p;
+  p.record.set_row(row);
+  std::vector<std::string> fields;
+  std::string error;
+  if (line.size() > kMaxLineBytes) {
+    p.error = absl::StrCat("line is longer than ", kMaxLineBytes, " bytes");
+    return p;
+  }
+  if (!SplitCsvLine(line, &fields, &error)) {
+    p.error = error;
+    // Recover the id when the damage is later in the line.
+    const size_t comma = line.find(',');
+    if (index_.at("id") == 0 && comma != absl::string_view::npos &&
+        line.substr(0, comma).find('"') == absl::string_view::npos) {
+      p.record.set_id(std::string(line.substr(0, comma)));
+    }
+    return p;
+  }
+  auto get = [&](const char* name) -> std::string {
+    auto it = index_.find(name);
+    if (it == index_.end() || it->second >= fields.size()) return "";
+    return fields[it->second];
+  };
+  if (fields.size() > index_.at("id")) p.record.set_id(get("id"));
+  if (fields.size() != columns_.size()) {
+    p.error = absl::StrCat("line has ", fields.size(), " fields, the header ",
+                           columns_.size());
+    return p;
+  }
+  p.record.set_formula(get("formula"));
+  p.record.set_declared_states(get("declared_states"));
+  p.record.set_geometry(get("geometry"));
+  p.record.set_spin_state(get("spin_state"));
+  auto parse_int = [&](const char* name, auto setter) {
+    const std::string v(absl::StripAsciiWhitespace(get(name)));
+    if (v.empty()) return true;
+    int value = 0;
+    if (!absl::SimpleAtoi(v, &value)) {
+      p.error = absl::StrCat("column '", name, "': '", Clip(v),
+                             "' is not an integer");
+      return false;
+    }
+    setter(value);
+    return true;
+  };
+  auto parse_double = [&](const char* name, auto setter) {
+    const std::string v(absl::StripAsciiWhitespace(get(name)));
+    if (v.empty()) return true;
+    double value = 0;
+    if (!absl::SimpleAtod(v, &value) || !std::isfinite(value)) {
+      p.error = absl::StrCat("column '", name, "': '", Clip(v),
+                             "' is not a number");
+      return false;
+    }
+    setter(value);
+    return true;
+  };
+  if (!parse_int("charge", [&](int v) { p.record.set_charge(v); }) ||
+      !parse_int("max_alternatives",
+                 [&](int v) { p.record.set_max_alternatives(v); }) ||
+      !parse_double("measured_moment",
+                    [&](double v) { p.record.set_measured_moment(v); }) ||
+      !parse_double("moment_tolerance",
+                    [&](double v) { p.record.set_moment_tolerance(v); })) {
+    return p;
+  }
+  return p;
+}
+
+ParsedLine ParseJsonLine(absl::string_view line, int row) {
+  ParsedLine p;
+  if (line.size() > kMaxLineBytes) {
+    p.error = absl::StrCat("line is longer than ", kMaxLineBytes, " bytes");
+  } else {
+    google::protobuf::util::JsonParseOptions options;
+    options.ignore_unknown_fields = true;
+    auto status = google::protobuf::util::JsonStringToMessage(
+        std::string(line), &p.record, options);
+    if (!status.ok()) {
+      p.error = absl::StrCat("not a valid record: ",
+                             Clip(std::string(status.message()), 120));
+      p.record.Clear();
+    }
+  }
+  p.record.set_row(row);
+  return p;
+}
+
+v1::RecordReport MalformedRecordReport(const ParsedLine& line) {
+  v1::RecordReport r;
+  r.set_id(line.record.id().substr(0, 256));
+  r.set_row(line.record.row());
+  r.set_valid(false);
+  v1::Diagnostic* d = r.add_diagnostics();
+  d->set_severity("error");
+  d->set_code("malformed_record");
+  d->set_message(absl::StrCat("row ", line.record.row(), ": ", line.error));
+  return r;
+}
+
+std::string ReportToJsonLine(const v1::RecordReport& report) {
+  return ToJson(report, /*pretty=*/false);
+}
+
+std::string ReportCsvHeader() {
+  return "row,id,valid,formula,composition_kind,oxidation_states,score,"
+         "unpaired_per_formula_unit,effective_moment_per_formula_unit,"
+         "expected_moment_low,expected_moment_high,curie_constant,"
+         "valence_electron_concentration,diagnostic_codes,diagnostics";
+}
+
+std::string ReportToCsvLine(const v1::RecordReport& r) {
+  std::vector<std::string> states, codes, messages;
+  for (const v1::OxidationState& s : r.oxidation_states()) {
+    states.push_back(absl::StrCat(s.element(), ":", s.state(), "x",
+                                  s.count_exact()));
+  }
+  for (const v1::Diagnostic& d : r.diagnostics()) {
+    codes.push_back(d.code());
+    messages.push_back(absl::StrCat(d.severity(), ": ", d.message()));
+  }
+  auto num = [](double v) { return absl::StrFormat("%.6g", v); };
+  return absl::StrJoin(
+      {absl::StrCat(r.row()), CsvQuote(r.id()), std::string(r.valid() ? "true" : "false"),
+       CsvQuote(r.formula()), r.composition_kind(),
+       CsvQuote(absl::StrJoin(states, " ")), num(r.score()),
+       num(r.unpaired_per_formula_unit()),
+       num(r.effective_moment_per_formula_unit()),
+       num(r.expected_moment_low()), num(r.expected_moment_high()),
+       num(r.curie_constant()), num(r.valence_electron_concentration()),
+       CsvQuote(absl::StrJoin(codes, ";")),
+       CsvQuote(absl::StrJoin(messages, " | "))},
+      ",");
+}
+
+}  // namespace shellwright::cli

@@ -1,0 +1,395 @@
+#include "engine/composition.h"
+
+#include <cmath>
+#include <map>
+
+#include "absl/strings/numbers.h"
+#include "absl/strings/str_cat.h"
+#include "absl/strings/str_format.h"
+#include "absl/strings/str_split.h"
+#include "absl/strings/strip.h"
+#include "engine/formula.h"
+#include "engine/internal/text.h"
+#include "engine/ligand_field.h"
+
+namespace shellwright {
+namespace {
+
+using internal::QuoteForMessage;
+
+void Add(CompositionReport* r, Severity severity, std::string code,
+         std::string message, int column = 0) {
+  r->diagnostics.push_back(
+      Diagnostic{severity, std::move(code), std::move(message), column});
+}
+
+std::string SignedState(int state) {
+  return state > 0 ? absl::StrCat("+", state) : absl::StrCat(state);
+}
+
+std::string AssignmentText(const OxidationAssignment& a) {
+  std::string out;
+  for (const AssignedState& s : a.states) {
+    if (!out.empty()) out += ", ";
+    absl::StrAppend(&out, s.element->symbol, SignedState(s.state), " x",
+                    absl::StrFormat("%g", s.count.ToDouble()));
+  }
+  return out;
+}
+
+// Parses "Fe:3,O:-2" style lists. `value` turns the text after ':' into a
+// value or returns false.
+template <typename T, typename ParseValue>
+bool ParseElementList(absl::string_view text, absl::string_view what,
+                      ParseValue value,
+                      std::vector<std::pair<const Element*, T>>* out,
+                      std::string* error) {
+  for (absl::string_view item : absl::StrSplit(text, ',')) {
+    item = absl::StripAsciiWhitespace(item);
+    if (item.empty()) continue;
+    const size_t colon = item.find(':');
+    if (colon == absl::string_view::npos) {
+      *error = absl::StrCat(what, " item ", QuoteForMessage(item),
+                            " must look like Element:value");
+      return false;
+    }
+    const absl::string_view symbol =
+        absl::StripAsciiWhitespace(item.substr(0, colon));
+    const Element* e = FindElementBySymbol(symbol);
+    if (e == nullptr) {
+      *error = absl::StrCat(what, " names unknown element ",
+                            QuoteForMessage(symbol));
+      return false;
+    }
+    for (const auto& [existing, unused] : *out) {
+      if (existing == e) {
+        *error = absl::StrCat(what, " gives ", e->symbol, " twice");
+        return false;
+      }
+    }
+    T parsed;
+    const absl::string_view v = absl::StripAsciiWhitespace(item.substr(colon + 1));
+    if (!value(v, &parsed)) {
+      *error = absl::StrCat(what, " value ", QuoteForMessage(v), " for ",
+                            e->symbol, " is not valid");
+      return false;
+    }
+    out->emplace_back(e, parsed);
+  }
+  return true;
+}
+
+bool ParseState(absl::string_view v, int* state) {
+  if (!v.empty() && v.front() == '+') v.remove_prefix(1);
+  return absl::SimpleAtoi(v, state) && *state >= -9 && *state <= 9;
+}
+
+template <typename T>
+const T* FindSetting(const std::vector<std::pair<const Element*, T>>& list,
+                     const Element* e) {
+  for (const auto& [element, value] : list) {
+    if (element == e) return &value;
+  }
+  return nullptr;
+}
+
+absl::StatusOr<AtomDescriptionPtr> DescribeIon(const Element* e, int charge,
+                                               Geometry g,
+                                               SpinStatePreference s) {
+  AtomQuery q;
+  q.element = e;
+  q.charge = charge;
+  q.geometry = g;
+  q.spin_state = s;
+  return DescribeAtom(q);
+}
+
+// Annotates every assigned state with its ion and moment range.
+void Annotate(const std::vector<std::pair<const Element*, Geometry>>& geometry,
+              const std::vector<std::pair<const Element*, SpinStatePreference>>&
+                  spin,
+              CompositionReport* r) {
+  for (const AssignedState& s : r->assignment->states) {
+    const Geometry* g_set = FindSetting(geometry, s.element);
+    const SpinStatePreference* s_set = FindSetting(spin, s.element);
+    const bool d_block = s.element->block == Block::kD;
+    const Geometry g =
+        g_set != nullptr ? *g_set
+                         : (d_block && r->kind == CompositionKind::kIonic
+                                ? Geometry::kOctahedral
+                                : Geometry::kFree);
+    const SpinStatePreference sp =
+        s_set != nullptr ? *s_set : SpinStatePreference::kAuto;
+    absl::StatusOr<AtomDescriptionPtr> d =
+        DescribeIon(s.element, s.state, g, sp);
+    if (!d.ok()) {
+      Add(r, Severity::kWarning, "ion_not_described",
+          absl::StrCat(s.element->symbol, SignedState(s.state), ": ",
+                       d.status().message()));
+      continue;
+    }
+    IonAnnotation ion{s.element, s.state, s.count, *d, 0, 0, 0};
+    const Moments& m = (*d)->moments;
+    ion.moment = m.recommended;
+    ion.moment_low = ion.moment_high = ion.moment;
+    const bool fixed = g_set != nullptr || s_set != nullptr;
+    if (!fixed && (*d)->ligand_field.has_value()) {
+      absl::StatusOr<AtomDescriptionPtr> low = DescribeIon(
+          s.element, s.state, Geometry::kOctahedral, SpinStatePreference::kLow);
+      absl::StatusOr<AtomDescriptionPtr> high =
+          DescribeIon(s.element, s.state, Geometry::kFree,
+                      SpinStatePreference::kAuto);
+      if (low.ok()) {
+        ion.moment_low = std::min(ion.moment_low, (*low)->moments.spin_only);
+      }
+      if (high.ok()) {
+        ion.moment_high = std::max({ion.moment_high,
+                                    (*high)->moments.spin_only,
+                                    (*high)->moments.j_moment});
+      }
+    } else if (!fixed && m.recommended_basis == MomentBasis::kJ &&
+               m.measured.has_value()) {
+      ion.moment_low = std::min(ion.moment, *m.measured);
+      ion.moment_high = std::max(ion.moment, *m.measured);
+    }
+    r->ions.push_back(ion);
+  }
+}
+
+void Summarise(const Formula& formula, CompositionReport* r) {
+  double unpaired = 0, mu2 = 0, lo2 = 0, hi2 = 0;
+  for (const IonAnnotation& ion : r->ions) {
+    const double c = ion.count.ToDouble();
+    unpaired += c * ion.description->unpaired_electrons;
+    mu2 += c * ion.moment * ion.moment;
+    lo2 += c * ion.moment_low * ion.moment_low;
+    hi2 += c * ion.moment_high * ion.moment_high;
+  }
+  r->unpaired_per_formula_unit = unpaired;
+  r->effective_moment_per_formula_unit = std::sqrt(mu2);
+  r->expected_moment_low = std::sqrt(lo2);
+  r->expected_moment_high = std::sqrt(hi2);
+  r->curie_constant = CurieConstantPerMomentSquared() * mu2;
+  // Valence electron concentration: composition-weighted mean of the
+  // neutral atoms' valence electrons (Guo et al., J. Appl. Phys. 109,
+  // 103505 (2011), from memory).
+  double atoms = 0, electrons = 0;
+  for (const ElementAmount& a : formula.amounts) {
+    AtomQuery q;
+    q.element = a.element;
+    absl::StatusOr<AtomDescriptionPtr> d = DescribeAtom(q);
+    if (!d.ok()) continue;
+    atoms += a.count.ToDouble();
+    electrons += a.count.ToDouble() * (*d)->valence_electrons;
+  }
+  r->valence_electron_concentration = atoms > 0 ? electrons / atoms : 0;
+}
+
+}  // namespace
+
+double CurieConstantPerMomentSquared() {
+  constexpr double kAvogadro = 6.02214076e23;      // 1/mol, CODATA 2018.
+  constexpr double kBohrMagneton = 9.2740100783e-21;  // erg/G, CODATA 2018.
+  constexpr double kBoltzmann = 1.380649e-16;      // erg/K, CODATA 2018.
+  return kAvogadro * kBohrMagneton * kBohrMagneton / (3.0 * kBoltzmann);
+}
+
+absl::string_view SeverityName(Severity s) {
+  switch (s) {
+    case Severity::kError:
+      return "error";
+    case Severity::kWarning:
+      return "warning";
+    case Severity::kInfo:
+      return "info";
+  }
+  return "error";
+}
+
+void AddError(CompositionReport* report, std::string code,
+              std::string message, int column) {
+  Add(report, Severity::kError, std::move(code), std::move(message), column);
+  report->valid = false;
+}
+
+CompositionReport AnalyzeComposition(const CompositionInput& input) {
+  CompositionReport r;
+  r.id = input.id;
+  if (r.id.size() > kMaxRecordIdLength) {
+    r.id.resize(kMaxRecordIdLength);
+    Add(&r, Severity::kError, "id_too_long",
+        absl::StrCat("id is ", input.id.size(), " bytes, above the limit of ",
+                     kMaxRecordIdLength, "; truncated"));
+  }
+  auto finish = [&r]() -> CompositionReport {
+    r.valid = true;
+    for (const Diagnostic& d : r.diagnostics) {
+      if (d.severity == Severity::kError) r.valid = false;
+    }
+    return std::move(r);
+  };
+
+  FormulaIssue issue;
+  absl::StatusOr<Formula> formula = ParseFormula(input.formula, &issue);
+  if (!formula.ok()) {
+    Add(&r, Severity::kError, issue.code,
+        absl::StrCat("formula ", QuoteForMessage(input.formula), ": ",
+                     issue.message),
+        issue.column);
+    return finish();
+  }
+  for (const FormulaIssue& w : formula->warnings) {
+    Add(&r, Severity::kWarning, w.code, w.message, w.column);
+  }
+
+  // Per-record settings.
+  std::vector<std::pair<const Element*, int>> declared;
+  std::vector<std::pair<const Element*, Geometry>> geometry;
+  std::vector<std::pair<const Element*, SpinStatePreference>> spin;
+  std::string error;
+  if (!ParseElementList<int>(input.declared_states, "declared_states",
+                             ParseState, &declared, &error)) {
+    Add(&r, Severity::kError, "malformed_declared_states", error);
+  }
+  if (!ParseElementList<Geometry>(
+          input.geometry, "geometry",
+          [](absl::string_view v, Geometry* g) {
+            absl::StatusOr<Geometry> p = ParseGeometry(v);
+            if (p.ok()) *g = *p;
+            return p.ok();
+          },
+          &geometry, &error) ||
+      !ParseElementList<SpinStatePreference>(
+          input.spin_state, "spin_state",
+          [](absl::string_view v, SpinStatePreference* s) {
+            absl::StatusOr<SpinStatePreference> p = ParseSpinStatePreference(v);
+            if (p.ok()) *s = *p;
+            return p.ok();
+          },
+          &spin, &error)) {
+    Add(&r, Severity::kError, "malformed_element_settings", error);
+  }
+  OxidationOptions options;
+  options.net_charge = input.net_charge.value_or(0);
+  options.max_alternatives = input.max_alternatives;
+  for (const auto& [e, state] : declared) {
+    bool present = false;
+    for (const ElementAmount& a : formula->amounts) present |= a.element == e;
+    if (!present) {
+      Add(&r, Severity::kError, "malformed_declared_states",
+          absl::StrCat("declared_states names ", e->symbol,
+                       ", which the formula does not contain"));
+      continue;
+    }
+    bool known = false;
+    for (const KnownOxidationState& k : KnownOxidationStates(*e)) {
+      known |= k.state == state;
+    }
+    if (!known) {
+      Add(&r, Severity::kWarning, "declared_state_unknown",
+          absl::StrCat("declared ", e->symbol, SignedState(state),
+                       " is not in the table of known oxidation states"));
+    }
+    options.declared.push_back({e, state});
+  }
+  for (const Diagnostic& d : r.diagnostics) {
+    if (d.severity == Severity::kError) return finish();
+  }
+
+  absl::StatusOr<OxidationResult> solved =
+      AssignOxidationStates(*formula, options);
+  if (!solved.ok()) {
+    Add(&r, Severity::kError, "charge_not_balanced",
+        std::string(solved.status().message()));
+    return finish();
+  }
+  r.kind = solved->kind;
+  if (!solved->best.has_value()) {
+    if (solved->without_declared.has_value()) {
+      Add(&r, Severity::kError, "declared_state_contradicts_balance",
+          absl::StrCat("the declared states cannot balance ",
+                       input.formula, " to net charge ", options.net_charge,
+                       "; without them: ",
+                       AssignmentText(*solved->without_declared)));
+    } else {
+      Add(&r, Severity::kError, "charge_not_balanced",
+          absl::StrCat("no combination of known oxidation states balances ",
+                       input.formula, " to net charge ", options.net_charge));
+    }
+    return finish();
+  }
+  if (!options.declared.empty()) {
+    // Declared states that force otherwise-avoidable uncommon states on the
+    // other elements contradict the balance, even though some balance
+    // exists (Fe:2 in Fe2O3 needs peroxide oxygen).
+    OxidationOptions free = options;
+    free.declared.clear();
+    free.max_alternatives = 0;
+    absl::StatusOr<OxidationResult> unconstrained =
+        AssignOxidationStates(*formula, free);
+    int forced = 0;
+    for (const AssignedState& s : solved->best->states) {
+      forced += !s.common && !s.declared;
+    }
+    if (unconstrained.ok() && unconstrained->best.has_value() &&
+        forced > unconstrained->best->uncommon_states) {
+      Add(&r, Severity::kError, "declared_state_contradicts_balance",
+          absl::StrCat("the declared states balance ", input.formula,
+                       " only with uncommon states (",
+                       AssignmentText(*solved->best), "); without them: ",
+                       AssignmentText(*unconstrained->best)));
+      return finish();
+    }
+  }
+  r.assignment = solved->best;
+  r.alternatives = solved->alternatives;
+  if (r.kind == CompositionKind::kMetallic) {
+    Add(&r, Severity::kInfo, "metallic_composition",
+        "all elements are metals: reported as metallic, every state 0");
+  } else if (r.kind == CompositionKind::kElemental) {
+    Add(&r, Severity::kInfo, "elemental_composition",
+        "a single element: reported as elemental, state 0");
+  }
+  std::map<const Element*, int> states_per_element;
+  for (const AssignedState& s : r.assignment->states) {
+    if (++states_per_element[s.element] == 2) {
+      Add(&r, Severity::kInfo, "mixed_valence",
+          absl::StrCat(s.element->symbol, " is mixed valence"));
+    }
+    if (!s.common) {
+      Add(&r, Severity::kWarning, "uncommon_oxidation_state",
+          absl::StrCat(s.element->symbol, SignedState(s.state),
+                       " is not a common oxidation state"));
+    }
+  }
+
+  Annotate(geometry, spin, &r);
+  Summarise(*formula, &r);
+
+  if (input.measured_moment.has_value()) {
+    const double measured = *input.measured_moment;
+    const double tolerance =
+        input.moment_tolerance.value_or(kDefaultMomentTolerance);
+    if (r.kind != CompositionKind::kIonic) {
+      Add(&r, Severity::kInfo, "moment_check_skipped",
+          "local-moment estimates do not apply to metallic or elemental "
+          "compositions; the measured moment was not checked");
+    } else if (!std::isfinite(measured) || measured < 0 ||
+               !std::isfinite(tolerance) || tolerance < 0) {
+      Add(&r, Severity::kError, "malformed_record",
+          "measured_moment and moment_tolerance must be finite and "
+          "non-negative");
+    } else if (measured < r.expected_moment_low - tolerance ||
+               measured > r.expected_moment_high + tolerance) {
+      Add(&r, Severity::kError, "moment_out_of_range",
+          absl::StrFormat("measured moment %.2f μB per formula unit is "
+                          "outside the expected %.2f to %.2f μB (±%.2f); "
+                          "estimates are idealised",
+                          measured, r.expected_moment_low,
+                          r.expected_moment_high, tolerance));
+    }
+  }
+  return finish();
+}
+
+}  // namespace shellwright

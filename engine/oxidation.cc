@@ -1,0 +1,443 @@
+#include "engine/oxidation.h"
+
+#include <algorithm>
+#include <array>
+#include <deque>
+#include <limits>
+#include <numeric>
+#include <set>
+
+#include "absl/strings/str_cat.h"
+#include "engine/internal/data_tables.h"
+
+namespace shellwright {
+namespace {
+
+// Scaled atoms per formula unit above which balancing is refused: the
+// charge window would grow too wide to search quickly.
+constexpr int64_t kMaxScaledAtoms = 1000000;
+constexpr int64_t kMaxWindow = 4000000;
+
+// Lexicographic ranking packed into one integer: uncommon states, then
+// electronegativity inconsistencies, then spread (bounded by
+// kMaxScaledAtoms x 16 < 2^36).
+constexpr int64_t kUncommonWeight = int64_t{1} << 42;
+constexpr int64_t kInconsistencyWeight = int64_t{1} << 36;
+constexpr int64_t kInfinity = std::numeric_limits<int64_t>::max() / 4;
+
+struct StateTable {
+  std::array<std::vector<KnownOxidationState>, kMaxAtomicNumber + 1> by_z;
+};
+
+const StateTable& States() {
+  static const StateTable* const kTable = [] {
+    auto* t = new StateTable;
+    for (const internal::OxidationStateRow& row :
+         internal::OxidationStateRows()) {
+      t->by_z[row.atomic_number].push_back({row.state, row.common});
+    }
+    return t;
+  }();
+  return *kTable;
+}
+
+// One way an element can take its charge.
+struct Option {
+  int low = 0;   // Lower state (== high for single valence).
+  int high = 0;  // Upper state.
+  bool low_common = true;
+  bool high_common = true;
+  int64_t weight = 0;
+};
+
+struct ElementPlan {
+  const Element* element;
+  int64_t scaled_count;  // count x L, >= 1.
+  bool declared = false;
+  std::vector<Option> options;
+  int64_t min_contribution = 0;
+  int64_t max_contribution = 0;
+};
+
+// The element that should carry the negative charge.
+int MostElectronegative(const std::vector<ElementPlan>& plans) {
+  int best = -1;
+  double best_en = -1;
+  for (size_t i = 0; i < plans.size(); ++i) {
+    const auto& en = plans[i].element->pauling_electronegativity;
+    if (en.has_value() && *en > best_en) {
+      best_en = *en;
+      best = static_cast<int>(i);
+    }
+  }
+  return best;
+}
+
+int64_t OptionWeight(const Option& o, int64_t scaled_count,
+                     bool is_most_electronegative) {
+  const bool mixed = o.low != o.high;
+  int uncommon = (o.low_common ? 0 : 1) + (mixed && !o.high_common ? 1 : 0);
+  bool inconsistent = is_most_electronegative ? (o.high > 0) : (o.low < 0);
+  const int64_t spread = mixed ? scaled_count * (o.high - o.low) : 0;
+  return uncommon * kUncommonWeight +
+         (inconsistent ? kInconsistencyWeight : 0) + spread;
+}
+
+// Builds the options of every element. `common_only` keeps options whose
+// states are all common (declared states are always kept).
+std::vector<ElementPlan> BuildPlans(const std::vector<ElementPlan>& base,
+                                    const OxidationOptions& options,
+                                    bool common_only) {
+  std::vector<ElementPlan> plans = base;
+  const int m = MostElectronegative(plans);
+  for (size_t i = 0; i < plans.size(); ++i) {
+    ElementPlan& p = plans[i];
+    p.options.clear();
+    for (const DeclaredState& d : options.declared) {
+      if (d.element != p.element) continue;
+      p.declared = true;
+      bool common = false;
+      for (const KnownOxidationState& k :
+           States().by_z[p.element->atomic_number]) {
+        if (k.state == d.state) common = k.common;
+      }
+      p.options.push_back({d.state, d.state, common, common, 0});
+    }
+    if (!p.declared) {
+      const auto& known = States().by_z[p.element->atomic_number];
+      for (size_t k = 0; k < known.size(); ++k) {
+        if (!common_only || known[k].common) {
+          p.options.push_back({known[k].state, known[k].state, known[k].common,
+                               known[k].common, 0});
+        }
+        // Mixed valence over adjacent known states; needs two scaled atoms.
+        if (k + 1 < known.size() && p.scaled_count >= 2 &&
+            (!common_only || (known[k].common && known[k + 1].common))) {
+          p.options.push_back({known[k].state, known[k + 1].state,
+                               known[k].common, known[k + 1].common, 0});
+        }
+      }
+    }
+    p.min_contribution = std::numeric_limits<int64_t>::max();
+    p.max_contribution = std::numeric_limits<int64_t>::min();
+    for (Option& o : p.options) {
+      o.weight = OptionWeight(o, p.scaled_count, static_cast<int>(i) == m);
+      p.min_contribution =
+          std::min(p.min_contribution, p.scaled_count * o.low);
+      p.max_contribution =
+          std::max(p.max_contribution, p.scaled_count * o.high);
+    }
+  }
+  return plans;
+}
+
+// The choice made for one element: option index and, for mixed valence,
+// how many scaled atoms take the lower state.
+struct Choice {
+  int option = -1;
+  int64_t low_atoms = 0;
+};
+
+struct Solution {
+  int64_t weight = kInfinity;
+  std::vector<Choice> choices;
+};
+
+// Dynamic programming over charge totals. `forbidden` (element index,
+// option index) excludes one option, for finding alternatives.
+Solution Solve(const std::vector<ElementPlan>& plans, int64_t target,
+               int forbidden_element, int forbidden_option) {
+  const size_t n = plans.size();
+  for (const ElementPlan& p : plans) {
+    if (p.options.empty()) return {};
+  }
+  // Range of what elements i.. can still contribute.
+  std::vector<int64_t> rest_min(n + 1, 0), rest_max(n + 1, 0);
+  for (size_t i = n; i-- > 0;) {
+    rest_min[i] = rest_min[i + 1] + plans[i].min_contribution;
+    rest_max[i] = rest_max[i + 1] + plans[i].max_contribution;
+  }
+  if (target < rest_min[0] || target > rest_max[0]) return {};
+
+  // Layer i holds totals of elements 0..i-1 within [lo[i], hi[i]].
+  std::vector<int64_t> lo(n + 1), hi(n + 1);
+  lo[0] = hi[0] = 0;
+  int64_t prefix_min = 0, prefix_max = 0;
+  for (size_t i = 1; i <= n; ++i) {
+    prefix_min += plans[i - 1].min_contribution;
+    prefix_max += plans[i - 1].max_contribution;
+    lo[i] = std::max(prefix_min, target - rest_max[i]);
+    hi[i] = std::min(prefix_max, target - rest_min[i]);
+    if (lo[i] > hi[i] || hi[i] - lo[i] > kMaxWindow) return {};
+  }
+
+  std::vector<std::vector<int64_t>> cost(n + 1);
+  std::vector<std::vector<Choice>> back(n + 1);
+  cost[0].assign(1, 0);
+  for (size_t i = 0; i < n; ++i) {
+    const ElementPlan& p = plans[i];
+    const int64_t width = hi[i + 1] - lo[i + 1] + 1;
+    std::vector<int64_t>& next = cost[i + 1];
+    next.assign(width, kInfinity);
+    back[i + 1].assign(width, Choice{});
+    const std::vector<int64_t>& prev = cost[i];
+    const int64_t prev_lo = lo[i], prev_hi = hi[i];
+    const int64_t c = p.scaled_count;
+    for (int oi = 0; oi < static_cast<int>(p.options.size()); ++oi) {
+      if (static_cast<int>(i) == forbidden_element && oi == forbidden_option) {
+        continue;
+      }
+      const Option& o = p.options[oi];
+      if (o.low == o.high) {
+        const int64_t shift = c * o.low;
+        for (int64_t t = lo[i + 1]; t <= hi[i + 1]; ++t) {
+          const int64_t q = t - shift;
+          if (q < prev_lo || q > prev_hi) continue;
+          const int64_t w = prev[q - prev_lo];
+          if (w >= kInfinity) continue;
+          int64_t& slot = next[t - lo[i + 1]];
+          if (w + o.weight < slot) {
+            slot = w + o.weight;
+            back[i + 1][t - lo[i + 1]] = Choice{oi, 0};
+          }
+        }
+        continue;
+      }
+      // Mixed: k scaled atoms (1..c-1) at the lower state contribute
+      // c*high - k*d with d = high - low. For each total t the candidates
+      // are prev[t - c*high + k*d]: a window of c-1 cells with stride d,
+      // scanned with a monotone deque per residue class.
+      const int64_t d = o.high - o.low;
+      const int64_t base = c * o.high;
+      for (int64_t r = 0; r < d; ++r) {
+        // Walk totals t of one residue class in increasing order; the
+        // window for t covers q = t - base + k*d, k = 1..c-1.
+        int64_t t0 = lo[i + 1] + ((r - (lo[i + 1] % d)) % d + d) % d;
+        std::deque<std::pair<int64_t, int64_t>> window;  // (q, cost)
+        int64_t next_q = t0 - base + d;                  // First q to add.
+        for (int64_t t = t0; t <= hi[i + 1]; t += d) {
+          const int64_t q_first = t - base + d;
+          const int64_t q_last = t - base + (c - 1) * d;
+          while (next_q <= q_last) {
+            if (next_q >= prev_lo && next_q <= prev_hi) {
+              const int64_t w = prev[next_q - prev_lo];
+              if (w < kInfinity) {
+                while (!window.empty() && window.back().second >= w) {
+                  window.pop_back();
+                }
+                window.emplace_back(next_q, w);
+              }
+            }
+            next_q += d;
+          }
+          while (!window.empty() && window.front().first < q_first) {
+            window.pop_front();
+          }
+          if (window.empty()) continue;
+          const int64_t w = window.front().second + o.weight;
+          int64_t& slot = next[t - lo[i + 1]];
+          if (w < slot) {
+            slot = w;
+            const int64_t k = (window.front().first - (t - base)) / d;
+            back[i + 1][t - lo[i + 1]] = Choice{oi, k};
+          }
+        }
+      }
+    }
+  }
+  Solution s;
+  if (target < lo[n] || target > hi[n]) return s;
+  s.weight = cost[n][target - lo[n]];
+  if (s.weight >= kInfinity) return Solution{};
+  s.choices.resize(n);
+  int64_t t = target;
+  for (size_t i = n; i > 0; --i) {
+    const Choice ch = back[i][t - lo[i]];
+    s.choices[i - 1] = ch;
+    const Option& o = plans[i - 1].options[ch.option];
+    const int64_t c = plans[i - 1].scaled_count;
+    t -= o.low == o.high ? c * o.low : c * o.high - ch.low_atoms * (o.high - o.low);
+  }
+  return s;
+}
+
+OxidationAssignment ToAssignment(const std::vector<ElementPlan>& plans,
+                                 const Solution& s, int64_t scale) {
+  OxidationAssignment a;
+  for (size_t i = 0; i < plans.size(); ++i) {
+    const ElementPlan& p = plans[i];
+    const Option& o = p.options[s.choices[i].option];
+    if (o.low == o.high) {
+      a.states.push_back({p.element, o.low, Rational(p.scaled_count, scale),
+                          o.low_common, p.declared});
+      if (!o.low_common) ++a.uncommon_states;
+    } else {
+      const int64_t k = s.choices[i].low_atoms;
+      a.states.push_back(
+          {p.element, o.low, Rational(k, scale), o.low_common, false});
+      a.states.push_back({p.element, o.high,
+                          Rational(p.scaled_count - k, scale), o.high_common,
+                          false});
+      a.uncommon_states += (o.low_common ? 0 : 1) + (o.high_common ? 0 : 1);
+      a.spread = a.spread + Rational(p.scaled_count * (o.high - o.low), scale);
+    }
+  }
+  a.electronegativity_inconsistencies = static_cast<int>(
+      (s.weight % kUncommonWeight) / kInconsistencyWeight);
+  a.score = 100.0 * a.uncommon_states +
+            10.0 * a.electronegativity_inconsistencies + a.spread.ToDouble();
+  return a;
+}
+
+}  // namespace
+
+absl::Span<const KnownOxidationState> KnownOxidationStates(
+    const Element& element) {
+  return States().by_z[element.atomic_number];
+}
+
+bool IsMetal(const Element& e) {
+  static const std::set<absl::string_view>* const kNonMetals =
+      new std::set<absl::string_view>{
+          "H",  "He", "B",  "C",  "N",  "O",  "F",  "Ne", "Si",
+          "P",  "S",  "Cl", "Ar", "Ge", "As", "Se", "Br", "Kr",
+          "Sb", "Te", "I",  "Xe", "At", "Rn", "Ts", "Og"};
+  return kNonMetals->count(e.symbol) == 0;
+}
+
+absl::StatusOr<OxidationResult> AssignOxidationStates(
+    const Formula& formula, const OxidationOptions& options) {
+  if (formula.amounts.empty()) {
+    return absl::InvalidArgumentError("formula has no elements");
+  }
+  for (const DeclaredState& d : options.declared) {
+    bool present = false;
+    for (const ElementAmount& a : formula.amounts) {
+      present |= a.element == d.element;
+    }
+    if (!present) {
+      return absl::InvalidArgumentError(
+          absl::StrCat("declared state for ", d.element->symbol,
+                       ", which the formula does not contain"));
+    }
+  }
+  OxidationResult result;
+  const bool undeclared = options.declared.empty();
+  if (options.net_charge == 0 && undeclared) {
+    bool all_metal = true;
+    for (const ElementAmount& a : formula.amounts) {
+      all_metal &= IsMetal(*a.element);
+    }
+    if (formula.amounts.size() == 1 || all_metal) {
+      result.kind = formula.amounts.size() == 1 ? CompositionKind::kElemental
+                                                : CompositionKind::kMetallic;
+      OxidationAssignment a;
+      for (const ElementAmount& amount : formula.amounts) {
+        a.states.push_back({amount.element, 0, amount.count, true, false});
+      }
+      result.best = a;
+      return result;
+    }
+  }
+
+  // Scale counts to integers.
+  int64_t scale = 1;
+  for (const ElementAmount& a : formula.amounts) {
+    scale = std::lcm(scale, a.count.den());
+    if (scale > kMaxStoichiometryDenominator) {
+      return absl::InvalidArgumentError(absl::StrCat(
+          "stoichiometry is too finely divided to balance exactly (common "
+          "denominator above ",
+          kMaxStoichiometryDenominator, ")"));
+    }
+  }
+  std::vector<ElementPlan> base;
+  int64_t scaled_atoms = 0;
+  for (const ElementAmount& a : formula.amounts) {
+    ElementPlan p;
+    p.element = a.element;
+    p.scaled_count = a.count.num() * (scale / a.count.den());
+    scaled_atoms += p.scaled_count;
+    base.push_back(p);
+  }
+  if (scaled_atoms > kMaxScaledAtoms) {
+    return absl::InvalidArgumentError(
+        "stoichiometry is too large to balance (more than 10^6 atoms per "
+        "formula unit after scaling to integers)");
+  }
+  const int64_t target = static_cast<int64_t>(options.net_charge) * scale;
+
+  // Common states first: any such solution outranks every solution with an
+  // uncommon state, and the search is much smaller.
+  std::vector<ElementPlan> plans = BuildPlans(base, options, true);
+  Solution best = Solve(plans, target, -1, -1);
+  if (best.weight >= kInfinity) {
+    plans = BuildPlans(base, options, false);
+    best = Solve(plans, target, -1, -1);
+  }
+  if (best.weight >= kInfinity) {
+    if (!undeclared) {
+      OxidationOptions free = options;
+      free.declared.clear();
+      free.max_alternatives = 0;
+      std::vector<ElementPlan> free_plans = BuildPlans(base, free, true);
+      Solution s = Solve(free_plans, target, -1, -1);
+      if (s.weight >= kInfinity) {
+        free_plans = BuildPlans(base, free, false);
+        s = Solve(free_plans, target, -1, -1);
+      }
+      if (s.weight < kInfinity) {
+        result.without_declared = ToAssignment(free_plans, s, scale);
+      }
+    }
+    return result;
+  }
+  result.best = ToAssignment(plans, best, scale);
+
+  if (options.max_alternatives > 0) {
+    // Alternatives: forbid, one element at a time, the option the best
+    // assignment chose for it, over all known states.
+    std::vector<ElementPlan> all = BuildPlans(base, options, false);
+    std::vector<std::pair<int64_t, OxidationAssignment>> found;
+    for (size_t i = 0; i < all.size(); ++i) {
+      if (all[i].declared) continue;
+      const Option& chosen = plans[i].options[best.choices[i].option];
+      int forbidden = -1;
+      for (size_t oi = 0; oi < all[i].options.size(); ++oi) {
+        if (all[i].options[oi].low == chosen.low &&
+            all[i].options[oi].high == chosen.high) {
+          forbidden = static_cast<int>(oi);
+        }
+      }
+      Solution s = Solve(all, target, static_cast<int>(i), forbidden);
+      if (s.weight >= kInfinity) continue;
+      OxidationAssignment a = ToAssignment(all, s, scale);
+      bool duplicate = false;
+      for (const auto& [w, other] : found) {
+        if (other.states.size() != a.states.size()) continue;
+        bool same = true;
+        for (size_t k = 0; k < a.states.size() && same; ++k) {
+          same = a.states[k].element == other.states[k].element &&
+                 a.states[k].state == other.states[k].state &&
+                 a.states[k].count == other.states[k].count;
+        }
+        duplicate |= same;
+      }
+      if (!duplicate) found.emplace_back(s.weight, std::move(a));
+    }
+    std::stable_sort(found.begin(), found.end(),
+                     [](const auto& x, const auto& y) {
+                       return x.first < y.first;
+                     });
+    for (auto& [w, a] : found) {
+      if (static_cast<int>(result.alternatives.size()) >=
+          options.max_alternatives) {
+        break;
+      }
+      result.alternatives.push_back(std::move(a));
+    }
+  }
+  return result;
+}
+
+}  // namespace shellwright

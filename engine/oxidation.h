@@ -1,0 +1,118 @@
+// Oxidation-state assignment for a parsed formula.
+//
+// AssignOxidationStates() gives every element an integer oxidation state
+// from data/oxidation_states.tsv so that the states, weighted by the exact
+// stoichiometry, sum to the net charge. An element may be split over two
+// adjacent known states that bracket its average (mixed valence): Fe3O4 is
+// Fe2+ x1 plus Fe3+ x2, Pb3O4 is Pb2+ x2 plus Pb4+ x1, Li0.5CoO2 is
+// Co3+ 0.5 plus Co4+ 0.5.
+//
+// Candidates rank by, in order:
+//   1. fewest uncommon states (a state flagged "no" in the table, or a
+//      declared state missing from it);
+//   2. electronegativity consistency: the most electronegative element
+//      (Pauling) should take a negative state and no other element should;
+//      each element that breaks this counts once;
+//   3. smallest spread: the sum over mixed-valence elements of
+//      count x (upper state - lower state), so single valence wins ties.
+// `score` combines them as 100 x uncommon + 10 x inconsistencies + spread;
+// 0 is a perfect assignment and lower is better.
+//
+// The search is dynamic programming over the reachable charge totals, one
+// element at a time, with counts scaled to integers by the least common
+// denominator of the stoichiometry. Its cost grows with the number of
+// elements times the width of the reachable charge window, never with the
+// product of the elements' choices.
+//
+// Compositions made only of metals (alloys, intermetallics) and single
+// elements are reported as metallic or elemental with every state 0, when
+// the net charge is 0 and no state is declared.
+//
+// Example:
+//
+//   absl::StatusOr<shellwright::Formula> f = shellwright::ParseFormula("Fe3O4");
+//   absl::StatusOr<shellwright::OxidationResult> r =
+//       shellwright::AssignOxidationStates(*f, shellwright::OxidationOptions());
+//   // r->best->states: Fe +2 x1, Fe +3 x2, O -2 x4
+//
+// Thread safety: thread-safe; no shared mutable state.
+
+#ifndef SHELLWRIGHT_ENGINE_OXIDATION_H_
+#define SHELLWRIGHT_ENGINE_OXIDATION_H_
+
+#include <vector>
+
+#include "absl/status/statusor.h"
+#include "absl/types/span.h"
+#include "engine/element.h"
+#include "engine/formula.h"
+#include "engine/rational.h"
+
+namespace shellwright {
+
+// Least common denominator above which a formula is rejected as too finely
+// divided to balance exactly (counts with six decimals need at most 10^6).
+inline constexpr int64_t kMaxStoichiometryDenominator = 1000000;
+
+// A known oxidation state of an element (data/oxidation_states.tsv).
+struct KnownOxidationState {
+  int state;
+  bool common;
+};
+
+// Known non-zero states of `element`, in increasing order.
+absl::Span<const KnownOxidationState> KnownOxidationStates(
+    const Element& element);
+
+// True for metals; false for the nonmetals, the noble gases and the
+// metalloids B, Si, Ge, As, Sb, Te and At (common practice, no source).
+bool IsMetal(const Element& element);
+
+// One element in one state. A mixed-valence element has two entries.
+struct AssignedState {
+  const Element* element;
+  int state;
+  Rational count;  // Atoms per formula unit in this state.
+  bool common;     // False for an uncommon or unknown state.
+  bool declared;   // The record declared this element's state.
+};
+
+struct OxidationAssignment {
+  std::vector<AssignedState> states;  // Formula order; lower state first.
+  int uncommon_states = 0;
+  int electronegativity_inconsistencies = 0;
+  Rational spread;
+  double score = 0;  // 100 x uncommon + 10 x inconsistencies + spread.
+};
+
+enum class CompositionKind { kIonic, kMetallic, kElemental };
+
+struct DeclaredState {
+  const Element* element;
+  int state;
+};
+
+struct OxidationOptions {
+  int net_charge = 0;
+  std::vector<DeclaredState> declared;  // Honoured: those elements are fixed.
+  int max_alternatives = 2;             // Further distinct assignments.
+};
+
+struct OxidationResult {
+  CompositionKind kind = CompositionKind::kIonic;
+  // Empty when no assignment balances the charge.
+  std::optional<OxidationAssignment> best;
+  std::vector<OxidationAssignment> alternatives;  // Best first.
+  // When declared states made balancing impossible but it is possible
+  // without them, the best undeclared assignment (to suggest a fix).
+  std::optional<OxidationAssignment> without_declared;
+};
+
+// INVALID_ARGUMENT when the formula is empty, too finely divided (see
+// kMaxStoichiometryDenominator) or declares an element it does not contain.
+absl::StatusOr<OxidationResult> AssignOxidationStates(
+    const Formula& formula, const OxidationOptions& options);
+
+}  // namespace shellwright
+
+#endif  // SHELLWRIGHT_ENGINE_OXIDATION_H_
