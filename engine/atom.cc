@@ -1,6 +1,7 @@
 #include "engine/atom.h"
 
 #include <array>
+#include <mutex>
 #include <cmath>
 #include <utility>
 
@@ -277,6 +278,73 @@ const DescriptionCache& Cache() {
   return *kCache;
 }
 
+// Ligand-field descriptions of d-block ions in the charge range chemistry
+// uses, built per element on first use. Records annotate every d ion in a
+// geometry, so this keeps composition analysis to table lookups.
+class LigandFieldCache {
+ public:
+  static constexpr int kMinCharge = -kMaxAnionCharge;
+  static constexpr int kMaxCharge = 9;
+  static constexpr int kCharges = kMaxCharge - kMinCharge + 1;
+  static constexpr int kGeometries = 3;  // Octahedral, tetrahedral, square.
+  static constexpr int kSpins = 3;       // Auto, high, low.
+
+  // nullptr when the query is outside the cached set.
+  const AtomDescription* Find(const Element& e, int charge, Geometry g,
+                              SpinStatePreference s) {
+    if (e.block != Block::kD || charge < kMinCharge || charge > kMaxCharge ||
+        charge > e.atomic_number || g == Geometry::kFree) {
+      return nullptr;
+    }
+    PerElement& slot = elements_[e.atomic_number];
+    std::call_once(slot.once, [&] { Fill(e, &slot); });
+    return slot.entries[Index(charge, g, s)].get();
+  }
+
+  // Shared ownership for callers that keep the description.
+  AtomDescriptionPtr Get(const Element& e, int charge, Geometry g,
+                         SpinStatePreference s) {
+    if (Find(e, charge, g, s) == nullptr) return nullptr;
+    return elements_[e.atomic_number].entries[Index(charge, g, s)];
+  }
+
+ private:
+  struct PerElement {
+    std::once_flag once;
+    std::array<AtomDescriptionPtr, kCharges * kGeometries * kSpins> entries;
+  };
+
+  static int Index(int charge, Geometry g, SpinStatePreference s) {
+    return ((charge - kMinCharge) * kGeometries +
+            (static_cast<int>(g) - 1)) * kSpins + static_cast<int>(s);
+  }
+
+  static void Fill(const Element& e, PerElement* slot) {
+    for (int charge = kMinCharge;
+         charge <= std::min(kMaxCharge, e.atomic_number); ++charge) {
+      absl::StatusOr<Configuration> c =
+          IonConfiguration(e.atomic_number, charge);
+      if (!c.ok()) continue;
+      for (Geometry g : {Geometry::kOctahedral, Geometry::kTetrahedral,
+                         Geometry::kSquarePlanar}) {
+        for (SpinStatePreference s :
+             {SpinStatePreference::kAuto, SpinStatePreference::kHigh,
+              SpinStatePreference::kLow}) {
+          slot->entries[Index(charge, g, s)] =
+              Build(e, charge, *c, /*user_supplied=*/false, g, s);
+        }
+      }
+    }
+  }
+
+  std::array<PerElement, kMaxAtomicNumber + 1> elements_;
+};
+
+LigandFieldCache& FieldCache() {
+  static LigandFieldCache* const kCache = new LigandFieldCache;
+  return *kCache;
+}
+
 }  // namespace
 
 absl::StatusOr<SpeciesSpec> ParseSpeciesSpec(absl::string_view spec) {
@@ -364,6 +432,10 @@ absl::StatusOr<AtomDescriptionPtr> DescribeAtom(const AtomQuery& query) {
   }
   if (query.geometry == Geometry::kFree) {
     return Cache().Get(z, query.charge);
+  }
+  if (AtomDescriptionPtr cached = FieldCache().Get(
+          e, query.charge, query.geometry, query.spin_state)) {
+    return cached;
   }
   absl::StatusOr<Configuration> c = IonConfiguration(z, query.charge);
   if (!c.ok()) return c.status();

@@ -7,6 +7,7 @@
 #include <numeric>
 #include <set>
 
+#include "absl/container/inlined_vector.h"
 #include "absl/strings/str_cat.h"
 #include "engine/internal/data_tables.h"
 
@@ -54,7 +55,9 @@ struct ElementPlan {
   const Element* element;
   int64_t scaled_count;  // count x L, >= 1.
   bool declared = false;
-  std::vector<Option> options;
+  // Inline storage: plans are rebuilt per search stage and must not
+  // allocate.
+  absl::InlinedVector<Option, 24> options;
   int64_t min_contribution = 0;
   int64_t max_contribution = 0;
 };
@@ -85,13 +88,24 @@ int64_t OptionWeight(const Option& o, int64_t scaled_count,
 
 // Builds the options of every element. `common_only` keeps options whose
 // states are all common (declared states are always kept).
+// An option excluded from the search: element index and its states.
+struct Forbidden {
+  int element = -1;
+  int low = 0;
+  int high = 0;
+};
+
+// `wide` is the element allowed uncommon states (-1: none; kAllWide: all).
+constexpr int kAllWide = -2;
+
 std::vector<ElementPlan> BuildPlans(const std::vector<ElementPlan>& base,
-                                    const OxidationOptions& options,
-                                    bool common_only) {
+                                    const OxidationOptions& options, int wide,
+                                    const Forbidden& forbidden) {
   std::vector<ElementPlan> plans = base;
   const int m = MostElectronegative(plans);
   for (size_t i = 0; i < plans.size(); ++i) {
     ElementPlan& p = plans[i];
+    const bool common_only = wide != kAllWide && wide != static_cast<int>(i);
     p.options.clear();
     for (const DeclaredState& d : options.declared) {
       if (d.element != p.element) continue;
@@ -118,6 +132,15 @@ std::vector<ElementPlan> BuildPlans(const std::vector<ElementPlan>& base,
         }
       }
     }
+    if (forbidden.element == static_cast<int>(i)) {
+      absl::InlinedVector<Option, 24> kept;
+      for (const Option& o : p.options) {
+        if (o.low != forbidden.low || o.high != forbidden.high) {
+          kept.push_back(o);
+        }
+      }
+      p.options = std::move(kept);
+    }
     p.min_contribution = std::numeric_limits<int64_t>::max();
     p.max_contribution = std::numeric_limits<int64_t>::min();
     for (Option& o : p.options) {
@@ -143,16 +166,20 @@ struct Solution {
   std::vector<Choice> choices;
 };
 
-// Dynamic programming over charge totals. `forbidden` (element index,
-// option index) excludes one option, for finding alternatives.
-Solution Solve(const std::vector<ElementPlan>& plans, int64_t target,
-               int forbidden_element, int forbidden_option) {
+// Dynamic programming over charge totals.
+Solution Solve(const std::vector<ElementPlan>& plans, int64_t target) {
   const size_t n = plans.size();
   for (const ElementPlan& p : plans) {
     if (p.options.empty()) return {};
   }
   // Range of what elements i.. can still contribute.
-  std::vector<int64_t> rest_min(n + 1, 0), rest_max(n + 1, 0);
+  // Scratch reused across calls on this thread: the solver runs once or
+  // more per record and must not allocate in the common case.
+  thread_local std::vector<int64_t> rest_min, rest_max, lo, hi;
+  thread_local std::vector<std::vector<int64_t>> cost;
+  thread_local std::vector<std::vector<Choice>> back;
+  rest_min.assign(n + 1, 0);
+  rest_max.assign(n + 1, 0);
   for (size_t i = n; i-- > 0;) {
     rest_min[i] = rest_min[i + 1] + plans[i].min_contribution;
     rest_max[i] = rest_max[i + 1] + plans[i].max_contribution;
@@ -160,8 +187,8 @@ Solution Solve(const std::vector<ElementPlan>& plans, int64_t target,
   if (target < rest_min[0] || target > rest_max[0]) return {};
 
   // Layer i holds totals of elements 0..i-1 within [lo[i], hi[i]].
-  std::vector<int64_t> lo(n + 1), hi(n + 1);
-  lo[0] = hi[0] = 0;
+  lo.assign(n + 1, 0);
+  hi.assign(n + 1, 0);
   int64_t prefix_min = 0, prefix_max = 0;
   for (size_t i = 1; i <= n; ++i) {
     prefix_min += plans[i - 1].min_contribution;
@@ -171,8 +198,10 @@ Solution Solve(const std::vector<ElementPlan>& plans, int64_t target,
     if (lo[i] > hi[i] || hi[i] - lo[i] > kMaxWindow) return {};
   }
 
-  std::vector<std::vector<int64_t>> cost(n + 1);
-  std::vector<std::vector<Choice>> back(n + 1);
+  if (cost.size() < n + 1) {
+    cost.resize(n + 1);
+    back.resize(n + 1);
+  }
   cost[0].assign(1, 0);
   for (size_t i = 0; i < n; ++i) {
     const ElementPlan& p = plans[i];
@@ -184,9 +213,6 @@ Solution Solve(const std::vector<ElementPlan>& plans, int64_t target,
     const int64_t prev_lo = lo[i], prev_hi = hi[i];
     const int64_t c = p.scaled_count;
     for (int oi = 0; oi < static_cast<int>(p.options.size()); ++oi) {
-      if (static_cast<int>(i) == forbidden_element && oi == forbidden_option) {
-        continue;
-      }
       const Option& o = p.options[oi];
       if (o.low == o.high) {
         const int64_t shift = c * o.low;
@@ -213,11 +239,15 @@ Solution Solve(const std::vector<ElementPlan>& plans, int64_t target,
         // Walk totals t of one residue class in increasing order; the
         // window for t covers q = t - base + k*d, k = 1..c-1.
         int64_t t0 = lo[i + 1] + ((r - (lo[i + 1] % d)) % d + d) % d;
+        if (t0 > hi[i + 1]) continue;
         std::deque<std::pair<int64_t, int64_t>> window;  // (q, cost)
-        int64_t next_q = t0 - base + d;                  // First q to add.
+        // First q to add: the smallest candidate of t0 that lies in the
+        // previous window (candidates below prev_lo never matter).
+        int64_t next_q = t0 - base + d;
+        if (next_q < prev_lo) next_q += (prev_lo - next_q + d - 1) / d * d;
         for (int64_t t = t0; t <= hi[i + 1]; t += d) {
           const int64_t q_first = t - base + d;
-          const int64_t q_last = t - base + (c - 1) * d;
+          const int64_t q_last = std::min(t - base + (c - 1) * d, prev_hi);
           while (next_q <= q_last) {
             if (next_q >= prev_lo && next_q <= prev_hi) {
               const int64_t w = prev[next_q - prev_lo];
@@ -289,6 +319,46 @@ OxidationAssignment ToAssignment(const std::vector<ElementPlan>& plans,
   return a;
 }
 
+struct Staged {
+  std::vector<ElementPlan> plans;
+  Solution solution;
+};
+
+// Finds the best assignment by widening the search in stages, each exact
+// for what it decides:
+//   1. common states only: any solution here outranks all others;
+//   2. one element at a time may take uncommon states: if the best has a
+//      single uncommon state, no solution with more can beat it;
+//   3. every known state for every element.
+// Stages 1 and 2 keep the charge windows narrow, which is what makes the
+// typical record cheap.
+Staged SolveStaged(const std::vector<ElementPlan>& base,
+                   const OxidationOptions& options, int64_t target,
+                   const Forbidden& forbidden) {
+  Staged best;
+  best.plans = BuildPlans(base, options, -1, forbidden);
+  best.solution = Solve(best.plans, target);
+  if (best.solution.weight < kInfinity) return best;
+  for (size_t k = 0; k < base.size(); ++k) {
+    std::vector<ElementPlan> plans =
+        BuildPlans(base, options, static_cast<int>(k), forbidden);
+    Solution s = Solve(plans, target);
+    if (s.weight < best.solution.weight) {
+      best.plans = std::move(plans);
+      best.solution = std::move(s);
+    }
+  }
+  if (best.solution.weight < 2 * kUncommonWeight) return best;
+  std::vector<ElementPlan> plans =
+      BuildPlans(base, options, kAllWide, forbidden);
+  Solution s = Solve(plans, target);
+  if (s.weight < best.solution.weight) {
+    best.plans = std::move(plans);
+    best.solution = std::move(s);
+  }
+  return best;
+}
+
 }  // namespace
 
 absl::Span<const KnownOxidationState> KnownOxidationStates(
@@ -297,12 +367,20 @@ absl::Span<const KnownOxidationState> KnownOxidationStates(
 }
 
 bool IsMetal(const Element& e) {
-  static const std::set<absl::string_view>* const kNonMetals =
-      new std::set<absl::string_view>{
-          "H",  "He", "B",  "C",  "N",  "O",  "F",  "Ne", "Si",
+  static const std::array<bool, kMaxAtomicNumber + 1>* const kMetal = [] {
+    auto* metal = new std::array<bool, kMaxAtomicNumber + 1>;
+    metal->fill(true);
+    for (absl::string_view symbol :
+         {"H",  "He", "B",  "C",  "N",  "O",  "F",  "Ne", "Si",
           "P",  "S",  "Cl", "Ar", "Ge", "As", "Se", "Br", "Kr",
-          "Sb", "Te", "I",  "Xe", "At", "Rn", "Ts", "Og"};
-  return kNonMetals->count(e.symbol) == 0;
+          "Sb", "Te", "I",  "Xe", "At", "Rn", "Ts", "Og"}) {
+      if (const Element* n = FindElementBySymbol(symbol)) {
+        (*metal)[n->atomic_number] = false;
+      }
+    }
+    return metal;
+  }();
+  return (*kMetal)[e.atomic_number];
 }
 
 absl::StatusOr<OxidationResult> AssignOxidationStates(
@@ -367,51 +445,33 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
   }
   const int64_t target = static_cast<int64_t>(options.net_charge) * scale;
 
-  // Common states first: any such solution outranks every solution with an
-  // uncommon state, and the search is much smaller.
-  std::vector<ElementPlan> plans = BuildPlans(base, options, true);
-  Solution best = Solve(plans, target, -1, -1);
-  if (best.weight >= kInfinity) {
-    plans = BuildPlans(base, options, false);
-    best = Solve(plans, target, -1, -1);
-  }
-  if (best.weight >= kInfinity) {
+  const Staged best = SolveStaged(base, options, target, Forbidden());
+  if (best.solution.weight >= kInfinity) {
     if (!undeclared) {
       OxidationOptions free = options;
       free.declared.clear();
-      free.max_alternatives = 0;
-      std::vector<ElementPlan> free_plans = BuildPlans(base, free, true);
-      Solution s = Solve(free_plans, target, -1, -1);
-      if (s.weight >= kInfinity) {
-        free_plans = BuildPlans(base, free, false);
-        s = Solve(free_plans, target, -1, -1);
-      }
-      if (s.weight < kInfinity) {
-        result.without_declared = ToAssignment(free_plans, s, scale);
+      const Staged s = SolveStaged(base, free, target, Forbidden());
+      if (s.solution.weight < kInfinity) {
+        result.without_declared = ToAssignment(s.plans, s.solution, scale);
       }
     }
     return result;
   }
-  result.best = ToAssignment(plans, best, scale);
+  result.best = ToAssignment(best.plans, best.solution, scale);
 
   if (options.max_alternatives > 0) {
     // Alternatives: forbid, one element at a time, the option the best
-    // assignment chose for it, over all known states.
-    std::vector<ElementPlan> all = BuildPlans(base, options, false);
+    // assignment chose for it, and take the best of what remains.
     std::vector<std::pair<int64_t, OxidationAssignment>> found;
-    for (size_t i = 0; i < all.size(); ++i) {
-      if (all[i].declared) continue;
-      const Option& chosen = plans[i].options[best.choices[i].option];
-      int forbidden = -1;
-      for (size_t oi = 0; oi < all[i].options.size(); ++oi) {
-        if (all[i].options[oi].low == chosen.low &&
-            all[i].options[oi].high == chosen.high) {
-          forbidden = static_cast<int>(oi);
-        }
-      }
-      Solution s = Solve(all, target, static_cast<int>(i), forbidden);
-      if (s.weight >= kInfinity) continue;
-      OxidationAssignment a = ToAssignment(all, s, scale);
+    for (size_t i = 0; i < base.size(); ++i) {
+      if (best.plans[i].declared) continue;
+      const Option& chosen =
+          best.plans[i].options[best.solution.choices[i].option];
+      const Staged s = SolveStaged(
+          base, options, target,
+          Forbidden{static_cast<int>(i), chosen.low, chosen.high});
+      if (s.solution.weight >= kInfinity) continue;
+      OxidationAssignment a = ToAssignment(s.plans, s.solution, scale);
       bool duplicate = false;
       for (const auto& [w, other] : found) {
         if (other.states.size() != a.states.size()) continue;
@@ -423,7 +483,7 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
         }
         duplicate |= same;
       }
-      if (!duplicate) found.emplace_back(s.weight, std::move(a));
+      if (!duplicate) found.emplace_back(s.solution.weight, std::move(a));
     }
     std::stable_sort(found.begin(), found.end(),
                      [](const auto& x, const auto& y) {
