@@ -8,6 +8,7 @@
 #include "absl/strings/str_join.h"
 #include "absl/strings/strip.h"
 #include "clients/cli/atom_format.h"
+#include "clients/cli/fast_json.h"
 #include "google/protobuf/util/json_util.h"
 
 namespace shellwright::cli {
@@ -30,6 +31,45 @@ std::string CsvQuote(absl::string_view field) {
   }
   out.push_back('"');
   return out;
+}
+
+// Replaces bytes that are not valid UTF-8 with U+FFFD: proto strings must
+// be UTF-8, and a record id must survive the round trip as text.
+void SanitizeUtf8(std::string* s) {
+  size_t i = 0;
+  while (i < s->size() && static_cast<unsigned char>((*s)[i]) < 0x80) ++i;
+  if (i == s->size()) return;  // ASCII fast path.
+  std::string out(s->data(), i);
+  while (i < s->size()) {
+    const unsigned char c = static_cast<unsigned char>((*s)[i]);
+    size_t len = 0;
+    if (c < 0x80) {
+      len = 1;
+    } else if (c >= 0xC2 && c <= 0xDF) {
+      len = 2;
+    } else if (c >= 0xE0 && c <= 0xEF) {
+      len = 3;
+    } else if (c >= 0xF0 && c <= 0xF4) {
+      len = 4;
+    }
+    bool ok = len > 0 && i + len <= s->size();
+    for (size_t k = 1; ok && k < len; ++k) {
+      ok = (static_cast<unsigned char>((*s)[i + k]) & 0xC0) == 0x80;
+    }
+    if (ok && len >= 3) {
+      const unsigned char c1 = static_cast<unsigned char>((*s)[i + 1]);
+      ok = !(c == 0xE0 && c1 < 0xA0) && !(c == 0xED && c1 >= 0xA0) &&
+           !(c == 0xF0 && c1 < 0x90) && !(c == 0xF4 && c1 >= 0x90);
+    }
+    if (ok) {
+      out.append(*s, i, len);
+      i += len;
+    } else {
+      out.append("\xEF\xBF\xBD");
+      ++i;
+    }
+  }
+  *s = std::move(out);
 }
 
 }  // namespace
@@ -76,6 +116,7 @@ bool SplitCsvLine(absl::string_view line, std::vector<std::string>* fields,
       }
       field.push_back(line[i++]);
     }
+    SanitizeUtf8(&field);
     fields->push_back(std::move(field));
     field.clear();
     if (i >= line.size()) break;
@@ -121,7 +162,9 @@ ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) const {
     const size_t comma = line.find(',');
     if (index_.at("id") == 0 && comma != absl::string_view::npos &&
         line.substr(0, comma).find('"') == absl::string_view::npos) {
-      p.record.set_id(std::string(line.substr(0, comma)));
+      std::string id(line.substr(0, comma));
+      SanitizeUtf8(&id);
+      p.record.set_id(std::move(id));
     }
     return p;
   }
@@ -208,7 +251,9 @@ v1::RecordReport MalformedRecordReport(const ParsedLine& line) {
 }
 
 std::string ReportToJsonLine(const v1::RecordReport& report) {
-  return ToJson(report, /*pretty=*/false);
+  std::string out;
+  AppendCompactJson(report, &out);
+  return out;
 }
 
 std::string ReportCsvHeader() {

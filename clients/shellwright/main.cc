@@ -59,6 +59,8 @@ Commands:
       --out-format F       output format csv|jsonl (default: by extension)
       --jobs N             worker threads (default: all cores)
       --batch-size N       records per batch (default 500)
+      --alternatives K     alternatives per record without its own
+                           max_alternatives, 0-5 (default 0)
       --no-progress        no progress bar even on a terminal
   elements         list the element table (--json for JSON)
   help             print this text
@@ -296,6 +298,12 @@ int RunCheck(const Args& args, Backend* remote) {
     if (!absl::SimpleAtoi(*v, &options.batch_size) ||
         options.batch_size < 1 || options.batch_size > 10000) {
       return Usage("--batch-size must be an integer from 1 to 10000");
+    }
+  }
+  if (const std::string* v = get("alternatives")) {
+    if (!absl::SimpleAtoi(*v, &options.default_alternatives) ||
+        options.default_alternatives < 0 || options.default_alternatives > 5) {
+      return Usage("--alternatives must be an integer from 0 to 5");
     }
   }
   options.progress = !args.flags.count("no-progress") && isatty(2) &&

@@ -1,0 +1,224 @@
+#include "clients/cli/fast_json.h"
+
+#include <charconv>
+#include <cmath>
+#include <cstdio>
+#include <cstdlib>
+
+#include "absl/strings/str_cat.h"
+#include "google/protobuf/descriptor.h"
+
+namespace shellwright::cli {
+namespace {
+
+using google::protobuf::FieldDescriptor;
+using google::protobuf::Message;
+using google::protobuf::Reflection;
+
+// The protobuf printer's escaping: short escapes for \b \t \n \f \r, \"
+// and \\; \u00XX for other control characters, DEL, '<' and '>'; \u2028
+// and \u2029; everything else (valid UTF-8) as is.
+inline bool NeedsEscape(unsigned char c) {
+  return c < 0x20 || c == '"' || c == '\\' || c == 0x7f || c == '<' ||
+         c == '>' || c == 0xE2;
+}
+
+void AppendEscaped(const std::string& s, std::string* out) {
+  out->push_back('"');
+  size_t run = 0;  // Start of the pending run of plain bytes.
+  for (size_t i = 0; i < s.size(); ++i) {
+    const unsigned char c = static_cast<unsigned char>(s[i]);
+    if (!NeedsEscape(c)) continue;
+    if (c == 0xE2) {
+      // Only U+2028 and U+2029 are escaped among multi-byte characters.
+      if (!(i + 2 < s.size() && static_cast<unsigned char>(s[i + 1]) == 0x80 &&
+            (static_cast<unsigned char>(s[i + 2]) == 0xA8 ||
+             static_cast<unsigned char>(s[i + 2]) == 0xA9))) {
+        continue;
+      }
+      out->append(s, run, i - run);
+      out->append(static_cast<unsigned char>(s[i + 2]) == 0xA8 ? "\\u2028"
+                                                              : "\\u2029");
+      i += 2;
+      run = i + 1;
+      continue;
+    }
+    out->append(s, run, i - run);
+    run = i + 1;
+    switch (c) {
+      case '"':
+        out->append("\\\"");
+        break;
+      case '\\':
+        out->append("\\\\");
+        break;
+      case '\b':
+        out->append("\\b");
+        break;
+      case '\t':
+        out->append("\\t");
+        break;
+      case '\n':
+        out->append("\\n");
+        break;
+      case '\f':
+        out->append("\\f");
+        break;
+      case '\r':
+        out->append("\\r");
+        break;
+      default: {
+        char buf[8];
+        std::snprintf(buf, sizeof(buf), "\\u%04x", c);
+        out->append(buf);
+      }
+    }
+  }
+  out->append(s, run, s.size() - run);
+  out->push_back('"');
+}
+
+// Shortest of %.15g / %.17g that round-trips, as the protobuf printer does.
+// std::to_chars with a precision formats exactly as printf would, much
+// faster.
+void AppendDouble(double v, std::string* out) {
+  if (std::isnan(v)) {
+    out->append("\"NaN\"");
+    return;
+  }
+  if (std::isinf(v)) {
+    out->append(v > 0 ? "\"Infinity\"" : "\"-Infinity\"");
+    return;
+  }
+  char buf[40];
+  auto r = std::to_chars(buf, buf + sizeof(buf), v,
+                         std::chars_format::general, 15);
+  double back = 0;
+  std::from_chars(buf, r.ptr, back);
+  if (back != v) {
+    r = std::to_chars(buf, buf + sizeof(buf), v, std::chars_format::general,
+                      17);
+  }
+  out->append(buf, r.ptr - buf);
+}
+
+void AppendFloat(float v, std::string* out) {
+  if (std::isnan(v) || std::isinf(v)) {
+    AppendDouble(v, out);
+    return;
+  }
+  char buf[40];
+  std::snprintf(buf, sizeof(buf), "%.6g", v);
+  if (std::strtof(buf, nullptr) != v) {
+    std::snprintf(buf, sizeof(buf), "%.9g", v);
+  }
+  out->append(buf);
+}
+
+void AppendValue(const Message& m, const Reflection& r,
+                 const FieldDescriptor& f, int index, std::string* out) {
+  const bool rep = f.is_repeated();
+  switch (f.cpp_type()) {
+    case FieldDescriptor::CPPTYPE_INT32:
+      absl::StrAppend(out, rep ? r.GetRepeatedInt32(m, &f, index)
+                               : r.GetInt32(m, &f));
+      break;
+    case FieldDescriptor::CPPTYPE_UINT32:
+      absl::StrAppend(out, rep ? r.GetRepeatedUInt32(m, &f, index)
+                               : r.GetUInt32(m, &f));
+      break;
+    case FieldDescriptor::CPPTYPE_INT64:
+      absl::StrAppend(out, "\"",
+                      rep ? r.GetRepeatedInt64(m, &f, index)
+                          : r.GetInt64(m, &f),
+                      "\"");
+      break;
+    case FieldDescriptor::CPPTYPE_UINT64:
+      absl::StrAppend(out, "\"",
+                      rep ? r.GetRepeatedUInt64(m, &f, index)
+                          : r.GetUInt64(m, &f),
+                      "\"");
+      break;
+    case FieldDescriptor::CPPTYPE_DOUBLE:
+      AppendDouble(rep ? r.GetRepeatedDouble(m, &f, index) : r.GetDouble(m, &f),
+                   out);
+      break;
+    case FieldDescriptor::CPPTYPE_FLOAT:
+      AppendFloat(rep ? r.GetRepeatedFloat(m, &f, index) : r.GetFloat(m, &f),
+                  out);
+      break;
+    case FieldDescriptor::CPPTYPE_BOOL:
+      out->append((rep ? r.GetRepeatedBool(m, &f, index) : r.GetBool(m, &f))
+                      ? "true"
+                      : "false");
+      break;
+    case FieldDescriptor::CPPTYPE_ENUM: {
+      const auto* value =
+          rep ? r.GetRepeatedEnum(m, &f, index) : r.GetEnum(m, &f);
+      AppendEscaped(value->name(), out);
+      break;
+    }
+    case FieldDescriptor::CPPTYPE_STRING: {
+      std::string scratch;
+      const std::string& s =
+          rep ? r.GetRepeatedStringReference(m, &f, index, &scratch)
+              : r.GetStringReference(m, &f, &scratch);
+      AppendEscaped(s, out);
+      break;
+    }
+    case FieldDescriptor::CPPTYPE_MESSAGE:
+      AppendCompactJson(
+          rep ? r.GetRepeatedMessage(m, &f, index) : r.GetMessage(m, &f), out);
+      break;
+  }
+}
+
+}  // namespace
+
+void AppendCompactJson(const Message& message, std::string* out) {
+  const auto* descriptor = message.GetDescriptor();
+  const Reflection* r = message.GetReflection();
+  out->push_back('{');
+  bool first = true;
+  auto key = [&](const FieldDescriptor* f) {
+    if (!first) out->push_back(',');
+    first = false;
+    AppendEscaped(f->name(), out);
+    out->push_back(':');
+  };
+  // The protobuf printer emits, in declaration order, repeated fields,
+  // plain scalars (always) and set message fields; then the set scalars
+  // that track presence (proto3 optional and oneof members), again in
+  // declaration order.
+  auto scalar_with_presence = [](const FieldDescriptor* f) {
+    return !f->is_repeated() && f->has_presence() &&
+           f->cpp_type() != FieldDescriptor::CPPTYPE_MESSAGE;
+  };
+  for (int i = 0; i < descriptor->field_count(); ++i) {
+    const FieldDescriptor* f = descriptor->field(i);
+    if (f->is_repeated()) {
+      key(f);
+      out->push_back('[');
+      const int n = r->FieldSize(message, f);
+      for (int k = 0; k < n; ++k) {
+        if (k > 0) out->push_back(',');
+        AppendValue(message, *r, *f, k, out);
+      }
+      out->push_back(']');
+      continue;
+    }
+    if (scalar_with_presence(f)) continue;
+    if (f->has_presence() && !r->HasField(message, f)) continue;
+    key(f);
+    AppendValue(message, *r, *f, -1, out);
+  }
+  for (int i = 0; i < descriptor->field_count(); ++i) {
+    const FieldDescriptor* f = descriptor->field(i);
+    if (!scalar_with_presence(f) || !r->HasField(message, f)) continue;
+    key(f);
+    AppendValue(message, *r, *f, -1, out);
+  }
+  out->push_back('}');
+}
+
+}  // namespace shellwright::cli

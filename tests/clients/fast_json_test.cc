@@ -1,0 +1,84 @@
+// Tests that clients/cli/fast_json.h prints exactly what the protobuf JSON
+// printer prints with the CLI's options, for every field kind and for
+// every character class that needs escaping.
+
+#include "clients/cli/fast_json.h"
+
+#include <random>
+#include <string>
+
+#include "clients/cli/atom_format.h"
+#include "gtest/gtest.h"
+#include "server/convert.h"
+#include "shellwright/v1/electron_structure.pb.h"
+
+namespace shellwright::cli {
+namespace {
+
+std::string Fast(const google::protobuf::Message& m) {
+  std::string out;
+  AppendCompactJson(m, &out);
+  return out;
+}
+
+TEST(FastJson, MatchesTheProtobufPrinterOnAllAsciiAndSpecialCharacters) {
+  v1::RecordReport r;
+  std::string s;
+  for (int c = 1; c < 128; ++c) s.push_back(static_cast<char>(c));
+  s += "·₂é\u2028\u2029\xe2\x80\xa7";
+  r.set_id(s);
+  r.set_formula("Fe<2>O&3");
+  EXPECT_EQ(Fast(r), ToJson(r, /*pretty=*/false));
+}
+
+TEST(FastJson, MatchesOnDoublesOfEveryShape) {
+  std::mt19937_64 rng(7);
+  std::uniform_real_distribution<double> unit(0, 1);
+  const double fixed[] = {0,      0.1,   1.0 / 3, 2.5,    1e21,  1e-7,
+                          123456789012345678.0, -0.0,  5e-324, 1.7976931348623157e308,
+                          7.9372539331937721, 4.898979485566356};
+  for (double v : fixed) {
+    v1::RecordReport r;
+    r.set_score(v);
+    r.set_curie_constant(-v);
+    EXPECT_EQ(Fast(r), ToJson(r, false)) << v;
+  }
+  for (int i = 0; i < 20000; ++i) {
+    v1::RecordReport r;
+    r.set_score(unit(rng) * std::pow(10.0, static_cast<int>(rng() % 40) - 20));
+    EXPECT_EQ(Fast(r), ToJson(r, false));
+  }
+}
+
+TEST(FastJson, MatchesOnRealReportsAndDescriptions) {
+  for (const char* formula :
+       {"Fe3O4", "La0.7Sr0.3MnO3", "CuSO4·5H2O", "Fe2O3)", "NaF2",
+        "AlCoCrFeNi", "K3[Fe(CN)6]", "Li0.5CoO2", "Gd2O3"}) {
+    v1::CompositionRecord record;
+    record.set_id(std::string("id-") + formula);
+    record.set_formula(formula);
+    record.set_max_alternatives(2);
+    record.set_measured_moment(3.3);
+    v1::RecordReport report;
+    AnalyzeRecordToReport(record, &report);
+    EXPECT_EQ(Fast(report), ToJson(report, false)) << formula;
+  }
+  // Messages with oneofs, proto3 optional fields, enums and nested
+  // messages.
+  v1::DescribeAtomsRequest request;
+  request.add_requests()->set_spec("Gd3+");
+  request.add_requests()->set_atomic_number(26);
+  request.mutable_requests(1)->set_charge(0);
+  request.mutable_requests(1)->set_geometry(v1::GEOMETRY_OCTAHEDRAL);
+  request.add_requests()->set_spec("Xx");
+  EXPECT_EQ(Fast(request), ToJson(request, false));
+  v1::DescribeAtomsResponse response;
+  ASSERT_TRUE(DescribeAtomsMessage(request, &response).ok());
+  EXPECT_EQ(Fast(response), ToJson(response, false));
+  v1::ListElementsResponse elements;
+  ListElementsMessage(&elements);
+  EXPECT_EQ(Fast(elements), ToJson(elements, false));
+}
+
+}  // namespace
+}  // namespace shellwright::cli
