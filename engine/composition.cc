@@ -281,7 +281,7 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
                        ", which the formula does not contain"));
       continue;
     }
-    bool known = false;
+    bool known = state == 0;  // The elemental state is implied.
     for (const KnownOxidationState& k : KnownOxidationStates(*e)) {
       known |= k.state == state;
     }

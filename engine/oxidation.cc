@@ -22,9 +22,14 @@ constexpr int64_t kMaxWindow = 4000000;
 // Lexicographic ranking packed into one integer: uncommon states, then
 // electronegativity inconsistencies, then spread (bounded by
 // kMaxScaledAtoms x 16 < 2^36).
-constexpr int64_t kUncommonWeight = int64_t{1} << 42;
-constexpr int64_t kInconsistencyWeight = int64_t{1} << 36;
-constexpr int64_t kInfinity = std::numeric_limits<int64_t>::max() / 4;
+// Tiers, each strictly above the largest sum of the tiers below it given
+// at most kMaxDistinctElements elements and kMaxScaledAtoms atoms:
+// spread < 16 x 10^6 < 2^24; group gap < 7 x 10^6 < 2^23 (x 2^24 < 2^47);
+// inconsistencies <= 48 (x 2^48 < 2^54); uncommon <= 96 (x 2^54 < 2^61).
+constexpr int64_t kUncommonWeight = int64_t{1} << 54;
+constexpr int64_t kInconsistencyWeight = int64_t{1} << 48;
+constexpr int64_t kGroupGapWeight = int64_t{1} << 24;
+constexpr int64_t kInfinity = int64_t{1} << 62;
 
 struct StateTable {
   std::array<std::vector<KnownOxidationState>, kMaxAtomicNumber + 1> by_z;
@@ -76,14 +81,29 @@ int MostElectronegative(const std::vector<ElementPlan>& plans) {
   return best;
 }
 
-int64_t OptionWeight(const Option& o, int64_t scaled_count,
+// How far a positive state of a main-group (p-block) element falls below
+// its group oxidation state (group - 10): P+3 in a phosphate scores 2, P+5
+// scores 0. Oxyanions put their central atom in the group state (common
+// practice, no source), which settles ties such as LiMnPO4 (Mn+2 P+5, not
+// Mn+4 P+3).
+int GroupGap(const Element& e, int state) {
+  if (e.block != Block::kP || e.group < 13 || state <= 0) return 0;
+  const int group_state = e.group - 10;
+  return state < group_state ? group_state - state : 0;
+}
+
+int64_t OptionWeight(const Element& e, const Option& o, int64_t scaled_count,
                      bool is_most_electronegative) {
   const bool mixed = o.low != o.high;
   int uncommon = (o.low_common ? 0 : 1) + (mixed && !o.high_common ? 1 : 0);
   bool inconsistent = is_most_electronegative ? (o.high > 0) : (o.low < 0);
   const int64_t spread = mixed ? scaled_count * (o.high - o.low) : 0;
+  // For a mixed option the split is unknown here; charge the gap of the
+  // upper state, the smaller of the two.
+  const int64_t gap = scaled_count * GroupGap(e, o.high);
   return uncommon * kUncommonWeight +
-         (inconsistent ? kInconsistencyWeight : 0) + spread;
+         (inconsistent ? kInconsistencyWeight : 0) + gap * kGroupGapWeight +
+         spread;
 }
 
 // Builds the options of every element. `common_only` keeps options whose
@@ -110,7 +130,7 @@ std::vector<ElementPlan> BuildPlans(const std::vector<ElementPlan>& base,
     for (const DeclaredState& d : options.declared) {
       if (d.element != p.element) continue;
       p.declared = true;
-      bool common = false;
+      bool common = d.state == 0;  // The elemental state is always known.
       for (const KnownOxidationState& k :
            States().by_z[p.element->atomic_number]) {
         if (k.state == d.state) common = k.common;
@@ -144,7 +164,8 @@ std::vector<ElementPlan> BuildPlans(const std::vector<ElementPlan>& base,
     p.min_contribution = std::numeric_limits<int64_t>::max();
     p.max_contribution = std::numeric_limits<int64_t>::min();
     for (Option& o : p.options) {
-      o.weight = OptionWeight(o, p.scaled_count, static_cast<int>(i) == m);
+      o.weight = OptionWeight(*p.element, o, p.scaled_count,
+                              static_cast<int>(i) == m);
       p.min_contribution =
           std::min(p.min_contribution, p.scaled_count * o.low);
       p.max_contribution =
@@ -314,8 +335,14 @@ OxidationAssignment ToAssignment(const std::vector<ElementPlan>& plans,
   }
   a.electronegativity_inconsistencies = static_cast<int>(
       (s.weight % kUncommonWeight) / kInconsistencyWeight);
+  int64_t gap = 0;
+  for (const AssignedState& st : a.states) {
+    gap += GroupGap(*st.element, st.state) * (st.count.num() * scale /
+                                              st.count.den());
+  }
   a.score = 100.0 * a.uncommon_states +
-            10.0 * a.electronegativity_inconsistencies + a.spread.ToDouble();
+            10.0 * a.electronegativity_inconsistencies +
+            static_cast<double>(gap) / scale + a.spread.ToDouble();
   return a;
 }
 
@@ -388,6 +415,11 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
   if (formula.amounts.empty()) {
     return absl::InvalidArgumentError("formula has no elements");
   }
+  if (formula.amounts.size() > kMaxDistinctElements) {
+    return absl::InvalidArgumentError(absl::StrCat(
+        "formula has ", formula.amounts.size(),
+        " distinct elements, above the limit of ", kMaxDistinctElements));
+  }
   for (const DeclaredState& d : options.declared) {
     bool present = false;
     for (const ElementAmount& a : formula.amounts) {
@@ -401,7 +433,11 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
   }
   OxidationResult result;
   const bool undeclared = options.declared.empty();
-  if (options.net_charge == 0 && undeclared) {
+  bool declared_all_zero = true;
+  for (const DeclaredState& d : options.declared) {
+    declared_all_zero &= d.state == 0;
+  }
+  if (options.net_charge == 0 && declared_all_zero) {
     bool all_metal = true;
     for (const ElementAmount& a : formula.amounts) {
       all_metal &= IsMetal(*a.element);
@@ -411,7 +447,11 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
                                                 : CompositionKind::kMetallic;
       OxidationAssignment a;
       for (const ElementAmount& amount : formula.amounts) {
-        a.states.push_back({amount.element, 0, amount.count, true, false});
+        bool declared = false;
+        for (const DeclaredState& d : options.declared) {
+          declared |= d.element == amount.element;
+        }
+        a.states.push_back({amount.element, 0, amount.count, true, declared});
       }
       result.best = a;
       return result;

@@ -13,10 +13,14 @@
 //   2. electronegativity consistency: the most electronegative element
 //      (Pauling) should take a negative state and no other element should;
 //      each element that breaks this counts once;
-//   3. smallest spread: the sum over mixed-valence elements of
+//   3. main-group elements in positive states closest to their group
+//      oxidation state (group - 10), as the central atoms of oxyanions are:
+//      sulfate S+6, phosphate P+5 (common practice, no source); the gap
+//      counts once per atom;
+//   4. smallest spread: the sum over mixed-valence elements of
 //      count x (upper state - lower state), so single valence wins ties.
-// `score` combines them as 100 x uncommon + 10 x inconsistencies + spread;
-// 0 is a perfect assignment and lower is better.
+// `score` combines them as 100 x uncommon + 10 x inconsistencies + group
+// gap + spread; 0 is a perfect assignment and lower is better.
 //
 // The search is dynamic programming over the reachable charge totals, one
 // element at a time, with counts scaled to integers by the least common
@@ -54,6 +58,9 @@ namespace shellwright {
 // divided to balance exactly (counts with six decimals need at most 10^6).
 inline constexpr int64_t kMaxStoichiometryDenominator = 1000000;
 
+// Most distinct elements a formula may hold for balancing.
+inline constexpr size_t kMaxDistinctElements = 48;
+
 // A known oxidation state of an element (data/oxidation_states.tsv).
 struct KnownOxidationState {
   int state;
@@ -82,7 +89,7 @@ struct OxidationAssignment {
   int uncommon_states = 0;
   int electronegativity_inconsistencies = 0;
   Rational spread;
-  double score = 0;  // 100 x uncommon + 10 x inconsistencies + spread.
+  double score = 0;  // 100 x uncommon + 10 x inconsistencies + gap + spread.
 };
 
 enum class CompositionKind { kIonic, kMetallic, kElemental };
