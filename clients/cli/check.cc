@@ -220,17 +220,6 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
     }
     in = &in_file;
   }
-  std::ofstream out_file;
-  std::ostream* out = &std::cout;
-  if (options.output != "-") {
-    out_file.open(options.output, std::ios::binary | std::ios::trunc);
-    if (!out_file) {
-      return absl::PermissionDeniedError(
-          absl::StrCat("cannot open output '", options.output, "'"));
-    }
-    out = &out_file;
-  }
-
   // The CSV header is read up front so that a bad header is a usage error.
   CsvRecordReader csv;
   int line_no = 0;
@@ -249,6 +238,19 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
     absl::Status s = csv.ReadHeader(line);
     if (!s.ok()) return s;
   }
+  // Opened only once the input looks usable, so that a usage error never
+  // truncates an existing output file.
+  std::ofstream out_file;
+  std::ostream* out = &std::cout;
+  if (options.output != "-") {
+    out_file.open(options.output, std::ios::binary | std::ios::trunc);
+    if (!out_file) {
+      return absl::PermissionDeniedError(
+          absl::StrCat("cannot open output '", options.output, "'"));
+    }
+    out = &out_file;
+  }
+
   if (out_format == RecordFormat::kCsv) *out << ReportCsvHeader() << "\n";
 
   const int jobs = options.jobs > 0

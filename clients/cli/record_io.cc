@@ -174,6 +174,7 @@ ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) const {
     return fields[it->second];
   };
   if (fields.size() > index_.at("id")) p.record.set_id(get("id"));
+  if (fields.size() > index_.at("formula")) p.record.set_formula(get("formula"));
   if (fields.size() != columns_.size()) {
     p.error = absl::StrCat("line has ", fields.size(), " fields, the header ",
                            columns_.size());
@@ -242,6 +243,7 @@ v1::RecordReport MalformedRecordReport(const ParsedLine& line) {
   v1::RecordReport r;
   r.set_id(line.record.id().substr(0, 256));
   r.set_row(line.record.row());
+  r.set_formula(line.record.formula().substr(0, 1024));
   r.set_valid(false);
   v1::Diagnostic* d = r.add_diagnostics();
   d->set_severity("error");

@@ -1,0 +1,442 @@
+// Tests for `shellwright check` (clients/cli/check.h, record_io.h): batch
+// validation of CSV and JSONL record files, by running the real binary.
+
+#include <stdlib.h>
+
+#include <filesystem>
+#include <fstream>
+#include <sstream>
+#include <string>
+#include <vector>
+
+#include "gmock/gmock.h"
+#include "google/protobuf/util/json_util.h"
+#include "gtest/gtest.h"
+#include "shellwright/v1/electron_structure.pb.h"
+#include "tests/testing/subprocess.h"
+
+namespace shellwright {
+namespace {
+
+using ::shellwright::testing::BinPath;
+using ::shellwright::testing::CommandResult;
+using ::shellwright::testing::RunCommand;
+using ::testing::ContainsRegex;
+using ::testing::HasSubstr;
+using ::testing::IsEmpty;
+using ::testing::StartsWith;
+
+constexpr char kHeader[] = "id,formula,charge,declared_states,measured_moment";
+
+CommandResult Check(std::vector<std::string> args,
+                    const std::string& stdin_text = "") {
+  args.insert(args.begin(), {BinPath("clients/shellwright"), "check"});
+  return RunCommand(args, stdin_text);
+}
+
+std::vector<std::string> SplitLines(const std::string& text) {
+  std::vector<std::string> lines;
+  std::istringstream in(text);
+  std::string line;
+  while (std::getline(in, line)) lines.push_back(line);
+  return lines;
+}
+
+std::string ReadFile(const std::string& path) {
+  std::ifstream in(path, std::ios::binary);
+  std::ostringstream out;
+  out << in.rdbuf();
+  return out.str();
+}
+
+void WriteFile(const std::string& path, const std::string& content) {
+  std::ofstream out(path, std::ios::binary | std::ios::trunc);
+  out << content;
+  ASSERT_TRUE(out.good()) << path;
+}
+
+bool HasErrorWithCode(const v1::RecordReport& r, const std::string& code) {
+  for (const v1::Diagnostic& d : r.diagnostics()) {
+    if (d.severity() == "error" && d.code() == code) return true;
+  }
+  return false;
+}
+
+bool HasDiagnostic(const v1::RecordReport& r, const std::string& severity,
+                   const std::string& code) {
+  for (const v1::Diagnostic& d : r.diagnostics()) {
+    if (d.severity() == severity && d.code() == code) return true;
+  }
+  return false;
+}
+
+// Parses JSONL reports, one per line; checks on every report that `valid`
+// is false exactly when a diagnostic has severity "error".
+std::vector<v1::RecordReport> ParseReports(const std::string& jsonl) {
+  std::vector<v1::RecordReport> reports;
+  for (const std::string& line : SplitLines(jsonl)) {
+    v1::RecordReport r;
+    const auto status = google::protobuf::util::JsonStringToMessage(line, &r);
+    EXPECT_TRUE(status.ok()) << status << ": " << line;
+    bool has_error = false;
+    for (const v1::Diagnostic& d : r.diagnostics()) {
+      EXPECT_THAT(d.severity(), ::testing::AnyOf("error", "warning", "info"))
+          << line;
+      has_error = has_error || d.severity() == "error";
+    }
+    EXPECT_EQ(r.valid(), !has_error) << line;
+    reports.push_back(std::move(r));
+  }
+  return reports;
+}
+
+// What one generated input row should produce.
+struct ExpectedRow {
+  int row = 0;
+  std::string id;          // Expected echoed id; unchecked if !id_readable.
+  bool id_readable = true;
+  bool valid = true;
+  std::string error_code;  // The expected error when !valid.
+};
+
+struct GeneratedCsv {
+  std::string text;
+  std::vector<ExpectedRow> rows;
+};
+
+// `n` data rows after the header, every tenth one broken in one of ten
+// ways, deterministically.
+GeneratedCsv GenerateCsv(int n) {
+  struct Good {
+    const char* formula;
+    const char* charge;
+    const char* declared;
+    const char* moment;
+  };
+  static constexpr Good kGood[] = {
+      {"NaCl", "", "", ""},
+      {"Fe2O3", "", "", ""},
+      {"Fe3O4", "", "", ""},
+      {"MgO", "0", "", ""},
+      {"Al2O3", "", "", ""},
+      {"LiFePO4", "", "", ""},
+      {"La0.7Sr0.3MnO3", "", "", ""},
+      {"K3[Fe(CN)6]", "", "", ""},
+      {"CuSO4·5H2O", "", "", ""},
+      {"SO4", "-2", "", ""},
+      {"Fe2O3", "", "Fe:3", "5.9"},
+      {"\"BaTiO3\"", " 0 ", "", ""},  // Quoted field, padded number.
+      {"Cr2O3", "", "", ""},
+  };
+  GeneratedCsv g;
+  g.text = std::string(kHeader) + "\n";
+  for (int k = 0; k < n; ++k) {
+    ExpectedRow e;
+    e.row = k + 2;  // The header is line 1.
+    e.id = "r" + std::to_string(e.row);
+    std::string line;
+    if (k % 10 == 7) {
+      e.valid = false;
+      switch ((k / 10) % 10) {
+        case 0:  // Unterminated quote after the id.
+          line = e.id + ",\"Fe2O3,,,";
+          e.error_code = "malformed_record";
+          break;
+        case 1:  // Too few fields.
+          line = e.id + ",Fe2O3,,";
+          e.error_code = "malformed_record";
+          break;
+        case 2:  // Too many fields.
+          line = e.id + ",Fe2O3,,,,extra";
+          e.error_code = "malformed_record";
+          break;
+        case 3:  // Non-numeric charge.
+          line = e.id + ",Fe2O3,two,,";
+          e.error_code = "malformed_record";
+          break;
+        case 4:  // Non-numeric measured moment.
+          line = e.id + ",Fe2O3,,,5.9uB";
+          e.error_code = "malformed_record";
+          break;
+        case 5:  // Stray quote inside an unquoted field.
+          line = e.id + ",Fe\"2O3,,,";
+          e.error_code = "malformed_record";
+          break;
+        case 6:  // Unterminated quote from the start: no readable id.
+          line = "\"" + e.id + ",Fe2O3,,,";
+          e.error_code = "malformed_record";
+          e.id_readable = false;
+          break;
+        case 7:
+          line = e.id + ",Fe2O3),,,";
+          e.error_code = "malformed_formula";
+          break;
+        case 8:
+          line = e.id + ",Xx2O3,,,";
+          e.error_code = "unknown_element";
+          break;
+        case 9:
+          line = e.id + ",NaF2,,,";
+          e.error_code = "charge_not_balanced";
+          break;
+      }
+    } else {
+      const Good& good = kGood[k % (sizeof(kGood) / sizeof(kGood[0]))];
+      std::string id_field = e.id;
+      if (k % 17 == 3) {  // A quoted id with a comma and a quote in it.
+        e.id += ",\"q\"";
+        id_field = "\"" + e.id.substr(0, e.id.find('"')) + "\"\"q\"\"\"";
+      }
+      line = id_field + "," + good.formula + "," + good.charge + "," +
+             good.declared + "," + good.moment;
+    }
+    g.text += line + "\n";
+    g.rows.push_back(std::move(e));
+  }
+  return g;
+}
+
+class CheckTest : public ::testing::Test {
+ protected:
+  void SetUp() override {
+    char tmpl[] = "/tmp/clients_check_test.XXXXXX";
+    ASSERT_NE(mkdtemp(tmpl), nullptr);
+    dir_ = tmpl;
+  }
+  void TearDown() override {
+    std::error_code ec;
+    std::filesystem::remove_all(dir_, ec);
+  }
+  std::string Path(const std::string& name) const { return dir_ + "/" + name; }
+
+  std::string dir_;
+};
+
+TEST_F(CheckTest, TenThousandRowsWithBrokenOnesInOrder) {
+  const GeneratedCsv g = GenerateCsv(10000);
+  WriteFile(Path("in.csv"), g.text);
+  CommandResult r = Check({Path("in.csv"), "--out", Path("out.jsonl"),
+                           "--jobs", "2"});
+  EXPECT_EQ(r.exit_code, 1) << r.err;
+  EXPECT_THAT(r.out, IsEmpty());
+  EXPECT_THAT(r.err, HasSubstr("10000 rows"));
+  EXPECT_THAT(r.err, HasSubstr("9000 valid, 1000 invalid"));
+  EXPECT_THAT(r.err, ContainsRegex("malformed_record +700"));
+  EXPECT_THAT(r.err, ContainsRegex("malformed_formula +100"));
+  EXPECT_THAT(r.err, ContainsRegex("unknown_element +100"));
+  EXPECT_THAT(r.err, ContainsRegex("charge_not_balanced +100"));
+
+  const std::string out = ReadFile(Path("out.jsonl"));
+  ASSERT_EQ(SplitLines(out).size(), 10000u);
+  const std::vector<v1::RecordReport> reports = ParseReports(out);
+  ASSERT_EQ(reports.size(), g.rows.size());
+  // Reports at most a few bad rows, so a regression does not flood the log.
+  int bad_rows = 0;
+  int previous_row = 0;
+  for (size_t i = 0; i < reports.size(); ++i) {
+    const v1::RecordReport& report = reports[i];
+    const ExpectedRow& e = g.rows[i];
+    const bool ok = report.row() > previous_row && report.row() == e.row &&
+                    (!e.id_readable || report.id() == e.id) &&
+                    report.valid() == e.valid &&
+                    (e.valid || HasErrorWithCode(report, e.error_code));
+    previous_row = report.row();
+    if (!ok && ++bad_rows <= 10) {
+      ADD_FAILURE() << "output line " << i + 1 << ": expected row " << e.row
+                    << " id '" << e.id << "'"
+                    << (e.id_readable ? "" : " (unreadable)") << " valid "
+                    << e.valid << " code '" << e.error_code
+                    << "', got: " << report.ShortDebugString();
+    }
+  }
+  EXPECT_EQ(bad_rows, 0);
+}
+
+TEST_F(CheckTest, AllValidInputExitsZero) {
+  WriteFile(Path("good.csv"), std::string(kHeader) +
+                                  "\n"
+                                  "a,NaCl,,,\n"
+                                  "b,Fe2O3,0,Fe:3,5.9\n"
+                                  "\n"
+                                  "c,\"K3[Fe(CN)6]\",,,\n");
+  CommandResult r = Check({Path("good.csv"), "--out", Path("good.jsonl")});
+  EXPECT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("3 rows: 3 valid, 0 invalid"));
+  const std::vector<v1::RecordReport> reports =
+      ParseReports(ReadFile(Path("good.jsonl")));
+  ASSERT_EQ(reports.size(), 3u);
+  // Empty lines are skipped; rows stay physical line numbers.
+  EXPECT_EQ(reports[0].row(), 2);
+  EXPECT_EQ(reports[1].row(), 3);
+  EXPECT_EQ(reports[2].row(), 5);
+  EXPECT_EQ(reports[2].id(), "c");
+  for (const v1::RecordReport& report : reports) EXPECT_TRUE(report.valid());
+}
+
+TEST_F(CheckTest, MissingInputFileIsUsageError) {
+  CommandResult r = Check({Path("does_not_exist.csv"), "--out",
+                           Path("o.jsonl")});
+  EXPECT_EQ(r.exit_code, 2) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("does_not_exist.csv"));
+  EXPECT_THAT(r.out, IsEmpty());
+}
+
+TEST_F(CheckTest, CsvHeaderWithoutFormulaIsUsageError) {
+  WriteFile(Path("noformula.csv"), "id,charge\na,0\n");
+  CommandResult r = Check({Path("noformula.csv")});
+  EXPECT_EQ(r.exit_code, 2) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("formula"));
+  EXPECT_THAT(r.out, IsEmpty());
+}
+
+TEST_F(CheckTest, UnknownFormatIsUsageError) {
+  WriteFile(Path("in.csv"), std::string(kHeader) + "\na,NaCl,,,\n");
+  CommandResult r = Check({Path("in.csv"), "--format", "xml"});
+  EXPECT_EQ(r.exit_code, 2) << r.err;
+  EXPECT_THAT(r.out, IsEmpty());
+  CommandResult o = Check({Path("in.csv"), "--out-format", "yaml"});
+  EXPECT_EQ(o.exit_code, 2) << o.err;
+  EXPECT_THAT(o.out, IsEmpty());
+}
+
+TEST_F(CheckTest, UnknownExtensionNeedsFormat) {
+  WriteFile(Path("in.txt"), std::string(kHeader) + "\na,NaCl,,,\n");
+  CommandResult r = Check({Path("in.txt")});
+  EXPECT_EQ(r.exit_code, 2) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("--format"));
+  EXPECT_THAT(r.out, IsEmpty());
+  CommandResult ok = Check({Path("in.txt"), "--format", "csv"});
+  EXPECT_EQ(ok.exit_code, 0) << ok.err;
+  ASSERT_EQ(ParseReports(ok.out).size(), 1u);
+}
+
+TEST_F(CheckTest, JsonlFromStdinToStdout) {
+  const std::string input =
+      "{\"id\":\"j1\",\"formula\":\"Fe2O3\"}\n"                         // 1
+      "\n"                                                               // 2
+      "{\"id\":\"j2\",\"formula\":\"NaF2\"}\n"                          // 3
+      "{\"id\":\"j3\",\"formula\":\n"                                    // 4
+      "{\"id\":\"j4\",\"formula\":\"Fe2O3\",\"declared_states\":\"Fe:2\"}\n"
+      "{\"id\":\"j5\",\"formula\":\"SO4\",\"charge\":-2,\"row\":99}\n"  // 6
+      "{\"id\":\"j6\",\"formula\":\"NaCl\",\"bogus_field\":1}\n"        // 7
+      "not json at all\n"                                                // 8
+      "{\"id\":\"j9\",\"formula\":\"Xx2O3\"}\n";                        // 9
+  for (const std::vector<std::string>& args :
+       {std::vector<std::string>{"-", "--format", "jsonl"},
+        std::vector<std::string>{"-", "--format", "jsonl", "--out", "-"}}) {
+    CommandResult r = Check(args, input);
+    EXPECT_EQ(r.exit_code, 1) << r.err;
+    EXPECT_THAT(r.err, HasSubstr("8 rows: 3 valid, 5 invalid"));
+    const std::vector<v1::RecordReport> reports = ParseReports(r.out);
+    ASSERT_EQ(reports.size(), 8u) << r.out;
+    const std::vector<int> rows = {1, 3, 4, 5, 6, 7, 8, 9};
+    for (size_t i = 0; i < rows.size(); ++i) {
+      EXPECT_EQ(reports[i].row(), rows[i]) << i;
+    }
+    EXPECT_EQ(reports[0].id(), "j1");
+    EXPECT_TRUE(reports[0].valid());
+    EXPECT_EQ(reports[1].id(), "j2");
+    EXPECT_TRUE(HasErrorWithCode(reports[1], "charge_not_balanced"));
+    EXPECT_TRUE(HasErrorWithCode(reports[2], "malformed_record"));
+    EXPECT_FALSE(reports[2].valid());
+    EXPECT_EQ(reports[3].id(), "j4");
+    EXPECT_TRUE(HasErrorWithCode(reports[3],
+                                 "declared_state_contradicts_balance"));
+    EXPECT_EQ(reports[4].id(), "j5");
+    EXPECT_TRUE(reports[4].valid()) << reports[4].ShortDebugString();
+    EXPECT_EQ(reports[5].id(), "j6");
+    EXPECT_TRUE(reports[5].valid()) << reports[5].ShortDebugString();
+    EXPECT_TRUE(HasErrorWithCode(reports[6], "malformed_record"));
+    EXPECT_EQ(reports[7].id(), "j9");
+    EXPECT_TRUE(HasErrorWithCode(reports[7], "unknown_element"));
+  }
+}
+
+TEST_F(CheckTest, CsvFromStdinToStdout) {
+  CommandResult r = Check({"-", "--format", "csv"},
+                          std::string(kHeader) + "\na,NaCl,,,\nb,MgO,,,\n");
+  EXPECT_EQ(r.exit_code, 0) << r.err;
+  const std::vector<v1::RecordReport> reports = ParseReports(r.out);
+  ASSERT_EQ(reports.size(), 2u);
+  EXPECT_EQ(reports[0].id(), "a");
+  EXPECT_EQ(reports[1].id(), "b");
+  EXPECT_EQ(reports[1].row(), 3);
+}
+
+TEST_F(CheckTest, CsvOutputHasHeaderAndOneLinePerRow) {
+  const GeneratedCsv g = GenerateCsv(200);
+  WriteFile(Path("in.csv"), g.text);
+  CommandResult r = Check({Path("in.csv"), "--out", Path("out.csv")});
+  EXPECT_EQ(r.exit_code, 1) << r.err;
+  const std::vector<std::string> lines = SplitLines(ReadFile(Path("out.csv")));
+  ASSERT_EQ(lines.size(), g.rows.size() + 1);
+  EXPECT_THAT(lines[0], StartsWith("row,id,valid,formula,"));
+  for (size_t i = 0; i < g.rows.size(); ++i) {
+    const ExpectedRow& e = g.rows[i];
+    EXPECT_THAT(lines[i + 1], StartsWith(std::to_string(e.row) + ","))
+        << lines[i + 1];
+    if (e.id_readable && e.id.find(',') == std::string::npos) {
+      EXPECT_THAT(lines[i + 1],
+                  StartsWith(std::to_string(e.row) + "," + e.id + "," +
+                             (e.valid ? "true," : "false,")))
+          << lines[i + 1];
+    }
+  }
+  // --out-format csv to stdout gives the same bytes.
+  CommandResult s = Check({Path("in.csv"), "--out", "-", "--out-format",
+                           "csv"});
+  EXPECT_EQ(s.exit_code, 1) << s.err;
+  EXPECT_EQ(s.out, ReadFile(Path("out.csv")));
+}
+
+TEST_F(CheckTest, OutputIndependentOfJobsAndBatchSize) {
+  const GeneratedCsv g = GenerateCsv(3000);
+  WriteFile(Path("in.csv"), g.text);
+  CommandResult a = Check({Path("in.csv"), "--out", Path("a.jsonl"),
+                           "--jobs", "2", "--batch-size", "500"});
+  CommandResult b = Check({Path("in.csv"), "--out", Path("b.jsonl"),
+                           "--jobs", "1", "--batch-size", "1"});
+  CommandResult c = Check({Path("in.csv"), "--out", Path("c.jsonl"),
+                           "--jobs", "3", "--batch-size", "7"});
+  EXPECT_EQ(a.exit_code, 1) << a.err;
+  EXPECT_EQ(b.exit_code, 1) << b.err;
+  EXPECT_EQ(c.exit_code, 1) << c.err;
+  const std::string out_a = ReadFile(Path("a.jsonl"));
+  EXPECT_EQ(SplitLines(out_a).size(), 3000u);
+  EXPECT_TRUE(out_a == ReadFile(Path("b.jsonl")));
+  EXPECT_TRUE(out_a == ReadFile(Path("c.jsonl")));
+  EXPECT_EQ(a.err, b.err);
+  EXPECT_EQ(a.err, c.err);
+}
+
+TEST_F(CheckTest, RowFieldsAreChecked) {
+  WriteFile(Path("fields.csv"), std::string(kHeader) +
+                                    "\n"
+                                    "declared,Fe2O3,,Fe:2,\n"
+                                    "moment,Fe2O3,,,99\n"
+                                    "hydrate,CuSO4.5H2O,,,\n"
+                                    "plausible,Fe2O3,,,5.9\n");
+  CommandResult r = Check({Path("fields.csv"), "--out", Path("f.jsonl")});
+  EXPECT_EQ(r.exit_code, 1) << r.err;
+  const std::vector<v1::RecordReport> reports =
+      ParseReports(ReadFile(Path("f.jsonl")));
+  ASSERT_EQ(reports.size(), 4u);
+  EXPECT_EQ(reports[0].id(), "declared");
+  EXPECT_FALSE(reports[0].valid());
+  EXPECT_TRUE(HasErrorWithCode(reports[0],
+                               "declared_state_contradicts_balance"))
+      << reports[0].ShortDebugString();
+  EXPECT_EQ(reports[1].id(), "moment");
+  EXPECT_FALSE(reports[1].valid());
+  EXPECT_TRUE(HasErrorWithCode(reports[1], "moment_out_of_range"))
+      << reports[1].ShortDebugString();
+  EXPECT_EQ(reports[2].id(), "hydrate");
+  EXPECT_TRUE(reports[2].valid()) << reports[2].ShortDebugString();
+  EXPECT_TRUE(HasDiagnostic(reports[2], "warning", "possible_hydrate_typo"))
+      << reports[2].ShortDebugString();
+  EXPECT_EQ(reports[3].id(), "plausible");
+  EXPECT_TRUE(reports[3].valid()) << reports[3].ShortDebugString();
+}
+
+}  // namespace
+}  // namespace shellwright
