@@ -53,7 +53,11 @@ struct Option {
   int high = 0;  // Upper state.
   bool low_common = true;
   bool high_common = true;
+  // Weight of the option with every atom in the upper state; a mixed
+  // option adds per_low_atom for each scaled atom moved to the lower state
+  // (the group gap differs between the two states).
   int64_t weight = 0;
+  int64_t per_low_atom = 0;
 };
 
 struct ElementPlan {
@@ -98,8 +102,8 @@ int64_t OptionWeight(const Element& e, const Option& o, int64_t scaled_count,
   int uncommon = (o.low_common ? 0 : 1) + (mixed && !o.high_common ? 1 : 0);
   bool inconsistent = is_most_electronegative ? (o.high > 0) : (o.low < 0);
   const int64_t spread = mixed ? scaled_count * (o.high - o.low) : 0;
-  // For a mixed option the split is unknown here; charge the gap of the
-  // upper state, the smaller of the two.
+  // A mixed option's gap depends on the split: this is the gap with every
+  // atom in the upper state, and Option::per_low_atom adds the rest.
   const int64_t gap = scaled_count * GroupGap(e, o.high);
   return uncommon * kUncommonWeight +
          (inconsistent ? kInconsistencyWeight : 0) + gap * kGroupGapWeight +
@@ -166,6 +170,9 @@ std::vector<ElementPlan> BuildPlans(const std::vector<ElementPlan>& base,
     for (Option& o : p.options) {
       o.weight = OptionWeight(*p.element, o, p.scaled_count,
                               static_cast<int>(i) == m);
+      o.per_low_atom = (GroupGap(*p.element, o.low) -
+                        GroupGap(*p.element, o.high)) *
+                       kGroupGapWeight;
       p.min_contribution =
           std::min(p.min_contribution, p.scaled_count * o.low);
       p.max_contribution =
@@ -251,9 +258,12 @@ Solution Solve(const std::vector<ElementPlan>& plans, int64_t target) {
         continue;
       }
       // Mixed: k scaled atoms (1..c-1) at the lower state contribute
-      // c*high - k*d with d = high - low. For each total t the candidates
-      // are prev[t - c*high + k*d]: a window of c-1 cells with stride d,
-      // scanned with a monotone deque per residue class.
+      // c*high - k*d with d = high - low and cost weight + k*per_low_atom.
+      // For each total t the candidates are prev[t - c*high + k*d]: a
+      // window of c-1 cells with stride d, scanned with a monotone deque
+      // per residue class. The k-dependent cost is folded in by ranking
+      // candidates q by prev[q] + per_low_atom*(q - q_ref)/d, which differs
+      // from the true cost by a term that depends on t only.
       const int64_t d = o.high - o.low;
       const int64_t base = c * o.high;
       for (int64_t r = 0; r < d; ++r) {
@@ -261,7 +271,8 @@ Solution Solve(const std::vector<ElementPlan>& plans, int64_t target) {
         // window for t covers q = t - base + k*d, k = 1..c-1.
         int64_t t0 = lo[i + 1] + ((r - (lo[i + 1] % d)) % d + d) % d;
         if (t0 > hi[i + 1]) continue;
-        std::deque<std::pair<int64_t, int64_t>> window;  // (q, cost)
+        std::deque<std::pair<int64_t, int64_t>> window;  // (q, adjusted)
+        const int64_t q_ref = t0 - base;  // k = 0 for t0; same class.
         // First q to add: the smallest candidate of t0 that lies in the
         // previous window (candidates below prev_lo never matter).
         int64_t next_q = t0 - base + d;
@@ -273,10 +284,12 @@ Solution Solve(const std::vector<ElementPlan>& plans, int64_t target) {
             if (next_q >= prev_lo && next_q <= prev_hi) {
               const int64_t w = prev[next_q - prev_lo];
               if (w < kInfinity) {
-                while (!window.empty() && window.back().second >= w) {
+                const int64_t adjusted =
+                    w + o.per_low_atom * ((next_q - q_ref) / d);
+                while (!window.empty() && window.back().second >= adjusted) {
                   window.pop_back();
                 }
-                window.emplace_back(next_q, w);
+                window.emplace_back(next_q, adjusted);
               }
             }
             next_q += d;
@@ -285,7 +298,9 @@ Solution Solve(const std::vector<ElementPlan>& plans, int64_t target) {
             window.pop_front();
           }
           if (window.empty()) continue;
-          const int64_t w = window.front().second + o.weight;
+          const int64_t w = window.front().second -
+                            o.per_low_atom * (((t - base) - q_ref) / d) +
+                            o.weight;
           int64_t& slot = next[t - lo[i + 1]];
           if (w < slot) {
             slot = w;

@@ -115,8 +115,10 @@ struct OxidationResult {
   std::optional<OxidationAssignment> without_declared;
 };
 
-// INVALID_ARGUMENT when the formula is empty, too finely divided (see
-// kMaxStoichiometryDenominator) or declares an element it does not contain.
+// INVALID_ARGUMENT when the formula is empty, holds more than
+// kMaxDistinctElements elements, is too finely divided (see
+// kMaxStoichiometryDenominator) or too large (more than 10^6 atoms after
+// scaling), or declares an element it does not contain.
 absl::StatusOr<OxidationResult> AssignOxidationStates(
     const Formula& formula, const OxidationOptions& options);
 

@@ -1,0 +1,167 @@
+// The shellwright.v1.ElectronStructure gRPC service and the server that
+// hosts it, shared by shellwrightd and the in-process server tests.
+//
+// The service only translates: requests go through server/convert.h and
+// server/records.h, absl::Status codes map one-to-one onto grpc::Status
+// codes, and internal errors reach clients only as a generic message. Each
+// call is logged as one line at info level; tokens are never logged.
+//
+// Example:
+//
+//   shellwright::ServerOptions options;
+//   options.listen = "127.0.0.1:0";  // Any free port.
+//   absl::StatusOr<std::unique_ptr<shellwright::ShellwrightServer>> server =
+//       shellwright::ShellwrightServer::Start(options);
+//   if (!server.ok()) return server.status();
+//   std::cout << "listening on " << (*server)->address() << "\n";
+//   ...
+//   (*server)->Shutdown(absl::Seconds(10));  // In-flight calls may finish.
+//
+// Thread safety: ElectronStructureImpl serves calls from any number of
+// gRPC threads at once. ShellwrightServer methods are thread-safe;
+// Shutdown() must be called at most once.
+
+#ifndef SHELLWRIGHT_SERVER_SERVICE_H_
+#define SHELLWRIGHT_SERVER_SERVICE_H_
+
+#include <memory>
+#include <string>
+
+#include "absl/status/status.h"
+#include "absl/status/statusor.h"
+#include "absl/strings/string_view.h"
+#include "absl/time/time.h"
+#include "grpcpp/grpcpp.h"
+#include "server/auth.h"
+#include "shellwright/v1/electron_structure.grpc.pb.h"
+
+namespace shellwright {
+
+// ---------------------------------------------------------------------------
+// Logging: one process-wide level, lines written whole to stderr.
+
+enum class LogLevel { kError = 0, kWarning = 1, kInfo = 2, kDebug = 3 };
+
+// "error", "warning", "info" or "debug"; INVALID_ARGUMENT otherwise.
+absl::StatusOr<LogLevel> ParseLogLevel(absl::string_view name);
+
+// Sets the most verbose level written; the default is kInfo.
+void SetLogLevel(LogLevel level);
+
+// True when lines at `level` are written.
+bool LogEnabled(LogLevel level);
+
+// Writes "<UTC time> <level> <line>\n" to stderr in one write when `level`
+// is enabled.
+void Log(LogLevel level, absl::string_view line);
+
+// ---------------------------------------------------------------------------
+// Status mapping.
+
+// The grpc::Status for an engine status: same code; the message passes
+// through for caller errors (INVALID_ARGUMENT, NOT_FOUND, OUT_OF_RANGE, ...)
+// and becomes "internal error" for INTERNAL, UNKNOWN and DATA_LOSS, whose
+// details are logged instead.
+grpc::Status ToGrpcStatus(const absl::Status& status);
+
+// ---------------------------------------------------------------------------
+// The service.
+
+// Most records accepted in one RecordBatch; a larger batch ends the stream
+// with INVALID_ARGUMENT (it is the client's framing, not a bad record).
+inline constexpr int kMaxRecordsPerBatch = 10000;
+
+class ElectronStructureImpl final
+    : public v1::ElectronStructure::CallbackService {
+ public:
+  // `token` empty: no authentication. Otherwise every call must carry
+  // "authorization: Bearer <token>".
+  explicit ElectronStructureImpl(std::string token);
+
+  ElectronStructureImpl(const ElectronStructureImpl&) = delete;
+  ElectronStructureImpl& operator=(const ElectronStructureImpl&) = delete;
+
+  grpc::ServerUnaryReactor* DescribeAtom(
+      grpc::CallbackServerContext* context,
+      const v1::DescribeAtomRequest* request,
+      v1::AtomDescription* response) override;
+
+  grpc::ServerUnaryReactor* DescribeAtoms(
+      grpc::CallbackServerContext* context,
+      const v1::DescribeAtomsRequest* request,
+      v1::DescribeAtomsResponse* response) override;
+
+  grpc::ServerUnaryReactor* ListElements(
+      grpc::CallbackServerContext* context,
+      const v1::ListElementsRequest* request,
+      v1::ListElementsResponse* response) override;
+
+  // One record, answered like a one-record AnalyzeRecords batch.
+  grpc::ServerUnaryReactor* AnalyzeCompound(
+      grpc::CallbackServerContext* context,
+      const v1::CompositionRecord* request,
+      v1::RecordReport* response) override;
+
+  // Reads one RecordBatch, writes its ReportBatch, and only then reads the
+  // next, so a stream holds at most one batch and one reply in memory.
+  grpc::ServerBidiReactor<v1::RecordBatch, v1::ReportBatch>* AnalyzeRecords(
+      grpc::CallbackServerContext* context) override;
+
+ private:
+  // Authentication and deadline checks every method runs first.
+  grpc::Status Admit(grpc::CallbackServerContext* context) const;
+
+  const BearerTokenVerifier verifier_;
+};
+
+// ---------------------------------------------------------------------------
+// The server.
+
+struct ServerOptions {
+  // HOST:PORT; port 0 picks a free port (see ShellwrightServer::port()).
+  std::string listen = "127.0.0.1:50051";
+  TlsFiles tls;                 // All empty: plaintext.
+  std::string auth_token_file;  // Empty: no authentication.
+  // Largest request message accepted, in bytes; larger ones fail with
+  // RESOURCE_EXHAUSTED. 1..2^31-1.
+  int max_message_bytes = 4 << 20;
+  // HTTP/2 streams (concurrent calls) per connection; 0 keeps gRPC's
+  // default.
+  int max_concurrent_streams = 100;
+};
+
+// A started gRPC server hosting ElectronStructureImpl, the standard health
+// service (SERVING for "" and "shellwright.v1.ElectronStructure") and
+// server reflection. Health and reflection need no token.
+class ShellwrightServer {
+ public:
+  // Reads credential files, binds and starts serving. INVALID_ARGUMENT for
+  // bad options or files; UNAVAILABLE when the address cannot be bound.
+  static absl::StatusOr<std::unique_ptr<ShellwrightServer>> Start(
+      const ServerOptions& options);
+
+  ShellwrightServer(const ShellwrightServer&) = delete;
+  ShellwrightServer& operator=(const ShellwrightServer&) = delete;
+  ~ShellwrightServer();  // Shuts down at once if Shutdown() was not called.
+
+  // The listening address with the actual port: "127.0.0.1:43817".
+  const std::string& address() const { return address_; }
+  int port() const { return port_; }
+
+  // Marks health NOT_SERVING, stops accepting calls and waits for in-flight
+  // calls up to `grace`, then cancels the rest. Returns when all are done.
+  void Shutdown(absl::Duration grace);
+
+ private:
+  ShellwrightServer() = default;
+
+  std::unique_ptr<ElectronStructureImpl> service_;
+  std::unique_ptr<grpc::Server> server_;
+  std::string address_;
+  int port_ = 0;
+  bool shut_down_ = false;
+};
+
+}  // namespace shellwright
+
+#endif  // SHELLWRIGHT_SERVER_SERVICE_H_

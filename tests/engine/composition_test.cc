@@ -1,0 +1,447 @@
+// Tests for engine/composition.h: validation and magnetic annotation of one
+// composition record.
+
+#include "engine/composition.h"
+
+#include <cmath>
+#include <string>
+#include <vector>
+
+#include "gmock/gmock.h"
+#include "gtest/gtest.h"
+#include "engine/oxidation.h"
+#include "engine/rational.h"
+
+namespace shellwright {
+namespace {
+
+CompositionInput Record(const std::string& formula) {
+  CompositionInput in;
+  in.id = "test";
+  in.formula = formula;
+  return in;
+}
+
+bool HasError(const CompositionReport& r) {
+  for (const Diagnostic& d : r.diagnostics) {
+    if (d.severity == Severity::kError) return true;
+  }
+  return false;
+}
+
+std::string DiagnosticsText(const CompositionReport& r) {
+  std::string out;
+  for (const Diagnostic& d : r.diagnostics) {
+    out += std::string(SeverityName(d.severity)) + " " + d.code + " (col " +
+           std::to_string(d.column) + "): " + d.message + "\n";
+  }
+  return out;
+}
+
+// Runs the analysis and checks, for every record of this file, that the
+// record is valid exactly when no diagnostic is an error (composition.h).
+CompositionReport Analyze(const CompositionInput& in) {
+  CompositionReport r = AnalyzeComposition(in);
+  EXPECT_EQ(r.valid, !HasError(r)) << in.formula << "\n" << DiagnosticsText(r);
+  return r;
+}
+
+CompositionReport Analyze(const std::string& formula) {
+  return Analyze(Record(formula));
+}
+
+// The first diagnostic with `code`, or nullptr.
+const Diagnostic* Find(const CompositionReport& r, const std::string& code) {
+  for (const Diagnostic& d : r.diagnostics) {
+    if (d.code == code) return &d;
+  }
+  return nullptr;
+}
+
+// Spin-only moment √(n(n+2)) (Greenwood & Earnshaw, Chemistry of the
+// Elements, 2nd ed., from memory).
+double SpinOnly(int n) { return std::sqrt(n * (n + 2.0)); }
+
+// ---------------------------------------------------------------------------
+// Magnetite: the worked example of composition.h.
+
+TEST(Composition, MagnetiteUnpairedElectronsAndMoments) {
+  CompositionReport r = Analyze("Fe3O4");
+  EXPECT_TRUE(r.valid) << DiagnosticsText(r);
+  EXPECT_EQ(r.id, "test");
+  EXPECT_EQ(r.kind, CompositionKind::kIonic);
+  // High-spin Fe2+ d6 has 4 unpaired electrons, Fe3+ d5 has 5
+  // (Greenwood & Earnshaw, from memory): 4 + 2 x 5 = 14.
+  EXPECT_DOUBLE_EQ(r.unpaired_per_formula_unit, 14);
+  ASSERT_EQ(r.ions.size(), 3u);
+  EXPECT_EQ(r.ions[0].state, 2);
+  EXPECT_EQ(r.ions[0].count, Rational(1));
+  EXPECT_EQ(r.ions[0].description->unpaired_electrons, 4);
+  EXPECT_EQ(r.ions[1].state, 3);
+  EXPECT_EQ(r.ions[1].count, Rational(2));
+  EXPECT_EQ(r.ions[1].description->unpaired_electrons, 5);
+  EXPECT_EQ(r.ions[2].state, -2);
+  EXPECT_EQ(r.ions[2].description->unpaired_electrons, 0);
+  // μ_eff = √(Σ count x μ²) with spin-only μ: √(24 + 2 x 35) = √94.
+  const double mu = std::sqrt(1 * SpinOnly(4) * SpinOnly(4) +
+                              2 * SpinOnly(5) * SpinOnly(5));
+  EXPECT_NEAR(r.effective_moment_per_formula_unit, mu, 1e-6);
+  EXPECT_NEAR(mu, std::sqrt(1 * 4.90 * 4.90 + 2 * 5.92 * 5.92), 0.01);
+  // Molar Curie constant C = N_A μB² μ² / (3 kB) = 0.12505 μ² emu K/mol
+  // (CODATA 2018 constants, recalled; checked to 0.1 %).
+  EXPECT_NEAR(r.curie_constant, 0.12505 * mu * mu, 0.001 * 0.12505 * mu * mu);
+  EXPECT_NE(Find(r, "mixed_valence"), nullptr);
+  EXPECT_EQ(Find(r, "mixed_valence")->severity, Severity::kInfo);
+}
+
+TEST(Composition, MagnetiteExpectedMomentRange) {
+  // composition.h: the range runs from every d ion low spin (spin-only) to
+  // every d ion at its free-ion J moment. Low spin: Fe2+ d6 has 0 unpaired,
+  // Fe3+ d5 has 1, so √(2 x 3). Free ion (Hund's rules, common practice,
+  // no source): Fe2+ 5D4 with g_J = 3/2 gives μ_J² = 2.25 x 20 = 45; Fe3+
+  // 6S5/2 gives μ_J² = 35 (equal to spin-only). High = √(45 + 2 x 35).
+  CompositionReport r = Analyze("Fe3O4");
+  EXPECT_NEAR(r.expected_moment_low, std::sqrt(6.0), 1e-6);
+  EXPECT_NEAR(r.expected_moment_high, std::sqrt(115.0), 1e-6);
+}
+
+TEST(Composition, CurieConstantPerMomentSquaredMatchesCodata) {
+  // N_A μB² / (3 kB) = 0.125049 emu K/mol (CODATA 2018, from memory).
+  EXPECT_NEAR(CurieConstantPerMomentSquared(), 0.12505, 0.12505 * 1e-3);
+}
+
+// ---------------------------------------------------------------------------
+// Formula errors.
+
+TEST(Composition, UnmatchedBracketIsMalformedAtItsColumn) {
+  // formula.h's own example: "Fe2O3)" -> malformed_formula, column 6.
+  CompositionReport r = Analyze("Fe2O3)");
+  EXPECT_FALSE(r.valid);
+  const Diagnostic* d = Find(r, "malformed_formula");
+  ASSERT_NE(d, nullptr) << DiagnosticsText(r);
+  EXPECT_EQ(d->severity, Severity::kError);
+  EXPECT_EQ(d->column, 6);
+  EXPECT_FALSE(r.assignment.has_value());
+}
+
+TEST(Composition, UnknownElementNamesItsColumn) {
+  // "Xx" starts at character 4 of "Fe2Xx3O"; no element has that symbol.
+  CompositionReport r = Analyze("Fe2Xx3O");
+  EXPECT_FALSE(r.valid);
+  const Diagnostic* d = Find(r, "unknown_element");
+  ASSERT_NE(d, nullptr) << DiagnosticsText(r);
+  EXPECT_EQ(d->severity, Severity::kError);
+  EXPECT_EQ(d->column, 4);
+}
+
+TEST(Composition, EmptyAndOverlongFormulas) {
+  CompositionReport empty = Analyze("");
+  EXPECT_FALSE(empty.valid);
+  EXPECT_NE(Find(empty, "empty_formula"), nullptr) << DiagnosticsText(empty);
+
+  std::string overlong;
+  while (overlong.size() <= kMaxFormulaLength) overlong += "NaCl";
+  CompositionReport r = Analyze(overlong);
+  EXPECT_FALSE(r.valid);
+  EXPECT_NE(Find(r, "formula_too_long"), nullptr) << DiagnosticsText(r);
+}
+
+// ---------------------------------------------------------------------------
+// Charge balance and declared states.
+
+TEST(Composition, UnbalanceableFormulaIsAnError) {
+  // Na has only +1 and F only -1 in the table (Greenwood & Earnshaw, from
+  // memory), so NaF2 cannot balance.
+  CompositionReport r = Analyze("NaF2");
+  EXPECT_FALSE(r.valid);
+  const Diagnostic* d = Find(r, "charge_not_balanced");
+  ASSERT_NE(d, nullptr) << DiagnosticsText(r);
+  EXPECT_EQ(d->severity, Severity::kError);
+}
+
+TEST(Composition, NetChargeIsHonoured) {
+  CompositionInput in = Record("SO4");
+  in.net_charge = -2;
+  CompositionReport r = Analyze(in);
+  EXPECT_TRUE(r.valid) << DiagnosticsText(r);
+  ASSERT_TRUE(r.assignment.has_value());
+  EXPECT_EQ(r.assignment->states[0].state, 6);  // Sulfate S(VI), G&E.
+  EXPECT_EQ(Find(r, "uncommon_oxidation_state"), nullptr);
+
+  // Neutral SO4 has no common-state balance (S would need +8); it balances
+  // only with peroxide-like O-1 and so warns.
+  CompositionReport neutral = Analyze("SO4");
+  EXPECT_NE(Find(neutral, "uncommon_oxidation_state"), nullptr)
+      << DiagnosticsText(neutral);
+}
+
+TEST(Composition, DeclaredStateThatForcesUncommonStatesContradictsBalance) {
+  // Fe:2 in Fe2O3 only balances with peroxide O-1 (composition.cc's own
+  // example; O-1 is 'no' in the table).
+  CompositionInput in = Record("Fe2O3");
+  in.declared_states = "Fe:2";
+  CompositionReport r = Analyze(in);
+  EXPECT_FALSE(r.valid);
+  const Diagnostic* d = Find(r, "declared_state_contradicts_balance");
+  ASSERT_NE(d, nullptr) << DiagnosticsText(r);
+  EXPECT_EQ(d->severity, Severity::kError);
+}
+
+TEST(Composition, DeclaredStateThatCannotBalanceContradictsBalance) {
+  // Fe:3 in Fe3O4 needs -9 from four O: impossible (see oxidation_test).
+  CompositionInput in = Record("Fe3O4");
+  in.declared_states = "Fe:3";
+  CompositionReport r = Analyze(in);
+  EXPECT_FALSE(r.valid);
+  EXPECT_NE(Find(r, "declared_state_contradicts_balance"), nullptr)
+      << DiagnosticsText(r);
+}
+
+TEST(Composition, ConsistentDeclaredStateIsAccepted) {
+  CompositionInput in = Record("Fe2O3");
+  in.declared_states = "Fe:+3, O:-2";
+  CompositionReport r = Analyze(in);
+  EXPECT_TRUE(r.valid) << DiagnosticsText(r);
+  ASSERT_TRUE(r.assignment.has_value());
+  ASSERT_EQ(r.assignment->states.size(), 2u);
+  EXPECT_EQ(r.assignment->states[0].state, 3);
+  EXPECT_TRUE(r.assignment->states[0].declared);
+  // High-spin Fe3+ d5: 5 unpaired each (Greenwood & Earnshaw, from memory).
+  EXPECT_DOUBLE_EQ(r.unpaired_per_formula_unit, 10);
+}
+
+TEST(Composition, MalformedDeclaredStates) {
+  for (const char* declared :
+       {"Fe", "Fe:three", "Fe:3,Fe:2", "Qq:3", "Co:2", "Fe:3;O:-2"}) {
+    SCOPED_TRACE(declared);
+    CompositionInput in = Record("Fe2O3");
+    in.declared_states = declared;
+    CompositionReport r = Analyze(in);
+    EXPECT_FALSE(r.valid);
+    const Diagnostic* d = Find(r, "malformed_declared_states");
+    ASSERT_NE(d, nullptr) << DiagnosticsText(r);
+    EXPECT_EQ(d->severity, Severity::kError);
+  }
+}
+
+TEST(Composition, MalformedElementSettings) {
+  struct Case {
+    const char* geometry;
+    const char* spin;
+  };
+  for (const Case& c : {Case{"Co:cubic", ""}, Case{"Co", ""},
+                        Case{"Zz:octahedral", ""}, Case{"", "Co:medium"},
+                        Case{"", "Co:low,Co:high"}, Case{"", "low"}}) {
+    SCOPED_TRACE(std::string(c.geometry) + " | " + c.spin);
+    CompositionInput in = Record("LiCoO2");
+    in.geometry = c.geometry;
+    in.spin_state = c.spin;
+    CompositionReport r = Analyze(in);
+    EXPECT_FALSE(r.valid);
+    const Diagnostic* d = Find(r, "malformed_element_settings");
+    ASSERT_NE(d, nullptr) << DiagnosticsText(r);
+    EXPECT_EQ(d->severity, Severity::kError);
+  }
+}
+
+// ---------------------------------------------------------------------------
+// Warnings and information.
+
+TEST(Composition, DecimalBeforeWaterWarnsOfHydrateTypo) {
+  // formula.h: CuSO4.5H2O parses as written (O4.5) but earns a warning.
+  CompositionReport r = Analyze("CuSO4.5H2O");
+  const Diagnostic* d = Find(r, "possible_hydrate_typo");
+  ASSERT_NE(d, nullptr) << DiagnosticsText(r);
+  EXPECT_EQ(d->severity, Severity::kWarning);
+  // Written correctly there is no such warning, and the hydrate balances
+  // with common states only.
+  CompositionReport fixed = Analyze("CuSO4·5H2O");
+  EXPECT_TRUE(fixed.valid) << DiagnosticsText(fixed);
+  EXPECT_EQ(Find(fixed, "possible_hydrate_typo"), nullptr);
+  EXPECT_EQ(Find(fixed, "uncommon_oxidation_state"), nullptr);
+}
+
+TEST(Composition, UncommonStateWarns) {
+  // Half-delithiated LiCoO2 needs Co+4, flagged 'no' in the table.
+  CompositionReport r = Analyze("Li0.5CoO2");
+  EXPECT_TRUE(r.valid) << DiagnosticsText(r);
+  const Diagnostic* d = Find(r, "uncommon_oxidation_state");
+  ASSERT_NE(d, nullptr) << DiagnosticsText(r);
+  EXPECT_EQ(d->severity, Severity::kWarning);
+  EXPECT_NE(Find(r, "mixed_valence"), nullptr);
+
+  CompositionReport peroxide = Analyze("BaO2");
+  EXPECT_TRUE(peroxide.valid) << DiagnosticsText(peroxide);
+  EXPECT_NE(Find(peroxide, "uncommon_oxidation_state"), nullptr);
+}
+
+TEST(Composition, AlloyIsMetallicWithAllStatesZero) {
+  CompositionReport r = Analyze("Fe0.7Ni0.3");
+  EXPECT_TRUE(r.valid) << DiagnosticsText(r);
+  EXPECT_EQ(r.kind, CompositionKind::kMetallic);
+  const Diagnostic* d = Find(r, "metallic_composition");
+  ASSERT_NE(d, nullptr) << DiagnosticsText(r);
+  EXPECT_EQ(d->severity, Severity::kInfo);
+  ASSERT_TRUE(r.assignment.has_value());
+  ASSERT_EQ(r.assignment->states.size(), 2u);
+  for (const AssignedState& s : r.assignment->states) EXPECT_EQ(s.state, 0);
+  EXPECT_EQ(r.assignment->states[0].count, Rational(7, 10));
+  EXPECT_EQ(r.assignment->states[1].count, Rational(3, 10));
+}
+
+TEST(Composition, SingleElementIsElemental) {
+  CompositionReport r = Analyze("O2");
+  EXPECT_TRUE(r.valid) << DiagnosticsText(r);
+  EXPECT_EQ(r.kind, CompositionKind::kElemental);
+  const Diagnostic* d = Find(r, "elemental_composition");
+  ASSERT_NE(d, nullptr) << DiagnosticsText(r);
+  EXPECT_EQ(d->severity, Severity::kInfo);
+  ASSERT_TRUE(r.assignment.has_value());
+  ASSERT_EQ(r.assignment->states.size(), 1u);
+  EXPECT_EQ(r.assignment->states[0].state, 0);
+  EXPECT_EQ(r.assignment->states[0].count, Rational(2));
+}
+
+TEST(Composition, MomentCheckIsSkippedForAlloys) {
+  CompositionInput in = Record("Fe0.7Ni0.3");
+  in.measured_moment = 2.0;
+  CompositionReport r = Analyze(in);
+  EXPECT_TRUE(r.valid) << DiagnosticsText(r);
+  EXPECT_NE(Find(r, "moment_check_skipped"), nullptr) << DiagnosticsText(r);
+}
+
+// ---------------------------------------------------------------------------
+// Measured moments. NiO: Ni2+ d8 has 2 unpaired in either spin state, so
+// low = √8 = 2.83 μB; the free-ion 3F4 (Hund's rules, common practice, no
+// source) has g_J = 5/4 and μ_J = 1.25 √20 = 5.59 μB. Default tolerance
+// 0.5 μB (composition.h): accepted from 2.33 to 6.09 μB.
+
+TEST(Composition, MeasuredMomentFarOutOfRangeIsAnError) {
+  CompositionInput in = Record("NiO");
+  in.measured_moment = 25.0;
+  CompositionReport r = Analyze(in);
+  EXPECT_FALSE(r.valid);
+  const Diagnostic* d = Find(r, "moment_out_of_range");
+  ASSERT_NE(d, nullptr) << DiagnosticsText(r);
+  EXPECT_EQ(d->severity, Severity::kError);
+}
+
+TEST(Composition, NickelOxideMomentRange) {
+  CompositionReport r = Analyze("NiO");
+  EXPECT_NEAR(r.expected_moment_low, std::sqrt(8.0), 1e-6);
+  EXPECT_NEAR(r.expected_moment_high, 1.25 * std::sqrt(20.0), 1e-6);
+  EXPECT_NEAR(r.effective_moment_per_formula_unit, SpinOnly(2), 1e-6);
+}
+
+TEST(Composition, MeasuredMomentInsideRangeIsAccepted) {
+  // Octahedral Ni(II) salts measure about 2.9-3.4 μB (Greenwood & Earnshaw,
+  // from memory).
+  for (double measured : {3.2, 2.5, 5.9}) {
+    SCOPED_TRACE(measured);
+    CompositionInput in = Record("NiO");
+    in.measured_moment = measured;
+    CompositionReport r = Analyze(in);
+    EXPECT_TRUE(r.valid) << DiagnosticsText(r);
+    EXPECT_EQ(Find(r, "moment_out_of_range"), nullptr);
+  }
+}
+
+TEST(Composition, MeasuredMomentJustOutsideRangeIsAnError) {
+  for (double measured : {2.1, 6.3}) {
+    SCOPED_TRACE(measured);
+    CompositionInput in = Record("NiO");
+    in.measured_moment = measured;
+    CompositionReport r = Analyze(in);
+    EXPECT_FALSE(r.valid);
+    EXPECT_NE(Find(r, "moment_out_of_range"), nullptr) << DiagnosticsText(r);
+  }
+  // A wider tolerance admits 6.3 μB.
+  CompositionInput in = Record("NiO");
+  in.measured_moment = 6.3;
+  in.moment_tolerance = 1.0;
+  EXPECT_TRUE(Analyze(in).valid);
+}
+
+TEST(Composition, NegativeMeasuredMomentIsMalformed) {
+  CompositionInput in = Record("NiO");
+  in.measured_moment = -1.0;
+  CompositionReport r = Analyze(in);
+  EXPECT_FALSE(r.valid);
+  EXPECT_NE(Find(r, "malformed_record"), nullptr) << DiagnosticsText(r);
+}
+
+// ---------------------------------------------------------------------------
+// Geometry and spin settings.
+
+TEST(Composition, ExplicitLowSpinCobaltIsDiamagnetic) {
+  // LiCoO2 holds low-spin Co3+ t2g6, no unpaired electrons (common
+  // practice, no source).
+  CompositionInput in = Record("LiCoO2");
+  in.geometry = "Co:octahedral";
+  in.spin_state = "Co:low";
+  CompositionReport r = Analyze(in);
+  EXPECT_TRUE(r.valid) << DiagnosticsText(r);
+  ASSERT_EQ(r.ions.size(), 3u);
+  EXPECT_EQ(r.ions[1].element->symbol, "Co");
+  EXPECT_EQ(r.ions[1].state, 3);
+  EXPECT_EQ(r.ions[1].description->unpaired_electrons, 0);
+  EXPECT_DOUBLE_EQ(r.unpaired_per_formula_unit, 0);
+  EXPECT_NEAR(r.effective_moment_per_formula_unit, 0, 1e-12);
+  EXPECT_NEAR(r.curie_constant, 0, 1e-12);
+}
+
+TEST(Composition, DefaultSpinRuleMakesThreeDCobaltHighSpin) {
+  // composition.h default: octahedral, 3d high spin. High-spin d6 has 4
+  // unpaired electrons (Greenwood & Earnshaw, from memory).
+  CompositionReport r = Analyze("LiCoO2");
+  EXPECT_TRUE(r.valid) << DiagnosticsText(r);
+  EXPECT_DOUBLE_EQ(r.unpaired_per_formula_unit, 4);
+}
+
+// ---------------------------------------------------------------------------
+// Record id.
+
+TEST(Composition, OverlongIdIsAnError) {
+  CompositionInput in = Record("NaCl");
+  in.id = std::string(kMaxRecordIdLength + 1, 'a');
+  CompositionReport r = Analyze(in);
+  EXPECT_FALSE(r.valid);
+  const Diagnostic* d = Find(r, "id_too_long");
+  ASSERT_NE(d, nullptr) << DiagnosticsText(r);
+  EXPECT_EQ(d->severity, Severity::kError);
+
+  in.id = std::string(kMaxRecordIdLength, 'a');
+  CompositionReport ok = Analyze(in);
+  EXPECT_TRUE(ok.valid) << DiagnosticsText(ok);
+  EXPECT_EQ(ok.id, in.id);
+}
+
+// ---------------------------------------------------------------------------
+// Valence electron concentration.
+
+TEST(Composition, EquimolarHighEntropyAlloyValenceElectronConcentration) {
+  // VEC of AlCoCrFeNi = (3 + 9 + 6 + 8 + 10) / 5 = 7.2 (Guo et al.,
+  // J. Appl. Phys. 109, 103505 (2011), from memory).
+  CompositionReport r = Analyze("AlCoCrFeNi");
+  EXPECT_TRUE(r.valid) << DiagnosticsText(r);
+  EXPECT_EQ(r.kind, CompositionKind::kMetallic);
+  EXPECT_NEAR(r.valence_electron_concentration, 7.2, 1e-9);
+  // Composition weighting: Al0.5CoCrFeNi = (1.5 + 33) / 4.5.
+  CompositionReport half = Analyze("Al0.5CoCrFeNi");
+  EXPECT_NEAR(half.valence_electron_concentration, 34.5 / 4.5, 1e-9);
+}
+
+TEST(Composition, EveryRecordIsValidExactlyWithoutErrors) {
+  // Analyze() checks the invariant; run it over a spread of records,
+  // including ones that stop early.
+  for (const char* formula :
+       {"Fe3O4", "Fe2O3)", "NaF2", "O2", "Fe0.7Ni0.3", "CuSO4.5H2O",
+        "Li0.5CoO2", "BaO2", "K3[Fe(CN)6]", "", "La0.7Sr0.3MnO3",
+        "((((((((((((((((((Fe))))))))))))))))))", "Fe1000000O1000000"}) {
+    SCOPED_TRACE(formula);
+    Analyze(formula);
+  }
+}
+
+}  // namespace
+}  // namespace shellwright

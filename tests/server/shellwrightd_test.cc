@@ -1,0 +1,605 @@
+// End-to-end tests of the real shellwrightd binary
+// ($SHELLWRIGHT_BIN_DIR/server/shellwrightd), each starting its own server
+// on a free 127.0.0.1 port: flags, health, the CLI's remote mode, tokens,
+// TLS and mutual TLS, limits, hostile bytes and graceful shutdown.
+
+#include <signal.h>
+
+#include <chrono>
+#include <memory>
+#include <string>
+#include <thread>
+#include <vector>
+
+#include "absl/strings/str_cat.h"
+#include "absl/strings/str_join.h"
+#include "gmock/gmock.h"
+#include "grpc/health/v1/health.grpc.pb.h"
+#include "grpcpp/grpcpp.h"
+#include "gtest/gtest.h"
+#include "shellwright/v1/electron_structure.grpc.pb.h"
+#include "tests/server/server_test_util.h"
+
+namespace shellwright {
+namespace {
+
+using ::shellwright::testing::CliPath;
+using ::shellwright::testing::CommandResult;
+using ::shellwright::testing::RunCommand;
+using ::shellwright::testing::ServerProcess;
+using ::shellwright::testing::ShellwrightdPath;
+using ::shellwright::testing::StartShellwrightd;
+using ::shellwright::testing::TempDir;
+using ::testing::HasSubstr;
+using ::testing::Not;
+
+constexpr auto kShutdownTimeout = std::chrono::seconds(20);
+
+// On SIGTERM the server sends GOAWAY plus a PING and waits (within the
+// grace period) for the ack. An idle client channel only reads it on its
+// backup poll, every 5 s by default; poll often so shutdowns in these tests
+// take milliseconds. Runs before gRPC initialises (at the first channel).
+const bool kFastBackupPoll = [] {
+  setenv("GRPC_CLIENT_CHANNEL_BACKUP_POLL_INTERVAL_MS", "50", 1);
+  return true;
+}();
+
+std::unique_ptr<grpc::ClientContext> Context(
+    std::chrono::milliseconds timeout = std::chrono::seconds(10)) {
+  auto context = std::make_unique<grpc::ClientContext>();
+  context->set_deadline(std::chrono::system_clock::now() + timeout);
+  return context;
+}
+
+std::unique_ptr<v1::ElectronStructure::Stub> Stub(
+    const std::string& address,
+    std::shared_ptr<grpc::ChannelCredentials> creds =
+        grpc::InsecureChannelCredentials()) {
+  return v1::ElectronStructure::NewStub(grpc::CreateChannel(address, creds));
+}
+
+grpc::Status DescribeSpec(v1::ElectronStructure::Stub* stub,
+                          const std::string& spec, v1::AtomDescription* out,
+                          const std::string& authorization = "") {
+  auto context = Context();
+  if (!authorization.empty()) {
+    context->AddMetadata("authorization", authorization);
+  }
+  v1::DescribeAtomRequest request;
+  request.set_spec(spec);
+  return stub->DescribeAtom(context.get(), request, out);
+}
+
+// The health status for `service`, or -1 when the call fails.
+int HealthStatus(const std::string& address, const std::string& service,
+                 grpc::Status* status_out = nullptr) {
+  auto stub = grpc::health::v1::Health::NewStub(
+      grpc::CreateChannel(address, grpc::InsecureChannelCredentials()));
+  grpc::health::v1::HealthCheckRequest request;
+  request.set_service(service);
+  grpc::health::v1::HealthCheckResponse response;
+  auto context = Context();
+  grpc::Status status = stub->Check(context.get(), request, &response);
+  if (status_out != nullptr) *status_out = status;
+  return status.ok() ? static_cast<int>(response.status()) : -1;
+}
+
+TEST(Shellwrightd, PrintsTheBoundPortAndExitsZeroOnSigterm) {
+  std::unique_ptr<ServerProcess> server = StartShellwrightd({});
+  ASSERT_NE(server, nullptr);
+  EXPECT_GT(server->port(), 0);
+  EXPECT_NE(server->port(), 50051);
+  v1::AtomDescription d;
+  auto stub = Stub(server->address());
+  ASSERT_TRUE(DescribeSpec(stub.get(), "Fe", &d).ok());
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0) << server->Stderr();
+}
+
+TEST(Shellwrightd, ExitsZeroOnSigint) {
+  std::unique_ptr<ServerProcess> server = StartShellwrightd({});
+  ASSERT_NE(server, nullptr);
+  EXPECT_EQ(server->process().SignalAndWait(SIGINT, kShutdownTimeout), 0);
+}
+
+TEST(Shellwrightd, HealthIsServingForTheServerAndTheService) {
+  std::unique_ptr<ServerProcess> server = StartShellwrightd({});
+  ASSERT_NE(server, nullptr);
+  constexpr int kServing = grpc::health::v1::HealthCheckResponse::SERVING;
+  EXPECT_EQ(HealthStatus(server->address(), ""), kServing);
+  EXPECT_EQ(HealthStatus(server->address(), "shellwright.v1.ElectronStructure"),
+            kServing);
+  grpc::Status unknown;
+  EXPECT_EQ(HealthStatus(server->address(), "no.such.Service", &unknown), -1);
+  EXPECT_EQ(unknown.error_code(), grpc::StatusCode::NOT_FOUND);
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+}
+
+// The CLI's --server mode must print exactly what its in-process mode does.
+TEST(Shellwrightd, CliRemoteOutputMatchesInProcessByteForByte) {
+  std::unique_ptr<ServerProcess> server = StartShellwrightd({});
+  ASSERT_NE(server, nullptr);
+  const std::vector<std::vector<std::string>> commands = {
+      {"atom", "Fe3+", "--json"},
+      {"atom", "Fe3+"},
+      {"atom", "Co3+", "--geometry", "octahedral", "--spin-state", "low",
+       "--json"},
+      {"atom", "Co3+", "--geometry", "octahedral", "--spin-state", "low"},
+      {"atom", "Gd3+", "--json"},
+      {"atom", "Cr", "--configuration", "[Ar] 3d5 4s1"},
+      {"elements", "--json"},
+      {"atom", "Xx"},
+      {"atom", "Fe99+", "--json"},
+  };
+  for (const std::vector<std::string>& args : commands) {
+    std::vector<std::string> local = {CliPath()};
+    local.insert(local.end(), args.begin(), args.end());
+    std::vector<std::string> remote = {CliPath(), "--server",
+                                       server->address()};
+    remote.insert(remote.end(), args.begin(), args.end());
+    CommandResult l = RunCommand(local);
+    CommandResult r = RunCommand(remote);
+    SCOPED_TRACE(absl::StrJoin(args, " "));
+    EXPECT_EQ(r.exit_code, l.exit_code) << r.err;
+    EXPECT_EQ(r.out, l.out);
+    EXPECT_EQ(r.err, l.err);
+    if (args[1] != "Xx" && args[1] != "Fe99+") {
+      EXPECT_EQ(l.exit_code, 0);
+      EXPECT_FALSE(l.out.empty());
+    } else {
+      EXPECT_EQ(l.exit_code, 1);
+    }
+  }
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+}
+
+TEST(Shellwrightd, EveryRpcAnswersWithTheRightCodes) {
+  std::unique_ptr<ServerProcess> server = StartShellwrightd({});
+  ASSERT_NE(server, nullptr);
+  auto stub = Stub(server->address());
+
+  v1::AtomDescription d;
+  grpc::Status s = DescribeSpec(stub.get(), "Fe3+", &d);
+  ASSERT_TRUE(s.ok()) << s.error_message();
+  EXPECT_EQ(d.configuration(), "[Ar] 3d5");
+  for (const char* bad : {"Xx", "Fe99+", ""}) {
+    s = DescribeSpec(stub.get(), bad, &d);
+    EXPECT_EQ(s.error_code(), grpc::StatusCode::INVALID_ARGUMENT) << bad;
+    EXPECT_THAT(s.error_message(), HasSubstr("spec")) << bad;
+  }
+  {
+    auto context = Context();
+    v1::DescribeAtomRequest request;
+    request.set_spec("Fe");
+    request.set_configuration("[Ar] 3d2 4q7");
+    s = stub->DescribeAtom(context.get(), request, &d);
+    EXPECT_EQ(s.error_code(), grpc::StatusCode::INVALID_ARGUMENT);
+    EXPECT_THAT(s.error_message(), HasSubstr("configuration"));
+  }
+  {
+    v1::DescribeAtomsRequest request;
+    for (int i = 0; i < 1000; ++i) {
+      if (i % 2 == 0) {
+        request.add_requests()->set_atomic_number(1 + i % 118);
+      } else {
+        request.add_requests()->set_spec("Qq");
+      }
+    }
+    v1::DescribeAtomsResponse response;
+    auto context = Context();
+    s = stub->DescribeAtoms(context.get(), request, &response);
+    ASSERT_TRUE(s.ok()) << s.error_message();
+    ASSERT_EQ(response.results_size(), 1000);
+    EXPECT_TRUE(response.results(0).has_description());
+    EXPECT_EQ(response.results(1).error().code(), 3);
+    request.add_requests()->set_spec("H");
+    auto over = Context();
+    EXPECT_EQ(stub->DescribeAtoms(over.get(), request, &response).error_code(),
+              grpc::StatusCode::INVALID_ARGUMENT);
+  }
+  {
+    v1::ListElementsResponse response;
+    auto context = Context();
+    ASSERT_TRUE(
+        stub->ListElements(context.get(), v1::ListElementsRequest(), &response)
+            .ok());
+    EXPECT_EQ(response.elements_size(), 118);
+  }
+  {
+    v1::RecordReport report;
+    v1::CompositionRecord record;
+    record.set_id("fe3o4");
+    record.set_formula("Fe3O4");
+    auto context = Context();
+    ASSERT_TRUE(stub->AnalyzeCompound(context.get(), record, &report).ok());
+    EXPECT_TRUE(report.valid());
+    // Magnetite, high spin: Fe2+ (4) + 2 Fe3+ (5) = 14 unpaired per formula
+    // unit (Greenwood & Earnshaw, Chemistry of the Elements, from memory).
+    EXPECT_EQ(report.unpaired_per_formula_unit(), 14);
+  }
+  {
+    // 1234 records in 7 batches (500 + 500 + 200 + 30 + 3 + 1 + 0).
+    const std::vector<int> sizes = {500, 500, 200, 30, 3, 1, 0};
+    auto context = Context();
+    auto stream = stub->AnalyzeRecords(context.get());
+    int sent = 0;
+    std::vector<std::string> ids;
+    for (int size : sizes) {
+      v1::RecordBatch batch;
+      for (int i = 0; i < size; ++i) {
+        batch.add_records()->set_id(absl::StrCat("id", sent++));
+      }
+      ASSERT_TRUE(stream->Write(batch));
+      v1::ReportBatch reply;
+      ASSERT_TRUE(stream->Read(&reply));
+      EXPECT_EQ(reply.reports_size(), size);
+      for (const auto& r : reply.reports()) ids.push_back(r.id());
+    }
+    stream->WritesDone();
+    ASSERT_TRUE(stream->Finish().ok());
+    ASSERT_EQ(ids.size(), 1234u);
+    for (int i = 0; i < 1234; ++i) EXPECT_EQ(ids[i], absl::StrCat("id", i));
+  }
+  {
+    grpc::ClientContext past;
+    past.set_deadline(std::chrono::system_clock::now() -
+                      std::chrono::milliseconds(1));
+    v1::DescribeAtomRequest request;
+    request.set_spec("Fe");
+    EXPECT_EQ(stub->DescribeAtom(&past, request, &d).error_code(),
+              grpc::StatusCode::DEADLINE_EXCEEDED);
+    // 1000 items with explicit configurations take milliseconds, well past
+    // a 1 µs deadline (which gRPC rounds up to the next millisecond).
+    v1::DescribeAtomsRequest slow;
+    for (int i = 0; i < 1000; ++i) {
+      slow.add_requests()->set_spec("Fe");
+      slow.mutable_requests(i)->set_configuration("[Ar] 3d6 4s2");
+    }
+    v1::DescribeAtomsResponse response;
+    grpc::ClientContext tiny;
+    tiny.set_deadline(std::chrono::system_clock::now() +
+                      std::chrono::microseconds(1));
+    EXPECT_EQ(stub->DescribeAtoms(&tiny, slow, &response).error_code(),
+              grpc::StatusCode::DEADLINE_EXCEEDED);
+  }
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+}
+
+TEST(Shellwrightd, TokenIsRequiredAndNeverLogged) {
+  TempDir dir;
+  const std::string token = "tok-9f8e7d6c5b4a";
+  const std::string token_file = dir.Write("token", token + "\n");
+  const std::string wrong_file = dir.Write("wrong", "tok-000\n");
+  std::unique_ptr<ServerProcess> server = StartShellwrightd(
+      {"--auth-token-file", token_file, "--log-level", "debug"}, &dir);
+  ASSERT_NE(server, nullptr);
+  auto stub = Stub(server->address());
+  v1::AtomDescription d;
+  EXPECT_EQ(DescribeSpec(stub.get(), "Fe", &d).error_code(),
+            grpc::StatusCode::UNAUTHENTICATED);
+  EXPECT_EQ(DescribeSpec(stub.get(), "Fe", &d, "Bearer tok-000").error_code(),
+            grpc::StatusCode::UNAUTHENTICATED);
+  grpc::Status ok = DescribeSpec(stub.get(), "Fe", &d, "Bearer " + token);
+  EXPECT_TRUE(ok.ok()) << ok.error_message();
+  // Health stays open so probes need no secret.
+  EXPECT_EQ(HealthStatus(server->address(), ""),
+            grpc::health::v1::HealthCheckResponse::SERVING);
+
+  CommandResult without =
+      RunCommand({CliPath(), "--server", server->address(), "atom", "Fe"});
+  EXPECT_EQ(without.exit_code, 2);
+  EXPECT_THAT(without.err, HasSubstr("UNAUTHENTICATED"));
+  CommandResult wrong = RunCommand({CliPath(), "--server", server->address(),
+                                    "--token-file", wrong_file, "atom", "Fe"});
+  EXPECT_EQ(wrong.exit_code, 2);
+  CommandResult right = RunCommand({CliPath(), "--server", server->address(),
+                                    "--token-file", token_file, "atom", "Fe"});
+  EXPECT_EQ(right.exit_code, 0) << right.err;
+
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+  const std::string log = server->Stderr();
+  EXPECT_THAT(log, HasSubstr("code=UNAUTHENTICATED"));
+  EXPECT_THAT(log, Not(HasSubstr(token)));
+}
+
+class ShellwrightdTls : public ::testing::Test {
+ protected:
+  static void SetUpTestSuite() {
+    dir_ = new TempDir();
+    std::optional<testing::TestPki> pki = testing::MakeTestPki(*dir_);
+    if (pki.has_value()) pki_ = new testing::TestPki(*pki);
+  }
+  static void TearDownTestSuite() {
+    delete pki_;
+    pki_ = nullptr;
+    delete dir_;
+    dir_ = nullptr;
+  }
+  void SetUp() override { ASSERT_NE(pki_, nullptr) << "openssl failed"; }
+
+  static std::shared_ptr<grpc::ChannelCredentials> Tls(bool client_cert,
+                                                       bool other_ca = false) {
+    grpc::SslCredentialsOptions options;
+    options.pem_root_certs = testing::ReadFile(pki_->ca_cert);
+    if (client_cert) {
+      options.pem_cert_chain = testing::ReadFile(
+          other_ca ? pki_->other_client_cert : pki_->client_cert);
+      options.pem_private_key = testing::ReadFile(
+          other_ca ? pki_->other_client_key : pki_->client_key);
+    }
+    return grpc::SslCredentials(options);
+  }
+
+  static TempDir* dir_;
+  static testing::TestPki* pki_;
+};
+
+TempDir* ShellwrightdTls::dir_ = nullptr;
+testing::TestPki* ShellwrightdTls::pki_ = nullptr;
+
+TEST_F(ShellwrightdTls, ServesTlsAndRefusesPlaintext) {
+  std::unique_ptr<ServerProcess> server = StartShellwrightd(
+      {"--tls-cert", pki_->server_cert, "--tls-key", pki_->server_key});
+  ASSERT_NE(server, nullptr);
+  v1::AtomDescription d;
+  auto tls = Stub(server->address(), Tls(false));
+  grpc::Status s = DescribeSpec(tls.get(), "Fe3+", &d);
+  ASSERT_TRUE(s.ok()) << s.error_message();
+  EXPECT_EQ(d.configuration(), "[Ar] 3d5");
+  auto by_name = Stub(absl::StrCat("localhost:", server->port()), Tls(false));
+  EXPECT_TRUE(DescribeSpec(by_name.get(), "Fe", &d).ok());
+
+  auto plain = Stub(server->address());
+  EXPECT_EQ(DescribeSpec(plain.get(), "Fe", &d).error_code(),
+            grpc::StatusCode::UNAVAILABLE);
+
+  CommandResult cli =
+      RunCommand({CliPath(), "--server", server->address(), "--tls-ca",
+                  pki_->ca_cert, "atom", "Fe3+", "--json"});
+  EXPECT_EQ(cli.exit_code, 0) << cli.err;
+  EXPECT_EQ(cli.out, RunCommand({CliPath(), "atom", "Fe3+", "--json"}).out);
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+}
+
+TEST_F(ShellwrightdTls, MutualTlsRequiresAClientCertFromTheTrustedCa) {
+  std::unique_ptr<ServerProcess> server =
+      StartShellwrightd({"--tls-cert", pki_->server_cert, "--tls-key",
+                         pki_->server_key, "--tls-client-ca", pki_->ca_cert});
+  ASSERT_NE(server, nullptr);
+  v1::AtomDescription d;
+  auto with_cert = Stub(server->address(), Tls(true));
+  grpc::Status s = DescribeSpec(with_cert.get(), "Gd3+", &d);
+  ASSERT_TRUE(s.ok()) << s.error_message();
+  EXPECT_EQ(d.configuration(), "[Xe] 4f7");
+
+  auto without_cert = Stub(server->address(), Tls(false));
+  EXPECT_EQ(DescribeSpec(without_cert.get(), "Fe", &d).error_code(),
+            grpc::StatusCode::UNAVAILABLE);
+  auto foreign_cert = Stub(server->address(), Tls(true, /*other_ca=*/true));
+  EXPECT_EQ(DescribeSpec(foreign_cert.get(), "Fe", &d).error_code(),
+            grpc::StatusCode::UNAVAILABLE);
+  auto plain = Stub(server->address());
+  EXPECT_EQ(DescribeSpec(plain.get(), "Fe", &d).error_code(),
+            grpc::StatusCode::UNAVAILABLE);
+
+  CommandResult cli =
+      RunCommand({CliPath(), "--server", server->address(), "--tls-ca",
+                  pki_->ca_cert, "--tls-cert", pki_->client_cert, "--tls-key",
+                  pki_->client_key, "atom", "Fe"});
+  EXPECT_EQ(cli.exit_code, 0) << cli.err;
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+}
+
+TEST_F(ShellwrightdTls, TlsAndTokenTogether) {
+  TempDir dir;
+  const std::string token_file = dir.Write("token", "both-layers\n");
+  std::unique_ptr<ServerProcess> server = StartShellwrightd(
+      {"--tls-cert", pki_->server_cert, "--tls-key", pki_->server_key,
+       "--tls-client-ca", pki_->ca_cert, "--auth-token-file", token_file});
+  ASSERT_NE(server, nullptr);
+  auto stub = Stub(server->address(), Tls(true));
+  v1::AtomDescription d;
+  EXPECT_EQ(DescribeSpec(stub.get(), "Fe", &d).error_code(),
+            grpc::StatusCode::UNAUTHENTICATED);
+  EXPECT_TRUE(DescribeSpec(stub.get(), "Fe", &d, "Bearer both-layers").ok());
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+}
+
+TEST(Shellwrightd, MaxMessageBytesFlagGivesResourceExhausted) {
+  std::unique_ptr<ServerProcess> server =
+      StartShellwrightd({"--max-message-bytes", "2048"});
+  ASSERT_NE(server, nullptr);
+  auto stub = Stub(server->address());
+  v1::AtomDescription d;
+  EXPECT_EQ(DescribeSpec(stub.get(), std::string(4096, 'x'), &d).error_code(),
+            grpc::StatusCode::RESOURCE_EXHAUSTED);
+  EXPECT_TRUE(DescribeSpec(stub.get(), "Fe", &d).ok());
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+}
+
+TEST(Shellwrightd, MaxConcurrentStreamsQueuesExtraCalls) {
+  std::unique_ptr<ServerProcess> server =
+      StartShellwrightd({"--max-concurrent-streams", "1"});
+  ASSERT_NE(server, nullptr);
+  auto stub = Stub(server->address());
+  auto stream_context = Context();
+  auto stream = stub->AnalyzeRecords(stream_context.get());
+  // One exchange so the server's SETTINGS have surely arrived.
+  ASSERT_TRUE(stream->Write(v1::RecordBatch()));
+  v1::ReportBatch reply;
+  ASSERT_TRUE(stream->Read(&reply));
+
+  // The only stream slot is taken: a second call on the same connection
+  // waits for it and times out.
+  auto blocked = Context(std::chrono::milliseconds(500));
+  v1::DescribeAtomRequest request;
+  request.set_spec("Fe");
+  v1::AtomDescription d;
+  EXPECT_EQ(stub->DescribeAtom(blocked.get(), request, &d).error_code(),
+            grpc::StatusCode::DEADLINE_EXCEEDED);
+
+  stream->WritesDone();
+  ASSERT_TRUE(stream->Finish().ok());
+  EXPECT_TRUE(DescribeSpec(stub.get(), "Fe", &d).ok());
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+}
+
+TEST(Shellwrightd, SurvivesGarbageBytes) {
+  std::unique_ptr<ServerProcess> server = StartShellwrightd({});
+  ASSERT_NE(server, nullptr);
+  for (uint32_t seed = 1; seed <= 8; ++seed) {
+    ASSERT_TRUE(testing::SendRawBytes(server->port(),
+                                      testing::RandomBytes(seed * 8192, seed)));
+  }
+  ASSERT_TRUE(testing::SendRawBytes(
+      server->port(),
+      "PRI * HTTP/2.0\r\n\r\nSM\r\n\r\n" + testing::RandomBytes(32768, 99)));
+  auto stub = Stub(server->address());
+  v1::AtomDescription d;
+  grpc::Status s = DescribeSpec(stub.get(), "Fe3+", &d);
+  ASSERT_TRUE(s.ok()) << s.error_message();
+  EXPECT_EQ(d.configuration(), "[Ar] 3d5");
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+}
+
+TEST(Shellwrightd, InFlightStreamFinishesAfterSigterm) {
+  std::unique_ptr<ServerProcess> server =
+      StartShellwrightd({"--shutdown-grace", "10"});
+  ASSERT_NE(server, nullptr);
+  auto stub = Stub(server->address());
+  auto context = Context(std::chrono::seconds(15));
+  auto stream = stub->AnalyzeRecords(context.get());
+  v1::RecordBatch batch;
+  batch.add_records()->set_id("before");
+  ASSERT_TRUE(stream->Write(batch));
+  v1::ReportBatch reply;
+  ASSERT_TRUE(stream->Read(&reply));
+
+  ASSERT_EQ(kill(server->process().pid(), SIGTERM), 0);
+  // Still running: the open stream holds it within the grace period.
+  std::this_thread::sleep_for(std::chrono::milliseconds(300));
+  EXPECT_FALSE(server->process().TryWait().has_value());
+  // New connections are refused once shutdown began.
+  auto fresh = Stub(server->address());
+  v1::AtomDescription d;
+  EXPECT_FALSE(DescribeSpec(fresh.get(), "Fe", &d).ok());
+
+  batch.mutable_records(0)->set_id("after");
+  ASSERT_TRUE(stream->Write(batch));
+  ASSERT_TRUE(stream->Read(&reply));
+  ASSERT_EQ(reply.reports_size(), 1);
+  EXPECT_EQ(reply.reports(0).id(), "after");
+  stream->WritesDone();
+  EXPECT_TRUE(stream->Finish().ok());
+  EXPECT_EQ(server->process().Wait(kShutdownTimeout), 0);
+}
+
+TEST(Shellwrightd, GracePeriodBoundsShutdown) {
+  std::unique_ptr<ServerProcess> server =
+      StartShellwrightd({"--shutdown-grace", "0.3"});
+  ASSERT_NE(server, nullptr);
+  auto stub = Stub(server->address());
+  auto context = Context(std::chrono::seconds(30));
+  auto stream = stub->AnalyzeRecords(context.get());
+  ASSERT_TRUE(stream->Write(v1::RecordBatch()));
+  v1::ReportBatch reply;
+  ASSERT_TRUE(stream->Read(&reply));
+  const auto start = std::chrono::steady_clock::now();
+  // The stream stays open; the server must give up on it after the grace.
+  EXPECT_EQ(server->Terminate(std::chrono::seconds(10)), 0);
+  EXPECT_LT(std::chrono::steady_clock::now() - start, std::chrono::seconds(5));
+  EXPECT_FALSE(stream->Read(&reply));
+  EXPECT_FALSE(stream->Finish().ok());
+}
+
+TEST(Shellwrightd, LogsOneLinePerCall) {
+  TempDir dir;
+  std::unique_ptr<ServerProcess> server =
+      StartShellwrightd({"--log-level", "info"}, &dir);
+  ASSERT_NE(server, nullptr);
+  auto stub = Stub(server->address());
+  v1::AtomDescription d;
+  ASSERT_TRUE(DescribeSpec(stub.get(), "Fe", &d).ok());
+  ASSERT_FALSE(DescribeSpec(stub.get(), "Xx", &d).ok());
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+  const std::string log = server->Stderr();
+  EXPECT_THAT(log, ::testing::ContainsRegex(
+                       "call method=DescribeAtom code=OK duration_us=[0-9]+"));
+  EXPECT_THAT(log, HasSubstr("call method=DescribeAtom code=INVALID_ARGUMENT"));
+  // Client input is only logged at debug level.
+  EXPECT_THAT(log, Not(HasSubstr("Xx")));
+}
+
+TEST(Shellwrightd, WarningLevelLogsNoCalls) {
+  std::unique_ptr<ServerProcess> server =
+      StartShellwrightd({"--log-level", "warning"});
+  ASSERT_NE(server, nullptr);
+  auto stub = Stub(server->address());
+  v1::AtomDescription d;
+  ASSERT_TRUE(DescribeSpec(stub.get(), "Fe", &d).ok());
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+  EXPECT_THAT(server->Stderr(), Not(HasSubstr("call method=")));
+}
+
+TEST(Shellwrightd, BadFlagsExitTwoWithAMessage) {
+  TempDir dir;
+  const std::string junk_pem = dir.Write("junk.pem", "not a pem\n");
+  const std::string fake_pem = dir.Write("fake.pem",
+                                         "-----BEGIN CERTIFICATE-----\nAAAA\n"
+                                         "-----END CERTIFICATE-----\n");
+  struct Case {
+    std::vector<std::string> flags;
+    std::string message;
+  };
+  const std::vector<Case> cases = {
+      {{"--auth-token", "hunter2"}, "--auth-token-file"},
+      {{"--bogus", "1"}, "unknown option --bogus"},
+      {{"--log-level", "loud"}, "log level"},
+      {{"--max-message-bytes", "-5"}, "--max-message-bytes"},
+      {{"--max-concurrent-streams", "many"}, "--max-concurrent-streams"},
+      {{"--shutdown-grace", "-1"}, "--shutdown-grace"},
+      {{"--tls-cert", junk_pem}, "--tls-key"},
+      {{"--tls-cert", junk_pem, "--tls-key", junk_pem}, "no PEM block"},
+      {{"--tls-client-ca", junk_pem}, "--tls-cert"},
+      {{"--auth-token-file", dir.File("absent")}, "absent"},
+      {{"--listen"}, "needs a value"},
+      {{"stray"}, "unexpected argument"},
+  };
+  for (const Case& c : cases) {
+    std::vector<std::string> argv = {ShellwrightdPath(), "--listen",
+                                     "127.0.0.1:0"};
+    argv.insert(argv.end(), c.flags.begin(), c.flags.end());
+    CommandResult r = RunCommand(argv, std::chrono::seconds(10));
+    SCOPED_TRACE(absl::StrJoin(c.flags, " "));
+    EXPECT_EQ(r.exit_code, 2) << r.err;
+    EXPECT_THAT(r.err, HasSubstr(c.message));
+    EXPECT_THAT(r.out, Not(HasSubstr("listening")));
+    EXPECT_THAT(r.err, Not(HasSubstr("hunter2")));
+  }
+  // A syntactically plausible but broken certificate must fail cleanly, not
+  // crash (exit codes above 128 mean a signal).
+  CommandResult broken =
+      RunCommand({ShellwrightdPath(), "--listen", "127.0.0.1:0", "--tls-cert",
+                  fake_pem, "--tls-key", fake_pem},
+                 std::chrono::seconds(10));
+  EXPECT_TRUE(broken.exit_code == 1 || broken.exit_code == 2)
+      << broken.exit_code << "\n"
+      << broken.err;
+
+  CommandResult help = RunCommand({ShellwrightdPath(), "--help"});
+  EXPECT_EQ(help.exit_code, 0);
+  EXPECT_THAT(help.out, HasSubstr("--auth-token-file"));
+}
+
+TEST(Shellwrightd, AddressInUseExitsOne) {
+  std::unique_ptr<ServerProcess> first = StartShellwrightd({});
+  ASSERT_NE(first, nullptr);
+  CommandResult second =
+      RunCommand({ShellwrightdPath(), "--listen", first->address()},
+                 std::chrono::seconds(10));
+  EXPECT_EQ(second.exit_code, 1) << second.err;
+  EXPECT_THAT(second.err, HasSubstr("cannot listen"));
+  EXPECT_EQ(first->Terminate(kShutdownTimeout), 0);
+}
+
+}  // namespace
+}  // namespace shellwright
