@@ -19,6 +19,7 @@
 #include "absl/strings/str_format.h"
 #include "absl/time/clock.h"
 #include "clients/cli/record_io.h"
+#include "google/protobuf/arena.h"
 #include "server/convert.h"
 
 namespace shellwright::cli {
@@ -27,12 +28,16 @@ namespace {
 struct Item {
   v1::CompositionRecord record;
   std::string error;  // Non-empty: malformed line, answered locally.
-  v1::RecordReport report;
+  v1::RecordReport* report = nullptr;  // In Batch::arena or Batch::reply.
 };
 
 struct Batch {
   int64_t seq = 0;
   std::vector<Item> items;
+  // Reports live in one arena per batch: a report is a tree of small
+  // messages, and freeing them one by one cost more than analysing them.
+  std::unique_ptr<google::protobuf::Arena> arena;
+  v1::ReportBatch reply;  // Remote mode: the server's answer.
   std::string text;  // Formatted output lines.
   CheckSummary summary;
 };
@@ -152,7 +157,7 @@ RecordFormat FormatFromPath(const std::string& path, RecordFormat fallback) {
 // Formats the reports of a batch and counts them.
 void Finish(RecordFormat output, Batch* b) {
   for (Item& item : b->items) {
-    const v1::RecordReport& r = item.report;
+    const v1::RecordReport& r = *item.report;
     b->text += output == RecordFormat::kCsv ? ReportToCsvLine(r)
                                             : ReportToJsonLine(r);
     b->text.push_back('\n');
@@ -164,6 +169,8 @@ void Finish(RecordFormat output, Batch* b) {
   }
   b->items.clear();
   b->items.shrink_to_fit();
+  b->reply.Clear();
+  b->arena.reset();
 }
 
 }  // namespace
@@ -311,10 +318,14 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
   });
 
   auto answer_malformed = [](Batch* b) {
+    if (b->arena == nullptr) b->arena = std::make_unique<google::protobuf::Arena>();
     for (Item& item : b->items) {
       if (!item.error.empty()) {
         ParsedLine p{item.record, item.error};
-        item.report = MalformedRecordReport(p);
+        item.report =
+            google::protobuf::Arena::CreateMessage<v1::RecordReport>(
+                b->arena.get());
+        *item.report = MalformedRecordReport(p);
       }
     }
   };
@@ -330,7 +341,10 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
           answer_malformed(&*b);
           for (Item& item : b->items) {
             if (item.error.empty()) {
-              AnalyzeRecordToReport(item.record, &item.report);
+              item.report =
+                  google::protobuf::Arena::CreateMessage<v1::RecordReport>(
+                      b->arena.get());
+              AnalyzeRecordToReport(item.record, item.report);
             }
           }
           Finish(out_format, &*b);
@@ -366,7 +380,7 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
           int expected = 0;
           for (const Item& item : b->items) expected += item.error.empty();
           if (expected > 0) {
-            v1::ReportBatch reply;
+            v1::ReportBatch& reply = b->reply;
             if (!stream->Read(&reply) || reply.reports_size() != expected) {
               fail(absl::DataLossError(absl::StrCat(
                   "the server's reply to batch ", b->seq,
@@ -375,7 +389,7 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
             }
             int k = 0;
             for (Item& item : b->items) {
-              if (item.error.empty()) item.report = std::move(*reply.mutable_reports(k++));
+              if (item.error.empty()) item.report = reply.mutable_reports(k++);
             }
           }
           Finish(out_format, &*b);

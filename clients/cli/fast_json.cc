@@ -5,6 +5,7 @@
 #include <cstdio>
 #include <cstdlib>
 
+#include "absl/container/flat_hash_map.h"
 #include "absl/strings/str_cat.h"
 #include "google/protobuf/descriptor.h"
 
@@ -18,10 +19,18 @@ using google::protobuf::Reflection;
 // The protobuf printer's escaping: short escapes for \b \t \n \f \r, \"
 // and \\; \u00XX for other control characters, DEL, '<' and '>'; \u2028
 // and \u2029; everything else (valid UTF-8) as is.
-inline bool NeedsEscape(unsigned char c) {
-  return c < 0x20 || c == '"' || c == '\\' || c == 0x7f || c == '<' ||
-         c == '>' || c == 0xE2;
-}
+struct EscapeTable {
+  bool needs[256];
+  constexpr EscapeTable() : needs() {
+    for (int c = 0; c < 256; ++c) {
+      needs[c] = c < 0x20 || c == '"' || c == '\\' || c == 0x7f ||
+                 c == '<' || c == '>' || c == 0xE2;
+    }
+  }
+};
+constexpr EscapeTable kEscape;
+
+inline bool NeedsEscape(unsigned char c) { return kEscape.needs[c]; }
 
 void AppendEscaped(const std::string& s, std::string* out) {
   out->push_back('"');
@@ -180,11 +189,19 @@ void AppendCompactJson(const Message& message, std::string* out) {
   const Reflection* r = message.GetReflection();
   out->push_back('{');
   bool first = true;
+  // Field names never change: escape each once per thread.
+  thread_local absl::flat_hash_map<const FieldDescriptor*, std::string> keys;
   auto key = [&](const FieldDescriptor* f) {
     if (!first) out->push_back(',');
     first = false;
-    AppendEscaped(f->name(), out);
-    out->push_back(':');
+    auto it = keys.find(f);
+    if (it == keys.end()) {
+      std::string k;
+      AppendEscaped(f->name(), &k);
+      k.push_back(':');
+      it = keys.emplace(f, std::move(k)).first;
+    }
+    out->append(it->second);
   };
   // The protobuf printer emits, in declaration order, repeated fields,
   // plain scalars (always) and set message fields; then the set scalars
