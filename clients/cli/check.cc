@@ -264,8 +264,8 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
                        ? options.jobs
                        : std::max(1u, std::thread::hardware_concurrency());
   const int batch_size = std::max(1, options.batch_size);
-  BoundedQueue<Batch> input_queue(2 * jobs + 2);
-  OrderedSink sink(4 * jobs + 4);
+  BoundedQueue<Batch> input_queue(jobs + 1);
+  OrderedSink sink(2 * jobs + 2);
   std::atomic<int64_t> batches_total{0};
   std::atomic<bool> total_known{false};
   std::atomic<bool> failed{false};

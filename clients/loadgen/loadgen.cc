@@ -312,12 +312,37 @@ v1::DescribeAtomRequest UnaryRequest(const Flags& flags) {
   return request;
 }
 
+// A batch of mostly distinct compositions, as real datasets hold:
+// A-site-doped perovskites, layered oxides and substituted spinels with
+// two-decimal fractions. Batch runs ask for no alternatives, as
+// `shellwright check` does by default.
 v1::RecordBatch StreamRequest(const Flags& flags) {
+  const char* a_site[] = {"La", "Pr", "Nd", "Sm"};
+  const char* dopant[] = {"Sr", "Ca", "Ba"};
+  const char* b_site[] = {"Mn", "Fe", "Co", "Ni", "Cr"};
+  const char* spinel[] = {"Mg", "Co", "Ni", "Zn", "Mn"};
   v1::RecordBatch batch;
   for (int i = 0; i < flags.batch; ++i) {
     v1::CompositionRecord* r = batch.add_records();
     r->set_id(absl::StrFormat("rec-%06d", i));
-    r->set_formula("LiFePO4");
+    const int x = 1 + (i * 37) % 60;
+    switch (i % 3) {
+      case 0:
+        r->set_formula(absl::StrFormat("%s%.2f%s%.2f%sO3", a_site[i % 4],
+                                       1 - x / 100.0, dopant[i % 3],
+                                       x / 100.0, b_site[i % 5]));
+        break;
+      case 1:
+        r->set_formula(absl::StrFormat("LiNi%.2fCo%.2fMn%.2fO2",
+                                       (30 + x) / 100.0, (70 - x) / 200.0,
+                                       (70 - x) / 200.0));
+        break;
+      default:
+        r->set_formula(absl::StrFormat("%sFe%.2fAl%.2fO4", spinel[i % 5],
+                                       2 - x / 100.0, x / 100.0));
+        break;
+    }
+    r->set_max_alternatives(0);
   }
   return batch;
 }
