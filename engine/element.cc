@@ -27,9 +27,30 @@ Block BlockFromLetter(char c) {
   }
 }
 
+// Slot of a symbol in ElementIndex::by_symbol, or -1 when the text cannot
+// be a symbol (wrong length or case).
+int SymbolSlot(absl::string_view symbol) {
+  if (symbol.empty() || symbol.size() > 3) return -1;
+  const int c0 = symbol[0] - 'A';
+  if (c0 < 0 || c0 >= 26) return -1;
+  int c1 = 0, c2 = 0;
+  if (symbol.size() >= 2) {
+    c1 = symbol[1] - 'a' + 1;
+    if (c1 < 1 || c1 > 26) return -1;
+  }
+  if (symbol.size() == 3) {
+    c2 = symbol[2] - 'a' + 1;
+    if (c2 < 1 || c2 > 26) return -1;
+  }
+  return (c0 * 27 + c1) * 27 + c2;
+}
+
 struct ElementIndex {
   std::array<Element, kMaxAtomicNumber> elements;
-  absl::flat_hash_map<absl::string_view, const Element*> by_symbol;
+  // Symbols are one capital and up to two lowercase letters: a direct
+  // table indexed by the letters is faster than hashing, and symbol
+  // lookup is on every formula's hot path.
+  std::array<const Element*, 26 * 27 * 27> by_symbol{};
   absl::flat_hash_map<std::string, const Element*> by_lower_symbol;
   absl::flat_hash_map<std::string, const Element*> by_lower_name;
 };
@@ -52,7 +73,7 @@ const ElementIndex& Index() {
       if (r.has_electronegativity) {
         e.pauling_electronegativity = r.pauling_electronegativity;
       }
-      index->by_symbol[e.symbol] = &e;
+      index->by_symbol[SymbolSlot(e.symbol)] = &e;
       index->by_lower_symbol[internal::AsciiLower(e.symbol)] = &e;
       index->by_lower_name[internal::AsciiLower(e.name)] = &e;
     }
@@ -93,9 +114,8 @@ absl::StatusOr<const Element*> ElementByAtomicNumber(int z) {
 }
 
 const Element* FindElementBySymbol(absl::string_view symbol) {
-  const auto& map = Index().by_symbol;
-  auto it = map.find(symbol);
-  return it == map.end() ? nullptr : it->second;
+  const int slot = SymbolSlot(symbol);
+  return slot < 0 ? nullptr : Index().by_symbol[slot];
 }
 
 absl::StatusOr<const Element*> LookupElement(absl::string_view spec) {

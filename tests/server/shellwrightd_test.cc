@@ -152,6 +152,32 @@ TEST(Shellwrightd, CliRemoteOutputMatchesInProcessByteForByte) {
   EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
 }
 
+TEST(Shellwrightd, CheckThroughTheServerMatchesInProcessByteForByte) {
+  // The demo registry holds every kind of defect, including broken CSV
+  // lines that the CLI answers locally, so this covers the merge of local
+  // and streamed reports too.
+  const std::string input =
+      std::string(SHELLWRIGHT_DEFAULT_SOURCE_DIR) +
+      "/data/demo/sample_registry.csv";
+  std::unique_ptr<ServerProcess> server = StartShellwrightd({});
+  ASSERT_NE(server, nullptr);
+  for (const char* format : {"jsonl", "csv"}) {
+    SCOPED_TRACE(format);
+    CommandResult local = RunCommand(
+        {CliPath(), "check", input, "--out", "-", "--out-format", format});
+    CommandResult remote =
+        RunCommand({CliPath(), "--server", server->address(), "check", input,
+                    "--out", "-", "--out-format", format, "--batch-size",
+                    "137"});
+    EXPECT_EQ(local.exit_code, 1);  // The registry has invalid records.
+    EXPECT_EQ(remote.exit_code, local.exit_code) << remote.err;
+    EXPECT_EQ(remote.out, local.out);
+    EXPECT_EQ(remote.err, local.err);
+    EXPECT_GE(std::count(local.out.begin(), local.out.end(), '\n'), 3000);
+  }
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+}
+
 TEST(Shellwrightd, EveryRpcAnswersWithTheRightCodes) {
   std::unique_ptr<ServerProcess> server = StartShellwrightd({});
   ASSERT_NE(server, nullptr);
