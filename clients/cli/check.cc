@@ -232,6 +232,20 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
   int line_no = 0;
   std::string line;
   std::atomic<int64_t> bytes_read{0};
+  // A UTF-8 byte-order mark (spreadsheet exports) is not part of the data.
+  if (in->peek() == 0xEF) {
+    char bom[3] = {0, 0, 0};
+    in->read(bom, 3);
+    if (!(static_cast<unsigned char>(bom[1]) == 0xBB &&
+          static_cast<unsigned char>(bom[2]) == 0xBF)) {
+      for (int k = static_cast<int>(in->gcount()) - 1; k >= 0; --k) {
+        in->putback(bom[k]);
+      }
+      in->clear();
+    } else {
+      bytes_read += 3;
+    }
+  }
   if (in_format == RecordFormat::kCsv) {
     while (std::getline(*in, line)) {
       ++line_no;

@@ -363,6 +363,37 @@ TEST_F(CheckTest, CsvFromStdinToStdout) {
   EXPECT_EQ(reports[1].row(), 3);
 }
 
+TEST_F(CheckTest, ByteOrderMarkAndCrlfFromSpreadsheetExports) {
+  // Regression: a UTF-8 byte-order mark before the header hid the `id`
+  // column, turning a good file into a usage error.
+  CommandResult r = Check(
+      {"-", "--format", "csv"},
+      "\xEF\xBB\xBF" + std::string(kHeader) + "\r\na,NaCl,,,\r\nb,MgO,,,\r\n");
+  EXPECT_EQ(r.exit_code, 0) << r.err;
+  const std::vector<v1::RecordReport> reports = ParseReports(r.out);
+  ASSERT_EQ(reports.size(), 2u);
+  EXPECT_EQ(reports[0].id(), "a");
+  EXPECT_EQ(reports[1].formula(), "MgO");
+  CommandResult j = Check({"-", "--format", "jsonl"},
+                          "\xEF\xBB\xBF{\"id\":\"k\",\"formula\":\"KBr\"}\r\n");
+  EXPECT_EQ(j.exit_code, 0) << j.err;
+  ASSERT_EQ(ParseReports(j.out).size(), 1u);
+}
+
+TEST_F(CheckTest, EmptyAndHeaderOnlyInputs) {
+  CommandResult empty = Check({"-", "--format", "csv"}, "");
+  EXPECT_EQ(empty.exit_code, 2);
+  EXPECT_THAT(empty.err, HasSubstr("no header"));
+  CommandResult header_only =
+      Check({"-", "--format", "csv"}, std::string(kHeader) + "\n");
+  EXPECT_EQ(header_only.exit_code, 0) << header_only.err;
+  EXPECT_THAT(header_only.out, IsEmpty());
+  EXPECT_THAT(header_only.err, HasSubstr("0 rows"));
+  CommandResult empty_jsonl = Check({"-", "--format", "jsonl"}, "");
+  EXPECT_EQ(empty_jsonl.exit_code, 0) << empty_jsonl.err;
+  EXPECT_THAT(empty_jsonl.out, IsEmpty());
+}
+
 TEST_F(CheckTest, CsvOutputHasHeaderAndOneLinePerRow) {
   const GeneratedCsv g = GenerateCsv(200);
   WriteFile(Path("in.csv"), g.text);
