@@ -18,6 +18,18 @@ constexpr int64_t kMaxExactMagnitude = 1000000000000;  // 1e12
 using Items = std::vector<std::pair<const Element*, Rational>>;
 
 bool CheckedMultiply(const Rational& a, const Rational& b, Rational* out) {
+  // Fast paths: most counts are multiplied by 1 or are small integers.
+  if (b.num() == 1 && b.den() == 1) {
+    *out = a;
+    return true;
+  }
+  if (a.den() == 1 && b.den() == 1 && a.num() <= kMaxExactMagnitude &&
+      b.num() <= kMaxExactMagnitude) {
+    const __int128 p = static_cast<__int128>(a.num()) * b.num();
+    if (p > kMaxExactMagnitude) return false;
+    *out = Rational(static_cast<int64_t>(p));
+    return true;
+  }
   const __int128 num = static_cast<__int128>(a.num()) * b.num();
   const __int128 den = static_cast<__int128>(a.den()) * b.den();
   // Reduce before range-checking: 0.5 * 2 is fine however large the parts.

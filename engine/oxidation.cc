@@ -2,7 +2,6 @@
 
 #include <algorithm>
 #include <array>
-#include <deque>
 #include <limits>
 #include <numeric>
 #include <set>
@@ -271,7 +270,12 @@ Solution Solve(const std::vector<ElementPlan>& plans, int64_t target) {
         // window for t covers q = t - base + k*d, k = 1..c-1.
         int64_t t0 = lo[i + 1] + ((r - (lo[i + 1] % d)) % d + d) % d;
         if (t0 > hi[i + 1]) continue;
-        std::deque<std::pair<int64_t, int64_t>> window;  // (q, adjusted)
+        // Monotone queue of (q, adjusted cost) in a reused buffer: a
+        // std::deque would allocate for every residue class of every
+        // option of every layer.
+        thread_local std::vector<std::pair<int64_t, int64_t>> window_buffer;
+        window_buffer.clear();
+        size_t head = 0;
         const int64_t q_ref = t0 - base;  // k = 0 for t0; same class.
         // First q to add: the smallest candidate of t0 that lies in the
         // previous window (candidates below prev_lo never matter).
@@ -286,25 +290,27 @@ Solution Solve(const std::vector<ElementPlan>& plans, int64_t target) {
               if (w < kInfinity) {
                 const int64_t adjusted =
                     w + o.per_low_atom * ((next_q - q_ref) / d);
-                while (!window.empty() && window.back().second >= adjusted) {
-                  window.pop_back();
+                while (window_buffer.size() > head &&
+                       window_buffer.back().second >= adjusted) {
+                  window_buffer.pop_back();
                 }
-                window.emplace_back(next_q, adjusted);
+                window_buffer.emplace_back(next_q, adjusted);
               }
             }
             next_q += d;
           }
-          while (!window.empty() && window.front().first < q_first) {
-            window.pop_front();
+          while (window_buffer.size() > head &&
+                 window_buffer[head].first < q_first) {
+            ++head;
           }
-          if (window.empty()) continue;
-          const int64_t w = window.front().second -
+          if (window_buffer.size() == head) continue;
+          const int64_t w = window_buffer[head].second -
                             o.per_low_atom * (((t - base) - q_ref) / d) +
                             o.weight;
           int64_t& slot = next[t - lo[i + 1]];
           if (w < slot) {
             slot = w;
-            const int64_t k = (window.front().first - (t - base)) / d;
+            const int64_t k = (window_buffer[head].first - (t - base)) / d;
             back[i + 1][t - lo[i + 1]] = Choice{oi, k};
           }
         }
