@@ -277,9 +277,10 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
   const int jobs = options.jobs > 0
                        ? options.jobs
                        : std::max(1u, std::thread::hardware_concurrency());
-  const int batch_size = std::max(1, options.batch_size);
-  BoundedQueue<Batch> input_queue(jobs + 1);
-  OrderedSink sink(2 * jobs + 2);
+  const int batch_size =
+      options.batch_size > 0 ? options.batch_size : (remote ? 500 : 256);
+  BoundedQueue<Batch> input_queue(2 * jobs + 2);
+  OrderedSink sink(4 * jobs + 4);
   std::atomic<int64_t> batches_total{0};
   std::atomic<bool> total_known{false};
   std::atomic<bool> failed{false};

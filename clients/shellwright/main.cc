@@ -58,7 +58,8 @@ Commands:
       --format F           input format csv|jsonl (default: by extension)
       --out-format F       output format csv|jsonl (default: by extension)
       --jobs N             worker threads (default: all cores)
-      --batch-size N       records per batch (default 500)
+      --batch-size N       records per batch (default 256, or 500 with
+                           --server)
       --alternatives K     alternatives per record without its own
                            max_alternatives, 0-5 (default 0)
       --no-progress        no progress bar even on a terminal
