@@ -1,6 +1,7 @@
 #include "engine/oxidation.h"
 
 #include <algorithm>
+#include <functional>
 #include <array>
 #include <limits>
 #include <numeric>
@@ -70,18 +71,31 @@ struct ElementPlan {
   int64_t max_contribution = 0;
 };
 
-// The element that should carry the negative charge.
-int MostElectronegative(const std::vector<ElementPlan>& plans) {
-  int best = -1;
-  double best_en = -1;
-  for (size_t i = 0; i < plans.size(); ++i) {
-    const auto& en = plans[i].element->pauling_electronegativity;
-    if (en.has_value() && *en > best_en) {
-      best_en = *en;
-      best = static_cast<int>(i);
+// Candidate electronegativity thresholds: elements above a threshold
+// should be negative, those below positive. The first is the default
+// (only the most electronegative element(s) above); the others are tried
+// when it leaves an inconsistency (NH4Cl: N and Cl both negative).
+std::vector<double> Thresholds(const std::vector<ElementPlan>& plans) {
+  std::vector<double> values;
+  for (const ElementPlan& p : plans) {
+    if (p.element->pauling_electronegativity.has_value()) {
+      values.push_back(*p.element->pauling_electronegativity);
     }
   }
-  return best;
+  std::sort(values.begin(), values.end(), std::greater<double>());
+  values.erase(std::unique(values.begin(), values.end()), values.end());
+  std::vector<double> out;
+  if (values.empty()) return {std::numeric_limits<double>::infinity()};
+  if (values.size() == 1) return {values[0] - 0.01};
+  for (size_t j = 0; j + 1 < values.size(); ++j) {
+    out.push_back((values[j] + values[j + 1]) / 2);
+  }
+  return out;
+}
+
+bool AboveThreshold(const Element& e, double threshold) {
+  return e.pauling_electronegativity.has_value() &&
+         *e.pauling_electronegativity > threshold;
 }
 
 // How far a positive state of a main-group (p-block) element falls below
@@ -96,10 +110,10 @@ int GroupGap(const Element& e, int state) {
 }
 
 int64_t OptionWeight(const Element& e, const Option& o, int64_t scaled_count,
-                     bool is_most_electronegative) {
+                     bool above_threshold) {
   const bool mixed = o.low != o.high;
   int uncommon = (o.low_common ? 0 : 1) + (mixed && !o.high_common ? 1 : 0);
-  bool inconsistent = is_most_electronegative ? (o.high > 0) : (o.low < 0);
+  bool inconsistent = above_threshold ? (o.high > 0) : (o.low < 0);
   const int64_t spread = mixed ? scaled_count * (o.high - o.low) : 0;
   // A mixed option's gap depends on the split: this is the gap with every
   // atom in the upper state, and Option::per_low_atom adds the rest.
@@ -123,9 +137,9 @@ constexpr int kAllWide = -2;
 
 std::vector<ElementPlan> BuildPlans(const std::vector<ElementPlan>& base,
                                     const OxidationOptions& options, int wide,
-                                    const Forbidden& forbidden) {
+                                    const Forbidden& forbidden,
+                                    double threshold) {
   std::vector<ElementPlan> plans = base;
-  const int m = MostElectronegative(plans);
   for (size_t i = 0; i < plans.size(); ++i) {
     ElementPlan& p = plans[i];
     const bool common_only = wide != kAllWide && wide != static_cast<int>(i);
@@ -147,8 +161,11 @@ std::vector<ElementPlan> BuildPlans(const std::vector<ElementPlan>& base,
           p.options.push_back({known[k].state, known[k].state, known[k].common,
                                known[k].common, 0});
         }
-        // Mixed valence over adjacent known states; needs two scaled atoms.
+        // Mixed valence over adjacent known states of the same sign; needs
+        // two scaled atoms. A split across zero (O-1 with O+1) would let
+        // any count balance and hide real charge errors.
         if (k + 1 < known.size() && p.scaled_count >= 2 &&
+            (known[k].state > 0) == (known[k + 1].state > 0) &&
             (!common_only || (known[k].common && known[k + 1].common))) {
           p.options.push_back({known[k].state, known[k + 1].state,
                                known[k].common, known[k + 1].common, 0});
@@ -168,7 +185,7 @@ std::vector<ElementPlan> BuildPlans(const std::vector<ElementPlan>& base,
     p.max_contribution = std::numeric_limits<int64_t>::min();
     for (Option& o : p.options) {
       o.weight = OptionWeight(*p.element, o, p.scaled_count,
-                              static_cast<int>(i) == m);
+                              AboveThreshold(*p.element, threshold));
       o.per_low_atom = (GroupGap(*p.element, o.low) -
                         GroupGap(*p.element, o.high)) *
                        kGroupGapWeight;
@@ -382,14 +399,14 @@ struct Staged {
 // typical record cheap.
 Staged SolveStaged(const std::vector<ElementPlan>& base,
                    const OxidationOptions& options, int64_t target,
-                   const Forbidden& forbidden) {
+                   const Forbidden& forbidden, double threshold) {
   Staged best;
-  best.plans = BuildPlans(base, options, -1, forbidden);
+  best.plans = BuildPlans(base, options, -1, forbidden, threshold);
   best.solution = Solve(best.plans, target);
   if (best.solution.weight < kInfinity) return best;
   for (size_t k = 0; k < base.size(); ++k) {
     std::vector<ElementPlan> plans =
-        BuildPlans(base, options, static_cast<int>(k), forbidden);
+        BuildPlans(base, options, static_cast<int>(k), forbidden, threshold);
     Solution s = Solve(plans, target);
     if (s.weight < best.solution.weight) {
       best.plans = std::move(plans);
@@ -398,7 +415,7 @@ Staged SolveStaged(const std::vector<ElementPlan>& base,
   }
   if (best.solution.weight < 2 * kUncommonWeight) return best;
   std::vector<ElementPlan> plans =
-      BuildPlans(base, options, kAllWide, forbidden);
+      BuildPlans(base, options, kAllWide, forbidden, threshold);
   Solution s = Solve(plans, target);
   if (s.weight < best.solution.weight) {
     best.plans = std::move(plans);
@@ -506,12 +523,35 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
   }
   const int64_t target = static_cast<int64_t>(options.net_charge) * scale;
 
-  const Staged best = SolveStaged(base, options, target, Forbidden());
+  // Electronegativity consistency is judged against a threshold: the
+  // default puts only the most electronegative element on the negative
+  // side; the others are searched only when that leaves an inconsistency.
+  const std::vector<double> thresholds = Thresholds(base);
+  auto solve_best = [&](const OxidationOptions& opts,
+                        const Forbidden& forbidden, double* chosen) {
+    Staged best = SolveStaged(base, opts, target, forbidden, thresholds[0]);
+    *chosen = thresholds[0];
+    const bool consistent = best.solution.weight < kInfinity &&
+                            best.solution.weight % kUncommonWeight <
+                                kInconsistencyWeight;
+    if (consistent) return best;
+    for (size_t j = 1; j < thresholds.size(); ++j) {
+      Staged s = SolveStaged(base, opts, target, forbidden, thresholds[j]);
+      if (s.solution.weight < best.solution.weight) {
+        best = std::move(s);
+        *chosen = thresholds[j];
+      }
+    }
+    return best;
+  };
+  double threshold = thresholds[0];
+  const Staged best = solve_best(options, Forbidden(), &threshold);
   if (best.solution.weight >= kInfinity) {
     if (!undeclared) {
       OxidationOptions free = options;
       free.declared.clear();
-      const Staged s = SolveStaged(base, free, target, Forbidden());
+      double unused = 0;
+      const Staged s = solve_best(free, Forbidden(), &unused);
       if (s.solution.weight < kInfinity) {
         result.without_declared = ToAssignment(s.plans, s.solution, scale);
       }
@@ -530,7 +570,7 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
           best.plans[i].options[best.solution.choices[i].option];
       const Staged s = SolveStaged(
           base, options, target,
-          Forbidden{static_cast<int>(i), chosen.low, chosen.high});
+          Forbidden{static_cast<int>(i), chosen.low, chosen.high}, threshold);
       if (s.solution.weight >= kInfinity) continue;
       OxidationAssignment a = ToAssignment(s.plans, s.solution, scale);
       bool duplicate = false;

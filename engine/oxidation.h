@@ -5,14 +5,18 @@
 // stoichiometry, sum to the net charge. An element may be split over two
 // adjacent known states that bracket its average (mixed valence): Fe3O4 is
 // Fe2+ x1 plus Fe3+ x2, Pb3O4 is Pb2+ x2 plus Pb4+ x1, Li0.5CoO2 is
-// Co3+ 0.5 plus Co4+ 0.5.
+// Co3+ 0.5 plus Co4+ 0.5. The two states never straddle zero, so a split
+// cannot absorb an impossible count (Fe2O33 stays unbalanced).
 //
 // Candidates rank by, in order:
 //   1. fewest uncommon states (a state flagged "no" in the table, or a
 //      declared state missing from it);
-//   2. electronegativity consistency: the most electronegative element
-//      (Pauling) should take a negative state and no other element should;
-//      each element that breaks this counts once;
+//   2. electronegativity consistency: elements above an electronegativity
+//      threshold (Pauling) take negative states and those below positive
+//      ones; each element that breaks this counts once. The threshold first
+//      sits just below the most electronegative element; when that leaves an
+//      inconsistency, every threshold between the elements' values is tried
+//      (NH4Cl: N and Cl negative, H positive);
 //   3. main-group elements in positive states closest to their group
 //      oxidation state (group - 10), as the central atoms of oxyanions are:
 //      sulfate S+6, phosphate P+5 (common practice, no source); the gap

@@ -119,7 +119,9 @@ class OrderedSink {
     auto it = done_.find(next_);
     if (it == done_.end()) {
       if (total_known.load() && next_ >= total.load()) return std::nullopt;
-      return Batch{-1, {}, {}, {}};  // Nothing yet; caller retries.
+      Batch none;  // Nothing yet; the caller retries.
+      none.seq = -1;
+      return none;
     }
     Batch b = std::move(it->second);
     done_.erase(it);
@@ -229,32 +231,26 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
   }
   // The CSV header is read up front so that a bad header is a usage error.
   CsvRecordReader csv;
-  int line_no = 0;
   std::string line;
   std::atomic<int64_t> bytes_read{0};
-  // A UTF-8 byte-order mark (spreadsheet exports) is not part of the data.
-  if (in->peek() == 0xEF) {
-    char bom[3] = {0, 0, 0};
-    in->read(bom, 3);
-    if (!(static_cast<unsigned char>(bom[1]) == 0xBB &&
-          static_cast<unsigned char>(bom[2]) == 0xBF)) {
-      for (int k = static_cast<int>(in->gcount()) - 1; k >= 0; --k) {
-        in->putback(bom[k]);
-      }
-      in->clear();
-    } else {
-      bytes_read += 3;
-    }
-  }
+  // Lines come in constant memory; a byte-order mark (spreadsheet exports)
+  // is dropped.
+  LineSource source(in);
+  int row = 0;
+  bool too_long = false;
   if (in_format == RecordFormat::kCsv) {
-    while (std::getline(*in, line)) {
-      ++line_no;
-      bytes_read += line.size() + 1;
-      if (!line.empty() && line.back() == '\r') line.pop_back();
-      if (!line.empty()) break;
+    bool have_header = false;
+    while (source.Next(&line, &row, &too_long)) {
+      if (!line.empty()) {
+        have_header = true;
+        break;
+      }
     }
-    if (line.empty()) {
+    if (!have_header) {
       return absl::InvalidArgumentError("CSV input has no header line");
+    }
+    if (too_long) {
+      return absl::InvalidArgumentError("CSV header line is too long");
     }
     absl::Status s = csv.ReadHeader(line);
     if (!s.ok()) return s;
@@ -305,14 +301,22 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
       return true;
     };
     batch.items.reserve(batch_size);
-    while (!failed && std::getline(*in, line)) {
-      ++line_no;
-      bytes_read += line.size() + 1;
-      if (!line.empty() && line.back() == '\r') line.pop_back();
+    while (!failed && source.Next(&line, &row, &too_long)) {
+      bytes_read = source.bytes_read();
       if (line.empty()) continue;
-      ParsedLine p = in_format == RecordFormat::kCsv
-                         ? csv.ParseLine(line, line_no)
-                         : ParseJsonLine(line, line_no);
+      ParsedLine p;
+      if (too_long) {
+        p = TooLongLine(line, row,
+                        in_format == RecordFormat::kCsv &&
+                            csv.id_is_first_column());
+      } else if (in_format == RecordFormat::kJsonl) {
+        p = ParseJsonLine(line, row);
+      } else {
+        // One record per physical line, as the output promises one
+        // report per input line: a quoted field cannot span lines, so a
+        // broken quote costs exactly one record, never the ones after it.
+        p = csv.ParseLine(line, row);
+      }
       Item item;
       item.record = std::move(p.record);
       if (!item.record.has_max_alternatives()) {
@@ -324,7 +328,7 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
         break;
       }
     }
-    if (in->bad()) fail(absl::DataLossError("error reading the input"));
+    if (source.bad()) fail(absl::DataLossError("error reading the input"));
     if (!batch.items.empty() && !failed) flush();
     batches_total = seq;
     total_known = true;

@@ -1,7 +1,9 @@
 #include "clients/cli/record_io.h"
 
 #include <cmath>
+#include <cstring>
 
+#include "absl/strings/match.h"
 #include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
@@ -72,7 +74,90 @@ void SanitizeUtf8(std::string* s) {
   *s = std::move(out);
 }
 
+// The first line of a protobuf JSON parse error, without the caret dump.
+std::string FirstLine(absl::string_view message) {
+  const size_t nl = message.find('\n');
+  std::string out(message.substr(0, nl));
+  SanitizeUtf8(&out);
+  return out;
+}
+
 }  // namespace
+
+LineSource::LineSource(std::istream* in) : in_(in), buffer_(1 << 16) {}
+
+bool LineSource::Fill() {
+  if (!*in_) return false;
+  in_->read(buffer_.data(), static_cast<std::streamsize>(buffer_.size()));
+  end_ = static_cast<size_t>(in_->gcount());
+  pos_ = 0;
+  if (at_start_ && end_ >= 3 && static_cast<unsigned char>(buffer_[0]) == 0xEF &&
+      static_cast<unsigned char>(buffer_[1]) == 0xBB &&
+      static_cast<unsigned char>(buffer_[2]) == 0xBF) {
+    pos_ = 3;
+    bytes_read_ += 3;
+  }
+  at_start_ = false;
+  return end_ > 0;
+}
+
+bool LineSource::Next(std::string* line, int* line_no, bool* too_long) {
+  if (!pending_.empty()) {
+    *line = std::move(pending_.back().line);
+    *line_no = pending_.back().line_no;
+    *too_long = pending_.back().too_long;
+    pending_.pop_back();
+    return true;
+  }
+  line->clear();
+  *too_long = false;
+  bool any = false;
+  while (true) {
+    if (pos_ == end_ && !Fill()) break;
+    any = true;
+    const char* start = buffer_.data() + pos_;
+    const char* nl = static_cast<const char*>(
+        std::memchr(start, '\n', end_ - pos_));
+    const size_t len = nl ? static_cast<size_t>(nl - start) : end_ - pos_;
+    const size_t room = kMaxLineBytes + 1 - std::min(line->size(), kMaxLineBytes + 1);
+    line->append(start, std::min(len, room));
+    if (line->size() > kMaxLineBytes) {
+      line->resize(kMaxLineBytes);
+      *too_long = true;
+    }
+    pos_ += len;
+    bytes_read_ += len;
+    if (nl != nullptr) {
+      ++pos_;
+      ++bytes_read_;
+      break;
+    }
+  }
+  if (!any) return false;
+  if (!line->empty() && line->back() == '\r') line->pop_back();
+  *line_no = ++line_no_;
+  return true;
+}
+
+void LineSource::PushBack(std::string line, int line_no, bool too_long) {
+  pending_.push_back(Pending{std::move(line), line_no, too_long});
+}
+
+ParsedLine TooLongLine(absl::string_view prefix, int row, bool csv_id_first) {
+  ParsedLine p;
+  p.record.set_row(row);
+  p.error = absl::StrCat("line is longer than ", kMaxLineBytes, " bytes");
+  if (csv_id_first) {
+    const size_t comma = prefix.find(',');
+    if (comma != absl::string_view::npos && comma <= 256 &&
+        prefix.substr(0, comma).find('"') == absl::string_view::npos) {
+      std::string id(prefix.substr(0, comma));
+      SanitizeUtf8(&id);
+      p.record.set_id(std::move(id));
+    }
+  }
+  return p;
+}
 
 bool SplitCsvLine(absl::string_view line, std::vector<std::string>* fields,
                   std::string* error) {
@@ -158,6 +243,7 @@ ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) const {
   }
   if (!SplitCsvLine(line, &fields, &error)) {
     p.error = error;
+    p.unterminated_quote = absl::StartsWith(error, "unterminated quote");
     // Recover the id when the damage is later in the line.
     const size_t comma = line.find(',');
     if (index_.at("id") == 0 && comma != absl::string_view::npos &&
@@ -217,6 +303,9 @@ ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) const {
                     [&](double v) { p.record.set_moment_tolerance(v); })) {
     return p;
   }
+  if (absl::StripAsciiWhitespace(p.record.id()).empty()) {
+    p.error = "the id field is empty";
+  }
   return p;
 }
 
@@ -225,14 +314,20 @@ ParsedLine ParseJsonLine(absl::string_view line, int row) {
   if (line.size() > kMaxLineBytes) {
     p.error = absl::StrCat("line is longer than ", kMaxLineBytes, " bytes");
   } else {
+    // Proto strings must be UTF-8: repair the text first, so that a bad
+    // byte costs one U+FFFD, not the record.
+    std::string text(line);
+    SanitizeUtf8(&text);
     google::protobuf::util::JsonParseOptions options;
     options.ignore_unknown_fields = true;
-    auto status = google::protobuf::util::JsonStringToMessage(
-        std::string(line), &p.record, options);
+    auto status =
+        google::protobuf::util::JsonStringToMessage(text, &p.record, options);
     if (!status.ok()) {
-      p.error = absl::StrCat("not a valid record: ",
-                             Clip(std::string(status.message()), 120));
+      p.error = absl::StrCat("not a valid JSON record: ",
+                             Clip(FirstLine(std::string(status.message())), 120));
       p.record.Clear();
+    } else if (absl::StripAsciiWhitespace(p.record.id()).empty()) {
+      p.error = "the id field is missing or empty";
     }
   }
   p.record.set_row(row);

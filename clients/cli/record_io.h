@@ -7,12 +7,16 @@
 //     `spin_state`, `measured_moment`, `moment_tolerance`,
 //     `max_alternatives` are understood (other columns are ignored). One
 //     record per line: fields may be quoted ("a, b"), with "" for a quote
-//     inside, but may not span lines. Empty lines are skipped.
+//     inside, but may not span lines (a line break inside quotes would let
+//     one broken quote swallow the records after it; the output promises
+//     one report per input line). Empty lines are skipped, and row numbers
+//     keep counting them. A record whose id is empty is malformed.
 //   - JSONL: one shellwright.v1.CompositionRecord JSON object per line
 //     (proto field names; unknown fields ignored). Empty lines are skipped.
 // A line that cannot be read (bad quoting, wrong field count, a value that
-// is not a number, broken JSON) becomes an error report with code
-// "malformed_record", so every input line gets exactly one output line.
+// is not a number, broken JSON, longer than kMaxLineBytes) becomes an error
+// report with code "malformed_record", so every non-empty input line gets
+// exactly one output line. Invalid UTF-8 becomes U+FFFD.
 // Row numbers are physical line numbers, 1-based (a CSV header is line 1).
 //
 // Example:
@@ -27,6 +31,7 @@
 #ifndef SHELLWRIGHT_CLIENTS_CLI_RECORD_IO_H_
 #define SHELLWRIGHT_CLIENTS_CLI_RECORD_IO_H_
 
+#include <istream>
 #include <map>
 #include <string>
 #include <vector>
@@ -40,9 +45,46 @@ namespace shellwright::cli {
 // Longest input line accepted; longer lines become malformed_record.
 inline constexpr size_t kMaxLineBytes = 1 << 20;
 
+// Physical lines of a stream in constant memory: a line longer than
+// kMaxLineBytes is cut there (the rest is skipped, not stored) and flagged.
+// A UTF-8 byte-order mark at the very start is dropped. Lines lose their
+// "\n" and a trailing "\r".
+class LineSource {
+ public:
+  explicit LineSource(std::istream* in);
+  LineSource(const LineSource&) = delete;
+  LineSource& operator=(const LineSource&) = delete;
+
+  // False at the end of the input (or on a read error; see bad()).
+  bool Next(std::string* line, int* line_no, bool* too_long);
+  // Returns a line read ahead; lines come back last-in first-out.
+  void PushBack(std::string line, int line_no, bool too_long);
+
+  int64_t bytes_read() const { return bytes_read_; }
+  bool bad() const { return in_->bad(); }
+
+ private:
+  bool Fill();
+
+  std::istream* in_;
+  std::vector<char> buffer_;
+  size_t pos_ = 0;
+  size_t end_ = 0;
+  int line_no_ = 0;
+  int64_t bytes_read_ = 0;
+  bool at_start_ = true;
+  struct Pending {
+    std::string line;
+    int line_no;
+    bool too_long;
+  };
+  std::vector<Pending> pending_;
+};
+
 struct ParsedLine {
   v1::CompositionRecord record;  // row and whatever could be read.
   std::string error;             // Non-empty for a malformed line.
+  bool unterminated_quote = false;  // CSV: a quoted field runs past the end.
 };
 
 // Splits one CSV line. Returns false with `error` set on bad quoting.
@@ -54,6 +96,7 @@ class CsvRecordReader {
   // INVALID_ARGUMENT when `id` or `formula` is missing or a column repeats.
   absl::Status ReadHeader(absl::string_view line);
   ParsedLine ParseLine(absl::string_view line, int row) const;
+  bool id_is_first_column() const { return index_.at("id") == 0; }
 
  private:
   std::vector<std::string> columns_;
@@ -61,6 +104,10 @@ class CsvRecordReader {
 };
 
 ParsedLine ParseJsonLine(absl::string_view line, int row);
+
+// The error for a line cut at kMaxLineBytes; for CSV, the id is recovered
+// from the start of the line when it is the first column.
+ParsedLine TooLongLine(absl::string_view prefix, int row, bool csv_id_first);
 
 // The error report for a malformed line.
 v1::RecordReport MalformedRecordReport(const ParsedLine& line);

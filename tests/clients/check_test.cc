@@ -394,6 +394,35 @@ TEST_F(CheckTest, EmptyAndHeaderOnlyInputs) {
   EXPECT_THAT(empty_jsonl.out, IsEmpty());
 }
 
+TEST_F(CheckTest, HostileLinesEachGetOneReport) {
+  // Regressions from review: invalid UTF-8 in JSONL leaked into the
+  // output, a record without an id passed as valid, and an over-long line
+  // was read whole into memory.
+  CommandResult j = Check(
+      {"-", "--format", "jsonl"},
+      "{\"id\":\"a\",\"formula\":\"Fe\xb7O\"}\n{\"formula\":\"MgO\"}\n{\"id\":5}\n");
+  EXPECT_EQ(j.exit_code, 1);
+  const std::vector<v1::RecordReport> reports = ParseReports(j.out);
+  ASSERT_EQ(reports.size(), 3u);  // ParseReports fails on invalid UTF-8.
+  EXPECT_EQ(reports[0].id(), "a");
+  EXPECT_TRUE(HasErrorWithCode(reports[1], "malformed_record"));
+  EXPECT_THAT(reports[1].diagnostics(0).message(), HasSubstr("id"));
+  EXPECT_TRUE(HasErrorWithCode(reports[2], "malformed_record"));
+  EXPECT_EQ(reports[2].diagnostics(0).message().find('\n'), std::string::npos);
+
+  CommandResult c = Check({"-", "--format", "csv"},
+                          std::string(kHeader) + "\n,MgO,,,\nlong," +
+                              std::string(3 << 20, 'x') + "\nb,NaCl,,,\n");
+  EXPECT_EQ(c.exit_code, 1);
+  const std::vector<v1::RecordReport> csv = ParseReports(c.out);
+  ASSERT_EQ(csv.size(), 3u);
+  EXPECT_TRUE(HasErrorWithCode(csv[0], "malformed_record"));
+  EXPECT_EQ(csv[1].id(), "long");
+  EXPECT_THAT(csv[1].diagnostics(0).message(), HasSubstr("longer than"));
+  EXPECT_TRUE(csv[2].valid());
+  EXPECT_EQ(csv[2].row(), 4);
+}
+
 TEST_F(CheckTest, CsvOutputHasHeaderAndOneLinePerRow) {
   const GeneratedCsv g = GenerateCsv(200);
   WriteFile(Path("in.csv"), g.text);
