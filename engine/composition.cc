@@ -157,15 +157,17 @@ void Annotate(const std::vector<std::pair<const Element*, Geometry>>& geometry,
 }
 
 void Summarise(const Formula& formula, CompositionReport* r) {
-  double unpaired = 0, mu2 = 0, lo2 = 0, hi2 = 0;
+  // Exact: 0.7 x 4 + 0.3 x 3 is 3.7, not 3.6999999999999997.
+  Rational unpaired(0);
+  double mu2 = 0, lo2 = 0, hi2 = 0;
   for (const IonAnnotation& ion : r->ions) {
     const double c = ion.count.ToDouble();
-    unpaired += c * ion.description->unpaired_electrons;
+    unpaired = unpaired + ion.count * Rational(ion.description->unpaired_electrons);
     mu2 += c * ion.moment * ion.moment;
     lo2 += c * ion.moment_low * ion.moment_low;
     hi2 += c * ion.moment_high * ion.moment_high;
   }
-  r->unpaired_per_formula_unit = unpaired;
+  r->unpaired_per_formula_unit = unpaired.ToDouble();
   r->effective_moment_per_formula_unit = std::sqrt(mu2);
   r->expected_moment_low = std::sqrt(lo2);
   r->expected_moment_high = std::sqrt(hi2);
@@ -204,12 +206,6 @@ absl::string_view SeverityName(Severity s) {
       return "info";
   }
   return "error";
-}
-
-void AddError(CompositionReport* report, std::string code,
-              std::string message, int column) {
-  Add(report, Severity::kError, std::move(code), std::move(message), column);
-  report->valid = false;
 }
 
 CompositionReport AnalyzeComposition(const CompositionInput& input) {

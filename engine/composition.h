@@ -69,7 +69,7 @@ struct CompositionInput {
   std::string spin_state;       // "Co:low"
   std::optional<double> measured_moment;   // μB per formula unit.
   std::optional<double> moment_tolerance;  // μB; default 0.5.
-  int max_alternatives = 2;
+  int max_alternatives = 0;  // 0..5: further assignments to report.
 };
 
 enum class Severity { kError, kWarning, kInfo };
@@ -111,10 +111,10 @@ struct CompositionReport {
   double valence_electron_concentration = 0;
 };
 
-// Adds an error to `report` and marks it invalid.
-void AddError(CompositionReport* report, std::string code,
-              std::string message, int column = 0);
-
+// Validates and annotates one record. Never fails: every problem, from an
+// unparseable formula to an implausible moment, is a Diagnostic in the
+// returned report, whose id is the input's (cut to kMaxRecordIdLength).
+// No preconditions. Thread-safe; the first call builds the engine's tables.
 CompositionReport AnalyzeComposition(const CompositionInput& input);
 
 }  // namespace shellwright

@@ -106,7 +106,7 @@ struct DeclaredState {
 struct OxidationOptions {
   int net_charge = 0;
   std::vector<DeclaredState> declared;  // Honoured: those elements are fixed.
-  int max_alternatives = 2;             // Further distinct assignments.
+  int max_alternatives = 0;             // Further distinct assignments.
 };
 
 struct OxidationResult {

@@ -122,10 +122,22 @@ void AtomDescriptionToProto(const AtomDescription& d,
   out->set_group(e.group);
   out->set_configuration_user_supplied(d.configuration_user_supplied);
   out->set_madelung_exception(d.madelung_exception);
-  out->set_configuration_source(
-      d.configuration_user_supplied ? "user supplied"
-      : d.madelung_exception        ? d.madelung_exception_source
-                                    : "Madelung filling");
+  std::string source = "Madelung filling";
+  if (d.configuration_user_supplied) {
+    source = "user supplied";
+  } else if (d.madelung_exception) {
+    source = d.madelung_exception_source;
+  } else if (d.charge != 0) {
+    // Ions start from the neutral ground configuration, which for some
+    // elements (Gd, Cu, Cr, ...) is a measured exception.
+    const absl::string_view neutral = MadelungExceptionSource(e.atomic_number);
+    source = neutral.empty()
+                 ? "ion rule applied to Madelung filling"
+                 : absl::StrCat("ion rule applied to the measured neutral "
+                                "configuration (",
+                                neutral, ")");
+  }
+  out->set_configuration_source(source);
 
   out->set_term_symbol(d.term.ToAscii());
   out->set_term_symbol_unicode(d.term.ToUnicode());

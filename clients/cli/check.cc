@@ -191,6 +191,8 @@ std::string FormatSummary(const CheckSummary& s) {
   for (const auto& [code, count] : s.by_code) {
     absl::StrAppendFormat(&out, "  %-36s %d\n", code, count);
   }
+  out += "Moments and spin states are idealised estimates; verify them "
+         "against measurement.\n";
   return out;
 }
 

@@ -242,6 +242,7 @@ int RunCompound(const Args& args, Backend& backend) {
     if (!absl::SimpleAtod(*v, &t)) return Usage("--moment-tolerance must be a number");
     record.set_moment_tolerance(t);
   }
+  record.set_max_alternatives(2);
   if (const std::string* v = get("alternatives")) {
     int k = 0;
     if (!absl::SimpleAtoi(*v, &k) || k < 0 || k > 5) {

@@ -132,7 +132,9 @@ TEST(Magnetism, LandeFormulaSpecialCases) {
   // 2P1/2: g = 2/3; 2P3/2: g = 4/3 (common practice, no source).
   EXPECT_NEAR(LandeG(ParseTermOrFail("2Po1/2")), 2.0 / 3.0, 1e-12);
   EXPECT_NEAR(LandeG(ParseTermOrFail("2Po3/2")), 4.0 / 3.0, 1e-12);
-  // Fe 5D4: g = 3/2.
+  // Fe 5D4: g = 3/2 (the Landé formula with S = 2, L = 2, J = 4; Kittel,
+  // Introduction to Solid State Physics, paramagnetism chapter, from
+  // memory).
   EXPECT_NEAR(LandeG(ParseTermOrFail("5D4")), 1.5, 1e-12);
 }
 
