@@ -2,13 +2,17 @@
 
 #include <unistd.h>
 
+#include <algorithm>
 #include <atomic>
 #include <chrono>
 #include <exception>
 #include <mutex>
 #include <utility>
 
+#include "absl/strings/ascii.h"
 #include "absl/strings/escaping.h"
+#include "absl/strings/match.h"
+#include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
 #include "absl/time/clock.h"
 #include "google/protobuf/stubs/logging.h"
@@ -113,10 +117,47 @@ grpc::Status RunGuarded(absl::string_view method, Body&& body) {
   return grpc::Status(grpc::StatusCode::INTERNAL, kInternalMessage);
 }
 
+// Tells whether a call is still worth working on: work past its deadline
+// or after a cancellation is thrown away by gRPC, so long loops ask between
+// items and stop early.
+class CallWatch {
+ public:
+  explicit CallWatch(grpc::CallbackServerContext* context)
+      : context_(context), deadline_(context->deadline()) {}
+
+  // True once the deadline has passed. One clock read, so cheap enough to
+  // ask before every item.
+  bool DeadlinePassed() const {
+    return std::chrono::system_clock::now() >= deadline_;
+  }
+
+  // OK while the call should go on; DEADLINE_EXCEEDED once its deadline has
+  // passed; CANCELLED once it was cancelled (by the client or by a server
+  // shutdown). Takes a lock inside gRPC.
+  grpc::Status Check() const {
+    if (DeadlinePassed()) {
+      return grpc::Status(grpc::StatusCode::DEADLINE_EXCEEDED,
+                          "deadline exceeded");
+    }
+    if (context_->IsCancelled()) {
+      return grpc::Status(grpc::StatusCode::CANCELLED, "cancelled");
+    }
+    return grpc::Status::OK;
+  }
+
+ private:
+  grpc::CallbackServerContext* const context_;
+  // Cached, as deadline() converts from gpr_timespec on every call.
+  const std::chrono::system_clock::time_point deadline_;
+};
+
+// Finishes a unary call. A call whose deadline passed or that was cancelled
+// while it ran is finished (and logged) with that code rather than OK.
 grpc::ServerUnaryReactor* FinishUnary(grpc::CallbackServerContext* context,
                                       absl::string_view method,
                                       const CallTimer& timer,
-                                      const grpc::Status& status) {
+                                      grpc::Status status) {
+  if (status.ok()) status = CallWatch(context).Check();
   LogCall(method, status, timer, PeerForLog(context));
   grpc::ServerUnaryReactor* reactor = context->DefaultReactor();
   reactor->Finish(status);
@@ -138,6 +179,12 @@ void ScrubItemErrors(v1::DescribeAtomsResponse* response) {
   }
 }
 
+// "unix:PATH" or "unix-abstract:NAME": a socket address without a port.
+bool IsUnixSocketAddress(absl::string_view listen) {
+  return absl::StartsWith(listen, "unix:") ||
+         absl::StartsWith(listen, "unix-abstract:");
+}
+
 // Protobuf reports malformed client input (such as invalid UTF-8 in a
 // string field) through its own logger; route it through ours so the level
 // flag applies and the client-controlled text is escaped.
@@ -150,6 +197,36 @@ void ProtobufLogHandler(google::protobuf::LogLevel level, const char* filename,
   Log(ours, absl::StrCat("protobuf: ", absl::CEscape(message)));
 }
 
+// DescribeAtomsMessage item by item, stopping early once `watch` says the
+// call is over. Each item goes through DescribeAtomsMessage so the item
+// results stay exactly those of the in-process translation.
+grpc::Status DescribeAtomsWatched(const CallWatch& watch,
+                                  const v1::DescribeAtomsRequest& request,
+                                  v1::DescribeAtomsResponse* response) {
+  if (request.requests_size() > kMaxDescribeAtomsBatch) {
+    // Its INVALID_ARGUMENT names the limit.
+    return ToGrpcStatus(DescribeAtomsMessage(request, response));
+  }
+  response->Clear();
+  v1::DescribeAtomsRequest one;
+  v1::DescribeAtomsResponse answer;
+  for (const v1::DescribeAtomRequest& item : request.requests()) {
+    if (grpc::Status s = watch.Check(); !s.ok()) return s;
+    one.clear_requests();
+    *one.add_requests() = item;
+    if (grpc::Status s = ToGrpcStatus(DescribeAtomsMessage(one, &answer));
+        !s.ok()) {
+      return s;
+    }
+    response->add_results()->Swap(answer.mutable_results(0));
+  }
+  return grpc::Status::OK;
+}
+
+// Records analysed between two cancellation checks in AnalyzeRecords
+// (the deadline is checked before every record).
+constexpr int kRecordsPerCancelCheck = 64;
+
 // AnalyzeRecords: one batch read, analysed and written at a time. Reading
 // the next batch only after the previous reply is written lets HTTP/2 flow
 // control push back on a client that sends faster than it reads.
@@ -158,7 +235,7 @@ class RecordStreamReactor final
  public:
   RecordStreamReactor(grpc::CallbackServerContext* context,
                       const grpc::Status& admitted)
-      : peer_(PeerForLog(context)) {
+      : peer_(PeerForLog(context)), watch_(context) {
     if (!admitted.ok()) {
       FinishAndRecord(admitted);
       return;
@@ -168,8 +245,9 @@ class RecordStreamReactor final
 
   void OnReadDone(bool ok) override {
     if (!ok) {
-      // The client half-closed (or the call broke; then OnCancel says so).
-      FinishAndRecord(grpc::Status::OK);
+      // The client half-closed, or the call ended under us (deadline,
+      // cancellation).
+      FinishAndRecord(Interrupted());
       return;
     }
     if (batch_.records_size() > kMaxRecordsPerBatch) {
@@ -183,8 +261,15 @@ class RecordStreamReactor final
     grpc::Status status = RunGuarded("AnalyzeRecords", [&] {
       reply_.Clear();
       reply_.mutable_reports()->Reserve(batch_.records_size());
-      for (const v1::CompositionRecord& record : batch_.records()) {
-        AnalyzeRecordMessage(record, reply_.add_reports());
+      for (int i = 0; i < batch_.records_size(); ++i) {
+        // A hard record takes tens of milliseconds, so checking only every
+        // kRecordsPerCancelCheck records could overrun the deadline by
+        // seconds; one clock read per record costs well under 1%.
+        if (watch_.DeadlinePassed() || cancelled_ ||
+            i % kRecordsPerCancelCheck == 0) {
+          if (grpc::Status s = Interrupted(); !s.ok()) return s;
+        }
+        AnalyzeRecordMessage(batch_.records(i), reply_.add_reports());
       }
       return grpc::Status::OK;
     });
@@ -199,9 +284,11 @@ class RecordStreamReactor final
 
   void OnWriteDone(bool ok) override {
     if (!ok) {
-      FinishAndRecord(
-          grpc::Status(grpc::StatusCode::UNAVAILABLE,
-                       "the stream closed before a reply was written"));
+      grpc::Status status = Interrupted();
+      FinishAndRecord(status.ok() ? grpc::Status(grpc::StatusCode::UNAVAILABLE,
+                                                 "the stream closed before a "
+                                                 "reply was written")
+                                  : status);
       return;
     }
     StartRead(&batch_);
@@ -226,7 +313,17 @@ class RecordStreamReactor final
     Finish(status);
   }
 
+  // OK while the call goes on, else DEADLINE_EXCEEDED or CANCELLED.
+  grpc::Status Interrupted() const {
+    grpc::Status status = watch_.Check();
+    if (status.ok() && cancelled_) {
+      status = grpc::Status(grpc::StatusCode::CANCELLED, "cancelled");
+    }
+    return status;
+  }
+
   const std::string peer_;  // Empty unless debug logging is on.
+  const CallWatch watch_;
   const CallTimer timer_;
   v1::RecordBatch batch_;
   v1::ReportBatch reply_;
@@ -323,7 +420,8 @@ grpc::ServerUnaryReactor* ElectronStructureImpl::DescribeAtoms(
   grpc::Status status = Admit(context);
   if (status.ok()) {
     status = RunGuarded("DescribeAtoms", [&] {
-      grpc::Status s = ToGrpcStatus(DescribeAtomsMessage(*request, response));
+      grpc::Status s =
+          DescribeAtomsWatched(CallWatch(context), *request, response);
       if (s.ok()) ScrubItemErrors(response);
       return s;
     });
@@ -368,10 +466,49 @@ ElectronStructureImpl::AnalyzeRecords(grpc::CallbackServerContext* context) {
 // ---------------------------------------------------------------------------
 // The server.
 
+absl::Status ValidateListenAddress(absl::string_view listen) {
+  const auto bad = [listen](absl::string_view problem) {
+    return absl::InvalidArgumentError(
+        absl::StrCat("--listen '", absl::CEscape(listen), "': ", problem));
+  };
+  if (listen.empty()) return bad("empty; expected HOST:PORT");
+  if (IsUnixSocketAddress(listen)) {
+    return listen.back() != ':' ? absl::OkStatus()
+                                : bad("the socket path is empty");
+  }
+  const size_t colon = listen.rfind(':');
+  if (colon == absl::string_view::npos) {
+    return bad("expected HOST:PORT, e.g. 127.0.0.1:50051");
+  }
+  const absl::string_view host = listen.substr(0, colon);
+  const absl::string_view port = listen.substr(colon + 1);
+  if (host.empty()) return bad("the host is empty");
+  if (host.front() == '[') {
+    if (host.size() < 3 || host.back() != ']') {
+      return bad("a bracketed IPv6 host must look like [::1]");
+    }
+  } else if (absl::StrContains(host, ':')) {
+    return bad("an IPv6 host needs brackets, as in [::1]:50051");
+  }
+  if (port.empty()) return bad("the port is empty (use 0 for any free port)");
+  // gRPC itself takes a port modulo 65536 or by service name, so only
+  // plain decimal digits get through.
+  int number = -1;
+  if (port.size() > 5 ||
+      !std::all_of(port.begin(), port.end(),
+                   [](char c) { return absl::ascii_isdigit(c); }) ||
+      !absl::SimpleAtoi(port, &number) || number > 65535) {
+    return bad(
+        "the port must be a decimal number 0..65535 (0 picks a free "
+        "port)");
+  }
+  return absl::OkStatus();
+}
+
 absl::StatusOr<std::unique_ptr<ShellwrightServer>> ShellwrightServer::Start(
     const ServerOptions& options) {
-  if (options.listen.empty()) {
-    return absl::InvalidArgumentError("--listen is empty");
+  if (absl::Status s = ValidateListenAddress(options.listen); !s.ok()) {
+    return s;
   }
   if (options.max_message_bytes <= 0) {
     return absl::InvalidArgumentError(
@@ -437,11 +574,12 @@ absl::StatusOr<std::unique_ptr<ShellwrightServer>> ShellwrightServer::Start(
   }
 
   // Report the port actually bound, which differs from the request for :0.
+  // A unix socket has no port (gRPC reports 1), so its address stays as is.
   const size_t colon = options.listen.rfind(':');
-  const std::string host = colon == std::string::npos
-                               ? options.listen
-                               : options.listen.substr(0, colon);
-  server->address_ = absl::StrCat(host, ":", server->port_);
+  server->address_ =
+      IsUnixSocketAddress(options.listen)
+          ? options.listen
+          : absl::StrCat(options.listen.substr(0, colon), ":", server->port_);
   return server;
 }
 

@@ -117,8 +117,15 @@ class ElectronStructureImpl final
 // ---------------------------------------------------------------------------
 // The server.
 
+// OK when `listen` is an address to serve on: HOST:PORT with a non-empty
+// HOST (an IPv6 one in brackets, "[::1]:50051") and PORT decimal 0..65535,
+// or "unix:PATH" / "unix-abstract:NAME", passed to gRPC unchanged.
+// Otherwise INVALID_ARGUMENT naming --listen and the problem.
+absl::Status ValidateListenAddress(absl::string_view listen);
+
 struct ServerOptions {
-  // HOST:PORT; port 0 picks a free port (see ShellwrightServer::port()).
+  // HOST:PORT (see ValidateListenAddress); port 0 picks a free port (see
+  // ShellwrightServer::port()).
   std::string listen = "127.0.0.1:50051";
   TlsFiles tls;                 // All empty: plaintext.
   std::string auth_token_file;  // Empty: no authentication.

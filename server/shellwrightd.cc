@@ -42,7 +42,8 @@ constexpr int kExitUsage = 2;
 constexpr char kUsage[] = R"(usage: shellwrightd [options]
 
   --listen HOST:PORT          address to serve on (default 127.0.0.1:50051;
-                              port 0 picks a free port)
+                              port 0..65535, 0 picks a free port; IPv6 as
+                              [::1]:PORT; or unix:PATH)
   --tls-cert FILE             PEM server certificate chain (enables TLS)
   --tls-key FILE              PEM server private key
   --tls-client-ca FILE        PEM roots; clients must present a certificate
@@ -97,6 +98,9 @@ int ParseFlags(int argc, char** argv, Flags* flags) {
 
   for (const auto& [name, value] : values) {
     if (name == "listen") {
+      if (absl::Status s = ValidateListenAddress(value); !s.ok()) {
+        return Usage(std::string(s.message()));
+      }
       flags->server.listen = value;
     } else if (name == "tls-cert") {
       flags->server.tls.cert_file = value;

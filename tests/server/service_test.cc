@@ -413,6 +413,62 @@ TEST_F(ServiceTest, OneMicrosecondDeadlineIsDeadlineExceeded) {
   EXPECT_TRUE(DescribeSpec("Fe", &d).ok());  // The server is unharmed.
 }
 
+// A full batch of a formula whose solver search takes tens of milliseconds
+// per record: minutes of work in all.
+v1::RecordBatch HardRecordBatch() {
+  v1::RecordBatch batch;
+  for (int i = 0; i < kMaxRecordsPerBatch; ++i) {
+    v1::CompositionRecord* record = batch.add_records();
+    record->set_id(absl::StrCat("hard-", i));
+    record->set_formula("TiVCrMnFeCoNiCuNbMoWRuO8.37");
+    record->set_max_alternatives(5);
+  }
+  return batch;
+}
+
+// Regression: the deadline was checked only between batches, so one batch
+// of hard records kept the server busy for seconds after a 50 ms deadline.
+TEST_F(ServiceTest, AnalyzeRecordsStopsWithinABatchAtTheDeadline) {
+  const v1::RecordBatch batch = HardRecordBatch();
+  grpc::ClientContext context;
+  const auto deadline =
+      std::chrono::system_clock::now() + std::chrono::milliseconds(100);
+  context.set_deadline(deadline);
+  auto stream = client_.stub->AnalyzeRecords(&context);
+  stream->Write(batch);
+  v1::ReportBatch reply;
+  EXPECT_FALSE(stream->Read(&reply));
+  EXPECT_EQ(stream->Finish().error_code(), grpc::StatusCode::DEADLINE_EXCEEDED);
+
+  v1::AtomDescription d;
+  EXPECT_TRUE(DescribeSpec("Fe", &d).ok());
+  // Shutdown returns only once every handler has: had the batch gone on,
+  // this would take minutes.
+  server_->Shutdown(absl::ZeroDuration());
+  EXPECT_LT(std::chrono::system_clock::now() - deadline,
+            std::chrono::seconds(2));
+}
+
+TEST_F(ServiceTest, AnalyzeRecordsStopsWithinABatchWhenCancelled) {
+  const v1::RecordBatch batch = HardRecordBatch();
+  grpc::ClientContext context;
+  SetDeadline(&context);
+  auto stream = client_.stub->AnalyzeRecords(&context);
+  stream->Write(batch);
+  std::this_thread::sleep_for(std::chrono::milliseconds(100));
+  const auto cancelled = std::chrono::system_clock::now();
+  context.TryCancel();
+  v1::ReportBatch reply;
+  EXPECT_FALSE(stream->Read(&reply));
+  EXPECT_EQ(stream->Finish().error_code(), grpc::StatusCode::CANCELLED);
+
+  v1::AtomDescription d;
+  EXPECT_TRUE(DescribeSpec("Fe", &d).ok());
+  server_->Shutdown(absl::ZeroDuration());
+  EXPECT_LT(std::chrono::system_clock::now() - cancelled,
+            std::chrono::seconds(2));
+}
+
 TEST_F(ServiceTest, OversizedRequestIsResourceExhausted) {
   v1::DescribeAtomRequest request;
   request.set_spec(std::string(5 << 20, 'F'));  // Above the 4 MiB default.
@@ -731,6 +787,39 @@ TEST(ServerOptions, BadOptionsAreInvalidArgument) {
             absl::StatusCode::kInvalidArgument);
   options.max_concurrent_streams = 10;
   options.auth_token_file = "/nonexistent/token";
+  EXPECT_EQ(ShellwrightServer::Start(options).status().code(),
+            absl::StatusCode::kInvalidArgument);
+}
+
+// Regression: gRPC took 99999 modulo 65536, 65536 as "any port" and an
+// empty port as 443.
+TEST(ServerOptions, ListenAddressNeedsAHostAndADecimalPort) {
+  for (const char* good :
+       {"127.0.0.1:0", "127.0.0.1:50051", "localhost:65535", "[::1]:0",
+        "0.0.0.0:443", "unix:/tmp/shellwrightd.sock", "unix-abstract:sw"}) {
+    EXPECT_TRUE(ValidateListenAddress(good).ok()) << good;
+  }
+  const struct {
+    const char* listen;
+    const char* problem;
+  } kBad[] = {
+      {"127.0.0.1:99999", "0..65535"},  {"127.0.0.1:65536", "0..65535"},
+      {"127.0.0.1:", "port is empty"},  {"127.0.0.1:http", "0..65535"},
+      {"127.0.0.1:-1", "0..65535"},     {"127.0.0.1:+80", "0..65535"},
+      {"127.0.0.1:000080", "0..65535"}, {":50051", "host is empty"},
+      {"localhost", "HOST:PORT"},       {"::1:50051", "brackets"},
+      {"[::1:50051", "bracket"},        {"", "empty"},
+      {"unix:", "path is empty"},
+  };
+  for (const auto& bad : kBad) {
+    absl::Status status = ValidateListenAddress(bad.listen);
+    EXPECT_EQ(status.code(), absl::StatusCode::kInvalidArgument) << bad.listen;
+    EXPECT_THAT(status.message(),
+                HasSubstr(absl::StrCat("--listen '", bad.listen, "'")));
+    EXPECT_THAT(status.message(), HasSubstr(bad.problem)) << bad.listen;
+  }
+  ServerOptions options;
+  options.listen = "127.0.0.1:99999";
   EXPECT_EQ(ShellwrightServer::Start(options).status().code(),
             absl::StatusCode::kInvalidArgument);
 }

@@ -555,6 +555,35 @@ TEST(Shellwrightd, LogsOneLinePerCall) {
   EXPECT_THAT(log, Not(HasSubstr("Xx")));
 }
 
+// Regression: a batch cut short by its deadline was logged as UNAVAILABLE
+// after the server had analysed all of it.
+TEST(Shellwrightd, LogsDeadlineExceededForABatchPastItsDeadline) {
+  std::unique_ptr<ServerProcess> server =
+      StartShellwrightd({"--log-level", "info"});
+  ASSERT_NE(server, nullptr);
+  auto stub = Stub(server->address());
+  v1::RecordBatch batch;
+  for (int i = 0; i < 10000; ++i) {
+    v1::CompositionRecord* record = batch.add_records();
+    record->set_formula("TiVCrMnFeCoNiCuNbMoWRuO8.37");
+    record->set_max_alternatives(5);
+  }
+  auto context = Context(std::chrono::milliseconds(100));
+  auto stream = stub->AnalyzeRecords(context.get());
+  stream->Write(batch);
+  v1::ReportBatch reply;
+  EXPECT_FALSE(stream->Read(&reply));
+  EXPECT_EQ(stream->Finish().error_code(), grpc::StatusCode::DEADLINE_EXCEEDED);
+  // The grace period would let unchecked work run for another 10 s.
+  const auto start = std::chrono::steady_clock::now();
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+  EXPECT_LT(std::chrono::steady_clock::now() - start, std::chrono::seconds(3));
+  const std::string log = server->Stderr();
+  EXPECT_THAT(log,
+              HasSubstr("call method=AnalyzeRecords code=DEADLINE_EXCEEDED"));
+  EXPECT_THAT(log, Not(HasSubstr("code=UNAVAILABLE")));
+}
+
 TEST(Shellwrightd, WarningLevelLogsNoCalls) {
   std::unique_ptr<ServerProcess> server =
       StartShellwrightd({"--log-level", "warning"});
@@ -588,6 +617,11 @@ TEST(Shellwrightd, BadFlagsExitTwoWithAMessage) {
       {{"--tls-client-ca", junk_pem}, "--tls-cert"},
       {{"--auth-token-file", dir.File("absent")}, "absent"},
       {{"--listen"}, "needs a value"},
+      {{"--listen", "127.0.0.1:99999"}, "--listen '127.0.0.1:99999'"},
+      {{"--listen", "127.0.0.1:65536"}, "0..65535"},
+      {{"--listen", "127.0.0.1:"}, "port is empty"},
+      {{"--listen", "127.0.0.1:http"}, "0..65535"},
+      {{"--listen", "50051"}, "HOST:PORT"},
       {{"stray"}, "unexpected argument"},
   };
   for (const Case& c : cases) {
