@@ -133,6 +133,20 @@ void BM_SolveEquimolarMultivalent(benchmark::State& state) {
 }
 BENCHMARK(BM_SolveEquimolarMultivalent)->DenseRange(1, 16);
 
+// The same 12 metals with too little oxygen for common states alone
+// (O8.37: average metal state +1.4), which forces the search past its
+// cheap stages.
+void BM_SolveReducedTwelveMetalOxide(benchmark::State& state) {
+  const Formula f = *ParseFormula("TiVCrMnFeCoNiCuNbMoWRuO8.37");
+  OxidationOptions options;
+  options.max_alternatives = 0;
+  for (auto _ : state) {
+    auto r = AssignOxidationStates(f, options);
+    benchmark::DoNotOptimize(r);
+  }
+}
+BENCHMARK(BM_SolveReducedTwelveMetalOxide);
+
 }  // namespace
 }  // namespace shellwright
 
