@@ -3,6 +3,7 @@
 #include <cmath>
 #include <cstring>
 
+#include "absl/strings/ascii.h"
 #include "absl/strings/match.h"
 #include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
@@ -217,7 +218,9 @@ absl::Status CsvRecordReader::ReadHeader(absl::string_view line) {
     return absl::InvalidArgumentError(absl::StrCat("CSV header: ", error));
   }
   for (size_t i = 0; i < columns_.size(); ++i) {
-    std::string name(absl::StripAsciiWhitespace(columns_[i]));
+    // Column names match case-insensitively ("Formula" from spreadsheets).
+    std::string name =
+        absl::AsciiStrToLower(absl::StripAsciiWhitespace(columns_[i]));
     if (!index_.emplace(name, i).second) {
       return absl::InvalidArgumentError(
           absl::StrCat("CSV header names column '", name, "' twice"));
@@ -266,7 +269,8 @@ ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) const {
                            columns_.size());
     return p;
   }
-  p.record.set_formula(get("formula"));
+  // Spaces around a value are CSV padding, not part of the formula.
+  p.record.set_formula(std::string(absl::StripAsciiWhitespace(get("formula"))));
   p.record.set_declared_states(get("declared_states"));
   p.record.set_geometry(get("geometry"));
   p.record.set_spin_state(get("spin_state"));

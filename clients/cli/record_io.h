@@ -2,8 +2,9 @@
 // JSONL or CSV, one line per record, in constant memory.
 //
 // Input rules:
-//   - CSV: the first line is a header naming the columns; `id` and
-//     `formula` are required, and `charge`, `declared_states`, `geometry`,
+//   - CSV: the first line is a header naming the columns (matched without
+//     regard to case or surrounding spaces); `id` and `formula` are
+//     required, and `charge`, `declared_states`, `geometry`,
 //     `spin_state`, `measured_moment`, `moment_tolerance`,
 //     `max_alternatives` are understood (other columns are ignored). One
 //     record per line: fields may be quoted ("a, b"), with "" for a quote

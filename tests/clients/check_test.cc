@@ -423,6 +423,19 @@ TEST_F(CheckTest, HostileLinesEachGetOneReport) {
   EXPECT_EQ(csv[2].row(), 4);
 }
 
+TEST_F(CheckTest, HeaderNamesIgnoreCaseAndFormulaPaddingIsTrimmed) {
+  CommandResult r =
+      Check({"-", "--format", "csv"}, "Id, Formula ,Charge\na, Fe2O3 ,\n");
+  EXPECT_EQ(r.exit_code, 0) << r.err;
+  const std::vector<v1::RecordReport> reports = ParseReports(r.out);
+  ASSERT_EQ(reports.size(), 1u);
+  EXPECT_EQ(reports[0].formula(), "Fe2O3");
+  EXPECT_TRUE(reports[0].valid());
+  CommandResult dup = Check({"-", "--format", "csv"}, "id,formula,ID\n");
+  EXPECT_EQ(dup.exit_code, 2);
+  EXPECT_THAT(dup.err, HasSubstr("twice"));
+}
+
 TEST_F(CheckTest, CsvOutputHasHeaderAndOneLinePerRow) {
   const GeneratedCsv g = GenerateCsv(200);
   WriteFile(Path("in.csv"), g.text);
