@@ -100,6 +100,13 @@ void AppendDouble(double v, std::string* out) {
     return;
   }
   char buf[40];
+  // Whole numbers (counts, states, zero moments) are most of a report's
+  // doubles: %.15g prints them as plain integers below 10^15.
+  if (v == std::trunc(v) && std::fabs(v) < 1e15 && !(v == 0 && std::signbit(v))) {
+    auto r = std::to_chars(buf, buf + sizeof(buf), static_cast<int64_t>(v));
+    out->append(buf, r.ptr - buf);
+    return;
+  }
   auto r = std::to_chars(buf, buf + sizeof(buf), v,
                          std::chars_format::general, 15);
   double back = 0;
