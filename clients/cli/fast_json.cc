@@ -4,6 +4,7 @@
 #include <cmath>
 #include <cstdio>
 #include <cstdlib>
+#include <limits>
 
 #include "absl/container/flat_hash_map.h"
 #include "absl/strings/str_cat.h"
@@ -107,15 +108,72 @@ void AppendDouble(double v, std::string* out) {
     out->append(buf, r.ptr - buf);
     return;
   }
-  auto r = std::to_chars(buf, buf + sizeof(buf), v,
-                         std::chars_format::general, 15);
-  double back = 0;
-  std::from_chars(buf, r.ptr, back);
-  if (back != v) {
-    r = std::to_chars(buf, buf + sizeof(buf), v, std::chars_format::general,
-                      17);
+  // Shortest round-trip digits first (fast). When they number 15 or fewer,
+  // %.15g round-trips and prints exactly those digits, so render them in
+  // %g layout here; otherwise %.17g is what the protobuf printer uses.
+  char sci[40];
+  const auto sr = std::to_chars(sci, sci + sizeof(sci), v,
+                                std::chars_format::scientific);
+  const char* p = sci;
+  const bool negative = *p == '-';
+  if (negative) ++p;
+  char digits[24];
+  int n = 0;
+  while (p < sr.ptr && *p != 'e') {
+    if (*p != '.') digits[n++] = *p;
+    ++p;
   }
-  out->append(buf, r.ptr - buf);
+  int exponent = 0;
+  std::from_chars(p + 1 + (p[1] == '+' ? 1 : 0), sr.ptr, exponent);
+  while (n > 1 && digits[n - 1] == '0') --n;
+  // Subnormals carry too few bits for the digit argument above; leave them
+  // (and anything needing 16-17 digits) to the exact formatter.
+  if (std::fabs(v) < std::numeric_limits<double>::min()) {
+    auto r = std::to_chars(buf, buf + sizeof(buf), v,
+                           std::chars_format::general, 15);
+    double back = 0;
+    std::from_chars(buf, r.ptr, back);
+    if (back != v) {
+      r = std::to_chars(buf, buf + sizeof(buf), v, std::chars_format::general,
+                        17);
+    }
+    out->append(buf, r.ptr - buf);
+    return;
+  }
+  if (n > 15) {
+    // No 15-digit form round-trips, so %.15g would not: %.17g it is.
+    const auto r = std::to_chars(buf, buf + sizeof(buf), v,
+                                 std::chars_format::general, 17);
+    out->append(buf, r.ptr - buf);
+    return;
+  }
+  if (negative) out->push_back('-');
+  if (exponent >= -4 && exponent < 15) {
+    if (exponent >= 0) {
+      for (int i = 0; i <= exponent; ++i) {
+        out->push_back(i < n ? digits[i] : '0');
+      }
+      if (n > exponent + 1) {
+        out->push_back('.');
+        out->append(digits + exponent + 1, n - exponent - 1);
+      }
+    } else {
+      out->append("0.");
+      out->append(static_cast<size_t>(-exponent - 1), '0');
+      out->append(digits, n);
+    }
+    return;
+  }
+  out->push_back(digits[0]);
+  if (n > 1) {
+    out->push_back('.');
+    out->append(digits + 1, n - 1);
+  }
+  out->push_back('e');
+  out->push_back(exponent < 0 ? '-' : '+');
+  const int magnitude = exponent < 0 ? -exponent : exponent;
+  if (magnitude < 10) out->push_back('0');
+  absl::StrAppend(out, magnitude);
 }
 
 void AppendFloat(float v, std::string* out) {

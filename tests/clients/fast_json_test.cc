@@ -36,7 +36,12 @@ TEST(FastJson, MatchesOnDoublesOfEveryShape) {
   std::uniform_real_distribution<double> unit(0, 1);
   const double fixed[] = {0,      0.1,   1.0 / 3, 2.5,    1e21,  1e-7,
                           123456789012345678.0, -0.0,  5e-324, 1.7976931348623157e308,
-                          7.9372539331937721, 4.898979485566356};
+                          7.9372539331937721, 4.898979485566356,
+                          // Around the switch between fixed and exponent
+                          // layout, and 15 vs 16-17 significant digits.
+                          1e-5, 0.0001, 0.00012345, 5.5e-5, 1e14 + 0.5,
+                          999999999999999.9, 1e15, 1e16, 123456789012345.6,
+                          0.1 + 0.2, 2.2250738585072014e-308, 1.0 / 7};
   for (double v : fixed) {
     v1::RecordReport r;
     r.set_score(v);
