@@ -347,6 +347,13 @@ LigandFieldCache& FieldCache() {
 
 }  // namespace
 
+std::string FormatSpecies(absl::string_view symbol, int charge) {
+  if (charge == 0) return std::string(symbol);
+  const int magnitude = charge > 0 ? charge : -charge;
+  return absl::StrCat(symbol, magnitude == 1 ? "" : absl::StrCat(magnitude),
+                      charge > 0 ? "+" : "-");
+}
+
 absl::StatusOr<SpeciesSpec> ParseSpeciesSpec(absl::string_view spec) {
   if (spec.empty()) return absl::InvalidArgumentError("species is empty");
   if (spec.size() > kMaxSpeciesSpecLength) {

@@ -58,6 +58,10 @@ struct SpeciesSpec {
 // invalid Roman numeral, trailing text).
 absl::StatusOr<SpeciesSpec> ParseSpeciesSpec(absl::string_view spec);
 
+// The usual written form of a species, which ParseSpeciesSpec reads back:
+// "Fe" (charge 0), "Fe3+", "Cl-", "O2-".
+std::string FormatSpecies(absl::string_view symbol, int charge);
+
 // What to describe.
 struct AtomQuery {
   const Element* element = nullptr;  // Required.

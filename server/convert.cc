@@ -255,13 +255,6 @@ void AssignedToProto(const AssignedState& s, v1::OxidationState* out) {
   out->set_declared(s.declared);
 }
 
-std::string SpeciesText(absl::string_view symbol, int state) {
-  if (state == 0) return std::string(symbol);
-  const int magnitude = state > 0 ? state : -state;
-  return absl::StrCat(symbol, magnitude == 1 ? "" : absl::StrCat(magnitude),
-                      state > 0 ? "+" : "-");
-}
-
 absl::string_view KindName(CompositionKind k) {
   switch (k) {
     case CompositionKind::kIonic:
@@ -337,7 +330,7 @@ void RecordReportToProto(const CompositionReport& r,
     p->set_element(std::string(ion.element->symbol));
     p->set_state(ion.state);
     p->set_count(ion.count.ToDouble());
-    p->set_species(SpeciesText(ion.element->symbol, ion.state));
+    p->set_species(FormatSpecies(ion.element->symbol, ion.state));
     p->set_configuration(d.configuration_notation);
     p->set_unpaired_electrons(d.unpaired_electrons);
     if (d.ligand_field.has_value()) {

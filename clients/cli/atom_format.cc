@@ -4,6 +4,7 @@
 
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
+#include "engine/atom.h"
 #include "google/protobuf/util/json_util.h"
 
 namespace shellwright::cli {
@@ -12,13 +13,6 @@ namespace {
 std::string ChargeText(int charge) {
   if (charge == 0) return "0";
   return absl::StrCat(charge > 0 ? "+" : "", charge);
-}
-
-std::string SpeciesName(const v1::AtomDescription& d) {
-  if (d.charge() == 0) return d.symbol();
-  const int magnitude = d.charge() > 0 ? d.charge() : -d.charge();
-  return absl::StrCat(d.symbol(), magnitude == 1 ? "" : absl::StrCat(magnitude),
-                      d.charge() > 0 ? "+" : "-");
 }
 
 void Line(std::string* out, absl::string_view label, absl::string_view value) {
@@ -52,7 +46,8 @@ std::string OrbitalBoxes(int orbitals, int electrons) {
 std::string FormatAtomHuman(const v1::AtomDescription& d) {
   std::string out;
   absl::StrAppendFormat(&out, "%s  %s  Z=%d  charge %s  %d electrons\n",
-                        SpeciesName(d), d.name(), d.atomic_number(),
+                        FormatSpecies(d.symbol(), d.charge()), d.name(),
+                        d.atomic_number(),
                         ChargeText(d.charge()), d.electrons());
   Line(&out, "Configuration",
        d.configuration().empty() ? "(none: bare nucleus)" : d.configuration());

@@ -437,5 +437,22 @@ TEST(Ions, ComputedConfigurationIsNotUserSupplied) {
   EXPECT_TRUE(cr->madelung_exception);
 }
 
+TEST(Ions, FormatSpeciesReadsBackAsTheSameIon) {
+  EXPECT_EQ(FormatSpecies("Fe", 3), "Fe3+");
+  EXPECT_EQ(FormatSpecies("Cl", -1), "Cl-");
+  EXPECT_EQ(FormatSpecies("O", -2), "O2-");
+  EXPECT_EQ(FormatSpecies("Na", 1), "Na+");
+  EXPECT_EQ(FormatSpecies("Fe", 0), "Fe");
+  for (const Element& e : AllElements()) {
+    for (int charge = -4; charge <= 9; ++charge) {
+      absl::StatusOr<SpeciesSpec> back =
+          ParseSpeciesSpec(FormatSpecies(e.symbol, charge));
+      ASSERT_TRUE(back.ok()) << back.status();
+      EXPECT_EQ(back->element, &e);
+      EXPECT_EQ(back->charge.value_or(0), charge);
+    }
+  }
+}
+
 }  // namespace
 }  // namespace shellwright
