@@ -93,23 +93,14 @@ int ValenceElectrons(const Element& e, const Configuration& c) {
   return total;
 }
 
-std::optional<TermSymbol> ObservedGroundLevel(int z) {
+// The measured ground level of neutral `z` where it departs from Hund's
+// rules (data/ground_level_departures.tsv), or nullptr.
+const internal::GroundLevelDepartureRow* GroundLevelDeparture(int z) {
   for (const internal::GroundLevelDepartureRow& row :
        internal::GroundLevelDepartureRows()) {
-    if (row.atomic_number == z) {
-      absl::StatusOr<TermSymbol> t = TermSymbol::Parse(row.observed_level);
-      if (t.ok()) return *t;
-    }
+    if (row.atomic_number == z) return &row;
   }
-  return std::nullopt;
-}
-
-absl::string_view ObservedGroundLevelSource(int z) {
-  for (const internal::GroundLevelDepartureRow& row :
-       internal::GroundLevelDepartureRows()) {
-    if (row.atomic_number == z) return row.source;
-  }
-  return {};
+  return nullptr;
 }
 
 // Picks the d subshell a ligand field acts on: the single open d subshell,
@@ -174,11 +165,15 @@ AtomDescriptionPtr Build(const Element& element, int charge,
   d->term = hund;
   d->term_source = "Hund's rules";
   if (charge == 0 && !user_supplied) {
-    if (std::optional<TermSymbol> observed = ObservedGroundLevel(z);
-        observed.has_value() && *observed != hund) {
+    // tablegen has checked that the level parses.
+    const internal::GroundLevelDepartureRow* row = GroundLevelDeparture(z);
+    absl::StatusOr<TermSymbol> observed =
+        row != nullptr ? TermSymbol::Parse(row->observed_level)
+                       : absl::StatusOr<TermSymbol>(hund);
+    if (observed.ok() && *observed != hund) {
       d->term = *observed;
       d->hund_term = hund;
-      d->term_source = std::string(ObservedGroundLevelSource(z));
+      d->term_source = row->source;
       d->notes.push_back(absl::StrCat(
           "observed ground level ", observed->ToAscii(),
           " differs from the Hund's-rules prediction ", hund.ToAscii(),
