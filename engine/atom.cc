@@ -410,17 +410,7 @@ absl::StatusOr<AtomDescriptionPtr> DescribeAtom(const AtomQuery& query) {
   }
   const Element& e = *query.element;
   const int z = e.atomic_number;
-  if (query.charge > z) {
-    return absl::InvalidArgumentError(absl::StrCat(
-        e.symbol, " with charge +", query.charge, ": would remove ",
-        query.charge, " electrons, but ", e.name, " has only ", z));
-  }
-  if (query.charge < -kMaxAnionCharge) {
-    return absl::InvalidArgumentError(absl::StrCat(
-        e.symbol, " with charge ", query.charge,
-        ": anion charge is beyond the supported bound of -",
-        kMaxAnionCharge));
-  }
+  if (absl::Status s = CheckIonCharge(e, query.charge); !s.ok()) return s;
   if (query.configuration.has_value()) {
     const int want = z - query.charge;
     const int have = query.configuration->electrons();

@@ -84,19 +84,27 @@ absl::string_view MadelungExceptionSource(int z) {
   return Neutrals().exception_sources[z];
 }
 
-absl::StatusOr<Configuration> IonConfiguration(int z, int charge) {
-  absl::StatusOr<Configuration> neutral = NeutralGroundConfiguration(z);
-  if (!neutral.ok()) return neutral.status();
-  if (charge > z) {
+absl::Status CheckIonCharge(const Element& e, int charge) {
+  if (charge > e.atomic_number) {
     return absl::InvalidArgumentError(absl::StrCat(
-        "charge +", charge, " would remove ", charge,
-        " electrons, but the atom with Z = ", z, " has only ", z));
+        e.symbol, " with charge +", charge, ": would remove ", charge,
+        " electrons, but ", e.name, " has only ", e.atomic_number));
   }
   if (charge < -kMaxAnionCharge) {
     return absl::InvalidArgumentError(absl::StrCat(
-        "anion charge ", charge, " is beyond the supported bound of -",
+        e.symbol, " with charge ", charge,
+        ": anion charge is beyond the supported bound of -",
         kMaxAnionCharge));
   }
+  return absl::OkStatus();
+}
+
+absl::StatusOr<Configuration> IonConfiguration(int z, int charge) {
+  absl::StatusOr<const Element*> element = ElementByAtomicNumber(z);
+  if (!element.ok()) return element.status();
+  if (absl::Status s = CheckIonCharge(**element, charge); !s.ok()) return s;
+  absl::StatusOr<Configuration> neutral = NeutralGroundConfiguration(z);
+  if (!neutral.ok()) return neutral.status();
   Configuration c = *neutral;
   if (charge > 0) {
     int to_remove = charge;

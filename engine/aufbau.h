@@ -27,6 +27,7 @@
 
 #include "absl/status/statusor.h"
 #include "engine/configuration.h"
+#include "engine/element.h"
 
 namespace shellwright {
 
@@ -42,6 +43,11 @@ absl::StatusOr<Configuration> NeutralGroundConfiguration(int z);
 // The source of a measured departure from Madelung filling for element `z`,
 // or an empty view when `z` follows the Madelung rule.
 absl::string_view MadelungExceptionSource(int z);
+
+// OK when an ion of `element` with net charge `charge` can exist in this
+// model: no more electrons removed than the atom has, and no anion beyond
+// -kMaxAnionCharge. INVALID_ARGUMENT names the element and the charge.
+absl::Status CheckIonCharge(const Element& element, int charge);
 
 // Configuration of the ion of element `z` with net charge `charge`
 // (positive for cations). INVALID_ARGUMENT when the charge removes more
