@@ -84,6 +84,12 @@ struct Args {
   std::vector<std::string> positional;
   std::map<std::string, std::string> values;
   std::set<std::string> flags;
+
+  // The value of option --`name`, or nullptr when it was not given.
+  const std::string* Value(const std::string& name) const {
+    auto it = values.find(name);
+    return it == values.end() ? nullptr : &it->second;
+  }
 };
 
 // Options that take a value; everything else starting with "--" is a flag.
@@ -160,16 +166,16 @@ int RunAtom(const Args& args, Backend& backend) {
   }
   v1::DescribeAtomRequest request;
   request.set_spec(args.positional[1]);
-  if (auto it = args.values.find("charge"); it != args.values.end()) {
+  if (const std::string* v = args.Value("charge")) {
     int charge = 0;
-    if (!absl::SimpleAtoi(it->second, &charge)) {
-      return Usage(absl::StrCat("--charge must be an integer, got '",
-                                it->second, "'"));
+    if (!absl::SimpleAtoi(*v, &charge)) {
+      return Usage(absl::StrCat("--charge must be an integer, got '", *v,
+                                "'"));
     }
     request.set_charge(charge);
   }
-  if (auto it = args.values.find("geometry"); it != args.values.end()) {
-    const std::string& g = it->second;
+  if (const std::string* v = args.Value("geometry")) {
+    const std::string& g = *v;
     if (g == "free") {
       request.set_geometry(v1::GEOMETRY_FREE);
     } else if (g == "octahedral") {
@@ -184,8 +190,8 @@ int RunAtom(const Args& args, Backend& backend) {
                                 g, "'"));
     }
   }
-  if (auto it = args.values.find("spin-state"); it != args.values.end()) {
-    const std::string& s = it->second;
+  if (const std::string* v = args.Value("spin-state")) {
+    const std::string& s = *v;
     if (s == "auto") {
       request.set_spin_state(v1::SPIN_STATE_AUTO);
     } else if (s == "high") {
@@ -197,9 +203,9 @@ int RunAtom(const Args& args, Backend& backend) {
                                 "got '", s, "'"));
     }
   }
-  if (auto it = args.values.find("configuration"); it != args.values.end()) {
-    if (it->second.empty()) return Usage("--configuration is empty");
-    request.set_configuration(it->second);
+  if (const std::string* v = args.Value("configuration")) {
+    if (v->empty()) return Usage("--configuration is empty");
+    request.set_configuration(*v);
   }
   v1::AtomDescription description;
   absl::Status status = backend.DescribeAtom(request, &description);
@@ -218,32 +224,28 @@ int RunCompound(const Args& args, Backend& backend) {
   }
   v1::CompositionRecord record;
   record.set_formula(args.positional[1]);
-  auto get = [&](const char* name) -> const std::string* {
-    auto it = args.values.find(name);
-    return it == args.values.end() ? nullptr : &it->second;
-  };
-  if (const std::string* v = get("charge")) {
+  if (const std::string* v = args.Value("charge")) {
     int charge = 0;
     if (!absl::SimpleAtoi(*v, &charge)) {
       return Usage(absl::StrCat("--charge must be an integer, got '", *v, "'"));
     }
     record.set_charge(charge);
   }
-  if (const std::string* v = get("declared")) record.set_declared_states(*v);
-  if (const std::string* v = get("geometry")) record.set_geometry(*v);
-  if (const std::string* v = get("spin-state")) record.set_spin_state(*v);
-  if (const std::string* v = get("measured-moment")) {
+  if (const std::string* v = args.Value("declared")) record.set_declared_states(*v);
+  if (const std::string* v = args.Value("geometry")) record.set_geometry(*v);
+  if (const std::string* v = args.Value("spin-state")) record.set_spin_state(*v);
+  if (const std::string* v = args.Value("measured-moment")) {
     double m = 0;
     if (!absl::SimpleAtod(*v, &m)) return Usage("--measured-moment must be a number");
     record.set_measured_moment(m);
   }
-  if (const std::string* v = get("moment-tolerance")) {
+  if (const std::string* v = args.Value("moment-tolerance")) {
     double t = 0;
     if (!absl::SimpleAtod(*v, &t)) return Usage("--moment-tolerance must be a number");
     record.set_moment_tolerance(t);
   }
   record.set_max_alternatives(2);
-  if (const std::string* v = get("alternatives")) {
+  if (const std::string* v = args.Value("alternatives")) {
     int k = 0;
     if (!absl::SimpleAtoi(*v, &k) || k < 0 || k > 5) {
       return Usage("--alternatives must be an integer from 0 to 5");
@@ -276,33 +278,29 @@ int RunCheck(const Args& args, Backend* remote) {
   }
   CheckOptions options;
   options.input = args.positional[1];
-  auto get = [&](const char* name) -> const std::string* {
-    auto it = args.values.find(name);
-    return it == args.values.end() ? nullptr : &it->second;
-  };
-  if (const std::string* v = get("out")) options.output = *v;
+  if (const std::string* v = args.Value("out")) options.output = *v;
   for (auto [flag, target] :
        {std::pair<const char*, RecordFormat*>{"format", &options.input_format},
         {"out-format", &options.output_format}}) {
-    if (const std::string* v = get(flag)) {
+    if (const std::string* v = args.Value(flag)) {
       absl::StatusOr<RecordFormat> f = ParseRecordFormat(*v);
       if (!f.ok()) return Usage(absl::StrCat("--", flag, ": ", f.status().message()));
       *target = *f;
     }
   }
-  if (const std::string* v = get("jobs")) {
+  if (const std::string* v = args.Value("jobs")) {
     if (!absl::SimpleAtoi(*v, &options.jobs) || options.jobs < 1 ||
         options.jobs > 256) {
       return Usage("--jobs must be an integer from 1 to 256");
     }
   }
-  if (const std::string* v = get("batch-size")) {
+  if (const std::string* v = args.Value("batch-size")) {
     if (!absl::SimpleAtoi(*v, &options.batch_size) ||
         options.batch_size < 1 || options.batch_size > 10000) {
       return Usage("--batch-size must be an integer from 1 to 10000");
     }
   }
-  if (const std::string* v = get("alternatives")) {
+  if (const std::string* v = args.Value("alternatives")) {
     if (!absl::SimpleAtoi(*v, &options.default_alternatives) ||
         options.default_alternatives < 0 || options.default_alternatives > 5) {
       return Usage("--alternatives must be an integer from 0 to 5");
@@ -344,12 +342,12 @@ int Main(int argc, char** argv) {
   if (args->positional.empty()) return Usage("no command given");
 
   std::unique_ptr<Backend> backend;
-  if (auto it = args->values.find("server"); it != args->values.end()) {
+  if (const std::string* server = args->Value("server")) {
     RemoteOptions options;
-    options.address = it->second;
+    options.address = *server;
     auto get = [&](const char* name) {
-      auto v = args->values.find(name);
-      return v == args->values.end() ? std::string() : v->second;
+      const std::string* v = args->Value(name);
+      return v == nullptr ? std::string() : *v;
     };
     options.tls_ca_file = get("tls-ca");
     options.tls_cert_file = get("tls-cert");
