@@ -399,63 +399,53 @@ grpc::Status ElectronStructureImpl::Admit(
   return grpc::Status::OK;
 }
 
+template <typename Body>
+grpc::ServerUnaryReactor* ElectronStructureImpl::ServeUnary(
+    grpc::CallbackServerContext* context, absl::string_view method,
+    Body&& body) {
+  const CallTimer timer;
+  grpc::Status status = Admit(context);
+  if (status.ok()) status = RunGuarded(method, std::forward<Body>(body));
+  return FinishUnary(context, method, timer, status);
+}
+
 grpc::ServerUnaryReactor* ElectronStructureImpl::DescribeAtom(
     grpc::CallbackServerContext* context,
     const v1::DescribeAtomRequest* request, v1::AtomDescription* response) {
-  const CallTimer timer;
-  grpc::Status status = Admit(context);
-  if (status.ok()) {
-    status = RunGuarded("DescribeAtom", [&] {
-      return ToGrpcStatus(DescribeAtomMessage(*request, response));
-    });
-  }
-  return FinishUnary(context, "DescribeAtom", timer, status);
+  return ServeUnary(context, "DescribeAtom", [&] {
+    return ToGrpcStatus(DescribeAtomMessage(*request, response));
+  });
 }
 
 grpc::ServerUnaryReactor* ElectronStructureImpl::DescribeAtoms(
     grpc::CallbackServerContext* context,
     const v1::DescribeAtomsRequest* request,
     v1::DescribeAtomsResponse* response) {
-  const CallTimer timer;
-  grpc::Status status = Admit(context);
-  if (status.ok()) {
-    status = RunGuarded("DescribeAtoms", [&] {
-      grpc::Status s =
-          DescribeAtomsWatched(CallWatch(context), *request, response);
-      if (s.ok()) ScrubItemErrors(response);
-      return s;
-    });
-  }
-  return FinishUnary(context, "DescribeAtoms", timer, status);
+  return ServeUnary(context, "DescribeAtoms", [&] {
+    grpc::Status s =
+        DescribeAtomsWatched(CallWatch(context), *request, response);
+    if (s.ok()) ScrubItemErrors(response);
+    return s;
+  });
 }
 
 grpc::ServerUnaryReactor* ElectronStructureImpl::ListElements(
     grpc::CallbackServerContext* context,
     const v1::ListElementsRequest* request,
     v1::ListElementsResponse* response) {
-  const CallTimer timer;
-  grpc::Status status = Admit(context);
-  if (status.ok()) {
-    status = RunGuarded("ListElements", [&] {
-      ListElementsMessage(response);
-      return grpc::Status::OK;
-    });
-  }
-  return FinishUnary(context, "ListElements", timer, status);
+  return ServeUnary(context, "ListElements", [&] {
+    ListElementsMessage(response);
+    return grpc::Status::OK;
+  });
 }
 
 grpc::ServerUnaryReactor* ElectronStructureImpl::AnalyzeCompound(
     grpc::CallbackServerContext* context, const v1::CompositionRecord* request,
     v1::RecordReport* response) {
-  const CallTimer timer;
-  grpc::Status status = Admit(context);
-  if (status.ok()) {
-    status = RunGuarded("AnalyzeCompound", [&] {
-      AnalyzeRecordMessage(*request, response);
-      return grpc::Status::OK;
-    });
-  }
-  return FinishUnary(context, "AnalyzeCompound", timer, status);
+  return ServeUnary(context, "AnalyzeCompound", [&] {
+    AnalyzeRecordMessage(*request, response);
+    return grpc::Status::OK;
+  });
 }
 
 grpc::ServerBidiReactor<v1::RecordBatch, v1::ReportBatch>*

@@ -111,6 +111,12 @@ class ElectronStructureImpl final
   // Authentication and deadline checks every method runs first.
   grpc::Status Admit(grpc::CallbackServerContext* context) const;
 
+  // A unary call: Admit, then `body` guarded against exceptions, then
+  // finish and log. Defined in service.cc, where all its users are.
+  template <typename Body>
+  grpc::ServerUnaryReactor* ServeUnary(grpc::CallbackServerContext* context,
+                                       absl::string_view method, Body&& body);
+
   const BearerTokenVerifier verifier_;
 };
 
