@@ -504,6 +504,25 @@ Window MakeWindow(const Flags& flags) {
   return w;
 }
 
+// The figures of one scenario, pooled over its callers.
+template <typename Pool>
+Result Collect(const std::string& target, const char* scenario,
+               int concurrency, const Flags& flags, const Pool& pool) {
+  Result result;
+  result.target = target;
+  result.scenario = scenario;
+  result.concurrency = concurrency;
+  result.seconds = flags.seconds;
+  for (const auto& caller : pool) {
+    result.errors += caller->errors;
+    result.latencies_us.insert(result.latencies_us.end(),
+                               caller->latencies_us.begin(),
+                               caller->latencies_us.end());
+  }
+  result.calls = static_cast<int64_t>(result.latencies_us.size());
+  return result;
+}
+
 Result RunUnary(const std::string& target,
                 const std::vector<UnaryStart>& starts, int callers,
                 const Flags& flags, const std::string& token) {
@@ -517,19 +536,7 @@ Result RunUnary(const std::string& target,
   }
   for (auto& caller : pool) caller->Next();
   latch.Wait();
-  Result result;
-  result.target = target;
-  result.scenario = "DescribeAtom";
-  result.concurrency = callers;
-  result.seconds = flags.seconds;
-  for (auto& caller : pool) {
-    result.errors += caller->errors;
-    result.latencies_us.insert(result.latencies_us.end(),
-                               caller->latencies_us.begin(),
-                               caller->latencies_us.end());
-  }
-  result.calls = static_cast<int64_t>(result.latencies_us.size());
-  return result;
+  return Collect(target, "DescribeAtom", callers, flags, pool);
 }
 
 // One stream: write a batch, read its reply, repeat until the window closes.
@@ -628,19 +635,8 @@ Result RunStreams(const std::string& target,
   }
   for (auto& caller : pool) caller->Begin();
   latch.Wait();
-  Result result;
-  result.target = target;
-  result.scenario = "AnalyzeRecords";
-  result.concurrency = streams;
-  result.seconds = flags.seconds;
-  for (auto& caller : pool) {
-    result.errors += caller->errors;
-    result.records += caller->records;
-    result.latencies_us.insert(result.latencies_us.end(),
-                               caller->latencies_us.begin(),
-                               caller->latencies_us.end());
-  }
-  result.calls = static_cast<int64_t>(result.latencies_us.size());
+  Result result = Collect(target, "AnalyzeRecords", streams, flags, pool);
+  for (auto& caller : pool) result.records += caller->records;
   return result;
 }
 
