@@ -19,7 +19,6 @@
 #include "absl/strings/str_format.h"
 #include "absl/time/clock.h"
 #include "clients/cli/record_io.h"
-#include "google/protobuf/arena.h"
 #include "server/convert.h"
 
 namespace shellwright::cli {
@@ -28,15 +27,11 @@ namespace {
 struct Item {
   v1::CompositionRecord record;
   std::string error;  // Non-empty: malformed line, answered locally.
-  v1::RecordReport* report = nullptr;  // In Batch::arena or Batch::reply.
 };
 
 struct Batch {
   int64_t seq = 0;
   std::vector<Item> items;
-  // Reports live in one arena per batch: a report is a tree of small
-  // messages, and freeing them one by one cost more than analysing them.
-  std::unique_ptr<google::protobuf::Arena> arena;
   v1::ReportBatch reply;  // Remote mode: the server's answer.
   std::string text;  // Formatted output lines.
   CheckSummary summary;
@@ -156,23 +151,25 @@ RecordFormat FormatFromPath(const std::string& path, RecordFormat fallback) {
   return fallback;
 }
 
-// Formats the reports of a batch and counts them.
-void Finish(RecordFormat output, Batch* b) {
-  for (Item& item : b->items) {
-    const v1::RecordReport& r = *item.report;
-    b->text += output == RecordFormat::kCsv ? ReportToCsvLine(r)
-                                            : ReportToJsonLine(r);
-    b->text.push_back('\n');
-    ++b->summary.rows;
-    ++(r.valid() ? b->summary.valid : b->summary.invalid);
-    for (const v1::Diagnostic& d : r.diagnostics()) {
-      ++b->summary.by_code[d.code()];
-    }
+// Formats one report into its batch's output and counts it.
+void Emit(RecordFormat output, const v1::RecordReport& r, Batch* b) {
+  if (output == RecordFormat::kCsv) {
+    AppendReportCsvLine(r, &b->text);
+  } else {
+    AppendReportJsonLine(r, &b->text);
   }
+  ++b->summary.rows;
+  ++(r.valid() ? b->summary.valid : b->summary.invalid);
+  for (const v1::Diagnostic& d : r.diagnostics()) {
+    ++b->summary.by_code[d.code()];
+  }
+}
+
+// Drops a formatted batch's records and replies.
+void Release(Batch* b) {
   b->items.clear();
   b->items.shrink_to_fit();
   b->reply.Clear();
-  b->arena.reset();
 }
 
 }  // namespace
@@ -338,19 +335,6 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
     sink.Wake();
   });
 
-  auto answer_malformed = [](Batch* b) {
-    if (b->arena == nullptr) b->arena = std::make_unique<google::protobuf::Arena>();
-    for (Item& item : b->items) {
-      if (!item.error.empty()) {
-        ParsedLine p{item.record, item.error};
-        item.report =
-            google::protobuf::Arena::CreateMessage<v1::RecordReport>(
-                b->arena.get());
-        *item.report = MalformedRecordReport(p);
-      }
-    }
-  };
-
   std::vector<std::thread> workers;
   std::thread receiver;
   std::unique_ptr<Backend::RecordStream> stream;
@@ -358,17 +342,21 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
   if (remote == nullptr) {
     for (int j = 0; j < jobs; ++j) {
       workers.emplace_back([&] {
+        // One report per worker, cleared and refilled for every record:
+        // its strings and sub-messages keep their memory, so a record
+        // costs no allocation for its report.
+        v1::RecordReport report;
         while (std::optional<Batch> b = input_queue.Pop()) {
-          answer_malformed(&*b);
+          b->text.reserve(b->items.size() * 2048);
           for (Item& item : b->items) {
             if (item.error.empty()) {
-              item.report =
-                  google::protobuf::Arena::CreateMessage<v1::RecordReport>(
-                      b->arena.get());
-              AnalyzeRecordToReport(item.record, item.report);
+              AnalyzeRecordToReport(item.record, &report);
+            } else {
+              report = MalformedRecordReport(ParsedLine{item.record, item.error});
             }
+            Emit(out_format, report, &*b);
           }
-          Finish(out_format, &*b);
+          Release(&*b);
           sink.Put(std::move(*b));
         }
       });
@@ -397,7 +385,6 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
       // Receiver: match each reply to its batch, in order.
       receiver = std::thread([&] {
         while (std::optional<Batch> b = awaiting.Pop()) {
-          answer_malformed(&*b);
           int expected = 0;
           for (const Item& item : b->items) expected += item.error.empty();
           if (expected > 0) {
@@ -408,12 +395,18 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
                   " is missing or has the wrong number of reports")));
               break;
             }
-            int k = 0;
-            for (Item& item : b->items) {
-              if (item.error.empty()) item.report = reply.mutable_reports(k++);
+          }
+          int k = 0;
+          for (const Item& item : b->items) {
+            if (item.error.empty()) {
+              Emit(out_format, b->reply.reports(k++), &*b);
+            } else {
+              Emit(out_format,
+                   MalformedRecordReport(ParsedLine{item.record, item.error}),
+                   &*b);
             }
           }
-          Finish(out_format, &*b);
+          Release(&*b);
           sink.Put(std::move(*b));
         }
       });

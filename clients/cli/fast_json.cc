@@ -1,6 +1,8 @@
 #include "clients/cli/fast_json.h"
 
+#include <array>
 #include <charconv>
+#include <cstring>
 #include <cmath>
 #include <cstdio>
 #include <cstdlib>
@@ -8,6 +10,7 @@
 
 #include "absl/container/flat_hash_map.h"
 #include "absl/strings/str_cat.h"
+#include "absl/strings/string_view.h"
 #include "google/protobuf/descriptor.h"
 
 namespace shellwright::cli {
@@ -33,7 +36,7 @@ constexpr EscapeTable kEscape;
 
 inline bool NeedsEscape(unsigned char c) { return kEscape.needs[c]; }
 
-void AppendEscaped(const std::string& s, std::string* out) {
+void AppendEscaped(absl::string_view s, std::string* out) {
   out->push_back('"');
   size_t run = 0;  // Start of the pending run of plain bytes.
   for (size_t i = 0; i < s.size(); ++i) {
@@ -46,14 +49,14 @@ void AppendEscaped(const std::string& s, std::string* out) {
              static_cast<unsigned char>(s[i + 2]) == 0xA9))) {
         continue;
       }
-      out->append(s, run, i - run);
+      out->append(s.data() + run, i - run);
       out->append(static_cast<unsigned char>(s[i + 2]) == 0xA8 ? "\\u2028"
                                                               : "\\u2029");
       i += 2;
       run = i + 1;
       continue;
     }
-    out->append(s, run, i - run);
+    out->append(s.data() + run, i - run);
     run = i + 1;
     switch (c) {
       case '"':
@@ -84,14 +87,14 @@ void AppendEscaped(const std::string& s, std::string* out) {
       }
     }
   }
-  out->append(s, run, s.size() - run);
+  out->append(s.data() + run, s.size() - run);
   out->push_back('"');
 }
 
 // Shortest of %.15g / %.17g that round-trips, as the protobuf printer does.
 // std::to_chars with a precision formats exactly as printf would, much
 // faster.
-void AppendDouble(double v, std::string* out) {
+void AppendDoubleUncached(double v, std::string* out) {
   if (std::isnan(v)) {
     out->append("\"NaN\"");
     return;
@@ -107,6 +110,29 @@ void AppendDouble(double v, std::string* out) {
     auto r = std::to_chars(buf, buf + sizeof(buf), static_cast<int64_t>(v));
     out->append(buf, r.ptr - buf);
     return;
+  }
+  // Short decimals (counts such as 0.69 or 0.125). When v is the double
+  // nearest m / 10^k, those digits round-trip, no other k-place decimal
+  // does (below 10^9 with k <= 6 the double is finer than 10^-k), and
+  // %.15g prints them, as m has at most 15 significant digits.
+  const double magnitude = std::fabs(v);
+  if (magnitude >= 1e-4 && magnitude < 1e9) {
+    static constexpr double kPower[] = {1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6};
+    static constexpr int64_t kIntPower[] = {1,      10,      100,    1000,
+                                            10000, 100000, 1000000};
+    for (int k = 1; k <= 6; ++k) {
+      const double m = std::nearbyint(magnitude * kPower[k]);
+      if (m / kPower[k] != magnitude) continue;
+      const int64_t digits = static_cast<int64_t>(m);
+      if (v < 0) out->push_back('-');
+      auto r = std::to_chars(buf, buf + sizeof(buf), digits / kIntPower[k]);
+      out->append(buf, r.ptr - buf);
+      out->push_back('.');
+      r = std::to_chars(buf, buf + sizeof(buf),
+                        kIntPower[k] + digits % kIntPower[k]);
+      out->append(buf + 1, r.ptr - buf - 1);  // Drop the leading 1.
+      return;
+    }
   }
   // Shortest round-trip digits first (fast). When they number 15 or fewer,
   // %.15g round-trips and prints exactly those digits, so render them in
@@ -171,9 +197,40 @@ void AppendDouble(double v, std::string* out) {
   }
   out->push_back('e');
   out->push_back(exponent < 0 ? '-' : '+');
-  const int magnitude = exponent < 0 ? -exponent : exponent;
-  if (magnitude < 10) out->push_back('0');
-  absl::StrAppend(out, magnitude);
+  const int exponent_magnitude = exponent < 0 ? -exponent : exponent;
+  if (exponent_magnitude < 10) out->push_back('0');
+  absl::StrAppend(out, exponent_magnitude);
+}
+
+// AppendDoubleUncached behind a small per-thread cache keyed by the
+// value's bits. A report's moments come from a few dozen values
+// (sqrt(n(n+2)), the J moments), and most need the slower 17-digit form.
+void AppendDouble(double v, std::string* out) {
+  if (v == std::trunc(v)) {  // Whole numbers and infinities: cheap already.
+    AppendDoubleUncached(v, out);
+    return;
+  }
+  struct Entry {
+    uint64_t bits = 0;  // 0 is +0.0, which never reaches the cache.
+    uint8_t size = 0;
+    char text[31];
+  };
+  thread_local std::array<Entry, 512> cache;
+  uint64_t bits;
+  std::memcpy(&bits, &v, sizeof(bits));
+  Entry& e = cache[(bits * 0x9E3779B97F4A7C15ull) >> 55];
+  if (e.bits == bits) {
+    out->append(e.text, e.size);
+    return;
+  }
+  const size_t start = out->size();
+  AppendDoubleUncached(v, out);
+  const size_t size = out->size() - start;
+  if (size <= sizeof(e.text)) {
+    e.bits = bits;
+    e.size = static_cast<uint8_t>(size);
+    std::memcpy(e.text, out->data() + start, size);
+  }
 }
 
 void AppendFloat(float v, std::string* out) {
@@ -247,7 +304,115 @@ void AppendValue(const Message& m, const Reflection& r,
   }
 }
 
+// Writers for the RecordReport tree, in the protobuf printer's order:
+// declaration order, every field printed (the tree has no presence fields).
+// `key` is the quoted name with its colon and, after the first field, the
+// comma before it: ",\"state\":".
+void Key(absl::string_view key, std::string* out) {
+  out->append(key.data(), key.size());
+}
+
+void Str(absl::string_view key, const std::string& v, std::string* out) {
+  Key(key, out);
+  AppendEscaped(v, out);
+}
+void Int(absl::string_view key, int32_t v, std::string* out) {
+  Key(key, out);
+  char buf[16];
+  const auto r = std::to_chars(buf, buf + sizeof(buf), v);
+  out->append(buf, r.ptr - buf);
+}
+void Dbl(absl::string_view key, double v, std::string* out) {
+  Key(key, out);
+  AppendDouble(v, out);
+}
+void Bool(absl::string_view key, bool v, std::string* out) {
+  Key(key, out);
+  out->append(v ? "true" : "false");
+}
+
+template <typename T, typename Write>
+void Array(absl::string_view key,
+           const google::protobuf::RepeatedPtrField<T>& items, Write write,
+           std::string* out) {
+  Key(key, out);
+  out->push_back('[');
+  for (int i = 0; i < items.size(); ++i) {
+    if (i > 0) out->push_back(',');
+    write(items.Get(i), out);
+  }
+  out->push_back(']');
+}
+
+void WriteDiagnostic(const v1::Diagnostic& d, std::string* out) {
+  Str("{\"severity\":", d.severity(), out);
+  Str(",\"code\":", d.code(), out);
+  Str(",\"message\":", d.message(), out);
+  Int(",\"column\":", d.column(), out);
+  out->push_back('}');
+}
+
+void WriteState(const v1::OxidationState& s, std::string* out) {
+  Str("{\"element\":", s.element(), out);
+  Int(",\"state\":", s.state(), out);
+  Dbl(",\"count\":", s.count(), out);
+  Str(",\"count_exact\":", s.count_exact(), out);
+  Bool(",\"common\":", s.common(), out);
+  Bool(",\"declared\":", s.declared(), out);
+  out->push_back('}');
+}
+
+void WriteAssignment(const v1::OxidationAssignment& a, std::string* out) {
+  out->push_back('{');
+  Array("\"oxidation_states\":", a.oxidation_states(), WriteState, out);
+  Dbl(",\"score\":", a.score(), out);
+  Int(",\"uncommon_states\":", a.uncommon_states(), out);
+  Int(",\"electronegativity_inconsistencies\":",
+      a.electronegativity_inconsistencies(), out);
+  out->push_back('}');
+}
+
+void WriteIon(const v1::IonReport& i, std::string* out) {
+  Str("{\"element\":", i.element(), out);
+  Int(",\"state\":", i.state(), out);
+  Dbl(",\"count\":", i.count(), out);
+  Str(",\"species\":", i.species(), out);
+  Str(",\"configuration\":", i.configuration(), out);
+  Int(",\"unpaired_electrons\":", i.unpaired_electrons(), out);
+  Str(",\"geometry\":", i.geometry(), out);
+  Str(",\"spin_state\":", i.spin_state(), out);
+  Str(",\"ligand_field_occupancy\":", i.ligand_field_occupancy(), out);
+  Str(",\"term_symbol\":", i.term_symbol(), out);
+  Dbl(",\"moment\":", i.moment(), out);
+  Str(",\"moment_basis\":", i.moment_basis(), out);
+  Dbl(",\"moment_low\":", i.moment_low(), out);
+  Dbl(",\"moment_high\":", i.moment_high(), out);
+  out->push_back('}');
+}
+
 }  // namespace
+
+void AppendRecordReportJson(const v1::RecordReport& r, std::string* out) {
+  Str("{\"id\":", r.id(), out);
+  Bool(",\"valid\":", r.valid(), out);
+  Int(",\"row\":", r.row(), out);
+  Str(",\"formula\":", r.formula(), out);
+  Str(",\"composition_kind\":", r.composition_kind(), out);
+  Array(",\"diagnostics\":", r.diagnostics(), WriteDiagnostic, out);
+  Array(",\"oxidation_states\":", r.oxidation_states(), WriteState, out);
+  Dbl(",\"score\":", r.score(), out);
+  Array(",\"alternatives\":", r.alternatives(), WriteAssignment, out);
+  Array(",\"ions\":", r.ions(), WriteIon, out);
+  Dbl(",\"unpaired_per_formula_unit\":", r.unpaired_per_formula_unit(), out);
+  Dbl(",\"effective_moment_per_formula_unit\":",
+      r.effective_moment_per_formula_unit(), out);
+  Dbl(",\"expected_moment_low\":", r.expected_moment_low(), out);
+  Dbl(",\"expected_moment_high\":", r.expected_moment_high(), out);
+  Dbl(",\"curie_constant\":", r.curie_constant(), out);
+  Dbl(",\"valence_electron_concentration\":",
+      r.valence_electron_concentration(), out);
+  out->push_back('}');
+}
 
 void AppendCompactJson(const Message& message, std::string* out) {
   const auto* descriptor = message.GetDescriptor();

@@ -20,6 +20,7 @@
 #include <string>
 
 #include "google/protobuf/message.h"
+#include "shellwright/v1/electron_structure.pb.h"
 
 namespace shellwright::cli {
 
@@ -28,6 +29,13 @@ namespace shellwright::cli {
 // uses neither).
 void AppendCompactJson(const google::protobuf::Message& message,
                        std::string* out);
+
+// The same bytes as AppendCompactJson(report, out), written field by field
+// with the generated accessors instead of reflection: `check` prints one
+// of these per input row, and reflection cost more than the analysis.
+// Tests compare the two on fully populated reports, so a field added to
+// the schema and missed here fails them.
+void AppendRecordReportJson(const v1::RecordReport& report, std::string* out);
 
 }  // namespace shellwright::cli
 

@@ -23,17 +23,19 @@ std::string Clip(absl::string_view text, size_t n = 40) {
   return out;
 }
 
-std::string CsvQuote(absl::string_view field) {
+// Appends `field` to `out`, quoted when it holds a comma, a quote or a
+// line break.
+void AppendCsvField(absl::string_view field, std::string* out) {
   if (field.find_first_of(",\"\n\r") == absl::string_view::npos) {
-    return std::string(field);
+    out->append(field.data(), field.size());
+    return;
   }
-  std::string out = "\"";
+  out->push_back('"');
   for (char c : field) {
-    if (c == '"') out.push_back('"');
-    out.push_back(c);
+    if (c == '"') out->push_back('"');
+    out->push_back(c);
   }
-  out.push_back('"');
-  return out;
+  out->push_back('"');
 }
 
 // Replaces bytes that are not valid UTF-8 with U+FFFD: proto strings must
@@ -351,10 +353,9 @@ v1::RecordReport MalformedRecordReport(const ParsedLine& line) {
   return r;
 }
 
-std::string ReportToJsonLine(const v1::RecordReport& report) {
-  std::string out;
-  AppendCompactJson(report, &out);
-  return out;
+void AppendReportJsonLine(const v1::RecordReport& report, std::string* out) {
+  AppendRecordReportJson(report, out);
+  out->push_back('\n');
 }
 
 std::string ReportCsvHeader() {
@@ -364,28 +365,46 @@ std::string ReportCsvHeader() {
          "valence_electron_concentration,diagnostic_codes,diagnostics";
 }
 
-std::string ReportToCsvLine(const v1::RecordReport& r) {
-  std::vector<std::string> states, codes, messages;
+void AppendReportCsvLine(const v1::RecordReport& r, std::string* out) {
+  // Joined lists are built in one reused buffer, then quoted.
+  thread_local std::string list;
+  auto field = [out](absl::string_view text) {
+    out->push_back(',');
+    AppendCsvField(text, out);
+  };
+  // StrAppend prints doubles exactly as %.6g does.
+  auto num = [out](double v) { absl::StrAppend(out, ",", v); };
+  absl::StrAppend(out, r.row());
+  field(r.id());
+  out->append(r.valid() ? ",true" : ",false");
+  field(r.formula());
+  field(r.composition_kind());
+  list.clear();
   for (const v1::OxidationState& s : r.oxidation_states()) {
-    states.push_back(absl::StrCat(s.element(), ":", s.state(), "x",
-                                  s.count_exact()));
+    if (!list.empty()) list.push_back(' ');
+    absl::StrAppend(&list, s.element(), ":", s.state(), "x", s.count_exact());
   }
+  field(list);
+  num(r.score());
+  num(r.unpaired_per_formula_unit());
+  num(r.effective_moment_per_formula_unit());
+  num(r.expected_moment_low());
+  num(r.expected_moment_high());
+  num(r.curie_constant());
+  num(r.valence_electron_concentration());
+  list.clear();
   for (const v1::Diagnostic& d : r.diagnostics()) {
-    codes.push_back(d.code());
-    messages.push_back(absl::StrCat(d.severity(), ": ", d.message()));
+    if (!list.empty()) list.push_back(';');
+    list.append(d.code());
   }
-  auto num = [](double v) { return absl::StrFormat("%.6g", v); };
-  return absl::StrJoin(
-      {absl::StrCat(r.row()), CsvQuote(r.id()), std::string(r.valid() ? "true" : "false"),
-       CsvQuote(r.formula()), r.composition_kind(),
-       CsvQuote(absl::StrJoin(states, " ")), num(r.score()),
-       num(r.unpaired_per_formula_unit()),
-       num(r.effective_moment_per_formula_unit()),
-       num(r.expected_moment_low()), num(r.expected_moment_high()),
-       num(r.curie_constant()), num(r.valence_electron_concentration()),
-       CsvQuote(absl::StrJoin(codes, ";")),
-       CsvQuote(absl::StrJoin(messages, " | "))},
-      ",");
+  field(list);
+  list.clear();
+  for (const v1::Diagnostic& d : r.diagnostics()) {
+    if (!list.empty()) list.append(" | ");
+    absl::StrAppend(&list, d.severity(), ": ", d.message());
+  }
+  field(list);
+  out->push_back('\n');
 }
 
 }  // namespace shellwright::cli

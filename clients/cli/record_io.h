@@ -113,12 +113,14 @@ ParsedLine TooLongLine(absl::string_view prefix, int row, bool csv_id_first);
 // The error report for a malformed line.
 v1::RecordReport MalformedRecordReport(const ParsedLine& line);
 
-// One JSONL line (no trailing newline): the report in compact proto JSON.
-std::string ReportToJsonLine(const v1::RecordReport& report);
+// Appends one JSONL line, newline included: the report in compact proto
+// JSON.
+void AppendReportJsonLine(const v1::RecordReport& report, std::string* out);
 
-// CSV header and one CSV line for reports.
+// The CSV header (no newline), and one CSV line for a report, newline
+// included.
 std::string ReportCsvHeader();
-std::string ReportToCsvLine(const v1::RecordReport& report);
+void AppendReportCsvLine(const v1::RecordReport& report, std::string* out);
 
 }  // namespace shellwright::cli
 
