@@ -255,7 +255,9 @@ void AssignedToProto(const AssignedState& s, v1::OxidationState* out) {
   out->set_declared(s.declared);
 }
 
-absl::string_view KindName(CompositionKind k) {
+}  // namespace
+
+absl::string_view CompositionKindName(CompositionKind k) {
   switch (k) {
     case CompositionKind::kIonic:
       return "ionic";
@@ -266,8 +268,6 @@ absl::string_view KindName(CompositionKind k) {
   }
   return "ionic";
 }
-
-}  // namespace
 
 CompositionInput CompositionInputFromProto(
     const v1::CompositionRecord& record) {
@@ -291,6 +291,37 @@ CompositionInput CompositionInputFromProto(
   return in;
 }
 
+void IonAnnotationToProto(const IonAnnotation& ion, v1::IonReport* p) {
+  p->Clear();
+  const AtomDescription& d = *ion.description;
+  p->set_element(std::string(ion.element->symbol));
+  p->set_state(ion.state);
+  p->set_count(ion.count.ToDouble());
+  p->set_species(FormatSpecies(ion.element->symbol, ion.state));
+  p->set_configuration(d.configuration_notation);
+  p->set_unpaired_electrons(d.unpaired_electrons);
+  if (d.ligand_field.has_value()) {
+    const LigandFieldSplitting& lf = d.ligand_field->splitting;
+    p->set_geometry(std::string(GeometryName(lf.geometry)));
+    p->set_spin_state(std::string(SpinStateName(lf.spin_state)));
+    p->set_ligand_field_occupancy(lf.Notation());
+  } else {
+    p->set_geometry("free");
+  }
+  p->set_term_symbol(d.term.ToAscii());
+  p->set_moment(ion.moment);
+  p->set_moment_basis(d.moments.recommended_basis == MomentBasis::kJ
+                          ? "j_moment"
+                          : "spin_only");
+  p->set_moment_low(ion.moment_low);
+  p->set_moment_high(ion.moment_high);
+}
+
+absl::string_view EchoedFormula(const v1::CompositionRecord& record) {
+  absl::string_view f = record.formula();
+  return f.substr(0, std::min(f.size(), kMaxFormulaLength));
+}
+
 void RecordReportToProto(const CompositionReport& r,
                          const v1::CompositionRecord& record,
                          v1::RecordReport* out) {
@@ -298,9 +329,7 @@ void RecordReportToProto(const CompositionReport& r,
   out->set_id(r.id);
   out->set_valid(r.valid);
   out->set_row(record.row());
-  out->set_formula(record.formula().size() <= kMaxFormulaLength
-                       ? record.formula()
-                       : record.formula().substr(0, kMaxFormulaLength));
+  out->set_formula(std::string(EchoedFormula(record)));
   for (const Diagnostic& d : r.diagnostics) {
     v1::Diagnostic* p = out->add_diagnostics();
     p->set_severity(std::string(SeverityName(d.severity)));
@@ -309,7 +338,7 @@ void RecordReportToProto(const CompositionReport& r,
     p->set_column(d.column);
   }
   if (!r.assignment.has_value()) return;
-  out->set_composition_kind(std::string(KindName(r.kind)));
+  out->set_composition_kind(std::string(CompositionKindName(r.kind)));
   for (const AssignedState& s : r.assignment->states) {
     AssignedToProto(s, out->add_oxidation_states());
   }
@@ -325,29 +354,7 @@ void RecordReportToProto(const CompositionReport& r,
         a.electronegativity_inconsistencies);
   }
   for (const IonAnnotation& ion : r.ions) {
-    v1::IonReport* p = out->add_ions();
-    const AtomDescription& d = *ion.description;
-    p->set_element(std::string(ion.element->symbol));
-    p->set_state(ion.state);
-    p->set_count(ion.count.ToDouble());
-    p->set_species(FormatSpecies(ion.element->symbol, ion.state));
-    p->set_configuration(d.configuration_notation);
-    p->set_unpaired_electrons(d.unpaired_electrons);
-    if (d.ligand_field.has_value()) {
-      const LigandFieldSplitting& lf = d.ligand_field->splitting;
-      p->set_geometry(std::string(GeometryName(lf.geometry)));
-      p->set_spin_state(std::string(SpinStateName(lf.spin_state)));
-      p->set_ligand_field_occupancy(lf.Notation());
-    } else {
-      p->set_geometry("free");
-    }
-    p->set_term_symbol(d.term.ToAscii());
-    p->set_moment(ion.moment);
-    p->set_moment_basis(d.moments.recommended_basis == MomentBasis::kJ
-                            ? "j_moment"
-                            : "spin_only");
-    p->set_moment_low(ion.moment_low);
-    p->set_moment_high(ion.moment_high);
+    IonAnnotationToProto(ion, out->add_ions());
   }
   out->set_unpaired_per_formula_unit(r.unpaired_per_formula_unit);
   out->set_effective_moment_per_formula_unit(

@@ -61,6 +61,15 @@ inline constexpr int kMaxAlternatives = 5;
 // are clamped or left for AnalyzeComposition to diagnose.
 CompositionInput CompositionInputFromProto(const v1::CompositionRecord& record);
 
+// "ionic", "metallic" or "elemental".
+absl::string_view CompositionKindName(CompositionKind kind);
+
+// The record's formula as a report echoes it: cut to kMaxFormulaLength.
+absl::string_view EchoedFormula(const v1::CompositionRecord& record);
+
+// Fills `out` (cleared first) from one annotated ion.
+void IonAnnotationToProto(const IonAnnotation& ion, v1::IonReport* out);
+
 // Fills `out` (cleared first) from an engine report; `record` supplies the
 // echoed row and formula.
 void RecordReportToProto(const CompositionReport& report,

@@ -19,6 +19,7 @@
 #include "absl/strings/str_format.h"
 #include "absl/time/clock.h"
 #include "clients/cli/record_io.h"
+#include "clients/cli/report_lines.h"
 #include "server/convert.h"
 
 namespace shellwright::cli {
@@ -151,18 +152,33 @@ RecordFormat FormatFromPath(const std::string& path, RecordFormat fallback) {
   return fallback;
 }
 
+ReportLineFormat LineFormat(RecordFormat f) {
+  return f == RecordFormat::kCsv ? ReportLineFormat::kCsv
+                                 : ReportLineFormat::kJsonl;
+}
+
+// Counts one report in its batch's summary.
+template <typename Diagnostics, typename CodeOf>
+void Count(bool valid, const Diagnostics& diagnostics, CodeOf code_of,
+           Batch* b) {
+  ++b->summary.rows;
+  ++(valid ? b->summary.valid : b->summary.invalid);
+  for (const auto& d : diagnostics) ++b->summary.by_code[code_of(d)];
+}
+
 // Formats one report into its batch's output and counts it.
 void Emit(RecordFormat output, const v1::RecordReport& r, Batch* b) {
-  if (output == RecordFormat::kCsv) {
-    AppendReportCsvLine(r, &b->text);
-  } else {
-    AppendReportJsonLine(r, &b->text);
-  }
-  ++b->summary.rows;
-  ++(r.valid() ? b->summary.valid : b->summary.invalid);
-  for (const v1::Diagnostic& d : r.diagnostics()) {
-    ++b->summary.by_code[d.code()];
-  }
+  AppendReportLine(LineFormat(output), r, &b->text);
+  Count(r.valid(), r.diagnostics(),
+        [](const v1::Diagnostic& d) -> const std::string& { return d.code(); },
+        b);
+}
+
+void Emit(RecordFormat output, const CompositionReport& r,
+          const v1::CompositionRecord& record, Batch* b) {
+  AppendReportLine(LineFormat(output), r, record, &b->text);
+  Count(r.valid, r.diagnostics,
+        [](const Diagnostic& d) -> const std::string& { return d.code; }, b);
 }
 
 // Drops a formatted batch's records and replies.
@@ -342,19 +358,20 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
   if (remote == nullptr) {
     for (int j = 0; j < jobs; ++j) {
       workers.emplace_back([&] {
-        // One report per worker, cleared and refilled for every record:
-        // its strings and sub-messages keep their memory, so a record
-        // costs no allocation for its report.
-        v1::RecordReport report;
+        // Reports go straight from the engine to text: building a
+        // message per record would cost as much as analysing it.
         while (std::optional<Batch> b = input_queue.Pop()) {
           b->text.reserve(b->items.size() * 2048);
           for (Item& item : b->items) {
             if (item.error.empty()) {
-              AnalyzeRecordToReport(item.record, &report);
+              Emit(out_format,
+                   AnalyzeComposition(CompositionInputFromProto(item.record)),
+                   item.record, &*b);
             } else {
-              report = MalformedRecordReport(ParsedLine{item.record, item.error});
+              Emit(out_format,
+                   MalformedRecordReport(ParsedLine{item.record, item.error}),
+                   &*b);
             }
-            Emit(out_format, report, &*b);
           }
           Release(&*b);
           sink.Put(std::move(*b));

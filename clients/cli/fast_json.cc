@@ -304,115 +304,13 @@ void AppendValue(const Message& m, const Reflection& r,
   }
 }
 
-// Writers for the RecordReport tree, in the protobuf printer's order:
-// declaration order, every field printed (the tree has no presence fields).
-// `key` is the quoted name with its colon and, after the first field, the
-// comma before it: ",\"state\":".
-void Key(absl::string_view key, std::string* out) {
-  out->append(key.data(), key.size());
-}
-
-void Str(absl::string_view key, const std::string& v, std::string* out) {
-  Key(key, out);
-  AppendEscaped(v, out);
-}
-void Int(absl::string_view key, int32_t v, std::string* out) {
-  Key(key, out);
-  char buf[16];
-  const auto r = std::to_chars(buf, buf + sizeof(buf), v);
-  out->append(buf, r.ptr - buf);
-}
-void Dbl(absl::string_view key, double v, std::string* out) {
-  Key(key, out);
-  AppendDouble(v, out);
-}
-void Bool(absl::string_view key, bool v, std::string* out) {
-  Key(key, out);
-  out->append(v ? "true" : "false");
-}
-
-template <typename T, typename Write>
-void Array(absl::string_view key,
-           const google::protobuf::RepeatedPtrField<T>& items, Write write,
-           std::string* out) {
-  Key(key, out);
-  out->push_back('[');
-  for (int i = 0; i < items.size(); ++i) {
-    if (i > 0) out->push_back(',');
-    write(items.Get(i), out);
-  }
-  out->push_back(']');
-}
-
-void WriteDiagnostic(const v1::Diagnostic& d, std::string* out) {
-  Str("{\"severity\":", d.severity(), out);
-  Str(",\"code\":", d.code(), out);
-  Str(",\"message\":", d.message(), out);
-  Int(",\"column\":", d.column(), out);
-  out->push_back('}');
-}
-
-void WriteState(const v1::OxidationState& s, std::string* out) {
-  Str("{\"element\":", s.element(), out);
-  Int(",\"state\":", s.state(), out);
-  Dbl(",\"count\":", s.count(), out);
-  Str(",\"count_exact\":", s.count_exact(), out);
-  Bool(",\"common\":", s.common(), out);
-  Bool(",\"declared\":", s.declared(), out);
-  out->push_back('}');
-}
-
-void WriteAssignment(const v1::OxidationAssignment& a, std::string* out) {
-  out->push_back('{');
-  Array("\"oxidation_states\":", a.oxidation_states(), WriteState, out);
-  Dbl(",\"score\":", a.score(), out);
-  Int(",\"uncommon_states\":", a.uncommon_states(), out);
-  Int(",\"electronegativity_inconsistencies\":",
-      a.electronegativity_inconsistencies(), out);
-  out->push_back('}');
-}
-
-void WriteIon(const v1::IonReport& i, std::string* out) {
-  Str("{\"element\":", i.element(), out);
-  Int(",\"state\":", i.state(), out);
-  Dbl(",\"count\":", i.count(), out);
-  Str(",\"species\":", i.species(), out);
-  Str(",\"configuration\":", i.configuration(), out);
-  Int(",\"unpaired_electrons\":", i.unpaired_electrons(), out);
-  Str(",\"geometry\":", i.geometry(), out);
-  Str(",\"spin_state\":", i.spin_state(), out);
-  Str(",\"ligand_field_occupancy\":", i.ligand_field_occupancy(), out);
-  Str(",\"term_symbol\":", i.term_symbol(), out);
-  Dbl(",\"moment\":", i.moment(), out);
-  Str(",\"moment_basis\":", i.moment_basis(), out);
-  Dbl(",\"moment_low\":", i.moment_low(), out);
-  Dbl(",\"moment_high\":", i.moment_high(), out);
-  out->push_back('}');
-}
-
 }  // namespace
 
-void AppendRecordReportJson(const v1::RecordReport& r, std::string* out) {
-  Str("{\"id\":", r.id(), out);
-  Bool(",\"valid\":", r.valid(), out);
-  Int(",\"row\":", r.row(), out);
-  Str(",\"formula\":", r.formula(), out);
-  Str(",\"composition_kind\":", r.composition_kind(), out);
-  Array(",\"diagnostics\":", r.diagnostics(), WriteDiagnostic, out);
-  Array(",\"oxidation_states\":", r.oxidation_states(), WriteState, out);
-  Dbl(",\"score\":", r.score(), out);
-  Array(",\"alternatives\":", r.alternatives(), WriteAssignment, out);
-  Array(",\"ions\":", r.ions(), WriteIon, out);
-  Dbl(",\"unpaired_per_formula_unit\":", r.unpaired_per_formula_unit(), out);
-  Dbl(",\"effective_moment_per_formula_unit\":",
-      r.effective_moment_per_formula_unit(), out);
-  Dbl(",\"expected_moment_low\":", r.expected_moment_low(), out);
-  Dbl(",\"expected_moment_high\":", r.expected_moment_high(), out);
-  Dbl(",\"curie_constant\":", r.curie_constant(), out);
-  Dbl(",\"valence_electron_concentration\":",
-      r.valence_electron_concentration(), out);
-  out->push_back('}');
+void AppendJsonString(absl::string_view s, std::string* out) {
+  AppendEscaped(s, out);
 }
+
+void AppendJsonDouble(double v, std::string* out) { AppendDouble(v, out); }
 
 void AppendCompactJson(const Message& message, std::string* out) {
   const auto* descriptor = message.GetDescriptor();

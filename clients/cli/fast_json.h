@@ -20,7 +20,7 @@
 #include <string>
 
 #include "google/protobuf/message.h"
-#include "shellwright/v1/electron_structure.pb.h"
+#include "absl/strings/string_view.h"
 
 namespace shellwright::cli {
 
@@ -30,12 +30,11 @@ namespace shellwright::cli {
 void AppendCompactJson(const google::protobuf::Message& message,
                        std::string* out);
 
-// The same bytes as AppendCompactJson(report, out), written field by field
-// with the generated accessors instead of reflection: `check` prints one
-// of these per input row, and reflection cost more than the analysis.
-// Tests compare the two on fully populated reports, so a field added to
-// the schema and missed here fails them.
-void AppendRecordReportJson(const v1::RecordReport& report, std::string* out);
+// A quoted, escaped JSON string and a JSON number, exactly as the
+// protobuf printer writes them (doubles: the shorter of %.15g and %.17g
+// that round-trips).
+void AppendJsonString(absl::string_view s, std::string* out);
+void AppendJsonDouble(double v, std::string* out);
 
 }  // namespace shellwright::cli
 

@@ -11,7 +11,6 @@
 #include "absl/strings/str_join.h"
 #include "absl/strings/strip.h"
 #include "clients/cli/atom_format.h"
-#include "clients/cli/fast_json.h"
 #include "google/protobuf/util/json_util.h"
 
 namespace shellwright::cli {
@@ -21,21 +20,6 @@ std::string Clip(absl::string_view text, size_t n = 40) {
   std::string out(text.substr(0, n));
   if (text.size() > n) out += "...";
   return out;
-}
-
-// Appends `field` to `out`, quoted when it holds a comma, a quote or a
-// line break.
-void AppendCsvField(absl::string_view field, std::string* out) {
-  if (field.find_first_of(",\"\n\r") == absl::string_view::npos) {
-    out->append(field.data(), field.size());
-    return;
-  }
-  out->push_back('"');
-  for (char c : field) {
-    if (c == '"') out->push_back('"');
-    out->push_back(c);
-  }
-  out->push_back('"');
 }
 
 // Replaces bytes that are not valid UTF-8 with U+FFFD: proto strings must
@@ -351,60 +335,6 @@ v1::RecordReport MalformedRecordReport(const ParsedLine& line) {
   d->set_code("malformed_record");
   d->set_message(absl::StrCat("row ", line.record.row(), ": ", line.error));
   return r;
-}
-
-void AppendReportJsonLine(const v1::RecordReport& report, std::string* out) {
-  AppendRecordReportJson(report, out);
-  out->push_back('\n');
-}
-
-std::string ReportCsvHeader() {
-  return "row,id,valid,formula,composition_kind,oxidation_states,score,"
-         "unpaired_per_formula_unit,effective_moment_per_formula_unit,"
-         "expected_moment_low,expected_moment_high,curie_constant,"
-         "valence_electron_concentration,diagnostic_codes,diagnostics";
-}
-
-void AppendReportCsvLine(const v1::RecordReport& r, std::string* out) {
-  // Joined lists are built in one reused buffer, then quoted.
-  thread_local std::string list;
-  auto field = [out](absl::string_view text) {
-    out->push_back(',');
-    AppendCsvField(text, out);
-  };
-  // StrAppend prints doubles exactly as %.6g does.
-  auto num = [out](double v) { absl::StrAppend(out, ",", v); };
-  absl::StrAppend(out, r.row());
-  field(r.id());
-  out->append(r.valid() ? ",true" : ",false");
-  field(r.formula());
-  field(r.composition_kind());
-  list.clear();
-  for (const v1::OxidationState& s : r.oxidation_states()) {
-    if (!list.empty()) list.push_back(' ');
-    absl::StrAppend(&list, s.element(), ":", s.state(), "x", s.count_exact());
-  }
-  field(list);
-  num(r.score());
-  num(r.unpaired_per_formula_unit());
-  num(r.effective_moment_per_formula_unit());
-  num(r.expected_moment_low());
-  num(r.expected_moment_high());
-  num(r.curie_constant());
-  num(r.valence_electron_concentration());
-  list.clear();
-  for (const v1::Diagnostic& d : r.diagnostics()) {
-    if (!list.empty()) list.push_back(';');
-    list.append(d.code());
-  }
-  field(list);
-  list.clear();
-  for (const v1::Diagnostic& d : r.diagnostics()) {
-    if (!list.empty()) list.append(" | ");
-    absl::StrAppend(&list, d.severity(), ": ", d.message());
-  }
-  field(list);
-  out->push_back('\n');
 }
 
 }  // namespace shellwright::cli

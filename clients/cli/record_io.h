@@ -1,5 +1,5 @@
-// Reading composition records from CSV or JSONL, and writing reports as
-// JSONL or CSV, one line per record, in constant memory.
+// Reading composition records from CSV or JSONL, one record per line, in
+// constant memory (clients/cli/report_lines.h writes the reports).
 //
 // Input rules:
 //   - CSV: the first line is a header naming the columns (matched without
@@ -27,7 +27,7 @@
 //   shellwright::cli::ParsedLine p = reader.ParseLine("s1,Fe3O4,", 2);
 //   // p.record.formula() == "Fe3O4", p.error is empty
 //
-// Thread safety: readers are not thread-safe; the formatting functions are.
+// Thread safety: readers are not thread-safe; the free functions are.
 
 #ifndef SHELLWRIGHT_CLIENTS_CLI_RECORD_IO_H_
 #define SHELLWRIGHT_CLIENTS_CLI_RECORD_IO_H_
@@ -112,15 +112,6 @@ ParsedLine TooLongLine(absl::string_view prefix, int row, bool csv_id_first);
 
 // The error report for a malformed line.
 v1::RecordReport MalformedRecordReport(const ParsedLine& line);
-
-// Appends one JSONL line, newline included: the report in compact proto
-// JSON.
-void AppendReportJsonLine(const v1::RecordReport& report, std::string* out);
-
-// The CSV header (no newline), and one CSV line for a report, newline
-// included.
-std::string ReportCsvHeader();
-void AppendReportCsvLine(const v1::RecordReport& report, std::string* out);
 
 }  // namespace shellwright::cli
 

@@ -7,7 +7,6 @@
 #include <random>
 #include <string>
 
-#include "absl/strings/str_cat.h"
 #include "clients/cli/atom_format.h"
 #include "gtest/gtest.h"
 #include "server/convert.h"
@@ -19,12 +18,6 @@ namespace {
 std::string Fast(const google::protobuf::Message& m) {
   std::string out;
   AppendCompactJson(m, &out);
-  return out;
-}
-
-std::string Specialised(const v1::RecordReport& r) {
-  std::string out;
-  AppendRecordReportJson(r, &out);
   return out;
 }
 
@@ -86,7 +79,6 @@ TEST(FastJson, MatchesOnRealReportsAndDescriptions) {
     v1::RecordReport report;
     AnalyzeRecordToReport(record, &report);
     EXPECT_EQ(Fast(report), ToJson(report, false)) << formula;
-    EXPECT_EQ(Specialised(report), ToJson(report, false)) << formula;
   }
   // Messages with oneofs, proto3 optional fields, enums and nested
   // messages.
@@ -103,66 +95,6 @@ TEST(FastJson, MatchesOnRealReportsAndDescriptions) {
   v1::ListElementsResponse elements;
   ListElementsMessage(&elements);
   EXPECT_EQ(Fast(elements), ToJson(elements, false));
-}
-
-// Sets every field of `m` and of its sub-messages, two elements per
-// repeated field, to a value that differs from the default, so that a
-// field the specialised writer misses shows up in the protobuf printer's
-// output only.
-void Populate(google::protobuf::Message* m, int depth, std::mt19937* rng) {
-  using google::protobuf::FieldDescriptor;
-  const auto* d = m->GetDescriptor();
-  const auto* r = m->GetReflection();
-  for (int i = 0; i < d->field_count(); ++i) {
-    const FieldDescriptor* f = d->field(i);
-    const int n = f->is_repeated() ? 2 : 1;
-    for (int k = 0; k < n; ++k) {
-      const std::string text = absl::StrCat(f->name(), "\"<", k, "\n·");
-      const int integer = static_cast<int>((*rng)() % 200) - 100 + 1;
-      const double real = static_cast<double>((*rng)() % 100000) / 7.0 + 0.1;
-      switch (f->cpp_type()) {
-        case FieldDescriptor::CPPTYPE_STRING:
-          f->is_repeated() ? r->AddString(m, f, text)
-                           : r->SetString(m, f, text);
-          break;
-        case FieldDescriptor::CPPTYPE_INT32:
-          f->is_repeated() ? r->AddInt32(m, f, integer)
-                           : r->SetInt32(m, f, integer);
-          break;
-        case FieldDescriptor::CPPTYPE_DOUBLE:
-          f->is_repeated() ? r->AddDouble(m, f, real)
-                           : r->SetDouble(m, f, real);
-          break;
-        case FieldDescriptor::CPPTYPE_BOOL:
-          f->is_repeated() ? r->AddBool(m, f, true) : r->SetBool(m, f, true);
-          break;
-        case FieldDescriptor::CPPTYPE_MESSAGE:
-          if (depth < 3) {
-            Populate(f->is_repeated() ? r->AddMessage(m, f)
-                                      : r->MutableMessage(m, f),
-                     depth + 1, rng);
-          }
-          break;
-        default:
-          ADD_FAILURE() << "RecordReport gained a field kind the test and "
-                           "the specialised writer do not handle: "
-                        << f->full_name();
-      }
-    }
-  }
-}
-
-TEST(RecordReportJson, MatchesTheProtobufPrinterOnFullyPopulatedReports) {
-  std::mt19937 rng(11);
-  for (int i = 0; i < 50; ++i) {
-    v1::RecordReport r;
-    Populate(&r, 0, &rng);
-    ASSERT_EQ(r.alternatives_size(), 2);
-    ASSERT_EQ(r.alternatives(1).oxidation_states_size(), 2);
-    EXPECT_EQ(Specialised(r), ToJson(r, /*pretty=*/false));
-  }
-  v1::RecordReport empty;
-  EXPECT_EQ(Specialised(empty), ToJson(empty, false));
 }
 
 }  // namespace

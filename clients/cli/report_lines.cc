@@ -1,0 +1,423 @@
+#include "clients/cli/report_lines.h"
+
+#include <array>
+#include <cstdint>
+#include <cstring>
+
+#include "absl/strings/str_cat.h"
+#include "absl/strings/string_view.h"
+#include "clients/cli/fast_json.h"
+#include "server/convert.h"
+
+namespace shellwright::cli {
+namespace {
+
+// JSON members in the protobuf printer's order: declaration order, every
+// field printed (the RecordReport tree has no presence fields). `key` is
+// the quoted name with its colon and, after an object's first member, the
+// comma before it: ",\"state\":".
+void Key(absl::string_view key, std::string* out) {
+  out->append(key.data(), key.size());
+}
+void Str(absl::string_view key, absl::string_view v, std::string* out) {
+  Key(key, out);
+  AppendJsonString(v, out);
+}
+void Int(absl::string_view key, int32_t v, std::string* out) {
+  Key(key, out);
+  absl::StrAppend(out, v);
+}
+void Dbl(absl::string_view key, double v, std::string* out) {
+  Key(key, out);
+  AppendJsonDouble(v, out);
+}
+void Bool(absl::string_view key, bool v, std::string* out) {
+  Key(key, out);
+  out->append(v ? "true" : "false");
+}
+
+// Writes `items` as the members of a JSON array, `write(item, out)` each.
+template <typename Items, typename Write>
+void Each(const Items& items, Write write, std::string* out) {
+  bool first = true;
+  for (const auto& item : items) {
+    if (!first) out->push_back(',');
+    first = false;
+    write(item, out);
+  }
+}
+
+// The record-level values of a report, whichever type holds them.
+struct ReportFields {
+  absl::string_view id;
+  bool valid;
+  int32_t row;
+  absl::string_view formula;
+  absl::string_view kind;
+  double score;
+  double unpaired;
+  double effective_moment;
+  double moment_low;
+  double moment_high;
+  double curie_constant;
+  double vec;
+};
+
+ReportFields FieldsOf(const v1::RecordReport& r) {
+  return {r.id(),
+          r.valid(),
+          r.row(),
+          r.formula(),
+          r.composition_kind(),
+          r.score(),
+          r.unpaired_per_formula_unit(),
+          r.effective_moment_per_formula_unit(),
+          r.expected_moment_low(),
+          r.expected_moment_high(),
+          r.curie_constant(),
+          r.valence_electron_concentration()};
+}
+
+// As RecordReportToProto fills them: without an assignment, only the id,
+// verdict, echoes and diagnostics are set.
+ReportFields FieldsOf(const CompositionReport& r,
+                      const v1::CompositionRecord& record) {
+  ReportFields f{r.id, r.valid, record.row(), EchoedFormula(record), "",
+                 0,    0,       0,            0,                     0,
+                 0,    0};
+  if (!r.assignment.has_value()) return f;
+  f.kind = CompositionKindName(r.kind);
+  f.score = r.assignment->score;
+  f.unpaired = r.unpaired_per_formula_unit;
+  f.effective_moment = r.effective_moment_per_formula_unit;
+  f.moment_low = r.expected_moment_low;
+  f.moment_high = r.expected_moment_high;
+  f.curie_constant = r.curie_constant;
+  f.vec = r.valence_electron_concentration;
+  return f;
+}
+
+void DiagnosticJson(absl::string_view severity, absl::string_view code,
+                    absl::string_view message, int32_t column,
+                    std::string* out) {
+  Str("{\"severity\":", severity, out);
+  Str(",\"code\":", code, out);
+  Str(",\"message\":", message, out);
+  Int(",\"column\":", column, out);
+  out->push_back('}');
+}
+
+void StateJson(absl::string_view element, int32_t state, double count,
+               absl::string_view count_exact, bool common, bool declared,
+               std::string* out) {
+  Str("{\"element\":", element, out);
+  Int(",\"state\":", state, out);
+  Dbl(",\"count\":", count, out);
+  Str(",\"count_exact\":", count_exact, out);
+  Bool(",\"common\":", common, out);
+  Bool(",\"declared\":", declared, out);
+  out->push_back('}');
+}
+
+void ProtoStateJson(const v1::OxidationState& s, std::string* out) {
+  StateJson(s.element(), s.state(), s.count(), s.count_exact(), s.common(),
+            s.declared(), out);
+}
+
+void EngineStateJson(const AssignedState& s, std::string* out) {
+  StateJson(s.element->symbol, s.state, s.count.ToDouble(),
+            s.count.ToString(), s.common, s.declared, out);
+}
+
+// `states` writes the members of the oxidation_states array.
+template <typename States>
+void AssignmentJson(States states, double score, int32_t uncommon,
+                    int32_t inconsistencies, std::string* out) {
+  Key("{\"oxidation_states\":[", out);
+  states(out);
+  out->push_back(']');
+  Dbl(",\"score\":", score, out);
+  Int(",\"uncommon_states\":", uncommon, out);
+  Int(",\"electronegativity_inconsistencies\":", inconsistencies, out);
+  out->push_back('}');
+}
+
+void IonJson(const v1::IonReport& i, std::string* out) {
+  Str("{\"element\":", i.element(), out);
+  Int(",\"state\":", i.state(), out);
+  Dbl(",\"count\":", i.count(), out);
+  Str(",\"species\":", i.species(), out);
+  Str(",\"configuration\":", i.configuration(), out);
+  Int(",\"unpaired_electrons\":", i.unpaired_electrons(), out);
+  Str(",\"geometry\":", i.geometry(), out);
+  Str(",\"spin_state\":", i.spin_state(), out);
+  Str(",\"ligand_field_occupancy\":", i.ligand_field_occupancy(), out);
+  Str(",\"term_symbol\":", i.term_symbol(), out);
+  Dbl(",\"moment\":", i.moment(), out);
+  Str(",\"moment_basis\":", i.moment_basis(), out);
+  Dbl(",\"moment_low\":", i.moment_low(), out);
+  Dbl(",\"moment_high\":", i.moment_high(), out);
+  out->push_back('}');
+}
+
+uint64_t Bits(double v) {
+  uint64_t b;
+  std::memcpy(&b, &v, sizeof(b));
+  return b;
+}
+
+// An engine ion's JSON. Everything but the count follows from the
+// description (immutable, shared) and the moment range, and a record's
+// ions come from a few hundred of those, so each thread keeps the text on
+// either side of the count, made by the proto path itself. An entry holds
+// its description, so the pointer it is keyed by stays valid.
+void EngineIonJson(const IonAnnotation& ion, std::string* out) {
+  struct Entry {
+    AtomDescriptionPtr description;
+    const Element* element = nullptr;
+    int state = 0;
+    uint64_t moment = 0, low = 0, high = 0;
+    std::string head;  // Through "count":
+    std::string tail;  // From ,"species":
+  };
+  thread_local std::array<Entry, 1024> cache;
+  const uint64_t moment = Bits(ion.moment), low = Bits(ion.moment_low),
+                 high = Bits(ion.moment_high);
+  const uint64_t hash =
+      (reinterpret_cast<uintptr_t>(ion.description.get()) ^
+       (moment * 0x9E3779B97F4A7C15ull) ^ (low * 0xC2B2AE3D27D4EB4Full) ^
+       (high * 0x165667B19E3779F9ull) ^ static_cast<uint64_t>(ion.state)) *
+      0xFF51AFD7ED558CCDull;
+  Entry& e = cache[hash >> 54];
+  if (e.description != ion.description || e.element != ion.element ||
+      e.state != ion.state || e.moment != moment || e.low != low ||
+      e.high != high) {
+    thread_local v1::IonReport proto;
+    IonAnnotationToProto(ion, &proto);
+    std::string text;
+    IonJson(proto, &text);
+    constexpr char kCount[] = ",\"count\":";
+    const size_t head_end = text.find(kCount) + sizeof(kCount) - 1;
+    const size_t tail_start = text.find(",\"species\":", head_end);
+    e.description = ion.description;
+    e.element = ion.element;
+    e.state = ion.state;
+    e.moment = moment;
+    e.low = low;
+    e.high = high;
+    e.head = text.substr(0, head_end);
+    e.tail = text.substr(tail_start);
+  }
+  out->append(e.head);
+  AppendJsonDouble(ion.count.ToDouble(), out);
+  out->append(e.tail);
+}
+
+// The report object. Each callback writes the members of one array.
+template <typename Diagnostics, typename States, typename Alternatives,
+          typename Ions>
+void ReportJson(const ReportFields& f, Diagnostics diagnostics, States states,
+                Alternatives alternatives, Ions ions, std::string* out) {
+  Str("{\"id\":", f.id, out);
+  Bool(",\"valid\":", f.valid, out);
+  Int(",\"row\":", f.row, out);
+  Str(",\"formula\":", f.formula, out);
+  Str(",\"composition_kind\":", f.kind, out);
+  Key(",\"diagnostics\":[", out);
+  diagnostics(out);
+  Key("],\"oxidation_states\":[", out);
+  states(out);
+  Key("]", out);
+  Dbl(",\"score\":", f.score, out);
+  Key(",\"alternatives\":[", out);
+  alternatives(out);
+  Key("],\"ions\":[", out);
+  ions(out);
+  Key("]", out);
+  Dbl(",\"unpaired_per_formula_unit\":", f.unpaired, out);
+  Dbl(",\"effective_moment_per_formula_unit\":", f.effective_moment, out);
+  Dbl(",\"expected_moment_low\":", f.moment_low, out);
+  Dbl(",\"expected_moment_high\":", f.moment_high, out);
+  Dbl(",\"curie_constant\":", f.curie_constant, out);
+  Dbl(",\"valence_electron_concentration\":", f.vec, out);
+  Key("}\n", out);
+}
+
+// Appends `field`, quoted when it holds a comma, a quote or a line break.
+void CsvField(absl::string_view field, std::string* out) {
+  out->push_back(',');
+  if (field.find_first_of(",\"\n\r") == absl::string_view::npos) {
+    out->append(field.data(), field.size());
+    return;
+  }
+  out->push_back('"');
+  for (char c : field) {
+    if (c == '"') out->push_back('"');
+    out->push_back(c);
+  }
+  out->push_back('"');
+}
+
+// One CSV line. `states`, `codes` and `messages` append the joined list
+// for their column to a buffer.
+template <typename States, typename Codes, typename Messages>
+void ReportCsv(const ReportFields& f, States states, Codes codes,
+               Messages messages, std::string* out) {
+  thread_local std::string list;
+  absl::StrAppend(out, f.row);
+  CsvField(f.id, out);
+  out->append(f.valid ? ",true" : ",false");
+  CsvField(f.formula, out);
+  CsvField(f.kind, out);
+  list.clear();
+  states(&list);
+  CsvField(list, out);
+  // StrAppend prints doubles exactly as %.6g does.
+  for (double v : {f.score, f.unpaired, f.effective_moment, f.moment_low,
+                   f.moment_high, f.curie_constant, f.vec}) {
+    absl::StrAppend(out, ",", v);
+  }
+  list.clear();
+  codes(&list);
+  CsvField(list, out);
+  list.clear();
+  messages(&list);
+  CsvField(list, out);
+  out->push_back('\n');
+}
+
+void CsvState(absl::string_view element, int state, absl::string_view exact,
+              std::string* list) {
+  if (!list->empty()) list->push_back(' ');
+  absl::StrAppend(list, element, ":", state, "x", exact);
+}
+
+void CsvCode(absl::string_view code, std::string* list) {
+  if (!list->empty()) list->push_back(';');
+  list->append(code.data(), code.size());
+}
+
+void CsvMessage(absl::string_view severity, absl::string_view message,
+                std::string* list) {
+  if (!list->empty()) list->append(" | ");
+  absl::StrAppend(list, severity, ": ", message);
+}
+
+}  // namespace
+
+std::string ReportCsvHeader() {
+  return "row,id,valid,formula,composition_kind,oxidation_states,score,"
+         "unpaired_per_formula_unit,effective_moment_per_formula_unit,"
+         "expected_moment_low,expected_moment_high,curie_constant,"
+         "valence_electron_concentration,diagnostic_codes,diagnostics";
+}
+
+void AppendReportLine(ReportLineFormat format, const v1::RecordReport& r,
+                      std::string* out) {
+  const ReportFields f = FieldsOf(r);
+  if (format == ReportLineFormat::kCsv) {
+    ReportCsv(
+        f,
+        [&](std::string* list) {
+          for (const v1::OxidationState& s : r.oxidation_states()) {
+            CsvState(s.element(), s.state(), s.count_exact(), list);
+          }
+        },
+        [&](std::string* list) {
+          for (const v1::Diagnostic& d : r.diagnostics()) {
+            CsvCode(d.code(), list);
+          }
+        },
+        [&](std::string* list) {
+          for (const v1::Diagnostic& d : r.diagnostics()) {
+            CsvMessage(d.severity(), d.message(), list);
+          }
+        },
+        out);
+    return;
+  }
+  ReportJson(
+      f,
+      [&](std::string* o) {
+        Each(
+            r.diagnostics(),
+            [](const v1::Diagnostic& d, std::string* o) {
+              DiagnosticJson(d.severity(), d.code(), d.message(), d.column(),
+                             o);
+            },
+            o);
+      },
+      [&](std::string* o) { Each(r.oxidation_states(), ProtoStateJson, o); },
+      [&](std::string* o) {
+        Each(
+            r.alternatives(),
+            [](const v1::OxidationAssignment& a, std::string* o) {
+              AssignmentJson(
+                  [&](std::string* o) {
+                    Each(a.oxidation_states(), ProtoStateJson, o);
+                  },
+                  a.score(), a.uncommon_states(),
+                  a.electronegativity_inconsistencies(), o);
+            },
+            o);
+      },
+      [&](std::string* o) { Each(r.ions(), IonJson, o); }, out);
+}
+
+void AppendReportLine(ReportLineFormat format, const CompositionReport& r,
+                      const v1::CompositionRecord& record, std::string* out) {
+  const ReportFields f = FieldsOf(r, record);
+  const bool assigned = r.assignment.has_value();
+  if (format == ReportLineFormat::kCsv) {
+    ReportCsv(
+        f,
+        [&](std::string* list) {
+          if (!assigned) return;
+          for (const AssignedState& s : r.assignment->states) {
+            CsvState(s.element->symbol, s.state, s.count.ToString(), list);
+          }
+        },
+        [&](std::string* list) {
+          for (const Diagnostic& d : r.diagnostics) CsvCode(d.code, list);
+        },
+        [&](std::string* list) {
+          for (const Diagnostic& d : r.diagnostics) {
+            CsvMessage(SeverityName(d.severity), d.message, list);
+          }
+        },
+        out);
+    return;
+  }
+  ReportJson(
+      f,
+      [&](std::string* o) {
+        Each(
+            r.diagnostics,
+            [](const Diagnostic& d, std::string* o) {
+              DiagnosticJson(SeverityName(d.severity), d.code, d.message,
+                             d.column, o);
+            },
+            o);
+      },
+      [&](std::string* o) {
+        if (assigned) Each(r.assignment->states, EngineStateJson, o);
+      },
+      [&](std::string* o) {
+        if (!assigned) return;
+        Each(
+            r.alternatives,
+            [](const OxidationAssignment& a, std::string* o) {
+              AssignmentJson(
+                  [&](std::string* o) { Each(a.states, EngineStateJson, o); },
+                  a.score, a.uncommon_states,
+                  a.electronegativity_inconsistencies, o);
+            },
+            o);
+      },
+      [&](std::string* o) {
+        if (assigned) Each(r.ions, EngineIonJson, o);
+      },
+      out);
+}
+
+}  // namespace shellwright::cli

@@ -1,0 +1,46 @@
+// Report lines for `shellwright check`: one JSONL or CSV line per record.
+//
+// A line is written either from a shellwright.v1.RecordReport (a server's
+// answer) or straight from the engine's CompositionReport (in-process),
+// which skips building a message per record. Both give the same bytes:
+// one layout serves both, the JSON is exactly what the protobuf printer
+// writes for the RecordReport, and tests compare the two paths record by
+// record.
+//
+// Example:
+//   std::string text;
+//   shellwright::cli::AppendReportLine(
+//       shellwright::cli::ReportLineFormat::kJsonl, report, &text);
+//   // text: {"id":"s1","valid":true,...}\n
+//
+// Thread safety: thread-safe.
+
+#ifndef SHELLWRIGHT_CLIENTS_CLI_REPORT_LINES_H_
+#define SHELLWRIGHT_CLIENTS_CLI_REPORT_LINES_H_
+
+#include <string>
+
+#include "engine/composition.h"
+#include "shellwright/v1/electron_structure.pb.h"
+
+namespace shellwright::cli {
+
+enum class ReportLineFormat { kJsonl, kCsv };
+
+// The CSV header, without a line break.
+std::string ReportCsvHeader();
+
+// Appends the report's line, line break included.
+void AppendReportLine(ReportLineFormat format, const v1::RecordReport& report,
+                      std::string* out);
+
+// The same line as for RecordReportToProto(report, record) (server/
+// convert.h), written from the engine report; `record` supplies the echoed
+// row and formula.
+void AppendReportLine(ReportLineFormat format,
+                      const CompositionReport& report,
+                      const v1::CompositionRecord& record, std::string* out);
+
+}  // namespace shellwright::cli
+
+#endif  // SHELLWRIGHT_CLIENTS_CLI_REPORT_LINES_H_

@@ -1,0 +1,173 @@
+// Tests clients/cli/report_lines.h: the JSONL line written from a
+// RecordReport is exactly the protobuf printer's JSON, and the lines
+// written straight from the engine report equal those written from the
+// report's proto translation, for JSONL and CSV.
+
+#include "clients/cli/report_lines.h"
+
+#include <fstream>
+#include <random>
+#include <string>
+#include <vector>
+
+#include "absl/strings/str_cat.h"
+#include "clients/cli/atom_format.h"
+#include "clients/cli/record_io.h"
+#include "gtest/gtest.h"
+#include "server/convert.h"
+#include "shellwright/v1/electron_structure.pb.h"
+#include "tests/testing/subprocess.h"
+
+namespace shellwright::cli {
+namespace {
+
+std::string ProtoLine(const v1::RecordReport& r,
+                      ReportLineFormat format = ReportLineFormat::kJsonl) {
+  std::string out;
+  AppendReportLine(format, r, &out);
+  return out;
+}
+
+// Sets every field of `m` and of its sub-messages, two elements per
+// repeated field, to a value that differs from the default, so that a
+// field the specialised writer misses shows up in the protobuf printer's
+// output only.
+void Populate(google::protobuf::Message* m, int depth, std::mt19937* rng) {
+  using google::protobuf::FieldDescriptor;
+  const auto* d = m->GetDescriptor();
+  const auto* r = m->GetReflection();
+  for (int i = 0; i < d->field_count(); ++i) {
+    const FieldDescriptor* f = d->field(i);
+    const int n = f->is_repeated() ? 2 : 1;
+    for (int k = 0; k < n; ++k) {
+      const std::string text = absl::StrCat(f->name(), "\"<", k, "\n·");
+      const int integer = static_cast<int>((*rng)() % 200) - 100 + 1;
+      const double real = static_cast<double>((*rng)() % 100000) / 7.0 + 0.1;
+      switch (f->cpp_type()) {
+        case FieldDescriptor::CPPTYPE_STRING:
+          f->is_repeated() ? r->AddString(m, f, text)
+                           : r->SetString(m, f, text);
+          break;
+        case FieldDescriptor::CPPTYPE_INT32:
+          f->is_repeated() ? r->AddInt32(m, f, integer)
+                           : r->SetInt32(m, f, integer);
+          break;
+        case FieldDescriptor::CPPTYPE_DOUBLE:
+          f->is_repeated() ? r->AddDouble(m, f, real)
+                           : r->SetDouble(m, f, real);
+          break;
+        case FieldDescriptor::CPPTYPE_BOOL:
+          f->is_repeated() ? r->AddBool(m, f, true) : r->SetBool(m, f, true);
+          break;
+        case FieldDescriptor::CPPTYPE_MESSAGE:
+          if (depth < 3) {
+            Populate(f->is_repeated() ? r->AddMessage(m, f)
+                                      : r->MutableMessage(m, f),
+                     depth + 1, rng);
+          }
+          break;
+        default:
+          ADD_FAILURE() << "RecordReport gained a field kind the test and "
+                           "the specialised writer do not handle: "
+                        << f->full_name();
+      }
+    }
+  }
+}
+
+TEST(ReportLines, JsonFromTheProtoMatchesTheProtobufPrinterOnFullyPopulatedReports) {
+  std::mt19937 rng(11);
+  for (int i = 0; i < 50; ++i) {
+    v1::RecordReport r;
+    Populate(&r, 0, &rng);
+    ASSERT_EQ(r.alternatives_size(), 2);
+    ASSERT_EQ(r.alternatives(1).oxidation_states_size(), 2);
+    EXPECT_EQ(ProtoLine(r), ToJson(r, /*pretty=*/false) + "\n");
+  }
+  v1::RecordReport empty;
+  EXPECT_EQ(ProtoLine(empty), ToJson(empty, false) + "\n");
+}
+
+
+// Records of every shape the engine answers: the demo registry (typos,
+// unbalanced formulas, wrong declared states, implausible moments) and
+// hand-made ones with settings, charges, alternatives and an over-long
+// formula.
+std::vector<v1::CompositionRecord> Records() {
+  std::vector<v1::CompositionRecord> out;
+  std::ifstream in(testing::SourcePath("data/demo/sample_registry.csv"));
+  EXPECT_TRUE(in.good());
+  CsvRecordReader reader;
+  std::string line;
+  int row = 1;
+  std::getline(in, line);
+  EXPECT_TRUE(reader.ReadHeader(line).ok());
+  while (std::getline(in, line)) {
+    ParsedLine p = reader.ParseLine(line, ++row);
+    if (p.error.empty()) out.push_back(p.record);
+  }
+  EXPECT_GT(out.size(), 2000u);
+  auto add = [&](const std::string& formula) -> v1::CompositionRecord& {
+    out.emplace_back();
+    out.back().set_id(absl::StrCat("made-", out.size()));
+    out.back().set_formula(formula);
+    out.back().set_row(static_cast<int>(out.size()));
+    return out.back();
+  };
+  add("Fe3O4").set_max_alternatives(3);
+  add("Pb3O4").set_max_alternatives(5);
+  add("Co3O4").set_geometry("Co:tetrahedral");
+  add("NiO").set_spin_state("Ni:low");
+  add("K3[Fe(CN)6]").set_spin_state("Fe:low");
+  add("Fe2O3").set_declared_states("Fe:2");
+  add("SO4").set_charge(-2);
+  add("Gd2O3").set_measured_moment(11.2);
+  add("La0.7Sr0.3MnO3").set_measured_moment(99);
+  add(std::string(1100, 'C'));
+  add("Fe2O3)");
+  add("Xx2O3");
+  add("");
+  add("CuSO4.5H2O");
+  return out;
+}
+
+TEST(ReportLines, EngineLinesEqualTheProtoPathsLines) {
+  const std::vector<v1::CompositionRecord> records = Records();
+  // Twice over, so that the second pass reads the per-thread ion cache.
+  for (int pass = 0; pass < 2; ++pass) {
+    for (const v1::CompositionRecord& record : records) {
+      const CompositionReport report =
+          AnalyzeComposition(CompositionInputFromProto(record));
+      v1::RecordReport proto;
+      RecordReportToProto(report, record, &proto);
+      for (ReportLineFormat format :
+           {ReportLineFormat::kJsonl, ReportLineFormat::kCsv}) {
+        std::string engine;
+        AppendReportLine(format, report, record, &engine);
+        ASSERT_EQ(engine, ProtoLine(proto, format))
+            << record.id() << " " << record.formula();
+      }
+    }
+  }
+}
+
+TEST(ReportLines, CsvLineHasOneFieldPerHeaderColumn) {
+  v1::CompositionRecord record;
+  record.set_id("a,\"b\"");
+  record.set_formula("Fe3O4");
+  record.set_row(2);
+  v1::RecordReport proto;
+  AnalyzeRecordToReport(record, &proto);
+  const std::string line = ProtoLine(proto, ReportLineFormat::kCsv);
+  std::vector<std::string> fields, header;
+  std::string error;
+  ASSERT_TRUE(SplitCsvLine(line.substr(0, line.size() - 1), &fields, &error))
+      << error;
+  ASSERT_TRUE(SplitCsvLine(ReportCsvHeader(), &header, &error));
+  EXPECT_EQ(fields.size(), header.size());
+  EXPECT_EQ(fields[1], "a,\"b\"");
+  EXPECT_EQ(fields[5], "Fe:2x1 Fe:3x2 O:-2x4");
+}
+
+}  // namespace
+}  // namespace shellwright::cli
