@@ -2,6 +2,7 @@
 
 #include <cmath>
 #include <cstring>
+#include <set>
 
 #include "absl/strings/ascii.h"
 #include "absl/strings/match.h"
@@ -148,94 +149,120 @@ ParsedLine TooLongLine(absl::string_view prefix, int row, bool csv_id_first) {
 
 bool SplitCsvLine(absl::string_view line, std::vector<std::string>* fields,
                   std::string* error) {
-  fields->clear();
-  std::string field;
+  // Fields already in `fields` are reused, keeping their memory.
+  size_t n = 0;
+  auto next_field = [&]() -> std::string& {
+    if (n == fields->size()) fields->emplace_back();
+    std::string& f = (*fields)[n++];
+    f.clear();
+    return f;
+  };
   size_t i = 0;
-  bool at_field_start = true;
   while (true) {
-    if (i < line.size() && line[i] == '"' && at_field_start) {
+    std::string& field = next_field();
+    if (i < line.size() && line[i] == '"') {
       ++i;
       bool closed = false;
       while (i < line.size()) {
-        if (line[i] == '"') {
-          if (i + 1 < line.size() && line[i + 1] == '"') {
-            field.push_back('"');
-            i += 2;
-            continue;
-          }
-          ++i;
-          closed = true;
+        const size_t quote = line.find('"', i);
+        if (quote == absl::string_view::npos) {
+          field.append(line.data() + i, line.size() - i);
+          i = line.size();
           break;
         }
-        field.push_back(line[i++]);
+        field.append(line.data() + i, quote - i);
+        i = quote + 1;
+        if (i < line.size() && line[i] == '"') {
+          field.push_back('"');
+          ++i;
+          continue;
+        }
+        closed = true;
+        break;
       }
       if (!closed) {
-        *error = absl::StrCat("unterminated quote in field ",
-                              fields->size() + 1);
+        *error = absl::StrCat("unterminated quote in field ", n);
+        fields->resize(n);
         return false;
       }
       if (i < line.size() && line[i] != ',') {
-        *error = absl::StrCat("text after the closing quote of field ",
-                              fields->size() + 1);
+        *error = absl::StrCat("text after the closing quote of field ", n);
+        fields->resize(n);
         return false;
       }
     }
-    while (i < line.size() && line[i] != ',') {
-      if (line[i] == '"') {
-        *error = absl::StrCat("stray quote inside unquoted field ",
-                              fields->size() + 1);
-        return false;
-      }
-      field.push_back(line[i++]);
+    size_t end = i;
+    while (end < line.size() && line[end] != ',' && line[end] != '"') ++end;
+    if (end < line.size() && line[end] == '"') {
+      *error = absl::StrCat("stray quote inside unquoted field ", n);
+      fields->resize(n);
+      return false;
     }
+    field.append(line.data() + i, end - i);
+    i = end;
     SanitizeUtf8(&field);
-    fields->push_back(std::move(field));
-    field.clear();
     if (i >= line.size()) break;
     ++i;  // The comma.
-    at_field_start = true;
   }
+  fields->resize(n);
   return true;
 }
 
 absl::Status CsvRecordReader::ReadHeader(absl::string_view line) {
+  static constexpr const char* kNames[kColumns] = {
+      "id",          "formula",         "charge",
+      "declared_states", "geometry",    "spin_state",
+      "measured_moment", "moment_tolerance", "max_alternatives"};
+  std::vector<std::string> columns;
   std::string error;
-  if (!SplitCsvLine(line, &columns_, &error)) {
+  if (!SplitCsvLine(line, &columns, &error)) {
     return absl::InvalidArgumentError(absl::StrCat("CSV header: ", error));
   }
-  for (size_t i = 0; i < columns_.size(); ++i) {
+  std::set<std::string> seen;
+  std::fill(std::begin(column_), std::end(column_), -1);
+  for (size_t i = 0; i < columns.size(); ++i) {
     // Column names match case-insensitively ("Formula" from spreadsheets).
     std::string name =
-        absl::AsciiStrToLower(absl::StripAsciiWhitespace(columns_[i]));
-    if (!index_.emplace(name, i).second) {
+        absl::AsciiStrToLower(absl::StripAsciiWhitespace(columns[i]));
+    if (!seen.insert(name).second) {
       return absl::InvalidArgumentError(
           absl::StrCat("CSV header names column '", name, "' twice"));
     }
-  }
-  for (const char* required : {"id", "formula"}) {
-    if (!index_.count(required)) {
-      return absl::InvalidArgumentError(
-          absl::StrCat("CSV header has no '", required, "' column"));
+    for (int k = 0; k < kColumns; ++k) {
+      if (name == kNames[k]) column_[k] = static_cast<int>(i);
     }
   }
+  for (Column required : {kId, kFormula}) {
+    if (column_[required] < 0) {
+      return absl::InvalidArgumentError(
+          absl::StrCat("CSV header has no '", kNames[required], "' column"));
+    }
+  }
+  header_size_ = columns.size();
   return absl::OkStatus();
 }
 
-ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) const {
+const std::string& CsvRecordReader::Field(Column k) const {
+  static const std::string* const kEmpty = new std::string;
+  const int i = column_[k];
+  return i >= 0 && static_cast<size_t>(i) < fields_.size() ? fields_[i]
+                                                           : *kEmpty;
+}
+
+ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) {
   ParsedLine p;
   p.record.set_row(row);
-  std::vector<std::string> fields;
   std::string error;
   if (line.size() > kMaxLineBytes) {
     p.error = absl::StrCat("line is longer than ", kMaxLineBytes, " bytes");
     return p;
   }
-  if (!SplitCsvLine(line, &fields, &error)) {
+  if (!SplitCsvLine(line, &fields_, &error)) {
     p.error = error;
     p.unterminated_quote = absl::StartsWith(error, "unterminated quote");
     // Recover the id when the damage is later in the line.
     const size_t comma = line.find(',');
-    if (index_.at("id") == 0 && comma != absl::string_view::npos &&
+    if (id_is_first_column() && comma != absl::string_view::npos &&
         line.substr(0, comma).find('"') == absl::string_view::npos) {
       std::string id(line.substr(0, comma));
       SanitizeUtf8(&id);
@@ -243,25 +270,27 @@ ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) const {
     }
     return p;
   }
-  auto get = [&](const char* name) -> std::string {
-    auto it = index_.find(name);
-    if (it == index_.end() || it->second >= fields.size()) return "";
-    return fields[it->second];
-  };
-  if (fields.size() > index_.at("id")) p.record.set_id(get("id"));
-  if (fields.size() > index_.at("formula")) p.record.set_formula(get("formula"));
-  if (fields.size() != columns_.size()) {
-    p.error = absl::StrCat("line has ", fields.size(), " fields, the header ",
-                           columns_.size());
+  p.record.set_id(Field(kId));
+  p.record.set_formula(Field(kFormula));
+  if (fields_.size() != header_size_) {
+    p.error = absl::StrCat("line has ", fields_.size(), " fields, the header ",
+                           header_size_);
     return p;
   }
   // Spaces around a value are CSV padding, not part of the formula.
-  p.record.set_formula(std::string(absl::StripAsciiWhitespace(get("formula"))));
-  p.record.set_declared_states(get("declared_states"));
-  p.record.set_geometry(get("geometry"));
-  p.record.set_spin_state(get("spin_state"));
-  auto parse_int = [&](const char* name, auto setter) {
-    const std::string v(absl::StripAsciiWhitespace(get(name)));
+  const absl::string_view formula =
+      absl::StripAsciiWhitespace(Field(kFormula));
+  if (formula.size() != p.record.formula().size()) {
+    p.record.set_formula(std::string(formula));
+  }
+  // Empty fields stay unset: setting one would allocate a string.
+  if (!Field(kDeclaredStates).empty()) {
+    p.record.set_declared_states(Field(kDeclaredStates));
+  }
+  if (!Field(kGeometry).empty()) p.record.set_geometry(Field(kGeometry));
+  if (!Field(kSpinState).empty()) p.record.set_spin_state(Field(kSpinState));
+  auto parse_int = [&](Column k, const char* name, auto setter) {
+    const absl::string_view v = absl::StripAsciiWhitespace(Field(k));
     if (v.empty()) return true;
     int value = 0;
     if (!absl::SimpleAtoi(v, &value)) {
@@ -272,8 +301,8 @@ ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) const {
     setter(value);
     return true;
   };
-  auto parse_double = [&](const char* name, auto setter) {
-    const std::string v(absl::StripAsciiWhitespace(get(name)));
+  auto parse_double = [&](Column k, const char* name, auto setter) {
+    const absl::string_view v = absl::StripAsciiWhitespace(Field(k));
     if (v.empty()) return true;
     double value = 0;
     if (!absl::SimpleAtod(v, &value) || !std::isfinite(value)) {
@@ -284,12 +313,12 @@ ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) const {
     setter(value);
     return true;
   };
-  if (!parse_int("charge", [&](int v) { p.record.set_charge(v); }) ||
-      !parse_int("max_alternatives",
+  if (!parse_int(kCharge, "charge", [&](int v) { p.record.set_charge(v); }) ||
+      !parse_int(kMaxAlternatives, "max_alternatives",
                  [&](int v) { p.record.set_max_alternatives(v); }) ||
-      !parse_double("measured_moment",
+      !parse_double(kMeasuredMoment, "measured_moment",
                     [&](double v) { p.record.set_measured_moment(v); }) ||
-      !parse_double("moment_tolerance",
+      !parse_double(kMomentTolerance, "moment_tolerance",
                     [&](double v) { p.record.set_moment_tolerance(v); })) {
     return p;
   }

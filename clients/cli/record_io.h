@@ -27,13 +27,15 @@
 //   shellwright::cli::ParsedLine p = reader.ParseLine("s1,Fe3O4,", 2);
 //   // p.record.formula() == "Fe3O4", p.error is empty
 //
-// Thread safety: readers are not thread-safe; the free functions are.
+// Thread safety: readers are not thread-safe (one per thread); the free
+// functions are.
 
 #ifndef SHELLWRIGHT_CLIENTS_CLI_RECORD_IO_H_
 #define SHELLWRIGHT_CLIENTS_CLI_RECORD_IO_H_
 
+#include <algorithm>
 #include <istream>
-#include <map>
+#include <iterator>
 #include <string>
 #include <vector>
 
@@ -94,14 +96,34 @@ bool SplitCsvLine(absl::string_view line, std::vector<std::string>* fields,
 
 class CsvRecordReader {
  public:
+  CsvRecordReader() { std::fill(std::begin(column_), std::end(column_), -1); }
   // INVALID_ARGUMENT when `id` or `formula` is missing or a column repeats.
   absl::Status ReadHeader(absl::string_view line);
-  ParsedLine ParseLine(absl::string_view line, int row) const;
-  bool id_is_first_column() const { return index_.at("id") == 0; }
+  // One record from one line after the header.
+  ParsedLine ParseLine(absl::string_view line, int row);
+  bool id_is_first_column() const { return column_[kId] == 0; }
 
  private:
-  std::vector<std::string> columns_;
-  std::map<std::string, size_t> index_;
+  // The columns the reader understands; column_[k] is the position of
+  // column k in the header, or -1.
+  enum Column {
+    kId,
+    kFormula,
+    kCharge,
+    kDeclaredStates,
+    kGeometry,
+    kSpinState,
+    kMeasuredMoment,
+    kMomentTolerance,
+    kMaxAlternatives,
+    kColumns
+  };
+  // The field of column k in the last split line, or "" when absent.
+  const std::string& Field(Column k) const;
+
+  size_t header_size_ = 0;
+  int column_[kColumns];
+  std::vector<std::string> fields_;  // Reused for every line.
 };
 
 ParsedLine ParseJsonLine(absl::string_view line, int row);
