@@ -30,9 +30,54 @@ struct Item {
   std::string error;  // Non-empty: malformed line, answered locally.
 };
 
+// One input line of a batch: Batch::lines[offset, offset + size).
+struct LineRef {
+  size_t offset;
+  size_t size;
+  int row;
+  bool too_long;  // Cut at kMaxLineBytes.
+};
+
+// Turns input lines into records. The reader thread only splits lines;
+// parsing happens on the threads that use the records, so that it runs in
+// parallel and records are freed on the thread that made them.
+class LineParser {
+ public:
+  LineParser(RecordFormat format, const CsvRecordReader& csv,
+             int default_alternatives)
+      : format_(format), csv_(csv), default_alternatives_(default_alternatives) {}
+
+  Item Parse(absl::string_view line, int row, bool too_long) {
+    ParsedLine p;
+    if (too_long) {
+      p = TooLongLine(line, row,
+                      format_ == RecordFormat::kCsv && csv_.id_is_first_column());
+    } else if (format_ == RecordFormat::kJsonl) {
+      p = ParseJsonLine(line, row);
+    } else {
+      // One record per physical line, as the output promises one report
+      // per input line: a quoted field cannot span lines, so a broken
+      // quote costs exactly one record, never the ones after it.
+      p = csv_.ParseLine(line, row);
+    }
+    Item item{std::move(p.record), std::move(p.error)};
+    if (!item.record.has_max_alternatives()) {
+      item.record.set_max_alternatives(default_alternatives_);
+    }
+    return item;
+  }
+
+ private:
+  const RecordFormat format_;
+  CsvRecordReader csv_;  // A copy per thread: it keeps scratch buffers.
+  const int default_alternatives_;
+};
+
 struct Batch {
   int64_t seq = 0;
-  std::vector<Item> items;
+  std::string lines;  // The batch's input lines, back to back.
+  std::vector<LineRef> refs;
+  std::vector<Item> items;  // Remote mode: the parsed lines.
   v1::ReportBatch reply;  // Remote mode: the server's answer.
   std::string text;  // Formatted output lines.
   CheckSummary summary;
@@ -181,10 +226,11 @@ void Emit(RecordFormat output, const CompositionReport& r,
         [](const Diagnostic& d) -> const std::string& { return d.code; }, b);
 }
 
-// Drops a formatted batch's records and replies.
+// Drops a formatted batch's input, records and replies.
 void Release(Batch* b) {
-  b->items.clear();
-  b->items.shrink_to_fit();
+  std::string().swap(b->lines);
+  std::vector<LineRef>().swap(b->refs);
+  std::vector<Item>().swap(b->items);
   b->reply.Clear();
 }
 
@@ -312,45 +358,30 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
       batch.seq = seq++;
       if (!input_queue.Push(std::move(batch))) return false;
       batch = Batch();
-      batch.items.reserve(batch_size);
+      batch.refs.reserve(batch_size);
       return true;
     };
-    batch.items.reserve(batch_size);
+    batch.refs.reserve(batch_size);
     while (!failed && source.Next(&line, &row, &too_long)) {
       bytes_read = source.bytes_read();
       if (line.empty()) continue;
-      ParsedLine p;
-      if (too_long) {
-        p = TooLongLine(line, row,
-                        in_format == RecordFormat::kCsv &&
-                            csv.id_is_first_column());
-      } else if (in_format == RecordFormat::kJsonl) {
-        p = ParseJsonLine(line, row);
-      } else {
-        // One record per physical line, as the output promises one
-        // report per input line: a quoted field cannot span lines, so a
-        // broken quote costs exactly one record, never the ones after it.
-        p = csv.ParseLine(line, row);
-      }
-      Item item;
-      item.record = std::move(p.record);
-      if (!item.record.has_max_alternatives()) {
-        item.record.set_max_alternatives(options.default_alternatives);
-      }
-      item.error = std::move(p.error);
-      batch.items.push_back(std::move(item));
-      if (static_cast<int>(batch.items.size()) == batch_size && !flush()) {
+      batch.refs.push_back(LineRef{batch.lines.size(), line.size(), row,
+                                   too_long});
+      batch.lines += line;
+      if (static_cast<int>(batch.refs.size()) == batch_size && !flush()) {
         break;
       }
     }
     if (source.bad()) fail(absl::DataLossError("error reading the input"));
-    if (!batch.items.empty() && !failed) flush();
+    if (!batch.refs.empty() && !failed) flush();
     batches_total = seq;
     total_known = true;
     input_queue.Close();
     sink.Wake();
   });
-
+  auto line_of = [](const Batch& b, const LineRef& ref) {
+    return absl::string_view(b.lines).substr(ref.offset, ref.size);
+  };
   std::vector<std::thread> workers;
   std::thread receiver;
   std::unique_ptr<Backend::RecordStream> stream;
@@ -358,11 +389,14 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
   if (remote == nullptr) {
     for (int j = 0; j < jobs; ++j) {
       workers.emplace_back([&] {
+        LineParser parser(in_format, csv, options.default_alternatives);
         // Reports go straight from the engine to text: building a
         // message per record would cost as much as analysing it.
         while (std::optional<Batch> b = input_queue.Pop()) {
-          b->text.reserve(b->items.size() * 2048);
-          for (Item& item : b->items) {
+          b->text.reserve(b->refs.size() * 2048);
+          for (const LineRef& ref : b->refs) {
+            const Item item =
+                parser.Parse(line_of(*b, ref), ref.row, ref.too_long);
             if (item.error.empty()) {
               Emit(out_format,
                    AnalyzeComposition(CompositionInputFromProto(item.record)),
@@ -385,10 +419,16 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
     } else {
       // Sender: ship each batch's well-formed records as one RecordBatch.
       workers.emplace_back([&] {
+        LineParser parser(in_format, csv, options.default_alternatives);
         while (std::optional<Batch> b = input_queue.Pop()) {
           v1::RecordBatch request;
-          for (Item& item : b->items) {
-            if (item.error.empty()) *request.add_records() = item.record;
+          b->items.reserve(b->refs.size());
+          for (const LineRef& ref : b->refs) {
+            b->items.push_back(
+                parser.Parse(line_of(*b, ref), ref.row, ref.too_long));
+            if (b->items.back().error.empty()) {
+              *request.add_records() = b->items.back().record;
+            }
           }
           if (request.records_size() > 0 && !stream->Write(request)) {
             fail(absl::UnavailableError("the server closed the stream"));

@@ -166,15 +166,20 @@ void AppendDoubleUncached(double v, std::string* out) {
     out->append(buf, r.ptr - buf);
     return;
   }
-  if (n > 15) {
-    // No 15-digit form round-trips, so %.15g would not: %.17g it is.
+  if (n == 16) {
+    // No 15-digit form round-trips, so %.15g would not: %.17g it is, and
+    // its 17th digit needs the exact formatter.
     const auto r = std::to_chars(buf, buf + sizeof(buf), v,
                                  std::chars_format::general, 17);
     out->append(buf, r.ptr - buf);
     return;
   }
+  // With 17 shortest digits, they are the correctly rounded 17 digits
+  // (those always round-trip, and the shortest form picks the candidate
+  // closest to v), which is what %.17g prints.
+  const int precision = n > 15 ? 17 : 15;
   if (negative) out->push_back('-');
-  if (exponent >= -4 && exponent < 15) {
+  if (exponent >= -4 && exponent < precision) {
     if (exponent >= 0) {
       for (int i = 0; i <= exponent; ++i) {
         out->push_back(i < n ? digits[i] : '0');

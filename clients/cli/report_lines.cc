@@ -124,9 +124,53 @@ void ProtoStateJson(const v1::OxidationState& s, std::string* out) {
             s.declared(), out);
 }
 
+// "7/20" or "2", as Rational::ToString writes it, without a temporary.
+void AppendExact(const Rational& r, std::string* out) {
+  out->push_back('"');
+  absl::StrAppend(out, r.num());
+  if (r.den() != 1) absl::StrAppend(out, "/", r.den());
+  out->push_back('"');
+}
+
+// An engine state's JSON: the text around its count and exact count
+// depends only on the element, state and flags, so each thread keeps it,
+// cut from StateJson's own output.
 void EngineStateJson(const AssignedState& s, std::string* out) {
-  StateJson(s.element->symbol, s.state, s.count.ToDouble(),
-            s.count.ToString(), s.common, s.declared, out);
+  struct Entry {
+    const Element* element = nullptr;
+    int state = 0;
+    bool common = false, declared = false;
+    std::string head;    // Through "count":
+    std::string middle;  // ,"count_exact":
+    std::string tail;    // From ,"common":
+  };
+  thread_local std::array<Entry, 256> cache;
+  Entry& e = cache[(static_cast<unsigned>(s.element->atomic_number) * 31u +
+                    static_cast<unsigned>(s.state + 16) * 4u +
+                    (s.common ? 2u : 0u) + (s.declared ? 1u : 0u)) %
+                   cache.size()];
+  if (e.element != s.element || e.state != s.state || e.common != s.common ||
+      e.declared != s.declared) {
+    std::string text;
+    StateJson(s.element->symbol, s.state, 0, "", s.common, s.declared,
+              &text);
+    constexpr char kCount[] = ",\"count\":0";
+    constexpr char kExact[] = ",\"count_exact\":\"\"";
+    const size_t count_at = text.find(kCount);
+    const size_t exact_at = text.find(kExact, count_at);
+    e.element = s.element;
+    e.state = s.state;
+    e.common = s.common;
+    e.declared = s.declared;
+    e.head = text.substr(0, count_at + sizeof(kCount) - 2);
+    e.middle = text.substr(exact_at, sizeof(kExact) - 3);
+    e.tail = text.substr(exact_at + sizeof(kExact) - 1);
+  }
+  out->append(e.head);
+  AppendJsonDouble(s.count.ToDouble(), out);
+  out->append(e.middle);
+  AppendExact(s.count, out);
+  out->append(e.tail);
 }
 
 // `states` writes the members of the oxidation_states array.
@@ -292,6 +336,12 @@ void CsvState(absl::string_view element, int state, absl::string_view exact,
   absl::StrAppend(list, element, ":", state, "x", exact);
 }
 
+void CsvState(const AssignedState& s, std::string* list) {
+  if (!list->empty()) list->push_back(' ');
+  absl::StrAppend(list, s.element->symbol, ":", s.state, "x", s.count.num());
+  if (s.count.den() != 1) absl::StrAppend(list, "/", s.count.den());
+}
+
 void CsvCode(absl::string_view code, std::string* list) {
   if (!list->empty()) list->push_back(';');
   list->append(code.data(), code.size());
@@ -374,7 +424,7 @@ void AppendReportLine(ReportLineFormat format, const CompositionReport& r,
         [&](std::string* list) {
           if (!assigned) return;
           for (const AssignedState& s : r.assignment->states) {
-            CsvState(s.element->symbol, s.state, s.count.ToString(), list);
+            CsvState(s, list);
           }
         },
         [&](std::string* list) {
