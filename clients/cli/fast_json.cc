@@ -91,25 +91,27 @@ void AppendEscaped(absl::string_view s, std::string* out) {
   out->push_back('"');
 }
 
-// Shortest of %.15g / %.17g that round-trips, as the protobuf printer does.
+// Shortest of %.15g / %.17g that round-trips, as the protobuf printer does,
+// written to `buf` (at least kDoubleTextMax bytes); returns the length.
 // std::to_chars with a precision formats exactly as printf would, much
 // faster.
-void AppendDoubleUncached(double v, std::string* out) {
-  if (std::isnan(v)) {
-    out->append("\"NaN\"");
-    return;
-  }
-  if (std::isinf(v)) {
-    out->append(v > 0 ? "\"Infinity\"" : "\"-Infinity\"");
-    return;
-  }
-  char buf[40];
+constexpr int kDoubleTextMax = 40;
+
+int FormatDouble(double v, char* buf) {
+  char* const end = buf + kDoubleTextMax;
+  auto copy = [buf](absl::string_view text) {
+    std::memcpy(buf, text.data(), text.size());
+    return static_cast<int>(text.size());
+  };
+  if (std::isnan(v)) return copy("\"NaN\"");
+  if (std::isinf(v)) return copy(v > 0 ? "\"Infinity\"" : "\"-Infinity\"");
   // Whole numbers (counts, states, zero moments) are most of a report's
   // doubles: %.15g prints them as plain integers below 10^15.
-  if (v == std::trunc(v) && std::fabs(v) < 1e15 && !(v == 0 && std::signbit(v))) {
-    auto r = std::to_chars(buf, buf + sizeof(buf), static_cast<int64_t>(v));
-    out->append(buf, r.ptr - buf);
-    return;
+  if (std::fabs(v) < 1e15) {
+    const int64_t whole = static_cast<int64_t>(v);
+    if (static_cast<double>(whole) == v && !(v == 0 && std::signbit(v))) {
+      return static_cast<int>(std::to_chars(buf, end, whole).ptr - buf);
+    }
   }
   // Short decimals (counts such as 0.69 or 0.125). When v is the double
   // nearest m / 10^k, those digits round-trip, no other k-place decimal
@@ -121,121 +123,117 @@ void AppendDoubleUncached(double v, std::string* out) {
     static constexpr int64_t kIntPower[] = {1,      10,      100,    1000,
                                             10000, 100000, 1000000};
     for (int k = 1; k <= 6; ++k) {
-      const double m = std::nearbyint(magnitude * kPower[k]);
-      if (m / kPower[k] != magnitude) continue;
-      const int64_t digits = static_cast<int64_t>(m);
-      if (v < 0) out->push_back('-');
-      auto r = std::to_chars(buf, buf + sizeof(buf), digits / kIntPower[k]);
-      out->append(buf, r.ptr - buf);
-      out->push_back('.');
-      r = std::to_chars(buf, buf + sizeof(buf),
-                        kIntPower[k] + digits % kIntPower[k]);
-      out->append(buf + 1, r.ptr - buf - 1);  // Drop the leading 1.
-      return;
+      // The nearest integer, without a libm call; a wrong neighbour only
+      // fails the test below.
+      const int64_t digits =
+          static_cast<int64_t>(magnitude * kPower[k] + 0.5);
+      if (static_cast<double>(digits) / kPower[k] != magnitude) continue;
+      char* p = buf;
+      if (v < 0) *p++ = '-';
+      p = std::to_chars(p, end, digits / kIntPower[k]).ptr;
+      // The fraction's k digits with leading zeros: 10^k + fraction,
+      // written over the '.', whose leading 1 becomes the point.
+      char* const point = p;
+      p = std::to_chars(p, end, kIntPower[k] + digits % kIntPower[k]).ptr;
+      *point = '.';
+      return static_cast<int>(p - buf);
     }
   }
   // Shortest round-trip digits first (fast). When they number 15 or fewer,
   // %.15g round-trips and prints exactly those digits, so render them in
   // %g layout here; otherwise %.17g is what the protobuf printer uses.
-  char sci[40];
+  char sci[kDoubleTextMax];
   const auto sr = std::to_chars(sci, sci + sizeof(sci), v,
                                 std::chars_format::scientific);
-  const char* p = sci;
-  const bool negative = *p == '-';
-  if (negative) ++p;
+  const char* q = sci;
+  const bool negative = *q == '-';
+  if (negative) ++q;
   char digits[24];
   int n = 0;
-  while (p < sr.ptr && *p != 'e') {
-    if (*p != '.') digits[n++] = *p;
-    ++p;
+  while (q < sr.ptr && *q != 'e') {
+    if (*q != '.') digits[n++] = *q;
+    ++q;
   }
   int exponent = 0;
-  std::from_chars(p + 1 + (p[1] == '+' ? 1 : 0), sr.ptr, exponent);
+  std::from_chars(q + 1 + (q[1] == '+' ? 1 : 0), sr.ptr, exponent);
   while (n > 1 && digits[n - 1] == '0') --n;
   // Subnormals carry too few bits for the digit argument above; leave them
-  // (and anything needing 16-17 digits) to the exact formatter.
+  // to the exact formatter.
   if (std::fabs(v) < std::numeric_limits<double>::min()) {
-    auto r = std::to_chars(buf, buf + sizeof(buf), v,
-                           std::chars_format::general, 15);
+    auto r = std::to_chars(buf, end, v, std::chars_format::general, 15);
     double back = 0;
     std::from_chars(buf, r.ptr, back);
-    if (back != v) {
-      r = std::to_chars(buf, buf + sizeof(buf), v, std::chars_format::general,
-                        17);
-    }
-    out->append(buf, r.ptr - buf);
-    return;
+    if (back != v) r = std::to_chars(buf, end, v, std::chars_format::general, 17);
+    return static_cast<int>(r.ptr - buf);
   }
   if (n == 16) {
     // No 15-digit form round-trips, so %.15g would not: %.17g it is, and
     // its 17th digit needs the exact formatter.
-    const auto r = std::to_chars(buf, buf + sizeof(buf), v,
-                                 std::chars_format::general, 17);
-    out->append(buf, r.ptr - buf);
-    return;
+    return static_cast<int>(
+        std::to_chars(buf, end, v, std::chars_format::general, 17).ptr - buf);
   }
   // With 17 shortest digits, they are the correctly rounded 17 digits
   // (those always round-trip, and the shortest form picks the candidate
   // closest to v), which is what %.17g prints.
   const int precision = n > 15 ? 17 : 15;
-  if (negative) out->push_back('-');
+  char* p = buf;
+  if (negative) *p++ = '-';
   if (exponent >= -4 && exponent < precision) {
     if (exponent >= 0) {
-      for (int i = 0; i <= exponent; ++i) {
-        out->push_back(i < n ? digits[i] : '0');
-      }
+      for (int i = 0; i <= exponent; ++i) *p++ = i < n ? digits[i] : '0';
       if (n > exponent + 1) {
-        out->push_back('.');
-        out->append(digits + exponent + 1, n - exponent - 1);
+        *p++ = '.';
+        std::memcpy(p, digits + exponent + 1, n - exponent - 1);
+        p += n - exponent - 1;
       }
     } else {
-      out->append("0.");
-      out->append(static_cast<size_t>(-exponent - 1), '0');
-      out->append(digits, n);
+      *p++ = '0';
+      *p++ = '.';
+      for (int i = 0; i < -exponent - 1; ++i) *p++ = '0';
+      std::memcpy(p, digits, n);
+      p += n;
     }
-    return;
+    return static_cast<int>(p - buf);
   }
-  out->push_back(digits[0]);
+  *p++ = digits[0];
   if (n > 1) {
-    out->push_back('.');
-    out->append(digits + 1, n - 1);
+    *p++ = '.';
+    std::memcpy(p, digits + 1, n - 1);
+    p += n - 1;
   }
-  out->push_back('e');
-  out->push_back(exponent < 0 ? '-' : '+');
+  *p++ = 'e';
+  *p++ = exponent < 0 ? '-' : '+';
   const int exponent_magnitude = exponent < 0 ? -exponent : exponent;
-  if (exponent_magnitude < 10) out->push_back('0');
-  absl::StrAppend(out, exponent_magnitude);
+  if (exponent_magnitude < 10) *p++ = '0';
+  p = std::to_chars(p, end, exponent_magnitude).ptr;
+  return static_cast<int>(p - buf);
 }
 
-// AppendDoubleUncached behind a small per-thread cache keyed by the
-// value's bits. A report's moments come from a few dozen values
-// (sqrt(n(n+2)), the J moments), and most need the slower 17-digit form.
+// FormatDouble behind a small per-thread cache keyed by the value's bits.
+// A report's moments come from a few dozen values (sqrt(n(n+2)), the J
+// moments), and most need the slower 17-digit form.
 void AppendDouble(double v, std::string* out) {
-  if (v == std::trunc(v)) {  // Whole numbers and infinities: cheap already.
-    AppendDoubleUncached(v, out);
-    return;
-  }
   struct Entry {
     uint64_t bits = 0;  // 0 is +0.0, which never reaches the cache.
-    uint8_t size = 0;
-    char text[31];
+    int size = 0;
+    char text[kDoubleTextMax];
   };
+  // Whole numbers are cheap already (and many, and would flood the cache).
+  if (std::fabs(v) < 1e15 &&
+      static_cast<double>(static_cast<int64_t>(v)) == v) {
+    char buf[kDoubleTextMax];
+    out->append(buf, FormatDouble(v, buf));
+    return;
+  }
   thread_local std::array<Entry, 512> cache;
   uint64_t bits;
   std::memcpy(&bits, &v, sizeof(bits));
   Entry& e = cache[(bits * 0x9E3779B97F4A7C15ull) >> 55];
-  if (e.bits == bits) {
-    out->append(e.text, e.size);
-    return;
-  }
-  const size_t start = out->size();
-  AppendDoubleUncached(v, out);
-  const size_t size = out->size() - start;
-  if (size <= sizeof(e.text)) {
+  if (e.bits != bits) {
+    e.size = FormatDouble(v, e.text);
     e.bits = bits;
-    e.size = static_cast<uint8_t>(size);
-    std::memcpy(e.text, out->data() + start, size);
   }
+  out->append(e.text, e.size);
 }
 
 void AppendFloat(float v, std::string* out) {
