@@ -1,7 +1,7 @@
 #include "engine/composition.h"
 
+#include <array>
 #include <cmath>
-#include <map>
 
 #include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
@@ -44,6 +44,7 @@ bool ParseElementList(absl::string_view text, absl::string_view what,
                       ParseValue value,
                       std::vector<std::pair<const Element*, T>>* out,
                       std::string* error) {
+  if (text.empty()) return true;  // The usual case: nothing set.
   for (absl::string_view item : absl::StrSplit(text, ',')) {
     item = absl::StripAsciiWhitespace(item);
     if (item.empty()) continue;
@@ -109,6 +110,7 @@ void Annotate(const std::vector<std::pair<const Element*, Geometry>>& geometry,
               const std::vector<std::pair<const Element*, SpinStatePreference>>&
                   spin,
               CompositionReport* r) {
+  r->ions.reserve(r->assignment->states.size());
   for (const AssignedState& s : r->assignment->states) {
     const Geometry* g_set = FindSetting(geometry, s.element);
     const SpinStatePreference* s_set = FindSetting(spin, s.element);
@@ -156,6 +158,24 @@ void Annotate(const std::vector<std::pair<const Element*, Geometry>>& geometry,
   }
 }
 
+// Valence electrons of each neutral atom by atomic number (-1 where there
+// is no description), read once from the description tables: the VEC needs
+// only this number, not a description per element per record.
+const std::array<int, kMaxAtomicNumber + 1>& NeutralValenceElectrons() {
+  static const std::array<int, kMaxAtomicNumber + 1>* const kTable = [] {
+    auto* t = new std::array<int, kMaxAtomicNumber + 1>;
+    t->fill(-1);
+    for (const Element& e : AllElements()) {
+      AtomQuery q;
+      q.element = &e;
+      absl::StatusOr<AtomDescriptionPtr> d = DescribeAtom(q);
+      if (d.ok()) (*t)[e.atomic_number] = (*d)->valence_electrons;
+    }
+    return t;
+  }();
+  return *kTable;
+}
+
 void Summarise(const Formula& formula, CompositionReport* r) {
   // Exact: 0.7 x 4 + 0.3 x 3 is 3.7, not 3.6999999999999997.
   Rational unpaired(0);
@@ -175,14 +195,14 @@ void Summarise(const Formula& formula, CompositionReport* r) {
   // Valence electron concentration: composition-weighted mean of the
   // neutral atoms' valence electrons (Guo et al., J. Appl. Phys. 109,
   // 103505 (2011), from memory).
+  const std::array<int, kMaxAtomicNumber + 1>& valence =
+      NeutralValenceElectrons();
   double atoms = 0, electrons = 0;
   for (const ElementAmount& a : formula.amounts) {
-    AtomQuery q;
-    q.element = a.element;
-    absl::StatusOr<AtomDescriptionPtr> d = DescribeAtom(q);
-    if (!d.ok()) continue;
+    const int v = valence[a.element->atomic_number];
+    if (v < 0) continue;
     atoms += a.count.ToDouble();
-    electrons += a.count.ToDouble() * (*d)->valence_electrons;
+    electrons += a.count.ToDouble() * v;
   }
   r->valence_electron_concentration = atoms > 0 ? electrons / atoms : 0;
 }
@@ -337,8 +357,8 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
       return finish();
     }
   }
-  r.assignment = solved->best;
-  r.alternatives = solved->alternatives;
+  r.assignment = std::move(solved->best);
+  r.alternatives = std::move(solved->alternatives);
   if (r.kind == CompositionKind::kMetallic) {
     Add(&r, Severity::kInfo, "metallic_composition",
         "all elements are metals: reported as metallic, every state 0");
@@ -346,9 +366,14 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     Add(&r, Severity::kInfo, "elemental_composition",
         "a single element: reported as elemental, state 0");
   }
-  std::map<const Element*, int> states_per_element;
-  for (const AssignedState& s : r.assignment->states) {
-    if (++states_per_element[s.element] == 2) {
+  const std::vector<AssignedState>& states = r.assignment->states;
+  for (size_t i = 0; i < states.size(); ++i) {
+    const AssignedState& s = states[i];
+    // An element's second state makes it mixed valence (a third does not
+    // say so again).
+    int earlier = 0;
+    for (size_t j = 0; j < i; ++j) earlier += states[j].element == s.element;
+    if (earlier == 1) {
       Add(&r, Severity::kInfo, "mixed_valence",
           absl::StrCat(s.element->symbol, " is mixed valence"));
     }

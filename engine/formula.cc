@@ -3,6 +3,7 @@
 #include <array>
 #include <utility>
 
+#include "absl/container/inlined_vector.h"
 #include "absl/strings/str_cat.h"
 #include "engine/internal/text.h"
 
@@ -15,7 +16,9 @@ using internal::QuoteForMessage;
 // exact arithmetic downstream can never overflow.
 constexpr int64_t kMaxExactMagnitude = 1000000000000;  // 1e12
 
-using Items = std::vector<std::pair<const Element*, Rational>>;
+// Inline storage: typical formulas and groups hold a handful of items, and
+// parsing should not allocate for them.
+using Items = absl::InlinedVector<std::pair<const Element*, Rational>, 8>;
 
 bool CheckedMultiply(const Rational& a, const Rational& b, Rational* out) {
   // Fast paths: most counts are multiplied by 1 or are small integers.
@@ -76,6 +79,7 @@ class FormulaParser {
         }
         return Failed(error);
       }
+      formula.amounts.reserve(formula.amounts.size() + items.size());
       for (auto& [element, count] : items) {
         Rational total;
         if (!CheckedMultiply(count, multiplier, &total)) {
