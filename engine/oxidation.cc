@@ -31,14 +31,39 @@ constexpr int64_t kInconsistencyWeight = int64_t{1} << 48;
 constexpr int64_t kGroupGapWeight = int64_t{1} << 24;
 constexpr int64_t kInfinity = int64_t{1} << 62;
 
+// How far a positive state of a main-group (p-block) element falls below
+// its group oxidation state (group - 10): P+3 in a phosphate scores 2, P+5
+// scores 0. Oxyanions put their central atom in the group state (common
+// practice, no source), which settles ties such as LiMnPO4 (Mn+2 P+5, not
+// Mn+4 P+3).
+int GroupGap(const Element& e, int state) {
+  if (e.block != Block::kP || e.group < 13 || state <= 0) return 0;
+  const int group_state = e.group - 10;
+  return state < group_state ? group_state - state : 0;
+}
+
 // One way an element can take its charge: a single state, or mixed
-// valence over two adjacent known states (low < high).
+// valence over two adjacent known states (low < high), with what its
+// weight needs that does not depend on the formula.
 struct Option {
   int low = 0;   // Lower state (== high for single valence).
   int high = 0;  // Upper state.
   bool low_common = true;
   bool high_common = true;
+  int index = 0;       // Position in the element's options().
+  int uncommon = 0;    // Uncommon states among low and high.
+  int high_gap = 0;    // GroupGap of the upper state.
+  int low_extra_gap = 0;  // GroupGap(low) - GroupGap(high).
 };
+
+Option MakeOption(const Element& e, int index, int low, int high,
+                  bool low_common, bool high_common) {
+  Option o{low, high, low_common, high_common, index};
+  o.uncommon = (low_common ? 0 : 1) + (low != high && !high_common ? 1 : 0);
+  o.high_gap = GroupGap(e, high);
+  o.low_extra_gap = GroupGap(e, low) - o.high_gap;
+  return o;
+}
 
 struct StateTable {
   std::array<std::vector<KnownOxidationState>, kMaxAtomicNumber + 1> by_z;
@@ -48,6 +73,9 @@ struct StateTable {
   // balance and hide real charge errors. A search stage filters this list
   // (see Allowed) instead of building its own.
   std::array<std::vector<Option>, kMaxAtomicNumber + 1> options_by_z;
+  // The options whose states are all common, in the same order: what the
+  // first, narrow stage filters.
+  std::array<std::vector<Option>, kMaxAtomicNumber + 1> common_options_by_z;
 };
 
 const StateTable& States() {
@@ -57,16 +85,23 @@ const StateTable& States() {
          internal::OxidationStateRows()) {
       t->by_z[row.atomic_number].push_back({row.state, row.common});
     }
-    for (int z = 0; z <= kMaxAtomicNumber; ++z) {
-      const std::vector<KnownOxidationState>& known = t->by_z[z];
-      std::vector<Option>& options = t->options_by_z[z];
+    for (const Element& e : AllElements()) {
+      const std::vector<KnownOxidationState>& known = t->by_z[e.atomic_number];
+      std::vector<Option>& options = t->options_by_z[e.atomic_number];
+      auto add = [&](const KnownOxidationState& low,
+                     const KnownOxidationState& high) {
+        options.push_back(MakeOption(e, static_cast<int>(options.size()),
+                                     low.state, high.state, low.common,
+                                     high.common));
+        if (low.common && high.common) {
+          t->common_options_by_z[e.atomic_number].push_back(options.back());
+        }
+      };
       for (size_t k = 0; k < known.size(); ++k) {
-        options.push_back(
-            {known[k].state, known[k].state, known[k].common, known[k].common});
+        add(known[k], known[k]);
         if (k + 1 < known.size() &&
             (known[k].state > 0) == (known[k + 1].state > 0)) {
-          options.push_back({known[k].state, known[k + 1].state,
-                             known[k].common, known[k + 1].common});
+          add(known[k], known[k + 1]);
         }
       }
     }
@@ -87,6 +122,12 @@ struct ElementPlan {
   absl::Span<const Option> options() const {
     if (declared) return declared_options;
     return States().options_by_z[element->atomic_number];
+  }
+  // The options whose states are all common, with their index in
+  // options(); all of them for a declared element.
+  absl::Span<const Option> common_options() const {
+    if (declared) return declared_options;
+    return States().common_options_by_z[element->atomic_number];
   }
 };
 
@@ -121,27 +162,14 @@ bool AboveThreshold(const Element& e, double threshold) {
          *e.pauling_electronegativity > threshold;
 }
 
-// How far a positive state of a main-group (p-block) element falls below
-// its group oxidation state (group - 10): P+3 in a phosphate scores 2, P+5
-// scores 0. Oxyanions put their central atom in the group state (common
-// practice, no source), which settles ties such as LiMnPO4 (Mn+2 P+5, not
-// Mn+4 P+3).
-int GroupGap(const Element& e, int state) {
-  if (e.block != Block::kP || e.group < 13 || state <= 0) return 0;
-  const int group_state = e.group - 10;
-  return state < group_state ? group_state - state : 0;
-}
-
-int64_t OptionWeight(const Element& e, const Option& o, int64_t scaled_count,
+int64_t OptionWeight(const Option& o, int64_t scaled_count,
                      bool above_threshold) {
-  const bool mixed = o.low != o.high;
-  int uncommon = (o.low_common ? 0 : 1) + (mixed && !o.high_common ? 1 : 0);
-  bool inconsistent = above_threshold ? (o.high > 0) : (o.low < 0);
-  const int64_t spread = mixed ? scaled_count * (o.high - o.low) : 0;
+  const bool inconsistent = above_threshold ? (o.high > 0) : (o.low < 0);
+  const int64_t spread = scaled_count * (o.high - o.low);  // 0 if single.
   // A mixed option's gap depends on the split: this is the gap with every
   // atom in the upper state, and Candidate::per_low_atom adds the rest.
-  const int64_t gap = scaled_count * GroupGap(e, o.high);
-  return uncommon * kUncommonWeight +
+  const int64_t gap = scaled_count * o.high_gap;
+  return o.uncommon * kUncommonWeight +
          (inconsistent ? kInconsistencyWeight : 0) + gap * kGroupGapWeight +
          spread;
 }
@@ -164,7 +192,9 @@ Plans MakePlans(const Formula& formula, int64_t scale,
            States().by_z[p.element->atomic_number]) {
         if (k.state == d.state) common = k.common;
       }
-      p.declared_options.push_back({d.state, d.state, common, common});
+      p.declared_options.push_back(
+          MakeOption(*p.element, static_cast<int>(p.declared_options.size()),
+                     d.state, d.state, common, common));
     }
   }
   return plans;
@@ -239,35 +269,32 @@ struct Candidates {
   std::array<CandidateList, kMaxDistinctElements> wide;
 };
 
+// Fills the narrow (`common_only`) or wide candidate lists of every
+// element, appending to candidates->all.
 void BuildCandidates(const Plans& plans, const Forbidden& forbidden,
-                     double threshold, Candidates* out) {
-  out->all.clear();
+                     double threshold, bool common_only,
+                     Candidates* candidates) {
   for (size_t i = 0; i < plans.size(); ++i) {
     const ElementPlan& p = plans[i];
-    const absl::Span<const Option> options = p.options();
     const bool above = AboveThreshold(*p.element, threshold);
-    for (const bool common_only : {true, false}) {
-      CandidateList& list = common_only ? out->narrow[i] : out->wide[i];
-      list.begin = out->all.size();
-      list.min_contribution = std::numeric_limits<int64_t>::max();
-      list.max_contribution = std::numeric_limits<int64_t>::min();
-      for (size_t oi = 0; oi < options.size(); ++oi) {
-        const Option& o = options[oi];
-        if (!Allowed(p, static_cast<int>(i), common_only, forbidden, o)) {
-          continue;
-        }
-        out->all.push_back(
-            {static_cast<int>(oi), o.low, o.high,
-             OptionWeight(*p.element, o, p.scaled_count, above),
-             (GroupGap(*p.element, o.low) - GroupGap(*p.element, o.high)) *
-                 kGroupGapWeight});
-        list.min_contribution =
-            std::min(list.min_contribution, p.scaled_count * o.low);
-        list.max_contribution =
-            std::max(list.max_contribution, p.scaled_count * o.high);
+    CandidateList& list =
+        common_only ? candidates->narrow[i] : candidates->wide[i];
+    list.begin = candidates->all.size();
+    list.min_contribution = std::numeric_limits<int64_t>::max();
+    list.max_contribution = std::numeric_limits<int64_t>::min();
+    for (const Option& o : common_only ? p.common_options() : p.options()) {
+      if (!Allowed(p, static_cast<int>(i), common_only, forbidden, o)) {
+        continue;
       }
-      list.end = out->all.size();
+      candidates->all.push_back(
+          {o.index, o.low, o.high, OptionWeight(o, p.scaled_count, above),
+           o.low_extra_gap * kGroupGapWeight});
+      list.min_contribution =
+          std::min(list.min_contribution, p.scaled_count * o.low);
+      list.max_contribution =
+          std::max(list.max_contribution, p.scaled_count * o.high);
     }
+    list.end = candidates->all.size();
   }
 }
 
@@ -487,9 +514,13 @@ OxidationAssignment ToAssignment(const Plans& plans, const Solution& s,
 Solution SolveStaged(const Plans& plans, int64_t target,
                      const Forbidden& forbidden, double threshold) {
   thread_local Candidates candidates;
-  BuildCandidates(plans, forbidden, threshold, &candidates);
+  candidates.all.clear();
+  BuildCandidates(plans, forbidden, threshold, /*common_only=*/true,
+                  &candidates);
   Solution best = Solve(plans, candidates, -1, target);
   if (best.weight < kInfinity) return best;
+  BuildCandidates(plans, forbidden, threshold, /*common_only=*/false,
+                  &candidates);
   for (size_t k = 0; k < plans.size(); ++k) {
     Solution s = Solve(plans, candidates, static_cast<int>(k), target);
     if (s.weight < best.weight) best = std::move(s);
