@@ -258,6 +258,10 @@ struct CandidateList {
   size_t end = 0;
   int64_t min_contribution = 0;
   int64_t max_contribution = 0;
+  // Least weight any candidate adds, and least of those with an uncommon
+  // state that the narrow list lacks (kInfinity when there is none).
+  int64_t min_weight = kInfinity;
+  int64_t min_uncommon_weight = kInfinity;
 };
 
 // Every element's candidates for one threshold and forbidden option, kept
@@ -282,13 +286,22 @@ void BuildCandidates(const Plans& plans, const Forbidden& forbidden,
     list.begin = candidates->all.size();
     list.min_contribution = std::numeric_limits<int64_t>::max();
     list.max_contribution = std::numeric_limits<int64_t>::min();
+    list.min_weight = list.min_uncommon_weight = kInfinity;
     for (const Option& o : common_only ? p.common_options() : p.options()) {
       if (!Allowed(p, static_cast<int>(i), common_only, forbidden, o)) {
         continue;
       }
-      candidates->all.push_back(
-          {o.index, o.low, o.high, OptionWeight(o, p.scaled_count, above),
-           o.low_extra_gap * kGroupGapWeight});
+      const Candidate& added = candidates->all.emplace_back(
+          Candidate{o.index, o.low, o.high,
+                    OptionWeight(o, p.scaled_count, above),
+                    o.low_extra_gap * kGroupGapWeight});
+      // per_low_atom >= 0 (a lower state is never closer to the group
+      // state), so `weight` is the least this candidate adds.
+      list.min_weight = std::min(list.min_weight, added.weight);
+      if (!p.declared && o.uncommon > 0) {
+        list.min_uncommon_weight =
+            std::min(list.min_uncommon_weight, added.weight);
+      }
       list.min_contribution =
           std::min(list.min_contribution, p.scaled_count * o.low);
       list.max_contribution =
@@ -306,8 +319,17 @@ int64_t CeilDiv(int64_t a, int64_t b) { return -FloorDiv(-a, b); }
 
 // Dynamic programming over charge totals. Element `wide` (every element
 // for kAllWide) takes its wide candidates, the others their narrow ones.
+//
+// Only a solution lighter than `bound` is wanted: any other result is as
+// good as none (kInfinity), which lets the search drop every cell whose
+// cost plus the least the remaining elements can add reaches `bound`.
+// That never changes a result below `bound`: the cells of its path, and
+// every cell that ties with them, stay. `must_widen` says that no
+// solution exists with narrow candidates only (the narrow stage found
+// none), so element `wide` must take one of its uncommon candidates.
 Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
-               int64_t target) {
+               int64_t target, int64_t bound = kInfinity,
+               bool must_widen = false) {
   const size_t n = plans.size();  // <= kMaxDistinctElements.
   // Scratch reused across calls on this thread: the solver runs once or
   // more per record and must not allocate in the common case.
@@ -330,6 +352,18 @@ Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
     rest_max[i] = rest_max[i + 1] + lists[i]->max_contribution;
   }
   if (target < rest_min[0] || target > rest_max[0]) return Solution();
+  // Least weight elements i.. still add.
+  std::array<int64_t, kMaxDistinctElements + 1> rest_weight;
+  rest_weight[n] = 0;
+  for (size_t i = n; i-- > 0;) {
+    const int64_t w = must_widen && wide == static_cast<int>(i)
+                          ? lists[i]->min_uncommon_weight
+                          : lists[i]->min_weight;
+    rest_weight[i] = w >= kInfinity || rest_weight[i + 1] >= kInfinity
+                         ? kInfinity
+                         : std::min(kInfinity, rest_weight[i + 1] + w);
+  }
+  if (rest_weight[0] >= bound) return Solution();
 
   // Layer i holds totals of elements 0..i-1 within [lo[i], hi[i]]: what
   // the prefix can reach and the rest can still bring to the target.
@@ -445,6 +479,13 @@ Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
         }
       }
     }
+    if (bound < kInfinity) {
+      // Drop cells that cannot lead below `bound`.
+      const int64_t limit = bound - rest_weight[i + 1];
+      for (int64_t j = 0; j <= next_hi - next_lo; ++j) {
+        if (next[j] >= limit) next[j] = kInfinity;
+      }
+    }
     // The reachable part of the new layer.
     int64_t a = 0, b = next_hi - next_lo;
     while (a <= b && next[a] >= kInfinity) ++a;
@@ -522,11 +563,12 @@ Solution SolveStaged(const Plans& plans, int64_t target,
   BuildCandidates(plans, forbidden, threshold, /*common_only=*/false,
                   &candidates);
   for (size_t k = 0; k < plans.size(); ++k) {
-    Solution s = Solve(plans, candidates, static_cast<int>(k), target);
+    Solution s = Solve(plans, candidates, static_cast<int>(k), target,
+                       best.weight, /*must_widen=*/true);
     if (s.weight < best.weight) best = std::move(s);
   }
   if (best.weight < 2 * kUncommonWeight) return best;
-  Solution s = Solve(plans, candidates, kAllWide, target);
+  Solution s = Solve(plans, candidates, kAllWide, target, best.weight);
   if (s.weight < best.weight) best = std::move(s);
   return best;
 }
