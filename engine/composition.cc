@@ -305,6 +305,7 @@ absl::string_view SeverityName(Severity s) {
 
 CompositionReport AnalyzeComposition(const CompositionInput& input) {
   CompositionReport r;
+  r.diagnostics.reserve(4);  // Enough for most records.
   r.id = input.id;
   if (r.id.size() > kMaxRecordIdLength) {
     r.id.resize(kMaxRecordIdLength);

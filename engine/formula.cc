@@ -198,8 +198,16 @@ class FormulaParser {
     bool subscript = false;
     while (pos_ < text_.size()) {
       int value = 0;
-      const size_t used = internal::DecodeDigit(
-          text_.substr(pos_), internal::DigitForms::kAsciiOrSubscript, &value);
+      size_t used = 0;
+      const char c = text_[pos_];
+      if (IsAsciiDigit(c)) {  // The usual case, without the decoder.
+        value = c - '0';
+        used = 1;
+      } else if (static_cast<unsigned char>(c) >= 0x80) {
+        used = internal::DecodeDigit(text_.substr(pos_),
+                                     internal::DigitForms::kAsciiOrSubscript,
+                                     &value);
+      }
       if (used == 0) break;
       if (used > 1) subscript = true;
       if (integer <= kMaxFormulaCount) integer = integer * 10 + value;

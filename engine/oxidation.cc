@@ -330,43 +330,63 @@ int64_t CeilDiv(int64_t a, int64_t b) { return -FloorDiv(-a, b); }
 Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
                int64_t target, int64_t bound = kInfinity,
                bool must_widen = false) {
-  const size_t n = plans.size();  // <= kMaxDistinctElements.
   // Scratch reused across calls on this thread: the solver runs once or
   // more per record and must not allocate in the common case.
   thread_local std::vector<std::vector<int64_t>> cost;
   thread_local std::vector<std::vector<Choice>> back;
   thread_local std::vector<std::pair<int64_t, int64_t>> window;
-  // Per element i: its candidates and what elements i.. can still
-  // contribute.
+  Solution s;
+  // Elements with a single single-state candidate only shift the total and
+  // the weight: they are folded into the target and take no layer, which
+  // shifts every layer without changing any comparison. Layer i of the
+  // search is element element_of[i]; n counts those layers.
   std::array<const CandidateList*, kMaxDistinctElements> lists;
-  std::array<int64_t, kMaxDistinctElements + 1> rest_min, rest_max;
-  for (size_t i = 0; i < n; ++i) {
-    lists[i] = wide == kAllWide || wide == static_cast<int>(i)
-                   ? &candidates.wide[i]
-                   : &candidates.narrow[i];
-    if (lists[i]->begin == lists[i]->end) return Solution();
+  std::array<int, kMaxDistinctElements> element_of;
+  size_t n = 0;
+  int64_t fixed_weight = 0;
+  for (size_t e = 0; e < plans.size(); ++e) {
+    const CandidateList* list = wide == kAllWide || wide == static_cast<int>(e)
+                                    ? &candidates.wide[e]
+                                    : &candidates.narrow[e];
+    if (list->begin == list->end) return Solution();
+    const Candidate& only = candidates.all[list->begin];
+    if (list->end - list->begin == 1 && only.low == only.high) {
+      // A forced element that must take an uncommon state but has none
+      // leaves nothing to search.
+      if (must_widen && wide == static_cast<int>(e) &&
+          list->min_uncommon_weight >= kInfinity) {
+        return Solution();
+      }
+      target -= plans[e].scaled_count * only.low;
+      fixed_weight += only.weight;
+      s.choices[e] = Choice{only.option, 0};
+      continue;
+    }
+    lists[n] = list;
+    element_of[n] = static_cast<int>(e);
+    ++n;
   }
-  rest_min[n] = rest_max[n] = 0;
+  // Only layer costs below this can give a total below `bound`.
+  if (bound < kInfinity) bound -= fixed_weight;
+  // What layers i.. can still contribute, and the least weight they add.
+  std::array<int64_t, kMaxDistinctElements + 1> rest_min, rest_max;
+  std::array<int64_t, kMaxDistinctElements + 1> rest_weight;
+  rest_min[n] = rest_max[n] = rest_weight[n] = 0;
   for (size_t i = n; i-- > 0;) {
     rest_min[i] = rest_min[i + 1] + lists[i]->min_contribution;
     rest_max[i] = rest_max[i + 1] + lists[i]->max_contribution;
-  }
-  if (target < rest_min[0] || target > rest_max[0]) return Solution();
-  // Least weight elements i.. still add.
-  std::array<int64_t, kMaxDistinctElements + 1> rest_weight;
-  rest_weight[n] = 0;
-  for (size_t i = n; i-- > 0;) {
-    const int64_t w = must_widen && wide == static_cast<int>(i)
+    const int64_t w = must_widen && wide == element_of[i]
                           ? lists[i]->min_uncommon_weight
                           : lists[i]->min_weight;
     rest_weight[i] = w >= kInfinity || rest_weight[i + 1] >= kInfinity
                          ? kInfinity
                          : std::min(kInfinity, rest_weight[i + 1] + w);
   }
+  if (target < rest_min[0] || target > rest_max[0]) return Solution();
   if (rest_weight[0] >= bound) return Solution();
 
-  // Layer i holds totals of elements 0..i-1 within [lo[i], hi[i]]: what
-  // the prefix can reach and the rest can still bring to the target.
+  // Layer i holds totals of layers 0..i-1 within [lo[i], hi[i]]: what the
+  // prefix can reach and the rest can still bring to the target.
   std::array<int64_t, kMaxDistinctElements + 1> lo, hi;
   lo[0] = hi[0] = 0;
   int64_t prefix_min = 0, prefix_max = 0;
@@ -387,8 +407,7 @@ Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
   // [reach_lo, reach_hi]; cells outside it are never read.
   int64_t reach_lo = 0, reach_hi = 0;
   for (size_t i = 0; i < n; ++i) {
-    const ElementPlan& p = plans[i];
-    const int64_t c = p.scaled_count;
+    const int64_t c = plans[element_of[i]].scaled_count;
     // Narrow this layer to what the reachable cells can get to.
     lo[i + 1] = std::max(lo[i + 1], reach_lo + lists[i]->min_contribution);
     hi[i + 1] = std::min(hi[i + 1], reach_hi + lists[i]->max_contribution);
@@ -494,16 +513,17 @@ Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
     reach_lo = next_lo + a;
     reach_hi = next_lo + b;
   }
-  Solution s;
-  if (target < lo[n] || target > hi[n]) return s;
-  s.weight = cost[n][target - lo[n]];
-  if (s.weight >= kInfinity) return Solution();
+  if (target < lo[n] || target > hi[n]) return Solution();
+  const int64_t weight = cost[n][target - lo[n]];
+  if (weight >= kInfinity) return Solution();
+  s.weight = weight + fixed_weight;
   int64_t t = target;
   for (size_t i = n; i > 0; --i) {
     const Choice ch = back[i][t - lo[i]];
-    s.choices[i - 1] = ch;
-    const Option& o = plans[i - 1].options()[ch.option];
-    const int64_t c = plans[i - 1].scaled_count;
+    const int e = element_of[i - 1];
+    s.choices[e] = ch;
+    const Option& o = plans[e].options()[ch.option];
+    const int64_t c = plans[e].scaled_count;
     t -= o.low == o.high ? c * o.low : c * o.high - ch.low_atoms * (o.high - o.low);
   }
   return s;
@@ -633,6 +653,7 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
       result.kind = formula.amounts.size() == 1 ? CompositionKind::kElemental
                                                 : CompositionKind::kMetallic;
       OxidationAssignment a;
+      a.states.reserve(formula.amounts.size());
       for (const ElementAmount& amount : formula.amounts) {
         bool declared = false;
         for (const DeclaredState& d : options.declared) {
