@@ -1,7 +1,9 @@
 #include "engine/composition.h"
 
+#include <array>
 #include <cmath>
-#include <map>
+#include <mutex>
+#include <numeric>
 
 #include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
@@ -44,6 +46,7 @@ bool ParseElementList(absl::string_view text, absl::string_view what,
                       ParseValue value,
                       std::vector<std::pair<const Element*, T>>* out,
                       std::string* error) {
+  if (text.empty()) return true;  // The usual case: nothing set.
   for (absl::string_view item : absl::StrSplit(text, ',')) {
     item = absl::StripAsciiWhitespace(item);
     if (item.empty()) continue;
@@ -104,11 +107,57 @@ absl::StatusOr<AtomDescriptionPtr> DescribeIon(const Element* e, int charge,
   return DescribeAtom(q);
 }
 
+// The ends of the expected moment range of a d ion in the default
+// geometry: the spin-only moment low spin in an octahedral field, and the
+// larger of the free ion's spin-only and J moments. Empty where the ion
+// cannot be described.
+struct RangeEnds {
+  std::optional<double> low;
+  std::optional<double> high;
+};
+
+RangeEnds DescribeRangeEnds(const Element* e, int state) {
+  RangeEnds ends;
+  absl::StatusOr<AtomDescriptionPtr> low =
+      DescribeIon(e, state, Geometry::kOctahedral, SpinStatePreference::kLow);
+  absl::StatusOr<AtomDescriptionPtr> high =
+      DescribeIon(e, state, Geometry::kFree, SpinStatePreference::kAuto);
+  if (low.ok()) ends.low = (*low)->moments.spin_only;
+  if (high.ok()) {
+    ends.high = std::max((*high)->moments.spin_only, (*high)->moments.j_moment);
+  }
+  return ends;
+}
+
+// RangeEnds depend only on the element and the state: read once per
+// element, for every state a record can hold (-9..+9), from the same
+// descriptions.
+RangeEnds FindRangeEnds(const Element* e, int state) {
+  constexpr int kMaxState = 9;
+  if (state < -kMaxState || state > kMaxState) {
+    return DescribeRangeEnds(e, state);
+  }
+  struct PerElement {
+    std::once_flag once;
+    std::array<RangeEnds, 2 * kMaxState + 1> by_state;
+  };
+  static std::array<PerElement, kMaxAtomicNumber + 1>* const kTable =
+      new std::array<PerElement, kMaxAtomicNumber + 1>;
+  PerElement& slot = (*kTable)[e->atomic_number];
+  std::call_once(slot.once, [&] {
+    for (int q = -kMaxState; q <= kMaxState; ++q) {
+      slot.by_state[q + kMaxState] = DescribeRangeEnds(e, q);
+    }
+  });
+  return slot.by_state[state + kMaxState];
+}
+
 // Annotates every assigned state with its ion and moment range.
 void Annotate(const std::vector<std::pair<const Element*, Geometry>>& geometry,
               const std::vector<std::pair<const Element*, SpinStatePreference>>&
                   spin,
               CompositionReport* r) {
+  r->ions.reserve(r->assignment->states.size());
   for (const AssignedState& s : r->assignment->states) {
     const Geometry* g_set = FindSetting(geometry, s.element);
     const SpinStatePreference* s_set = FindSetting(spin, s.element);
@@ -134,18 +183,12 @@ void Annotate(const std::vector<std::pair<const Element*, Geometry>>& geometry,
     ion.moment_low = ion.moment_high = ion.moment;
     const bool fixed = g_set != nullptr || s_set != nullptr;
     if (!fixed && (*d)->ligand_field.has_value()) {
-      absl::StatusOr<AtomDescriptionPtr> low = DescribeIon(
-          s.element, s.state, Geometry::kOctahedral, SpinStatePreference::kLow);
-      absl::StatusOr<AtomDescriptionPtr> high =
-          DescribeIon(s.element, s.state, Geometry::kFree,
-                      SpinStatePreference::kAuto);
-      if (low.ok()) {
-        ion.moment_low = std::min(ion.moment_low, (*low)->moments.spin_only);
+      const RangeEnds ends = FindRangeEnds(s.element, s.state);
+      if (ends.low.has_value()) {
+        ion.moment_low = std::min(ion.moment_low, *ends.low);
       }
-      if (high.ok()) {
-        ion.moment_high = std::max({ion.moment_high,
-                                    (*high)->moments.spin_only,
-                                    (*high)->moments.j_moment});
+      if (ends.high.has_value()) {
+        ion.moment_high = std::max(ion.moment_high, *ends.high);
       }
     } else if (!fixed && m.recommended_basis == MomentBasis::kJ &&
                m.measured.has_value()) {
@@ -156,18 +199,70 @@ void Annotate(const std::vector<std::pair<const Element*, Geometry>>& geometry,
   }
 }
 
-void Summarise(const Formula& formula, CompositionReport* r) {
-  // Exact: 0.7 x 4 + 0.3 x 3 is 3.7, not 3.6999999999999997.
+// Valence electrons of each neutral atom by atomic number (-1 where there
+// is no description), read once from the description tables: the VEC needs
+// only this number, not a description per element per record.
+const std::array<int, kMaxAtomicNumber + 1>& NeutralValenceElectrons() {
+  static const std::array<int, kMaxAtomicNumber + 1>* const kTable = [] {
+    auto* t = new std::array<int, kMaxAtomicNumber + 1>;
+    t->fill(-1);
+    for (const Element& e : AllElements()) {
+      AtomQuery q;
+      q.element = &e;
+      absl::StatusOr<AtomDescriptionPtr> d = DescribeAtom(q);
+      if (d.ok()) (*t)[e.atomic_number] = (*d)->valence_electrons;
+    }
+    return t;
+  }();
+  return *kTable;
+}
+
+// Unpaired electrons per formula unit, exactly: 0.7 x 4 + 0.3 x 3 is 3.7,
+// not 3.6999999999999997.
+double UnpairedPerFormulaUnit(const std::vector<IonAnnotation>& ions) {
+  // Summed over a common denominator while numerator and denominator stay
+  // exactly representable as doubles: their quotient is then the correctly
+  // rounded value of the sum, as the reduced fraction's is.
+  constexpr int64_t kExact = int64_t{1} << 53;
+  int64_t den = 1;
+  for (const IonAnnotation& ion : ions) {
+    const int64_t d = ion.count.den();
+    if (den % d == 0) continue;
+    const __int128 lcm = static_cast<__int128>(den / std::gcd(den, d)) * d;
+    if (lcm >= kExact) {
+      den = 0;
+      break;
+    }
+    den = static_cast<int64_t>(lcm);
+  }
+  __int128 num = 0;
+  for (const IonAnnotation& ion : ions) {
+    if (den == 0) break;
+    num += static_cast<__int128>(ion.count.num()) * (den / ion.count.den()) *
+           ion.description->unpaired_electrons;
+    if (num >= kExact || num <= -kExact) den = 0;
+  }
+  if (den != 0) {
+    return static_cast<double>(static_cast<int64_t>(num)) /
+           static_cast<double>(den);
+  }
   Rational unpaired(0);
+  for (const IonAnnotation& ion : ions) {
+    unpaired =
+        unpaired + ion.count * Rational(ion.description->unpaired_electrons);
+  }
+  return unpaired.ToDouble();
+}
+
+void Summarise(const Formula& formula, CompositionReport* r) {
   double mu2 = 0, lo2 = 0, hi2 = 0;
   for (const IonAnnotation& ion : r->ions) {
     const double c = ion.count.ToDouble();
-    unpaired = unpaired + ion.count * Rational(ion.description->unpaired_electrons);
     mu2 += c * ion.moment * ion.moment;
     lo2 += c * ion.moment_low * ion.moment_low;
     hi2 += c * ion.moment_high * ion.moment_high;
   }
-  r->unpaired_per_formula_unit = unpaired.ToDouble();
+  r->unpaired_per_formula_unit = UnpairedPerFormulaUnit(r->ions);
   r->effective_moment_per_formula_unit = std::sqrt(mu2);
   r->expected_moment_low = std::sqrt(lo2);
   r->expected_moment_high = std::sqrt(hi2);
@@ -175,14 +270,14 @@ void Summarise(const Formula& formula, CompositionReport* r) {
   // Valence electron concentration: composition-weighted mean of the
   // neutral atoms' valence electrons (Guo et al., J. Appl. Phys. 109,
   // 103505 (2011), from memory).
+  const std::array<int, kMaxAtomicNumber + 1>& valence =
+      NeutralValenceElectrons();
   double atoms = 0, electrons = 0;
   for (const ElementAmount& a : formula.amounts) {
-    AtomQuery q;
-    q.element = a.element;
-    absl::StatusOr<AtomDescriptionPtr> d = DescribeAtom(q);
-    if (!d.ok()) continue;
+    const int v = valence[a.element->atomic_number];
+    if (v < 0) continue;
     atoms += a.count.ToDouble();
-    electrons += a.count.ToDouble() * (*d)->valence_electrons;
+    electrons += a.count.ToDouble() * v;
   }
   r->valence_electron_concentration = atoms > 0 ? electrons / atoms : 0;
 }
@@ -210,6 +305,7 @@ absl::string_view SeverityName(Severity s) {
 
 CompositionReport AnalyzeComposition(const CompositionInput& input) {
   CompositionReport r;
+  r.diagnostics.reserve(4);  // Enough for most records.
   r.id = input.id;
   if (r.id.size() > kMaxRecordIdLength) {
     r.id.resize(kMaxRecordIdLength);
@@ -337,8 +433,8 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
       return finish();
     }
   }
-  r.assignment = solved->best;
-  r.alternatives = solved->alternatives;
+  r.assignment = std::move(solved->best);
+  r.alternatives = std::move(solved->alternatives);
   if (r.kind == CompositionKind::kMetallic) {
     Add(&r, Severity::kInfo, "metallic_composition",
         "all elements are metals: reported as metallic, every state 0");
@@ -346,9 +442,14 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     Add(&r, Severity::kInfo, "elemental_composition",
         "a single element: reported as elemental, state 0");
   }
-  std::map<const Element*, int> states_per_element;
-  for (const AssignedState& s : r.assignment->states) {
-    if (++states_per_element[s.element] == 2) {
+  const std::vector<AssignedState>& states = r.assignment->states;
+  for (size_t i = 0; i < states.size(); ++i) {
+    const AssignedState& s = states[i];
+    // An element's second state makes it mixed valence (a third does not
+    // say so again).
+    int earlier = 0;
+    for (size_t j = 0; j < i; ++j) earlier += states[j].element == s.element;
+    if (earlier == 1) {
       Add(&r, Severity::kInfo, "mixed_valence",
           absl::StrCat(s.element->symbol, " is mixed valence"));
     }

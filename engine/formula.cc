@@ -3,6 +3,7 @@
 #include <array>
 #include <utility>
 
+#include "absl/container/inlined_vector.h"
 #include "absl/strings/str_cat.h"
 #include "engine/internal/text.h"
 
@@ -15,7 +16,9 @@ using internal::QuoteForMessage;
 // exact arithmetic downstream can never overflow.
 constexpr int64_t kMaxExactMagnitude = 1000000000000;  // 1e12
 
-using Items = std::vector<std::pair<const Element*, Rational>>;
+// Inline storage: typical formulas and groups hold a handful of items, and
+// parsing should not allocate for them.
+using Items = absl::InlinedVector<std::pair<const Element*, Rational>, 8>;
 
 bool CheckedMultiply(const Rational& a, const Rational& b, Rational* out) {
   // Fast paths: most counts are multiplied by 1 or are small integers.
@@ -76,6 +79,7 @@ class FormulaParser {
         }
         return Failed(error);
       }
+      formula.amounts.reserve(formula.amounts.size() + items.size());
       for (auto& [element, count] : items) {
         Rational total;
         if (!CheckedMultiply(count, multiplier, &total)) {
@@ -194,8 +198,16 @@ class FormulaParser {
     bool subscript = false;
     while (pos_ < text_.size()) {
       int value = 0;
-      const size_t used = internal::DecodeDigit(
-          text_.substr(pos_), internal::DigitForms::kAsciiOrSubscript, &value);
+      size_t used = 0;
+      const char c = text_[pos_];
+      if (IsAsciiDigit(c)) {  // The usual case, without the decoder.
+        value = c - '0';
+        used = 1;
+      } else if (static_cast<unsigned char>(c) >= 0x80) {
+        used = internal::DecodeDigit(text_.substr(pos_),
+                                     internal::DigitForms::kAsciiOrSubscript,
+                                     &value);
+      }
       if (used == 0) break;
       if (used > 1) subscript = true;
       if (integer <= kMaxFormulaCount) integer = integer * 10 + value;
