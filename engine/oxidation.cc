@@ -311,6 +311,21 @@ void BuildCandidates(const Plans& plans, const Forbidden& forbidden,
   }
 }
 
+// How many uncommon states layers i.. of a search need at least to add
+// up to a given total. Each layer on its narrow candidates contributes
+// within their span; one that takes an uncommon candidate reaches at most
+// as far as its wide span. So a total outside the span of the narrow
+// spans widened by the m largest extensions needs more than m uncommon
+// layers, each of which weighs at least kUncommonWeight.
+struct UncommonNeed {
+  int forced = 0;      // Layers that must take an uncommon candidate.
+  int extensible = 0;  // Layers that may.
+  // Reachable span with at most m extensible layers uncommon,
+  // m = 0..extensible.
+  std::array<int64_t, kMaxDistinctElements + 1> lo;
+  std::array<int64_t, kMaxDistinctElements + 1> hi;
+};
+
 // Floor and ceiling of a / b for b > 0.
 int64_t FloorDiv(int64_t a, int64_t b) {
   return a >= 0 ? a / b : -((-a + b - 1) / b);
@@ -322,14 +337,21 @@ int64_t CeilDiv(int64_t a, int64_t b) { return -FloorDiv(-a, b); }
 //
 // Only a solution lighter than `bound` is wanted: any other result is as
 // good as none (kInfinity), which lets the search drop every cell whose
-// cost plus the least the remaining elements can add reaches `bound`.
-// That never changes a result below `bound`: the cells of its path, and
-// every cell that ties with them, stay. `must_widen` says that no
-// solution exists with narrow candidates only (the narrow stage found
-// none), so element `wide` must take one of its uncommon candidates.
+// cost plus a lower bound on what the remaining elements add reaches
+// `bound`. That never changes a result below `bound`: the cells of its
+// path, and every cell that ties with them, stay. The lower bound is the
+// larger of the least weight the remaining elements add and
+// kUncommonWeight times the uncommon states they need to reach the
+// target (see UncommonNeed). `must_widen` says that no solution exists
+// with narrow candidates only (the narrow stage found none), so element
+// `wide` must take one of its uncommon candidates. `pruning`, when set,
+// tells whether and where the bound dropped anything: if it did not, the
+// result is the unbounded one.
+enum class Pruning { kNone, kAtStart, kInSearch };
+
 Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
                int64_t target, int64_t bound = kInfinity,
-               bool must_widen = false) {
+               bool must_widen = false, Pruning* pruning = nullptr) {
   // Scratch reused across calls on this thread: the solver runs once or
   // more per record and must not allocate in the common case.
   thread_local std::vector<std::vector<int64_t>> cost;
@@ -383,7 +405,70 @@ Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
                          : std::min(kInfinity, rest_weight[i + 1] + w);
   }
   if (target < rest_min[0] || target > rest_max[0]) return Solution();
-  if (rest_weight[0] >= bound) return Solution();
+  if (pruning != nullptr) *pruning = Pruning::kNone;
+  thread_local std::vector<UncommonNeed> needs;
+  if (bound < kInfinity) {
+    // From the last layer back, keeping the extensions sorted (largest
+    // first) as layers join.
+    needs.resize(n + 1);
+    std::array<int64_t, kMaxDistinctElements> down, up;
+    int extensible = 0, forced = 0;
+    int64_t lo = 0, hi = 0;
+    for (size_t i = n + 1; i-- > 0;) {
+      if (i < n) {
+        const int e = element_of[i];
+        const CandidateList& narrow = candidates.narrow[e];
+        const CandidateList& used = *lists[i];
+        if (&used == &narrow) {
+          lo += narrow.min_contribution;
+          hi += narrow.max_contribution;
+        } else if ((must_widen && wide == e) || narrow.begin == narrow.end) {
+          ++forced;
+          lo += used.min_contribution;
+          hi += used.max_contribution;
+        } else {
+          lo += narrow.min_contribution;
+          hi += narrow.max_contribution;
+          auto insert = [extensible](std::array<int64_t, kMaxDistinctElements>&
+                                         sorted,
+                                     int64_t v) {
+            int k = extensible;
+            for (; k > 0 && sorted[k - 1] < v; --k) sorted[k] = sorted[k - 1];
+            sorted[k] = v;
+          };
+          insert(down, narrow.min_contribution - used.min_contribution);
+          insert(up, used.max_contribution - narrow.max_contribution);
+          ++extensible;
+        }
+      }
+      UncommonNeed& need = needs[i];
+      need.forced = forced;
+      need.extensible = extensible;
+      need.lo[0] = lo;
+      need.hi[0] = hi;
+      for (int m = 0; m < extensible; ++m) {
+        need.lo[m + 1] = need.lo[m] - down[m];
+        need.hi[m + 1] = need.hi[m] + up[m];
+      }
+    }
+  }
+  // Whether a cell of layer i with `cost` at total t can still lead to a
+  // total weight below `bound`.
+  auto promising = [&](size_t i, int64_t cost, int64_t t) {
+    if (rest_weight[i] >= bound || cost >= bound - rest_weight[i]) {
+      return false;
+    }
+    const UncommonNeed& need = needs[i];
+    const int64_t spare = (bound - 1 - cost) / kUncommonWeight - need.forced;
+    if (spare < 0) return false;
+    const int64_t m = std::min<int64_t>(spare, need.extensible);
+    const int64_t rest = target - t;
+    return rest >= need.lo[m] && rest <= need.hi[m];
+  };
+  if (bound < kInfinity && !promising(0, 0, 0)) {
+    if (pruning != nullptr) *pruning = Pruning::kAtStart;
+    return Solution();
+  }
 
   // Layer i holds totals of layers 0..i-1 within [lo[i], hi[i]]: what the
   // prefix can reach and the rest can still bring to the target.
@@ -500,9 +585,11 @@ Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
     }
     if (bound < kInfinity) {
       // Drop cells that cannot lead below `bound`.
-      const int64_t limit = bound - rest_weight[i + 1];
       for (int64_t j = 0; j <= next_hi - next_lo; ++j) {
-        if (next[j] >= limit) next[j] = kInfinity;
+        if (next[j] < kInfinity && !promising(i + 1, next[j], next_lo + j)) {
+          next[j] = kInfinity;
+          if (pruning != nullptr) *pruning = Pruning::kInSearch;
+        }
       }
     }
     // The reachable part of the new layer.
@@ -572,24 +659,49 @@ OxidationAssignment ToAssignment(const Plans& plans, const Solution& s,
 //   3. every known state for every element.
 // Stages 1 and 2 keep the charge windows narrow, which is what makes the
 // typical record cheap.
+//
+// Only a result lighter than `bound` is wanted (see Solve): anything else
+// may come back as no solution.
 Solution SolveStaged(const Plans& plans, int64_t target,
-                     const Forbidden& forbidden, double threshold) {
+                     const Forbidden& forbidden, double threshold,
+                     int64_t bound = kInfinity) {
   thread_local Candidates candidates;
   candidates.all.clear();
   BuildCandidates(plans, forbidden, threshold, /*common_only=*/true,
                   &candidates);
+  // Unbounded: a narrow solution, whatever its weight, ends the search.
   Solution best = Solve(plans, candidates, -1, target);
   if (best.weight < kInfinity) return best;
   BuildCandidates(plans, forbidden, threshold, /*common_only=*/false,
                   &candidates);
   for (size_t k = 0; k < plans.size(); ++k) {
     Solution s = Solve(plans, candidates, static_cast<int>(k), target,
-                       best.weight, /*must_widen=*/true);
+                       std::min(bound, best.weight), /*must_widen=*/true);
     if (s.weight < best.weight) best = std::move(s);
   }
   if (best.weight < 2 * kUncommonWeight) return best;
-  Solution s = Solve(plans, candidates, kAllWide, target, best.weight);
-  if (s.weight < best.weight) best = std::move(s);
+  // Stage 3, deepened: solutions with at most m uncommon states weigh
+  // below (m + 1) x kUncommonWeight, so bounding the search there keeps it
+  // to them. The first m that finds one has found the best; a search the
+  // bound did not prune was the unbounded one. After two fruitless
+  // bounded searches (a record that no state balances, say) the last one
+  // goes unbounded, so that deepening never costs more than a few
+  // searches.
+  const int64_t limit = std::min(bound, best.weight);
+  int fruitless = 0;
+  for (int64_t m = 2;; ++m) {
+    const int64_t cap =
+        fruitless == 2 ? limit : std::min((m + 1) * kUncommonWeight, limit);
+    Pruning pruning = Pruning::kNone;
+    Solution s = Solve(plans, candidates, kAllWide, target, cap,
+                       /*must_widen=*/false, &pruning);
+    if (s.weight < best.weight) {
+      best = std::move(s);
+      break;
+    }
+    if (cap >= limit || pruning == Pruning::kNone) break;
+    if (pruning == Pruning::kInSearch) ++fruitless;
+  }
   return best;
 }
 
@@ -702,7 +814,8 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
                                 kInconsistencyWeight;
     if (consistent) return best;
     for (size_t j = 1; j < thresholds.size(); ++j) {
-      Solution s = SolveStaged(search, target, forbidden, thresholds[j]);
+      Solution s = SolveStaged(search, target, forbidden, thresholds[j],
+                               best.weight);
       if (s.weight < best.weight) {
         best = std::move(s);
         *chosen = thresholds[j];
