@@ -669,9 +669,13 @@ Solution SolveStaged(const Plans& plans, int64_t target,
   candidates.all.clear();
   BuildCandidates(plans, forbidden, threshold, /*common_only=*/true,
                   &candidates);
-  // Unbounded: a narrow solution, whatever its weight, ends the search.
-  Solution best = Solve(plans, candidates, -1, target);
-  if (best.weight < kInfinity) return best;
+  // A narrow solution has no uncommon state, so it weighs below
+  // kUncommonWeight, and ends the search. With a bound up to that weight,
+  // nothing in the later stages (every solution there that is not narrow
+  // has an uncommon state) can come below it either. With a higher bound,
+  // the bound cannot have dropped a narrow solution: none exists.
+  Solution best = Solve(plans, candidates, -1, target, bound);
+  if (best.weight < kInfinity || bound <= kUncommonWeight) return best;
   BuildCandidates(plans, forbidden, threshold, /*common_only=*/false,
                   &candidates);
   for (size_t k = 0; k < plans.size(); ++k) {
@@ -844,12 +848,27 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
     // Alternatives: forbid, one element at a time, the option the best
     // assignment chose for it, and take the best of what remains.
     std::vector<std::pair<int64_t, OxidationAssignment>> found;
+    // Once max_alternatives are found, a search only matters if it comes
+    // below the heaviest of the lightest max_alternatives (a tie ranks
+    // after it, being found later; a duplicate of a skipped one would be
+    // skipped too, weighing the same).
+    std::vector<int64_t> weights;
+    const size_t wanted = static_cast<size_t>(options.max_alternatives);
     for (size_t i = 0; i < plans.size(); ++i) {
       if (plans[i].declared) continue;
+      int64_t bound = kInfinity;
+      if (found.size() >= wanted) {
+        weights.clear();
+        for (const auto& [w, unused] : found) weights.push_back(w);
+        std::nth_element(weights.begin(), weights.begin() + (wanted - 1),
+                         weights.end());
+        bound = weights[wanted - 1];
+      }
       const Option& chosen = plans[i].options()[best.choices[i].option];
       const Solution s = SolveStaged(
           plans, target,
-          Forbidden{static_cast<int>(i), chosen.low, chosen.high}, threshold);
+          Forbidden{static_cast<int>(i), chosen.low, chosen.high}, threshold,
+          bound);
       if (s.weight >= kInfinity) continue;
       OxidationAssignment a = ToAssignment(plans, s, scale);
       bool duplicate = false;
