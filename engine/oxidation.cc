@@ -114,6 +114,7 @@ const StateTable& States() {
 // and shared by every stage.
 struct ElementPlan {
   const Element* element;
+  Rational count;        // Atoms per formula unit.
   int64_t scaled_count;  // count x L, >= 1.
   bool declared = false;
   // The declared states, the only options of a declared element.
@@ -183,6 +184,7 @@ Plans MakePlans(const Formula& formula, int64_t scale,
   for (const ElementAmount& a : formula.amounts) {
     ElementPlan& p = plans.emplace_back();
     p.element = a.element;
+    p.count = a.count;
     p.scaled_count = a.count.num() * (scale / a.count.den());
     for (const DeclaredState& d : options.declared) {
       if (d.element != p.element) continue;
@@ -620,13 +622,15 @@ OxidationAssignment ToAssignment(const Plans& plans, const Solution& s,
                                  int64_t scale) {
   OxidationAssignment a;
   a.states.reserve(plans.size() + 2);
+  int64_t gap = 0;  // Group gap, in scaled atoms.
   for (size_t i = 0; i < plans.size(); ++i) {
     const ElementPlan& p = plans[i];
     const Option& o = p.options()[s.choices[i].option];
     if (o.low == o.high) {
-      a.states.push_back({p.element, o.low, Rational(p.scaled_count, scale),
-                          o.low_common, p.declared});
+      a.states.push_back({p.element, o.low, p.count, o.low_common,
+                          p.declared});
       if (!o.low_common) ++a.uncommon_states;
+      gap += o.high_gap * p.scaled_count;
     } else {
       const int64_t k = s.choices[i].low_atoms;
       a.states.push_back(
@@ -636,15 +640,12 @@ OxidationAssignment ToAssignment(const Plans& plans, const Solution& s,
                           false});
       a.uncommon_states += (o.low_common ? 0 : 1) + (o.high_common ? 0 : 1);
       a.spread = a.spread + Rational(p.scaled_count * (o.high - o.low), scale);
+      gap += (o.high_gap + o.low_extra_gap) * k +
+             o.high_gap * (p.scaled_count - k);
     }
   }
   a.electronegativity_inconsistencies = static_cast<int>(
       (s.weight % kUncommonWeight) / kInconsistencyWeight);
-  int64_t gap = 0;
-  for (const AssignedState& st : a.states) {
-    gap += GroupGap(*st.element, st.state) * (st.count.num() * scale /
-                                              st.count.den());
-  }
   a.score = 100.0 * a.uncommon_states +
             10.0 * a.electronegativity_inconsistencies +
             static_cast<double>(gap) / scale + a.spread.ToDouble();
