@@ -50,9 +50,9 @@ struct Option {
   int high = 0;  // Upper state.
   bool low_common = true;
   bool high_common = true;
-  int index = 0;       // Position in the element's options().
-  int uncommon = 0;    // Uncommon states among low and high.
-  int high_gap = 0;    // GroupGap of the upper state.
+  int index = 0;          // Position in the element's options().
+  int uncommon = 0;       // Uncommon states among low and high.
+  int high_gap = 0;       // GroupGap of the upper state.
   int low_extra_gap = 0;  // GroupGap(low) - GroupGap(high).
 };
 
@@ -293,10 +293,9 @@ void BuildCandidates(const Plans& plans, const Forbidden& forbidden,
       if (!Allowed(p, static_cast<int>(i), common_only, forbidden, o)) {
         continue;
       }
-      const Candidate& added = candidates->all.emplace_back(
-          Candidate{o.index, o.low, o.high,
-                    OptionWeight(o, p.scaled_count, above),
-                    o.low_extra_gap * kGroupGapWeight});
+      const Candidate& added = candidates->all.emplace_back(Candidate{
+          o.index, o.low, o.high, OptionWeight(o, p.scaled_count, above),
+          o.low_extra_gap * kGroupGapWeight});
       // per_low_atom >= 0 (a lower state is never closer to the group
       // state), so `weight` is the least this candidate adds.
       list.min_weight = std::min(list.min_weight, added.weight);
@@ -327,6 +326,14 @@ struct UncommonNeed {
   std::array<int64_t, kMaxDistinctElements + 1> lo;
   std::array<int64_t, kMaxDistinctElements + 1> hi;
 };
+
+// Inserts `v` into the first `size` entries of `sorted`, largest first.
+void InsertDescending(int64_t v, int size,
+                      std::array<int64_t, kMaxDistinctElements>* sorted) {
+  int k = size;
+  for (; k > 0 && (*sorted)[k - 1] < v; --k) (*sorted)[k] = (*sorted)[k - 1];
+  (*sorted)[k] = v;
+}
 
 // Floor and ceiling of a / b for b > 0.
 int64_t FloorDiv(int64_t a, int64_t b) {
@@ -431,15 +438,10 @@ Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
         } else {
           lo += narrow.min_contribution;
           hi += narrow.max_contribution;
-          auto insert = [extensible](std::array<int64_t, kMaxDistinctElements>&
-                                         sorted,
-                                     int64_t v) {
-            int k = extensible;
-            for (; k > 0 && sorted[k - 1] < v; --k) sorted[k] = sorted[k - 1];
-            sorted[k] = v;
-          };
-          insert(down, narrow.min_contribution - used.min_contribution);
-          insert(up, used.max_contribution - narrow.max_contribution);
+          InsertDescending(narrow.min_contribution - used.min_contribution,
+                           extensible, &down);
+          InsertDescending(used.max_contribution - narrow.max_contribution,
+                           extensible, &up);
           ++extensible;
         }
       }
@@ -627,8 +629,7 @@ OxidationAssignment ToAssignment(const Plans& plans, const Solution& s,
     const ElementPlan& p = plans[i];
     const Option& o = p.options()[s.choices[i].option];
     if (o.low == o.high) {
-      a.states.push_back({p.element, o.low, p.count, o.low_common,
-                          p.declared});
+      a.states.push_back({p.element, o.low, p.count, o.low_common, p.declared});
       if (!o.low_common) ++a.uncommon_states;
       gap += o.high_gap * p.scaled_count;
     } else {
@@ -644,8 +645,8 @@ OxidationAssignment ToAssignment(const Plans& plans, const Solution& s,
              o.high_gap * (p.scaled_count - k);
     }
   }
-  a.electronegativity_inconsistencies = static_cast<int>(
-      (s.weight % kUncommonWeight) / kInconsistencyWeight);
+  a.electronegativity_inconsistencies =
+      static_cast<int>((s.weight % kUncommonWeight) / kInconsistencyWeight);
   a.score = 100.0 * a.uncommon_states +
             10.0 * a.electronegativity_inconsistencies +
             static_cast<double>(gap) / scale + a.spread.ToDouble();
@@ -814,13 +815,13 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
                         double* chosen) {
     Solution best = SolveStaged(search, target, forbidden, thresholds[0]);
     *chosen = thresholds[0];
-    const bool consistent = best.weight < kInfinity &&
-                            best.weight % kUncommonWeight <
-                                kInconsistencyWeight;
+    const bool consistent =
+        best.weight < kInfinity &&
+        best.weight % kUncommonWeight < kInconsistencyWeight;
     if (consistent) return best;
     for (size_t j = 1; j < thresholds.size(); ++j) {
-      Solution s = SolveStaged(search, target, forbidden, thresholds[j],
-                               best.weight);
+      Solution s =
+          SolveStaged(search, target, forbidden, thresholds[j], best.weight);
       if (s.weight < best.weight) {
         best = std::move(s);
         *chosen = thresholds[j];
@@ -866,10 +867,10 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
         bound = weights[wanted - 1];
       }
       const Option& chosen = plans[i].options()[best.choices[i].option];
-      const Solution s = SolveStaged(
-          plans, target,
-          Forbidden{static_cast<int>(i), chosen.low, chosen.high}, threshold,
-          bound);
+      const Solution s =
+          SolveStaged(plans, target,
+                      Forbidden{static_cast<int>(i), chosen.low, chosen.high},
+                      threshold, bound);
       if (s.weight >= kInfinity) continue;
       OxidationAssignment a = ToAssignment(plans, s, scale);
       bool duplicate = false;

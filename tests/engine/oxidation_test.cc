@@ -771,9 +771,9 @@ int CompareWithReference(absl::Span<const char* const> metals, int formulas,
     const int n = std::uniform_int_distribution<int>(1, 3)(rng);
     std::string text;
     for (int m = 0; m < n; ++m) text += pool[m] + Count(tenths(rng) * 10);
-    text += "O" + Count((max_oxygen_tenths == 20 ? tenths(rng)
-                                                 : oxygen_tenths(rng)) *
-                        10);
+    text += "O" +
+            Count((max_oxygen_tenths == 20 ? tenths(rng) : oxygen_tenths(rng)) *
+                  10);
     const int charge = charge_dist(rng);
     SCOPED_TRACE(text + " charge " + std::to_string(charge));
     absl::StatusOr<Formula> f = ParseFormula(text);
