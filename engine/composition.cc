@@ -330,8 +330,9 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
         issue.column);
     return finish();
   }
-  for (const FormulaIssue& w : formula->warnings) {
-    Add(&r, Severity::kWarning, w.code, w.message, w.column);
+  for (FormulaIssue& w : formula->warnings) {  // Not needed again.
+    Add(&r, Severity::kWarning, std::move(w.code), std::move(w.message),
+        w.column);
   }
 
   // Per-record settings.

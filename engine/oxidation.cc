@@ -50,9 +50,9 @@ struct Option {
   int high = 0;  // Upper state.
   bool low_common = true;
   bool high_common = true;
-  int index = 0;       // Position in the element's options().
-  int uncommon = 0;    // Uncommon states among low and high.
-  int high_gap = 0;    // GroupGap of the upper state.
+  int index = 0;          // Position in the element's options().
+  int uncommon = 0;       // Uncommon states among low and high.
+  int high_gap = 0;       // GroupGap of the upper state.
   int low_extra_gap = 0;  // GroupGap(low) - GroupGap(high).
 };
 
@@ -114,6 +114,7 @@ const StateTable& States() {
 // and shared by every stage.
 struct ElementPlan {
   const Element* element;
+  Rational count;        // Atoms per formula unit.
   int64_t scaled_count;  // count x L, >= 1.
   bool declared = false;
   // The declared states, the only options of a declared element.
@@ -183,6 +184,7 @@ Plans MakePlans(const Formula& formula, int64_t scale,
   for (const ElementAmount& a : formula.amounts) {
     ElementPlan& p = plans.emplace_back();
     p.element = a.element;
+    p.count = a.count;
     p.scaled_count = a.count.num() * (scale / a.count.den());
     for (const DeclaredState& d : options.declared) {
       if (d.element != p.element) continue;
@@ -291,10 +293,9 @@ void BuildCandidates(const Plans& plans, const Forbidden& forbidden,
       if (!Allowed(p, static_cast<int>(i), common_only, forbidden, o)) {
         continue;
       }
-      const Candidate& added = candidates->all.emplace_back(
-          Candidate{o.index, o.low, o.high,
-                    OptionWeight(o, p.scaled_count, above),
-                    o.low_extra_gap * kGroupGapWeight});
+      const Candidate& added = candidates->all.emplace_back(Candidate{
+          o.index, o.low, o.high, OptionWeight(o, p.scaled_count, above),
+          o.low_extra_gap * kGroupGapWeight});
       // per_low_atom >= 0 (a lower state is never closer to the group
       // state), so `weight` is the least this candidate adds.
       list.min_weight = std::min(list.min_weight, added.weight);
@@ -311,6 +312,29 @@ void BuildCandidates(const Plans& plans, const Forbidden& forbidden,
   }
 }
 
+// How many uncommon states layers i.. of a search need at least to add
+// up to a given total. Each layer on its narrow candidates contributes
+// within their span; one that takes an uncommon candidate reaches at most
+// as far as its wide span. So a total outside the span of the narrow
+// spans widened by the m largest extensions needs more than m uncommon
+// layers, each of which weighs at least kUncommonWeight.
+struct UncommonNeed {
+  int forced = 0;      // Layers that must take an uncommon candidate.
+  int extensible = 0;  // Layers that may.
+  // Reachable span with at most m extensible layers uncommon,
+  // m = 0..extensible.
+  std::array<int64_t, kMaxDistinctElements + 1> lo;
+  std::array<int64_t, kMaxDistinctElements + 1> hi;
+};
+
+// Inserts `v` into the first `size` entries of `sorted`, largest first.
+void InsertDescending(int64_t v, int size,
+                      std::array<int64_t, kMaxDistinctElements>* sorted) {
+  int k = size;
+  for (; k > 0 && (*sorted)[k - 1] < v; --k) (*sorted)[k] = (*sorted)[k - 1];
+  (*sorted)[k] = v;
+}
+
 // Floor and ceiling of a / b for b > 0.
 int64_t FloorDiv(int64_t a, int64_t b) {
   return a >= 0 ? a / b : -((-a + b - 1) / b);
@@ -322,14 +346,21 @@ int64_t CeilDiv(int64_t a, int64_t b) { return -FloorDiv(-a, b); }
 //
 // Only a solution lighter than `bound` is wanted: any other result is as
 // good as none (kInfinity), which lets the search drop every cell whose
-// cost plus the least the remaining elements can add reaches `bound`.
-// That never changes a result below `bound`: the cells of its path, and
-// every cell that ties with them, stay. `must_widen` says that no
-// solution exists with narrow candidates only (the narrow stage found
-// none), so element `wide` must take one of its uncommon candidates.
+// cost plus a lower bound on what the remaining elements add reaches
+// `bound`. That never changes a result below `bound`: the cells of its
+// path, and every cell that ties with them, stay. The lower bound is the
+// larger of the least weight the remaining elements add and
+// kUncommonWeight times the uncommon states they need to reach the
+// target (see UncommonNeed). `must_widen` says that no solution exists
+// with narrow candidates only (the narrow stage found none), so element
+// `wide` must take one of its uncommon candidates. `pruning`, when set,
+// tells whether and where the bound dropped anything: if it did not, the
+// result is the unbounded one.
+enum class Pruning { kNone, kAtStart, kInSearch };
+
 Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
                int64_t target, int64_t bound = kInfinity,
-               bool must_widen = false) {
+               bool must_widen = false, Pruning* pruning = nullptr) {
   // Scratch reused across calls on this thread: the solver runs once or
   // more per record and must not allocate in the common case.
   thread_local std::vector<std::vector<int64_t>> cost;
@@ -383,7 +414,65 @@ Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
                          : std::min(kInfinity, rest_weight[i + 1] + w);
   }
   if (target < rest_min[0] || target > rest_max[0]) return Solution();
-  if (rest_weight[0] >= bound) return Solution();
+  if (pruning != nullptr) *pruning = Pruning::kNone;
+  thread_local std::vector<UncommonNeed> needs;
+  if (bound < kInfinity) {
+    // From the last layer back, keeping the extensions sorted (largest
+    // first) as layers join.
+    needs.resize(n + 1);
+    std::array<int64_t, kMaxDistinctElements> down, up;
+    int extensible = 0, forced = 0;
+    int64_t lo = 0, hi = 0;
+    for (size_t i = n + 1; i-- > 0;) {
+      if (i < n) {
+        const int e = element_of[i];
+        const CandidateList& narrow = candidates.narrow[e];
+        const CandidateList& used = *lists[i];
+        if (&used == &narrow) {
+          lo += narrow.min_contribution;
+          hi += narrow.max_contribution;
+        } else if ((must_widen && wide == e) || narrow.begin == narrow.end) {
+          ++forced;
+          lo += used.min_contribution;
+          hi += used.max_contribution;
+        } else {
+          lo += narrow.min_contribution;
+          hi += narrow.max_contribution;
+          InsertDescending(narrow.min_contribution - used.min_contribution,
+                           extensible, &down);
+          InsertDescending(used.max_contribution - narrow.max_contribution,
+                           extensible, &up);
+          ++extensible;
+        }
+      }
+      UncommonNeed& need = needs[i];
+      need.forced = forced;
+      need.extensible = extensible;
+      need.lo[0] = lo;
+      need.hi[0] = hi;
+      for (int m = 0; m < extensible; ++m) {
+        need.lo[m + 1] = need.lo[m] - down[m];
+        need.hi[m + 1] = need.hi[m] + up[m];
+      }
+    }
+  }
+  // Whether a cell of layer i with `cost` at total t can still lead to a
+  // total weight below `bound`.
+  auto promising = [&](size_t i, int64_t cost, int64_t t) {
+    if (rest_weight[i] >= bound || cost >= bound - rest_weight[i]) {
+      return false;
+    }
+    const UncommonNeed& need = needs[i];
+    const int64_t spare = (bound - 1 - cost) / kUncommonWeight - need.forced;
+    if (spare < 0) return false;
+    const int64_t m = std::min<int64_t>(spare, need.extensible);
+    const int64_t rest = target - t;
+    return rest >= need.lo[m] && rest <= need.hi[m];
+  };
+  if (bound < kInfinity && !promising(0, 0, 0)) {
+    if (pruning != nullptr) *pruning = Pruning::kAtStart;
+    return Solution();
+  }
 
   // Layer i holds totals of layers 0..i-1 within [lo[i], hi[i]]: what the
   // prefix can reach and the rest can still bring to the target.
@@ -500,9 +589,11 @@ Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
     }
     if (bound < kInfinity) {
       // Drop cells that cannot lead below `bound`.
-      const int64_t limit = bound - rest_weight[i + 1];
       for (int64_t j = 0; j <= next_hi - next_lo; ++j) {
-        if (next[j] >= limit) next[j] = kInfinity;
+        if (next[j] < kInfinity && !promising(i + 1, next[j], next_lo + j)) {
+          next[j] = kInfinity;
+          if (pruning != nullptr) *pruning = Pruning::kInSearch;
+        }
       }
     }
     // The reachable part of the new layer.
@@ -533,13 +624,14 @@ OxidationAssignment ToAssignment(const Plans& plans, const Solution& s,
                                  int64_t scale) {
   OxidationAssignment a;
   a.states.reserve(plans.size() + 2);
+  int64_t gap = 0;  // Group gap, in scaled atoms.
   for (size_t i = 0; i < plans.size(); ++i) {
     const ElementPlan& p = plans[i];
     const Option& o = p.options()[s.choices[i].option];
     if (o.low == o.high) {
-      a.states.push_back({p.element, o.low, Rational(p.scaled_count, scale),
-                          o.low_common, p.declared});
+      a.states.push_back({p.element, o.low, p.count, o.low_common, p.declared});
       if (!o.low_common) ++a.uncommon_states;
+      gap += o.high_gap * p.scaled_count;
     } else {
       const int64_t k = s.choices[i].low_atoms;
       a.states.push_back(
@@ -549,15 +641,12 @@ OxidationAssignment ToAssignment(const Plans& plans, const Solution& s,
                           false});
       a.uncommon_states += (o.low_common ? 0 : 1) + (o.high_common ? 0 : 1);
       a.spread = a.spread + Rational(p.scaled_count * (o.high - o.low), scale);
+      gap += (o.high_gap + o.low_extra_gap) * k +
+             o.high_gap * (p.scaled_count - k);
     }
   }
-  a.electronegativity_inconsistencies = static_cast<int>(
-      (s.weight % kUncommonWeight) / kInconsistencyWeight);
-  int64_t gap = 0;
-  for (const AssignedState& st : a.states) {
-    gap += GroupGap(*st.element, st.state) * (st.count.num() * scale /
-                                              st.count.den());
-  }
+  a.electronegativity_inconsistencies =
+      static_cast<int>((s.weight % kUncommonWeight) / kInconsistencyWeight);
   a.score = 100.0 * a.uncommon_states +
             10.0 * a.electronegativity_inconsistencies +
             static_cast<double>(gap) / scale + a.spread.ToDouble();
@@ -572,24 +661,53 @@ OxidationAssignment ToAssignment(const Plans& plans, const Solution& s,
 //   3. every known state for every element.
 // Stages 1 and 2 keep the charge windows narrow, which is what makes the
 // typical record cheap.
+//
+// Only a result lighter than `bound` is wanted (see Solve): anything else
+// may come back as no solution.
 Solution SolveStaged(const Plans& plans, int64_t target,
-                     const Forbidden& forbidden, double threshold) {
+                     const Forbidden& forbidden, double threshold,
+                     int64_t bound = kInfinity) {
   thread_local Candidates candidates;
   candidates.all.clear();
   BuildCandidates(plans, forbidden, threshold, /*common_only=*/true,
                   &candidates);
-  Solution best = Solve(plans, candidates, -1, target);
-  if (best.weight < kInfinity) return best;
+  // A narrow solution has no uncommon state, so it weighs below
+  // kUncommonWeight, and ends the search. With a bound up to that weight,
+  // nothing in the later stages (every solution there that is not narrow
+  // has an uncommon state) can come below it either. With a higher bound,
+  // the bound cannot have dropped a narrow solution: none exists.
+  Solution best = Solve(plans, candidates, -1, target, bound);
+  if (best.weight < kInfinity || bound <= kUncommonWeight) return best;
   BuildCandidates(plans, forbidden, threshold, /*common_only=*/false,
                   &candidates);
   for (size_t k = 0; k < plans.size(); ++k) {
     Solution s = Solve(plans, candidates, static_cast<int>(k), target,
-                       best.weight, /*must_widen=*/true);
+                       std::min(bound, best.weight), /*must_widen=*/true);
     if (s.weight < best.weight) best = std::move(s);
   }
   if (best.weight < 2 * kUncommonWeight) return best;
-  Solution s = Solve(plans, candidates, kAllWide, target, best.weight);
-  if (s.weight < best.weight) best = std::move(s);
+  // Stage 3, deepened: solutions with at most m uncommon states weigh
+  // below (m + 1) x kUncommonWeight, so bounding the search there keeps it
+  // to them. The first m that finds one has found the best; a search the
+  // bound did not prune was the unbounded one. After two fruitless
+  // bounded searches (a record that no state balances, say) the last one
+  // goes unbounded, so that deepening never costs more than a few
+  // searches.
+  const int64_t limit = std::min(bound, best.weight);
+  int fruitless = 0;
+  for (int64_t m = 2;; ++m) {
+    const int64_t cap =
+        fruitless == 2 ? limit : std::min((m + 1) * kUncommonWeight, limit);
+    Pruning pruning = Pruning::kNone;
+    Solution s = Solve(plans, candidates, kAllWide, target, cap,
+                       /*must_widen=*/false, &pruning);
+    if (s.weight < best.weight) {
+      best = std::move(s);
+      break;
+    }
+    if (cap >= limit || pruning == Pruning::kNone) break;
+    if (pruning == Pruning::kInSearch) ++fruitless;
+  }
   return best;
 }
 
@@ -697,12 +815,13 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
                         double* chosen) {
     Solution best = SolveStaged(search, target, forbidden, thresholds[0]);
     *chosen = thresholds[0];
-    const bool consistent = best.weight < kInfinity &&
-                            best.weight % kUncommonWeight <
-                                kInconsistencyWeight;
+    const bool consistent =
+        best.weight < kInfinity &&
+        best.weight % kUncommonWeight < kInconsistencyWeight;
     if (consistent) return best;
     for (size_t j = 1; j < thresholds.size(); ++j) {
-      Solution s = SolveStaged(search, target, forbidden, thresholds[j]);
+      Solution s =
+          SolveStaged(search, target, forbidden, thresholds[j], best.weight);
       if (s.weight < best.weight) {
         best = std::move(s);
         *chosen = thresholds[j];
@@ -731,12 +850,27 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
     // Alternatives: forbid, one element at a time, the option the best
     // assignment chose for it, and take the best of what remains.
     std::vector<std::pair<int64_t, OxidationAssignment>> found;
+    // Once max_alternatives are found, a search only matters if it comes
+    // below the heaviest of the lightest max_alternatives (a tie ranks
+    // after it, being found later; a duplicate of a skipped one would be
+    // skipped too, weighing the same).
+    std::vector<int64_t> weights;
+    const size_t wanted = static_cast<size_t>(options.max_alternatives);
     for (size_t i = 0; i < plans.size(); ++i) {
       if (plans[i].declared) continue;
+      int64_t bound = kInfinity;
+      if (found.size() >= wanted) {
+        weights.clear();
+        for (const auto& [w, unused] : found) weights.push_back(w);
+        std::nth_element(weights.begin(), weights.begin() + (wanted - 1),
+                         weights.end());
+        bound = weights[wanted - 1];
+      }
       const Option& chosen = plans[i].options()[best.choices[i].option];
-      const Solution s = SolveStaged(
-          plans, target,
-          Forbidden{static_cast<int>(i), chosen.low, chosen.high}, threshold);
+      const Solution s =
+          SolveStaged(plans, target,
+                      Forbidden{static_cast<int>(i), chosen.low, chosen.high},
+                      threshold, bound);
       if (s.weight >= kInfinity) continue;
       OxidationAssignment a = ToAssignment(plans, s, scale);
       bool duplicate = false;

@@ -754,12 +754,16 @@ std::optional<ScaledRank> ReferenceBestRank(const Formula& f, int charge,
 
 // Compares the engine's best with the reference on `formulas` random
 // one-decimal oxides of `metals` (one-decimal counts keep the reference
-// cheap). Returns how many balanced.
+// cheap), with at most `max_oxygen_tenths` tenths of oxygen. Returns how
+// many balanced; `many_uncommon`, when set, counts the bests with two or
+// more uncommon states.
 int CompareWithReference(absl::Span<const char* const> metals, int formulas,
-                         uint32_t seed) {
+                         uint32_t seed, int max_oxygen_tenths = 20,
+                         int* many_uncommon = nullptr) {
   std::mt19937 rng(seed);
   std::uniform_int_distribution<int> charge_dist(-2, 2);
   std::uniform_int_distribution<int> tenths(1, 20);
+  std::uniform_int_distribution<int> oxygen_tenths(1, max_oxygen_tenths);
   int compared = 0;
   for (int i = 0; i < formulas; ++i) {
     std::vector<const char*> pool(metals.begin(), metals.end());
@@ -767,7 +771,9 @@ int CompareWithReference(absl::Span<const char* const> metals, int formulas,
     const int n = std::uniform_int_distribution<int>(1, 3)(rng);
     std::string text;
     for (int m = 0; m < n; ++m) text += pool[m] + Count(tenths(rng) * 10);
-    text += "O" + Count(tenths(rng) * 10);
+    text += "O" +
+            Count((max_oxygen_tenths == 20 ? tenths(rng) : oxygen_tenths(rng)) *
+                  10);
     const int charge = charge_dist(rng);
     SCOPED_TRACE(text + " charge " + std::to_string(charge));
     absl::StatusOr<Formula> f = ParseFormula(text);
@@ -785,6 +791,9 @@ int CompareWithReference(absl::Span<const char* const> metals, int formulas,
     EXPECT_EQ(r->best.has_value(), reference.has_value());
     if (!reference.has_value() || !r->best.has_value()) continue;
     ++compared;
+    if (many_uncommon != nullptr && reference->uncommon >= 2) {
+      ++*many_uncommon;
+    }
     const Rank got = RankOf(*r->best);
     const Rank want{reference->uncommon, reference->inconsistencies,
                     Rational(reference->gap, scale),
@@ -806,6 +815,20 @@ TEST(Oxidation, BestMatchesExhaustiveReferenceWithMainGroupMetals) {
   const char* const kMainGroup[] = {"Al", "Ga", "In", "Tl", "Sn",
                                     "Pb", "Bi", "Li", "Mn", "Fe"};
   EXPECT_GE(CompareWithReference(kMainGroup, 300, 4242), 100);
+}
+
+TEST(Oxidation, BestMatchesExhaustiveReferenceOnReducedOxides) {
+  // Too little oxygen for common states (at most 0.3 O for up to three
+  // metals of up to 2 each) forces the search into its widest stage,
+  // where it deepens by the number of uncommon states; the best must
+  // still be the best possible.
+  const char* const kMultivalent[] = {"Ti", "V",  "Cr", "Mn", "Fe", "Co",
+                                      "Ni", "Cu", "Nb", "Mo", "W",  "Ru"};
+  int many_uncommon = 0;
+  EXPECT_GE(CompareWithReference(kMultivalent, 200, 9001,
+                                 /*max_oxygen_tenths=*/3, &many_uncommon),
+            100);
+  EXPECT_GE(many_uncommon, 20);
 }
 
 TEST(Oxidation, SixteenMetalEquimolarOxideSolves) {
