@@ -36,9 +36,19 @@ constexpr EscapeTable kEscape;
 
 inline bool NeedsEscape(unsigned char c) { return kEscape.needs[c]; }
 
-void AppendEscaped(absl::string_view s, std::string* out) {
-  out->push_back('"');
+// Writes `s` quoted and escaped at `out`, which has room for
+// kEscapedBound(s.size()) bytes; returns the end.
+char* WriteEscaped(absl::string_view s, char* out) {
+  *out++ = '"';
   size_t run = 0;  // Start of the pending run of plain bytes.
+  auto flush = [&](size_t i) {
+    std::memcpy(out, s.data() + run, i - run);
+    out += i - run;
+  };
+  auto put = [&](absl::string_view text) {
+    std::memcpy(out, text.data(), text.size());
+    out += text.size();
+  };
   for (size_t i = 0; i < s.size(); ++i) {
     const unsigned char c = static_cast<unsigned char>(s[i]);
     if (!NeedsEscape(c)) continue;
@@ -49,54 +59,169 @@ void AppendEscaped(absl::string_view s, std::string* out) {
              static_cast<unsigned char>(s[i + 2]) == 0xA9))) {
         continue;
       }
-      out->append(s.data() + run, i - run);
-      out->append(static_cast<unsigned char>(s[i + 2]) == 0xA8 ? "\\u2028"
-                                                              : "\\u2029");
+      flush(i);
+      put(static_cast<unsigned char>(s[i + 2]) == 0xA8 ? "\\u2028"
+                                                      : "\\u2029");
       i += 2;
       run = i + 1;
       continue;
     }
-    out->append(s.data() + run, i - run);
+    flush(i);
     run = i + 1;
     switch (c) {
       case '"':
-        out->append("\\\"");
+        put("\\\"");
         break;
       case '\\':
-        out->append("\\\\");
+        put("\\\\");
         break;
       case '\b':
-        out->append("\\b");
+        put("\\b");
         break;
       case '\t':
-        out->append("\\t");
+        put("\\t");
         break;
       case '\n':
-        out->append("\\n");
+        put("\\n");
         break;
       case '\f':
-        out->append("\\f");
+        put("\\f");
         break;
       case '\r':
-        out->append("\\r");
+        put("\\r");
         break;
       default: {
-        char buf[8];
-        std::snprintf(buf, sizeof(buf), "\\u%04x", c);
-        out->append(buf);
+        static constexpr char kHex[] = "0123456789abcdef";
+        put("\\u00");
+        *out++ = kHex[c >> 4];
+        *out++ = kHex[c & 15];
       }
     }
   }
-  out->append(s.data() + run, s.size() - run);
-  out->push_back('"');
+  flush(s.size());
+  *out++ = '"';
+  return out;
+}
+
+void AppendEscaped(absl::string_view s, std::string* out) {
+  const size_t old = out->size();
+  out->resize(old + JsonStringBound(s.size()));
+  char* end = WriteEscaped(s, &(*out)[old]);
+  out->resize(end - out->data());
+}
+
+static_assert(kJsonDoubleMax == 40);
+constexpr int kDoubleTextMax = kJsonDoubleMax;
+
+using uint128 = unsigned __int128;
+
+constexpr std::array<uint128, 23> PowersOfTen() {
+  std::array<uint128, 23> p{};
+  p[0] = 1;
+  for (size_t i = 1; i < p.size(); ++i) p[i] = p[i - 1] * 10;
+  return p;
+}
+constexpr std::array<uint128, 23> kPow10 = PowersOfTen();
+constexpr double kPow10Double[] = {1e0,  1e1,  1e2,  1e3,  1e4,  1e5,
+                                   1e6,  1e7,  1e8,  1e9,  1e10, 1e11,
+                                   1e12, 1e13, 1e14, 1e15, 1e16, 1e17,
+                                   1e18, 1e19, 1e20, 1e21, 1e22};
+
+// m x 2^-s x 10^k rounded to the nearest integer, ties to even (as printf
+// rounds an exact value). Requires m < 2^53, 1 <= s < 128, k <= 22.
+uint64_t ScaledRound(uint64_t m, int s, int k) {
+  const uint128 n = static_cast<uint128>(m) * kPow10[k];
+  uint128 q = n >> s;
+  const uint128 rest = n - (q << s);
+  const uint128 half = static_cast<uint128>(1) << (s - 1);
+  if (rest > half || (rest == half && (q & 1))) ++q;
+  return static_cast<uint64_t>(q);
+}
+
+// The protobuf printer's text (%.15g if it round-trips, else %.17g) for
+// 10^-4 <= |v| < 10^15, computed exactly: v = m x 2^-s, so the digits of
+// a precision-P rendering are round(m x 10^(P-1-d) / 2^s) for the
+// decimal exponent d, in 128-bit integers. Returns the length written to
+// `buf`, or 0 outside that range (the caller falls back to the library
+// formatter).
+int FormatDoubleInRange(double v, char* buf) {
+  const double a = std::fabs(v);
+  if (!(a >= 1e-4 && a < 1e15)) return 0;
+  uint64_t bits;
+  std::memcpy(&bits, &a, sizeof(bits));
+  const int biased = static_cast<int>(bits >> 52);  // Normal: a >= 1e-4.
+  const uint64_t m = (bits & ((uint64_t{1} << 52) - 1)) | (uint64_t{1} << 52);
+  const int s = 1075 - biased;  // a = m x 2^-s; 3 <= s <= 66 here.
+  if (s < 1 || s > 100) return 0;
+  // Decimal exponent: 10^d <= a < 10^(d+1), settled exactly below.
+  int d = -4;
+  const double shifted = a * 1e4;  // Compared with 10^(d + 5).
+  while (d < 14 && shifted >= kPow10Double[d + 5]) ++d;
+  // `precision` digits of a; adjusts the exponent when the guess or the
+  // rounding crosses a power of ten.
+  auto round_to = [&](int precision, int* exponent) -> uint64_t {
+    int e = *exponent;
+    for (int tries = 0; tries < 3; ++tries) {
+      const int k = precision - 1 - e;
+      if (k < 0 || k > 22) return 0;
+      const uint64_t q = ScaledRound(m, s, k);
+      if (q >= static_cast<uint64_t>(kPow10[precision])) {
+        ++e;
+        continue;
+      }
+      if (q < static_cast<uint64_t>(kPow10[precision - 1])) {
+        --e;
+        continue;
+      }
+      *exponent = e;
+      return q;
+    }
+    return 0;
+  };
+  int exponent = d;
+  int precision = 15;
+  uint64_t q = round_to(15, &exponent);
+  if (q == 0) return 0;
+  // Does the 15-digit text round-trip? q / 10^k is then an exact division
+  // of exactly representable numbers (q < 2^53, k <= 18).
+  const int k15 = 14 - exponent;
+  const double back =
+      k15 >= 0 ? static_cast<double>(q) / kPow10Double[k15] : 0;
+  if (k15 < 0 || back != a) {
+    precision = 17;
+    exponent = d;
+    q = round_to(17, &exponent);
+    if (q == 0) return 0;
+  }
+  if (exponent < -4 || exponent >= precision) return 0;
+  char digits[24];
+  const int n = static_cast<int>(std::to_chars(digits, digits + 24, q).ptr -
+                                 digits);  // == precision
+  int used = n;
+  while (used > 1 && digits[used - 1] == '0') --used;
+  char* p = buf;
+  if (v < 0) *p++ = '-';
+  if (exponent >= 0) {
+    for (int i = 0; i <= exponent; ++i) *p++ = i < used ? digits[i] : '0';
+    if (used > exponent + 1) {
+      *p++ = '.';
+      std::memcpy(p, digits + exponent + 1, used - exponent - 1);
+      p += used - exponent - 1;
+    }
+  } else {
+    *p++ = '0';
+    *p++ = '.';
+    for (int i = 0; i < -exponent - 1; ++i) *p++ = '0';
+    std::memcpy(p, digits, used);
+    p += used;
+  }
+  return static_cast<int>(p - buf);
 }
 
 // Shortest of %.15g / %.17g that round-trips, as the protobuf printer does,
 // written to `buf` (at least kDoubleTextMax bytes); returns the length.
 // std::to_chars with a precision formats exactly as printf would, much
 // faster.
-constexpr int kDoubleTextMax = 40;
-
 int FormatDouble(double v, char* buf) {
   char* const end = buf + kDoubleTextMax;
   auto copy = [buf](absl::string_view text) {
@@ -113,106 +238,20 @@ int FormatDouble(double v, char* buf) {
       return static_cast<int>(std::to_chars(buf, end, whole).ptr - buf);
     }
   }
-  // Short decimals (counts such as 0.69 or 0.125). When v is the double
-  // nearest m / 10^k, those digits round-trip, no other k-place decimal
-  // does (below 10^9 with k <= 6 the double is finer than 10^-k), and
-  // %.15g prints them, as m has at most 15 significant digits.
-  const double magnitude = std::fabs(v);
-  if (magnitude >= 1e-4 && magnitude < 1e9) {
-    static constexpr double kPower[] = {1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6};
-    static constexpr int64_t kIntPower[] = {1,      10,      100,    1000,
-                                            10000, 100000, 1000000};
-    for (int k = 1; k <= 6; ++k) {
-      // The nearest integer, without a libm call; a wrong neighbour only
-      // fails the test below.
-      const int64_t digits =
-          static_cast<int64_t>(magnitude * kPower[k] + 0.5);
-      if (static_cast<double>(digits) / kPower[k] != magnitude) continue;
-      char* p = buf;
-      if (v < 0) *p++ = '-';
-      p = std::to_chars(p, end, digits / kIntPower[k]).ptr;
-      // The fraction's k digits with leading zeros: 10^k + fraction,
-      // written over the '.', whose leading 1 becomes the point.
-      char* const point = p;
-      p = std::to_chars(p, end, kIntPower[k] + digits % kIntPower[k]).ptr;
-      *point = '.';
-      return static_cast<int>(p - buf);
-    }
-  }
-  // Shortest round-trip digits first (fast). When they number 15 or fewer,
-  // %.15g round-trips and prints exactly those digits, so render them in
-  // %g layout here; otherwise %.17g is what the protobuf printer uses.
-  char sci[kDoubleTextMax];
-  const auto sr = std::to_chars(sci, sci + sizeof(sci), v,
-                                std::chars_format::scientific);
-  const char* q = sci;
-  const bool negative = *q == '-';
-  if (negative) ++q;
-  char digits[24];
-  int n = 0;
-  while (q < sr.ptr && *q != 'e') {
-    if (*q != '.') digits[n++] = *q;
-    ++q;
-  }
-  int exponent = 0;
-  std::from_chars(q + 1 + (q[1] == '+' ? 1 : 0), sr.ptr, exponent);
-  while (n > 1 && digits[n - 1] == '0') --n;
-  // Subnormals carry too few bits for the digit argument above; leave them
-  // to the exact formatter.
-  if (std::fabs(v) < std::numeric_limits<double>::min()) {
-    auto r = std::to_chars(buf, end, v, std::chars_format::general, 15);
-    double back = 0;
-    std::from_chars(buf, r.ptr, back);
-    if (back != v) r = std::to_chars(buf, end, v, std::chars_format::general, 17);
-    return static_cast<int>(r.ptr - buf);
-  }
-  if (n == 16) {
-    // No 15-digit form round-trips, so %.15g would not: %.17g it is, and
-    // its 17th digit needs the exact formatter.
-    return static_cast<int>(
-        std::to_chars(buf, end, v, std::chars_format::general, 17).ptr - buf);
-  }
-  // With 17 shortest digits, they are the correctly rounded 17 digits
-  // (those always round-trip, and the shortest form picks the candidate
-  // closest to v), which is what %.17g prints.
-  const int precision = n > 15 ? 17 : 15;
-  char* p = buf;
-  if (negative) *p++ = '-';
-  if (exponent >= -4 && exponent < precision) {
-    if (exponent >= 0) {
-      for (int i = 0; i <= exponent; ++i) *p++ = i < n ? digits[i] : '0';
-      if (n > exponent + 1) {
-        *p++ = '.';
-        std::memcpy(p, digits + exponent + 1, n - exponent - 1);
-        p += n - exponent - 1;
-      }
-    } else {
-      *p++ = '0';
-      *p++ = '.';
-      for (int i = 0; i < -exponent - 1; ++i) *p++ = '0';
-      std::memcpy(p, digits, n);
-      p += n;
-    }
-    return static_cast<int>(p - buf);
-  }
-  *p++ = digits[0];
-  if (n > 1) {
-    *p++ = '.';
-    std::memcpy(p, digits + 1, n - 1);
-    p += n - 1;
-  }
-  *p++ = 'e';
-  *p++ = exponent < 0 ? '-' : '+';
-  const int exponent_magnitude = exponent < 0 ? -exponent : exponent;
-  if (exponent_magnitude < 10) *p++ = '0';
-  p = std::to_chars(p, end, exponent_magnitude).ptr;
-  return static_cast<int>(p - buf);
+  if (const int n = FormatDoubleInRange(v, buf); n > 0) return n;
+  // Elsewhere (tiny, huge or subnormal values, rare in reports), the
+  // printer's rule itself: %.15g if it reads back as v, else %.17g.
+  auto r = std::to_chars(buf, end, v, std::chars_format::general, 15);
+  double back = 0;
+  std::from_chars(buf, r.ptr, back);
+  if (back != v) r = std::to_chars(buf, end, v, std::chars_format::general, 17);
+  return static_cast<int>(r.ptr - buf);
 }
 
 // FormatDouble behind a small per-thread cache keyed by the value's bits.
 // A report's moments come from a few dozen values (sqrt(n(n+2)), the J
 // moments), and most need the slower 17-digit form.
-void AppendDouble(double v, std::string* out) {
+absl::string_view DoubleText(double v, char* scratch) {
   struct Entry {
     uint64_t bits = 0;  // 0 is +0.0, which never reaches the cache.
     int size = 0;
@@ -221,9 +260,7 @@ void AppendDouble(double v, std::string* out) {
   // Whole numbers are cheap already (and many, and would flood the cache).
   if (std::fabs(v) < 1e15 &&
       static_cast<double>(static_cast<int64_t>(v)) == v) {
-    char buf[kDoubleTextMax];
-    out->append(buf, FormatDouble(v, buf));
-    return;
+    return absl::string_view(scratch, FormatDouble(v, scratch));
   }
   thread_local std::array<Entry, 512> cache;
   uint64_t bits;
@@ -233,7 +270,13 @@ void AppendDouble(double v, std::string* out) {
     e.size = FormatDouble(v, e.text);
     e.bits = bits;
   }
-  out->append(e.text, e.size);
+  return absl::string_view(e.text, e.size);
+}
+
+void AppendDouble(double v, std::string* out) {
+  char scratch[kDoubleTextMax];
+  const absl::string_view text = DoubleText(v, scratch);
+  out->append(text.data(), text.size());
 }
 
 void AppendFloat(float v, std::string* out) {
@@ -314,6 +357,17 @@ void AppendJsonString(absl::string_view s, std::string* out) {
 }
 
 void AppendJsonDouble(double v, std::string* out) { AppendDouble(v, out); }
+
+char* WriteJsonString(absl::string_view s, char* out) {
+  return WriteEscaped(s, out);
+}
+
+char* WriteJsonDouble(double v, char* out) {
+  char scratch[kDoubleTextMax];
+  const absl::string_view text = DoubleText(v, scratch);
+  std::memcpy(out, text.data(), text.size());
+  return out + text.size();
+}
 
 void AppendCompactJson(const Message& message, std::string* out) {
   const auto* descriptor = message.GetDescriptor();

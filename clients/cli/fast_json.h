@@ -17,6 +17,7 @@
 #ifndef SHELLWRIGHT_CLIENTS_CLI_FAST_JSON_H_
 #define SHELLWRIGHT_CLIENTS_CLI_FAST_JSON_H_
 
+#include <cstddef>
 #include <string>
 
 #include "google/protobuf/message.h"
@@ -35,6 +36,13 @@ void AppendCompactJson(const google::protobuf::Message& message,
 // that round-trips).
 void AppendJsonString(absl::string_view s, std::string* out);
 void AppendJsonDouble(double v, std::string* out);
+
+// The same, written at `out`, which must have room for
+// JsonStringBound(s.size()) or kJsonDoubleMax bytes; return the end.
+constexpr size_t JsonStringBound(size_t size) { return 6 * size + 2; }
+inline constexpr size_t kJsonDoubleMax = 40;
+char* WriteJsonString(absl::string_view s, char* out);
+char* WriteJsonDouble(double v, char* out);
 
 }  // namespace shellwright::cli
 

@@ -1,6 +1,8 @@
 #include "clients/cli/report_lines.h"
 
+#include <algorithm>
 #include <array>
+#include <charconv>
 #include <cstdint>
 #include <cstring>
 
@@ -12,36 +14,101 @@
 namespace shellwright::cli {
 namespace {
 
+// Writes one JSON line through a raw pointer into reused storage, so that
+// the many short pieces of a report cost no bounds-checked appends; the
+// finished line goes to its destination in one copy.
+class LineWriter {
+ public:
+  explicit LineWriter(std::string* storage) : storage_(storage) {
+    if (storage_->size() < 4096) storage_->resize(4096);
+    p_ = &(*storage_)[0];
+    end_ = p_ + storage_->size();
+  }
+  LineWriter(const LineWriter&) = delete;
+  LineWriter& operator=(const LineWriter&) = delete;
+
+  template <size_t N>
+  void Lit(const char (&text)[N]) {
+    Reserve(N - 1);
+    std::memcpy(p_, text, N - 1);
+    p_ += N - 1;
+  }
+  void Raw(absl::string_view text) {
+    Reserve(text.size());
+    std::memcpy(p_, text.data(), text.size());
+    p_ += text.size();
+  }
+  void Char(char c) {
+    Reserve(1);
+    *p_++ = c;
+  }
+  void String(absl::string_view v) {
+    Reserve(JsonStringBound(v.size()));
+    p_ = WriteJsonString(v, p_);
+  }
+  void Double(double v) {
+    Reserve(kJsonDoubleMax);
+    p_ = WriteJsonDouble(v, p_);
+  }
+  void Int(int64_t v) {
+    Reserve(24);
+    p_ = std::to_chars(p_, p_ + 24, v).ptr;
+  }
+  absl::string_view text() const {
+    return absl::string_view(storage_->data(), p_ - storage_->data());
+  }
+
+ private:
+  void Reserve(size_t n) {
+    if (static_cast<size_t>(end_ - p_) < n) Grow(n);
+  }
+  void Grow(size_t n) {
+    const size_t used = p_ - storage_->data();
+    storage_->resize(std::max(2 * storage_->size(), used + n));
+    p_ = &(*storage_)[0] + used;
+    end_ = &(*storage_)[0] + storage_->size();
+  }
+
+  std::string* storage_;
+  char* p_;
+  char* end_;
+};
+
 // JSON members in the protobuf printer's order: declaration order, every
 // field printed (the RecordReport tree has no presence fields). `key` is
 // the quoted name with its colon and, after an object's first member, the
 // comma before it: ",\"state\":".
-void Key(absl::string_view key, std::string* out) {
-  out->append(key.data(), key.size());
+template <size_t N>
+void Str(const char (&key)[N], absl::string_view v, LineWriter* out) {
+  out->Lit(key);
+  out->String(v);
 }
-void Str(absl::string_view key, absl::string_view v, std::string* out) {
-  Key(key, out);
-  AppendJsonString(v, out);
+template <size_t N>
+void Int(const char (&key)[N], int32_t v, LineWriter* out) {
+  out->Lit(key);
+  out->Int(v);
 }
-void Int(absl::string_view key, int32_t v, std::string* out) {
-  Key(key, out);
-  absl::StrAppend(out, v);
+template <size_t N>
+void Dbl(const char (&key)[N], double v, LineWriter* out) {
+  out->Lit(key);
+  out->Double(v);
 }
-void Dbl(absl::string_view key, double v, std::string* out) {
-  Key(key, out);
-  AppendJsonDouble(v, out);
-}
-void Bool(absl::string_view key, bool v, std::string* out) {
-  Key(key, out);
-  out->append(v ? "true" : "false");
+template <size_t N>
+void Bool(const char (&key)[N], bool v, LineWriter* out) {
+  out->Lit(key);
+  if (v) {
+    out->Lit("true");
+  } else {
+    out->Lit("false");
+  }
 }
 
 // Writes `items` as the members of a JSON array, `write(item, out)` each.
 template <typename Items, typename Write>
-void Each(const Items& items, Write write, std::string* out) {
+void Each(const Items& items, Write write, LineWriter* out) {
   bool first = true;
   for (const auto& item : items) {
-    if (!first) out->push_back(',');
+    if (!first) out->Char(',');
     first = false;
     write(item, out);
   }
@@ -99,43 +166,46 @@ ReportFields FieldsOf(const CompositionReport& r,
 
 void DiagnosticJson(absl::string_view severity, absl::string_view code,
                     absl::string_view message, int32_t column,
-                    std::string* out) {
+                    LineWriter* out) {
   Str("{\"severity\":", severity, out);
   Str(",\"code\":", code, out);
   Str(",\"message\":", message, out);
   Int(",\"column\":", column, out);
-  out->push_back('}');
+  out->Char('}');
 }
 
 void StateJson(absl::string_view element, int32_t state, double count,
                absl::string_view count_exact, bool common, bool declared,
-               std::string* out) {
+               LineWriter* out) {
   Str("{\"element\":", element, out);
   Int(",\"state\":", state, out);
   Dbl(",\"count\":", count, out);
   Str(",\"count_exact\":", count_exact, out);
   Bool(",\"common\":", common, out);
   Bool(",\"declared\":", declared, out);
-  out->push_back('}');
+  out->Char('}');
 }
 
-void ProtoStateJson(const v1::OxidationState& s, std::string* out) {
+void ProtoStateJson(const v1::OxidationState& s, LineWriter* out) {
   StateJson(s.element(), s.state(), s.count(), s.count_exact(), s.common(),
             s.declared(), out);
 }
 
 // "7/20" or "2", as Rational::ToString writes it, without a temporary.
-void AppendExact(const Rational& r, std::string* out) {
-  out->push_back('"');
-  absl::StrAppend(out, r.num());
-  if (r.den() != 1) absl::StrAppend(out, "/", r.den());
-  out->push_back('"');
+void AppendExact(const Rational& r, LineWriter* out) {
+  out->Char('"');
+  out->Int(r.num());
+  if (r.den() != 1) {
+    out->Char('/');
+    out->Int(r.den());
+  }
+  out->Char('"');
 }
 
 // An engine state's JSON: the text around its count and exact count
 // depends only on the element, state and flags, so each thread keeps it,
 // cut from StateJson's own output.
-void EngineStateJson(const AssignedState& s, std::string* out) {
+void EngineStateJson(const AssignedState& s, LineWriter* out) {
   struct Entry {
     const Element* element = nullptr;
     int state = 0;
@@ -151,9 +221,10 @@ void EngineStateJson(const AssignedState& s, std::string* out) {
                    cache.size()];
   if (e.element != s.element || e.state != s.state || e.common != s.common ||
       e.declared != s.declared) {
-    std::string text;
-    StateJson(s.element->symbol, s.state, 0, "", s.common, s.declared,
-              &text);
+    std::string storage;
+    LineWriter w(&storage);
+    StateJson(s.element->symbol, s.state, 0, "", s.common, s.declared, &w);
+    const std::string text(w.text());
     constexpr char kCount[] = ",\"count\":0";
     constexpr char kExact[] = ",\"count_exact\":\"\"";
     const size_t count_at = text.find(kCount);
@@ -166,27 +237,27 @@ void EngineStateJson(const AssignedState& s, std::string* out) {
     e.middle = text.substr(exact_at, sizeof(kExact) - 3);
     e.tail = text.substr(exact_at + sizeof(kExact) - 1);
   }
-  out->append(e.head);
-  AppendJsonDouble(s.count.ToDouble(), out);
-  out->append(e.middle);
+  out->Raw(e.head);
+  out->Double(s.count.ToDouble());
+  out->Raw(e.middle);
   AppendExact(s.count, out);
-  out->append(e.tail);
+  out->Raw(e.tail);
 }
 
 // `states` writes the members of the oxidation_states array.
 template <typename States>
 void AssignmentJson(States states, double score, int32_t uncommon,
-                    int32_t inconsistencies, std::string* out) {
-  Key("{\"oxidation_states\":[", out);
+                    int32_t inconsistencies, LineWriter* out) {
+  out->Lit("{\"oxidation_states\":[");
   states(out);
-  out->push_back(']');
+  out->Char(']');
   Dbl(",\"score\":", score, out);
   Int(",\"uncommon_states\":", uncommon, out);
   Int(",\"electronegativity_inconsistencies\":", inconsistencies, out);
-  out->push_back('}');
+  out->Char('}');
 }
 
-void IonJson(const v1::IonReport& i, std::string* out) {
+void IonJson(const v1::IonReport& i, LineWriter* out) {
   Str("{\"element\":", i.element(), out);
   Int(",\"state\":", i.state(), out);
   Dbl(",\"count\":", i.count(), out);
@@ -201,7 +272,7 @@ void IonJson(const v1::IonReport& i, std::string* out) {
   Str(",\"moment_basis\":", i.moment_basis(), out);
   Dbl(",\"moment_low\":", i.moment_low(), out);
   Dbl(",\"moment_high\":", i.moment_high(), out);
-  out->push_back('}');
+  out->Char('}');
 }
 
 uint64_t Bits(double v) {
@@ -215,7 +286,7 @@ uint64_t Bits(double v) {
 // ions come from a few hundred of those, so each thread keeps the text on
 // either side of the count, made by the proto path itself. An entry holds
 // its description, so the pointer it is keyed by stays valid.
-void EngineIonJson(const IonAnnotation& ion, std::string* out) {
+void EngineIonJson(const IonAnnotation& ion, LineWriter* out) {
   struct Entry {
     AtomDescriptionPtr description;
     const Element* element = nullptr;
@@ -238,8 +309,10 @@ void EngineIonJson(const IonAnnotation& ion, std::string* out) {
       e.high != high) {
     thread_local v1::IonReport proto;
     IonAnnotationToProto(ion, &proto);
-    std::string text;
-    IonJson(proto, &text);
+    std::string storage;
+    LineWriter w(&storage);
+    IonJson(proto, &w);
+    const std::string text(w.text());
     constexpr char kCount[] = ",\"count\":";
     const size_t head_end = text.find(kCount) + sizeof(kCount) - 1;
     const size_t tail_start = text.find(",\"species\":", head_end);
@@ -252,39 +325,39 @@ void EngineIonJson(const IonAnnotation& ion, std::string* out) {
     e.head = text.substr(0, head_end);
     e.tail = text.substr(tail_start);
   }
-  out->append(e.head);
-  AppendJsonDouble(ion.count.ToDouble(), out);
-  out->append(e.tail);
+  out->Raw(e.head);
+  out->Double(ion.count.ToDouble());
+  out->Raw(e.tail);
 }
 
 // The report object. Each callback writes the members of one array.
 template <typename Diagnostics, typename States, typename Alternatives,
           typename Ions>
 void ReportJson(const ReportFields& f, Diagnostics diagnostics, States states,
-                Alternatives alternatives, Ions ions, std::string* out) {
+                Alternatives alternatives, Ions ions, LineWriter* out) {
   Str("{\"id\":", f.id, out);
   Bool(",\"valid\":", f.valid, out);
   Int(",\"row\":", f.row, out);
   Str(",\"formula\":", f.formula, out);
   Str(",\"composition_kind\":", f.kind, out);
-  Key(",\"diagnostics\":[", out);
+  out->Lit(",\"diagnostics\":[");
   diagnostics(out);
-  Key("],\"oxidation_states\":[", out);
+  out->Lit("],\"oxidation_states\":[");
   states(out);
-  Key("]", out);
+  out->Lit("]");
   Dbl(",\"score\":", f.score, out);
-  Key(",\"alternatives\":[", out);
+  out->Lit(",\"alternatives\":[");
   alternatives(out);
-  Key("],\"ions\":[", out);
+  out->Lit("],\"ions\":[");
   ions(out);
-  Key("]", out);
+  out->Lit("]");
   Dbl(",\"unpaired_per_formula_unit\":", f.unpaired, out);
   Dbl(",\"effective_moment_per_formula_unit\":", f.effective_moment, out);
   Dbl(",\"expected_moment_low\":", f.moment_low, out);
   Dbl(",\"expected_moment_high\":", f.moment_high, out);
   Dbl(",\"curie_constant\":", f.curie_constant, out);
   Dbl(",\"valence_electron_concentration\":", f.vec, out);
-  Key("}\n", out);
+  out->Lit("}\n");
 }
 
 // Appends `field`, quoted when it holds a comma, a quote or a line break.
@@ -386,24 +459,26 @@ void AppendReportLine(ReportLineFormat format, const v1::RecordReport& r,
         out);
     return;
   }
+  thread_local std::string storage;
+  LineWriter w(&storage);
   ReportJson(
       f,
-      [&](std::string* o) {
+      [&](LineWriter* o) {
         Each(
             r.diagnostics(),
-            [](const v1::Diagnostic& d, std::string* o) {
+            [](const v1::Diagnostic& d, LineWriter* o) {
               DiagnosticJson(d.severity(), d.code(), d.message(), d.column(),
                              o);
             },
             o);
       },
-      [&](std::string* o) { Each(r.oxidation_states(), ProtoStateJson, o); },
-      [&](std::string* o) {
+      [&](LineWriter* o) { Each(r.oxidation_states(), ProtoStateJson, o); },
+      [&](LineWriter* o) {
         Each(
             r.alternatives(),
-            [](const v1::OxidationAssignment& a, std::string* o) {
+            [](const v1::OxidationAssignment& a, LineWriter* o) {
               AssignmentJson(
-                  [&](std::string* o) {
+                  [&](LineWriter* o) {
                     Each(a.oxidation_states(), ProtoStateJson, o);
                   },
                   a.score(), a.uncommon_states(),
@@ -411,7 +486,8 @@ void AppendReportLine(ReportLineFormat format, const v1::RecordReport& r,
             },
             o);
       },
-      [&](std::string* o) { Each(r.ions(), IonJson, o); }, out);
+      [&](LineWriter* o) { Each(r.ions(), IonJson, o); }, &w);
+  out->append(w.text().data(), w.text().size());
 }
 
 void AppendReportLine(ReportLineFormat format, const CompositionReport& r,
@@ -438,36 +514,39 @@ void AppendReportLine(ReportLineFormat format, const CompositionReport& r,
         out);
     return;
   }
+  thread_local std::string storage;
+  LineWriter w(&storage);
   ReportJson(
       f,
-      [&](std::string* o) {
+      [&](LineWriter* o) {
         Each(
             r.diagnostics,
-            [](const Diagnostic& d, std::string* o) {
+            [](const Diagnostic& d, LineWriter* o) {
               DiagnosticJson(SeverityName(d.severity), d.code, d.message,
                              d.column, o);
             },
             o);
       },
-      [&](std::string* o) {
+      [&](LineWriter* o) {
         if (assigned) Each(r.assignment->states, EngineStateJson, o);
       },
-      [&](std::string* o) {
+      [&](LineWriter* o) {
         if (!assigned) return;
         Each(
             r.alternatives,
-            [](const OxidationAssignment& a, std::string* o) {
+            [](const OxidationAssignment& a, LineWriter* o) {
               AssignmentJson(
-                  [&](std::string* o) { Each(a.states, EngineStateJson, o); },
+                  [&](LineWriter* o) { Each(a.states, EngineStateJson, o); },
                   a.score, a.uncommon_states,
                   a.electronegativity_inconsistencies, o);
             },
             o);
       },
-      [&](std::string* o) {
+      [&](LineWriter* o) {
         if (assigned) Each(r.ions, EngineIonJson, o);
       },
-      out);
+      &w);
+  out->append(w.text().data(), w.text().size());
 }
 
 }  // namespace shellwright::cli

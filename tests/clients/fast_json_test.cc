@@ -4,9 +4,12 @@
 
 #include "clients/cli/fast_json.h"
 
+#include <cmath>
+#include <cstdlib>
 #include <random>
 #include <string>
 
+#include "absl/strings/str_format.h"
 #include "clients/cli/atom_format.h"
 #include "gtest/gtest.h"
 #include "server/convert.h"
@@ -19,6 +22,53 @@ std::string Fast(const google::protobuf::Message& m) {
   std::string out;
   AppendCompactJson(m, &out);
   return out;
+}
+
+// The protobuf printer's rule for doubles, restated with printf: %.15g if
+// it reads back as the same value, else %.17g.
+std::string PrintfRule(double v) {
+  std::string text = absl::StrFormat("%.15g", v);
+  if (std::strtod(text.c_str(), nullptr) != v) {
+    text = absl::StrFormat("%.17g", v);
+  }
+  return text;
+}
+
+std::string FastDouble(double v) {
+  std::string out;
+  AppendJsonDouble(v, &out);
+  return out;
+}
+
+TEST(FastJson, DoublesFollowThePrintfRuleAcrossTheExactRange) {
+  std::mt19937_64 rng(2026);
+  std::uniform_real_distribution<double> mantissa(1, 10);
+  for (int i = 0; i < 300000; ++i) {
+    // Every decade of the exact path (1e-4 to 1e15) and a little beyond,
+    // with 1 to 17 significant digits.
+    const int decade = static_cast<int>(rng() % 21) - 5;
+    double v = mantissa(rng) * std::pow(10.0, decade);
+    const int digits = 1 + static_cast<int>(rng() % 17);
+    v = std::stod(absl::StrFormat("%.*g", digits, v));
+    if (rng() % 2) v = -v;
+    ASSERT_EQ(FastDouble(v), PrintfRule(v)) << absl::StrFormat("%.17g", v);
+  }
+  // Around powers of ten and the range ends, where the decimal exponent
+  // and the rounding can cross over.
+  for (int e = -5; e <= 16; ++e) {
+    const double p = std::pow(10.0, e);
+    double v = p;
+    for (int step = 0; step < 40; ++step) v = std::nextafter(v, 0.0);
+    for (int step = 0; step < 80; ++step) {
+      ASSERT_EQ(FastDouble(v), PrintfRule(v)) << absl::StrFormat("%.17g", v);
+      v = std::nextafter(v, 1e300);
+    }
+  }
+  for (double v : {0.99999999999999994, 9.9999999999999995e-5, 1e-4,
+                   999999999999999.88, 0.5, 0.25, 0.125, 2.5e-4,
+                   1.0000000000000002, 0.30000000000000004}) {
+    EXPECT_EQ(FastDouble(v), PrintfRule(v)) << absl::StrFormat("%.17g", v);
+  }
 }
 
 TEST(FastJson, MatchesTheProtobufPrinterOnAllAsciiAndSpecialCharacters) {
