@@ -5,7 +5,6 @@
 #include <array>
 #include <limits>
 #include <numeric>
-#include <set>
 
 #include "absl/container/inlined_vector.h"
 #include "absl/strings/str_cat.h"
