@@ -5,6 +5,7 @@
 
 #include "clients/cli/report_lines.h"
 
+#include <algorithm>
 #include <fstream>
 #include <random>
 #include <string>
@@ -128,11 +129,15 @@ std::vector<v1::CompositionRecord> Records() {
   add("Xx2O3");
   add("");
   add("CuSO4.5H2O");
+  // A line far above the writer's initial 4 KB: many ions, alternatives.
+  add("LiNaKRbCsMgCaSrBaScYLaTiZrHfVNbTaCrMoWMnFeCoNiCuZnAlGaInSnPbO40")
+      .set_max_alternatives(5);
   return out;
 }
 
 TEST(ReportLines, EngineLinesEqualTheProtoPathsLines) {
   const std::vector<v1::CompositionRecord> records = Records();
+  size_t longest = 0;
   // Twice over, so that the second pass reads the per-thread ion cache.
   for (int pass = 0; pass < 2; ++pass) {
     for (const v1::CompositionRecord& record : records) {
@@ -146,9 +151,11 @@ TEST(ReportLines, EngineLinesEqualTheProtoPathsLines) {
         AppendReportLine(format, report, record, &engine);
         ASSERT_EQ(engine, ProtoLine(proto, format))
             << record.id() << " " << record.formula();
+        longest = std::max(longest, engine.size());
       }
     }
   }
+  EXPECT_GT(longest, 3 * 4096u);  // The writer's storage had to grow.
 }
 
 TEST(ReportLines, CsvLineHasOneFieldPerHeaderColumn) {
