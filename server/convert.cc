@@ -131,11 +131,11 @@ void AtomDescriptionToProto(const AtomDescription& d,
     // Ions start from the neutral ground configuration, which for some
     // elements (Gd, Cu, Cr, ...) is a measured exception.
     const absl::string_view neutral = MadelungExceptionSource(e.atomic_number);
-    source = neutral.empty()
-                 ? "ion rule applied to Madelung filling"
-                 : absl::StrCat("ion rule applied to the measured neutral "
-                                "configuration (",
-                                neutral, ")");
+    source = neutral.empty() ? "ion rule applied to Madelung filling"
+                             : absl::StrCat(
+                                   "ion rule applied to the measured neutral "
+                                   "configuration (",
+                                   neutral, ")");
   }
   out->set_configuration_source(source);
 

@@ -45,13 +45,16 @@ class LineParser {
  public:
   LineParser(RecordFormat format, const CsvRecordReader& csv,
              int default_alternatives)
-      : format_(format), csv_(csv), default_alternatives_(default_alternatives) {}
+      : format_(format),
+        csv_(csv),
+        default_alternatives_(default_alternatives) {}
 
   Item Parse(absl::string_view line, int row, bool too_long) {
     ParsedLine p;
     if (too_long) {
-      p = TooLongLine(line, row,
-                      format_ == RecordFormat::kCsv && csv_.id_is_first_column());
+      p = TooLongLine(
+          line, row,
+          format_ == RecordFormat::kCsv && csv_.id_is_first_column());
     } else if (format_ == RecordFormat::kJsonl) {
       p = ParseJsonLine(line, row);
     } else {
@@ -78,8 +81,8 @@ struct Batch {
   std::string lines;  // The batch's input lines, back to back.
   std::vector<LineRef> refs;
   std::vector<Item> items;  // Remote mode: the parsed lines.
-  v1::ReportBatch reply;  // Remote mode: the server's answer.
-  std::string text;  // Formatted output lines.
+  v1::ReportBatch reply;    // Remote mode: the server's answer.
+  std::string text;         // Formatted output lines.
   CheckSummary summary;
 };
 
@@ -140,9 +143,7 @@ class OrderedSink {
   explicit OrderedSink(int64_t window) : window_(window) {}
   void Put(Batch batch) {
     std::unique_lock<std::mutex> lock(mu_);
-    room_.wait(lock, [&] {
-      return batch.seq < next_ + window_ || cancelled_;
-    });
+    room_.wait(lock, [&] { return batch.seq < next_ + window_ || cancelled_; });
     if (cancelled_) return;
     const int64_t seq = batch.seq;
     done_.emplace(seq, std::move(batch));
@@ -214,16 +215,18 @@ void Count(bool valid, const Diagnostics& diagnostics, CodeOf code_of,
 // Formats one report into its batch's output and counts it.
 void Emit(RecordFormat output, const v1::RecordReport& r, Batch* b) {
   AppendReportLine(LineFormat(output), r, &b->text);
-  Count(r.valid(), r.diagnostics(),
-        [](const v1::Diagnostic& d) -> const std::string& { return d.code(); },
-        b);
+  Count(
+      r.valid(), r.diagnostics(),
+      [](const v1::Diagnostic& d) -> const std::string& { return d.code(); },
+      b);
 }
 
 void Emit(RecordFormat output, const CompositionReport& r,
           const v1::CompositionRecord& record, Batch* b) {
   AppendReportLine(LineFormat(output), r, record, &b->text);
-  Count(r.valid, r.diagnostics,
-        [](const Diagnostic& d) -> const std::string& { return d.code; }, b);
+  Count(
+      r.valid, r.diagnostics,
+      [](const Diagnostic& d) -> const std::string& { return d.code; }, b);
 }
 
 // Drops a formatted batch's input, records and replies.
@@ -250,8 +253,9 @@ std::string FormatSummary(const CheckSummary& s) {
   for (const auto& [code, count] : s.by_code) {
     absl::StrAppendFormat(&out, "  %-36s %d\n", code, count);
   }
-  out += "Moments and spin states are idealised estimates; verify them "
-         "against measurement.\n";
+  out +=
+      "Moments and spin states are idealised estimates; verify them "
+      "against measurement.\n";
   return out;
 }
 
@@ -265,9 +269,9 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
   if (in_format == RecordFormat::kAuto) {
     in_format = FormatFromPath(options.input, RecordFormat::kAuto);
     if (in_format == RecordFormat::kAuto) {
-      return absl::InvalidArgumentError(absl::StrCat(
-          "cannot tell the format of '", options.input,
-          "' from its name; give --format csv or --format jsonl"));
+      return absl::InvalidArgumentError(
+          absl::StrCat("cannot tell the format of '", options.input,
+                       "' from its name; give --format csv or --format jsonl"));
     }
   }
   RecordFormat out_format = options.output_format;
@@ -365,8 +369,8 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
     while (!failed && source.Next(&line, &row, &too_long)) {
       bytes_read = source.bytes_read();
       if (line.empty()) continue;
-      batch.refs.push_back(LineRef{batch.lines.size(), line.size(), row,
-                                   too_long});
+      batch.refs.push_back(
+          LineRef{batch.lines.size(), line.size(), row, too_long});
       batch.lines += line;
       if (static_cast<int>(batch.refs.size()) == batch_size && !flush()) {
         break;
@@ -490,7 +494,8 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
         break;
       }
     }
-    if (options.progress && absl::Now() - last_progress > absl::Milliseconds(250)) {
+    if (options.progress &&
+        absl::Now() - last_progress > absl::Milliseconds(250)) {
       last_progress = absl::Now();
       const double seconds = absl::ToDoubleSeconds(last_progress - start);
       const double rate = seconds > 0 ? summary.rows / seconds : 0;
@@ -500,13 +505,13 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
             std::min(1.0, static_cast<double>(bytes_read) / input_size);
         const int width = 30;
         const int filled = static_cast<int>(fraction * width);
-        eta = absl::StrFormat("[%s%s] ETA %.0fs", std::string(filled, '#'),
-                              std::string(width - filled, '.'),
-                              fraction > 0 ? seconds * (1 - fraction) / fraction
-                                           : 0.0);
+        eta = absl::StrFormat(
+            "[%s%s] ETA %.0fs", std::string(filled, '#'),
+            std::string(width - filled, '.'),
+            fraction > 0 ? seconds * (1 - fraction) / fraction : 0.0);
       }
-      log << absl::StrFormat("\r%d rows, %.0f rows/s %s   ", summary.rows,
-                             rate, eta)
+      log << absl::StrFormat("\r%d rows, %.0f rows/s %s   ", summary.rows, rate,
+                             eta)
           << std::flush;
     }
   }

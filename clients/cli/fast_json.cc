@@ -2,10 +2,10 @@
 
 #include <array>
 #include <charconv>
-#include <cstring>
 #include <cmath>
 #include <cstdio>
 #include <cstdlib>
+#include <cstring>
 #include <limits>
 
 #include "absl/container/flat_hash_map.h"
@@ -27,8 +27,8 @@ struct EscapeTable {
   bool needs[256];
   constexpr EscapeTable() : needs() {
     for (int c = 0; c < 256; ++c) {
-      needs[c] = c < 0x20 || c == '"' || c == '\\' || c == 0x7f ||
-                 c == '<' || c == '>' || c == 0xE2;
+      needs[c] = c < 0x20 || c == '"' || c == '\\' || c == 0x7f || c == '<' ||
+                 c == '>' || c == 0xE2;
     }
   }
 };
@@ -60,8 +60,7 @@ char* WriteEscaped(absl::string_view s, char* out) {
         continue;
       }
       flush(i);
-      put(static_cast<unsigned char>(s[i + 2]) == 0xA8 ? "\\u2028"
-                                                      : "\\u2029");
+      put(static_cast<unsigned char>(s[i + 2]) == 0xA8 ? "\\u2028" : "\\u2029");
       i += 2;
       run = i + 1;
       continue;
@@ -122,10 +121,9 @@ constexpr std::array<uint128, 23> PowersOfTen() {
   return p;
 }
 constexpr std::array<uint128, 23> kPow10 = PowersOfTen();
-constexpr double kPow10Double[] = {1e0,  1e1,  1e2,  1e3,  1e4,  1e5,
-                                   1e6,  1e7,  1e8,  1e9,  1e10, 1e11,
-                                   1e12, 1e13, 1e14, 1e15, 1e16, 1e17,
-                                   1e18, 1e19, 1e20, 1e21, 1e22};
+constexpr double kPow10Double[] = {
+    1e0,  1e1,  1e2,  1e3,  1e4,  1e5,  1e6,  1e7,  1e8,  1e9,  1e10, 1e11,
+    1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22};
 
 // m x 2^-s x 10^k rounded to the nearest integer, ties to even (as printf
 // rounds an exact value). Requires m < 2^53, 1 <= s < 128, k <= 22.
@@ -185,8 +183,7 @@ int FormatDoubleInRange(double v, char* buf) {
   // Does the 15-digit text round-trip? q / 10^k is then an exact division
   // of exactly representable numbers (q < 2^53, k <= 18).
   const int k15 = 14 - exponent;
-  const double back =
-      k15 >= 0 ? static_cast<double>(q) / kPow10Double[k15] : 0;
+  const double back = k15 >= 0 ? static_cast<double>(q) / kPow10Double[k15] : 0;
   if (k15 < 0 || back != a) {
     precision = 17;
     exponent = d;
@@ -297,24 +294,22 @@ void AppendValue(const Message& m, const Reflection& r,
   const bool rep = f.is_repeated();
   switch (f.cpp_type()) {
     case FieldDescriptor::CPPTYPE_INT32:
-      absl::StrAppend(out, rep ? r.GetRepeatedInt32(m, &f, index)
-                               : r.GetInt32(m, &f));
+      absl::StrAppend(
+          out, rep ? r.GetRepeatedInt32(m, &f, index) : r.GetInt32(m, &f));
       break;
     case FieldDescriptor::CPPTYPE_UINT32:
-      absl::StrAppend(out, rep ? r.GetRepeatedUInt32(m, &f, index)
-                               : r.GetUInt32(m, &f));
+      absl::StrAppend(
+          out, rep ? r.GetRepeatedUInt32(m, &f, index) : r.GetUInt32(m, &f));
       break;
     case FieldDescriptor::CPPTYPE_INT64:
-      absl::StrAppend(out, "\"",
-                      rep ? r.GetRepeatedInt64(m, &f, index)
-                          : r.GetInt64(m, &f),
-                      "\"");
+      absl::StrAppend(
+          out, "\"", rep ? r.GetRepeatedInt64(m, &f, index) : r.GetInt64(m, &f),
+          "\"");
       break;
     case FieldDescriptor::CPPTYPE_UINT64:
-      absl::StrAppend(out, "\"",
-                      rep ? r.GetRepeatedUInt64(m, &f, index)
-                          : r.GetUInt64(m, &f),
-                      "\"");
+      absl::StrAppend(
+          out, "\"",
+          rep ? r.GetRepeatedUInt64(m, &f, index) : r.GetUInt64(m, &f), "\"");
       break;
     case FieldDescriptor::CPPTYPE_DOUBLE:
       AppendDouble(rep ? r.GetRepeatedDouble(m, &f, index) : r.GetDouble(m, &f),

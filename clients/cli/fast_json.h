@@ -20,8 +20,8 @@
 #include <cstddef>
 #include <string>
 
-#include "google/protobuf/message.h"
 #include "absl/strings/string_view.h"
+#include "google/protobuf/message.h"
 
 namespace shellwright::cli {
 

@@ -79,7 +79,8 @@ bool LineSource::Fill() {
   in_->read(buffer_.data(), static_cast<std::streamsize>(buffer_.size()));
   end_ = static_cast<size_t>(in_->gcount());
   pos_ = 0;
-  if (at_start_ && end_ >= 3 && static_cast<unsigned char>(buffer_[0]) == 0xEF &&
+  if (at_start_ && end_ >= 3 &&
+      static_cast<unsigned char>(buffer_[0]) == 0xEF &&
       static_cast<unsigned char>(buffer_[1]) == 0xBB &&
       static_cast<unsigned char>(buffer_[2]) == 0xBF) {
     pos_ = 3;
@@ -104,10 +105,11 @@ bool LineSource::Next(std::string* line, int* line_no, bool* too_long) {
     if (pos_ == end_ && !Fill()) break;
     any = true;
     const char* start = buffer_.data() + pos_;
-    const char* nl = static_cast<const char*>(
-        std::memchr(start, '\n', end_ - pos_));
+    const char* nl =
+        static_cast<const char*>(std::memchr(start, '\n', end_ - pos_));
     const size_t len = nl ? static_cast<size_t>(nl - start) : end_ - pos_;
-    const size_t room = kMaxLineBytes + 1 - std::min(line->size(), kMaxLineBytes + 1);
+    const size_t room =
+        kMaxLineBytes + 1 - std::min(line->size(), kMaxLineBytes + 1);
     line->append(start, std::min(len, room));
     if (line->size() > kMaxLineBytes) {
       line->resize(kMaxLineBytes);
@@ -209,10 +211,15 @@ bool SplitCsvLine(absl::string_view line, std::vector<std::string>* fields,
 }
 
 absl::Status CsvRecordReader::ReadHeader(absl::string_view line) {
-  static constexpr const char* kNames[kColumns] = {
-      "id",          "formula",         "charge",
-      "declared_states", "geometry",    "spin_state",
-      "measured_moment", "moment_tolerance", "max_alternatives"};
+  static constexpr const char* kNames[kColumns] = {"id",
+                                                   "formula",
+                                                   "charge",
+                                                   "declared_states",
+                                                   "geometry",
+                                                   "spin_state",
+                                                   "measured_moment",
+                                                   "moment_tolerance",
+                                                   "max_alternatives"};
   std::vector<std::string> columns;
   std::string error;
   if (!SplitCsvLine(line, &columns, &error)) {
@@ -278,8 +285,7 @@ ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) {
     return p;
   }
   // Spaces around a value are CSV padding, not part of the formula.
-  const absl::string_view formula =
-      absl::StripAsciiWhitespace(Field(kFormula));
+  const absl::string_view formula = absl::StripAsciiWhitespace(Field(kFormula));
   if (formula.size() != p.record.formula().size()) {
     p.record.set_formula(std::string(formula));
   }
@@ -306,8 +312,8 @@ ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) {
     if (v.empty()) return true;
     double value = 0;
     if (!absl::SimpleAtod(v, &value) || !std::isfinite(value)) {
-      p.error = absl::StrCat("column '", name, "': '", Clip(v),
-                             "' is not a number");
+      p.error =
+          absl::StrCat("column '", name, "': '", Clip(v), "' is not a number");
       return false;
     }
     setter(value);
@@ -342,8 +348,9 @@ ParsedLine ParseJsonLine(absl::string_view line, int row) {
     auto status =
         google::protobuf::util::JsonStringToMessage(text, &p.record, options);
     if (!status.ok()) {
-      p.error = absl::StrCat("not a valid JSON record: ",
-                             Clip(FirstLine(std::string(status.message())), 120));
+      p.error =
+          absl::StrCat("not a valid JSON record: ",
+                       Clip(FirstLine(std::string(status.message())), 120));
       p.record.Clear();
     } else if (absl::StripAsciiWhitespace(p.record.id()).empty()) {
       p.error = "the id field is missing or empty";

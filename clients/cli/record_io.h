@@ -85,8 +85,8 @@ class LineSource {
 };
 
 struct ParsedLine {
-  v1::CompositionRecord record;  // row and whatever could be read.
-  std::string error;             // Non-empty for a malformed line.
+  v1::CompositionRecord record;     // row and whatever could be read.
+  std::string error;                // Non-empty for a malformed line.
   bool unterminated_quote = false;  // CSV: a quoted field runs past the end.
 };
 

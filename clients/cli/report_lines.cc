@@ -149,9 +149,9 @@ ReportFields FieldsOf(const v1::RecordReport& r) {
 // verdict, echoes and diagnostics are set.
 ReportFields FieldsOf(const CompositionReport& r,
                       const v1::CompositionRecord& record) {
-  ReportFields f{r.id, r.valid, record.row(), EchoedFormula(record), "",
-                 0,    0,       0,            0,                     0,
-                 0,    0};
+  ReportFields f{
+      r.id, r.valid, record.row(), EchoedFormula(record), "", 0, 0, 0, 0, 0,
+      0,    0};
   if (!r.assignment.has_value()) return f;
   f.kind = CompositionKindName(r.kind);
   f.score = r.assignment->score;

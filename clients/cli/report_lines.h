@@ -37,8 +37,7 @@ void AppendReportLine(ReportLineFormat format, const v1::RecordReport& report,
 // The same line as for RecordReportToProto(report, record) (server/
 // convert.h), written from the engine report; `record` supplies the echoed
 // row and formula.
-void AppendReportLine(ReportLineFormat format,
-                      const CompositionReport& report,
+void AppendReportLine(ReportLineFormat format, const CompositionReport& report,
                       const v1::CompositionRecord& record, std::string* out);
 
 }  // namespace shellwright::cli

@@ -64,9 +64,9 @@ TEST(FastJson, DoublesFollowThePrintfRuleAcrossTheExactRange) {
       v = std::nextafter(v, 1e300);
     }
   }
-  for (double v : {0.99999999999999994, 9.9999999999999995e-5, 1e-4,
-                   999999999999999.88, 0.5, 0.25, 0.125, 2.5e-4,
-                   1.0000000000000002, 0.30000000000000004}) {
+  for (double v :
+       {0.99999999999999994, 9.9999999999999995e-5, 1e-4, 999999999999999.88,
+        0.5, 0.25, 0.125, 2.5e-4, 1.0000000000000002, 0.30000000000000004}) {
     EXPECT_EQ(FastDouble(v), PrintfRule(v)) << absl::StrFormat("%.17g", v);
   }
 }
@@ -84,14 +84,13 @@ TEST(FastJson, MatchesTheProtobufPrinterOnAllAsciiAndSpecialCharacters) {
 TEST(FastJson, MatchesOnDoublesOfEveryShape) {
   std::mt19937_64 rng(7);
   std::uniform_real_distribution<double> unit(0, 1);
-  const double fixed[] = {0,      0.1,   1.0 / 3, 2.5,    1e21,  1e-7,
-                          123456789012345678.0, -0.0,  5e-324, 1.7976931348623157e308,
-                          7.9372539331937721, 4.898979485566356,
-                          // Around the switch between fixed and exponent
-                          // layout, and 15 vs 16-17 significant digits.
-                          1e-5, 0.0001, 0.00012345, 5.5e-5, 1e14 + 0.5,
-                          999999999999999.9, 1e15, 1e16, 123456789012345.6,
-                          0.1 + 0.2, 2.2250738585072014e-308, 1.0 / 7};
+  const double fixed[] = {
+      0, 0.1, 1.0 / 3, 2.5, 1e21, 1e-7, 123456789012345678.0, -0.0, 5e-324,
+      1.7976931348623157e308, 7.9372539331937721, 4.898979485566356,
+      // Around the switch between fixed and exponent
+      // layout, and 15 vs 16-17 significant digits.
+      1e-5, 0.0001, 0.00012345, 5.5e-5, 1e14 + 0.5, 999999999999999.9, 1e15,
+      1e16, 123456789012345.6, 0.1 + 0.2, 2.2250738585072014e-308, 1.0 / 7};
   for (double v : fixed) {
     v1::RecordReport r;
     r.set_score(v);
@@ -113,14 +112,15 @@ TEST(FastJson, MatchesOnDoublesOfEveryShape) {
                 (rng() % 2 ? 1 : -1));
     r.set_curie_constant(static_cast<double>(rng() % 100000) /
                          std::pow(10.0, 1 + static_cast<int>(rng() % 9)));
-    EXPECT_EQ(Fast(r), ToJson(r, false)) << r.score() << " " << r.curie_constant();
+    EXPECT_EQ(Fast(r), ToJson(r, false))
+        << r.score() << " " << r.curie_constant();
   }
 }
 
 TEST(FastJson, MatchesOnRealReportsAndDescriptions) {
   for (const char* formula :
-       {"Fe3O4", "La0.7Sr0.3MnO3", "CuSO4·5H2O", "Fe2O3)", "NaF2",
-        "AlCoCrFeNi", "K3[Fe(CN)6]", "Li0.5CoO2", "Gd2O3", "Pb3O4"}) {
+       {"Fe3O4", "La0.7Sr0.3MnO3", "CuSO4·5H2O", "Fe2O3)", "NaF2", "AlCoCrFeNi",
+        "K3[Fe(CN)6]", "Li0.5CoO2", "Gd2O3", "Pb3O4"}) {
     v1::CompositionRecord record;
     record.set_id(std::string("id-") + formula);
     record.set_formula(formula);

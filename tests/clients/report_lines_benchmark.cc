@@ -67,8 +67,8 @@ const Analysed& Reports() {
 
 void BM_EngineReportLine(benchmark::State& state) {
   const Analysed& a = Reports();
-  const auto format = state.range(0) == 0 ? ReportLineFormat::kJsonl
-                                          : ReportLineFormat::kCsv;
+  const auto format =
+      state.range(0) == 0 ? ReportLineFormat::kJsonl : ReportLineFormat::kCsv;
   std::string text;
   size_t i = 0, bytes = 0;
   for (auto _ : state) {

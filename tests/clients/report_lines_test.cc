@@ -76,7 +76,8 @@ void Populate(google::protobuf::Message* m, int depth, std::mt19937* rng) {
   }
 }
 
-TEST(ReportLines, JsonFromTheProtoMatchesTheProtobufPrinterOnFullyPopulatedReports) {
+TEST(ReportLines,
+     JsonFromTheProtoMatchesTheProtobufPrinterOnFullyPopulatedReports) {
   std::mt19937 rng(11);
   for (int i = 0; i < 50; ++i) {
     v1::RecordReport r;
@@ -88,7 +89,6 @@ TEST(ReportLines, JsonFromTheProtoMatchesTheProtobufPrinterOnFullyPopulatedRepor
   v1::RecordReport empty;
   EXPECT_EQ(ProtoLine(empty), ToJson(empty, false) + "\n");
 }
-
 
 // Records of every shape the engine answers: the demo registry (typos,
 // unbalanced formulas, wrong declared states, implausible moments) and
