@@ -71,7 +71,8 @@ bool ParseElementList(absl::string_view text, absl::string_view what,
       }
     }
     T parsed;
-    const absl::string_view v = absl::StripAsciiWhitespace(item.substr(colon + 1));
+    const absl::string_view v =
+        absl::StripAsciiWhitespace(item.substr(colon + 1));
     if (!value(v, &parsed)) {
       *error = absl::StrCat(what, " value ", QuoteForMessage(v), " for ",
                             e->symbol, " is not valid");
@@ -153,20 +154,20 @@ RangeEnds FindRangeEnds(const Element* e, int state) {
 }
 
 // Annotates every assigned state with its ion and moment range.
-void Annotate(const std::vector<std::pair<const Element*, Geometry>>& geometry,
-              const std::vector<std::pair<const Element*, SpinStatePreference>>&
-                  spin,
-              CompositionReport* r) {
+void Annotate(
+    const std::vector<std::pair<const Element*, Geometry>>& geometry,
+    const std::vector<std::pair<const Element*, SpinStatePreference>>& spin,
+    CompositionReport* r) {
   r->ions.reserve(r->assignment->states.size());
   for (const AssignedState& s : r->assignment->states) {
     const Geometry* g_set = FindSetting(geometry, s.element);
     const SpinStatePreference* s_set = FindSetting(spin, s.element);
     const bool d_block = s.element->block == Block::kD;
-    const Geometry g =
-        g_set != nullptr ? *g_set
-                         : (d_block && r->kind == CompositionKind::kIonic
-                                ? Geometry::kOctahedral
-                                : Geometry::kFree);
+    const Geometry g = g_set != nullptr
+                           ? *g_set
+                           : (d_block && r->kind == CompositionKind::kIonic
+                                  ? Geometry::kOctahedral
+                                  : Geometry::kFree);
     const SpinStatePreference sp =
         s_set != nullptr ? *s_set : SpinStatePreference::kAuto;
     absl::StatusOr<AtomDescriptionPtr> d =
@@ -285,10 +286,19 @@ void Summarise(const Formula& formula, CompositionReport* r) {
 }  // namespace
 
 double CurieConstantPerMomentSquared() {
-  constexpr double kAvogadro = 6.02214076e23;      // 1/mol, CODATA 2018.
+  constexpr double kAvogadro = 6.02214076e23;         // 1/mol, CODATA 2018.
   constexpr double kBohrMagneton = 9.2740100783e-21;  // erg/G, CODATA 2018.
-  constexpr double kBoltzmann = 1.380649e-16;      // erg/K, CODATA 2018.
+  constexpr double kBoltzmann = 1.380649e-16;         // erg/K, CODATA 2018.
   return kAvogadro * kBohrMagneton * kBohrMagneton / (3.0 * kBoltzmann);
+}
+
+absl::string_view Utf8Prefix(absl::string_view text, size_t max_bytes) {
+  if (text.size() <= max_bytes) return text;
+  size_t n = max_bytes;
+  // text[n] is the first byte left out: a continuation byte there means
+  // the cut falls inside a character.
+  while (n > 0 && (static_cast<unsigned char>(text[n]) & 0xC0) == 0x80) --n;
+  return text.substr(0, n);
 }
 
 absl::string_view SeverityName(Severity s) {
@@ -308,7 +318,7 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
   r.diagnostics.reserve(4);  // Enough for most records.
   r.id = input.id;
   if (r.id.size() > kMaxRecordIdLength) {
-    r.id.resize(kMaxRecordIdLength);
+    r.id.resize(Utf8Prefix(r.id, kMaxRecordIdLength).size());
     Add(&r, Severity::kError, "id_too_long",
         absl::StrCat("id is ", input.id.size(), " bytes, above the limit of ",
                      kMaxRecordIdLength, "; truncated"));
@@ -400,10 +410,10 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
   if (!solved->best.has_value()) {
     if (solved->without_declared.has_value()) {
       Add(&r, Severity::kError, "declared_state_contradicts_balance",
-          absl::StrCat("the declared states cannot balance ",
-                       input.formula, " to net charge ", options.net_charge,
-                       "; without them: ",
-                       AssignmentText(*solved->without_declared)));
+          absl::StrCat(
+              "the declared states cannot balance ", input.formula,
+              " to net charge ", options.net_charge,
+              "; without them: ", AssignmentText(*solved->without_declared)));
     } else {
       Add(&r, Severity::kError, "charge_not_balanced",
           absl::StrCat("no combination of known oxidation states balances ",
@@ -427,10 +437,10 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     if (unconstrained.ok() && unconstrained->best.has_value() &&
         forced > unconstrained->best->uncommon_states) {
       Add(&r, Severity::kError, "declared_state_contradicts_balance",
-          absl::StrCat("the declared states balance ", input.formula,
-                       " only with uncommon states (",
-                       AssignmentText(*solved->best), "); without them: ",
-                       AssignmentText(*unconstrained->best)));
+          absl::StrCat(
+              "the declared states balance ", input.formula,
+              " only with uncommon states (", AssignmentText(*solved->best),
+              "); without them: ", AssignmentText(*unconstrained->best)));
       return finish();
     }
   }

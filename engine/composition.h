@@ -111,6 +111,11 @@ struct CompositionReport {
   double valence_electron_concentration = 0;
 };
 
+// The longest prefix of `text` of at most `max_bytes` bytes that does not
+// end inside a UTF-8 sequence: ids and echoed formulas are cut with it, so
+// a cut never leaves text that proto strings would reject.
+absl::string_view Utf8Prefix(absl::string_view text, size_t max_bytes);
+
 // Validates and annotates one record. Never fails: every problem, from an
 // unparseable formula to an implausible moment, is a Diagnostic in the
 // returned report, whose id is the input's (cut to kMaxRecordIdLength).

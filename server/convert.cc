@@ -318,8 +318,7 @@ void IonAnnotationToProto(const IonAnnotation& ion, v1::IonReport* p) {
 }
 
 absl::string_view EchoedFormula(const v1::CompositionRecord& record) {
-  absl::string_view f = record.formula();
-  return f.substr(0, std::min(f.size(), kMaxFormulaLength));
+  return Utf8Prefix(record.formula(), kMaxFormulaLength);
 }
 
 void RecordReportToProto(const CompositionReport& r,

@@ -12,6 +12,7 @@
 #include "absl/strings/str_join.h"
 #include "absl/strings/strip.h"
 #include "clients/cli/atom_format.h"
+#include "engine/composition.h"
 #include "google/protobuf/util/json_util.h"
 
 namespace shellwright::cli {
@@ -362,7 +363,7 @@ ParsedLine ParseJsonLine(absl::string_view line, int row) {
 
 v1::RecordReport MalformedRecordReport(const ParsedLine& line) {
   v1::RecordReport r;
-  r.set_id(line.record.id().substr(0, 256));
+  r.set_id(std::string(Utf8Prefix(line.record.id(), kMaxRecordIdLength)));
   r.set_row(line.record.row());
   r.set_formula(line.record.formula().substr(0, 1024));
   r.set_valid(false);

@@ -7,10 +7,10 @@
 #include <string>
 #include <vector>
 
-#include "gmock/gmock.h"
-#include "gtest/gtest.h"
 #include "engine/oxidation.h"
 #include "engine/rational.h"
+#include "gmock/gmock.h"
+#include "gtest/gtest.h"
 
 namespace shellwright {
 namespace {
@@ -83,8 +83,8 @@ TEST(Composition, MagnetiteUnpairedElectronsAndMoments) {
   EXPECT_EQ(r.ions[2].state, -2);
   EXPECT_EQ(r.ions[2].description->unpaired_electrons, 0);
   // μ_eff = √(Σ count x μ²) with spin-only μ: √(24 + 2 x 35) = √94.
-  const double mu = std::sqrt(1 * SpinOnly(4) * SpinOnly(4) +
-                              2 * SpinOnly(5) * SpinOnly(5));
+  const double mu =
+      std::sqrt(1 * SpinOnly(4) * SpinOnly(4) + 2 * SpinOnly(5) * SpinOnly(5));
   EXPECT_NEAR(r.effective_moment_per_formula_unit, mu, 1e-6);
   EXPECT_NEAR(mu, std::sqrt(1 * 4.90 * 4.90 + 2 * 5.92 * 5.92), 0.01);
   // Molar Curie constant C = N_A μB² μ² / (3 kB) = 0.12505 μ² emu K/mol
@@ -229,9 +229,9 @@ TEST(Composition, MalformedElementSettings) {
     const char* geometry;
     const char* spin;
   };
-  for (const Case& c : {Case{"Co:cubic", ""}, Case{"Co", ""},
-                        Case{"Zz:octahedral", ""}, Case{"", "Co:medium"},
-                        Case{"", "Co:low,Co:high"}, Case{"", "low"}}) {
+  for (const Case& c :
+       {Case{"Co:cubic", ""}, Case{"Co", ""}, Case{"Zz:octahedral", ""},
+        Case{"", "Co:medium"}, Case{"", "Co:low,Co:high"}, Case{"", "low"}}) {
     SCOPED_TRACE(std::string(c.geometry) + " | " + c.spin);
     CompositionInput in = Record("LiCoO2");
     in.geometry = c.geometry;
@@ -414,6 +414,30 @@ TEST(Composition, OverlongIdIsAnError) {
   CompositionReport ok = Analyze(in);
   EXPECT_TRUE(ok.valid) << DiagnosticsText(ok);
   EXPECT_EQ(ok.id, in.id);
+
+  // A cut never splits a character: "é" is two bytes and would straddle
+  // the limit.
+  in.id = std::string(kMaxRecordIdLength - 1, 'a') + "\xc3\xa9";
+  CompositionReport cut = Analyze(in);
+  EXPECT_EQ(cut.id, std::string(kMaxRecordIdLength - 1, 'a'));
+}
+
+TEST(Composition, Utf8PrefixStopsAtCharacterBoundaries) {
+  EXPECT_EQ(Utf8Prefix("Fe3O4", 10), "Fe3O4");
+  EXPECT_EQ(Utf8Prefix("Fe3O4", 3), "Fe3");
+  // "CuSO4·5H2O": the middle dot is the two bytes c2 b7 at offsets 5, 6.
+  EXPECT_EQ(Utf8Prefix("CuSO4\xc2\xb7"
+                       "5H2O",
+                       6),
+            "CuSO4");
+  EXPECT_EQ(Utf8Prefix("CuSO4\xc2\xb7"
+                       "5H2O",
+                       7),
+            "CuSO4\xc2\xb7");
+  // A three-byte character (U+2028) cut after one or two bytes.
+  EXPECT_EQ(Utf8Prefix("a\xe2\x80\xa8", 2), "a");
+  EXPECT_EQ(Utf8Prefix("a\xe2\x80\xa8", 3), "a");
+  EXPECT_EQ(Utf8Prefix("", 0), "");
 }
 
 // ---------------------------------------------------------------------------

@@ -156,9 +156,36 @@ TEST(Shellwrightd, CheckThroughTheServerMatchesInProcessByteForByte) {
   // The demo registry holds every kind of defect, including broken CSV
   // lines that the CLI answers locally, so this covers the merge of local
   // and streamed reports too.
+  const std::string input = std::string(SHELLWRIGHT_DEFAULT_SOURCE_DIR) +
+                            "/data/demo/sample_registry.csv";
+  std::unique_ptr<ServerProcess> server = StartShellwrightd({});
+  ASSERT_NE(server, nullptr);
+  for (const char* format : {"jsonl", "csv"}) {
+    SCOPED_TRACE(format);
+    CommandResult local = RunCommand(
+        {CliPath(), "check", input, "--out", "-", "--out-format", format});
+    CommandResult remote = RunCommand(
+        {CliPath(), "--server", server->address(), "check", input, "--out", "-",
+         "--out-format", format, "--batch-size", "137"});
+    EXPECT_EQ(local.exit_code, 1);  // The registry has invalid records.
+    EXPECT_EQ(remote.exit_code, local.exit_code) << remote.err;
+    EXPECT_EQ(remote.out, local.out);
+    EXPECT_EQ(remote.err, local.err);
+    EXPECT_GE(std::count(local.out.begin(), local.out.end(), '\n'), 3000);
+  }
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+}
+
+TEST(Shellwrightd, CheckThroughTheServerSurvivesCutsInsideCharacters) {
+  // An id and a formula whose length limits fall inside a two-byte
+  // character: the echoed text must stay valid UTF-8, or the reply would
+  // not parse and the whole run would fail.
+  TempDir dir;
   const std::string input =
-      std::string(SHELLWRIGHT_DEFAULT_SOURCE_DIR) +
-      "/data/demo/sample_registry.csv";
+      dir.Write("cuts.csv", absl::StrCat("id,formula\n", std::string(255, 'a'),
+                                         "\xc3\xa9,Fe3O4\n", "long-formula,",
+                                         std::string(1023, 'C'),
+                                         "\xc2\xb7H2O\n", "fine,Fe2O3\n"));
   std::unique_ptr<ServerProcess> server = StartShellwrightd({});
   ASSERT_NE(server, nullptr);
   for (const char* format : {"jsonl", "csv"}) {
@@ -167,13 +194,12 @@ TEST(Shellwrightd, CheckThroughTheServerMatchesInProcessByteForByte) {
         {CliPath(), "check", input, "--out", "-", "--out-format", format});
     CommandResult remote =
         RunCommand({CliPath(), "--server", server->address(), "check", input,
-                    "--out", "-", "--out-format", format, "--batch-size",
-                    "137"});
-    EXPECT_EQ(local.exit_code, 1);  // The registry has invalid records.
+                    "--out", "-", "--out-format", format});
+    EXPECT_EQ(local.exit_code, 1);  // Both cut records are errors.
     EXPECT_EQ(remote.exit_code, local.exit_code) << remote.err;
     EXPECT_EQ(remote.out, local.out);
-    EXPECT_EQ(remote.err, local.err);
-    EXPECT_GE(std::count(local.out.begin(), local.out.end(), '\n'), 3000);
+    EXPECT_EQ(std::count(local.out.begin(), local.out.end(), '\n'),
+              format == std::string("csv") ? 4 : 3);
   }
   EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
 }
