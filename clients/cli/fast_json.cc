@@ -3,22 +3,12 @@
 #include <array>
 #include <charconv>
 #include <cmath>
-#include <cstdio>
-#include <cstdlib>
 #include <cstring>
-#include <limits>
 
-#include "absl/container/flat_hash_map.h"
-#include "absl/strings/str_cat.h"
 #include "absl/strings/string_view.h"
-#include "google/protobuf/descriptor.h"
 
 namespace shellwright::cli {
 namespace {
-
-using google::protobuf::FieldDescriptor;
-using google::protobuf::Message;
-using google::protobuf::Reflection;
 
 // The protobuf printer's escaping: short escapes for \b \t \n \f \r, \"
 // and \\; \u00XX for other control characters, DEL, '<' and '>'; \u2028
@@ -37,7 +27,7 @@ constexpr EscapeTable kEscape;
 inline bool NeedsEscape(unsigned char c) { return kEscape.needs[c]; }
 
 // Writes `s` quoted and escaped at `out`, which has room for
-// kEscapedBound(s.size()) bytes; returns the end.
+// JsonStringBound(s.size()) bytes; returns the end.
 char* WriteEscaped(absl::string_view s, char* out) {
   *out++ = '"';
   size_t run = 0;  // Start of the pending run of plain bytes.
@@ -102,16 +92,6 @@ char* WriteEscaped(absl::string_view s, char* out) {
   return out;
 }
 
-void AppendEscaped(absl::string_view s, std::string* out) {
-  const size_t old = out->size();
-  out->resize(old + JsonStringBound(s.size()));
-  char* end = WriteEscaped(s, &(*out)[old]);
-  out->resize(end - out->data());
-}
-
-static_assert(kJsonDoubleMax == 40);
-constexpr int kDoubleTextMax = kJsonDoubleMax;
-
 using uint128 = unsigned __int128;
 
 constexpr std::array<uint128, 23> PowersOfTen() {
@@ -150,7 +130,6 @@ int FormatDoubleInRange(double v, char* buf) {
   const int biased = static_cast<int>(bits >> 52);  // Normal: a >= 1e-4.
   const uint64_t m = (bits & ((uint64_t{1} << 52) - 1)) | (uint64_t{1} << 52);
   const int s = 1075 - biased;  // a = m x 2^-s; 3 <= s <= 66 here.
-  if (s < 1 || s > 100) return 0;
   // Decimal exponent: 10^d <= a < 10^(d+1), settled exactly below.
   int d = -4;
   const double shifted = a * 1e4;  // Compared with 10^(d + 5).
@@ -216,11 +195,11 @@ int FormatDoubleInRange(double v, char* buf) {
 }
 
 // Shortest of %.15g / %.17g that round-trips, as the protobuf printer does,
-// written to `buf` (at least kDoubleTextMax bytes); returns the length.
+// written to `buf` (at least kJsonDoubleMax bytes); returns the length.
 // std::to_chars with a precision formats exactly as printf would, much
 // faster.
 int FormatDouble(double v, char* buf) {
-  char* const end = buf + kDoubleTextMax;
+  char* const end = buf + kJsonDoubleMax;
   auto copy = [buf](absl::string_view text) {
     std::memcpy(buf, text.data(), text.size());
     return static_cast<int>(text.size());
@@ -252,7 +231,7 @@ absl::string_view DoubleText(double v, char* scratch) {
   struct Entry {
     uint64_t bits = 0;  // 0 is +0.0, which never reaches the cache.
     int size = 0;
-    char text[kDoubleTextMax];
+    char text[kJsonDoubleMax];
   };
   // Whole numbers are cheap already (and many, and would flood the cache).
   if (std::fabs(v) < 1e15 &&
@@ -270,152 +249,17 @@ absl::string_view DoubleText(double v, char* scratch) {
   return absl::string_view(e.text, e.size);
 }
 
-void AppendDouble(double v, std::string* out) {
-  char scratch[kDoubleTextMax];
-  const absl::string_view text = DoubleText(v, scratch);
-  out->append(text.data(), text.size());
-}
-
-void AppendFloat(float v, std::string* out) {
-  if (std::isnan(v) || std::isinf(v)) {
-    AppendDouble(v, out);
-    return;
-  }
-  char buf[40];
-  std::snprintf(buf, sizeof(buf), "%.6g", v);
-  if (std::strtof(buf, nullptr) != v) {
-    std::snprintf(buf, sizeof(buf), "%.9g", v);
-  }
-  out->append(buf);
-}
-
-void AppendValue(const Message& m, const Reflection& r,
-                 const FieldDescriptor& f, int index, std::string* out) {
-  const bool rep = f.is_repeated();
-  switch (f.cpp_type()) {
-    case FieldDescriptor::CPPTYPE_INT32:
-      absl::StrAppend(
-          out, rep ? r.GetRepeatedInt32(m, &f, index) : r.GetInt32(m, &f));
-      break;
-    case FieldDescriptor::CPPTYPE_UINT32:
-      absl::StrAppend(
-          out, rep ? r.GetRepeatedUInt32(m, &f, index) : r.GetUInt32(m, &f));
-      break;
-    case FieldDescriptor::CPPTYPE_INT64:
-      absl::StrAppend(
-          out, "\"", rep ? r.GetRepeatedInt64(m, &f, index) : r.GetInt64(m, &f),
-          "\"");
-      break;
-    case FieldDescriptor::CPPTYPE_UINT64:
-      absl::StrAppend(
-          out, "\"",
-          rep ? r.GetRepeatedUInt64(m, &f, index) : r.GetUInt64(m, &f), "\"");
-      break;
-    case FieldDescriptor::CPPTYPE_DOUBLE:
-      AppendDouble(rep ? r.GetRepeatedDouble(m, &f, index) : r.GetDouble(m, &f),
-                   out);
-      break;
-    case FieldDescriptor::CPPTYPE_FLOAT:
-      AppendFloat(rep ? r.GetRepeatedFloat(m, &f, index) : r.GetFloat(m, &f),
-                  out);
-      break;
-    case FieldDescriptor::CPPTYPE_BOOL:
-      out->append((rep ? r.GetRepeatedBool(m, &f, index) : r.GetBool(m, &f))
-                      ? "true"
-                      : "false");
-      break;
-    case FieldDescriptor::CPPTYPE_ENUM: {
-      const auto* value =
-          rep ? r.GetRepeatedEnum(m, &f, index) : r.GetEnum(m, &f);
-      AppendEscaped(value->name(), out);
-      break;
-    }
-    case FieldDescriptor::CPPTYPE_STRING: {
-      std::string scratch;
-      const std::string& s =
-          rep ? r.GetRepeatedStringReference(m, &f, index, &scratch)
-              : r.GetStringReference(m, &f, &scratch);
-      AppendEscaped(s, out);
-      break;
-    }
-    case FieldDescriptor::CPPTYPE_MESSAGE:
-      AppendCompactJson(
-          rep ? r.GetRepeatedMessage(m, &f, index) : r.GetMessage(m, &f), out);
-      break;
-  }
-}
-
 }  // namespace
-
-void AppendJsonString(absl::string_view s, std::string* out) {
-  AppendEscaped(s, out);
-}
-
-void AppendJsonDouble(double v, std::string* out) { AppendDouble(v, out); }
 
 char* WriteJsonString(absl::string_view s, char* out) {
   return WriteEscaped(s, out);
 }
 
 char* WriteJsonDouble(double v, char* out) {
-  char scratch[kDoubleTextMax];
+  char scratch[kJsonDoubleMax];
   const absl::string_view text = DoubleText(v, scratch);
   std::memcpy(out, text.data(), text.size());
   return out + text.size();
-}
-
-void AppendCompactJson(const Message& message, std::string* out) {
-  const auto* descriptor = message.GetDescriptor();
-  const Reflection* r = message.GetReflection();
-  out->push_back('{');
-  bool first = true;
-  // Field names never change: escape each once per thread.
-  thread_local absl::flat_hash_map<const FieldDescriptor*, std::string> keys;
-  auto key = [&](const FieldDescriptor* f) {
-    if (!first) out->push_back(',');
-    first = false;
-    auto it = keys.find(f);
-    if (it == keys.end()) {
-      std::string k;
-      AppendEscaped(f->name(), &k);
-      k.push_back(':');
-      it = keys.emplace(f, std::move(k)).first;
-    }
-    out->append(it->second);
-  };
-  // The protobuf printer emits, in declaration order, repeated fields,
-  // plain scalars (always) and set message fields; then the set scalars
-  // that track presence (proto3 optional and oneof members), again in
-  // declaration order.
-  auto scalar_with_presence = [](const FieldDescriptor* f) {
-    return !f->is_repeated() && f->has_presence() &&
-           f->cpp_type() != FieldDescriptor::CPPTYPE_MESSAGE;
-  };
-  for (int i = 0; i < descriptor->field_count(); ++i) {
-    const FieldDescriptor* f = descriptor->field(i);
-    if (f->is_repeated()) {
-      key(f);
-      out->push_back('[');
-      const int n = r->FieldSize(message, f);
-      for (int k = 0; k < n; ++k) {
-        if (k > 0) out->push_back(',');
-        AppendValue(message, *r, *f, k, out);
-      }
-      out->push_back(']');
-      continue;
-    }
-    if (scalar_with_presence(f)) continue;
-    if (f->has_presence() && !r->HasField(message, f)) continue;
-    key(f);
-    AppendValue(message, *r, *f, -1, out);
-  }
-  for (int i = 0; i < descriptor->field_count(); ++i) {
-    const FieldDescriptor* f = descriptor->field(i);
-    if (!scalar_with_presence(f) || !r->HasField(message, f)) continue;
-    key(f);
-    AppendValue(message, *r, *f, -1, out);
-  }
-  out->push_back('}');
 }
 
 }  // namespace shellwright::cli

@@ -1,18 +1,20 @@
-// A fast JSON printer for shellwright.v1 messages, byte-identical to the
-// protobuf JSON printer with the CLI's options (proto field names, every
-// default-valued primitive field printed, no whitespace).
-//
-// `check` prints one report per record; the protobuf printer builds a tree
-// of default values for every message it prints and costs about 100 µs per
-// report here, which would dominate a batch run. This printer walks the
-// message with reflection straight into a string. Tests compare its output
-// with the protobuf printer's on every kind of field and character.
+// JSON strings and numbers written exactly as the protobuf JSON printer
+// writes them, fast, into raw buffers: `check`'s report lines
+// (clients/cli/report_lines.h) are built from these, one report per input
+// row, where the protobuf printer would cost about 100 µs per report.
+//   - Strings: quoted; short escapes for \b \t \n \f \r \" and \\;
+//     \u00XX for other control characters, DEL, '<' and '>'; \u2028 and
+//     \u2029; other valid UTF-8 as is.
+//   - Doubles: %.15g when that reads back as the same value, else %.17g;
+//     NaN and infinities as the strings "NaN", "Infinity", "-Infinity".
+// Tests compare both with the protobuf printer and with printf.
 //
 // Example:
-//   std::string line;
-//   shellwright::cli::AppendCompactJson(report, &line);
+//   char buf[shellwright::cli::kJsonDoubleMax];
+//   char* end = shellwright::cli::WriteJsonDouble(0.1 + 0.2, buf);
+//   // [buf, end) is 0.30000000000000004
 //
-// Thread safety: thread-safe.
+// Thread safety: thread-safe (a per-thread cache of formatted doubles).
 
 #ifndef SHELLWRIGHT_CLIENTS_CLI_FAST_JSON_H_
 #define SHELLWRIGHT_CLIENTS_CLI_FAST_JSON_H_
@@ -21,23 +23,10 @@
 #include <string>
 
 #include "absl/strings/string_view.h"
-#include "google/protobuf/message.h"
 
 namespace shellwright::cli {
 
-// Appends the compact JSON form of `message` to `out`. Map fields and the
-// well-known wrapper types are not supported (the shellwright.v1 schema
-// uses neither).
-void AppendCompactJson(const google::protobuf::Message& message,
-                       std::string* out);
-
-// A quoted, escaped JSON string and a JSON number, exactly as the
-// protobuf printer writes them (doubles: the shorter of %.15g and %.17g
-// that round-trips).
-void AppendJsonString(absl::string_view s, std::string* out);
-void AppendJsonDouble(double v, std::string* out);
-
-// The same, written at `out`, which must have room for
+// Write `s` quoted and escaped, or `v`, at `out`, which must have room for
 // JsonStringBound(s.size()) or kJsonDoubleMax bytes; return the end.
 constexpr size_t JsonStringBound(size_t size) { return 6 * size + 2; }
 inline constexpr size_t kJsonDoubleMax = 40;

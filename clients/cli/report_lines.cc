@@ -389,7 +389,8 @@ void ReportCsv(const ReportFields& f, States states, Codes codes,
   list.clear();
   states(&list);
   CsvField(list, out);
-  // StrAppend prints doubles exactly as %.6g does.
+  // StrAppend prints doubles as %.6g does (but for the sign of a NaN,
+  // which reports never hold).
   for (double v : {f.score, f.unpaired, f.effective_moment, f.moment_low,
                    f.moment_high, f.curie_constant, f.vec}) {
     absl::StrAppend(out, ",", v);
@@ -403,26 +404,32 @@ void ReportCsv(const ReportFields& f, States states, Codes codes,
   out->push_back('\n');
 }
 
+// Appends `separator` to a joined list, except before its first item.
+void Separate(absl::string_view separator, bool* first, std::string* list) {
+  if (!*first) list->append(separator.data(), separator.size());
+  *first = false;
+}
+
 void CsvState(absl::string_view element, int state, absl::string_view exact,
-              std::string* list) {
-  if (!list->empty()) list->push_back(' ');
+              bool* first, std::string* list) {
+  Separate(" ", first, list);
   absl::StrAppend(list, element, ":", state, "x", exact);
 }
 
-void CsvState(const AssignedState& s, std::string* list) {
-  if (!list->empty()) list->push_back(' ');
+void CsvState(const AssignedState& s, bool* first, std::string* list) {
+  Separate(" ", first, list);
   absl::StrAppend(list, s.element->symbol, ":", s.state, "x", s.count.num());
   if (s.count.den() != 1) absl::StrAppend(list, "/", s.count.den());
 }
 
-void CsvCode(absl::string_view code, std::string* list) {
-  if (!list->empty()) list->push_back(';');
+void CsvCode(absl::string_view code, bool* first, std::string* list) {
+  Separate(";", first, list);
   list->append(code.data(), code.size());
 }
 
 void CsvMessage(absl::string_view severity, absl::string_view message,
-                std::string* list) {
-  if (!list->empty()) list->append(" | ");
+                bool* first, std::string* list) {
+  Separate(" | ", first, list);
   absl::StrAppend(list, severity, ": ", message);
 }
 
@@ -442,18 +449,21 @@ void AppendReportLine(ReportLineFormat format, const v1::RecordReport& r,
     ReportCsv(
         f,
         [&](std::string* list) {
+          bool first = true;
           for (const v1::OxidationState& s : r.oxidation_states()) {
-            CsvState(s.element(), s.state(), s.count_exact(), list);
+            CsvState(s.element(), s.state(), s.count_exact(), &first, list);
           }
         },
         [&](std::string* list) {
+          bool first = true;
           for (const v1::Diagnostic& d : r.diagnostics()) {
-            CsvCode(d.code(), list);
+            CsvCode(d.code(), &first, list);
           }
         },
         [&](std::string* list) {
+          bool first = true;
           for (const v1::Diagnostic& d : r.diagnostics()) {
-            CsvMessage(d.severity(), d.message(), list);
+            CsvMessage(d.severity(), d.message(), &first, list);
           }
         },
         out);
@@ -498,17 +508,22 @@ void AppendReportLine(ReportLineFormat format, const CompositionReport& r,
     ReportCsv(
         f,
         [&](std::string* list) {
+          bool first = true;
           if (!assigned) return;
           for (const AssignedState& s : r.assignment->states) {
-            CsvState(s, list);
+            CsvState(s, &first, list);
           }
         },
         [&](std::string* list) {
-          for (const Diagnostic& d : r.diagnostics) CsvCode(d.code, list);
+          bool first = true;
+          for (const Diagnostic& d : r.diagnostics) {
+            CsvCode(d.code, &first, list);
+          }
         },
         [&](std::string* list) {
+          bool first = true;
           for (const Diagnostic& d : r.diagnostics) {
-            CsvMessage(SeverityName(d.severity), d.message, list);
+            CsvMessage(SeverityName(d.severity), d.message, &first, list);
           }
         },
         out);
