@@ -340,6 +340,9 @@ int64_t FloorDiv(int64_t a, int64_t b) {
 }
 int64_t CeilDiv(int64_t a, int64_t b) { return -FloorDiv(-a, b); }
 
+// Whether a bounded search dropped anything, and where (see Solve).
+enum class Pruning { kNone, kAtStart, kInSearch };
+
 // Dynamic programming over charge totals. Element `wide` (every element
 // for kAllWide) takes its wide candidates, the others their narrow ones.
 //
@@ -355,8 +358,6 @@ int64_t CeilDiv(int64_t a, int64_t b) { return -FloorDiv(-a, b); }
 // `wide` must take one of its uncommon candidates. `pruning`, when set,
 // tells whether and where the bound dropped anything: if it did not, the
 // result is the unbounded one.
-enum class Pruning { kNone, kAtStart, kInSearch };
-
 Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
                int64_t target, int64_t bound = kInfinity,
                bool must_widen = false, Pruning* pruning = nullptr) {
@@ -365,6 +366,7 @@ Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
   thread_local std::vector<std::vector<int64_t>> cost;
   thread_local std::vector<std::vector<Choice>> back;
   thread_local std::vector<std::pair<int64_t, int64_t>> window;
+  if (pruning != nullptr) *pruning = Pruning::kNone;
   Solution s;
   // Elements with a single single-state candidate only shift the total and
   // the weight: they are folded into the target and take no layer, which
@@ -413,7 +415,6 @@ Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
                          : std::min(kInfinity, rest_weight[i + 1] + w);
   }
   if (target < rest_min[0] || target > rest_max[0]) return Solution();
-  if (pruning != nullptr) *pruning = Pruning::kNone;
   thread_local std::vector<UncommonNeed> needs;
   if (bound < kInfinity) {
     // From the last layer back, keeping the extensions sorted (largest
@@ -421,22 +422,22 @@ Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
     needs.resize(n + 1);
     std::array<int64_t, kMaxDistinctElements> down, up;
     int extensible = 0, forced = 0;
-    int64_t lo = 0, hi = 0;
+    int64_t sum_min = 0, sum_max = 0;
     for (size_t i = n + 1; i-- > 0;) {
       if (i < n) {
         const int e = element_of[i];
         const CandidateList& narrow = candidates.narrow[e];
         const CandidateList& used = *lists[i];
         if (&used == &narrow) {
-          lo += narrow.min_contribution;
-          hi += narrow.max_contribution;
+          sum_min += narrow.min_contribution;
+          sum_max += narrow.max_contribution;
         } else if ((must_widen && wide == e) || narrow.begin == narrow.end) {
           ++forced;
-          lo += used.min_contribution;
-          hi += used.max_contribution;
+          sum_min += used.min_contribution;
+          sum_max += used.max_contribution;
         } else {
-          lo += narrow.min_contribution;
-          hi += narrow.max_contribution;
+          sum_min += narrow.min_contribution;
+          sum_max += narrow.max_contribution;
           InsertDescending(narrow.min_contribution - used.min_contribution,
                            extensible, &down);
           InsertDescending(used.max_contribution - narrow.max_contribution,
@@ -447,8 +448,8 @@ Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
       UncommonNeed& need = needs[i];
       need.forced = forced;
       need.extensible = extensible;
-      need.lo[0] = lo;
-      need.hi[0] = hi;
+      need.lo[0] = sum_min;
+      need.hi[0] = sum_max;
       for (int m = 0; m < extensible; ++m) {
         need.lo[m + 1] = need.lo[m] - down[m];
         need.hi[m + 1] = need.hi[m] + up[m];
@@ -622,7 +623,7 @@ Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
 OxidationAssignment ToAssignment(const Plans& plans, const Solution& s,
                                  int64_t scale) {
   OxidationAssignment a;
-  a.states.reserve(plans.size() + 2);
+  a.states.reserve(2 * plans.size());  // Two entries per mixed element.
   int64_t gap = 0;  // Group gap, in scaled atoms.
   for (size_t i = 0; i < plans.size(); ++i) {
     const ElementPlan& p = plans[i];
@@ -670,11 +671,13 @@ Solution SolveStaged(const Plans& plans, int64_t target,
   candidates.all.clear();
   BuildCandidates(plans, forbidden, threshold, /*common_only=*/true,
                   &candidates);
-  // A narrow solution has no uncommon state, so it weighs below
-  // kUncommonWeight, and ends the search. With a bound up to that weight,
-  // nothing in the later stages (every solution there that is not narrow
-  // has an uncommon state) can come below it either. With a higher bound,
-  // the bound cannot have dropped a narrow solution: none exists.
+  // Every solution shares the declared states, D of them uncommon. A
+  // narrow solution (common and declared states only) weighs below
+  // (D + 1) x kUncommonWeight and every solution of the later stages at
+  // least that, so a narrow solution ends the search. With a bound up to
+  // kUncommonWeight nothing in the later stages can come below it either.
+  // With a higher bound, whatever the narrow stage dropped weighs at least
+  // the bound, and so does everything the later stages could find.
   Solution best = Solve(plans, candidates, -1, target, bound);
   if (best.weight < kInfinity || bound <= kUncommonWeight) return best;
   BuildCandidates(plans, forbidden, threshold, /*common_only=*/false,
