@@ -129,6 +129,12 @@ std::vector<v1::CompositionRecord> Records() {
   add("Xx2O3");
   add("");
   add("CuSO4.5H2O");
+  // One description (Fe3+, octahedral, auto spin) with two moment ranges:
+  // the default gives a range, a geometry set by the record fixes it. The
+  // ion text cache must tell them apart.
+  add("Fe2O3");
+  add("Fe2O3").set_geometry("Fe:octahedral");
+  add("Fe2O3");
   // A line far above the writer's initial 4 KB: many ions, alternatives.
   add("LiNaKRbCsMgCaSrBaScYLaTiZrHfVNbTaCrMoWMnFeCoNiCuZnAlGaInSnPbO40")
       .set_max_alternatives(5);
