@@ -67,7 +67,8 @@ absl::string_view CompositionKindName(CompositionKind kind);
 // The record's formula as a report echoes it: cut to kMaxFormulaLength.
 absl::string_view EchoedFormula(const v1::CompositionRecord& record);
 
-// Fills `out` (cleared first) from one annotated ion.
+// Fills `out` (cleared first) from one annotated ion. REQUIRES:
+// ion.description is set (AnalyzeComposition always sets it).
 void IonAnnotationToProto(const IonAnnotation& ion, v1::IonReport* out);
 
 // Fills `out` (cleared first) from an engine report; `record` supplies the
