@@ -330,7 +330,8 @@ void EngineIonJson(const IonAnnotation& ion, LineWriter* out) {
   out->Raw(e.tail);
 }
 
-// The report object. Each callback writes the members of one array.
+// The report object. `diagnostics` is a visitor as for ReportCsv; the
+// other callbacks write the members of one array.
 template <typename Diagnostics, typename States, typename Alternatives,
           typename Ions>
 void ReportJson(const ReportFields& f, Diagnostics diagnostics, States states,
@@ -341,7 +342,13 @@ void ReportJson(const ReportFields& f, Diagnostics diagnostics, States states,
   Str(",\"formula\":", f.formula, out);
   Str(",\"composition_kind\":", f.kind, out);
   out->Lit(",\"diagnostics\":[");
-  diagnostics(out);
+  bool first = true;
+  diagnostics([&](absl::string_view severity, absl::string_view code,
+                  absl::string_view message, int32_t column) {
+    if (!first) out->Char(',');
+    first = false;
+    DiagnosticJson(severity, code, message, column, out);
+  });
   out->Lit("],\"oxidation_states\":[");
   states(out);
   out->Lit("]");
@@ -375,35 +382,6 @@ void CsvField(absl::string_view field, std::string* out) {
   out->push_back('"');
 }
 
-// One CSV line. `states`, `codes` and `messages` append the joined list
-// for their column to a buffer.
-template <typename States, typename Codes, typename Messages>
-void ReportCsv(const ReportFields& f, States states, Codes codes,
-               Messages messages, std::string* out) {
-  thread_local std::string list;
-  absl::StrAppend(out, f.row);
-  CsvField(f.id, out);
-  out->append(f.valid ? ",true" : ",false");
-  CsvField(f.formula, out);
-  CsvField(f.kind, out);
-  list.clear();
-  states(&list);
-  CsvField(list, out);
-  // StrAppend prints doubles as %.6g does (but for the sign of a NaN,
-  // which reports never hold).
-  for (double v : {f.score, f.unpaired, f.effective_moment, f.moment_low,
-                   f.moment_high, f.curie_constant, f.vec}) {
-    absl::StrAppend(out, ",", v);
-  }
-  list.clear();
-  codes(&list);
-  CsvField(list, out);
-  list.clear();
-  messages(&list);
-  CsvField(list, out);
-  out->push_back('\n');
-}
-
 // Appends `separator` to a joined list, except before its first item.
 void Separate(absl::string_view separator, bool* first, std::string* list) {
   if (!*first) list->append(separator.data(), separator.size());
@@ -433,6 +411,41 @@ void CsvMessage(absl::string_view severity, absl::string_view message,
   absl::StrAppend(list, severity, ": ", message);
 }
 
+// One CSV line. `states` appends the joined states to a buffer, and
+// `diagnostics` calls its visitor with (severity, code, message, column)
+// for each diagnostic.
+template <typename States, typename Diagnostics>
+void ReportCsv(const ReportFields& f, States states, Diagnostics diagnostics,
+               std::string* out) {
+  thread_local std::string list;
+  absl::StrAppend(out, f.row);
+  CsvField(f.id, out);
+  out->append(f.valid ? ",true" : ",false");
+  CsvField(f.formula, out);
+  CsvField(f.kind, out);
+  list.clear();
+  states(&list);
+  CsvField(list, out);
+  // StrAppend prints doubles as %.6g does (but for the sign of a NaN,
+  // which reports never hold).
+  for (double v : {f.score, f.unpaired, f.effective_moment, f.moment_low,
+                   f.moment_high, f.curie_constant, f.vec}) {
+    absl::StrAppend(out, ",", v);
+  }
+  list.clear();
+  bool first = true;
+  diagnostics([&](absl::string_view, absl::string_view code, absl::string_view,
+                  int32_t) { CsvCode(code, &first, &list); });
+  CsvField(list, out);
+  list.clear();
+  first = true;
+  diagnostics([&](absl::string_view severity, absl::string_view,
+                  absl::string_view message,
+                  int32_t) { CsvMessage(severity, message, &first, &list); });
+  CsvField(list, out);
+  out->push_back('\n');
+}
+
 }  // namespace
 
 std::string ReportCsvHeader() {
@@ -445,6 +458,11 @@ std::string ReportCsvHeader() {
 void AppendReportLine(ReportLineFormat format, const v1::RecordReport& r,
                       std::string* out) {
   const ReportFields f = FieldsOf(r);
+  auto diagnostics = [&r](auto visit) {
+    for (const v1::Diagnostic& d : r.diagnostics()) {
+      visit(d.severity(), d.code(), d.message(), d.column());
+    }
+  };
   if (format == ReportLineFormat::kCsv) {
     ReportCsv(
         f,
@@ -454,34 +472,13 @@ void AppendReportLine(ReportLineFormat format, const v1::RecordReport& r,
             CsvState(s.element(), s.state(), s.count_exact(), &first, list);
           }
         },
-        [&](std::string* list) {
-          bool first = true;
-          for (const v1::Diagnostic& d : r.diagnostics()) {
-            CsvCode(d.code(), &first, list);
-          }
-        },
-        [&](std::string* list) {
-          bool first = true;
-          for (const v1::Diagnostic& d : r.diagnostics()) {
-            CsvMessage(d.severity(), d.message(), &first, list);
-          }
-        },
-        out);
+        diagnostics, out);
     return;
   }
   thread_local std::string storage;
   LineWriter w(&storage);
   ReportJson(
-      f,
-      [&](LineWriter* o) {
-        Each(
-            r.diagnostics(),
-            [](const v1::Diagnostic& d, LineWriter* o) {
-              DiagnosticJson(d.severity(), d.code(), d.message(), d.column(),
-                             o);
-            },
-            o);
-      },
+      f, diagnostics,
       [&](LineWriter* o) { Each(r.oxidation_states(), ProtoStateJson, o); },
       [&](LineWriter* o) {
         Each(
@@ -504,44 +501,28 @@ void AppendReportLine(ReportLineFormat format, const CompositionReport& r,
                       const v1::CompositionRecord& record, std::string* out) {
   const ReportFields f = FieldsOf(r, record);
   const bool assigned = r.assignment.has_value();
+  auto diagnostics = [&r](auto visit) {
+    for (const Diagnostic& d : r.diagnostics) {
+      visit(SeverityName(d.severity), d.code, d.message, d.column);
+    }
+  };
   if (format == ReportLineFormat::kCsv) {
     ReportCsv(
         f,
         [&](std::string* list) {
-          bool first = true;
           if (!assigned) return;
+          bool first = true;
           for (const AssignedState& s : r.assignment->states) {
             CsvState(s, &first, list);
           }
         },
-        [&](std::string* list) {
-          bool first = true;
-          for (const Diagnostic& d : r.diagnostics) {
-            CsvCode(d.code, &first, list);
-          }
-        },
-        [&](std::string* list) {
-          bool first = true;
-          for (const Diagnostic& d : r.diagnostics) {
-            CsvMessage(SeverityName(d.severity), d.message, &first, list);
-          }
-        },
-        out);
+        diagnostics, out);
     return;
   }
   thread_local std::string storage;
   LineWriter w(&storage);
   ReportJson(
-      f,
-      [&](LineWriter* o) {
-        Each(
-            r.diagnostics,
-            [](const Diagnostic& d, LineWriter* o) {
-              DiagnosticJson(SeverityName(d.severity), d.code, d.message,
-                             d.column, o);
-            },
-            o);
-      },
+      f, diagnostics,
       [&](LineWriter* o) {
         if (assigned) Each(r.assignment->states, EngineStateJson, o);
       },
