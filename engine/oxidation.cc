@@ -1,8 +1,8 @@
 #include "engine/oxidation.h"
 
 #include <algorithm>
-#include <functional>
 #include <array>
+#include <functional>
 #include <limits>
 #include <numeric>
 

@@ -25,11 +25,6 @@
 namespace shellwright::cli {
 namespace {
 
-struct Item {
-  v1::CompositionRecord record;
-  std::string error;  // Non-empty: malformed line, answered locally.
-};
-
 // One input line of a batch: Batch::lines[offset, offset + size).
 struct LineRef {
   size_t offset;
@@ -49,7 +44,8 @@ class LineParser {
         csv_(csv),
         default_alternatives_(default_alternatives) {}
 
-  Item Parse(absl::string_view line, int row, bool too_long) {
+  // A non-empty error marks a malformed line, answered locally.
+  ParsedLine Parse(absl::string_view line, int row, bool too_long) {
     ParsedLine p;
     if (too_long) {
       p = TooLongLine(
@@ -63,11 +59,10 @@ class LineParser {
       // quote costs exactly one record, never the ones after it.
       p = csv_.ParseLine(line, row);
     }
-    Item item{std::move(p.record), std::move(p.error)};
-    if (!item.record.has_max_alternatives()) {
-      item.record.set_max_alternatives(default_alternatives_);
+    if (!p.record.has_max_alternatives()) {
+      p.record.set_max_alternatives(default_alternatives_);
     }
-    return item;
+    return p;
   }
 
  private:
@@ -80,9 +75,9 @@ struct Batch {
   int64_t seq = 0;
   std::string lines;  // The batch's input lines, back to back.
   std::vector<LineRef> refs;
-  std::vector<Item> items;  // Remote mode: the parsed lines.
-  v1::ReportBatch reply;    // Remote mode: the server's answer.
-  std::string text;         // Formatted output lines.
+  std::vector<ParsedLine> items;  // Remote mode: the parsed lines.
+  v1::ReportBatch reply;          // Remote mode: the server's answer.
+  std::string text;               // Formatted output lines.
   CheckSummary summary;
 };
 
@@ -233,7 +228,7 @@ void Emit(RecordFormat output, const CompositionReport& r,
 void Release(Batch* b) {
   std::string().swap(b->lines);
   std::vector<LineRef>().swap(b->refs);
-  std::vector<Item>().swap(b->items);
+  std::vector<ParsedLine>().swap(b->items);
   b->reply.Clear();
 }
 
@@ -401,16 +396,14 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
           b->text.reserve(b->refs.size() *
                           (out_format == RecordFormat::kCsv ? 320 : 2560));
           for (const LineRef& ref : b->refs) {
-            const Item item =
+            const ParsedLine item =
                 parser.Parse(line_of(*b, ref), ref.row, ref.too_long);
             if (item.error.empty()) {
               Emit(out_format,
                    AnalyzeComposition(CompositionInputFromProto(item.record)),
                    item.record, &*b);
             } else {
-              Emit(out_format,
-                   MalformedRecordReport(ParsedLine{item.record, item.error}),
-                   &*b);
+              Emit(out_format, MalformedRecordReport(item), &*b);
             }
           }
           Release(&*b);
@@ -449,7 +442,9 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
       receiver = std::thread([&] {
         while (std::optional<Batch> b = awaiting.Pop()) {
           int expected = 0;
-          for (const Item& item : b->items) expected += item.error.empty();
+          for (const ParsedLine& item : b->items) {
+            expected += item.error.empty();
+          }
           if (expected > 0) {
             v1::ReportBatch& reply = b->reply;
             if (!stream->Read(&reply) || reply.reports_size() != expected) {
@@ -460,13 +455,11 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
             }
           }
           int k = 0;
-          for (const Item& item : b->items) {
+          for (const ParsedLine& item : b->items) {
             if (item.error.empty()) {
               Emit(out_format, b->reply.reports(k++), &*b);
             } else {
-              Emit(out_format,
-                   MalformedRecordReport(ParsedLine{item.record, item.error}),
-                   &*b);
+              Emit(out_format, MalformedRecordReport(item), &*b);
             }
           }
           Release(&*b);
