@@ -26,9 +26,9 @@ constexpr EscapeTable kEscape;
 
 inline bool NeedsEscape(unsigned char c) { return kEscape.needs[c]; }
 
-// Writes `s` quoted and escaped at `out`, which has room for
-// JsonStringBound(s.size()) bytes; returns the end.
-char* WriteEscaped(absl::string_view s, char* out) {
+}  // namespace
+
+char* WriteJsonString(absl::string_view s, char* out) {
   *out++ = '"';
   size_t run = 0;  // Start of the pending run of plain bytes.
   auto flush = [&](size_t i) {
@@ -92,6 +92,8 @@ char* WriteEscaped(absl::string_view s, char* out) {
   return out;
 }
 
+namespace {
+
 using uint128 = unsigned __int128;
 
 constexpr std::array<uint128, 23> PowersOfTen() {
@@ -101,9 +103,14 @@ constexpr std::array<uint128, 23> PowersOfTen() {
   return p;
 }
 constexpr std::array<uint128, 23> kPow10 = PowersOfTen();
-constexpr double kPow10Double[] = {
-    1e0,  1e1,  1e2,  1e3,  1e4,  1e5,  1e6,  1e7,  1e8,  1e9,  1e10, 1e11,
-    1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22};
+
+// The same as doubles, all exact (10^22 is the largest exact power).
+constexpr std::array<double, 23> PowersOfTenAsDoubles() {
+  std::array<double, 23> p{};
+  for (size_t i = 0; i < p.size(); ++i) p[i] = static_cast<double>(kPow10[i]);
+  return p;
+}
+constexpr std::array<double, 23> kPow10Double = PowersOfTenAsDoubles();
 
 // m x 2^-s x 10^k rounded to the nearest integer, ties to even (as printf
 // rounds an exact value). Requires m < 2^53, 1 <= s < 128, k <= 22.
@@ -194,10 +201,14 @@ int FormatDoubleInRange(double v, char* buf) {
   return static_cast<int>(p - buf);
 }
 
-// Shortest of %.15g / %.17g that round-trips, as the protobuf printer does,
-// written to `buf` (at least kJsonDoubleMax bytes); returns the length.
-// std::to_chars with a precision formats exactly as printf would, much
-// faster.
+// Whole numbers below 10^15, which %.15g prints as plain integers.
+bool IsSmallWhole(double v) {
+  return std::fabs(v) < 1e15 &&
+         static_cast<double>(static_cast<int64_t>(v)) == v;
+}
+
+// The shorter of %.15g / %.17g that round-trips, as the protobuf printer
+// writes it, at `buf` (at least kJsonDoubleMax bytes); returns the length.
 int FormatDouble(double v, char* buf) {
   char* const end = buf + kJsonDoubleMax;
   auto copy = [buf](absl::string_view text) {
@@ -208,15 +219,14 @@ int FormatDouble(double v, char* buf) {
   if (std::isinf(v)) return copy(v > 0 ? "\"Infinity\"" : "\"-Infinity\"");
   // Whole numbers (counts, states, zero moments) are most of a report's
   // doubles: %.15g prints them as plain integers below 10^15.
-  if (std::fabs(v) < 1e15) {
-    const int64_t whole = static_cast<int64_t>(v);
-    if (static_cast<double>(whole) == v && !(v == 0 && std::signbit(v))) {
-      return static_cast<int>(std::to_chars(buf, end, whole).ptr - buf);
-    }
+  if (IsSmallWhole(v) && !(v == 0 && std::signbit(v))) {
+    return static_cast<int>(
+        std::to_chars(buf, end, static_cast<int64_t>(v)).ptr - buf);
   }
   if (const int n = FormatDoubleInRange(v, buf); n > 0) return n;
   // Elsewhere (tiny, huge or subnormal values, rare in reports), the
-  // printer's rule itself: %.15g if it reads back as v, else %.17g.
+  // printer's rule itself: %.15g if it reads back as v, else %.17g
+  // (std::to_chars with a precision formats exactly as printf does).
   auto r = std::to_chars(buf, end, v, std::chars_format::general, 15);
   double back = 0;
   std::from_chars(buf, r.ptr, back);
@@ -224,9 +234,9 @@ int FormatDouble(double v, char* buf) {
   return static_cast<int>(r.ptr - buf);
 }
 
-// FormatDouble behind a small per-thread cache keyed by the value's bits.
-// A report's moments come from a few dozen values (sqrt(n(n+2)), the J
-// moments), and most need the slower 17-digit form.
+// FormatDouble behind a small per-thread cache keyed by the value's bits:
+// a report's moments come from a few dozen values (sqrt(n(n+2)), the J
+// moments), and a hit costs a fraction of formatting.
 absl::string_view DoubleText(double v, char* scratch) {
   struct Entry {
     uint64_t bits = 0;  // 0 is +0.0, which never reaches the cache.
@@ -234,8 +244,7 @@ absl::string_view DoubleText(double v, char* scratch) {
     char text[kJsonDoubleMax];
   };
   // Whole numbers are cheap already (and many, and would flood the cache).
-  if (std::fabs(v) < 1e15 &&
-      static_cast<double>(static_cast<int64_t>(v)) == v) {
+  if (IsSmallWhole(v)) {
     return absl::string_view(scratch, FormatDouble(v, scratch));
   }
   thread_local std::array<Entry, 512> cache;
@@ -250,10 +259,6 @@ absl::string_view DoubleText(double v, char* scratch) {
 }
 
 }  // namespace
-
-char* WriteJsonString(absl::string_view s, char* out) {
-  return WriteEscaped(s, out);
-}
 
 char* WriteJsonDouble(double v, char* out) {
   char scratch[kJsonDoubleMax];
