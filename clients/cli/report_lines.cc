@@ -394,12 +394,6 @@ void CsvState(absl::string_view element, int state, absl::string_view exact,
   absl::StrAppend(list, element, ":", state, "x", exact);
 }
 
-void CsvState(const AssignedState& s, bool* first, std::string* list) {
-  Separate(" ", first, list);
-  absl::StrAppend(list, s.element->symbol, ":", s.state, "x", s.count.num());
-  if (s.count.den() != 1) absl::StrAppend(list, "/", s.count.den());
-}
-
 void CsvCode(absl::string_view code, bool* first, std::string* list) {
   Separate(";", first, list);
   list->append(code.data(), code.size());
@@ -513,7 +507,8 @@ void AppendReportLine(ReportLineFormat format, const CompositionReport& r,
           if (!assigned) return;
           bool first = true;
           for (const AssignedState& s : r.assignment->states) {
-            CsvState(s, &first, list);
+            CsvState(s.element->symbol, s.state, s.count.ToString(), &first,
+                     list);
           }
         },
         diagnostics, out);
