@@ -1,8 +1,8 @@
 #include "engine/atom.h"
 
 #include <array>
-#include <mutex>
 #include <cmath>
+#include <mutex>
 #include <utility>
 
 #include "absl/strings/str_cat.h"
@@ -25,7 +25,8 @@ absl::Status SpecError(absl::string_view spec, absl::string_view problem) {
 constexpr absl::string_view kRomanNumerals[] = {
     "0", "I", "II", "III", "IV", "V", "VI", "VII", "VIII", "IX", "X"};
 
-absl::StatusOr<int> ParseCharge(absl::string_view spec, absl::string_view rest) {
+absl::StatusOr<int> ParseCharge(absl::string_view spec,
+                                absl::string_view rest) {
   if (rest.front() == '(') {
     if (rest.back() != ')' || rest.size() < 3) {
       return SpecError(spec, "a Stock numeral must be written like (III)");
@@ -40,9 +41,9 @@ absl::StatusOr<int> ParseCharge(absl::string_view spec, absl::string_view rest) 
          ++value) {
       if (numeral == kRomanNumerals[value]) return sign * value;
     }
-    return SpecError(spec, absl::StrCat("invalid Stock numeral ",
-                                        QuoteForMessage(numeral),
-                                        " (expected 0 or I to X)"));
+    return SpecError(
+        spec, absl::StrCat("invalid Stock numeral ", QuoteForMessage(numeral),
+                           " (expected 0 or I to X)"));
   }
   size_t i = 0;
   int sign = 0;
@@ -71,9 +72,9 @@ absl::StatusOr<int> ParseCharge(absl::string_view spec, absl::string_view rest) 
     magnitude = 1;  // "Cl-", "Na+"
   }
   if (i != rest.size()) {
-    return SpecError(spec, absl::StrCat("unexpected text ",
-                                        QuoteForMessage(rest.substr(i)),
-                                        " after the charge"));
+    return SpecError(
+        spec, absl::StrCat("unexpected text ", QuoteForMessage(rest.substr(i)),
+                           " after the charge"));
   }
   return sign * magnitude;
 }
@@ -124,9 +125,8 @@ std::optional<Subshell> LigandFieldSubshell(const Element& e,
 }
 
 AtomDescriptionPtr Build(const Element& element, int charge,
-                         const Configuration& configuration,
-                         bool user_supplied, Geometry geometry,
-                         SpinStatePreference spin) {
+                         const Configuration& configuration, bool user_supplied,
+                         Geometry geometry, SpinStatePreference spin) {
   auto d = std::make_shared<AtomDescription>();
   const int z = element.atomic_number;
   d->element = &element;
@@ -143,8 +143,7 @@ AtomDescriptionPtr Build(const Element& element, int charge,
   d->filling_order_notation = configuration.ToFillingOrderNotation();
   for (Subshell s : configuration.OccupiedSubshells()) {
     const int e = configuration.occupancy(s);
-    d->subshells.push_back(
-        {s, e, s.Capacity(), HundUnpairedElectrons(s.l, e)});
+    d->subshells.push_back({s, e, s.Capacity(), HundUnpairedElectrons(s.l, e)});
   }
   d->open_subshells = configuration.OpenSubshells();
   d->valence_electrons = ValenceElectrons(element, configuration);
@@ -174,18 +173,18 @@ AtomDescriptionPtr Build(const Element& element, int charge,
       d->term = *observed;
       d->hund_term = hund;
       d->term_source = row->source;
-      d->notes.push_back(absl::StrCat(
-          "observed ground level ", observed->ToAscii(),
-          " differs from the Hund's-rules prediction ", hund.ToAscii(),
-          "; source: ", d->term_source));
+      d->notes.push_back(
+          absl::StrCat("observed ground level ", observed->ToAscii(),
+                       " differs from the Hund's-rules prediction ",
+                       hund.ToAscii(), "; source: ", d->term_source));
     }
   }
 
   // Unpaired electrons, with the ligand field where it applies.
   d->unpaired_electrons = configuration.UnpairedElectrons();
   if (geometry != Geometry::kFree) {
-    if (std::optional<Subshell> ds = LigandFieldSubshell(element,
-                                                         configuration)) {
+    if (std::optional<Subshell> ds =
+            LigandFieldSubshell(element, configuration)) {
       const int de = configuration.occupancy(*ds);
       LigandFieldResult lf{
           *ds, SplitD(de, geometry, ResolveSpinState(geometry, spin, ds->n))};
@@ -216,7 +215,8 @@ AtomDescriptionPtr Build(const Element& element, int charge,
     m.recommended_basis = MomentBasis::kSpinOnly;
   }
   if (!user_supplied) {
-    if (std::optional<MeasuredMoment> measured = FindMeasuredMoment(z, charge)) {
+    if (std::optional<MeasuredMoment> measured =
+            FindMeasuredMoment(z, charge)) {
       m.measured = measured->moment;
       m.measured_source = measured->source;
       if (std::abs(measured->moment - m.recommended) > 0.5) {
@@ -243,8 +243,7 @@ class DescriptionCache {
     }
     entries_.resize(offset);
     for (const Element& e : AllElements()) {
-      for (int charge = -kMaxAnionCharge; charge <= e.atomic_number;
-           ++charge) {
+      for (int charge = -kMaxAnionCharge; charge <= e.atomic_number; ++charge) {
         absl::StatusOr<Configuration> c =
             IonConfiguration(e.atomic_number, charge);
         if (!c.ok()) continue;
@@ -310,8 +309,9 @@ class LigandFieldCache {
   };
 
   static int Index(int charge, Geometry g, SpinStatePreference s) {
-    return ((charge - kMinCharge) * kGeometries +
-            (static_cast<int>(g) - 1)) * kSpins + static_cast<int>(s);
+    return ((charge - kMinCharge) * kGeometries + (static_cast<int>(g) - 1)) *
+               kSpins +
+           static_cast<int>(s);
   }
 
   static void Fill(const Element& e, PerElement* slot) {
@@ -352,8 +352,8 @@ std::string FormatSpecies(absl::string_view symbol, int charge) {
 absl::StatusOr<SpeciesSpec> ParseSpeciesSpec(absl::string_view spec) {
   if (spec.empty()) return absl::InvalidArgumentError("species is empty");
   if (spec.size() > kMaxSpeciesSpecLength) {
-    return SpecError(spec, absl::StrCat("longer than ", kMaxSpeciesSpecLength,
-                                        " bytes"));
+    return SpecError(
+        spec, absl::StrCat("longer than ", kMaxSpeciesSpecLength, " bytes"));
   }
   SpeciesSpec out;
   size_t i = 0;
@@ -374,8 +374,9 @@ absl::StatusOr<SpeciesSpec> ParseSpeciesSpec(absl::string_view spec) {
     ++i;
   }
   if (i == 0) {
-    return SpecError(spec, "must start with an element symbol, name or "
-                           "atomic number");
+    return SpecError(spec,
+                     "must start with an element symbol, name or "
+                     "atomic number");
   }
   absl::StatusOr<const Element*> e = LookupElement(spec.substr(0, i));
   if (!e.ok()) return e.status();
@@ -394,9 +395,9 @@ absl::StatusOr<AtomQuery> ParseAtomQuery(absl::string_view spec,
   if (!parsed.ok()) return parsed.status();
   if (parsed->charge.has_value() && charge.has_value() &&
       *parsed->charge != *charge) {
-    return SpecError(spec, absl::StrCat("its charge ", *parsed->charge,
-                                        " contradicts the separate charge ",
-                                        *charge));
+    return SpecError(
+        spec, absl::StrCat("its charge ", *parsed->charge,
+                           " contradicts the separate charge ", *charge));
   }
   AtomQuery q;
   q.element = parsed->element;
@@ -415,9 +416,9 @@ absl::StatusOr<AtomDescriptionPtr> DescribeAtom(const AtomQuery& query) {
     const int want = z - query.charge;
     const int have = query.configuration->electrons();
     if (have != want) {
-      return absl::InvalidArgumentError(absl::StrCat(
-          "configuration holds ", have, " electrons, but ", e.symbol,
-          " with charge ", query.charge, " has ", want));
+      return absl::InvalidArgumentError(
+          absl::StrCat("configuration holds ", have, " electrons, but ",
+                       e.symbol, " with charge ", query.charge, " has ", want));
     }
     return Build(e, query.charge, *query.configuration,
                  /*user_supplied=*/true, query.geometry, query.spin_state);
@@ -425,8 +426,8 @@ absl::StatusOr<AtomDescriptionPtr> DescribeAtom(const AtomQuery& query) {
   if (query.geometry == Geometry::kFree) {
     return Cache().Get(z, query.charge);
   }
-  if (AtomDescriptionPtr cached = FieldCache().Get(
-          e, query.charge, query.geometry, query.spin_state)) {
+  if (AtomDescriptionPtr cached =
+          FieldCache().Get(e, query.charge, query.geometry, query.spin_state)) {
     return cached;
   }
   absl::StatusOr<Configuration> c = IonConfiguration(z, query.charge);

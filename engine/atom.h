@@ -32,10 +32,10 @@
 #include <memory>
 #include <optional>
 #include <string>
-#include "absl/strings/string_view.h"
 #include <vector>
 
 #include "absl/status/statusor.h"
+#include "absl/strings/string_view.h"
 #include "engine/configuration.h"
 #include "engine/element.h"
 #include "engine/ligand_field.h"
@@ -95,16 +95,16 @@ struct LigandFieldResult {
 enum class MomentBasis { kSpinOnly, kJ };
 
 struct Moments {
-  double spin_only = 0;   // √(n(n+2)), n = unpaired electrons. μB.
-  double lande_g = 0;     // g_J of `term`; 0 when J = 0.
-  double j_moment = 0;    // g_J √(J(J+1)) of `term`. μB.
-  double saturation = 0;  // g_J J of `term`. μB.
-  double spin_moment = 0; // 2S with S = unpaired / 2. μB.
+  double spin_only = 0;    // √(n(n+2)), n = unpaired electrons. μB.
+  double lande_g = 0;      // g_J of `term`; 0 when J = 0.
+  double j_moment = 0;     // g_J √(J(J+1)) of `term`. μB.
+  double saturation = 0;   // g_J J of `term`. μB.
+  double spin_moment = 0;  // 2S with S = unpaired / 2. μB.
   // Spin-only for d-electron and main-group ions (orbital moment quenched),
   // the J moment when an f subshell is open.
   double recommended = 0;
   MomentBasis recommended_basis = MomentBasis::kSpinOnly;
-  std::optional<double> measured;    // From data/measured_moments.tsv.
+  std::optional<double> measured;     // From data/measured_moments.tsv.
   absl::string_view measured_source;  // Empty when `measured` is empty.
 };
 
@@ -117,9 +117,9 @@ struct AtomDescription {
   bool madelung_exception = false;  // Neutral atom in the exception table.
   std::string madelung_exception_source;
 
-  std::string configuration_notation;   // Noble-gas core: "[Ar] 3d6 4s2".
-  std::string full_notation;            // "1s2 2s2 2p6 ... 3d6 4s2".
-  std::string filling_order_notation;   // "1s2 ... 4s2 3d6".
+  std::string configuration_notation;        // Noble-gas core: "[Ar] 3d6 4s2".
+  std::string full_notation;                 // "1s2 2s2 2p6 ... 3d6 4s2".
+  std::string filling_order_notation;        // "1s2 ... 4s2 3d6".
   std::vector<SubshellOccupancy> subshells;  // Occupied, by n then l.
   std::vector<Subshell> open_subshells;      // Partly filled, by n then l.
 

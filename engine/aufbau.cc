@@ -26,8 +26,7 @@ const NeutralTable& Neutrals() {
          internal::ConfigurationExceptionRows()) {
       // tablegen has already checked that the string parses and holds Z
       // electrons, so a failure here means a corrupted build.
-      absl::StatusOr<Configuration> c =
-          Configuration::Parse(row.configuration);
+      absl::StatusOr<Configuration> c = Configuration::Parse(row.configuration);
       if (c.ok()) {
         t->configurations[row.atomic_number] = *c;
         t->exception_sources[row.atomic_number] = row.source;
@@ -73,8 +72,7 @@ int CoreElectronsBelow(int z) {
 absl::StatusOr<Configuration> NeutralGroundConfiguration(int z) {
   if (z < 1 || z > kMaxAtomicNumber) {
     return absl::InvalidArgumentError(absl::StrCat(
-        "atomic number ", z, " is out of range (1 to ", kMaxAtomicNumber,
-        ")"));
+        "atomic number ", z, " is out of range (1 to ", kMaxAtomicNumber, ")"));
   }
   return Neutrals().configurations[z];
 }
@@ -93,8 +91,7 @@ absl::Status CheckIonCharge(const Element& e, int charge) {
   if (charge < -kMaxAnionCharge) {
     return absl::InvalidArgumentError(absl::StrCat(
         e.symbol, " with charge ", charge,
-        ": anion charge is beyond the supported bound of -",
-        kMaxAnionCharge));
+        ": anion charge is beyond the supported bound of -", kMaxAnionCharge));
   }
   return absl::OkStatus();
 }

@@ -23,9 +23,8 @@
 #ifndef SHELLWRIGHT_ENGINE_AUFBAU_H_
 #define SHELLWRIGHT_ENGINE_AUFBAU_H_
 
-#include "absl/strings/string_view.h"
-
 #include "absl/status/statusor.h"
+#include "absl/strings/string_view.h"
 #include "engine/configuration.h"
 #include "engine/element.h"
 

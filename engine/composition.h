@@ -64,9 +64,9 @@ struct CompositionInput {
   std::string id;
   std::string formula;
   std::optional<int> net_charge;
-  std::string declared_states;  // "Fe:3,O:-2"
-  std::string geometry;         // "Co:octahedral,Ni:square_planar"
-  std::string spin_state;       // "Co:low"
+  std::string declared_states;             // "Fe:3,O:-2"
+  std::string geometry;                    // "Co:octahedral,Ni:square_planar"
+  std::string spin_state;                  // "Co:low"
   std::optional<double> measured_moment;   // μB per formula unit.
   std::optional<double> moment_tolerance;  // μB; default 0.5.
   int max_alternatives = 0;  // 0..5: further assignments to report.

@@ -68,9 +68,9 @@ absl::Status Configuration::SetOccupancy(Subshell s, int electrons) {
         "subshell ", s.ToString(), ": negative occupancy ", electrons));
   }
   if (electrons > s.Capacity()) {
-    return absl::InvalidArgumentError(absl::StrCat(
-        "subshell ", s.ToString(), " holds ", electrons,
-        " electrons, above its Pauli capacity of ", s.Capacity()));
+    return absl::InvalidArgumentError(
+        absl::StrCat("subshell ", s.ToString(), " holds ", electrons,
+                     " electrons, above its Pauli capacity of ", s.Capacity()));
   }
   occupancy_[s.Index()] = static_cast<uint8_t>(electrons);
   return absl::OkStatus();
@@ -165,10 +165,9 @@ int Configuration::UnpairedElectrons() const {
 
 absl::StatusOr<Configuration> Configuration::Parse(absl::string_view text) {
   if (text.size() > kMaxConfigurationLength) {
-    return absl::InvalidArgumentError(
-        absl::StrCat("configuration is ", text.size(),
-                     " bytes long, above the limit of ",
-                     kMaxConfigurationLength));
+    return absl::InvalidArgumentError(absl::StrCat(
+        "configuration is ", text.size(), " bytes long, above the limit of ",
+        kMaxConfigurationLength));
   }
   Configuration c;
   std::array<bool, kNumSubshells> seen{};
@@ -198,9 +197,10 @@ absl::StatusOr<Configuration> Configuration::Parse(absl::string_view text) {
       }
       if (core == nullptr) {
         return ParseError(
-            text, absl::StrCat("unknown noble-gas core ", QuoteForMessage(token),
-                               " (expected one of [He] [Ne] [Ar] [Kr] [Xe] "
-                               "[Rn] [Og])"));
+            text,
+            absl::StrCat("unknown noble-gas core ", QuoteForMessage(token),
+                         " (expected one of [He] [Ne] [Ar] [Kr] [Xe] "
+                         "[Rn] [Og])"));
       }
       Configuration core_config = Madelung(core->electrons);
       for (int i = 0; i < kNumSubshells; ++i) {
@@ -218,29 +218,29 @@ absl::StatusOr<Configuration> Configuration::Parse(absl::string_view text) {
       ++i;
     }
     if (i == 0 || i == token.size()) {
-      return ParseError(text, absl::StrCat("malformed subshell ",
-                                           QuoteForMessage(token),
-                                           " (expected e.g. 3d6)"));
+      return ParseError(
+          text, absl::StrCat("malformed subshell ", QuoteForMessage(token),
+                             " (expected e.g. 3d6)"));
     }
     const int l = OrbitalQuantumNumberFromLetter(token[i]);
     if (l < 0) {
       return ParseError(
-          text, absl::StrCat("unknown orbital letter in ",
-                             QuoteForMessage(token),
-                             " (expected a lowercase letter s, p, d, f, g, h, "
-                             "i or k)"));
+          text,
+          absl::StrCat("unknown orbital letter in ", QuoteForMessage(token),
+                       " (expected a lowercase letter s, p, d, f, g, h, "
+                       "i or k)"));
     }
     ++i;
     if (n < 1 || n > kMaxPrincipalQuantumNumber) {
-      return ParseError(text, absl::StrCat("principal quantum number in ",
-                                           QuoteForMessage(token),
-                                           " must be from 1 to ",
-                                           kMaxPrincipalQuantumNumber));
+      return ParseError(
+          text,
+          absl::StrCat("principal quantum number in ", QuoteForMessage(token),
+                       " must be from 1 to ", kMaxPrincipalQuantumNumber));
     }
     if (l >= n) {
-      return ParseError(
-          text, absl::StrCat("subshell ", QuoteForMessage(token),
-                             " does not exist: l must be less than n"));
+      return ParseError(text,
+                        absl::StrCat("subshell ", QuoteForMessage(token),
+                                     " does not exist: l must be less than n"));
     }
     int count = 0;
     int digits = 0;
@@ -258,9 +258,9 @@ absl::StatusOr<Configuration> Configuration::Parse(absl::string_view text) {
                                            " has no electron count"));
     }
     if (i != token.size()) {
-      return ParseError(text, absl::StrCat("malformed subshell ",
-                                           QuoteForMessage(token),
-                                           " (expected e.g. 3d6)"));
+      return ParseError(
+          text, absl::StrCat("malformed subshell ", QuoteForMessage(token),
+                             " (expected e.g. 3d6)"));
     }
     const Subshell s{n, l};
     if (seen[s.Index()]) {
@@ -270,12 +270,12 @@ absl::StatusOr<Configuration> Configuration::Parse(absl::string_view text) {
     }
     seen[s.Index()] = true;
     if (digits >= 4 || count > s.Capacity()) {
-      return ParseError(
-          text, absl::StrCat("subshell ", s.ToString(), " holds ",
-                             digits >= 4 ? std::string("more than 999")
-                                         : std::to_string(count),
-                             " electrons, above its Pauli capacity of ",
-                             s.Capacity()));
+      return ParseError(text,
+                        absl::StrCat("subshell ", s.ToString(), " holds ",
+                                     digits >= 4 ? std::string("more than 999")
+                                                 : std::to_string(count),
+                                     " electrons, above its Pauli capacity of ",
+                                     s.Capacity()));
     }
     c.occupancy_[s.Index()] = static_cast<uint8_t>(count);
   }

@@ -29,11 +29,11 @@
 #include <cstdint>
 #include <limits>
 #include <string>
-#include "absl/strings/string_view.h"
 #include <vector>
 
 #include "absl/status/status.h"
 #include "absl/status/statusor.h"
+#include "absl/strings/string_view.h"
 #include "engine/subshell.h"
 
 namespace shellwright {
@@ -122,7 +122,7 @@ constexpr int HundUnpairedElectrons(int l, int electrons) {
 // A noble-gas core usable in core notation.
 struct NobleGasCore {
   absl::string_view symbol;  // "Ar"
-  int electrons;            // 18
+  int electrons;             // 18
 };
 
 // The cores in increasing size: He, Ne, Ar, Kr, Xe, Rn, Og.

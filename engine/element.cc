@@ -107,8 +107,7 @@ absl::Span<const Element> AllElements() { return Index().elements; }
 absl::StatusOr<const Element*> ElementByAtomicNumber(int z) {
   if (z < 1 || z > kMaxAtomicNumber) {
     return absl::InvalidArgumentError(absl::StrCat(
-        "atomic number ", z, " is out of range (1 to ", kMaxAtomicNumber,
-        ")"));
+        "atomic number ", z, " is out of range (1 to ", kMaxAtomicNumber, ")"));
   }
   return &Index().elements[z - 1];
 }
@@ -123,8 +122,8 @@ absl::StatusOr<const Element*> LookupElement(absl::string_view spec) {
     return absl::InvalidArgumentError("element is empty");
   }
   if (spec.size() > 64) {
-    return absl::InvalidArgumentError(absl::StrCat(
-        "unknown element ", QuoteForMessage(spec), " (too long)"));
+    return absl::InvalidArgumentError(
+        absl::StrCat("unknown element ", QuoteForMessage(spec), " (too long)"));
   }
   if (absl::ascii_isdigit(static_cast<unsigned char>(spec[0]))) {
     int z = 0;
@@ -152,10 +151,10 @@ absl::StatusOr<const Element*> LookupElement(absl::string_view spec) {
   }
   if (auto it = index.by_lower_symbol.find(lower);
       it != index.by_lower_symbol.end()) {
-    return absl::InvalidArgumentError(absl::StrCat(
-        "unknown element ", QuoteForMessage(spec),
-        " (element symbols are case-sensitive: did you mean '",
-        it->second->symbol, "'?)"));
+    return absl::InvalidArgumentError(
+        absl::StrCat("unknown element ", QuoteForMessage(spec),
+                     " (element symbols are case-sensitive: did you mean '",
+                     it->second->symbol, "'?)"));
   }
   return absl::InvalidArgumentError(
       absl::StrCat("unknown element ", QuoteForMessage(spec),

@@ -29,9 +29,9 @@
 #define SHELLWRIGHT_ENGINE_ELEMENT_H_
 
 #include <optional>
-#include "absl/strings/string_view.h"
 
 #include "absl/status/statusor.h"
+#include "absl/strings/string_view.h"
 #include "absl/types/span.h"
 
 namespace shellwright {
@@ -46,11 +46,11 @@ enum class Block { kS, kP, kD, kF };
 char BlockLetter(Block block);
 
 struct Element {
-  int atomic_number;        // Z, 1..118.
+  int atomic_number;         // Z, 1..118.
   absl::string_view symbol;  // Standard capitalisation: "Fe".
   absl::string_view name;    // IUPAC English name: "Iron".
-  int period;               // 1..7.
-  int group;                // 1..18; 0 for La-Yb and Ac-No (no group).
+  int period;                // 1..7.
+  int group;                 // 1..18; 0 for La-Yb and Ac-No (no group).
   Block block;
   // Standard atomic weight (IUPAC, abridged), in daltons. When
   // atomic_weight_is_mass_number is true there is no standard weight and

@@ -384,10 +384,10 @@ Rational Formula::TotalAtoms() const {
 absl::StatusOr<Formula> ParseFormula(absl::string_view text,
                                      FormulaIssue* error) {
   if (text.size() > kMaxFormulaLength) {
-    FormulaIssue issue{"formula_too_long", 0,
-                       absl::StrCat("formula is ", text.size(),
-                                    " bytes long, above the limit of ",
-                                    kMaxFormulaLength)};
+    FormulaIssue issue{
+        "formula_too_long", 0,
+        absl::StrCat("formula is ", text.size(),
+                     " bytes long, above the limit of ", kMaxFormulaLength)};
     if (error != nullptr) *error = issue;
     return absl::InvalidArgumentError(issue.message);
   }

@@ -30,10 +30,10 @@
 #define SHELLWRIGHT_ENGINE_LIGAND_FIELD_H_
 
 #include <string>
-#include "absl/strings/string_view.h"
 #include <vector>
 
 #include "absl/status/statusor.h"
+#include "absl/strings/string_view.h"
 
 namespace shellwright {
 
@@ -56,8 +56,8 @@ absl::StatusOr<SpinStatePreference> ParseSpinStatePreference(
 // One split level of the d subshell.
 struct SplitLevel {
   absl::string_view name;  // "t2g", "eg", ...
-  int orbitals;           // Spatial orbitals in the level.
-  int electrons;          // 0..2*orbitals.
+  int orbitals;            // Spatial orbitals in the level.
+  int electrons;           // 0..2*orbitals.
   int unpaired;
 };
 

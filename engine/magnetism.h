@@ -27,8 +27,8 @@
 #define SHELLWRIGHT_ENGINE_MAGNETISM_H_
 
 #include <optional>
-#include "absl/strings/string_view.h"
 
+#include "absl/strings/string_view.h"
 #include "engine/term_symbol.h"
 
 namespace shellwright {

@@ -615,7 +615,8 @@ Solution Solve(const Plans& plans, const Candidates& candidates, int wide,
     s.choices[e] = ch;
     const Option& o = plans[e].options()[ch.option];
     const int64_t c = plans[e].scaled_count;
-    t -= o.low == o.high ? c * o.low : c * o.high - ch.low_atoms * (o.high - o.low);
+    t -= o.low == o.high ? c * o.low
+                         : c * o.high - ch.low_atoms * (o.high - o.low);
   }
   return s;
 }
@@ -624,7 +625,7 @@ OxidationAssignment ToAssignment(const Plans& plans, const Solution& s,
                                  int64_t scale) {
   OxidationAssignment a;
   a.states.reserve(2 * plans.size());  // Two entries per mixed element.
-  int64_t gap = 0;  // Group gap, in scaled atoms.
+  int64_t gap = 0;                     // Group gap, in scaled atoms.
   for (size_t i = 0; i < plans.size(); ++i) {
     const ElementPlan& p = plans[i];
     const Option& o = p.options()[s.choices[i].option];
@@ -888,10 +889,9 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
       }
       if (!duplicate) found.emplace_back(s.weight, std::move(a));
     }
-    std::stable_sort(found.begin(), found.end(),
-                     [](const auto& x, const auto& y) {
-                       return x.first < y.first;
-                     });
+    std::stable_sort(
+        found.begin(), found.end(),
+        [](const auto& x, const auto& y) { return x.first < y.first; });
     for (auto& [w, a] : found) {
       if (static_cast<int>(result.alternatives.size()) >=
           options.max_alternatives) {

@@ -38,9 +38,11 @@
 //
 // Example:
 //
-//   absl::StatusOr<shellwright::Formula> f = shellwright::ParseFormula("Fe3O4");
+//   absl::StatusOr<shellwright::Formula> f =
+//   shellwright::ParseFormula("Fe3O4");
 //   absl::StatusOr<shellwright::OxidationResult> r =
-//       shellwright::AssignOxidationStates(*f, shellwright::OxidationOptions());
+//       shellwright::AssignOxidationStates(*f,
+//       shellwright::OxidationOptions());
 //   // r->best->states: Fe +2 x1, Fe +3 x2, O -2 x4
 //
 // Thread safety: thread-safe; no shared mutable state.

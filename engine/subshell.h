@@ -19,8 +19,8 @@
 
 #include <array>
 #include <string>
-#include "absl/strings/string_view.h"
 
+#include "absl/strings/string_view.h"
 #include "absl/types/span.h"
 
 namespace shellwright {

@@ -85,8 +85,8 @@ absl::StatusOr<TermSymbol> TermSymbol::Parse(absl::string_view text) {
   if (i == text.size()) return TermError(text, "missing the L letter");
   const size_t letter = kTermLetters.find(text[i]);
   if (letter == absl::string_view::npos) {
-    return TermError(text, absl::StrCat("unknown L letter '",
-                                        std::string(1, text[i]), "'"));
+    return TermError(
+        text, absl::StrCat("unknown L letter '", std::string(1, text[i]), "'"));
   }
   ++i;
   TermSymbol t;

@@ -21,9 +21,9 @@
 #define SHELLWRIGHT_ENGINE_TERM_SYMBOL_H_
 
 #include <string>
-#include "absl/strings/string_view.h"
 
 #include "absl/status/statusor.h"
+#include "absl/strings/string_view.h"
 #include "engine/configuration.h"
 
 namespace shellwright {

@@ -47,17 +47,17 @@ std::string FormatAtomHuman(const v1::AtomDescription& d) {
   std::string out;
   absl::StrAppendFormat(&out, "%s  %s  Z=%d  charge %s  %d electrons\n",
                         FormatSpecies(d.symbol(), d.charge()), d.name(),
-                        d.atomic_number(),
-                        ChargeText(d.charge()), d.electrons());
+                        d.atomic_number(), ChargeText(d.charge()),
+                        d.electrons());
   Line(&out, "Configuration",
        d.configuration().empty() ? "(none: bare nucleus)" : d.configuration());
   Line(&out, "Full", d.full_configuration());
   Line(&out, "Filling order", d.filling_order_configuration());
   Line(&out, "Source", d.configuration_source());
   Line(&out, "Block/period/group",
-       absl::StrCat(d.block(), " / ", d.period(), " / ",
-                    d.group() == 0 ? std::string("-")
-                                   : absl::StrCat(d.group())));
+       absl::StrCat(
+           d.block(), " / ", d.period(), " / ",
+           d.group() == 0 ? std::string("-") : absl::StrCat(d.group())));
   Line(&out, "Valence electrons", absl::StrCat(d.valence_electrons()));
   Line(&out, "Unpaired electrons", absl::StrCat(d.unpaired_electrons()));
   std::string term = absl::StrCat(d.term_symbol_unicode(), "  (",
@@ -68,8 +68,8 @@ std::string FormatAtomHuman(const v1::AtomDescription& d) {
   }
   Line(&out, "S, L, J",
        absl::StrFormat("%g, %d, %g  (%s parity)", d.total_spin(),
-                       d.orbital_angular_momentum(),
-                       d.total_angular_momentum(), d.parity()));
+                       d.orbital_angular_momentum(), d.total_angular_momentum(),
+                       d.parity()));
 
   bool any_open = false;
   for (const v1::Subshell& s : d.subshells()) {
@@ -107,8 +107,8 @@ std::string FormatAtomHuman(const v1::AtomDescription& d) {
                                                  : "spin-only, orbital moment "
                                                    "quenched");
   if (d.has_measured_moment()) {
-    absl::StrAppendFormat(&out, "    measured %.2f (%s)\n",
-                          d.measured_moment(), d.measured_moment_source());
+    absl::StrAppendFormat(&out, "    measured %.2f (%s)\n", d.measured_moment(),
+                          d.measured_moment_source());
   }
   for (const std::string& note : d.notes()) {
     absl::StrAppend(&out, "\n  Note: ", note, "\n");

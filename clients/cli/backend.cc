@@ -39,7 +39,8 @@ class RemoteRecordStream final : public Backend::RecordStream {
  public:
   RemoteRecordStream(v1::ElectronStructure::Stub* stub,
                      std::unique_ptr<grpc::ClientContext> context)
-      : context_(std::move(context)), stream_(stub->AnalyzeRecords(context_.get())) {}
+      : context_(std::move(context)),
+        stream_(stub->AnalyzeRecords(context_.get())) {}
   bool Write(const v1::RecordBatch& batch) override {
     return stream_->Write(batch);
   }
@@ -121,8 +122,8 @@ absl::StatusOr<std::string> ReadSmallFile(const std::string& path, bool trim) {
         absl::StrCat("file '", path, "' is larger than 1 MiB"));
   }
   if (trim) {
-    while (!text.empty() && (text.back() == '\n' || text.back() == '\r' ||
-                             text.back() == ' ')) {
+    while (!text.empty() &&
+           (text.back() == '\n' || text.back() == '\r' || text.back() == ' ')) {
       text.pop_back();
     }
   }
@@ -139,7 +140,8 @@ absl::StatusOr<std::unique_ptr<Backend>> MakeRemoteBackend(
   if (!options.tls_ca_file.empty() || !options.tls_cert_file.empty()) {
     grpc::SslCredentialsOptions ssl;
     if (!options.tls_ca_file.empty()) {
-      absl::StatusOr<std::string> ca = ReadSmallFile(options.tls_ca_file, false);
+      absl::StatusOr<std::string> ca =
+          ReadSmallFile(options.tls_ca_file, false);
       if (!ca.ok()) return ca.status();
       ssl.pem_root_certs = *ca;
     }
@@ -168,8 +170,7 @@ absl::StatusOr<std::unique_ptr<Backend>> MakeRemoteBackend(
   if (!options.tls_server_name.empty()) {
     args.SetSslTargetNameOverride(options.tls_server_name);
   }
-  auto channel =
-      grpc::CreateCustomChannel(options.address, credentials, args);
+  auto channel = grpc::CreateCustomChannel(options.address, credentials, args);
   return std::unique_ptr<Backend>(
       new RemoteBackend(std::move(channel), std::move(token), options.timeout,
                         options.stream_timeout));

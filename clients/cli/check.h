@@ -40,7 +40,7 @@ struct CheckOptions {
   std::string output = "-";  // Path, or "-" for standard output.
   RecordFormat input_format = RecordFormat::kAuto;   // By extension.
   RecordFormat output_format = RecordFormat::kAuto;  // By extension; JSONL.
-  int jobs = 0;          // Worker threads; 0 means all cores.
+  int jobs = 0;  // Worker threads; 0 means all cores.
   // Records per batch (and per stream message). 0 picks 256 in-process
   // (smaller batches keep less output in flight) and 500 for a server
   // (fewer, larger messages).

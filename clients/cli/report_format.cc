@@ -21,8 +21,8 @@ std::string StatesText(
 }  // namespace
 
 std::string FormatReportHuman(const v1::RecordReport& r) {
-  std::string out = absl::StrCat(r.formula(), "  ",
-                                 r.valid() ? "valid" : "INVALID");
+  std::string out =
+      absl::StrCat(r.formula(), "  ", r.valid() ? "valid" : "INVALID");
   if (!r.composition_kind().empty()) {
     absl::StrAppend(&out, "  (", r.composition_kind(), ")");
   }
@@ -64,8 +64,8 @@ std::string FormatReportHuman(const v1::RecordReport& r) {
   }
   if (r.diagnostics_size() > 0) out += "\n";
   for (const v1::Diagnostic& d : r.diagnostics()) {
-    absl::StrAppend(&out, "  ", d.severity(), " ", d.code(), ": ",
-                    d.message(), "\n");
+    absl::StrAppend(&out, "  ", d.severity(), " ", d.code(), ": ", d.message(),
+                    "\n");
   }
   absl::StrAppend(&out, "\n", kMomentCaution, "\n");
   return out;

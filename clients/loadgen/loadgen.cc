@@ -329,8 +329,8 @@ v1::RecordBatch StreamRequest(const Flags& flags) {
     switch (i % 3) {
       case 0:
         r->set_formula(absl::StrFormat("%s%.2f%s%.2f%sO3", a_site[i % 4],
-                                       1 - x / 100.0, dopant[i % 3],
-                                       x / 100.0, b_site[i % 5]));
+                                       1 - x / 100.0, dopant[i % 3], x / 100.0,
+                                       b_site[i % 5]));
         break;
       case 1:
         r->set_formula(absl::StrFormat("LiNi%.2fCo%.2fMn%.2fO2",
@@ -506,8 +506,8 @@ Window MakeWindow(const Flags& flags) {
 
 // The figures of one scenario, pooled over its callers.
 template <typename Pool>
-Result Collect(const std::string& target, const char* scenario,
-               int concurrency, const Flags& flags, const Pool& pool) {
+Result Collect(const std::string& target, const char* scenario, int concurrency,
+               const Flags& flags, const Pool& pool) {
   Result result;
   result.target = target;
   result.scenario = scenario;

@@ -33,7 +33,8 @@ constexpr int kExitOk = 0;
 constexpr int kExitInvalidInput = 1;
 constexpr int kExitUsage = 2;
 
-constexpr char kUsage[] = R"(usage: shellwright [global options] COMMAND [options]
+constexpr char kUsage[] =
+    R"(usage: shellwright [global options] COMMAND [options]
 
 Commands:
   atom SPEC        describe an atom or ion: Fe, 26, iron, Fe3+, Fe+3,
@@ -95,10 +96,11 @@ struct Args {
 // Options that take a value; everything else starting with "--" is a flag.
 const std::set<std::string>& ValueOptions() {
   static const auto* const kOptions = new std::set<std::string>{
-      "server", "tls-ca", "tls-cert", "tls-key", "tls-server-name",
-      "token-file", "timeout", "charge", "geometry", "spin-state",
-      "configuration", "declared", "measured-moment", "moment-tolerance",
-      "alternatives", "out", "format", "out-format", "jobs", "batch-size"};
+      "server",          "tls-ca",           "tls-cert",      "tls-key",
+      "tls-server-name", "token-file",       "timeout",       "charge",
+      "geometry",        "spin-state",       "configuration", "declared",
+      "measured-moment", "moment-tolerance", "alternatives",  "out",
+      "format",          "out-format",       "jobs",          "batch-size"};
   return *kOptions;
 }
 
@@ -129,8 +131,8 @@ std::optional<Args> ParseArgs(int argc, char** argv, int* exit_code) {
       if (ValueOptions().count(name)) {
         if (!value.has_value()) {
           if (i + 1 >= argc) {
-            *exit_code = Usage(absl::StrCat("option --", name,
-                                            " needs a value"));
+            *exit_code =
+                Usage(absl::StrCat("option --", name, " needs a value"));
             return std::nullopt;
           }
           value = argv[++i];
@@ -169,8 +171,7 @@ int RunAtom(const Args& args, Backend& backend) {
   if (const std::string* v = args.Value("charge")) {
     int charge = 0;
     if (!absl::SimpleAtoi(*v, &charge)) {
-      return Usage(absl::StrCat("--charge must be an integer, got '", *v,
-                                "'"));
+      return Usage(absl::StrCat("--charge must be an integer, got '", *v, "'"));
     }
     request.set_charge(charge);
   }
@@ -185,9 +186,10 @@ int RunAtom(const Args& args, Backend& backend) {
     } else if (g == "square_planar" || g == "square-planar") {
       request.set_geometry(v1::GEOMETRY_SQUARE_PLANAR);
     } else {
-      return Usage(absl::StrCat("--geometry must be free, octahedral, "
-                                "tetrahedral or square_planar, got '",
-                                g, "'"));
+      return Usage(
+          absl::StrCat("--geometry must be free, octahedral, "
+                       "tetrahedral or square_planar, got '",
+                       g, "'"));
     }
   }
   if (const std::string* v = args.Value("spin-state")) {
@@ -199,8 +201,10 @@ int RunAtom(const Args& args, Backend& backend) {
     } else if (s == "low") {
       request.set_spin_state(v1::SPIN_STATE_LOW);
     } else {
-      return Usage(absl::StrCat("--spin-state must be auto, high or low, "
-                                "got '", s, "'"));
+      return Usage(
+          absl::StrCat("--spin-state must be auto, high or low, "
+                       "got '",
+                       s, "'"));
     }
   }
   if (const std::string* v = args.Value("configuration")) {
@@ -231,17 +235,21 @@ int RunCompound(const Args& args, Backend& backend) {
     }
     record.set_charge(charge);
   }
-  if (const std::string* v = args.Value("declared")) record.set_declared_states(*v);
+  if (const std::string* v = args.Value("declared"))
+    record.set_declared_states(*v);
   if (const std::string* v = args.Value("geometry")) record.set_geometry(*v);
-  if (const std::string* v = args.Value("spin-state")) record.set_spin_state(*v);
+  if (const std::string* v = args.Value("spin-state"))
+    record.set_spin_state(*v);
   if (const std::string* v = args.Value("measured-moment")) {
     double m = 0;
-    if (!absl::SimpleAtod(*v, &m)) return Usage("--measured-moment must be a number");
+    if (!absl::SimpleAtod(*v, &m))
+      return Usage("--measured-moment must be a number");
     record.set_measured_moment(m);
   }
   if (const std::string* v = args.Value("moment-tolerance")) {
     double t = 0;
-    if (!absl::SimpleAtod(*v, &t)) return Usage("--moment-tolerance must be a number");
+    if (!absl::SimpleAtod(*v, &t))
+      return Usage("--moment-tolerance must be a number");
     record.set_moment_tolerance(t);
   }
   record.set_max_alternatives(2);
@@ -284,7 +292,8 @@ int RunCheck(const Args& args, Backend* remote) {
         {"out-format", &options.output_format}}) {
     if (const std::string* v = args.Value(flag)) {
       absl::StatusOr<RecordFormat> f = ParseRecordFormat(*v);
-      if (!f.ok()) return Usage(absl::StrCat("--", flag, ": ", f.status().message()));
+      if (!f.ok())
+        return Usage(absl::StrCat("--", flag, ": ", f.status().message()));
       *target = *f;
     }
   }
@@ -295,8 +304,8 @@ int RunCheck(const Args& args, Backend* remote) {
     }
   }
   if (const std::string* v = args.Value("batch-size")) {
-    if (!absl::SimpleAtoi(*v, &options.batch_size) ||
-        options.batch_size < 1 || options.batch_size > 10000) {
+    if (!absl::SimpleAtoi(*v, &options.batch_size) || options.batch_size < 1 ||
+        options.batch_size > 10000) {
       return Usage("--batch-size must be an integer from 1 to 10000");
     }
   }
@@ -308,7 +317,8 @@ int RunCheck(const Args& args, Backend* remote) {
   }
   options.progress = !args.flags.count("no-progress") && isatty(2) &&
                      std::getenv("CI") == nullptr;
-  absl::StatusOr<CheckSummary> summary = cli::RunCheck(options, remote, std::cerr);
+  absl::StatusOr<CheckSummary> summary =
+      cli::RunCheck(options, remote, std::cerr);
   if (!summary.ok()) {
     std::cerr << "shellwright: check: " << summary.status().message() << "\n";
     return kExitUsage;

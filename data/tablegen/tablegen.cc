@@ -78,8 +78,10 @@ Table ReadTable(const std::string& path,
     }
     if (fields.size() != t.header.size()) {
       Fail(path, line_no,
-           absl::StrCat("expected ", t.header.size(), " tab-separated fields, "
-                        "found ", fields.size()));
+           absl::StrCat("expected ", t.header.size(),
+                        " tab-separated fields, "
+                        "found ",
+                        fields.size()));
     }
     for (size_t i = 0; i < fields.size(); ++i) {
       if (fields[i].empty()) {
@@ -148,8 +150,8 @@ std::map<std::string, std::string> ParseArgs(int argc, char** argv) {
     }
     args[a.substr(2, eq - 2)] = a.substr(eq + 1);
   }
-  for (const char* required :
-       {"elements", "exceptions", "departures", "moments", "oxidation", "out"}) {
+  for (const char* required : {"elements", "exceptions", "departures",
+                               "moments", "oxidation", "out"}) {
     if (!args.count(required)) {
       std::cerr << "tablegen: missing --" << required << "=\n";
       std::exit(2);
@@ -169,10 +171,10 @@ int main(int argc, char** argv) {
          "namespace shellwright::internal {\nnamespace {\n\n";
 
   // --- elements.tsv ---------------------------------------------------------
-  const Table elements = ReadTable(
-      args.at("elements"),
-      {"atomic_number", "symbol", "name", "period", "group", "block",
-       "standard_atomic_weight", "pauling_electronegativity"});
+  const Table elements =
+      ReadTable(args.at("elements"),
+                {"atomic_number", "symbol", "name", "period", "group", "block",
+                 "standard_atomic_weight", "pauling_electronegativity"});
   std::map<std::string, int> z_by_symbol;
   std::set<std::string> names;
   out << "constexpr ElementRow kElements[] = {\n";
@@ -192,8 +194,9 @@ int main(int argc, char** argv) {
         (symbol.size() < 3 ||
          std::islower(static_cast<unsigned char>(symbol[2])));
     if (!symbol_ok) {
-      Fail(elements.path, r.line,
-           "symbol '" + symbol + "' must be one capital then lowercase letters");
+      Fail(
+          elements.path, r.line,
+          "symbol '" + symbol + "' must be one capital then lowercase letters");
     }
     if (!z_by_symbol.emplace(symbol, z).second) {
       Fail(elements.path, r.line, "duplicate symbol '" + symbol + "'");
@@ -202,8 +205,7 @@ int main(int argc, char** argv) {
       Fail(elements.path, r.line, "duplicate name '" + r.fields[2] + "'");
     }
     const long period = ParseInt(elements, r, 3, 1, 7);
-    const long group =
-        r.fields[4] == "-" ? 0 : ParseInt(elements, r, 4, 1, 18);
+    const long group = r.fields[4] == "-" ? 0 : ParseInt(elements, r, 4, 1, 18);
     const std::string& block = r.fields[5];
     if (block != "s" && block != "p" && block != "d" && block != "f") {
       Fail(elements.path, r.line,
@@ -242,8 +244,10 @@ int main(int argc, char** argv) {
   auto check_symbol_matches = [&](const Table& t, const Row& r, int z) {
     if (symbol_to_z(t, r, 1) != z) {
       Fail(t.path, r.line,
-           absl::StrCat("symbol '", r.fields[1], "' does not match atomic "
-                        "number ", z));
+           absl::StrCat("symbol '", r.fields[1],
+                        "' does not match atomic "
+                        "number ",
+                        z));
     }
   };
 
@@ -303,9 +307,8 @@ int main(int argc, char** argv) {
   out << "};\n\n";
 
   // --- measured_moments.tsv -------------------------------------------------
-  const Table moments =
-      ReadTable(args.at("moments"),
-                {"symbol", "charge", "measured_moment", "source"});
+  const Table moments = ReadTable(
+      args.at("moments"), {"symbol", "charge", "measured_moment", "source"});
   out << "constexpr MeasuredMomentRow kMoments[] = {\n";
   for (const Row& r : moments.rows) {
     const int z = symbol_to_z(moments, r, 0);
@@ -318,8 +321,8 @@ int main(int argc, char** argv) {
   out << "};\n\n";
 
   // --- oxidation_states.tsv -------------------------------------------------
-  const Table oxidation = ReadTable(args.at("oxidation"),
-                                    {"symbol", "state", "common", "source"});
+  const Table oxidation =
+      ReadTable(args.at("oxidation"), {"symbol", "state", "common", "source"});
   out << "constexpr OxidationStateRow kOxidation[] = {\n";
   int last_z = 0;
   int last_state = -100;

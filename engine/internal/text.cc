@@ -25,9 +25,9 @@ size_t Utf8SequenceLength(absl::string_view text, size_t i) {
     if ((cc & 0xC0) != 0x80) return 0;
   }
   const unsigned char c1 = static_cast<unsigned char>(text[i + 1]);
-  if (c == 0xE0 && c1 < 0xA0) return 0;  // Overlong.
+  if (c == 0xE0 && c1 < 0xA0) return 0;   // Overlong.
   if (c == 0xED && c1 >= 0xA0) return 0;  // Surrogate.
-  if (c == 0xF0 && c1 < 0x90) return 0;  // Overlong.
+  if (c == 0xF0 && c1 < 0x90) return 0;   // Overlong.
   if (c == 0xF4 && c1 >= 0x90) return 0;  // Above U+10FFFF.
   return len;
 }
@@ -79,16 +79,31 @@ size_t DecodeDigit(absl::string_view text, DigitForms forms, int* value) {
   if (forms == DigitForms::kAsciiOrSuperscript) {
     // U+00B9, U+00B2, U+00B3 are two-byte sequences C2 B9/B2/B3.
     if (c0 == 0xC2) {
-      if (c1 == 0xB9) { *value = 1; return 2; }
-      if (c1 == 0xB2) { *value = 2; return 2; }
-      if (c1 == 0xB3) { *value = 3; return 2; }
+      if (c1 == 0xB9) {
+        *value = 1;
+        return 2;
+      }
+      if (c1 == 0xB2) {
+        *value = 2;
+        return 2;
+      }
+      if (c1 == 0xB3) {
+        *value = 3;
+        return 2;
+      }
       return 0;
     }
     // U+2070 and U+2074..U+2079 are E2 81 B0 and E2 81 B4..B9.
     if (c0 == 0xE2 && c1 == 0x81 && text.size() >= 3) {
       const unsigned char c2 = static_cast<unsigned char>(text[2]);
-      if (c2 == 0xB0) { *value = 0; return 3; }
-      if (c2 >= 0xB4 && c2 <= 0xB9) { *value = c2 - 0xB0; return 3; }
+      if (c2 == 0xB0) {
+        *value = 0;
+        return 3;
+      }
+      if (c2 >= 0xB4 && c2 <= 0xB9) {
+        *value = c2 - 0xB0;
+        return 3;
+      }
     }
     return 0;
   }

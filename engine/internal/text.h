@@ -8,6 +8,7 @@
 #define SHELLWRIGHT_ENGINE_INTERNAL_TEXT_H_
 
 #include <string>
+
 #include "absl/strings/string_view.h"
 
 namespace shellwright::internal {

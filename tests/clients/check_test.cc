@@ -93,7 +93,7 @@ std::vector<v1::RecordReport> ParseReports(const std::string& jsonl) {
 // What one generated input row should produce.
 struct ExpectedRow {
   int row = 0;
-  std::string id;          // Expected echoed id; unchecked if !id_readable.
+  std::string id;  // Expected echoed id; unchecked if !id_readable.
   bool id_readable = true;
   bool valid = true;
   std::string error_code;  // The expected error when !valid.
@@ -215,8 +215,8 @@ class CheckTest : public ::testing::Test {
 TEST_F(CheckTest, TenThousandRowsWithBrokenOnesInOrder) {
   const GeneratedCsv g = GenerateCsv(10000);
   WriteFile(Path("in.csv"), g.text);
-  CommandResult r = Check({Path("in.csv"), "--out", Path("out.jsonl"),
-                           "--jobs", "2"});
+  CommandResult r =
+      Check({Path("in.csv"), "--out", Path("out.jsonl"), "--jobs", "2"});
   EXPECT_EQ(r.exit_code, 1) << r.err;
   EXPECT_THAT(r.out, IsEmpty());
   EXPECT_THAT(r.err, HasSubstr("10000 rows"));
@@ -274,8 +274,8 @@ TEST_F(CheckTest, AllValidInputExitsZero) {
 }
 
 TEST_F(CheckTest, MissingInputFileIsUsageError) {
-  CommandResult r = Check({Path("does_not_exist.csv"), "--out",
-                           Path("o.jsonl")});
+  CommandResult r =
+      Check({Path("does_not_exist.csv"), "--out", Path("o.jsonl")});
   EXPECT_EQ(r.exit_code, 2) << r.err;
   EXPECT_THAT(r.err, HasSubstr("does_not_exist.csv"));
   EXPECT_THAT(r.out, IsEmpty());
@@ -312,14 +312,14 @@ TEST_F(CheckTest, UnknownExtensionNeedsFormat) {
 
 TEST_F(CheckTest, JsonlFromStdinToStdout) {
   const std::string input =
-      "{\"id\":\"j1\",\"formula\":\"Fe2O3\"}\n"                         // 1
-      "\n"                                                               // 2
-      "{\"id\":\"j2\",\"formula\":\"NaF2\"}\n"                          // 3
-      "{\"id\":\"j3\",\"formula\":\n"                                    // 4
+      "{\"id\":\"j1\",\"formula\":\"Fe2O3\"}\n"  // 1
+      "\n"                                       // 2
+      "{\"id\":\"j2\",\"formula\":\"NaF2\"}\n"   // 3
+      "{\"id\":\"j3\",\"formula\":\n"            // 4
       "{\"id\":\"j4\",\"formula\":\"Fe2O3\",\"declared_states\":\"Fe:2\"}\n"
       "{\"id\":\"j5\",\"formula\":\"SO4\",\"charge\":-2,\"row\":99}\n"  // 6
       "{\"id\":\"j6\",\"formula\":\"NaCl\",\"bogus_field\":1}\n"        // 7
-      "not json at all\n"                                                // 8
+      "not json at all\n"                                               // 8
       "{\"id\":\"j9\",\"formula\":\"Xx2O3\"}\n";                        // 9
   for (const std::vector<std::string>& args :
        {std::vector<std::string>{"-", "--format", "jsonl"},
@@ -340,8 +340,8 @@ TEST_F(CheckTest, JsonlFromStdinToStdout) {
     EXPECT_TRUE(HasErrorWithCode(reports[2], "malformed_record"));
     EXPECT_FALSE(reports[2].valid());
     EXPECT_EQ(reports[3].id(), "j4");
-    EXPECT_TRUE(HasErrorWithCode(reports[3],
-                                 "declared_state_contradicts_balance"));
+    EXPECT_TRUE(
+        HasErrorWithCode(reports[3], "declared_state_contradicts_balance"));
     EXPECT_EQ(reports[4].id(), "j5");
     EXPECT_TRUE(reports[4].valid()) << reports[4].ShortDebugString();
     EXPECT_EQ(reports[5].id(), "j6");
@@ -366,9 +366,9 @@ TEST_F(CheckTest, CsvFromStdinToStdout) {
 TEST_F(CheckTest, ByteOrderMarkAndCrlfFromSpreadsheetExports) {
   // Regression: a UTF-8 byte-order mark before the header hid the `id`
   // column, turning a good file into a usage error.
-  CommandResult r = Check(
-      {"-", "--format", "csv"},
-      "\xEF\xBB\xBF" + std::string(kHeader) + "\r\na,NaCl,,,\r\nb,MgO,,,\r\n");
+  CommandResult r =
+      Check({"-", "--format", "csv"}, "\xEF\xBB\xBF" + std::string(kHeader) +
+                                          "\r\na,NaCl,,,\r\nb,MgO,,,\r\n");
   EXPECT_EQ(r.exit_code, 0) << r.err;
   const std::vector<v1::RecordReport> reports = ParseReports(r.out);
   ASSERT_EQ(reports.size(), 2u);
@@ -398,9 +398,9 @@ TEST_F(CheckTest, HostileLinesEachGetOneReport) {
   // Regressions from review: invalid UTF-8 in JSONL leaked into the
   // output, a record without an id passed as valid, and an over-long line
   // was read whole into memory.
-  CommandResult j = Check(
-      {"-", "--format", "jsonl"},
-      "{\"id\":\"a\",\"formula\":\"Fe\xb7O\"}\n{\"formula\":\"MgO\"}\n{\"id\":5}\n");
+  CommandResult j = Check({"-", "--format", "jsonl"},
+                          "{\"id\":\"a\",\"formula\":\"Fe\xb7O\"}\n{"
+                          "\"formula\":\"MgO\"}\n{\"id\":5}\n");
   EXPECT_EQ(j.exit_code, 1);
   const std::vector<v1::RecordReport> reports = ParseReports(j.out);
   ASSERT_EQ(reports.size(), 3u);  // ParseReports fails on invalid UTF-8.
@@ -456,8 +456,8 @@ TEST_F(CheckTest, CsvOutputHasHeaderAndOneLinePerRow) {
     }
   }
   // --out-format csv to stdout gives the same bytes.
-  CommandResult s = Check({Path("in.csv"), "--out", "-", "--out-format",
-                           "csv"});
+  CommandResult s =
+      Check({Path("in.csv"), "--out", "-", "--out-format", "csv"});
   EXPECT_EQ(s.exit_code, 1) << s.err;
   EXPECT_EQ(s.out, ReadFile(Path("out.csv")));
 }
@@ -465,12 +465,12 @@ TEST_F(CheckTest, CsvOutputHasHeaderAndOneLinePerRow) {
 TEST_F(CheckTest, OutputIndependentOfJobsAndBatchSize) {
   const GeneratedCsv g = GenerateCsv(3000);
   WriteFile(Path("in.csv"), g.text);
-  CommandResult a = Check({Path("in.csv"), "--out", Path("a.jsonl"),
-                           "--jobs", "2", "--batch-size", "500"});
-  CommandResult b = Check({Path("in.csv"), "--out", Path("b.jsonl"),
-                           "--jobs", "1", "--batch-size", "1"});
-  CommandResult c = Check({Path("in.csv"), "--out", Path("c.jsonl"),
-                           "--jobs", "3", "--batch-size", "7"});
+  CommandResult a = Check({Path("in.csv"), "--out", Path("a.jsonl"), "--jobs",
+                           "2", "--batch-size", "500"});
+  CommandResult b = Check({Path("in.csv"), "--out", Path("b.jsonl"), "--jobs",
+                           "1", "--batch-size", "1"});
+  CommandResult c = Check({Path("in.csv"), "--out", Path("c.jsonl"), "--jobs",
+                           "3", "--batch-size", "7"});
   EXPECT_EQ(a.exit_code, 1) << a.err;
   EXPECT_EQ(b.exit_code, 1) << b.err;
   EXPECT_EQ(c.exit_code, 1) << c.err;
@@ -496,8 +496,8 @@ TEST_F(CheckTest, RowFieldsAreChecked) {
   ASSERT_EQ(reports.size(), 4u);
   EXPECT_EQ(reports[0].id(), "declared");
   EXPECT_FALSE(reports[0].valid());
-  EXPECT_TRUE(HasErrorWithCode(reports[0],
-                               "declared_state_contradicts_balance"))
+  EXPECT_TRUE(
+      HasErrorWithCode(reports[0], "declared_state_contradicts_balance"))
       << reports[0].ShortDebugString();
   EXPECT_EQ(reports[1].id(), "moment");
   EXPECT_FALSE(reports[1].valid());

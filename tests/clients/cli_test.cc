@@ -62,8 +62,8 @@ TEST(Cli, HumanOutputHasBoxDiagramAndCaution) {
 }
 
 TEST(Cli, InvalidInputExitsOneWithOneLine) {
-  for (const char* spec : {"Xx", "0", "119", "", "fe", "Fe3+3+", "Fe(IIII)",
-                           "Fe99+", "He-99"}) {
+  for (const char* spec :
+       {"Xx", "0", "119", "", "fe", "Fe3+3+", "Fe(IIII)", "Fe99+", "He-99"}) {
     CommandResult r = Cli({"atom", spec});
     EXPECT_EQ(r.exit_code, 1) << spec;
     EXPECT_TRUE(r.out.empty()) << spec;
@@ -113,8 +113,8 @@ TEST(Cli, ChargeOptionAndConfigurationOverride) {
   CommandResult r = Cli({"atom", "26", "--charge", "2", "--json"});
   ASSERT_EQ(r.exit_code, 0) << r.err;
   EXPECT_EQ(ParseJson(r.out).configuration(), "[Ar] 3d6");
-  CommandResult o = Cli({"atom", "Cr", "--configuration", "[Ar] 3d4 4s2",
-                         "--json"});
+  CommandResult o =
+      Cli({"atom", "Cr", "--configuration", "[Ar] 3d4 4s2", "--json"});
   ASSERT_EQ(o.exit_code, 0) << o.err;
   EXPECT_TRUE(ParseJson(o.out).configuration_user_supplied());
   EXPECT_EQ(ParseJson(o.out).unpaired_electrons(), 4);
@@ -136,9 +136,9 @@ TEST(Cli, ElementsListsAll118) {
 
 TEST(Cli, WorksFromAnyDirectory) {
   // The tables are compiled in: no data files are read at run time.
-  CommandResult r = RunCommand({"/bin/sh", "-c",
-                                "cd / && '" + BinPath("clients/shellwright") +
-                                    "' atom Fe --json"});
+  CommandResult r = RunCommand(
+      {"/bin/sh", "-c",
+       "cd / && '" + BinPath("clients/shellwright") + "' atom Fe --json"});
   EXPECT_EQ(r.exit_code, 0) << r.err;
   EXPECT_THAT(r.out, HasSubstr("[Ar] 3d6 4s2"));
 }

@@ -45,13 +45,12 @@ CommandResult RunWith(const std::string& table, const std::string& contents) {
     paths[table] = dir + "/" + table + ".tsv";
     std::ofstream(paths[table]) << contents;
   }
-  return RunCommand({BinPath("data/shellwright_tablegen"),
-                     "--elements=" + paths["elements"],
-                     "--exceptions=" + paths["configuration_exceptions"],
-                     "--departures=" + paths["ground_level_departures"],
-                     "--moments=" + paths["measured_moments"],
-                     "--oxidation=" + paths["oxidation_states"],
-                     "--out=" + dir + "/out.cc"});
+  return RunCommand(
+      {BinPath("data/shellwright_tablegen"), "--elements=" + paths["elements"],
+       "--exceptions=" + paths["configuration_exceptions"],
+       "--departures=" + paths["ground_level_departures"],
+       "--moments=" + paths["measured_moments"],
+       "--oxidation=" + paths["oxidation_states"], "--out=" + dir + "/out.cc"});
 }
 
 std::string RealTable(const std::string& name) {

@@ -41,10 +41,9 @@ std::vector<std::string> DistinctFormulas(int n) {
     switch (family(rng)) {
       case 0: {  // A1-xA'xBO3
         const std::string x = Fraction(rng, 1, 60);
-        out.push_back(absl::StrCat(a_site[pick(rng) % 6],
-                                   absl::StrFormat("%.2f", 1 - std::stod(x)),
-                                   dopant[pick(rng) % 3], x,
-                                   b_site[pick(rng) % 6], "O3"));
+        out.push_back(absl::StrCat(
+            a_site[pick(rng) % 6], absl::StrFormat("%.2f", 1 - std::stod(x)),
+            dopant[pick(rng) % 3], x, b_site[pick(rng) % 6], "O3"));
         break;
       }
       case 1: {  // LiNi_a Co_b Mn_c O2
@@ -62,14 +61,16 @@ std::vector<std::string> DistinctFormulas(int n) {
       }
       case 3:
         out.push_back(absl::StrCat(hydrate[pick(rng) % 5]));
-        if (pick(rng) % 2) out.back() = absl::StrCat("Li", Fraction(rng, 1, 99), "CoO2");
+        if (pick(rng) % 2)
+          out.back() = absl::StrCat("Li", Fraction(rng, 1, 99), "CoO2");
         break;
       case 4: {  // high-entropy rock salt (M1..M5)O with random fractions
         std::string f = "(";
         int left = 100;
         for (int k = 0; k < 4; ++k) {
           const int share = 10 + pick(rng) % 10;
-          absl::StrAppend(&f, tm[(k + pick(rng)) % 8], absl::StrFormat("%.2f", share / 100.0));
+          absl::StrAppend(&f, tm[(k + pick(rng)) % 8],
+                          absl::StrFormat("%.2f", share / 100.0));
           left -= share;
         }
         absl::StrAppend(&f, "Zn", absl::StrFormat("%.2f", left / 100.0), ")O");
@@ -79,7 +80,8 @@ std::vector<std::string> DistinctFormulas(int n) {
       default: {  // high-entropy alloy
         std::string f;
         for (int k = 0; k < 5; ++k) {
-          absl::StrAppend(&f, alloy[(k * 2 + pick(rng)) % 9], Fraction(rng, 5, 40));
+          absl::StrAppend(&f, alloy[(k * 2 + pick(rng)) % 9],
+                          Fraction(rng, 5, 40));
         }
         out.push_back(f);
         break;

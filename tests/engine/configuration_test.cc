@@ -87,8 +87,7 @@ TEST(Configuration, RejectsMalformedText) {
   for (const Case& c : cases) {
     absl::StatusOr<Configuration> parsed = Configuration::Parse(c.text);
     EXPECT_FALSE(parsed.ok()) << c.text;
-    EXPECT_THAT(parsed.status().message(), HasSubstr(c.message_part))
-        << c.text;
+    EXPECT_THAT(parsed.status().message(), HasSubstr(c.message_part)) << c.text;
   }
   EXPECT_FALSE(Configuration::Parse(std::string(10000, '1')).ok());
 }

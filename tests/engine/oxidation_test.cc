@@ -4,8 +4,8 @@
 
 #include <algorithm>
 #include <cstdint>
-#include <iterator>
 #include <functional>
+#include <iterator>
 #include <map>
 #include <numeric>
 #include <optional>
@@ -18,11 +18,11 @@
 #include "absl/status/status.h"
 #include "absl/status/statusor.h"
 #include "absl/types/span.h"
-#include "gmock/gmock.h"
-#include "gtest/gtest.h"
 #include "engine/element.h"
 #include "engine/formula.h"
 #include "engine/rational.h"
+#include "gmock/gmock.h"
+#include "gtest/gtest.h"
 
 namespace shellwright {
 
@@ -89,7 +89,6 @@ TEST(Oxidation, UnbalanceableHasNoAssignment) {
   EXPECT_FALSE(Solve("NaF2").best.has_value());
 }
 
-
 // ---------------------------------------------------------------------------
 // Helpers for the tests below.
 
@@ -137,8 +136,8 @@ Rational GapOf(const OxidationAssignment& a) {
 }
 
 Rank RankOf(const OxidationAssignment& a) {
-  return Rank{a.uncommon_states, a.electronegativity_inconsistencies,
-              GapOf(a), a.spread};
+  return Rank{a.uncommon_states, a.electronegativity_inconsistencies, GapOf(a),
+              a.spread};
 }
 
 std::string RankText(const Rank& r) {
@@ -204,8 +203,8 @@ const CompoundCase kCompounds[] = {
     {"LaNiO3", 0, "La:3x1 Ni:3x1 O:-2x3", 0, 0, 0, 0, 1},
     {"CaMnO3", 0, "Ca:2x1 Mn:4x1 O:-2x3", 0, 0, 0, 0, 1},
     // Hole-doped manganite: Mn averages +3.3 (common practice, no source).
-    {"La0.7Sr0.3MnO3", 0, "La:3x7/10 Sr:2x3/10 Mn:3x7/10 Mn:4x3/10 O:-2x3",
-     0, 0, 0, 1, 1},
+    {"La0.7Sr0.3MnO3", 0, "La:3x7/10 Sr:2x3/10 Mn:3x7/10 Mn:4x3/10 O:-2x3", 0,
+     0, 0, 1, 1},
     // SrFeO3 holds Fe(IV) (G&E); Fe+4 is flagged uncommon. The only
     // one-uncommon rival, Fe+3 with peroxide O-1 x1, has spread 3.
     {"SrFeO3", 0, "Sr:2x1 Fe:4x1 O:-2x3", 1, 0, 0, 0, 1},
@@ -439,8 +438,8 @@ void ExpectWellFormed(const Formula& formula, int charge,
     ASSERT_NE(s.element, nullptr);
     EXPECT_GT(s.count.num(), 0) << s.element->symbol;
     EXPECT_FALSE(s.declared);
-    const Rational charge_part = s.count * Rational(s.state < 0 ? -s.state
-                                                                : s.state);
+    const Rational charge_part =
+        s.count * Rational(s.state < 0 ? -s.state : s.state);
     if (s.state >= 0) {
       positive = positive + charge_part;
     } else {
@@ -522,8 +521,8 @@ void ExpectWellFormed(const Formula& formula, int charge,
         adjacent |= known[k].state == states[0]->state &&
                     known[k + 1].state == states[1]->state;
       }
-      EXPECT_TRUE(adjacent) << element->symbol << " " << states[0]->state
-                            << "/" << states[1]->state;
+      EXPECT_TRUE(adjacent) << element->symbol << " " << states[0]->state << "/"
+                            << states[1]->state;
       spread = spread + (states[0]->count + states[1]->count) *
                             Rational(states[1]->state - states[0]->state);
     }
@@ -538,8 +537,8 @@ void ExpectWellFormed(const Formula& formula, int charge,
   EXPECT_EQ(a.uncommon_states, uncommon);
   EXPECT_EQ(a.spread, spread);
   EXPECT_NEAR(a.score,
-              100.0 * uncommon + 10.0 * inconsistencies +
-                  GapOf(a).ToDouble() + spread.ToDouble(),
+              100.0 * uncommon + 10.0 * inconsistencies + GapOf(a).ToDouble() +
+                  spread.ToDouble(),
               1e-9);
 }
 
@@ -550,9 +549,8 @@ std::string Count(int hundredths) {
   return std::to_string(hundredths / 100) + "." + frac;
 }
 
-const char* const kMetals[] = {"Li", "Na", "Mg", "Al", "Ti", "V",
-                               "Cr", "Mn", "Fe", "Co", "Ni", "Cu",
-                               "Zn", "La", "Sr", "Ca"};
+const char* const kMetals[] = {"Li", "Na", "Mg", "Al", "Ti", "V",  "Cr", "Mn",
+                               "Fe", "Co", "Ni", "Cu", "Zn", "La", "Sr", "Ca"};
 
 // Random metal oxide formula with two-decimal counts, 1..`max_metals`
 // distinct metals; `max_hundredths` bounds each count.

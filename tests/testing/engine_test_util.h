@@ -1,7 +1,8 @@
 // Shared helpers for the engine tests.
 //
 // Example:
-//   shellwright::AtomDescriptionPtr fe = shellwright::testing::Describe("Fe3+");
+//   shellwright::AtomDescriptionPtr fe =
+//   shellwright::testing::Describe("Fe3+");
 //   EXPECT_EQ(fe->configuration_notation, "[Ar] 3d5");
 
 #ifndef SHELLWRIGHT_TESTS_TESTING_ENGINE_TEST_UTIL_H_

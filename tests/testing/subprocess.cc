@@ -26,7 +26,8 @@ CommandResult RunCommand(const std::vector<std::string>& argv,
       close(fd);
     }
     std::vector<char*> args;
-    for (const std::string& a : argv) args.push_back(const_cast<char*>(a.c_str()));
+    for (const std::string& a : argv)
+      args.push_back(const_cast<char*>(a.c_str()));
     args.push_back(nullptr);
     execv(args[0], args.data());
     _exit(127);
@@ -44,17 +45,32 @@ CommandResult RunCommand(const std::vector<std::string>& argv,
     pollfd fds[3];
     int n = 0;
     int out_i = -1, err_i = -1, in_i = -1;
-    if (out_open) { fds[n] = {out_pipe[0], POLLIN, 0}; out_i = n++; }
-    if (err_open) { fds[n] = {err_pipe[0], POLLIN, 0}; err_i = n++; }
-    if (in_open) { fds[n] = {in_pipe[1], POLLOUT, 0}; in_i = n++; }
+    if (out_open) {
+      fds[n] = {out_pipe[0], POLLIN, 0};
+      out_i = n++;
+    }
+    if (err_open) {
+      fds[n] = {err_pipe[0], POLLIN, 0};
+      err_i = n++;
+    }
+    if (in_open) {
+      fds[n] = {in_pipe[1], POLLOUT, 0};
+      in_i = n++;
+    }
     if (poll(fds, n, 60000) <= 0) break;
     if (out_i >= 0 && fds[out_i].revents) {
       ssize_t r = read(out_pipe[0], buf, sizeof(buf));
-      if (r <= 0) out_open = false; else result.out.append(buf, r);
+      if (r <= 0)
+        out_open = false;
+      else
+        result.out.append(buf, r);
     }
     if (err_i >= 0 && fds[err_i].revents) {
       ssize_t r = read(err_pipe[0], buf, sizeof(buf));
-      if (r <= 0) err_open = false; else result.err.append(buf, r);
+      if (r <= 0)
+        err_open = false;
+      else
+        result.err.append(buf, r);
     }
     if (in_i >= 0 && fds[in_i].revents) {
       ssize_t w = write(in_pipe[1], stdin_text.data() + written,
