@@ -41,6 +41,9 @@ inline constexpr char kChargeNotBalanced[] = "charge_not_balanced";
 inline constexpr char kDeclaredStateContradictsBalance[] =
     "declared_state_contradicts_balance";
 inline constexpr char kMomentOutOfRange[] = "moment_out_of_range";
+// The record needs more search than the per-record work budget allows
+// (engine/oxidation.h).
+inline constexpr char kSearchBudgetExceeded[] = "search_budget_exceeded";
 
 // Warnings: valid, but worth a look.
 inline constexpr char kPossibleHydrateTypo[] = "possible_hydrate_typo";
@@ -53,6 +56,11 @@ inline constexpr char kMixedValence[] = "mixed_valence";
 inline constexpr char kMetallicComposition[] = "metallic_composition";
 inline constexpr char kElementalComposition[] = "elemental_composition";
 inline constexpr char kMomentCheckSkipped[] = "moment_check_skipped";
+// The search stopped early: the answer stands, but a mixed-valence split
+// or further alternatives may have been left out.
+inline constexpr char kMixedValenceSearchLimited[] =
+    "mixed_valence_search_limited";
+inline constexpr char kAlternativesLimited[] = "alternatives_limited";
 
 }  // namespace shellwright::codes
 

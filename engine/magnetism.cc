@@ -19,13 +19,15 @@ double LandeG(const TermSymbol& term) {
   return 1.5 + (s * (s + 1.0) - l * (l + 1.0)) / (2.0 * j * (j + 1.0));
 }
 
+// Moments are magnitudes: g_J is negative for a few terms (8H3/2: -2/5),
+// and the moment's size is what a measurement sees.
 double JMoment(const TermSymbol& term) {
   const double j = term.two_j / 2.0;
-  return LandeG(term) * std::sqrt(j * (j + 1.0));
+  return std::abs(LandeG(term)) * std::sqrt(j * (j + 1.0));
 }
 
 double SaturationMoment(const TermSymbol& term) {
-  return LandeG(term) * term.two_j / 2.0;
+  return std::abs(LandeG(term)) * term.two_j / 2.0;
 }
 
 std::optional<MeasuredMoment> FindMeasuredMoment(int z, int charge) {

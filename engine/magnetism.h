@@ -4,11 +4,13 @@
 //   spin-only moment   μ_so  = √(n(n+2))        n unpaired electrons
 //   Landé g-factor     g_J   = 3/2 + [S(S+1) − L(L+1)] / [2J(J+1)]
 //                              (electron g-factor taken as 2)
-//   J moment           μ_J   = g_J √(J(J+1))
-//   saturation moment  μ_sat = g_J J
+//   J moment           μ_J   = |g_J| √(J(J+1))
+//   saturation moment  μ_sat = |g_J| J
 //   spin moment        μ_S   = 2S
-// For J = 0 the g-factor is undefined; it is reported as 0, and so are the
-// J and saturation moments, because a J = 0 level carries no moment.
+// Moments are magnitudes: g_J itself is negative for a few terms in which L
+// outweighs S (8H3/2 has g_J = -2/5). For J = 0 the g-factor is undefined; it
+// is reported as 0, and so are the J and saturation moments, because a J = 0
+// level carries no moment.
 //
 // These are idealised free-ion or crystal-field estimates. Orbital
 // quenching, spin-orbit mixing, covalency and exchange all move real

@@ -39,6 +39,23 @@ int HundSubshellL(int l, int electrons) {
   return sum_top(electrons - orbitals);  // The full spin-up set sums to 0.
 }
 
+// Most digits read for the multiplicity or J: real terms need one or two,
+// and the cap keeps every product below int overflow.
+constexpr size_t kMaxTermDigits = 4;
+
+// Reads the decimal digits at text[*i...] into `value`, advancing *i past
+// them. False when there are more than kMaxTermDigits of them.
+bool ReadTermNumber(absl::string_view text, size_t* i, int* value) {
+  const size_t start = *i;
+  *value = 0;
+  while (*i < text.size() && text[*i] >= '0' && text[*i] <= '9') {
+    if (*i - start == kMaxTermDigits) return false;
+    *value = *value * 10 + (text[*i] - '0');
+    ++*i;
+  }
+  return true;
+}
+
 absl::Status TermError(absl::string_view text, absl::string_view problem) {
   return absl::InvalidArgumentError(absl::StrCat(
       "term symbol ", internal::QuoteForMessage(text), ": ", problem));
@@ -75,9 +92,9 @@ absl::StatusOr<TermSymbol> TermSymbol::Parse(absl::string_view text) {
   if (text.size() > 32) return TermError(text, "too long");
   size_t i = 0;
   int multiplicity = 0;
-  while (i < text.size() && text[i] >= '0' && text[i] <= '9') {
-    multiplicity = multiplicity * 10 + (text[i] - '0');
-    ++i;
+  if (!ReadTermNumber(text, &i, &multiplicity)) {
+    return TermError(text, absl::StrCat("the multiplicity has more than ",
+                                        kMaxTermDigits, " digits"));
   }
   if (i == 0 || multiplicity < 1) {
     return TermError(text, "expected the multiplicity 2S+1 first");
@@ -98,9 +115,9 @@ absl::StatusOr<TermSymbol> TermSymbol::Parse(absl::string_view text) {
   }
   int j_numerator = 0;
   const size_t j_start = i;
-  while (i < text.size() && text[i] >= '0' && text[i] <= '9') {
-    j_numerator = j_numerator * 10 + (text[i] - '0');
-    ++i;
+  if (!ReadTermNumber(text, &i, &j_numerator)) {
+    return TermError(
+        text, absl::StrCat("J has more than ", kMaxTermDigits, " digits"));
   }
   if (i == j_start) return TermError(text, "missing J");
   if (i == text.size()) {

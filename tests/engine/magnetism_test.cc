@@ -138,6 +138,22 @@ TEST(Magnetism, LandeFormulaSpecialCases) {
   EXPECT_NEAR(LandeG(ParseTermOrFail("5D4")), 1.5, 1e-12);
 }
 
+// U3- ([Rn] 5f6 6d1 7s2, 8H3/2) was reported with a J moment of -0.775 μB,
+// because g_J is negative there (found by tests/fuzz/species_fuzzer).
+// g_J = 3/2 + [S(S+1) - L(L+1)] / [2J(J+1)] with S = 7/2, L = 5, J = 3/2
+// gives -2/5 (the Landé formula, worked by hand); moments are its size.
+TEST(Magnetism, NegativeLandeFactorGivesPositiveMoments) {
+  const TermSymbol term = ParseTermOrFail("8H3/2");
+  EXPECT_NEAR(LandeG(term), -0.4, 1e-12);
+  EXPECT_NEAR(JMoment(term), 0.4 * std::sqrt(1.5 * 2.5), 1e-12);
+  EXPECT_NEAR(SaturationMoment(term), 0.4 * 1.5, 1e-12);
+  AtomDescriptionPtr u = Describe("U3-");
+  ASSERT_NE(u, nullptr);
+  EXPECT_EQ(u->term.ToAscii(), "8H3/2");
+  EXPECT_GT(u->moments.j_moment, 0);
+  EXPECT_GT(u->moments.recommended, 0);
+}
+
 TEST(Magnetism, JZeroCarriesNoMoment) {
   // Eu3+ 7F0 (Kittel lanthanide table, from memory): J = 0.
   AtomDescriptionPtr eu = Describe("Eu3+");

@@ -30,6 +30,7 @@ using ::shellwright::testing::kReferenceGroundLevels;
 using ::shellwright::testing::ParseOrFail;
 using ::shellwright::testing::ReferenceGroundLevel;
 using ::testing::Contains;
+using ::testing::HasSubstr;
 using ::testing::UnorderedElementsAreArray;
 
 // ---------------------------------------------------------------------------
@@ -307,6 +308,24 @@ TEST(TermSymbolParse, HostileInputDoesNotCrash) {
       6);
   EXPECT_FALSE(TermSymbol::Parse(with_nul).ok());
   EXPECT_FALSE(TermSymbol::Parse("\xff\xfe").ok());
+}
+
+// A long digit run overflowed int while it was read (undefined behaviour,
+// found by UBSan under tests/fuzz/term_symbol_fuzzer). Now the run is
+// refused by length, before any arithmetic can overflow.
+TEST(TermSymbolParse, LongDigitRunsAreRefusedWithoutSignedOverflow) {
+  for (const char* text : {"99999999999999999999S0", "1S99999999999999999999",
+                           "2P99999999999/2", "12345D4"}) {
+    absl::StatusOr<TermSymbol> t = TermSymbol::Parse(text);
+    ASSERT_FALSE(t.ok()) << text;
+    EXPECT_EQ(t.status().code(), absl::StatusCode::kInvalidArgument);
+    EXPECT_THAT(t.status().message(), HasSubstr("more than 4 digits")) << text;
+  }
+  // Four digits still read: 2S+1 = 1001 with L = 0 and J = S = 500.
+  absl::StatusOr<TermSymbol> wide = TermSymbol::Parse("1001S500");
+  ASSERT_TRUE(wide.ok()) << wide.status();
+  EXPECT_EQ(wide->two_s, 1000);
+  EXPECT_EQ(wide->two_j, 1000);
 }
 
 // ---------------------------------------------------------------------------

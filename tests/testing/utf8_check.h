@@ -1,6 +1,6 @@
-// An independent UTF-8 checker for tests: it decodes each code point and
-// checks its range, where util/utf8.h checks byte patterns, so a test can
-// check the project's own UTF-8 rules against it.
+// An independent UTF-8 checker for tests and fuzz targets, written from
+// RFC 3629's byte-range table rather than shared with util/utf8.h, so that
+// it checks the product's UTF-8 rules instead of repeating them.
 //
 // Example:
 //   EXPECT_TRUE(shellwright::testing::IsWellFormedUtf8(report.message()));
@@ -10,48 +10,46 @@
 #ifndef SHELLWRIGHT_TESTS_TESTING_UTF8_CHECK_H_
 #define SHELLWRIGHT_TESTS_TESTING_UTF8_CHECK_H_
 
-#include <cstdint>
+#include <cstddef>
 
 #include "absl/strings/string_view.h"
 
 namespace shellwright::testing {
 
-// True when `text` is well-formed UTF-8: no stray continuation bytes, no
-// truncated or overlong sequences, no surrogates, nothing above U+10FFFF.
+// True when `text` is well-formed UTF-8 as RFC 3629 defines it: no stray
+// continuation bytes, no truncated or overlong sequences, no surrogates,
+// nothing above U+10FFFF.
 inline bool IsWellFormedUtf8(absl::string_view text) {
+  // RFC 3629, section 4: the second byte's range depends on the first.
+  struct Form {
+    unsigned char first_lo, first_hi, second_lo, second_hi;
+    int length;
+  };
+  static constexpr Form kForms[] = {
+      {0xC2, 0xDF, 0x80, 0xBF, 2}, {0xE0, 0xE0, 0xA0, 0xBF, 3},
+      {0xE1, 0xEC, 0x80, 0xBF, 3}, {0xED, 0xED, 0x80, 0x9F, 3},
+      {0xEE, 0xEF, 0x80, 0xBF, 3}, {0xF0, 0xF0, 0x90, 0xBF, 4},
+      {0xF1, 0xF3, 0x80, 0xBF, 4}, {0xF4, 0xF4, 0x80, 0x8F, 4},
+  };
   size_t i = 0;
   while (i < text.size()) {
     const unsigned char c = static_cast<unsigned char>(text[i]);
-    size_t extra;
-    uint32_t min, cp;
     if (c < 0x80) {
       ++i;
       continue;
-    } else if ((c & 0xE0) == 0xC0) {
-      extra = 1;
-      min = 0x80;
-      cp = c & 0x1F;
-    } else if ((c & 0xF0) == 0xE0) {
-      extra = 2;
-      min = 0x800;
-      cp = c & 0x0F;
-    } else if ((c & 0xF8) == 0xF0) {
-      extra = 3;
-      min = 0x10000;
-      cp = c & 0x07;
-    } else {
-      return false;
     }
-    if (i + extra >= text.size()) return false;  // Truncated.
-    for (size_t k = 1; k <= extra; ++k) {
-      const unsigned char cc = static_cast<unsigned char>(text[i + k]);
-      if ((cc & 0xC0) != 0x80) return false;
-      cp = (cp << 6) | (cc & 0x3F);
+    const Form* form = nullptr;
+    for (const Form& f : kForms) {
+      if (c >= f.first_lo && c <= f.first_hi) form = &f;
     }
-    if (cp < min || cp > 0x10FFFF || (cp >= 0xD800 && cp <= 0xDFFF)) {
-      return false;
+    if (form == nullptr || i + form->length > text.size()) return false;
+    const unsigned char second = static_cast<unsigned char>(text[i + 1]);
+    if (second < form->second_lo || second > form->second_hi) return false;
+    for (int k = 2; k < form->length; ++k) {
+      const unsigned char next = static_cast<unsigned char>(text[i + k]);
+      if (next < 0x80 || next > 0xBF) return false;
     }
-    i += extra + 1;
+    i += form->length;
   }
   return true;
 }
