@@ -43,9 +43,24 @@
 #include <thread>
 #include <vector>
 
+#include "absl/strings/str_cat.h"
 #include "gtest/gtest.h"
+#include "shellwright/v1/electron_structure.pb.h"
 
 namespace shellwright::testing {
+
+// `records` records of a formula whose solver search takes tens of
+// milliseconds each: a full batch of them is minutes of work.
+inline v1::RecordBatch HardRecordBatch(int records) {
+  v1::RecordBatch batch;
+  for (int i = 0; i < records; ++i) {
+    v1::CompositionRecord* record = batch.add_records();
+    record->set_id(absl::StrCat("hard-", i));
+    record->set_formula("TiVCrMnFeCoNiCuNbMoWRuO8.37");
+    record->set_max_alternatives(5);
+  }
+  return batch;
+}
 
 // The build tree root: $SHELLWRIGHT_BIN_DIR when set, else the build tree
 // this test was compiled in (SHELLWRIGHT_DEFAULT_BIN_DIR, set by

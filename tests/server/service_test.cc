@@ -31,6 +31,7 @@
 namespace shellwright {
 namespace {
 
+using ::shellwright::testing::HardRecordBatch;
 using ::testing::HasSubstr;
 
 constexpr auto kCallTimeout = std::chrono::seconds(10);
@@ -419,23 +420,10 @@ TEST_F(ServiceTest, OneMicrosecondDeadlineIsDeadlineExceeded) {
   EXPECT_TRUE(DescribeSpec("Fe", &d).ok());  // The server is unharmed.
 }
 
-// A full batch of a formula whose solver search takes tens of milliseconds
-// per record: minutes of work in all.
-v1::RecordBatch HardRecordBatch() {
-  v1::RecordBatch batch;
-  for (int i = 0; i < kMaxRecordsPerBatch; ++i) {
-    v1::CompositionRecord* record = batch.add_records();
-    record->set_id(absl::StrCat("hard-", i));
-    record->set_formula("TiVCrMnFeCoNiCuNbMoWRuO8.37");
-    record->set_max_alternatives(5);
-  }
-  return batch;
-}
-
 // Regression: the deadline was checked only between batches, so one batch
 // of hard records kept the server busy for seconds after a 50 ms deadline.
 TEST_F(ServiceTest, AnalyzeRecordsStopsWithinABatchAtTheDeadline) {
-  const v1::RecordBatch batch = HardRecordBatch();
+  const v1::RecordBatch batch = HardRecordBatch(kMaxRecordsPerBatch);
   grpc::ClientContext context;
   const auto deadline =
       std::chrono::system_clock::now() + std::chrono::milliseconds(100);
@@ -456,7 +444,7 @@ TEST_F(ServiceTest, AnalyzeRecordsStopsWithinABatchAtTheDeadline) {
 }
 
 TEST_F(ServiceTest, AnalyzeRecordsStopsWithinABatchWhenCancelled) {
-  const v1::RecordBatch batch = HardRecordBatch();
+  const v1::RecordBatch batch = HardRecordBatch(kMaxRecordsPerBatch);
   grpc::ClientContext context;
   SetDeadline(&context);
   auto stream = client_.stub->AnalyzeRecords(&context);

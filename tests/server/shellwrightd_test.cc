@@ -25,6 +25,7 @@ namespace {
 
 using ::shellwright::testing::CliPath;
 using ::shellwright::testing::CommandResult;
+using ::shellwright::testing::HardRecordBatch;
 using ::shellwright::testing::RunCommand;
 using ::shellwright::testing::ServerProcess;
 using ::shellwright::testing::ShellwrightdPath;
@@ -523,18 +524,6 @@ TEST(Shellwrightd, SurvivesGarbageBytes) {
   EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
 }
 
-// Records that take tens of milliseconds each to analyse.
-v1::RecordBatch SlowBatch(int records) {
-  v1::RecordBatch batch;
-  for (int i = 0; i < records; ++i) {
-    v1::CompositionRecord* record = batch.add_records();
-    record->set_id(absl::StrCat("slow-", i));
-    record->set_formula("TiVCrMnFeCoNiCuNbMoWRuO8.37");
-    record->set_max_alternatives(5);
-  }
-  return batch;
-}
-
 // The drain answers the batch in hand, then ends the stream with
 // UNAVAILABLE so the client sends the rest elsewhere.
 TEST(Shellwrightd, DrainAnswersTheBatchInHandThenEndsTheStream) {
@@ -544,7 +533,7 @@ TEST(Shellwrightd, DrainAnswersTheBatchInHandThenEndsTheStream) {
   auto stub = Stub(server->address());
   auto context = Context(std::chrono::seconds(90));
   auto stream = stub->AnalyzeRecords(context.get());
-  const v1::RecordBatch batch = SlowBatch(20);
+  const v1::RecordBatch batch = HardRecordBatch(20);
   ASSERT_TRUE(stream->Write(batch));
   std::this_thread::sleep_for(std::chrono::milliseconds(100));
   ASSERT_EQ(kill(server->process().pid(), SIGTERM), 0);
@@ -599,7 +588,7 @@ TEST(Shellwrightd, GracePeriodBoundsShutdown) {
   auto context = Context(std::chrono::seconds(30));
   auto stream = stub->AnalyzeRecords(context.get());
   // Minutes of work: the server must give up on it after the grace.
-  ASSERT_TRUE(stream->Write(SlowBatch(5000)));
+  ASSERT_TRUE(stream->Write(HardRecordBatch(5000)));
   std::this_thread::sleep_for(std::chrono::milliseconds(100));
   const auto start = std::chrono::steady_clock::now();
   EXPECT_EQ(server->Terminate(std::chrono::seconds(10)), 0);
