@@ -402,9 +402,22 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
   absl::StatusOr<OxidationResult> solved =
       AssignOxidationStates(*formula, options);
   if (!solved.ok()) {
-    Add(&r, Severity::kError, "charge_not_balanced",
+    Add(&r, Severity::kError,
+        absl::IsResourceExhausted(solved.status()) ? "search_budget_exceeded"
+                                                   : "charge_not_balanced",
         std::string(solved.status().message()));
     return finish();
+  }
+  if (solved->one_mixed_search) {
+    Add(&r, Severity::kInfo, "mixed_valence_search_limited",
+        "the counts are too finely divided for an exhaustive search within "
+        "one record's work budget: the states are the best with at most "
+        "one mixed-valence element");
+  }
+  if (solved->alternatives_cut) {
+    Add(&r, Severity::kInfo, "alternatives_limited",
+        "the alternatives' work budget ran out: fewer alternatives than "
+        "asked for may be listed");
   }
   r.kind = solved->kind;
   if (!solved->best.has_value()) {

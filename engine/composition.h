@@ -13,11 +13,13 @@
 //             unknown_element, nesting_too_deep, count_too_large,
 //             charge_not_balanced, declared_state_contradicts_balance,
 //             malformed_declared_states, malformed_element_settings,
-//             moment_out_of_range, malformed_record, id_too_long
+//             moment_out_of_range, malformed_record, id_too_long,
+//             search_budget_exceeded
 //   warnings  uncommon_oxidation_state, possible_hydrate_typo,
-//             declared_state_unknown
+//             declared_state_unknown, ion_not_described
 //   info      mixed_valence, metallic_composition, elemental_composition,
-//             moment_check_skipped
+//             moment_check_skipped, mixed_valence_search_limited,
+//             alternatives_limited
 //
 // Defaults (common practice, no source): d-block ions sit in an octahedral
 // field with the `auto` spin rule (3d high spin, 4d/5d low spin) unless the

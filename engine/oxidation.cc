@@ -218,8 +218,17 @@ OxidationAssignment ToAssignment(const Plans& plans, const Solution& s,
   return a;
 }
 
-// Finds the best assignment by widening the search in stages, each exact
-// for what it decides:
+// How one record is searched: exhaustively (SolveCharge, in stages), or,
+// when that would exceed the record's work budget, among assignments with
+// at most one mixed-valence element (SolveChargeOneMixed).
+struct Search {
+  int64_t target = 0;  // Net charge in scaled units.
+  bool one_mixed = false;
+  internal::WorkBudget budget{internal::kRecordCellVisits, false};
+};
+
+// Finds the best assignment. Exhaustively, it widens the search in stages,
+// each exact for what it decides:
 //   1. common states only: any solution here outranks all others;
 //   2. one element at a time may take uncommon states: if the best has a
 //      single uncommon state, no solution with more can beat it;
@@ -228,12 +237,22 @@ OxidationAssignment ToAssignment(const Plans& plans, const Solution& s,
 // typical record cheap.
 //
 // Only a result lighter than `bound` is wanted (see SearchLimits):
-// anything else may come back as no solution.
+// anything else may come back as no solution. When the budget runs out
+// the result is no solution and search->budget says so.
 Solution SolveStaged(const Plans& plans, const ChargeItems& items,
-                     int64_t target, const Forbidden& forbidden,
-                     double threshold, Weight bound = Weight::Infinite()) {
+                     const Forbidden& forbidden, double threshold,
+                     Search* search, Weight bound = Weight::Infinite()) {
   thread_local Candidates candidates;
   candidates.all.clear();
+  const int64_t target = search->target;
+  internal::WorkBudget* const budget = &search->budget;
+  if (search->one_mixed) {
+    BuildCandidates(plans, forbidden, threshold, /*common_only=*/false,
+                    &candidates);
+    return internal::SolveChargeOneMixed(items, candidates, Widening::All(),
+                                         target,
+                                         SearchLimits{bound, false, budget});
+  }
   BuildCandidates(plans, forbidden, threshold, /*common_only=*/true,
                   &candidates);
   // Every solution shares the declared states, D of them uncommon. A
@@ -244,17 +263,21 @@ Solution SolveStaged(const Plans& plans, const ChargeItems& items,
   // With a higher bound, whatever the narrow stage dropped weighs at least
   // the bound, and so does everything the later stages could find.
   Solution best = SolveCharge(items, candidates, Widening::None(), target,
-                              SearchLimits{bound, false});
-  if (!best.weight.IsInfinite() || bound <= Weight::Uncommon(1)) return best;
+                              SearchLimits{bound, false, budget});
+  if (!best.weight.IsInfinite() || bound <= Weight::Uncommon(1) ||
+      budget->exhausted) {
+    return best;
+  }
   BuildCandidates(plans, forbidden, threshold, /*common_only=*/false,
                   &candidates);
   for (size_t k = 0; k < plans.size(); ++k) {
-    Solution s = SolveCharge(
-        items, candidates, Widening::One(static_cast<int>(k)), target,
-        SearchLimits{std::min(bound, best.weight), /*must_widen=*/true});
+    Solution s = SolveCharge(items, candidates,
+                             Widening::One(static_cast<int>(k)), target,
+                             SearchLimits{std::min(bound, best.weight),
+                                          /*must_widen=*/true, budget});
     if (s.weight < best.weight) best = std::move(s);
   }
-  if (best.weight < Weight::Uncommon(2)) return best;
+  if (best.weight < Weight::Uncommon(2) || budget->exhausted) return best;
   // Stage 3, deepened: solutions with at most m uncommon states weigh
   // below m + 1 uncommon states, so bounding the search there keeps it to
   // them. The first m that finds one has found the best; a search the
@@ -269,15 +292,157 @@ Solution SolveStaged(const Plans& plans, const ChargeItems& items,
         fruitless == 2 ? limit : std::min(Weight::BelowUncommon(m + 1), limit);
     Pruning pruning = Pruning::kNone;
     Solution s = SolveCharge(items, candidates, Widening::All(), target,
-                             SearchLimits{cap, false}, &pruning);
+                             SearchLimits{cap, false, budget}, &pruning);
     if (s.weight < best.weight) {
       best = std::move(s);
       break;
     }
-    if (cap >= limit || pruning == Pruning::kNone) break;
+    if (cap >= limit || pruning == Pruning::kNone || budget->exhausted) break;
     if (pruning == Pruning::kInSearch) ++fruitless;
   }
   return best;
+}
+
+// The best assignment (or, when the declared states rule every one out,
+// the best undeclared one) and the alternatives, into `result`. Stops
+// early when search->budget runs out.
+void SearchAssignments(const Formula& formula, const OxidationOptions& options,
+                       int64_t scale, Search* search, OxidationResult* result) {
+  // Electronegativity consistency is judged against a threshold: the
+  // default puts only the most electronegative element on the negative
+  // side; the others are searched only when that leaves an inconsistency.
+  const Plans plans = MakePlans(formula, scale, options);
+  const ThresholdList thresholds = Thresholds(plans);
+  auto solve_best = [&](const Plans& plans_to_search,
+                        const Forbidden& forbidden, double* chosen) {
+    const ChargeItems items = ItemsOf(plans_to_search);
+    Solution best =
+        SolveStaged(plans_to_search, items, forbidden, thresholds[0], search);
+    *chosen = thresholds[0];
+    const bool consistent =
+        !best.weight.IsInfinite() && !best.weight.HasInconsistency();
+    if (consistent) return best;
+    for (size_t j = 1; j < thresholds.size(); ++j) {
+      Solution s = SolveStaged(plans_to_search, items, forbidden, thresholds[j],
+                               search, best.weight);
+      if (s.weight < best.weight) {
+        best = std::move(s);
+        *chosen = thresholds[j];
+      }
+    }
+    return best;
+  };
+  double threshold = thresholds[0];
+  const Solution best = solve_best(plans, Forbidden(), &threshold);
+  if (search->budget.exhausted) return;
+  const ChargeItems items = ItemsOf(plans);
+  if (best.weight.IsInfinite()) {
+    if (!options.declared.empty()) {
+      OxidationOptions free = options;
+      free.declared.clear();
+      const Plans free_plans = MakePlans(formula, scale, free);
+      double unused = 0;
+      const Solution s = solve_best(free_plans, Forbidden(), &unused);
+      if (!s.weight.IsInfinite()) {
+        result->without_declared = ToAssignment(free_plans, s, scale);
+      }
+    }
+    return;
+  }
+  result->best = ToAssignment(plans, best, scale);
+  if (options.max_alternatives <= 0) return;
+  // The alternatives have a budget of their own: when it runs out they
+  // stop, and the best assignment stands.
+  search->budget =
+      internal::WorkBudget{search->one_mixed ? internal::kRestrictedCellVisits
+                                             : internal::kRecordCellVisits,
+                           false};
+
+  // Alternatives: forbid, one element at a time, the option the best
+  // assignment chose for it, and take the best of what remains.
+  std::vector<std::pair<Weight, OxidationAssignment>> found;
+  // Once max_alternatives are found, a search only matters if it comes
+  // below the heaviest of the lightest max_alternatives (a tie ranks
+  // after it, being found later; a duplicate of a skipped one would be
+  // skipped too, weighing the same).
+  std::vector<Weight> weights;
+  const size_t wanted = static_cast<size_t>(options.max_alternatives);
+  for (size_t i = 0; i < plans.size(); ++i) {
+    if (plans[i].declared) continue;
+    Weight bound = Weight::Infinite();
+    if (found.size() >= wanted) {
+      weights.clear();
+      for (const auto& [w, unused] : found) weights.push_back(w);
+      std::nth_element(weights.begin(), weights.begin() + (wanted - 1),
+                       weights.end());
+      bound = weights[wanted - 1];
+    }
+    const StateOption& chosen = plans[i].options()[best.choices[i].option];
+    const Solution s = SolveStaged(
+        plans, items, Forbidden{static_cast<int>(i), chosen.low, chosen.high},
+        threshold, search, bound);
+    if (search->budget.exhausted) {
+      result->alternatives_cut = true;
+      break;
+    }
+    if (s.weight.IsInfinite()) continue;
+    OxidationAssignment a = ToAssignment(plans, s, scale);
+    bool duplicate = false;
+    for (const auto& [w, other] : found) {
+      if (other.states.size() != a.states.size()) continue;
+      bool same = true;
+      for (size_t k = 0; k < a.states.size() && same; ++k) {
+        same = a.states[k].element == other.states[k].element &&
+               a.states[k].state == other.states[k].state &&
+               a.states[k].count == other.states[k].count;
+      }
+      duplicate |= same;
+    }
+    if (!duplicate) found.emplace_back(s.weight, std::move(a));
+  }
+  std::stable_sort(
+      found.begin(), found.end(),
+      [](const auto& x, const auto& y) { return x.first < y.first; });
+  for (auto& [w, a] : found) {
+    if (static_cast<int>(result->alternatives.size()) >=
+        options.max_alternatives) {
+      break;
+    }
+    result->alternatives.push_back(std::move(a));
+  }
+}
+
+// The cells an exhaustive search with every state allowed would hold, at
+// most: the charge window of each layer summed over the layers. A record
+// whose window is too wide for kMaxSearchCells goes straight to the
+// restricted search instead of spending its budget on the stages that
+// come before the widest one.
+int64_t WideSearchCells(const Formula& formula, int64_t scale, int64_t target) {
+  const size_t n = formula.amounts.size();
+  std::array<int64_t, kMaxDistinctElements + 1> rest_min, rest_max;
+  std::array<int64_t, kMaxDistinctElements> lo_state, hi_state;
+  rest_min[n] = rest_max[n] = 0;
+  for (size_t i = n; i-- > 0;) {
+    const ElementAmount& a = formula.amounts[i];
+    const int64_t c = a.count.num() * (scale / a.count.den());
+    const absl::Span<const KnownOxidationState> known =
+        internal::KnownStates(*a.element);
+    lo_state[i] = known.empty() ? 0 : std::min(0, known.front().state);
+    hi_state[i] = known.empty() ? 0 : std::max(0, known.back().state);
+    rest_min[i] = rest_min[i + 1] + c * lo_state[i];
+    rest_max[i] = rest_max[i + 1] + c * hi_state[i];
+  }
+  int64_t cells = 0, prefix_min = 0, prefix_max = 0;
+  for (size_t i = 0; i < n; ++i) {
+    const ElementAmount& a = formula.amounts[i];
+    const int64_t c = a.count.num() * (scale / a.count.den());
+    prefix_min += c * lo_state[i];
+    prefix_max += c * hi_state[i];
+    const int64_t lo = std::max(prefix_min, target - rest_max[i + 1]);
+    const int64_t hi = std::min(prefix_max, target - rest_min[i + 1]);
+    if (hi >= lo) cells += hi - lo + 1;
+  }
+  return cells;
 }
 
 }  // namespace
@@ -326,7 +491,6 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
     }
   }
   OxidationResult result;
-  const bool undeclared = options.declared.empty();
   bool declared_all_zero = true;
   for (const DeclaredState& d : options.declared) {
     declared_all_zero &= d.state == 0;
@@ -373,102 +537,35 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
         "stoichiometry is too large to balance (more than 10^6 atoms per "
         "formula unit after scaling to integers)");
   }
-  const int64_t target = static_cast<int64_t>(options.net_charge) * scale;
-
-  // Electronegativity consistency is judged against a threshold: the
-  // default puts only the most electronegative element on the negative
-  // side; the others are searched only when that leaves an inconsistency.
-  const Plans plans = MakePlans(formula, scale, options);
-  const ThresholdList thresholds = Thresholds(plans);
-  auto solve_best = [&](const Plans& search, const Forbidden& forbidden,
-                        double* chosen) {
-    const ChargeItems items = ItemsOf(search);
-    Solution best =
-        SolveStaged(search, items, target, forbidden, thresholds[0]);
-    *chosen = thresholds[0];
-    const bool consistent =
-        !best.weight.IsInfinite() && !best.weight.HasInconsistency();
-    if (consistent) return best;
-    for (size_t j = 1; j < thresholds.size(); ++j) {
-      Solution s = SolveStaged(search, items, target, forbidden, thresholds[j],
-                               best.weight);
-      if (s.weight < best.weight) {
-        best = std::move(s);
-        *chosen = thresholds[j];
-      }
-    }
-    return best;
-  };
-  double threshold = thresholds[0];
-  const Solution best = solve_best(plans, Forbidden(), &threshold);
-  const ChargeItems items = ItemsOf(plans);
-  if (best.weight.IsInfinite()) {
-    if (!undeclared) {
-      OxidationOptions free = options;
-      free.declared.clear();
-      const Plans free_plans = MakePlans(formula, scale, free);
-      double unused = 0;
-      const Solution s = solve_best(free_plans, Forbidden(), &unused);
-      if (!s.weight.IsInfinite()) {
-        result.without_declared = ToAssignment(free_plans, s, scale);
-      }
-    }
-    return result;
+  struct Release {
+    ~Release() { internal::ReleaseSearchScratch(); }
+  } release;
+  Search search;
+  search.target = static_cast<int64_t>(options.net_charge) * scale;
+  if (WideSearchCells(formula, scale, search.target) <=
+      internal::kMaxSearchCells) {
+    SearchAssignments(formula, options, scale, &search, &result);
+    if (!search.budget.exhausted || result.alternatives_cut) return result;
   }
-  result.best = ToAssignment(plans, best, scale);
-
-  if (options.max_alternatives > 0) {
-    // Alternatives: forbid, one element at a time, the option the best
-    // assignment chose for it, and take the best of what remains.
-    std::vector<std::pair<Weight, OxidationAssignment>> found;
-    // Once max_alternatives are found, a search only matters if it comes
-    // below the heaviest of the lightest max_alternatives (a tie ranks
-    // after it, being found later; a duplicate of a skipped one would be
-    // skipped too, weighing the same).
-    std::vector<Weight> weights;
-    const size_t wanted = static_cast<size_t>(options.max_alternatives);
-    for (size_t i = 0; i < plans.size(); ++i) {
-      if (plans[i].declared) continue;
-      Weight bound = Weight::Infinite();
-      if (found.size() >= wanted) {
-        weights.clear();
-        for (const auto& [w, unused] : found) weights.push_back(w);
-        std::nth_element(weights.begin(), weights.begin() + (wanted - 1),
-                         weights.end());
-        bound = weights[wanted - 1];
-      }
-      const StateOption& chosen = plans[i].options()[best.choices[i].option];
-      const Solution s =
-          SolveStaged(plans, items, target,
-                      Forbidden{static_cast<int>(i), chosen.low, chosen.high},
-                      threshold, bound);
-      if (s.weight.IsInfinite()) continue;
-      OxidationAssignment a = ToAssignment(plans, s, scale);
-      bool duplicate = false;
-      for (const auto& [w, other] : found) {
-        if (other.states.size() != a.states.size()) continue;
-        bool same = true;
-        for (size_t k = 0; k < a.states.size() && same; ++k) {
-          same = a.states[k].element == other.states[k].element &&
-                 a.states[k].state == other.states[k].state &&
-                 a.states[k].count == other.states[k].count;
-        }
-        duplicate |= same;
-      }
-      if (!duplicate) found.emplace_back(s.weight, std::move(a));
-    }
-    std::stable_sort(
-        found.begin(), found.end(),
-        [](const auto& x, const auto& y) { return x.first < y.first; });
-    for (auto& [w, a] : found) {
-      if (static_cast<int>(result.alternatives.size()) >=
-          options.max_alternatives) {
-        break;
-      }
-      result.alternatives.push_back(std::move(a));
-    }
+  // Too wide for the exhaustive search within the budget: search again
+  // among assignments with at most one mixed-valence element.
+  OxidationResult limited;
+  limited.kind = result.kind;
+  limited.one_mixed_search = true;
+  search.one_mixed = true;
+  search.budget = internal::WorkBudget{internal::kRestrictedCellVisits, false};
+  SearchAssignments(formula, options, scale, &search, &limited);
+  // "No balance" from the restricted search is no verdict: an assignment
+  // with two or more mixed-valence elements may exist.
+  if (!limited.best.has_value()) {
+    return absl::ResourceExhaustedError(absl::StrCat(
+        "balancing this stoichiometry exhaustively would exceed the work "
+        "budget of one record, and no balance with at most one "
+        "mixed-valence element was found",
+        search.budget.exhausted ? " within it" : "",
+        "; its counts are too finely divided for the number of elements"));
   }
-  return result;
+  return limited;
 }
 
 }  // namespace shellwright

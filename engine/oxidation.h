@@ -119,12 +119,23 @@ struct OxidationResult {
   // When declared states made balancing impossible but it is possible
   // without them, the best undeclared assignment (to suggest a fix).
   std::optional<OxidationAssignment> without_declared;
+  // True when the exhaustive search would have exceeded the record's work
+  // budget, so that the assignments are the best among those with at most
+  // one mixed-valence element (see docs/method.md).
+  bool one_mixed_search = false;
+  // True when the alternatives' own work budget ran out before every
+  // element was tried: `alternatives` holds those found until then.
+  bool alternatives_cut = false;
 };
 
 // INVALID_ARGUMENT when the formula is empty, holds more than
 // kMaxDistinctElements elements, is too finely divided (see
 // kMaxStoichiometryDenominator) or too large (more than 10^6 atoms after
 // scaling), or declares an element it does not contain.
+// RESOURCE_EXHAUSTED when even the search restricted to one mixed-valence
+// element would exceed the record's work budget. The work per call is
+// bounded (about 10 ms and 16 MB on the reference machine; see
+// docs/performance.md).
 absl::StatusOr<OxidationResult> AssignOxidationStates(
     const Formula& formula, const OxidationOptions& options);
 

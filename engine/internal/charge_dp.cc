@@ -4,6 +4,8 @@
 #include <limits>
 #include <utility>
 
+#include "absl/container/flat_hash_map.h"
+
 namespace shellwright::internal {
 namespace {
 
@@ -36,7 +38,34 @@ int64_t FloorDiv(int64_t a, int64_t b) {
 }
 int64_t CeilDiv(int64_t a, int64_t b) { return -FloorDiv(-a, b); }
 
+// Cost of a mixed candidate's cell, in single-candidate cell visits (its
+// monotone queue), measured on the reference machine.
+constexpr int64_t kMixedVisitCost = 4;
+
+// Per-thread buffers of the searches. A search holds at most
+// kMaxSearchCells cells; ReleaseSearchScratch() gives large buffers back.
+struct Scratch {
+  std::vector<std::vector<int64_t>> cost;
+  std::vector<std::vector<Choice>> back;
+  std::vector<std::pair<int64_t, int64_t>> window;
+  std::vector<UncommonNeed> needs;
+  absl::flat_hash_map<int64_t, int32_t> slot;  // SolveChargeOneMixed.
+};
+
+Scratch& ThreadScratch() {
+  thread_local Scratch scratch;
+  return scratch;
+}
+
 }  // namespace
+
+void ReleaseSearchScratch() {
+  constexpr size_t kKeepCells = 1 << 15;
+  Scratch& s = ThreadScratch();
+  size_t held = s.window.capacity() + s.slot.capacity();
+  for (const std::vector<int64_t>& layer : s.cost) held += layer.capacity();
+  if (held > kKeepCells) s = Scratch();
+}
 
 Solution SolveCharge(absl::Span<const ChargeItem> items,
                      const Candidates& candidates, Widening widening,
@@ -50,9 +79,10 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
   const int forced_wide = widening.single();
   // Scratch reused across calls on this thread: the solver runs once or
   // more per record and must not allocate in the common case.
-  thread_local std::vector<std::vector<int64_t>> cost;
-  thread_local std::vector<std::vector<Choice>> back;
-  thread_local std::vector<std::pair<int64_t, int64_t>> window;
+  Scratch& scratch = ThreadScratch();
+  std::vector<std::vector<int64_t>>& cost = scratch.cost;
+  std::vector<std::vector<Choice>>& back = scratch.back;
+  std::vector<std::pair<int64_t, int64_t>>& window = scratch.window;
   if (pruning != nullptr) *pruning = Pruning::kNone;
   Solution s;
   // Elements with a single single-state candidate only shift the total and
@@ -102,7 +132,7 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
                          : std::min(kInfinity, rest_weight[i + 1] + w);
   }
   if (target < rest_min[0] || target > rest_max[0]) return Solution();
-  thread_local std::vector<UncommonNeed> needs;
+  std::vector<UncommonNeed>& needs = scratch.needs;
   if (bound < kInfinity) {
     // From the last layer back, keeping the extensions sorted (largest
     // first) as layers join.
@@ -172,8 +202,16 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
     prefix_max += lists[i - 1]->max_contribution;
     lo[i] = std::max(prefix_min, target - rest_max[i]);
     hi[i] = std::min(prefix_max, target - rest_min[i]);
-    if (lo[i] > hi[i] || hi[i] - lo[i] > kMaxChargeWindow) return Solution();
+    if (lo[i] > hi[i]) return Solution();
   }
+  // Memory: the layers' cells, bounded before anything is allocated.
+  int64_t cells = 1;
+  for (size_t i = 1; i <= n; ++i) cells += hi[i] - lo[i] + 1;
+  auto exhaust = [&]() {
+    if (limits.budget != nullptr) limits.budget->exhausted = true;
+    return Solution();
+  };
+  if (cells > kMaxSearchCells) return exhaust();
 
   if (cost.size() < n + 1) {
     cost.resize(n + 1);
@@ -190,6 +228,18 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
     hi[i + 1] = std::min(hi[i + 1], reach_hi + lists[i]->max_contribution);
     if (lo[i + 1] > hi[i + 1]) return Solution();
     const int64_t next_lo = lo[i + 1], next_hi = hi[i + 1];
+    if (limits.budget != nullptr) {
+      // A mixed candidate's queue costs about four single visits a cell.
+      int64_t per_cell = 0;
+      for (size_t ci = lists[i]->begin; ci < lists[i]->end; ++ci) {
+        per_cell += candidates.all[ci].low == candidates.all[ci].high
+                        ? 1
+                        : kMixedVisitCost;
+      }
+      const int64_t visits = (next_hi - next_lo + 1) * per_cell;
+      if (visits > limits.budget->cell_visits) return exhaust();
+      limits.budget->cell_visits -= visits;
+    }
     std::vector<int64_t>& next_layer = cost[i + 1];
     next_layer.assign(next_hi - next_lo + 1, kInfinity);
     // Only cells with a finite cost are ever read back, and each of those
@@ -309,6 +359,207 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
                          : c * o.high - ch.low_atoms * (o.high - o.low);
   }
   return s;
+}
+
+namespace {
+
+// One total reached by single-valence choices of a run of layers.
+struct SparseEntry {
+  int64_t total;
+  int64_t weight;     // Packed Weight.
+  int32_t link;       // Entry index in the neighbouring map; -1 at the root.
+  int32_t candidate;  // Index into Candidates::all; -1 at the root.
+};
+
+// Cost of one sparse visit (a hash-map insertion, or a step of a join) in
+// dense cell visits, for the WorkBudget: about 8x on the reference
+// machine.
+constexpr int64_t kSparseVisitCost = 8;
+
+// Totals reached by single-valence choices: maps[i] holds those of the
+// layers before i (a forward run) or from i on (a backward run), each with
+// the lightest way to it.
+struct SparseRun {
+  std::vector<std::vector<SparseEntry>> maps;
+};
+
+// Fills run->maps layer by layer, in `order`, adding each layer's single
+// candidates to the previous map and keeping only totals inside
+// [keep_lo[i], keep_hi[i]] after layer i joins. Returns false when the
+// budget or the cell bound runs out.
+bool SparseSweep(absl::Span<const ChargeItem> items,
+                 absl::Span<const CandidateList* const> lists,
+                 absl::Span<const size_t> order,
+                 absl::Span<const int64_t> keep_lo,
+                 absl::Span<const int64_t> keep_hi,
+                 const Candidates& candidates, int64_t bound,
+                 WorkBudget* budget, int64_t* held, SparseRun* run) {
+  absl::flat_hash_map<int64_t, int32_t>& slot = ThreadScratch().slot;
+  run->maps.assign(1, {SparseEntry{0, 0, -1, -1}});
+  for (size_t step = 0; step < order.size(); ++step) {
+    const size_t e = order[step];
+    const std::vector<SparseEntry>& prev = run->maps.back();
+    const CandidateList& list = *lists[e];
+    const int64_t visits = kSparseVisitCost *
+                           static_cast<int64_t>(prev.size()) *
+                           static_cast<int64_t>(list.end - list.begin);
+    if (budget != nullptr) {
+      if (visits > budget->cell_visits) return false;
+      budget->cell_visits -= visits;
+    }
+    std::vector<SparseEntry> next;
+    slot.clear();
+    for (size_t pi = 0; pi < prev.size(); ++pi) {
+      for (size_t ci = list.begin; ci < list.end; ++ci) {
+        const Candidate& c = candidates.all[ci];
+        if (c.low != c.high) continue;
+        const int64_t t = prev[pi].total + items[e].scaled_count * c.low;
+        if (t < keep_lo[step] || t > keep_hi[step]) continue;
+        const int64_t w = prev[pi].weight + c.weight.packed();
+        if (w >= bound) continue;
+        const SparseEntry entry{t, w, static_cast<int32_t>(pi),
+                                static_cast<int32_t>(ci)};
+        auto [it, inserted] =
+            slot.try_emplace(t, static_cast<int32_t>(next.size()));
+        if (inserted) {
+          next.push_back(entry);
+        } else if (w < next[it->second].weight) {
+          next[it->second] = entry;
+        }
+      }
+    }
+    *held += static_cast<int64_t>(next.size());
+    if (*held > kMaxSearchCells) return false;
+    run->maps.push_back(std::move(next));
+  }
+  return true;
+}
+
+// Writes the choices that lead to entry `index` of run.maps[depth], whose
+// layers are order[0..depth).
+void Trace(const SparseRun& run, absl::Span<const size_t> order,
+           const Candidates& candidates, size_t depth, int32_t index,
+           Solution* s) {
+  for (size_t d = depth; d > 0; --d) {
+    const SparseEntry& entry = run.maps[d][index];
+    s->choices[order[d - 1]] =
+        Choice{candidates.all[entry.candidate].option, 0};
+    index = entry.link;
+  }
+}
+
+}  // namespace
+
+Solution SolveChargeOneMixed(absl::Span<const ChargeItem> items,
+                             const Candidates& candidates, Widening widening,
+                             int64_t target, const SearchLimits& limits) {
+  const size_t n = items.size();
+  std::array<const CandidateList*, kMaxDistinctElements> lists;
+  for (size_t e = 0; e < n; ++e) {
+    lists[e] = widening.Includes(static_cast<int>(e)) ? &candidates.wide[e]
+                                                      : &candidates.narrow[e];
+  }
+  const absl::Span<const CandidateList* const> list_span(lists.data(), n);
+  auto exhaust = [&]() {
+    if (limits.budget != nullptr) limits.budget->exhausted = true;
+    return Solution();
+  };
+  // What the layers before i, and from i on, can contribute (mixed
+  // candidates included).
+  std::array<int64_t, kMaxDistinctElements + 1> pre_min, pre_max, suf_min,
+      suf_max;
+  pre_min[0] = pre_max[0] = suf_min[n] = suf_max[n] = 0;
+  for (size_t i = 0; i < n; ++i) {
+    pre_min[i + 1] = pre_min[i] + lists[i]->min_contribution;
+    pre_max[i + 1] = pre_max[i] + lists[i]->max_contribution;
+  }
+  for (size_t i = n; i-- > 0;) {
+    suf_min[i] = suf_min[i + 1] + lists[i]->min_contribution;
+    suf_max[i] = suf_max[i + 1] + lists[i]->max_contribution;
+  }
+  if (target < suf_min[0] || target > suf_max[0]) return Solution();
+  // Forward over layers 0..n-1 and backward over n-1..0, each keeping
+  // only totals the other side can still complete.
+  std::array<size_t, kMaxDistinctElements> forward_order, backward_order;
+  std::array<int64_t, kMaxDistinctElements> f_lo, f_hi, b_lo, b_hi;
+  for (size_t i = 0; i < n; ++i) {
+    forward_order[i] = i;
+    f_lo[i] = target - suf_max[i + 1];
+    f_hi[i] = target - suf_min[i + 1];
+    const size_t e = n - 1 - i;
+    backward_order[i] = e;
+    b_lo[i] = target - pre_max[e];
+    b_hi[i] = target - pre_min[e];
+  }
+  const absl::Span<const size_t> fo(forward_order.data(), n),
+      bo(backward_order.data(), n);
+  const int64_t bound = limits.bound.packed();
+  int64_t held = 0;
+  SparseRun forward, backward;
+  if (!SparseSweep(items, list_span, fo, {f_lo.data(), n}, {f_hi.data(), n},
+                   candidates, bound, limits.budget, &held, &forward) ||
+      !SparseSweep(items, list_span, bo, {b_lo.data(), n}, {b_hi.data(), n},
+                   candidates, bound, limits.budget, &held, &backward)) {
+    return exhaust();
+  }
+  Solution best;
+  // No layer mixed.
+  const std::vector<SparseEntry>& all = forward.maps[n];
+  for (size_t i = 0; i < all.size(); ++i) {
+    if (all[i].total != target) continue;
+    best.weight = Weight::FromPacked(all[i].weight);
+    Trace(forward, fo, candidates, n, static_cast<int32_t>(i), &best);
+  }
+  // Layer e mixed: the layers before it reach f, those after it g, and its
+  // k scaled atoms in the lower state make up the rest:
+  // f + g + c*high - k*d = target, 1 <= k <= c-1.
+  std::vector<size_t> by_total;
+  for (size_t e = 0; e < n; ++e) {
+    const std::vector<SparseEntry>& before = forward.maps[e];
+    const std::vector<SparseEntry>& after = backward.maps[n - 1 - e];
+    // `after` by total, for range lookups.
+    by_total.resize(after.size());
+    for (size_t i = 0; i < after.size(); ++i) by_total[i] = i;
+    std::sort(by_total.begin(), by_total.end(), [&](size_t a, size_t b) {
+      return after[a].total < after[b].total;
+    });
+    const int64_t c = items[e].scaled_count;
+    for (size_t ci = lists[e]->begin; ci < lists[e]->end; ++ci) {
+      const Candidate& o = candidates.all[ci];
+      if (o.low == o.high) continue;
+      const int64_t d = o.high - o.low;
+      for (size_t fi = 0; fi < before.size(); ++fi) {
+        // g = base + k*d with base = target - f - c*high.
+        const int64_t base = target - before[fi].total - c * o.high;
+        const int64_t g_lo = base + d, g_hi = base + (c - 1) * d;
+        auto first = std::lower_bound(
+            by_total.begin(), by_total.end(), g_lo,
+            [&](size_t i, int64_t v) { return after[i].total < v; });
+        int64_t visits = 0;
+        for (auto it = first; it != by_total.end() && after[*it].total <= g_hi;
+             ++it) {
+          ++visits;
+          const SparseEntry& g = after[*it];
+          if ((g.total - base) % d != 0) continue;
+          const int64_t k = (g.total - base) / d;
+          const int64_t w = before[fi].weight + g.weight + o.weight.packed() +
+                            o.per_low_atom.packed() * k;
+          if (w >= bound || w >= best.weight.packed()) continue;
+          best.weight = Weight::FromPacked(w);
+          Trace(forward, fo, candidates, e, static_cast<int32_t>(fi), &best);
+          Trace(backward, bo, candidates, n - 1 - e, static_cast<int32_t>(*it),
+                &best);
+          best.choices[e] = Choice{o.option, static_cast<int32_t>(k)};
+        }
+        if (limits.budget != nullptr) {
+          const int64_t cost = kSparseVisitCost * (visits + 1);
+          if (cost > limits.budget->cell_visits) return exhaust();
+          limits.budget->cell_visits -= cost;
+        }
+      }
+    }
+  }
+  return best;
 }
 
 }  // namespace shellwright::internal

@@ -35,9 +35,6 @@
 
 namespace shellwright::internal {
 
-// Widest charge window a layer may span, in scaled charge units.
-inline constexpr int64_t kMaxChargeWindow = 4000000;
-
 // One layer of the search.
 struct ChargeItem {
   int64_t scaled_count = 0;  // Scaled atoms (or units), >= 1.
@@ -113,6 +110,33 @@ class Widening {
   int item_;
 };
 
+// The work one record's searches may do, shared by all of them. A search
+// that would go over it stops, marks the budget exhausted and finds
+// nothing; the caller must then not trust "no solution" (see
+// oxidation.cc, which switches to a cheaper method or reports the
+// record). Work is counted in cell visits: charge cells times the
+// candidates that write them.
+struct WorkBudget {
+  int64_t cell_visits = 0;  // Remaining.
+  bool exhausted = false;
+};
+
+// Cell visits (weighted, see charge_dp.cc) one record's exhaustive search
+// for its best assignment may spend in SolveCharge, and again its
+// alternatives: a few milliseconds each on the reference machine
+// (docs/performance.md). The largest record of the regression corpus uses
+// about a sixth of it.
+inline constexpr int64_t kRecordCellVisits = 6000000;
+
+// Weighted visits SolveChargeOneMixed may spend when the exhaustive search
+// ran out.
+inline constexpr int64_t kRestrictedCellVisits = 2000000;
+
+// Cells one search may hold at once, over all its layers (16 bytes each:
+// a weight and a back pointer, plus at most one layer's width of queue),
+// which bounds its memory to about 10 MB.
+inline constexpr int64_t kMaxSearchCells = 300000;
+
 // What a search may skip.
 struct SearchLimits {
   // Only a solution lighter than `bound` is wanted: any other result is as
@@ -122,6 +146,8 @@ struct SearchLimits {
   // No solution exists with narrow candidates only, so the single widened
   // item must take one of its uncommon candidates.
   bool must_widen = false;
+  // Work allowance; null means unlimited.
+  WorkBudget* budget = nullptr;
 };
 
 // Whether a bounded search dropped anything, and where.
@@ -135,6 +161,22 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
                      const Candidates& candidates, Widening widening,
                      int64_t target, const SearchLimits& limits,
                      Pruning* pruning = nullptr);
+
+// Gives back this thread's search buffers when a search made them large;
+// call it when a record is done, so that one wide record does not hold
+// its memory for the life of the thread.
+void ReleaseSearchScratch();
+
+// The lightest choice, as SolveCharge finds it, among those with at most
+// one mixed-valence layer, on the sparse set of totals that single-valence
+// choices reach. Its cost grows with the number of distinct totals, not
+// with the width of the charge window, so it serves formulas whose
+// fine-grained counts make the window too wide for SolveCharge (a count of
+// 0.99999 scales every other count by 10^5). Every layer takes its wide
+// candidates where `widening` says so; limits.must_widen is ignored.
+Solution SolveChargeOneMixed(absl::Span<const ChargeItem> items,
+                             const Candidates& candidates, Widening widening,
+                             int64_t target, const SearchLimits& limits);
 
 }  // namespace shellwright::internal
 

@@ -149,6 +149,30 @@ void BM_SolveReducedTwelveMetalOxide(benchmark::State& state) {
 }
 BENCHMARK(BM_SolveReducedTwelveMetalOxide);
 
+// Records found by fuzzing that made the exhaustive search pseudo-
+// polynomial in the counts' denominator (a count of 0.99999 scales every
+// other count by 10^5): their cost is bounded by the per-record work
+// budget (engine/internal/charge_dp.h). Arg: alternatives asked for.
+void BM_AnalyzeWorstCaseRecord(benchmark::State& state) {
+  const char* formulas[] = {
+      "SbWFeMoPrPbCoMnVO0.99999", "SbWFeMoPrPbCoO2.49497",
+      "TiVCrMnFeCoNiCuNbMoWRuO8.3713",
+      "Fe0.12345Co0.23456Ni0.34567Mn0.45678Cr0.56789O1.23456",
+      "Fe0.1234Co0.2345Ni0.3456Mn0.4567Cr0.5678Cu0.6789V0.7891Ti0.8912O1."
+      "2345"};
+  CompositionInput in;
+  in.max_alternatives = static_cast<int>(state.range(1));
+  in.formula = formulas[state.range(0)];
+  for (auto _ : state) {
+    CompositionReport r = AnalyzeComposition(in);
+    benchmark::DoNotOptimize(r);
+  }
+  state.SetLabel(in.formula);
+}
+BENCHMARK(BM_AnalyzeWorstCaseRecord)
+    ->ArgsProduct({{0, 1, 2, 3, 4}, {0, 2}})
+    ->Unit(benchmark::kMillisecond);
+
 }  // namespace
 }  // namespace shellwright
 

@@ -408,6 +408,58 @@ TEST(Oxidation, EmptyFormulaIsInvalidArgument) {
   EXPECT_EQ(r.status().code(), absl::StatusCode::kInvalidArgument);
 }
 
+// The charge of an assignment, summed exactly.
+Rational NetCharge(const OxidationAssignment& a) {
+  Rational q(0);
+  for (const AssignedState& s : a.states) q = q + s.count * Rational(s.state);
+  return q;
+}
+
+// Found by fuzzing (issue 12): one count with five decimals scaled every
+// other count by 10^5, and the exhaustive search took seconds and hundreds
+// of megabytes. It now falls back, within the record's work budget, to
+// the best assignment with at most one mixed-valence element.
+TEST(Oxidation, FuzzFoundFinelyDividedOxideIsBalancedWithinTheBudget) {
+  for (const char* formula :
+       {"SbWFeMoPrPbCoMnVO0.99999", "SbWFeMoPrPbCoO2.49497"}) {
+    SCOPED_TRACE(formula);
+    const OxidationResult r = Solve(formula);
+    ASSERT_TRUE(r.best.has_value());
+    EXPECT_TRUE(r.one_mixed_search);
+    EXPECT_EQ(NetCharge(*r.best), Rational(0));
+    int mixed = 0;
+    for (size_t i = 1; i < r.best->states.size(); ++i) {
+      mixed += r.best->states[i].element == r.best->states[i - 1].element;
+    }
+    EXPECT_LE(mixed, 1);
+  }
+}
+
+TEST(Oxidation, RecordBeyondEveryBudgetIsResourceExhausted) {
+  // Nine elements with distinct four-decimal counts: too wide for the
+  // exhaustive search and too many distinct totals for the restricted one.
+  absl::StatusOr<Formula> f = ParseFormula(
+      "Fe0.1234Co0.2345Ni0.3456Mn0.4567Cr0.5678Cu0.6789V0.7891Ti0.8912O1."
+      "2345");
+  ASSERT_TRUE(f.ok());
+  absl::StatusOr<OxidationResult> r =
+      AssignOxidationStates(*f, OxidationOptions());
+  EXPECT_EQ(r.status().code(), absl::StatusCode::kResourceExhausted);
+  EXPECT_THAT(std::string(r.status().message()),
+              testing::HasSubstr("work budget"));
+}
+
+TEST(Oxidation, OrdinaryRecordsStayExhaustive) {
+  for (const char* formula :
+       {"Fe3O4", "La0.7Sr0.3MnO3", "LiNi0.8Co0.15Al0.05O2",
+        "TiVCrMnFeCoNiCuNbMoWRuO8.37"}) {
+    SCOPED_TRACE(formula);
+    const OxidationResult r = Solve(formula);
+    ASSERT_TRUE(r.best.has_value());
+    EXPECT_FALSE(r.one_mixed_search);
+  }
+}
+
 TEST(Oxidation, TooFinelyDividedFormulaIsInvalidArgument) {
   // lcm(1000, 1001) = 1001000 > kMaxStoichiometryDenominator.
   Formula f;
