@@ -3,9 +3,15 @@
 #include <algorithm>
 #include <atomic>
 #include <chrono>
+#include <condition_variable>
 #include <exception>
+#include <memory>
 #include <mutex>
+#include <optional>
+#include <set>
+#include <thread>
 #include <utility>
+#include <vector>
 
 #include "absl/strings/ascii.h"
 #include "absl/strings/escaping.h"
@@ -15,12 +21,141 @@
 #include "absl/time/clock.h"
 #include "api/atoms.h"
 #include "api/records.h"
+#include "google/protobuf/io/coded_stream.h"
 #include "google/protobuf/stubs/logging.h"
 #include "grpcpp/ext/proto_server_reflection_plugin.h"
 #include "grpcpp/health_check_service_interface.h"
 #include "util/small_file.h"
 
 namespace shellwright {
+namespace internal {
+
+// The service's view of its calls: how many are in progress (for the
+// drain) and which AnalyzeRecords streams wait for their next batch (for
+// the idle limit and the drain). A reaper thread cancels streams that have
+// waited longer than the idle limit.
+class CallTracker {
+ public:
+  // One AnalyzeRecords call, shared between its reactor and the tracker so
+  // that cancelling never races with the reactor's deletion.
+  struct Stream {
+    // Recursive: TryCancel may run the reactor's reactions inline on the
+    // cancelling thread, and they take this lock too.
+    std::recursive_mutex mu;
+    grpc::CallbackServerContext* context;  // Null once the call is done.
+    // When the stream started waiting for its next batch; nullopt while
+    // it works on one.
+    std::optional<absl::Time> waiting_since;
+  };
+
+  explicit CallTracker(absl::Duration stream_idle_timeout)
+      : idle_timeout_(stream_idle_timeout),
+        reaper_([this] { ReapIdleStreams(); }) {}
+
+  ~CallTracker() {
+    {
+      std::lock_guard<std::mutex> lock(mu_);
+      stopping_ = true;
+    }
+    stop_.notify_all();
+    reaper_.join();
+  }
+
+  bool draining() const { return draining_.load(std::memory_order_acquire); }
+
+  std::shared_ptr<Stream> AddStream(grpc::CallbackServerContext* context) {
+    auto stream = std::make_shared<Stream>();
+    stream->context = context;
+    std::lock_guard<std::mutex> lock(mu_);
+    streams_.insert(stream);
+    return stream;
+  }
+
+  // The stream's call is done; its context goes away after this.
+  void RemoveStream(const std::shared_ptr<Stream>& stream) {
+    {
+      std::lock_guard<std::recursive_mutex> lock(stream->mu);
+      stream->context = nullptr;
+    }
+    std::lock_guard<std::mutex> lock(mu_);
+    streams_.erase(stream);
+    changed_.notify_all();
+  }
+
+  void UnaryStarted() {
+    std::lock_guard<std::mutex> lock(mu_);
+    ++unary_calls_;
+  }
+  void UnaryDone() {
+    std::lock_guard<std::mutex> lock(mu_);
+    --unary_calls_;
+    changed_.notify_all();
+  }
+
+  void BeginDrain() {
+    draining_.store(true, std::memory_order_release);
+    CancelWaiting(absl::InfiniteFuture(), "the server is draining");
+  }
+
+  bool WaitUntilIdle(absl::Time deadline) {
+    std::unique_lock<std::mutex> lock(mu_);
+    return changed_.wait_until(lock, absl::ToChronoTime(deadline), [&] {
+      return streams_.empty() && unary_calls_ == 0;
+    });
+  }
+
+ private:
+  // Cancels every stream that has waited for a batch since before `cutoff`.
+  void CancelWaiting(absl::Time cutoff, absl::string_view why) {
+    std::vector<std::shared_ptr<Stream>> streams;
+    {
+      std::lock_guard<std::mutex> lock(mu_);
+      streams.assign(streams_.begin(), streams_.end());
+    }
+    // Outside mu_: a cancellation may finish the call on this thread, and
+    // RemoveStream takes mu_.
+    for (const std::shared_ptr<Stream>& stream : streams) {
+      std::lock_guard<std::recursive_mutex> lock(stream->mu);
+      if (stream->context == nullptr || !stream->waiting_since.has_value() ||
+          *stream->waiting_since > cutoff) {
+        continue;
+      }
+      Log(LogLevel::kDebug,
+          absl::StrCat("cancelling an AnalyzeRecords stream waiting for a "
+                       "batch: ",
+                       why));
+      stream->waiting_since.reset();
+      stream->context->TryCancel();
+    }
+  }
+
+  void ReapIdleStreams() {
+    const absl::Duration period =
+        std::clamp(idle_timeout_ / 4, absl::Milliseconds(10), absl::Seconds(5));
+    std::unique_lock<std::mutex> lock(mu_);
+    while (!stopping_) {
+      stop_.wait_for(lock, absl::ToChronoMilliseconds(period));
+      if (stopping_) break;
+      lock.unlock();
+      CancelWaiting(absl::Now() - idle_timeout_,
+                    "idle for longer than the idle timeout");
+      lock.lock();
+    }
+  }
+
+  const absl::Duration idle_timeout_;
+  std::atomic<bool> draining_{false};
+  std::mutex mu_;
+  std::condition_variable changed_;            // A call ended.
+  std::condition_variable stop_;               // stopping_ was set.
+  std::set<std::shared_ptr<Stream>> streams_;  // Guarded by mu_.
+  int unary_calls_ = 0;                        // Guarded by mu_.
+  bool stopping_ = false;                      // Guarded by mu_.
+  std::thread reaper_;  // Last: starts once the members above exist.
+};
+
+}  // namespace internal
+
 namespace {
 
 // ---------------------------------------------------------------------------
@@ -198,27 +333,48 @@ grpc::Status DescribeAtomsWatched(const CallWatch& watch,
   return grpc::Status::OK;
 }
 
+// A peer gets this long to answer a keepalive ping, and a new connection
+// this long to finish its handshake (common practice, no source).
+constexpr absl::Duration kKeepaliveTimeout = absl::Seconds(20);
+constexpr absl::Duration kHandshakeTimeout = absl::Seconds(20);
+
 // Records analysed between two cancellation checks in AnalyzeRecords
 // (the deadline is checked before every record).
 constexpr int kRecordsPerCancelCheck = 64;
 
-// AnalyzeRecords: one batch read, analysed and written at a time. Reading
-// the next batch only after the previous reply is written lets HTTP/2 flow
-// control push back on a client that sends faster than it reads.
+// Bytes a report adds to a ReportBatch: its tag, its length and itself.
+size_t ReportFieldBytes(const v1::RecordReport& report) {
+  const size_t size = report.ByteSizeLong();
+  return 1 + google::protobuf::io::CodedOutputStream::VarintSize64(size) + size;
+}
+
+// AnalyzeRecords: one batch read, analysed and answered at a time. Reading
+// the next batch only after the previous answer is written lets HTTP/2
+// flow control push back on a client that sends faster than it reads. An
+// answer that would pass kMaxReportBatchBytes goes out in several
+// ReportBatch messages, each written once the one before it is.
 class RecordStreamReactor final
     : public grpc::ServerBidiReactor<v1::RecordBatch, v1::ReportBatch> {
  public:
   RecordStreamReactor(grpc::CallbackServerContext* context,
-                      const grpc::Status& admitted)
-      : peer_(PeerForLog(context)), watch_(context) {
+                      const grpc::Status& admitted,
+                      internal::CallTracker* tracker)
+      : peer_(PeerForLog(context)), watch_(context), tracker_(tracker) {
     if (!admitted.ok()) {
       FinishAndRecord(admitted);
       return;
     }
-    StartRead(&batch_);
+    tracked_ = tracker_->AddStream(context);
+    ReadNext();
   }
 
   void OnReadDone(bool ok) override {
+    {
+      // Claims the batch, unless an idle or drain cancellation came first
+      // (then the call is cancelled and Interrupted() says so).
+      std::lock_guard<std::recursive_mutex> lock(tracked_->mu);
+      tracked_->waiting_since.reset();
+    }
     if (!ok) {
       // The client half-closed, or the call ended under us (deadline,
       // cancellation).
@@ -233,28 +389,10 @@ class RecordStreamReactor final
                        kMaxRecordsPerBatch)));
       return;
     }
-    grpc::Status status = RunGuarded("AnalyzeRecords", [&] {
-      reply_.Clear();
-      reply_.mutable_reports()->Reserve(batch_.records_size());
-      for (int i = 0; i < batch_.records_size(); ++i) {
-        // A hard record takes tens of milliseconds, so checking only every
-        // kRecordsPerCancelCheck records could overrun the deadline by
-        // seconds; one clock read per record costs well under 1%.
-        if (watch_.DeadlinePassed() || cancelled_ ||
-            i % kRecordsPerCancelCheck == 0) {
-          if (grpc::Status s = Interrupted(); !s.ok()) return s;
-        }
-        AnalyzeRecord(batch_.records(i), reply_.add_reports());
-      }
-      return grpc::Status::OK;
-    });
-    if (!status.ok()) {
-      FinishAndRecord(status);
-      return;
-    }
+    next_record_ = 0;
+    carried_.reset();
     ++batches_;
-    records_ += batch_.records_size();
-    StartWrite(&reply_);
+    AnswerSome();
   }
 
   void OnWriteDone(bool ok) override {
@@ -266,12 +404,24 @@ class RecordStreamReactor final
                                   : status);
       return;
     }
-    StartRead(&batch_);
+    if (next_record_ < batch_.records_size() || carried_ != nullptr) {
+      AnswerSome();  // The rest of this batch's answer.
+      return;
+    }
+    if (tracker_->draining()) {
+      FinishAndRecord(grpc::Status(
+          grpc::StatusCode::UNAVAILABLE,
+          "the server is shutting down; every batch read so far was "
+          "answered, send the rest to another server"));
+      return;
+    }
+    ReadNext();
   }
 
   void OnCancel() override { cancelled_ = true; }
 
   void OnDone() override {
+    if (tracked_ != nullptr) tracker_->RemoveStream(tracked_);
     grpc::Status logged = status_;
     if (cancelled_ && status_.ok()) {
       logged = grpc::Status(grpc::StatusCode::CANCELLED, "cancelled");
@@ -282,6 +432,58 @@ class RecordStreamReactor final
   }
 
  private:
+  void ReadNext() {
+    {
+      std::lock_guard<std::recursive_mutex> lock(tracked_->mu);
+      tracked_->waiting_since = absl::Now();
+    }
+    StartRead(&batch_);
+  }
+
+  // Analyses records from next_record_ on into reply_ until the batch ends
+  // or the next report would take reply_ past kMaxReportBatchBytes (it is
+  // carried into the next reply), then writes reply_.
+  void AnswerSome() {
+    grpc::Status status = RunGuarded("AnalyzeRecords", [&] {
+      reply_.Clear();
+      size_t bytes = 0;
+      if (carried_ != nullptr) {
+        bytes += ReportFieldBytes(*carried_);
+        reply_.mutable_reports()->AddAllocated(carried_.release());
+      }
+      const int end = batch_.records_size();
+      if (next_record_ == 0) {
+        reply_.mutable_reports()->Reserve(std::min(end, 1024));
+      }
+      for (; next_record_ < end; ++next_record_) {
+        // A hard record takes tens of milliseconds, so checking only every
+        // kRecordsPerCancelCheck records could overrun the deadline by
+        // seconds; one clock read per record costs well under 1%.
+        if (watch_.DeadlinePassed() || cancelled_ ||
+            next_record_ % kRecordsPerCancelCheck == 0) {
+          if (grpc::Status s = Interrupted(); !s.ok()) return s;
+        }
+        v1::RecordReport* report = reply_.add_reports();
+        AnalyzeRecord(batch_.records(next_record_), report);
+        ++records_;
+        const size_t report_bytes = ReportFieldBytes(*report);
+        if (bytes + report_bytes > kMaxReportBatchBytes &&
+            reply_.reports_size() > 1) {
+          carried_.reset(reply_.mutable_reports()->ReleaseLast());
+          ++next_record_;
+          break;
+        }
+        bytes += report_bytes;
+      }
+      return grpc::Status::OK;
+    });
+    if (!status.ok()) {
+      FinishAndRecord(status);
+      return;
+    }
+    StartWrite(&reply_);
+  }
+
   // Finish, keeping the status for the log line written in OnDone.
   void FinishAndRecord(const grpc::Status& status) {
     status_ = status;
@@ -300,8 +502,13 @@ class RecordStreamReactor final
   const std::string peer_;  // Empty unless debug logging is on.
   const CallWatch watch_;
   const CallTimer timer_;
+  internal::CallTracker* const tracker_;
+  std::shared_ptr<internal::CallTracker::Stream> tracked_;  // Null: refused.
   v1::RecordBatch batch_;
+  int next_record_ = 0;  // The next record of batch_ to analyse.
   v1::ReportBatch reply_;
+  // A report that did not fit in the last reply; it opens the next one.
+  std::unique_ptr<v1::RecordReport> carried_;
   grpc::Status status_;
   int64_t batches_ = 0;
   int64_t records_ = 0;
@@ -327,11 +534,25 @@ grpc::Status ToGrpcStatus(const absl::Status& status) {
 // ---------------------------------------------------------------------------
 // The service.
 
-ElectronStructureImpl::ElectronStructureImpl(std::string token)
-    : verifier_(std::move(token)) {}
+ElectronStructureImpl::ElectronStructureImpl(std::string token,
+                                             absl::Duration stream_idle_timeout)
+    : verifier_(std::move(token)),
+      tracker_(std::make_unique<internal::CallTracker>(stream_idle_timeout)) {}
+
+ElectronStructureImpl::~ElectronStructureImpl() = default;
+
+void ElectronStructureImpl::BeginDrain() { tracker_->BeginDrain(); }
+
+bool ElectronStructureImpl::WaitUntilIdle(absl::Time deadline) {
+  return tracker_->WaitUntilIdle(deadline);
+}
 
 grpc::Status ElectronStructureImpl::Admit(
     grpc::CallbackServerContext* context) const {
+  if (tracker_->draining()) {
+    return grpc::Status(grpc::StatusCode::UNAVAILABLE,
+                        "the server is shutting down");
+  }
   grpc::Status status = verifier_.Check(context->client_metadata());
   if (!status.ok()) return status;
   if (context->deadline() <= std::chrono::system_clock::now()) {
@@ -346,9 +567,13 @@ grpc::ServerUnaryReactor* ElectronStructureImpl::ServeUnary(
     grpc::CallbackServerContext* context, absl::string_view method,
     Body&& body) {
   const CallTimer timer;
+  tracker_->UnaryStarted();
   grpc::Status status = Admit(context);
   if (status.ok()) status = RunGuarded(method, std::forward<Body>(body));
-  return FinishUnary(context, method, timer, status);
+  grpc::ServerUnaryReactor* reactor =
+      FinishUnary(context, method, timer, status);
+  tracker_->UnaryDone();
+  return reactor;
 }
 
 grpc::ServerUnaryReactor* ElectronStructureImpl::DescribeAtom(
@@ -392,7 +617,7 @@ grpc::ServerUnaryReactor* ElectronStructureImpl::AnalyzeCompound(
 
 grpc::ServerBidiReactor<v1::RecordBatch, v1::ReportBatch>*
 ElectronStructureImpl::AnalyzeRecords(grpc::CallbackServerContext* context) {
-  return new RecordStreamReactor(context, Admit(context));
+  return new RecordStreamReactor(context, Admit(context), tracker_.get());
 }
 
 // ---------------------------------------------------------------------------
@@ -450,6 +675,12 @@ absl::StatusOr<std::unique_ptr<ShellwrightServer>> ShellwrightServer::Start(
     return absl::InvalidArgumentError(
         "max_concurrent_streams: must be 0 (gRPC default) or positive");
   }
+  if (options.idle_timeout <= absl::ZeroDuration()) {
+    return absl::InvalidArgumentError("idle_timeout: must be positive");
+  }
+  if (options.keepalive_interval <= absl::ZeroDuration()) {
+    return absl::InvalidArgumentError("keepalive_interval: must be positive");
+  }
   absl::StatusOr<std::shared_ptr<grpc::ServerCredentials>> credentials =
       MakeServerCredentials(options.tls);
   if (!credentials.ok()) return credentials.status();
@@ -479,7 +710,8 @@ absl::StatusOr<std::unique_ptr<ShellwrightServer>> ShellwrightServer::Start(
   }
 
   std::unique_ptr<ShellwrightServer> server(new ShellwrightServer());
-  server->service_ = std::make_unique<ElectronStructureImpl>(std::move(token));
+  server->service_ = std::make_unique<ElectronStructureImpl>(
+      std::move(token), options.idle_timeout);
 
   grpc::ServerBuilder builder;
   builder.AddListeningPort(options.listen, *credentials, &server->port_);
@@ -492,6 +724,22 @@ absl::StatusOr<std::unique_ptr<ShellwrightServer>> ShellwrightServer::Start(
     builder.AddChannelArgument(GRPC_ARG_MAX_CONCURRENT_STREAMS,
                                options.max_concurrent_streams);
   }
+  // Connections that hold nothing go away: one with no call for the idle
+  // timeout gets GOAWAY (streams that idle are cancelled by the service),
+  // a peer that stops answering keepalive pings is dropped, and a client
+  // that connects but never completes the handshake is cut off.
+  const auto millis = [](absl::Duration d) {
+    return static_cast<int>(
+        std::min<int64_t>(absl::ToInt64Milliseconds(d), INT32_MAX));
+  };
+  builder.AddChannelArgument(GRPC_ARG_MAX_CONNECTION_IDLE_MS,
+                             millis(options.idle_timeout));
+  builder.AddChannelArgument(GRPC_ARG_KEEPALIVE_TIME_MS,
+                             millis(options.keepalive_interval));
+  builder.AddChannelArgument(GRPC_ARG_KEEPALIVE_TIMEOUT_MS,
+                             millis(kKeepaliveTimeout));
+  builder.AddChannelArgument(GRPC_ARG_SERVER_HANDSHAKE_TIMEOUT_MS,
+                             millis(kHandshakeTimeout));
   server->server_ = builder.BuildAndStart();
   if (server->server_ == nullptr || server->port_ == 0) {
     return absl::UnavailableError(
@@ -526,8 +774,16 @@ void ShellwrightServer::Shutdown(absl::Duration grace) {
           server_->GetHealthCheckService()) {
     health->SetServingStatus(false);
   }
-  server_->Shutdown(std::chrono::system_clock::now() +
-                    absl::ToChronoMicroseconds(grace));
+  // gRPC's own grace would also wait for idle connections to close after
+  // GOAWAY; waiting for our calls instead, then shutting down at once,
+  // ends the drain as soon as the work in hand is answered.
+  service_->BeginDrain();
+  if (!service_->WaitUntilIdle(absl::Now() + grace)) {
+    Log(LogLevel::kWarning, absl::StrCat("calls still running after the ",
+                                         absl::FormatDuration(grace),
+                                         " grace period are cancelled"));
+  }
+  server_->Shutdown(std::chrono::system_clock::now());
   server_->Wait();
 }
 

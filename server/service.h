@@ -51,15 +51,37 @@ grpc::Status ToGrpcStatus(const absl::Status& status);
 // ---------------------------------------------------------------------------
 // The service.
 
+// Largest ReportBatch the service writes, in bytes: a default gRPC client
+// receives at most 4 MiB per message, so the answer to a RecordBatch whose
+// reports would not fit comes as several ReportBatch messages.
+inline constexpr size_t kMaxReportBatchBytes = (4 << 20) - (16 << 10);
+
+namespace internal {
+class CallTracker;  // In-flight calls and idle streams (service.cc).
+}  // namespace internal
+
 class ElectronStructureImpl final
     : public v1::ElectronStructure::CallbackService {
  public:
   // `token` empty: no authentication. Otherwise every call must carry
-  // "authorization: Bearer <token>".
-  explicit ElectronStructureImpl(std::string token);
+  // "authorization: Bearer <token>". An AnalyzeRecords stream that waits
+  // longer than `stream_idle_timeout` for its next batch is cancelled, so
+  // idle streams cannot hold a connection's stream slots.
+  explicit ElectronStructureImpl(
+      std::string token, absl::Duration stream_idle_timeout = absl::Minutes(5));
+  ~ElectronStructureImpl() override;
 
   ElectronStructureImpl(const ElectronStructureImpl&) = delete;
   ElectronStructureImpl& operator=(const ElectronStructureImpl&) = delete;
+
+  // Starts draining: new calls get UNAVAILABLE, streams waiting for a batch
+  // are cancelled, and a stream working on a batch ends with UNAVAILABLE
+  // once that batch is answered. Thread-safe; idempotent.
+  void BeginDrain();
+
+  // Blocks until no call is in progress, or until `deadline`. True when
+  // none is. Thread-safe.
+  bool WaitUntilIdle(absl::Time deadline);
 
   grpc::ServerUnaryReactor* DescribeAtom(
       grpc::CallbackServerContext* context,
@@ -82,8 +104,10 @@ class ElectronStructureImpl final
       const v1::CompositionRecord* request,
       v1::RecordReport* response) override;
 
-  // Reads one RecordBatch, writes its ReportBatch, and only then reads the
-  // next, so a stream holds at most one batch and one reply in memory.
+  // Reads one RecordBatch, writes its answer, and only then reads the
+  // next, so a stream holds at most one batch and one reply in memory. The
+  // answer is one ReportBatch, or several when one would pass
+  // kMaxReportBatchBytes.
   grpc::ServerBidiReactor<v1::RecordBatch, v1::ReportBatch>* AnalyzeRecords(
       grpc::CallbackServerContext* context) override;
 
@@ -98,6 +122,7 @@ class ElectronStructureImpl final
                                        absl::string_view method, Body&& body);
 
   const BearerTokenVerifier verifier_;
+  const std::unique_ptr<internal::CallTracker> tracker_;
 };
 
 // ---------------------------------------------------------------------------
@@ -121,6 +146,12 @@ struct ServerOptions {
   // HTTP/2 streams (concurrent calls) per connection; 0 keeps gRPC's
   // default.
   int max_concurrent_streams = 100;
+  // A connection with no call for this long is closed (GOAWAY), and so is
+  // an AnalyzeRecords stream waiting this long for its next batch. > 0.
+  absl::Duration idle_timeout = absl::Minutes(5);
+  // Interval of the server's HTTP/2 keepalive pings on a connection; a
+  // peer that does not answer one within 20 s is dropped. > 0.
+  absl::Duration keepalive_interval = absl::Minutes(1);
 };
 
 // A started gRPC server hosting ElectronStructureImpl, the standard health
@@ -130,8 +161,8 @@ class ShellwrightServer {
  public:
   // Reads credential files, binds and starts serving. INVALID_ARGUMENT for
   // bad options or files, its message starting with the ServerOptions
-  // field at fault ("listen: ...", "tls.key_file: ..."); UNAVAILABLE when
-  // the address cannot be bound.
+  // field at fault ("listen: ...", "key_file: ..."); UNAVAILABLE when the
+  // address cannot be bound.
   static absl::StatusOr<std::unique_ptr<ShellwrightServer>> Start(
       const ServerOptions& options);
 
@@ -143,8 +174,11 @@ class ShellwrightServer {
   const std::string& address() const { return address_; }
   int port() const { return port_; }
 
-  // Marks health NOT_SERVING, stops accepting calls and waits for in-flight
-  // calls up to `grace`, then cancels the rest. Returns when all are done.
+  // Drains: marks health NOT_SERVING, refuses new calls with UNAVAILABLE,
+  // cancels streams waiting for a batch, and waits up to `grace` for the
+  // calls still working to be answered; then cancels what is left and
+  // closes every connection, idle ones included, at once. Returns when all
+  // are done. An idle connection therefore never holds the shutdown.
   void Shutdown(absl::Duration grace);
 
  private:

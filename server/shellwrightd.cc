@@ -7,9 +7,11 @@
 //
 // Prints "shellwrightd listening on HOST:PORT" on stdout once serving (with
 // the bound port when --listen asks for port 0). Logs go to stderr. On
-// SIGTERM or SIGINT it stops accepting calls, lets in-flight calls finish
-// within --shutdown-grace seconds, and exits 0; a second signal during the
-// grace period exits at once with status 1.
+// SIGTERM or SIGINT it drains: health turns NOT_SERVING, new calls get
+// UNAVAILABLE, streams waiting for a batch are cancelled, and batches in
+// hand are answered within --shutdown-grace seconds; then it exits 0 at
+// once, whatever idle connections remain. A second signal during the drain
+// exits at once with status 1.
 //
 // Exit codes: 0 clean shutdown; 1 cannot serve (address in use, ...);
 // 2 usage or configuration error.
@@ -56,7 +58,12 @@ constexpr char kUsage[] = R"(usage: shellwrightd [options]
   --max-message-bytes N       largest request accepted (default 4194304)
   --max-concurrent-streams N  concurrent calls per connection (default 100;
                               0 = gRPC default)
-  --shutdown-grace SECONDS    time in-flight calls get on SIGTERM (default 10)
+  --idle-timeout SECONDS      close a connection with no call, or cancel an
+                              AnalyzeRecords stream waiting for its next
+                              batch, after this long (default 300)
+  --keepalive SECONDS         ping each connection this often; drop it when
+                              a ping goes unanswered for 20 s (default 60)
+  --shutdown-grace SECONDS    time in-flight work gets on SIGTERM (default 10)
   --log-level LEVEL           error | warning | info (default) | debug
   --help                      print this text
 )";
@@ -68,7 +75,9 @@ constexpr FieldName kFlagNames[] = {
     {"key_file", "--tls-key"},
     {"client_ca_file", "--tls-client-ca"},
     {"max_message_bytes", "--max-message-bytes"},
-    {"max_concurrent_streams", "--max-concurrent-streams"}};
+    {"max_concurrent_streams", "--max-concurrent-streams"},
+    {"idle_timeout", "--idle-timeout"},
+    {"keepalive_interval", "--keepalive"}};
 
 struct Flags {
   ServerOptions server;
@@ -135,6 +144,15 @@ int ParseFlags(int argc, char** argv, Flags* flags) {
             "--max-concurrent-streams must be 0 or a positive "
             "integer");
       }
+    } else if (name == "idle-timeout" || name == "keepalive") {
+      double seconds = 0;
+      if (!absl::SimpleAtod(value, &seconds) || !(seconds >= 0.001) ||
+          seconds > 86400) {
+        return Usage(absl::StrCat("--", name, " must be 0.001..86400 seconds"));
+      }
+      (name == "idle-timeout" ? flags->server.idle_timeout
+                              : flags->server.keepalive_interval) =
+          absl::Seconds(seconds);
     } else if (name == "shutdown-grace") {
       double seconds = 0;
       if (!absl::SimpleAtod(value, &seconds) || !(seconds >= 0) ||

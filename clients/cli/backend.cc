@@ -1,6 +1,8 @@
 #include "clients/cli/backend.h"
 
 #include <chrono>
+#include <deque>
+#include <mutex>
 
 #include "absl/strings/str_cat.h"
 #include "api/atoms.h"
@@ -42,13 +44,41 @@ class RemoteRecordStream final : public Backend::RecordStream {
       : context_(std::move(context)),
         stream_(stub->AnalyzeRecords(context_.get())) {}
   bool Write(const v1::RecordBatch& batch) override {
+    {
+      std::lock_guard<std::mutex> lock(mu_);
+      expected_.push_back(batch.records_size());
+    }
     return stream_->Write(batch);
   }
-  bool Read(v1::ReportBatch* batch) override { return stream_->Read(batch); }
+  // The server answers a batch in several ReportBatch messages when one
+  // would pass a default client's 4 MiB limit; they are joined here, so a
+  // caller sees one ReportBatch per RecordBatch.
+  bool Read(v1::ReportBatch* batch) override {
+    int expected = 0;
+    {
+      std::lock_guard<std::mutex> lock(mu_);
+      if (!expected_.empty()) {
+        expected = expected_.front();
+        expected_.pop_front();
+      }
+    }
+    if (!stream_->Read(batch)) return false;
+    v1::ReportBatch part;
+    while (batch->reports_size() < expected) {
+      if (!stream_->Read(&part)) return false;
+      if (part.reports_size() == 0) return true;  // Not ours: let it fail.
+      for (v1::RecordReport& report : *part.mutable_reports()) {
+        batch->add_reports()->Swap(&report);
+      }
+    }
+    return true;
+  }
   bool WritesDone() override { return stream_->WritesDone(); }
   absl::Status Finish() override { return FromGrpc(stream_->Finish()); }
 
  private:
+  std::mutex mu_;
+  std::deque<int> expected_;  // Records of each batch not yet answered.
   std::unique_ptr<grpc::ClientContext> context_;
   std::unique_ptr<grpc::ClientReaderWriter<v1::RecordBatch, v1::ReportBatch>>
       stream_;

@@ -44,6 +44,8 @@ class Backend {
     virtual ~RecordStream() = default;
     // Returns false when the stream is broken (then call Finish()).
     virtual bool Write(const v1::RecordBatch& batch) = 0;
+    // The whole answer to the oldest batch written and not yet read, even
+    // when the server sent it in several messages.
     virtual bool Read(v1::ReportBatch* batch) = 0;
     // Half-closes the sending side. Thread-safe against Read.
     virtual bool WritesDone() = 0;

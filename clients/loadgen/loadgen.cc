@@ -509,13 +509,20 @@ class StreamCaller final
 
   void OnReadDone(bool ok) override {
     if (!ok) return;  // End of stream, or OnDone follows with the status.
+    // An answer too large for one message comes in several; the batch is
+    // done once they hold a report per record.
+    answered_ += reply_.reports_size();
+    if (answered_ < batch_.records_size() && reply_.reports_size() > 0) {
+      StartRead(&reply_);
+      return;
+    }
     const Clock::time_point now = Clock::now();
     if (window_.Contains(now) && batch_start_ >= window_.start) {
       latencies_us.push_back(
           std::chrono::duration_cast<std::chrono::microseconds>(now -
                                                                 batch_start_)
               .count());
-      records += reply_.reports_size();
+      records += answered_;
     }
     StepDone();
   }
@@ -545,6 +552,7 @@ class StreamCaller final
 
   void SendBatch() {
     steps_left_ = 2;
+    answered_ = 0;
     batch_start_ = Clock::now();
     StartWrite(&batch_);
     StartRead(&reply_);
@@ -557,6 +565,7 @@ class StreamCaller final
   Latch* const latch_;
   Clock::time_point batch_start_;
   std::atomic<int> steps_left_{0};
+  int answered_ = 0;  // Reports received for the batch in flight.
 };
 
 using StreamPrepare = std::function<void(StreamCaller*)>;

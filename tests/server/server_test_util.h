@@ -35,7 +35,9 @@
 #include <string>
 #include <vector>
 
+#include "absl/strings/str_cat.h"
 #include "gtest/gtest.h"
+#include "shellwright/v1/electron_structure.pb.h"
 #include "tests/testing/subprocess.h"
 #include "tests/testing/temp_dir.h"
 
@@ -43,6 +45,19 @@ namespace shellwright::testing {
 
 inline std::string ShellwrightdPath() { return BinPath("server/shellwrightd"); }
 inline std::string CliPath() { return BinPath("clients/shellwright"); }
+
+// `records` records of a formula whose solver search takes tens of
+// milliseconds each: a full batch of them is minutes of work.
+inline v1::RecordBatch HardRecordBatch(int records) {
+  v1::RecordBatch batch;
+  for (int i = 0; i < records; ++i) {
+    v1::CompositionRecord* record = batch.add_records();
+    record->set_id(absl::StrCat("hard-", i));
+    record->set_formula("TiVCrMnFeCoNiCuNbMoWRuO8.37");
+    record->set_max_alternatives(5);
+  }
+  return batch;
+}
 
 // A running shellwrightd on a free loopback port.
 class ServerProcess {

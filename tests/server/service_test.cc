@@ -4,6 +4,12 @@
 
 #include "server/service.h"
 
+#include <arpa/inet.h>
+#include <netinet/in.h>
+#include <poll.h>
+#include <sys/socket.h>
+#include <unistd.h>
+
 #include <chrono>
 #include <condition_variable>
 #include <memory>
@@ -26,6 +32,7 @@
 namespace shellwright {
 namespace {
 
+using ::shellwright::testing::HardRecordBatch;
 using ::testing::HasSubstr;
 
 constexpr auto kCallTimeout = std::chrono::seconds(10);
@@ -414,23 +421,10 @@ TEST_F(ServiceTest, OneMicrosecondDeadlineIsDeadlineExceeded) {
   EXPECT_TRUE(DescribeSpec("Fe", &d).ok());  // The server is unharmed.
 }
 
-// A full batch of a formula whose solver search takes tens of milliseconds
-// per record: minutes of work in all.
-v1::RecordBatch HardRecordBatch() {
-  v1::RecordBatch batch;
-  for (int i = 0; i < kMaxRecordsPerBatch; ++i) {
-    v1::CompositionRecord* record = batch.add_records();
-    record->set_id(absl::StrCat("hard-", i));
-    record->set_formula("TiVCrMnFeCoNiCuNbMoWRuO8.37");
-    record->set_max_alternatives(5);
-  }
-  return batch;
-}
-
 // Regression: the deadline was checked only between batches, so one batch
 // of hard records kept the server busy for seconds after a 50 ms deadline.
 TEST_F(ServiceTest, AnalyzeRecordsStopsWithinABatchAtTheDeadline) {
-  const v1::RecordBatch batch = HardRecordBatch();
+  const v1::RecordBatch batch = HardRecordBatch(kMaxRecordsPerBatch);
   grpc::ClientContext context;
   const auto deadline =
       std::chrono::system_clock::now() + std::chrono::milliseconds(100);
@@ -451,7 +445,7 @@ TEST_F(ServiceTest, AnalyzeRecordsStopsWithinABatchAtTheDeadline) {
 }
 
 TEST_F(ServiceTest, AnalyzeRecordsStopsWithinABatchWhenCancelled) {
-  const v1::RecordBatch batch = HardRecordBatch();
+  const v1::RecordBatch batch = HardRecordBatch(kMaxRecordsPerBatch);
   grpc::ClientContext context;
   SetDeadline(&context);
   auto stream = client_.stub->AnalyzeRecords(&context);
@@ -468,6 +462,54 @@ TEST_F(ServiceTest, AnalyzeRecordsStopsWithinABatchWhenCancelled) {
   server_->Shutdown(absl::ZeroDuration());
   EXPECT_LT(std::chrono::system_clock::now() - cancelled,
             std::chrono::seconds(2));
+}
+
+// Regression: a 10,000-record batch got one 6.9 MB reply, which a client
+// with gRPC's default 4 MiB receive limit refused (RESOURCE_EXHAUSTED) after
+// the server had done all the work. Now the answer comes in several
+// ReportBatch messages, each under the limit.
+TEST_F(ServiceTest, AnAnswerTooLargeForADefaultClientComesInSeveralParts) {
+  v1::RecordBatch batch;
+  for (int i = 0; i < kMaxRecordsPerBatch; ++i) {
+    v1::CompositionRecord* record = batch.add_records();
+    record->set_id(absl::StrCat(std::string(200, 'r'), "-", i));
+    record->set_formula("Fe3O4");
+    record->set_max_alternatives(2);
+  }
+  // A client with every setting at gRPC's default: 4 MiB received at most.
+  auto stub = v1::ElectronStructure::NewStub(grpc::CreateChannel(
+      server_->address(), grpc::InsecureChannelCredentials()));
+  grpc::ClientContext context;
+  context.set_deadline(std::chrono::system_clock::now() +
+                       std::chrono::seconds(120));
+  auto stream = stub->AnalyzeRecords(&context);
+  ASSERT_TRUE(stream->Write(batch));
+  int answered = 0;
+  int replies = 0;
+  size_t total_bytes = 0;
+  v1::ReportBatch reply;
+  while (answered < batch.records_size() && stream->Read(&reply)) {
+    ++replies;
+    total_bytes += reply.ByteSizeLong();
+    EXPECT_LE(reply.ByteSizeLong(), size_t{4} << 20);
+    for (const v1::RecordReport& report : reply.reports()) {
+      ASSERT_LT(answered, batch.records_size());
+      EXPECT_EQ(report.id(), batch.records(answered).id());
+      ++answered;
+    }
+  }
+  EXPECT_EQ(answered, batch.records_size());
+  EXPECT_GT(total_bytes, size_t{4} << 20);  // One message would not do.
+  EXPECT_GT(replies, 1);
+  // The stream goes on: the next batch gets its own answer.
+  v1::RecordBatch one;
+  one.add_records()->set_id("next");
+  ASSERT_TRUE(stream->Write(one));
+  ASSERT_TRUE(stream->Read(&reply));
+  ASSERT_EQ(reply.reports_size(), 1);
+  EXPECT_EQ(reply.reports(0).id(), "next");
+  stream->WritesDone();
+  EXPECT_TRUE(stream->Finish().ok());
 }
 
 TEST_F(ServiceTest, OversizedRequestIsResourceExhausted) {
@@ -648,6 +690,81 @@ TEST_F(ServiceTest, ConcurrentCallersAllSucceed) {
   }
   for (std::thread& t : threads) t.join();
   EXPECT_EQ(ok.load(), kThreads * kCallsPerThread);
+}
+
+// ---------------------------------------------------------------------------
+// Idle limits.
+
+class IdleLimitTest : public ServiceTest {
+ protected:
+  void Configure(ServerOptions* options) override {
+    options->idle_timeout = absl::Milliseconds(300);
+  }
+};
+
+// Regression: a stream that never sent its next batch kept its stream slot
+// for ever, so idle streams could fill a connection's 100 slots.
+TEST_F(IdleLimitTest, AStreamWaitingPastTheIdleTimeoutIsCancelled) {
+  grpc::ClientContext context;
+  SetDeadline(&context);
+  auto stream = client_.stub->AnalyzeRecords(&context);
+  v1::ReportBatch reply;
+  // Busy: a batch every 100 ms for a second keeps the stream open.
+  for (int i = 0; i < 10; ++i) {
+    v1::RecordBatch batch;
+    batch.add_records()->set_id(absl::StrCat("busy-", i));
+    ASSERT_TRUE(stream->Write(batch));
+    ASSERT_TRUE(stream->Read(&reply)) << i;
+    std::this_thread::sleep_for(std::chrono::milliseconds(100));
+  }
+  // Idle: cancelled soon after the 300 ms limit.
+  const auto start = std::chrono::steady_clock::now();
+  EXPECT_FALSE(stream->Read(&reply));
+  EXPECT_LT(std::chrono::steady_clock::now() - start, std::chrono::seconds(5));
+  EXPECT_EQ(stream->Finish().error_code(), grpc::StatusCode::CANCELLED);
+}
+
+// Regression: a connection that sent the HTTP/2 preface and then nothing
+// was held indefinitely.
+TEST_F(IdleLimitTest, AConnectionThatOnlySendsThePrefaceIsClosed) {
+  const int port = server_->port();
+  const int fd = socket(AF_INET, SOCK_STREAM, 0);
+  ASSERT_GE(fd, 0);
+  sockaddr_in addr{};
+  addr.sin_family = AF_INET;
+  addr.sin_port = htons(static_cast<uint16_t>(port));
+  addr.sin_addr.s_addr = htonl(INADDR_LOOPBACK);
+  ASSERT_EQ(connect(fd, reinterpret_cast<sockaddr*>(&addr), sizeof(addr)), 0);
+  // The client preface and an empty SETTINGS frame (RFC 9113, 3.4 and 6.5).
+  const std::string preface = std::string("PRI * HTTP/2.0\r\n\r\nSM\r\n\r\n") +
+                              std::string("\0\0\0\x04\0\0\0\0\0", 9);
+  ASSERT_EQ(send(fd, preface.data(), preface.size(), MSG_NOSIGNAL),
+            static_cast<ssize_t>(preface.size()));
+  // Read (and ignore) what the server sends until it closes the socket.
+  const auto start = std::chrono::steady_clock::now();
+  bool closed = false;
+  while (!closed &&
+         std::chrono::steady_clock::now() - start < std::chrono::seconds(10)) {
+    pollfd p{fd, POLLIN, 0};
+    if (poll(&p, 1, 100) <= 0) continue;
+    char buffer[4096];
+    closed = recv(fd, buffer, sizeof(buffer), 0) <= 0;
+  }
+  close(fd);
+  EXPECT_TRUE(closed);
+  EXPECT_LT(std::chrono::steady_clock::now() - start, std::chrono::seconds(5));
+}
+
+TEST(ServerOptions, IdleAndKeepaliveLimitsMustBePositive) {
+  ServerOptions options;
+  options.listen = "127.0.0.1:0";
+  options.idle_timeout = absl::ZeroDuration();
+  EXPECT_EQ(ShellwrightServer::Start(options).status().code(),
+            absl::StatusCode::kInvalidArgument);
+  options.idle_timeout = absl::Minutes(5);
+  options.keepalive_interval = absl::Seconds(-1);
+  EXPECT_EQ(ShellwrightServer::Start(options).status().code(),
+            absl::StatusCode::kInvalidArgument);
 }
 
 // ---------------------------------------------------------------------------

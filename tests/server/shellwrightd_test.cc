@@ -25,6 +25,7 @@ namespace {
 
 using ::shellwright::testing::CliPath;
 using ::shellwright::testing::CommandResult;
+using ::shellwright::testing::HardRecordBatch;
 using ::shellwright::testing::RunCommand;
 using ::shellwright::testing::ServerProcess;
 using ::shellwright::testing::ShellwrightdPath;
@@ -523,36 +524,60 @@ TEST(Shellwrightd, SurvivesGarbageBytes) {
   EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
 }
 
-TEST(Shellwrightd, InFlightStreamFinishesAfterSigterm) {
+// The drain answers the batch in hand, then ends the stream with
+// UNAVAILABLE so the client sends the rest elsewhere.
+TEST(Shellwrightd, DrainAnswersTheBatchInHandThenEndsTheStream) {
   std::unique_ptr<ServerProcess> server =
-      StartShellwrightd({"--shutdown-grace", "10"});
+      StartShellwrightd({"--shutdown-grace", "60"});
   ASSERT_NE(server, nullptr);
   auto stub = Stub(server->address());
-  auto context = Context(std::chrono::seconds(15));
+  auto context = Context(std::chrono::seconds(90));
   auto stream = stub->AnalyzeRecords(context.get());
-  v1::RecordBatch batch;
-  batch.add_records()->set_id("before");
+  const v1::RecordBatch batch = HardRecordBatch(20);
   ASSERT_TRUE(stream->Write(batch));
-  v1::ReportBatch reply;
-  ASSERT_TRUE(stream->Read(&reply));
-
+  std::this_thread::sleep_for(std::chrono::milliseconds(100));
   ASSERT_EQ(kill(server->process().pid(), SIGTERM), 0);
-  // Still running: the open stream holds it within the grace period.
-  std::this_thread::sleep_for(std::chrono::milliseconds(300));
-  EXPECT_FALSE(server->process().TryWait().has_value());
-  // New connections are refused once shutdown began.
+  // New calls are refused once the drain began.
+  std::this_thread::sleep_for(std::chrono::milliseconds(50));
   auto fresh = Stub(server->address());
   v1::AtomDescription d;
   EXPECT_FALSE(DescribeSpec(fresh.get(), "Fe", &d).ok());
 
-  batch.mutable_records(0)->set_id("after");
-  ASSERT_TRUE(stream->Write(batch));
-  ASSERT_TRUE(stream->Read(&reply));
-  ASSERT_EQ(reply.reports_size(), 1);
-  EXPECT_EQ(reply.reports(0).id(), "after");
-  stream->WritesDone();
-  EXPECT_TRUE(stream->Finish().ok());
+  int answered = 0;
+  v1::ReportBatch reply;
+  while (answered < batch.records_size() && stream->Read(&reply)) {
+    for (const v1::RecordReport& report : reply.reports()) {
+      EXPECT_EQ(report.id(), batch.records(answered).id());
+      ++answered;
+    }
+  }
+  EXPECT_EQ(answered, batch.records_size());
+  EXPECT_FALSE(stream->Read(&reply));
+  EXPECT_EQ(stream->Finish().error_code(), grpc::StatusCode::UNAVAILABLE);
   EXPECT_EQ(server->process().Wait(kShutdownTimeout), 0);
+}
+
+// Regression: a stream or connection with nothing to answer held the
+// shutdown for the whole grace period.
+TEST(Shellwrightd, IdleStreamsAndConnectionsDoNotHoldTheDrain) {
+  std::unique_ptr<ServerProcess> server =
+      StartShellwrightd({"--shutdown-grace", "60"});
+  ASSERT_NE(server, nullptr);
+  auto stub = Stub(server->address());
+  auto context = Context(std::chrono::seconds(90));
+  auto stream = stub->AnalyzeRecords(context.get());
+  ASSERT_TRUE(stream->Write(v1::RecordBatch()));
+  v1::ReportBatch reply;
+  ASSERT_TRUE(stream->Read(&reply));
+  auto idle = Stub(server->address());  // A second, idle connection.
+  v1::AtomDescription d;
+  ASSERT_TRUE(DescribeSpec(idle.get(), "Fe", &d).ok());
+
+  const auto start = std::chrono::steady_clock::now();
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+  EXPECT_LT(std::chrono::steady_clock::now() - start, std::chrono::seconds(5));
+  EXPECT_FALSE(stream->Read(&reply));
+  EXPECT_FALSE(stream->Finish().ok());
 }
 
 TEST(Shellwrightd, GracePeriodBoundsShutdown) {
@@ -562,14 +587,15 @@ TEST(Shellwrightd, GracePeriodBoundsShutdown) {
   auto stub = Stub(server->address());
   auto context = Context(std::chrono::seconds(30));
   auto stream = stub->AnalyzeRecords(context.get());
-  ASSERT_TRUE(stream->Write(v1::RecordBatch()));
-  v1::ReportBatch reply;
-  ASSERT_TRUE(stream->Read(&reply));
+  // Minutes of work: the server must give up on it after the grace.
+  ASSERT_TRUE(stream->Write(HardRecordBatch(5000)));
+  std::this_thread::sleep_for(std::chrono::milliseconds(100));
   const auto start = std::chrono::steady_clock::now();
-  // The stream stays open; the server must give up on it after the grace.
   EXPECT_EQ(server->Terminate(std::chrono::seconds(10)), 0);
   EXPECT_LT(std::chrono::steady_clock::now() - start, std::chrono::seconds(5));
-  EXPECT_FALSE(stream->Read(&reply));
+  v1::ReportBatch reply;
+  while (stream->Read(&reply)) {
+  }
   EXPECT_FALSE(stream->Finish().ok());
 }
 
@@ -604,7 +630,7 @@ TEST(Shellwrightd, LogsDeadlineExceededForABatchPastItsDeadline) {
     record->set_formula("TiVCrMnFeCoNiCuNbMoWRuO8.37");
     record->set_max_alternatives(5);
   }
-  auto context = Context(std::chrono::milliseconds(100));
+  auto context = Context(std::chrono::seconds(1));
   auto stream = stub->AnalyzeRecords(context.get());
   stream->Write(batch);
   v1::ReportBatch reply;
