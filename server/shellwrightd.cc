@@ -20,20 +20,20 @@
 #include <signal.h>
 #include <unistd.h>
 
-#include <cstdio>
 #include <cstdlib>
 #include <iostream>
-#include <map>
+#include <limits>
+#include <optional>
 #include <string>
 #include <thread>
 
 #include "absl/status/status.h"
-#include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
 #include "absl/synchronization/notification.h"
 #include "absl/time/time.h"
 #include "server/logging.h"
 #include "server/service.h"
+#include "util/command_line.h"
 #include "util/field_names.h"
 
 namespace shellwright {
@@ -41,32 +41,6 @@ namespace {
 
 constexpr int kExitOk = 0;
 constexpr int kExitCannotServe = 1;
-constexpr int kExitUsage = 2;
-
-constexpr char kUsage[] = R"(usage: shellwrightd [options]
-
-  --listen HOST:PORT          address to serve on (default 127.0.0.1:50051;
-                              port 0..65535, 0 picks a free port; IPv6 as
-                              [::1]:PORT; or unix:PATH)
-  --tls-cert FILE             PEM server certificate chain (enables TLS)
-  --tls-key FILE              PEM server private key
-  --tls-client-ca FILE        PEM roots; clients must present a certificate
-                              signed by one of them (mutual TLS)
-  --auth-token-file FILE      require "authorization: Bearer <token>" with
-                              the token held in FILE (health checks and
-                              reflection stay open)
-  --max-message-bytes N       largest request accepted (default 4194304)
-  --max-concurrent-streams N  concurrent calls per connection (default 100;
-                              0 = gRPC default)
-  --idle-timeout SECONDS      close a connection with no call, or cancel an
-                              AnalyzeRecords stream waiting for its next
-                              batch, after this long (default 300)
-  --keepalive SECONDS         ping each connection this often; drop it when
-                              a ping goes unanswered for 20 s (default 60)
-  --shutdown-grace SECONDS    time in-flight work gets on SIGTERM (default 10)
-  --log-level LEVEL           error | warning | info (default) | debug
-  --help                      print this text
-)";
 
 // The flags that set each ServerOptions field, for messages.
 constexpr FieldName kFlagNames[] = {
@@ -81,100 +55,80 @@ constexpr FieldName kFlagNames[] = {
 
 struct Flags {
   ServerOptions server;
-  absl::Duration shutdown_grace = absl::Seconds(10);
-  LogLevel log_level = LogLevel::kInfo;
+  double shutdown_grace_seconds = 10;
+  double idle_timeout_seconds =
+      absl::ToDoubleSeconds(ServerOptions().idle_timeout);
+  double keepalive_seconds =
+      absl::ToDoubleSeconds(ServerOptions().keepalive_interval);
+  std::string log_level = "info";
 };
 
-int Usage(const std::string& problem) {
-  std::cerr << "shellwrightd: " << problem << "\n"
-            << "Run 'shellwrightd --help' for usage.\n";
-  return kExitUsage;
-}
-
-// Parses argv into `flags`. Returns -1 to go on serving, or an exit code.
-int ParseFlags(int argc, char** argv, Flags* flags) {
-  std::map<std::string, std::string> values;
-  for (int i = 1; i < argc; ++i) {
-    std::string arg = argv[i];
-    if (arg == "--help" || arg == "-h") {
-      std::cout << kUsage;
-      return kExitOk;
-    }
-    if (arg.rfind("--", 0) != 0 || arg.size() == 2) {
-      return Usage(absl::StrCat("unexpected argument '", arg, "'"));
-    }
-    std::string name = arg.substr(2);
-    std::string value;
-    if (size_t eq = name.find('='); eq != std::string::npos) {
-      value = name.substr(eq + 1);
-      name = name.substr(0, eq);
-    } else if (i + 1 < argc) {
-      value = argv[++i];
-    } else {
-      return Usage(absl::StrCat("option --", name, " needs a value"));
-    }
-    values[name] = value;
+// Parses argv into `flags`. Returns nullopt to go on serving, or an exit
+// code.
+std::optional<int> ParseFlags(int argc, char** argv, Flags* flags) {
+  CLI::App app{"Serves shellwright.v1.ElectronStructure over gRPC.",
+               "shellwrightd"};
+  ServerOptions& server = flags->server;
+  app.add_option("--listen", server.listen,
+                 "address to serve on: HOST:PORT (port 0 picks a free "
+                 "port; IPv6 as [::1]:PORT) or unix:PATH")
+      ->check(Accepts(ValidateListenAddress, "HOST:PORT"))
+      ->capture_default_str();
+  CLI::Option* cert =
+      app.add_option("--tls-cert", server.tls.cert_file,
+                     "PEM server certificate chain (enables TLS)");
+  CLI::Option* key =
+      app.add_option("--tls-key", server.tls.key_file, "PEM server key");
+  cert->needs(key);
+  key->needs(cert);
+  app.add_option("--tls-client-ca", server.tls.client_ca_file,
+                 "PEM roots; clients must present a certificate signed by "
+                 "one of them (mutual TLS)")
+      ->needs(cert);
+  app.add_option("--auth-token-file", server.auth_token_file,
+                 "require \"authorization: Bearer <token>\" with the token "
+                 "held in this file (health checks and reflection stay "
+                 "open)");
+  // A token on the command line leaks through ps, /proc and shell history.
+  for (const char* name : {"--auth-token", "--token"}) {
+    RefuseOption(&app, name,
+                 absl::StrCat(name,
+                              " is not supported; put the token in a "
+                              "file and pass --auth-token-file"));
   }
-
-  for (const auto& [name, value] : values) {
-    if (name == "listen") {
-      if (absl::Status s = ValidateListenAddress(value); !s.ok()) {
-        return Usage(absl::StrCat("--listen ", s.message()));
-      }
-      flags->server.listen = value;
-    } else if (name == "tls-cert") {
-      flags->server.tls.cert_file = value;
-    } else if (name == "tls-key") {
-      flags->server.tls.key_file = value;
-    } else if (name == "tls-client-ca") {
-      flags->server.tls.client_ca_file = value;
-    } else if (name == "auth-token-file") {
-      flags->server.auth_token_file = value;
-    } else if (name == "max-message-bytes") {
-      if (!absl::SimpleAtoi(value, &flags->server.max_message_bytes) ||
-          flags->server.max_message_bytes <= 0) {
-        return Usage(
-            "--max-message-bytes must be a positive integer below "
-            "2^31");
-      }
-    } else if (name == "max-concurrent-streams") {
-      if (!absl::SimpleAtoi(value, &flags->server.max_concurrent_streams) ||
-          flags->server.max_concurrent_streams < 0) {
-        return Usage(
-            "--max-concurrent-streams must be 0 or a positive "
-            "integer");
-      }
-    } else if (name == "idle-timeout" || name == "keepalive") {
-      double seconds = 0;
-      if (!absl::SimpleAtod(value, &seconds) || !(seconds >= 0.001) ||
-          seconds > 86400) {
-        return Usage(absl::StrCat("--", name, " must be 0.001..86400 seconds"));
-      }
-      (name == "idle-timeout" ? flags->server.idle_timeout
-                              : flags->server.keepalive_interval) =
-          absl::Seconds(seconds);
-    } else if (name == "shutdown-grace") {
-      double seconds = 0;
-      if (!absl::SimpleAtod(value, &seconds) || !(seconds >= 0) ||
-          seconds > 3600) {
-        return Usage("--shutdown-grace must be 0..3600 seconds");
-      }
-      flags->shutdown_grace = absl::Seconds(seconds);
-    } else if (name == "log-level") {
-      absl::StatusOr<LogLevel> level = ParseName<LogLevel>(value);
-      if (!level.ok()) return Usage(std::string(level.status().message()));
-      flags->log_level = *level;
-    } else if (name == "auth-token" || name == "token") {
-      // Deliberately unsupported: a token on the command line leaks through
-      // ps, /proc and shell history.
-      return Usage(absl::StrCat("--", name,
-                                " is not supported; put the "
-                                "token in a file and pass --auth-token-file"));
-    } else {
-      return Usage(absl::StrCat("unknown option --", name));
-    }
+  app.add_option("--max-message-bytes", server.max_message_bytes,
+                 "largest request accepted, in bytes")
+      ->check(IntegerIn(1, std::numeric_limits<int>::max()))
+      ->capture_default_str();
+  app.add_option("--max-concurrent-streams", server.max_concurrent_streams,
+                 "concurrent calls per connection (0: gRPC's default)")
+      ->check(IntegerIn(0, std::numeric_limits<int>::max()))
+      ->capture_default_str();
+  app.add_option("--idle-timeout", flags->idle_timeout_seconds,
+                 "seconds after which a connection with no call is closed, "
+                 "and an AnalyzeRecords stream waiting for its next batch "
+                 "cancelled")
+      ->check(NumberIn(0.001, 86400))
+      ->capture_default_str();
+  app.add_option("--keepalive", flags->keepalive_seconds,
+                 "seconds between pings on each connection; one unanswered "
+                 "for 20 s drops it")
+      ->check(NumberIn(0.001, 86400))
+      ->capture_default_str();
+  app.add_option("--shutdown-grace", flags->shutdown_grace_seconds,
+                 "seconds in-flight work gets on SIGTERM")
+      ->check(NumberIn(0, 3600))
+      ->capture_default_str();
+  app.add_option("--log-level", flags->log_level, "lines written to stderr")
+      ->check(OneOf<LogLevel>())
+      ->capture_default_str();
+  if (std::optional<int> exit =
+          ParseCommandLine(app, argc, argv, std::cout, std::cerr)) {
+    return exit;
   }
-  return -1;
+  server.idle_timeout = absl::Seconds(flags->idle_timeout_seconds);
+  server.keepalive_interval = absl::Seconds(flags->keepalive_seconds);
+  return std::nullopt;
 }
 
 // Blocks SIGTERM and SIGINT in the calling thread and in every thread it
@@ -230,10 +184,10 @@ int RunServer(const Flags& flags, const sigset_t& signals) {
   }).detach();
 
   stop.WaitForNotification();
+  const absl::Duration grace = absl::Seconds(flags.shutdown_grace_seconds);
   Log(LogLevel::kInfo,
-      absl::StrCat("shutting down, grace ",
-                   absl::FormatDuration(flags.shutdown_grace)));
-  (*server)->Shutdown(flags.shutdown_grace);
+      absl::StrCat("shutting down, grace ", absl::FormatDuration(grace)));
+  (*server)->Shutdown(grace);
   Log(LogLevel::kInfo, "stopped");
   return kExitOk;
 }
@@ -244,9 +198,11 @@ int RunServer(const Flags& flags, const sigset_t& signals) {
 int main(int argc, char** argv) {
   const sigset_t signals = shellwright::BlockShutdownSignals();
   shellwright::Flags flags;
-  if (int code = shellwright::ParseFlags(argc, argv, &flags); code >= 0) {
-    return code;
+  if (std::optional<int> exit = shellwright::ParseFlags(argc, argv, &flags)) {
+    return *exit;
   }
-  shellwright::SetLogLevel(flags.log_level);
+  // The name was checked while parsing.
+  shellwright::SetLogLevel(
+      shellwright::ParseName<shellwright::LogLevel>(flags.log_level).value());
   return shellwright::RunServer(flags, signals);
 }

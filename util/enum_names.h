@@ -3,7 +3,8 @@
 // command-line parsers take their allowed values from the same tables
 // (NameList), so a flag, a record field and a report always agree.
 //
-// An enum opts in by specialising EnumNames next to its declaration:
+// An enum opts in by specialising EnumNames (in namespace shellwright) next
+// to its declaration:
 //   - kWhat: what a value is, for messages ("geometry");
 //   - kNames: every enumerator with its one canonical name;
 //   - kAliases (optional): extra spellings that ParseName also accepts.

@@ -1,6 +1,5 @@
 #include "clients/cli/check.h"
 
-#include <malloc.h>
 #include <sys/stat.h>
 #include <unistd.h>
 
@@ -241,14 +240,6 @@ void Release(Batch* b) {
 
 }  // namespace
 
-absl::StatusOr<RecordFormat> ParseRecordFormat(absl::string_view text) {
-  if (text == "csv") return RecordFormat::kCsv;
-  if (text == "jsonl") return RecordFormat::kJsonl;
-  if (text == "auto") return RecordFormat::kAuto;
-  return absl::InvalidArgumentError(
-      absl::StrCat("unknown format '", text, "' (expected csv or jsonl)"));
-}
-
 std::string FormatSummary(const CheckSummary& s) {
   std::string out = absl::StrFormat("%d rows: %d valid, %d invalid\n", s.rows,
                                     s.valid, s.invalid);
@@ -261,10 +252,6 @@ std::string FormatSummary(const CheckSummary& s) {
 
 absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
                                       Backend* remote, std::ostream& log) {
-  // Batches' output buffers are a few MB and change threads; keep glibc
-  // from returning them to the kernel (and zeroing fresh pages) each time.
-  mallopt(M_MMAP_THRESHOLD, 256 << 20);
-  mallopt(M_TRIM_THRESHOLD, 512 << 20);
   RecordFormat in_format = options.input_format;
   if (in_format == RecordFormat::kAuto) {
     in_format = FormatFromPath(options.input, RecordFormat::kAuto);

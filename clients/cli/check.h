@@ -27,13 +27,24 @@
 
 #include "absl/status/statusor.h"
 #include "clients/cli/backend.h"
+#include "util/enum_names.h"
 
 namespace shellwright::cli {
 
+// How records and reports are written. kAuto: by the file's extension.
 enum class RecordFormat { kAuto, kCsv, kJsonl };
 
-// "csv" / "jsonl" / "auto"; INVALID_ARGUMENT otherwise.
-absl::StatusOr<RecordFormat> ParseRecordFormat(absl::string_view text);
+}  // namespace shellwright::cli
+
+// The names users give (--format, --out-format); kAuto is the absence of one.
+template <>
+struct shellwright::EnumNames<shellwright::cli::RecordFormat> {
+  static constexpr absl::string_view kWhat = "format";
+  static constexpr NamedValue<cli::RecordFormat> kNames[] = {
+      {cli::RecordFormat::kCsv, "csv"}, {cli::RecordFormat::kJsonl, "jsonl"}};
+};
+
+namespace shellwright::cli {
 
 struct CheckOptions {
   std::string input = "-";   // Path, or "-" for standard input.

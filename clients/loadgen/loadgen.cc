@@ -47,6 +47,7 @@
 #include "api/records.h"
 #include "grpcpp/grpcpp.h"
 #include "shellwright/v1/electron_structure.grpc.pb.h"
+#include "util/command_line.h"
 #include "util/small_file.h"
 #include "util/subprocess.h"
 
@@ -57,26 +58,6 @@ using Clock = std::chrono::steady_clock;
 
 constexpr char kEchoListening[] = "shellwright_loadgen echo listening on ";
 constexpr char kServerListening[] = "shellwrightd listening on ";
-
-constexpr char kUsage[] = R"(usage: shellwright_loadgen [options]
-
-  --target HOST:PORT      measure a running shellwrightd (loopback only)
-                          instead of starting one
-  --shellwrightd PATH     server binary to start (default: next to this
-                          build, ../../server/shellwrightd)
-  --server-log-level L    --log-level for the started server (default
-                          warning; info logs every call)
-  --token-file FILE       bearer token for --target servers that need one
-  --seconds S             measured time per scenario (default 3)
-  --warmup S              unmeasured time before each scenario (default 0.5)
-  --callers LIST          concurrent DescribeAtom callers (default 1,8,32)
-  --streams LIST          concurrent AnalyzeRecords streams (default 1,4)
-  --batch N               records per RecordBatch (default 500)
-  --channels N            channels (TCP connections) shared by the callers
-                          (default 1)
-  --spec SPEC             species asked for (default Fe3+)
-  --no-echo               skip the echo ceiling
-)";
 
 // ---------------------------------------------------------------------------
 // Helpers.
@@ -93,19 +74,23 @@ struct Flags {
   int batch = 500;
   int channels = 1;
   std::string spec = "Fe3+";
-  bool echo = true;
+  bool no_echo = false;
   // --serve-echo mode (internal: the parent starts it).
   bool serve_echo = false;
 };
 
-bool ParseIntList(const std::string& text, std::vector<int>* out) {
+// A comma-separated list of counts 1..4096, into `out`; "" when it is one.
+std::string ParseCounts(const std::string& text, std::vector<int>* out) {
   out->clear();
   for (absl::string_view part : absl::StrSplit(text, ',')) {
     int n = 0;
-    if (!absl::SimpleAtoi(part, &n) || n <= 0 || n > 4096) return false;
+    if (!absl::SimpleAtoi(part, &n) || n <= 0 || n > 4096) {
+      return absl::StrCat(QuoteForMessage(part),
+                          " is not a count from 1 to 4096");
+    }
     out->push_back(n);
   }
-  return !out->empty();
+  return "";
 }
 
 bool IsLoopback(const std::string& address) {
@@ -650,75 +635,74 @@ void PrintTables(std::vector<Result>& results, const Flags& flags) {
   }
 }
 
-int Usage(const std::string& problem) {
-  std::cerr << "shellwright_loadgen: " << problem << "\n" << kUsage;
-  return 2;
+// An option holding a list of counts (ParseCounts), into `counts`.
+void AddCountsOption(CLI::App* app, const std::string& name,
+                     std::vector<int>* counts, const std::string& help) {
+  app->add_option_function<std::string>(
+         name, [counts](const std::string& v) { ParseCounts(v, counts); }, help)
+      ->check(CLI::Validator(
+          [](std::string& v) -> std::string {
+            std::vector<int> ignored;
+            return ParseCounts(v, &ignored);
+          },
+          "LIST"));
 }
 
-int ParseFlags(int argc, char** argv, Flags* flags) {
-  for (int i = 1; i < argc; ++i) {
-    std::string arg = argv[i];
-    if (arg == "--help") {
-      std::cout << kUsage;
-      return 0;
-    }
-    if (arg == "--no-echo") {
-      flags->echo = false;
-      continue;
-    }
-    if (arg == "--serve-echo") {
-      flags->serve_echo = true;
-      continue;
-    }
-    if (arg.rfind("--", 0) != 0) return Usage("unexpected argument " + arg);
-    std::string name = arg.substr(2), value;
-    if (size_t eq = name.find('='); eq != std::string::npos) {
-      value = name.substr(eq + 1);
-      name = name.substr(0, eq);
-    } else if (i + 1 < argc) {
-      value = argv[++i];
-    } else {
-      return Usage("--" + name + " needs a value");
-    }
-    bool ok = true;
-    if (name == "target") {
-      flags->target = value;
-      ok = IsLoopback(value);
-    } else if (name == "shellwrightd") {
-      flags->shellwrightd = value;
-    } else if (name == "server-log-level") {
-      flags->server_log_level = value;
-    } else if (name == "token-file") {
-      flags->token_file = value;
-    } else if (name == "seconds") {
-      ok = absl::SimpleAtod(value, &flags->seconds) && flags->seconds > 0 &&
-           flags->seconds <= 600;
-    } else if (name == "warmup") {
-      ok = absl::SimpleAtod(value, &flags->warmup) && flags->warmup >= 0 &&
-           flags->warmup <= 60;
-    } else if (name == "callers") {
-      ok = ParseIntList(value, &flags->callers);
-    } else if (name == "streams") {
-      ok = ParseIntList(value, &flags->streams);
-    } else if (name == "batch") {
-      ok = absl::SimpleAtoi(value, &flags->batch) && flags->batch > 0 &&
-           flags->batch <= 100000;
-    } else if (name == "channels") {
-      ok = absl::SimpleAtoi(value, &flags->channels) && flags->channels > 0 &&
-           flags->channels <= 64;
-    } else if (name == "spec") {
-      flags->spec = value;
-    } else {
-      return Usage("unknown option --" + name);
-    }
-    if (!ok) return Usage("bad value for --" + name + ": " + value);
-  }
-  return -1;
+// Parses argv into `flags`. Returns nullopt to go on, or an exit code.
+std::optional<int> ParseFlags(int argc, char** argv, Flags* flags) {
+  CLI::App app{
+      "Measures shellwrightd's throughput and latency on loopback, next to "
+      "an echo server that shows the transport ceiling.",
+      "shellwright_loadgen"};
+  CLI::Option* target =
+      app.add_option("--target", flags->target,
+                     "measure a running shellwrightd at HOST:PORT (loopback "
+                     "only) instead of starting one")
+          ->check(CLI::Validator(
+              [](std::string& v) -> std::string {
+                return IsLoopback(v) ? "" : "not a loopback address";
+              },
+              "HOST:PORT"));
+  app.add_option("--shellwrightd", flags->shellwrightd,
+                 "server binary to start (default: this build's "
+                 "server/shellwrightd)")
+      ->excludes(target);
+  app.add_option("--server-log-level", flags->server_log_level,
+                 "--log-level for the started server (info logs every call)")
+      ->excludes(target)
+      ->capture_default_str();
+  app.add_option("--token-file", flags->token_file,
+                 "bearer token for a --target server that needs one")
+      ->needs(target);
+  app.add_option("--seconds", flags->seconds, "measured time per scenario")
+      ->check(NumberIn(0, 600, /*above_lo=*/true))
+      ->capture_default_str();
+  app.add_option("--warmup", flags->warmup,
+                 "unmeasured seconds before each scenario")
+      ->check(NumberIn(0, 60))
+      ->capture_default_str();
+  AddCountsOption(&app, "--callers", &flags->callers,
+                  "concurrent DescribeAtom callers, e.g. 1,8,32 (the default)");
+  AddCountsOption(&app, "--streams", &flags->streams,
+                  "concurrent AnalyzeRecords streams, e.g. 1,4 (the default)");
+  app.add_option("--batch", flags->batch, "records per RecordBatch")
+      ->check(IntegerIn(1, kMaxRecordsPerBatch))
+      ->capture_default_str();
+  app.add_option("--channels", flags->channels,
+                 "channels (TCP connections) shared by the callers")
+      ->check(IntegerIn(1, 64))
+      ->capture_default_str();
+  app.add_option("--spec", flags->spec, "species asked for")
+      ->capture_default_str();
+  app.add_flag("--no-echo", flags->no_echo, "skip the echo ceiling");
+  // Internal: the parent starts the echo server as this binary.
+  app.add_flag("--serve-echo", flags->serve_echo)->group("");
+  return ParseCommandLine(app, argc, argv, std::cout, std::cerr);
 }
 
 int Main(int argc, char** argv) {
   Flags flags;
-  if (int code = ParseFlags(argc, argv, &flags); code >= 0) return code;
+  if (std::optional<int> exit = ParseFlags(argc, argv, &flags)) return *exit;
   if (flags.serve_echo) return ServeEcho(flags);
   signal(SIGPIPE, SIG_IGN);
 
@@ -745,7 +729,7 @@ int Main(int argc, char** argv) {
   }
 
   std::unique_ptr<ChildServer> echo;
-  if (flags.echo) {
+  if (!flags.no_echo) {
     std::vector<std::string> argv_echo = {SelfDir() + "/shellwright_loadgen",
                                           "--serve-echo",
                                           "--spec",

@@ -1,161 +1,55 @@
 // shellwright: command-line access to the Shellwright engine.
 //
 //   shellwright atom Fe3+ --geometry octahedral --json
+//   shellwright compound Fe3O4
+//   shellwright check records.csv --out reports.jsonl
 //   shellwright elements
 //   shellwright --server 127.0.0.1:50051 atom Gd3+
 //
-// Exit codes: 0 ok; 1 invalid input (one line on stderr naming what was
-// wrong); 2 usage error, I/O error or an unreachable server.
+// Each command takes only its own options (`shellwright COMMAND --help`
+// lists them); the options before the command choose where the answers
+// come from. Exit codes: 0 ok; 1 invalid input (one line on stderr naming
+// what was wrong; for check: some records invalid); 2 usage error, I/O
+// error or an unreachable server.
 
+#include <malloc.h>
 #include <unistd.h>
 
 #include <cstdlib>
 #include <iostream>
-#include <map>
-#include <optional>
-#include <set>
 #include <string>
-#include <vector>
 
 #include "absl/status/status.h"
-#include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
 #include "api/atoms.h"
+#include "api/records.h"
 #include "clients/cli/atom_format.h"
 #include "clients/cli/backend.h"
 #include "clients/cli/check.h"
 #include "clients/cli/report_format.h"
 #include "shellwright/v1/electron_structure.pb.h"
+#include "util/command_line.h"
+#include "util/field_names.h"
 
 namespace shellwright::cli {
 namespace {
 
 constexpr int kExitOk = 0;
 constexpr int kExitInvalidInput = 1;
-constexpr int kExitUsage = 2;
 
-constexpr char kUsage[] =
-    R"(usage: shellwright [global options] COMMAND [options]
-
-Commands:
-  atom SPEC        describe an atom or ion: Fe, 26, iron, Fe3+, Fe+3,
-                   Fe(III), O2-
-      --charge N           net charge (when SPEC carries none)
-      --geometry G         free | octahedral | tetrahedral | square_planar
-      --spin-state S       auto | high | low (default auto)
-      --configuration C    explicit configuration, e.g. "[Ar] 3d5 4s1"
-      --json               print the shellwright.v1.AtomDescription as JSON
-  compound FORMULA validate one composition: oxidation states, ions,
-                   moments ("Fe3O4", "La0.7Sr0.3MnO3", "CuSO4·5H2O")
-      --charge N           net charge of the formula unit
-      --declared S         declared states, e.g. "Fe:3,O:-2"
-      --geometry S         per-element geometry, e.g. "Co:tetrahedral"
-      --spin-state S       per-element spin state, e.g. "Co:low"
-      --measured-moment X  measured μB per formula unit
-      --moment-tolerance X tolerance in μB (default 0.5)
-      --alternatives K     alternatives to report, 0-5 (default 2)
-      --json               print the shellwright.v1.RecordReport as JSON
-  check INPUT      validate a CSV or JSONL file of records ('-' for stdin)
-      --out OUTPUT         JSONL or CSV by extension ('-' for stdout, default)
-      --format F           input format csv|jsonl (default: by extension)
-      --out-format F       output format csv|jsonl (default: by extension)
-      --jobs N             worker threads (default: all cores)
-      --batch-size N       records per batch (default 256, or 500 with
-                           --server)
-      --alternatives K     alternatives per record without its own
-                           max_alternatives, 0-5 (default 0)
-      --no-progress        no progress bar even on a terminal
-  elements         list the element table (--json for JSON)
-  help             print this text
-
-Global options:
-  --server HOST:PORT       use a shellwrightd server instead of the
-                           in-process engine
-  --tls-ca FILE            PEM roots to verify the server (enables TLS)
-  --tls-cert FILE          client certificate for mutual TLS
-  --tls-key FILE           client key for mutual TLS
-  --tls-server-name NAME   name expected in the server certificate
-  --token-file FILE        file holding a bearer token for the server
-  --timeout SECONDS        per-call deadline (default 30)
-
-Exit codes: 0 ok (check: every row valid), 1 invalid input (check: some
-rows invalid), 2 usage, I/O or connection error.
-)";
-
-struct Args {
-  std::vector<std::string> positional;
-  std::map<std::string, std::string> values;
-  std::set<std::string> flags;
-
-  // The value of option --`name`, or nullptr when it was not given.
-  const std::string* Value(const std::string& name) const {
-    auto it = values.find(name);
-    return it == values.end() ? nullptr : &it->second;
-  }
-};
-
-// Options that take a value; everything else starting with "--" is a flag.
-const std::set<std::string>& ValueOptions() {
-  static const auto* const kOptions = new std::set<std::string>{
-      "server",          "tls-ca",           "tls-cert",      "tls-key",
-      "tls-server-name", "token-file",       "timeout",       "charge",
-      "geometry",        "spin-state",       "configuration", "declared",
-      "measured-moment", "moment-tolerance", "alternatives",  "out",
-      "format",          "out-format",       "jobs",          "batch-size"};
-  return *kOptions;
-}
-
-const std::set<std::string>& FlagOptions() {
-  static const auto* const kFlags =
-      new std::set<std::string>{"json", "help", "no-progress"};
-  return *kFlags;
-}
-
-int Usage(const std::string& problem) {
-  std::cerr << "shellwright: " << problem << "\n"
-            << "Run 'shellwright help' for usage.\n";
-  return kExitUsage;
-}
-
-// Parses argv; on error prints it and returns nullopt.
-std::optional<Args> ParseArgs(int argc, char** argv, int* exit_code) {
-  Args args;
-  for (int i = 1; i < argc; ++i) {
-    std::string a = argv[i];
-    if (a.size() > 2 && a.rfind("--", 0) == 0) {
-      std::string name = a.substr(2);
-      std::optional<std::string> value;
-      if (size_t eq = name.find('='); eq != std::string::npos) {
-        value = name.substr(eq + 1);
-        name = name.substr(0, eq);
-      }
-      if (ValueOptions().count(name)) {
-        if (!value.has_value()) {
-          if (i + 1 >= argc) {
-            *exit_code =
-                Usage(absl::StrCat("option --", name, " needs a value"));
-            return std::nullopt;
-          }
-          value = argv[++i];
-        }
-        args.values[name] = *value;
-      } else if (FlagOptions().count(name) && !value.has_value()) {
-        args.flags.insert(name);
-      } else {
-        *exit_code = Usage(absl::StrCat("unknown option --", name));
-        return std::nullopt;
-      }
-    } else {
-      args.positional.push_back(a);
-    }
-  }
-  return args;
-}
+// The request fields that commands take from an option or operand, for
+// messages ("spec: unknown element" -> "SPEC: unknown element").
+constexpr FieldName kFlagNames[] = {{"spec", "SPEC"},
+                                    {"charge", "--charge"},
+                                    {"geometry", "--geometry"},
+                                    {"spin_state", "--spin-state"},
+                                    {"configuration", "--configuration"}};
 
 // Maps a failed call to an exit code, printing one line.
 int Fail(const absl::Status& status) {
   if (status.code() == absl::StatusCode::kInvalidArgument) {
-    std::cerr << "shellwright: invalid input: " << status.message() << "\n";
+    std::cerr << "shellwright: invalid input: "
+              << RenameField(status.message(), kFlagNames) << "\n";
     return kExitInvalidInput;
   }
   std::cerr << "shellwright: " << absl::StatusCodeToString(status.code())
@@ -163,41 +57,97 @@ int Fail(const absl::Status& status) {
   return kExitUsage;
 }
 
-int RunAtom(const Args& args, Backend& backend) {
-  if (args.positional.size() != 2) {
-    return Usage("atom takes exactly one SPEC (e.g. Fe, 26, iron, Fe3+)");
+// The options before the command: where answers come from.
+struct RemoteFlags {
+  RemoteOptions options;
+  double timeout_seconds = 30;
+  CLI::Option* server = nullptr;
+};
+
+void AddRemoteOptions(CLI::App* app, RemoteFlags* flags) {
+  RemoteOptions& o = flags->options;
+  flags->server = app->add_option(
+      "--server", o.address,
+      "use the shellwrightd at HOST:PORT instead of the in-process engine");
+  CLI::Option* ca =
+      app->add_option("--tls-ca", o.tls_ca_file,
+                      "PEM roots to verify the server with (enables TLS)");
+  CLI::Option* cert = app->add_option("--tls-cert", o.tls_cert_file,
+                                      "client certificate for mutual TLS");
+  CLI::Option* key =
+      app->add_option("--tls-key", o.tls_key_file, "client key for mutual TLS");
+  CLI::Option* name =
+      app->add_option("--tls-server-name", o.tls_server_name,
+                      "name expected in the server certificate");
+  CLI::Option* token = app->add_option("--token-file", o.token_file,
+                                       "file holding a bearer token");
+  CLI::Option* timeout =
+      app->add_option("--timeout", flags->timeout_seconds,
+                      "per-call deadline in seconds (default 30)")
+          ->check(NumberIn(0, 86400, /*above_lo=*/true));
+  for (CLI::Option* remote_only : {ca, cert, key, name, token, timeout}) {
+    remote_only->needs(flags->server);
   }
+  cert->needs(key);
+  key->needs(cert);
+}
+
+struct AtomFlags {
+  std::string spec;
+  int charge = 0;
+  CLI::Option* charge_option = nullptr;
+  std::string geometry;
+  std::string spin_state;
+  std::string configuration;
+  bool json = false;
+};
+
+CLI::App* AddAtom(CLI::App* app, AtomFlags* f) {
+  CLI::App* atom = app->add_subcommand(
+      "atom",
+      "describe an atom or ion: configuration, term symbol, spin "
+      "state, moments");
+  atom->add_option("SPEC", f->spec, "Fe, 26, iron, Fe3+, Fe+3, Fe(III), O2-")
+      ->required();
+  f->charge_option = atom->add_option("--charge", f->charge,
+                                      "net charge, when SPEC carries none")
+                         ->check(Integer());
+  atom->add_option("--geometry", f->geometry,
+                   "ligand-field geometry (default free)")
+      ->check(OneOf<Geometry>());
+  atom->add_option("--spin-state", f->spin_state,
+                   "spin state in a ligand field (default auto)")
+      ->check(OneOf<SpinStatePreference>());
+  atom->add_option("--configuration", f->configuration,
+                   "explicit configuration, e.g. \"[Ar] 3d5 4s1\"")
+      ->check(CLI::Validator(
+          [](std::string& v) -> std::string {
+            return v.empty() ? "is empty" : "";
+          },
+          ""));
+  atom->add_flag("--json", f->json,
+                 "print the shellwright.v1.AtomDescription as JSON");
+  return atom;
+}
+
+int RunAtom(const AtomFlags& f, Backend& backend) {
   v1::DescribeAtomRequest request;
-  request.set_spec(args.positional[1]);
-  if (const std::string* v = args.Value("charge")) {
-    int charge = 0;
-    if (!absl::SimpleAtoi(*v, &charge)) {
-      return Usage(absl::StrCat("--charge must be an integer, got '", *v, "'"));
-    }
-    request.set_charge(charge);
+  request.set_spec(f.spec);
+  if (f.charge_option->count() > 0) request.set_charge(f.charge);
+  // The values were checked while parsing.
+  if (!f.geometry.empty()) {
+    request.set_geometry(
+        GeometryToProto(ParseName<Geometry>(f.geometry).value()));
   }
-  if (const std::string* v = args.Value("geometry")) {
-    absl::StatusOr<Geometry> g = ParseName<Geometry>(*v);
-    if (!g.ok()) {
-      return Usage(absl::StrCat("--geometry: ", g.status().message()));
-    }
-    request.set_geometry(GeometryToProto(*g));
+  if (!f.spin_state.empty()) {
+    request.set_spin_state(SpinStatePreferenceToProto(
+        ParseName<SpinStatePreference>(f.spin_state).value()));
   }
-  if (const std::string* v = args.Value("spin-state")) {
-    absl::StatusOr<SpinStatePreference> s = ParseName<SpinStatePreference>(*v);
-    if (!s.ok()) {
-      return Usage(absl::StrCat("--spin-state: ", s.status().message()));
-    }
-    request.set_spin_state(SpinStatePreferenceToProto(*s));
-  }
-  if (const std::string* v = args.Value("configuration")) {
-    if (v->empty()) return Usage("--configuration is empty");
-    request.set_configuration(*v);
-  }
+  request.set_configuration(f.configuration);
   v1::AtomDescription description;
   absl::Status status = backend.DescribeAtom(request, &description);
   if (!status.ok()) return Fail(status);
-  if (args.flags.count("json")) {
+  if (f.json) {
     std::cout << ToJson(description, /*pretty=*/true) << "\n";
   } else {
     std::cout << FormatAtomHuman(description);
@@ -205,48 +155,80 @@ int RunAtom(const Args& args, Backend& backend) {
   return kExitOk;
 }
 
-int RunCompound(const Args& args, Backend& backend) {
-  if (args.positional.size() != 2) {
-    return Usage("compound takes exactly one FORMULA (e.g. Fe3O4)");
-  }
+struct CompoundFlags {
+  std::string formula;
+  int charge = 0;
+  CLI::Option* charge_option = nullptr;
+  std::string declared;
+  std::string element_geometry;
+  std::string element_spin_state;
+  double measured_moment = 0;
+  CLI::Option* measured_option = nullptr;
+  double moment_tolerance = 0;
+  CLI::Option* tolerance_option = nullptr;
+  int alternatives = 2;
+  bool json = false;
+};
+
+CLI::App* AddCompound(CLI::App* app, CompoundFlags* f) {
+  CLI::App* compound =
+      app->add_subcommand("compound",
+                          "validate one composition: oxidation states, ions, "
+                          "moments");
+  compound
+      ->add_option("FORMULA", f->formula,
+                   "\"Fe3O4\", \"La0.7Sr0.3MnO3\", \"CuSO4·5H2O\"")
+      ->required();
+  f->charge_option =
+      compound
+          ->add_option("--charge", f->charge,
+                       "net charge of the formula unit (default 0)")
+          ->check(Integer());
+  compound->add_option("--declared", f->declared,
+                       "declared oxidation states, e.g. \"Fe:3,O:-2\"");
+  compound->add_option(
+      "--element-geometry", f->element_geometry,
+      "ligand-field geometry per element, e.g. \"Co:tetrahedral\"");
+  compound->add_option("--element-spin-state", f->element_spin_state,
+                       "spin state per element, e.g. \"Co:low\"");
+  f->measured_option = compound
+                           ->add_option("--measured-moment", f->measured_moment,
+                                        "measured moment, μB per formula unit")
+                           ->check(FiniteNumber());
+  f->tolerance_option =
+      compound
+          ->add_option("--moment-tolerance", f->moment_tolerance,
+                       "tolerance of the moment check in μB (default 0.5)")
+          ->check(FiniteNumber());
+  compound
+      ->add_option("--alternatives", f->alternatives,
+                   "further assignments to report (default 2)")
+      ->check(IntegerIn(0, kMaxAlternatives));
+  compound->add_flag("--json", f->json,
+                     "print the shellwright.v1.RecordReport as JSON");
+  return compound;
+}
+
+int RunCompound(const CompoundFlags& f, Backend& backend) {
   v1::CompositionRecord record;
-  record.set_formula(args.positional[1]);
-  if (const std::string* v = args.Value("charge")) {
-    int charge = 0;
-    if (!absl::SimpleAtoi(*v, &charge)) {
-      return Usage(absl::StrCat("--charge must be an integer, got '", *v, "'"));
-    }
-    record.set_charge(charge);
+  record.set_formula(f.formula);
+  if (f.charge_option->count() > 0) record.set_charge(f.charge);
+  if (!f.declared.empty()) record.set_declared_states(f.declared);
+  if (!f.element_geometry.empty()) record.set_geometry(f.element_geometry);
+  if (!f.element_spin_state.empty()) {
+    record.set_spin_state(f.element_spin_state);
   }
-  if (const std::string* v = args.Value("declared"))
-    record.set_declared_states(*v);
-  if (const std::string* v = args.Value("geometry")) record.set_geometry(*v);
-  if (const std::string* v = args.Value("spin-state"))
-    record.set_spin_state(*v);
-  if (const std::string* v = args.Value("measured-moment")) {
-    double m = 0;
-    if (!absl::SimpleAtod(*v, &m))
-      return Usage("--measured-moment must be a number");
-    record.set_measured_moment(m);
+  if (f.measured_option->count() > 0) {
+    record.set_measured_moment(f.measured_moment);
   }
-  if (const std::string* v = args.Value("moment-tolerance")) {
-    double t = 0;
-    if (!absl::SimpleAtod(*v, &t))
-      return Usage("--moment-tolerance must be a number");
-    record.set_moment_tolerance(t);
+  if (f.tolerance_option->count() > 0) {
+    record.set_moment_tolerance(f.moment_tolerance);
   }
-  record.set_max_alternatives(2);
-  if (const std::string* v = args.Value("alternatives")) {
-    int k = 0;
-    if (!absl::SimpleAtoi(*v, &k) || k < 0 || k > 5) {
-      return Usage("--alternatives must be an integer from 0 to 5");
-    }
-    record.set_max_alternatives(k);
-  }
+  record.set_max_alternatives(f.alternatives);
   v1::RecordReport report;
   absl::Status status = backend.AnalyzeCompound(record, &report);
   if (!status.ok()) return Fail(status);
-  if (args.flags.count("json")) {
+  if (f.json) {
     std::cout << ToJson(report, /*pretty=*/true) << "\n";
   } else {
     std::cout << FormatReportHuman(report);
@@ -263,45 +245,59 @@ int RunCompound(const Args& args, Backend& backend) {
   return kExitOk;
 }
 
-int RunCheck(const Args& args, Backend* remote) {
-  if (args.positional.size() != 2) {
-    return Usage("check takes exactly one INPUT file ('-' for stdin)");
-  }
+struct CheckFlags {
   CheckOptions options;
-  options.input = args.positional[1];
-  if (const std::string* v = args.Value("out")) options.output = *v;
-  for (auto [flag, target] :
-       {std::pair<const char*, RecordFormat*>{"format", &options.input_format},
-        {"out-format", &options.output_format}}) {
-    if (const std::string* v = args.Value(flag)) {
-      absl::StatusOr<RecordFormat> f = ParseRecordFormat(*v);
-      if (!f.ok())
-        return Usage(absl::StrCat("--", flag, ": ", f.status().message()));
-      *target = *f;
-    }
-  }
-  if (const std::string* v = args.Value("jobs")) {
-    if (!absl::SimpleAtoi(*v, &options.jobs) || options.jobs < 1 ||
-        options.jobs > 256) {
-      return Usage("--jobs must be an integer from 1 to 256");
-    }
-  }
-  if (const std::string* v = args.Value("batch-size")) {
-    if (!absl::SimpleAtoi(*v, &options.batch_size) || options.batch_size < 1 ||
-        options.batch_size > 10000) {
-      return Usage("--batch-size must be an integer from 1 to 10000");
-    }
-  }
-  if (const std::string* v = args.Value("alternatives")) {
-    if (!absl::SimpleAtoi(*v, &options.default_alternatives) ||
-        options.default_alternatives < 0 || options.default_alternatives > 5) {
-      return Usage("--alternatives must be an integer from 0 to 5");
-    }
-  }
-  options.progress = !args.flags.count("no-progress") && isatty(2) &&
-                     std::getenv("CI") == nullptr;
+  std::string format;
+  std::string out_format;
+  bool no_progress = false;
+};
+
+CLI::App* AddCheck(CLI::App* app, CheckFlags* f) {
+  CLI::App* check = app->add_subcommand(
+      "check",
+      "validate a CSV or JSONL file of records, one report per "
+      "record in input order");
+  check->add_option("INPUT", f->options.input, "the records; '-' for stdin")
+      ->required();
+  check->add_option("--out", f->options.output,
+                    "the reports; '-' for stdout (default)");
+  check
+      ->add_option("--format", f->format,
+                   "input format (default: by INPUT's extension)")
+      ->check(OneOf<RecordFormat>());
+  check
+      ->add_option("--out-format", f->out_format,
+                   "output format (default: by --out's extension, else "
+                   "jsonl)")
+      ->check(OneOf<RecordFormat>());
+  check
+      ->add_option("--jobs", f->options.jobs,
+                   "worker threads (default: all cores)")
+      ->check(IntegerIn(1, 256));
+  check
+      ->add_option("--batch-size", f->options.batch_size,
+                   "records per batch (default 256, or 500 with --server)")
+      ->check(IntegerIn(1, kMaxRecordsPerBatch));
+  check
+      ->add_option("--alternatives", f->options.default_alternatives,
+                   "alternatives for records without their own "
+                   "max_alternatives (default 0)")
+      ->check(IntegerIn(0, kMaxAlternatives));
+  check->add_flag("--no-progress", f->no_progress,
+                  "no progress line, even on a terminal");
+  return check;
+}
+
+int RunCheck(CheckFlags& f, Backend* remote) {
+  // Names were checked while parsing; empty means by extension.
+  f.options.input_format =
+      ParseName<RecordFormat>(f.format).value_or(RecordFormat::kAuto);
+  f.options.output_format =
+      ParseName<RecordFormat>(f.out_format).value_or(RecordFormat::kAuto);
+  f.options.progress =
+      !f.no_progress && isatty(2) && std::getenv("CI") == nullptr;
   absl::StatusOr<CheckSummary> summary =
-      cli::RunCheck(options, remote, std::cerr);
+      cli::RunCheck(f.options, remote, std::cerr);
   if (!summary.ok()) {
     std::cerr << "shellwright: check: " << summary.status().message() << "\n";
     return kExitUsage;
@@ -310,12 +306,11 @@ int RunCheck(const Args& args, Backend* remote) {
   return summary->invalid > 0 ? kExitInvalidInput : kExitOk;
 }
 
-int RunElements(const Args& args, Backend& backend) {
-  if (args.positional.size() != 1) return Usage("elements takes no operands");
+int RunElements(bool json, Backend& backend) {
   v1::ListElementsResponse elements;
   absl::Status status = backend.ListElements(&elements);
   if (!status.ok()) return Fail(status);
-  if (args.flags.count("json")) {
+  if (json) {
     std::cout << ToJson(elements, /*pretty=*/true) << "\n";
   } else {
     std::cout << FormatElementsHuman(elements);
@@ -324,62 +319,68 @@ int RunElements(const Args& args, Backend& backend) {
 }
 
 int Main(int argc, char** argv) {
-  int exit_code = kExitOk;
-  std::optional<Args> args = ParseArgs(argc, argv, &exit_code);
-  if (!args.has_value()) return exit_code;
-  if (args->flags.count("help") ||
-      (!args->positional.empty() && args->positional[0] == "help")) {
-    std::cout << kUsage;
+  CLI::App app{
+      "Electron configurations, ions, term symbols, ligand-field spin "
+      "states and moments, and validation of composition records. Moments "
+      "and spin states are idealised estimates; measurement decides.",
+      "shellwright"};
+  app.require_subcommand(1);
+  // The answer source may be named after the command too.
+  app.fallthrough();
+  app.footer(
+      "Run 'shellwright COMMAND --help' for a command's options.\n"
+      "Exit codes: 0 ok (check: every record valid), 1 invalid input "
+      "(check: some records invalid), 2 usage, I/O or connection error.");
+  RemoteFlags remote;
+  AddRemoteOptions(&app, &remote);
+  AtomFlags atom_flags;
+  CLI::App* atom = AddAtom(&app, &atom_flags);
+  CompoundFlags compound_flags;
+  CLI::App* compound = AddCompound(&app, &compound_flags);
+  CheckFlags check_flags;
+  CLI::App* check = AddCheck(&app, &check_flags);
+  bool elements_json = false;
+  CLI::App* elements = app.add_subcommand("elements", "list the element table");
+  elements->add_flag("--json", elements_json,
+                     "print the shellwright.v1.ListElementsResponse as JSON");
+  CLI::App* help = app.add_subcommand("help", "print this help");
+
+  if (std::optional<int> exit =
+          ParseCommandLine(app, argc, argv, std::cout, std::cerr)) {
+    return *exit;
+  }
+  if (help->parsed()) {
+    app.clear();  // Else help() describes the command parsed: help itself.
+    std::cout << app.help();
     return kExitOk;
   }
-  if (args->positional.empty()) return Usage("no command given");
 
   std::unique_ptr<Backend> backend;
-  if (const std::string* server = args->Value("server")) {
-    RemoteOptions options;
-    options.address = *server;
-    auto get = [&](const char* name) {
-      const std::string* v = args->Value(name);
-      return v == nullptr ? std::string() : *v;
-    };
-    options.tls_ca_file = get("tls-ca");
-    options.tls_cert_file = get("tls-cert");
-    options.tls_key_file = get("tls-key");
-    options.tls_server_name = get("tls-server-name");
-    options.token_file = get("token-file");
-    if (std::string t = get("timeout"); !t.empty()) {
-      double seconds = 0;
-      if (!absl::SimpleAtod(t, &seconds) || seconds <= 0) {
-        return Usage("--timeout must be a positive number of seconds");
-      }
-      options.timeout = absl::Seconds(seconds);
-    }
-    absl::StatusOr<std::unique_ptr<Backend>> remote =
-        MakeRemoteBackend(options);
-    if (!remote.ok()) {
-      std::cerr << "shellwright: " << remote.status().message() << "\n";
+  if (remote.server->count() > 0) {
+    remote.options.timeout = absl::Seconds(remote.timeout_seconds);
+    absl::StatusOr<std::unique_ptr<Backend>> made =
+        MakeRemoteBackend(remote.options);
+    if (!made.ok()) {
+      std::cerr << "shellwright: " << made.status().message() << "\n";
       return kExitUsage;
     }
-    backend = std::move(*remote);
+    backend = std::move(*made);
   } else {
-    for (const char* remote_only :
-         {"tls-ca", "tls-cert", "tls-key", "tls-server-name", "token-file"}) {
-      if (args->values.count(remote_only)) {
-        return Usage(absl::StrCat("--", remote_only, " needs --server"));
-      }
-    }
     backend = MakeInProcessBackend();
   }
-
-  const std::string& command = args->positional[0];
-  if (command == "atom") return RunAtom(*args, *backend);
-  if (command == "elements") return RunElements(*args, *backend);
-  if (command == "compound") return RunCompound(*args, *backend);
-  if (command == "check") {
-    return RunCheck(*args,
-                    args->values.count("server") ? backend.get() : nullptr);
+  if (atom->parsed()) return RunAtom(atom_flags, *backend);
+  if (compound->parsed()) return RunCompound(compound_flags, *backend);
+  if (elements->parsed()) return RunElements(elements_json, *backend);
+  if (check->parsed()) {
+    // check's output buffers are a few MB and change threads; keep glibc
+    // from returning them to the kernel (and zeroing fresh pages) each
+    // time.
+    mallopt(M_MMAP_THRESHOLD, 256 << 20);
+    mallopt(M_TRIM_THRESHOLD, 512 << 20);
+    return RunCheck(check_flags,
+                    remote.server->count() > 0 ? backend.get() : nullptr);
   }
-  return Usage(absl::StrCat("unknown command '", command, "'"));
+  return kExitUsage;  // require_subcommand(1) makes this unreachable.
 }
 
 }  // namespace

@@ -74,15 +74,95 @@ TEST(Cli, InvalidInputExitsOneWithOneLine) {
   EXPECT_LT(r.err.size(), 400u);
 }
 
-TEST(Cli, UsageErrorsExitTwo) {
-  EXPECT_EQ(Cli({}).exit_code, 2);
-  EXPECT_EQ(Cli({"frobnicate"}).exit_code, 2);
-  EXPECT_EQ(Cli({"atom"}).exit_code, 2);
-  EXPECT_EQ(Cli({"atom", "Fe", "--bogus"}).exit_code, 2);
-  EXPECT_EQ(Cli({"atom", "Fe", "--charge"}).exit_code, 2);
-  EXPECT_EQ(Cli({"atom", "Fe", "--charge", "x"}).exit_code, 2);
-  EXPECT_EQ(Cli({"atom", "Fe", "--geometry", "cubic"}).exit_code, 2);
-  EXPECT_EQ(Cli({"help"}).exit_code, 0);
+TEST(Cli, UsageErrorsExitTwoNamingTheProblem) {
+  const struct {
+    std::vector<std::string> args;
+    const char* named;  // The message names this.
+  } kCases[] = {
+      {{}, "no command"},
+      {{"frobnicate"}, "frobnicate"},
+      {{"atom"}, "SPEC"},
+      {{"atom", "Fe", "Co"}, "'Co'"},
+      {{"atom", "Fe", "--bogus"}, "--bogus"},
+      {{"atom", "Fe", "--charge"}, "--charge"},
+      {{"atom", "Fe", "--charge", "x"}, "--charge"},
+      {{"atom", "Fe", "--geometry", "cubic"}, "cubic"},
+      {{"atom", "Fe", "--spin-state", "medium"}, "--spin-state"},
+      // Options of another command are refused, not ignored.
+      {{"atom", "Fe", "--jobs", "3"}, "--jobs"},
+      {{"atom", "Fe", "--out", "x.jsonl"}, "--out"},
+      {{"elements", "--alternatives", "2"}, "--alternatives"},
+      {{"check", "in.csv", "--json"}, "--json"},
+      // compound's per-element settings are --element-geometry and
+      // --element-spin-state; --geometry means one geometry (atom).
+      {{"compound", "Fe2O3", "--geometry", "Fe:octahedral"}, "--geometry"},
+      {{"compound", "Fe2O3", "--alternatives", "6"}, "--alternatives"},
+      {{"compound", "Fe2O3", "--measured-moment", "nan"}, "--measured-moment"},
+      {{"check", "in.csv", "--jobs", "0"}, "--jobs"},
+      {{"check", "in.csv", "--batch-size", "10001"}, "--batch-size"},
+      {{"check", "in.csv", "--format", "xml"}, "xml"},
+      // Remote settings need a server.
+      {{"--tls-ca", "ca.pem", "atom", "Fe"}, "--server"},
+      {{"--timeout", "5", "atom", "Fe"}, "--server"},
+      {{"--server", "127.0.0.1:1", "--timeout", "-1", "atom", "Fe"},
+       "--timeout"},
+  };
+  for (const auto& c : kCases) {
+    CommandResult r = Cli(c.args);
+    SCOPED_TRACE(::testing::PrintToString(c.args));
+    EXPECT_EQ(r.exit_code, 2) << r.err;
+    EXPECT_THAT(r.err, HasSubstr(c.named));
+    EXPECT_TRUE(r.out.empty());
+  }
+}
+
+TEST(Cli, EachCommandHasItsOwnHelp) {
+  const struct {
+    const char* command;
+    const char* has;
+    const char* lacks;
+  } kCases[] = {{"atom", "--geometry", "--jobs"},
+                {"compound", "--element-geometry", "--jobs"},
+                {"check", "--batch-size", "--geometry"},
+                {"elements", "--json", "--out"}};
+  for (const auto& c : kCases) {
+    CommandResult r = Cli({c.command, "--help"});
+    SCOPED_TRACE(c.command);
+    EXPECT_EQ(r.exit_code, 0) << r.err;
+    EXPECT_THAT(r.out, HasSubstr(c.has));
+    EXPECT_THAT(r.out, ::testing::Not(HasSubstr(c.lacks)));
+  }
+  CommandResult help = Cli({"help"});
+  EXPECT_EQ(help.exit_code, 0);
+  EXPECT_EQ(help.out, Cli({"--help"}).out);
+  EXPECT_THAT(help.out, HasSubstr("compound"));
+}
+
+TEST(Cli, CompoundTakesSettingsPerElement) {
+  // Co3O4 is a normal spinel: Co2+ tetrahedral, Co3+ octahedral low spin
+  // (Greenwood and Earnshaw, Chemistry of the Elements, from memory).
+  CommandResult r =
+      Cli({"compound", "Co3O4", "--element-geometry", "Co:tetrahedral",
+           "--element-spin-state", "Co:high", "--json"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  v1::RecordReport report;
+  ASSERT_TRUE(google::protobuf::util::JsonStringToMessage(r.out, &report).ok())
+      << r.out;
+  ASSERT_GT(report.ions_size(), 0);
+  for (const v1::IonReport& ion : report.ions()) {
+    if (ion.element() != "Co") continue;
+    EXPECT_EQ(ion.geometry(), "tetrahedral");
+    EXPECT_EQ(ion.spin_state(), "high");
+  }
+}
+
+TEST(Cli, MessagesNameTheOptionThatCarriedTheValue) {
+  CommandResult r = Cli({"atom", "Fe", "--charge", "99"});
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("--charge: "));
+  CommandResult spec = Cli({"atom", "Xx"});
+  EXPECT_EQ(spec.exit_code, 1);
+  EXPECT_THAT(spec.err, HasSubstr("SPEC: "));
 }
 
 TEST(Cli, DoneWhenChecksForIons) {

@@ -669,7 +669,7 @@ TEST(Shellwrightd, BadFlagsExitTwoWithAMessage) {
   };
   const std::vector<Case> cases = {
       {{"--auth-token", "hunter2"}, "--auth-token-file"},
-      {{"--bogus", "1"}, "unknown option --bogus"},
+      {{"--bogus", "1"}, "has no option --bogus"},
       {{"--log-level", "loud"}, "log level"},
       {{"--max-message-bytes", "-5"}, "--max-message-bytes"},
       {{"--max-concurrent-streams", "many"}, "--max-concurrent-streams"},
@@ -677,9 +677,12 @@ TEST(Shellwrightd, BadFlagsExitTwoWithAMessage) {
       {{"--tls-cert", junk_pem}, "--tls-key"},
       {{"--tls-cert", junk_pem, "--tls-key", junk_pem}, "no PEM block"},
       {{"--tls-client-ca", junk_pem}, "--tls-cert"},
+      {{"--tls-key", junk_pem}, "--tls-cert"},
+      {{"--keepalive", "0"}, "--keepalive"},
+      {{"--idle-timeout", "forever"}, "--idle-timeout"},
       {{"--auth-token-file", dir.File("absent")}, "absent"},
       {{"--listen"}, "needs a value"},
-      {{"--listen", "127.0.0.1:99999"}, "--listen '127.0.0.1:99999'"},
+      {{"--listen", "127.0.0.1:99999"}, "--listen: '127.0.0.1:99999'"},
       {{"--listen", "127.0.0.1:65536"}, "0..65535"},
       {{"--listen", "127.0.0.1:"}, "port is empty"},
       {{"--listen", "127.0.0.1:http"}, "0..65535"},
