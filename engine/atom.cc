@@ -164,7 +164,7 @@ AtomDescriptionPtr Build(const Element& element, int charge,
   d->term = hund;
   d->term_source = "Hund's rules";
   if (charge == 0 && !user_supplied) {
-    // tablegen has checked that the level parses.
+    // compile_tables has checked that the level parses.
     const internal::GroundLevelDepartureRow* row = GroundLevelDeparture(z);
     absl::StatusOr<TermSymbol> observed =
         row != nullptr ? TermSymbol::Parse(row->observed_level)
@@ -193,7 +193,7 @@ AtomDescriptionPtr Build(const Element& element, int charge,
       d->ligand_field = std::move(lf);
     } else {
       d->notes.push_back(absl::StrCat(
-          "geometry ", GeometryName(geometry),
+          "geometry ", Name(geometry),
           " ignored: ligand-field splitting is modelled only for ions with "
           "one open d subshell or a d-block element's d subshell"));
     }

@@ -94,6 +94,14 @@ struct LigandFieldResult {
 // What the recommended moment is based on.
 enum class MomentBasis { kSpinOnly, kJ };
 
+// Named after the Moments field each basis reads.
+template <>
+struct EnumNames<MomentBasis> {
+  static constexpr absl::string_view kWhat = "moment basis";
+  static constexpr NamedValue<MomentBasis> kNames[] = {
+      {MomentBasis::kSpinOnly, "spin_only"}, {MomentBasis::kJ, "j_moment"}};
+};
+
 struct Moments {
   double spin_only = 0;    // √(n(n+2)), n = unpaired electrons. μB.
   double lande_g = 0;      // g_J of `term`; 0 when J = 0.

@@ -24,7 +24,7 @@ const NeutralTable& Neutrals() {
     }
     for (const internal::ConfigurationExceptionRow& row :
          internal::ConfigurationExceptionRows()) {
-      // tablegen has already checked that the string parses and holds Z
+      // compile_tables has already checked that the string parses and holds Z
       // electrons, so a failure here means a corrupted build.
       absl::StatusOr<Configuration> c = Configuration::Parse(row.configuration);
       if (c.ok()) {

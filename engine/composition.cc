@@ -173,7 +173,7 @@ void Annotate(
     absl::StatusOr<AtomDescriptionPtr> d =
         DescribeIon(s.element, s.state, g, sp);
     if (!d.ok()) {
-      Add(r, Severity::kWarning, "ion_not_described",
+      Add(r, Severity::kWarning, codes::kIonNotDescribed,
           absl::StrCat(s.element->symbol, SignedState(s.state), ": ",
                        d.status().message()));
       continue;
@@ -292,34 +292,13 @@ double CurieConstantPerMomentSquared() {
   return kAvogadro * kBohrMagneton * kBohrMagneton / (3.0 * kBoltzmann);
 }
 
-absl::string_view Utf8Prefix(absl::string_view text, size_t max_bytes) {
-  if (text.size() <= max_bytes) return text;
-  size_t n = max_bytes;
-  // text[n] is the first byte left out: a continuation byte there means
-  // the cut falls inside a character.
-  while (n > 0 && (static_cast<unsigned char>(text[n]) & 0xC0) == 0x80) --n;
-  return text.substr(0, n);
-}
-
-absl::string_view SeverityName(Severity s) {
-  switch (s) {
-    case Severity::kError:
-      return "error";
-    case Severity::kWarning:
-      return "warning";
-    case Severity::kInfo:
-      return "info";
-  }
-  return "error";
-}
-
 CompositionReport AnalyzeComposition(const CompositionInput& input) {
   CompositionReport r;
   r.diagnostics.reserve(4);  // Enough for most records.
   r.id = input.id;
   if (r.id.size() > kMaxRecordIdLength) {
     r.id.resize(Utf8Prefix(r.id, kMaxRecordIdLength).size());
-    Add(&r, Severity::kError, "id_too_long",
+    Add(&r, Severity::kError, codes::kIdTooLong,
         absl::StrCat("id is ", input.id.size(), " bytes, above the limit of ",
                      kMaxRecordIdLength, "; truncated"));
   }
@@ -352,12 +331,12 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
   std::string error;
   if (!ParseElementList<int>(input.declared_states, "declared_states",
                              ParseState, &declared, &error)) {
-    Add(&r, Severity::kError, "malformed_declared_states", error);
+    Add(&r, Severity::kError, codes::kMalformedDeclaredStates, error);
   }
   if (!ParseElementList<Geometry>(
           input.geometry, "geometry",
           [](absl::string_view v, Geometry* g) {
-            absl::StatusOr<Geometry> p = ParseGeometry(v);
+            absl::StatusOr<Geometry> p = ParseName<Geometry>(v);
             if (p.ok()) *g = *p;
             return p.ok();
           },
@@ -365,12 +344,13 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
       !ParseElementList<SpinStatePreference>(
           input.spin_state, "spin_state",
           [](absl::string_view v, SpinStatePreference* s) {
-            absl::StatusOr<SpinStatePreference> p = ParseSpinStatePreference(v);
+            absl::StatusOr<SpinStatePreference> p =
+                ParseName<SpinStatePreference>(v);
             if (p.ok()) *s = *p;
             return p.ok();
           },
           &spin, &error)) {
-    Add(&r, Severity::kError, "malformed_element_settings", error);
+    Add(&r, Severity::kError, codes::kMalformedElementSettings, error);
   }
   OxidationOptions options;
   options.net_charge = input.net_charge.value_or(0);
@@ -379,7 +359,7 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     bool present = false;
     for (const ElementAmount& a : formula->amounts) present |= a.element == e;
     if (!present) {
-      Add(&r, Severity::kError, "malformed_declared_states",
+      Add(&r, Severity::kError, codes::kMalformedDeclaredStates,
           absl::StrCat("declared_states names ", e->symbol,
                        ", which the formula does not contain"));
       continue;
@@ -389,7 +369,7 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
       known |= k.state == state;
     }
     if (!known) {
-      Add(&r, Severity::kWarning, "declared_state_unknown",
+      Add(&r, Severity::kWarning, codes::kDeclaredStateUnknown,
           absl::StrCat("declared ", e->symbol, SignedState(state),
                        " is not in the table of known oxidation states"));
     }
@@ -403,32 +383,33 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
       AssignOxidationStates(*formula, options);
   if (!solved.ok()) {
     Add(&r, Severity::kError,
-        absl::IsResourceExhausted(solved.status()) ? "search_budget_exceeded"
-                                                   : "charge_not_balanced",
+        absl::IsResourceExhausted(solved.status())
+            ? codes::kSearchBudgetExceeded
+            : codes::kChargeNotBalanced,
         std::string(solved.status().message()));
     return finish();
   }
   if (solved->one_mixed_search) {
-    Add(&r, Severity::kInfo, "mixed_valence_search_limited",
+    Add(&r, Severity::kInfo, codes::kMixedValenceSearchLimited,
         "the counts are too finely divided for an exhaustive search within "
         "one record's work budget: the states are the best with at most "
         "one mixed-valence element");
   }
   if (solved->alternatives_cut) {
-    Add(&r, Severity::kInfo, "alternatives_limited",
+    Add(&r, Severity::kInfo, codes::kAlternativesLimited,
         "the alternatives' work budget ran out: fewer alternatives than "
         "asked for may be listed");
   }
   r.kind = solved->kind;
   if (!solved->best.has_value()) {
     if (solved->without_declared.has_value()) {
-      Add(&r, Severity::kError, "declared_state_contradicts_balance",
+      Add(&r, Severity::kError, codes::kDeclaredStateContradictsBalance,
           absl::StrCat(
               "the declared states cannot balance ", input.formula,
               " to net charge ", options.net_charge,
               "; without them: ", AssignmentText(*solved->without_declared)));
     } else {
-      Add(&r, Severity::kError, "charge_not_balanced",
+      Add(&r, Severity::kError, codes::kChargeNotBalanced,
           absl::StrCat("no combination of known oxidation states balances ",
                        input.formula, " to net charge ", options.net_charge));
     }
@@ -449,7 +430,7 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     }
     if (unconstrained.ok() && unconstrained->best.has_value() &&
         forced > unconstrained->best->uncommon_states) {
-      Add(&r, Severity::kError, "declared_state_contradicts_balance",
+      Add(&r, Severity::kError, codes::kDeclaredStateContradictsBalance,
           absl::StrCat(
               "the declared states balance ", input.formula,
               " only with uncommon states (", AssignmentText(*solved->best),
@@ -460,10 +441,10 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
   r.assignment = std::move(solved->best);
   r.alternatives = std::move(solved->alternatives);
   if (r.kind == CompositionKind::kMetallic) {
-    Add(&r, Severity::kInfo, "metallic_composition",
+    Add(&r, Severity::kInfo, codes::kMetallicComposition,
         "all elements are metals: reported as metallic, every state 0");
   } else if (r.kind == CompositionKind::kElemental) {
-    Add(&r, Severity::kInfo, "elemental_composition",
+    Add(&r, Severity::kInfo, codes::kElementalComposition,
         "a single element: reported as elemental, state 0");
   }
   const std::vector<AssignedState>& states = r.assignment->states;
@@ -474,11 +455,11 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     int earlier = 0;
     for (size_t j = 0; j < i; ++j) earlier += states[j].element == s.element;
     if (earlier == 1) {
-      Add(&r, Severity::kInfo, "mixed_valence",
+      Add(&r, Severity::kInfo, codes::kMixedValence,
           absl::StrCat(s.element->symbol, " is mixed valence"));
     }
     if (!s.common) {
-      Add(&r, Severity::kWarning, "uncommon_oxidation_state",
+      Add(&r, Severity::kWarning, codes::kUncommonOxidationState,
           absl::StrCat(s.element->symbol, SignedState(s.state),
                        " is not a common oxidation state"));
     }
@@ -492,17 +473,17 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     const double tolerance =
         input.moment_tolerance.value_or(kDefaultMomentTolerance);
     if (r.kind != CompositionKind::kIonic) {
-      Add(&r, Severity::kInfo, "moment_check_skipped",
+      Add(&r, Severity::kInfo, codes::kMomentCheckSkipped,
           "local-moment estimates do not apply to metallic or elemental "
           "compositions; the measured moment was not checked");
     } else if (!std::isfinite(measured) || measured < 0 ||
                !std::isfinite(tolerance) || tolerance < 0) {
-      Add(&r, Severity::kError, "malformed_record",
+      Add(&r, Severity::kError, codes::kMalformedRecord,
           "measured_moment and moment_tolerance must be finite and "
           "non-negative");
     } else if (measured < r.expected_moment_low - tolerance ||
                measured > r.expected_moment_high + tolerance) {
-      Add(&r, Severity::kError, "moment_out_of_range",
+      Add(&r, Severity::kError, codes::kMomentOutOfRange,
           absl::StrFormat("measured moment %.2f μB per formula unit is "
                           "outside the expected %.2f to %.2f μB (±%.2f); "
                           "estimates are idealised",

@@ -8,18 +8,8 @@
 // message; the record is valid exactly when no diagnostic is an error. The
 // function never fails: every input gets exactly one report.
 //
-// Diagnostic codes:
-//   errors    empty_formula, formula_too_long, malformed_formula,
-//             unknown_element, nesting_too_deep, count_too_large,
-//             charge_not_balanced, declared_state_contradicts_balance,
-//             malformed_declared_states, malformed_element_settings,
-//             moment_out_of_range, malformed_record, id_too_long,
-//             search_budget_exceeded
-//   warnings  uncommon_oxidation_state, possible_hydrate_typo,
-//             declared_state_unknown, ion_not_described
-//   info      mixed_valence, metallic_composition, elemental_composition,
-//             moment_check_skipped, mixed_valence_search_limited,
-//             alternatives_limited
+// The diagnostic codes and their severities are listed in
+// engine/diagnostic_codes.h.
 //
 // Defaults (common practice, no source): d-block ions sit in an octahedral
 // field with the `auto` spin rule (3d high spin, 4d/5d low spin) unless the
@@ -50,6 +40,7 @@
 #include <vector>
 
 #include "engine/atom.h"
+#include "engine/diagnostic_codes.h"
 #include "engine/oxidation.h"
 
 namespace shellwright {
@@ -76,8 +67,14 @@ struct CompositionInput {
 
 enum class Severity { kError, kWarning, kInfo };
 
-// "error", "warning", "info".
-absl::string_view SeverityName(Severity s);
+template <>
+struct EnumNames<Severity> {
+  static constexpr absl::string_view kWhat = "severity";
+  static constexpr NamedValue<Severity> kNames[] = {
+      {Severity::kError, "error"},
+      {Severity::kWarning, "warning"},
+      {Severity::kInfo, "info"}};
+};
 
 struct Diagnostic {
   Severity severity;
@@ -112,11 +109,6 @@ struct CompositionReport {
   // Composition-averaged valence electrons per atom (see docs/method.md).
   double valence_electron_concentration = 0;
 };
-
-// The longest prefix of `text` of at most `max_bytes` bytes that does not
-// end inside a UTF-8 sequence: ids and echoed formulas are cut with it, so
-// a cut never leaves text that proto strings would reject.
-absl::string_view Utf8Prefix(absl::string_view text, size_t max_bytes);
 
 // Validates and annotates one record. Never fails: every problem, from an
 // unparseable formula to an implausible moment, is a Diagnostic in the

@@ -14,19 +14,6 @@ namespace {
 
 using internal::QuoteForMessage;
 
-Block BlockFromLetter(char c) {
-  switch (c) {
-    case 's':
-      return Block::kS;
-    case 'p':
-      return Block::kP;
-    case 'd':
-      return Block::kD;
-    default:
-      return Block::kF;
-  }
-}
-
 // Slot of a symbol in ElementIndex::by_symbol, or -1 when the text cannot
 // be a symbol (wrong length or case).
 int SymbolSlot(absl::string_view symbol) {
@@ -67,7 +54,9 @@ const ElementIndex& Index() {
       e.name = r.name;
       e.period = r.period;
       e.group = r.group;
-      e.block = BlockFromLetter(r.block);
+      // compile_tables has checked the letter.
+      e.block =
+          ParseName<Block>(absl::string_view(&r.block, 1)).value_or(Block::kS);
       e.standard_atomic_weight = r.standard_atomic_weight;
       e.atomic_weight_is_mass_number = r.weight_is_mass_number;
       if (r.has_electronegativity) {
@@ -87,20 +76,6 @@ const ElementIndex& Index() {
 }
 
 }  // namespace
-
-char BlockLetter(Block block) {
-  switch (block) {
-    case Block::kS:
-      return 's';
-    case Block::kP:
-      return 'p';
-    case Block::kD:
-      return 'd';
-    case Block::kF:
-      return 'f';
-  }
-  return '?';
-}
 
 absl::Span<const Element> AllElements() { return Index().elements; }
 

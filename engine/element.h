@@ -33,6 +33,7 @@
 #include "absl/status/statusor.h"
 #include "absl/strings/string_view.h"
 #include "absl/types/span.h"
+#include "util/enum_names.h"
 
 namespace shellwright {
 
@@ -42,8 +43,13 @@ inline constexpr int kMaxAtomicNumber = 118;
 // filling.
 enum class Block { kS, kP, kD, kF };
 
-// 's', 'p', 'd' or 'f'.
-char BlockLetter(Block block);
+// Named by their letter: "s", "p", "d", "f".
+template <>
+struct EnumNames<Block> {
+  static constexpr absl::string_view kWhat = "block";
+  static constexpr NamedValue<Block> kNames[] = {
+      {Block::kS, "s"}, {Block::kP, "p"}, {Block::kD, "d"}, {Block::kF, "f"}};
+};
 
 struct Element {
   int atomic_number;         // Z, 1..118.

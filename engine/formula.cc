@@ -5,6 +5,7 @@
 
 #include "absl/container/inlined_vector.h"
 #include "absl/strings/str_cat.h"
+#include "engine/diagnostic_codes.h"
 #include "engine/internal/text.h"
 
 namespace shellwright {
@@ -61,8 +62,7 @@ class FormulaParser {
       const size_t part_start = pos_;
       Rational multiplier(1);
       if (pos_ < text_.size() && IsAsciiDigit(text_[pos_])) {
-        bool decimal = false;
-        if (!ParseCount(&multiplier, &decimal, /*warn_hydrate=*/false)) {
+        if (!ParseCount(&multiplier, /*warn_hydrate=*/false)) {
           return Failed(error);
         }
       }
@@ -70,10 +70,10 @@ class FormulaParser {
       if (!ParseSequence(0, '\0', &items)) return Failed(error);
       if (items.empty()) {
         if (text_.empty()) {
-          Fail("empty_formula", 0, "formula is empty");
+          Fail(codes::kEmptyFormula, 0, "formula is empty");
           issue_.column = 0;
         } else {
-          Fail("malformed_formula", pos_,
+          Fail(codes::kMalformedFormula, pos_,
                absl::StrCat("expected an element symbol at column ",
                             Column(pos_), Near(pos_)));
         }
@@ -83,7 +83,7 @@ class FormulaParser {
       for (auto& [element, count] : items) {
         Rational total;
         if (!CheckedMultiply(count, multiplier, &total)) {
-          Fail("count_too_large", part_start, "stoichiometry is too large");
+          Fail(codes::kCountTooLarge, part_start, "stoichiometry is too large");
           return Failed(error);
         }
         int& s = slot[element->atomic_number];
@@ -94,7 +94,8 @@ class FormulaParser {
           formula.amounts[s].count = formula.amounts[s].count + total;
           if (formula.amounts[s].count.num() > kMaxExactMagnitude ||
               formula.amounts[s].count.den() > kMaxExactMagnitude) {
-            Fail("count_too_large", part_start, "stoichiometry is too large");
+            Fail(codes::kCountTooLarge, part_start,
+                 "stoichiometry is too large");
             return Failed(error);
           }
         }
@@ -103,7 +104,7 @@ class FormulaParser {
       if (size_t len = SeparatorLength(pos_); len > 0) {
         pos_ += len;
         if (pos_ == text_.size()) {
-          Fail("malformed_formula", pos_ - len,
+          Fail(codes::kMalformedFormula, pos_ - len,
                absl::StrCat("nothing follows the separator at column ",
                             Column(pos_ - len)));
           return Failed(error);
@@ -112,11 +113,11 @@ class FormulaParser {
       }
       const char c = text_[pos_];
       if (c == ')' || c == ']') {
-        Fail("malformed_formula", pos_,
+        Fail(codes::kMalformedFormula, pos_,
              absl::StrCat("unmatched '", std::string(1, c), "' at column ",
                           Column(pos_)));
       } else {
-        Fail("malformed_formula", pos_, UnexpectedMessage(pos_));
+        Fail(codes::kMalformedFormula, pos_, UnexpectedMessage(pos_));
       }
       return Failed(error);
     }
@@ -191,7 +192,7 @@ class FormulaParser {
   // Returns false on error. Leaves `count` untouched if there is none.
   // `warn_hydrate` is false for the leading multiplier of a part, where a
   // separator has already been written.
-  bool ParseCount(Rational* count, bool* decimal, bool warn_hydrate = true) {
+  bool ParseCount(Rational* count, bool warn_hydrate = true) {
     const size_t start = pos_;
     int64_t integer = 0;
     int digits = 0;
@@ -230,29 +231,28 @@ class FormulaParser {
         ++pos_;
       }
       if (decimals > kMaxCountDecimals) {
-        Fail("count_too_large", start,
+        Fail(codes::kCountTooLarge, start,
              absl::StrCat("count at column ", Column(start), " has more than ",
                           kMaxCountDecimals, " decimals"));
         return false;
       }
-      *decimal = true;
       if (warn_hydrate && text_.substr(pos_, 3) == "H2O") {
         warnings_.push_back(FormulaIssue{
-            "possible_hydrate_typo", Column(dot),
+            codes::kPossibleHydrateTypo, Column(dot),
             absl::StrCat("'.' at column ", Column(dot),
                          " makes a decimal count followed by H2O; if a "
                          "hydrate was meant, write '·' or '*' instead")});
       }
     }
     if (integer > kMaxFormulaCount) {
-      Fail("count_too_large", start,
+      Fail(codes::kCountTooLarge, start,
            absl::StrCat("count at column ", Column(start), " exceeds ",
                         kMaxFormulaCount));
       return false;
     }
     *count = Rational(integer * frac_den + frac_num, frac_den);
     if (count->IsZero()) {
-      Fail("malformed_formula", start,
+      Fail(codes::kMalformedFormula, start,
            absl::StrCat("count at column ", Column(start), " is zero"));
       return false;
     }
@@ -276,15 +276,14 @@ class FormulaParser {
         const absl::string_view symbol = text_.substr(start, end - start);
         const Element* element = FindElementBySymbol(symbol);
         if (element == nullptr) {
-          Fail("unknown_element", start,
+          Fail(codes::kUnknownElement, start,
                absl::StrCat("unknown element ", QuoteForMessage(symbol),
                             " at column ", Column(start)));
           return false;
         }
         pos_ = end;
         Rational count(1);
-        bool decimal = false;
-        if (!ParseCount(&count, &decimal)) return false;
+        if (!ParseCount(&count)) return false;
         items->emplace_back(element, count);
         continue;
       }
@@ -292,7 +291,7 @@ class FormulaParser {
         const size_t open = pos_;
         const char want = c == '(' ? ')' : ']';
         if (depth + 1 > kMaxFormulaDepth) {
-          Fail("nesting_too_deep", open,
+          Fail(codes::kNestingTooDeep, open,
                absl::StrCat("groups nest deeper than ", kMaxFormulaDepth,
                             " at column ", Column(open)));
           return false;
@@ -301,24 +300,23 @@ class FormulaParser {
         Items inner;
         if (!ParseSequence(depth + 1, want, &inner)) return false;
         if (pos_ >= text_.size() || text_[pos_] != want) {
-          Fail("malformed_formula", open,
+          Fail(codes::kMalformedFormula, open,
                absl::StrCat("'", std::string(1, c), "' at column ",
                             Column(open), " is never closed"));
           return false;
         }
         if (inner.empty()) {
-          Fail("malformed_formula", open,
+          Fail(codes::kMalformedFormula, open,
                absl::StrCat("empty group at column ", Column(open)));
           return false;
         }
         ++pos_;
         Rational count(1);
-        bool decimal = false;
-        if (!ParseCount(&count, &decimal)) return false;
+        if (!ParseCount(&count)) return false;
         for (auto& [element, n] : inner) {
           Rational total;
           if (!CheckedMultiply(n, count, &total)) {
-            Fail("count_too_large", open, "stoichiometry is too large");
+            Fail(codes::kCountTooLarge, open, "stoichiometry is too large");
             return false;
           }
           items->emplace_back(element, total);
@@ -328,7 +326,7 @@ class FormulaParser {
       if (c == ')' || c == ']') {
         if (c == closer) return true;
         if (closer != '\0') {
-          Fail("malformed_formula", pos_,
+          Fail(codes::kMalformedFormula, pos_,
                absl::StrCat("'", std::string(1, c), "' at column ",
                             Column(pos_), " does not match the open '",
                             std::string(1, closer == ')' ? '(' : '['), "'"));
@@ -338,7 +336,7 @@ class FormulaParser {
       }
       if (SeparatorLength(pos_) > 0) {
         if (closer != '\0') {
-          Fail("malformed_formula", pos_,
+          Fail(codes::kMalformedFormula, pos_,
                absl::StrCat("separator at column ", Column(pos_),
                             " inside a group"));
           return false;
@@ -347,7 +345,7 @@ class FormulaParser {
       }
       if (IsLower(c)) {
         std::string upper(1, static_cast<char>(c - 'a' + 'A'));
-        Fail("malformed_formula", pos_,
+        Fail(codes::kMalformedFormula, pos_,
              absl::StrCat("lowercase '", std::string(1, c), "' at column ",
                           Column(pos_),
                           " does not start an element symbol (symbols start "
@@ -356,12 +354,12 @@ class FormulaParser {
         return false;
       }
       if (IsAsciiDigit(c) || c == '.') {
-        Fail("malformed_formula", pos_,
+        Fail(codes::kMalformedFormula, pos_,
              absl::StrCat("misplaced number at column ", Column(pos_),
                           Near(pos_)));
         return false;
       }
-      Fail("malformed_formula", pos_, UnexpectedMessage(pos_));
+      Fail(codes::kMalformedFormula, pos_, UnexpectedMessage(pos_));
       return false;
     }
     return true;
@@ -385,7 +383,7 @@ absl::StatusOr<Formula> ParseFormula(absl::string_view text,
                                      FormulaIssue* error) {
   if (text.size() > kMaxFormulaLength) {
     FormulaIssue issue{
-        "formula_too_long", 0,
+        codes::kFormulaTooLong, 0,
         absl::StrCat("formula is ", text.size(),
                      " bytes long, above the limit of ", kMaxFormulaLength)};
     if (error != nullptr) *error = issue;

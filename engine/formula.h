@@ -6,8 +6,9 @@
 //     Unicode subscript digits (Fe₂O₃);
 //   - nested groups () and [] with a count after the closing bracket:
 //     Ca3(PO4)2, K3[Fe(CN)6];
-//   - adduct or hydrate parts joined by '·' (U+00B7), '•' (U+2022) or '*',
-//     each with an optional leading multiplier: CuSO4·5H2O, NiSO4*6H2O.
+//   - adduct or hydrate parts joined by '·' (U+00B7), '•' (U+2022), '∙'
+//     (U+2219), '⋅' (U+22C5) or '*', each with an optional leading
+//     multiplier: CuSO4·5H2O, NiSO4*6H2O.
 // '.' is always a decimal point. A decimal count directly followed by H2O
 // (CuSO4.5H2O) parses as written, but earns the warning
 // "possible_hydrate_typo": the author may have meant CuSO4·5H2O.

@@ -3,7 +3,6 @@
 #include <algorithm>
 
 #include "absl/strings/str_cat.h"
-#include "engine/internal/text.h"
 
 namespace shellwright {
 namespace {
@@ -28,58 +27,6 @@ std::vector<LevelSpec> LevelsFor(Geometry g) {
 }
 
 }  // namespace
-
-absl::string_view GeometryName(Geometry g) {
-  switch (g) {
-    case Geometry::kFree:
-      return "free";
-    case Geometry::kOctahedral:
-      return "octahedral";
-    case Geometry::kTetrahedral:
-      return "tetrahedral";
-    case Geometry::kSquarePlanar:
-      return "square_planar";
-  }
-  return "free";
-}
-
-absl::string_view SpinStatePreferenceName(SpinStatePreference s) {
-  switch (s) {
-    case SpinStatePreference::kAuto:
-      return "auto";
-    case SpinStatePreference::kHigh:
-      return "high";
-    case SpinStatePreference::kLow:
-      return "low";
-  }
-  return "auto";
-}
-
-absl::string_view SpinStateName(SpinState s) {
-  return s == SpinState::kHigh ? "high" : "low";
-}
-
-absl::StatusOr<Geometry> ParseGeometry(absl::string_view text) {
-  if (text == "free") return Geometry::kFree;
-  if (text == "octahedral") return Geometry::kOctahedral;
-  if (text == "tetrahedral") return Geometry::kTetrahedral;
-  if (text == "square_planar" || text == "square-planar") {
-    return Geometry::kSquarePlanar;
-  }
-  return absl::InvalidArgumentError(absl::StrCat(
-      "unknown geometry ", internal::QuoteForMessage(text),
-      " (expected free, octahedral, tetrahedral or square_planar)"));
-}
-
-absl::StatusOr<SpinStatePreference> ParseSpinStatePreference(
-    absl::string_view text) {
-  if (text == "auto") return SpinStatePreference::kAuto;
-  if (text == "high") return SpinStatePreference::kHigh;
-  if (text == "low") return SpinStatePreference::kLow;
-  return absl::InvalidArgumentError(
-      absl::StrCat("unknown spin state ", internal::QuoteForMessage(text),
-                   " (expected auto, high or low)"));
-}
 
 SpinState ResolveSpinState(Geometry geometry, SpinStatePreference preference,
                            int n) {

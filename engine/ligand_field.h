@@ -23,6 +23,8 @@
 //   shellwright::SplitD(6, shellwright::Geometry::kOctahedral,
 //                       shellwright::SpinState::kLow);
 //   // levels t2g6 eg0, unpaired 0, Notation() "t2g6 eg0"
+//   shellwright::ParseName<shellwright::Geometry>("square_planar");
+//   shellwright::Name(shellwright::Geometry::kOctahedral);  // "octahedral"
 //
 // Thread safety: pure functions.
 
@@ -32,8 +34,8 @@
 #include <string>
 #include <vector>
 
-#include "absl/status/statusor.h"
 #include "absl/strings/string_view.h"
+#include "util/enum_names.h"
 
 namespace shellwright {
 
@@ -41,17 +43,32 @@ enum class Geometry { kFree, kOctahedral, kTetrahedral, kSquarePlanar };
 enum class SpinStatePreference { kAuto, kHigh, kLow };
 enum class SpinState { kHigh, kLow };
 
-// "free", "octahedral", "tetrahedral", "square_planar".
-absl::string_view GeometryName(Geometry g);
-// "auto", "high", "low".
-absl::string_view SpinStatePreferenceName(SpinStatePreference s);
-// "high", "low".
-absl::string_view SpinStateName(SpinState s);
-
-// Parse the names above (also "square-planar"); INVALID_ARGUMENT otherwise.
-absl::StatusOr<Geometry> ParseGeometry(absl::string_view text);
-absl::StatusOr<SpinStatePreference> ParseSpinStatePreference(
-    absl::string_view text);
+// Names for Name() / ParseName() (util/enum_names.h).
+template <>
+struct EnumNames<Geometry> {
+  static constexpr absl::string_view kWhat = "geometry";
+  static constexpr NamedValue<Geometry> kNames[] = {
+      {Geometry::kFree, "free"},
+      {Geometry::kOctahedral, "octahedral"},
+      {Geometry::kTetrahedral, "tetrahedral"},
+      {Geometry::kSquarePlanar, "square_planar"}};
+  static constexpr NamedValue<Geometry> kAliases[] = {
+      {Geometry::kSquarePlanar, "square-planar"}};
+};
+template <>
+struct EnumNames<SpinStatePreference> {
+  static constexpr absl::string_view kWhat = "spin state";
+  static constexpr NamedValue<SpinStatePreference> kNames[] = {
+      {SpinStatePreference::kAuto, "auto"},
+      {SpinStatePreference::kHigh, "high"},
+      {SpinStatePreference::kLow, "low"}};
+};
+template <>
+struct EnumNames<SpinState> {
+  static constexpr absl::string_view kWhat = "spin state";
+  static constexpr NamedValue<SpinState> kNames[] = {{SpinState::kHigh, "high"},
+                                                     {SpinState::kLow, "low"}};
+};
 
 // One split level of the d subshell.
 struct SplitLevel {

@@ -8,8 +8,9 @@
 //   saturation moment  μ_sat = |g_J| J
 //   spin moment        μ_S   = 2S
 // Moments are magnitudes: g_J itself is negative for a few terms in which L
-// outweighs S (8H3/2 has g_J = -2/5). For J = 0 the g-factor is undefined; it is reported as 0, and so are the
-// J and saturation moments, because a J = 0 level carries no moment.
+// outweighs S (8H3/2 has g_J = -2/5). For J = 0 the g-factor is undefined; it
+// is reported as 0, and so are the J and saturation moments, because a J = 0
+// level carries no moment.
 //
 // These are idealised free-ion or crystal-field estimates. Orbital
 // quenching, spin-orbit mixing, covalency and exchange all move real

@@ -57,6 +57,7 @@
 #include "engine/element.h"
 #include "engine/formula.h"
 #include "engine/rational.h"
+#include "util/enum_names.h"
 
 namespace shellwright {
 
@@ -99,6 +100,15 @@ struct OxidationAssignment {
 };
 
 enum class CompositionKind { kIonic, kMetallic, kElemental };
+
+template <>
+struct EnumNames<CompositionKind> {
+  static constexpr absl::string_view kWhat = "composition kind";
+  static constexpr NamedValue<CompositionKind> kNames[] = {
+      {CompositionKind::kIonic, "ionic"},
+      {CompositionKind::kMetallic, "metallic"},
+      {CompositionKind::kElemental, "elemental"}};
+};
 
 struct DeclaredState {
   const Element* element;

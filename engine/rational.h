@@ -1,7 +1,9 @@
-// Exact non-negative rational numbers for fractional stoichiometry.
+// Exact rational numbers for fractional stoichiometry and charges.
 //
 // Formula counts such as 0.7 or 1.25 are kept exact (7/10, 5/4) so that
-// charge balance never suffers from floating-point rounding.
+// charge balance never suffers from floating-point rounding. Values may be
+// negative (charge sums); the sign is kept in the numerator and the
+// denominator is always positive, with the fraction in lowest terms.
 //
 // Example:
 //

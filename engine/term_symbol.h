@@ -25,6 +25,7 @@
 #include "absl/status/statusor.h"
 #include "absl/strings/string_view.h"
 #include "engine/configuration.h"
+#include "util/enum_names.h"
 
 namespace shellwright {
 
@@ -33,6 +34,13 @@ namespace shellwright {
 inline constexpr absl::string_view kTermLetters = "SPDFGHIKLMNOQRTUV";
 
 enum class Parity { kEven, kOdd };
+
+template <>
+struct EnumNames<Parity> {
+  static constexpr absl::string_view kWhat = "parity";
+  static constexpr NamedValue<Parity> kNames[] = {{Parity::kEven, "even"},
+                                                  {Parity::kOdd, "odd"}};
+};
 
 struct TermSymbol {
   int two_s = 0;  // 2S: 0 for a singlet, 1 for a doublet, ...

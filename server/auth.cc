@@ -1,43 +1,18 @@
 #include "server/auth.h"
 
 #include <algorithm>
-#include <fstream>
 #include <utility>
 
 #include "absl/strings/ascii.h"
 #include "absl/strings/match.h"
 #include "absl/strings/str_cat.h"
 #include "grpcpp/security/server_credentials.h"
+#include "util/small_file.h"
 
 namespace shellwright {
 namespace {
 
 constexpr absl::string_view kBearerPrefix = "Bearer ";
-
-absl::StatusOr<std::string> ReadWholeFile(const std::string& path,
-                                          absl::string_view what) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) {
-    return absl::InvalidArgumentError(
-        absl::StrCat("cannot read ", what, " file '", path, "'"));
-  }
-  std::string text;
-  // Read one byte past the limit so an oversized file is detected without
-  // reading all of it.
-  text.resize(kMaxCredentialFileBytes + 1);
-  in.read(text.data(), static_cast<std::streamsize>(text.size()));
-  if (in.bad()) {
-    return absl::InvalidArgumentError(
-        absl::StrCat("cannot read ", what, " file '", path, "'"));
-  }
-  text.resize(static_cast<size_t>(in.gcount()));
-  if (text.size() > kMaxCredentialFileBytes) {
-    return absl::InvalidArgumentError(
-        absl::StrCat(what, " file '", path, "' is larger than ",
-                     kMaxCredentialFileBytes, " bytes"));
-  }
-  return text;
-}
 
 }  // namespace
 
@@ -52,40 +27,6 @@ bool ConstantTimeEquals(absl::string_view a, absl::string_view b) {
     diff = diff | static_cast<unsigned char>(x ^ y);
   }
   return diff == 0;
-}
-
-absl::StatusOr<std::string> ReadTokenFile(const std::string& path) {
-  absl::StatusOr<std::string> text = ReadWholeFile(path, "token");
-  if (!text.ok()) return text.status();
-  std::string token = std::move(*text);
-  while (!token.empty() &&
-         absl::ascii_isspace(static_cast<unsigned char>(token.back()))) {
-    token.pop_back();
-  }
-  if (token.empty()) {
-    return absl::InvalidArgumentError(
-        absl::StrCat("token file '", path, "' is empty"));
-  }
-  for (char c : token) {
-    // Metadata values are printable ASCII; a token with anything else could
-    // never be sent by a client, so refuse it up front.
-    if (c < 0x21 || c > 0x7e) {
-      return absl::InvalidArgumentError(absl::StrCat(
-          "token file '", path,
-          "' holds characters other than printable ASCII without spaces"));
-    }
-  }
-  return token;
-}
-
-absl::StatusOr<std::string> ReadPemFile(const std::string& path) {
-  absl::StatusOr<std::string> text = ReadWholeFile(path, "PEM");
-  if (!text.ok()) return text.status();
-  if (!absl::StrContains(*text, "-----BEGIN ")) {
-    return absl::InvalidArgumentError(
-        absl::StrCat("file '", path, "' holds no PEM block"));
-  }
-  return text;
 }
 
 BearerTokenVerifier::BearerTokenVerifier(std::string token)
@@ -118,13 +59,14 @@ absl::StatusOr<std::shared_ptr<grpc::ServerCredentials>> MakeServerCredentials(
   if (files.cert_file.empty() && files.key_file.empty()) {
     if (!files.client_ca_file.empty()) {
       return absl::InvalidArgumentError(
-          "--tls-client-ca needs --tls-cert and --tls-key");
+          "cert_file: missing; client_ca_file needs cert_file and key_file");
     }
     return grpc::InsecureServerCredentials();
   }
   if (files.cert_file.empty() || files.key_file.empty()) {
     return absl::InvalidArgumentError(
-        "--tls-cert and --tls-key must be given together");
+        absl::StrCat(files.cert_file.empty() ? "cert_file" : "key_file",
+                     ": missing; cert_file and key_file go together"));
   }
   absl::StatusOr<std::string> cert = ReadPemFile(files.cert_file);
   if (!cert.ok()) return cert.status();

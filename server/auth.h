@@ -1,16 +1,15 @@
 // Who may call shellwrightd: bearer-token checks on call metadata and the
 // TLS (optionally mutual TLS) credentials the server listens with.
 //
-// A token is configured by file only, never on the command line, so it does
-// not show in `ps` or shell history. Clients send it as the metadata entry
+// A token is configured by file only (read with util/small_file.h's
+// ReadTokenFile), never on the command line, so it does not show in `ps` or
+// shell history. Clients send it as the metadata entry
 // `authorization: Bearer <token>`; the comparison takes time independent of
 // where a wrong token differs. Tokens are never logged.
 //
 // Example:
 //
-//   absl::StatusOr<std::string> token =
-//       shellwright::ReadTokenFile("/etc/shellwright/token");
-//   shellwright::BearerTokenVerifier verifier(*token);
+//   shellwright::BearerTokenVerifier verifier(token);
 //   grpc::Status s = verifier.Check(context->client_metadata());
 //   // s.error_code() == grpc::StatusCode::UNAUTHENTICATED unless the
 //   // call carried "authorization: Bearer <token>".
@@ -37,22 +36,9 @@
 
 namespace shellwright {
 
-// Largest token or PEM file read, in bytes.
-inline constexpr size_t kMaxCredentialFileBytes = 1 << 20;
-
 // Compares `a` and `b` in time that depends only on their lengths, never on
 // their contents.
 bool ConstantTimeEquals(absl::string_view a, absl::string_view b);
-
-// Reads a bearer token: the whole file with trailing whitespace removed.
-// INVALID_ARGUMENT (naming the file, never the contents) when the file is
-// unreadable, empty, over kMaxCredentialFileBytes, or holds characters that
-// cannot appear in a metadata value (anything but printable ASCII).
-absl::StatusOr<std::string> ReadTokenFile(const std::string& path);
-
-// Reads a PEM file. INVALID_ARGUMENT naming the file when it is unreadable,
-// over kMaxCredentialFileBytes, or holds no "-----BEGIN" block.
-absl::StatusOr<std::string> ReadPemFile(const std::string& path);
 
 // Checks the `authorization` metadata of a call against one token.
 class BearerTokenVerifier {
@@ -88,7 +74,8 @@ struct TlsFiles {
 // Insecure credentials when `files` is all empty; TLS credentials when
 // cert_file and key_file are set; mutual TLS (client certificates required
 // and verified) when client_ca_file is set too. INVALID_ARGUMENT for any
-// other combination or an unreadable file.
+// other combination (the message starts with the TlsFiles field at fault,
+// "key_file: ...") or an unreadable file (the message names the file).
 absl::StatusOr<std::shared_ptr<grpc::ServerCredentials>> MakeServerCredentials(
     const TlsFiles& files);
 

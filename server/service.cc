@@ -1,7 +1,5 @@
 #include "server/service.h"
 
-#include <unistd.h>
-
 #include <algorithm>
 #include <atomic>
 #include <chrono>
@@ -21,12 +19,13 @@
 #include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
 #include "absl/time/clock.h"
+#include "api/atoms.h"
+#include "api/records.h"
 #include "google/protobuf/io/coded_stream.h"
 #include "google/protobuf/stubs/logging.h"
 #include "grpcpp/ext/proto_server_reflection_plugin.h"
 #include "grpcpp/health_check_service_interface.h"
-#include "server/convert.h"
-#include "server/records.h"
+#include "util/small_file.h"
 
 namespace shellwright {
 namespace internal {
@@ -163,22 +162,6 @@ namespace {
 // Helpers.
 
 constexpr char kInternalMessage[] = "internal error";
-
-std::atomic<int> log_level{static_cast<int>(LogLevel::kInfo)};
-
-absl::string_view LevelName(LogLevel level) {
-  switch (level) {
-    case LogLevel::kError:
-      return "error";
-    case LogLevel::kWarning:
-      return "warning";
-    case LogLevel::kInfo:
-      return "info";
-    case LogLevel::kDebug:
-      return "debug";
-  }
-  return "info";
-}
 
 absl::string_view CodeName(grpc::StatusCode code) {
   // grpc and absl codes are the same numbers.
@@ -332,9 +315,9 @@ void ProtobufLogHandler(google::protobuf::LogLevel level, const char* filename,
   Log(ours, absl::StrCat("protobuf: ", absl::CEscape(message)));
 }
 
-// DescribeAtomsMessage item by item, stopping early once `watch` says the
-// call is over. Each item goes through DescribeAtomsMessage so the item
-// results stay exactly those of the in-process translation.
+// DescribeAtoms item by item, stopping early once `watch` says the call is
+// over. Each item is answered by DescribeAtomItem, as in
+// DescribeAtomsMessage, so the results are those of the in-process API.
 grpc::Status DescribeAtomsWatched(const CallWatch& watch,
                                   const v1::DescribeAtomsRequest& request,
                                   v1::DescribeAtomsResponse* response) {
@@ -343,17 +326,9 @@ grpc::Status DescribeAtomsWatched(const CallWatch& watch,
     return ToGrpcStatus(DescribeAtomsMessage(request, response));
   }
   response->Clear();
-  v1::DescribeAtomsRequest one;
-  v1::DescribeAtomsResponse answer;
   for (const v1::DescribeAtomRequest& item : request.requests()) {
     if (grpc::Status s = watch.Check(); !s.ok()) return s;
-    one.clear_requests();
-    *one.add_requests() = item;
-    if (grpc::Status s = ToGrpcStatus(DescribeAtomsMessage(one, &answer));
-        !s.ok()) {
-      return s;
-    }
-    response->add_results()->Swap(answer.mutable_results(0));
+    DescribeAtomItem(item, response->add_results());
   }
   return grpc::Status::OK;
 }
@@ -489,7 +464,7 @@ class RecordStreamReactor final
           if (grpc::Status s = Interrupted(); !s.ok()) return s;
         }
         v1::RecordReport* report = reply_.add_reports();
-        AnalyzeRecordMessage(batch_.records(next_record_), report);
+        AnalyzeRecord(batch_.records(next_record_), report);
         ++records_;
         const size_t report_bytes = ReportFieldBytes(*report);
         if (bytes + report_bytes > kMaxReportBatchBytes &&
@@ -543,40 +518,7 @@ class RecordStreamReactor final
 }  // namespace
 
 // ---------------------------------------------------------------------------
-// Logging and status mapping.
-
-absl::StatusOr<LogLevel> ParseLogLevel(absl::string_view name) {
-  for (LogLevel level : {LogLevel::kError, LogLevel::kWarning, LogLevel::kInfo,
-                         LogLevel::kDebug}) {
-    if (name == LevelName(level)) return level;
-  }
-  return absl::InvalidArgumentError(
-      absl::StrCat("log level must be error, warning, info or debug, got '",
-                   absl::CEscape(name), "'"));
-}
-
-void SetLogLevel(LogLevel level) {
-  log_level.store(static_cast<int>(level), std::memory_order_relaxed);
-}
-
-bool LogEnabled(LogLevel level) {
-  return static_cast<int>(level) <= log_level.load(std::memory_order_relaxed);
-}
-
-void Log(LogLevel level, absl::string_view line) {
-  if (!LogEnabled(level)) return;
-  const std::string text =
-      absl::StrCat(absl::FormatTime("%Y-%m-%dT%H:%M:%E6SZ", absl::Now(),
-                                    absl::UTCTimeZone()),
-                   " ", LevelName(level), " ", line, "\n");
-  // One write per line keeps concurrent lines from interleaving.
-  size_t done = 0;
-  while (done < text.size()) {
-    ssize_t n = ::write(STDERR_FILENO, text.data() + done, text.size() - done);
-    if (n <= 0) break;
-    done += static_cast<size_t>(n);
-  }
-}
+// Status mapping.
 
 grpc::Status ToGrpcStatus(const absl::Status& status) {
   if (status.ok()) return grpc::Status::OK;
@@ -668,7 +610,7 @@ grpc::ServerUnaryReactor* ElectronStructureImpl::AnalyzeCompound(
     grpc::CallbackServerContext* context, const v1::CompositionRecord* request,
     v1::RecordReport* response) {
   return ServeUnary(context, "AnalyzeCompound", [&] {
-    AnalyzeRecordMessage(*request, response);
+    AnalyzeRecord(*request, response);
     return grpc::Status::OK;
   });
 }
@@ -684,7 +626,7 @@ ElectronStructureImpl::AnalyzeRecords(grpc::CallbackServerContext* context) {
 absl::Status ValidateListenAddress(absl::string_view listen) {
   const auto bad = [listen](absl::string_view problem) {
     return absl::InvalidArgumentError(
-        absl::StrCat("--listen '", absl::CEscape(listen), "': ", problem));
+        absl::StrCat("'", absl::CEscape(listen), "': ", problem));
   };
   if (listen.empty()) return bad("empty; expected HOST:PORT");
   if (IsUnixSocketAddress(listen)) {
@@ -723,22 +665,21 @@ absl::Status ValidateListenAddress(absl::string_view listen) {
 absl::StatusOr<std::unique_ptr<ShellwrightServer>> ShellwrightServer::Start(
     const ServerOptions& options) {
   if (absl::Status s = ValidateListenAddress(options.listen); !s.ok()) {
-    return s;
+    return absl::InvalidArgumentError(absl::StrCat("listen: ", s.message()));
   }
   if (options.max_message_bytes <= 0) {
     return absl::InvalidArgumentError(
-        "--max-message-bytes must be a positive number of bytes");
+        "max_message_bytes: must be a positive number of bytes");
   }
   if (options.max_concurrent_streams < 0) {
     return absl::InvalidArgumentError(
-        "--max-concurrent-streams must be 0 (gRPC default) or positive");
+        "max_concurrent_streams: must be 0 (gRPC default) or positive");
   }
   if (options.idle_timeout <= absl::ZeroDuration()) {
-    return absl::InvalidArgumentError("the idle timeout must be positive");
+    return absl::InvalidArgumentError("idle_timeout: must be positive");
   }
   if (options.keepalive_interval <= absl::ZeroDuration()) {
-    return absl::InvalidArgumentError(
-        "the keepalive interval must be positive");
+    return absl::InvalidArgumentError("keepalive_interval: must be positive");
   }
   absl::StatusOr<std::shared_ptr<grpc::ServerCredentials>> credentials =
       MakeServerCredentials(options.tls);

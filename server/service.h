@@ -1,10 +1,11 @@
 // The shellwright.v1.ElectronStructure gRPC service and the server that
 // hosts it, shared by shellwrightd and the in-process server tests.
 //
-// The service only translates: requests go through server/convert.h and
-// server/records.h, absl::Status codes map one-to-one onto grpc::Status
-// codes, and internal errors reach clients only as a generic message. Each
-// call is logged as one line at info level; tokens are never logged.
+// The service only translates: requests are answered by the api/ layer
+// (api/atoms.h, api/records.h), absl::Status codes map one-to-one onto
+// grpc::Status codes, and internal errors reach clients only as a generic
+// message. Each call is logged (server/logging.h) as one line at info
+// level; tokens are never logged.
 //
 // Example:
 //
@@ -33,27 +34,10 @@
 #include "absl/time/time.h"
 #include "grpcpp/grpcpp.h"
 #include "server/auth.h"
+#include "server/logging.h"
 #include "shellwright/v1/electron_structure.grpc.pb.h"
 
 namespace shellwright {
-
-// ---------------------------------------------------------------------------
-// Logging: one process-wide level, lines written whole to stderr.
-
-enum class LogLevel { kError = 0, kWarning = 1, kInfo = 2, kDebug = 3 };
-
-// "error", "warning", "info" or "debug"; INVALID_ARGUMENT otherwise.
-absl::StatusOr<LogLevel> ParseLogLevel(absl::string_view name);
-
-// Sets the most verbose level written; the default is kInfo.
-void SetLogLevel(LogLevel level);
-
-// True when lines at `level` are written.
-bool LogEnabled(LogLevel level);
-
-// Writes "<UTC time> <level> <line>\n" to stderr in one write when `level`
-// is enabled.
-void Log(LogLevel level, absl::string_view line);
 
 // ---------------------------------------------------------------------------
 // Status mapping.
@@ -66,10 +50,6 @@ grpc::Status ToGrpcStatus(const absl::Status& status);
 
 // ---------------------------------------------------------------------------
 // The service.
-
-// Most records accepted in one RecordBatch; a larger batch ends the stream
-// with INVALID_ARGUMENT (it is the client's framing, not a bad record).
-inline constexpr int kMaxRecordsPerBatch = 10000;
 
 // Largest ReportBatch the service writes, in bytes: a default gRPC client
 // receives at most 4 MiB per message, so the answer to a RecordBatch whose
@@ -151,7 +131,7 @@ class ElectronStructureImpl final
 // OK when `listen` is an address to serve on: HOST:PORT with a non-empty
 // HOST (an IPv6 one in brackets, "[::1]:50051") and PORT decimal 0..65535,
 // or "unix:PATH" / "unix-abstract:NAME", passed to gRPC unchanged.
-// Otherwise INVALID_ARGUMENT naming --listen and the problem.
+// Otherwise INVALID_ARGUMENT quoting the address and naming the problem.
 absl::Status ValidateListenAddress(absl::string_view listen);
 
 struct ServerOptions {
@@ -180,7 +160,9 @@ struct ServerOptions {
 class ShellwrightServer {
  public:
   // Reads credential files, binds and starts serving. INVALID_ARGUMENT for
-  // bad options or files; UNAVAILABLE when the address cannot be bound.
+  // bad options or files, its message starting with the ServerOptions
+  // field at fault ("listen: ...", "key_file: ..."); UNAVAILABLE when the
+  // address cannot be bound.
   static absl::StatusOr<std::unique_ptr<ShellwrightServer>> Start(
       const ServerOptions& options);
 

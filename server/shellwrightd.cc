@@ -32,7 +32,9 @@
 #include "absl/strings/str_cat.h"
 #include "absl/synchronization/notification.h"
 #include "absl/time/time.h"
+#include "server/logging.h"
 #include "server/service.h"
+#include "util/field_names.h"
 
 namespace shellwright {
 namespace {
@@ -65,6 +67,17 @@ constexpr char kUsage[] = R"(usage: shellwrightd [options]
   --log-level LEVEL           error | warning | info (default) | debug
   --help                      print this text
 )";
+
+// The flags that set each ServerOptions field, for messages.
+constexpr FieldName kFlagNames[] = {
+    {"listen", "--listen"},
+    {"cert_file", "--tls-cert"},
+    {"key_file", "--tls-key"},
+    {"client_ca_file", "--tls-client-ca"},
+    {"max_message_bytes", "--max-message-bytes"},
+    {"max_concurrent_streams", "--max-concurrent-streams"},
+    {"idle_timeout", "--idle-timeout"},
+    {"keepalive_interval", "--keepalive"}};
 
 struct Flags {
   ServerOptions server;
@@ -106,7 +119,7 @@ int ParseFlags(int argc, char** argv, Flags* flags) {
   for (const auto& [name, value] : values) {
     if (name == "listen") {
       if (absl::Status s = ValidateListenAddress(value); !s.ok()) {
-        return Usage(std::string(s.message()));
+        return Usage(absl::StrCat("--listen ", s.message()));
       }
       flags->server.listen = value;
     } else if (name == "tls-cert") {
@@ -148,7 +161,7 @@ int ParseFlags(int argc, char** argv, Flags* flags) {
       }
       flags->shutdown_grace = absl::Seconds(seconds);
     } else if (name == "log-level") {
-      absl::StatusOr<LogLevel> level = ParseLogLevel(value);
+      absl::StatusOr<LogLevel> level = ParseName<LogLevel>(value);
       if (!level.ok()) return Usage(std::string(level.status().message()));
       flags->log_level = *level;
     } else if (name == "auth-token" || name == "token") {
@@ -182,10 +195,13 @@ int RunServer(const Flags& flags, const sigset_t& signals) {
   absl::StatusOr<std::unique_ptr<ShellwrightServer>> server =
       ShellwrightServer::Start(flags.server);
   if (!server.ok()) {
+    // Only a caller error names option fields.
+    if (server.status().code() == absl::StatusCode::kInvalidArgument) {
+      Log(LogLevel::kError, RenameField(server.status().message(), kFlagNames));
+      return kExitUsage;
+    }
     Log(LogLevel::kError, server.status().message());
-    return server.status().code() == absl::StatusCode::kInvalidArgument
-               ? kExitUsage
-               : kExitCannotServe;
+    return kExitCannotServe;
   }
   std::cout << "shellwrightd listening on " << (*server)->address()
             << std::endl;

@@ -4,6 +4,7 @@
 
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
+#include "api/caution.h"
 #include "engine/atom.h"
 #include "google/protobuf/util/json_util.h"
 

@@ -22,12 +22,6 @@
 
 namespace shellwright::cli {
 
-// The one-line caution printed under every moment estimate.
-inline constexpr char kMomentCaution[] =
-    "Caution: moments and spin states are idealised free-ion or "
-    "crystal-field estimates; verify them against measurement before "
-    "relying on them.";
-
 // JSON with proto field names and every default-valued primitive field
 // printed, so consumers get stable keys. `pretty` adds indentation.
 std::string ToJson(const google::protobuf::Message& message, bool pretty);

@@ -2,14 +2,14 @@
 
 #include <chrono>
 #include <deque>
-#include <fstream>
 #include <mutex>
-#include <sstream>
 
 #include "absl/strings/str_cat.h"
+#include "api/atoms.h"
+#include "api/records.h"
 #include "grpcpp/grpcpp.h"
-#include "server/convert.h"
 #include "shellwright/v1/electron_structure.grpc.pb.h"
+#include "util/small_file.h"
 
 namespace shellwright::cli {
 namespace {
@@ -26,7 +26,7 @@ class InProcessBackend final : public Backend {
   }
   absl::Status AnalyzeCompound(const v1::CompositionRecord& record,
                                v1::RecordReport* report) override {
-    AnalyzeRecordToReport(record, report);
+    AnalyzeRecord(record, report);
     return absl::OkStatus();
   }
 };
@@ -138,28 +138,6 @@ class RemoteBackend final : public Backend {
 
 }  // namespace
 
-absl::StatusOr<std::string> ReadSmallFile(const std::string& path, bool trim) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) {
-    return absl::InvalidArgumentError(
-        absl::StrCat("cannot read file '", path, "'"));
-  }
-  std::ostringstream buf;
-  buf << in.rdbuf();
-  std::string text = buf.str();
-  if (text.size() > (1 << 20)) {
-    return absl::InvalidArgumentError(
-        absl::StrCat("file '", path, "' is larger than 1 MiB"));
-  }
-  if (trim) {
-    while (!text.empty() &&
-           (text.back() == '\n' || text.back() == '\r' || text.back() == ' ')) {
-      text.pop_back();
-    }
-  }
-  return text;
-}
-
 std::unique_ptr<Backend> MakeInProcessBackend() {
   return std::make_unique<InProcessBackend>();
 }
@@ -170,17 +148,14 @@ absl::StatusOr<std::unique_ptr<Backend>> MakeRemoteBackend(
   if (!options.tls_ca_file.empty() || !options.tls_cert_file.empty()) {
     grpc::SslCredentialsOptions ssl;
     if (!options.tls_ca_file.empty()) {
-      absl::StatusOr<std::string> ca =
-          ReadSmallFile(options.tls_ca_file, false);
+      absl::StatusOr<std::string> ca = ReadPemFile(options.tls_ca_file);
       if (!ca.ok()) return ca.status();
       ssl.pem_root_certs = *ca;
     }
     if (!options.tls_cert_file.empty() || !options.tls_key_file.empty()) {
-      absl::StatusOr<std::string> cert =
-          ReadSmallFile(options.tls_cert_file, false);
+      absl::StatusOr<std::string> cert = ReadPemFile(options.tls_cert_file);
       if (!cert.ok()) return cert.status();
-      absl::StatusOr<std::string> key =
-          ReadSmallFile(options.tls_key_file, false);
+      absl::StatusOr<std::string> key = ReadPemFile(options.tls_key_file);
       if (!key.ok()) return key.status();
       ssl.pem_cert_chain = *cert;
       ssl.pem_private_key = *key;
@@ -191,7 +166,7 @@ absl::StatusOr<std::unique_ptr<Backend>> MakeRemoteBackend(
   }
   std::string token;
   if (!options.token_file.empty()) {
-    absl::StatusOr<std::string> t = ReadSmallFile(options.token_file, true);
+    absl::StatusOr<std::string> t = ReadTokenFile(options.token_file);
     if (!t.ok()) return t.status();
     token = *t;
   }

@@ -68,13 +68,10 @@ struct RemoteOptions {
   absl::Duration stream_timeout = absl::Hours(24);
 };
 
-// Connects lazily; a bad file path gives INVALID_ARGUMENT naming the file.
+// Connects lazily. Credential files are read here (util/small_file.h): an
+// unreadable or malformed one gives INVALID_ARGUMENT naming the file.
 absl::StatusOr<std::unique_ptr<Backend>> MakeRemoteBackend(
     const RemoteOptions& options);
-
-// Reads a whole small file (certificates, tokens). Trailing newlines are
-// stripped when `trim` is set.
-absl::StatusOr<std::string> ReadSmallFile(const std::string& path, bool trim);
 
 }  // namespace shellwright::cli
 

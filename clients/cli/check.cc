@@ -18,9 +18,10 @@
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
 #include "absl/time/clock.h"
+#include "api/caution.h"
+#include "api/records.h"
 #include "clients/cli/record_io.h"
 #include "clients/cli/report_lines.h"
-#include "server/convert.h"
 
 namespace shellwright::cli {
 namespace {
@@ -224,6 +225,12 @@ void Emit(RecordFormat output, const CompositionReport& r,
       [](const Diagnostic& d) -> const std::string& { return d.code; }, b);
 }
 
+v1::RecordReport MalformedReport(const ParsedLine& line) {
+  v1::RecordReport report;
+  MalformedRecordReport(line.record, line.error, &report);
+  return report;
+}
+
 // Drops a formatted batch's input, records and replies.
 void Release(Batch* b) {
   std::string().swap(b->lines);
@@ -248,9 +255,7 @@ std::string FormatSummary(const CheckSummary& s) {
   for (const auto& [code, count] : s.by_code) {
     absl::StrAppendFormat(&out, "  %-36s %d\n", code, count);
   }
-  out +=
-      "Moments and spin states are idealised estimates; verify them "
-      "against measurement.\n";
+  absl::StrAppend(&out, kMomentCaution, "\n");
   return out;
 }
 
@@ -403,7 +408,7 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
                    AnalyzeComposition(CompositionInputFromProto(item.record)),
                    item.record, &*b);
             } else {
-              Emit(out_format, MalformedRecordReport(item), &*b);
+              Emit(out_format, MalformedReport(item), &*b);
             }
           }
           Release(&*b);
@@ -459,7 +464,7 @@ absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
             if (item.error.empty()) {
               Emit(out_format, b->reply.reports(k++), &*b);
             } else {
-              Emit(out_format, MalformedRecordReport(item), &*b);
+              Emit(out_format, MalformedReport(item), &*b);
             }
           }
           Release(&*b);

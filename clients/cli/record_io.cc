@@ -5,69 +5,27 @@
 #include <set>
 
 #include "absl/strings/ascii.h"
-#include "absl/strings/match.h"
 #include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
-#include "absl/strings/str_format.h"
-#include "absl/strings/str_join.h"
 #include "absl/strings/strip.h"
-#include "clients/cli/atom_format.h"
-#include "engine/composition.h"
 #include "google/protobuf/util/json_util.h"
+#include "util/utf8.h"
 
 namespace shellwright::cli {
 namespace {
 
+// At most `n` bytes of `text` for a message, cut at a character boundary.
 std::string Clip(absl::string_view text, size_t n = 40) {
-  std::string out(text.substr(0, n));
-  if (text.size() > n) out += "...";
+  std::string out(Utf8Prefix(text, n));
+  if (text.size() > out.size()) out += "...";
   return out;
-}
-
-// Replaces bytes that are not valid UTF-8 with U+FFFD: proto strings must
-// be UTF-8, and a record id must survive the round trip as text.
-void SanitizeUtf8(std::string* s) {
-  size_t i = 0;
-  while (i < s->size() && static_cast<unsigned char>((*s)[i]) < 0x80) ++i;
-  if (i == s->size()) return;  // ASCII fast path.
-  std::string out(s->data(), i);
-  while (i < s->size()) {
-    const unsigned char c = static_cast<unsigned char>((*s)[i]);
-    size_t len = 0;
-    if (c < 0x80) {
-      len = 1;
-    } else if (c >= 0xC2 && c <= 0xDF) {
-      len = 2;
-    } else if (c >= 0xE0 && c <= 0xEF) {
-      len = 3;
-    } else if (c >= 0xF0 && c <= 0xF4) {
-      len = 4;
-    }
-    bool ok = len > 0 && i + len <= s->size();
-    for (size_t k = 1; ok && k < len; ++k) {
-      ok = (static_cast<unsigned char>((*s)[i + k]) & 0xC0) == 0x80;
-    }
-    if (ok && len >= 3) {
-      const unsigned char c1 = static_cast<unsigned char>((*s)[i + 1]);
-      ok = !(c == 0xE0 && c1 < 0xA0) && !(c == 0xED && c1 >= 0xA0) &&
-           !(c == 0xF0 && c1 < 0x90) && !(c == 0xF4 && c1 >= 0x90);
-    }
-    if (ok) {
-      out.append(*s, i, len);
-      i += len;
-    } else {
-      out.append("\xEF\xBF\xBD");
-      ++i;
-    }
-  }
-  *s = std::move(out);
 }
 
 // The first line of a protobuf JSON parse error, without the caret dump.
 std::string FirstLine(absl::string_view message) {
   const size_t nl = message.find('\n');
   std::string out(message.substr(0, nl));
-  SanitizeUtf8(&out);
+  ReplaceInvalidUtf8(&out);
   return out;
 }
 
@@ -92,13 +50,6 @@ bool LineSource::Fill() {
 }
 
 bool LineSource::Next(std::string* line, int* line_no, bool* too_long) {
-  if (!pending_.empty()) {
-    *line = std::move(pending_.back().line);
-    *line_no = pending_.back().line_no;
-    *too_long = pending_.back().too_long;
-    pending_.pop_back();
-    return true;
-  }
   line->clear();
   *too_long = false;
   bool any = false;
@@ -130,10 +81,6 @@ bool LineSource::Next(std::string* line, int* line_no, bool* too_long) {
   return true;
 }
 
-void LineSource::PushBack(std::string line, int line_no, bool too_long) {
-  pending_.push_back(Pending{std::move(line), line_no, too_long});
-}
-
 ParsedLine TooLongLine(absl::string_view prefix, int row, bool csv_id_first) {
   ParsedLine p;
   p.record.set_row(row);
@@ -143,7 +90,7 @@ ParsedLine TooLongLine(absl::string_view prefix, int row, bool csv_id_first) {
     if (comma != absl::string_view::npos && comma <= 256 &&
         prefix.substr(0, comma).find('"') == absl::string_view::npos) {
       std::string id(prefix.substr(0, comma));
-      SanitizeUtf8(&id);
+      ReplaceInvalidUtf8(&id);
       p.record.set_id(std::move(id));
     }
   }
@@ -203,7 +150,7 @@ bool SplitCsvLine(absl::string_view line, std::vector<std::string>* fields,
     }
     field.append(line.data() + i, end - i);
     i = end;
-    SanitizeUtf8(&field);
+    ReplaceInvalidUtf8(&field);
     if (i >= line.size()) break;
     ++i;  // The comma.
   }
@@ -267,13 +214,12 @@ ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) {
   }
   if (!SplitCsvLine(line, &fields_, &error)) {
     p.error = error;
-    p.unterminated_quote = absl::StartsWith(error, "unterminated quote");
     // Recover the id when the damage is later in the line.
     const size_t comma = line.find(',');
     if (id_is_first_column() && comma != absl::string_view::npos &&
         line.substr(0, comma).find('"') == absl::string_view::npos) {
       std::string id(line.substr(0, comma));
-      SanitizeUtf8(&id);
+      ReplaceInvalidUtf8(&id);
       p.record.set_id(std::move(id));
     }
     return p;
@@ -343,7 +289,7 @@ ParsedLine ParseJsonLine(absl::string_view line, int row) {
     // Proto strings must be UTF-8: repair the text first, so that a bad
     // byte costs one U+FFFD, not the record.
     std::string text(line);
-    SanitizeUtf8(&text);
+    ReplaceInvalidUtf8(&text);
     google::protobuf::util::JsonParseOptions options;
     options.ignore_unknown_fields = true;
     auto status =
@@ -359,19 +305,6 @@ ParsedLine ParseJsonLine(absl::string_view line, int row) {
   }
   p.record.set_row(row);
   return p;
-}
-
-v1::RecordReport MalformedRecordReport(const ParsedLine& line) {
-  v1::RecordReport r;
-  r.set_id(std::string(Utf8Prefix(line.record.id(), kMaxRecordIdLength)));
-  r.set_row(line.record.row());
-  r.set_formula(line.record.formula().substr(0, 1024));
-  r.set_valid(false);
-  v1::Diagnostic* d = r.add_diagnostics();
-  d->set_severity("error");
-  d->set_code("malformed_record");
-  d->set_message(absl::StrCat("row ", line.record.row(), ": ", line.error));
-  return r;
 }
 
 }  // namespace shellwright::cli

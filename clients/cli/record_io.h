@@ -16,8 +16,9 @@
 //     (proto field names; unknown fields ignored). Empty lines are skipped.
 // A line that cannot be read (bad quoting, wrong field count, a value that
 // is not a number, broken JSON, longer than kMaxLineBytes) becomes an error
-// report with code "malformed_record", so every non-empty input line gets
-// exactly one output line. Invalid UTF-8 becomes U+FFFD.
+// report with code "malformed_record" (api/records.h's
+// MalformedRecordReport), so every non-empty input line gets exactly one
+// output line. Invalid UTF-8 becomes U+FFFD.
 // Row numbers are physical line numbers, 1-based (a CSV header is line 1).
 //
 // Example:
@@ -60,8 +61,6 @@ class LineSource {
 
   // False at the end of the input (or on a read error; see bad()).
   bool Next(std::string* line, int* line_no, bool* too_long);
-  // Returns a line read ahead; lines come back last-in first-out.
-  void PushBack(std::string line, int line_no, bool too_long);
 
   int64_t bytes_read() const { return bytes_read_; }
   bool bad() const { return in_->bad(); }
@@ -76,18 +75,11 @@ class LineSource {
   int line_no_ = 0;
   int64_t bytes_read_ = 0;
   bool at_start_ = true;
-  struct Pending {
-    std::string line;
-    int line_no;
-    bool too_long;
-  };
-  std::vector<Pending> pending_;
 };
 
 struct ParsedLine {
-  v1::CompositionRecord record;     // row and whatever could be read.
-  std::string error;                // Non-empty for a malformed line.
-  bool unterminated_quote = false;  // CSV: a quoted field runs past the end.
+  v1::CompositionRecord record;  // row and whatever could be read.
+  std::string error;             // Non-empty for a malformed line.
 };
 
 // Splits one CSV line. Returns false with `error` set on bad quoting.
@@ -131,9 +123,6 @@ ParsedLine ParseJsonLine(absl::string_view line, int row);
 // The error for a line cut at kMaxLineBytes; for CSV, the id is recovered
 // from the start of the line when it is the first column.
 ParsedLine TooLongLine(absl::string_view prefix, int row, bool csv_id_first);
-
-// The error report for a malformed line.
-v1::RecordReport MalformedRecordReport(const ParsedLine& line);
 
 }  // namespace shellwright::cli
 

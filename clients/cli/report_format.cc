@@ -2,7 +2,7 @@
 
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
-#include "clients/cli/atom_format.h"
+#include "api/caution.h"
 
 namespace shellwright::cli {
 namespace {

@@ -8,8 +8,8 @@
 
 #include "absl/strings/str_cat.h"
 #include "absl/strings/string_view.h"
+#include "api/records.h"
 #include "clients/cli/fast_json.h"
-#include "server/convert.h"
 
 namespace shellwright::cli {
 namespace {
@@ -153,7 +153,7 @@ ReportFields FieldsOf(const CompositionReport& r,
       r.id, r.valid, record.row(), EchoedFormula(record), "", 0, 0, 0, 0, 0,
       0,    0};
   if (!r.assignment.has_value()) return f;
-  f.kind = CompositionKindName(r.kind);
+  f.kind = Name(r.kind);
   f.score = r.assignment->score;
   f.unpaired = r.unpaired_per_formula_unit;
   f.effective_moment = r.effective_moment_per_formula_unit;
@@ -497,7 +497,7 @@ void AppendReportLine(ReportLineFormat format, const CompositionReport& r,
   const bool assigned = r.assignment.has_value();
   auto diagnostics = [&r](auto visit) {
     for (const Diagnostic& d : r.diagnostics) {
-      visit(SeverityName(d.severity), d.code, d.message, d.column);
+      visit(Name(d.severity), d.code, d.message, d.column);
     }
   };
   if (format == ReportLineFormat::kCsv) {

@@ -34,8 +34,8 @@ std::string ReportCsvHeader();
 void AppendReportLine(ReportLineFormat format, const v1::RecordReport& report,
                       std::string* out);
 
-// The same line as for RecordReportToProto(report, record) (server/
-// convert.h), written from the engine report; `record` supplies the echoed
+// The same line as for RecordReportToProto(report, record) (api/
+// records.h), written from the engine report; `record` supplies the echoed
 // row and formula.
 void AppendReportLine(ReportLineFormat format, const CompositionReport& report,
                       const v1::CompositionRecord& record, std::string* out);

@@ -20,10 +20,7 @@
 // identical. Only loopback
 // addresses are used. Prints markdown tables on stdout.
 
-#include <fcntl.h>
-#include <poll.h>
 #include <signal.h>
-#include <sys/wait.h>
 #include <unistd.h>
 
 #include <algorithm>
@@ -46,10 +43,12 @@
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
 #include "absl/strings/str_split.h"
+#include "api/atoms.h"
+#include "api/records.h"
 #include "grpcpp/grpcpp.h"
-#include "server/convert.h"
-#include "server/records.h"
 #include "shellwright/v1/electron_structure.grpc.pb.h"
+#include "util/small_file.h"
+#include "util/subprocess.h"
 
 namespace shellwright::loadgen {
 namespace {
@@ -124,88 +123,36 @@ std::string SelfDir() {
   return path.substr(0, path.rfind('/'));
 }
 
-std::string ReadToken(const std::string& path) {
-  FILE* f = std::fopen(path.c_str(), "rb");
-  if (f == nullptr) return "";
-  char buf[4096];
-  size_t n = std::fread(buf, 1, sizeof(buf), f);
-  std::fclose(f);
-  std::string token(buf, n);
-  while (!token.empty() && (token.back() == '\n' || token.back() == '\r' ||
-                            token.back() == ' ')) {
-    token.pop_back();
-  }
-  return token;
-}
-
-// A server process this binary started; killed (SIGTERM, then SIGKILL) on
-// destruction.
-class ChildServer {
- public:
-  static std::unique_ptr<ChildServer> Start(std::vector<std::string> argv,
-                                            const std::string& prefix) {
-    std::vector<char*> args;
-    for (std::string& a : argv) args.push_back(a.data());
-    args.push_back(nullptr);
-    int out[2];
-    if (pipe2(out, O_CLOEXEC) != 0) return nullptr;
-    pid_t pid = fork();
-    if (pid < 0) return nullptr;
-    if (pid == 0) {
-      dup2(out[1], STDOUT_FILENO);
-      sigset_t none;
-      sigemptyset(&none);
-      sigprocmask(SIG_SETMASK, &none, nullptr);
-      execv(args[0], args.data());
-      _exit(127);
-    }
-    close(out[1]);
-    auto child = std::unique_ptr<ChildServer>(new ChildServer(pid, out[0]));
-    std::string buffered;
-    const auto deadline = Clock::now() + std::chrono::seconds(15);
-    while (Clock::now() < deadline) {
-      pollfd p{out[0], POLLIN, 0};
-      if (poll(&p, 1, 100) <= 0) continue;
-      char buf[1024];
-      ssize_t n = read(out[0], buf, sizeof(buf));
-      if (n <= 0) break;
-      buffered.append(buf, static_cast<size_t>(n));
-      size_t at = buffered.find(prefix);
-      size_t nl = at == std::string::npos ? at : buffered.find('\n', at);
-      if (nl != std::string::npos) {
-        child->address_ =
-            buffered.substr(at + prefix.size(), nl - at - prefix.size());
-        return child;
-      }
-    }
-    std::cerr << "shellwright_loadgen: " << argv[0] << " did not come up\n";
-    return nullptr;
-  }
+// A server process this binary started and the address it listens on;
+// stopped (SIGTERM, then SIGKILL) on destruction.
+struct ChildServer {
+  std::unique_ptr<ChildProcess> process;
+  std::string address;
 
   ~ChildServer() {
-    kill(pid_, SIGTERM);
-    for (int i = 0; i < 200; ++i) {
-      int status;
-      if (waitpid(pid_, &status, WNOHANG) == pid_) {
-        close(fd_);
-        return;
-      }
-      std::this_thread::sleep_for(std::chrono::milliseconds(50));
+    if (process != nullptr) {
+      process->SignalAndWait(SIGTERM, std::chrono::seconds(10));
     }
-    kill(pid_, SIGKILL);
-    int status;
-    waitpid(pid_, &status, 0);
-    close(fd_);
   }
-
-  const std::string& address() const { return address_; }
-
- private:
-  ChildServer(pid_t pid, int fd) : pid_(pid), fd_(fd) {}
-  pid_t pid_;
-  int fd_;
-  std::string address_;
 };
+
+// Starts `argv` and waits for its line "<prefix><address>"; nullptr (with a
+// message) if it does not come up.
+std::unique_ptr<ChildServer> StartServer(const std::vector<std::string>& argv,
+                                         const std::string& prefix) {
+  auto server = std::make_unique<ChildServer>();
+  server->process = ChildProcess::Start(argv);
+  if (server->process != nullptr) {
+    std::optional<std::string> address =
+        server->process->WaitForLine(prefix, std::chrono::seconds(15));
+    if (address.has_value()) {
+      server->address = *address;
+      return server;
+    }
+  }
+  std::cerr << "shellwright_loadgen: " << argv[0] << " did not come up\n";
+  return nullptr;
+}
 
 // ---------------------------------------------------------------------------
 // The echo server: the generated service with raw (ByteBuffer) methods, so
@@ -358,7 +305,7 @@ grpc::ByteBuffer StreamReply(const Flags& flags) {
   const v1::RecordBatch batch = StreamRequest(flags);
   v1::ReportBatch reply;
   for (const v1::CompositionRecord& r : batch.records()) {
-    AnalyzeRecordMessage(r, reply.add_reports());
+    AnalyzeRecord(r, reply.add_reports());
   }
   return ToByteBuffer(reply);
 }
@@ -781,14 +728,21 @@ int Main(int argc, char** argv) {
     std::string path = flags.shellwrightd.empty()
                            ? SelfDir() + "/../../server/shellwrightd"
                            : flags.shellwrightd;
-    server = ChildServer::Start({path, "--listen", "127.0.0.1:0", "--log-level",
-                                 flags.server_log_level},
-                                kServerListening);
+    server = StartServer({path, "--listen", "127.0.0.1:0", "--log-level",
+                          flags.server_log_level},
+                         kServerListening);
     if (server == nullptr) return 1;
-    address = server->address();
+    address = server->address;
   }
-  const std::string token =
-      flags.token_file.empty() ? "" : ReadToken(flags.token_file);
+  std::string token;
+  if (!flags.token_file.empty()) {
+    absl::StatusOr<std::string> t = ReadTokenFile(flags.token_file);
+    if (!t.ok()) {
+      std::cerr << "shellwright_loadgen: " << t.status().message() << "\n";
+      return 2;
+    }
+    token = std::move(*t);
+  }
 
   std::unique_ptr<ChildServer> echo;
   if (flags.echo) {
@@ -798,7 +752,7 @@ int Main(int argc, char** argv) {
                                           flags.spec,
                                           "--batch",
                                           std::to_string(flags.batch)};
-    echo = ChildServer::Start(argv_echo, kEchoListening);
+    echo = StartServer(argv_echo, kEchoListening);
     if (echo == nullptr) return 1;
   }
 
@@ -836,7 +790,7 @@ int Main(int argc, char** argv) {
   std::vector<UnaryStart> echo_unary;
   std::vector<StreamPrepare> echo_stream;
   if (echo != nullptr) {
-    for (auto& channel : MakeChannels(echo->address(), flags.channels)) {
+    for (auto& channel : MakeChannels(echo->address, flags.channels)) {
       echo_stubs.push_back(v1::ElectronStructure::NewStub(channel));
       AddStarts(echo_stubs.back().get(), &echo_unary, &echo_stream);
     }

@@ -20,6 +20,7 @@
 #include "absl/status/status.h"
 #include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
+#include "api/atoms.h"
 #include "clients/cli/atom_format.h"
 #include "clients/cli/backend.h"
 #include "clients/cli/check.h"
@@ -176,36 +177,18 @@ int RunAtom(const Args& args, Backend& backend) {
     request.set_charge(charge);
   }
   if (const std::string* v = args.Value("geometry")) {
-    const std::string& g = *v;
-    if (g == "free") {
-      request.set_geometry(v1::GEOMETRY_FREE);
-    } else if (g == "octahedral") {
-      request.set_geometry(v1::GEOMETRY_OCTAHEDRAL);
-    } else if (g == "tetrahedral") {
-      request.set_geometry(v1::GEOMETRY_TETRAHEDRAL);
-    } else if (g == "square_planar" || g == "square-planar") {
-      request.set_geometry(v1::GEOMETRY_SQUARE_PLANAR);
-    } else {
-      return Usage(
-          absl::StrCat("--geometry must be free, octahedral, "
-                       "tetrahedral or square_planar, got '",
-                       g, "'"));
+    absl::StatusOr<Geometry> g = ParseName<Geometry>(*v);
+    if (!g.ok()) {
+      return Usage(absl::StrCat("--geometry: ", g.status().message()));
     }
+    request.set_geometry(GeometryToProto(*g));
   }
   if (const std::string* v = args.Value("spin-state")) {
-    const std::string& s = *v;
-    if (s == "auto") {
-      request.set_spin_state(v1::SPIN_STATE_AUTO);
-    } else if (s == "high") {
-      request.set_spin_state(v1::SPIN_STATE_HIGH);
-    } else if (s == "low") {
-      request.set_spin_state(v1::SPIN_STATE_LOW);
-    } else {
-      return Usage(
-          absl::StrCat("--spin-state must be auto, high or low, "
-                       "got '",
-                       s, "'"));
+    absl::StatusOr<SpinStatePreference> s = ParseName<SpinStatePreference>(*v);
+    if (!s.ok()) {
+      return Usage(absl::StrCat("--spin-state: ", s.status().message()));
     }
+    request.set_spin_state(SpinStatePreferenceToProto(*s));
   }
   if (const std::string* v = args.Value("configuration")) {
     if (v->empty()) return Usage("--configuration is empty");

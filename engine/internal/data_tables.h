@@ -1,7 +1,7 @@
 // Compiled-in copies of the TSV tables in data/. Not part of the API.
 //
-// The definitions are generated at build time by data/tablegen from the TSV
-// files, which are the single source of truth; see docs/data-sources.md.
+// The definitions are generated at build time by data/compile_tables from the
+// TSV files, which are the single source of truth; see docs/data-sources.md.
 // Public code reaches this data through element.h, aufbau.h and the other
 // engine headers.
 //

@@ -1,8 +1,9 @@
 // Internal text helpers shared by the engine's parsers. Not part of the API.
 //
 // Example:
-//   QuoteForMessage("Fe\x01");  // "'Fe\\x01'"
-//   DecodeDigit("²", &value);   // consumes the superscript two
+//   int value = 0;
+//   DecodeDigit("²", DigitForms::kAsciiOrSuperscript, &value);
+//   // returns 2 (the bytes of '²'); value == 2
 
 #ifndef SHELLWRIGHT_ENGINE_INTERNAL_TEXT_H_
 #define SHELLWRIGHT_ENGINE_INTERNAL_TEXT_H_
@@ -10,13 +11,13 @@
 #include <string>
 
 #include "absl/strings/string_view.h"
+#include "util/utf8.h"
 
 namespace shellwright::internal {
 
-// Single-quoted, with control bytes and invalid UTF-8 escaped as \xNN and the
-// text cut to `max_chars` characters (with "..." appended) so that hostile
-// input cannot flood an error message.
-std::string QuoteForMessage(absl::string_view text, size_t max_chars = 64);
+// The parsers quote input in their messages with util/utf8.h's
+// QuoteForMessage.
+using ::shellwright::QuoteForMessage;
 
 // Kinds of digit accepted by DecodeDigit.
 enum class DigitForms { kAscii, kAsciiOrSuperscript, kAsciiOrSubscript };

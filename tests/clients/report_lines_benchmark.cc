@@ -9,10 +9,10 @@
 #include <vector>
 
 #include "absl/strings/str_format.h"
+#include "api/records.h"
 #include "benchmark/benchmark.h"
 #include "clients/cli/report_lines.h"
 #include "engine/composition.h"
-#include "server/convert.h"
 
 namespace shellwright::cli {
 namespace {

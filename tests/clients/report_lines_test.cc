@@ -12,10 +12,10 @@
 #include <vector>
 
 #include "absl/strings/str_cat.h"
+#include "api/records.h"
 #include "clients/cli/atom_format.h"
 #include "clients/cli/record_io.h"
 #include "gtest/gtest.h"
-#include "server/convert.h"
 #include "shellwright/v1/electron_structure.pb.h"
 #include "tests/testing/subprocess.h"
 
@@ -170,7 +170,7 @@ TEST(ReportLines, CsvLineHasOneFieldPerHeaderColumn) {
   record.set_formula("Fe3O4");
   record.set_row(2);
   v1::RecordReport proto;
-  AnalyzeRecordToReport(record, &proto);
+  AnalyzeRecord(record, &proto);
   const std::string line = ProtoLine(proto, ReportLineFormat::kCsv);
   std::vector<std::string> fields, header;
   std::string error;

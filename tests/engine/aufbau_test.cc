@@ -87,7 +87,7 @@ TEST(Aufbau, BlockMatchesTheLastMadelungSubshell) {
       if (c.occupancy(s) > 0) last = s;
     }
     const char expected = e.atomic_number == 2 ? 's' : last.Letter();
-    EXPECT_EQ(BlockLetter(e.block), expected) << e.symbol;
+    EXPECT_EQ(Name(e.block), std::string(1, expected)) << e.symbol;
   }
 }
 

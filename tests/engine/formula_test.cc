@@ -19,6 +19,7 @@
 #include "engine/rational.h"
 #include "gmock/gmock.h"
 #include "gtest/gtest.h"
+#include "tests/testing/utf8_check.h"
 
 namespace shellwright {
 
@@ -61,44 +62,6 @@ Formula ParseOrFail(absl::string_view text) {
 }
 
 Counts Parse(absl::string_view text) { return CountsOf(ParseOrFail(text)); }
-
-// True when `s` is well-formed UTF-8 (no overlongs, surrogates or values
-// above U+10FFFF).
-bool IsValidUtf8(absl::string_view s) {
-  size_t i = 0;
-  while (i < s.size()) {
-    const unsigned char c = static_cast<unsigned char>(s[i]);
-    int len;
-    uint32_t cp;
-    if (c < 0x80) {
-      ++i;
-      continue;
-    } else if (c >= 0xC2 && c <= 0xDF) {
-      len = 2;
-      cp = c & 0x1F;
-    } else if (c >= 0xE0 && c <= 0xEF) {
-      len = 3;
-      cp = c & 0x0F;
-    } else if (c >= 0xF0 && c <= 0xF4) {
-      len = 4;
-      cp = c & 0x07;
-    } else {
-      return false;
-    }
-    if (i + len > s.size()) return false;
-    for (int k = 1; k < len; ++k) {
-      const unsigned char cc = static_cast<unsigned char>(s[i + k]);
-      if ((cc & 0xC0) != 0x80) return false;
-      cp = (cp << 6) | (cc & 0x3F);
-    }
-    if ((len == 3 && cp < 0x800) || (len == 4 && cp < 0x10000) ||
-        (cp >= 0xD800 && cp <= 0xDFFF) || cp > 0x10FFFF) {
-      return false;
-    }
-    i += len;
-  }
-  return true;
-}
 
 // Number of characters (code points) in valid UTF-8 text.
 int CharCount(absl::string_view s) {
@@ -301,7 +264,7 @@ TEST(Formula, DotBeforeWaterWarnsOfHydrateTypo) {
   EXPECT_EQ(f.warnings[0].code, "possible_hydrate_typo");
   EXPECT_EQ(f.warnings[0].column, 6);  // The '.'.
   EXPECT_FALSE(f.warnings[0].message.empty());
-  EXPECT_TRUE(IsValidUtf8(f.warnings[0].message));
+  EXPECT_TRUE(testing::IsWellFormedUtf8(f.warnings[0].message));
 }
 
 TEST(Formula, OrdinaryDecimalsDoNotWarn) {
@@ -403,8 +366,9 @@ TEST(Formula, MalformedCatalogue) {
       }
     }
     EXPECT_FALSE(issue.message.empty());
-    EXPECT_TRUE(IsValidUtf8(issue.message)) << issue.message;
-    EXPECT_TRUE(IsValidUtf8(f.status().message())) << f.status().message();
+    EXPECT_TRUE(testing::IsWellFormedUtf8(issue.message)) << issue.message;
+    EXPECT_TRUE(testing::IsWellFormedUtf8(f.status().message()))
+        << f.status().message();
     EXPECT_THAT(std::string(f.status().message()), HasSubstr(issue.message));
     if (issue.column > 0) {
       EXPECT_THAT(issue.message,
@@ -530,9 +494,10 @@ TEST(Formula, RandomInputNeverCrashes) {
     } else {
       ASSERT_FALSE(issue.code.empty()) << text;
       ASSERT_FALSE(issue.message.empty()) << text;
-      ASSERT_TRUE(IsValidUtf8(issue.message)) << text;
-      const int limit = IsValidUtf8(text) ? CharCount(text) + 1
-                                          : static_cast<int>(text.size()) + 1;
+      ASSERT_TRUE(testing::IsWellFormedUtf8(issue.message)) << text;
+      const int limit = testing::IsWellFormedUtf8(text)
+                            ? CharCount(text) + 1
+                            : static_cast<int>(text.size()) + 1;
       ASSERT_GE(issue.column, 0) << text;
       ASSERT_LE(issue.column, limit) << text << ": " << issue.message;
     }

@@ -19,6 +19,7 @@
 #include "gtest/gtest.h"
 #include "tests/engine/reference_ions.h"
 #include "tests/testing/engine_test_util.h"
+#include "tests/testing/utf8_check.h"
 
 namespace shellwright {
 namespace {
@@ -43,47 +44,6 @@ const ReferenceIon* FindReferenceIon(absl::string_view spec) {
     if (spec == row.spec) return &row;
   }
   return nullptr;
-}
-
-// True when `text` is well-formed UTF-8 (no stray continuation bytes, no
-// truncated or overlong sequences, no surrogates, nothing above U+10FFFF).
-bool IsValidUtf8(absl::string_view text) {
-  size_t i = 0;
-  while (i < text.size()) {
-    const unsigned char c = static_cast<unsigned char>(text[i]);
-    int extra;
-    unsigned min;
-    unsigned cp;
-    if (c < 0x80) {
-      ++i;
-      continue;
-    } else if ((c & 0xE0) == 0xC0) {
-      extra = 1;
-      min = 0x80;
-      cp = c & 0x1F;
-    } else if ((c & 0xF0) == 0xE0) {
-      extra = 2;
-      min = 0x800;
-      cp = c & 0x0F;
-    } else if ((c & 0xF8) == 0xF0) {
-      extra = 3;
-      min = 0x10000;
-      cp = c & 0x07;
-    } else {
-      return false;
-    }
-    if (i + extra >= text.size()) return false;  // truncated sequence
-    for (int k = 1; k <= extra; ++k) {
-      const unsigned char cc = static_cast<unsigned char>(text[i + k]);
-      if ((cc & 0xC0) != 0x80) return false;
-      cp = (cp << 6) | (cc & 0x3F);
-    }
-    if (cp < min || cp > 0x10FFFF || (cp >= 0xD800 && cp <= 0xDFFF)) {
-      return false;
-    }
-    i += extra + 1;
-  }
-  return true;
 }
 
 // Full query path: parse the spec, then describe it. Returns the first
@@ -333,15 +293,6 @@ struct HostileSpec {
   const char* must_mention;
 };
 
-TEST(Ions, Utf8CheckerSelfTest) {
-  EXPECT_TRUE(IsValidUtf8("Fe³⁺ · ²P°₁/₂"));
-  EXPECT_TRUE(IsValidUtf8(""));
-  EXPECT_FALSE(IsValidUtf8("\xff\xfe"));
-  EXPECT_FALSE(IsValidUtf8("\xc2"));          // truncated
-  EXPECT_FALSE(IsValidUtf8("\xc0\xaf"));      // overlong '/'
-  EXPECT_FALSE(IsValidUtf8("\xed\xa0\x80"));  // surrogate
-}
-
 TEST(Ions, HostileSpecsAreRejectedWithAReason) {
   const HostileSpec cases[] = {
       {"Fe3+3+", "charge"},
@@ -379,7 +330,7 @@ TEST(Ions, HostileSpecsAreRejectedWithAReason) {
     // Messages travel in protobuf string fields and terminals, so they must
     // be valid UTF-8 even when the spec is not (engine/internal/text.h
     // promises that non-ASCII bytes are escaped as \xNN).
-    EXPECT_TRUE(IsValidUtf8(message))
+    EXPECT_TRUE(testing::IsWellFormedUtf8(message))
         << "message is not valid UTF-8: \"" << absl::CEscape(message) << "\"";
   }
 }

@@ -64,8 +64,7 @@ TEST(SplitD, ConservesElectronsAndNeverExceedsHund) {
   for (Geometry g : kSplitGeometries) {
     for (SpinState spin : {SpinState::kHigh, SpinState::kLow}) {
       for (int n = 0; n <= 10; ++n) {
-        SCOPED_TRACE(
-            absl::StrCat(GeometryName(g), " ", SpinStateName(spin), " d", n));
+        SCOPED_TRACE(absl::StrCat(Name(g), " ", Name(spin), " d", n));
         const LigandFieldSplitting s = SplitD(n, g, spin);
         EXPECT_EQ(s.geometry, g);
         EXPECT_EQ(s.spin_state, spin);
@@ -99,7 +98,7 @@ TEST(SplitD, ConservesElectronsAndNeverExceedsHund) {
 TEST(SplitD, HighSpinIsNeverBelowLowSpin) {
   for (Geometry g : kSplitGeometries) {
     for (int n = 0; n <= 10; ++n) {
-      SCOPED_TRACE(absl::StrCat(GeometryName(g), " d", n));
+      SCOPED_TRACE(absl::StrCat(Name(g), " d", n));
       EXPECT_GE(SplitD(n, g, SpinState::kHigh).unpaired,
                 SplitD(n, g, SpinState::kLow).unpaired);
     }
@@ -285,14 +284,14 @@ TEST(LigandField, GeometryOnNonDIonKeepsFreeIonCountAndAddsNote) {
   };
   for (const Case& c : {Case{"Gd3+", 7}, Case{"Na+", 0}, Case{"Eu3+", 6}}) {
     for (Geometry g : kSplitGeometries) {
-      SCOPED_TRACE(absl::StrCat(c.spec, " ", GeometryName(g)));
+      SCOPED_TRACE(absl::StrCat(c.spec, " ", Name(g)));
       AtomDescriptionPtr d = Describe(c.spec, g, SpinStatePreference::kLow);
       ASSERT_NE(d, nullptr);
       EXPECT_FALSE(d->ligand_field.has_value());
       EXPECT_EQ(d->unpaired_electrons, c.unpaired);
       bool noted = false;
       for (const std::string& note : d->notes) {
-        noted |= note.find(std::string(GeometryName(g))) != std::string::npos;
+        noted |= note.find(std::string(Name(g))) != std::string::npos;
       }
       EXPECT_TRUE(noted) << "no note mentions the ignored geometry";
     }
@@ -315,27 +314,27 @@ TEST(LigandField, FreeGeometryHasNoSplitting) {
 TEST(LigandFieldNames, ParseAndPrint) {
   for (Geometry g : {Geometry::kFree, Geometry::kOctahedral,
                      Geometry::kTetrahedral, Geometry::kSquarePlanar}) {
-    absl::StatusOr<Geometry> parsed = ParseGeometry(GeometryName(g));
+    absl::StatusOr<Geometry> parsed = ParseName<Geometry>(Name(g));
     ASSERT_TRUE(parsed.ok()) << parsed.status();
     EXPECT_EQ(*parsed, g);
   }
-  absl::StatusOr<Geometry> dash = ParseGeometry("square-planar");
+  absl::StatusOr<Geometry> dash = ParseName<Geometry>("square-planar");
   ASSERT_TRUE(dash.ok());
   EXPECT_EQ(*dash, Geometry::kSquarePlanar);
-  EXPECT_EQ(ParseGeometry("trigonal").status().code(),
+  EXPECT_EQ(ParseName<Geometry>("trigonal").status().code(),
             absl::StatusCode::kInvalidArgument);
-  EXPECT_EQ(ParseGeometry("").status().code(),
+  EXPECT_EQ(ParseName<Geometry>("").status().code(),
             absl::StatusCode::kInvalidArgument);
 
   for (SpinStatePreference s :
        {SpinStatePreference::kAuto, SpinStatePreference::kHigh,
         SpinStatePreference::kLow}) {
     absl::StatusOr<SpinStatePreference> parsed =
-        ParseSpinStatePreference(SpinStatePreferenceName(s));
+        ParseName<SpinStatePreference>(Name(s));
     ASSERT_TRUE(parsed.ok()) << parsed.status();
     EXPECT_EQ(*parsed, s);
   }
-  EXPECT_EQ(ParseSpinStatePreference("medium").status().code(),
+  EXPECT_EQ(ParseName<SpinStatePreference>("medium").status().code(),
             absl::StatusCode::kInvalidArgument);
 }
 

@@ -911,7 +911,11 @@ TEST(Oxidation, SixteenMetalEquimolarOxideSolves) {
   absl::StatusOr<OxidationResult> s =
       AssignOxidationStates(*g, OxidationOptions());
   ASSERT_TRUE(s.ok()) << s.status();
-  if (s->best.has_value()) ExpectWellFormed(*g, 0, *s->best);
+  // Common states alone give at least +30.15 here, above the 19.98 that
+  // O9.99 takes, so the balance needs some lower, uncommon states (Ti+2,
+  // V+2, Cr+2, ... in data/oxidation_states.tsv); it must still be found.
+  ASSERT_TRUE(s->best.has_value()) << fractional;
+  ExpectWellFormed(*g, 0, *s->best);
 }
 
 }  // namespace

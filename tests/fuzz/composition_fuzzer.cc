@@ -52,8 +52,8 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
   }
   FUZZ_CHECK(report.valid == !any_error, formula);
   FUZZ_CHECK(report.id.size() <= shellwright::kMaxRecordIdLength, record.id);
-  if (shellwright::fuzzing::IsValidUtf8(record.id)) {
-    FUZZ_CHECK(shellwright::fuzzing::IsValidUtf8(report.id), record.id);
+  if (shellwright::testing::IsWellFormedUtf8(record.id)) {
+    FUZZ_CHECK(shellwright::testing::IsWellFormedUtf8(report.id), record.id);
   }
   if (report.assignment.has_value()) {
     shellwright::Rational total;
@@ -80,14 +80,14 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
                formula);
   }
   const bool utf8_input =
-      shellwright::fuzzing::IsValidUtf8(formula) &&
-      shellwright::fuzzing::IsValidUtf8(record.id) &&
-      shellwright::fuzzing::IsValidUtf8(record.declared_states) &&
-      shellwright::fuzzing::IsValidUtf8(record.geometry) &&
-      shellwright::fuzzing::IsValidUtf8(record.spin_state);
+      shellwright::testing::IsWellFormedUtf8(formula) &&
+      shellwright::testing::IsWellFormedUtf8(record.id) &&
+      shellwright::testing::IsWellFormedUtf8(record.declared_states) &&
+      shellwright::testing::IsWellFormedUtf8(record.geometry) &&
+      shellwright::testing::IsWellFormedUtf8(record.spin_state);
   if (utf8_input) {
     for (const shellwright::Diagnostic& d : report.diagnostics) {
-      FUZZ_CHECK(shellwright::fuzzing::IsValidUtf8(d.message), d.message);
+      FUZZ_CHECK(shellwright::testing::IsWellFormedUtf8(d.message), d.message);
     }
   }
   return 0;

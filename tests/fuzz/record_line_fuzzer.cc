@@ -19,12 +19,12 @@
 #include <string>
 
 #include "absl/strings/string_view.h"
+#include "api/records.h"
 #include "clients/cli/record_io.h"
 #include "clients/cli/report_lines.h"
 #include "engine/composition.h"
 #include "google/protobuf/util/json_util.h"
 #include "google/protobuf/util/message_differencer.h"
-#include "server/convert.h"
 #include "tests/fuzz/fuzz_checks.h"
 
 namespace {
@@ -53,7 +53,7 @@ void CheckJsonLine(const std::string& line, const v1::RecordReport& report,
                    absl::string_view input) {
   FUZZ_CHECK(!line.empty() && line.back() == '\n', line);
   FUZZ_CHECK(line.find('\n') == line.size() - 1, line);
-  FUZZ_CHECK(shellwright::fuzzing::IsValidUtf8(line), line);
+  FUZZ_CHECK(shellwright::testing::IsWellFormedUtf8(line), line);
   v1::RecordReport parsed;
   const auto status = google::protobuf::util::JsonStringToMessage(
       line.substr(0, line.size() - 1), &parsed);
@@ -96,15 +96,16 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
   }
 
   if (!parsed.error.empty()) {
-    const v1::RecordReport report =
-        OverTheWire(shellwright::cli::MalformedRecordReport(parsed), input);
+    v1::RecordReport malformed;
+    shellwright::MalformedRecordReport(parsed.record, parsed.error, &malformed);
+    const v1::RecordReport report = OverTheWire(malformed, input);
     std::string jsonl, csv_line;
     shellwright::cli::AppendReportLine(ReportLineFormat::kJsonl, report,
                                        &jsonl);
     shellwright::cli::AppendReportLine(ReportLineFormat::kCsv, report,
                                        &csv_line);
     CheckJsonLine(jsonl, report, input);
-    FUZZ_CHECK(shellwright::fuzzing::IsValidUtf8(csv_line), csv_line);
+    FUZZ_CHECK(shellwright::testing::IsWellFormedUtf8(csv_line), csv_line);
     return 0;
   }
 
@@ -121,7 +122,7 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
   // Through a server: the record goes over the wire, the report comes back.
   const v1::CompositionRecord sent = OverTheWire(parsed.record, input);
   v1::RecordReport answered;
-  shellwright::AnalyzeRecordToReport(sent, &answered);
+  shellwright::AnalyzeRecord(sent, &answered);
   const v1::RecordReport received = OverTheWire(answered, input);
   std::string proto_jsonl, proto_csv;
   shellwright::cli::AppendReportLine(ReportLineFormat::kJsonl, received,
@@ -133,6 +134,6 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
   FUZZ_CHECK(engine_csv == proto_csv, engine_csv + proto_csv);
   CheckJsonLine(engine_jsonl, received, input);
   FUZZ_CHECK(!engine_csv.empty() && engine_csv.back() == '\n', engine_csv);
-  FUZZ_CHECK(shellwright::fuzzing::IsValidUtf8(engine_csv), engine_csv);
+  FUZZ_CHECK(shellwright::testing::IsWellFormedUtf8(engine_csv), engine_csv);
   return 0;
 }

@@ -76,10 +76,10 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
   for (const std::string& text :
        {d.configuration_notation, d.full_notation, d.filling_order_notation,
         d.term.ToUnicode()}) {
-    FUZZ_CHECK(shellwright::fuzzing::IsValidUtf8(text), text);
+    FUZZ_CHECK(shellwright::testing::IsWellFormedUtf8(text), text);
   }
   for (const std::string& note : d.notes) {
-    FUZZ_CHECK(shellwright::fuzzing::IsValidUtf8(note), note);
+    FUZZ_CHECK(shellwright::testing::IsWellFormedUtf8(note), note);
   }
   return 0;
 }

@@ -28,6 +28,6 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
   absl::StatusOr<shellwright::TermSymbol> again =
       shellwright::TermSymbol::Parse(ascii);
   FUZZ_CHECK(again.ok() && *again == *term, ascii);
-  FUZZ_CHECK(shellwright::fuzzing::IsValidUtf8(term->ToUnicode()), text);
+  FUZZ_CHECK(shellwright::testing::IsWellFormedUtf8(term->ToUnicode()), text);
   return 0;
 }

@@ -1,6 +1,6 @@
-// Helpers for the shellwrightd tests: child processes with bounded waits,
-// temporary directories, a raw loopback socket, and test certificates made
-// with the openssl CLI.
+// Helpers for the shellwrightd tests: a real server on a free loopback port,
+// a raw loopback socket, and test certificates made with the openssl CLI.
+// Child processes and temporary directories come from tests/testing/.
 //
 // Every wait here has a deadline, so a hung server fails a test instead of
 // hanging the suite.
@@ -22,32 +22,29 @@
 #define SHELLWRIGHT_TESTS_SERVER_SERVER_TEST_UTIL_H_
 
 #include <arpa/inet.h>
-#include <fcntl.h>
 #include <netinet/in.h>
-#include <poll.h>
 #include <signal.h>
 #include <sys/socket.h>
-#include <sys/stat.h>
-#include <sys/types.h>
-#include <sys/wait.h>
 #include <unistd.h>
 
 #include <chrono>
 #include <cstdlib>
-#include <fstream>
 #include <memory>
 #include <optional>
 #include <random>
-#include <sstream>
 #include <string>
-#include <thread>
 #include <vector>
 
 #include "absl/strings/str_cat.h"
 #include "gtest/gtest.h"
 #include "shellwright/v1/electron_structure.pb.h"
+#include "tests/testing/subprocess.h"
+#include "tests/testing/temp_dir.h"
 
 namespace shellwright::testing {
+
+inline std::string ShellwrightdPath() { return BinPath("server/shellwrightd"); }
+inline std::string CliPath() { return BinPath("clients/shellwright"); }
 
 // `records` records of a formula whose solver search takes tens of
 // milliseconds each: a full batch of them is minutes of work.
@@ -61,211 +58,6 @@ inline v1::RecordBatch HardRecordBatch(int records) {
   }
   return batch;
 }
-
-// The build tree root: $SHELLWRIGHT_BIN_DIR when set, else the build tree
-// this test was compiled in (SHELLWRIGHT_DEFAULT_BIN_DIR, set by
-// tests/server/CMakeLists.txt).
-inline std::string BinDir() {
-  const char* dir = std::getenv("SHELLWRIGHT_BIN_DIR");
-  if (dir != nullptr && *dir != '\0') return dir;
-#ifdef SHELLWRIGHT_DEFAULT_BIN_DIR
-  return SHELLWRIGHT_DEFAULT_BIN_DIR;
-#else
-  return std::string();
-#endif
-}
-
-inline std::string ShellwrightdPath() {
-  return BinDir() + "/server/shellwrightd";
-}
-inline std::string CliPath() { return BinDir() + "/clients/shellwright"; }
-
-// A fresh directory under $TMPDIR, removed with its files on destruction.
-class TempDir {
- public:
-  TempDir() {
-    const char* base = std::getenv("TMPDIR");
-    std::string pattern =
-        std::string(base != nullptr ? base : "/tmp") + "/shellwright-XXXXXX";
-    std::vector<char> buf(pattern.begin(), pattern.end());
-    buf.push_back('\0');
-    if (mkdtemp(buf.data()) != nullptr) path_ = buf.data();
-  }
-  ~TempDir() {
-    if (!path_.empty()) {
-      std::string command = "rm -rf '" + path_ + "'";
-      int ignored = std::system(command.c_str());
-      (void)ignored;
-    }
-  }
-  TempDir(const TempDir&) = delete;
-  TempDir& operator=(const TempDir&) = delete;
-
-  const std::string& path() const { return path_; }
-  std::string File(const std::string& name) const { return path_ + "/" + name; }
-
-  // Writes `contents` to File(name) and returns its path.
-  std::string Write(const std::string& name, const std::string& contents,
-                    mode_t mode = 0600) const {
-    std::string file = File(name);
-    std::ofstream(file, std::ios::binary) << contents;
-    chmod(file.c_str(), mode);
-    return file;
-  }
-
- private:
-  std::string path_;
-};
-
-inline std::string ReadFile(const std::string& path) {
-  std::ifstream in(path, std::ios::binary);
-  std::ostringstream buf;
-  buf << in.rdbuf();
-  return buf.str();
-}
-
-// A child process with stdout on a pipe and stderr in a file.
-class ChildProcess {
- public:
-  // Starts argv[0] with `argv`. Returns nullptr (and fails the test) if
-  // fork or exec fails.
-  static std::unique_ptr<ChildProcess> Start(
-      const std::vector<std::string>& argv, const std::string& stderr_file) {
-    int out[2];
-    if (pipe2(out, O_CLOEXEC) != 0) {
-      ADD_FAILURE() << "pipe failed";
-      return nullptr;
-    }
-    // Everything the child needs is built before fork(): after fork() in a
-    // threaded process only async-signal-safe calls are allowed.
-    std::vector<char*> args;
-    for (const std::string& a : argv) {
-      args.push_back(const_cast<char*>(a.c_str()));
-    }
-    args.push_back(nullptr);
-    sigset_t none;
-    sigemptyset(&none);
-    pid_t pid = fork();
-    if (pid < 0) {
-      ADD_FAILURE() << "fork failed";
-      return nullptr;
-    }
-    if (pid == 0) {
-      dup2(out[1], STDOUT_FILENO);
-      int err = open(stderr_file.c_str(), O_WRONLY | O_CREAT | O_TRUNC, 0600);
-      if (err >= 0) dup2(err, STDERR_FILENO);
-      close(out[0]);
-      close(out[1]);
-      // The test runner may have signals blocked; the child must not
-      // inherit that.
-      sigprocmask(SIG_SETMASK, &none, nullptr);
-      execv(args[0], args.data());
-      _exit(127);
-    }
-    close(out[1]);
-    fcntl(out[0], F_SETFL, O_NONBLOCK);
-    return std::unique_ptr<ChildProcess>(
-        new ChildProcess(pid, out[0], stderr_file));
-  }
-
-  ~ChildProcess() {
-    if (pid_ > 0 && !exit_status_.has_value()) {
-      kill(pid_, SIGKILL);
-      int status;
-      waitpid(pid_, &status, 0);
-    }
-    if (stdout_fd_ >= 0) close(stdout_fd_);
-  }
-  ChildProcess(const ChildProcess&) = delete;
-  ChildProcess& operator=(const ChildProcess&) = delete;
-
-  pid_t pid() const { return pid_; }
-
-  // Reads stdout until a line starting with `prefix` arrives; returns the
-  // rest of that line, or nullopt after `timeout` or at end of output.
-  std::optional<std::string> WaitForLine(const std::string& prefix,
-                                         std::chrono::milliseconds timeout) {
-    const auto deadline = std::chrono::steady_clock::now() + timeout;
-    while (true) {
-      size_t start = 0;
-      for (size_t nl; (nl = stdout_.find('\n', start)) != std::string::npos;
-           start = nl + 1) {
-        std::string line = stdout_.substr(start, nl - start);
-        if (line.rfind(prefix, 0) == 0) {
-          stdout_.erase(0, nl + 1);
-          return line.substr(prefix.size());
-        }
-      }
-      auto left = std::chrono::duration_cast<std::chrono::milliseconds>(
-          deadline - std::chrono::steady_clock::now());
-      if (left.count() <= 0) return std::nullopt;
-      pollfd p{stdout_fd_, POLLIN, 0};
-      if (poll(&p, 1, static_cast<int>(left.count())) <= 0) continue;
-      char buf[4096];
-      ssize_t n = read(stdout_fd_, buf, sizeof(buf));
-      if (n == 0) return std::nullopt;
-      if (n > 0) stdout_.append(buf, static_cast<size_t>(n));
-    }
-  }
-
-  // The exit status if the child has exited (see Wait), without blocking.
-  std::optional<int> TryWait() {
-    if (exit_status_.has_value()) return exit_status_;
-    int status = 0;
-    if (waitpid(pid_, &status, WNOHANG) == pid_) {
-      exit_status_ =
-          WIFEXITED(status) ? WEXITSTATUS(status) : 128 + WTERMSIG(status);
-    }
-    return exit_status_;
-  }
-
-  // Waits up to `timeout` for the exit. Returns the exit code, 128 + signal
-  // for a signal death, or -1 on timeout (the child is then killed).
-  int Wait(std::chrono::milliseconds timeout) {
-    const auto deadline = std::chrono::steady_clock::now() + timeout;
-    while (true) {
-      if (std::optional<int> status = TryWait()) return *status;
-      if (std::chrono::steady_clock::now() >= deadline) break;
-      std::this_thread::sleep_for(std::chrono::milliseconds(5));
-    }
-    kill(pid_, SIGKILL);
-    int status;
-    waitpid(pid_, &status, 0);
-    exit_status_ = -1;
-    return -1;
-  }
-
-  // Sends `sig` and waits up to `timeout` for the exit status.
-  int SignalAndWait(int sig, std::chrono::milliseconds timeout) {
-    if (!exit_status_.has_value()) kill(pid_, sig);
-    return Wait(timeout);
-  }
-
-  std::string Stderr() const { return ReadFile(stderr_file_); }
-
-  // Stdout read so far and not consumed by WaitForLine, plus anything
-  // still in the pipe.
-  std::string DrainStdout() {
-    char buf[4096];
-    ssize_t n;
-    while ((n = read(stdout_fd_, buf, sizeof(buf))) > 0) {
-      stdout_.append(buf, static_cast<size_t>(n));
-    }
-    return stdout_;
-  }
-
- private:
-  ChildProcess(pid_t pid, int stdout_fd, std::string stderr_file)
-      : pid_(pid),
-        stdout_fd_(stdout_fd),
-        stderr_file_(std::move(stderr_file)) {}
-
-  pid_t pid_;
-  int stdout_fd_;
-  std::string stderr_file_;
-  std::string stdout_;
-  std::optional<int> exit_status_;
-};
 
 // A running shellwrightd on a free loopback port.
 class ServerProcess {
@@ -307,7 +99,10 @@ inline std::unique_ptr<ServerProcess> StartShellwrightd(
   argv.insert(argv.end(), flags.begin(), flags.end());
   server->process_ =
       ChildProcess::Start(argv, log_dir->File("shellwrightd.stderr"));
-  if (server->process_ == nullptr) return nullptr;
+  if (server->process_ == nullptr) {
+    ADD_FAILURE() << "cannot start " << ShellwrightdPath();
+    return nullptr;
+  }
   std::optional<std::string> address =
       server->process_->WaitForLine(kListeningPrefix, std::chrono::seconds(10));
   if (!address.has_value()) {
@@ -322,40 +117,6 @@ inline std::unique_ptr<ServerProcess> StartShellwrightd(
     return nullptr;
   }
   return server;
-}
-
-struct CommandResult {
-  int exit_code = -1;  // -1: did not finish within the timeout.
-  std::string out;
-  std::string err;
-};
-
-// Runs `argv` to completion (killed after `timeout`), capturing output.
-inline CommandResult RunCommand(
-    const std::vector<std::string>& argv,
-    std::chrono::milliseconds timeout = std::chrono::seconds(30)) {
-  TempDir dir;
-  CommandResult result;
-  std::unique_ptr<ChildProcess> child =
-      ChildProcess::Start(argv, dir.File("stderr"));
-  if (child == nullptr) return result;
-  const auto deadline = std::chrono::steady_clock::now() + timeout;
-  // Drain stdout while waiting, so a chatty child cannot fill the pipe.
-  while (true) {
-    child->DrainStdout();
-    if (std::optional<int> status = child->TryWait()) {
-      result.exit_code = *status;
-      break;
-    }
-    if (std::chrono::steady_clock::now() >= deadline) {
-      result.exit_code = child->Wait(std::chrono::milliseconds(0));
-      break;
-    }
-    std::this_thread::sleep_for(std::chrono::milliseconds(2));
-  }
-  result.out = child->DrainStdout();
-  result.err = child->Stderr();
-  return result;
 }
 
 // Opens a TCP connection to 127.0.0.1:port, writes `bytes`, and closes it.

@@ -1,7 +1,6 @@
-// Tests that data/tablegen rejects malformed tables with a message naming
+// Tests that data/compile_tables rejects malformed tables with a message naming
 // file, line and problem, and accepts the real tables.
 
-#include <cstdio>
 #include <fstream>
 #include <map>
 #include <string>
@@ -9,32 +8,23 @@
 #include "gmock/gmock.h"
 #include "gtest/gtest.h"
 #include "tests/testing/subprocess.h"
+#include "tests/testing/temp_dir.h"
 
 namespace shellwright {
 namespace {
 
 using ::shellwright::testing::BinPath;
 using ::shellwright::testing::CommandResult;
+using ::shellwright::testing::ReadFile;
 using ::shellwright::testing::RunCommand;
 using ::shellwright::testing::SourcePath;
 using ::testing::HasSubstr;
 
-std::string ReadFile(const std::string& path) {
-  std::ifstream in(path);
-  return std::string(std::istreambuf_iterator<char>(in), {});
-}
-
-std::string TempDir() {
-  const char* t = std::getenv("TEST_TMPDIR");
-  std::string base = t ? t : "/tmp";
-  char tmpl[256];
-  std::snprintf(tmpl, sizeof(tmpl), "%s/tablegenXXXXXX", base.c_str());
-  return mkdtemp(tmpl);
-}
-
-// Runs tablegen with the real tables, replacing `table` by `contents`.
+// Runs compile_tables with the real tables, replacing `table` by
+// `contents`.
 CommandResult RunWith(const std::string& table, const std::string& contents) {
-  const std::string dir = TempDir();
+  const testing::TempDir temp;
+  const std::string& dir = temp.path();
   std::map<std::string, std::string> paths;
   for (const char* name :
        {"elements", "configuration_exceptions", "ground_level_departures",
@@ -45,24 +35,25 @@ CommandResult RunWith(const std::string& table, const std::string& contents) {
     paths[table] = dir + "/" + table + ".tsv";
     std::ofstream(paths[table]) << contents;
   }
-  return RunCommand(
-      {BinPath("data/shellwright_tablegen"), "--elements=" + paths["elements"],
-       "--exceptions=" + paths["configuration_exceptions"],
-       "--departures=" + paths["ground_level_departures"],
-       "--moments=" + paths["measured_moments"],
-       "--oxidation=" + paths["oxidation_states"], "--out=" + dir + "/out.cc"});
+  return RunCommand({BinPath("data/shellwright_compile_tables"),
+                     "--elements=" + paths["elements"],
+                     "--exceptions=" + paths["configuration_exceptions"],
+                     "--departures=" + paths["ground_level_departures"],
+                     "--moments=" + paths["measured_moments"],
+                     "--oxidation=" + paths["oxidation_states"],
+                     "--out=" + dir + "/out.cc"});
 }
 
 std::string RealTable(const std::string& name) {
   return ReadFile(SourcePath("data/" + name + ".tsv"));
 }
 
-TEST(Tablegen, AcceptsTheRealTables) {
+TEST(CompileTables, AcceptsTheRealTables) {
   CommandResult r = RunWith("", "");
   EXPECT_EQ(r.exit_code, 0) << r.err;
 }
 
-TEST(Tablegen, WrongColumnCountNamesFileAndLine) {
+TEST(CompileTables, WrongColumnCountNamesFileAndLine) {
   std::string t = RealTable("configuration_exceptions");
   t += "24\tCr\n";
   CommandResult r = RunWith("configuration_exceptions", t);
@@ -71,7 +62,7 @@ TEST(Tablegen, WrongColumnCountNamesFileAndLine) {
   EXPECT_THAT(r.err, HasSubstr("expected 4 tab-separated fields"));
 }
 
-TEST(Tablegen, OverCapacityConfigurationIsRejected) {
+TEST(CompileTables, OverCapacityConfigurationIsRejected) {
   std::string t = RealTable("configuration_exceptions");
   t += "26\tFe\t[Ar] 3d11 4s2\tinvented for this test\n";
   CommandResult r = RunWith("configuration_exceptions", t);
@@ -79,7 +70,7 @@ TEST(Tablegen, OverCapacityConfigurationIsRejected) {
   EXPECT_THAT(r.err, HasSubstr("Pauli capacity"));
 }
 
-TEST(Tablegen, ElectronCountMustEqualZ) {
+TEST(CompileTables, ElectronCountMustEqualZ) {
   std::string t = RealTable("configuration_exceptions");
   t += "26\tFe\t[Ar] 3d7 4s2\tinvented for this test\n";
   CommandResult r = RunWith("configuration_exceptions", t);
@@ -87,7 +78,7 @@ TEST(Tablegen, ElectronCountMustEqualZ) {
   EXPECT_THAT(r.err, HasSubstr("holds 27 electrons, but Z is 26"));
 }
 
-TEST(Tablegen, BadNumberInElementsTable) {
+TEST(CompileTables, BadNumberInElementsTable) {
   std::string t = RealTable("elements");
   const size_t pos = t.find("55.845");
   ASSERT_NE(pos, std::string::npos);
@@ -98,7 +89,7 @@ TEST(Tablegen, BadNumberInElementsTable) {
   EXPECT_THAT(r.err, HasSubstr("standard_atomic_weight"));
 }
 
-TEST(Tablegen, UnknownSymbolInOxidationTable) {
+TEST(CompileTables, UnknownSymbolInOxidationTable) {
   std::string t = RealTable("oxidation_states");
   t += "Xq\t2\tyes\tinvented for this test\n";
   CommandResult r = RunWith("oxidation_states", t);
@@ -106,7 +97,7 @@ TEST(Tablegen, UnknownSymbolInOxidationTable) {
   EXPECT_THAT(r.err, HasSubstr("unknown element symbol 'Xq'"));
 }
 
-TEST(Tablegen, MalformedTermSymbol) {
+TEST(CompileTables, MalformedTermSymbol) {
   std::string t = RealTable("ground_level_departures");
   t += "26\tFe\t5Q9\t5D4\tinvented for this test\n";
   CommandResult r = RunWith("ground_level_departures", t);

@@ -1,0 +1,67 @@
+// The stable codes of report diagnostics, in one place. Reports carry them
+// (RecordReport.diagnostics[].code), `check` counts them in its summary,
+// and users filter on them, so a code never changes once released: add a
+// new one here instead.
+//
+// Each code always comes with the same severity, the one of its group
+// below. A record is valid exactly when none of its diagnostics is an
+// error.
+//
+// Example:
+//
+//   for (const shellwright::Diagnostic& d : report.diagnostics) {
+//     if (d.code == shellwright::codes::kChargeNotBalanced) ...
+//   }
+//
+// Thread safety: constants.
+
+#ifndef SHELLWRIGHT_ENGINE_DIAGNOSTIC_CODES_H_
+#define SHELLWRIGHT_ENGINE_DIAGNOSTIC_CODES_H_
+
+namespace shellwright::codes {
+
+// Errors: the record is invalid.
+//
+// The formula (engine/formula.h).
+inline constexpr char kEmptyFormula[] = "empty_formula";
+inline constexpr char kFormulaTooLong[] = "formula_too_long";
+inline constexpr char kMalformedFormula[] = "malformed_formula";
+inline constexpr char kUnknownElement[] = "unknown_element";
+inline constexpr char kNestingTooDeep[] = "nesting_too_deep";
+inline constexpr char kCountTooLarge[] = "count_too_large";
+// The record (engine/composition.h). kMalformedRecord also answers a line
+// that the clients' readers cannot read as a record.
+inline constexpr char kIdTooLong[] = "id_too_long";
+inline constexpr char kMalformedRecord[] = "malformed_record";
+inline constexpr char kMalformedDeclaredStates[] = "malformed_declared_states";
+inline constexpr char kMalformedElementSettings[] =
+    "malformed_element_settings";
+// Charge balance and the measured moment.
+inline constexpr char kChargeNotBalanced[] = "charge_not_balanced";
+inline constexpr char kDeclaredStateContradictsBalance[] =
+    "declared_state_contradicts_balance";
+inline constexpr char kMomentOutOfRange[] = "moment_out_of_range";
+// The record needs more search than the per-record work budget allows
+// (engine/oxidation.h).
+inline constexpr char kSearchBudgetExceeded[] = "search_budget_exceeded";
+
+// Warnings: valid, but worth a look.
+inline constexpr char kPossibleHydrateTypo[] = "possible_hydrate_typo";
+inline constexpr char kUncommonOxidationState[] = "uncommon_oxidation_state";
+inline constexpr char kDeclaredStateUnknown[] = "declared_state_unknown";
+inline constexpr char kIonNotDescribed[] = "ion_not_described";
+
+// Info.
+inline constexpr char kMixedValence[] = "mixed_valence";
+inline constexpr char kMetallicComposition[] = "metallic_composition";
+inline constexpr char kElementalComposition[] = "elemental_composition";
+inline constexpr char kMomentCheckSkipped[] = "moment_check_skipped";
+// The search stopped early: the answer stands, but a mixed-valence split
+// or further alternatives may have been left out.
+inline constexpr char kMixedValenceSearchLimited[] =
+    "mixed_valence_search_limited";
+inline constexpr char kAlternativesLimited[] = "alternatives_limited";
+
+}  // namespace shellwright::codes
+
+#endif  // SHELLWRIGHT_ENGINE_DIAGNOSTIC_CODES_H_

@@ -1,0 +1,74 @@
+// Tests for engine/rational.h: exact fractions in lowest terms.
+
+#include "engine/rational.h"
+
+#include <random>
+
+#include "gtest/gtest.h"
+
+namespace shellwright {
+namespace {
+
+TEST(Rational, KeepsLowestTermsWithThePositiveDenominator) {
+  const Rational a(6, 4);
+  EXPECT_EQ(a.num(), 3);
+  EXPECT_EQ(a.den(), 2);
+  const Rational b(3, -6);
+  EXPECT_EQ(b.num(), -1);
+  EXPECT_EQ(b.den(), 2);
+  const Rational zero(0, 7);
+  EXPECT_EQ(zero.num(), 0);
+  EXPECT_EQ(zero.den(), 1);
+  EXPECT_TRUE(zero.IsZero());
+  EXPECT_TRUE(Rational(8, 4).IsInteger());
+  EXPECT_FALSE(Rational(7, 10).IsInteger());
+  EXPECT_EQ(Rational(), Rational(0));
+}
+
+TEST(Rational, WritesFractionsAndIntegers) {
+  EXPECT_EQ(Rational(7, 10).ToString(), "7/10");
+  EXPECT_EQ(Rational(10, 5).ToString(), "2");
+  EXPECT_EQ(Rational(-3, 4).ToString(), "-3/4");
+  EXPECT_EQ(Rational(0).ToString(), "0");
+  EXPECT_DOUBLE_EQ(Rational(7, 10).ToDouble(), 0.7);
+}
+
+TEST(Rational, ArithmeticIsExact) {
+  // 0.7 + 0.3 is exactly 1, where doubles give 0.99999999999999989.
+  EXPECT_EQ(Rational(7, 10) + Rational(3, 10), Rational(1));
+  EXPECT_EQ(Rational(1, 6) + Rational(1, 10), Rational(4, 15));
+  EXPECT_EQ(Rational(1, 2) - Rational(3, 4), Rational(-1, 4));
+  EXPECT_EQ(Rational(7, 10) * Rational(2), Rational(7, 5));
+  EXPECT_EQ(Rational(-2, 3) * Rational(9, 4), Rational(-3, 2));
+  EXPECT_EQ(Rational(0) * Rational(5, 7), Rational(0));
+}
+
+TEST(Rational, OrdersByValue) {
+  EXPECT_LT(Rational(1, 3), Rational(1, 2));
+  EXPECT_LT(Rational(-1, 2), Rational(-1, 3));
+  EXPECT_FALSE(Rational(2, 4) < Rational(1, 2));
+  EXPECT_NE(Rational(1, 3), Rational(1, 2));
+  // Cross products beyond 64 bits still compare correctly.
+  const int64_t big = int64_t{1} << 40;
+  EXPECT_LT(Rational(big - 1, big), Rational(big, big + 1));
+}
+
+TEST(Rational, AgreesWithIntegerArithmeticOnRandomFractions) {
+  // a/b + c/d == (ad + cb)/bd and a/b * c/d == ac/bd, checked through the
+  // cross-multiplied equality p/q == r/s <=> ps == rq.
+  std::mt19937 rng(42);
+  std::uniform_int_distribution<int64_t> num(-1000, 1000), den(1, 1000);
+  for (int i = 0; i < 10000; ++i) {
+    const int64_t a = num(rng), b = den(rng), c = num(rng), d = den(rng);
+    const Rational sum = Rational(a, b) + Rational(c, d);
+    EXPECT_EQ(sum.num() * (b * d), (a * d + c * b) * sum.den());
+    const Rational product = Rational(a, b) * Rational(c, d);
+    EXPECT_EQ(product.num() * (b * d), (a * c) * product.den());
+    EXPECT_GT(sum.den(), 0);
+    EXPECT_GT(product.den(), 0);
+    EXPECT_EQ(Rational(a, b) < Rational(c, d), a * d < c * b);
+  }
+}
+
+}  // namespace
+}  // namespace shellwright
