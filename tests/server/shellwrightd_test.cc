@@ -5,6 +5,7 @@
 
 #include <signal.h>
 
+#include <atomic>
 #include <chrono>
 #include <memory>
 #include <string>
@@ -83,6 +84,101 @@ int HealthStatus(const std::string& address, const std::string& service,
   grpc::Status status = stub->Check(context.get(), request, &response);
   if (status_out != nullptr) *status_out = status;
   return status.ok() ? static_cast<int>(response.status()) : -1;
+}
+
+// Sanitizers slow every call several times over; deadlines that state a
+// target for the release build are stretched by this factor under them
+// (TSan: 5-15x, on a busy machine).
+#if defined(__SANITIZE_THREAD__)
+#define SHELLWRIGHT_TSAN 1
+#endif
+#if defined(__SANITIZE_ADDRESS__)
+#define SHELLWRIGHT_ASAN 1
+#endif
+#if defined(__has_feature)
+#if __has_feature(thread_sanitizer)
+#define SHELLWRIGHT_TSAN 1
+#endif
+#if __has_feature(address_sanitizer)
+#define SHELLWRIGHT_ASAN 1
+#endif
+#endif
+#if defined(SHELLWRIGHT_TSAN)
+constexpr int kSanitizerSlowdown = 30;
+#elif defined(SHELLWRIGHT_ASAN)
+constexpr int kSanitizerSlowdown = 10;
+#else
+constexpr int kSanitizerSlowdown = 1;
+#endif
+
+// Regression: records whose counts carry five decimals cost the charge
+// solver seconds and hundreds of MB each; 8 streams of them kept the server
+// so busy that health checks missed a 3 s deadline. With the solver's
+// bounded cost per record, health is answered within 100 ms meanwhile.
+TEST(Shellwrightd, HealthAnsweredWithin100MsWhileEightStreamsSendWorstCases) {
+  std::unique_ptr<ServerProcess> server = StartShellwrightd({});
+  ASSERT_NE(server, nullptr);
+  v1::RecordBatch worst;
+  for (const char* formula :
+       {"SbWFeMoPrPbCoMnVO0.99999", "SbWFeMoPrPbCoO2.49497",
+        "SbWFeMoPrPbCoMnVO0.99999"}) {
+    v1::CompositionRecord* record = worst.add_records();
+    record->set_id(formula);
+    record->set_formula(formula);
+  }
+  constexpr int kStreams = 8;
+  std::atomic<bool> stop{false};
+  std::atomic<int64_t> answered{0};
+  std::atomic<int> stream_failures{0};
+  std::vector<std::thread> senders;
+  for (int i = 0; i < kStreams; ++i) {
+    senders.emplace_back([&] {
+      auto stub = Stub(server->address());
+      auto context = Context(std::chrono::seconds(120));
+      auto stream = stub->AnalyzeRecords(context.get());
+      v1::ReportBatch reply;
+      while (!stop.load()) {
+        if (!stream->Write(worst) || !stream->Read(&reply) ||
+            reply.reports_size() != worst.records_size()) {
+          ++stream_failures;
+          return;
+        }
+        answered += reply.reports_size();
+      }
+      stream->WritesDone();
+      if (!stream->Finish().ok()) ++stream_failures;
+    });
+  }
+  // Probe once every stream has had answers, so the server is busy.
+  while (answered.load() < kStreams * worst.records_size() &&
+         stream_failures.load() == 0) {
+    std::this_thread::sleep_for(std::chrono::milliseconds(10));
+  }
+  auto health = grpc::health::v1::Health::NewStub(grpc::CreateChannel(
+      server->address(), grpc::InsecureChannelCredentials()));
+  const auto deadline = std::chrono::milliseconds(100 * kSanitizerSlowdown);
+  int healthy = 0;
+  constexpr int kProbes = 20;
+  for (int probe = 0; probe < kProbes; ++probe) {
+    grpc::ClientContext context;
+    context.set_deadline(std::chrono::system_clock::now() + deadline);
+    grpc::health::v1::HealthCheckRequest request;
+    grpc::health::v1::HealthCheckResponse response;
+    const grpc::Status status = health->Check(&context, request, &response);
+    EXPECT_TRUE(status.ok())
+        << "probe " << probe << ": " << status.error_message();
+    healthy +=
+        status.ok() &&
+        response.status() == grpc::health::v1::HealthCheckResponse::SERVING;
+    std::this_thread::sleep_for(std::chrono::milliseconds(100));
+  }
+  const int64_t answered_while_probing = answered.load();
+  stop = true;
+  for (std::thread& t : senders) t.join();
+  EXPECT_EQ(healthy, kProbes);
+  EXPECT_EQ(stream_failures.load(), 0);
+  EXPECT_GE(answered_while_probing, kStreams * worst.records_size());
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
 }
 
 TEST(Shellwrightd, PrintsTheBoundPortAndExitsZeroOnSigterm) {
@@ -533,9 +629,12 @@ TEST(Shellwrightd, DrainAnswersTheBatchInHandThenEndsTheStream) {
   auto stub = Stub(server->address());
   auto context = Context(std::chrono::seconds(90));
   auto stream = stub->AnalyzeRecords(context.get());
-  const v1::RecordBatch batch = HardRecordBatch(20);
+  const v1::RecordBatch batch = HardRecordBatch(20 * kSanitizerSlowdown);
   ASSERT_TRUE(stream->Write(batch));
-  std::this_thread::sleep_for(std::chrono::milliseconds(100));
+  // Long enough for the server to have read the batch (a stream still
+  // waiting for it when the drain begins is cancelled instead).
+  std::this_thread::sleep_for(std::chrono::milliseconds(100) *
+                              kSanitizerSlowdown);
   ASSERT_EQ(kill(server->process().pid(), SIGTERM), 0);
   // New calls are refused once the drain began.
   std::this_thread::sleep_for(std::chrono::milliseconds(50));
