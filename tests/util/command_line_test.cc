@@ -45,12 +45,13 @@ Result RunTool(std::vector<std::string> args) {
   run->add_option("--flavour", r.flavour)->check(OneOf<Flavour>());
   double ratio = 0;
   run->add_option("--ratio", ratio)->check(NumberIn(0, 1, /*above_lo=*/true));
-  run->add_option("--even", ratio)->check(Accepts(
-      [](const std::string& v) {
-        return v.size() % 2 == 0 ? absl::OkStatus()
-                                 : absl::InvalidArgumentError("odd length");
-      },
-      "TEXT"));
+  run->add_option("--even", ratio)
+      ->check(Accepts(
+          [](const std::string& v) {
+            return v.size() % 2 == 0 ? absl::OkStatus()
+                                     : absl::InvalidArgumentError("odd length");
+          },
+          "TEXT"));
   args.insert(args.begin(), "tool");
   std::vector<const char*> argv;
   for (const std::string& a : args) argv.push_back(a.c_str());
