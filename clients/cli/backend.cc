@@ -1,10 +1,11 @@
 #include "clients/cli/backend.h"
 
 #include <chrono>
-#include <deque>
-#include <mutex>
+#include <functional>
+#include <memory>
 
 #include "absl/strings/str_cat.h"
+#include "absl/types/span.h"
 #include "api/atoms.h"
 #include "api/records.h"
 #include "grpcpp/grpcpp.h"
@@ -13,6 +14,39 @@
 
 namespace shellwright::cli {
 namespace {
+
+// The engine, on the calling thread.
+class InProcessBatchProcessor final : public BatchProcessor {
+ public:
+  explicit InProcessBatchProcessor(ReportLineFormat format) : format_(format) {}
+
+  absl::Status Process(absl::Span<const ParsedLine> lines,
+                       ReportLines* out) override {
+    // Reports go straight from the engine to text: building a message per
+    // record would cost as much as analysing it.
+    for (const ParsedLine& line : lines) {
+      if (line.error.empty()) {
+        AddReport(format_,
+                  AnalyzeComposition(CompositionInputFromProto(line.record)),
+                  line.record, out);
+      } else {
+        AddMalformed(line, out);
+      }
+    }
+    return absl::OkStatus();
+  }
+
+  absl::Status Finish() override { return absl::OkStatus(); }
+
+ private:
+  void AddMalformed(const ParsedLine& line, ReportLines* out) {
+    MalformedRecordReport(line.record, line.error, &malformed_);
+    AddReport(format_, malformed_, out);
+  }
+
+  const ReportLineFormat format_;
+  v1::RecordReport malformed_;  // Reused.
+};
 
 class InProcessBackend final : public Backend {
  public:
@@ -29,6 +63,11 @@ class InProcessBackend final : public Backend {
     AnalyzeRecord(record, report);
     return absl::OkStatus();
   }
+  std::unique_ptr<BatchProcessor> NewBatchProcessor(
+      ReportLineFormat format) override {
+    return std::make_unique<InProcessBatchProcessor>(format);
+  }
+  int DefaultBatchSize() const override { return 256; }
 };
 
 absl::Status FromGrpc(const grpc::Status& s) {
@@ -37,51 +76,97 @@ absl::Status FromGrpc(const grpc::Status& s) {
                       s.error_message());
 }
 
-class RemoteRecordStream final : public Backend::RecordStream {
+// One AnalyzeRecords stream, one batch in flight at a time: the records
+// of a batch's readable lines go out as one RecordBatch, and their reports
+// come back in order. `open` makes the stream's context (deadline, token).
+class RemoteBatchProcessor final : public BatchProcessor {
  public:
-  RemoteRecordStream(v1::ElectronStructure::Stub* stub,
-                     std::unique_ptr<grpc::ClientContext> context)
-      : context_(std::move(context)),
-        stream_(stub->AnalyzeRecords(context_.get())) {}
-  bool Write(const v1::RecordBatch& batch) override {
-    {
-      std::lock_guard<std::mutex> lock(mu_);
-      expected_.push_back(batch.records_size());
+  using OpenContext = std::function<std::unique_ptr<grpc::ClientContext>()>;
+
+  RemoteBatchProcessor(v1::ElectronStructure::Stub* stub, OpenContext open,
+                       ReportLineFormat format)
+      : stub_(stub), open_(std::move(open)), format_(format) {}
+
+  absl::Status Process(absl::Span<const ParsedLine> lines,
+                       ReportLines* out) override {
+    request_.Clear();
+    for (const ParsedLine& line : lines) {
+      if (line.error.empty()) *request_.add_records() = line.record;
     }
-    return stream_->Write(batch);
-  }
-  // The server answers a batch in several ReportBatch messages when one
-  // would pass a default client's 4 MiB limit; they are joined here, so a
-  // caller sees one ReportBatch per RecordBatch.
-  bool Read(v1::ReportBatch* batch) override {
-    int expected = 0;
-    {
-      std::lock_guard<std::mutex> lock(mu_);
-      if (!expected_.empty()) {
-        expected = expected_.front();
-        expected_.pop_front();
+    if (request_.records_size() > 0) {
+      if (stream_ == nullptr) {
+        context_ = open_();
+        stream_ = stub_->AnalyzeRecords(context_.get());
+      }
+      if (!stream_->Write(request_)) return Broken("sending a batch");
+      if (!ReadAnswer(request_.records_size())) {
+        return Broken("reading the answer to a batch");
       }
     }
-    if (!stream_->Read(batch)) return false;
-    v1::ReportBatch part;
-    while (batch->reports_size() < expected) {
-      if (!stream_->Read(&part)) return false;
-      if (part.reports_size() == 0) return true;  // Not ours: let it fail.
-      for (v1::RecordReport& report : *part.mutable_reports()) {
-        batch->add_reports()->Swap(&report);
+    int k = 0;
+    for (const ParsedLine& line : lines) {
+      if (line.error.empty()) {
+        AddReport(format_, reply_.reports(k++), out);
+      } else {
+        MalformedRecordReport(line.record, line.error, &malformed_);
+        AddReport(format_, malformed_, out);
+      }
+    }
+    return absl::OkStatus();
+  }
+
+  absl::Status Finish() override {
+    if (stream_ == nullptr) return absl::OkStatus();
+    stream_->WritesDone();
+    absl::Status status = FromGrpc(stream_->Finish());
+    stream_ = nullptr;
+    return status;
+  }
+
+ private:
+  // Reads the answer to the batch just sent into reply_: `expected`
+  // reports, which the server sends in several ReportBatch messages when
+  // one would pass a default client's 4 MiB limit. False when the stream
+  // ends or a message would take the count past `expected`.
+  bool ReadAnswer(int expected) {
+    reply_.Clear();
+    while (reply_.reports_size() < expected) {
+      if (!stream_->Read(&part_) || part_.reports_size() == 0 ||
+          reply_.reports_size() + part_.reports_size() > expected) {
+        return false;
+      }
+      for (v1::RecordReport& report : *part_.mutable_reports()) {
+        reply_.add_reports()->Swap(&report);
       }
     }
     return true;
   }
-  bool WritesDone() override { return stream_->WritesDone(); }
-  absl::Status Finish() override { return FromGrpc(stream_->Finish()); }
 
- private:
-  std::mutex mu_;
-  std::deque<int> expected_;  // Records of each batch not yet answered.
+  // The stream's own status when it has one (UNAUTHENTICATED, ...), else
+  // what was being done when it broke.
+  absl::Status Broken(absl::string_view doing) {
+    context_->TryCancel();
+    absl::Status status = FromGrpc(stream_->Finish());
+    stream_ = nullptr;
+    if (!status.ok() && status.code() != absl::StatusCode::kCancelled) {
+      return status;
+    }
+    return absl::DataLossError(
+        absl::StrCat("the server's stream broke while ", doing,
+                     " (a reply missing or with the wrong number of reports)"));
+  }
+
+  v1::ElectronStructure::Stub* const stub_;
+  const OpenContext open_;
+  const ReportLineFormat format_;
   std::unique_ptr<grpc::ClientContext> context_;
   std::unique_ptr<grpc::ClientReaderWriter<v1::RecordBatch, v1::ReportBatch>>
       stream_;
+  // Reused between batches.
+  v1::RecordBatch request_;
+  v1::ReportBatch reply_;
+  v1::ReportBatch part_;
+  v1::RecordReport malformed_;
 };
 
 class RemoteBackend final : public Backend {
@@ -100,12 +185,19 @@ class RemoteBackend final : public Backend {
     return FromGrpc(stub_->AnalyzeCompound(&context, record, report));
   }
 
-  std::unique_ptr<RecordStream> OpenRecordStream() override {
-    auto context = std::make_unique<grpc::ClientContext>();
-    Prepare(context.get(), stream_timeout_);
-    return std::make_unique<RemoteRecordStream>(stub_.get(),
-                                                std::move(context));
+  std::unique_ptr<BatchProcessor> NewBatchProcessor(
+      ReportLineFormat format) override {
+    return std::make_unique<RemoteBatchProcessor>(
+        stub_.get(),
+        [this] {
+          auto context = std::make_unique<grpc::ClientContext>();
+          Prepare(context.get(), stream_timeout_);
+          return context;
+        },
+        format);
   }
+
+  int DefaultBatchSize() const override { return 500; }
 
   absl::Status DescribeAtom(const v1::DescribeAtomRequest& request,
                             v1::AtomDescription* response) override {

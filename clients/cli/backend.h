@@ -1,6 +1,7 @@
 // Where the CLI gets its answers: the in-process engine (the default) or a
-// shellwrightd server (--server). Both speak shellwright.v1 messages, so the
-// CLI formats their answers identically.
+// shellwrightd server (--server). Both speak shellwright.v1 messages, and
+// both answer `check`'s batches through a BatchProcessor, so the CLI
+// formats their answers identically.
 //
 // Example:
 //
@@ -22,6 +23,8 @@
 #include "absl/status/status.h"
 #include "absl/status/statusor.h"
 #include "absl/time/time.h"
+#include "clients/cli/batch_processor.h"
+#include "clients/cli/report_lines.h"
 #include "shellwright/v1/electron_structure.pb.h"
 
 namespace shellwright::cli {
@@ -37,21 +40,19 @@ class Backend {
   virtual absl::Status AnalyzeCompound(const v1::CompositionRecord& record,
                                        v1::RecordReport* report) = 0;
 
-  // A bidirectional AnalyzeRecords stream, for remote backends; nullptr for
-  // the in-process backend, where `check` runs its own worker threads.
-  class RecordStream {
-   public:
-    virtual ~RecordStream() = default;
-    // Returns false when the stream is broken (then call Finish()).
-    virtual bool Write(const v1::RecordBatch& batch) = 0;
-    // The whole answer to the oldest batch written and not yet read, even
-    // when the server sent it in several messages.
-    virtual bool Read(v1::ReportBatch* batch) = 0;
-    // Half-closes the sending side. Thread-safe against Read.
-    virtual bool WritesDone() = 0;
-    virtual absl::Status Finish() = 0;
-  };
-  virtual std::unique_ptr<RecordStream> OpenRecordStream() { return nullptr; }
+  // A processor for `check`'s batches (batch_processor.h) that writes
+  // report lines in `format`; `check` makes one per worker thread. The
+  // in-process one runs the engine on the calling thread. A remote one
+  // owns one AnalyzeRecords stream, opened on its first batch, so N
+  // workers keep N batches in flight on N streams. (A backend over several
+  // replicas would spread its processors' streams over them, and re-send a
+  // failed stream's batch to another replica before reporting an error.)
+  virtual std::unique_ptr<BatchProcessor> NewBatchProcessor(
+      ReportLineFormat format) = 0;
+
+  // Records per `check` batch when the user sets none: 256 in process
+  // (less output in flight), 500 remote (fewer, larger messages).
+  virtual int DefaultBatchSize() const = 0;
 };
 
 std::unique_ptr<Backend> MakeInProcessBackend();
@@ -64,7 +65,7 @@ struct RemoteOptions {
   std::string tls_server_name;  // Overrides the name checked in the cert.
   std::string token_file;       // Bearer token, sent as authorization.
   absl::Duration timeout = absl::Seconds(30);  // Per-call deadline.
-  // Deadline for a whole AnalyzeRecords stream.
+  // Deadline for a whole AnalyzeRecords stream (one per check worker).
   absl::Duration stream_timeout = absl::Hours(24);
 };
 

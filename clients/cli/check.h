@@ -1,48 +1,38 @@
 // `shellwright check`: batch validation of composition records.
 //
-// Streams records from CSV or JSONL (see record_io.h) through the engine on
-// worker threads, or through a server's AnalyzeRecords stream, and writes
-// exactly one report per input record, in input order, as JSONL or CSV.
-// Memory stays bounded whatever the input size: at most a few batches per
-// worker are in flight. A summary (valid and invalid counts, counts by
-// diagnostic code) goes to `log`; a progress line too when `progress`.
+// A short driver over its parts:
+//   RecordInput (check_io.h)  -> batches of lines, on a reader thread;
+//   RecordParser + BatchProcessor (batch_processor.h), on worker threads:
+//     records answered by the engine or by a server's stream, as lines;
+//   ReportOutput (check_io.h) <- the lines, in input order, on the caller.
+// OrderedPipeline (ordered_pipeline.h) keeps the order and bounds the
+// batches in flight, so memory stays constant whatever the input size.
+// Exactly one report per input record. A summary (valid and invalid
+// counts, counts by diagnostic code) goes to `log`; a progress line too
+// when `progress`.
 //
 // Example:
 //
 //   shellwright::cli::CheckOptions options;
 //   options.input = "data/demo/sample_registry.csv";
 //   options.output = "reports.jsonl";
-//   absl::StatusOr<shellwright::cli::CheckSummary> summary =
-//       shellwright::cli::RunCheck(options, /*remote=*/nullptr, std::cerr);
+//   std::unique_ptr<shellwright::cli::Backend> engine =
+//       shellwright::cli::MakeInProcessBackend();
+//   absl::StatusOr<shellwright::cli::ReportCounts> summary =
+//       shellwright::cli::RunCheck(options, *engine, std::cerr);
 //
 // Thread safety: RunCheck may be called from one thread at a time.
 
 #ifndef SHELLWRIGHT_CLIENTS_CLI_CHECK_H_
 #define SHELLWRIGHT_CLIENTS_CLI_CHECK_H_
 
-#include <cstdint>
-#include <map>
 #include <ostream>
 #include <string>
 
 #include "absl/status/statusor.h"
 #include "clients/cli/backend.h"
-#include "util/enum_names.h"
-
-namespace shellwright::cli {
-
-// How records and reports are written. kAuto: by the file's extension.
-enum class RecordFormat { kAuto, kCsv, kJsonl };
-
-}  // namespace shellwright::cli
-
-// The names users give (--format, --out-format); kAuto is the absence of one.
-template <>
-struct shellwright::EnumNames<shellwright::cli::RecordFormat> {
-  static constexpr absl::string_view kWhat = "format";
-  static constexpr NamedValue<cli::RecordFormat> kNames[] = {
-      {cli::RecordFormat::kCsv, "csv"}, {cli::RecordFormat::kJsonl, "jsonl"}};
-};
+#include "clients/cli/check_io.h"
+#include "clients/cli/report_lines.h"
 
 namespace shellwright::cli {
 
@@ -51,10 +41,9 @@ struct CheckOptions {
   std::string output = "-";  // Path, or "-" for standard output.
   RecordFormat input_format = RecordFormat::kAuto;   // By extension.
   RecordFormat output_format = RecordFormat::kAuto;  // By extension; JSONL.
-  int jobs = 0;  // Worker threads; 0 means all cores.
-  // Records per batch (and per stream message). 0 picks 256 in-process
-  // (smaller batches keep less output in flight) and 500 for a server
-  // (fewer, larger messages).
+  // Worker threads (with a server: streams); 0 means all cores.
+  int jobs = 0;
+  // Records per batch (and per stream message); 0: the backend's default.
   int batch_size = 0;
   bool progress = false;
   // Alternatives asked for on records that do not set max_alternatives.
@@ -62,21 +51,19 @@ struct CheckOptions {
   int default_alternatives = 0;
 };
 
-struct CheckSummary {
-  int64_t rows = 0;
-  int64_t valid = 0;
-  int64_t invalid = 0;
-  std::map<std::string, int64_t> by_code;  // Diagnostic code -> count.
-};
+// Runs check: reads records, answers them through `backend` (one batch
+// processor per worker), writes one report per record in input order.
+// Returns the counts, or INVALID_ARGUMENT for usage problems (unknown
+// format, a CSV header without id or formula), NOT_FOUND,
+// PERMISSION_DENIED, DATA_LOSS and the like for I/O failures, and the
+// transport's status when a server fails. Bad records are never errors:
+// they get error reports.
+absl::StatusOr<ReportCounts> RunCheck(const CheckOptions& options,
+                                      Backend& backend, std::ostream& log);
 
-// INVALID_ARGUMENT for usage problems (unknown format, CSV header without
-// id/formula), UNAVAILABLE/NOT_FOUND and the like for I/O and transport
-// failures. Bad records are never errors: they get error reports.
-absl::StatusOr<CheckSummary> RunCheck(const CheckOptions& options,
-                                      Backend* remote, std::ostream& log);
-
-// "3000 rows: 2700 valid, 300 invalid" plus one line per code.
-std::string FormatSummary(const CheckSummary& summary);
+// "3000 rows: 2700 valid, 300 invalid" plus one line per code, and the
+// moment caution.
+std::string FormatSummary(const ReportCounts& summary);
 
 }  // namespace shellwright::cli
 

@@ -540,4 +540,29 @@ void AppendReportLine(ReportLineFormat format, const CompositionReport& r,
   out->append(w.text().data(), w.text().size());
 }
 
+void ReportCounts::Add(const ReportCounts& other) {
+  rows += other.rows;
+  valid += other.valid;
+  invalid += other.invalid;
+  for (const auto& [code, count] : other.by_code) by_code[code] += count;
+}
+
+void AddReport(ReportLineFormat format, const v1::RecordReport& report,
+               ReportLines* out) {
+  AppendReportLine(format, report, &out->text);
+  ReportCounts& c = out->counts;
+  ++c.rows;
+  ++(report.valid() ? c.valid : c.invalid);
+  for (const v1::Diagnostic& d : report.diagnostics()) ++c.by_code[d.code()];
+}
+
+void AddReport(ReportLineFormat format, const CompositionReport& report,
+               const v1::CompositionRecord& record, ReportLines* out) {
+  AppendReportLine(format, report, record, &out->text);
+  ReportCounts& c = out->counts;
+  ++c.rows;
+  ++(report.valid ? c.valid : c.invalid);
+  for (const Diagnostic& d : report.diagnostics) ++c.by_code[d.code];
+}
+
 }  // namespace shellwright::cli

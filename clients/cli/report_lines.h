@@ -18,6 +18,8 @@
 #ifndef SHELLWRIGHT_CLIENTS_CLI_REPORT_LINES_H_
 #define SHELLWRIGHT_CLIENTS_CLI_REPORT_LINES_H_
 
+#include <cstdint>
+#include <map>
 #include <string>
 
 #include "engine/composition.h"
@@ -26,6 +28,23 @@
 namespace shellwright::cli {
 
 enum class ReportLineFormat { kJsonl, kCsv };
+
+// Counts of reports by verdict and diagnostic code: `check`'s summary.
+struct ReportCounts {
+  int64_t rows = 0;
+  int64_t valid = 0;
+  int64_t invalid = 0;
+  std::map<std::string, int64_t> by_code;  // Diagnostic code -> count.
+
+  // Adds `other`'s counts to these.
+  void Add(const ReportCounts& other);
+};
+
+// The lines of a batch of reports, and their counts.
+struct ReportLines {
+  std::string text;
+  ReportCounts counts;
+};
 
 // The CSV header, without a line break.
 std::string ReportCsvHeader();
@@ -39,6 +58,12 @@ void AppendReportLine(ReportLineFormat format, const v1::RecordReport& report,
 // row and formula.
 void AppendReportLine(ReportLineFormat format, const CompositionReport& report,
                       const v1::CompositionRecord& record, std::string* out);
+
+// AppendReportLine to out->text, and the report counted in out->counts.
+void AddReport(ReportLineFormat format, const v1::RecordReport& report,
+               ReportLines* out);
+void AddReport(ReportLineFormat format, const CompositionReport& report,
+               const v1::CompositionRecord& record, ReportLines* out);
 
 }  // namespace shellwright::cli
 

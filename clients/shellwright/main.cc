@@ -272,7 +272,8 @@ CLI::App* AddCheck(CLI::App* app, CheckFlags* f) {
       ->check(OneOf<RecordFormat>());
   check
       ->add_option("--jobs", f->options.jobs,
-                   "worker threads (default: all cores)")
+                   "worker threads, and with --server streams (default: "
+                   "all cores)")
       ->check(IntegerIn(1, 256));
   check
       ->add_option("--batch-size", f->options.batch_size,
@@ -288,7 +289,7 @@ CLI::App* AddCheck(CLI::App* app, CheckFlags* f) {
   return check;
 }
 
-int RunCheck(CheckFlags& f, Backend* remote) {
+int RunCheck(CheckFlags& f, Backend& backend) {
   // Names were checked while parsing; empty means by extension.
   f.options.input_format =
       ParseName<RecordFormat>(f.format).value_or(RecordFormat::kAuto);
@@ -296,8 +297,8 @@ int RunCheck(CheckFlags& f, Backend* remote) {
       ParseName<RecordFormat>(f.out_format).value_or(RecordFormat::kAuto);
   f.options.progress =
       !f.no_progress && isatty(2) && std::getenv("CI") == nullptr;
-  absl::StatusOr<CheckSummary> summary =
-      cli::RunCheck(f.options, remote, std::cerr);
+  absl::StatusOr<ReportCounts> summary =
+      cli::RunCheck(f.options, backend, std::cerr);
   if (!summary.ok()) {
     std::cerr << "shellwright: check: " << summary.status().message() << "\n";
     return kExitUsage;
@@ -377,8 +378,7 @@ int Main(int argc, char** argv) {
     // time.
     mallopt(M_MMAP_THRESHOLD, 256 << 20);
     mallopt(M_TRIM_THRESHOLD, 512 << 20);
-    return RunCheck(check_flags,
-                    remote.server->count() > 0 ? backend.get() : nullptr);
+    return RunCheck(check_flags, *backend);
   }
   return kExitUsage;  // require_subcommand(1) makes this unreachable.
 }

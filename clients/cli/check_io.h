@@ -1,0 +1,157 @@
+// Where `shellwright check` reads records and writes reports: a file or
+// the standard streams, in a format named by the user or by the file's
+// extension.
+//
+//   - RecordInput reads physical lines in constant memory (record_io.h's
+//     LineSource) and, for CSV, the header up front, so that a bad header
+//     is a usage error before any output is opened.
+//   - RecordParser turns a line into a record (CSV or JSONL), one parser
+//     per worker thread.
+//   - ReportOutput writes report text with every write checked, and
+//     Close() says whether all of it reached the file.
+//
+// Example:
+//
+//   absl::StatusOr<std::unique_ptr<RecordInput>> input =
+//       RecordInput::Open("records.csv", RecordFormat::kAuto);
+//   absl::StatusOr<std::unique_ptr<ReportOutput>> output =
+//       ReportOutput::Open("reports.jsonl");
+//   RecordParser parser(**input, /*default_alternatives=*/0);
+//   std::string line;
+//   int row;
+//   bool too_long;
+//   while ((*input)->NextLine(&line, &row, &too_long)) {
+//     ParsedLine record = parser.Parse(line, row, too_long);
+//     ...
+//   }
+//   absl::Status s = (*output)->Close();
+//
+// Thread safety: RecordInput and ReportOutput are used by one thread at a
+// time; RecordParser is not thread-safe (one per thread).
+
+#ifndef SHELLWRIGHT_CLIENTS_CLI_CHECK_IO_H_
+#define SHELLWRIGHT_CLIENTS_CLI_CHECK_IO_H_
+
+#include <cstdint>
+#include <fstream>
+#include <istream>
+#include <memory>
+#include <string>
+
+#include "absl/status/status.h"
+#include "absl/status/statusor.h"
+#include "absl/strings/string_view.h"
+#include "clients/cli/record_io.h"
+#include "util/enum_names.h"
+
+namespace shellwright::cli {
+
+// How records and reports are written. kAuto: by the file's extension.
+enum class RecordFormat { kAuto, kCsv, kJsonl };
+
+}  // namespace shellwright::cli
+
+// The names users give (--format, --out-format); kAuto is the absence of
+// one.
+template <>
+struct shellwright::EnumNames<shellwright::cli::RecordFormat> {
+  static constexpr absl::string_view kWhat = "format";
+  static constexpr NamedValue<cli::RecordFormat> kNames[] = {
+      {cli::RecordFormat::kCsv, "csv"}, {cli::RecordFormat::kJsonl, "jsonl"}};
+};
+
+namespace shellwright::cli {
+
+// `given`, or the format `path`'s extension names (.csv; .jsonl, .ndjson,
+// .json). INVALID_ARGUMENT when neither says.
+absl::StatusOr<RecordFormat> InputFormat(const std::string& path,
+                                         RecordFormat given);
+
+// `given`, or the format `path`'s extension names, or JSONL.
+RecordFormat OutputFormat(const std::string& path, RecordFormat given);
+
+// The records' lines, from a file or standard input.
+class RecordInput {
+ public:
+  // Opens `path` ("-": standard input) in `format` (kAuto: by extension)
+  // and, for CSV, reads the header. NOT_FOUND when the file cannot be
+  // opened; INVALID_ARGUMENT for an unknown format or a bad header.
+  static absl::StatusOr<std::unique_ptr<RecordInput>> Open(
+      const std::string& path, RecordFormat format);
+
+  RecordInput(const RecordInput&) = delete;
+  RecordInput& operator=(const RecordInput&) = delete;
+
+  // The next physical line after the header (empty ones included, so that
+  // rows keep counting them). False at the end or on a read error (see
+  // status()).
+  bool NextLine(std::string* line, int* row, bool* too_long);
+
+  // OK, or DATA_LOSS once a read has failed.
+  absl::Status status() const;
+
+  RecordFormat format() const { return format_; }
+  // The header's columns (CSV only).
+  const CsvRecordReader& csv() const { return csv_; }
+  // Bytes read so far, and the file's size (0 when unknown: a pipe).
+  int64_t bytes_read() const { return lines_.bytes_read(); }
+  int64_t size() const { return size_; }
+
+ private:
+  RecordInput(std::unique_ptr<std::ifstream> file, RecordFormat format,
+              int64_t size);
+
+  std::unique_ptr<std::ifstream> file_;  // Null for standard input.
+  LineSource lines_;
+  const RecordFormat format_;
+  const int64_t size_;
+  CsvRecordReader csv_;
+};
+
+// Turns lines into records: CSV per the input's header, or JSONL. A line
+// that cannot be read becomes a ParsedLine with its error set.
+class RecordParser {
+ public:
+  // `default_alternatives`: max_alternatives for records that set none.
+  RecordParser(const RecordInput& input, int default_alternatives);
+
+  ParsedLine Parse(absl::string_view line, int row, bool too_long);
+
+ private:
+  const RecordFormat format_;
+  CsvRecordReader csv_;  // A copy per parser: it keeps scratch buffers.
+  const int default_alternatives_;
+};
+
+// Where report text goes: a file (created or truncated) or standard
+// output.
+class ReportOutput {
+ public:
+  // Opens `path` ("-": standard output) for writing. PERMISSION_DENIED
+  // (or the like) naming the path when it cannot be opened.
+  static absl::StatusOr<std::unique_ptr<ReportOutput>> Open(
+      const std::string& path);
+
+  ~ReportOutput();  // Closes the file if Close() was not called.
+  ReportOutput(const ReportOutput&) = delete;
+  ReportOutput& operator=(const ReportOutput&) = delete;
+
+  // Writes all of `text`, or returns an error naming the output and the
+  // system's reason (a full disk, a closed pipe).
+  absl::Status Write(absl::string_view text);
+
+  // Ends the output: closes a file, checking that every byte was taken.
+  // Call once, after the last Write.
+  absl::Status Close();
+
+ private:
+  ReportOutput(int fd, std::string name);
+
+  int fd_;                  // -1 once closed.
+  const bool owned_;        // A file we opened, not standard output.
+  const std::string name_;  // For messages.
+};
+
+}  // namespace shellwright::cli
+
+#endif  // SHELLWRIGHT_CLIENTS_CLI_CHECK_IO_H_

@@ -1,0 +1,112 @@
+// Tests for clients/cli/check_io.h: formats from names and extensions,
+// opening inputs (the CSV header first), parsing lines, and checked
+// writes.
+
+#include "clients/cli/check_io.h"
+
+#include <string>
+
+#include "gmock/gmock.h"
+#include "gtest/gtest.h"
+#include "tests/testing/temp_dir.h"
+
+namespace shellwright::cli {
+namespace {
+
+using ::testing::HasSubstr;
+
+TEST(CheckIo, FormatsComeFromTheFlagOrTheExtension) {
+  EXPECT_EQ(*InputFormat("a.csv", RecordFormat::kAuto), RecordFormat::kCsv);
+  EXPECT_EQ(*InputFormat("a.CSV", RecordFormat::kAuto), RecordFormat::kCsv);
+  EXPECT_EQ(*InputFormat("a.ndjson", RecordFormat::kAuto),
+            RecordFormat::kJsonl);
+  EXPECT_EQ(*InputFormat("a.txt", RecordFormat::kCsv), RecordFormat::kCsv);
+  absl::StatusOr<RecordFormat> unknown = InputFormat("-", RecordFormat::kAuto);
+  EXPECT_EQ(unknown.status().code(), absl::StatusCode::kInvalidArgument);
+  EXPECT_THAT(std::string(unknown.status().message()), HasSubstr("--format"));
+  EXPECT_EQ(OutputFormat("out.csv", RecordFormat::kAuto), RecordFormat::kCsv);
+  EXPECT_EQ(OutputFormat("-", RecordFormat::kAuto), RecordFormat::kJsonl);
+  EXPECT_EQ(OutputFormat("out.csv", RecordFormat::kJsonl),
+            RecordFormat::kJsonl);
+}
+
+TEST(CheckIo, InputReadsTheCsvHeaderFirst) {
+  testing::TempDir dir;
+  EXPECT_EQ(RecordInput::Open(dir.File("absent.csv"), RecordFormat::kAuto)
+                .status()
+                .code(),
+            absl::StatusCode::kNotFound);
+  absl::StatusOr<std::unique_ptr<RecordInput>> no_formula = RecordInput::Open(
+      dir.Write("no_formula.csv", "id,charge\na,1\n"), RecordFormat::kAuto);
+  EXPECT_EQ(no_formula.status().code(), absl::StatusCode::kInvalidArgument);
+  EXPECT_THAT(std::string(no_formula.status().message()), HasSubstr("formula"));
+  EXPECT_THAT(std::string(RecordInput::Open(dir.Write("empty.csv", "\n\n"),
+                                            RecordFormat::kAuto)
+                              .status()
+                              .message()),
+              HasSubstr("no header"));
+
+  // Lines after the header keep their physical row numbers.
+  absl::StatusOr<std::unique_ptr<RecordInput>> input =
+      RecordInput::Open(dir.Write("ok.csv", "\nid,formula\na,NaCl\n\nb,MgO\n"),
+                        RecordFormat::kAuto);
+  ASSERT_TRUE(input.ok()) << input.status();
+  EXPECT_EQ((*input)->format(), RecordFormat::kCsv);
+  EXPECT_GT((*input)->size(), 0);
+  RecordParser parser(**input, /*default_alternatives=*/3);
+  std::string line;
+  int row = 0;
+  bool too_long = false;
+  std::vector<ParsedLine> records;
+  while ((*input)->NextLine(&line, &row, &too_long)) {
+    if (!line.empty()) records.push_back(parser.Parse(line, row, too_long));
+  }
+  EXPECT_TRUE((*input)->status().ok());
+  ASSERT_EQ(records.size(), 2u);
+  EXPECT_EQ(records[0].record.formula(), "NaCl");
+  EXPECT_EQ(records[0].record.row(), 3);
+  EXPECT_EQ(records[1].record.id(), "b");
+  EXPECT_EQ(records[1].record.row(), 5);
+  EXPECT_EQ(records[1].record.max_alternatives(), 3);
+}
+
+TEST(CheckIo, ParserReadsJsonlAndFlagsCutLines) {
+  testing::TempDir dir;
+  absl::StatusOr<std::unique_ptr<RecordInput>> input =
+      RecordInput::Open(dir.Write("in.jsonl", ""), RecordFormat::kAuto);
+  ASSERT_TRUE(input.ok()) << input.status();
+  RecordParser parser(**input, 0);
+  ParsedLine good = parser.Parse(
+      R"({"id":"j","formula":"KBr","max_alternatives":2})", 1, false);
+  EXPECT_TRUE(good.error.empty()) << good.error;
+  EXPECT_EQ(good.record.max_alternatives(), 2);  // Its own, not the default.
+  ParsedLine cut = parser.Parse(R"({"id":"j","formula":"KBr"})", 2, true);
+  EXPECT_THAT(cut.error, HasSubstr("longer than"));
+  EXPECT_FALSE(parser.Parse("not json", 3, false).error.empty());
+}
+
+TEST(CheckIo, OutputWritesEveryByteAndReportsFailures) {
+  testing::TempDir dir;
+  absl::StatusOr<std::unique_ptr<ReportOutput>> out =
+      ReportOutput::Open(dir.File("out.jsonl"));
+  ASSERT_TRUE(out.ok()) << out.status();
+  const std::string text(1 << 20, 'x');
+  EXPECT_TRUE((*out)->Write(text).ok());
+  EXPECT_TRUE((*out)->Write("\n").ok());
+  EXPECT_TRUE((*out)->Close().ok());
+  EXPECT_EQ(testing::ReadFile(dir.File("out.jsonl")), text + "\n");
+  EXPECT_FALSE((*out)->Close().ok());  // Once only.
+
+  EXPECT_FALSE(ReportOutput::Open(dir.File("no/such/dir/out.csv")).ok());
+  // A full device: the write fails, naming the output.
+  absl::StatusOr<std::unique_ptr<ReportOutput>> full =
+      ReportOutput::Open("/dev/full");
+  if (full.ok()) {
+    absl::Status s = (*full)->Write("report\n");
+    EXPECT_FALSE(s.ok());
+    EXPECT_THAT(std::string(s.message()), HasSubstr("/dev/full"));
+  }
+}
+
+}  // namespace
+}  // namespace shellwright::cli
