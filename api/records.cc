@@ -2,8 +2,10 @@
 
 #include <algorithm>
 #include <string>
+#include <type_traits>
 
 #include "absl/strings/str_cat.h"
+#include "api/report_view.h"
 #include "engine/diagnostic_codes.h"
 #include "engine/formula.h"
 #include "util/utf8.h"
@@ -11,14 +13,49 @@
 namespace shellwright {
 namespace {
 
-void AssignedToProto(const AssignedState& s, v1::OxidationState* out) {
-  out->set_element(std::string(s.element->symbol));
-  out->set_state(s.state);
-  out->set_count(s.count.ToDouble());
-  out->set_count_exact(s.count.ToString());
-  out->set_common(s.common);
-  out->set_declared(s.declared);
-}
+// Builds a message from VisitRecordReport's calls, through each field's
+// setter and adder.
+template <typename Message>
+class ProtoBuilder : public FieldByFieldVisitor<ProtoBuilder<Message>> {
+ public:
+  explicit ProtoBuilder(Message* message) : message_(message) {}
+
+  template <typename F>
+  void String(const F& f, absl::string_view v) {
+    f.set(message_, v);
+  }
+  template <typename F>
+  void Int(const F& f, int32_t v) {
+    f.set(message_, v);
+  }
+  template <typename F>
+  void Double(const F& f, double v) {
+    f.set(message_, v);
+  }
+  template <typename F>
+  void Bool(const F& f, bool v) {
+    f.set(message_, v);
+  }
+  template <typename F, typename Items, typename Visit>
+  void Messages(const F& f, const Items& items, Visit visit) {
+    for (const auto& item : items) {
+      auto* child = f.add(message_);
+      ProtoBuilder<std::remove_pointer_t<decltype(child)>> builder(child);
+      visit(item, builder);
+    }
+  }
+  template <typename F>
+  void VaryingNumber(const F& f, int i) {
+    f.set(message_, this->varying(i).number);
+  }
+  template <typename F>
+  void VaryingExact(const F& f, int i) {
+    f.set(message_, this->varying(i).exact.ToString());
+  }
+
+ private:
+  Message* const message_;
+};
 
 }  // namespace
 
@@ -44,75 +81,12 @@ CompositionInput CompositionInputFromProto(
   return in;
 }
 
-void IonAnnotationToProto(const IonAnnotation& ion, v1::IonReport* p) {
-  p->Clear();
-  const AtomDescription& d = *ion.description;
-  p->set_element(std::string(ion.element->symbol));
-  p->set_state(ion.state);
-  p->set_count(ion.count.ToDouble());
-  p->set_species(FormatSpecies(ion.element->symbol, ion.state));
-  p->set_configuration(d.configuration_notation);
-  p->set_unpaired_electrons(d.unpaired_electrons);
-  if (d.ligand_field.has_value()) {
-    const LigandFieldSplitting& lf = d.ligand_field->splitting;
-    p->set_geometry(std::string(Name(lf.geometry)));
-    p->set_spin_state(std::string(Name(lf.spin_state)));
-    p->set_ligand_field_occupancy(lf.Notation());
-  } else {
-    p->set_geometry(std::string(Name(Geometry::kFree)));
-  }
-  p->set_term_symbol(d.term.ToAscii());
-  p->set_moment(ion.moment);
-  p->set_moment_basis(std::string(Name(d.moments.recommended_basis)));
-  p->set_moment_low(ion.moment_low);
-  p->set_moment_high(ion.moment_high);
-}
-
-absl::string_view EchoedFormula(const v1::CompositionRecord& record) {
-  return Utf8Prefix(record.formula(), kMaxFormulaLength);
-}
-
-void RecordReportToProto(const CompositionReport& r,
+void RecordReportToProto(const CompositionReport& report,
                          const v1::CompositionRecord& record,
                          v1::RecordReport* out) {
   out->Clear();
-  out->set_id(r.id);
-  out->set_valid(r.valid);
-  out->set_row(record.row());
-  out->set_formula(std::string(EchoedFormula(record)));
-  for (const Diagnostic& d : r.diagnostics) {
-    v1::Diagnostic* p = out->add_diagnostics();
-    p->set_severity(std::string(Name(d.severity)));
-    p->set_code(d.code);
-    p->set_message(d.message);
-    p->set_column(d.column);
-  }
-  if (!r.assignment.has_value()) return;
-  out->set_composition_kind(std::string(Name(r.kind)));
-  for (const AssignedState& s : r.assignment->states) {
-    AssignedToProto(s, out->add_oxidation_states());
-  }
-  out->set_score(r.assignment->score);
-  for (const OxidationAssignment& a : r.alternatives) {
-    v1::OxidationAssignment* p = out->add_alternatives();
-    for (const AssignedState& s : a.states) {
-      AssignedToProto(s, p->add_oxidation_states());
-    }
-    p->set_score(a.score);
-    p->set_uncommon_states(a.uncommon_states);
-    p->set_electronegativity_inconsistencies(
-        a.electronegativity_inconsistencies);
-  }
-  for (const IonAnnotation& ion : r.ions) {
-    IonAnnotationToProto(ion, out->add_ions());
-  }
-  out->set_unpaired_per_formula_unit(r.unpaired_per_formula_unit);
-  out->set_effective_moment_per_formula_unit(
-      r.effective_moment_per_formula_unit);
-  out->set_expected_moment_low(r.expected_moment_low);
-  out->set_expected_moment_high(r.expected_moment_high);
-  out->set_curie_constant(r.curie_constant);
-  out->set_valence_electron_concentration(r.valence_electron_concentration);
+  ProtoBuilder<v1::RecordReport> builder(out);
+  VisitRecordReport(report, record, builder);
 }
 
 void AnalyzeRecord(const v1::CompositionRecord& record, v1::RecordReport* out) {

@@ -23,7 +23,9 @@
 
 #include "absl/strings/string_view.h"
 #include "engine/composition.h"
+#include "engine/formula.h"
 #include "shellwright/v1/electron_structure.pb.h"
+#include "util/utf8.h"
 
 namespace shellwright {
 
@@ -41,14 +43,13 @@ CompositionInput CompositionInputFromProto(const v1::CompositionRecord& record);
 
 // The record's formula as a report echoes it: cut to kMaxFormulaLength at a
 // character boundary.
-absl::string_view EchoedFormula(const v1::CompositionRecord& record);
-
-// Fills `out` (cleared first) from one annotated ion. REQUIRES:
-// ion.description is set (AnalyzeComposition always sets it).
-void IonAnnotationToProto(const IonAnnotation& ion, v1::IonReport* out);
+inline absl::string_view EchoedFormula(const v1::CompositionRecord& record) {
+  return Utf8Prefix(record.formula(), kMaxFormulaLength);
+}
 
 // Fills `out` (cleared first) from an engine report; `record` supplies the
-// echoed row and formula.
+// echoed row and formula. The fields are those api/report_view.h's
+// VisitRecordReport walks.
 void RecordReportToProto(const CompositionReport& report,
                          const v1::CompositionRecord& record,
                          v1::RecordReport* out);

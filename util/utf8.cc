@@ -43,14 +43,17 @@ bool IsValidUtf8(absl::string_view text) {
   return true;
 }
 
-absl::string_view Utf8Prefix(absl::string_view text, size_t max_bytes) {
-  if (text.size() <= max_bytes) return text;
+namespace utf8_internal {
+
+absl::string_view CutAtBoundary(absl::string_view text, size_t max_bytes) {
   size_t n = max_bytes;
   // text[n] is the first byte left out: a continuation byte there means
   // the cut falls inside a character.
   while (n > 0 && (static_cast<unsigned char>(text[n]) & 0xC0) == 0x80) --n;
   return text.substr(0, n);
 }
+
+}  // namespace utf8_internal
 
 void ReplaceInvalidUtf8(std::string* text) {
   const std::string& s = *text;

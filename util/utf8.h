@@ -36,7 +36,7 @@ bool IsValidUtf8(absl::string_view text);
 // The longest prefix of `text` of at most `max_bytes` bytes that does not
 // end inside a UTF-8 sequence. Ids, echoed formulas and quoted fields are
 // cut with it.
-absl::string_view Utf8Prefix(absl::string_view text, size_t max_bytes);
+inline absl::string_view Utf8Prefix(absl::string_view text, size_t max_bytes);
 
 // Replaces every byte that does not begin a well-formed sequence with
 // U+FFFD, so that a bad byte costs one replacement character, never the
@@ -48,6 +48,18 @@ void ReplaceInvalidUtf8(std::string* text);
 // to `max_chars` characters with "..." appended, so that hostile input
 // cannot flood a message.
 std::string QuoteForMessage(absl::string_view text, size_t max_chars = 64);
+
+// Implementation details.
+
+namespace utf8_internal {
+absl::string_view CutAtBoundary(absl::string_view text, size_t max_bytes);
+}  // namespace utf8_internal
+
+// Inline: most texts fit, and reports cut every formula they echo.
+inline absl::string_view Utf8Prefix(absl::string_view text, size_t max_bytes) {
+  if (text.size() <= max_bytes) return text;
+  return utf8_internal::CutAtBoundary(text, max_bytes);
+}
 
 }  // namespace shellwright
 

@@ -3,8 +3,9 @@
 // A line is written either from a shellwright.v1.RecordReport (a server's
 // answer) or straight from the engine's CompositionReport (in-process),
 // which skips building a message per record. Both give the same bytes:
-// one layout serves both, the JSON is exactly what the protobuf printer
-// writes for the RecordReport, and tests compare the two paths record by
+// one JSON writer and one CSV writer read either form through
+// api/report_view.h's walk, the JSON is exactly what the protobuf printer
+// writes for the RecordReport, and tests compare the two forms record by
 // record.
 //
 // Example:

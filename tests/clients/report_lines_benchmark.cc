@@ -1,9 +1,16 @@
-// Benchmarks for writing `check` report lines (clients/cli/report_lines.h)
-// from engine reports, without the analysis itself.
+// Benchmarks for writing `check` report lines (clients/cli/report_lines.h),
+// without the analysis itself:
+//   - BM_EngineReportLine: from the engine report (`check` in process);
+//   - BM_MessageReportLine: from a RecordReport message (`check --server`);
+//   - BM_TranslateThenWrite: translating the engine report into an
+//     arena-allocated RecordReport (one arena per 256-record batch), then
+//     writing from the message: what a single, message-only path would
+//     cost in process (docs/performance.md, "Report lines").
 // Run: build/tests/clients/report_lines_benchmark --benchmark_repetitions=5
 //        --benchmark_report_aggregates_only=true
 // Figures go in docs/performance.md.
 
+#include <memory>
 #include <random>
 #include <string>
 #include <vector>
@@ -13,6 +20,7 @@
 #include "benchmark/benchmark.h"
 #include "clients/cli/report_lines.h"
 #include "engine/composition.h"
+#include "google/protobuf/arena.h"
 
 namespace shellwright::cli {
 namespace {
@@ -22,6 +30,7 @@ namespace {
 struct Analysed {
   std::vector<v1::CompositionRecord> records;
   std::vector<CompositionReport> reports;
+  std::vector<v1::RecordReport> messages;
 };
 
 const Analysed& Reports() {
@@ -58,6 +67,8 @@ const Analysed& Reports() {
       record.set_row(i + 2);
       a->reports.push_back(
           AnalyzeComposition(CompositionInputFromProto(record)));
+      a->messages.emplace_back();
+      RecordReportToProto(a->reports.back(), record, &a->messages.back());
       a->records.push_back(std::move(record));
     }
     return a;
@@ -65,23 +76,58 @@ const Analysed& Reports() {
   return *kReports;
 }
 
-void BM_EngineReportLine(benchmark::State& state) {
-  const Analysed& a = Reports();
+// Writes one line per iteration with `write(i, format, &text)`, cycling
+// through the reports; counts the bytes written.
+template <typename Write>
+void WriteLines(benchmark::State& state, Write write) {
   const auto format =
       state.range(0) == 0 ? ReportLineFormat::kJsonl : ReportLineFormat::kCsv;
+  const size_t n = Reports().reports.size();
   std::string text;
   size_t i = 0, bytes = 0;
   for (auto _ : state) {
     if (text.size() > (1 << 20)) text.clear();
     const size_t before = text.size();
-    AppendReportLine(format, a.reports[i], a.records[i], &text);
+    write(i, format, &text);
     bytes += text.size() - before;
-    if (++i == a.reports.size()) i = 0;
+    if (++i == n) i = 0;
   }
   state.SetBytesProcessed(static_cast<int64_t>(bytes));
   state.SetLabel(state.range(0) == 0 ? "jsonl" : "csv");
 }
+
+void BM_EngineReportLine(benchmark::State& state) {
+  const Analysed& a = Reports();
+  WriteLines(state, [&](size_t i, ReportLineFormat format, std::string* out) {
+    AppendReportLine(format, a.reports[i], a.records[i], out);
+  });
+}
 BENCHMARK(BM_EngineReportLine)->Arg(0)->Arg(1);
+
+void BM_MessageReportLine(benchmark::State& state) {
+  const Analysed& a = Reports();
+  WriteLines(state, [&](size_t i, ReportLineFormat format, std::string* out) {
+    AppendReportLine(format, a.messages[i], out);
+  });
+}
+BENCHMARK(BM_MessageReportLine)->Arg(0)->Arg(1);
+
+void BM_TranslateThenWrite(benchmark::State& state) {
+  const Analysed& a = Reports();
+  auto arena = std::make_unique<google::protobuf::Arena>();
+  int in_batch = 0;
+  WriteLines(state, [&](size_t i, ReportLineFormat format, std::string* out) {
+    if (++in_batch == 256) {
+      arena = std::make_unique<google::protobuf::Arena>();
+      in_batch = 0;
+    }
+    auto* message =
+        google::protobuf::Arena::CreateMessage<v1::RecordReport>(arena.get());
+    RecordReportToProto(a.reports[i], a.records[i], message);
+    AppendReportLine(format, *message, out);
+  });
+}
+BENCHMARK(BM_TranslateThenWrite)->Arg(0)->Arg(1);
 
 }  // namespace
 }  // namespace shellwright::cli
