@@ -40,12 +40,12 @@
 // only the name and the JSON key.
 //
 // Example: api/records.cc builds the RecordReport with a visitor that calls
-// each field's setter, and clients/cli/report_lines.cc writes JSON and CSV
-// lines with visitors, from either form:
+// each field's setter; clients/cli/report_lines.cc writes JSON and CSV
+// lines with one visitor each, from either form:
 //
-//   JsonLineWriter json(&line);
-//   shellwright::VisitRecordReport(engine_report, record, json);  // Or:
-//   shellwright::VisitRecordReport(report_message, json);
+//   JsonWriter json(&line);  // A visitor.
+//   shellwright::VisitRecordReport(engine_report, record, json);
+//   shellwright::VisitRecordReport(report_message, json);  // Same text.
 //
 // Thread safety: VisitRecordReport is thread-safe; visitors are the
 // caller's.
