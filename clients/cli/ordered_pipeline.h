@@ -111,15 +111,17 @@ class OrderedPipeline {
     std::lock_guard<std::mutex> lock(mu_);
     if (error_.ok()) error_ = std::move(status);
     stopped_ = true;
-    changed_.notify_all();
+    room_.notify_all();
+    work_.notify_all();
+    sinkable_.notify_all();
   }
 
   void ReadAll(Source& source) {
     while (true) {
       {
         std::unique_lock<std::mutex> lock(mu_);
-        changed_.wait(
-            lock, [&] { return read_ - sunk_ < max_in_flight_ || stopped_; });
+        room_.wait(lock,
+                   [&] { return read_ - sunk_ < max_in_flight_ || stopped_; });
         if (stopped_) return;
       }
       Batch batch;
@@ -131,11 +133,12 @@ class OrderedPipeline {
       std::lock_guard<std::mutex> lock(mu_);
       if (!*more) {
         source_done_ = true;
-        changed_.notify_all();
+        work_.notify_all();      // Idle workers may end.
+        sinkable_.notify_all();  // The sink may have sunk every batch.
         return;
       }
       to_process_.emplace_back(read_++, std::move(batch));
-      changed_.notify_all();
+      work_.notify_one();
     }
   }
 
@@ -144,7 +147,7 @@ class OrderedPipeline {
       std::pair<int64_t, Batch> item;
       {
         std::unique_lock<std::mutex> lock(mu_);
-        changed_.wait(lock, [&] {
+        work_.wait(lock, [&] {
           return !to_process_.empty() || source_done_ || stopped_;
         });
         if (stopped_ || to_process_.empty()) return;
@@ -157,8 +160,9 @@ class OrderedPipeline {
         return;
       }
       std::lock_guard<std::mutex> lock(mu_);
+      // Only the batch the sink is at can let it go on.
+      if (item.first == sunk_) sinkable_.notify_one();
       done_.emplace(item.first, std::move(item.second));
-      changed_.notify_all();
     }
   }
 
@@ -167,7 +171,7 @@ class OrderedPipeline {
       Batch batch;
       {
         std::unique_lock<std::mutex> lock(mu_);
-        changed_.wait(lock, [&] {
+        sinkable_.wait(lock, [&] {
           return done_.count(sunk_) > 0 || stopped_ ||
                  (source_done_ && sunk_ == read_);
         });
@@ -183,19 +187,21 @@ class OrderedPipeline {
       }
       std::lock_guard<std::mutex> lock(mu_);
       ++sunk_;
-      changed_.notify_all();  // Room for the source.
+      room_.notify_one();  // Only the source waits for room.
     }
   }
 
   const int workers_;
   const int64_t max_in_flight_;
 
-  // One lock and one condition for all stages: a change any stage waits
-  // for (a batch read, processed or sunk, the end, a stop) wakes them all,
-  // and each re-checks its own condition. Stages hold the lock only to
-  // move batches, never while running the callbacks.
+  // One lock, and one condition per kind of waiter, signalled by exactly
+  // the changes it waits for (a stop signals all), so that a batch wakes
+  // no thread that cannot use it. Stages hold the lock only to move
+  // batches, never while running the callbacks.
   std::mutex mu_;
-  std::condition_variable changed_;
+  std::condition_variable room_;      // The source: room in flight.
+  std::condition_variable work_;      // Workers: a batch to process.
+  std::condition_variable sinkable_;  // The sink: batch sunk_ is done.
   std::deque<std::pair<int64_t, Batch>> to_process_;  // Guarded by mu_.
   std::map<int64_t, Batch> done_;  // Processed, not yet sunk; by mu_.
   int64_t read_ = 0;               // Batches read; guarded by mu_.

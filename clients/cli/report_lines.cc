@@ -245,7 +245,15 @@ class JsonWriter {
 // Appends `field`, quoted when it holds a comma, a quote or a line break.
 void CsvField(absl::string_view field, std::string* out) {
   out->push_back(',');
-  if (field.find_first_of(",\"\n\r") == absl::string_view::npos) {
+  // A plain scan: find_first_of builds a 256-entry table on every call.
+  bool plain = true;
+  for (char c : field) {
+    if (c == ',' || c == '"' || c == '\n' || c == '\r') {
+      plain = false;
+      break;
+    }
+  }
+  if (plain) {
     out->append(field.data(), field.size());
     return;
   }
