@@ -25,7 +25,8 @@ constexpr GeometryPair kGeometries[] = {
     {v1::GEOMETRY_FREE, Geometry::kFree},
     {v1::GEOMETRY_OCTAHEDRAL, Geometry::kOctahedral},
     {v1::GEOMETRY_TETRAHEDRAL, Geometry::kTetrahedral},
-    {v1::GEOMETRY_SQUARE_PLANAR, Geometry::kSquarePlanar}};
+    {v1::GEOMETRY_SQUARE_PLANAR, Geometry::kSquarePlanar},
+    {v1::GEOMETRY_TRIGONAL_PRISMATIC, Geometry::kTrigonalPrismatic}};
 
 struct SpinPair {
   v1::SpinStatePreference proto;

@@ -167,16 +167,18 @@ struct StateKey {
   const Element* element;
   int state;
   bool common, declared;
+  const Unit* unit;  // Null for a free ion.
 
-  void Keep() {}  // Nothing to hold.
+  void Keep() {}  // Nothing to hold: units live as long as the program.
   bool operator==(const StateKey& o) const {
     return element == o.element && state == o.state && common == o.common &&
-           declared == o.declared;
+           declared == o.declared && unit == o.unit;
   }
   uint64_t Hash() const {
     return (static_cast<uint64_t>(element->atomic_number) * 31u +
             static_cast<uint64_t>(state + 16) * 4u + (common ? 2u : 0u) +
-            (declared ? 1u : 0u));
+            (declared ? 1u : 0u)) ^
+           (reinterpret_cast<uintptr_t>(unit) * 0x9E3779B97F4A7C15ull);
   }
 };
 
@@ -192,6 +194,10 @@ struct IonKey {
   const Element* element;
   int state;
   uint64_t moment, low, high;
+  // The environment: ligand (static), its f, the basis and flags.
+  const Ligand* ligand;
+  uint64_t f;
+  int environment;  // basis x 4 + near x 2 + bonded.
 
   void Keep() {
     if (source != nullptr) kept = *source;
@@ -200,20 +206,26 @@ struct IonKey {
   bool operator==(const IonKey& o) const {
     return description == o.description && element == o.element &&
            state == o.state && moment == o.moment && low == o.low &&
-           high == o.high;
+           high == o.high && ligand == o.ligand && f == o.f &&
+           environment == o.environment;
   }
   uint64_t Hash() const {
     return (reinterpret_cast<uintptr_t>(description) ^
             (moment * 0x9E3779B97F4A7C15ull) ^ (low * 0xC2B2AE3D27D4EB4Full) ^
-            (high * 0x165667B19E3779F9ull) ^ static_cast<uint64_t>(state)) *
+            (high * 0x165667B19E3779F9ull) ^ static_cast<uint64_t>(state) ^
+            (f * 0x27D4EB2F165667C5ull) ^
+            (static_cast<uint64_t>(environment) << 40) ^
+            reinterpret_cast<uintptr_t>(ligand)) *
            0xFF51AFD7ED558CCDull;
   }
 };
 
 template <typename Visitor>
-void VisitState(const AssignedState& s, Visitor& v) {
+void VisitState(const AssignedState& s, const std::vector<AssignedUnit>& units,
+                Visitor& v) {
+  const Unit* unit = s.unit >= 0 ? units[s.unit].unit : nullptr;
   v.Cached(
-      StateKey{s.element, s.state, s.common, s.declared},
+      StateKey{s.element, s.state, s.common, s.declared, unit},
       {VaryingValue::Number(s.count.ToDouble()), VaryingValue::Exact(s.count)},
       [&](auto& v) {
         v.String(SHELLWRIGHT_REPORT_FIELD(element), s.element->symbol);
@@ -222,6 +234,9 @@ void VisitState(const AssignedState& s, Visitor& v) {
         v.VaryingExact(SHELLWRIGHT_REPORT_FIELD(count_exact), 1);
         v.Bool(SHELLWRIGHT_REPORT_FIELD(common), s.common);
         v.Bool(SHELLWRIGHT_REPORT_FIELD(declared), s.declared);
+        v.String(SHELLWRIGHT_REPORT_FIELD(unit),
+                 unit != nullptr ? absl::string_view(unit->name)
+                                 : absl::string_view());
       });
 }
 
@@ -230,7 +245,9 @@ void VisitIon(const IonAnnotation& ion, Visitor& v) {
   const AtomDescription& d = *ion.description;
   v.Cached(IonKey{&ion.description, nullptr, ion.description.get(), ion.element,
                   ion.state, Bits(ion.moment), Bits(ion.moment_low),
-                  Bits(ion.moment_high)},
+                  Bits(ion.moment_high), ion.ligand, Bits(ion.ligand_f),
+                  static_cast<int>(ion.spin_basis) * 4 +
+                      (ion.near_spin_crossover ? 2 : 0) + (ion.bonded ? 1 : 0)},
            {VaryingValue::Number(ion.count.ToDouble())}, [&](auto& v) {
              const LigandFieldSplitting* lf = d.ligand_field.has_value()
                                                   ? &d.ligand_field->splitting
@@ -256,6 +273,14 @@ void VisitIon(const IonAnnotation& ion, Visitor& v) {
                       Name(d.moments.recommended_basis));
              v.Double(SHELLWRIGHT_REPORT_FIELD(moment_low), ion.moment_low);
              v.Double(SHELLWRIGHT_REPORT_FIELD(moment_high), ion.moment_high);
+             v.String(SHELLWRIGHT_REPORT_FIELD(ligand),
+                      ion.ligand != nullptr ? ion.ligand->Name() : "");
+             v.Double(SHELLWRIGHT_REPORT_FIELD(ligand_f), ion.ligand_f);
+             v.String(SHELLWRIGHT_REPORT_FIELD(spin_state_basis),
+                      Name(ion.spin_basis));
+             v.Bool(SHELLWRIGHT_REPORT_FIELD(near_spin_crossover),
+                    ion.near_spin_crossover);
+             v.Bool(SHELLWRIGHT_REPORT_FIELD(bonded), ion.bonded);
            });
 }
 
@@ -293,16 +318,25 @@ void VisitRecordReport(const CompositionReport& r,
                v.String(SHELLWRIGHT_REPORT_FIELD(message), d.message);
                v.Int(SHELLWRIGHT_REPORT_FIELD(column), d.column);
              });
-  v.Messages(SHELLWRIGHT_REPORT_MESSAGES(oxidation_states),
-             assigned ? r.assignment->states : *kNoStates,
-             [](const AssignedState& s, auto& v) { VisitState(s, v); });
+  static const std::vector<AssignedUnit>* const kNoUnits =
+      new std::vector<AssignedUnit>;
+  static const std::vector<UnitAnnotation>* const kNoUnitAnnotations =
+      new std::vector<UnitAnnotation>;
+  const std::vector<AssignedUnit>& units =
+      assigned ? r.assignment->units : *kNoUnits;
+  v.Messages(
+      SHELLWRIGHT_REPORT_MESSAGES(oxidation_states),
+      assigned ? r.assignment->states : *kNoStates,
+      [&units](const AssignedState& s, auto& v) { VisitState(s, units, v); });
   v.Double(SHELLWRIGHT_REPORT_FIELD(score), assigned ? r.assignment->score : 0);
   v.Messages(
       SHELLWRIGHT_REPORT_MESSAGES(alternatives),
       assigned ? r.alternatives : *kNoAlternatives,
       [](const OxidationAssignment& a, auto& v) {
         v.Messages(SHELLWRIGHT_REPORT_MESSAGES(oxidation_states), a.states,
-                   [](const AssignedState& s, auto& v) { VisitState(s, v); });
+                   [&a](const AssignedState& s, auto& v) {
+                     VisitState(s, a.units, v);
+                   });
         v.Double(SHELLWRIGHT_REPORT_FIELD(score), a.score);
         v.Int(SHELLWRIGHT_REPORT_FIELD(uncommon_states), a.uncommon_states);
         v.Int(SHELLWRIGHT_REPORT_FIELD(electronegativity_inconsistencies),
@@ -310,6 +344,18 @@ void VisitRecordReport(const CompositionReport& r,
       });
   v.Messages(SHELLWRIGHT_REPORT_MESSAGES(ions), assigned ? r.ions : *kNoIons,
              [](const IonAnnotation& ion, auto& v) { VisitIon(ion, v); });
+  v.Messages(
+      SHELLWRIGHT_REPORT_MESSAGES(units),
+      assigned ? r.units : *kNoUnitAnnotations,
+      [](const UnitAnnotation& u, auto& v) {
+        v.String(SHELLWRIGHT_REPORT_FIELD(name), u.unit->name);
+        v.String(SHELLWRIGHT_REPORT_FIELD(formula), u.unit->formula);
+        v.Int(SHELLWRIGHT_REPORT_FIELD(charge), u.unit->charge);
+        v.Double(SHELLWRIGHT_REPORT_FIELD(count), u.count.ToDouble());
+        v.String(SHELLWRIGHT_REPORT_FIELD(count_exact), u.count.ToString());
+        v.Int(SHELLWRIGHT_REPORT_FIELD(unpaired_electrons), u.unit->unpaired);
+        v.Double(SHELLWRIGHT_REPORT_FIELD(moment), u.moment);
+      });
   auto number = [assigned](double value) { return assigned ? value : 0.0; };
   v.Double(SHELLWRIGHT_REPORT_FIELD(unpaired_per_formula_unit),
            number(r.unpaired_per_formula_unit));

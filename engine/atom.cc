@@ -280,8 +280,9 @@ class LigandFieldCache {
   static constexpr int kMinCharge = -kMaxAnionCharge;
   static constexpr int kMaxCharge = 9;
   static constexpr int kCharges = kMaxCharge - kMinCharge + 1;
-  static constexpr int kGeometries = 3;  // Octahedral, tetrahedral, square.
-  static constexpr int kSpins = 3;       // Auto, high, low.
+  // Octahedral, tetrahedral, square planar, trigonal prismatic.
+  static constexpr int kGeometries = 4;
+  static constexpr int kSpins = 3;  // Auto, high, low.
 
   // nullptr when the query is outside the cached set.
   const AtomDescription* Find(const Element& e, int charge, Geometry g,
@@ -320,8 +321,9 @@ class LigandFieldCache {
       absl::StatusOr<Configuration> c =
           IonConfiguration(e.atomic_number, charge);
       if (!c.ok()) continue;
-      for (Geometry g : {Geometry::kOctahedral, Geometry::kTetrahedral,
-                         Geometry::kSquarePlanar}) {
+      for (Geometry g :
+           {Geometry::kOctahedral, Geometry::kTetrahedral,
+            Geometry::kSquarePlanar, Geometry::kTrigonalPrismatic}) {
         for (SpinStatePreference s :
              {SpinStatePreference::kAuto, SpinStatePreference::kHigh,
               SpinStatePreference::kLow}) {

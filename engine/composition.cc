@@ -11,8 +11,10 @@
 #include "absl/strings/str_split.h"
 #include "absl/strings/strip.h"
 #include "engine/formula.h"
+#include "engine/internal/state_options.h"
 #include "engine/internal/text.h"
 #include "engine/ligand_field.h"
+#include "engine/units.h"
 
 namespace shellwright {
 namespace {
@@ -105,6 +107,22 @@ absl::StatusOr<AtomDescriptionPtr> DescribeIon(const Element* e, int charge,
   q.charge = charge;
   q.geometry = g;
   q.spin_state = s;
+  if (charge <= 0 && g != Geometry::kFree) {
+    // A d-block atom in state 0 or below (Ni(CO)4, [Fe(CO)4]2-) counts
+    // its d electrons as coordination chemistry does: group - state.
+    const int d = CoordinationDCount(*e, charge);
+    if (d >= 0) {
+      const char* core = e->period == 4   ? "[Ar]"
+                         : e->period == 5 ? "[Kr]"
+                         : e->period == 6 ? "[Xe] 4f14"
+                                          : "[Rn] 5f14";
+      absl::StatusOr<Configuration> c =
+          Configuration::Parse(absl::StrCat(core, " ", e->period - 1, "d", d));
+      if (c.ok() && c->electrons() == e->atomic_number - charge) {
+        q.configuration = *c;
+      }
+    }
+  }
   return DescribeAtom(q);
 }
 
@@ -153,23 +171,35 @@ RangeEnds FindRangeEnds(const Element* e, int state) {
   return slot.by_state[state + kMaxState];
 }
 
-// Annotates every assigned state with its ion and moment range.
+// Annotates every free ion with its environment and moment range, and
+// every unit with its moment.
 void Annotate(
+    const Formula& formula,
     const std::vector<std::pair<const Element*, Geometry>>& geometry,
     const std::vector<std::pair<const Element*, SpinStatePreference>>& spin,
     CompositionReport* r) {
-  r->ions.reserve(r->assignment->states.size());
-  for (const AssignedState& s : r->assignment->states) {
+  const OxidationAssignment& assignment = *r->assignment;
+  r->ions.reserve(assignment.states.size());
+  for (const AssignedUnit& u : assignment.units) {
+    r->units.push_back({u.unit, u.count,
+                        std::sqrt(static_cast<double>(
+                            u.unit->unpaired * (u.unit->unpaired + 2)))});
+  }
+  for (const AssignedState& s : assignment.states) {
+    if (s.unit >= 0) continue;  // Bonded in a unit: not an ion.
     const Geometry* g_set = FindSetting(geometry, s.element);
     const SpinStatePreference* s_set = FindSetting(spin, s.element);
     const bool d_block = s.element->block == Block::kD;
-    const Geometry g = g_set != nullptr
-                           ? *g_set
-                           : (d_block && r->kind == CompositionKind::kIonic
-                                  ? Geometry::kOctahedral
-                                  : Geometry::kFree);
-    const SpinStatePreference sp =
-        s_set != nullptr ? *s_set : SpinStatePreference::kAuto;
+    IonEnvironment env;
+    if (d_block && r->kind == CompositionKind::kIonic) {
+      env = FindEnvironment(formula, assignment, s, g_set, s_set);
+    } else {
+      env.geometry = g_set != nullptr ? *g_set : Geometry::kFree;
+      env.spin_state = s_set != nullptr ? *s_set : SpinStatePreference::kAuto;
+      if (g_set != nullptr || s_set != nullptr) env.basis = SpinBasis::kRecord;
+    }
+    const Geometry g = env.geometry;
+    const SpinStatePreference sp = env.spin_state;
     absl::StatusOr<AtomDescriptionPtr> d =
         DescribeIon(s.element, s.state, g, sp);
     if (!d.ok()) {
@@ -179,10 +209,21 @@ void Annotate(
       continue;
     }
     IonAnnotation ion{s.element, s.state, s.count, *d, 0, 0, 0};
+    ion.ligand = env.ligand;
+    ion.ligand_f = env.f;
+    ion.spin_basis =
+        (*d)->ligand_field.has_value() ? env.basis : SpinBasis::kNone;
+    ion.near_spin_crossover = env.near_crossover;
+    ion.bonded = internal::OpenShellState(*s.element, s.state);
+    if (ion.bonded) {
+      r->ions.push_back(ion);  // No moment: all zero.
+      continue;
+    }
     const Moments& m = (*d)->moments;
     ion.moment = m.recommended;
     ion.moment_low = ion.moment_high = ion.moment;
-    const bool fixed = g_set != nullptr || s_set != nullptr;
+    const bool fixed = g_set != nullptr || s_set != nullptr ||
+                       (s.state <= 0 && (*d)->configuration_user_supplied);
     if (!fixed && (*d)->ligand_field.has_value()) {
       const RangeEnds ends = FindRangeEnds(s.element, s.state);
       if (ends.low.has_value()) {
@@ -220,12 +261,13 @@ const std::array<int, kMaxAtomicNumber + 1>& NeutralValenceElectrons() {
 
 // Unpaired electrons per formula unit, exactly: 0.7 x 4 + 0.3 x 3 is 3.7,
 // not 3.6999999999999997.
-double UnpairedPerFormulaUnit(const std::vector<IonAnnotation>& ions) {
+double UnpairedPerFormulaUnit(const std::vector<IonAnnotation>& ions,
+                              const std::vector<UnitAnnotation>& units) {
   // Summed over a common denominator while numerator and denominator stay
   // exactly representable as doubles: their quotient is then the correctly
   // rounded value of the sum, as the reduced fraction's is.
   constexpr int64_t kExact = int64_t{1} << 53;
-  int64_t den = 1;
+  int64_t den = units.empty() ? 1 : 0;  // Units take the exact path.
   for (const IonAnnotation& ion : ions) {
     const int64_t d = ion.count.den();
     if (den % d == 0) continue;
@@ -240,7 +282,7 @@ double UnpairedPerFormulaUnit(const std::vector<IonAnnotation>& ions) {
   for (const IonAnnotation& ion : ions) {
     if (den == 0) break;
     num += static_cast<__int128>(ion.count.num()) * (den / ion.count.den()) *
-           ion.description->unpaired_electrons;
+           ion.unpaired();
     if (num >= kExact || num <= -kExact) den = 0;
   }
   if (den != 0) {
@@ -249,8 +291,10 @@ double UnpairedPerFormulaUnit(const std::vector<IonAnnotation>& ions) {
   }
   Rational unpaired(0);
   for (const IonAnnotation& ion : ions) {
-    unpaired =
-        unpaired + ion.count * Rational(ion.description->unpaired_electrons);
+    unpaired = unpaired + ion.count * Rational(ion.unpaired());
+  }
+  for (const UnitAnnotation& u : units) {
+    unpaired = unpaired + u.count * Rational(u.unit->unpaired);
   }
   return unpaired.ToDouble();
 }
@@ -263,7 +307,13 @@ void Summarise(const Formula& formula, CompositionReport* r) {
     lo2 += c * ion.moment_low * ion.moment_low;
     hi2 += c * ion.moment_high * ion.moment_high;
   }
-  r->unpaired_per_formula_unit = UnpairedPerFormulaUnit(r->ions);
+  for (const UnitAnnotation& u : r->units) {
+    const double c = u.count.ToDouble() * u.moment * u.moment;
+    mu2 += c;
+    lo2 += c;
+    hi2 += c;
+  }
+  r->unpaired_per_formula_unit = UnpairedPerFormulaUnit(r->ions, r->units);
   r->effective_moment_per_formula_unit = std::sqrt(mu2);
   r->expected_moment_low = std::sqrt(lo2);
   r->expected_moment_high = std::sqrt(hi2);
@@ -450,10 +500,12 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
   const std::vector<AssignedState>& states = r.assignment->states;
   for (size_t i = 0; i < states.size(); ++i) {
     const AssignedState& s = states[i];
-    // An element's second state makes it mixed valence (a third does not
-    // say so again).
+    // An element's second free state makes it mixed valence (a third does
+    // not say so again); atoms in units have their own states.
     int earlier = 0;
-    for (size_t j = 0; j < i; ++j) earlier += states[j].element == s.element;
+    for (size_t j = 0; j < i && s.unit < 0; ++j) {
+      earlier += states[j].element == s.element && states[j].unit < 0;
+    }
     if (earlier == 1) {
       Add(&r, Severity::kInfo, codes::kMixedValence,
           absl::StrCat(s.element->symbol, " is mixed valence"));
@@ -465,7 +517,7 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     }
   }
 
-  Annotate(geometry, spin, &r);
+  Annotate(*formula, geometry, spin, &r);
   Summarise(*formula, &r);
 
   if (input.measured_moment.has_value()) {

@@ -11,10 +11,11 @@
 // The diagnostic codes and their severities are listed in
 // engine/diagnostic_codes.h.
 //
-// Defaults (common practice, no source): d-block ions sit in an octahedral
-// field with the `auto` spin rule (3d high spin, 4d/5d low spin) unless the
-// record sets a geometry or spin state for that element; the measured
-// moment tolerance is 0.5 μB.
+// Polyatomic and molecular units (engine/units.h) are reported with their
+// unpaired electrons; their atoms keep their formal states but are not
+// ions. Each d ion's geometry and spin state follow from its ligands
+// (engine/coordination.h) unless the record sets them for that element.
+// The measured moment tolerance is 0.5 μB (common practice, no source).
 //
 // Moments are idealised free-ion or crystal-field estimates: the expected
 // range runs from every d ion low spin (spin-only) to every d ion with its
@@ -40,6 +41,7 @@
 #include <vector>
 
 #include "engine/atom.h"
+#include "engine/coordination.h"
 #include "engine/diagnostic_codes.h"
 #include "engine/oxidation.h"
 
@@ -91,6 +93,25 @@ struct IonAnnotation {
   double moment;                   // Recommended moment, μB.
   double moment_low;               // Expected range, μB.
   double moment_high;
+  // For a d ion: the ligand holding most donor sites (null if none is
+  // known), the mean f of its ligands and why it has its spin state.
+  const Ligand* ligand = nullptr;
+  double ligand_f = 0;
+  SpinBasis spin_basis = SpinBasis::kNone;
+  bool near_spin_crossover = false;
+  // A p-block atom in an open-shell formal state (O-1, S-1): bonded, it
+  // carries no unpaired electrons and no moment.
+  bool bonded = false;
+
+  // Unpaired electrons this ion contributes (0 when bonded).
+  int unpaired() const { return bonded ? 0 : description->unpaired_electrons; }
+};
+
+// A unit of the assignment with its moment.
+struct UnitAnnotation {
+  const Unit* unit;
+  Rational count;
+  double moment;  // Spin-only, from the unit's unpaired electrons, μB.
 };
 
 struct CompositionReport {
@@ -100,7 +121,8 @@ struct CompositionReport {
   CompositionKind kind = CompositionKind::kIonic;
   std::optional<OxidationAssignment> assignment;
   std::vector<OxidationAssignment> alternatives;
-  std::vector<IonAnnotation> ions;
+  std::vector<IonAnnotation> ions;  // Free ions, in assignment order.
+  std::vector<UnitAnnotation> units;
   double unpaired_per_formula_unit = 0;
   double effective_moment_per_formula_unit = 0;  // μB.
   double expected_moment_low = 0;                // μB.

@@ -20,6 +20,8 @@ std::vector<LevelSpec> LevelsFor(Geometry g) {
       return {{"e", 2}, {"t2", 3}};
     case Geometry::kSquarePlanar:
       return {{"eg", 2}, {"a1g", 1}, {"b2g", 1}, {"b1g", 1}};
+    case Geometry::kTrigonalPrismatic:
+      return {{"a1'", 1}, {"e'", 2}, {"e''", 2}};
     case Geometry::kFree:
       break;
   }
@@ -38,6 +40,7 @@ SpinState ResolveSpinState(Geometry geometry, SpinStatePreference preference,
     case Geometry::kTetrahedral:
       return SpinState::kHigh;
     case Geometry::kSquarePlanar:
+    case Geometry::kTrigonalPrismatic:
       return SpinState::kLow;
     case Geometry::kFree:
       break;

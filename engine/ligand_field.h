@@ -9,11 +9,14 @@
 //   octahedral     t2g (3 orbitals), eg (2)
 //   tetrahedral    e (2), t2 (3)
 //   square planar  eg (dxz, dyz), a1g (dz2), b2g (dxy), b1g (dx2-y2)
+//   trigonal prism a1' (dz2), e' (dxy, dx2-y2), e'' (dxz, dyz): the d1 and
+//                  d2 ions of MoS2-type layers fill a1' (Wilson and Yoffe,
+//                  Adv. Phys. 18 (1969) 193, from memory)
 // SpinStatePreference::kAuto picks high spin for 3d ions and low spin for
 // 4d and 5d ions in octahedral fields, high spin in tetrahedral fields,
-// and low spin in square-planar fields (common practice, no source: the
-// splitting grows down a group, tetrahedral splitting is about 4/9 of
-// octahedral, and square-planar d8 is diamagnetic).
+// and low spin in square-planar and trigonal-prismatic fields (common practice,
+// no source: the splitting grows down a group, tetrahedral splitting is about
+// 4/9 of octahedral, and square-planar d8 is diamagnetic).
 //
 // These are idealised one-electron pictures. Real spin states depend on
 // the ligands, and measurement decides.
@@ -39,7 +42,13 @@
 
 namespace shellwright {
 
-enum class Geometry { kFree, kOctahedral, kTetrahedral, kSquarePlanar };
+enum class Geometry {
+  kFree,
+  kOctahedral,
+  kTetrahedral,
+  kSquarePlanar,
+  kTrigonalPrismatic
+};
 enum class SpinStatePreference { kAuto, kHigh, kLow };
 enum class SpinState { kHigh, kLow };
 
@@ -51,9 +60,11 @@ struct EnumNames<Geometry> {
       {Geometry::kFree, "free"},
       {Geometry::kOctahedral, "octahedral"},
       {Geometry::kTetrahedral, "tetrahedral"},
-      {Geometry::kSquarePlanar, "square_planar"}};
+      {Geometry::kSquarePlanar, "square_planar"},
+      {Geometry::kTrigonalPrismatic, "trigonal_prismatic"}};
   static constexpr NamedValue<Geometry> kAliases[] = {
-      {Geometry::kSquarePlanar, "square-planar"}};
+      {Geometry::kSquarePlanar, "square-planar"},
+      {Geometry::kTrigonalPrismatic, "trigonal-prismatic"}};
 };
 template <>
 struct EnumNames<SpinStatePreference> {

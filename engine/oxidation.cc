@@ -11,6 +11,7 @@
 #include "engine/internal/charge_dp.h"
 #include "engine/internal/state_options.h"
 #include "engine/internal/weight.h"
+#include "engine/units.h"
 
 namespace shellwright {
 namespace {
@@ -30,22 +31,33 @@ using internal::Widening;
 
 // One element of the formula as the search sees it. Built once per call
 // and shared by every stage.
+// One layer of the search: a free element, or a unit read from a match
+// (element null), whose options are the charges of the match's units.
 struct ElementPlan {
-  const Element* element;
-  Rational count;        // Atoms per formula unit.
+  const Element* element = nullptr;
+  Rational count;        // Atoms (or units) per formula unit.
   int64_t scaled_count;  // count x L, >= 1.
   bool declared = false;
-  // The declared states, the only options of a declared element.
-  absl::InlinedVector<StateOption, 1> declared_options;
+  // No free hydride: the reading holds free carbon or nitrogen.
+  bool no_hydride = false;
+  const UnitMatch* match = nullptr;           // For a unit layer,
+  absl::InlinedVector<const Unit*, 2> units;  // the unit of each option.
+  // The declared states, the only options of a declared element; the
+  // unit charges of a unit layer; or, for a d-block metal beside a
+  // pi-acceptor ligand (Ni(CO)4), its options with state 0 added.
+  absl::InlinedVector<StateOption, 1> fixed_options;
+  bool with_zero = false;
+  absl::InlinedVector<StateOption, 1> fixed_common_options;  // with_zero.
 
   absl::Span<const StateOption> options() const {
-    if (declared) return declared_options;
+    if (declared || match != nullptr || with_zero) return fixed_options;
     return internal::StateOptions(*element);
   }
   // The options whose states are all common, with their index in
-  // options(); all of them for a declared element.
+  // options(); all of them for a declared element or a unit.
   absl::Span<const StateOption> common_options() const {
-    if (declared) return declared_options;
+    if (with_zero && !declared) return fixed_common_options;
+    if (declared || match != nullptr) return fixed_options;
     return internal::CommonStateOptions(*element);
   }
 };
@@ -72,6 +84,23 @@ using ThresholdList = absl::InlinedVector<double, 8>;
 ThresholdList Thresholds(const Plans& plans) {
   ThresholdList values;
   for (const ElementPlan& p : plans) {
+    if (p.match != nullptr) {
+      // An anion counts as its most electronegative atom, a cation
+      // (ammonium) as its least; a neutral unit not at all.
+      int charge = 0;
+      for (const Unit* u : p.match->units) {
+        if (u->charge != 0) charge = u->charge;
+      }
+      double most = 0, least = 10;
+      for (const UnitAtom& a : p.match->units.front()->atoms) {
+        const double en = a.element->pauling_electronegativity.value_or(0);
+        most = std::max(most, en);
+        least = std::min(least, en);
+      }
+      if (charge < 0 && most > 0) values.push_back(most);
+      if (charge > 0 && least > 0) values.push_back(least);
+      continue;
+    }
     if (p.element->pauling_electronegativity.has_value()) {
       values.push_back(*p.element->pauling_electronegativity);
     }
@@ -103,15 +132,41 @@ Weight OptionWeight(const StateOption& o, int64_t scaled_count,
 
 // Builds the plan of every element. Declared elements take exactly their
 // declared states.
-Plans MakePlans(const Formula& formula, int64_t scale,
-                const OxidationOptions& options) {
-  Plans plans;
-  plans.reserve(formula.amounts.size());
+// Ligand f from which a neutral ligand counts as a pi acceptor that
+// stabilises metals in state 0 (carbon monoxide 1.9; common practice, no
+// source).
+constexpr double kPiAcceptorF = 1.8;
+
+// A reading of the formula: the unit matches read as units.
+using Reading = absl::InlinedVector<const UnitMatch*, 4>;
+
+// Builds the plan of every free element and unit of `reading`, or returns
+// false when the reading's units need more atoms than the formula holds.
+// Declared elements take exactly their declared states.
+bool MakePlans(const Formula& formula, int64_t scale,
+               const OxidationOptions& options, const Reading& reading,
+               Plans* out) {
+  Plans& plans = *out;
+  plans.clear();
+  plans.reserve(formula.amounts.size() + reading.size());
+  bool carbon_or_nitrogen = false;
   for (const ElementAmount& a : formula.amounts) {
+    Rational count = a.count;
+    for (const UnitMatch* m : reading) {
+      for (const UnitAtom& u : m->units.front()->atoms) {
+        if (u.element == a.element)
+          count = count - m->count * Rational(u.count);
+      }
+    }
+    if (count < Rational(0)) return false;
+    if (count.IsZero()) continue;
+
+    carbon_or_nitrogen |=
+        a.element->atomic_number == 6 || a.element->atomic_number == 7;
     ElementPlan& p = plans.emplace_back();
     p.element = a.element;
-    p.count = a.count;
-    p.scaled_count = a.count.num() * (scale / a.count.den());
+    p.count = count;
+    p.scaled_count = count.num() * (scale / count.den());
     for (const DeclaredState& d : options.declared) {
       if (d.element != p.element) continue;
       p.declared = true;
@@ -119,12 +174,69 @@ Plans MakePlans(const Formula& formula, int64_t scale,
       for (const KnownOxidationState& k : internal::KnownStates(*p.element)) {
         if (k.state == d.state) common = k.common;
       }
-      p.declared_options.push_back(internal::MakeStateOption(
-          *p.element, static_cast<int>(p.declared_options.size()), d.state,
+      p.fixed_options.push_back(internal::MakeStateOption(
+          *p.element, static_cast<int>(p.fixed_options.size()), d.state,
           d.state, common, common));
     }
   }
-  return plans;
+  // A pi-acceptor ligand (carbon monoxide: f of at least
+  // kPiAcceptorF) lets d-block metals take state 0, as in metal carbonyls.
+  bool pi_acceptor = false;
+  for (const UnitMatch* m : reading) {
+    for (const Unit* u : m->units) {
+      pi_acceptor |= u->charge == 0 && u->ligand != nullptr &&
+                     u->ligand->f >= kPiAcceptorF;
+    }
+  }
+  for (ElementPlan& p : plans) {
+    p.no_hydride = carbon_or_nitrogen;
+    if (!pi_acceptor || p.declared || p.element->block != Block::kD) continue;
+    p.with_zero = true;
+    bool zero_added = false;
+    auto add = [&p](const StateOption& from, int low, int high) {
+      StateOption o = from;
+      o.low = low;
+      o.high = high;
+      o.index = static_cast<int>(p.fixed_options.size());
+      p.fixed_options.push_back(o);
+      if (o.low_common && o.high_common) p.fixed_common_options.push_back(o);
+    };
+    for (const StateOption& o : internal::StateOptions(*p.element)) {
+      if (!zero_added && o.low > 0) {
+        add(internal::MakeStateOption(*p.element, 0, 0, 0, true, true), 0, 0);
+        zero_added = true;
+      }
+      add(o, o.low, o.high);
+    }
+    if (!zero_added) {
+      add(internal::MakeStateOption(*p.element, 0, 0, 0, true, true), 0, 0);
+    }
+  }
+  const size_t free_elements = plans.size();
+  for (const UnitMatch* m : reading) {
+    if (scale % m->count.den() != 0) return false;  // "(O2)0.5" in KO.
+    ElementPlan& p = plans.emplace_back();
+    p.match = m;
+    p.count = m->count;
+    p.scaled_count = m->count.num() * (scale / m->count.den());
+    for (const Unit* u : m->units) {
+      // A unit read from a bare run keeps to the cations it is met with
+      // (EuO2 is no superoxide).
+      bool accepted = true;
+      for (size_t k = 0; k < free_elements && m->weak; ++k) {
+        const Element& e = *plans[k].element;
+        accepted &= !IsMetal(e) || u->AcceptsCation(e);
+      }
+      if (!accepted) continue;
+      p.units.push_back(u);
+      StateOption o;
+      o.low = o.high = u->charge;
+      o.index = static_cast<int>(p.fixed_options.size());
+      p.fixed_options.push_back(o);
+    }
+    if (p.units.empty()) return false;
+  }
+  return !plans.empty();
 }
 
 // An option excluded from the search: element index and its states.
@@ -137,11 +249,17 @@ struct Forbidden {
 // Whether element `i` may take option `o`. Undeclared elements keep to
 // common states when `common_only`, and mix valence only with two scaled
 // atoms; declared states are always kept. The forbidden option is dropped.
-bool Allowed(const ElementPlan& p, int i, bool common_only,
+// In a strict search, free hydrogen is not a hydride beside free carbon or
+// nitrogen.
+bool Allowed(const ElementPlan& p, int i, bool common_only, bool strict,
              const Forbidden& forbidden, const StateOption& o) {
   if (!p.declared) {
     if (o.mixed() && p.scaled_count < 2) return false;
     if (common_only && !(o.low_common && o.high_common)) return false;
+    if (strict && p.no_hydride && o.low < 0 && p.element != nullptr &&
+        p.element->atomic_number == 1) {
+      return false;
+    }
   }
   return forbidden.element != i || o.low != forbidden.low ||
          o.high != forbidden.high;
@@ -150,11 +268,12 @@ bool Allowed(const ElementPlan& p, int i, bool common_only,
 // Fills the narrow (`common_only`) or wide candidate lists of every
 // element, appending to candidates->all.
 void BuildCandidates(const Plans& plans, const Forbidden& forbidden,
-                     double threshold, bool common_only,
+                     double threshold, bool common_only, bool strict,
                      Candidates* candidates) {
   for (size_t i = 0; i < plans.size(); ++i) {
     const ElementPlan& p = plans[i];
-    const bool above = AboveThreshold(*p.element, threshold);
+    const bool unit = p.match != nullptr;
+    const bool above = !unit && AboveThreshold(*p.element, threshold);
     CandidateList& list =
         common_only ? candidates->narrow[i] : candidates->wide[i];
     list.begin = candidates->all.size();
@@ -163,12 +282,13 @@ void BuildCandidates(const Plans& plans, const Forbidden& forbidden,
     list.min_weight = list.min_uncommon_weight = Weight::Infinite();
     for (const StateOption& o :
          common_only ? p.common_options() : p.options()) {
-      if (!Allowed(p, static_cast<int>(i), common_only, forbidden, o)) {
+      if (!Allowed(p, static_cast<int>(i), common_only, strict, forbidden, o)) {
         continue;
       }
-      const Candidate& added = candidates->all.emplace_back(Candidate{
-          o.index, o.low, o.high, OptionWeight(o, p.scaled_count, above),
-          Weight::Of(0, 0, o.low_extra_gap, 0)});
+      const Candidate& added = candidates->all.emplace_back(
+          Candidate{o.index, o.low, o.high,
+                    unit ? Weight() : OptionWeight(o, p.scaled_count, above),
+                    Weight::Of(0, 0, o.low_extra_gap, 0)});
       list.min_weight = std::min(list.min_weight, added.weight);
       if (!p.declared && o.uncommon > 0) {
         list.min_uncommon_weight =
@@ -192,14 +312,25 @@ double PrintedScore(Weight w, int64_t scale) {
          Rational(w.spread(), scale).ToDouble();
 }
 
-OxidationAssignment ToAssignment(const Plans& plans, const Solution& s,
-                                 int64_t scale) {
+OxidationAssignment ToAssignment(const Formula& formula, const Plans& plans,
+                                 const Solution& s, int64_t scale) {
   OxidationAssignment a;
   a.states.reserve(2 * plans.size());  // Two entries per mixed element.
+  bool units = false;
   for (size_t i = 0; i < plans.size(); ++i) {
     const ElementPlan& p = plans[i];
     const StateOption& o = p.options()[s.choices[i].option];
-    if (!o.mixed()) {
+    if (p.match != nullptr) {
+      const Unit* u = p.units[s.choices[i].option];
+      const int index = static_cast<int>(a.units.size());
+      a.units.push_back({u, p.count, p.match->group, p.match->enclosing});
+      for (const UnitAtom& atom : u->atoms) {
+        a.states.push_back({atom.element, atom.state,
+                            p.count * Rational(atom.count), true, false,
+                            index});
+      }
+      units = true;
+    } else if (!o.mixed()) {
       a.states.push_back({p.element, o.low, p.count, o.low_common, p.declared});
     } else {
       const int64_t k = s.choices[i].low_atoms;
@@ -209,6 +340,35 @@ OxidationAssignment ToAssignment(const Plans& plans, const Solution& s,
                           Rational(p.scaled_count - k, scale), o.high_common,
                           false});
     }
+  }
+  if (units) {
+    // Formula order of the elements; free ions, then units, for each.
+    auto position = [&](const Element* e) {
+      for (size_t k = 0; k < formula.amounts.size(); ++k) {
+        if (formula.amounts[k].element == e) return static_cast<int>(k);
+      }
+      return 0;
+    };
+    std::stable_sort(a.states.begin(), a.states.end(),
+                     [&](const AssignedState& x, const AssignedState& y) {
+                       const int px = position(x.element);
+                       const int py = position(y.element);
+                       return px != py ? px < py : x.unit < y.unit;
+                     });
+    // Atoms at several positions of one unit with the same state are one
+    // entry (terminal N-1 twice in azide).
+    std::vector<AssignedState> merged;
+    for (const AssignedState& st : a.states) {
+      if (!merged.empty() && merged.back().unit >= 0 &&
+          merged.back().unit == st.unit &&
+          merged.back().element == st.element &&
+          merged.back().state == st.state) {
+        merged.back().count = merged.back().count + st.count;
+      } else {
+        merged.push_back(st);
+      }
+    }
+    a.states = std::move(merged);
   }
   a.uncommon_states = static_cast<int>(s.weight.uncommon());
   a.electronegativity_inconsistencies =
@@ -224,6 +384,8 @@ OxidationAssignment ToAssignment(const Plans& plans, const Solution& s,
 struct Search {
   int64_t target = 0;  // Net charge in scaled units.
   bool one_mixed = false;
+  bool strict = true;   // See Allowed.
+  UnitMatches matches;  // Of the formula, but those on declared elements.
   internal::WorkBudget budget{internal::kRecordCellVisits, false};
 };
 
@@ -248,13 +410,13 @@ Solution SolveStaged(const Plans& plans, const ChargeItems& items,
   internal::WorkBudget* const budget = &search->budget;
   if (search->one_mixed) {
     BuildCandidates(plans, forbidden, threshold, /*common_only=*/false,
-                    &candidates);
+                    search->strict, &candidates);
     return internal::SolveChargeOneMixed(items, candidates, Widening::All(),
                                          target,
                                          SearchLimits{bound, false, budget});
   }
   BuildCandidates(plans, forbidden, threshold, /*common_only=*/true,
-                  &candidates);
+                  search->strict, &candidates);
   // Every solution shares the declared states, D of them uncommon. A
   // narrow solution (common and declared states only) weighs below
   // D + 1 uncommon states and every solution of the later stages at least
@@ -269,7 +431,7 @@ Solution SolveStaged(const Plans& plans, const ChargeItems& items,
     return best;
   }
   BuildCandidates(plans, forbidden, threshold, /*common_only=*/false,
-                  &candidates);
+                  search->strict, &candidates);
   for (size_t k = 0; k < plans.size(); ++k) {
     Solution s = SolveCharge(items, candidates,
                              Widening::One(static_cast<int>(k)), target,
@@ -303,54 +465,183 @@ Solution SolveStaged(const Plans& plans, const ChargeItems& items,
   return best;
 }
 
+// The best assignment of one reading's plans, trying the
+// electronegativity thresholds as the ranking says (oxidation.h); only a
+// result below `bound` is wanted. `*chosen` is the threshold it was found
+// with.
+Solution SolveReading(const Plans& plans, const Forbidden& forbidden,
+                      Search* search, Weight bound, double* chosen) {
+  const ThresholdList thresholds = Thresholds(plans);
+  const ChargeItems items = ItemsOf(plans);
+  Solution best =
+      SolveStaged(plans, items, forbidden, thresholds[0], search, bound);
+  *chosen = thresholds[0];
+  if (!best.weight.IsInfinite() && !best.weight.HasInconsistency()) {
+    return best;
+  }
+  for (size_t j = 1; j < thresholds.size(); ++j) {
+    Solution s = SolveStaged(plans, items, forbidden, thresholds[j], search,
+                             std::min(bound, best.weight));
+    if (s.weight < best.weight) {
+      best = std::move(s);
+      *chosen = thresholds[j];
+    }
+  }
+  return best;
+}
+
+// The readings to try: none, the greedy maximal set of non-overlapping
+// matches (groups first, then longer runs), and that set without each of
+// its runs in turn (refilled greedily): at most 2 + kMaxUnitMatches.
+std::vector<Reading> Readings(const UnitMatches& matches) {
+  std::vector<Reading> readings(1);
+  if (matches.empty()) return readings;
+  auto greedy = [&](const UnitMatch* skip) {
+    Reading r;
+    for (const UnitMatch& m : matches) {
+      if (&m == skip) continue;
+      bool free = true;
+      for (const UnitMatch* chosen : r) free &= !m.Overlaps(*chosen);
+      if (free) r.push_back(&m);
+    }
+    return r;
+  };
+  const Reading all = greedy(nullptr);
+  readings.push_back(all);
+  for (const UnitMatch* m : all) {
+    if (m->group >= 0) continue;
+    Reading r = greedy(m);
+    if (std::find(readings.begin(), readings.end(), r) == readings.end()) {
+      readings.push_back(std::move(r));
+    }
+  }
+  return readings;
+}
+
+// How a reading ranks after its weight (oxidation.h, c and d): open-shell
+// atoms in units read from bare runs, then atoms in units (more first).
+struct ReadingTerms {
+  int64_t weak_open_atoms = 0;
+  int64_t unit_atoms = 0;
+
+  bool operator<(const ReadingTerms& o) const {
+    if (weak_open_atoms != o.weak_open_atoms) {
+      return weak_open_atoms < o.weak_open_atoms;
+    }
+    return unit_atoms > o.unit_atoms;
+  }
+};
+
+ReadingTerms TermsOf(const Plans& plans, const Solution& s) {
+  ReadingTerms t;
+  for (size_t i = 0; i < plans.size(); ++i) {
+    const ElementPlan& p = plans[i];
+    if (p.match == nullptr) continue;
+    const Unit* u = p.units[s.choices[i].option];
+    t.unit_atoms += p.scaled_count * u->total_atoms;
+    if (p.match->weak)
+      t.weak_open_atoms += p.scaled_count * u->open_shell_atoms;
+  }
+  return t;
+}
+
+// The best reading: its plans, its best solution, the threshold and the
+// search phase it was found in.
+struct BestReading {
+  Plans plans;
+  Solution solution;
+  ReadingTerms terms;
+  double threshold = 0;
+  bool strict = true;
+  bool found = false;
+};
+
+// Searches every reading, strictly first (see Allowed), then, when no
+// reading balances, leniently. Stops early when search->budget runs out.
+BestReading SearchReadings(const Formula& formula,
+                           const OxidationOptions& options, int64_t scale,
+                           Search* search) {
+  BestReading best;
+  const std::vector<Reading> readings = Readings(search->matches);
+  Plans plans;
+  for (const bool strict : {true, false}) {
+    search->strict = strict;
+    for (const Reading& reading : readings) {
+      bool weak = false;
+      for (const UnitMatch* m : reading) weak |= m->weak;
+      // A reading with open-shell units from bare runs cannot beat a
+      // perfect one without them.
+      if (best.found && weak && best.solution.weight == Weight() &&
+          best.terms.weak_open_atoms == 0) {
+        continue;
+      }
+      if (!MakePlans(formula, scale, options, reading, &plans)) continue;
+      const Weight bound =
+          best.found ? Weight::FromPacked(best.solution.weight.packed() + 1)
+                     : Weight::Infinite();
+      double threshold = 0;
+      Solution s = SolveReading(plans, Forbidden(), search, bound, &threshold);
+      if (search->budget.exhausted) return best;
+      if (s.weight.IsInfinite()) continue;
+      const ReadingTerms terms = TermsOf(plans, s);
+      if (best.found &&
+          (best.solution.weight < s.weight ||
+           (s.weight == best.solution.weight && !(terms < best.terms)))) {
+        continue;
+      }
+      best.plans = plans;
+      best.solution = std::move(s);
+      best.terms = terms;
+      best.threshold = threshold;
+      best.strict = strict;
+      best.found = true;
+    }
+    if (best.found) break;
+  }
+  return best;
+}
+
 // The best assignment (or, when the declared states rule every one out,
 // the best undeclared one) and the alternatives, into `result`. Stops
 // early when search->budget runs out.
 void SearchAssignments(const Formula& formula, const OxidationOptions& options,
                        int64_t scale, Search* search, OxidationResult* result) {
-  // Electronegativity consistency is judged against a threshold: the
-  // default puts only the most electronegative element on the negative
-  // side; the others are searched only when that leaves an inconsistency.
-  const Plans plans = MakePlans(formula, scale, options);
-  const ThresholdList thresholds = Thresholds(plans);
-  auto solve_best = [&](const Plans& plans_to_search,
-                        const Forbidden& forbidden, double* chosen) {
-    const ChargeItems items = ItemsOf(plans_to_search);
-    Solution best =
-        SolveStaged(plans_to_search, items, forbidden, thresholds[0], search);
-    *chosen = thresholds[0];
-    const bool consistent =
-        !best.weight.IsInfinite() && !best.weight.HasInconsistency();
-    if (consistent) return best;
-    for (size_t j = 1; j < thresholds.size(); ++j) {
-      Solution s = SolveStaged(plans_to_search, items, forbidden, thresholds[j],
-                               search, best.weight);
-      if (s.weight < best.weight) {
-        best = std::move(s);
-        *chosen = thresholds[j];
-      }
-    }
-    return best;
-  };
-  double threshold = thresholds[0];
-  const Solution best = solve_best(plans, Forbidden(), &threshold);
+  search->matches = FindUnitMatches(formula);
+  if (!options.declared.empty()) {
+    // Units do not swallow an element whose state the record declares.
+    search->matches.erase(
+        std::remove_if(search->matches.begin(), search->matches.end(),
+                       [&](const UnitMatch& m) {
+                         for (const UnitAtom& a : m.units.front()->atoms) {
+                           for (const DeclaredState& d : options.declared) {
+                             if (d.element == a.element) return true;
+                           }
+                         }
+                         return false;
+                       }),
+        search->matches.end());
+  }
+  const BestReading best = SearchReadings(formula, options, scale, search);
   if (search->budget.exhausted) return;
-  const ChargeItems items = ItemsOf(plans);
-  if (best.weight.IsInfinite()) {
+  if (!best.found) {
     if (!options.declared.empty()) {
       OxidationOptions free = options;
       free.declared.clear();
-      const Plans free_plans = MakePlans(formula, scale, free);
-      double unused = 0;
-      const Solution s = solve_best(free_plans, Forbidden(), &unused);
-      if (!s.weight.IsInfinite()) {
-        result->without_declared = ToAssignment(free_plans, s, scale);
+      search->matches = FindUnitMatches(formula);
+      const BestReading s = SearchReadings(formula, free, scale, search);
+      if (s.found) {
+        result->without_declared =
+            ToAssignment(formula, s.plans, s.solution, scale);
       }
     }
     return;
   }
-  result->best = ToAssignment(plans, best, scale);
+  const Plans& plans = best.plans;
+  result->best = ToAssignment(formula, plans, best.solution, scale);
   if (options.max_alternatives <= 0) return;
+  search->strict = best.strict;
+  const double threshold = best.threshold;
+  const ChargeItems items = ItemsOf(plans);
   // The alternatives have a budget of their own: when it runs out they
   // stop, and the best assignment stands.
   search->budget =
@@ -377,7 +668,8 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
                        weights.end());
       bound = weights[wanted - 1];
     }
-    const StateOption& chosen = plans[i].options()[best.choices[i].option];
+    const StateOption& chosen =
+        plans[i].options()[best.solution.choices[i].option];
     const Solution s = SolveStaged(
         plans, items, Forbidden{static_cast<int>(i), chosen.low, chosen.high},
         threshold, search, bound);
@@ -386,7 +678,7 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
       break;
     }
     if (s.weight.IsInfinite()) continue;
-    OxidationAssignment a = ToAssignment(plans, s, scale);
+    OxidationAssignment a = ToAssignment(formula, plans, s, scale);
     bool duplicate = false;
     for (const auto& [w, other] : found) {
       if (other.states.size() != a.states.size()) continue;

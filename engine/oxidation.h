@@ -8,7 +8,25 @@
 // Co3+ 0.5 plus Co4+ 0.5. The two states never straddle zero, so a split
 // cannot absorb an impossible count (Fe2O33 stays unbalanced).
 //
-// Candidates rank by, in order:
+// Polyatomic and molecular units (engine/units.h) take part: a written
+// group or run that shows a unit's atoms may be read as that unit, whose
+// atoms then have the unit's fixed states and whose charge (peroxide or
+// superoxide for O2) the search chooses. Each reading (a set of units,
+// or none) is searched on its own, and readings rank by, in order:
+//   a. no free hydride hydrogen beside free carbon or nitrogen: readings
+//      that need one are searched only when no other balances (NH4NO3 is
+//      ammonium nitrate, not N+5 with H-1);
+//   b. the weight of their best assignment (below), in which open-shell
+//      free states (O-1, S-1, C-1) are uncommon in the table, so that a
+//      known unit (peroxide, disulfide, acetylide) explains them better;
+//   c. fewest open-shell atoms in units read from bare runs (so that MnO2
+//      stays Mn+4 oxide, not Mn+2 peroxide, while FeS2 becomes Fe+2
+//      disulfide, its monatomic reading needing Fe+4);
+//   d. most atoms in units (NH4Cl lists ammonium).
+// At most kMaxUnitMatches matches and 2 + (runs used) readings are tried
+// (docs/method.md).
+//
+// Within a reading, candidates rank by, in order:
 //   1. fewest uncommon states (a state flagged "no" in the table, or a
 //      declared state missing from it);
 //   2. electronegativity consistency: elements above an electronegativity
@@ -31,6 +49,9 @@
 // denominator of the stoichiometry. Its cost grows with the number of
 // elements times the width of the reachable charge window, never with the
 // product of the elements' choices.
+//
+// Units' charges count as the most electronegative partner for the
+// consistency test of the free elements.
 //
 // Compositions made only of metals (alloys, intermetallics) and single
 // elements are reported as metallic or elemental with every state 0, when
@@ -89,10 +110,24 @@ struct AssignedState {
   Rational count;  // Atoms per formula unit in this state.
   bool common;     // False for an uncommon or unknown state.
   bool declared;   // The record declared this element's state.
+  int unit = -1;   // Index in OxidationAssignment::units; -1 when free.
+};
+
+struct Unit;
+
+// A polyatomic or molecular unit in an assignment (engine/units.h).
+struct AssignedUnit {
+  const Unit* unit;
+  Rational count;      // Units per formula unit.
+  int group = -1;      // The written group it was read from, or -1.
+  int enclosing = -1;  // The written group it sits in ('[Fe(CN)6]'), or -1.
 };
 
 struct OxidationAssignment {
-  std::vector<AssignedState> states;  // Formula order; lower state first.
+  // Formula order of the elements; for each, its free ions (lower state
+  // first), then its atoms in units.
+  std::vector<AssignedState> states;
+  std::vector<AssignedUnit> units;
   int uncommon_states = 0;
   int electronegativity_inconsistencies = 0;
   Rational spread;

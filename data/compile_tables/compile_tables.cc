@@ -12,8 +12,10 @@
 //       --exceptions=configuration_exceptions.tsv
 //       --departures=ground_level_departures.tsv
 //       --moments=measured_moments.tsv --oxidation=oxidation_states.tsv
-//       --out=data_tables.cc
+//       --units=units.tsv --ligands=spectrochemical_series.tsv
+//       --crossover=spin_crossover.tsv --out=data_tables.cc
 
+#include <cctype>
 #include <cerrno>
 #include <cmath>
 #include <cstdio>
@@ -160,6 +162,9 @@ std::optional<int> ParseArgs(int argc, char** argv, Paths* paths) {
       {"departures", "ground_level_departures.tsv"},
       {"moments", "measured_moments.tsv"},
       {"oxidation", "oxidation_states.tsv"},
+      {"units", "units.tsv"},
+      {"ligands", "spectrochemical_series.tsv"},
+      {"crossover", "spin_crossover.tsv"},
       {"out", "the C++ file to write"},
   };
   for (const auto& table : kTables) {
@@ -361,6 +366,175 @@ int main(int argc, char** argv) {
   }
   out << "};\n\n";
 
+  // --- units.tsv ------------------------------------------------------------
+  const Table units = ReadTable(
+      args.at("units"),
+      {"name", "charge", "atoms", "unpaired", "written", "cations", "source"});
+  std::ostringstream unit_atoms, unit_rows;
+  std::set<std::string> unit_names;
+  int atom_rows = 0;
+  for (const Row& r : units.rows) {
+    const std::string& name = r.fields[0];
+    if (!unit_names.insert(name).second) {
+      Fail(units.path, r.line, "duplicate unit name '" + name + "'");
+    }
+    const long charge = ParseInt(units, r, 1, -8, 8);
+    // Positions "Sym:state:count", their states summing to the charge.
+    std::map<int, long> composition;
+    long total = 0;
+    const int first = atom_rows;
+    for (absl::string_view item : absl::StrSplit(r.fields[2], ',')) {
+      std::vector<std::string> parts = absl::StrSplit(item, ':');
+      if (parts.size() != 3) {
+        Fail(units.path, r.line,
+             "column 'atoms': expected Symbol:state:count, got '" +
+                 std::string(item) + "'");
+      }
+      auto z = z_by_symbol.find(parts[0]);
+      if (z == z_by_symbol.end()) {
+        Fail(units.path, r.line, "unknown element symbol '" + parts[0] + "'");
+      }
+      char* end = nullptr;
+      errno = 0;
+      const long state = std::strtol(parts[1].c_str(), &end, 10);
+      const bool state_ok = !parts[1].empty() && *end == '\0' && errno == 0 &&
+                            state >= -5 && state <= 9;
+      const long count = std::strtol(parts[2].c_str(), &end, 10);
+      if (!state_ok || parts[2].empty() || *end != '\0' || count < 1 ||
+          count > 24) {
+        Fail(units.path, r.line,
+             "column 'atoms': bad state or count in '" + std::string(item) +
+                 "'");
+      }
+      composition[z->second] += count;
+      total += state * count;
+      unit_atoms << "    {" << z->second << ", " << state << ", " << count
+                 << "},\n";
+      ++atom_rows;
+    }
+    if (total != charge) {
+      Fail(units.path, r.line,
+           absl::StrCat("the atoms' states sum to ", total,
+                        ", not to the unit's charge ", charge));
+    }
+    const long unpaired = ParseInt(units, r, 3, 0, 4);
+    // Every written form holds exactly the unit's atoms.
+    for (absl::string_view form : absl::StrSplit(r.fields[4], '|')) {
+      std::map<int, long> written;
+      size_t i = 0;
+      const std::string f(form);
+      while (i < f.size()) {
+        size_t j = i + 1;
+        if (!std::isupper(static_cast<unsigned char>(f[i]))) j = f.size() + 1;
+        while (j < f.size() && std::islower(static_cast<unsigned char>(f[j]))) {
+          ++j;
+        }
+        if (j > f.size()) {
+          Fail(units.path, r.line,
+               "column 'written': '" + f + "' is not a run of element symbols");
+        }
+        auto z = z_by_symbol.find(f.substr(i, j - i));
+        if (z == z_by_symbol.end()) {
+          Fail(units.path, r.line,
+               "column 'written': unknown element in '" + f + "'");
+        }
+        long n = 0;
+        size_t k = j;
+        while (k < f.size() && std::isdigit(static_cast<unsigned char>(f[k]))) {
+          n = n * 10 + (f[k] - '0');
+          ++k;
+        }
+        written[z->second] += k == j ? 1 : n;
+        i = k;
+      }
+      if (written != composition) {
+        Fail(units.path, r.line,
+             "column 'written': '" + f + "' does not hold the unit's atoms");
+      }
+    }
+    // Allowed cations: '-', or blocks and element symbols.
+    if (r.fields[5] != "-") {
+      for (absl::string_view c : absl::StrSplit(r.fields[5], ',')) {
+        if (c != "s" && c != "p" && c != "d" && c != "f" &&
+            z_by_symbol.count(std::string(c)) == 0) {
+          Fail(units.path, r.line,
+               "column 'cations': '" + std::string(c) +
+                   "' is neither a block nor an element symbol");
+        }
+      }
+    }
+    unit_rows << "    {" << Literal(name) << ", " << charge << ", " << first
+              << ", " << atom_rows - first << ", " << unpaired << ", "
+              << Literal(r.fields[4]) << ", " << Literal(r.fields[5]) << ", "
+              << Literal(r.fields[6]) << "},\n";
+  }
+  out << "constexpr UnitAtomRow kUnitAtoms[] = {\n"
+      << unit_atoms.str() << "};\n\n";
+  out << "constexpr UnitRow kUnits[] = {\n" << unit_rows.str() << "};\n\n";
+
+  // --- spectrochemical_series.tsv -------------------------------------------
+  const Table ligands = ReadTable(
+      args.at("ligands"), {"ligand", "f", "donor", "denticity", "source"});
+  out << "constexpr LigandRow kLigands[] = {\n";
+  std::set<std::string> ligand_names;
+  for (const Row& r : ligands.rows) {
+    const std::string& ligand = r.fields[0];
+    if (!ligand_names.insert(ligand).second) {
+      Fail(ligands.path, r.line, "duplicate ligand '" + ligand + "'");
+    }
+    const bool is_unit = unit_names.count(ligand) > 0;
+    const auto anion = z_by_symbol.find(ligand);
+    if (!is_unit && anion == z_by_symbol.end()) {
+      Fail(ligands.path, r.line,
+           "ligand '" + ligand +
+               "' is neither a unit in units.tsv nor an element symbol");
+    }
+    const double f = ParseDecimal(ligands, r, 1, r.fields[1], 0.3, 3.0);
+    const int donor = symbol_to_z(ligands, r, 2);
+    const long denticity = ParseInt(ligands, r, 3, 1, 6);
+    out << "    {" << Literal(is_unit ? ligand : "") << ", "
+        << (is_unit ? 0 : anion->second) << ", " << Double(f) << ", " << donor
+        << ", " << denticity << ", " << Literal(r.fields[4]) << "},\n";
+  }
+  out << "};\n\n";
+
+  // --- spin_crossover.tsv ---------------------------------------------------
+  const Table crossover =
+      ReadTable(args.at("crossover"),
+                {"ion", "g", "f_crossover", "pairing_cm1", "source"});
+  out << "constexpr SpinCrossoverRow kCrossover[] = {\n";
+  std::set<std::pair<int, long>> crossover_ions;
+  for (const Row& r : crossover.rows) {
+    // "Fe+2".
+    const std::string& ion = r.fields[0];
+    const size_t sign = ion.find_first_of("+-");
+    if (sign == std::string::npos || sign == 0) {
+      Fail(crossover.path, r.line, "ion '" + ion + "' must look like Fe+2");
+    }
+    auto z = z_by_symbol.find(ion.substr(0, sign));
+    if (z == z_by_symbol.end()) {
+      Fail(crossover.path, r.line, "unknown element in ion '" + ion + "'");
+    }
+    char* end = nullptr;
+    const long state = std::strtol(ion.c_str() + sign, &end, 10);
+    if (*end != '\0' || state < 0 || state > 9) {
+      Fail(crossover.path, r.line, "bad state in ion '" + ion + "'");
+    }
+    if (!crossover_ions.insert({z->second, state}).second) {
+      Fail(crossover.path, r.line, "duplicate ion '" + ion + "'");
+    }
+    const double g = r.fields[1] == "-"
+                         ? 0.0
+                         : ParseDecimal(crossover, r, 1, r.fields[1], 1, 60);
+    const double fc = ParseDecimal(crossover, r, 2, r.fields[2], 0.3, 3.0);
+    const long pairing =
+        r.fields[3] == "-" ? 0 : ParseInt(crossover, r, 3, 1000, 60000);
+    out << "    {" << z->second << ", " << state << ", " << Double(g) << ", "
+        << Double(fc) << ", " << pairing << ", " << Literal(r.fields[4])
+        << "},\n";
+  }
+  out << "};\n\n";
+
   out << "}  // namespace\n\n"
          "absl::Span<const ElementRow> ElementRows() { return kElements; }\n"
          "absl::Span<const ConfigurationExceptionRow> "
@@ -370,7 +544,12 @@ int main(int argc, char** argv) {
          "absl::Span<const MeasuredMomentRow> MeasuredMomentRows() {\n"
          "  return kMoments;\n}\n"
          "absl::Span<const OxidationStateRow> OxidationStateRows() {\n"
-         "  return kOxidation;\n}\n\n"
+         "  return kOxidation;\n}\n"
+         "absl::Span<const UnitAtomRow> UnitAtomRows() { return kUnitAtoms; }\n"
+         "absl::Span<const UnitRow> UnitRows() { return kUnits; }\n"
+         "absl::Span<const LigandRow> LigandRows() { return kLigands; }\n"
+         "absl::Span<const SpinCrossoverRow> SpinCrossoverRows() {\n"
+         "  return kCrossover;\n}\n\n"
          "}  // namespace shellwright::internal\n";
 
   // Write only when changed, so that an unchanged table does not trigger a

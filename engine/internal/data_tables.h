@@ -61,11 +61,54 @@ struct OxidationStateRow {
   const char* source;
 };
 
+// data/units.tsv: one atom position of a unit.
+struct UnitAtomRow {
+  int atomic_number;
+  int state;  // Formal oxidation state at this position.
+  int count;  // Atoms at this position.
+};
+
+// data/units.tsv
+struct UnitRow {
+  const char* name;
+  int charge;
+  int first_atom;  // The unit's positions are UnitAtoms()[first_atom, +atoms).
+  int atoms;
+  int unpaired;
+  const char* written;  // '|'-separated written forms: "CH3COO|C2H3O2".
+  const char* cations;  // "-", or blocks and symbols: "s,Zn,Cd,Hg".
+  const char* source;
+};
+
+// data/spectrochemical_series.tsv
+struct LigandRow {
+  const char* ligand;       // A unit name, or "" for a monatomic anion.
+  int anion_atomic_number;  // The monatomic anion's element, or 0.
+  double f;                 // Jørgensen f factor (water 1.00) or estimate.
+  int donor_atomic_number;
+  int denticity;
+  const char* source;
+};
+
+// data/spin_crossover.tsv
+struct SpinCrossoverRow {
+  int atomic_number;
+  int state;
+  double g;  // Jørgensen g factor, 1000 cm-1; 0 when not tabulated.
+  double f_crossover;
+  int pairing_cm1;  // Free-ion mean pairing energy; 0 when not tabulated.
+  const char* source;
+};
+
 absl::Span<const ElementRow> ElementRows();
 absl::Span<const ConfigurationExceptionRow> ConfigurationExceptionRows();
 absl::Span<const GroundLevelDepartureRow> GroundLevelDepartureRows();
 absl::Span<const MeasuredMomentRow> MeasuredMomentRows();
 absl::Span<const OxidationStateRow> OxidationStateRows();
+absl::Span<const UnitAtomRow> UnitAtomRows();
+absl::Span<const UnitRow> UnitRows();
+absl::Span<const LigandRow> LigandRows();
+absl::Span<const SpinCrossoverRow> SpinCrossoverRows();
 
 }  // namespace shellwright::internal
 

@@ -50,8 +50,16 @@ const StateTable& States() {
 
 int GroupGap(const Element& e, int state) {
   if (e.block != Block::kP || e.group < 13 || state <= 0) return 0;
-  const int group_state = e.group - 10;
+  // The heavy p-block elements keep their 6s pair (inert pair effect):
+  // Tl+1, Pb+2 and Bi+3 are their usual states (Greenwood and Earnshaw,
+  // Chemistry of the Elements, 2nd ed., from memory).
+  const int group_state = e.period == 6 ? e.group - 12 : e.group - 10;
   return state < group_state ? group_state - state : 0;
+}
+
+bool OpenShellState(const Element& e, int state) {
+  if (e.block != Block::kP || IsMetal(e) || e.group == 18) return false;
+  return state == 0 || (state < 0 && state != e.group - 18);
 }
 
 StateOption MakeStateOption(const Element& e, int index, int low, int high,

@@ -43,8 +43,16 @@ struct StateOption {
 // its group oxidation state (group - 10): P+3 in a phosphate scores 2,
 // P+5 scores 0. Oxyanions put their central atom in the group state
 // (common practice, no source), which settles ties such as LiMnPO4
-// (Mn+2 P+5, not Mn+4 P+3).
+// (Mn+2 P+5, not Mn+4 P+3). For Tl, Pb, Bi and Po the reference is two
+// below the group state (inert pair effect): Pb+2 scores 0.
 int GroupGap(const Element& e, int state);
+
+// True for a p-block nonmetal in a state that is not its closed-shell
+// one: a negative state other than group - 18 (O-1, S-1, C-1, N-2), or 0
+// (bonded only to its own kind). Positive states, those of the central
+// atoms of oxo-anions, are not counted. Such an atom is bonded, and
+// carries no free-ion unpaired electrons.
+bool OpenShellState(const Element& e, int state);
 
 StateOption MakeStateOption(const Element& e, int index, int low, int high,
                             bool low_common, bool high_common);

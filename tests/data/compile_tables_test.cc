@@ -28,20 +28,23 @@ CommandResult RunWith(const std::string& table, const std::string& contents) {
   std::map<std::string, std::string> paths;
   for (const char* name :
        {"elements", "configuration_exceptions", "ground_level_departures",
-        "measured_moments", "oxidation_states"}) {
+        "measured_moments", "oxidation_states", "units",
+        "spectrochemical_series", "spin_crossover"}) {
     paths[name] = SourcePath(std::string("data/") + name + ".tsv");
   }
   if (!table.empty()) {
     paths[table] = dir + "/" + table + ".tsv";
     std::ofstream(paths[table]) << contents;
   }
-  return RunCommand({BinPath("data/shellwright_compile_tables"),
-                     "--elements=" + paths["elements"],
-                     "--exceptions=" + paths["configuration_exceptions"],
-                     "--departures=" + paths["ground_level_departures"],
-                     "--moments=" + paths["measured_moments"],
-                     "--oxidation=" + paths["oxidation_states"],
-                     "--out=" + dir + "/out.cc"});
+  return RunCommand(
+      {BinPath("data/shellwright_compile_tables"),
+       "--elements=" + paths["elements"],
+       "--exceptions=" + paths["configuration_exceptions"],
+       "--departures=" + paths["ground_level_departures"],
+       "--moments=" + paths["measured_moments"],
+       "--oxidation=" + paths["oxidation_states"], "--units=" + paths["units"],
+       "--ligands=" + paths["spectrochemical_series"],
+       "--crossover=" + paths["spin_crossover"], "--out=" + dir + "/out.cc"});
 }
 
 std::string RealTable(const std::string& name) {
@@ -95,6 +98,30 @@ TEST(CompileTables, UnknownSymbolInOxidationTable) {
   CommandResult r = RunWith("oxidation_states", t);
   EXPECT_EQ(r.exit_code, 1);
   EXPECT_THAT(r.err, HasSubstr("unknown element symbol 'Xq'"));
+}
+
+TEST(CompileTables, UnitStatesMustSumToItsCharge) {
+  std::string t = RealTable("units");
+  t += "test unit\t-2\tS:6:1,O:-2:3\t0\tSO3\t-\tinvented for this test\n";
+  CommandResult r = RunWith("units", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("sum to 0, not to the unit's charge -2"));
+}
+
+TEST(CompileTables, UnitWrittenFormMustHoldItsAtoms) {
+  std::string t = RealTable("units");
+  t += "test unit\t-2\tS:4:1,O:-2:3\t0\tSO4\t-\tinvented for this test\n";
+  CommandResult r = RunWith("units", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("'SO4' does not hold the unit's atoms"));
+}
+
+TEST(CompileTables, LigandMustBeAUnitOrAnElement) {
+  std::string t = RealTable("spectrochemical_series");
+  t += "no such ligand\t1.0\tO\t1\tinvented for this test\n";
+  CommandResult r = RunWith("spectrochemical_series", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("neither a unit in units.tsv nor an element"));
 }
 
 TEST(CompileTables, MalformedTermSymbol) {

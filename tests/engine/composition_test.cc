@@ -270,9 +270,14 @@ TEST(Composition, UncommonStateWarns) {
   EXPECT_EQ(d->severity, Severity::kWarning);
   EXPECT_NE(Find(r, "mixed_valence"), nullptr);
 
+  // BaO2 is the peroxide unit (Greenwood and Earnshaw, Chemistry of the
+  // Elements, from memory): its O-1 is the unit's state, not an uncommon
+  // free ion.
   CompositionReport peroxide = Analyze("BaO2");
   EXPECT_TRUE(peroxide.valid) << DiagnosticsText(peroxide);
-  EXPECT_NE(Find(peroxide, "uncommon_oxidation_state"), nullptr);
+  EXPECT_EQ(Find(peroxide, "uncommon_oxidation_state"), nullptr);
+  ASSERT_EQ(peroxide.units.size(), 1u);
+  EXPECT_EQ(peroxide.units[0].unit->name, "peroxide");
 }
 
 TEST(Composition, AlloyIsMetallicWithAllStatesZero) {
@@ -390,12 +395,18 @@ TEST(Composition, ExplicitLowSpinCobaltIsDiamagnetic) {
   EXPECT_NEAR(r.curie_constant, 0, 1e-12);
 }
 
-TEST(Composition, DefaultSpinRuleMakesThreeDCobaltHighSpin) {
-  // composition.h default: octahedral, 3d high spin. High-spin d6 has 4
-  // unpaired electrons (Greenwood & Earnshaw, from memory).
+TEST(Composition, OxideLigandsMakeLayeredCobaltLowSpin) {
+  // LiCoO2 holds low-spin, diamagnetic Co3+ (Greenwood and Earnshaw,
+  // Chemistry of the Elements, from memory); CoF3's fluoride leaves it
+  // high spin, 4 unpaired (same source).
   CompositionReport r = Analyze("LiCoO2");
   EXPECT_TRUE(r.valid) << DiagnosticsText(r);
-  EXPECT_DOUBLE_EQ(r.unpaired_per_formula_unit, 4);
+  EXPECT_DOUBLE_EQ(r.unpaired_per_formula_unit, 0);
+  ASSERT_EQ(r.ions.size(), 3u);
+  EXPECT_EQ(r.ions[1].spin_basis, SpinBasis::kLigandField);
+  EXPECT_TRUE(r.ions[1].near_spin_crossover);
+  CompositionReport fluoride = Analyze("CoF3");
+  EXPECT_DOUBLE_EQ(fluoride.unpaired_per_formula_unit, 4);
 }
 
 // ---------------------------------------------------------------------------

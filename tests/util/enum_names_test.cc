@@ -50,8 +50,8 @@ TEST(EnumNames, ParseIsExactAndSaysWhatItExpected) {
   EXPECT_EQ(ParseName<Shade>("grey").status().message(),
             "unknown shade 'grey' (expected light or dark)");
   EXPECT_THAT(std::string(ParseName<Geometry>("cubic").status().message()),
-              HasSubstr("(expected free, octahedral, tetrahedral or "
-                        "square_planar)"));
+              HasSubstr("(expected free, octahedral, tetrahedral, "
+                        "square_planar or trigonal_prismatic)"));
 }
 
 // Every enumerator from first to last has one distinct name, and the name

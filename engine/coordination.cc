@@ -1,0 +1,211 @@
+#include "engine/coordination.h"
+
+#include <cmath>
+
+#include "absl/container/inlined_vector.h"
+
+namespace shellwright {
+namespace {
+
+// Crossover f where the table has no row, by charge (common practice, no
+// source: the splitting grows with charge faster than the pairing energy).
+double DefaultCrossover(int state) {
+  if (state <= 2) return 1.5;
+  if (state == 3) return 1.2;
+  return 0.9;
+}
+
+// How close to its crossover f an ion is flagged (common practice, no
+// source: about the spread of f between neighbours in the series).
+constexpr double kNearCrossover = 0.1;
+
+// Whether group `g` lies inside group `outer` (or is it).
+bool Inside(const Formula& formula, int g, int outer) {
+  for (; g >= 0; g = formula.groups[g].parent) {
+    if (g == outer) return true;
+  }
+  return false;
+}
+
+// The innermost '[' group around the first written term of `e`, or -1.
+int ComplexOf(const Formula& formula, const Element* e) {
+  for (const WrittenTerm& t : formula.terms) {
+    if (t.element != e) continue;
+    for (int g = t.group; g >= 0; g = formula.groups[g].parent) {
+      if (formula.groups[g].bracket == '[') return g;
+    }
+    return -1;
+  }
+  return -1;
+}
+
+// Atoms of `e` written inside group `g`, per formula unit.
+Rational AtomsInside(const Formula& formula, const Element* e, int g) {
+  Rational n(0);
+  for (const WrittenTerm& t : formula.terms) {
+    if (t.element == e && Inside(formula, t.group, g)) {
+      n = n + t.count * t.multiplier;
+    }
+  }
+  return n;
+}
+
+struct Site {
+  const Ligand* ligand;
+  double sites;  // Ligands times denticity, per formula unit.
+};
+using Sites = absl::InlinedVector<Site, 4>;
+
+}  // namespace
+
+int CoordinationDCount(const Element& e, int state) {
+  if (e.block != Block::kD || e.group < 3 || e.group > 12) return -1;
+  const int d = e.group - state;
+  return d >= 0 && d <= 10 ? d : -1;
+}
+
+IonEnvironment FindEnvironment(const Formula& formula,
+                               const OxidationAssignment& assignment,
+                               const AssignedState& ion,
+                               const Geometry* geometry_set,
+                               const SpinStatePreference* spin_set) {
+  IonEnvironment env;
+  const Element& e = *ion.element;
+  const int d = CoordinationDCount(e, ion.state);
+  const int n = e.period - 1;  // 3 for 3d.
+
+  // Ligands.
+  Sites sites;
+  const int complex = ComplexOf(formula, &e);
+  double metal = 0;       // This element's atoms where the ligands are counted.
+  bool molecular = true;  // Only unit ligands (no monatomic anions).
+  for (const AssignedUnit& u : assignment.units) {
+    if (u.unit->ligand == nullptr) continue;
+    const bool in_complex =
+        complex >= 0 &&
+        (Inside(formula, u.enclosing, complex) || u.group == complex);
+    // An ion outside any complex does not take another complex's ligands.
+    bool in_a_complex = false;
+    for (int g = u.group >= 0 ? u.group : u.enclosing; g >= 0;
+         g = formula.groups[g].parent) {
+      in_a_complex |= formula.groups[g].bracket == '[';
+    }
+    if (complex >= 0 ? !in_complex : in_a_complex) continue;
+    sites.push_back(
+        {u.unit->ligand, u.count.ToDouble() * u.unit->ligand->denticity});
+  }
+  for (const AssignedState& s : assignment.states) {
+    if (s.unit >= 0 || s.state >= 0) continue;
+    const Ligand* l = FindAnionLigand(*s.element);
+    if (l == nullptr) continue;
+    const double count =
+        complex >= 0 ? AtomsInside(formula, s.element, complex).ToDouble()
+                     : s.count.ToDouble();
+    if (count <= 0) continue;
+    sites.push_back({l, count * l->denticity});
+    molecular = false;
+  }
+  if (complex >= 0) {
+    metal = AtomsInside(formula, &e, complex).ToDouble();
+  } else {
+    for (const AssignedState& s : assignment.states) {
+      if (s.element == &e && s.unit < 0) metal += s.count.ToDouble();
+    }
+  }
+  double total = 0, weighted = 0, most = 0;
+  for (const Site& s : sites) {
+    total += s.sites;
+    weighted += s.sites * s.ligand->f;
+    if (s.sites > most) {
+      most = s.sites;
+      env.ligand = s.ligand;
+    }
+  }
+  if (total > 0) env.f = weighted / total;
+  // Donor sites per metal atom, where the formula shows them: in a
+  // complex, or with molecular ligands only (Ni(CO)4).
+  const double cn = (complex >= 0 || (molecular && total > 0)) && metal > 0
+                        ? total / metal
+                        : 0;
+
+  // Geometry.
+  if (geometry_set != nullptr) {
+    env.geometry = *geometry_set;
+  } else if (std::abs(cn - 4) < 0.01) {
+    env.geometry = (d == 8 && (n >= 4 || env.f >= 1.5)) || d == 9
+                       ? Geometry::kSquarePlanar
+                       : Geometry::kTetrahedral;
+  } else if (complex < 0 && (e.group == 5 || e.group == 6) &&
+             (d == 1 || d == 2) && assignment.units.empty()) {
+    // MX2 layers of group 5 and 6 chalcogenides (MoS2, NbSe2).
+    Rational chalcogen(0), metals(0);
+    bool other = false;
+    for (const AssignedState& s : assignment.states) {
+      const int z = s.element->atomic_number;
+      if (z == 16 || z == 34 || z == 52) {
+        chalcogen = chalcogen + s.count;
+      } else if (s.element == &e) {
+        metals = metals + s.count;
+      } else {
+        other = true;
+      }
+    }
+    env.geometry = !other && chalcogen == metals * Rational(2)
+                       ? Geometry::kTrigonalPrismatic
+                       : Geometry::kOctahedral;
+  } else {
+    env.geometry = Geometry::kOctahedral;
+  }
+
+  // Spin state.
+  if (spin_set != nullptr || geometry_set != nullptr) {
+    env.spin_state =
+        spin_set != nullptr ? *spin_set : SpinStatePreference::kAuto;
+    env.basis = SpinBasis::kRecord;
+    return env;
+  }
+  auto set = [&env](SpinState s, SpinBasis basis) {
+    env.spin_state = s == SpinState::kLow ? SpinStatePreference::kLow
+                                          : SpinStatePreference::kHigh;
+    env.basis = basis;
+  };
+  switch (env.geometry) {
+    case Geometry::kTetrahedral:
+      set(SpinState::kHigh,
+          d >= 3 && d <= 6 ? SpinBasis::kTetrahedral : SpinBasis::kNoChoice);
+      return env;
+    case Geometry::kSquarePlanar:
+      set(SpinState::kLow,
+          d == 8 ? (n >= 4 ? SpinBasis::kHeavyMetal : SpinBasis::kLigandField)
+                 : SpinBasis::kNoChoice);
+      return env;
+    case Geometry::kTrigonalPrismatic:
+      set(SpinState::kLow, SpinBasis::kNoChoice);
+      return env;
+    case Geometry::kFree:
+      return env;
+    case Geometry::kOctahedral:
+      break;
+  }
+  if (d < 4 || d > 7) {
+    set(SpinState::kHigh, SpinBasis::kNoChoice);
+    return env;
+  }
+  if (n >= 4) {
+    set(SpinState::kLow, SpinBasis::kHeavyMetal);
+    return env;
+  }
+  if (total <= 0) {
+    set(SpinState::kHigh, SpinBasis::kDefaultHigh);
+    return env;
+  }
+  const SpinCrossover* c = FindSpinCrossover(e, ion.state);
+  const double crossover =
+      c != nullptr ? c->f_crossover : DefaultCrossover(ion.state);
+  set(env.f > crossover ? SpinState::kLow : SpinState::kHigh,
+      SpinBasis::kLigandField);
+  env.near_crossover = std::abs(env.f - crossover) < kNearCrossover;
+  return env;
+}
+
+}  // namespace shellwright

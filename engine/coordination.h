@@ -1,0 +1,98 @@
+// What surrounds a d ion, as far as a formula shows it: its ligands, its
+// geometry and the spin state they set.
+//
+// A formula carries no structure, so this is the most plausible reading,
+// in this order (docs/method.md, "Ligands and spin states"):
+//   1. Ligands. Inside a bracketed complex (`K4[Fe(CN)6]`, `[CoF6]`), the
+//      units and monatomic anions written in the bracket. Otherwise the
+//      ligand units of the formula (`Ni(CO)4`, `·6H2O`, `Fe(C5H5)2`) and
+//      its monatomic anions (oxide, fluoride, sulfide), averaged by count
+//      and denticity. Each ligand's strength is its Jørgensen f factor
+//      (data/spectrochemical_series.tsv).
+//   2. Geometry. A complex with 4 donor sites is square planar for a d8
+//      ion with 4d/5d character or strong-field ligands (f >= 1.5), else
+//      tetrahedral; with 6 it is octahedral. A group 5 or 6 d1/d2 ion in a
+//      1:2 chalcogenide (MoS2) is trigonal prismatic. Otherwise octahedral.
+//   3. Spin state. 4d and 5d ions are low spin; tetrahedral 3d ions high
+//      spin. An octahedral 3d d4-d7 ion is low spin when the ligands' f
+//      exceeds the ion's crossover f (data/spin_crossover.tsv), high spin
+//      otherwise; within 0.1 of it the ion is flagged near a crossover.
+// A record's geometry and spin-state settings override.
+//
+// These are idealised estimates: spin states are set by structure,
+// temperature and pressure, and measurement decides.
+//
+// Example:
+//
+//   absl::StatusOr<Formula> f = ParseFormula("K4[Fe(CN)6]");
+//   absl::StatusOr<OxidationResult> r =
+//       AssignOxidationStates(*f, OxidationOptions());
+//   IonEnvironment env = FindEnvironment(*f, *r->best, iron_state);
+//   env.geometry;    // kOctahedral
+//   env.spin_state;  // kLow: cyanide f 1.7 > Fe2+ crossover
+//
+// Thread safety: pure functions.
+
+#ifndef SHELLWRIGHT_ENGINE_COORDINATION_H_
+#define SHELLWRIGHT_ENGINE_COORDINATION_H_
+
+#include "engine/formula.h"
+#include "engine/ligand_field.h"
+#include "engine/oxidation.h"
+#include "engine/units.h"
+#include "util/enum_names.h"
+
+namespace shellwright {
+
+// Why an ion has its spin state.
+enum class SpinBasis {
+  kNone,         // Not a d ion in a ligand field.
+  kRecord,       // The record (or the caller) set geometry or spin state.
+  kNoChoice,     // Its d count has one state in this geometry.
+  kLigandField,  // Ligand f against the ion's crossover f.
+  kHeavyMetal,   // 4d or 5d: low spin.
+  kTetrahedral,  // Tetrahedral 3d: high spin.
+  kDefaultHigh,  // No ligand known: 3d high spin.
+};
+
+template <>
+struct EnumNames<SpinBasis> {
+  static constexpr absl::string_view kWhat = "spin-state basis";
+  static constexpr NamedValue<SpinBasis> kNames[] = {
+      {SpinBasis::kNone, ""},
+      {SpinBasis::kRecord, "record"},
+      {SpinBasis::kNoChoice, "no_choice"},
+      {SpinBasis::kLigandField, "ligand_field"},
+      {SpinBasis::kHeavyMetal, "4d_5d_low_spin"},
+      {SpinBasis::kTetrahedral, "tetrahedral_high_spin"},
+      {SpinBasis::kDefaultHigh, "default_high_spin"}};
+};
+
+struct IonEnvironment {
+  Geometry geometry = Geometry::kOctahedral;
+  SpinStatePreference spin_state = SpinStatePreference::kAuto;
+  // The ligand that most of the donor sites hold, or null when none is
+  // known; `f` is the count- and denticity-weighted mean f (0 if none).
+  const Ligand* ligand = nullptr;
+  double f = 0;
+  SpinBasis basis = SpinBasis::kNone;
+  bool near_crossover = false;
+};
+
+// The environment of the d-block ion `ion` (an entry of `assignment`).
+// `geometry_set` and `spin_set` are the record's settings for its element,
+// or null.
+IonEnvironment FindEnvironment(const Formula& formula,
+                               const OxidationAssignment& assignment,
+                               const AssignedState& ion,
+                               const Geometry* geometry_set,
+                               const SpinStatePreference* spin_set);
+
+// The d electrons of a d-block ion counted as coordination chemistry
+// does: group - state (Ni(CO)4's Ni0 is d10, Fe-2 is d10), or -1 when
+// that is outside 0..10.
+int CoordinationDCount(const Element& e, int state);
+
+}  // namespace shellwright
+
+#endif  // SHELLWRIGHT_ENGINE_COORDINATION_H_

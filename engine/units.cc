@@ -1,0 +1,316 @@
+#include "engine/units.h"
+
+#include <algorithm>
+#include <array>
+#include <memory>
+#include <utility>
+
+#include "absl/container/flat_hash_map.h"
+#include "absl/strings/str_cat.h"
+#include "absl/strings/str_split.h"
+#include "engine/internal/data_tables.h"
+#include "engine/internal/state_options.h"
+#include "engine/oxidation.h"
+
+namespace shellwright {
+namespace {
+
+// A written form: its terms (element and written count) and the units it
+// stands for.
+struct WrittenForm {
+  std::vector<std::pair<const Element*, int>> terms;
+  int unit_class = 0;
+};
+
+// The units and everything derived from them, built once.
+struct Tables {
+  std::vector<Unit> units;
+  // Units with the same atoms, lightest charge first. `signature` is the
+  // sorted (atomic number, count) list they share.
+  struct UnitClass {
+    std::vector<std::pair<int, int>> signature;
+    int total_atoms = 0;
+    std::vector<const Unit*> units;
+    bool weak = false;  // Every unit has open-shell atoms.
+  };
+  std::vector<UnitClass> classes;
+  // Written forms by the atomic number of their first element.
+  std::array<std::vector<WrittenForm>, kMaxAtomicNumber + 1> forms_by_first;
+  std::vector<Ligand> ligands;
+  std::array<const Ligand*, kMaxAtomicNumber + 1> anion_ligand{};
+  std::vector<SpinCrossover> crossover;
+};
+
+const Tables& GetTables() {
+  static const Tables* const kTables = [] {
+    auto* t = new Tables;
+    const absl::Span<const internal::UnitAtomRow> atoms =
+        internal::UnitAtomRows();
+    t->units.reserve(internal::UnitRows().size());
+    for (const internal::UnitRow& row : internal::UnitRows()) {
+      Unit& u = t->units.emplace_back();
+      u.name = row.name;
+      u.charge = row.charge;
+      u.unpaired = row.unpaired;
+      u.source = row.source;
+      u.cations = row.cations;
+      const std::vector<absl::string_view> written =
+          absl::StrSplit(row.written, '|');
+      u.formula = std::string(written.front());
+      for (int i = row.first_atom; i < row.first_atom + row.atoms; ++i) {
+        const Element* e = &AllElements()[atoms[i].atomic_number - 1];
+        u.atoms.push_back({e, atoms[i].state, atoms[i].count});
+        u.total_atoms += atoms[i].count;
+      }
+      bool one_element = true;
+      for (const UnitAtom& a : u.atoms) {
+        one_element &= a.element == u.atoms.front().element;
+      }
+      for (const UnitAtom& a : u.atoms) {
+        if (one_element && internal::OpenShellState(*a.element, a.state)) {
+          u.open_shell_atoms += a.count;
+        }
+      }
+    }
+    // Classes of units with the same atoms.
+    for (const Unit& u : t->units) {
+      std::vector<std::pair<int, int>> signature;
+      for (const UnitAtom& a : u.atoms) {
+        auto it = std::find_if(
+            signature.begin(), signature.end(),
+            [&](const auto& s) { return s.first == a.element->atomic_number; });
+        if (it == signature.end()) {
+          signature.emplace_back(a.element->atomic_number, a.count);
+        } else {
+          it->second += a.count;
+        }
+      }
+      std::sort(signature.begin(), signature.end());
+      auto it = std::find_if(
+          t->classes.begin(), t->classes.end(),
+          [&](const Tables::UnitClass& c) { return c.signature == signature; });
+      if (it == t->classes.end()) {
+        t->classes.push_back({signature, u.total_atoms, {}, true});
+        it = t->classes.end() - 1;
+      }
+      it->units.push_back(&u);
+      it->weak &= u.open_shell_atoms > 0;
+    }
+    for (Tables::UnitClass& c : t->classes) {
+      std::sort(
+          c.units.begin(), c.units.end(),
+          [](const Unit* a, const Unit* b) { return a->charge < b->charge; });
+    }
+    // Written forms.
+    for (size_t k = 0; k < t->classes.size(); ++k) {
+      for (const Unit* u : t->classes[k].units) {
+        const internal::UnitRow& row = internal::UnitRows()[u - &t->units[0]];
+        for (absl::string_view text : absl::StrSplit(row.written, '|')) {
+          WrittenForm form;
+          form.unit_class = static_cast<int>(k);
+          size_t i = 0;
+          while (i < text.size()) {
+            size_t j = i + 1;
+            while (j < text.size() && text[j] >= 'a' && text[j] <= 'z') ++j;
+            const Element* e = FindElementBySymbol(text.substr(i, j - i));
+            int n = 0;
+            size_t d = j;
+            while (d < text.size() && text[d] >= '0' && text[d] <= '9') {
+              n = n * 10 + (text[d] - '0');
+              ++d;
+            }
+            form.terms.emplace_back(e, d == j ? 1 : n);
+            i = d;
+          }
+          std::vector<WrittenForm>& list =
+              t->forms_by_first[form.terms.front().first->atomic_number];
+          const bool known = std::any_of(
+              list.begin(), list.end(),
+              [&](const WrittenForm& f) { return f.terms == form.terms; });
+          if (!known) list.push_back(std::move(form));
+        }
+      }
+    }
+    // Longer forms first, so that a run takes the longest unit it can.
+    for (std::vector<WrittenForm>& list : t->forms_by_first) {
+      std::stable_sort(list.begin(), list.end(),
+                       [](const WrittenForm& a, const WrittenForm& b) {
+                         return a.terms.size() > b.terms.size();
+                       });
+    }
+    // Ligands.
+    t->ligands.reserve(internal::LigandRows().size());
+    for (const internal::LigandRow& row : internal::LigandRows()) {
+      Ligand& l = t->ligands.emplace_back();
+      l.f = row.f;
+      l.donor = &AllElements()[row.donor_atomic_number - 1];
+      l.denticity = row.denticity;
+      l.source = row.source;
+      if (row.anion_atomic_number != 0) {
+        l.anion = &AllElements()[row.anion_atomic_number - 1];
+      } else {
+        for (Unit& u : t->units) {
+          if (u.name == row.ligand) l.unit = &u;
+        }
+      }
+    }
+    for (const Ligand& l : t->ligands) {
+      if (l.unit != nullptr) {
+        const_cast<Unit*>(l.unit)->ligand = &l;
+      } else {
+        t->anion_ligand[l.anion->atomic_number] = &l;
+      }
+    }
+    for (const internal::SpinCrossoverRow& row :
+         internal::SpinCrossoverRows()) {
+      t->crossover.push_back({&AllElements()[row.atomic_number - 1], row.state,
+                              row.g, row.f_crossover, row.pairing_cm1,
+                              row.source});
+    }
+    return t;
+  }();
+  return *kTables;
+}
+
+// The class whose atoms, times `multiplier`, are `signature`, or -1.
+int FindClass(const Tables& t,
+              const absl::InlinedVector<std::pair<int, Rational>, 8>& signature,
+              const Rational& multiplier) {
+  for (size_t k = 0; k < t.classes.size(); ++k) {
+    const auto& c = t.classes[k].signature;
+    if (c.size() != signature.size()) continue;
+    bool same = true;
+    for (size_t i = 0; i < c.size() && same; ++i) {
+      same = c[i].first == signature[i].first &&
+             signature[i].second == Rational(c[i].second) * multiplier;
+    }
+    if (same) return static_cast<int>(k);
+  }
+  return -1;
+}
+
+UnitMatch MakeMatch(const Tables& t, int unit_class, int first, int end,
+                    int group, int enclosing, const Rational& count) {
+  const Tables::UnitClass& c = t.classes[unit_class];
+  UnitMatch m;
+  m.units = absl::MakeConstSpan(c.units);
+  m.first_term = first;
+  m.end_term = end;
+  m.group = group;
+  m.enclosing = enclosing;
+  m.count = count;
+  m.weak = group < 0 && c.weak;
+  return m;
+}
+
+}  // namespace
+
+std::string Ligand::Name() const {
+  if (unit != nullptr) return unit->name;
+  static constexpr std::pair<absl::string_view, absl::string_view> kAnions[] = {
+      {"F", "fluoride"},  {"Cl", "chloride"},  {"Br", "bromide"},
+      {"I", "iodide"},    {"O", "oxide"},      {"S", "sulfide"},
+      {"Se", "selenide"}, {"Te", "telluride"}, {"N", "nitride"},
+      {"H", "hydride"},   {"P", "phosphide"},  {"As", "arsenide"},
+      {"C", "carbide"}};
+  for (const auto& [symbol, name] : kAnions) {
+    if (anion->symbol == symbol) return std::string(name);
+  }
+  return absl::StrCat(anion->symbol, " anion");
+}
+
+bool Unit::AcceptsCation(const Element& cation) const {
+  if (cations == "-") return true;
+  for (absl::string_view c : absl::StrSplit(cations, ',')) {
+    if (c == cation.symbol) return true;
+    if (c.size() == 1 && cation.block == Block::kS && c == "s") return true;
+  }
+  return false;
+}
+
+absl::Span<const Unit> AllUnits() { return GetTables().units; }
+
+const Unit* FindUnit(absl::string_view name) {
+  for (const Unit& u : GetTables().units) {
+    if (u.name == name) return &u;
+  }
+  return nullptr;
+}
+
+const Ligand* FindAnionLigand(const Element& element) {
+  return GetTables().anion_ligand[element.atomic_number];
+}
+
+const SpinCrossover* FindSpinCrossover(const Element& element, int state) {
+  for (const SpinCrossover& c : GetTables().crossover) {
+    if (c.element == &element && c.state == state) return &c;
+  }
+  return nullptr;
+}
+
+UnitMatches FindUnitMatches(const Formula& formula) {
+  const Tables& t = GetTables();
+  UnitMatches matches;
+  // Written groups whose contents are a unit's atoms.
+  std::vector<bool> whole(formula.groups.size(), false);
+  for (size_t g = 0; g < formula.groups.size(); ++g) {
+    const WrittenGroup& group = formula.groups[g];
+    absl::InlinedVector<std::pair<int, Rational>, 8> signature;
+    for (int i = group.first_term; i < group.end_term; ++i) {
+      const WrittenTerm& term = formula.terms[i];
+      const Rational n = term.count * term.multiplier;
+      auto it =
+          std::find_if(signature.begin(), signature.end(), [&](const auto& s) {
+            return s.first == term.element->atomic_number;
+          });
+      if (it == signature.end()) {
+        signature.emplace_back(term.element->atomic_number, n);
+      } else {
+        it->second = it->second + n;
+      }
+    }
+    std::sort(signature.begin(), signature.end(),
+              [](const auto& a, const auto& b) { return a.first < b.first; });
+    const int k = FindClass(t, signature, group.multiplier);
+    if (k < 0) continue;
+    whole[g] = true;
+    if (matches.size() < kMaxUnitMatches) {
+      matches.push_back(MakeMatch(t, k, group.first_term, group.end_term,
+                                  static_cast<int>(g), group.parent,
+                                  group.multiplier));
+    }
+  }
+  // Runs of terms written as a unit is written, inside one group.
+  const size_t groups_found = matches.size();
+  const std::vector<WrittenTerm>& terms = formula.terms;
+  for (size_t i = 0; i < terms.size(); ++i) {
+    const WrittenTerm& first = terms[i];
+    if (first.group >= 0 && whole[first.group]) continue;
+    for (const WrittenForm& form :
+         t.forms_by_first[first.element->atomic_number]) {
+      const size_t n = form.terms.size();
+      if (i + n > terms.size()) continue;
+      bool same = true;
+      for (size_t k = 0; k < n && same; ++k) {
+        const WrittenTerm& term = terms[i + k];
+        same = term.group == first.group && term.part == first.part &&
+               term.element == form.terms[k].first &&
+               term.count == Rational(form.terms[k].second);
+      }
+      if (!same) continue;
+      // A run that is a whole group was found as the group.
+      if (matches.size() >= kMaxUnitMatches) break;
+      matches.push_back(MakeMatch(t, form.unit_class, static_cast<int>(i),
+                                  static_cast<int>(i + n), -1, first.group,
+                                  first.multiplier));
+    }
+  }
+  std::stable_sort(matches.begin() + groups_found, matches.end(),
+                   [](const UnitMatch& a, const UnitMatch& b) {
+                     return a.end_term - a.first_term >
+                            b.end_term - b.first_term;
+                   });
+  return matches;
+}
+
+}  // namespace shellwright
