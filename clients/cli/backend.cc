@@ -1,9 +1,11 @@
 #include "clients/cli/backend.h"
 
+#include <algorithm>
 #include <chrono>
 #include <functional>
 #include <memory>
 
+#include "absl/strings/match.h"
 #include "absl/strings/str_cat.h"
 #include "absl/types/span.h"
 #include "api/atoms.h"
@@ -11,6 +13,7 @@
 #include "grpcpp/grpcpp.h"
 #include "shellwright/v1/electron_structure.grpc.pb.h"
 #include "util/small_file.h"
+#include "util/utf8.h"
 
 namespace shellwright::cli {
 namespace {
@@ -230,6 +233,45 @@ class RemoteBackend final : public Backend {
 
 }  // namespace
 
+std::string ServerTarget(const std::string& address) {
+  if (address.find('/') != std::string::npos) return address;  // A scheme.
+  if (!address.empty() && address.front() == '[') {
+    // "[::1]" or "[::1]:50051".
+    return absl::EndsWith(address, "]")
+               ? absl::StrCat(address, ":", kDefaultServerPort)
+               : address;
+  }
+  const size_t colons = std::count(address.begin(), address.end(), ':');
+  if (colons == 0) return absl::StrCat(address, ":", kDefaultServerPort);
+  if (colons > 1) {
+    return absl::StrCat("[", address, "]:", kDefaultServerPort);  // IPv6.
+  }
+  // One colon: "host:port", or a scheme such as "unix:path".
+  return address;
+}
+
+absl::Status ExplainRemoteFailure(const absl::Status& status,
+                                  const std::string& target) {
+  switch (status.code()) {
+    case absl::StatusCode::kUnavailable:
+      return absl::UnavailableError(absl::StrCat(
+          "cannot reach shellwrightd at ", target,
+          ": check that the server is running and listens on that address "
+          "and port (default ",
+          kDefaultServerPort,
+          "), and that --tls-ca is given exactly when the server uses TLS. "
+          "(transport: ",
+          Utf8Prefix(status.message(), 160), ")"));
+    case absl::StatusCode::kDeadlineExceeded:
+      return absl::DeadlineExceededError(absl::StrCat(
+          "shellwrightd at ", target,
+          " did not answer before the deadline: check that the address is "
+          "right and the server is not overloaded, or raise --timeout"));
+    default:
+      return status;
+  }
+}
+
 std::unique_ptr<Backend> MakeInProcessBackend() {
   return std::make_unique<InProcessBackend>();
 }
@@ -267,7 +309,8 @@ absl::StatusOr<std::unique_ptr<Backend>> MakeRemoteBackend(
   if (!options.tls_server_name.empty()) {
     args.SetSslTargetNameOverride(options.tls_server_name);
   }
-  auto channel = grpc::CreateCustomChannel(options.address, credentials, args);
+  auto channel = grpc::CreateCustomChannel(ServerTarget(options.address),
+                                           credentials, args);
   return std::unique_ptr<Backend>(
       new RemoteBackend(std::move(channel), std::move(token), options.timeout,
                         options.stream_timeout));

@@ -79,13 +79,44 @@ class Progress {
 
 }  // namespace
 
-std::string FormatSummary(const ReportCounts& s) {
-  std::string out = absl::StrFormat("%d rows: %d valid, %d invalid\n", s.rows,
-                                    s.valid, s.invalid);
-  for (const auto& [code, count] : s.by_code) {
-    absl::StrAppendFormat(&out, "  %-36s %d\n", code, count);
+std::string FormatSummary(const ReportCounts& s, bool caution) {
+  std::string out = absl::StrFormat(
+      "%d rows: %d valid, %d invalid; %d with warnings; %d diagnostics\n",
+      s.rows, s.valid, s.invalid, s.rows_with_warnings, s.diagnostics);
+  // Codes under their severity: an invalid row may have several errors,
+  // and warnings and info do not make a row invalid, so only the row
+  // counts above add up to the rows.
+  constexpr absl::string_view kHeadings[] = {
+      "errors (each makes its row invalid)", "warnings (row stays valid)",
+      "info"};
+  for (int i = 0; i < 3; ++i) {
+    if (s.by_code[i].empty()) continue;
+    absl::StrAppend(&out, kHeadings[i], ":\n");
+    for (const auto& [code, count] : s.by_code[i]) {
+      absl::StrAppendFormat(&out, "  %-36s %d\n", code, count);
+    }
   }
-  absl::StrAppend(&out, kMomentCaution, "\n");
+  if (caution) absl::StrAppend(&out, kMomentCaution, "\n");
+  return out;
+}
+
+std::string FormatSummaryJson(const ReportCounts& s) {
+  std::string out = absl::StrFormat(
+      "{\"rows\":%d,\"valid\":%d,\"invalid\":%d,\"rows_with_warnings\":%d,"
+      "\"diagnostics\":%d,\"codes\":{",
+      s.rows, s.valid, s.invalid, s.rows_with_warnings, s.diagnostics);
+  for (int i = 0; i < 3; ++i) {
+    absl::StrAppend(&out, i > 0 ? "," : "", "\"",
+                    Name(static_cast<Severity>(i)), "\":{");
+    bool first = true;
+    // Codes are lower-case ASCII identifiers (engine/diagnostic_codes.h).
+    for (const auto& [code, count] : s.by_code[i]) {
+      absl::StrAppend(&out, first ? "" : ",", "\"", code, "\":", count);
+      first = false;
+    }
+    out += "}";
+  }
+  out += "}}\n";
   return out;
 }
 
@@ -94,8 +125,10 @@ absl::StatusOr<ReportCounts> RunCheck(const CheckOptions& options,
   absl::StatusOr<std::unique_ptr<RecordInput>> input =
       RecordInput::Open(options.input, options.input_format);
   if (!input.ok()) return input.status();
-  const ReportLineFormat format =
-      LineFormat(OutputFormat(options.output, options.output_format));
+  absl::StatusOr<RecordFormat> output_format =
+      OutputFormat(options.output, options.output_format);
+  if (!output_format.ok()) return output_format.status();
+  const ReportLineFormat format = LineFormat(*output_format);
   // Opened only once the input looks usable, so that a usage error never
   // truncates an existing output file.
   absl::StatusOr<std::unique_ptr<ReportOutput>> output =

@@ -35,7 +35,11 @@ struct ReportCounts {
   int64_t rows = 0;
   int64_t valid = 0;
   int64_t invalid = 0;
-  std::map<std::string, int64_t> by_code;  // Diagnostic code -> count.
+  int64_t rows_with_warnings = 0;  // Rows with at least one warning.
+  int64_t diagnostics = 0;         // All diagnostics of all rows.
+  // Diagnostic code -> count, one map per severity, indexed by Severity
+  // (error, warning, info; engine/composition.h).
+  std::map<std::string, int64_t> by_code[3];
 
   // Adds `other`'s counts to these.
   void Add(const ReportCounts& other);

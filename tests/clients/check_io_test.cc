@@ -24,10 +24,21 @@ TEST(CheckIo, FormatsComeFromTheFlagOrTheExtension) {
   absl::StatusOr<RecordFormat> unknown = InputFormat("-", RecordFormat::kAuto);
   EXPECT_EQ(unknown.status().code(), absl::StatusCode::kInvalidArgument);
   EXPECT_THAT(std::string(unknown.status().message()), HasSubstr("--format"));
-  EXPECT_EQ(OutputFormat("out.csv", RecordFormat::kAuto), RecordFormat::kCsv);
-  EXPECT_EQ(OutputFormat("-", RecordFormat::kAuto), RecordFormat::kJsonl);
-  EXPECT_EQ(OutputFormat("out.csv", RecordFormat::kJsonl),
+  EXPECT_EQ(*OutputFormat("out.csv", RecordFormat::kAuto), RecordFormat::kCsv);
+  EXPECT_EQ(*OutputFormat("-", RecordFormat::kAuto), RecordFormat::kJsonl);
+  EXPECT_EQ(*OutputFormat("out.csv", RecordFormat::kJsonl),
             RecordFormat::kJsonl);
+  EXPECT_EQ(*OutputFormat("out.xlsx", RecordFormat::kCsv), RecordFormat::kCsv);
+}
+
+TEST(CheckIo, RegressionUnknownOutputExtensionIsNotWrittenAsJsonl) {
+  // Issue 16: `--out reports.xlsx` silently wrote JSONL under that name.
+  for (const char* path : {"reports.xlsx", "reports.tsv", "reports"}) {
+    absl::StatusOr<RecordFormat> f = OutputFormat(path, RecordFormat::kAuto);
+    EXPECT_EQ(f.status().code(), absl::StatusCode::kInvalidArgument) << path;
+    EXPECT_THAT(std::string(f.status().message()), HasSubstr("--out-format"));
+    EXPECT_THAT(std::string(f.status().message()), HasSubstr(path));
+  }
 }
 
 TEST(CheckIo, InputReadsTheCsvHeaderFirst) {
