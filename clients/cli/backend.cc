@@ -18,6 +18,16 @@
 namespace shellwright::cli {
 namespace {
 
+// The reader's warnings about `line`, added to its report.
+void AddReaderWarnings(const ParsedLine& line, v1::RecordReport* report) {
+  for (const ReaderWarning& w : line.warnings) {
+    v1::Diagnostic* d = report->add_diagnostics();
+    d->set_severity(std::string(Name(Severity::kWarning)));
+    d->set_code(w.code);
+    d->set_message(w.message);
+  }
+}
+
 // The engine, on the calling thread.
 class InProcessBatchProcessor final : public BatchProcessor {
  public:
@@ -29,9 +39,13 @@ class InProcessBatchProcessor final : public BatchProcessor {
     // record would cost as much as analysing it.
     for (const ParsedLine& line : lines) {
       if (line.error.empty()) {
-        AddReport(format_,
-                  AnalyzeComposition(CompositionInputFromProto(line.record)),
-                  line.record, out);
+        CompositionReport report =
+            AnalyzeComposition(CompositionInputFromProto(line.record));
+        for (const ReaderWarning& w : line.warnings) {
+          report.diagnostics.push_back(
+              {Severity::kWarning, w.code, w.message, 0});
+        }
+        AddReport(format_, report, line.record, out);
       } else {
         AddMalformed(line, out);
       }
@@ -44,6 +58,7 @@ class InProcessBatchProcessor final : public BatchProcessor {
  private:
   void AddMalformed(const ParsedLine& line, ReportLines* out) {
     MalformedRecordReport(line.record, line.error, &malformed_);
+    AddReaderWarnings(line, &malformed_);
     AddReport(format_, malformed_, out);
   }
 
@@ -109,9 +124,12 @@ class RemoteBatchProcessor final : public BatchProcessor {
     int k = 0;
     for (const ParsedLine& line : lines) {
       if (line.error.empty()) {
-        AddReport(format_, reply_.reports(k++), out);
+        v1::RecordReport* report = reply_.mutable_reports(k++);
+        AddReaderWarnings(line, report);
+        AddReport(format_, *report, out);
       } else {
         MalformedRecordReport(line.record, line.error, &malformed_);
+        AddReaderWarnings(line, &malformed_);
         AddReport(format_, malformed_, out);
       }
     }

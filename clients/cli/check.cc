@@ -7,6 +7,8 @@
 #include <utility>
 #include <vector>
 
+#include "absl/container/flat_hash_map.h"
+#include "absl/hash/hash.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
 #include "absl/strings/string_view.h"
@@ -14,6 +16,8 @@
 #include "absl/time/time.h"
 #include "api/caution.h"
 #include "clients/cli/ordered_pipeline.h"
+#include "engine/diagnostic_codes.h"
+#include "util/utf8.h"
 
 namespace shellwright::cli {
 namespace {
@@ -75,6 +79,42 @@ class Progress {
   const int64_t input_size_;
   const absl::Time start_;
   absl::Time last_ = absl::InfinitePast();
+};
+
+// Ids seen so far, by hash, with the row that first had each. A repeated
+// id is a warning: on `log` for the first kShown, and counted in the
+// summary as duplicate_id. Memory: about 16 bytes per distinct id.
+class DuplicateIds {
+ public:
+  explicit DuplicateIds(std::ostream* log) : log_(log) {}
+
+  void Check(const std::vector<ReportRow>& rows, ReportCounts* summary) {
+    constexpr int64_t kShown = 20;
+    for (const ReportRow& r : rows) {
+      if (r.id.empty()) continue;  // Already an error (malformed_record).
+      const auto [it, inserted] =
+          first_row_.try_emplace(absl::HashOf(r.id), r.row);
+      if (inserted) continue;
+      ++repeats_;
+      ++summary->by_code[static_cast<int>(Severity::kWarning)]
+                        [codes::kDuplicateId];
+      ++summary->diagnostics;
+      if (!r.warned) ++summary->rows_with_warnings;
+      if (repeats_ <= kShown) {
+        *log_ << "shellwright: check: warning: row " << r.row << ": id "
+              << QuoteForMessage(r.id) << " repeats the id of row "
+              << it->second << "\n";
+      } else if (repeats_ == kShown + 1) {
+        *log_ << "shellwright: check: warning: more repeated ids follow; "
+                 "the summary counts them (duplicate_id)\n";
+      }
+    }
+  }
+
+ private:
+  std::ostream* const log_;
+  absl::flat_hash_map<size_t, int32_t> first_row_;
+  int64_t repeats_ = 0;
 };
 
 }  // namespace
@@ -202,10 +242,19 @@ absl::StatusOr<CheckResult> RunCheck(const CheckOptions& options,
   };
   CheckResult result;
   ReportCounts& summary = result.counts;
+  // Columns no record field has: named once, counted once.
+  for (const std::string& unknown : (*input)->csv().unknown_columns()) {
+    log << "shellwright: check: warning: " << unknown << "\n";
+    ++summary
+          .by_code[static_cast<int>(Severity::kWarning)][codes::kUnknownField];
+    ++summary.diagnostics;
+  }
+  DuplicateIds duplicates(&log);
   Progress progress(&log, (*input)->size());
   auto write = [&](CheckBatch& batch) {
     absl::Status status = (*output)->Write(batch.out.text);
     summary.Add(batch.out.counts);
+    duplicates.Check(batch.out.rows, &summary);
     if (options.progress) {
       progress.Update(summary.rows, bytes_read.load(std::memory_order_relaxed));
     }

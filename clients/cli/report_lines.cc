@@ -470,6 +470,7 @@ void AddReport(ReportLineFormat format, const v1::RecordReport& report,
   }
   c.rows_with_warnings += warned;
   c.diagnostics += report.diagnostics_size();
+  out->rows.push_back({report.row(), report.id(), warned});
 }
 
 void AddReport(ReportLineFormat format, const CompositionReport& report,
@@ -485,6 +486,7 @@ void AddReport(ReportLineFormat format, const CompositionReport& report,
   }
   c.rows_with_warnings += warned;
   c.diagnostics += static_cast<int64_t>(report.diagnostics.size());
+  out->rows.push_back({record.row(), report.id, warned});
 }
 
 }  // namespace shellwright::cli

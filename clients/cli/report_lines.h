@@ -22,6 +22,7 @@
 #include <cstdint>
 #include <map>
 #include <string>
+#include <vector>
 
 #include "engine/composition.h"
 #include "shellwright/v1/electron_structure.pb.h"
@@ -45,10 +46,19 @@ struct ReportCounts {
   void Add(const ReportCounts& other);
 };
 
-// The lines of a batch of reports, and their counts.
+// A report's row, id and whether it has a warning: what `check` needs to
+// spot ids that repeat across batches.
+struct ReportRow {
+  int32_t row;
+  std::string id;
+  bool warned;
+};
+
+// The lines of a batch of reports, their counts, and their rows in order.
 struct ReportLines {
   std::string text;
   ReportCounts counts;
+  std::vector<ReportRow> rows;
 };
 
 // The CSV header, without a line break.

@@ -372,6 +372,37 @@ TEST_F(CheckTest, RegressionSummaryGroupsCodesBySeverity) {
   EXPECT_THAT(r.err, HasSubstr("Caution"));
 }
 
+TEST_F(CheckTest, RegressionRecordWarningsReachReportsAndSummary) {
+  // Issue 16: unknown keys and columns were ignored in silence, and
+  // repeated ids went unflagged.
+  const std::string jsonl =
+      "{\"id\":\"j1\",\"formula\":\"MgO\"}\n"
+      "{\"id\":\"j8\",\"Formula\":\"MgO\"}\n"
+      "{\"id\":\"j1\",\"formula\":\"NaCl\"}\n";
+  CommandResult r = Check({"-", "--format", "jsonl"}, jsonl);
+  EXPECT_EQ(r.exit_code, 1) << r.err;
+  std::vector<v1::RecordReport> reports = ParseReports(r.out);
+  ASSERT_EQ(reports.size(), 3u);
+  EXPECT_TRUE(HasDiagnostic(reports[1], "warning", "unknown_field"));
+  EXPECT_THAT(r.err, HasSubstr("row 3: id 'j1' repeats the id of row 1"));
+  EXPECT_THAT(r.err, ContainsRegex("duplicate_id +1"));
+  EXPECT_THAT(r.err, ContainsRegex("unknown_field +1"));
+
+  WriteFile(Path("cols.csv"), "id,Formla,formula\na,x,NaCl\nb,y,KCl\n");
+  CommandResult c = Check({Path("cols.csv"), "--out", Path("cols.jsonl")});
+  EXPECT_EQ(c.exit_code, 0) << c.err;
+  EXPECT_EQ(SplitLines(c.err).size(),
+            SplitLines(Check({Path("cols.csv"), "--out", Path("c2.jsonl")}).err)
+                .size());
+  size_t named = 0;
+  for (size_t at = c.err.find("'Formla'"); at != std::string::npos;
+       at = c.err.find("'Formla'", at + 1)) {
+    ++named;
+  }
+  EXPECT_EQ(named, 1u) << c.err;  // Once per file, not per row.
+  EXPECT_THAT(c.err, HasSubstr("did you mean 'formula'?"));
+}
+
 TEST_F(CheckTest, JsonlFromStdinToStdout) {
   const std::string input =
       "{\"id\":\"j1\",\"formula\":\"Fe2O3\"}\n"  // 1
