@@ -1,9 +1,11 @@
 #include "clients/cli/backend.h"
 
+#include <algorithm>
 #include <chrono>
 #include <functional>
 #include <memory>
 
+#include "absl/strings/match.h"
 #include "absl/strings/str_cat.h"
 #include "absl/types/span.h"
 #include "api/atoms.h"
@@ -11,9 +13,20 @@
 #include "grpcpp/grpcpp.h"
 #include "shellwright/v1/electron_structure.grpc.pb.h"
 #include "util/small_file.h"
+#include "util/utf8.h"
 
 namespace shellwright::cli {
 namespace {
+
+// The reader's warnings about `line`, added to its report.
+void AddReaderWarnings(const ParsedLine& line, v1::RecordReport* report) {
+  for (const ReaderWarning& w : line.warnings) {
+    v1::Diagnostic* d = report->add_diagnostics();
+    d->set_severity(std::string(Name(Severity::kWarning)));
+    d->set_code(w.code);
+    d->set_message(w.message);
+  }
+}
 
 // The engine, on the calling thread.
 class InProcessBatchProcessor final : public BatchProcessor {
@@ -26,9 +39,13 @@ class InProcessBatchProcessor final : public BatchProcessor {
     // record would cost as much as analysing it.
     for (const ParsedLine& line : lines) {
       if (line.error.empty()) {
-        AddReport(format_,
-                  AnalyzeComposition(CompositionInputFromProto(line.record)),
-                  line.record, out);
+        CompositionReport report =
+            AnalyzeComposition(CompositionInputFromProto(line.record));
+        for (const ReaderWarning& w : line.warnings) {
+          report.diagnostics.push_back(
+              {Severity::kWarning, w.code, w.message, 0});
+        }
+        AddReport(format_, report, line.record, out);
       } else {
         AddMalformed(line, out);
       }
@@ -41,6 +58,7 @@ class InProcessBatchProcessor final : public BatchProcessor {
  private:
   void AddMalformed(const ParsedLine& line, ReportLines* out) {
     MalformedRecordReport(line.record, line.error, &malformed_);
+    AddReaderWarnings(line, &malformed_);
     AddReport(format_, malformed_, out);
   }
 
@@ -106,9 +124,12 @@ class RemoteBatchProcessor final : public BatchProcessor {
     int k = 0;
     for (const ParsedLine& line : lines) {
       if (line.error.empty()) {
-        AddReport(format_, reply_.reports(k++), out);
+        v1::RecordReport* report = reply_.mutable_reports(k++);
+        AddReaderWarnings(line, report);
+        AddReport(format_, *report, out);
       } else {
         MalformedRecordReport(line.record, line.error, &malformed_);
+        AddReaderWarnings(line, &malformed_);
         AddReport(format_, malformed_, out);
       }
     }
@@ -230,6 +251,45 @@ class RemoteBackend final : public Backend {
 
 }  // namespace
 
+std::string ServerTarget(const std::string& address) {
+  if (address.find('/') != std::string::npos) return address;  // A scheme.
+  if (!address.empty() && address.front() == '[') {
+    // "[::1]" or "[::1]:50051".
+    return absl::EndsWith(address, "]")
+               ? absl::StrCat(address, ":", kDefaultServerPort)
+               : address;
+  }
+  const size_t colons = std::count(address.begin(), address.end(), ':');
+  if (colons == 0) return absl::StrCat(address, ":", kDefaultServerPort);
+  if (colons > 1) {
+    return absl::StrCat("[", address, "]:", kDefaultServerPort);  // IPv6.
+  }
+  // One colon: "host:port", or a scheme such as "unix:path".
+  return address;
+}
+
+absl::Status ExplainRemoteFailure(const absl::Status& status,
+                                  const std::string& target) {
+  switch (status.code()) {
+    case absl::StatusCode::kUnavailable:
+      return absl::UnavailableError(absl::StrCat(
+          "cannot reach shellwrightd at ", target,
+          ": check that the server is running and listens on that address "
+          "and port (default ",
+          kDefaultServerPort,
+          "), and that --tls-ca is given exactly when the server uses TLS. "
+          "(transport: ",
+          Utf8Prefix(status.message(), 160), ")"));
+    case absl::StatusCode::kDeadlineExceeded:
+      return absl::DeadlineExceededError(absl::StrCat(
+          "shellwrightd at ", target,
+          " did not answer before the deadline: check that the address is "
+          "right and the server is not overloaded, or raise --timeout"));
+    default:
+      return status;
+  }
+}
+
 std::unique_ptr<Backend> MakeInProcessBackend() {
   return std::make_unique<InProcessBackend>();
 }
@@ -267,7 +327,8 @@ absl::StatusOr<std::unique_ptr<Backend>> MakeRemoteBackend(
   if (!options.tls_server_name.empty()) {
     args.SetSslTargetNameOverride(options.tls_server_name);
   }
-  auto channel = grpc::CreateCustomChannel(options.address, credentials, args);
+  auto channel = grpc::CreateCustomChannel(ServerTarget(options.address),
+                                           credentials, args);
   return std::unique_ptr<Backend>(
       new RemoteBackend(std::move(channel), std::move(token), options.timeout,
                         options.stream_timeout));

@@ -57,8 +57,23 @@ class Backend {
 
 std::unique_ptr<Backend> MakeInProcessBackend();
 
+// The port shellwrightd listens on by default (docs/api.md), which
+// --server uses when the address names none.
+inline constexpr int kDefaultServerPort = 50051;
+
+// `address` as a gRPC target: "HOST" and "[v6]" get kDefaultServerPort,
+// a bare IPv6 address ("::1") gets brackets and the port; an address with a
+// port or a scheme ("unix:/run/s.sock", "dns:///h:1") is kept as it is.
+std::string ServerTarget(const std::string& address);
+
+// `status` from a call to the server at `target`, in the user's words when
+// the server could not be reached or did not answer in time: what was
+// tried and what to check. Other statuses are returned unchanged.
+absl::Status ExplainRemoteFailure(const absl::Status& status,
+                                  const std::string& target);
+
 struct RemoteOptions {
-  std::string address;          // HOST:PORT.
+  std::string address;          // HOST:PORT, or HOST (kDefaultServerPort).
   std::string tls_ca_file;      // PEM roots; enables TLS when set.
   std::string tls_cert_file;    // Client certificate for mutual TLS.
   std::string tls_key_file;     // Client key for mutual TLS.

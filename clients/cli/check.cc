@@ -7,6 +7,8 @@
 #include <utility>
 #include <vector>
 
+#include "absl/container/flat_hash_map.h"
+#include "absl/hash/hash.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
 #include "absl/strings/string_view.h"
@@ -14,6 +16,8 @@
 #include "absl/time/time.h"
 #include "api/caution.h"
 #include "clients/cli/ordered_pipeline.h"
+#include "engine/diagnostic_codes.h"
+#include "util/utf8.h"
 
 namespace shellwright::cli {
 namespace {
@@ -77,25 +81,98 @@ class Progress {
   absl::Time last_ = absl::InfinitePast();
 };
 
+// Ids seen so far, by hash, with the row that first had each. A repeated
+// id is a warning: on `log` for the first kShown, and counted in the
+// summary as duplicate_id. Memory: about 16 bytes per distinct id.
+class DuplicateIds {
+ public:
+  explicit DuplicateIds(std::ostream* log) : log_(log) {}
+
+  void Check(const std::vector<ReportRow>& rows, ReportCounts* summary) {
+    constexpr int64_t kShown = 20;
+    for (const ReportRow& r : rows) {
+      if (r.id.empty()) continue;  // Already an error (malformed_record).
+      const auto [it, inserted] =
+          first_row_.try_emplace(absl::HashOf(r.id), r.row);
+      if (inserted) continue;
+      ++repeats_;
+      ++summary->by_code[static_cast<int>(Severity::kWarning)]
+                        [codes::kDuplicateId];
+      ++summary->diagnostics;
+      if (!r.warned) ++summary->rows_with_warnings;
+      if (repeats_ <= kShown) {
+        *log_ << "shellwright: check: warning: row " << r.row << ": id "
+              << QuoteForMessage(r.id) << " repeats the id of row "
+              << it->second << "\n";
+      } else if (repeats_ == kShown + 1) {
+        *log_ << "shellwright: check: warning: more repeated ids follow; "
+                 "the summary counts them (duplicate_id)\n";
+      }
+    }
+  }
+
+ private:
+  std::ostream* const log_;
+  absl::flat_hash_map<size_t, int32_t> first_row_;
+  int64_t repeats_ = 0;
+};
+
 }  // namespace
 
-std::string FormatSummary(const ReportCounts& s) {
-  std::string out = absl::StrFormat("%d rows: %d valid, %d invalid\n", s.rows,
-                                    s.valid, s.invalid);
-  for (const auto& [code, count] : s.by_code) {
-    absl::StrAppendFormat(&out, "  %-36s %d\n", code, count);
+std::string FormatSummary(const ReportCounts& s, bool caution) {
+  std::string out = absl::StrFormat(
+      "%d rows: %d valid, %d invalid; %d with warnings; %d diagnostics\n",
+      s.rows, s.valid, s.invalid, s.rows_with_warnings, s.diagnostics);
+  // Codes under their severity: an invalid row may have several errors,
+  // and warnings and info do not make a row invalid, so only the row
+  // counts above add up to the rows.
+  constexpr absl::string_view kHeadings[] = {
+      "errors (each makes its row invalid)", "warnings (row stays valid)",
+      "info"};
+  for (int i = 0; i < 3; ++i) {
+    if (s.by_code[i].empty()) continue;
+    absl::StrAppend(&out, kHeadings[i], ":\n");
+    for (const auto& [code, count] : s.by_code[i]) {
+      absl::StrAppendFormat(&out, "  %-36s %d\n", code, count);
+    }
   }
-  absl::StrAppend(&out, kMomentCaution, "\n");
+  if (caution) absl::StrAppend(&out, kMomentCaution, "\n");
   return out;
 }
 
-absl::StatusOr<ReportCounts> RunCheck(const CheckOptions& options,
-                                      Backend& backend, std::ostream& log) {
-  absl::StatusOr<std::unique_ptr<RecordInput>> input =
-      RecordInput::Open(options.input, options.input_format);
+std::string FormatSummaryJson(const ReportCounts& s) {
+  std::string out = absl::StrFormat(
+      "{\"rows\":%d,\"valid\":%d,\"invalid\":%d,\"rows_with_warnings\":%d,"
+      "\"diagnostics\":%d,\"codes\":{",
+      s.rows, s.valid, s.invalid, s.rows_with_warnings, s.diagnostics);
+  for (int i = 0; i < 3; ++i) {
+    absl::StrAppend(&out, i > 0 ? "," : "", "\"",
+                    Name(static_cast<Severity>(i)), "\":{");
+    bool first = true;
+    // Codes are lower-case ASCII identifiers (engine/diagnostic_codes.h).
+    for (const auto& [code, count] : s.by_code[i]) {
+      absl::StrAppend(&out, first ? "" : ",", "\"", code, "\":", count);
+      first = false;
+    }
+    out += "}";
+  }
+  out += "}}\n";
+  return out;
+}
+
+absl::StatusOr<CheckResult> RunCheck(const CheckOptions& options,
+                                     Backend& backend, std::ostream& log) {
+  const StopSignals* const stop = options.stop;
+  absl::StatusOr<std::unique_ptr<RecordInput>> input = RecordInput::Open(
+      options.input, options.input_format, stop ? stop->fd() : -1);
   if (!input.ok()) return input.status();
-  const ReportLineFormat format =
-      LineFormat(OutputFormat(options.output, options.output_format));
+  absl::StatusOr<RecordFormat> output_format =
+      OutputFormat(options.output, options.output_format);
+  if (!output_format.ok()) return output_format.status();
+  if (absl::Status s = (*input)->CheckNotInput(options.output); !s.ok()) {
+    return s;
+  }
+  const ReportLineFormat format = LineFormat(*output_format);
   // Opened only once the input looks usable, so that a usage error never
   // truncates an existing output file.
   absl::StatusOr<std::unique_ptr<ReportOutput>> output =
@@ -120,12 +197,22 @@ absl::StatusOr<ReportCounts> RunCheck(const CheckOptions& options,
   }
 
   std::atomic<int64_t> bytes_read{0};
+  bool stopped = false;  // The source's own.
   auto read = [&](CheckBatch* batch) -> absl::StatusOr<bool> {
+    // A stop ends the input between batches (and wakes a waiting read).
+    if (stop != nullptr && stop->signal() != 0) stopped = true;
+    if (stopped || (*input)->stopped()) {
+      stopped = true;
+      return false;
+    }
     batch->refs.reserve(batch_size);
     std::string line;
     int row = 0;
     bool too_long = false;
+    // A batch goes on when full, or when the input (a pipe) has no more
+    // lines for now: its reports should not wait for the next ones.
     while (static_cast<int>(batch->refs.size()) < batch_size &&
+           (batch->refs.empty() || (*input)->Ready()) &&
            (*input)->NextLine(&line, &row, &too_long)) {
       if (line.empty()) continue;
       batch->refs.push_back(
@@ -153,11 +240,21 @@ absl::StatusOr<ReportCounts> RunCheck(const CheckOptions& options,
     std::vector<LineRef>().swap(batch.refs);
     return status;
   };
-  ReportCounts summary;
+  CheckResult result;
+  ReportCounts& summary = result.counts;
+  // Columns no record field has: named once, counted once.
+  for (const std::string& unknown : (*input)->csv().unknown_columns()) {
+    log << "shellwright: check: warning: " << unknown << "\n";
+    ++summary
+          .by_code[static_cast<int>(Severity::kWarning)][codes::kUnknownField];
+    ++summary.diagnostics;
+  }
+  DuplicateIds duplicates(&log);
   Progress progress(&log, (*input)->size());
   auto write = [&](CheckBatch& batch) {
     absl::Status status = (*output)->Write(batch.out.text);
     summary.Add(batch.out.counts);
+    duplicates.Check(batch.out.rows, &summary);
     if (options.progress) {
       progress.Update(summary.rows, bytes_read.load(std::memory_order_relaxed));
     }
@@ -175,11 +272,16 @@ absl::StatusOr<ReportCounts> RunCheck(const CheckOptions& options,
     absl::Status s = processor->Finish();
     if (status.ok()) status = std::move(s);
   }
-  absl::Status closed = (*output)->Close();
-  if (status.ok()) status = std::move(closed);
+  // Reading is over: the stop was seen by the source or not at all.
+  if (stopped || (*input)->stopped()) result.stopped_by = stop->signal();
+  if (status.ok() && result.stopped_by == 0) {
+    status = (*output)->Close();
+  } else {
+    (*output)->Abandon();  // --out keeps what it had.
+  }
   if (options.progress) progress.Clear();
   if (!status.ok()) return status;
-  return summary;
+  return result;
 }
 
 }  // namespace shellwright::cli

@@ -6,14 +6,19 @@
 //     regard to case or surrounding spaces); `id` and `formula` are
 //     required, and `charge`, `declared_states`, `geometry`,
 //     `spin_state`, `measured_moment`, `moment_tolerance`,
-//     `max_alternatives` are understood (other columns are ignored). One
+//     `max_alternatives` are understood (other columns are ignored, and
+//     listed by unknown_columns()). One
 //     record per line: fields may be quoted ("a, b"), with "" for a quote
 //     inside, but may not span lines (a line break inside quotes would let
 //     one broken quote swallow the records after it; the output promises
 //     one report per input line). Empty lines are skipped, and row numbers
 //     keep counting them. A record whose id is empty is malformed.
 //   - JSONL: one shellwright.v1.CompositionRecord JSON object per line
-//     (proto field names; unknown fields ignored). Empty lines are skipped.
+//     (proto field names). A key that is no field is ignored with an
+//     "unknown_field" warning in the record's report (naming the field it
+//     was likely meant to be); a value of the wrong type makes the line
+//     malformed with a message naming the field and the type it needs.
+//     Empty lines are skipped.
 // A line that cannot be read (bad quoting, wrong field count, a value that
 // is not a number, broken JSON, longer than kMaxLineBytes) becomes an error
 // report with code "malformed_record" (api/records.h's
@@ -35,7 +40,7 @@
 #define SHELLWRIGHT_CLIENTS_CLI_RECORD_IO_H_
 
 #include <algorithm>
-#include <istream>
+#include <cstdint>
 #include <iterator>
 #include <string>
 #include <vector>
@@ -49,38 +54,68 @@ namespace shellwright::cli {
 // Longest input line accepted; longer lines become malformed_record.
 inline constexpr size_t kMaxLineBytes = 1 << 20;
 
-// Physical lines of a stream in constant memory: a line longer than
-// kMaxLineBytes is cut there (the rest is skipped, not stored) and flagged.
-// A UTF-8 byte-order mark at the very start is dropped. Lines lose their
-// "\n" and a trailing "\r".
+// Physical lines of a file descriptor in constant memory: a line longer
+// than kMaxLineBytes is cut there (the rest is skipped, not stored) and
+// flagged. A UTF-8 byte-order mark at the very start is dropped. Lines
+// lose their "\n" and a trailing "\r". Reads take what is there (a pipe's
+// lines are answered as they come), and a read that waits can be woken by
+// `stop_fd` becoming readable (util/stop_signals.h): the input then ends
+// there, as if at its end, with stopped() true, and a line not yet ended
+// by "\n" is dropped, never returned in part.
 class LineSource {
  public:
-  explicit LineSource(std::istream* in);
+  // Reads `fd`, which the caller keeps open; `stop_fd` -1: never stopped.
+  explicit LineSource(int fd, int stop_fd = -1);
   LineSource(const LineSource&) = delete;
   LineSource& operator=(const LineSource&) = delete;
 
-  // False at the end of the input (or on a read error; see bad()).
+  // False at the end of the input, on a read error (see bad()), or once
+  // stopped.
   bool Next(std::string* line, int* line_no, bool* too_long);
 
+  // True when Next() would answer without waiting for the input: a whole
+  // line is buffered, more can be read now, or the input is over. Lets a
+  // reader of a pipe hand on what it has instead of waiting for more.
+  bool Ready();
+
   int64_t bytes_read() const { return bytes_read_; }
-  bool bad() const { return in_->bad(); }
+  bool bad() const { return error_ != 0; }
+  int error() const { return error_; }  // The failed read's errno.
+  bool stopped() const { return stopped_; }
 
  private:
   bool Fill();
 
-  std::istream* in_;
+  const int fd_;
+  const int stop_fd_;
   std::vector<char> buffer_;
   size_t pos_ = 0;
   size_t end_ = 0;
   int line_no_ = 0;
   int64_t bytes_read_ = 0;
   bool at_start_ = true;
+  bool at_end_ = false;
+  bool stopped_ = false;
+  int error_ = 0;
+};
+
+// A reader's warning about a line it could read: its report carries it
+// with severity "warning".
+struct ReaderWarning {
+  std::string code;  // engine/diagnostic_codes.h, e.g. "unknown_field".
+  std::string message;
 };
 
 struct ParsedLine {
-  v1::CompositionRecord record;  // row and whatever could be read.
-  std::string error;             // Non-empty for a malformed line.
+  v1::CompositionRecord record;         // row and whatever could be read.
+  std::string error;                    // Non-empty for a malformed line.
+  std::vector<ReaderWarning> warnings;  // Usually none.
 };
+
+// The record field that `name` (an unknown key or column) was most likely
+// meant to be: the same name in another case or with spaces or '-' for
+// '_', or one at most two edits away. Empty when none is that close.
+std::string NearestRecordField(absl::string_view name);
 
 // Splits one CSV line. Returns false with `error` set on bad quoting.
 bool SplitCsvLine(absl::string_view line, std::vector<std::string>* fields,
@@ -94,6 +129,13 @@ class CsvRecordReader {
   // One record from one line after the header.
   ParsedLine ParseLine(absl::string_view line, int row);
   bool id_is_first_column() const { return column_[kId] == 0; }
+
+  // The header's columns that no record field has, each with a "did you
+  // mean" hint where one is close: "column 'Formla' is not a record field
+  // and is ignored (did you mean 'formula'?)". `check` prints them once.
+  const std::vector<std::string>& unknown_columns() const {
+    return unknown_columns_;
+  }
 
  private:
   // The columns the reader understands; column_[k] is the position of
@@ -115,6 +157,7 @@ class CsvRecordReader {
 
   size_t header_size_ = 0;
   int column_[kColumns];
+  std::vector<std::string> unknown_columns_;
   std::vector<std::string> fields_;  // Reused for every line.
 };
 
