@@ -263,45 +263,44 @@ void VisitState(const AssignedState& s, const std::vector<AssignedUnit>& units,
 template <typename Visitor>
 void VisitIon(const IonAnnotation& ion, Visitor& v) {
   const AtomDescription& d = *ion.description;
-  v.Cached(IonKey{&ion.description, nullptr, ion.description.get(), ion.element,
-                  ion.state, Bits(ion.moment), Bits(ion.moment_low),
-                  Bits(ion.moment_high), ion.ligand, Bits(ion.ligand_f),
-                  static_cast<int>(ion.spin_basis) * 4 +
-                      (ion.near_spin_crossover ? 2 : 0) + (ion.bonded ? 1 : 0)},
-           {VaryingValue::Number(ion.count.ToDouble())}, [&](auto& v) {
-             const LigandFieldSplitting* lf = d.ligand_field.has_value()
-                                                  ? &d.ligand_field->splitting
-                                                  : nullptr;
-             v.String(SHELLWRIGHT_REPORT_FIELD(element), ion.element->symbol);
-             v.Int(SHELLWRIGHT_REPORT_FIELD(state), ion.state);
-             v.VaryingNumber(SHELLWRIGHT_REPORT_FIELD(count), 0);
-             v.String(SHELLWRIGHT_REPORT_FIELD(species),
-                      FormatSpecies(ion.element->symbol, ion.state));
-             v.String(SHELLWRIGHT_REPORT_FIELD(configuration),
-                      d.configuration_notation);
-             v.Int(SHELLWRIGHT_REPORT_FIELD(unpaired_electrons),
-                   d.unpaired_electrons);
-             v.String(SHELLWRIGHT_REPORT_FIELD(geometry),
-                      Name(lf != nullptr ? lf->geometry : Geometry::kFree));
-             v.String(SHELLWRIGHT_REPORT_FIELD(spin_state),
-                      lf != nullptr ? Name(lf->spin_state) : "");
-             v.String(SHELLWRIGHT_REPORT_FIELD(ligand_field_occupancy),
-                      lf != nullptr ? lf->Notation() : "");
-             v.String(SHELLWRIGHT_REPORT_FIELD(term_symbol), d.term.ToAscii());
-             v.Double(SHELLWRIGHT_REPORT_FIELD(moment), ion.moment);
-             v.String(SHELLWRIGHT_REPORT_FIELD(moment_basis),
-                      Name(d.moments.recommended_basis));
-             v.Double(SHELLWRIGHT_REPORT_FIELD(moment_low), ion.moment_low);
-             v.Double(SHELLWRIGHT_REPORT_FIELD(moment_high), ion.moment_high);
-             v.String(SHELLWRIGHT_REPORT_FIELD(ligand),
-                      ion.ligand != nullptr ? ion.ligand->Name() : "");
-             v.Double(SHELLWRIGHT_REPORT_FIELD(ligand_f), ion.ligand_f);
-             v.String(SHELLWRIGHT_REPORT_FIELD(spin_state_basis),
-                      Name(ion.spin_basis));
-             v.Bool(SHELLWRIGHT_REPORT_FIELD(near_spin_crossover),
-                    ion.near_spin_crossover);
-             v.Bool(SHELLWRIGHT_REPORT_FIELD(bonded), ion.bonded);
-           });
+  v.Cached(
+      IonKey{&ion.description, nullptr, ion.description.get(), ion.element,
+             ion.state, Bits(ion.moment), Bits(ion.moment_low),
+             Bits(ion.moment_high), ion.ligand, Bits(ion.ligand_f),
+             static_cast<int>(ion.spin_basis) * 4 +
+                 (ion.near_spin_crossover ? 2 : 0) + (ion.bonded ? 1 : 0)},
+      {VaryingValue::Number(ion.count.ToDouble())}, [&](auto& v) {
+        const LigandFieldSplitting* lf =
+            d.ligand_field.has_value() ? &d.ligand_field->splitting : nullptr;
+        v.String(SHELLWRIGHT_REPORT_FIELD(element), ion.element->symbol);
+        v.Int(SHELLWRIGHT_REPORT_FIELD(state), ion.state);
+        v.VaryingNumber(SHELLWRIGHT_REPORT_FIELD(count), 0);
+        v.String(SHELLWRIGHT_REPORT_FIELD(species),
+                 FormatSpecies(ion.element->symbol, ion.state));
+        v.String(SHELLWRIGHT_REPORT_FIELD(configuration),
+                 d.configuration_notation);
+        v.Int(SHELLWRIGHT_REPORT_FIELD(unpaired_electrons), ion.unpaired());
+        v.String(SHELLWRIGHT_REPORT_FIELD(geometry),
+                 Name(lf != nullptr ? lf->geometry : Geometry::kFree));
+        v.String(SHELLWRIGHT_REPORT_FIELD(spin_state),
+                 lf != nullptr ? Name(lf->spin_state) : "");
+        v.String(SHELLWRIGHT_REPORT_FIELD(ligand_field_occupancy),
+                 lf != nullptr ? lf->Notation() : "");
+        v.String(SHELLWRIGHT_REPORT_FIELD(term_symbol), d.term.ToAscii());
+        v.Double(SHELLWRIGHT_REPORT_FIELD(moment), ion.moment);
+        v.String(SHELLWRIGHT_REPORT_FIELD(moment_basis),
+                 Name(d.moments.recommended_basis));
+        v.Double(SHELLWRIGHT_REPORT_FIELD(moment_low), ion.moment_low);
+        v.Double(SHELLWRIGHT_REPORT_FIELD(moment_high), ion.moment_high);
+        v.String(SHELLWRIGHT_REPORT_FIELD(ligand),
+                 ion.ligand != nullptr ? ion.ligand->Name() : "");
+        v.Double(SHELLWRIGHT_REPORT_FIELD(ligand_f), ion.ligand_f);
+        v.String(SHELLWRIGHT_REPORT_FIELD(spin_state_basis),
+                 Name(ion.spin_basis));
+        v.Bool(SHELLWRIGHT_REPORT_FIELD(near_spin_crossover),
+               ion.near_spin_crossover);
+        v.Bool(SHELLWRIGHT_REPORT_FIELD(bonded), ion.bonded);
+      });
 }
 
 }  // namespace report_view_internal

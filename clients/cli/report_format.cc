@@ -24,7 +24,8 @@ std::string StatesText(
   for (const v1::OxidationState& s : states) {
     if (!out.empty()) out += ", ";
     absl::StrAppend(&out, s.element(), s.state() > 0 ? "+" : "", s.state(),
-                    " ×", s.count_exact(), s.common() ? "" : " (uncommon)");
+                    " ×", s.count_exact(), s.common() ? "" : " (uncommon)",
+                    s.unit().empty() ? "" : absl::StrCat(" [", s.unit(), "]"));
   }
   return out;
 }
@@ -56,10 +57,30 @@ std::string FormatReportHuman(const v1::RecordReport& r) {
                             StatesText(a->oxidation_states()), a->score());
     }
   }
+  if (r.units_size() > 0) {
+    std::string units;
+    for (const v1::UnitReport& u : r.units()) {
+      if (!units.empty()) units += ", ";
+      // "(NH4)+", "(SO4)2-", "H2O".
+      const int q = u.charge() < 0 ? -u.charge() : u.charge();
+      absl::StrAppend(
+          &units, u.name(), " ",
+          u.charge() == 0 ? u.formula()
+                          : absl::StrCat("(", u.formula(), ")",
+                                         q == 1 ? "" : absl::StrCat(q),
+                                         u.charge() > 0 ? "+" : "-"),
+          " ×", u.count_exact(),
+          u.unpaired_electrons() > 0
+              ? absl::StrCat(" (", u.unpaired_electrons(), " unpaired)")
+              : "");
+    }
+    absl::StrAppend(&out, "  Units              ", units, "\n");
+  }
   if (r.ions_size() > 0) {
     absl::StrAppendFormat(&out, "\n  %-8s %-8s %-24s %-9s %-20s %-12s %s\n",
                           "ion", "count", "configuration", "unpaired",
-                          "spin state", "split", "moment (μB)");
+                          "spin state                    ", "split",
+                          "moment (μB)");
     for (const v1::IonReport& ion : r.ions()) {
       // A spin label only where high and low spin differ; no split shown
       // for an empty or full d subshell.
@@ -69,7 +90,9 @@ std::string FormatReportHuman(const v1::RecordReport& r) {
       std::string split = "-";
       if (field.has_value()) {
         spin = field->has_spin_choice
-                   ? absl::StrCat(ion.spin_state(), " (", ion.geometry(), ")")
+                   ? absl::StrCat(ion.spin_state(), " (", ion.geometry(),
+                                  ion.ligand().empty() ? "" : ", ",
+                                  ion.ligand(), ")")
                    : absl::StrCat("- (", ion.geometry(), ")");
         if (field->spin.find("d subshell") == std::string::npos) {
           split = field->occupancy;
@@ -83,9 +106,11 @@ std::string FormatReportHuman(const v1::RecordReport& r) {
           &out, "  %-8s %-8g %-24s %-9d %s %s %.2f  [%.2f-%.2f]\n",
           ion.species(), ion.count(),
           ion.configuration().empty() ? "(none)" : ion.configuration(),
-          ion.unpaired_electrons(), PadTo(spin, 20), PadTo(split, 12),
+          ion.unpaired_electrons(), PadTo(spin, 30), PadTo(split, 12),
           ion.moment(), ion.moment_low(), ion.moment_high());
     }
+  }
+  if (r.ions_size() > 0 || r.units_size() > 0) {
     absl::StrAppendFormat(
         &out,
         "\n  Per formula unit: %g unpaired electron%s, effective moment "
