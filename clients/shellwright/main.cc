@@ -43,7 +43,8 @@ constexpr FieldName kFlagNames[] = {{"spec", "SPEC"},
                                     {"charge", "--charge"},
                                     {"geometry", "--geometry"},
                                     {"spin_state", "--spin-state"},
-                                    {"configuration", "--configuration"}};
+                                    {"configuration", "--configuration"},
+                                    {"address", "--server"}};
 
 // Maps a failed call to an exit code, printing one line.
 int Fail(const absl::Status& status) {
@@ -68,7 +69,9 @@ void AddRemoteOptions(CLI::App* app, RemoteFlags* flags) {
   RemoteOptions& o = flags->options;
   flags->server = app->add_option(
       "--server", o.address,
-      "use the shellwrightd at HOST:PORT instead of the in-process engine");
+      "use shellwrightd instead of the in-process engine: HOST:PORT, "
+      "several as HOST:PORT,HOST:PORT (batches go round robin; a failed "
+      "server's work goes to the others), or dns:///NAME:PORT");
   CLI::Option* ca =
       app->add_option("--tls-ca", o.tls_ca_file,
                       "PEM roots to verify the server with (enables TLS)");
@@ -359,10 +362,12 @@ int Main(int argc, char** argv) {
   std::unique_ptr<Backend> backend;
   if (remote.server->count() > 0) {
     remote.options.timeout = absl::Seconds(remote.timeout_seconds);
+    remote.options.warnings = &std::cerr;
     absl::StatusOr<std::unique_ptr<Backend>> made =
         MakeRemoteBackend(remote.options);
     if (!made.ok()) {
-      std::cerr << "shellwright: " << made.status().message() << "\n";
+      std::cerr << "shellwright: "
+                << RenameField(made.status().message(), kFlagNames) << "\n";
       return kExitUsage;
     }
     backend = std::move(*made);
