@@ -164,10 +164,10 @@ TEST(Replicas, RunFailsNamingEveryServerWhenNoneIsLeft) {
   const std::string address = server->address();
   ASSERT_EQ(server->Terminate(kWait), 0);
   // Both gone: port 1 never listens, and the server above has stopped.
-  CommandResult r = RunCommand({CliPath(), "--server",
-                                absl::StrCat("127.0.0.1:1,", address), "check",
-                                dir.File("in.csv"), "--no-progress"},
-                               kWait);
+  CommandResult r =
+      RunCommand({CliPath(), "--server", absl::StrCat("127.0.0.1:1,", address),
+                  "check", dir.File("in.csv"), "--no-progress"},
+                 kWait);
   EXPECT_EQ(r.exit_code, 2);
   EXPECT_THAT(r.err, HasSubstr("no server left"));
   EXPECT_THAT(r.err, HasSubstr("127.0.0.1:1: UNAVAILABLE"));
@@ -176,10 +176,8 @@ TEST(Replicas, RunFailsNamingEveryServerWhenNoneIsLeft) {
 }
 
 TEST(Replicas, EmptyTargetIsAUsageErrorNamingTheFlag) {
-  CommandResult r =
-      RunCommand({CliPath(), "--server", "127.0.0.1:1,,127.0.0.1:2", "atom",
-                  "Fe"},
-                 kWait);
+  CommandResult r = RunCommand(
+      {CliPath(), "--server", "127.0.0.1:1,,127.0.0.1:2", "atom", "Fe"}, kWait);
   EXPECT_EQ(r.exit_code, 2);
   EXPECT_THAT(r.err, HasSubstr("--server: "));
   EXPECT_THAT(r.err, HasSubstr("empty target"));
@@ -189,10 +187,10 @@ TEST(Replicas, EmptyTargetIsAUsageErrorNamingTheFlag) {
 TEST(Replicas, AtomFallsBackToALiveServer) {
   std::unique_ptr<ServerProcess> server = StartShellwrightd({});
   ASSERT_NE(server, nullptr);
-  CommandResult r = RunCommand({CliPath(), "--server",
-                                absl::StrCat("127.0.0.1:1,", server->address()),
-                                "atom", "Fe3+"},
-                               kWait);
+  CommandResult r = RunCommand(
+      {CliPath(), "--server", absl::StrCat("127.0.0.1:1,", server->address()),
+       "atom", "Fe3+"},
+      kWait);
   EXPECT_EQ(r.exit_code, 0) << r.err;
   EXPECT_THAT(r.out, HasSubstr("3d5"));
   EXPECT_EQ(server->Terminate(kWait), 0);

@@ -667,7 +667,7 @@ TEST(Shellwrightd, DrainAnswersTheBatchInHandThenEndsTheStream) {
 // shutdown for the whole grace period.
 TEST(Shellwrightd, IdleStreamsAndConnectionsDoNotHoldTheDrain) {
   std::unique_ptr<ServerProcess> server =
-      StartShellwrightd({"--shutdown-grace", "60"});
+      StartShellwrightd({"--drain-seconds", "60"});
   ASSERT_NE(server, nullptr);
   auto stub = Stub(server->address());
   auto context = Context(std::chrono::seconds(90));
@@ -779,7 +779,8 @@ TEST(Shellwrightd, BadFlagsExitTwoWithAMessage) {
       {{"--log-level", "loud"}, "log level"},
       {{"--max-message-bytes", "-5"}, "--max-message-bytes"},
       {{"--max-concurrent-streams", "many"}, "--max-concurrent-streams"},
-      {{"--shutdown-grace", "-1"}, "--shutdown-grace"},
+      {{"--shutdown-grace", "-1"}, "--drain-seconds"},
+      {{"--drain-seconds", "-1"}, "--drain-seconds"},
       {{"--tls-cert", junk_pem}, "--tls-key"},
       {{"--tls-cert", junk_pem, "--tls-key", junk_pem}, "no PEM block"},
       {{"--tls-client-ca", junk_pem}, "--tls-cert"},
