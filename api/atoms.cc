@@ -213,6 +213,7 @@ void ElementToProto(const Element& e, v1::Element* out) {
   out->set_block(std::string(Name(e.block)));
   out->set_standard_atomic_weight(e.standard_atomic_weight);
   out->set_atomic_weight_is_mass_number(e.atomic_weight_is_mass_number);
+  out->set_atomic_weight_text(std::string(e.atomic_weight_text));
   if (e.pauling_electronegativity.has_value()) {
     out->set_pauling_electronegativity(*e.pauling_electronegativity);
   }

@@ -10,6 +10,7 @@
 #include "engine/internal/data_tables.h"
 #include "engine/internal/text.h"
 #include "engine/magnetism.h"
+#include "engine/oxidation.h"
 
 namespace shellwright {
 namespace {
@@ -156,6 +157,33 @@ AtomDescriptionPtr Build(const Element& element, int charge,
       d->notes.push_back(absl::StrCat(
           "measured ground configuration departs from Madelung filling (",
           Configuration::Madelung(z).ToCoreNotation(), "); source: ", source));
+    }
+  }
+
+  if (charge != 0) {
+    bool known = false;
+    std::string states;
+    for (const KnownOxidationState& k : KnownOxidationStates(element)) {
+      known |= k.state == charge;
+      absl::StrAppend(&states, states.empty() ? "" : ", ",
+                      k.state > 0 ? "+" : "", k.state);
+    }
+    if (!known) {
+      d->notes.push_back(absl::StrCat(
+          "oxidation state ", charge > 0 ? "+" : "", charge,
+          " is not a known oxidation state of ", element.symbol,
+          " (known: ", states.empty() ? "none" : states,
+          "; data/oxidation_states.tsv): described as a free ion only"));
+    }
+  }
+  if (user_supplied) {
+    absl::StatusOr<Configuration> ground = IonConfiguration(z, charge);
+    if (ground.ok() && !(*ground == configuration)) {
+      d->notes.push_back(absl::StrCat(
+          "the configuration given is not the ground configuration (",
+          ground->ToCoreNotation(),
+          "); its term and level are the lowest of the configuration given, "
+          "not the ground level"));
     }
   }
 

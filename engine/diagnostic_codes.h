@@ -50,6 +50,12 @@ inline constexpr char kPossibleHydrateTypo[] = "possible_hydrate_typo";
 inline constexpr char kUncommonOxidationState[] = "uncommon_oxidation_state";
 inline constexpr char kDeclaredStateUnknown[] = "declared_state_unknown";
 inline constexpr char kIonNotDescribed[] = "ion_not_described";
+// The clients' record readers (clients/cli/record_io.h): a JSONL key or a
+// CSV column that no record field has, which is ignored.
+inline constexpr char kUnknownField[] = "unknown_field";
+// `check`: a record whose id an earlier record of the same input has
+// (counted in the summary and named on stderr, not in either report).
+inline constexpr char kDuplicateId[] = "duplicate_id";
 
 // Info.
 inline constexpr char kMixedValence[] = "mixed_valence";

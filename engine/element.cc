@@ -59,6 +59,7 @@ const ElementIndex& Index() {
           ParseName<Block>(absl::string_view(&r.block, 1)).value_or(Block::kS);
       e.standard_atomic_weight = r.standard_atomic_weight;
       e.atomic_weight_is_mass_number = r.weight_is_mass_number;
+      e.atomic_weight_text = r.weight_text;
       if (r.has_electronegativity) {
         e.pauling_electronegativity = r.pauling_electronegativity;
       }

@@ -63,6 +63,9 @@ struct Element {
   // this is the mass number of the longest-lived isotope.
   double standard_atomic_weight;
   bool atomic_weight_is_mass_number;
+  // The weight as published, with its significant trailing zeros: "20.180";
+  // a mass number in brackets: "[98]".
+  absl::string_view atomic_weight_text;
   // Pauling electronegativity, where one is tabulated.
   std::optional<double> pauling_electronegativity;
 };

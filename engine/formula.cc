@@ -67,7 +67,21 @@ class FormulaParser {
         }
       }
       Items items;
+      const int first_term = static_cast<int>(terms_.size());
+      const int first_group = static_cast<int>(groups_.size());
+      if (part_ > 0) {
+        groups_.push_back(WrittenGroup{'*', -1, first_term, first_term,
+                                       multiplier, Rational(1)});
+      }
+      current_group_ = part_ > 0 ? first_group : -1;
       if (!ParseSequence(0, '\0', &items)) return Failed(error);
+      if (part_ > 0) {
+        groups_[first_group].end_term = static_cast<int>(terms_.size());
+      }
+      if (!Multiply(first_term, first_group, multiplier)) {
+        Fail(codes::kCountTooLarge, part_start, "stoichiometry is too large");
+        return Failed(error);
+      }
       if (items.empty()) {
         if (text_.empty()) {
           Fail(codes::kEmptyFormula, 0, "formula is empty");
@@ -103,6 +117,7 @@ class FormulaParser {
       if (pos_ == text_.size()) break;
       if (size_t len = SeparatorLength(pos_); len > 0) {
         pos_ += len;
+        ++part_;
         if (pos_ == text_.size()) {
           Fail(codes::kMalformedFormula, pos_ - len,
                absl::StrCat("nothing follows the separator at column ",
@@ -122,6 +137,8 @@ class FormulaParser {
       return Failed(error);
     }
     formula.warnings = std::move(warnings_);
+    formula.terms = std::move(terms_);
+    formula.groups = std::move(groups_);
     return formula;
   }
 
@@ -164,6 +181,26 @@ class FormulaParser {
     issue_.code = std::string(code);
     issue_.column = Column(byte_pos);
     issue_.message = std::move(message);
+  }
+
+  // Multiplies the written multipliers of the terms from `first_term` and
+  // of the groups from `first_group` on by `count`: the count after a
+  // closing bracket, or a part's leading multiplier. False on overflow.
+  bool Multiply(int first_term, int first_group, const Rational& count) {
+    if (count.num() == 1 && count.den() == 1) return true;
+    for (size_t i = first_term; i < terms_.size(); ++i) {
+      if (!CheckedMultiply(terms_[i].multiplier, count,
+                           &terms_[i].multiplier)) {
+        return false;
+      }
+    }
+    for (size_t i = first_group; i < groups_.size(); ++i) {
+      if (!CheckedMultiply(groups_[i].multiplier, count,
+                           &groups_[i].multiplier)) {
+        return false;
+      }
+    }
+    return true;
   }
 
   absl::Status Failed(FormulaIssue* error) {
@@ -285,6 +322,8 @@ class FormulaParser {
         Rational count(1);
         if (!ParseCount(&count)) return false;
         items->emplace_back(element, count);
+        terms_.push_back(
+            WrittenTerm{element, count, Rational(1), current_group_, part_});
         continue;
       }
       if (c == '(' || c == '[') {
@@ -298,7 +337,14 @@ class FormulaParser {
         }
         ++pos_;
         Items inner;
+        const int group = static_cast<int>(groups_.size());
+        const int first_term = static_cast<int>(terms_.size());
+        groups_.push_back(WrittenGroup{c, current_group_, first_term,
+                                       first_term, Rational(1), Rational(1)});
+        current_group_ = group;
         if (!ParseSequence(depth + 1, want, &inner)) return false;
+        current_group_ = groups_[group].parent;
+        groups_[group].end_term = static_cast<int>(terms_.size());
         if (pos_ >= text_.size() || text_[pos_] != want) {
           Fail(codes::kMalformedFormula, open,
                absl::StrCat("'", std::string(1, c), "' at column ",
@@ -313,6 +359,11 @@ class FormulaParser {
         ++pos_;
         Rational count(1);
         if (!ParseCount(&count)) return false;
+        groups_[group].count = count;
+        if (!Multiply(first_term, group, count)) {
+          Fail(codes::kCountTooLarge, open, "stoichiometry is too large");
+          return false;
+        }
         for (auto& [element, n] : inner) {
           Rational total;
           if (!CheckedMultiply(n, count, &total)) {
@@ -367,6 +418,10 @@ class FormulaParser {
 
   absl::string_view text_;
   size_t pos_ = 0;
+  int part_ = 0;            // Adduct part being parsed.
+  int current_group_ = -1;  // Innermost open group, or -1.
+  std::vector<WrittenTerm> terms_;
+  std::vector<WrittenGroup> groups_;
   FormulaIssue issue_;
   std::vector<FormulaIssue> warnings_;
 };

@@ -25,6 +25,8 @@
 //       shellwright::ParseFormula("La0.7Sr0.3MnO3", &issue);
 //   f->amounts[0].element->symbol;       // "La"
 //   f->amounts[0].count.ToString();      // "7/10"
+//   // ParseFormula("K4[Fe(CN)6]"): groups[0] is '[' (terms Fe, C, N),
+//   // groups[1] is '(' inside it with count 6 (terms C, N).
 //   shellwright::ParseFormula("Fe2O3)", &issue);
 //   // issue.code == "malformed_formula", issue.column == 6
 //
@@ -62,10 +64,35 @@ struct FormulaIssue {
   std::string message;  // Human-readable, names the column and the text.
 };
 
+// An element symbol as written, with the count written after it, inside
+// zero or more groups. Later stages read the written structure as hints:
+// a group `(CN)6` or a run `NH4` may be a polyatomic unit.
+struct WrittenTerm {
+  const Element* element;
+  Rational count;       // As written after the symbol; 1 when none.
+  Rational multiplier;  // Product of the enclosing groups' and part's counts.
+  int group = -1;       // Innermost enclosing group in Formula::groups.
+  int part = 0;         // Adduct part: 0, then 1 after the first '·', ...
+};
+
+// A bracketed group, or an adduct part after a separator ('·5H2O').
+struct WrittenGroup {
+  char bracket;        // '(', '[', or '*' for an adduct part.
+  int parent = -1;     // Enclosing group, or -1.
+  int first_term = 0;  // The group's terms are [first_term, end_term).
+  int end_term = 0;
+  Rational count;       // Written after the closing bracket (the part's
+                        // leading multiplier); 1 when none.
+  Rational multiplier;  // count times the enclosing groups' counts.
+};
+
 struct Formula {
   // One entry per element, in order of first appearance.
   std::vector<ElementAmount> amounts;
   std::vector<FormulaIssue> warnings;
+  // The formula as written: every symbol in order, and every group.
+  std::vector<WrittenTerm> terms;
+  std::vector<WrittenGroup> groups;
 
   // Total atoms per formula unit.
   Rational TotalAtoms() const;

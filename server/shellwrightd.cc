@@ -30,8 +30,10 @@
 
 #include "absl/status/status.h"
 #include "absl/strings/str_cat.h"
+#include "absl/strings/strip.h"
 #include "absl/synchronization/notification.h"
 #include "absl/time/time.h"
+#include "engine/version.h"
 #include "server/logging.h"
 #include "server/service.h"
 #include "util/command_line.h"
@@ -69,6 +71,10 @@ struct Flags {
 std::optional<int> ParseFlags(int argc, char** argv, Flags* flags) {
   CLI::App app{"Serves shellwright.v1.ElectronStructure over gRPC.",
                "shellwrightd"};
+  app.set_version_flag(
+      "--version",
+      std::string(absl::StripSuffix(VersionText("shellwrightd"), "\n")),
+      "print the version and the data tables' versions");
   ServerOptions& server = flags->server;
   app.add_option("--listen", server.listen,
                  "address to serve on: HOST:PORT (port 0 picks a free "

@@ -1,11 +1,18 @@
 #include "clients/cli/atom_format.h"
 
+#include <algorithm>
 #include <cstdio>
+#include <optional>
+#include <vector>
 
+#include "absl/strings/match.h"
+#include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
-#include "api/caution.h"
+#include "absl/strings/str_split.h"
+#include "absl/strings/strip.h"
 #include "engine/atom.h"
+#include "engine/ligand_field.h"
 #include "google/protobuf/util/json_util.h"
 
 namespace shellwright::cli {
@@ -20,6 +27,25 @@ void Line(std::string* out, absl::string_view label, absl::string_view value) {
   absl::StrAppendFormat(out, "  %-20s %s\n", label, value);
 }
 
+// Superscript digits, for level occupancies: "t2g³ eg²", "e⁴ t2³".
+std::string Superscript(int n) {
+  static constexpr const char* kDigits[] = {"⁰", "¹", "²", "³", "⁴",
+                                            "⁵", "⁶", "⁷", "⁸", "⁹"};
+  std::string digits = absl::StrCat(n);
+  std::string out;
+  for (char c : digits) out += kDigits[c - '0'];
+  return out;
+}
+
+// The names of the split d levels in `geometry` ("t2g", "eg"; "e", "t2").
+std::vector<std::string> LevelNames(Geometry geometry) {
+  std::vector<std::string> names;
+  for (const SplitLevel& level : SplitD(0, geometry, SpinState::kHigh).levels) {
+    names.push_back(std::string(level.name));
+  }
+  return names;
+}
+
 }  // namespace
 
 std::string ToJson(const google::protobuf::Message& message, bool pretty) {
@@ -32,6 +58,52 @@ std::string ToJson(const google::protobuf::Message& message, bool pretty) {
   (void)google::protobuf::util::MessageToJsonString(message, &out, options);
   if (pretty && !out.empty() && out.back() == '\n') out.pop_back();
   return out;
+}
+
+std::optional<LigandFieldText> DescribeLigandField(
+    absl::string_view geometry_name, absl::string_view spin_state,
+    absl::string_view occupancy) {
+  absl::StatusOr<Geometry> geometry = ParseName<Geometry>(geometry_name);
+  if (!geometry.ok() || *geometry == Geometry::kFree || occupancy.empty()) {
+    return std::nullopt;
+  }
+  // "t2g3 eg2", "e4 t23": each token is a level name and its electrons;
+  // the longest level name that leaves only digits is the name.
+  std::vector<std::string> names = LevelNames(*geometry);
+  std::sort(names.begin(), names.end(),
+            [](const std::string& a, const std::string& b) {
+              return a.size() > b.size();
+            });
+  LigandFieldText text;
+  int d_electrons = 0;
+  for (absl::string_view token : absl::StrSplit(occupancy, ' ')) {
+    bool matched = false;
+    for (const std::string& name : names) {
+      int n = 0;
+      if (absl::StartsWith(token, name) &&
+          absl::SimpleAtoi(token.substr(name.size()), &n)) {
+        absl::StrAppend(&text.occupancy, text.occupancy.empty() ? "" : " ",
+                        name, Superscript(n));
+        d_electrons += n;
+        matched = true;
+        break;
+      }
+    }
+    if (!matched) return std::nullopt;  // Not a notation this client knows.
+  }
+  text.geometry = std::string(geometry_name);
+  if (d_electrons == 0 || d_electrons == 10) {
+    text.spin = absl::StrCat(d_electrons == 0 ? "empty" : "full",
+                             " d subshell: no spin state");
+    return text;
+  }
+  const bool choice =
+      SplitD(d_electrons, *geometry, SpinState::kHigh).unpaired !=
+      SplitD(d_electrons, *geometry, SpinState::kLow).unpaired;
+  text.spin = choice ? absl::StrCat(spin_state, " spin")
+                     : absl::StrCat("d", d_electrons, ": one spin state only");
+  text.has_spin_choice = choice;
+  return text;
 }
 
 std::string OrbitalBoxes(int orbitals, int electrons) {
@@ -60,10 +132,31 @@ std::string FormatAtomHuman(const v1::AtomDescription& d) {
            d.block(), " / ", d.period(), " / ",
            d.group() == 0 ? std::string("-") : absl::StrCat(d.group())));
   Line(&out, "Valence electrons", absl::StrCat(d.valence_electrons()));
-  Line(&out, "Unpaired electrons", absl::StrCat(d.unpaired_electrons()));
+  int free_ion_unpaired = 0;
+  for (const v1::Subshell& s : d.subshells()) {
+    free_ion_unpaired += s.unpaired_electrons();
+  }
+  const std::optional<LigandFieldText> field =
+      d.has_ligand_field() ? DescribeLigandField(d.ligand_field().geometry(),
+                                                 d.ligand_field().spin_state(),
+                                                 d.ligand_field().occupancy())
+                           : std::nullopt;
+  if (d.has_ligand_field() && free_ion_unpaired != d.unpaired_electrons()) {
+    // The boxes below show the free ion; say which count is which.
+    Line(&out, "Unpaired electrons",
+         absl::StrCat(d.unpaired_electrons(), " in the ",
+                      d.ligand_field().geometry(), " field (",
+                      d.ligand_field().spin_state(), " spin); ",
+                      free_ion_unpaired, " in the free ion"));
+  } else {
+    Line(&out, "Unpaired electrons", absl::StrCat(d.unpaired_electrons()));
+  }
   std::string term = absl::StrCat(d.term_symbol_unicode(), "  (",
                                   d.term_symbol(), "; ", d.term_source(), ")");
-  Line(&out, "Ground level", term);
+  // A configuration given with --configuration may be an excited one:
+  // its lowest level is then not the atom's ground level.
+  Line(&out, d.configuration_user_supplied() ? "Lowest level" : "Ground level",
+       d.has_ligand_field() ? absl::StrCat(term, ", free ion") : term);
   if (d.hund_term_symbol() != d.term_symbol()) {
     Line(&out, "Hund's rules predict", d.hund_term_symbol());
   }
@@ -75,7 +168,11 @@ std::string FormatAtomHuman(const v1::AtomDescription& d) {
   bool any_open = false;
   for (const v1::Subshell& s : d.subshells()) {
     if (s.electrons() == s.capacity()) continue;
-    if (!any_open) out += "\n  Open subshells (↑ spin up, ↓ spin down):\n";
+    if (!any_open) {
+      absl::StrAppend(&out, "\n  Open subshells",
+                      d.has_ligand_field() ? " of the free ion" : "",
+                      " (↑ spin up, ↓ spin down):\n");
+    }
     any_open = true;
     absl::StrAppendFormat(&out, "    %d%s  %s  %d/%d\n", s.n(), s.l(),
                           OrbitalBoxes(s.capacity() / 2, s.electrons()),
@@ -85,9 +182,11 @@ std::string FormatAtomHuman(const v1::AtomDescription& d) {
 
   if (d.has_ligand_field()) {
     const v1::LigandField& lf = d.ligand_field();
-    absl::StrAppendFormat(&out, "\n  Ligand field: %s, %s spin, %s  (%s)\n",
-                          lf.geometry(), lf.spin_state(), lf.subshell(),
-                          lf.occupancy());
+    absl::StrAppendFormat(
+        &out, "\n  Ligand field: %s, %s, %s  (%s)\n", lf.geometry(),
+        field.has_value() ? field->spin
+                          : absl::StrCat(lf.spin_state(), " spin"),
+        lf.subshell(), field.has_value() ? field->occupancy : lf.occupancy());
     for (int i = lf.levels_size() - 1; i >= 0; --i) {
       const v1::SplitLevel& level = lf.levels(i);
       absl::StrAppendFormat(&out, "    %-4s %s\n", level.name(),
@@ -114,25 +213,78 @@ std::string FormatAtomHuman(const v1::AtomDescription& d) {
   for (const std::string& note : d.notes()) {
     absl::StrAppend(&out, "\n  Note: ", note, "\n");
   }
-  absl::StrAppend(&out, "\n", kMomentCaution, "\n");
   return out;
 }
 
+void FilterElements(const ElementFilter& filter,
+                    v1::ListElementsResponse* elements) {
+  google::protobuf::RepeatedPtrField<v1::Element>* list =
+      elements->mutable_elements();
+  list->erase(
+      std::remove_if(
+          list->begin(), list->end(),
+          [&](const v1::Element& e) {
+            return (!filter.block.empty() && e.block() != filter.block) ||
+                   (filter.period != 0 && e.period() != filter.period) ||
+                   (filter.group != 0 && e.group() != filter.group);
+          }),
+      list->end());
+}
+
+namespace {
+
+// The weight as published ("15.999", "[98]"), or from the number for a
+// server that predates atomic_weight_text.
+std::string WeightText(const v1::Element& e) {
+  if (!e.atomic_weight_text().empty()) return e.atomic_weight_text();
+  return e.atomic_weight_is_mass_number()
+             ? absl::StrCat("[", static_cast<int>(e.standard_atomic_weight()),
+                            "]")
+             : absl::StrCat(e.standard_atomic_weight());
+}
+
+std::string ElectronegativityText(const v1::Element& e,
+                                  absl::string_view none) {
+  return e.has_pauling_electronegativity()
+             ? absl::StrFormat("%.2f", e.pauling_electronegativity())
+             : std::string(none);
+}
+
+}  // namespace
+
 std::string FormatElementsHuman(const v1::ListElementsResponse& elements) {
-  std::string out = absl::StrFormat("%-4s %-3s %-14s %-6s %-5s %-5s %-10s %s\n",
-                                    "Z", "Sym", "Name", "Period", "Group",
-                                    "Block", "Weight", "Configuration");
+  std::string out = absl::StrFormat(
+      "%-4s %-3s %-14s %-6s %-5s %-5s %-12s %-6s %s\n", "Z", "Sym", "Name",
+      "Period", "Group", "Block", "Weight", "EN", "Configuration");
   for (const v1::Element& e : elements.elements()) {
-    const std::string weight =
-        e.atomic_weight_is_mass_number()
-            ? absl::StrCat("[", static_cast<int>(e.standard_atomic_weight()),
-                           "]")
-            : absl::StrFormat("%.4g", e.standard_atomic_weight());
     absl::StrAppendFormat(
-        &out, "%-4d %-3s %-14s %-6d %-5s %-5s %-10s %s\n", e.atomic_number(),
-        e.symbol(), e.name(), e.period(),
+        &out, "%-4d %-3s %-14s %-6d %-5s %-5s %-12s %-6s %s\n",
+        e.atomic_number(), e.symbol(), e.name(), e.period(),
         e.group() == 0 ? std::string("-") : absl::StrCat(e.group()), e.block(),
-        weight, e.ground_configuration());
+        WeightText(e), ElectronegativityText(e, "-"), e.ground_configuration());
+  }
+  absl::StrAppend(&out, "\n", elements.elements_size(),
+                  " elements. Weight: IUPAC standard atomic weight in Da, "
+                  "[n] the mass number of the longest-lived isotope. EN: "
+                  "Pauling electronegativity.\n");
+  return out;
+}
+
+std::string FormatElementsCsv(const v1::ListElementsResponse& elements) {
+  std::string out =
+      "atomic_number,symbol,name,period,group,block,standard_atomic_weight,"
+      "atomic_weight_is_mass_number,pauling_electronegativity,"
+      "ground_configuration\n";
+  for (const v1::Element& e : elements.elements()) {
+    // No field holds a comma or a quote (data/elements.tsv).
+    absl::StrAppend(
+        &out, e.atomic_number(), ",", e.symbol(), ",", e.name(), ",",
+        e.period(), ",",
+        e.group() == 0 ? std::string() : absl::StrCat(e.group()), ",",
+        e.block(), ",",
+        absl::StripPrefix(absl::StripSuffix(WeightText(e), "]"), "["), ",",
+        e.atomic_weight_is_mass_number() ? "true" : "false", ",",
+        ElectronegativityText(e, ""), ",", e.ground_configuration(), "\n");
   }
   return out;
 }

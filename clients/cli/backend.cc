@@ -1,5 +1,6 @@
 #include "clients/cli/backend.h"
 
+#include <algorithm>
 #include <atomic>
 #include <chrono>
 #include <functional>
@@ -12,6 +13,7 @@
 
 #include "absl/strings/ascii.h"
 #include "absl/strings/escaping.h"
+#include "absl/strings/match.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_join.h"
 #include "absl/strings/str_split.h"
@@ -22,9 +24,20 @@
 #include "grpcpp/grpcpp.h"
 #include "shellwright/v1/electron_structure.grpc.pb.h"
 #include "util/small_file.h"
+#include "util/utf8.h"
 
 namespace shellwright::cli {
 namespace {
+
+// The reader's warnings about `line`, added to its report.
+void AddReaderWarnings(const ParsedLine& line, v1::RecordReport* report) {
+  for (const ReaderWarning& w : line.warnings) {
+    v1::Diagnostic* d = report->add_diagnostics();
+    d->set_severity(std::string(Name(Severity::kWarning)));
+    d->set_code(w.code);
+    d->set_message(w.message);
+  }
+}
 
 // The engine, on the calling thread.
 class InProcessBatchProcessor final : public BatchProcessor {
@@ -37,9 +50,13 @@ class InProcessBatchProcessor final : public BatchProcessor {
     // record would cost as much as analysing it.
     for (const ParsedLine& line : lines) {
       if (line.error.empty()) {
-        AddReport(format_,
-                  AnalyzeComposition(CompositionInputFromProto(line.record)),
-                  line.record, out);
+        CompositionReport report =
+            AnalyzeComposition(CompositionInputFromProto(line.record));
+        for (const ReaderWarning& w : line.warnings) {
+          report.diagnostics.push_back(
+              {Severity::kWarning, w.code, w.message, 0});
+        }
+        AddReport(format_, report, line.record, out);
       } else {
         AddMalformed(line, out);
       }
@@ -52,6 +69,7 @@ class InProcessBatchProcessor final : public BatchProcessor {
  private:
   void AddMalformed(const ParsedLine& line, ReportLines* out) {
     MalformedRecordReport(line.record, line.error, &malformed_);
+    AddReaderWarnings(line, &malformed_);
     AddReport(format_, malformed_, out);
   }
 
@@ -190,6 +208,7 @@ absl::Status OnSomeReplica(ReplicaSet& replicas, absl::string_view what,
                            Attempt&& attempt) {
   std::vector<bool> tried(replicas.size(), false);
   std::vector<std::string> last_failure(replicas.size());
+  absl::Status last;
   absl::Duration pause = kFirstRoundPause;
   for (int round = 1;;) {
     const int r = replicas.Pick(tried);
@@ -203,6 +222,7 @@ absl::Status OnSomeReplica(ReplicaSet& replicas, absl::string_view what,
     tried[r] = true;
     absl::Status status = attempt(r);
     if (status.ok() || !WorthRetrying(status)) return status;
+    last = status;
     last_failure[r] = absl::StrCat(replicas.at(r).target, ": ",
                                    absl::StatusCodeToString(status.code()),
                                    ": ", status.message());
@@ -211,6 +231,10 @@ absl::Status OnSomeReplica(ReplicaSet& replicas, absl::string_view what,
                         ? absl::StrCat("sending ", what, " again")
                         : "giving up");
   }
+  // One server's own failure says it best.
+  if (replicas.size() == 1) return last;
+  // One server's own failure says it best.
+  if (replicas.size() == 1) return last;
   return absl::UnavailableError(absl::StrCat(
       "no server left to answer ", what, " after ", kRoundsPerBatch,
       " rounds over ", replicas.size(),
@@ -252,9 +276,12 @@ class RemoteBatchProcessor final : public BatchProcessor {
     int k = 0;
     for (const ParsedLine& line : lines) {
       if (line.error.empty()) {
-        AddReport(format_, reply_.reports(k++), out);
+        v1::RecordReport* report = reply_.mutable_reports(k++);
+        AddReaderWarnings(line, report);
+        AddReport(format_, *report, out);
       } else {
         MalformedRecordReport(line.record, line.error, &malformed_);
+        AddReaderWarnings(line, &malformed_);
         AddReport(format_, malformed_, out);
       }
     }
@@ -425,6 +452,45 @@ class RemoteBackend final : public Backend {
 
 }  // namespace
 
+std::string ServerTarget(const std::string& address) {
+  if (address.find('/') != std::string::npos) return address;  // A scheme.
+  if (!address.empty() && address.front() == '[') {
+    // "[::1]" or "[::1]:50051".
+    return absl::EndsWith(address, "]")
+               ? absl::StrCat(address, ":", kDefaultServerPort)
+               : address;
+  }
+  const size_t colons = std::count(address.begin(), address.end(), ':');
+  if (colons == 0) return absl::StrCat(address, ":", kDefaultServerPort);
+  if (colons > 1) {
+    return absl::StrCat("[", address, "]:", kDefaultServerPort);  // IPv6.
+  }
+  // One colon: "host:port", or a scheme such as "unix:path".
+  return address;
+}
+
+absl::Status ExplainRemoteFailure(const absl::Status& status,
+                                  const std::string& target) {
+  switch (status.code()) {
+    case absl::StatusCode::kUnavailable:
+      return absl::UnavailableError(absl::StrCat(
+          "cannot reach shellwrightd at ", target,
+          ": check that the server is running and listens on that address "
+          "and port (default ",
+          kDefaultServerPort,
+          "), and that --tls-ca is given exactly when the server uses TLS. "
+          "(transport: ",
+          Utf8Prefix(status.message(), 160), ")"));
+    case absl::StatusCode::kDeadlineExceeded:
+      return absl::DeadlineExceededError(absl::StrCat(
+          "shellwrightd at ", target,
+          " did not answer before the deadline: check that the address is "
+          "right and the server is not overloaded, or raise --timeout"));
+    default:
+      return status;
+  }
+}
+
 std::unique_ptr<Backend> MakeInProcessBackend() {
   return std::make_unique<InProcessBackend>();
 }
@@ -486,8 +552,8 @@ absl::StatusOr<std::unique_ptr<Backend>> MakeRemoteBackend(
   for (std::string& target : *targets) {
     auto replica = std::make_unique<Replica>();
     replica->stub = v1::ElectronStructure::NewStub(
-        grpc::CreateCustomChannel(target, credentials, args));
-    replica->target = std::move(target);
+        grpc::CreateCustomChannel(ServerTarget(target), credentials, args));
+    replica->target = ServerTarget(target);
     replicas.push_back(std::move(replica));
   }
   return std::unique_ptr<Backend>(new RemoteBackend(

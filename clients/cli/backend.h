@@ -62,9 +62,25 @@ class Backend {
 
 std::unique_ptr<Backend> MakeInProcessBackend();
 
+// The port shellwrightd listens on by default (docs/api.md), which
+// --server uses when the address names none.
+inline constexpr int kDefaultServerPort = 50051;
+
+// `address` as a gRPC target: "HOST" and "[v6]" get kDefaultServerPort,
+// a bare IPv6 address ("::1") gets brackets and the port; an address with a
+// port or a scheme ("unix:/run/s.sock", "dns:///h:1") is kept as it is.
+std::string ServerTarget(const std::string& address);
+
+// `status` from a call to the server at `target`, in the user's words when
+// the server could not be reached or did not answer in time: what was
+// tried and what to check. Other statuses are returned unchanged.
+absl::Status ExplainRemoteFailure(const absl::Status& status,
+                                  const std::string& target);
+
 struct RemoteOptions {
-  // One or more gRPC targets, comma-separated: HOST:PORT, or a name that
-  // resolves to several servers (dns:///NAME:PORT), spread round robin.
+  // One or more gRPC targets, comma-separated, each HOST:PORT, HOST
+  // (kDefaultServerPort), or a name that resolves to several servers
+  // (dns:///NAME:PORT); batches are spread over all of them.
   std::string address;
   std::string tls_ca_file;      // PEM roots; enables TLS when set.
   std::string tls_cert_file;    // Client certificate for mutual TLS.
@@ -89,7 +105,8 @@ absl::StatusOr<std::vector<std::string>> ParseServerTargets(
 // CANCELLED, ABORTED, RESOURCE_EXHAUSTED, DATA_LOSS, INTERNAL or UNKNOWN
 // is tried on the other servers, in four rounds over all of them with
 // pauses of 0.1, 0.2 and 0.4 s between rounds; the error then names every
-// server's last failure. Other codes are returned at once. Credential files are
+// server's last failure (with one server: that failure itself). Other
+// codes are returned at once. Credential files are
 // read here (util/small_file.h): an unreadable or malformed one gives
 // INVALID_ARGUMENT naming the file.
 absl::StatusOr<std::unique_ptr<Backend>> MakeRemoteBackend(

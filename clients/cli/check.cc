@@ -7,6 +7,8 @@
 #include <utility>
 #include <vector>
 
+#include "absl/container/flat_hash_map.h"
+#include "absl/hash/hash.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
 #include "absl/strings/string_view.h"
@@ -14,6 +16,8 @@
 #include "absl/time/time.h"
 #include "api/caution.h"
 #include "clients/cli/ordered_pipeline.h"
+#include "engine/diagnostic_codes.h"
+#include "util/utf8.h"
 
 namespace shellwright::cli {
 namespace {
@@ -77,15 +81,82 @@ class Progress {
   absl::Time last_ = absl::InfinitePast();
 };
 
+// Ids seen so far, by hash, with the row that first had each. A repeated
+// id is a warning: on `log` for the first kShown, and counted in the
+// summary as duplicate_id. Memory: about 16 bytes per distinct id.
+class DuplicateIds {
+ public:
+  explicit DuplicateIds(std::ostream* log) : log_(log) {}
+
+  void Check(const std::vector<ReportRow>& rows, ReportCounts* summary) {
+    constexpr int64_t kShown = 20;
+    for (const ReportRow& r : rows) {
+      if (r.id.empty()) continue;  // Already an error (malformed_record).
+      const auto [it, inserted] =
+          first_row_.try_emplace(absl::HashOf(r.id), r.row);
+      if (inserted) continue;
+      ++repeats_;
+      ++summary->by_code[static_cast<int>(Severity::kWarning)]
+                        [codes::kDuplicateId];
+      ++summary->diagnostics;
+      if (!r.warned) ++summary->rows_with_warnings;
+      if (repeats_ <= kShown) {
+        *log_ << "shellwright: check: warning: row " << r.row << ": id "
+              << QuoteForMessage(r.id) << " repeats the id of row "
+              << it->second << "\n";
+      } else if (repeats_ == kShown + 1) {
+        *log_ << "shellwright: check: warning: more repeated ids follow; "
+                 "the summary counts them (duplicate_id)\n";
+      }
+    }
+  }
+
+ private:
+  std::ostream* const log_;
+  absl::flat_hash_map<size_t, int32_t> first_row_;
+  int64_t repeats_ = 0;
+};
+
 }  // namespace
 
-std::string FormatSummary(const ReportCounts& s) {
-  std::string out = absl::StrFormat("%d rows: %d valid, %d invalid\n", s.rows,
-                                    s.valid, s.invalid);
-  for (const auto& [code, count] : s.by_code) {
-    absl::StrAppendFormat(&out, "  %-36s %d\n", code, count);
+std::string FormatSummary(const ReportCounts& s, bool caution) {
+  std::string out = absl::StrFormat(
+      "%d rows: %d valid, %d invalid; %d with warnings; %d diagnostics\n",
+      s.rows, s.valid, s.invalid, s.rows_with_warnings, s.diagnostics);
+  // Codes under their severity: an invalid row may have several errors,
+  // and warnings and info do not make a row invalid, so only the row
+  // counts above add up to the rows.
+  constexpr absl::string_view kHeadings[] = {
+      "errors (each makes its row invalid)", "warnings (row stays valid)",
+      "info"};
+  for (int i = 0; i < 3; ++i) {
+    if (s.by_code[i].empty()) continue;
+    absl::StrAppend(&out, kHeadings[i], ":\n");
+    for (const auto& [code, count] : s.by_code[i]) {
+      absl::StrAppendFormat(&out, "  %-36s %d\n", code, count);
+    }
   }
-  absl::StrAppend(&out, kMomentCaution, "\n");
+  if (caution) absl::StrAppend(&out, kMomentCaution, "\n");
+  return out;
+}
+
+std::string FormatSummaryJson(const ReportCounts& s) {
+  std::string out = absl::StrFormat(
+      "{\"rows\":%d,\"valid\":%d,\"invalid\":%d,\"rows_with_warnings\":%d,"
+      "\"diagnostics\":%d,\"codes\":{",
+      s.rows, s.valid, s.invalid, s.rows_with_warnings, s.diagnostics);
+  for (int i = 0; i < 3; ++i) {
+    absl::StrAppend(&out, i > 0 ? "," : "", "\"",
+                    Name(static_cast<Severity>(i)), "\":{");
+    bool first = true;
+    // Codes are lower-case ASCII identifiers (engine/diagnostic_codes.h).
+    for (const auto& [code, count] : s.by_code[i]) {
+      absl::StrAppend(&out, first ? "" : ",", "\"", code, "\":", count);
+      first = false;
+    }
+    out += "}";
+  }
+  out += "}}\n";
   return out;
 }
 
@@ -94,8 +165,10 @@ absl::StatusOr<ReportCounts> RunCheck(const CheckOptions& options,
   absl::StatusOr<std::unique_ptr<RecordInput>> input =
       RecordInput::Open(options.input, options.input_format);
   if (!input.ok()) return input.status();
-  const ReportLineFormat format =
-      LineFormat(OutputFormat(options.output, options.output_format));
+  absl::StatusOr<RecordFormat> output_format =
+      OutputFormat(options.output, options.output_format);
+  if (!output_format.ok()) return output_format.status();
+  const ReportLineFormat format = LineFormat(*output_format);
   // Opened only once the input looks usable, so that a usage error never
   // truncates an existing output file.
   absl::StatusOr<std::unique_ptr<ReportOutput>> output =
@@ -154,10 +227,19 @@ absl::StatusOr<ReportCounts> RunCheck(const CheckOptions& options,
     return status;
   };
   ReportCounts summary;
+  // Columns no record field has: named once, counted once.
+  for (const std::string& unknown : (*input)->csv().unknown_columns()) {
+    log << "shellwright: check: warning: " << unknown << "\n";
+    ++summary
+          .by_code[static_cast<int>(Severity::kWarning)][codes::kUnknownField];
+    ++summary.diagnostics;
+  }
+  DuplicateIds duplicates(&log);
   Progress progress(&log, (*input)->size());
   auto write = [&](CheckBatch& batch) {
     absl::Status status = (*output)->Write(batch.out.text);
     summary.Add(batch.out.counts);
+    duplicates.Check(batch.out.rows, &summary);
     if (options.progress) {
       progress.Update(summary.rows, bytes_read.load(std::memory_order_relaxed));
     }

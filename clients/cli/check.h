@@ -61,9 +61,16 @@ struct CheckOptions {
 absl::StatusOr<ReportCounts> RunCheck(const CheckOptions& options,
                                       Backend& backend, std::ostream& log);
 
-// "3000 rows: 2700 valid, 300 invalid" plus one line per code, and the
-// moment caution.
-std::string FormatSummary(const ReportCounts& summary);
+// "3000 rows: 2700 valid, 300 invalid; 120 with warnings; 450
+// diagnostics", then one line per code under its severity (errors,
+// warnings, info), and the moment caution when `caution`.
+std::string FormatSummary(const ReportCounts& summary, bool caution = true);
+
+// The same counts as one JSON object, line break included, for pipelines:
+//   {"rows":3000,"valid":2700,"invalid":300,"rows_with_warnings":120,
+//    "diagnostics":450,"codes":{"error":{"malformed_formula":40,...},
+//    "warning":{...},"info":{...}}}
+std::string FormatSummaryJson(const ReportCounts& summary);
 
 }  // namespace shellwright::cli
 

@@ -39,10 +39,18 @@ absl::StatusOr<RecordFormat> InputFormat(const std::string& path,
   return format;
 }
 
-RecordFormat OutputFormat(const std::string& path, RecordFormat given) {
+absl::StatusOr<RecordFormat> OutputFormat(const std::string& path,
+                                          RecordFormat given) {
   if (given != RecordFormat::kAuto) return given;
+  if (path == "-") return RecordFormat::kJsonl;
   const RecordFormat format = FormatFromPath(path);
-  return format == RecordFormat::kAuto ? RecordFormat::kJsonl : format;
+  if (format == RecordFormat::kAuto) {
+    return absl::InvalidArgumentError(absl::StrCat(
+        "cannot tell which format to write to '", path,
+        "' from its name (.csv, .jsonl, .ndjson or .json); give --out-format "
+        "csv or --out-format jsonl"));
+  }
+  return format;
 }
 
 // ---------------------------------------------------------------------------

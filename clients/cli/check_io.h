@@ -67,8 +67,12 @@ namespace shellwright::cli {
 absl::StatusOr<RecordFormat> InputFormat(const std::string& path,
                                          RecordFormat given);
 
-// `given`, or the format `path`'s extension names, or JSONL.
-RecordFormat OutputFormat(const std::string& path, RecordFormat given);
+// `given`, or the format `path`'s extension names, or JSONL for standard
+// output ("-"). INVALID_ARGUMENT for any other path whose extension names
+// no format (reports.xlsx, reports.tsv, reports): writing JSONL under such
+// a name would mislead whoever opens the file.
+absl::StatusOr<RecordFormat> OutputFormat(const std::string& path,
+                                          RecordFormat given);
 
 // The records' lines, from a file or standard input.
 class RecordInput {

@@ -1,13 +1,17 @@
 #include "clients/cli/record_io.h"
 
+#include <algorithm>
 #include <cmath>
 #include <cstring>
 #include <set>
+#include <vector>
 
 #include "absl/strings/ascii.h"
 #include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/strip.h"
+#include "engine/diagnostic_codes.h"
+#include "google/protobuf/descriptor.h"
 #include "google/protobuf/util/json_util.h"
 #include "util/utf8.h"
 
@@ -29,7 +33,219 @@ std::string FirstLine(absl::string_view message) {
   return out;
 }
 
+// Edit distance between two short names (for "did you mean").
+size_t EditDistance(absl::string_view a, absl::string_view b) {
+  std::vector<size_t> row(b.size() + 1);
+  for (size_t j = 0; j <= b.size(); ++j) row[j] = j;
+  for (size_t i = 1; i <= a.size(); ++i) {
+    size_t diagonal = row[0];
+    row[0] = i;
+    for (size_t j = 1; j <= b.size(); ++j) {
+      const size_t up = row[j];
+      row[j] = std::min({row[j] + 1, row[j - 1] + 1,
+                         diagonal + (a[i - 1] == b[j - 1] ? 0 : 1)});
+      diagonal = up;
+    }
+  }
+  return row[b.size()];
+}
+
+// "Measured Moment" -> "measured_moment".
+std::string FieldSpelling(absl::string_view name) {
+  std::string out = absl::AsciiStrToLower(absl::StripAsciiWhitespace(name));
+  for (char& c : out) {
+    if (c == ' ' || c == '-') c = '_';
+  }
+  return out;
+}
+
+// The " (did you mean 'x'?)" hint for an unknown name, or "".
+std::string DidYouMean(absl::string_view name) {
+  const std::string nearest = NearestRecordField(name);
+  return nearest.empty() ? ""
+                         : absl::StrCat(" (did you mean '", nearest, "'?)");
+}
+
+// One top-level member of a JSON object: its key and the first byte of its
+// value ('"' string, '{' object, '[' array, 't'/'f' bool, 'n' null, else a
+// number), with the value's text.
+struct JsonMember {
+  std::string key;
+  char kind;
+  absl::string_view value;
+};
+
+// Skips a JSON string starting at text[i] == '"'; returns the index after
+// it, or npos when it does not end.
+size_t SkipString(absl::string_view text, size_t i) {
+  for (++i; i < text.size(); ++i) {
+    if (text[i] == '\\') {
+      ++i;
+    } else if (text[i] == '"') {
+      return i + 1;
+    }
+  }
+  return absl::string_view::npos;
+}
+
+// The top-level members of the JSON object `text`, for messages only: the
+// protobuf parser has already accepted or rejected the line. Stops at the
+// first thing it cannot read.
+std::vector<JsonMember> TopLevelMembers(absl::string_view text) {
+  std::vector<JsonMember> members;
+  size_t i = text.find('{');
+  if (i == absl::string_view::npos) return members;
+  ++i;
+  auto skip_space = [&] {
+    while (i < text.size() && absl::ascii_isspace(text[i])) ++i;
+  };
+  while (true) {
+    skip_space();
+    if (i >= text.size() || text[i] != '"') return members;
+    const size_t key_end = SkipString(text, i);
+    if (key_end == absl::string_view::npos) return members;
+    JsonMember m;
+    m.key = std::string(text.substr(i + 1, key_end - i - 2));
+    i = key_end;
+    skip_space();
+    if (i >= text.size() || text[i] != ':') return members;
+    ++i;
+    skip_space();
+    if (i >= text.size()) return members;
+    const size_t start = i;
+    m.kind = text[i];
+    int depth = 0;
+    while (i < text.size()) {
+      const char c = text[i];
+      if (c == '"') {
+        i = SkipString(text, i);
+        if (i == absl::string_view::npos) return members;
+        if (depth == 0) break;
+        continue;
+      }
+      if (c == '{' || c == '[') ++depth;
+      if (c == '}' || c == ']') {
+        if (depth == 0) break;
+        if (--depth == 0) {
+          ++i;
+          break;
+        }
+      }
+      if (c == ',' && depth == 0) break;
+      ++i;
+    }
+    m.value = absl::StripAsciiWhitespace(text.substr(start, i - start));
+    members.push_back(std::move(m));
+    skip_space();
+    if (i >= text.size() || text[i] != ',') return members;
+    ++i;
+  }
+}
+
+// The record field a JSON key names (by its proto name or its JSON
+// name, as the protobuf parser accepts both), or nullptr.
+const google::protobuf::FieldDescriptor* RecordField(absl::string_view key) {
+  const google::protobuf::Descriptor* record =
+      v1::CompositionRecord::descriptor();
+  for (int i = 0; i < record->field_count(); ++i) {
+    const google::protobuf::FieldDescriptor* f = record->field(i);
+    if (f->name() == key || f->json_name() == key) return f;
+  }
+  return nullptr;
+}
+
+// What a JSON value of kind `kind` is, in words.
+absl::string_view KindInWords(char kind) {
+  switch (kind) {
+    case '"':
+      return "text";
+    case '{':
+      return "an object";
+    case '[':
+      return "a list";
+    case 't':
+    case 'f':
+      return "true/false";
+    case 'n':
+      return "null";
+    default:
+      return "a number";
+  }
+}
+
+// The message for a JSON line that the protobuf parser refused, in the
+// user's words where the fault can be named: not an object, or a field
+// holding a value of the wrong type. `parser_message` otherwise.
+std::string JsonRecordError(absl::string_view text,
+                            absl::string_view parser_message) {
+  const absl::string_view trimmed = absl::StripAsciiWhitespace(text);
+  if (trimmed.empty() || trimmed.front() != '{') {
+    return absl::StrCat(
+        "a record must be one JSON object per line, like {\"id\": \"s1\", "
+        "\"formula\": \"Fe2O3\"}; this line holds ",
+        trimmed.empty() ? "nothing" : KindInWords(trimmed.front()));
+  }
+  for (const JsonMember& m : TopLevelMembers(text)) {
+    const google::protobuf::FieldDescriptor* field = RecordField(m.key);
+    if (field == nullptr || m.kind == 'n') continue;
+    using Cpp = google::protobuf::FieldDescriptor;
+    // A number, bare or in quotes (protobuf's JSON form allows both).
+    double number = 0;
+    const bool is_number =
+        (m.kind == '"' || m.kind == '-' || absl::ascii_isdigit(m.kind)) &&
+        absl::SimpleAtod(
+            absl::StripPrefix(absl::StripSuffix(m.value, "\""), "\""), &number);
+    absl::string_view needs;
+    bool fits = true;
+    switch (field->cpp_type()) {
+      case Cpp::CPPTYPE_STRING:
+        needs = "text in double quotes";
+        fits = m.kind == '"';
+        break;
+      case Cpp::CPPTYPE_INT32:
+      case Cpp::CPPTYPE_INT64:
+        needs = "a whole number";
+        fits = is_number && number == std::floor(number) &&
+               std::abs(number) <= 2147483647.0;
+        break;
+      case Cpp::CPPTYPE_DOUBLE:
+      case Cpp::CPPTYPE_FLOAT:
+        needs = "a number";
+        fits = is_number;
+        break;
+      default:
+        continue;
+    }
+    if (!fits) {
+      return absl::StrCat("field '", field->name(), "' must be ", needs,
+                          ", but holds ", KindInWords(m.kind), " ",
+                          Clip(m.value, 40));
+    }
+  }
+  return absl::StrCat("not a valid JSON record: ",
+                      Clip(FirstLine(std::string(parser_message)), 120));
+}
+
 }  // namespace
+
+std::string NearestRecordField(absl::string_view name) {
+  const std::string spelled = FieldSpelling(name);
+  const google::protobuf::Descriptor* record =
+      v1::CompositionRecord::descriptor();
+  std::string best;
+  size_t best_distance = 3;  // At most two edits.
+  for (int i = 0; i < record->field_count(); ++i) {
+    const std::string& field = record->field(i)->name();
+    if (field == "row") continue;  // Set by the reader, not the user.
+    if (spelled == field) return field;
+    const size_t d = EditDistance(spelled, field);
+    if (d < best_distance) {
+      best_distance = d;
+      best = field;
+    }
+  }
+  return best;
+}
 
 LineSource::LineSource(std::istream* in) : in_(in), buffer_(1 << 16) {}
 
@@ -175,6 +391,7 @@ absl::Status CsvRecordReader::ReadHeader(absl::string_view line) {
   }
   std::set<std::string> seen;
   std::fill(std::begin(column_), std::end(column_), -1);
+  unknown_columns_.clear();
   for (size_t i = 0; i < columns.size(); ++i) {
     // Column names match case-insensitively ("Formula" from spreadsheets).
     std::string name =
@@ -183,8 +400,17 @@ absl::Status CsvRecordReader::ReadHeader(absl::string_view line) {
       return absl::InvalidArgumentError(
           absl::StrCat("CSV header names column '", name, "' twice"));
     }
+    bool known = false;
     for (int k = 0; k < kColumns; ++k) {
-      if (name == kNames[k]) column_[k] = static_cast<int>(i);
+      if (name == kNames[k]) {
+        column_[k] = static_cast<int>(i);
+        known = true;
+      }
+    }
+    if (!known && !name.empty()) {
+      unknown_columns_.push_back(absl::StrCat(
+          "column ", QuoteForMessage(absl::StripAsciiWhitespace(columns[i])),
+          " is not a record field and is ignored", DidYouMean(columns[i])));
     }
   }
   for (Column required : {kId, kFormula}) {
@@ -291,14 +517,36 @@ ParsedLine ParseJsonLine(absl::string_view line, int row) {
     std::string text(line);
     ReplaceInvalidUtf8(&text);
     google::protobuf::util::JsonParseOptions options;
-    options.ignore_unknown_fields = true;
+    // Strict first: almost every line has only known keys.
     auto status =
         google::protobuf::util::JsonStringToMessage(text, &p.record, options);
     if (!status.ok()) {
-      p.error =
-          absl::StrCat("not a valid JSON record: ",
-                       Clip(FirstLine(std::string(status.message())), 120));
+      options.ignore_unknown_fields = true;
       p.record.Clear();
+      status =
+          google::protobuf::util::JsonStringToMessage(text, &p.record, options);
+      if (status.ok()) {
+        // Only unknown keys: name them.
+        for (const JsonMember& m : TopLevelMembers(text)) {
+          if (RecordField(m.key) != nullptr) continue;
+          p.warnings.push_back(
+              {codes::kUnknownField,
+               absl::StrCat("key ", QuoteForMessage(m.key),
+                            " is not a record field and is ignored",
+                            DidYouMean(m.key))});
+        }
+      }
+    }
+    if (!status.ok()) {
+      p.error = JsonRecordError(text, std::string(status.message()));
+      p.record.Clear();
+      // Keep a plain string id, so the report can be matched to its record.
+      for (const JsonMember& m : TopLevelMembers(text)) {
+        if (m.key == "id" && m.kind == '"' && m.value.size() <= 258 &&
+            m.value.find('\\') == absl::string_view::npos) {
+          p.record.set_id(std::string(m.value.substr(1, m.value.size() - 2)));
+        }
+      }
     } else if (absl::StripAsciiWhitespace(p.record.id()).empty()) {
       p.error = "the id field is missing or empty";
     }

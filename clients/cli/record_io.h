@@ -6,14 +6,19 @@
 //     regard to case or surrounding spaces); `id` and `formula` are
 //     required, and `charge`, `declared_states`, `geometry`,
 //     `spin_state`, `measured_moment`, `moment_tolerance`,
-//     `max_alternatives` are understood (other columns are ignored). One
+//     `max_alternatives` are understood (other columns are ignored, and
+//     listed by unknown_columns()). One
 //     record per line: fields may be quoted ("a, b"), with "" for a quote
 //     inside, but may not span lines (a line break inside quotes would let
 //     one broken quote swallow the records after it; the output promises
 //     one report per input line). Empty lines are skipped, and row numbers
 //     keep counting them. A record whose id is empty is malformed.
 //   - JSONL: one shellwright.v1.CompositionRecord JSON object per line
-//     (proto field names; unknown fields ignored). Empty lines are skipped.
+//     (proto field names). A key that is no field is ignored with an
+//     "unknown_field" warning in the record's report (naming the field it
+//     was likely meant to be); a value of the wrong type makes the line
+//     malformed with a message naming the field and the type it needs.
+//     Empty lines are skipped.
 // A line that cannot be read (bad quoting, wrong field count, a value that
 // is not a number, broken JSON, longer than kMaxLineBytes) becomes an error
 // report with code "malformed_record" (api/records.h's
@@ -77,10 +82,23 @@ class LineSource {
   bool at_start_ = true;
 };
 
-struct ParsedLine {
-  v1::CompositionRecord record;  // row and whatever could be read.
-  std::string error;             // Non-empty for a malformed line.
+// A reader's warning about a line it could read: its report carries it
+// with severity "warning".
+struct ReaderWarning {
+  std::string code;  // engine/diagnostic_codes.h, e.g. "unknown_field".
+  std::string message;
 };
+
+struct ParsedLine {
+  v1::CompositionRecord record;         // row and whatever could be read.
+  std::string error;                    // Non-empty for a malformed line.
+  std::vector<ReaderWarning> warnings;  // Usually none.
+};
+
+// The record field that `name` (an unknown key or column) was most likely
+// meant to be: the same name in another case or with spaces or '-' for
+// '_', or one at most two edits away. Empty when none is that close.
+std::string NearestRecordField(absl::string_view name);
 
 // Splits one CSV line. Returns false with `error` set on bad quoting.
 bool SplitCsvLine(absl::string_view line, std::vector<std::string>* fields,
@@ -94,6 +112,13 @@ class CsvRecordReader {
   // One record from one line after the header.
   ParsedLine ParseLine(absl::string_view line, int row);
   bool id_is_first_column() const { return column_[kId] == 0; }
+
+  // The header's columns that no record field has, each with a "did you
+  // mean" hint where one is close: "column 'Formla' is not a record field
+  // and is ignored (did you mean 'formula'?)". `check` prints them once.
+  const std::vector<std::string>& unknown_columns() const {
+    return unknown_columns_;
+  }
 
  private:
   // The columns the reader understands; column_[k] is the position of
@@ -115,6 +140,7 @@ class CsvRecordReader {
 
   size_t header_size_ = 0;
   int column_[kColumns];
+  std::vector<std::string> unknown_columns_;
   std::vector<std::string> fields_;  // Reused for every line.
 };
 

@@ -16,7 +16,8 @@
 namespace shellwright::cli {
 
 // Verdict, balanced assignment, alternatives, an ion table, per-formula-unit
-// magnetic figures, diagnostics and the caution line.
+// magnetic figures and diagnostics; the caller adds the moment caution
+// (api/caution.h) once at the end of its output.
 std::string FormatReportHuman(const v1::RecordReport& report);
 
 }  // namespace shellwright::cli

@@ -446,7 +446,12 @@ void ReportCounts::Add(const ReportCounts& other) {
   rows += other.rows;
   valid += other.valid;
   invalid += other.invalid;
-  for (const auto& [code, count] : other.by_code) by_code[code] += count;
+  rows_with_warnings += other.rows_with_warnings;
+  diagnostics += other.diagnostics;
+  for (size_t i = 0; i < std::size(by_code); ++i) {
+    for (const auto& [code, count] : other.by_code[i])
+      by_code[i][code] += count;
+  }
 }
 
 void AddReport(ReportLineFormat format, const v1::RecordReport& report,
@@ -455,7 +460,17 @@ void AddReport(ReportLineFormat format, const v1::RecordReport& report,
   ReportCounts& c = out->counts;
   ++c.rows;
   ++(report.valid() ? c.valid : c.invalid);
-  for (const v1::Diagnostic& d : report.diagnostics()) ++c.by_code[d.code()];
+  bool warned = false;
+  for (const v1::Diagnostic& d : report.diagnostics()) {
+    // Reports made by api/ name one of the three severities.
+    const Severity severity =
+        ParseName<Severity>(d.severity()).value_or(Severity::kError);
+    warned |= severity == Severity::kWarning;
+    ++c.by_code[static_cast<int>(severity)][d.code()];
+  }
+  c.rows_with_warnings += warned;
+  c.diagnostics += report.diagnostics_size();
+  out->rows.push_back({report.row(), report.id(), warned});
 }
 
 void AddReport(ReportLineFormat format, const CompositionReport& report,
@@ -464,7 +479,14 @@ void AddReport(ReportLineFormat format, const CompositionReport& report,
   ReportCounts& c = out->counts;
   ++c.rows;
   ++(report.valid ? c.valid : c.invalid);
-  for (const Diagnostic& d : report.diagnostics) ++c.by_code[d.code];
+  bool warned = false;
+  for (const Diagnostic& d : report.diagnostics) {
+    warned |= d.severity == Severity::kWarning;
+    ++c.by_code[static_cast<int>(d.severity)][d.code];
+  }
+  c.rows_with_warnings += warned;
+  c.diagnostics += static_cast<int64_t>(report.diagnostics.size());
+  out->rows.push_back({record.row(), report.id, warned});
 }
 
 }  // namespace shellwright::cli

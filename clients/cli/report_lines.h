@@ -22,6 +22,7 @@
 #include <cstdint>
 #include <map>
 #include <string>
+#include <vector>
 
 #include "engine/composition.h"
 #include "shellwright/v1/electron_structure.pb.h"
@@ -35,16 +36,29 @@ struct ReportCounts {
   int64_t rows = 0;
   int64_t valid = 0;
   int64_t invalid = 0;
-  std::map<std::string, int64_t> by_code;  // Diagnostic code -> count.
+  int64_t rows_with_warnings = 0;  // Rows with at least one warning.
+  int64_t diagnostics = 0;         // All diagnostics of all rows.
+  // Diagnostic code -> count, one map per severity, indexed by Severity
+  // (error, warning, info; engine/composition.h).
+  std::map<std::string, int64_t> by_code[3];
 
   // Adds `other`'s counts to these.
   void Add(const ReportCounts& other);
 };
 
-// The lines of a batch of reports, and their counts.
+// A report's row, id and whether it has a warning: what `check` needs to
+// spot ids that repeat across batches.
+struct ReportRow {
+  int32_t row;
+  std::string id;
+  bool warned;
+};
+
+// The lines of a batch of reports, their counts, and their rows in order.
 struct ReportLines {
   std::string text;
   ReportCounts counts;
+  std::vector<ReportRow> rows;
 };
 
 // The CSV header, without a line break.

@@ -43,8 +43,10 @@
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
 #include "absl/strings/str_split.h"
+#include "absl/strings/strip.h"
 #include "api/atoms.h"
 #include "api/records.h"
+#include "engine/version.h"
 #include "grpcpp/grpcpp.h"
 #include "shellwright/v1/electron_structure.grpc.pb.h"
 #include "util/command_line.h"
@@ -654,6 +656,10 @@ std::optional<int> ParseFlags(int argc, char** argv, Flags* flags) {
       "Measures shellwrightd's throughput and latency on loopback, next to "
       "an echo server that shows the transport ceiling.",
       "shellwright_loadgen"};
+  app.set_version_flag(
+      "--version",
+      std::string(absl::StripSuffix(VersionText("shellwright_loadgen"), "\n")),
+      "print the version and the data tables' versions");
   CLI::Option* target =
       app.add_option("--target", flags->target,
                      "measure a running shellwrightd at HOST:PORT (loopback "

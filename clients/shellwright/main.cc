@@ -16,17 +16,22 @@
 #include <unistd.h>
 
 #include <cstdlib>
+#include <fstream>
 #include <iostream>
 #include <string>
+#include <vector>
 
 #include "absl/status/status.h"
 #include "absl/strings/str_cat.h"
+#include "absl/strings/strip.h"
 #include "api/atoms.h"
+#include "api/caution.h"
 #include "api/records.h"
 #include "clients/cli/atom_format.h"
 #include "clients/cli/backend.h"
 #include "clients/cli/check.h"
 #include "clients/cli/report_format.h"
+#include "engine/version.h"
 #include "shellwright/v1/electron_structure.pb.h"
 #include "util/command_line.h"
 #include "util/field_names.h"
@@ -46,16 +51,40 @@ constexpr FieldName kFlagNames[] = {{"spec", "SPEC"},
                                     {"configuration", "--configuration"},
                                     {"address", "--server"}};
 
+// Where answers come from: the gRPC target ("" in process), for messages.
+std::string* ServerTargetForMessages() {
+  static std::string* target = new std::string;
+  return target;
+}
+
+// `status` with a failure to reach the server explained in the user's
+// words (backend.h).
+absl::Status Explained(const absl::Status& status) {
+  if (ServerTargetForMessages()->empty()) return status;
+  return ExplainRemoteFailure(status, *ServerTargetForMessages());
+}
+
 // Maps a failed call to an exit code, printing one line.
-int Fail(const absl::Status& status) {
+int Fail(const absl::Status& failed) {
+  const absl::Status status = Explained(failed);
   if (status.code() == absl::StatusCode::kInvalidArgument) {
     std::cerr << "shellwright: invalid input: "
               << RenameField(status.message(), kFlagNames) << "\n";
     return kExitInvalidInput;
   }
+  if (status.code() == absl::StatusCode::kUnavailable ||
+      status.code() == absl::StatusCode::kDeadlineExceeded) {
+    std::cerr << "shellwright: " << status.message() << "\n";
+    return kExitUsage;
+  }
   std::cerr << "shellwright: " << absl::StatusCodeToString(status.code())
             << ": " << status.message() << "\n";
   return kExitUsage;
+}
+
+// Human output ends with the moment caution, once, unless --quiet.
+void PrintCaution(bool quiet) {
+  if (!quiet) std::cout << "\n" << kMomentCaution << "\n";
 }
 
 // The options before the command: where answers come from.
@@ -69,9 +98,12 @@ void AddRemoteOptions(CLI::App* app, RemoteFlags* flags) {
   RemoteOptions& o = flags->options;
   flags->server = app->add_option(
       "--server", o.address,
-      "use shellwrightd instead of the in-process engine: HOST:PORT, "
-      "several as HOST:PORT,HOST:PORT (batches go round robin; a failed "
-      "server's work goes to the others), or dns:///NAME:PORT");
+      absl::StrCat("use shellwrightd instead of the in-process engine: "
+                   "HOST[:PORT] (default port ",
+                   kDefaultServerPort,
+                   "), several as HOST:PORT,HOST:PORT (batches go round "
+                   "robin; a failed server's work goes to the others), or "
+                   "dns:///NAME:PORT"));
   CLI::Option* ca =
       app->add_option("--tls-ca", o.tls_ca_file,
                       "PEM roots to verify the server with (enables TLS)");
@@ -96,12 +128,13 @@ void AddRemoteOptions(CLI::App* app, RemoteFlags* flags) {
 }
 
 struct AtomFlags {
-  std::string spec;
+  std::vector<std::string> specs;
   int charge = 0;
   CLI::Option* charge_option = nullptr;
   std::string geometry;
   std::string spin_state;
   std::string configuration;
+  CLI::Option* configuration_option = nullptr;
   bool json = false;
 };
 
@@ -110,7 +143,9 @@ CLI::App* AddAtom(CLI::App* app, AtomFlags* f) {
       "atom",
       "describe an atom or ion: configuration, term symbol, spin "
       "state, moments");
-  atom->add_option("SPEC", f->spec, "Fe, 26, iron, Fe3+, Fe+3, Fe(III), O2-")
+  atom->add_option("SPEC", f->specs,
+                   "one or more species: Fe, 26, iron, Fe3+, Fe+3, Fe(III), "
+                   "Fe³⁺, O2-")
       ->required();
   f->charge_option = atom->add_option("--charge", f->charge,
                                       "net charge, when SPEC carries none")
@@ -121,41 +156,62 @@ CLI::App* AddAtom(CLI::App* app, AtomFlags* f) {
   atom->add_option("--spin-state", f->spin_state,
                    "spin state in a ligand field (default auto)")
       ->check(OneOf<SpinStatePreference>());
-  atom->add_option("--configuration", f->configuration,
-                   "explicit configuration, e.g. \"[Ar] 3d5 4s1\"")
-      ->check(CLI::Validator(
-          [](std::string& v) -> std::string {
-            return v.empty() ? "is empty" : "";
-          },
-          ""));
+  f->configuration_option = atom->add_option(
+      "--configuration", f->configuration,
+      "explicit configuration of one SPEC, e.g. \"[Ar] 3d5 4s1\"");
+  f->configuration_option->check(CLI::Validator(
+      [](std::string& v) -> std::string { return v.empty() ? "is empty" : ""; },
+      ""));
   atom->add_flag("--json", f->json,
-                 "print the shellwright.v1.AtomDescription as JSON");
+                 "print the shellwright.v1.AtomDescription as JSON (one "
+                 "line per SPEC when there are several)");
   return atom;
 }
 
-int RunAtom(const AtomFlags& f, Backend& backend) {
-  v1::DescribeAtomRequest request;
-  request.set_spec(f.spec);
-  if (f.charge_option->count() > 0) request.set_charge(f.charge);
-  // The values were checked while parsing.
-  if (!f.geometry.empty()) {
-    request.set_geometry(
-        GeometryToProto(ParseName<Geometry>(f.geometry).value()));
+// One answer per SPEC, in order; a bad SPEC gets its one-line error and
+// the others are still answered. The caution ends human output once.
+int RunAtom(const AtomFlags& f, bool quiet, Backend& backend) {
+  if (f.specs.size() > 1 && f.configuration_option->count() > 0) {
+    std::cerr << "shellwright: --configuration describes one species; give "
+                 "one SPEC with it\nRun 'shellwright atom --help' for "
+                 "usage.\n";
+    return kExitUsage;
   }
-  if (!f.spin_state.empty()) {
-    request.set_spin_state(SpinStatePreferenceToProto(
-        ParseName<SpinStatePreference>(f.spin_state).value()));
+  int exit = kExitOk;
+  bool printed = false;
+  for (const std::string& spec : f.specs) {
+    v1::DescribeAtomRequest request;
+    request.set_spec(spec);
+    if (f.charge_option->count() > 0) request.set_charge(f.charge);
+    // The values were checked while parsing.
+    if (!f.geometry.empty()) {
+      request.set_geometry(
+          GeometryToProto(ParseName<Geometry>(f.geometry).value()));
+    }
+    if (!f.spin_state.empty()) {
+      request.set_spin_state(SpinStatePreferenceToProto(
+          ParseName<SpinStatePreference>(f.spin_state).value()));
+    }
+    request.set_configuration(f.configuration);
+    v1::AtomDescription description;
+    absl::Status status = backend.DescribeAtom(request, &description);
+    if (!status.ok()) {
+      std::cout << std::flush;
+      const int failed = Fail(status);
+      if (failed == kExitUsage) return failed;  // The server is gone.
+      exit = failed;
+      continue;
+    }
+    if (f.json) {
+      std::cout << ToJson(description, /*pretty=*/f.specs.size() == 1) << "\n";
+    } else {
+      if (printed) std::cout << "\n";
+      std::cout << FormatAtomHuman(description);
+    }
+    printed = true;
   }
-  request.set_configuration(f.configuration);
-  v1::AtomDescription description;
-  absl::Status status = backend.DescribeAtom(request, &description);
-  if (!status.ok()) return Fail(status);
-  if (f.json) {
-    std::cout << ToJson(description, /*pretty=*/true) << "\n";
-  } else {
-    std::cout << FormatAtomHuman(description);
-  }
-  return kExitOk;
+  if (printed && !f.json) PrintCaution(quiet);
+  return exit;
 }
 
 struct CompoundFlags {
@@ -212,7 +268,7 @@ CLI::App* AddCompound(CLI::App* app, CompoundFlags* f) {
   return compound;
 }
 
-int RunCompound(const CompoundFlags& f, Backend& backend) {
+int RunCompound(const CompoundFlags& f, bool quiet, Backend& backend) {
   v1::CompositionRecord record;
   record.set_formula(f.formula);
   if (f.charge_option->count() > 0) record.set_charge(f.charge);
@@ -231,25 +287,19 @@ int RunCompound(const CompoundFlags& f, Backend& backend) {
   v1::RecordReport report;
   absl::Status status = backend.AnalyzeCompound(record, &report);
   if (!status.ok()) return Fail(status);
+  // The report names its errors; they are not repeated on stderr.
   if (f.json) {
     std::cout << ToJson(report, /*pretty=*/true) << "\n";
   } else {
     std::cout << FormatReportHuman(report);
+    if (report.valid()) PrintCaution(quiet);
   }
-  if (!report.valid()) {
-    for (const v1::Diagnostic& d : report.diagnostics()) {
-      if (d.severity() == "error") {
-        std::cerr << "shellwright: invalid input: " << d.message() << "\n";
-        break;
-      }
-    }
-    return kExitInvalidInput;
-  }
-  return kExitOk;
+  return report.valid() ? kExitOk : kExitInvalidInput;
 }
 
 struct CheckFlags {
   CheckOptions options;
+  std::string summary_json;
   std::string format;
   std::string out_format;
   bool no_progress = false;
@@ -287,12 +337,14 @@ CLI::App* AddCheck(CLI::App* app, CheckFlags* f) {
                    "alternatives for records without their own "
                    "max_alternatives (default 0)")
       ->check(IntegerIn(0, kMaxAlternatives));
+  check->add_option("--summary-json", f->summary_json,
+                    "also write the summary as one JSON object to this file");
   check->add_flag("--no-progress", f->no_progress,
                   "no progress line, even on a terminal");
   return check;
 }
 
-int RunCheck(CheckFlags& f, Backend& backend) {
+int RunCheck(CheckFlags& f, bool quiet, Backend& backend) {
   // Names were checked while parsing; empty means by extension.
   f.options.input_format =
       ParseName<RecordFormat>(f.format).value_or(RecordFormat::kAuto);
@@ -303,19 +355,59 @@ int RunCheck(CheckFlags& f, Backend& backend) {
   absl::StatusOr<ReportCounts> summary =
       cli::RunCheck(f.options, backend, std::cerr);
   if (!summary.ok()) {
-    std::cerr << "shellwright: check: " << summary.status().message() << "\n";
+    std::cerr << "shellwright: check: " << Explained(summary.status()).message()
+              << "\n";
     return kExitUsage;
   }
-  std::cerr << FormatSummary(*summary);
+  std::cerr << FormatSummary(*summary, /*caution=*/!quiet);
+  if (!f.summary_json.empty()) {
+    std::ofstream out(f.summary_json, std::ios::binary | std::ios::trunc);
+    out << FormatSummaryJson(*summary);
+    out.close();
+    if (!out) {
+      std::cerr << "shellwright: check: cannot write --summary-json file '"
+                << f.summary_json << "'\n";
+      return kExitUsage;
+    }
+  }
   return summary->invalid > 0 ? kExitInvalidInput : kExitOk;
 }
 
-int RunElements(bool json, Backend& backend) {
+struct ElementsFlags {
+  ElementFilter filter;
+  bool json = false;
+  bool csv = false;
+};
+
+CLI::App* AddElements(CLI::App* app, ElementsFlags* f) {
+  CLI::App* elements =
+      app->add_subcommand("elements", "list the element table");
+  elements
+      ->add_option("--block", f->filter.block, "only this block: s, p, d, f")
+      ->check(CLI::IsMember({"s", "p", "d", "f"}));
+  elements->add_option("--period", f->filter.period, "only this period (1-7)")
+      ->check(IntegerIn(1, 7));
+  elements
+      ->add_option("--group", f->filter.group,
+                   "only this group (1-18; La-Yb and Ac-No have none)")
+      ->check(IntegerIn(1, 18));
+  CLI::Option* json = elements->add_flag(
+      "--json", f->json,
+      "print the shellwright.v1.ListElementsResponse as JSON");
+  elements->add_flag("--csv", f->csv, "print CSV with a header row")
+      ->excludes(json);
+  return elements;
+}
+
+int RunElements(const ElementsFlags& f, Backend& backend) {
   v1::ListElementsResponse elements;
   absl::Status status = backend.ListElements(&elements);
   if (!status.ok()) return Fail(status);
-  if (json) {
+  FilterElements(f.filter, &elements);
+  if (f.json) {
     std::cout << ToJson(elements, /*pretty=*/true) << "\n";
+  } else if (f.csv) {
+    std::cout << FormatElementsCsv(elements);
   } else {
     std::cout << FormatElementsHuman(elements);
   }
@@ -335,6 +427,14 @@ int Main(int argc, char** argv) {
       "Run 'shellwright COMMAND --help' for a command's options.\n"
       "Exit codes: 0 ok (check: every record valid), 1 invalid input "
       "(check: some records invalid), 2 usage, I/O or connection error.");
+  app.set_version_flag(
+      "--version",
+      std::string(absl::StripSuffix(VersionText("shellwright"), "\n")),
+      "print the version and the data tables' versions");
+  bool quiet = false;
+  app.add_flag("--quiet", quiet,
+               "leave out the caution that ends human output and the "
+               "summary of check");
   RemoteFlags remote;
   AddRemoteOptions(&app, &remote);
   AtomFlags atom_flags;
@@ -343,10 +443,8 @@ int Main(int argc, char** argv) {
   CLI::App* compound = AddCompound(&app, &compound_flags);
   CheckFlags check_flags;
   CLI::App* check = AddCheck(&app, &check_flags);
-  bool elements_json = false;
-  CLI::App* elements = app.add_subcommand("elements", "list the element table");
-  elements->add_flag("--json", elements_json,
-                     "print the shellwright.v1.ListElementsResponse as JSON");
+  ElementsFlags elements_flags;
+  CLI::App* elements = AddElements(&app, &elements_flags);
   CLI::App* help = app.add_subcommand("help", "print this help");
 
   if (std::optional<int> exit =
@@ -363,6 +461,13 @@ int Main(int argc, char** argv) {
   if (remote.server->count() > 0) {
     remote.options.timeout = absl::Seconds(remote.timeout_seconds);
     remote.options.warnings = &std::cerr;
+    // One server's failures are explained in plain words; with several,
+    // the message names each server's last failure itself.
+    if (absl::StatusOr<std::vector<std::string>> targets =
+            ParseServerTargets(remote.options.address);
+        targets.ok() && targets->size() == 1) {
+      *ServerTargetForMessages() = ServerTarget(targets->front());
+    }
     absl::StatusOr<std::unique_ptr<Backend>> made =
         MakeRemoteBackend(remote.options);
     if (!made.ok()) {
@@ -374,16 +479,16 @@ int Main(int argc, char** argv) {
   } else {
     backend = MakeInProcessBackend();
   }
-  if (atom->parsed()) return RunAtom(atom_flags, *backend);
-  if (compound->parsed()) return RunCompound(compound_flags, *backend);
-  if (elements->parsed()) return RunElements(elements_json, *backend);
+  if (atom->parsed()) return RunAtom(atom_flags, quiet, *backend);
+  if (compound->parsed()) return RunCompound(compound_flags, quiet, *backend);
+  if (elements->parsed()) return RunElements(elements_flags, *backend);
   if (check->parsed()) {
     // check's output buffers are a few MB and change threads; keep glibc
     // from returning them to the kernel (and zeroing fresh pages) each
     // time.
     mallopt(M_MMAP_THRESHOLD, 256 << 20);
     mallopt(M_TRIM_THRESHOLD, 512 << 20);
-    return RunCheck(check_flags, *backend);
+    return RunCheck(check_flags, quiet, *backend);
   }
   return kExitUsage;  // require_subcommand(1) makes this unreachable.
 }

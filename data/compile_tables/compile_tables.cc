@@ -237,7 +237,8 @@ int main(int argc, char** argv) {
         << Literal(r.fields[2]) << ", " << period << ", " << group << ", '"
         << block << "', " << Double(weight) << ", "
         << (mass_number ? "true" : "false") << ", "
-        << (has_en ? "true" : "false") << ", " << Double(en) << "},\n";
+        << (has_en ? "true" : "false") << ", " << Double(en) << ", "
+        << Literal(r.fields[6]) << "},\n";
   }
   if (z_by_symbol.size() != 118) {
     Fail(elements.path, 0,

@@ -27,6 +27,7 @@ struct ElementRow {
   bool weight_is_mass_number;  // True for "[98]"-style entries.
   bool has_electronegativity;
   double pauling_electronegativity;
+  const char* weight_text;  // As published: "15.999", "20.180", "[98]".
 };
 
 // data/configuration_exceptions.tsv

@@ -24,10 +24,21 @@ TEST(CheckIo, FormatsComeFromTheFlagOrTheExtension) {
   absl::StatusOr<RecordFormat> unknown = InputFormat("-", RecordFormat::kAuto);
   EXPECT_EQ(unknown.status().code(), absl::StatusCode::kInvalidArgument);
   EXPECT_THAT(std::string(unknown.status().message()), HasSubstr("--format"));
-  EXPECT_EQ(OutputFormat("out.csv", RecordFormat::kAuto), RecordFormat::kCsv);
-  EXPECT_EQ(OutputFormat("-", RecordFormat::kAuto), RecordFormat::kJsonl);
-  EXPECT_EQ(OutputFormat("out.csv", RecordFormat::kJsonl),
+  EXPECT_EQ(*OutputFormat("out.csv", RecordFormat::kAuto), RecordFormat::kCsv);
+  EXPECT_EQ(*OutputFormat("-", RecordFormat::kAuto), RecordFormat::kJsonl);
+  EXPECT_EQ(*OutputFormat("out.csv", RecordFormat::kJsonl),
             RecordFormat::kJsonl);
+  EXPECT_EQ(*OutputFormat("out.xlsx", RecordFormat::kCsv), RecordFormat::kCsv);
+}
+
+TEST(CheckIo, RegressionUnknownOutputExtensionIsNotWrittenAsJsonl) {
+  // Issue 16: `--out reports.xlsx` silently wrote JSONL under that name.
+  for (const char* path : {"reports.xlsx", "reports.tsv", "reports"}) {
+    absl::StatusOr<RecordFormat> f = OutputFormat(path, RecordFormat::kAuto);
+    EXPECT_EQ(f.status().code(), absl::StatusCode::kInvalidArgument) << path;
+    EXPECT_THAT(std::string(f.status().message()), HasSubstr("--out-format"));
+    EXPECT_THAT(std::string(f.status().message()), HasSubstr(path));
+  }
 }
 
 TEST(CheckIo, InputReadsTheCsvHeaderFirst) {
@@ -83,6 +94,60 @@ TEST(CheckIo, ParserReadsJsonlAndFlagsCutLines) {
   ParsedLine cut = parser.Parse(R"({"id":"j","formula":"KBr"})", 2, true);
   EXPECT_THAT(cut.error, HasSubstr("longer than"));
   EXPECT_FALSE(parser.Parse("not json", 3, false).error.empty());
+}
+
+TEST(CheckIo, RegressionJsonTypeErrorsNameTheFieldInPlainWords) {
+  // Issue 16: {"id":9} gave "invalid value 9 for type TYPE_STRING" and
+  // [1,2] "Root element must be a message."
+  ParsedLine id = ParseJsonLine(R"({"id":9,"formula":"MgO"})", 1);
+  EXPECT_EQ(id.error,
+            "field 'id' must be text in double quotes, but holds a "
+            "number 9");
+  ParsedLine list = ParseJsonLine("[1,2]", 2);
+  EXPECT_THAT(list.error, HasSubstr("one JSON object per line"));
+  EXPECT_THAT(list.error, HasSubstr("holds a list"));
+  ParsedLine charge =
+      ParseJsonLine(R"({"id":"c","formula":"MgO","charge":1.5})", 3);
+  EXPECT_THAT(charge.error, HasSubstr("field 'charge' must be a whole number"));
+  EXPECT_EQ(charge.record.id(), "c");  // Kept, to match report and record.
+  ParsedLine moment =
+      ParseJsonLine(R"({"id":"m","formula":"MgO","measured_moment":"x"})", 4);
+  EXPECT_THAT(moment.error,
+              HasSubstr("field 'measured_moment' must be a number"));
+  // Numbers in quotes are what protobuf's JSON form allows for numbers.
+  ParsedLine quoted =
+      ParseJsonLine(R"({"id":"q","formula":"MgO","charge":"2"})", 5);
+  EXPECT_TRUE(quoted.error.empty()) << quoted.error;
+}
+
+TEST(CheckIo, RegressionUnknownKeysWarnWithDidYouMean) {
+  // Issue 16: {"id":"j8","Formula":"MgO"} was silently read as a record
+  // without a formula.
+  ParsedLine p = ParseJsonLine(R"({"id":"j8","Formula":"MgO","note":"x"})", 1);
+  EXPECT_TRUE(p.error.empty()) << p.error;
+  ASSERT_EQ(p.warnings.size(), 2u);
+  EXPECT_EQ(p.warnings[0].code, "unknown_field");
+  EXPECT_THAT(p.warnings[0].message, HasSubstr("'Formula'"));
+  EXPECT_THAT(p.warnings[0].message, HasSubstr("did you mean 'formula'?"));
+  EXPECT_THAT(p.warnings[1].message, HasSubstr("'note'"));
+  EXPECT_THAT(p.warnings[1].message, ::testing::Not(HasSubstr("did you mean")));
+  // The JSON names protobuf accepts are fields, not unknown keys.
+  EXPECT_TRUE(
+      ParseJsonLine(R"({"id":"a","formula":"NaCl","declaredStates":"Na:1"})", 2)
+          .warnings.empty());
+  EXPECT_EQ(NearestRecordField("Measured Moment"), "measured_moment");
+  EXPECT_EQ(NearestRecordField("formla"), "formula");
+  EXPECT_EQ(NearestRecordField("colour"), "");
+}
+
+TEST(CheckIo, UnknownCsvColumnsAreListedOnce) {
+  CsvRecordReader reader;
+  ASSERT_TRUE(reader.ReadHeader("id,Formla,formula,notes").ok());
+  ASSERT_EQ(reader.unknown_columns().size(), 2u);
+  EXPECT_THAT(reader.unknown_columns()[0],
+              HasSubstr("'Formla' is not a record field"));
+  EXPECT_THAT(reader.unknown_columns()[0], HasSubstr("did you mean 'formula'"));
+  EXPECT_THAT(reader.unknown_columns()[1], HasSubstr("'notes'"));
 }
 
 TEST(CheckIo, OutputWritesEveryByteAndReportsFailures) {

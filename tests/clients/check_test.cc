@@ -310,6 +310,90 @@ TEST_F(CheckTest, UnknownExtensionNeedsFormat) {
   ASSERT_EQ(ParseReports(ok.out).size(), 1u);
 }
 
+TEST_F(CheckTest, RegressionUnknownOutputExtensionExitsTwo) {
+  // Issue 16: `check mine.csv --out reports.xlsx` wrote JSONL under that
+  // name. Now a usage error that leaves no file behind, unless
+  // --out-format says what to write.
+  WriteFile(Path("in.csv"), std::string(kHeader) + "\na,NaCl,,,\n");
+  CommandResult r = Check({Path("in.csv"), "--out", Path("x.xlsx")});
+  EXPECT_EQ(r.exit_code, 2) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("--out-format"));
+  EXPECT_FALSE(std::filesystem::exists(Path("x.xlsx")));
+  CommandResult ok =
+      Check({Path("in.csv"), "--out", Path("x.txt"), "--out-format", "csv"});
+  EXPECT_EQ(ok.exit_code, 0) << ok.err;
+  EXPECT_THAT(ReadFile(Path("x.txt")), StartsWith("row,id,"));
+}
+
+TEST_F(CheckTest, RegressionSummaryGroupsCodesBySeverity) {
+  // Issue 16: error, warning and info codes were listed together, adding
+  // up to more than the invalid rows. Fe3O4 is mixed valence (info),
+  // CuSO4.5H2O a possible hydrate typo (warning), Fe2O3) malformed
+  // (error), Xx2O an unknown element (error).
+  WriteFile(Path("in.csv"), std::string(kHeader) +
+                                "\na,Fe3O4,,,\nb,CuSO4.5H2O,,,\nc,Fe2O3),,,"
+                                "\nd,Xx2O,,,\ne,NaCl,,,\n");
+  CommandResult r = Check({Path("in.csv"), "--out", Path("out.jsonl"),
+                           "--summary-json", Path("summary.json")});
+  EXPECT_EQ(r.exit_code, 1) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("5 rows: 3 valid, 2 invalid; 1 with warnings;"));
+  const size_t errors = r.err.find("errors (each makes its row invalid):");
+  const size_t warnings = r.err.find("warnings (row stays valid):");
+  const size_t info = r.err.find("info:");
+  ASSERT_NE(errors, std::string::npos) << r.err;
+  ASSERT_NE(warnings, std::string::npos) << r.err;
+  ASSERT_NE(info, std::string::npos) << r.err;
+  EXPECT_LT(errors, r.err.find("malformed_formula"));
+  EXPECT_LT(r.err.find("malformed_formula"), warnings);
+  EXPECT_LT(warnings, r.err.find("possible_hydrate_typo"));
+  EXPECT_LT(r.err.find("possible_hydrate_typo"), info);
+  EXPECT_LT(info, r.err.find("mixed_valence"));
+
+  const std::string json = ReadFile(Path("summary.json"));
+  EXPECT_THAT(json, StartsWith("{\"rows\":5,\"valid\":3,\"invalid\":2,"
+                               "\"rows_with_warnings\":1,"));
+  EXPECT_THAT(json, HasSubstr("\"error\":{\"malformed_formula\":1,"
+                              "\"unknown_element\":1}"));
+  EXPECT_THAT(json, HasSubstr("\"warning\":{\"possible_hydrate_typo\":1"));
+  EXPECT_THAT(json, HasSubstr("\"mixed_valence\":1"));
+
+  CommandResult quiet =
+      Check({Path("in.csv"), "--out", Path("out.jsonl"), "--quiet"});
+  EXPECT_THAT(quiet.err, ::testing::Not(HasSubstr("Caution")));
+  EXPECT_THAT(r.err, HasSubstr("Caution"));
+}
+
+TEST_F(CheckTest, RegressionRecordWarningsReachReportsAndSummary) {
+  // Issue 16: unknown keys and columns were ignored in silence, and
+  // repeated ids went unflagged.
+  const std::string jsonl =
+      "{\"id\":\"j1\",\"formula\":\"MgO\"}\n"
+      "{\"id\":\"j8\",\"Formula\":\"MgO\"}\n"
+      "{\"id\":\"j1\",\"formula\":\"NaCl\"}\n";
+  CommandResult r = Check({"-", "--format", "jsonl"}, jsonl);
+  EXPECT_EQ(r.exit_code, 1) << r.err;
+  std::vector<v1::RecordReport> reports = ParseReports(r.out);
+  ASSERT_EQ(reports.size(), 3u);
+  EXPECT_TRUE(HasDiagnostic(reports[1], "warning", "unknown_field"));
+  EXPECT_THAT(r.err, HasSubstr("row 3: id 'j1' repeats the id of row 1"));
+  EXPECT_THAT(r.err, ContainsRegex("duplicate_id +1"));
+  EXPECT_THAT(r.err, ContainsRegex("unknown_field +1"));
+
+  WriteFile(Path("cols.csv"), "id,Formla,formula\na,x,NaCl\nb,y,KCl\n");
+  CommandResult c = Check({Path("cols.csv"), "--out", Path("cols.jsonl")});
+  EXPECT_EQ(c.exit_code, 0) << c.err;
+  EXPECT_EQ(SplitLines(c.err).size(),
+            SplitLines(Check({Path("cols.csv"), "--out", Path("c2.jsonl")}).err)
+                .size());
+  size_t named = 0;
+  for (size_t at = c.err.find("'Formla'"); at != std::string::npos;
+       at = c.err.find("'Formla'", at + 1)) {
+    ++named;
+  }
+  EXPECT_EQ(named, 1u) << c.err;  // Once per file, not per row.
+  EXPECT_THAT(c.err, HasSubstr("did you mean 'formula'?"));
+}
+
 TEST_F(CheckTest, JsonlFromStdinToStdout) {
   const std::string input =
       "{\"id\":\"j1\",\"formula\":\"Fe2O3\"}\n"  // 1

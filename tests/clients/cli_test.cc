@@ -2,6 +2,7 @@
 // and exit codes, by running the real binary.
 
 #include <string>
+#include <vector>
 
 #include "gmock/gmock.h"
 #include "google/protobuf/util/json_util.h"
@@ -15,6 +16,7 @@ namespace {
 using ::shellwright::testing::BinPath;
 using ::shellwright::testing::CommandResult;
 using ::shellwright::testing::RunCommand;
+using ::testing::ContainsRegex;
 using ::testing::HasSubstr;
 
 CommandResult Cli(std::vector<std::string> args) {
@@ -82,7 +84,11 @@ TEST(Cli, UsageErrorsExitTwoNamingTheProblem) {
       {{}, "no command"},
       {{"frobnicate"}, "frobnicate"},
       {{"atom"}, "SPEC"},
-      {{"atom", "Fe", "Co"}, "'Co'"},
+      {{"atom", "Fe", "Co", "--configuration", "[Ar] 3d6 4s2"},
+       "--configuration"},
+      {{"elements", "--block", "g"}, "--block"},
+      {{"elements", "--period", "8"}, "--period"},
+      {{"elements", "--json", "--csv"}, "--csv"},
       {{"atom", "Fe", "--bogus"}, "--bogus"},
       {{"atom", "Fe", "--charge"}, "--charge"},
       {{"atom", "Fe", "--charge", "x"}, "--charge"},
@@ -221,6 +227,214 @@ TEST(Cli, WorksFromAnyDirectory) {
        "cd / && '" + BinPath("clients/shellwright") + "' atom Fe --json"});
   EXPECT_EQ(r.exit_code, 0) << r.err;
   EXPECT_THAT(r.out, HasSubstr("[Ar] 3d6 4s2"));
+}
+
+int Count(const std::string& text, const std::string& what) {
+  int n = 0;
+  for (size_t at = text.find(what); at != std::string::npos;
+       at = text.find(what, at + what.size())) {
+    ++n;
+  }
+  return n;
+}
+
+TEST(Cli, AtomTakesSeveralSpeciesInOneCall) {
+  CommandResult human = Cli({"atom", "Fe2+", "Fe3+", "Co3+"});
+  ASSERT_EQ(human.exit_code, 0) << human.err;
+  EXPECT_THAT(human.out, HasSubstr("Fe2+  Iron"));
+  EXPECT_THAT(human.out, HasSubstr("Fe3+  Iron"));
+  EXPECT_THAT(human.out, HasSubstr("Co3+  Cobalt"));
+  // The caution ends the output once, not once per species.
+  EXPECT_EQ(Count(human.out, "Caution:"), 1) << human.out;
+  EXPECT_GT(human.out.rfind("Caution:"), human.out.rfind("Co3+  Cobalt"));
+
+  CommandResult json = Cli({"atom", "Fe2+", "Fe3+", "Co3+", "--json"});
+  ASSERT_EQ(json.exit_code, 0) << json.err;
+  std::vector<std::string> lines;
+  for (size_t start = 0; start < json.out.size();) {
+    const size_t end = json.out.find('\n', start);
+    lines.push_back(json.out.substr(start, end - start));
+    start = end + 1;
+  }
+  ASSERT_EQ(lines.size(), 3u) << json.out;
+  // NIST ASD, from memory: Fe2+ [Ar] 3d6, Fe3+ [Ar] 3d5, Co3+ [Ar] 3d6.
+  EXPECT_EQ(ParseJson(lines[0]).configuration(), "[Ar] 3d6");
+  EXPECT_EQ(ParseJson(lines[1]).configuration(), "[Ar] 3d5");
+  EXPECT_EQ(ParseJson(lines[2]).symbol(), "Co");
+
+  // A bad species gets its one line; the others are still answered.
+  CommandResult mixed = Cli({"atom", "Fe2+", "Xx", "Co3+", "--json"});
+  EXPECT_EQ(mixed.exit_code, 1);
+  EXPECT_EQ(Count(mixed.out, "\n"), 2) << mixed.out;
+  EXPECT_EQ(Count(mixed.err, "\n"), 1) << mixed.err;
+  EXPECT_THAT(mixed.err, HasSubstr("Xx"));
+}
+
+TEST(Cli, QuietDropsTheCaution) {
+  for (std::vector<std::string> args :
+       {std::vector<std::string>{"atom", "Fe"},
+        std::vector<std::string>{"compound", "Fe2O3"}}) {
+    CommandResult loud = Cli(args);
+    EXPECT_EQ(Count(loud.out, "Caution:"), 1) << loud.out;
+    args.push_back("--quiet");
+    CommandResult quiet = Cli(args);
+    EXPECT_EQ(quiet.exit_code, 0) << quiet.err;
+    EXPECT_THAT(quiet.out, ::testing::Not(HasSubstr("Caution")));
+  }
+}
+
+TEST(Cli, RegressionCompoundErrorPrintedOnce) {
+  // Issue 16: errors appeared in the report and again on stderr.
+  CommandResult r = Cli({"compound", "Fe2O3)"});
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_EQ(Count(r.out + r.err, "malformed"), 1) << r.out << r.err;
+  EXPECT_THAT(r.out, HasSubstr("INVALID"));
+  EXPECT_TRUE(r.err.empty()) << r.err;
+}
+
+TEST(Cli, RegressionUnpairedCountSaysWhichFieldItIs) {
+  // Issue 16: "Unpaired electrons 0" beside free-ion boxes showing 4.
+  // Low-spin octahedral d6 has none, the free ion four (Miessler & Tarr,
+  // Inorganic Chemistry, ligand field chapter, from memory).
+  CommandResult r =
+      Cli({"atom", "Co3+", "--geometry", "octahedral", "--spin-state", "low"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.out,
+              HasSubstr("0 in the octahedral field (low spin); 4 in the free "
+                        "ion"));
+  EXPECT_THAT(r.out, HasSubstr("Open subshells of the free ion"));
+}
+
+TEST(Cli, RegressionNoSpinLabelWithoutSpinChoice) {
+  // Issue 16: Ti4+ (d0) showed "high (octahedral)", Cu+ (d10) "t2g6 eg4".
+  CommandResult ti = Cli({"compound", "TiO2"});
+  ASSERT_EQ(ti.exit_code, 0) << ti.err;
+  EXPECT_THAT(ti.out, ::testing::Not(HasSubstr("high")));
+  EXPECT_THAT(ti.out, ::testing::Not(HasSubstr("t2g")));
+  CommandResult cu = Cli({"compound", "CuCl"});
+  ASSERT_EQ(cu.exit_code, 0) << cu.err;
+  EXPECT_THAT(cu.out, ::testing::Not(HasSubstr("high")));
+  EXPECT_THAT(cu.out, ::testing::Not(HasSubstr("eg4")));
+  CommandResult atom = Cli({"atom", "Ti4+", "--geometry", "octahedral"});
+  EXPECT_THAT(atom.out, HasSubstr("empty d subshell: no spin state"));
+  // Octahedral d3 has one spin state whatever the field strength
+  // (Miessler & Tarr, from memory).
+  CommandResult cr = Cli({"atom", "Cr3+", "--geometry", "octahedral"});
+  EXPECT_THAT(cr.out, HasSubstr("d3: one spin state only"));
+}
+
+TEST(Cli, RegressionTetrahedralOccupancyReadsUnambiguously) {
+  // Issue 16: "e4 t23" reads as t2 with 3 or t with 23. Tetrahedral Co2+
+  // (d7) is e4 t2^3 (Miessler & Tarr, from memory).
+  CommandResult r =
+      Cli({"compound", "CoCl2", "--element-geometry", "Co:tetrahedral"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.out, HasSubstr("e⁴ t2³"));
+  EXPECT_THAT(r.out, ::testing::Not(HasSubstr("t23")));
+}
+
+TEST(Cli, RegressionAlternativesBestFirst) {
+  // Issue 16: an alternative with score 138 came before one with 136.
+  CommandResult r = Cli({"compound", "Ca10(PO4)6(OH)2"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  double last = -1;
+  int seen = 0;
+  for (size_t at = r.out.find("Alternative"); at != std::string::npos;
+       at = r.out.find("Alternative", at + 1)) {
+    const size_t score = r.out.find("(score ", at);
+    ASSERT_NE(score, std::string::npos);
+    const double value = std::stod(r.out.substr(score + 7));
+    EXPECT_GE(value, last) << r.out;
+    last = value;
+    ++seen;
+  }
+  EXPECT_GE(seen, 2) << r.out;
+}
+
+TEST(Cli, RegressionOneUnpairedElectronIsSingular) {
+  // Issue 16: "1 unpaired electrons". CuO: Cu2+ is d9, one unpaired
+  // electron (Greenwood and Earnshaw, from memory).
+  CommandResult r = Cli({"compound", "CuO"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.out, HasSubstr("1 unpaired electron,"));
+  EXPECT_THAT(r.out, ::testing::Not(HasSubstr("1 unpaired electrons")));
+}
+
+TEST(Cli, RegressionAtomicWeightsKeepTrailingZeros) {
+  // Issue 16: O printed as 16 and K as 39.1. IUPAC abridged standard
+  // atomic weights (CIAAW 2021, from memory): O 15.999, Ne 20.180,
+  // K 39.098, Tc [98].
+  CommandResult r = Cli({"elements"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.out, ContainsRegex("\n8 +O +Oxygen .* 15\\.999 "));
+  EXPECT_THAT(r.out, ContainsRegex("\n10 +Ne +Neon .* 20\\.180 "));
+  EXPECT_THAT(r.out, ContainsRegex("\n19 +K +Potassium .* 39\\.098 "));
+  EXPECT_THAT(r.out, ContainsRegex("\n43 +Tc .* \\[98\\] "));
+  // Pauling electronegativity column (Pauling scale, from memory: O 3.44).
+  EXPECT_THAT(r.out, ContainsRegex("\n8 +O .* 3\\.44 "));
+}
+
+TEST(Cli, ElementsFiltersAndCsv) {
+  CommandResult r = Cli({"elements", "--period", "2", "--block", "p", "--csv"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  // Period 2, p block: B, C, N, O, F, Ne (periodic table layout).
+  EXPECT_EQ(Count(r.out, "\n"), 7) << r.out;
+  EXPECT_THAT(r.out, ::testing::StartsWith("atomic_number,symbol,name,"));
+  EXPECT_THAT(r.out, HasSubstr("\n8,O,Oxygen,2,16,p,15.999,false,3.44,"));
+  EXPECT_THAT(r.out, HasSubstr("\n10,Ne,Neon,2,18,p,20.180,false,,"));
+  CommandResult group = Cli({"elements", "--group", "1", "--json"});
+  v1::ListElementsResponse list;
+  ASSERT_TRUE(
+      google::protobuf::util::JsonStringToMessage(group.out, &list).ok());
+  // Group 1: H, Li, Na, K, Rb, Cs, Fr.
+  EXPECT_EQ(list.elements_size(), 7);
+}
+
+TEST(Cli, RegressionLevelOfANonGroundConfigurationIsNotTheGroundLevel) {
+  // Issue 16: "[Ar] 3d4 4s2" is not Cr's ground configuration ([Ar] 3d5
+  // 4s1, NIST ASD, from memory), so its lowest level is not "Ground level".
+  CommandResult r = Cli({"atom", "Cr", "--configuration", "[Ar] 3d4 4s2"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.out, HasSubstr("Lowest level"));
+  EXPECT_THAT(r.out, ::testing::Not(HasSubstr("Ground level")));
+  EXPECT_THAT(r.out, HasSubstr("not the ground configuration ([Ar] 3d5 4s1)"));
+  CommandResult ground = Cli({"atom", "Cr", "--configuration", "[Ar] 3d5 4s1"});
+  EXPECT_THAT(ground.out, ::testing::Not(HasSubstr("not the ground")));
+}
+
+TEST(Cli, RegressionUnknownOxidationStateGetsANote) {
+  // Issue 16: Fe(VIII) was described with no word that iron has no known
+  // +8 state (highest +6, Greenwood and Earnshaw, from memory).
+  CommandResult r = Cli({"atom", "Fe(VIII)", "--json"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  v1::AtomDescription d = ParseJson(r.out);
+  ASSERT_GE(d.notes_size(), 1);
+  EXPECT_THAT(d.notes(0), HasSubstr("+8 is not a known oxidation state of Fe"));
+  CommandResult known = Cli({"atom", "Fe(III)", "--json"});
+  EXPECT_EQ(ParseJson(known.out).notes_size(), 0);
+}
+
+TEST(Cli, EveryBinaryPrintsItsVersion) {
+  for (const char* binary : {"clients/shellwright", "server/shellwrightd",
+                             "clients/loadgen/shellwright_loadgen"}) {
+    CommandResult r = RunCommand({BinPath(binary), "--version"});
+    SCOPED_TRACE(binary);
+    EXPECT_EQ(r.exit_code, 0) << r.err;
+    EXPECT_THAT(r.out, ContainsRegex("^shellwright[a-z_]* [0-9]+\\.[0-9]+"));
+    EXPECT_THAT(r.out, ContainsRegex("data/elements.tsv sha256:[0-9a-f]{12}"));
+    EXPECT_THAT(r.out,
+                ContainsRegex("data/oxidation_states.tsv sha256:[0-9a-f]{12}"));
+  }
+}
+
+TEST(Cli, ConnectionFailureSaysWhatWasTriedAndWhatToCheck) {
+  // Port 1 on loopback: nothing listens there.
+  CommandResult r =
+      Cli({"--server", "127.0.0.1:1", "--timeout", "5", "atom", "Fe"});
+  EXPECT_EQ(r.exit_code, 2);
+  EXPECT_THAT(r.err, HasSubstr("cannot reach shellwrightd at 127.0.0.1:1"));
+  EXPECT_THAT(r.err, HasSubstr("check that the server is running"));
+  EXPECT_EQ(Count(r.err, "\n"), 1) << r.err;
 }
 
 }  // namespace

@@ -508,3 +508,42 @@ TEST(Formula, RandomInputNeverCrashes) {
 
 }  // namespace
 }  // namespace shellwright
+
+namespace shellwright {
+namespace {
+
+TEST(FormulaWrittenTest, GroupsAndTermsKeepTheWrittenStructure) {
+  absl::StatusOr<Formula> f = ParseFormula("K4[Fe(CN)6]");
+  ASSERT_TRUE(f.ok()) << f.status();
+  ASSERT_EQ(f->terms.size(), 4u);
+  ASSERT_EQ(f->groups.size(), 2u);
+  EXPECT_EQ(f->groups[0].bracket, '[');
+  EXPECT_EQ(f->groups[0].first_term, 1);
+  EXPECT_EQ(f->groups[0].end_term, 4);
+  EXPECT_EQ(f->groups[1].bracket, '(');
+  EXPECT_EQ(f->groups[1].parent, 0);
+  EXPECT_EQ(f->groups[1].count, Rational(6));
+  EXPECT_EQ(f->groups[1].multiplier, Rational(6));
+  EXPECT_EQ(f->terms[2].element->symbol, "C");
+  EXPECT_EQ(f->terms[2].group, 1);
+  EXPECT_EQ(f->terms[2].multiplier, Rational(6));
+  EXPECT_EQ(f->terms[0].count, Rational(4));
+  EXPECT_EQ(f->terms[0].group, -1);
+}
+
+TEST(FormulaWrittenTest, NestedCountsMultiplyAndPartsAreGroups) {
+  absl::StatusOr<Formula> f = ParseFormula("Ca3(PO4)2·2(H2O)3");
+  ASSERT_TRUE(f.ok()) << f.status();
+  ASSERT_EQ(f->groups.size(), 3u);
+  EXPECT_EQ(f->groups[0].multiplier, Rational(2));  // (PO4)2
+  EXPECT_EQ(f->groups[1].bracket, '*');             // ·2(H2O)3
+  EXPECT_EQ(f->groups[1].count, Rational(2));
+  EXPECT_EQ(f->groups[2].parent, 1);
+  EXPECT_EQ(f->groups[2].multiplier, Rational(6));
+  EXPECT_EQ(f->terms.back().element->symbol, "O");
+  EXPECT_EQ(f->terms.back().multiplier, Rational(6));
+  EXPECT_EQ(f->terms.back().part, 1);
+}
+
+}  // namespace
+}  // namespace shellwright
