@@ -161,12 +161,13 @@ class ReplicaSet {
   }
 
   // Replica i failed with `status`: passed over for a while, and a warning
-  // line says so when there is anything to fall back on.
+  // line says so when there are other replicas to fall back on.
   void Failed(int i, const absl::Status& status, absl::string_view retry) {
     replicas_[i]->avoid_until.store(
         absl::GetCurrentTimeNanos() +
         absl::ToInt64Nanoseconds(kAvoidFailedReplica));
-    if (warnings_ == nullptr) return;
+    // With one server the final error says it all.
+    if (warnings_ == nullptr || size() == 1) return;
     std::lock_guard<std::mutex> lock(warnings_mu_);
     *warnings_ << "shellwright: server " << replicas_[i]->target << " failed ("
                << absl::StatusCodeToString(status.code()) << ": "
@@ -226,10 +227,7 @@ absl::Status OnSomeReplica(ReplicaSet& replicas, absl::string_view what,
     last_failure[r] = absl::StrCat(replicas.at(r).target, ": ",
                                    absl::StatusCodeToString(status.code()),
                                    ": ", status.message());
-    replicas.Failed(r, status,
-                    replicas.size() > 1 || round < kRoundsPerBatch
-                        ? absl::StrCat("sending ", what, " again")
-                        : "giving up");
+    replicas.Failed(r, status, absl::StrCat("sending ", what, " again"));
   }
   // One server's own failure says it best.
   if (replicas.size() == 1) return last;
