@@ -13,6 +13,7 @@
 #include "absl/strings/str_cat.h"
 #include "absl/strings/string_view.h"
 #include "api/report_view.h"
+#include "clients/cli/atom_format.h"
 #include "clients/cli/fast_json.h"
 
 namespace shellwright::cli {
@@ -113,24 +114,10 @@ struct Fragment {
 
 // Per-thread fragment caches: a few hundred distinct states and ions make
 // up most reports, so each is written once per thread.
-template <typename Key, size_t kSize>
-Fragment<Key>& FragmentFor(const Key& key) {
-  thread_local std::array<Fragment<Key>, kSize> cache;
-  return cache[key.Hash() % kSize];
-}
-
 template <typename Key>
-Fragment<Key>& CachedFragment(const Key& key);
-template <>
-Fragment<report_view_internal::StateKey>& CachedFragment(
-    const report_view_internal::StateKey& key) {
-  return FragmentFor<report_view_internal::StateKey, 256>(key);
-}
-template <>
-Fragment<report_view_internal::IonKey>& CachedFragment(
-    const report_view_internal::IonKey& key) {
-  // The ion hash is mixed well; its top bits pick the slot.
-  return FragmentFor<report_view_internal::IonKey, 1024>(key);
+Fragment<Key>& CachedFragment(const Key& key) {
+  thread_local std::array<Fragment<Key>, Key::kCacheSlots> cache;
+  return cache[key.Hash() % Key::kCacheSlots];
 }
 
 // The JSON object of a report (api/report_view.h visitor): members in
@@ -271,10 +258,19 @@ void Separate(absl::string_view separator, bool* first, std::string* list) {
   *first = false;
 }
 
+// Appends a signed oxidation state, the one spelling of human output, CSV
+// and messages: "Fe+2", "O-2", "Xe0".
+void AppendState(absl::string_view element, int32_t state, std::string* out) {
+  out->append(element.data(), element.size());
+  if (state > 0) out->push_back('+');
+  absl::StrAppend(out, state);
+}
+
 // The values of one CSV line, gathered from the walk (api/report_view.h
-// visitor): the report's own scalars, and its states and diagnostics
-// joined into one cell each. Alternatives and ions have no columns.
-class CsvGatherer {
+// visitor): the report's own scalars, and its states, ions and diagnostics
+// joined into one cell each (formats in ReportCsvHeader's comment).
+// Alternatives have no column.
+class CsvGatherer : public TopLevelVisitor {
  public:
   template <typename F>
   void String(const F& f, absl::string_view v) {
@@ -307,9 +303,29 @@ class CsvGatherer {
       for (const auto& item : items) {
         Member state;
         visit(item, state);
-        Separate(" ", &first, &states);
-        absl::StrAppend(&states, state.element, ":", state.state, "x",
-                        state.exact);
+        Separate(";", &first, &states);
+        AppendState(state.element, state.state, &states);
+        absl::StrAppend(&states, ":", state.exact);
+      }
+    } else if (f.name == "ions") {
+      bool first = true;
+      for (const auto& item : items) {
+        Member ion;
+        visit(item, ion);
+        Separate("; ", &first, &ions);
+        AppendState(ion.element, ion.state, &ions);
+        absl::StrAppend(&ions, " count=", ion.count,
+                        " unpaired=", ion.unpaired);
+        // A spin state only where high and low spin differ (not for d0,
+        // d10 or octahedral d3, say), as in human output.
+        if (!ion.spin_state.empty()) {
+          const std::optional<LigandFieldText> field =
+              DescribeLigandField(ion.geometry, ion.spin_state, ion.occupancy);
+          if (!field.has_value() || field->has_spin_choice) {
+            absl::StrAppend(&ions, " spin=", ion.spin_state, "/", ion.geometry);
+          }
+        }
+        absl::StrAppend(&ions, " moment=", ion.moment);
       }
     } else if (f.name == "diagnostics") {
       bool first_code = true, first_message = true;
@@ -317,18 +333,12 @@ class CsvGatherer {
         Member d;
         visit(item, d);
         Separate(";", &first_code, &codes);
-        codes.append(d.code.data(), d.code.size());
+        absl::StrAppend(&codes, d.severity, ":", d.code);
         Separate(" | ", &first_message, &messages);
-        absl::StrAppend(&messages, d.severity, ": ", d.message);
+        absl::StrAppend(&messages, d.severity, " ", d.code, ": ", d.message);
       }
     }
   }
-  template <typename Key, typename Visit>
-  void Cached(const Key&, std::initializer_list<VaryingValue>, Visit) {}
-  template <typename F>
-  void VaryingNumber(const F&, int) {}
-  template <typename F>
-  void VaryingExact(const F&, int) {}
 
   // The line, line break included.
   void Write(std::string* out) const {
@@ -339,8 +349,16 @@ class CsvGatherer {
     CsvField(kind, out);
     CsvField(states, out);
     // StrAppend prints doubles as %.6g does (but for the sign of a NaN,
-    // which reports never hold).
-    for (double v : numbers) absl::StrAppend(out, ",", v);
+    // which reports never hold). An invalid record's figures are blank,
+    // not 0: it has none.
+    for (double v : numbers) {
+      if (valid) {
+        absl::StrAppend(out, ",", v);
+      } else {
+        out->push_back(',');
+      }
+    }
+    CsvField(ions, out);
     CsvField(codes, out);
     CsvField(messages, out);
     out->push_back('\n');
@@ -357,11 +375,16 @@ class CsvGatherer {
       "curie_constant",
       "valence_electron_concentration"};
 
-  // A state or a diagnostic: the members a cell needs. The views point
-  // into the report being walked, which outlives the member.
+  // A state, an ion or a diagnostic: the members a cell needs. The views
+  // point into the report being walked, which outlives the member.
   struct Member : FieldByFieldVisitor<Member> {
-    absl::string_view element, code, severity, message, exact;
+    absl::string_view element, code, severity, message, exact, spin_state,
+        geometry;
+    std::string occupancy;
     int32_t state = 0;
+    int32_t unpaired = 0;
+    double count = 0;
+    double moment = 0;
     std::string varying_exact;  // Made from a VaryingExact value.
 
     template <typename F>
@@ -371,21 +394,32 @@ class CsvGatherer {
                               : f.name == "severity"    ? &severity
                               : f.name == "message"     ? &message
                               : f.name == "count_exact" ? &exact
+                              : f.name == "spin_state"  ? &spin_state
+                              : f.name == "geometry"    ? &geometry
                                                         : nullptr;
       if (to != nullptr) *to = v;
+      // The engine walk makes this text on the fly: keep a copy.
+      if (f.name == "ligand_field_occupancy")
+        occupancy.assign(v.data(), v.size());
     }
     template <typename F>
     void Int(const F& f, int32_t v) {
       if (f.name == "state") state = v;
+      if (f.name == "unpaired_electrons") unpaired = v;
     }
     template <typename F>
-    void Double(const F&, double) {}
+    void Double(const F& f, double v) {
+      if (f.name == "count") count = v;
+      if (f.name == "moment") moment = v;
+    }
     template <typename F>
     void Bool(const F&, bool) {}
     template <typename F, typename Items, typename Visit>
     void Messages(const F&, const Items&, Visit) {}
     template <typename F>
-    void VaryingNumber(const F&, int) {}
+    void VaryingNumber(const F& f, int i) {
+      if (f.name == "count") count = varying(i).number;
+    }
     template <typename F>
     void VaryingExact(const F& f, int i) {
       if (f.name != "count_exact") return;
@@ -397,7 +431,7 @@ class CsvGatherer {
   int32_t row = 0;
   // Views into the report being walked, which outlives the gatherer.
   absl::string_view id, formula, kind;
-  std::string states, codes, messages;
+  std::string states, ions, codes, messages;
   bool valid = false;
   double numbers[std::size(kNumberColumns)] = {};
 };
@@ -426,7 +460,7 @@ std::string ReportCsvHeader() {
   return "row,id,valid,formula,composition_kind,oxidation_states,score,"
          "unpaired_per_formula_unit,effective_moment_per_formula_unit,"
          "expected_moment_low,expected_moment_high,curie_constant,"
-         "valence_electron_concentration,diagnostic_codes,diagnostics";
+         "valence_electron_concentration,ions,diagnostic_codes,diagnostics";
 }
 
 void AppendReportLine(ReportLineFormat format, const v1::RecordReport& report,

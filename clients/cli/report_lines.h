@@ -61,7 +61,17 @@ struct ReportLines {
   std::vector<ReportRow> rows;
 };
 
-// The CSV header, without a line break.
+// The CSV header, without a line break. The cells:
+//   oxidation_states  element, signed state, ':', exact count, joined by
+//                     ';': "Fe+2:1;Fe+3:2;O-2:4" (counts may be "11/2");
+//   the figures       score ... valence_electron_concentration: numbers,
+//                     blank for an invalid record (it has none);
+//   ions              one per ion, joined by "; ": "Fe+3 count=2
+//                     unpaired=5 spin=high/octahedral moment=5.91608"
+//                     (spin only where high and low spin differ);
+//   diagnostic_codes  severity:code joined by ';':
+//                     "warning:possible_hydrate_typo;info:mixed_valence";
+//   diagnostics       "severity code: message" joined by " | ".
 std::string ReportCsvHeader();
 
 // Appends the report's line, line break included.

@@ -179,7 +179,31 @@ TEST(ReportLines, CsvLineHasOneFieldPerHeaderColumn) {
   ASSERT_TRUE(SplitCsvLine(ReportCsvHeader(), &header, &error));
   EXPECT_EQ(fields.size(), header.size());
   EXPECT_EQ(fields[1], "a,\"b\"");
-  EXPECT_EQ(fields[5], "Fe:2x1 Fe:3x2 O:-2x4");
+  // Issue 16: "Fe:0x23/25" read like hexadecimal; now signed states.
+  EXPECT_EQ(fields[5], "Fe+2:1;Fe+3:2;O-2:4");
+  // High-spin Fe2+ (d6) and Fe3+ (d5) by default: 4 and 5 unpaired
+  // (Greenwood and Earnshaw, from memory).
+  EXPECT_EQ(fields[13],
+            "Fe+2 count=1 unpaired=4 spin=high/octahedral moment=4.89898; "
+            "Fe+3 count=2 unpaired=5 spin=high/octahedral moment=5.91608; "
+            "O-2 count=4 unpaired=0 moment=0");
+  EXPECT_EQ(fields[14], "info:mixed_valence");
+}
+
+TEST(ReportLines, RegressionInvalidRowsHaveBlankFigures) {
+  // Issue 16: invalid rows showed 0 in the number columns.
+  v1::CompositionRecord record;
+  record.set_id("bad");
+  record.set_formula("Fe2O3)");
+  v1::RecordReport proto;
+  AnalyzeRecord(record, &proto);
+  const std::string line = ProtoLine(proto, ReportLineFormat::kCsv);
+  std::vector<std::string> fields;
+  std::string error;
+  ASSERT_TRUE(SplitCsvLine(line.substr(0, line.size() - 1), &fields, &error));
+  for (int i = 6; i <= 12; ++i) EXPECT_EQ(fields[i], "") << i;
+  EXPECT_EQ(fields[14], "error:malformed_formula");
+  EXPECT_EQ(fields[15].rfind("error malformed_formula: ", 0), 0u) << fields[15];
 }
 
 }  // namespace
