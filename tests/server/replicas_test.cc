@@ -11,6 +11,7 @@
 
 #include <algorithm>
 #include <chrono>
+#include <filesystem>
 #include <fstream>
 #include <memory>
 #include <optional>
@@ -75,10 +76,22 @@ int LineCount(const std::string& path) {
   return static_cast<int>(std::count(text.begin(), text.end(), '\n'));
 }
 
-// Waits until `path` holds at least `lines` lines; false after kWait.
-bool WaitForLines(const std::string& path, int lines) {
+// check writes `dir/name` as "dir/.name.partial-XXXXXX" until it is
+// complete; that file, or the finished one, or "" while neither exists.
+std::string OutputSoFar(const std::string& dir, const std::string& name) {
+  const std::string prefix = absl::StrCat(".", name, ".partial-");
+  for (const auto& entry : std::filesystem::directory_iterator(dir)) {
+    const std::string file = entry.path().filename().string();
+    if (file == name || file.rfind(prefix, 0) == 0) return entry.path();
+  }
+  return "";
+}
+
+// Waits until check's output `dir/name` holds at least `lines` lines;
+// false after kWait.
+bool WaitForLines(const std::string& dir, const std::string& name, int lines) {
   const auto deadline = std::chrono::steady_clock::now() + kWait;
-  while (LineCount(path) < lines) {
+  while (LineCount(OutputSoFar(dir, name)) < lines) {
     if (std::chrono::steady_clock::now() > deadline) return false;
     std::this_thread::sleep_for(std::chrono::milliseconds(20));
   }
@@ -135,11 +148,11 @@ TEST(Replicas, OneKilledAndOneDrainedMidRunGiveTheInProcessBytes) {
 
   // Part 1 goes through all three replicas.
   ASSERT_TRUE(WriteAll(input, absl::StrCat(kHeader, parts[0])));
-  ASSERT_TRUE(WaitForLines(out, kPart - kHeldBack));
+  ASSERT_TRUE(WaitForLines(dir.path(), "remote.jsonl", kPart - kHeldBack));
   // Part 2 is under way when replica 0 dies without a word.
   ASSERT_TRUE(WriteAll(input, parts[1]));
   ASSERT_EQ(servers[0]->process().SignalAndWait(SIGKILL, kWait), 128 + SIGKILL);
-  ASSERT_TRUE(WaitForLines(out, 2 * kPart - kHeldBack));
+  ASSERT_TRUE(WaitForLines(dir.path(), "remote.jsonl", 2 * kPart - kHeldBack));
   // Part 3 is under way when replica 1 drains; it must exit cleanly.
   ASSERT_TRUE(WriteAll(input, parts[2]));
   EXPECT_EQ(servers[1]->Terminate(kWait), 0) << servers[1]->Stderr();
