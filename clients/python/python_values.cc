@@ -609,66 +609,75 @@ struct ReportColumns::Column {
   std::vector<PyObject*> objects;  // Owned references.
   std::string last_text;           // The text of objects.back(), if str.
   bool last_is_text = false;
+  bool skip = false;  // Not wanted: walked past, not stored.
 };
 
 // Walks a report's top level into the columns; repeated messages become
 // lists of dicts (DictBuilder).
 class ReportColumns::Visitor : public TopLevelVisitor {
  public:
-  Visitor(std::vector<Column>* columns, SharedDicts* shared)
-      : columns_(columns), shared_(shared) {}
+  Visitor(std::vector<Column>* columns, const std::vector<std::string>* skip,
+          SharedDicts* shared)
+      : columns_(columns), skip_(skip), shared_(shared) {}
 
   template <typename F>
   void String(const F& f, absl::string_view v) {
-    Column& c = At(f.name, Column::Kind::kObject);
+    Column* c = At(f.name, Column::Kind::kObject);
+    if (c == nullptr) return;
     // Verdicts, kinds and echoes repeat: share the previous row's str.
-    if (c.last_is_text && !c.objects.empty() && c.last_text == v) {
-      Py_INCREF(c.objects.back());
-      c.objects.push_back(c.objects.back());
+    if (c->last_is_text && !c->objects.empty() && c->last_text == v) {
+      Py_INCREF(c->objects.back());
+      c->objects.push_back(c->objects.back());
       return;
     }
-    c.objects.push_back(Str(v));
-    c.last_text.assign(v.data(), v.size());
-    c.last_is_text = true;
+    c->objects.push_back(Str(v));
+    c->last_text.assign(v.data(), v.size());
+    c->last_is_text = true;
   }
   template <typename F>
   void Int(const F& f, int32_t v) {
-    At(f.name, Column::Kind::kInt).ints.push_back(v);
+    if (Column* c = At(f.name, Column::Kind::kInt)) c->ints.push_back(v);
   }
   template <typename F>
   void Double(const F& f, double v) {
-    At(f.name, Column::Kind::kDouble).doubles.push_back(v);
+    if (Column* c = At(f.name, Column::Kind::kDouble)) c->doubles.push_back(v);
   }
   template <typename F>
   void Bool(const F& f, bool v) {
-    At(f.name, Column::Kind::kBool).bools.push_back(v);
+    if (Column* c = At(f.name, Column::Kind::kBool)) c->bools.push_back(v);
   }
   template <typename F, typename Items, typename Visit>
   void Messages(const F& f, const Items& items, Visit visit) {
-    Column& c = At(f.name, Column::Kind::kObject);
-    c.objects.push_back(DictBuilder::List(items, visit, shared_));
-    c.last_is_text = false;
+    Column* c = At(f.name, Column::Kind::kObject);
+    if (c == nullptr) return;
+    c->objects.push_back(DictBuilder::List(items, visit, shared_));
+    c->last_is_text = false;
   }
 
  private:
   // The next column, which the first report's walk creates; every walk
   // visits the same fields in the same order.
-  Column& At(absl::string_view name, Column::Kind kind) {
+  // Null for a skipped column.
+  Column* At(absl::string_view name, Column::Kind kind) {
     if (next_ == columns_->size()) {
       Column c;
       c.name = name;
       c.kind = kind;
+      for (const std::string& s : *skip_) c.skip = c.skip || s == name;
       columns_->push_back(std::move(c));
     }
-    return (*columns_)[next_++];
+    Column* c = &(*columns_)[next_++];
+    return c->skip ? nullptr : c;
   }
 
   std::vector<Column>* columns_;
+  const std::vector<std::string>* skip_;
   SharedDicts* shared_;
   size_t next_ = 0;
 };
 
-ReportColumns::ReportColumns() : columns_(new std::vector<Column>) {}
+ReportColumns::ReportColumns(std::vector<std::string> skip)
+    : columns_(new std::vector<Column>), skip_(std::move(skip)) {}
 
 ReportColumns::~ReportColumns() {
   for (Column& c : *columns_) {
@@ -698,12 +707,12 @@ void ReportColumns::Reserve(size_t rows) {
 
 void ReportColumns::Add(const CompositionReport& report,
                         const v1::CompositionRecord& record) {
-  Visitor v(columns_, &shared_);
+  Visitor v(columns_, &skip_, &shared_);
   VisitRecordReport(report, record, v);
 }
 
 void ReportColumns::Add(const v1::RecordReport& report) {
-  Visitor v(columns_, &shared_);
+  Visitor v(columns_, &skip_, &shared_);
   VisitRecordReport(report, v);
 }
 
@@ -724,6 +733,7 @@ py::array ToArray(std::vector<T>* values) {
 PyObject* ReportColumns::Take() {
   py::dict out;
   for (Column& c : *columns_) {
+    if (c.skip) continue;
     py::object array;
     switch (c.kind) {
       case Column::Kind::kDouble:
