@@ -280,6 +280,9 @@ std::string Missing(PyObject* value) {
 bool IsMissing(PyObject* value) {
   if (value == Py_None) return true;
   if (PyFloat_Check(value)) return std::isnan(PyFloat_AS_DOUBLE(value));
+  if (PyUnicode_Check(value) || PyBytes_Check(value) || PyLong_Check(value)) {
+    return false;
+  }
   // numpy floats and pandas' NA: anything that is a float but not equal to
   // itself, or pandas' NA/NaT singletons (named so by their type).
   const std::string type = TypeName(value);
@@ -457,8 +460,10 @@ bool RecordFromItem(PyObject* item, int row, int alternatives,
   if (PyDict_Check(item) ||
       (!PyUnicode_Check(item) && !PyBytes_Check(item) &&
        PyMapping_Check(item) && PyObject_HasAttrString(item, "items"))) {
-    Ref items(PyMapping_Items(item));
-    if (items.get() == nullptr) {
+    // A dict is read in place; another mapping through its items.
+    Ref items(PyDict_Check(item) ? nullptr : PyMapping_Items(item));
+    if (!PyDict_Check(item) &&
+        (items.get() == nullptr || !PyList_Check(items.get()))) {
       PyErr_Clear();
       return Fail(
           problem, true,
@@ -467,11 +472,21 @@ bool RecordFromItem(PyObject* item, int row, int alternatives,
     bool has_formula = false;
     bool ok = true;
     RecordProblem first;
-    const Py_ssize_t n = PyList_GET_SIZE(items.get());
-    for (Py_ssize_t i = 0; i < n; ++i) {
-      PyObject* pair = PyList_GET_ITEM(items.get(), i);
-      PyObject* key = PyTuple_GET_ITEM(pair, 0);
-      PyObject* value = PyTuple_GET_ITEM(pair, 1);
+    Py_ssize_t position = 0;
+    PyObject* key = nullptr;
+    PyObject* value = nullptr;
+    const auto next = [&] {
+      if (items.get() == nullptr) {
+        return PyDict_Next(item, &position, &key, &value) != 0;
+      }
+      if (position >= PyList_GET_SIZE(items.get())) return false;
+      PyObject* pair = PyList_GET_ITEM(items.get(), position++);
+      if (!PyTuple_Check(pair) || PyTuple_GET_SIZE(pair) != 2) return false;
+      key = PyTuple_GET_ITEM(pair, 0);
+      value = PyTuple_GET_ITEM(pair, 1);
+      return true;
+    };
+    while (next()) {
       if (!PyUnicode_Check(key)) {
         if (ok) {
           Fail(&first, true,
