@@ -44,19 +44,21 @@ struct ElementPlan {
   absl::InlinedVector<const Unit*, 2> units;  // the unit of each option.
   // The declared states, the only options of a declared element; the
   // unit charges of a unit layer; or, for a d-block metal beside a
-  // pi-acceptor ligand (Ni(CO)4), its options with state 0 added.
+  // pi-acceptor ligand (Ni(CO)4), its options with state 0 added, or for
+  // a metal among chalcogenide anions only, its options with the states
+  // above its chalcogenide maximum made uncommon (custom).
   absl::InlinedVector<StateOption, 1> fixed_options;
-  bool with_zero = false;
-  absl::InlinedVector<StateOption, 1> fixed_common_options;  // with_zero.
+  bool custom = false;
+  absl::InlinedVector<StateOption, 1> fixed_common_options;  // custom.
 
   absl::Span<const StateOption> options() const {
-    if (declared || match != nullptr || with_zero) return fixed_options;
+    if (declared || match != nullptr || custom) return fixed_options;
     return internal::StateOptions(*element);
   }
   // The options whose states are all common, with their index in
   // options(); all of them for a declared element or a unit.
   absl::Span<const StateOption> common_options() const {
-    if (with_zero && !declared) return fixed_common_options;
+    if (custom && !declared) return fixed_common_options;
     if (declared || match != nullptr) return fixed_options;
     return internal::CommonStateOptions(*element);
   }
@@ -188,29 +190,44 @@ bool MakePlans(const Formula& formula, int64_t scale,
                      u->ligand->f >= kPiAcceptorF;
     }
   }
+  // Chalcogenide anions only (no free O, F, Cl or N): metals keep to their
+  // chalcogenide maximum (MnS2 is Mn(II) disulfide, not Mn(IV) sulfide).
+  bool chalcogen = false, hard_anion = false;
+  for (const ElementPlan& p : plans) {
+    const int z = p.element->atomic_number;
+    chalcogen |= z == 16 || z == 34 || z == 52;
+    hard_anion |= z == 7 || z == 8 || z == 9 || z == 17;
+  }
+  const bool soft_only = chalcogen && !hard_anion;
   for (ElementPlan& p : plans) {
     p.no_hydride = carbon_or_nitrogen;
-    if (!pi_acceptor || p.declared || p.element->block != Block::kD) continue;
-    p.with_zero = true;
-    bool zero_added = false;
-    auto add = [&p](const StateOption& from, int low, int high) {
-      StateOption o = from;
-      o.low = low;
-      o.high = high;
-      o.index = static_cast<int>(p.fixed_options.size());
+    if (p.declared) continue;
+    const bool zero = pi_acceptor && p.element->block == Block::kD;
+    const int limit =
+        soft_only ? internal::ChalcogenideMaxState(*p.element) : -1;
+    if (!zero && limit < 0) continue;
+    p.custom = true;
+    bool zero_added = !zero;
+    auto add = [&p, limit](int low, int high, bool low_common,
+                           bool high_common) {
+      if (limit >= 0) {
+        low_common &= low <= limit;
+        high_common &= high <= limit;
+      }
+      StateOption o = internal::MakeStateOption(
+          *p.element, static_cast<int>(p.fixed_options.size()), low, high,
+          low_common, high_common);
       p.fixed_options.push_back(o);
       if (o.low_common && o.high_common) p.fixed_common_options.push_back(o);
     };
     for (const StateOption& o : internal::StateOptions(*p.element)) {
       if (!zero_added && o.low > 0) {
-        add(internal::MakeStateOption(*p.element, 0, 0, 0, true, true), 0, 0);
+        add(0, 0, true, true);
         zero_added = true;
       }
-      add(o, o.low, o.high);
+      add(o.low, o.high, o.low_common, o.high_common);
     }
-    if (!zero_added) {
-      add(internal::MakeStateOption(*p.element, 0, 0, 0, true, true), 0, 0);
-    }
+    if (!zero_added) add(0, 0, true, true);
   }
   const size_t free_elements = plans.size();
   for (const UnitMatch* m : reading) {

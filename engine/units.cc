@@ -280,6 +280,48 @@ UnitMatches FindUnitMatches(const Formula& formula) {
                                   group.multiplier));
     }
   }
+  // A group with up to three symbols written just before it, whose atoms
+  // together are a unit's: CH(NH2)2 (formamidinium), C(NH2)3
+  // (guanidinium). Longer than the group alone, these go first.
+  UnitMatches spans;
+  for (size_t g = 0; g < formula.groups.size(); ++g) {
+    const WrittenGroup& group = formula.groups[g];
+    if (group.bracket == '*') continue;
+    const int level = group.parent;
+    absl::InlinedVector<std::pair<int, Rational>, 8> signature;
+    auto add = [&signature](const Element* e, const Rational& n) {
+      auto it = std::find_if(
+          signature.begin(), signature.end(),
+          [&](const auto& s) { return s.first == e->atomic_number; });
+      if (it == signature.end()) {
+        signature.emplace_back(e->atomic_number, n);
+      } else {
+        it->second = it->second + n;
+      }
+    };
+    for (int i = group.first_term; i < group.end_term; ++i) {
+      add(formula.terms[i].element,
+          formula.terms[i].count * formula.terms[i].multiplier);
+    }
+    for (int k = group.first_term - 1;
+         k >= 0 && k >= group.first_term - 3 && formula.terms[k].group == level;
+         --k) {
+      const WrittenTerm& term = formula.terms[k];
+      add(term.element, term.count * term.multiplier);
+      auto sorted = signature;
+      std::sort(sorted.begin(), sorted.end(),
+                [](const auto& a, const auto& b) { return a.first < b.first; });
+      const int c = FindClass(t, sorted, term.multiplier);
+      if (c >= 0 && spans.size() < kMaxUnitMatches) {
+        spans.push_back(
+            MakeMatch(t, c, k, group.end_term, -1, level, term.multiplier));
+      }
+    }
+  }
+  if (!spans.empty()) {
+    matches.insert(matches.begin(), spans.begin(), spans.end());
+    if (matches.size() > kMaxUnitMatches) matches.resize(kMaxUnitMatches);
+  }
   // Runs of terms written as a unit is written, inside one group.
   const size_t groups_found = matches.size();
   const std::vector<WrittenTerm>& terms = formula.terms;

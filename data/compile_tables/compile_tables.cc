@@ -13,7 +13,8 @@
 //       --departures=ground_level_departures.tsv
 //       --moments=measured_moments.tsv --oxidation=oxidation_states.tsv
 //       --units=units.tsv --ligands=spectrochemical_series.tsv
-//       --crossover=spin_crossover.tsv --out=data_tables.cc
+//       --crossover=spin_crossover.tsv
+//       --chalcogenide=chalcogenide_states.tsv --out=data_tables.cc
 
 #include <cctype>
 #include <cerrno>
@@ -165,6 +166,7 @@ std::optional<int> ParseArgs(int argc, char** argv, Paths* paths) {
       {"units", "units.tsv"},
       {"ligands", "spectrochemical_series.tsv"},
       {"crossover", "spin_crossover.tsv"},
+      {"chalcogenide", "chalcogenide_states.tsv"},
       {"out", "the C++ file to write"},
   };
   for (const auto& table : kTables) {
@@ -536,6 +538,22 @@ int main(int argc, char** argv) {
   }
   out << "};\n\n";
 
+  // --- chalcogenide_states.tsv ----------------------------------------------
+  const Table chalcogenide =
+      ReadTable(args.at("chalcogenide"), {"symbol", "max_state", "source"});
+  out << "constexpr ChalcogenideStateRow kChalcogenide[] = {\n";
+  std::set<int> chalcogenide_z;
+  for (const Row& r : chalcogenide.rows) {
+    const int z = symbol_to_z(chalcogenide, r, 0);
+    if (!chalcogenide_z.insert(z).second) {
+      Fail(chalcogenide.path, r.line, "duplicate row for " + r.fields[0]);
+    }
+    const long max_state = ParseInt(chalcogenide, r, 1, 0, 8);
+    out << "    {" << z << ", " << max_state << ", " << Literal(r.fields[2])
+        << "},\n";
+  }
+  out << "};\n\n";
+
   out << "}  // namespace\n\n"
          "absl::Span<const ElementRow> ElementRows() { return kElements; }\n"
          "absl::Span<const ConfigurationExceptionRow> "
@@ -550,7 +568,9 @@ int main(int argc, char** argv) {
          "absl::Span<const UnitRow> UnitRows() { return kUnits; }\n"
          "absl::Span<const LigandRow> LigandRows() { return kLigands; }\n"
          "absl::Span<const SpinCrossoverRow> SpinCrossoverRows() {\n"
-         "  return kCrossover;\n}\n\n"
+         "  return kCrossover;\n}\n"
+         "absl::Span<const ChalcogenideStateRow> ChalcogenideStateRows() {\n"
+         "  return kChalcogenide;\n}\n\n"
          "}  // namespace shellwright::internal\n";
 
   // Write only when changed, so that an unchanged table does not trigger a

@@ -101,6 +101,13 @@ struct SpinCrossoverRow {
   const char* source;
 };
 
+// data/chalcogenide_states.tsv
+struct ChalcogenideStateRow {
+  int atomic_number;
+  int max_state;
+  const char* source;
+};
+
 absl::Span<const ElementRow> ElementRows();
 absl::Span<const ConfigurationExceptionRow> ConfigurationExceptionRows();
 absl::Span<const GroundLevelDepartureRow> GroundLevelDepartureRows();
@@ -110,6 +117,7 @@ absl::Span<const UnitAtomRow> UnitAtomRows();
 absl::Span<const UnitRow> UnitRows();
 absl::Span<const LigandRow> LigandRows();
 absl::Span<const SpinCrossoverRow> SpinCrossoverRows();
+absl::Span<const ChalcogenideStateRow> ChalcogenideStateRows();
 
 }  // namespace shellwright::internal
 

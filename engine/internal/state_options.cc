@@ -57,6 +57,18 @@ int GroupGap(const Element& e, int state) {
   return state < group_state ? group_state - state : 0;
 }
 
+int ChalcogenideMaxState(const Element& e) {
+  static const std::array<int, kMaxAtomicNumber + 1>* const kMax = [] {
+    auto* t = new std::array<int, kMaxAtomicNumber + 1>;
+    t->fill(-1);
+    for (const ChalcogenideStateRow& row : ChalcogenideStateRows()) {
+      (*t)[row.atomic_number] = row.max_state;
+    }
+    return t;
+  }();
+  return (*kMax)[e.atomic_number];
+}
+
 bool OpenShellState(const Element& e, int state) {
   if (e.block != Block::kP || IsMetal(e) || e.group == 18) return false;
   return state == 0 || (state < 0 && state != e.group - 18);

@@ -54,6 +54,10 @@ int GroupGap(const Element& e, int state);
 // carries no free-ion unpaired electrons.
 bool OpenShellState(const Element& e, int state);
 
+// The highest state of metal `e` as a cation of chalcogenide anions
+// (data/chalcogenide_states.tsv), or -1 when the table has no row.
+int ChalcogenideMaxState(const Element& e);
+
 StateOption MakeStateOption(const Element& e, int index, int low, int high,
                             bool low_common, bool high_common);
 

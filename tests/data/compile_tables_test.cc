@@ -29,22 +29,24 @@ CommandResult RunWith(const std::string& table, const std::string& contents) {
   for (const char* name :
        {"elements", "configuration_exceptions", "ground_level_departures",
         "measured_moments", "oxidation_states", "units",
-        "spectrochemical_series", "spin_crossover"}) {
+        "spectrochemical_series", "spin_crossover", "chalcogenide_states"}) {
     paths[name] = SourcePath(std::string("data/") + name + ".tsv");
   }
   if (!table.empty()) {
     paths[table] = dir + "/" + table + ".tsv";
     std::ofstream(paths[table]) << contents;
   }
-  return RunCommand(
-      {BinPath("data/shellwright_compile_tables"),
-       "--elements=" + paths["elements"],
-       "--exceptions=" + paths["configuration_exceptions"],
-       "--departures=" + paths["ground_level_departures"],
-       "--moments=" + paths["measured_moments"],
-       "--oxidation=" + paths["oxidation_states"], "--units=" + paths["units"],
-       "--ligands=" + paths["spectrochemical_series"],
-       "--crossover=" + paths["spin_crossover"], "--out=" + dir + "/out.cc"});
+  return RunCommand({BinPath("data/shellwright_compile_tables"),
+                     "--elements=" + paths["elements"],
+                     "--exceptions=" + paths["configuration_exceptions"],
+                     "--departures=" + paths["ground_level_departures"],
+                     "--moments=" + paths["measured_moments"],
+                     "--oxidation=" + paths["oxidation_states"],
+                     "--units=" + paths["units"],
+                     "--ligands=" + paths["spectrochemical_series"],
+                     "--crossover=" + paths["spin_crossover"],
+                     "--chalcogenide=" + paths["chalcogenide_states"],
+                     "--out=" + dir + "/out.cc"});
 }
 
 std::string RealTable(const std::string& name) {
