@@ -53,6 +53,7 @@
 #ifndef SHELLWRIGHT_API_REPORT_VIEW_H_
 #define SHELLWRIGHT_API_REPORT_VIEW_H_
 
+#include <cstddef>
 #include <cstdint>
 #include <cstring>
 #include <initializer_list>
@@ -154,6 +155,19 @@ class FieldByFieldVisitor {
   const VaryingValue* varying_ = nullptr;
 };
 
+// A base for visitors that take a report's top level and read the items
+// of its repeated fields themselves (CSV columns, table columns): the
+// Cached and Varying* calls, which only the items' walks make, do nothing.
+class TopLevelVisitor {
+ public:
+  template <typename Key, typename Visit>
+  void Cached(const Key&, std::initializer_list<VaryingValue>, Visit) {}
+  template <typename F>
+  void VaryingNumber(const F&, int) {}
+  template <typename F>
+  void VaryingExact(const F&, int) {}
+};
+
 namespace report_view_internal {
 
 inline uint64_t Bits(double v) {
@@ -164,6 +178,10 @@ inline uint64_t Bits(double v) {
 
 // What an assigned state's fields follow from, but for its count.
 struct StateKey {
+  // Slots of a writer's cache of fragments under these keys (a few
+  // hundred distinct states make up most reports).
+  static constexpr size_t kCacheSlots = 256;
+
   const Element* element;
   int state;
   bool common, declared;
@@ -186,6 +204,8 @@ struct StateKey {
 // while the key is kept; a key made for a lookup only points at the
 // caller's, and costs no reference count.
 struct IonKey {
+  static constexpr size_t kCacheSlots = 1024;  // See StateKey.
+
   const AtomDescriptionPtr* source;  // The caller's; null once kept.
   AtomDescriptionPtr kept;
   const AtomDescription* description;

@@ -287,8 +287,10 @@ AtomDescriptionPtr Build(const Element& element, int charge,
   return d;
 }
 
-// Precomputed descriptions for every (Z, charge) with no geometry and no
-// override: charge runs from -kMaxAnionCharge to +Z.
+// Descriptions for every (Z, charge) with no geometry and no override,
+// charge from -kMaxAnionCharge to +Z, each built on first use: a process
+// that asks about a few ions (one CLI call) builds only those, a long run
+// ends up with the whole table.
 class DescriptionCache {
  public:
   DescriptionCache() {
@@ -298,21 +300,22 @@ class DescriptionCache {
       offset += z + kMaxAnionCharge + 1;
     }
     entries_.resize(offset);
-    for (const Element& e : AllElements()) {
-      for (int charge = -kMaxAnionCharge; charge <= e.atomic_number; ++charge) {
-        absl::StatusOr<Configuration> c =
-            IonConfiguration(e.atomic_number, charge);
-        if (!c.ok()) continue;
-        entries_[Slot(e.atomic_number, charge)] =
-            Build(e, charge, *c, /*user_supplied=*/false, Geometry::kFree,
-                  SpinStatePreference::kAuto);
-      }
-    }
+    built_ = std::make_unique<std::once_flag[]>(offset);
   }
 
-  // REQUIRES: -kMaxAnionCharge <= charge <= z.
-  const AtomDescriptionPtr& Get(int z, int charge) const {
-    return entries_[Slot(z, charge)];
+  // REQUIRES: -kMaxAnionCharge <= charge <= e.atomic_number.
+  const AtomDescriptionPtr& Get(const Element& e, int charge) {
+    const int slot = Slot(e.atomic_number, charge);
+    // Every slot exists from the start; each is written once, by the
+    // call_once that guards it.
+    std::call_once(built_[slot], [&] {
+      absl::StatusOr<Configuration> c =
+          IonConfiguration(e.atomic_number, charge);
+      if (!c.ok()) return;
+      entries_[slot] = Build(e, charge, *c, /*user_supplied=*/false,
+                             Geometry::kFree, SpinStatePreference::kAuto);
+    });
+    return entries_[slot];
   }
 
  private:
@@ -320,16 +323,17 @@ class DescriptionCache {
     return offsets_[z] + charge + kMaxAnionCharge;
   }
   std::array<int, kMaxAtomicNumber + 1> offsets_{};
+  std::unique_ptr<std::once_flag[]> built_;
   std::vector<AtomDescriptionPtr> entries_;
 };
 
-const DescriptionCache& Cache() {
-  static const DescriptionCache* const kCache = new DescriptionCache;
+DescriptionCache& Cache() {
+  static DescriptionCache* const kCache = new DescriptionCache;
   return *kCache;
 }
 
 // Ligand-field descriptions of d-block ions in the charge range chemistry
-// uses, built per element on first use. Records annotate every d ion in a
+// uses, each built on first use. Records annotate every d ion in a
 // geometry, so this keeps composition analysis to table lookups.
 class LigandFieldCache {
  public:
@@ -347,8 +351,15 @@ class LigandFieldCache {
       return nullptr;
     }
     PerElement& slot = elements_[e.atomic_number];
-    std::call_once(slot.once, [&] { Fill(e, &slot); });
-    return slot.entries[Index(charge, g, s)].get();
+    const int i = Index(charge, g, s);
+    std::call_once(slot.built[i], [&] {
+      absl::StatusOr<Configuration> c =
+          IonConfiguration(e.atomic_number, charge);
+      if (c.ok()) {
+        slot.entries[i] = Build(e, charge, *c, /*user_supplied=*/false, g, s);
+      }
+    });
+    return slot.entries[i].get();
   }
 
   // Shared ownership for callers that keep the description.
@@ -359,33 +370,17 @@ class LigandFieldCache {
   }
 
  private:
+  static constexpr int kEntries = kCharges * kGeometries * kSpins;
+  // Each entry is built on first use, under its own flag.
   struct PerElement {
-    std::once_flag once;
-    std::array<AtomDescriptionPtr, kCharges * kGeometries * kSpins> entries;
+    std::array<std::once_flag, kEntries> built;
+    std::array<AtomDescriptionPtr, kEntries> entries;
   };
 
   static int Index(int charge, Geometry g, SpinStatePreference s) {
     return ((charge - kMinCharge) * kGeometries + (static_cast<int>(g) - 1)) *
                kSpins +
            static_cast<int>(s);
-  }
-
-  static void Fill(const Element& e, PerElement* slot) {
-    for (int charge = kMinCharge;
-         charge <= std::min(kMaxCharge, e.atomic_number); ++charge) {
-      absl::StatusOr<Configuration> c =
-          IonConfiguration(e.atomic_number, charge);
-      if (!c.ok()) continue;
-      for (Geometry g : {Geometry::kOctahedral, Geometry::kTetrahedral,
-                         Geometry::kSquarePlanar}) {
-        for (SpinStatePreference s :
-             {SpinStatePreference::kAuto, SpinStatePreference::kHigh,
-              SpinStatePreference::kLow}) {
-          slot->entries[Index(charge, g, s)] =
-              Build(e, charge, *c, /*user_supplied=*/false, g, s);
-        }
-      }
-    }
   }
 
   std::array<PerElement, kMaxAtomicNumber + 1> elements_;
@@ -498,7 +493,7 @@ absl::StatusOr<AtomDescriptionPtr> DescribeAtom(const AtomQuery& query) {
                  /*user_supplied=*/true, query.geometry, query.spin_state);
   }
   if (query.geometry == Geometry::kFree) {
-    return Cache().Get(z, query.charge);
+    return Cache().Get(e, query.charge);
   }
   if (AtomDescriptionPtr cached =
           FieldCache().Get(e, query.charge, query.geometry, query.spin_state)) {

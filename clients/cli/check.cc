@@ -160,14 +160,18 @@ std::string FormatSummaryJson(const ReportCounts& s) {
   return out;
 }
 
-absl::StatusOr<ReportCounts> RunCheck(const CheckOptions& options,
-                                      Backend& backend, std::ostream& log) {
-  absl::StatusOr<std::unique_ptr<RecordInput>> input =
-      RecordInput::Open(options.input, options.input_format);
+absl::StatusOr<CheckResult> RunCheck(const CheckOptions& options,
+                                     Backend& backend, std::ostream& log) {
+  const StopSignals* const stop = options.stop;
+  absl::StatusOr<std::unique_ptr<RecordInput>> input = RecordInput::Open(
+      options.input, options.input_format, stop ? stop->fd() : -1);
   if (!input.ok()) return input.status();
   absl::StatusOr<RecordFormat> output_format =
       OutputFormat(options.output, options.output_format);
   if (!output_format.ok()) return output_format.status();
+  if (absl::Status s = (*input)->CheckNotInput(options.output); !s.ok()) {
+    return s;
+  }
   const ReportLineFormat format = LineFormat(*output_format);
   // Opened only once the input looks usable, so that a usage error never
   // truncates an existing output file.
@@ -193,12 +197,22 @@ absl::StatusOr<ReportCounts> RunCheck(const CheckOptions& options,
   }
 
   std::atomic<int64_t> bytes_read{0};
+  bool stopped = false;  // The source's own.
   auto read = [&](CheckBatch* batch) -> absl::StatusOr<bool> {
+    // A stop ends the input between batches (and wakes a waiting read).
+    if (stop != nullptr && stop->signal() != 0) stopped = true;
+    if (stopped || (*input)->stopped()) {
+      stopped = true;
+      return false;
+    }
     batch->refs.reserve(batch_size);
     std::string line;
     int row = 0;
     bool too_long = false;
+    // A batch goes on when full, or when the input (a pipe) has no more
+    // lines for now: its reports should not wait for the next ones.
     while (static_cast<int>(batch->refs.size()) < batch_size &&
+           (batch->refs.empty() || (*input)->Ready()) &&
            (*input)->NextLine(&line, &row, &too_long)) {
       if (line.empty()) continue;
       batch->refs.push_back(
@@ -226,7 +240,8 @@ absl::StatusOr<ReportCounts> RunCheck(const CheckOptions& options,
     std::vector<LineRef>().swap(batch.refs);
     return status;
   };
-  ReportCounts summary;
+  CheckResult result;
+  ReportCounts& summary = result.counts;
   // Columns no record field has: named once, counted once.
   for (const std::string& unknown : (*input)->csv().unknown_columns()) {
     log << "shellwright: check: warning: " << unknown << "\n";
@@ -257,11 +272,16 @@ absl::StatusOr<ReportCounts> RunCheck(const CheckOptions& options,
     absl::Status s = processor->Finish();
     if (status.ok()) status = std::move(s);
   }
-  absl::Status closed = (*output)->Close();
-  if (status.ok()) status = std::move(closed);
+  // Reading is over: the stop was seen by the source or not at all.
+  if (stopped || (*input)->stopped()) result.stopped_by = stop->signal();
+  if (status.ok() && result.stopped_by == 0) {
+    status = (*output)->Close();
+  } else {
+    (*output)->Abandon();  // --out keeps what it had.
+  }
   if (options.progress) progress.Clear();
   if (!status.ok()) return status;
-  return summary;
+  return result;
 }
 
 }  // namespace shellwright::cli

@@ -18,7 +18,7 @@
 //   options.output = "reports.jsonl";
 //   std::unique_ptr<shellwright::cli::Backend> engine =
 //       shellwright::cli::MakeInProcessBackend();
-//   absl::StatusOr<shellwright::cli::ReportCounts> summary =
+//   absl::StatusOr<shellwright::cli::CheckResult> result =
 //       shellwright::cli::RunCheck(options, *engine, std::cerr);
 //
 // Thread safety: RunCheck may be called from one thread at a time.
@@ -33,6 +33,7 @@
 #include "clients/cli/backend.h"
 #include "clients/cli/check_io.h"
 #include "clients/cli/report_lines.h"
+#include "util/stop_signals.h"
 
 namespace shellwright::cli {
 
@@ -49,17 +50,29 @@ struct CheckOptions {
   // Alternatives asked for on records that do not set max_alternatives.
   // Batch runs default to none: they are rarely read and triple the work.
   int default_alternatives = 0;
+  // When set and a stop is requested (SIGINT, SIGTERM), reading stops;
+  // the records already read are answered and written, whole lines only.
+  const StopSignals* stop = nullptr;
+};
+
+struct CheckResult {
+  ReportCounts counts;  // Of the reports written.
+  // The signal that stopped the run before the end of its input, or 0. A
+  // stopped run's --out file is not written (standard output keeps the
+  // whole lines written before the stop).
+  int stopped_by = 0;
 };
 
 // Runs check: reads records, answers them through `backend` (one batch
 // processor per worker), writes one report per record in input order.
 // Returns the counts, or INVALID_ARGUMENT for usage problems (unknown
-// format, a CSV header without id or formula), NOT_FOUND,
-// PERMISSION_DENIED, DATA_LOSS and the like for I/O failures, and the
-// transport's status when a server fails. Bad records are never errors:
-// they get error reports.
-absl::StatusOr<ReportCounts> RunCheck(const CheckOptions& options,
-                                      Backend& backend, std::ostream& log);
+// format, a CSV header without id or formula, an output that is the
+// input), NOT_FOUND, PERMISSION_DENIED, DATA_LOSS and the like for I/O
+// failures (every write is checked; --out is replaced only on success),
+// and the transport's status when a server fails. Bad records are never
+// errors: they get error reports.
+absl::StatusOr<CheckResult> RunCheck(const CheckOptions& options,
+                                     Backend& backend, std::ostream& log);
 
 // "3000 rows: 2700 valid, 300 invalid; 120 with warnings; 450
 // diagnostics", then one line per code under its severity (errors,

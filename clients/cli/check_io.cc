@@ -5,8 +5,8 @@
 #include <unistd.h>
 
 #include <cerrno>
+#include <cstdlib>
 #include <cstring>
-#include <iostream>
 #include <utility>
 
 #include "absl/strings/match.h"
@@ -56,33 +56,44 @@ absl::StatusOr<RecordFormat> OutputFormat(const std::string& path,
 // ---------------------------------------------------------------------------
 // RecordInput.
 
-RecordInput::RecordInput(std::unique_ptr<std::ifstream> file,
-                         RecordFormat format, int64_t size)
-    : file_(std::move(file)),
-      lines_(file_ != nullptr ? static_cast<std::istream*>(file_.get())
-                              : &std::cin),
+RecordInput::RecordInput(int fd, bool owned, RecordFormat format, int stop_fd,
+                         const struct stat& st)
+    : fd_(fd),
+      owned_(owned),
+      lines_(fd, stop_fd),
       format_(format),
-      size_(size) {}
+      size_(S_ISREG(st.st_mode) ? st.st_size : 0),
+      device_(st.st_dev),
+      inode_(st.st_ino) {}
+
+RecordInput::~RecordInput() {
+  if (owned_) close(fd_);
+}
 
 absl::StatusOr<std::unique_ptr<RecordInput>> RecordInput::Open(
-    const std::string& path, RecordFormat format) {
+    const std::string& path, RecordFormat format, int stop_fd) {
   absl::StatusOr<RecordFormat> resolved = InputFormat(path, format);
   if (!resolved.ok()) return resolved.status();
-  std::unique_ptr<std::ifstream> file;
-  int64_t size = 0;
-  if (path != "-") {
-    file = std::make_unique<std::ifstream>(path, std::ios::binary);
-    if (!*file) {
-      return absl::NotFoundError(
-          absl::StrCat("cannot open input '", path, "'"));
-    }
-    struct stat st;
-    if (stat(path.c_str(), &st) == 0 && S_ISREG(st.st_mode)) {
-      size = st.st_size;
-    }
+  const bool is_stdin = path == "-";
+  const int fd =
+      is_stdin ? STDIN_FILENO : open(path.c_str(), O_RDONLY | O_CLOEXEC);
+  if (fd < 0) {
+    return absl::ErrnoToStatus(errno,
+                               absl::StrCat("cannot open input '", path, "'"));
+  }
+  struct stat st {};
+  if (fstat(fd, &st) != 0) {
+    const int error = errno;
+    if (!is_stdin) close(fd);
+    return absl::ErrnoToStatus(error,
+                               absl::StrCat("cannot read input '", path, "'"));
   }
   std::unique_ptr<RecordInput> input(
-      new RecordInput(std::move(file), *resolved, size));
+      new RecordInput(fd, !is_stdin, *resolved, stop_fd, st));
+  if (S_ISDIR(st.st_mode)) {
+    return absl::InvalidArgumentError(
+        absl::StrCat("input '", path, "' is a directory"));
+  }
   if (*resolved == RecordFormat::kCsv) {
     // The header comes first, so that a bad one is a usage error before
     // any output exists.
@@ -97,6 +108,7 @@ absl::StatusOr<std::unique_ptr<RecordInput>> RecordInput::Open(
       }
     }
     if (!input->status().ok()) return input->status();
+    if (!have_header && input->stopped()) return input;  // Nothing to do.
     if (!have_header) {
       return absl::InvalidArgumentError("CSV input has no header line");
     }
@@ -108,13 +120,31 @@ absl::StatusOr<std::unique_ptr<RecordInput>> RecordInput::Open(
   return input;
 }
 
+absl::Status RecordInput::CheckNotInput(const std::string& output_path) const {
+  struct stat st {};
+  const bool exists = output_path == "-" ? fstat(STDOUT_FILENO, &st) == 0
+                                         : stat(output_path.c_str(), &st) == 0;
+  // Only a regular file can be both: a terminal or a pipe on both ends is
+  // two streams.
+  if (exists && S_ISREG(st.st_mode) && st.st_dev == device_ &&
+      st.st_ino == inode_) {
+    return absl::InvalidArgumentError(absl::StrCat(
+        output_path == "-" ? "standard output"
+                           : absl::StrCat("--out '", output_path, "'"),
+        " is the input file; writing it would destroy the records while "
+        "they are read. Write the reports to another file"));
+  }
+  return absl::OkStatus();
+}
+
 bool RecordInput::NextLine(std::string* line, int* row, bool* too_long) {
   return lines_.Next(line, row, too_long);
 }
 
 absl::Status RecordInput::status() const {
-  return lines_.bad() ? absl::DataLossError("error reading the input")
-                      : absl::OkStatus();
+  if (!lines_.bad()) return absl::OkStatus();
+  return absl::DataLossError(
+      absl::StrCat("error reading the input: ", strerror(lines_.error())));
 }
 
 // ---------------------------------------------------------------------------
@@ -147,27 +177,81 @@ ParsedLine RecordParser::Parse(absl::string_view line, int row, bool too_long) {
 // ---------------------------------------------------------------------------
 // ReportOutput.
 
-ReportOutput::ReportOutput(int fd, std::string name)
-    : fd_(fd), owned_(fd != STDOUT_FILENO), name_(std::move(name)) {}
+ReportOutput::ReportOutput(int fd, std::string name, std::string temp_path,
+                           std::string final_path)
+    : fd_(fd),
+      owned_(fd != STDOUT_FILENO),
+      name_(std::move(name)),
+      temp_path_(std::move(temp_path)),
+      final_path_(std::move(final_path)) {}
 
 absl::StatusOr<std::unique_ptr<ReportOutput>> ReportOutput::Open(
     const std::string& path) {
   if (path == "-") {
     return std::unique_ptr<ReportOutput>(
-        new ReportOutput(STDOUT_FILENO, "standard output"));
+        new ReportOutput(STDOUT_FILENO, "standard output", "", ""));
   }
-  const int fd =
-      open(path.c_str(), O_WRONLY | O_CREAT | O_TRUNC | O_CLOEXEC, 0666);
+  std::string name = absl::StrCat("output '", path, "'");
+  struct stat st {};
+  const bool exists = stat(path.c_str(), &st) == 0;
+  if (exists && !S_ISREG(st.st_mode)) {
+    if (S_ISDIR(st.st_mode)) {
+      return absl::InvalidArgumentError(
+          absl::StrCat("--out '", path, "' is a directory"));
+    }
+    // A device or a pipe: nothing to replace, so written directly.
+    const int fd = open(path.c_str(), O_WRONLY | O_CLOEXEC);
+    if (fd < 0) {
+      return absl::ErrnoToStatus(errno, absl::StrCat("cannot open ", name));
+    }
+    return std::unique_ptr<ReportOutput>(
+        new ReportOutput(fd, std::move(name), "", ""));
+  }
+  // The file a symbolic link names is the one replaced.
+  std::string target = path;
+  if (exists) {
+    if (char* real = realpath(path.c_str(), nullptr)) {
+      target = real;
+      free(real);
+    }
+  }
+  const size_t slash = target.rfind('/');
+  const std::string dir =
+      slash == std::string::npos ? "." : target.substr(0, slash + 1);
+  const std::string base =
+      slash == std::string::npos ? target : target.substr(slash + 1);
+  std::string temp = absl::StrCat(dir, slash == std::string::npos ? "/" : "",
+                                  ".", base, ".partial-XXXXXX");
+  const int fd = mkostemp(temp.data(), O_CLOEXEC);
   if (fd < 0) {
-    return absl::ErrnoToStatus(errno,
-                               absl::StrCat("cannot open output '", path, "'"));
+    return absl::ErrnoToStatus(
+        errno, absl::StrCat("cannot create a temporary file beside ", name,
+                            " (in '", dir, "')"));
   }
+  // mkostemp makes the file 0600; give it the mode the file has, or the
+  // one a new file would get.
+  mode_t mode = st.st_mode & 07777;
+  if (!exists) {
+    // umask() can only be read by setting it; nothing runs beside this
+    // yet (check opens its output before starting threads).
+    const mode_t mask = umask(0);
+    umask(mask);
+    mode = 0666 & ~mask;
+  }
+  fchmod(fd, mode);
   return std::unique_ptr<ReportOutput>(
-      new ReportOutput(fd, absl::StrCat("output '", path, "'")));
+      new ReportOutput(fd, std::move(name), std::move(temp), target));
 }
 
 ReportOutput::~ReportOutput() {
-  if (fd_ >= 0 && owned_) close(fd_);
+  if (fd_ >= 0) Abandon();
+}
+
+void ReportOutput::Abandon() {
+  if (fd_ < 0) return;
+  if (owned_) close(fd_);
+  fd_ = -1;
+  if (!temp_path_.empty()) unlink(temp_path_.c_str());
 }
 
 absl::Status ReportOutput::Write(absl::string_view text) {
@@ -186,12 +270,28 @@ absl::Status ReportOutput::Write(absl::string_view text) {
 
 absl::Status ReportOutput::Close() {
   if (fd_ < 0) return absl::FailedPreconditionError("output already closed");
+  if (!owned_) {
+    fd_ = -1;
+    return absl::OkStatus();  // Each write went straight to the fd.
+  }
+  if (!temp_path_.empty() && fsync(fd_) != 0) {
+    const int error = errno;
+    Abandon();
+    return absl::ErrnoToStatus(error, absl::StrCat("cannot write to ", name_));
+  }
   const int fd = fd_;
   fd_ = -1;
-  // Writes go straight to the file descriptor, so nothing is buffered
-  // here; close() can still report a failed write-back (NFS, quotas).
-  if (owned_ && close(fd) != 0) {
-    return absl::ErrnoToStatus(errno, absl::StrCat("cannot close ", name_));
+  // close() can still report a failed write-back (NFS, quotas).
+  if (close(fd) != 0) {
+    const int error = errno;
+    if (!temp_path_.empty()) unlink(temp_path_.c_str());
+    return absl::ErrnoToStatus(error, absl::StrCat("cannot write to ", name_));
+  }
+  if (!temp_path_.empty() &&
+      rename(temp_path_.c_str(), final_path_.c_str()) != 0) {
+    const int error = errno;
+    unlink(temp_path_.c_str());
+    return absl::ErrnoToStatus(error, absl::StrCat("cannot write ", name_));
   }
   return absl::OkStatus();
 }

@@ -32,9 +32,10 @@
 #ifndef SHELLWRIGHT_CLIENTS_CLI_CHECK_IO_H_
 #define SHELLWRIGHT_CLIENTS_CLI_CHECK_IO_H_
 
+#include <sys/stat.h>
+#include <sys/types.h>
+
 #include <cstdint>
-#include <fstream>
-#include <istream>
 #include <memory>
 #include <string>
 
@@ -78,10 +79,14 @@ absl::StatusOr<RecordFormat> OutputFormat(const std::string& path,
 class RecordInput {
  public:
   // Opens `path` ("-": standard input) in `format` (kAuto: by extension)
-  // and, for CSV, reads the header. NOT_FOUND when the file cannot be
-  // opened; INVALID_ARGUMENT for an unknown format or a bad header.
+  // and, for CSV, reads the header. NOT_FOUND (or the like) naming the
+  // path when the file cannot be opened; INVALID_ARGUMENT for an unknown
+  // format, a directory or a bad header. Once `stop_fd` (-1: none) is
+  // readable, reading ends as at the end of the input (stopped()).
   static absl::StatusOr<std::unique_ptr<RecordInput>> Open(
-      const std::string& path, RecordFormat format);
+      const std::string& path, RecordFormat format, int stop_fd = -1);
+
+  ~RecordInput();
 
   RecordInput(const RecordInput&) = delete;
   RecordInput& operator=(const RecordInput&) = delete;
@@ -91,8 +96,19 @@ class RecordInput {
   // status()).
   bool NextLine(std::string* line, int* row, bool* too_long);
 
+  // LineSource::Ready(): a line can be had without waiting.
+  bool Ready() { return lines_.Ready(); }
+
   // OK, or DATA_LOSS once a read has failed.
   absl::Status status() const;
+
+  // True when reading ended because of the stop fd.
+  bool stopped() const { return lines_.stopped(); }
+
+  // INVALID_ARGUMENT when `output_path` ("-": standard output) is the
+  // file being read, whatever the names (symbolic or hard links): writing
+  // it would destroy the input while it is read.
+  absl::Status CheckNotInput(const std::string& output_path) const;
 
   RecordFormat format() const { return format_; }
   // The header's columns (CSV only).
@@ -102,13 +118,16 @@ class RecordInput {
   int64_t size() const { return size_; }
 
  private:
-  RecordInput(std::unique_ptr<std::ifstream> file, RecordFormat format,
-              int64_t size);
+  RecordInput(int fd, bool owned, RecordFormat format, int stop_fd,
+              const struct stat& st);
 
-  std::unique_ptr<std::ifstream> file_;  // Null for standard input.
+  const int fd_;
+  const bool owned_;  // A file we opened, not standard input.
   LineSource lines_;
   const RecordFormat format_;
   const int64_t size_;
+  const dev_t device_;  // The input's identity, for CheckNotInput.
+  const ino_t inode_;
   CsvRecordReader csv_;
 };
 
@@ -127,16 +146,21 @@ class RecordParser {
   const int default_alternatives_;
 };
 
-// Where report text goes: a file (created or truncated) or standard
-// output.
+// Where report text goes: standard output, or a file. A file is written
+// under a temporary name in its directory and renamed over `path` only by
+// Close(), once every byte is on disk: a run that fails or is stopped
+// leaves `path` as it was (absent, or the previous reports), never a
+// truncated file that looks complete. A path that exists and is not a
+// regular file (/dev/null, a pipe) is written directly. A symbolic link is
+// followed: the file it names is replaced, the link kept.
 class ReportOutput {
  public:
   // Opens `path` ("-": standard output) for writing. PERMISSION_DENIED
-  // (or the like) naming the path when it cannot be opened.
+  // (or the like) naming the path when it cannot be written.
   static absl::StatusOr<std::unique_ptr<ReportOutput>> Open(
       const std::string& path);
 
-  ~ReportOutput();  // Closes the file if Close() was not called.
+  ~ReportOutput();  // Abandon(), unless Close() was called.
   ReportOutput(const ReportOutput&) = delete;
   ReportOutput& operator=(const ReportOutput&) = delete;
 
@@ -144,16 +168,28 @@ class ReportOutput {
   // system's reason (a full disk, a closed pipe).
   absl::Status Write(absl::string_view text);
 
-  // Ends the output: closes a file, checking that every byte was taken.
-  // Call once, after the last Write.
+  // Ends the output: makes a file's bytes durable and renames it into
+  // place, checking each step. Call once, after the last Write.
   absl::Status Close();
 
+  // Ends the output without committing it: a file's temporary is removed
+  // and `path` left as it was. Standard output keeps what was written.
+  void Abandon();
+
+  // "standard output" or "output 'reports.jsonl'", for messages.
+  const std::string& name() const { return name_; }
+
  private:
-  ReportOutput(int fd, std::string name);
+  ReportOutput(int fd, std::string name, std::string temp_path,
+               std::string final_path);
 
   int fd_;                  // -1 once closed.
   const bool owned_;        // A file we opened, not standard output.
   const std::string name_;  // For messages.
+  // Set when writing under a temporary name: that name, and the one it is
+  // renamed to.
+  const std::string temp_path_;
+  const std::string final_path_;
 };
 
 }  // namespace shellwright::cli

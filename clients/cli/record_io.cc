@@ -1,6 +1,10 @@
 #include "clients/cli/record_io.h"
 
+#include <poll.h>
+#include <unistd.h>
+
 #include <algorithm>
+#include <cerrno>
 #include <cmath>
 #include <cstring>
 #include <set>
@@ -247,13 +251,43 @@ std::string NearestRecordField(absl::string_view name) {
   return best;
 }
 
-LineSource::LineSource(std::istream* in) : in_(in), buffer_(1 << 16) {}
+LineSource::LineSource(int fd, int stop_fd)
+    : fd_(fd), stop_fd_(stop_fd), buffer_(1 << 16) {}
 
 bool LineSource::Fill() {
-  if (!*in_) return false;
-  in_->read(buffer_.data(), static_cast<std::streamsize>(buffer_.size()));
-  end_ = static_cast<size_t>(in_->gcount());
+  if (at_end_ || stopped_ || error_ != 0) return false;
   pos_ = 0;
+  end_ = 0;
+  while (true) {
+    if (stop_fd_ >= 0) {
+      // Wait for input or for a stop, whichever comes first; a regular
+      // file is always readable, so this costs one call per buffer.
+      pollfd fds[2] = {{stop_fd_, POLLIN, 0}, {fd_, POLLIN, 0}};
+      if (poll(fds, 2, -1) < 0) {
+        if (errno == EINTR) continue;  // The stop fd will say if it was.
+        error_ = errno;
+        return false;
+      }
+      if (fds[0].revents != 0) {
+        stopped_ = true;
+        return false;
+      }
+    }
+    const ssize_t n = read(fd_, buffer_.data(), buffer_.size());
+    if (n < 0) {
+      if (errno == EINTR) continue;
+      error_ = errno;
+      return false;
+    }
+    if (n == 0) {
+      at_end_ = true;
+      return false;
+    }
+    end_ = static_cast<size_t>(n);
+    break;
+  }
+  // The mark can only be whole in the first read when that read has at
+  // least three bytes; a pipe handing over fewer is taken as having none.
   if (at_start_ && end_ >= 3 &&
       static_cast<unsigned char>(buffer_[0]) == 0xEF &&
       static_cast<unsigned char>(buffer_[1]) == 0xBB &&
@@ -262,13 +296,23 @@ bool LineSource::Fill() {
     bytes_read_ += 3;
   }
   at_start_ = false;
-  return end_ > 0;
+  return true;
+}
+
+bool LineSource::Ready() {
+  if (at_end_ || stopped_ || error_ != 0) return true;
+  if (pos_ < end_ && std::memchr(buffer_.data() + pos_, '\n', end_ - pos_)) {
+    return true;
+  }
+  pollfd fd = {fd_, POLLIN, 0};
+  return poll(&fd, 1, 0) != 0;
 }
 
 bool LineSource::Next(std::string* line, int* line_no, bool* too_long) {
   line->clear();
   *too_long = false;
   bool any = false;
+  bool ended = false;  // By "\n".
   while (true) {
     if (pos_ == end_ && !Fill()) break;
     any = true;
@@ -288,10 +332,11 @@ bool LineSource::Next(std::string* line, int* line_no, bool* too_long) {
     if (nl != nullptr) {
       ++pos_;
       ++bytes_read_;
+      ended = true;
       break;
     }
   }
-  if (!any) return false;
+  if (!any || (stopped_ && !ended)) return false;
   if (!line->empty() && line->back() == '\r') line->pop_back();
   *line_no = ++line_no_;
   return true;

@@ -40,7 +40,7 @@
 #define SHELLWRIGHT_CLIENTS_CLI_RECORD_IO_H_
 
 #include <algorithm>
-#include <istream>
+#include <cstdint>
 #include <iterator>
 #include <string>
 #include <vector>
@@ -54,32 +54,49 @@ namespace shellwright::cli {
 // Longest input line accepted; longer lines become malformed_record.
 inline constexpr size_t kMaxLineBytes = 1 << 20;
 
-// Physical lines of a stream in constant memory: a line longer than
-// kMaxLineBytes is cut there (the rest is skipped, not stored) and flagged.
-// A UTF-8 byte-order mark at the very start is dropped. Lines lose their
-// "\n" and a trailing "\r".
+// Physical lines of a file descriptor in constant memory: a line longer
+// than kMaxLineBytes is cut there (the rest is skipped, not stored) and
+// flagged. A UTF-8 byte-order mark at the very start is dropped. Lines
+// lose their "\n" and a trailing "\r". Reads take what is there (a pipe's
+// lines are answered as they come), and a read that waits can be woken by
+// `stop_fd` becoming readable (util/stop_signals.h): the input then ends
+// there, as if at its end, with stopped() true, and a line not yet ended
+// by "\n" is dropped, never returned in part.
 class LineSource {
  public:
-  explicit LineSource(std::istream* in);
+  // Reads `fd`, which the caller keeps open; `stop_fd` -1: never stopped.
+  explicit LineSource(int fd, int stop_fd = -1);
   LineSource(const LineSource&) = delete;
   LineSource& operator=(const LineSource&) = delete;
 
-  // False at the end of the input (or on a read error; see bad()).
+  // False at the end of the input, on a read error (see bad()), or once
+  // stopped.
   bool Next(std::string* line, int* line_no, bool* too_long);
 
+  // True when Next() would answer without waiting for the input: a whole
+  // line is buffered, more can be read now, or the input is over. Lets a
+  // reader of a pipe hand on what it has instead of waiting for more.
+  bool Ready();
+
   int64_t bytes_read() const { return bytes_read_; }
-  bool bad() const { return in_->bad(); }
+  bool bad() const { return error_ != 0; }
+  int error() const { return error_; }  // The failed read's errno.
+  bool stopped() const { return stopped_; }
 
  private:
   bool Fill();
 
-  std::istream* in_;
+  const int fd_;
+  const int stop_fd_;
   std::vector<char> buffer_;
   size_t pos_ = 0;
   size_t end_ = 0;
   int line_no_ = 0;
   int64_t bytes_read_ = 0;
   bool at_start_ = true;
+  bool at_end_ = false;
+  bool stopped_ = false;
+  int error_ = 0;
 };
 
 // A reader's warning about a line it could read: its report carries it

@@ -114,24 +114,10 @@ struct Fragment {
 
 // Per-thread fragment caches: a few hundred distinct states and ions make
 // up most reports, so each is written once per thread.
-template <typename Key, size_t kSize>
-Fragment<Key>& FragmentFor(const Key& key) {
-  thread_local std::array<Fragment<Key>, kSize> cache;
-  return cache[key.Hash() % kSize];
-}
-
 template <typename Key>
-Fragment<Key>& CachedFragment(const Key& key);
-template <>
-Fragment<report_view_internal::StateKey>& CachedFragment(
-    const report_view_internal::StateKey& key) {
-  return FragmentFor<report_view_internal::StateKey, 256>(key);
-}
-template <>
-Fragment<report_view_internal::IonKey>& CachedFragment(
-    const report_view_internal::IonKey& key) {
-  // The ion hash is mixed well; its top bits pick the slot.
-  return FragmentFor<report_view_internal::IonKey, 1024>(key);
+Fragment<Key>& CachedFragment(const Key& key) {
+  thread_local std::array<Fragment<Key>, Key::kCacheSlots> cache;
+  return cache[key.Hash() % Key::kCacheSlots];
 }
 
 // The JSON object of a report (api/report_view.h visitor): members in
@@ -284,7 +270,7 @@ void AppendState(absl::string_view element, int32_t state, std::string* out) {
 // visitor): the report's own scalars, and its states, ions and diagnostics
 // joined into one cell each (formats in ReportCsvHeader's comment).
 // Alternatives have no column.
-class CsvGatherer {
+class CsvGatherer : public TopLevelVisitor {
  public:
   template <typename F>
   void String(const F& f, absl::string_view v) {
@@ -353,12 +339,6 @@ class CsvGatherer {
       }
     }
   }
-  template <typename Key, typename Visit>
-  void Cached(const Key&, std::initializer_list<VaryingValue>, Visit) {}
-  template <typename F>
-  void VaryingNumber(const F&, int) {}
-  template <typename F>
-  void VaryingExact(const F&, int) {}
 
   // The line, line break included.
   void Write(std::string* out) const {

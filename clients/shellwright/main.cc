@@ -10,7 +10,8 @@
 // lists them); the options before the command choose where the answers
 // come from. Exit codes: 0 ok; 1 invalid input (one line on stderr naming
 // what was wrong; for check: some records invalid); 2 usage error, I/O
-// error or an unreachable server.
+// error or an unreachable server; check stopped by SIGINT or SIGTERM:
+// 130 or 143, after its summary.
 
 #include <malloc.h>
 #include <unistd.h>
@@ -35,6 +36,7 @@
 #include "shellwright/v1/electron_structure.pb.h"
 #include "util/command_line.h"
 #include "util/field_names.h"
+#include "util/stop_signals.h"
 
 namespace shellwright::cli {
 namespace {
@@ -353,17 +355,33 @@ int RunCheck(CheckFlags& f, bool quiet, Backend& backend) {
       ParseName<RecordFormat>(f.out_format).value_or(RecordFormat::kAuto);
   f.options.progress =
       !f.no_progress && isatty(2) && std::getenv("CI") == nullptr;
-  absl::StatusOr<ReportCounts> summary =
+  // SIGINT and SIGTERM stop reading; what was read is answered and
+  // written, then the summary says how far the run got.
+  std::unique_ptr<StopSignals> stop = StopSignals::Install();
+  f.options.stop = stop.get();
+  absl::StatusOr<CheckResult> result =
       cli::RunCheck(f.options, backend, std::cerr);
-  if (!summary.ok()) {
-    std::cerr << "shellwright: check: " << Explained(summary.status()).message()
+  if (!result.ok()) {
+    std::cerr << "shellwright: check: " << Explained(result.status()).message()
               << "\n";
     return kExitUsage;
   }
-  std::cerr << FormatSummary(*summary, /*caution=*/!quiet);
+  const ReportCounts& summary = result->counts;
+  if (result->stopped_by != 0) {
+    std::cerr << "shellwright: check: stopped by "
+              << StopSignalName(result->stopped_by) << "; "
+              << (f.options.output == "-"
+                      ? absl::StrCat(summary.rows,
+                                     " reports were written to standard "
+                                     "output, each line whole")
+                      : absl::StrCat("--out '", f.options.output,
+                                     "' was left as it was"))
+              << ". The records after them were not read.\n";
+  }
+  std::cerr << FormatSummary(summary, /*caution=*/!quiet);
   if (!f.summary_json.empty()) {
     std::ofstream out(f.summary_json, std::ios::binary | std::ios::trunc);
-    out << FormatSummaryJson(*summary);
+    out << FormatSummaryJson(summary);
     out.close();
     if (!out) {
       std::cerr << "shellwright: check: cannot write --summary-json file '"
@@ -371,7 +389,8 @@ int RunCheck(CheckFlags& f, bool quiet, Backend& backend) {
       return kExitUsage;
     }
   }
-  return summary->invalid > 0 ? kExitInvalidInput : kExitOk;
+  if (result->stopped_by != 0) return 128 + result->stopped_by;
+  return summary.invalid > 0 ? kExitInvalidInput : kExitOk;
 }
 
 struct ElementsFlags {
@@ -427,7 +446,8 @@ int Main(int argc, char** argv) {
   app.footer(
       "Run 'shellwright COMMAND --help' for a command's options.\n"
       "Exit codes: 0 ok (check: every record valid), 1 invalid input "
-      "(check: some records invalid), 2 usage, I/O or connection error.");
+      "(check: some records invalid), 2 usage, I/O or connection error, "
+      "130/143 check stopped by SIGINT/SIGTERM.");
   app.set_version_flag(
       "--version",
       std::string(absl::StripSuffix(VersionText("shellwright"), "\n")),

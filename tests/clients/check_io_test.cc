@@ -4,11 +4,18 @@
 
 #include "clients/cli/check_io.h"
 
+#include <signal.h>
+#include <unistd.h>
+
+#include <chrono>
+#include <filesystem>
 #include <string>
+#include <thread>
 
 #include "gmock/gmock.h"
 #include "gtest/gtest.h"
 #include "tests/testing/temp_dir.h"
+#include "util/stop_signals.h"
 
 namespace shellwright::cli {
 namespace {
@@ -171,6 +178,61 @@ TEST(CheckIo, OutputWritesEveryByteAndReportsFailures) {
     EXPECT_FALSE(s.ok());
     EXPECT_THAT(std::string(s.message()), HasSubstr("/dev/full"));
   }
+}
+
+TEST(CheckIo, OutputIsInPlaceOnlyAfterClose) {
+  testing::TempDir dir;
+  const std::string path = dir.Write("out.jsonl", "previous\n");
+  absl::StatusOr<std::unique_ptr<ReportOutput>> out = ReportOutput::Open(path);
+  ASSERT_TRUE(out.ok()) << out.status();
+  ASSERT_TRUE((*out)->Write("new\n").ok());
+  EXPECT_EQ(testing::ReadFile(path), "previous\n") << "not before Close()";
+  ASSERT_TRUE((*out)->Close().ok());
+  EXPECT_EQ(testing::ReadFile(path), "new\n");
+
+  // Abandoned (a failure or a stop): the file stays as it was, and the
+  // temporary goes.
+  out = ReportOutput::Open(path);
+  ASSERT_TRUE(out.ok()) << out.status();
+  ASSERT_TRUE((*out)->Write("partial").ok());
+  (*out)->Abandon();
+  EXPECT_EQ(testing::ReadFile(path), "new\n");
+  int files = 0;
+  for (const auto& e : std::filesystem::directory_iterator(dir.path())) {
+    EXPECT_EQ(e.path().filename(), "out.jsonl");
+    ++files;
+  }
+  EXPECT_EQ(files, 1);
+}
+
+// A stop while a read waits: the input ends there, and the line not yet
+// ended by "\n" is dropped rather than returned in part.
+TEST(CheckIo, StopEndsAWaitingReadAndDropsThePartialLine) {
+  int fds[2];
+  ASSERT_EQ(pipe(fds), 0);
+  std::unique_ptr<StopSignals> stop = StopSignals::WithoutHandlers();
+  ASSERT_NE(stop, nullptr);
+  const std::string text = "first\nsecond, unfinished";
+  ASSERT_EQ(write(fds[1], text.data(), text.size()),
+            static_cast<ssize_t>(text.size()));
+  LineSource lines(fds[0], stop->fd());
+  std::string line;
+  int row = 0;
+  bool too_long = false;
+  EXPECT_TRUE(lines.Ready());
+  ASSERT_TRUE(lines.Next(&line, &row, &too_long));
+  EXPECT_EQ(line, "first");
+  EXPECT_FALSE(lines.Ready()) << "only part of a line is there";
+  std::thread stopper([&] {
+    std::this_thread::sleep_for(std::chrono::milliseconds(50));
+    stop->Request(SIGINT);
+  });
+  EXPECT_FALSE(lines.Next(&line, &row, &too_long));  // Waits, then stops.
+  stopper.join();
+  EXPECT_TRUE(lines.stopped());
+  EXPECT_FALSE(lines.bad());
+  close(fds[0]);
+  close(fds[1]);
 }
 
 }  // namespace

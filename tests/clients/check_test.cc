@@ -1,12 +1,19 @@
 // Tests for `shellwright check` (clients/cli/check.h, record_io.h): batch
 // validation of CSV and JSONL record files, by running the real binary.
 
+#include <fcntl.h>
+#include <signal.h>
 #include <stdlib.h>
+#include <sys/stat.h>
+#include <unistd.h>
 
+#include <algorithm>
+#include <chrono>
 #include <filesystem>
 #include <fstream>
 #include <sstream>
 #include <string>
+#include <thread>
 #include <vector>
 
 #include "gmock/gmock.h"
@@ -19,11 +26,13 @@ namespace shellwright {
 namespace {
 
 using ::shellwright::testing::BinPath;
+using ::shellwright::testing::ChildProcess;
 using ::shellwright::testing::CommandResult;
 using ::shellwright::testing::RunCommand;
 using ::testing::ContainsRegex;
 using ::testing::HasSubstr;
 using ::testing::IsEmpty;
+using ::testing::Not;
 using ::testing::StartsWith;
 
 constexpr char kHeader[] = "id,formula,charge,declared_states,measured_moment";
@@ -593,6 +602,215 @@ TEST_F(CheckTest, RowFieldsAreChecked) {
       << reports[2].ShortDebugString();
   EXPECT_EQ(reports[3].id(), "plausible");
   EXPECT_TRUE(reports[3].valid()) << reports[3].ShortDebugString();
+}
+
+// ---------------------------------------------------------------------------
+// Output integrity: failed writes, --out naming the input, signals.
+
+namespace fs = std::filesystem;
+
+// Names in `dir` that a run left behind besides `keep`.
+std::vector<std::string> OtherFiles(const std::string& dir,
+                                    const std::vector<std::string>& keep) {
+  std::vector<std::string> other;
+  for (const fs::directory_entry& e : fs::directory_iterator(dir)) {
+    const std::string name = e.path().filename().string();
+    if (std::find(keep.begin(), keep.end(), name) == keep.end()) {
+      other.push_back(name);
+    }
+  }
+  return other;
+}
+
+// Opens the FIFO `path` for writing once a reader has it open, waiting at
+// most 10 s; -1 if none came.
+int OpenFifoForWriting(const std::string& path) {
+  const auto deadline =
+      std::chrono::steady_clock::now() + std::chrono::seconds(10);
+  while (std::chrono::steady_clock::now() < deadline) {
+    const int fd = open(path.c_str(), O_WRONLY | O_NONBLOCK | O_CLOEXEC);
+    if (fd >= 0) {
+      fcntl(fd, F_SETFL, 0);  // Blocking writes from here on.
+      return fd;
+    }
+    std::this_thread::sleep_for(std::chrono::milliseconds(20));
+  }
+  return -1;
+}
+
+void WriteAll(int fd, const std::string& text) {
+  ASSERT_EQ(write(fd, text.data(), text.size()),
+            static_cast<ssize_t>(text.size()));
+}
+
+TEST_F(CheckTest, RegressionFullStandardOutputExitsTwo) {
+  WriteFile(Path("one.csv"), "id,formula\na,NaCl\n");
+  // The shell points check's standard output at /dev/full; every write
+  // there fails with ENOSPC. It used to exit 0 (the final flush was not
+  // checked).
+  CommandResult r =
+      RunCommand({"/bin/sh", "-c", "exec \"$0\" check \"$1\" > /dev/full",
+                  BinPath("clients/shellwright"), Path("one.csv")});
+  EXPECT_EQ(r.exit_code, 2) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("cannot write to standard output"));
+  EXPECT_THAT(r.err, HasSubstr("No space left on device"));
+}
+
+TEST_F(CheckTest, FullOutputDeviceExitsTwo) {
+  WriteFile(Path("one.csv"), "id,formula\na,NaCl\n");
+  CommandResult r =
+      Check({Path("one.csv"), "--out", "/dev/full", "--out-format", "jsonl"});
+  EXPECT_EQ(r.exit_code, 2) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("cannot write to output '/dev/full'"));
+}
+
+TEST_F(CheckTest, RegressionOutNamingTheInputIsRefusedAndLeavesItIntact) {
+  // 3000 records: the input used to be truncated and read only up to its
+  // first 64 KiB.
+  const std::string text = GenerateCsv(3000).text;
+  WriteFile(Path("x.csv"), text);
+  ASSERT_EQ(symlink(Path("x.csv").c_str(), Path("soft.csv").c_str()), 0);
+  ASSERT_EQ(link(Path("x.csv").c_str(), Path("hard.csv").c_str()), 0);
+  const std::vector<std::pair<std::string, std::string>> cases = {
+      {Path("x.csv"), Path("x.csv")},
+      {Path("x.csv"), Path("soft.csv")},
+      {Path("soft.csv"), Path("hard.csv")},
+      {Path("hard.csv"), Path("x.csv")},
+      // The same file by another spelling of its path.
+      {Path("x.csv"), dir_ + "/./x.csv"}};
+  for (const auto& [in, out] : cases) {
+    CommandResult r = Check({in, "--out", out});
+    EXPECT_EQ(r.exit_code, 2) << in << " -> " << out << ": " << r.err;
+    EXPECT_THAT(r.err, HasSubstr("is the input file")) << in << " -> " << out;
+    EXPECT_EQ(ReadFile(Path("x.csv")), text) << in << " -> " << out;
+  }
+  EXPECT_TRUE(fs::is_symlink(Path("soft.csv")));
+  EXPECT_THAT(OtherFiles(dir_, {"x.csv", "soft.csv", "hard.csv"}), IsEmpty());
+
+  // Appending standard output to the input is refused too.
+  CommandResult r =
+      RunCommand({"/bin/sh", "-c", "exec \"$0\" check \"$1\" >> \"$1\"",
+                  BinPath("clients/shellwright"), Path("x.csv")});
+  EXPECT_EQ(r.exit_code, 2) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("standard output is the input file"));
+  EXPECT_EQ(ReadFile(Path("x.csv")), text);
+}
+
+TEST_F(CheckTest, OutIsReplacedOnlyWhenComplete) {
+  WriteFile(Path("in.csv"), "id,formula\na,NaCl\nb,Fe2O3\n");
+  WriteFile(Path("out.jsonl"), "previous reports\n");
+  ASSERT_EQ(chmod(Path("out.jsonl").c_str(), 0640), 0);
+  // A usage error found after the output is named leaves it as it was.
+  CommandResult bad = Check({Path("in.csv"), "--out", Path("out.jsonl"),
+                             "--server", "127.0.0.1:1", "--timeout", "2"});
+  EXPECT_EQ(bad.exit_code, 2) << bad.err;
+  EXPECT_EQ(ReadFile(Path("out.jsonl")), "previous reports\n");
+
+  CommandResult r = Check({Path("in.csv"), "--out", Path("out.jsonl")});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_EQ(SplitLines(ReadFile(Path("out.jsonl"))).size(), 2u);
+  struct stat st {};
+  ASSERT_EQ(stat(Path("out.jsonl").c_str(), &st), 0);
+  EXPECT_EQ(st.st_mode & 0777, 0640u) << "the file keeps its mode";
+  EXPECT_THAT(OtherFiles(dir_, {"in.csv", "out.jsonl"}), IsEmpty());
+
+  // Through a symbolic link: the file it names is replaced, the link kept.
+  ASSERT_EQ(symlink("out.jsonl", Path("link.jsonl").c_str()), 0);
+  WriteFile(Path("in.csv"), "id,formula\na,NaCl\n");
+  r = Check({Path("in.csv"), "--out", Path("link.jsonl")});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_TRUE(fs::is_symlink(Path("link.jsonl")));
+  EXPECT_EQ(SplitLines(ReadFile(Path("out.jsonl"))).size(), 1u);
+  EXPECT_THAT(OtherFiles(dir_, {"in.csv", "out.jsonl", "link.jsonl"}),
+              IsEmpty());
+}
+
+// A file system too small for the reports: the write fails part-way, and
+// --out must neither look complete nor lose the file it would replace.
+TEST_F(CheckTest, FullFileSystemExitsTwoAndKeepsThePreviousOut) {
+  const std::string mnt = Path("small");
+  fs::create_directory(mnt);
+  CommandResult mount =
+      RunCommand({"/bin/mount", "-t", "tmpfs", "-o", "size=64k", "tmpfs", mnt});
+  if (mount.exit_code != 0) {
+    GTEST_SKIP() << "cannot mount a 64 KiB tmpfs here (needs root and "
+                    "CAP_SYS_ADMIN), so the full-file-system case is not "
+                    "run; /dev/full covers the failed write itself: "
+                 << mount.err;
+  }
+  struct Unmount {
+    std::string path;
+    ~Unmount() { RunCommand({"/bin/umount", path}); }
+  } unmount{mnt};
+  WriteFile(mnt + "/out.jsonl", "previous reports\n");
+  // 1000 reports are well over 64 KiB of JSONL.
+  WriteFile(Path("in.csv"), GenerateCsv(1000).text);
+  CommandResult r = Check({Path("in.csv"), "--out", mnt + "/out.jsonl"});
+  EXPECT_EQ(r.exit_code, 2) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("No space left on device"));
+  EXPECT_EQ(ReadFile(mnt + "/out.jsonl"), "previous reports\n");
+  EXPECT_THAT(OtherFiles(mnt, {"out.jsonl"}), IsEmpty());
+
+  // And with no previous file: none is left.
+  fs::remove(mnt + "/out.jsonl");
+  r = Check({Path("in.csv"), "--out", mnt + "/new.jsonl"});
+  EXPECT_EQ(r.exit_code, 2) << r.err;
+  EXPECT_THAT(OtherFiles(mnt, {}), IsEmpty());
+}
+
+// SIGINT while check waits for more input on a pipe: it stops reading,
+// writes whole lines only, prints the summary of what it wrote, exits 130.
+TEST_F(CheckTest, SigintStopsReadingAndSummarisesWhatWasWritten) {
+  const std::string fifo = Path("in.csv");
+  ASSERT_EQ(mkfifo(fifo.c_str(), 0600), 0);
+  std::unique_ptr<ChildProcess> child = ChildProcess::Start(
+      {BinPath("clients/shellwright"), "check", fifo, "--jobs", "2"},
+      Path("stderr.txt"));
+  ASSERT_NE(child, nullptr);
+  const int fd = OpenFifoForWriting(fifo);
+  ASSERT_GE(fd, 0) << "check never opened its input";
+  const GeneratedCsv g = GenerateCsv(300);
+  WriteAll(fd, g.text);
+  // The reports of what was sent arrive while the pipe stays open.
+  ASSERT_TRUE(child->WaitForLine("{\"id\":\"r301\"", std::chrono::seconds(30)))
+      << child->Stderr();
+  EXPECT_EQ(child->SignalAndWait(SIGINT, std::chrono::seconds(30)), 130)
+      << child->Stderr();
+  close(fd);
+  const std::string rest = child->DrainStdout();
+  EXPECT_TRUE(rest.empty() || rest.back() == '\n') << "a partial line";
+  const std::string err = child->Stderr();
+  EXPECT_THAT(err, HasSubstr("stopped by SIGINT"));
+  EXPECT_THAT(err, HasSubstr("300 reports were written to standard output"));
+  EXPECT_THAT(err, HasSubstr("300 rows: 270 valid, 30 invalid"));
+}
+
+// SIGTERM with --out: exit 143, and the file is not replaced by a part of
+// the reports (nor is a temporary left).
+TEST_F(CheckTest, SigtermLeavesOutAsItWas) {
+  const std::string fifo = Path("in.jsonl");
+  ASSERT_EQ(mkfifo(fifo.c_str(), 0600), 0);
+  WriteFile(Path("out.csv"), "previous reports\n");
+  std::unique_ptr<ChildProcess> child = ChildProcess::Start(
+      {BinPath("clients/shellwright"), "check", fifo, "--out", Path("out.csv")},
+      Path("stderr.txt"));
+  ASSERT_NE(child, nullptr);
+  const int fd = OpenFifoForWriting(fifo);
+  ASSERT_GE(fd, 0) << "check never opened its input";
+  WriteAll(fd, "{\"id\":\"a\",\"formula\":\"NaCl\"}\n");
+  // Partial line: never answered, since reading stops before its end.
+  WriteAll(fd, "{\"id\":\"b\",\"formu");
+  std::this_thread::sleep_for(std::chrono::milliseconds(300));
+  EXPECT_EQ(child->SignalAndWait(SIGTERM, std::chrono::seconds(30)), 143)
+      << child->Stderr();
+  close(fd);
+  const std::string err = child->Stderr();
+  EXPECT_THAT(err, HasSubstr("stopped by SIGTERM"));
+  EXPECT_THAT(err, HasSubstr("was left as it was"));
+  EXPECT_THAT(err, Not(HasSubstr("2 rows")));
+  EXPECT_EQ(ReadFile(Path("out.csv")), "previous reports\n");
+  EXPECT_THAT(OtherFiles(dir_, {"in.jsonl", "out.csv", "stderr.txt"}),
+              IsEmpty());
 }
 
 }  // namespace
