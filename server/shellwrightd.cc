@@ -7,10 +7,11 @@
 //
 // Prints "shellwrightd listening on HOST:PORT" on stdout once serving (with
 // the bound port when --listen asks for port 0). Logs go to stderr. On
-// SIGTERM or SIGINT it drains: health turns NOT_SERVING, new calls get
-// UNAVAILABLE, streams waiting for a batch are cancelled, and batches in
-// hand are answered within --shutdown-grace seconds; then it exits 0 at
-// once, whatever idle connections remain. A second signal during the drain
+// SIGTERM or SIGINT it drains: health turns NOT_SERVING at once, new calls
+// get UNAVAILABLE, streams waiting for a batch are cancelled, and batches
+// in hand are answered within --drain-seconds (default 10; the older name
+// --shutdown-grace still works); then it exits 0 at once, whatever idle
+// connections remain. A second signal during the drain
 // exits at once with status 1.
 //
 // Exit codes: 0 clean shutdown; 1 cannot serve (address in use, ...);
@@ -57,7 +58,7 @@ constexpr FieldName kFlagNames[] = {
 
 struct Flags {
   ServerOptions server;
-  double shutdown_grace_seconds = 10;
+  double drain_seconds = 10;
   double idle_timeout_seconds =
       absl::ToDoubleSeconds(ServerOptions().idle_timeout);
   double keepalive_seconds =
@@ -121,8 +122,10 @@ std::optional<int> ParseFlags(int argc, char** argv, Flags* flags) {
                  "for 20 s drops it")
       ->check(NumberIn(0.001, 86400))
       ->capture_default_str();
-  app.add_option("--shutdown-grace", flags->shutdown_grace_seconds,
-                 "seconds in-flight work gets on SIGTERM")
+  app.add_option("--drain-seconds,--shutdown-grace", flags->drain_seconds,
+                 "on SIGTERM, seconds the batches already received get to be "
+                 "answered (health turns NOT_SERVING and new calls get "
+                 "UNAVAILABLE at once)")
       ->check(NumberIn(0, 3600))
       ->capture_default_str();
   app.add_option("--log-level", flags->log_level, "lines written to stderr")
@@ -190,7 +193,7 @@ int RunServer(const Flags& flags, const sigset_t& signals) {
   }).detach();
 
   stop.WaitForNotification();
-  const absl::Duration grace = absl::Seconds(flags.shutdown_grace_seconds);
+  const absl::Duration grace = absl::Seconds(flags.drain_seconds);
   Log(LogLevel::kInfo,
       absl::StrCat("shutting down, grace ", absl::FormatDuration(grace)));
   (*server)->Shutdown(grace);

@@ -18,10 +18,13 @@
 #define SHELLWRIGHT_CLIENTS_CLI_BACKEND_H_
 
 #include <memory>
+#include <ostream>
 #include <string>
+#include <vector>
 
 #include "absl/status/status.h"
 #include "absl/status/statusor.h"
+#include "absl/strings/string_view.h"
 #include "absl/time/time.h"
 #include "clients/cli/batch_processor.h"
 #include "clients/cli/report_lines.h"
@@ -44,9 +47,11 @@ class Backend {
   // report lines in `format`; `check` makes one per worker thread. The
   // in-process one runs the engine on the calling thread. A remote one
   // owns one AnalyzeRecords stream, opened on its first batch, so N
-  // workers keep N batches in flight on N streams. (A backend over several
-  // replicas would spread its processors' streams over them, and re-send a
-  // failed stream's batch to another replica before reporting an error.)
+  // workers keep N batches in flight. Over several replicas, each batch
+  // goes to the next replica in turn (a processor keeps one stream per
+  // replica), and a batch whose replica fails or drains before answering
+  // it is sent again, whole, to another; only complete answers are
+  // written.
   virtual std::unique_ptr<BatchProcessor> NewBatchProcessor(
       ReportLineFormat format) = 0;
 
@@ -73,7 +78,10 @@ absl::Status ExplainRemoteFailure(const absl::Status& status,
                                   const std::string& target);
 
 struct RemoteOptions {
-  std::string address;          // HOST:PORT, or HOST (kDefaultServerPort).
+  // One or more gRPC targets, comma-separated, each HOST:PORT, HOST
+  // (kDefaultServerPort), or a name that resolves to several servers
+  // (dns:///NAME:PORT); batches are spread over all of them.
+  std::string address;
   std::string tls_ca_file;      // PEM roots; enables TLS when set.
   std::string tls_cert_file;    // Client certificate for mutual TLS.
   std::string tls_key_file;     // Client key for mutual TLS.
@@ -82,10 +90,25 @@ struct RemoteOptions {
   absl::Duration timeout = absl::Seconds(30);  // Per-call deadline.
   // Deadline for a whole AnalyzeRecords stream (one per check worker).
   absl::Duration stream_timeout = absl::Hours(24);
+  // Where a line goes each time a server fails and its work is sent to
+  // another (not thread-safe itself: the backend serialises its writes);
+  // null: nowhere.
+  std::ostream* warnings = nullptr;
 };
 
-// Connects lazily. Credential files are read here (util/small_file.h): an
-// unreadable or malformed one gives INVALID_ARGUMENT naming the file.
+// The targets of a --server value: split at commas, blanks trimmed.
+// INVALID_ARGUMENT starting with "address: " for an empty target.
+absl::StatusOr<std::vector<std::string>> ParseServerTargets(
+    absl::string_view address);
+
+// Connects lazily. A call or batch that a server fails with UNAVAILABLE,
+// CANCELLED, ABORTED, RESOURCE_EXHAUSTED, DATA_LOSS, INTERNAL or UNKNOWN
+// is tried on the other servers, in four rounds over all of them with
+// pauses of 0.1, 0.2 and 0.4 s between rounds; the error then names every
+// server's last failure (with one server: that failure itself). Other
+// codes are returned at once. Credential files are
+// read here (util/small_file.h): an unreadable or malformed one gives
+// INVALID_ARGUMENT naming the file.
 absl::StatusOr<std::unique_ptr<Backend>> MakeRemoteBackend(
     const RemoteOptions& options);
 

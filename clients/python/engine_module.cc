@@ -18,6 +18,7 @@
 // Thread safety: the Python objects follow Python's rules (the GIL).
 
 #include <pybind11/pybind11.h>
+#include <pybind11/stl.h>
 
 #include <condition_variable>
 #include <deque>
@@ -406,9 +407,10 @@ class GcPause {
 };
 
 // annotate's columnar path: record fields from columns (lists of equal
-// length, one per record field), reports into columns.
+// length, one per record field), reports into columns but those in
+// `skip`.
 py::object AnnotateColumns(const py::dict& columns, int jobs, int alternatives,
-                           int first_row) {
+                           int first_row, std::vector<std::string> skip) {
   std::vector<std::pair<std::string, py::list>> inputs;
   Py_ssize_t rows = -1;
   for (const auto& [key, value] : columns) {
@@ -447,7 +449,7 @@ py::object AnnotateColumns(const py::dict& columns, int jobs, int alternatives,
       ++next;
     }
   });
-  ReportColumns out;
+  ReportColumns out(std::move(skip));
   bool reserved = false;
   while (Chunk* chunk = pipeline.Next()) {
     for (int i = 0; i < chunk->size; ++i) {
@@ -543,12 +545,12 @@ PYBIND11_MODULE(_engine, m) {
   m.def(
       "annotate_columns",
       [](const py::dict& columns, const py::object& jobs, int alternatives,
-         int first_row) {
+         int first_row, std::vector<std::string> skip) {
         return AnnotateColumns(columns, Jobs(jobs), Alternatives(alternatives),
-                               first_row);
+                               first_row, std::move(skip));
       },
       py::arg("columns"), py::arg("jobs"), py::arg("alternatives"),
-      py::arg("first_row"));
+      py::arg("first_row"), py::arg("skip"));
   m.def("record_batch", &RecordBatchBytes, py::arg("items"),
         py::arg("first_row"), py::arg("alternatives"));
   m.def("report_batch_dicts", &ReportBatchDicts, py::arg("data"));

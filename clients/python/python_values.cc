@@ -280,6 +280,9 @@ std::string Missing(PyObject* value) {
 bool IsMissing(PyObject* value) {
   if (value == Py_None) return true;
   if (PyFloat_Check(value)) return std::isnan(PyFloat_AS_DOUBLE(value));
+  if (PyUnicode_Check(value) || PyBytes_Check(value) || PyLong_Check(value)) {
+    return false;
+  }
   // numpy floats and pandas' NA: anything that is a float but not equal to
   // itself, or pandas' NA/NaT singletons (named so by their type).
   const std::string type = TypeName(value);
@@ -457,8 +460,10 @@ bool RecordFromItem(PyObject* item, int row, int alternatives,
   if (PyDict_Check(item) ||
       (!PyUnicode_Check(item) && !PyBytes_Check(item) &&
        PyMapping_Check(item) && PyObject_HasAttrString(item, "items"))) {
-    Ref items(PyMapping_Items(item));
-    if (items.get() == nullptr) {
+    // A dict is read in place; another mapping through its items.
+    Ref items(PyDict_Check(item) ? nullptr : PyMapping_Items(item));
+    if (!PyDict_Check(item) &&
+        (items.get() == nullptr || !PyList_Check(items.get()))) {
       PyErr_Clear();
       return Fail(
           problem, true,
@@ -467,11 +472,21 @@ bool RecordFromItem(PyObject* item, int row, int alternatives,
     bool has_formula = false;
     bool ok = true;
     RecordProblem first;
-    const Py_ssize_t n = PyList_GET_SIZE(items.get());
-    for (Py_ssize_t i = 0; i < n; ++i) {
-      PyObject* pair = PyList_GET_ITEM(items.get(), i);
-      PyObject* key = PyTuple_GET_ITEM(pair, 0);
-      PyObject* value = PyTuple_GET_ITEM(pair, 1);
+    Py_ssize_t position = 0;
+    PyObject* key = nullptr;
+    PyObject* value = nullptr;
+    const auto next = [&] {
+      if (items.get() == nullptr) {
+        return PyDict_Next(item, &position, &key, &value) != 0;
+      }
+      if (position >= PyList_GET_SIZE(items.get())) return false;
+      PyObject* pair = PyList_GET_ITEM(items.get(), position++);
+      if (!PyTuple_Check(pair) || PyTuple_GET_SIZE(pair) != 2) return false;
+      key = PyTuple_GET_ITEM(pair, 0);
+      value = PyTuple_GET_ITEM(pair, 1);
+      return true;
+    };
+    while (next()) {
       if (!PyUnicode_Check(key)) {
         if (ok) {
           Fail(&first, true,
@@ -609,66 +624,75 @@ struct ReportColumns::Column {
   std::vector<PyObject*> objects;  // Owned references.
   std::string last_text;           // The text of objects.back(), if str.
   bool last_is_text = false;
+  bool skip = false;  // Not wanted: walked past, not stored.
 };
 
 // Walks a report's top level into the columns; repeated messages become
 // lists of dicts (DictBuilder).
 class ReportColumns::Visitor : public TopLevelVisitor {
  public:
-  Visitor(std::vector<Column>* columns, SharedDicts* shared)
-      : columns_(columns), shared_(shared) {}
+  Visitor(std::vector<Column>* columns, const std::vector<std::string>* skip,
+          SharedDicts* shared)
+      : columns_(columns), skip_(skip), shared_(shared) {}
 
   template <typename F>
   void String(const F& f, absl::string_view v) {
-    Column& c = At(f.name, Column::Kind::kObject);
+    Column* c = At(f.name, Column::Kind::kObject);
+    if (c == nullptr) return;
     // Verdicts, kinds and echoes repeat: share the previous row's str.
-    if (c.last_is_text && !c.objects.empty() && c.last_text == v) {
-      Py_INCREF(c.objects.back());
-      c.objects.push_back(c.objects.back());
+    if (c->last_is_text && !c->objects.empty() && c->last_text == v) {
+      Py_INCREF(c->objects.back());
+      c->objects.push_back(c->objects.back());
       return;
     }
-    c.objects.push_back(Str(v));
-    c.last_text.assign(v.data(), v.size());
-    c.last_is_text = true;
+    c->objects.push_back(Str(v));
+    c->last_text.assign(v.data(), v.size());
+    c->last_is_text = true;
   }
   template <typename F>
   void Int(const F& f, int32_t v) {
-    At(f.name, Column::Kind::kInt).ints.push_back(v);
+    if (Column* c = At(f.name, Column::Kind::kInt)) c->ints.push_back(v);
   }
   template <typename F>
   void Double(const F& f, double v) {
-    At(f.name, Column::Kind::kDouble).doubles.push_back(v);
+    if (Column* c = At(f.name, Column::Kind::kDouble)) c->doubles.push_back(v);
   }
   template <typename F>
   void Bool(const F& f, bool v) {
-    At(f.name, Column::Kind::kBool).bools.push_back(v);
+    if (Column* c = At(f.name, Column::Kind::kBool)) c->bools.push_back(v);
   }
   template <typename F, typename Items, typename Visit>
   void Messages(const F& f, const Items& items, Visit visit) {
-    Column& c = At(f.name, Column::Kind::kObject);
-    c.objects.push_back(DictBuilder::List(items, visit, shared_));
-    c.last_is_text = false;
+    Column* c = At(f.name, Column::Kind::kObject);
+    if (c == nullptr) return;
+    c->objects.push_back(DictBuilder::List(items, visit, shared_));
+    c->last_is_text = false;
   }
 
  private:
   // The next column, which the first report's walk creates; every walk
   // visits the same fields in the same order.
-  Column& At(absl::string_view name, Column::Kind kind) {
+  // Null for a skipped column.
+  Column* At(absl::string_view name, Column::Kind kind) {
     if (next_ == columns_->size()) {
       Column c;
       c.name = name;
       c.kind = kind;
+      for (const std::string& s : *skip_) c.skip = c.skip || s == name;
       columns_->push_back(std::move(c));
     }
-    return (*columns_)[next_++];
+    Column* c = &(*columns_)[next_++];
+    return c->skip ? nullptr : c;
   }
 
   std::vector<Column>* columns_;
+  const std::vector<std::string>* skip_;
   SharedDicts* shared_;
   size_t next_ = 0;
 };
 
-ReportColumns::ReportColumns() : columns_(new std::vector<Column>) {}
+ReportColumns::ReportColumns(std::vector<std::string> skip)
+    : columns_(new std::vector<Column>), skip_(std::move(skip)) {}
 
 ReportColumns::~ReportColumns() {
   for (Column& c : *columns_) {
@@ -698,12 +722,12 @@ void ReportColumns::Reserve(size_t rows) {
 
 void ReportColumns::Add(const CompositionReport& report,
                         const v1::CompositionRecord& record) {
-  Visitor v(columns_, &shared_);
+  Visitor v(columns_, &skip_, &shared_);
   VisitRecordReport(report, record, v);
 }
 
 void ReportColumns::Add(const v1::RecordReport& report) {
-  Visitor v(columns_, &shared_);
+  Visitor v(columns_, &skip_, &shared_);
   VisitRecordReport(report, v);
 }
 
@@ -724,6 +748,7 @@ py::array ToArray(std::vector<T>* values) {
 PyObject* ReportColumns::Take() {
   py::dict out;
   for (Column& c : *columns_) {
+    if (c.skip) continue;
     py::object array;
     switch (c.kind) {
       case Column::Kind::kDouble:

@@ -24,6 +24,7 @@
 #include <Python.h>
 
 #include <string>
+#include <vector>
 
 #include "absl/strings/string_view.h"
 #include "engine/composition.h"
@@ -89,7 +90,9 @@ class SharedDicts {
 // garbage collector is paused while columns are built.
 class ReportColumns {
  public:
-  ReportColumns();
+  // Columns named in `skip` are left out (the input's own columns that a
+  // report echoes).
+  explicit ReportColumns(std::vector<std::string> skip = {});
   ~ReportColumns();
   ReportColumns(const ReportColumns&) = delete;
   ReportColumns& operator=(const ReportColumns&) = delete;
@@ -107,6 +110,7 @@ class ReportColumns {
 
  private:
   std::vector<Column>* columns_;
+  const std::vector<std::string> skip_;
   SharedDicts shared_;
 };
 

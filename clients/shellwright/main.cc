@@ -50,7 +50,8 @@ constexpr FieldName kFlagNames[] = {{"spec", "SPEC"},
                                     {"charge", "--charge"},
                                     {"geometry", "--geometry"},
                                     {"spin_state", "--spin-state"},
-                                    {"configuration", "--configuration"}};
+                                    {"configuration", "--configuration"},
+                                    {"address", "--server"}};
 
 // Where answers come from: the gRPC target ("" in process), for messages.
 std::string* ServerTargetForMessages() {
@@ -99,8 +100,12 @@ void AddRemoteOptions(CLI::App* app, RemoteFlags* flags) {
   RemoteOptions& o = flags->options;
   flags->server = app->add_option(
       "--server", o.address,
-      absl::StrCat("use the shellwrightd at HOST[:PORT] (default port ",
-                   kDefaultServerPort, ") instead of the in-process engine"));
+      absl::StrCat("use shellwrightd instead of the in-process engine: "
+                   "HOST[:PORT] (default port ",
+                   kDefaultServerPort,
+                   "), several as HOST:PORT,HOST:PORT (batches go round "
+                   "robin; a failed server's work goes to the others), or "
+                   "dns:///NAME:PORT"));
   CLI::Option* ca =
       app->add_option("--tls-ca", o.tls_ca_file,
                       "PEM roots to verify the server with (enables TLS)");
@@ -475,11 +480,19 @@ int Main(int argc, char** argv) {
   std::unique_ptr<Backend> backend;
   if (remote.server->count() > 0) {
     remote.options.timeout = absl::Seconds(remote.timeout_seconds);
-    *ServerTargetForMessages() = ServerTarget(remote.options.address);
+    remote.options.warnings = &std::cerr;
+    // One server's failures are explained in plain words; with several,
+    // the message names each server's last failure itself.
+    if (absl::StatusOr<std::vector<std::string>> targets =
+            ParseServerTargets(remote.options.address);
+        targets.ok() && targets->size() == 1) {
+      *ServerTargetForMessages() = ServerTarget(targets->front());
+    }
     absl::StatusOr<std::unique_ptr<Backend>> made =
         MakeRemoteBackend(remote.options);
     if (!made.ok()) {
-      std::cerr << "shellwright: " << made.status().message() << "\n";
+      std::cerr << "shellwright: "
+                << RenameField(made.status().message(), kFlagNames) << "\n";
       return kExitUsage;
     }
     backend = std::move(*made);

@@ -624,7 +624,7 @@ TEST(Shellwrightd, SurvivesGarbageBytes) {
 // UNAVAILABLE so the client sends the rest elsewhere.
 TEST(Shellwrightd, DrainAnswersTheBatchInHandThenEndsTheStream) {
   std::unique_ptr<ServerProcess> server =
-      StartShellwrightd({"--shutdown-grace", "60"});
+      StartShellwrightd({"--drain-seconds", "60"});
   ASSERT_NE(server, nullptr);
   auto stub = Stub(server->address());
   auto context = Context(std::chrono::seconds(90));
@@ -636,11 +636,18 @@ TEST(Shellwrightd, DrainAnswersTheBatchInHandThenEndsTheStream) {
   std::this_thread::sleep_for(std::chrono::milliseconds(100) *
                               kSanitizerSlowdown);
   ASSERT_EQ(kill(server->process().pid(), SIGTERM), 0);
-  // New calls are refused once the drain began.
+  // Health turns NOT_SERVING at once, and new calls are refused with
+  // UNAVAILABLE, while the batch in hand is still being answered.
   std::this_thread::sleep_for(std::chrono::milliseconds(50));
+  EXPECT_EQ(HealthStatus(server->address(), ""),
+            grpc::health::v1::HealthCheckResponse::NOT_SERVING);
+  EXPECT_EQ(HealthStatus(server->address(),
+                         v1::ElectronStructure::service_full_name()),
+            grpc::health::v1::HealthCheckResponse::NOT_SERVING);
   auto fresh = Stub(server->address());
   v1::AtomDescription d;
-  EXPECT_FALSE(DescribeSpec(fresh.get(), "Fe", &d).ok());
+  EXPECT_EQ(DescribeSpec(fresh.get(), "Fe", &d).error_code(),
+            grpc::StatusCode::UNAVAILABLE);
 
   int answered = 0;
   v1::ReportBatch reply;
@@ -660,7 +667,7 @@ TEST(Shellwrightd, DrainAnswersTheBatchInHandThenEndsTheStream) {
 // shutdown for the whole grace period.
 TEST(Shellwrightd, IdleStreamsAndConnectionsDoNotHoldTheDrain) {
   std::unique_ptr<ServerProcess> server =
-      StartShellwrightd({"--shutdown-grace", "60"});
+      StartShellwrightd({"--drain-seconds", "60"});
   ASSERT_NE(server, nullptr);
   auto stub = Stub(server->address());
   auto context = Context(std::chrono::seconds(90));
@@ -772,7 +779,8 @@ TEST(Shellwrightd, BadFlagsExitTwoWithAMessage) {
       {{"--log-level", "loud"}, "log level"},
       {{"--max-message-bytes", "-5"}, "--max-message-bytes"},
       {{"--max-concurrent-streams", "many"}, "--max-concurrent-streams"},
-      {{"--shutdown-grace", "-1"}, "--shutdown-grace"},
+      {{"--shutdown-grace", "-1"}, "--drain-seconds"},
+      {{"--drain-seconds", "-1"}, "--drain-seconds"},
       {{"--tls-cert", junk_pem}, "--tls-key"},
       {{"--tls-cert", junk_pem, "--tls-key", junk_pem}, "no PEM block"},
       {{"--tls-client-ca", junk_pem}, "--tls-cert"},

@@ -34,19 +34,18 @@ def annotate(df, formula="formula", *, prefix="", jobs=None, alternatives=0,
         if column not in df.columns:
             raise KeyError(f"{field}: no column {column!r} in the frame")
     columns = {field: df[column].tolist() for field, column in fields.items()}
-    out = _engine.annotate_columns(columns, jobs, alternatives, first_row)
+    echoes = [name for name, column in fields.items()
+              if not prefix and name == column]
+    out = _engine.annotate_columns(columns, jobs, alternatives, first_row,
+                                   echoes)
     if len(df) == 0:
         out = {name: values[:0] for name, values in out.items()}
-    echoes = {name for name, column in fields.items()
-              if not prefix and name == column}
-    clashes = [prefix + name for name in out
-               if name not in echoes and prefix + name in df.columns]
+    clashes = [prefix + name for name in out if prefix + name in df.columns]
     if clashes:
         raise ValueError("annotate: the frame already has column(s) "
                          + ", ".join(repr(c) for c in clashes)
                          + "; pass prefix= to name the report's columns")
     report = pd.DataFrame(
-        {prefix + name: values for name, values in out.items()
-         if name not in echoes},
+        {prefix + name: values for name, values in out.items()},
         index=df.index, copy=False)
     return pd.concat([df, report], axis=1, copy=False)
