@@ -82,6 +82,12 @@ class CallTracker {
     changed_.notify_all();
   }
 
+  // AnalyzeRecords streams and unary calls in progress.
+  int InProgress() {
+    std::lock_guard<std::mutex> lock(mu_);
+    return static_cast<int>(streams_.size()) + unary_calls_;
+  }
+
   void UnaryStarted() {
     std::lock_guard<std::mutex> lock(mu_);
     ++unary_calls_;
@@ -154,9 +160,41 @@ class CallTracker {
   std::thread reaper_;  // Last: starts once the members above exist.
 };
 
+// A token bucket: `rate` requests per second on average, `burst` at once.
+class RateLimiter {
+ public:
+  RateLimiter(double rate, int burst)
+      : rate_(rate), burst_(burst), tokens_(burst), last_(absl::Now()) {}
+
+  // True when a request may go ahead now (and counts it). Thread-safe.
+  bool Take() {
+    std::lock_guard<std::mutex> lock(mu_);
+    const absl::Time now = absl::Now();
+    tokens_ = std::min<double>(
+        burst_, tokens_ + rate_ * absl::ToDoubleSeconds(now - last_));
+    last_ = now;
+    if (tokens_ < 1) return false;
+    tokens_ -= 1;
+    return true;
+  }
+
+ private:
+  const double rate_;
+  const int burst_;
+  std::mutex mu_;
+  double tokens_;    // Guarded by mu_.
+  absl::Time last_;  // Guarded by mu_.
+};
+
 }  // namespace internal
 
 namespace {
+
+grpc::Status RateLimited() {
+  return grpc::Status(grpc::StatusCode::RESOURCE_EXHAUSTED,
+                      "the request rate limit for this token is reached; "
+                      "back off and retry");
+}
 
 // ---------------------------------------------------------------------------
 // Helpers.
@@ -338,6 +376,10 @@ grpc::Status DescribeAtomsWatched(const CallWatch& watch,
 constexpr absl::Duration kKeepaliveTimeout = absl::Seconds(20);
 constexpr absl::Duration kHandshakeTimeout = absl::Seconds(20);
 
+// The shortest interval between a client's keepalive pings that the server
+// accepts (common practice, no source).
+constexpr absl::Duration kMinClientPingInterval = absl::Seconds(10);
+
 // Records analysed between two cancellation checks in AnalyzeRecords
 // (the deadline is checked before every record).
 constexpr int kRecordsPerCancelCheck = 64;
@@ -358,8 +400,12 @@ class RecordStreamReactor final
  public:
   RecordStreamReactor(grpc::CallbackServerContext* context,
                       const grpc::Status& admitted,
-                      internal::CallTracker* tracker)
-      : peer_(PeerForLog(context)), watch_(context), tracker_(tracker) {
+                      internal::CallTracker* tracker,
+                      internal::RateLimiter* rate_limiter)
+      : peer_(PeerForLog(context)),
+        watch_(context),
+        tracker_(tracker),
+        rate_limiter_(rate_limiter) {
     if (!admitted.ok()) {
       FinishAndRecord(admitted);
       return;
@@ -387,6 +433,11 @@ class RecordStreamReactor final
           absl::StrCat("records: ", batch_.records_size(),
                        " records in one batch, above the limit of ",
                        kMaxRecordsPerBatch)));
+      return;
+    }
+    // The call itself took the stream's first request.
+    if (batches_ > 0 && rate_limiter_ != nullptr && !rate_limiter_->Take()) {
+      FinishAndRecord(RateLimited());
       return;
     }
     next_record_ = 0;
@@ -503,6 +554,7 @@ class RecordStreamReactor final
   const CallWatch watch_;
   const CallTimer timer_;
   internal::CallTracker* const tracker_;
+  internal::RateLimiter* const rate_limiter_;  // Null: no rate limit.
   std::shared_ptr<internal::CallTracker::Stream> tracked_;  // Null: refused.
   v1::RecordBatch batch_;
   int next_record_ = 0;  // The next record of batch_ to analyse.
@@ -535,9 +587,16 @@ grpc::Status ToGrpcStatus(const absl::Status& status) {
 // The service.
 
 ElectronStructureImpl::ElectronStructureImpl(std::string token,
-                                             absl::Duration stream_idle_timeout)
-    : verifier_(std::move(token)),
-      tracker_(std::make_unique<internal::CallTracker>(stream_idle_timeout)) {}
+                                             absl::Duration stream_idle_timeout,
+                                             CallLimits limits)
+    : verifier_(token),
+      limits_(limits),
+      tracker_(std::make_unique<internal::CallTracker>(stream_idle_timeout)),
+      rate_limiter_(!token.empty() && limits.token_rate_limit > 0
+                        ? std::make_unique<internal::RateLimiter>(
+                              limits.token_rate_limit,
+                              std::max(1, limits.token_rate_burst))
+                        : nullptr) {}
 
 ElectronStructureImpl::~ElectronStructureImpl() = default;
 
@@ -547,14 +606,27 @@ bool ElectronStructureImpl::WaitUntilIdle(absl::Time deadline) {
   return tracker_->WaitUntilIdle(deadline);
 }
 
-grpc::Status ElectronStructureImpl::Admit(
-    grpc::CallbackServerContext* context) const {
+grpc::Status ElectronStructureImpl::Admit(grpc::CallbackServerContext* context,
+                                          bool counted_self) const {
   if (tracker_->draining()) {
     return grpc::Status(grpc::StatusCode::UNAVAILABLE,
                         "the server is shutting down");
   }
+  if (limits_.max_concurrent_calls > 0 &&
+      tracker_->InProgress() - (counted_self ? 1 : 0) >=
+          limits_.max_concurrent_calls) {
+    return grpc::Status(
+        grpc::StatusCode::RESOURCE_EXHAUSTED,
+        absl::StrCat("the server is at its limit of ",
+                     limits_.max_concurrent_calls,
+                     " calls in progress; retry later or on another "
+                     "server"));
+  }
   grpc::Status status = verifier_.Check(context->client_metadata());
   if (!status.ok()) return status;
+  if (rate_limiter_ != nullptr && !rate_limiter_->Take()) {
+    return RateLimited();
+  }
   if (context->deadline() <= std::chrono::system_clock::now()) {
     return grpc::Status(grpc::StatusCode::DEADLINE_EXCEEDED,
                         "deadline exceeded before the call started");
@@ -568,7 +640,7 @@ grpc::ServerUnaryReactor* ElectronStructureImpl::ServeUnary(
     Body&& body) {
   const CallTimer timer;
   tracker_->UnaryStarted();
-  grpc::Status status = Admit(context);
+  grpc::Status status = Admit(context, /*counted_self=*/true);
   if (status.ok()) status = RunGuarded(method, std::forward<Body>(body));
   grpc::ServerUnaryReactor* reactor =
       FinishUnary(context, method, timer, status);
@@ -617,7 +689,8 @@ grpc::ServerUnaryReactor* ElectronStructureImpl::AnalyzeCompound(
 
 grpc::ServerBidiReactor<v1::RecordBatch, v1::ReportBatch>*
 ElectronStructureImpl::AnalyzeRecords(grpc::CallbackServerContext* context) {
-  return new RecordStreamReactor(context, Admit(context), tracker_.get());
+  return new RecordStreamReactor(context, Admit(context, false), tracker_.get(),
+                                 rate_limiter_.get());
 }
 
 // ---------------------------------------------------------------------------
@@ -681,6 +754,27 @@ absl::StatusOr<std::unique_ptr<ShellwrightServer>> ShellwrightServer::Start(
   if (options.keepalive_interval <= absl::ZeroDuration()) {
     return absl::InvalidArgumentError("keepalive_interval: must be positive");
   }
+  if (options.max_connection_age < absl::ZeroDuration() ||
+      options.max_connection_age_grace < absl::ZeroDuration()) {
+    return absl::InvalidArgumentError(
+        "max_connection_age: must be 0 (no limit) or positive, and so must "
+        "its grace");
+  }
+  if (options.limits.max_concurrent_calls < 0) {
+    return absl::InvalidArgumentError(
+        "max_concurrent_calls: must be 0 (no limit) or positive");
+  }
+  if (options.limits.token_rate_limit < 0 ||
+      options.limits.token_rate_burst < 1) {
+    return absl::InvalidArgumentError(
+        "token_rate_limit: must be 0 (no limit) or positive, with a burst of "
+        "at least 1");
+  }
+  if (options.limits.token_rate_limit > 0 && options.auth_token_file.empty()) {
+    return absl::InvalidArgumentError(
+        "token_rate_limit: limits callers with a token; set "
+        "auth_token_file too");
+  }
   absl::StatusOr<std::shared_ptr<grpc::ServerCredentials>> credentials =
       MakeServerCredentials(options.tls);
   if (!credentials.ok()) return credentials.status();
@@ -711,7 +805,7 @@ absl::StatusOr<std::unique_ptr<ShellwrightServer>> ShellwrightServer::Start(
 
   std::unique_ptr<ShellwrightServer> server(new ShellwrightServer());
   server->service_ = std::make_unique<ElectronStructureImpl>(
-      std::move(token), options.idle_timeout);
+      std::move(token), options.idle_timeout, options.limits);
 
   grpc::ServerBuilder builder;
   builder.AddListeningPort(options.listen, *credentials, &server->port_);
@@ -740,6 +834,19 @@ absl::StatusOr<std::unique_ptr<ShellwrightServer>> ShellwrightServer::Start(
                              millis(kKeepaliveTimeout));
   builder.AddChannelArgument(GRPC_ARG_SERVER_HANDSHAKE_TIMEOUT_MS,
                              millis(kHandshakeTimeout));
+  // Clients may send keepalive pings this often, to notice a server that
+  // vanished without closing its connections; gRPC's default of 5
+  // minutes would answer them with GOAWAY.
+  builder.AddChannelArgument(
+      GRPC_ARG_HTTP2_MIN_RECV_PING_INTERVAL_WITHOUT_DATA_MS,
+      millis(kMinClientPingInterval));
+  builder.AddChannelArgument(GRPC_ARG_KEEPALIVE_PERMIT_WITHOUT_CALLS, 1);
+  if (options.max_connection_age > absl::ZeroDuration()) {
+    builder.AddChannelArgument(GRPC_ARG_MAX_CONNECTION_AGE_MS,
+                               millis(options.max_connection_age));
+    builder.AddChannelArgument(GRPC_ARG_MAX_CONNECTION_AGE_GRACE_MS,
+                               millis(options.max_connection_age_grace));
+  }
   server->server_ = builder.BuildAndStart();
   if (server->server_ == nullptr || server->port_ == 0) {
     return absl::UnavailableError(

@@ -60,6 +60,24 @@ namespace internal {
 class CallTracker;  // In-flight calls and idle streams (service.cc).
 }  // namespace internal
 
+namespace internal {
+class RateLimiter;  // A token bucket (service.cc).
+}  // namespace internal
+
+// Overload limits the service enforces itself, each answered with
+// RESOURCE_EXHAUSTED (a client should back off or go to another replica).
+struct CallLimits {
+  // Calls in progress at once (AnalyzeRecords streams and unary calls,
+  // over all connections); a call beyond it is refused. 0: no limit.
+  int max_concurrent_calls = 128;
+  // With a token: requests per second (a unary call or one RecordBatch
+  // counts as one) that callers with the token may make, on average; a
+  // stream whose batch comes over the rate ends. 0: no limit.
+  double token_rate_limit = 0;
+  // Requests that may come at once above the rate. >= 1.
+  int token_rate_burst = 100;
+};
+
 class ElectronStructureImpl final
     : public v1::ElectronStructure::CallbackService {
  public:
@@ -68,7 +86,8 @@ class ElectronStructureImpl final
   // longer than `stream_idle_timeout` for its next batch is cancelled, so
   // idle streams cannot hold a connection's stream slots.
   explicit ElectronStructureImpl(
-      std::string token, absl::Duration stream_idle_timeout = absl::Minutes(5));
+      std::string token, absl::Duration stream_idle_timeout = absl::Minutes(5),
+      CallLimits limits = CallLimits());
   ~ElectronStructureImpl() override;
 
   ElectronStructureImpl(const ElectronStructureImpl&) = delete;
@@ -112,8 +131,10 @@ class ElectronStructureImpl final
       grpc::CallbackServerContext* context) override;
 
  private:
-  // Authentication and deadline checks every method runs first.
-  grpc::Status Admit(grpc::CallbackServerContext* context) const;
+  // Drain, limit, authentication and deadline checks every method runs
+  // first. `counted_self`: the tracker already counts this call.
+  grpc::Status Admit(grpc::CallbackServerContext* context,
+                     bool counted_self) const;
 
   // A unary call: Admit, then `body` guarded against exceptions, then
   // finish and log. Defined in service.cc, where all its users are.
@@ -122,7 +143,10 @@ class ElectronStructureImpl final
                                        absl::string_view method, Body&& body);
 
   const BearerTokenVerifier verifier_;
+  const CallLimits limits_;
   const std::unique_ptr<internal::CallTracker> tracker_;
+  // Null without a token or a rate limit.
+  const std::unique_ptr<internal::RateLimiter> rate_limiter_;
 };
 
 // ---------------------------------------------------------------------------
@@ -152,6 +176,12 @@ struct ServerOptions {
   // Interval of the server's HTTP/2 keepalive pings on a connection; a
   // peer that does not answer one within 20 s is dropped. > 0.
   absl::Duration keepalive_interval = absl::Minutes(1);
+  // A connection older than this gets GOAWAY, so that clients reconnect
+  // and load balancers rebalance; calls on it then get
+  // max_connection_age_grace to end before it is closed. Zero: no limit.
+  absl::Duration max_connection_age = absl::Minutes(30);
+  absl::Duration max_connection_age_grace = absl::Seconds(30);
+  CallLimits limits;  // See CallLimits; token_rate_limit needs a token.
 };
 
 // A started gRPC server hosting ElectronStructureImpl, the standard health

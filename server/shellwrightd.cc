@@ -54,7 +54,11 @@ constexpr FieldName kFlagNames[] = {
     {"max_message_bytes", "--max-message-bytes"},
     {"max_concurrent_streams", "--max-concurrent-streams"},
     {"idle_timeout", "--idle-timeout"},
-    {"keepalive_interval", "--keepalive"}};
+    {"keepalive_interval", "--keepalive"},
+    {"max_connection_age", "--max-connection-age"},
+    {"max_concurrent_calls", "--max-concurrent-calls"},
+    {"token_rate_limit", "--token-rate-limit"},
+    {"auth_token_file", "--auth-token-file"}};
 
 struct Flags {
   ServerOptions server;
@@ -63,6 +67,10 @@ struct Flags {
       absl::ToDoubleSeconds(ServerOptions().idle_timeout);
   double keepalive_seconds =
       absl::ToDoubleSeconds(ServerOptions().keepalive_interval);
+  double max_connection_age_seconds =
+      absl::ToDoubleSeconds(ServerOptions().max_connection_age);
+  double max_connection_age_grace_seconds =
+      absl::ToDoubleSeconds(ServerOptions().max_connection_age_grace);
   std::string log_level = "info";
 };
 
@@ -122,6 +130,32 @@ std::optional<int> ParseFlags(int argc, char** argv, Flags* flags) {
                  "for 20 s drops it")
       ->check(NumberIn(0.001, 86400))
       ->capture_default_str();
+  app.add_option("--max-connection-age", flags->max_connection_age_seconds,
+                 "seconds after which a connection gets GOAWAY so that "
+                 "clients reconnect and load balancers rebalance (0: never)")
+      ->check(NumberIn(0, 31 * 86400))
+      ->capture_default_str();
+  app.add_option("--max-connection-age-grace",
+                 flags->max_connection_age_grace_seconds,
+                 "seconds the calls on such a connection get to end")
+      ->check(NumberIn(0, 86400))
+      ->capture_default_str();
+  CallLimits& limits = server.limits;
+  app.add_option("--max-concurrent-calls", limits.max_concurrent_calls,
+                 "calls in progress at once, over all connections; more get "
+                 "RESOURCE_EXHAUSTED (0: no limit)")
+      ->check(IntegerIn(0, std::numeric_limits<int>::max()))
+      ->capture_default_str();
+  app.add_option("--token-rate-limit", limits.token_rate_limit,
+                 "requests per second (a call or one batch each) for "
+                 "callers with the token; more get RESOURCE_EXHAUSTED "
+                 "(0: no limit)")
+      ->check(NumberIn(0, 1e9))
+      ->capture_default_str();
+  app.add_option("--token-rate-burst", limits.token_rate_burst,
+                 "requests allowed at once above --token-rate-limit")
+      ->check(IntegerIn(1, std::numeric_limits<int>::max()))
+      ->capture_default_str();
   app.add_option("--drain-seconds,--shutdown-grace", flags->drain_seconds,
                  "on SIGTERM, seconds the batches already received get to be "
                  "answered (health turns NOT_SERVING and new calls get "
@@ -137,6 +171,9 @@ std::optional<int> ParseFlags(int argc, char** argv, Flags* flags) {
   }
   server.idle_timeout = absl::Seconds(flags->idle_timeout_seconds);
   server.keepalive_interval = absl::Seconds(flags->keepalive_seconds);
+  server.max_connection_age = absl::Seconds(flags->max_connection_age_seconds);
+  server.max_connection_age_grace =
+      absl::Seconds(flags->max_connection_age_grace_seconds);
   return std::nullopt;
 }
 

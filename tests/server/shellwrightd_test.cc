@@ -602,6 +602,102 @@ TEST(Shellwrightd, MaxConcurrentStreamsQueuesExtraCalls) {
   EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
 }
 
+// Over --max-concurrent-calls, a call is refused with RESOURCE_EXHAUSTED
+// instead of waiting in a queue; once a slot frees, calls go through.
+TEST(Shellwrightd, MaxConcurrentCallsGivesResourceExhausted) {
+  std::unique_ptr<ServerProcess> server =
+      StartShellwrightd({"--max-concurrent-calls", "1"});
+  ASSERT_NE(server, nullptr);
+  auto stub = Stub(server->address());
+  auto stream_context = Context();
+  auto stream = stub->AnalyzeRecords(stream_context.get());
+  ASSERT_TRUE(stream->Write(v1::RecordBatch()));
+  v1::ReportBatch reply;
+  ASSERT_TRUE(stream->Read(&reply));  // The stream holds the only slot.
+
+  auto other = Stub(server->address());  // Another connection, too.
+  v1::AtomDescription d;
+  grpc::Status refused = DescribeSpec(other.get(), "Fe", &d);
+  EXPECT_EQ(refused.error_code(), grpc::StatusCode::RESOURCE_EXHAUSTED);
+  EXPECT_THAT(refused.error_message(), HasSubstr("limit of 1 calls"));
+  auto second_context = Context();
+  auto second = other->AnalyzeRecords(second_context.get());
+  second->Write(v1::RecordBatch());
+  EXPECT_FALSE(second->Read(&reply));
+  EXPECT_EQ(second->Finish().error_code(),
+            grpc::StatusCode::RESOURCE_EXHAUSTED);
+  // Health stays open to probes.
+  EXPECT_EQ(HealthStatus(server->address(), ""),
+            grpc::health::v1::HealthCheckResponse::SERVING);
+
+  stream->WritesDone();
+  ASSERT_TRUE(stream->Finish().ok());
+  EXPECT_TRUE(DescribeSpec(other.get(), "Fe", &d).ok());
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+}
+
+// --token-rate-limit: a burst goes through, the request after it gets
+// RESOURCE_EXHAUSTED (calls and a stream's batches alike), and the rate
+// refills the bucket.
+TEST(Shellwrightd, TokenRateLimitGivesResourceExhausted) {
+  TempDir dir;
+  const std::string token_file = dir.Write("token", "rate-limited\n");
+  std::unique_ptr<ServerProcess> server =
+      StartShellwrightd({"--auth-token-file", token_file, "--token-rate-limit",
+                         "0.5", "--token-rate-burst", "2"});
+  ASSERT_NE(server, nullptr);
+  auto stub = Stub(server->address());
+  v1::AtomDescription d;
+  const std::string bearer = "Bearer rate-limited";
+  for (int i = 0; i < 2; ++i) {
+    grpc::Status s = DescribeSpec(stub.get(), "Fe", &d, bearer);
+    EXPECT_TRUE(s.ok()) << i << ": " << s.error_message();
+  }
+  grpc::Status over = DescribeSpec(stub.get(), "Fe", &d, bearer);
+  EXPECT_EQ(over.error_code(), grpc::StatusCode::RESOURCE_EXHAUSTED);
+  EXPECT_THAT(over.error_message(), HasSubstr("rate limit"));
+  // One every 2 s: after 2.1 s one more request may go, a stream's call
+  // (its first batch comes with it); its second batch, unless it comes
+  // 1.9 s later, is one too many.
+  std::this_thread::sleep_for(std::chrono::milliseconds(2100));
+  auto context = Context();
+  context->AddMetadata("authorization", bearer);
+  auto stream = stub->AnalyzeRecords(context.get());
+  v1::ReportBatch reply;
+  ASSERT_TRUE(stream->Write(v1::RecordBatch()));
+  ASSERT_TRUE(stream->Read(&reply));
+  stream->Write(v1::RecordBatch());
+  EXPECT_FALSE(stream->Read(&reply));
+  EXPECT_EQ(stream->Finish().error_code(),
+            grpc::StatusCode::RESOURCE_EXHAUSTED);
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+}
+
+// --max-connection-age: a connection gets GOAWAY after its age, a stream
+// on it is ended after the grace, and the channel reconnects for the next
+// call (so a load balancer in front would place it afresh).
+TEST(Shellwrightd, MaxConnectionAgeEndsOldConnections) {
+  std::unique_ptr<ServerProcess> server = StartShellwrightd(
+      {"--max-connection-age", "0.3", "--max-connection-age-grace", "0.3"});
+  ASSERT_NE(server, nullptr);
+  auto channel = grpc::CreateChannel(server->address(),
+                                     grpc::InsecureChannelCredentials());
+  auto stub = v1::ElectronStructure::NewStub(channel);
+  auto context = Context();
+  auto stream = stub->AnalyzeRecords(context.get());
+  v1::ReportBatch reply;
+  ASSERT_TRUE(stream->Write(v1::RecordBatch()));
+  ASSERT_TRUE(stream->Read(&reply));
+  std::this_thread::sleep_for(std::chrono::milliseconds(1500));
+  stream->Write(v1::RecordBatch());
+  EXPECT_FALSE(stream->Read(&reply));
+  EXPECT_FALSE(stream->Finish().ok());
+  v1::AtomDescription d;
+  grpc::Status s = DescribeSpec(stub.get(), "Fe", &d);
+  EXPECT_TRUE(s.ok()) << s.error_message();
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+}
+
 TEST(Shellwrightd, SurvivesGarbageBytes) {
   std::unique_ptr<ServerProcess> server = StartShellwrightd({});
   ASSERT_NE(server, nullptr);
@@ -786,6 +882,11 @@ TEST(Shellwrightd, BadFlagsExitTwoWithAMessage) {
       {{"--tls-client-ca", junk_pem}, "--tls-cert"},
       {{"--tls-key", junk_pem}, "--tls-cert"},
       {{"--keepalive", "0"}, "--keepalive"},
+      {{"--max-concurrent-calls", "-1"}, "--max-concurrent-calls"},
+      {{"--max-connection-age", "-1"}, "--max-connection-age"},
+      {{"--token-rate-burst", "0"}, "--token-rate-burst"},
+      // A rate limit needs a token to limit.
+      {{"--token-rate-limit", "5"}, "--token-rate-limit"},
       {{"--idle-timeout", "forever"}, "--idle-timeout"},
       {{"--auth-token-file", dir.File("absent")}, "absent"},
       {{"--listen"}, "needs a value"},
