@@ -85,9 +85,12 @@ bool ParseElementList(absl::string_view text, absl::string_view what,
   return true;
 }
 
+// "3", "+3", "3+", "III", "-II" (as `atom` reads a charge).
 bool ParseState(absl::string_view v, int* state) {
-  if (!v.empty() && v.front() == '+') v.remove_prefix(1);
-  return absl::SimpleAtoi(v, state) && *state >= -9 && *state <= 9;
+  absl::StatusOr<int> parsed = ParseOxidationState(v);
+  if (!parsed.ok()) return false;
+  *state = *parsed;
+  return *state >= -9 && *state <= 9;
 }
 
 template <typename T>
@@ -360,8 +363,20 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     return std::move(r);
   };
 
+  FormulaOptions formula_options;
+  if (!input.variables.empty()) {
+    absl::StatusOr<std::vector<FormulaVariable>> variables =
+        ParseFormulaVariables(input.variables);
+    if (!variables.ok()) {
+      Add(&r, Severity::kError, codes::kMalformedVariables,
+          std::string(variables.status().message()));
+      return finish();
+    }
+    formula_options.variables = *std::move(variables);
+  }
   FormulaIssue issue;
-  absl::StatusOr<Formula> formula = ParseFormula(input.formula, &issue);
+  absl::StatusOr<Formula> formula =
+      ParseFormula(input.formula, formula_options, &issue);
   if (!formula.ok()) {
     Add(&r, Severity::kError, issue.code,
         absl::StrCat("formula ", QuoteForMessage(input.formula), ": ",
@@ -372,6 +387,23 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
   for (FormulaIssue& w : formula->warnings) {  // Not needed again.
     Add(&r, Severity::kWarning, std::move(w.code), std::move(w.message),
         w.column);
+  }
+  for (FormulaIssue& i : formula->infos) {
+    Add(&r, Severity::kInfo, std::move(i.code), std::move(i.message), i.column);
+  }
+  // A charge suffix ("NH4+") gives the net charge; a record charge must
+  // agree with it.
+  std::optional<int> net_charge = input.net_charge;
+  if (formula->charge.has_value()) {
+    if (net_charge.has_value() && *net_charge != *formula->charge) {
+      Add(&r, Severity::kError, codes::kChargeContradictsFormula,
+          absl::StrCat("formula ", QuoteForMessage(input.formula),
+                       " carries charge ", *formula->charge > 0 ? "+" : "",
+                       *formula->charge, " but the record's charge is ",
+                       *net_charge > 0 ? "+" : "", *net_charge));
+      return finish();
+    }
+    net_charge = formula->charge;
   }
 
   // Per-record settings.
@@ -403,7 +435,7 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     Add(&r, Severity::kError, codes::kMalformedElementSettings, error);
   }
   OxidationOptions options;
-  options.net_charge = input.net_charge.value_or(0);
+  options.net_charge = net_charge.value_or(0);
   options.max_alternatives = input.max_alternatives;
   for (const auto& [e, state] : declared) {
     bool present = false;
