@@ -105,6 +105,66 @@ void BM_AnalyzeDistinctFormula(benchmark::State& state) {
 }
 BENCHMARK(BM_AnalyzeDistinctFormula)->Arg(0)->Arg(2);
 
+// Formulas whose reading needs units (issue: polyatomic and molecular
+// units): complexes, hydrates, organic salts, peroxides and disulfides,
+// each with a random counter-ion or hydration count so that they are
+// mostly distinct.
+std::vector<std::string> UnitFormulas(int n) {
+  std::mt19937 rng(20261203);
+  const char* alkali[] = {"Li", "Na", "K", "Rb", "Cs"};
+  const char* tm[] = {"Mn", "Fe", "Co", "Ni", "Cu", "Zn"};
+  std::vector<std::string> out;
+  std::uniform_int_distribution<int> family(0, 7), pick(0, 100);
+  for (int i = 0; i < n; ++i) {
+    const char* a = alkali[pick(rng) % 5];
+    const char* m = tm[pick(rng) % 6];
+    const int h = 1 + pick(rng) % 12;
+    switch (family(rng)) {
+      case 0:
+        out.push_back(absl::StrCat(a, "4[", m, "(CN)6]·", h, "H2O"));
+        break;
+      case 1:
+        out.push_back(absl::StrCat("[", m, "(NH3)6]Cl2·", h, "H2O"));
+        break;
+      case 2:
+        out.push_back(absl::StrCat(m, "SO4·", h, "H2O"));
+        break;
+      case 3:
+        out.push_back(absl::StrCat(m, "(CH3COO)2·", h, "H2O"));
+        break;
+      case 4:
+        out.push_back(absl::StrCat("NH4", a, "SO4·", h, "H2O"));
+        break;
+      case 5:
+        out.push_back(absl::StrCat(m, "S2"));
+        break;
+      case 6:
+        out.push_back(absl::StrCat(a, "2O2·", h, "H2O"));
+        break;
+      default: {
+        const int lead = 50 + pick(rng) % 50;  // Pb(1-x)Sn(x)
+        out.push_back(absl::StrFormat("CH3NH3Pb%.2fSn%.2fI3", lead / 100.0,
+                                      (100 - lead) / 100.0));
+        break;
+      }
+    }
+  }
+  return out;
+}
+
+void BM_AnalyzeUnitFormula(benchmark::State& state) {
+  const std::vector<std::string> formulas = UnitFormulas(20000);
+  CompositionInput in;
+  size_t i = 0;
+  for (auto _ : state) {
+    in.formula = formulas[i];
+    CompositionReport r = AnalyzeComposition(in);
+    benchmark::DoNotOptimize(r);
+    if (++i == formulas.size()) i = 0;
+  }
+}
+BENCHMARK(BM_AnalyzeUnitFormula);
+
 void BM_ParseDistinctFormula(benchmark::State& state) {
   const std::vector<std::string> formulas = DistinctFormulas(20000);
   size_t i = 0;
