@@ -14,6 +14,7 @@
 #include <vector>
 
 #include "absl/container/flat_hash_map.h"
+#include "absl/container/inlined_vector.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_join.h"
 #include "api/report_view.h"
@@ -83,12 +84,15 @@ struct TemplateGap {
   int index;
   bool exact;
 };
+// A template's gaps; the walk varies two values per message at most, kept
+// inline, so that copying them costs no allocation.
+using TemplateGaps = absl::InlinedVector<TemplateGap, 4>;
 template <typename Key>
 struct Template {
   std::optional<Key> key;
   uint64_t generation = 0;  // Counts the keys that held the slot.
   PyObject* dict = nullptr;
-  std::vector<TemplateGap> gaps;
+  TemplateGaps gaps;
 };
 
 // Kept per key slot (see report_view.h's kCacheSlots), under the GIL.
@@ -189,16 +193,25 @@ class DictBuilder {
               Visit visit) {
     Template<Key>& t = CachedTemplate(key);
     if (!t.key.has_value() || !(*t.key == key)) {
-      Py_XDECREF(t.dict);
-      t.gaps.clear();
+      // The new template is built aside and put in the slot with no call
+      // into Python in between: an allocation may run the garbage
+      // collector, whose finalizers may let another thread use this slot.
+      TemplateGaps gaps;
       DictBuilder recorder;
-      recorder.gaps_ = &t.gaps;
+      recorder.gaps_ = &gaps;
       visit(recorder);
+      PyObject* old = t.dict;
       t.dict = recorder.Release();
+      t.gaps = gaps;
       t.key = key;
       t.key->Keep();
       ++t.generation;
+      Py_XDECREF(old);
     }
+    // What the slot holds now, held: copying may run the collector too.
+    Ref kept(t.dict);
+    Py_INCREF(kept.get());
+    const TemplateGaps gaps = t.gaps;
     PyObject** slot = nullptr;
     if (shared_ != nullptr) {
       SharedDicts::Share share{&t, t.generation, {0, 0, 0, 0}};
@@ -221,13 +234,13 @@ class DictBuilder {
       }
     }
     Py_DECREF(dict_);
-    dict_ = PyDict_Copy(t.dict);
-    for (const auto& gap : t.gaps) {
+    dict_ = PyDict_Copy(kept.get());
+    for (const TemplateGap& gap : gaps) {
       PyObject* value = VaryingObject(varying.begin()[gap.index], gap.exact);
       PyDict_SetItem(dict_, gap.key, value);
       Py_DECREF(value);
     }
-    if (slot != nullptr) {
+    if (slot != nullptr) {  // Annotate pauses the collector: still valid.
       Py_INCREF(dict_);
       *slot = dict_;
     }
@@ -250,7 +263,7 @@ class DictBuilder {
 
   PyObject* dict_;
   SharedDicts* shared_;
-  std::vector<TemplateGap>* gaps_ = nullptr;
+  TemplateGaps* gaps_ = nullptr;
 };
 
 std::string TypeName(PyObject* value) { return Py_TYPE(value)->tp_name; }
