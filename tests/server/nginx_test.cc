@@ -12,8 +12,8 @@
 #include <fstream>
 #include <memory>
 #include <sstream>
-#include <thread>
 #include <string>
+#include <thread>
 #include <vector>
 
 #include "absl/strings/str_cat.h"
@@ -99,10 +99,10 @@ TEST(Nginx, FrontForTwoReplicasGivesTheInProcessBytes) {
   // Master process off: one process, which the test ends itself.
   conf = absl::StrCat("daemon off;\nmaster_process off;\n", conf);
   dir.Write("nginx.conf", conf);
-  std::unique_ptr<ChildProcess> nginx = ChildProcess::Start(
-      {kNginx, "-p", dir.path(), "-e", dir.File("error.log"), "-c",
-       dir.File("nginx.conf")},
-      dir.File("nginx.stderr"));
+  std::unique_ptr<ChildProcess> nginx =
+      ChildProcess::Start({kNginx, "-p", dir.path(), "-e",
+                           dir.File("error.log"), "-c", dir.File("nginx.conf")},
+                          dir.File("nginx.stderr"));
   ASSERT_NE(nginx, nullptr);
   // Up once it answers through the front.
   std::string answer;
@@ -125,11 +125,11 @@ TEST(Nginx, FrontForTwoReplicasGivesTheInProcessBytes) {
                   dir.File("reference.jsonl"), "--no-progress"},
                  kWait);
   ASSERT_LE(reference.exit_code, 1) << reference.err;
-  CommandResult remote = RunCommand(
-      {CliPath(), "--server", front, "check", dir.File("in.csv"), "--out",
-       dir.File("remote.jsonl"), "--jobs", "4", "--batch-size", "100",
-       "--no-progress"},
-      kWait);
+  CommandResult remote =
+      RunCommand({CliPath(), "--server", front, "check", dir.File("in.csv"),
+                  "--out", dir.File("remote.jsonl"), "--jobs", "4",
+                  "--batch-size", "100", "--no-progress"},
+                 kWait);
   EXPECT_EQ(remote.exit_code, reference.exit_code) << remote.err;
   EXPECT_TRUE(ReadAll(dir.File("remote.jsonl")) ==
               ReadAll(dir.File("reference.jsonl")))
