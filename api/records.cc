@@ -68,6 +68,7 @@ CompositionInput CompositionInputFromProto(
   in.declared_states = record.declared_states();
   in.geometry = record.geometry();
   in.spin_state = record.spin_state();
+  in.variables = record.variables();
   if (record.has_measured_moment()) {
     in.measured_moment = record.measured_moment();
   }

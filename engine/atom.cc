@@ -5,7 +5,10 @@
 #include <mutex>
 #include <utility>
 
+#include "absl/strings/match.h"
+#include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
+#include "absl/strings/strip.h"
 #include "engine/aufbau.h"
 #include "engine/internal/data_tables.h"
 #include "engine/internal/text.h"
@@ -78,6 +81,31 @@ absl::StatusOr<int> ParseCharge(absl::string_view spec,
                            " after the charge"));
   }
   return sign * magnitude;
+}
+
+// `text` with superscript digits and signs ("³⁺") as ASCII ("3+").
+std::string WithoutSuperscripts(absl::string_view text) {
+  static constexpr std::pair<absl::string_view, char> kForms[] = {
+      {"\u2070", '0'}, {"\u00B9", '1'}, {"\u00B2", '2'}, {"\u00B3", '3'},
+      {"\u2074", '4'}, {"\u2075", '5'}, {"\u2076", '6'}, {"\u2077", '7'},
+      {"\u2078", '8'}, {"\u2079", '9'}, {"\u207A", '+'}, {"\u207B", '-'}};
+  std::string out;
+  while (!text.empty()) {
+    bool replaced = false;
+    for (const auto& [form, ascii] : kForms) {
+      if (absl::StartsWith(text, form)) {
+        out.push_back(ascii);
+        text.remove_prefix(form.size());
+        replaced = true;
+        break;
+      }
+    }
+    if (!replaced) {
+      out.push_back(text.front());
+      text.remove_prefix(1);
+    }
+  }
+  return out;
 }
 
 // Outermost shell; for d-block also (n-1)d; for f-block also (n-1)d and
@@ -405,11 +433,29 @@ absl::StatusOr<SpeciesSpec> ParseSpeciesSpec(absl::string_view spec) {
   if (!e.ok()) return e.status();
   out.element = *e;
   if (i < spec.size()) {
-    absl::StatusOr<int> charge = ParseCharge(spec, spec.substr(i));
+    const std::string ascii = WithoutSuperscripts(spec.substr(i));
+    absl::StatusOr<int> charge = ParseCharge(spec, ascii);
     if (!charge.ok()) return charge.status();
     out.charge = *charge;
   }
   return out;
+}
+
+absl::StatusOr<int> ParseOxidationState(absl::string_view text) {
+  std::string ascii = WithoutSuperscripts(absl::StripAsciiWhitespace(text));
+  if (ascii.empty()) {
+    return absl::InvalidArgumentError("oxidation state is empty");
+  }
+  absl::string_view v = ascii;
+  int plain = 0;
+  if (absl::SimpleAtoi(absl::StripPrefix(v, "+"), &plain)) return plain;
+  // Roman numerals, with or without parentheses and sign: "III", "-II".
+  const size_t sign = v.front() == '+' || v.front() == '-' ? 1 : 0;
+  if (v.size() > sign && (v[sign] == 'I' || v[sign] == 'V' || v[sign] == 'X')) {
+    ascii = absl::StrCat("(", v, ")");
+    v = ascii;
+  }
+  return ParseCharge(text, v);
 }
 
 absl::StatusOr<AtomQuery> ParseAtomQuery(absl::string_view spec,

@@ -53,10 +53,16 @@ struct SpeciesSpec {
   std::optional<int> charge;
 };
 
-// Parses the forms listed in the file comment. INVALID_ARGUMENT names the
-// spec and what is wrong with it (unknown element, malformed charge,
-// invalid Roman numeral, trailing text).
+// Parses the forms listed in the file comment, and superscript charges
+// ("Fe³⁺", "O²⁻"). INVALID_ARGUMENT names the spec and what is wrong with
+// it (unknown element, malformed charge, invalid Roman numeral, trailing
+// text).
 absl::StatusOr<SpeciesSpec> ParseSpeciesSpec(absl::string_view spec);
+
+// An oxidation state written as a declared state or a charge: "3", "+3",
+// "-2", "3+", "2-", Roman "III" or "(III)", "-II", superscript "³⁺".
+// INVALID_ARGUMENT naming `text` otherwise.
+absl::StatusOr<int> ParseOxidationState(absl::string_view text);
 
 // The usual written form of a species, which ParseSpeciesSpec reads back:
 // "Fe" (charge 0), "Fe3+", "Cl-", "O2-".

@@ -83,9 +83,12 @@ bool ParseElementList(absl::string_view text, absl::string_view what,
   return true;
 }
 
+// "3", "+3", "3+", "III", "-II" (as `atom` reads a charge).
 bool ParseState(absl::string_view v, int* state) {
-  if (!v.empty() && v.front() == '+') v.remove_prefix(1);
-  return absl::SimpleAtoi(v, state) && *state >= -9 && *state <= 9;
+  absl::StatusOr<int> parsed = ParseOxidationState(v);
+  if (!parsed.ok()) return false;
+  *state = *parsed;
+  return *state >= -9 && *state <= 9;
 }
 
 template <typename T>
@@ -310,8 +313,20 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     return std::move(r);
   };
 
+  FormulaOptions formula_options;
+  if (!input.variables.empty()) {
+    absl::StatusOr<std::vector<FormulaVariable>> variables =
+        ParseFormulaVariables(input.variables);
+    if (!variables.ok()) {
+      Add(&r, Severity::kError, codes::kMalformedVariables,
+          std::string(variables.status().message()));
+      return finish();
+    }
+    formula_options.variables = *std::move(variables);
+  }
   FormulaIssue issue;
-  absl::StatusOr<Formula> formula = ParseFormula(input.formula, &issue);
+  absl::StatusOr<Formula> formula =
+      ParseFormula(input.formula, formula_options, &issue);
   if (!formula.ok()) {
     Add(&r, Severity::kError, issue.code,
         absl::StrCat("formula ", QuoteForMessage(input.formula), ": ",
@@ -322,6 +337,23 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
   for (FormulaIssue& w : formula->warnings) {  // Not needed again.
     Add(&r, Severity::kWarning, std::move(w.code), std::move(w.message),
         w.column);
+  }
+  for (FormulaIssue& i : formula->infos) {
+    Add(&r, Severity::kInfo, std::move(i.code), std::move(i.message), i.column);
+  }
+  // A charge suffix ("NH4+") gives the net charge; a record charge must
+  // agree with it.
+  std::optional<int> net_charge = input.net_charge;
+  if (formula->charge.has_value()) {
+    if (net_charge.has_value() && *net_charge != *formula->charge) {
+      Add(&r, Severity::kError, codes::kChargeContradictsFormula,
+          absl::StrCat("formula ", QuoteForMessage(input.formula),
+                       " carries charge ", *formula->charge > 0 ? "+" : "",
+                       *formula->charge, " but the record's charge is ",
+                       *net_charge > 0 ? "+" : "", *net_charge));
+      return finish();
+    }
+    net_charge = formula->charge;
   }
 
   // Per-record settings.
@@ -353,7 +385,7 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     Add(&r, Severity::kError, codes::kMalformedElementSettings, error);
   }
   OxidationOptions options;
-  options.net_charge = input.net_charge.value_or(0);
+  options.net_charge = net_charge.value_or(0);
   options.max_alternatives = input.max_alternatives;
   for (const auto& [e, state] : declared) {
     bool present = false;
@@ -472,12 +504,14 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     const double measured = *input.measured_moment;
     const double tolerance =
         input.moment_tolerance.value_or(kDefaultMomentTolerance);
-    if (r.kind != CompositionKind::kIonic) {
+    // A bad value is an error even where the check itself is skipped.
+    const bool bad_values = !std::isfinite(measured) || measured < 0 ||
+                            !std::isfinite(tolerance) || tolerance < 0;
+    if (r.kind != CompositionKind::kIonic && !bad_values) {
       Add(&r, Severity::kInfo, codes::kMomentCheckSkipped,
           "local-moment estimates do not apply to metallic or elemental "
           "compositions; the measured moment was not checked");
-    } else if (!std::isfinite(measured) || measured < 0 ||
-               !std::isfinite(tolerance) || tolerance < 0) {
+    } else if (bad_values) {
       Add(&r, Severity::kError, codes::kMalformedRecord,
           "measured_moment and moment_tolerance must be finite and "
           "non-negative");

@@ -63,6 +63,8 @@ struct CompositionInput {
   std::optional<double> measured_moment;   // μB per formula unit.
   std::optional<double> moment_tolerance;  // μB; default 0.5.
   int max_alternatives = 0;  // 0..5: further assignments to report.
+  // Values of the formula's variables: "x=0.3, δ=0.05" (formula.h).
+  std::string variables;
 };
 
 enum class Severity { kError, kWarning, kInfo };

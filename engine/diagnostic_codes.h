@@ -29,6 +29,13 @@ inline constexpr char kMalformedFormula[] = "malformed_formula";
 inline constexpr char kUnknownElement[] = "unknown_element";
 inline constexpr char kNestingTooDeep[] = "nesting_too_deep";
 inline constexpr char kCountTooLarge[] = "count_too_large";
+// A count uses x, y or z and the record gives no value for it.
+inline constexpr char kVariableWithoutValue[] = "variable_without_value";
+// A record's variables field that cannot be read.
+inline constexpr char kMalformedVariables[] = "malformed_variables";
+// The formula's charge suffix ("NH4+") and the record's charge differ.
+inline constexpr char kChargeContradictsFormula[] =
+    "charge_contradicts_formula";
 // The record (engine/composition.h). kMalformedRecord also answers a line
 // that the clients' readers cannot read as a record.
 inline constexpr char kIdTooLong[] = "id_too_long";
@@ -67,6 +74,10 @@ inline constexpr char kMomentCheckSkipped[] = "moment_check_skipped";
 inline constexpr char kMixedValenceSearchLimited[] =
     "mixed_valence_search_limited";
 inline constexpr char kAlternativesLimited[] = "alternatives_limited";
+// Formula notations (engine/formula.h): δ or d taken as 0, and a part
+// "·nH2O" of unknown hydration left out.
+inline constexpr char kNonstoichiometryAssumed[] = "nonstoichiometry_assumed";
+inline constexpr char kUnknownHydration[] = "unknown_hydration";
 
 }  // namespace shellwright::codes
 

@@ -4,7 +4,10 @@
 #include <utility>
 
 #include "absl/container/inlined_vector.h"
+#include "absl/strings/match.h"
 #include "absl/strings/str_cat.h"
+#include "absl/strings/str_split.h"
+#include "absl/strings/strip.h"
 #include "engine/diagnostic_codes.h"
 #include "engine/internal/text.h"
 
@@ -50,17 +53,157 @@ bool CheckedMultiply(const Rational& a, const Rational& b, Rational* out) {
   return true;
 }
 
+// Superscript digits 0-9 and signs, as UTF-8.
+constexpr absl::string_view kSuperscriptDigits[] = {
+    "\u2070", "\u00B9", "\u00B2", "\u00B3", "\u2074",
+    "\u2075", "\u2076", "\u2077", "\u2078", "\u2079"};
+constexpr absl::string_view kSuperscriptPlus = "\u207A";
+constexpr absl::string_view kSuperscriptMinus = "\u207B";
+
+bool IsDigitChar(char c) { return c >= '0' && c <= '9'; }
+
+// A lone element symbol ("Fe"), which takes trailing digits as its charge.
+bool IsLoneSymbol(absl::string_view text) {
+  return !text.empty() && text.size() <= 3 && text[0] >= 'A' &&
+         text[0] <= 'Z' && FindElementBySymbol(text) != nullptr;
+}
+
+// The charge suffix at the end of `text` (formula.h's rules): returns its
+// length in bytes and sets `charge`, or 0 when there is none.
+size_t ChargeSuffix(absl::string_view text, int* charge) {
+  // Superscripts: digits, then a sign; "²⁻", "⁺".
+  for (const auto& [sign_text, sign] :
+       {std::pair{kSuperscriptPlus, 1}, std::pair{kSuperscriptMinus, -1}}) {
+    if (!absl::EndsWith(text, sign_text)) continue;
+    size_t end = text.size() - sign_text.size();
+    int magnitude = 0, place = 1;
+    bool any = false;
+    while (true) {
+      bool matched = false;
+      for (int d = 0; d < 10; ++d) {
+        if (absl::EndsWith(text.substr(0, end), kSuperscriptDigits[d])) {
+          end -= kSuperscriptDigits[d].size();
+          magnitude += d * place;
+          place *= 10;
+          matched = any = true;
+          break;
+        }
+      }
+      if (!matched || place > 100) break;
+    }
+    if (end > 0 && text[end - 1] == '^') --end;
+    *charge = sign * (any ? magnitude : 1);
+    return end == 0 ? 0 : text.size() - end;
+  }
+  if (text.empty() || (text.back() != '+' && text.back() != '-')) {
+    // "Fe+3": a lone symbol with a sign and digits.
+    size_t digits = text.size();
+    while (digits > 0 && IsDigitChar(text[digits - 1])) --digits;
+    if (digits < text.size() && text.size() - digits <= 2 && digits > 1 &&
+        (text[digits - 1] == '+' || text[digits - 1] == '-') &&
+        IsLoneSymbol(text.substr(0, digits - 1))) {
+      int magnitude = 0;
+      for (size_t i = digits; i < text.size(); ++i) {
+        magnitude = magnitude * 10 + (text[i] - '0');
+      }
+      *charge = (text[digits - 1] == '-' ? -1 : 1) * magnitude;
+      return text.size() - digits + 1;
+    }
+    return 0;
+  }
+  const int sign = text.back() == '-' ? -1 : 1;
+  size_t digits = text.size() - 1;
+  while (digits > 0 && IsDigitChar(text[digits - 1]) &&
+         text.size() - 1 - digits < 2) {
+    --digits;
+  }
+  const absl::string_view before = text.substr(0, digits);
+  int magnitude = 1;
+  bool digits_are_charge = false;
+  size_t start = text.size() - 1;
+  if (digits < text.size() - 1) {
+    digits_are_charge = absl::EndsWith(before, "^") ||
+                        absl::EndsWith(before, ")") ||
+                        absl::EndsWith(before, "]") || IsLoneSymbol(before);
+    if (digits_are_charge) {
+      magnitude = 0;
+      for (size_t i = digits; i < text.size() - 1; ++i) {
+        magnitude = magnitude * 10 + (text[i] - '0');
+      }
+      start = digits;
+    }
+  }
+  if (start > 0 && text[start - 1] == '^') --start;
+  if (start == 0) return 0;  // Nothing but a charge: not a formula.
+  *charge = sign * magnitude;
+  return text.size() - start;
+}
+
+// A variable at the start of `text` ("x", "δ"); its length, or 0.
+size_t VariableAt(absl::string_view text, std::string* name) {
+  if (text.empty()) return 0;
+  if (text[0] == 'x' || text[0] == 'y' || text[0] == 'z' || text[0] == 'd') {
+    *name = std::string(1, text[0]);
+    return 1;
+  }
+  if (absl::StartsWith(text, "\u03B4")) {  // δ
+    *name = "\u03B4";
+    return 2;
+  }
+  return 0;
+}
+
+// A decimal with at most kMaxCountDecimals decimals, as an exact value.
+bool ParseDecimal(absl::string_view text, Rational* out) {
+  bool negative = false;
+  if (!text.empty() && (text[0] == '-' || text[0] == '+')) {
+    negative = text[0] == '-';
+    text.remove_prefix(1);
+  }
+  int64_t num = 0, den = 1;
+  bool any = false, dot = false;
+  for (char c : text) {
+    if (c == '.' && !dot) {
+      dot = true;
+      continue;
+    }
+    if (!IsDigitChar(c)) return false;
+    if (num > kMaxFormulaCount * 1000000) return false;
+    num = num * 10 + (c - '0');
+    if (dot) {
+      den *= 10;
+      if (den > 1000000) return false;
+    }
+    any = true;
+  }
+  if (!any) return false;
+  *out = Rational(negative ? -num : num, den);
+  return true;
+}
+
 class FormulaParser {
  public:
-  explicit FormulaParser(absl::string_view text) : text_(text) {}
+  FormulaParser(absl::string_view text, const FormulaOptions& options)
+      : text_(text), full_text_(text), options_(options) {}
 
   absl::StatusOr<Formula> Parse(FormulaIssue* error) {
     Formula formula;
+    int charge = 0;
+    if (const size_t suffix = ChargeSuffix(text_, &charge); suffix > 0) {
+      text_.remove_suffix(suffix);
+      formula.charge = charge;
+    }
     std::array<int, kMaxAtomicNumber + 1> slot;
     slot.fill(-1);
     while (true) {
       const size_t part_start = pos_;
       Rational multiplier(1);
+      // "·nH2O": hydration not known; parsed, then left out.
+      const bool unknown_amount =
+          part_ > 0 && pos_ + 1 < text_.size() && text_[pos_] == 'n' &&
+          (IsUpper(text_[pos_ + 1]) || text_[pos_ + 1] == '(' ||
+           text_[pos_ + 1] == '[');
+      if (unknown_amount) ++pos_;
       if (pos_ < text_.size() && IsAsciiDigit(text_[pos_])) {
         if (!ParseCount(&multiplier, /*warn_hydrate=*/false)) {
           return Failed(error);
@@ -93,8 +236,19 @@ class FormulaParser {
         }
         return Failed(error);
       }
+      if (unknown_amount) {
+        infos_.push_back(FormulaIssue{
+            codes::kUnknownHydration, Column(part_start),
+            absl::StrCat("the part at column ", Column(part_start),
+                         " has an unknown multiplier 'n' and is left out "
+                         "of the analysis")});
+        terms_.resize(first_term);
+        groups_.resize(first_group);
+        items.clear();
+      }
       formula.amounts.reserve(formula.amounts.size() + items.size());
       for (auto& [element, count] : items) {
+        if (count.IsZero()) continue;  // "Sr0" once x = 0.
         Rational total;
         if (!CheckedMultiply(count, multiplier, &total)) {
           Fail(codes::kCountTooLarge, part_start, "stoichiometry is too large");
@@ -136,7 +290,13 @@ class FormulaParser {
       }
       return Failed(error);
     }
+    if (formula.amounts.empty() && !infos_.empty()) {
+      Fail(codes::kMalformedFormula, 0,
+           "nothing is left once the parts of unknown amount are left out");
+      return Failed(error);
+    }
     formula.warnings = std::move(warnings_);
+    formula.infos = std::move(infos_);
     formula.terms = std::move(terms_);
     formula.groups = std::move(groups_);
     return formula;
@@ -205,8 +365,85 @@ class FormulaParser {
 
   absl::Status Failed(FormulaIssue* error) {
     if (error != nullptr) *error = issue_;
-    return absl::InvalidArgumentError(
-        absl::StrCat("formula ", QuoteForMessage(text_), ": ", issue_.message));
+    return absl::InvalidArgumentError(absl::StrCat(
+        "formula ", QuoteForMessage(full_text_), ": ", issue_.message));
+  }
+
+  // The value of variable `name` written at `byte_pos`: the record's, or
+  // 0 for δ and d (noted once), or an error for x, y and z.
+  bool VariableValue(const std::string& name, size_t byte_pos, Rational* v) {
+    for (const FormulaVariable& given : options_.variables) {
+      if (given.name == name) {
+        *v = given.value;
+        return true;
+      }
+    }
+    if (name == "d" || name == "\u03B4") {
+      *v = Rational(0);
+      for (const FormulaIssue& i : infos_) {
+        if (i.code == codes::kNonstoichiometryAssumed &&
+            absl::StrContains(i.message, absl::StrCat("'", name, "'"))) {
+          return true;
+        }
+      }
+      infos_.push_back(FormulaIssue{
+          codes::kNonstoichiometryAssumed, Column(byte_pos),
+          absl::StrCat("nonstoichiometry '", name, "' at column ",
+                       Column(byte_pos),
+                       " is analysed at 0; give its value in the record's "
+                       "variables (e.g. ",
+                       name, "=0.1) to analyse another")});
+      return true;
+    }
+    Fail(codes::kVariableWithoutValue, byte_pos,
+         absl::StrCat("variable '", name, "' at column ", Column(byte_pos),
+                      " has no value; give it in the record's variables, "
+                      "e.g. ",
+                      name, "=0.3"));
+    return false;
+  }
+
+  // A count with a variable at pos_, after `number` (when `had_number`):
+  // "-δ", "+x", "-0.5x" after a number, or a bare "x". Sets `count` and
+  // returns true, or false on error; leaves everything alone when there
+  // is none.
+  bool ParseVariableCount(size_t start, bool had_number, Rational* count) {
+    std::string name;
+    size_t p = pos_;
+    int sign = 1;
+    Rational factor(1);
+    if (had_number) {
+      if (p >= text_.size() || (text_[p] != '+' && text_[p] != '-')) {
+        return true;
+      }
+      sign = text_[p] == '-' ? -1 : 1;
+      ++p;
+      size_t q = p;
+      while (q < text_.size() && (IsAsciiDigit(text_[q]) || text_[q] == '.')) {
+        ++q;
+      }
+      if (q > p && !ParseDecimal(text_.substr(p, q - p), &factor)) return true;
+      p = q;
+    }
+    const size_t var_pos = p;
+    const size_t len = VariableAt(text_.substr(p), &name);
+    if (len == 0) return true;
+    // "Cd", "Nd": a lower-case letter that continues an element symbol was
+    // taken by the symbol before this is reached.
+    Rational value;
+    if (!VariableValue(name, var_pos, &value)) return false;
+    const Rational base = had_number ? *count : Rational(0);
+    const Rational result = base + Rational(sign) * factor * value;
+    if (result.num() < 0) {
+      Fail(codes::kMalformedFormula, start,
+           absl::StrCat("count at column ", Column(start), " is negative (",
+                        result.ToString(), ") with ", name, "=",
+                        value.ToString()));
+      return false;
+    }
+    *count = result;
+    pos_ = var_pos + len;
+    return true;
   }
 
   size_t SeparatorLength(size_t p) const {
@@ -252,7 +489,7 @@ class FormulaParser {
       ++digits;
       pos_ += used;
     }
-    if (digits == 0) return true;
+    if (digits == 0) return ParseVariableCount(start, false, count);
     int64_t frac_num = 0, frac_den = 1;
     int decimals = 0;
     if (!subscript && pos_ < text_.size() && text_[pos_] == '.' &&
@@ -293,7 +530,7 @@ class FormulaParser {
            absl::StrCat("count at column ", Column(start), " is zero"));
       return false;
     }
-    return true;
+    return ParseVariableCount(start, true, count);
   }
 
   // Parses items until end, a separator, or a closing bracket. A closing
@@ -310,8 +547,21 @@ class FormulaParser {
         if (end < text_.size() && IsLower(text_[end])) {
           while (end < text_.size() && IsLower(text_[end])) ++end;
         }
-        const absl::string_view symbol = text_.substr(start, end - start);
+        absl::string_view symbol = text_.substr(start, end - start);
         const Element* element = FindElementBySymbol(symbol);
+        std::string variable;
+        if (element == nullptr && symbol.size() >= 2 &&
+            VariableAt(symbol.substr(symbol.size() - 1), &variable) == 1 &&
+            FindElementBySymbol(symbol.substr(0, symbol.size() - 1)) !=
+                nullptr) {
+          // "Srx": Sr with count x.
+          symbol.remove_suffix(1);
+          end -= 1;
+          element = FindElementBySymbol(symbol);
+        }
+        if (element == nullptr && (symbol == "D" || symbol == "T")) {
+          element = FindElementBySymbol("H");  // Deuterium, tritium.
+        }
         if (element == nullptr) {
           Fail(codes::kUnknownElement, start,
                absl::StrCat("unknown element ", QuoteForMessage(symbol),
@@ -395,13 +645,30 @@ class FormulaParser {
         return true;
       }
       if (IsLower(c)) {
-        std::string upper(1, static_cast<char>(c - 'a' + 'A'));
+        // Suggest only real symbols: "fe" -> "Fe", "o" -> "O"; never "E".
+        std::string suggestion(1, static_cast<char>(c - 'a' + 'A'));
+        if (pos_ + 1 < text_.size() && IsLower(text_[pos_ + 1]) &&
+            FindElementBySymbol(suggestion + text_[pos_ + 1]) != nullptr) {
+          suggestion += text_[pos_ + 1];
+        } else if (FindElementBySymbol(suggestion) == nullptr) {
+          suggestion.clear();
+        }
         Fail(codes::kMalformedFormula, pos_,
-             absl::StrCat("lowercase '", std::string(1, c), "' at column ",
-                          Column(pos_),
-                          " does not start an element symbol (symbols start "
-                          "with a capital: did you mean '",
-                          upper, "'?)"));
+             absl::StrCat(
+                 "lowercase '", std::string(1, c), "' at column ", Column(pos_),
+                 " does not start an element symbol (symbols start "
+                 "with a capital",
+                 suggestion.empty()
+                     ? std::string(")")
+                     : absl::StrCat(": did you mean '", suggestion, "'?)")));
+        return false;
+      }
+      if (c == '.' && pos_ + 1 < text_.size() && IsUpper(text_[pos_ + 1])) {
+        // "SO4.H2O": a period for the hydrate dot.
+        Fail(codes::kMalformedFormula, pos_,
+             absl::StrCat("'.' at column ", Column(pos_),
+                          " is a decimal point, not a separator; for a "
+                          "hydrate write '\u00B7' or '*' instead"));
         return false;
       }
       if (IsAsciiDigit(c) || c == '.') {
@@ -416,7 +683,10 @@ class FormulaParser {
     return true;
   }
 
-  absl::string_view text_;
+  absl::string_view text_;       // Without the charge suffix.
+  absl::string_view full_text_;  // As given, for messages.
+  const FormulaOptions& options_;
+  std::vector<FormulaIssue> infos_;
   size_t pos_ = 0;
   int part_ = 0;            // Adduct part being parsed.
   int current_group_ = -1;  // Innermost open group, or -1.
@@ -435,6 +705,7 @@ Rational Formula::TotalAtoms() const {
 }
 
 absl::StatusOr<Formula> ParseFormula(absl::string_view text,
+                                     const FormulaOptions& options,
                                      FormulaIssue* error) {
   if (text.size() > kMaxFormulaLength) {
     FormulaIssue issue{
@@ -444,7 +715,50 @@ absl::StatusOr<Formula> ParseFormula(absl::string_view text,
     if (error != nullptr) *error = issue;
     return absl::InvalidArgumentError(issue.message);
   }
-  return FormulaParser(text).Parse(error);
+  return FormulaParser(text, options).Parse(error);
+}
+
+absl::StatusOr<Formula> ParseFormula(absl::string_view text,
+                                     FormulaIssue* error) {
+  static const FormulaOptions* const kNone = new FormulaOptions;
+  return ParseFormula(text, *kNone, error);
+}
+
+absl::StatusOr<std::vector<FormulaVariable>> ParseFormulaVariables(
+    absl::string_view text) {
+  std::vector<FormulaVariable> out;
+  for (absl::string_view part : absl::StrSplit(text, absl::ByAnyChar(",;"))) {
+    part = absl::StripAsciiWhitespace(part);
+    if (part.empty()) continue;
+    const size_t eq = part.find('=');
+    FormulaVariable v;
+    std::string name;
+    const absl::string_view key =
+        eq == absl::string_view::npos
+            ? part
+            : absl::StripAsciiWhitespace(part.substr(0, eq));
+    if (eq == absl::string_view::npos || VariableAt(key, &name) != key.size() ||
+        key.empty()) {
+      return absl::InvalidArgumentError(absl::StrCat(
+          "variables: ", QuoteForMessage(part),
+          " is not NAME=VALUE with NAME one of x, y, z, d, \u03B4"));
+    }
+    v.name = name;
+    if (!ParseDecimal(absl::StripAsciiWhitespace(part.substr(eq + 1)),
+                      &v.value)) {
+      return absl::InvalidArgumentError(
+          absl::StrCat("variables: the value of ", name, " in ",
+                       QuoteForMessage(part), " is not a decimal number"));
+    }
+    for (const FormulaVariable& seen : out) {
+      if (seen.name == name) {
+        return absl::InvalidArgumentError(
+            absl::StrCat("variables: ", name, " is given twice"));
+      }
+    }
+    out.push_back(std::move(v));
+  }
+  return out;
 }
 
 }  // namespace shellwright

@@ -13,6 +13,23 @@
 // (CuSO4.5H2O) parses as written, but earns the warning
 // "possible_hydrate_typo": the author may have meant CuSO4·5H2O.
 //
+// Notations that composition records use (docs/method.md, "Formula
+// notations"):
+//   - a charge suffix sets Formula::charge: a sign at the end ("NH4+",
+//     "OH-": digits before it after a symbol are that symbol's count), or
+//     digits and a sign after a closing bracket ("[Fe(H2O)6]2+"), after
+//     '^' ("SO4^2-") or in superscript ("SO₄²⁻", "Fe³⁺"); a lone symbol
+//     takes digits and sign as its charge, as `atom` does ("Fe3+", "Fe+3");
+//   - nonstoichiometry: a count may be a variable (x, y, z, d or δ) or a
+//     number plus or minus a number times a variable ("O7-δ", "La1-xSrx",
+//     "Li1+xMn2-xO4", "Fe1-0.5x"). Values come from
+//     FormulaOptions::variables; δ and d without one are taken as 0 with
+//     the info "nonstoichiometry_assumed"; x, y and z without one are the
+//     error "variable_without_value";
+//   - a part whose multiplier is 'n' ("CuSO4·nH2O": unknown hydration) is
+//     left out of the amounts, with the info "unknown_hydration";
+//   - D and T (deuterium, tritium) count as hydrogen.
+//
 // Limits: kMaxFormulaLength bytes, nesting depth kMaxFormulaDepth, each
 // count at most kMaxFormulaCount with at most kMaxCountDecimals decimals.
 // Errors carry a code, a 1-based column (in characters) and the offending
@@ -35,6 +52,7 @@
 #ifndef SHELLWRIGHT_ENGINE_FORMULA_H_
 #define SHELLWRIGHT_ENGINE_FORMULA_H_
 
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -86,10 +104,30 @@ struct WrittenGroup {
   Rational multiplier;  // count times the enclosing groups' counts.
 };
 
+// The value of a variable written in a formula's counts.
+struct FormulaVariable {
+  std::string name;  // "x", "y", "z", "d" or "δ".
+  Rational value;
+};
+
+struct FormulaOptions {
+  std::vector<FormulaVariable> variables;
+};
+
+// Parses a record's variables: "x=0.3", "x=0.3, δ=0.05" (',' or ';'
+// between them; values are decimals with at most kMaxCountDecimals
+// decimals). INVALID_ARGUMENT naming the part that is wrong.
+absl::StatusOr<std::vector<FormulaVariable>> ParseFormulaVariables(
+    absl::string_view text);
+
 struct Formula {
   // One entry per element, in order of first appearance.
   std::vector<ElementAmount> amounts;
   std::vector<FormulaIssue> warnings;
+  // Remarks that do not need a look: δ taken as 0, hydration left out.
+  std::vector<FormulaIssue> infos;
+  // The net charge a charge suffix gives ("NH4+": +1); nullopt without.
+  std::optional<int> charge;
   // The formula as written: every symbol in order, and every group.
   std::vector<WrittenTerm> terms;
   std::vector<WrittenGroup> groups;
@@ -103,6 +141,12 @@ struct Formula {
 // "empty_formula", "formula_too_long", "malformed_formula",
 // "unknown_element", "nesting_too_deep", "count_too_large".
 absl::StatusOr<Formula> ParseFormula(absl::string_view text,
+                                     FormulaIssue* error = nullptr);
+
+// The same with the values of the formula's variables; also
+// "variable_without_value".
+absl::StatusOr<Formula> ParseFormula(absl::string_view text,
+                                     const FormulaOptions& options,
                                      FormulaIssue* error = nullptr);
 
 }  // namespace shellwright

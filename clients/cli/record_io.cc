@@ -428,7 +428,8 @@ absl::Status CsvRecordReader::ReadHeader(absl::string_view line) {
                                                    "spin_state",
                                                    "measured_moment",
                                                    "moment_tolerance",
-                                                   "max_alternatives"};
+                                                   "max_alternatives",
+                                                   "variables"};
   std::vector<std::string> columns;
   std::string error;
   if (!SplitCsvLine(line, &columns, &error)) {
@@ -513,6 +514,7 @@ ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) {
   }
   if (!Field(kGeometry).empty()) p.record.set_geometry(Field(kGeometry));
   if (!Field(kSpinState).empty()) p.record.set_spin_state(Field(kSpinState));
+  if (!Field(kVariables).empty()) p.record.set_variables(Field(kVariables));
   auto parse_int = [&](Column k, const char* name, auto setter) {
     const absl::string_view v = absl::StripAsciiWhitespace(Field(k));
     if (v.empty()) return true;

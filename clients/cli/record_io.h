@@ -6,13 +6,13 @@
 //     regard to case or surrounding spaces); `id` and `formula` are
 //     required, and `charge`, `declared_states`, `geometry`,
 //     `spin_state`, `measured_moment`, `moment_tolerance`,
-//     `max_alternatives` are understood (other columns are ignored, and
-//     listed by unknown_columns()). One
-//     record per line: fields may be quoted ("a, b"), with "" for a quote
-//     inside, but may not span lines (a line break inside quotes would let
-//     one broken quote swallow the records after it; the output promises
-//     one report per input line). Empty lines are skipped, and row numbers
-//     keep counting them. A record whose id is empty is malformed.
+//     `max_alternatives`, `variables` are understood (other columns are
+//     ignored, and listed by unknown_columns()). One record per line: fields
+//     may be quoted ("a, b"), with "" for a quote inside, but may not span
+//     lines (a line break inside quotes would let one broken quote swallow the
+//     records after it; the output promises one report per input line). Empty
+//     lines are skipped, and row numbers keep counting them. A record whose id
+//     is empty is malformed.
 //   - JSONL: one shellwright.v1.CompositionRecord JSON object per line
 //     (proto field names). A key that is no field is ignored with an
 //     "unknown_field" warning in the record's report (naming the field it
@@ -150,6 +150,7 @@ class CsvRecordReader {
     kMeasuredMoment,
     kMomentTolerance,
     kMaxAlternatives,
+    kVariables,
     kColumns
   };
   // The field of column k in the last split line, or "" when absent.

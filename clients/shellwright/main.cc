@@ -223,6 +223,7 @@ struct CompoundFlags {
   std::string declared;
   std::string element_geometry;
   std::string element_spin_state;
+  std::string variables;
   double measured_moment = 0;
   CLI::Option* measured_option = nullptr;
   double moment_tolerance = 0;
@@ -238,7 +239,8 @@ CLI::App* AddCompound(CLI::App* app, CompoundFlags* f) {
                           "moments");
   compound
       ->add_option("FORMULA", f->formula,
-                   "\"Fe3O4\", \"La0.7Sr0.3MnO3\", \"CuSO4·5H2O\"")
+                   "\"Fe3O4\", \"La0.7Sr0.3MnO3\", \"CuSO4·5H2O\", "
+                   "\"[Fe(H2O)6]2+\", \"YBa2Cu3O7-δ\"")
       ->required();
   f->charge_option =
       compound
@@ -252,6 +254,9 @@ CLI::App* AddCompound(CLI::App* app, CompoundFlags* f) {
       "ligand-field geometry per element, e.g. \"Co:tetrahedral\"");
   compound->add_option("--element-spin-state", f->element_spin_state,
                        "spin state per element, e.g. \"Co:low\"");
+  compound->add_option("--variables", f->variables,
+                       "values of the formula's variables, e.g. \"x=0.3\" "
+                       "for La1-xSrxMnO3 (δ and d default to 0)");
   f->measured_option = compound
                            ->add_option("--measured-moment", f->measured_moment,
                                         "measured moment, μB per formula unit")
@@ -279,6 +284,7 @@ int RunCompound(const CompoundFlags& f, bool quiet, Backend& backend) {
   if (!f.element_spin_state.empty()) {
     record.set_spin_state(f.element_spin_state);
   }
+  record.set_variables(f.variables);
   if (f.measured_option->count() > 0) {
     record.set_measured_moment(f.measured_moment);
   }

@@ -437,5 +437,58 @@ TEST(Cli, ConnectionFailureSaysWhatWasTriedAndWhatToCheck) {
   EXPECT_EQ(Count(r.err, "\n"), 1) << r.err;
 }
 
+TEST(Cli, DoneWhenChargedComplexIsValidWithChargePlusTwo) {
+  // Issue 16: [Fe(H2O)6]2+ is hexaaquairon(II): Fe+2, water neutral
+  // (Greenwood and Earnshaw, from memory).
+  CommandResult r = Cli({"compound", "[Fe(H2O)6]2+", "--json"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  v1::RecordReport report;
+  ASSERT_TRUE(google::protobuf::util::JsonStringToMessage(r.out, &report).ok());
+  EXPECT_TRUE(report.valid());
+  double charge = 0;
+  for (const v1::OxidationState& s : report.oxidation_states()) {
+    charge += s.state() * s.count();
+    if (s.element() == "Fe") EXPECT_EQ(s.state(), 2);
+  }
+  EXPECT_DOUBLE_EQ(charge, 2);
+  // A record charge that contradicts the suffix is an error.
+  CommandResult contradicts =
+      Cli({"compound", "[Fe(H2O)6]2+", "--charge", "3", "--json"});
+  EXPECT_EQ(contradicts.exit_code, 1);
+  EXPECT_THAT(contradicts.out, HasSubstr("charge_contradicts_formula"));
+}
+
+TEST(Cli, DoneWhenNonstoichiometricCuprateIsValidWithAnInfo) {
+  CommandResult r = Cli({"compound", "YBa2Cu3O7-δ", "--json"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  v1::RecordReport report;
+  ASSERT_TRUE(google::protobuf::util::JsonStringToMessage(r.out, &report).ok());
+  EXPECT_TRUE(report.valid());
+  bool info = false;
+  for (const v1::Diagnostic& d : report.diagnostics()) {
+    info |= d.severity() == "info" && d.code() == "nonstoichiometry_assumed";
+  }
+  EXPECT_TRUE(info) << r.out;
+  CommandResult given =
+      Cli({"compound", "La1-xSrxMnO3", "--variables", "x=0.3", "--quiet"});
+  EXPECT_EQ(given.exit_code, 0) << given.out;
+  EXPECT_THAT(given.out, HasSubstr("La+3 ×7/10"));
+  CommandResult missing = Cli({"compound", "La1-xSrxMnO3"});
+  EXPECT_EQ(missing.exit_code, 1);
+  EXPECT_THAT(missing.out, HasSubstr("variable_without_value"));
+}
+
+TEST(Cli, SuperscriptChargesAndDeclaredStatesInEveryForm) {
+  CommandResult atom = Cli({"atom", "Fe³⁺", "--json"});
+  ASSERT_EQ(atom.exit_code, 0) << atom.err;
+  EXPECT_EQ(ParseJson(atom.out).charge(), 3);
+  for (const char* declared : {"Fe:III", "Fe:3+", "Fe:+3", "Fe:3"}) {
+    CommandResult r =
+        Cli({"compound", "Fe2O3", "--declared", declared, "--quiet"});
+    EXPECT_EQ(r.exit_code, 0) << declared << r.out;
+    EXPECT_THAT(r.out, HasSubstr("Fe+3 ×2")) << declared;
+  }
+}
+
 }  // namespace
 }  // namespace shellwright

@@ -317,7 +317,9 @@ std::vector<BadCase> BadCases() {
       {"Fe2o3", "malformed_formula", 4},
       {"Fe2O3!", "malformed_formula", 6},
       {"Fe2 O3", "malformed_formula", 4},
-      {"Fe-2", "malformed_formula", 3},
+      {"Fe-2O", "malformed_formula", 3},  // "Fe-2" alone is Fe with -2.
+      {"La1-xSrx", "variable_without_value", 5},
+      {"Fe1-xO", "variable_without_value", 5},
       {"Fe0", "malformed_formula", 3},        // Zero count.
       {"Fe₀", "malformed_formula", 3},        // Zero subscript.
       {"Fe0.0", "malformed_formula", 3},      // Zero decimal count.
@@ -543,6 +545,124 @@ TEST(FormulaWrittenTest, NestedCountsMultiplyAndPartsAreGroups) {
   EXPECT_EQ(f->terms.back().element->symbol, "O");
   EXPECT_EQ(f->terms.back().multiplier, Rational(6));
   EXPECT_EQ(f->terms.back().part, 1);
+}
+
+}  // namespace
+}  // namespace shellwright
+
+namespace shellwright {
+namespace {
+
+using ::testing::HasSubstr;
+
+// Issue 16: notations that composition records use every day.
+TEST(FormulaNotations, ChargeSuffixesSetTheCharge) {
+  const struct {
+    const char* text;
+    int charge;
+    const char* amounts;  // symbol:count, in order.
+  } kCases[] = {
+      {"NH4+", 1, "N:1 H:4"},  // The 4 is H's count.
+      {"OH-", -1, "O:1 H:1"},
+      {"[Fe(H2O)6]2+", 2, "Fe:1 H:12 O:6"},
+      {"SO4^2-", -2, "S:1 O:4"},
+      {"SO₄²⁻", -2, "S:1 O:4"},
+      {"Fe³⁺", 3, "Fe:1"},
+      {"Fe3+", 3, "Fe:1"},  // A lone symbol: as `atom` reads it.
+      {"Fe+3", 3, "Fe:1"},
+      {"PO4^3-", -3, "P:1 O:4"},
+  };
+  for (const auto& c : kCases) {
+    SCOPED_TRACE(c.text);
+    absl::StatusOr<Formula> f = ParseFormula(c.text);
+    ASSERT_TRUE(f.ok()) << f.status();
+    ASSERT_TRUE(f->charge.has_value());
+    EXPECT_EQ(*f->charge, c.charge);
+    std::string amounts;
+    for (const ElementAmount& a : f->amounts) {
+      absl::StrAppend(&amounts, amounts.empty() ? "" : " ", a.element->symbol,
+                      ":", a.count.ToString());
+    }
+    EXPECT_EQ(amounts, c.amounts);
+  }
+  EXPECT_FALSE(ParseFormula("Fe2O3")->charge.has_value());
+}
+
+TEST(FormulaNotations, NonstoichiometryTakesDeltaAsZeroWithAnInfo) {
+  absl::StatusOr<Formula> f = ParseFormula("YBa2Cu3O7-δ");
+  ASSERT_TRUE(f.ok()) << f.status();
+  EXPECT_EQ(f->amounts.back().count, Rational(7));
+  ASSERT_EQ(f->infos.size(), 1u);
+  EXPECT_EQ(f->infos[0].code, "nonstoichiometry_assumed");
+  FormulaOptions options;
+  options.variables = *ParseFormulaVariables("δ=0.5");
+  absl::StatusOr<Formula> given = ParseFormula("YBa2Cu3O7-δ", options);
+  ASSERT_TRUE(given.ok()) << given.status();
+  EXPECT_EQ(given->amounts.back().count, Rational(13, 2));
+  EXPECT_TRUE(given->infos.empty());
+  // "d" is the same variable in ASCII.
+  EXPECT_EQ(ParseFormula("Fe1-dO")->amounts[0].count, Rational(1));
+}
+
+TEST(FormulaNotations, NamedVariablesNeedValues) {
+  FormulaIssue issue;
+  EXPECT_FALSE(ParseFormula("La1-xSrxMnO3", &issue).ok());
+  EXPECT_EQ(issue.code, "variable_without_value");
+  EXPECT_THAT(issue.message, HasSubstr("x=0.3"));
+  FormulaOptions options;
+  options.variables = *ParseFormulaVariables("x=0.3");
+  absl::StatusOr<Formula> f = ParseFormula("La1-xSrxMnO3", options);
+  ASSERT_TRUE(f.ok()) << f.status();
+  EXPECT_EQ(f->amounts[0].count, Rational(7, 10));  // La
+  EXPECT_EQ(f->amounts[1].count, Rational(3, 10));  // Sr
+  options.variables = *ParseFormulaVariables("x = 0.1; y=2");
+  absl::StatusOr<Formula> spinel = ParseFormula("Li1+xMn2-xO4", options);
+  ASSERT_TRUE(spinel.ok()) << spinel.status();
+  EXPECT_EQ(spinel->amounts[0].count, Rational(11, 10));
+  EXPECT_EQ(spinel->amounts[1].count, Rational(19, 10));
+  // A number times a variable.
+  options.variables = *ParseFormulaVariables("x=0.2");
+  EXPECT_EQ(ParseFormula("Fe1-0.5xO", options)->amounts[0].count,
+            Rational(9, 10));
+  // Negative counts are refused.
+  options.variables = *ParseFormulaVariables("x=1.5");
+  EXPECT_FALSE(ParseFormula("La1-xSrxMnO3", options, &issue).ok());
+  EXPECT_THAT(issue.message, HasSubstr("negative"));
+  // Malformed variables.
+  for (const char* bad : {"x", "q=1", "x=abc", "x=1,x=2"}) {
+    EXPECT_FALSE(ParseFormulaVariables(bad).ok()) << bad;
+  }
+}
+
+TEST(FormulaNotations, UnknownHydrationIsLeftOutWithAnInfo) {
+  absl::StatusOr<Formula> f = ParseFormula("CuSO4·nH2O");
+  ASSERT_TRUE(f.ok()) << f.status();
+  ASSERT_EQ(f->amounts.size(), 3u);  // Cu, S, O: no water.
+  EXPECT_EQ(f->amounts[2].count, Rational(4));
+  ASSERT_EQ(f->infos.size(), 1u);
+  EXPECT_EQ(f->infos[0].code, "unknown_hydration");
+}
+
+TEST(FormulaNotations, DeuteriumAndTritiumAreHydrogen) {
+  absl::StatusOr<Formula> f = ParseFormula("D2O");
+  ASSERT_TRUE(f.ok()) << f.status();
+  EXPECT_EQ(f->amounts[0].element->symbol, "H");
+  EXPECT_EQ(f->amounts[0].count, Rational(2));
+  EXPECT_EQ(ParseFormula("T2O")->amounts[0].element->symbol, "H");
+  // Two-letter symbols still win: Dy, Tb, Ti.
+  EXPECT_EQ(ParseFormula("Dy2O3")->amounts[0].element->symbol, "Dy");
+  EXPECT_EQ(ParseFormula("TiO2")->amounts[0].element->symbol, "Ti");
+}
+
+TEST(FormulaNotations, RegressionDidYouMeanSuggestsRealSymbolsOnly) {
+  // Issue 16: "Fe1e6O" suggested 'E', which is not an element.
+  FormulaIssue issue;
+  EXPECT_FALSE(ParseFormula("Fe1e6O", &issue).ok());
+  EXPECT_THAT(issue.message, ::testing::Not(HasSubstr("did you mean")));
+  EXPECT_FALSE(ParseFormula("feO", &issue).ok());
+  EXPECT_THAT(issue.message, HasSubstr("did you mean 'Fe'?"));
+  EXPECT_FALSE(ParseFormula("o2", &issue).ok());
+  EXPECT_THAT(issue.message, HasSubstr("did you mean 'O'?"));
 }
 
 }  // namespace
