@@ -556,12 +556,14 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     const double measured = *input.measured_moment;
     const double tolerance =
         input.moment_tolerance.value_or(kDefaultMomentTolerance);
-    if (r.kind != CompositionKind::kIonic) {
+    // A bad value is an error even where the check itself is skipped.
+    const bool bad_values = !std::isfinite(measured) || measured < 0 ||
+                            !std::isfinite(tolerance) || tolerance < 0;
+    if (r.kind != CompositionKind::kIonic && !bad_values) {
       Add(&r, Severity::kInfo, codes::kMomentCheckSkipped,
           "local-moment estimates do not apply to metallic or elemental "
           "compositions; the measured moment was not checked");
-    } else if (!std::isfinite(measured) || measured < 0 ||
-               !std::isfinite(tolerance) || tolerance < 0) {
+    } else if (bad_values) {
       Add(&r, Severity::kError, codes::kMalformedRecord,
           "measured_moment and moment_tolerance must be finite and "
           "non-negative");

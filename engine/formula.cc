@@ -663,6 +663,14 @@ class FormulaParser {
                      : absl::StrCat(": did you mean '", suggestion, "'?)")));
         return false;
       }
+      if (c == '.' && pos_ + 1 < text_.size() && IsUpper(text_[pos_ + 1])) {
+        // "SO4.H2O": a period for the hydrate dot.
+        Fail(codes::kMalformedFormula, pos_,
+             absl::StrCat("'.' at column ", Column(pos_),
+                          " is a decimal point, not a separator; for a "
+                          "hydrate write '\u00B7' or '*' instead"));
+        return false;
+      }
       if (IsAsciiDigit(c) || c == '.') {
         Fail(codes::kMalformedFormula, pos_,
              absl::StrCat("misplaced number at column ", Column(pos_),
