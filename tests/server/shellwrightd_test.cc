@@ -733,7 +733,10 @@ TEST(Shellwrightd, DrainAnswersTheBatchInHandThenEndsTheStream) {
   auto stub = Stub(server->address());
   auto context = Context(std::chrono::seconds(90));
   auto stream = stub->AnalyzeRecords(context.get());
-  const v1::RecordBatch batch = HardRecordBatch(20 * kSanitizerSlowdown);
+  // About a second of work in a plain build (20 of these records take
+  // about 0.13 s, so a batch of 20 could be answered, and the server gone,
+  // before the health check below): still in hand when the checks run.
+  const v1::RecordBatch batch = HardRecordBatch(200);
   ASSERT_TRUE(stream->Write(batch));
   // Long enough for the server to have read the batch (a stream still
   // waiting for it when the drain begins is cancelled instead).
