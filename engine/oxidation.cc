@@ -302,9 +302,15 @@ void BuildCandidates(const Plans& plans, const Forbidden& forbidden,
       if (!Allowed(p, static_cast<int>(i), common_only, strict, forbidden, o)) {
         continue;
       }
+      // A radical unit (nitric oxide, superoxide) ranks after a
+      // closed-shell one of the same atoms when both balance: nitroprusside
+      // holds NO+ and Fe(II), not NO and Fe(III).
+      const Weight weight =
+          unit
+              ? Weight::Of(0, 0, 0, p.scaled_count * p.units[o.index]->unpaired)
+              : OptionWeight(o, p.scaled_count, above);
       const Candidate& added = candidates->all.emplace_back(
-          Candidate{o.index, o.low, o.high,
-                    unit ? Weight() : OptionWeight(o, p.scaled_count, above),
+          Candidate{o.index, o.low, o.high, weight,
                     Weight::Of(0, 0, o.low_extra_gap, 0)});
       list.min_weight = std::min(list.min_weight, added.weight);
       if (!p.declared && o.uncommon > 0) {

@@ -40,7 +40,10 @@
 //      sulfate S+6, phosphate P+5 (common practice, no source); the gap
 //      counts once per atom;
 //   4. smallest spread: the sum over mixed-valence elements of
-//      count x (upper state - lower state), so single valence wins ties.
+//      count x (upper state - lower state), so single valence wins ties,
+//      plus count x unpaired electrons of each radical unit, so that a
+//      closed-shell unit of the same atoms wins a tie (nitroprusside holds
+//      NO+ and Fe(II), not NO and Fe(III); KO2's superoxide scores 1).
 // `score` combines them as 100 x uncommon + 10 x inconsistencies + group
 // gap + spread; 0 is a perfect assignment and lower is better.
 //
