@@ -189,6 +189,19 @@ int FindClass(const Tables& t,
   return -1;
 }
 
+// Adds `n` atoms of `e` to a composition signature.
+void AddToSignature(const Element* e, const Rational& n,
+                    absl::InlinedVector<std::pair<int, Rational>, 8>* sig) {
+  auto it = std::find_if(sig->begin(), sig->end(), [&](const auto& s) {
+    return s.first == e->atomic_number;
+  });
+  if (it == sig->end()) {
+    sig->emplace_back(e->atomic_number, n);
+  } else {
+    it->second = it->second + n;
+  }
+}
+
 UnitMatch MakeMatch(const Tables& t, int unit_class, int first, int end,
                     int group, int enclosing, const Rational& count) {
   const Tables::UnitClass& c = t.classes[unit_class];
@@ -258,16 +271,7 @@ UnitMatches FindUnitMatches(const Formula& formula) {
     absl::InlinedVector<std::pair<int, Rational>, 8> signature;
     for (int i = group.first_term; i < group.end_term; ++i) {
       const WrittenTerm& term = formula.terms[i];
-      const Rational n = term.count * term.multiplier;
-      auto it =
-          std::find_if(signature.begin(), signature.end(), [&](const auto& s) {
-            return s.first == term.element->atomic_number;
-          });
-      if (it == signature.end()) {
-        signature.emplace_back(term.element->atomic_number, n);
-      } else {
-        it->second = it->second + n;
-      }
+      AddToSignature(term.element, term.count * term.multiplier, &signature);
     }
     std::sort(signature.begin(), signature.end(),
               [](const auto& a, const auto& b) { return a.first < b.first; });
@@ -289,25 +293,16 @@ UnitMatches FindUnitMatches(const Formula& formula) {
     if (group.bracket == '*') continue;
     const int level = group.parent;
     absl::InlinedVector<std::pair<int, Rational>, 8> signature;
-    auto add = [&signature](const Element* e, const Rational& n) {
-      auto it = std::find_if(
-          signature.begin(), signature.end(),
-          [&](const auto& s) { return s.first == e->atomic_number; });
-      if (it == signature.end()) {
-        signature.emplace_back(e->atomic_number, n);
-      } else {
-        it->second = it->second + n;
-      }
-    };
     for (int i = group.first_term; i < group.end_term; ++i) {
-      add(formula.terms[i].element,
-          formula.terms[i].count * formula.terms[i].multiplier);
+      AddToSignature(formula.terms[i].element,
+                     formula.terms[i].count * formula.terms[i].multiplier,
+                     &signature);
     }
     for (int k = group.first_term - 1;
          k >= 0 && k >= group.first_term - 3 && formula.terms[k].group == level;
          --k) {
       const WrittenTerm& term = formula.terms[k];
-      add(term.element, term.count * term.multiplier);
+      AddToSignature(term.element, term.count * term.multiplier, &signature);
       auto sorted = signature;
       std::sort(sorted.begin(), sorted.end(),
                 [](const auto& a, const auto& b) { return a.first < b.first; });

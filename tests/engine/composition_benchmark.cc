@@ -91,10 +91,11 @@ std::vector<std::string> DistinctFormulas(int n) {
   return out;
 }
 
-void BM_AnalyzeDistinctFormula(benchmark::State& state) {
-  const std::vector<std::string> formulas = DistinctFormulas(20000);
+// Analyses `formulas` in turn, with `alternatives` alternatives each.
+void AnalyzeInTurn(benchmark::State& state,
+                   const std::vector<std::string>& formulas, int alternatives) {
   CompositionInput in;
-  in.max_alternatives = static_cast<int>(state.range(0));
+  in.max_alternatives = alternatives;
   size_t i = 0;
   for (auto _ : state) {
     in.formula = formulas[i];
@@ -102,6 +103,11 @@ void BM_AnalyzeDistinctFormula(benchmark::State& state) {
     benchmark::DoNotOptimize(r);
     if (++i == formulas.size()) i = 0;
   }
+}
+
+void BM_AnalyzeDistinctFormula(benchmark::State& state) {
+  AnalyzeInTurn(state, DistinctFormulas(20000),
+                static_cast<int>(state.range(0)));
 }
 BENCHMARK(BM_AnalyzeDistinctFormula)->Arg(0)->Arg(2);
 
@@ -153,15 +159,7 @@ std::vector<std::string> UnitFormulas(int n) {
 }
 
 void BM_AnalyzeUnitFormula(benchmark::State& state) {
-  const std::vector<std::string> formulas = UnitFormulas(20000);
-  CompositionInput in;
-  size_t i = 0;
-  for (auto _ : state) {
-    in.formula = formulas[i];
-    CompositionReport r = AnalyzeComposition(in);
-    benchmark::DoNotOptimize(r);
-    if (++i == formulas.size()) i = 0;
-  }
+  AnalyzeInTurn(state, UnitFormulas(20000), 0);
 }
 BENCHMARK(BM_AnalyzeUnitFormula);
 
