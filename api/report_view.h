@@ -256,7 +256,7 @@ void VisitState(const AssignedState& s, const std::vector<AssignedUnit>& units,
         v.Bool(SHELLWRIGHT_REPORT_FIELD(declared), s.declared);
         v.String(SHELLWRIGHT_REPORT_FIELD(unit),
                  unit != nullptr ? absl::string_view(unit->name)
-                                 : absl::string_view());
+                                 : absl::string_view(""));
       });
 }
 

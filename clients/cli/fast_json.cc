@@ -32,6 +32,7 @@ char* WriteJsonString(absl::string_view s, char* out) {
   *out++ = '"';
   size_t run = 0;  // Start of the pending run of plain bytes.
   auto flush = [&](size_t i) {
+    if (i == run) return;  // Also keeps a null empty view out of memcpy.
     std::memcpy(out, s.data() + run, i - run);
     out += i - run;
   };
