@@ -137,7 +137,20 @@ struct OxidationAssignment {
   double score = 0;  // 100 x uncommon + 10 x inconsistencies + gap + spread.
 };
 
-enum class CompositionKind { kIonic, kMetallic, kElemental };
+// The bonding class of a composition (engine/bonding.h decides it):
+// ionic (formal oxidation states apply: ionic and polar covalent
+// compounds), metallic (metals only), elemental (one element),
+// intermetallic (transition or rare-earth metals with metalloids or small
+// interstitial atoms: borides, silicides, carbides, nitrides, hydrides;
+// every state 0) and zintl (electropositive metals with p-block polyanions
+// balanced by the 8-N rule).
+enum class CompositionKind {
+  kIonic,
+  kMetallic,
+  kElemental,
+  kIntermetallic,
+  kZintl
+};
 
 template <>
 struct EnumNames<CompositionKind> {
@@ -145,7 +158,9 @@ struct EnumNames<CompositionKind> {
   static constexpr NamedValue<CompositionKind> kNames[] = {
       {CompositionKind::kIonic, "ionic"},
       {CompositionKind::kMetallic, "metallic"},
-      {CompositionKind::kElemental, "elemental"}};
+      {CompositionKind::kElemental, "elemental"},
+      {CompositionKind::kIntermetallic, "intermetallic"},
+      {CompositionKind::kZintl, "zintl"}};
 };
 
 struct DeclaredState {

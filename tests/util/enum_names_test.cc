@@ -75,7 +75,7 @@ TEST(EnumNames, EveryProjectTableRoundTrips) {
   ExpectRoundTrip(SpinStatePreference::kAuto, SpinStatePreference::kLow);
   ExpectRoundTrip(SpinState::kHigh, SpinState::kLow);
   ExpectRoundTrip(Severity::kError, Severity::kInfo);
-  ExpectRoundTrip(CompositionKind::kIonic, CompositionKind::kElemental);
+  ExpectRoundTrip(CompositionKind::kIonic, CompositionKind::kZintl);
   ExpectRoundTrip(Block::kS, Block::kF);
   ExpectRoundTrip(MomentBasis::kSpinOnly, MomentBasis::kJ);
   ExpectRoundTrip(Parity::kEven, Parity::kOdd);
