@@ -147,7 +147,7 @@ using Reading = absl::InlinedVector<const UnitMatch*, 4>;
 // Declared elements take exactly their declared states.
 bool MakePlans(const Formula& formula, int64_t scale,
                const OxidationOptions& options, const Reading& reading,
-               Plans* out) {
+               bool zintl, Plans* out) {
   Plans& plans = *out;
   plans.clear();
   plans.reserve(formula.amounts.size() + reading.size());
@@ -205,7 +205,10 @@ bool MakePlans(const Formula& formula, int64_t scale,
     const bool zero = pi_acceptor && p.element->block == Block::kD;
     const int limit =
         soft_only ? internal::ChalcogenideMaxState(*p.element) : -1;
-    if (!zero && limit < 0) continue;
+    // In a Zintl phase the polyanion atoms take -(8 - N) to -1, all
+    // common (N valence electrons: Si-1 in CaSi2, Tl-1 in NaTl).
+    const bool polyanion = zintl && IsZintlAnionFormer(*p.element);
+    if (!zero && limit < 0 && !polyanion) continue;
     p.custom = true;
     bool zero_added = !zero;
     auto add = [&p, limit](int low, int high, bool low_common,
@@ -220,7 +223,14 @@ bool MakePlans(const Formula& formula, int64_t scale,
       p.fixed_options.push_back(o);
       if (o.low_common && o.high_common) p.fixed_common_options.push_back(o);
     };
+    if (polyanion) {
+      for (int q = p.element->group - 18; q <= -1; ++q) {
+        add(q, q, true, true);
+        if (q < -1) add(q, q + 1, true, true);
+      }
+    }
     for (const StateOption& o : internal::StateOptions(*p.element)) {
+      if (polyanion && o.low < 0) continue;
       if (!zero_added && o.low > 0) {
         add(0, 0, true, true);
         zero_added = true;
@@ -408,6 +418,7 @@ struct Search {
   int64_t target = 0;  // Net charge in scaled units.
   bool one_mixed = false;
   bool strict = true;   // See Allowed.
+  bool zintl = false;   // Polyanion states by the 8-N rule (MakePlans).
   UnitMatches matches;  // Of the formula, but those on declared elements.
   internal::WorkBudget budget{internal::kRecordCellVisits, false};
 };
@@ -598,7 +609,9 @@ BestReading SearchReadings(const Formula& formula,
           best.terms.weak_open_atoms == 0) {
         continue;
       }
-      if (!MakePlans(formula, scale, options, reading, &plans)) continue;
+      if (!MakePlans(formula, scale, options, reading, search->zintl, &plans)) {
+        continue;
+      }
       const Weight bound =
           best.found ? Weight::FromPacked(best.solution.weight.packed() + 1)
                      : Weight::Infinite();
@@ -784,6 +797,16 @@ bool IsMetal(const Element& e) {
   return (*kMetal)[e.atomic_number];
 }
 
+namespace {
+
+// The formal-state search of AssignOxidationStates, for an ionic
+// composition or, with `zintl`, a Zintl phase.
+absl::StatusOr<OxidationResult> AssignStates(const Formula& formula,
+                                             const OxidationOptions& options,
+                                             bool zintl);
+
+}  // namespace
+
 absl::StatusOr<OxidationResult> AssignOxidationStates(
     const Formula& formula, const OxidationOptions& options) {
   if (formula.amounts.empty()) {
@@ -806,32 +829,67 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
     }
   }
   OxidationResult result;
+  result.bonding = ClassifyBonding(formula);
   bool declared_all_zero = true;
   for (const DeclaredState& d : options.declared) {
     declared_all_zero &= d.state == 0;
   }
-  if (options.net_charge == 0 && declared_all_zero) {
-    bool all_metal = true;
-    for (const ElementAmount& a : formula.amounts) {
-      all_metal &= IsMetal(*a.element);
-    }
-    if (formula.amounts.size() == 1 || all_metal) {
-      result.kind = formula.amounts.size() == 1 ? CompositionKind::kElemental
-                                                : CompositionKind::kMetallic;
-      OxidationAssignment a;
-      a.states.reserve(formula.amounts.size());
-      for (const ElementAmount& amount : formula.amounts) {
-        bool declared = false;
-        for (const DeclaredState& d : options.declared) {
-          declared |= d.element == amount.element;
-        }
-        a.states.push_back({amount.element, 0, amount.count, true, declared});
+  const CompositionKind kind = result.bonding.kind;
+  // A net charge or a declared non-zero state asks for formal states.
+  if (options.net_charge == 0 && declared_all_zero &&
+      kind != CompositionKind::kIonic && kind != CompositionKind::kZintl) {
+    result.kind = kind;
+    OxidationAssignment a;
+    a.states.reserve(formula.amounts.size());
+    for (const ElementAmount& amount : formula.amounts) {
+      bool declared = false;
+      for (const DeclaredState& d : options.declared) {
+        declared |= d.element == amount.element;
       }
-      result.best = std::move(a);
-      return result;
+      a.states.push_back({amount.element, 0, amount.count, true, declared});
     }
+    result.best = std::move(a);
+    if (kind == CompositionKind::kIntermetallic) {
+      // The best ionic reading, for the user who wants one, first among
+      // the alternatives.
+      OxidationOptions ionic = options;
+      ionic.max_alternatives = std::max(0, options.max_alternatives - 1);
+      absl::StatusOr<OxidationResult> formal =
+          AssignStates(formula, ionic, /*zintl=*/false);
+      if (formal.ok() && formal->best.has_value()) {
+        result.alternatives.push_back(*std::move(formal->best));
+        for (OxidationAssignment& other : formal->alternatives) {
+          result.alternatives.push_back(std::move(other));
+        }
+        result.alternatives_cut = formal->alternatives_cut;
+      }
+    }
+    return result;
   }
+  if (kind == CompositionKind::kZintl) {
+    absl::StatusOr<OxidationResult> zintl =
+        AssignStates(formula, options, /*zintl=*/true);
+    if (!zintl.ok() || zintl->best.has_value()) {
+      if (zintl.ok()) {
+        zintl->kind = kind;
+        zintl->bonding = result.bonding;
+      }
+      return zintl;
+    }
+    // No 8-N balance: formal states as for any compound.
+  }
+  absl::StatusOr<OxidationResult> formal =
+      AssignStates(formula, options, /*zintl=*/false);
+  if (formal.ok()) formal->bonding = result.bonding;
+  return formal;
+}
 
+namespace {
+
+absl::StatusOr<OxidationResult> AssignStates(const Formula& formula,
+                                             const OxidationOptions& options,
+                                             bool zintl) {
+  OxidationResult result;
   // Scale counts to integers.
   int64_t scale = 1;
   for (const ElementAmount& a : formula.amounts) {
@@ -856,6 +914,7 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
     ~Release() { internal::ReleaseSearchScratch(); }
   } release;
   Search search;
+  search.zintl = zintl;
   search.target = static_cast<int64_t>(options.net_charge) * scale;
   if (WideSearchCells(formula, scale, search.target) <=
       internal::kMaxSearchCells) {
@@ -882,5 +941,7 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
   }
   return limited;
 }
+
+}  // namespace
 
 }  // namespace shellwright

@@ -78,6 +78,7 @@
 
 #include "absl/status/statusor.h"
 #include "absl/types/span.h"
+#include "engine/bonding.h"
 #include "engine/element.h"
 #include "engine/formula.h"
 #include "engine/rational.h"
@@ -137,32 +138,6 @@ struct OxidationAssignment {
   double score = 0;  // 100 x uncommon + 10 x inconsistencies + gap + spread.
 };
 
-// The bonding class of a composition (engine/bonding.h decides it):
-// ionic (formal oxidation states apply: ionic and polar covalent
-// compounds), metallic (metals only), elemental (one element),
-// intermetallic (transition or rare-earth metals with metalloids or small
-// interstitial atoms: borides, silicides, carbides, nitrides, hydrides;
-// every state 0) and zintl (electropositive metals with p-block polyanions
-// balanced by the 8-N rule).
-enum class CompositionKind {
-  kIonic,
-  kMetallic,
-  kElemental,
-  kIntermetallic,
-  kZintl
-};
-
-template <>
-struct EnumNames<CompositionKind> {
-  static constexpr absl::string_view kWhat = "composition kind";
-  static constexpr NamedValue<CompositionKind> kNames[] = {
-      {CompositionKind::kIonic, "ionic"},
-      {CompositionKind::kMetallic, "metallic"},
-      {CompositionKind::kElemental, "elemental"},
-      {CompositionKind::kIntermetallic, "intermetallic"},
-      {CompositionKind::kZintl, "zintl"}};
-};
-
 struct DeclaredState {
   const Element* element;
   int state;
@@ -175,7 +150,13 @@ struct OxidationOptions {
 };
 
 struct OxidationResult {
+  // The bonding class the assignment was made for: an intermetallic,
+  // metallic or elemental composition (neutral, with no declared non-zero
+  // state) has every state 0, and an intermetallic one its best ionic
+  // reading, where one balances, as the first alternative; a Zintl phase
+  // balances with its polyanions' 8-N states. `bonding` says why.
   CompositionKind kind = CompositionKind::kIonic;
+  BondingClass bonding;
   // Empty when no assignment balances the charge.
   std::optional<OxidationAssignment> best;
   std::vector<OxidationAssignment> alternatives;  // Best first.

@@ -1,0 +1,179 @@
+#include "engine/bonding.h"
+
+#include <algorithm>
+
+#include "engine/oxidation.h"
+
+namespace shellwright {
+namespace {
+
+// Halogens and chalcogens: with any of them, formal states apply.
+bool IsAnionFormer(const Element& e) {
+  const int z = e.atomic_number;
+  return z == 8 || z == 9 || z == 16 || z == 17 || z == 34 || z == 35 ||
+         z == 52 || z == 53;
+}
+
+bool IsAlkaliOrAlkalineEarth(const Element& e) {
+  return (e.group == 1 && e.atomic_number != 1) || e.group == 2;
+}
+
+// Europium and ytterbium, divalent in their Zintl phases (EuIn2P2,
+// Yb14MnSb11).
+bool IsDivalentRareEarth(const Element& e) {
+  return e.atomic_number == 63 || e.atomic_number == 70;
+}
+
+// Transition metals of groups 3 to 11 and the f-block metals: the group
+// 12 metals (Zn, Cd, Hg) keep a filled d shell and act as main-group
+// cations.
+bool IsTransitionOrRareEarth(const Element& e) {
+  if (e.block == Block::kF) return true;
+  return e.block == Block::kD && e.group >= 3 && e.group <= 11;
+}
+
+bool IsGroup3OrFBlock(const Element& e) {
+  return e.block == Block::kF || e.group == 3;
+}
+
+// Boron, silicon and germanium: with a transition or rare-earth metal
+// they form borides, silicides and germanides, metallic whatever the
+// ratio (MoSi2, LaB6).
+bool IsBorideFormer(const Element& e) {
+  return e.atomic_number == 5 || e.atomic_number == 14 ||
+         e.atomic_number == 32;
+}
+
+// The Zintl line: the electronegativity difference from which an alkali
+// or alkaline-earth metal gives up its electrons to a p-block metal
+// (NaTl 0.69, LiAl 0.63; Mg17Al12 at 0.30 stays metallic). Common
+// practice, no source.
+constexpr double kZintlMetalDifference = 0.6;
+
+// Boron-rich borides (CaB6, LaB6): a covalent boron framework, metallic
+// or semiconducting, with no integral 8-N balance. Common practice, no
+// source.
+constexpr int kBoronRichRatio = 4;
+
+}  // namespace
+
+bool IsZintlAnionFormer(const Element& e) {
+  if (e.block != Block::kP) return false;
+  const int z = e.atomic_number;
+  if (z == 6 || z == 7) return false;
+  return (e.group >= 13 && e.group <= 15) && z <= 83;
+}
+
+BondingClass ClassifyBonding(const Formula& formula) {
+  BondingClass c;
+  double weighted = 0, atoms_with_value = 0;
+  double most = 0, least = 0;
+  bool first = true;
+  Rational metal_atoms, nonmetal_atoms, boride_atoms, boron_atoms;
+  bool all_metal = true, anion_former = false, s_block = false;
+  bool divalent_rare_earth = false, other_transition = false;
+  bool group3_f_only = true, all_nonmetals_zintl = true;
+  for (const ElementAmount& a : formula.amounts) {
+    const Element& e = *a.element;
+    if (e.pauling_electronegativity.has_value()) {
+      const double x = *e.pauling_electronegativity;
+      const double n = a.count.ToDouble();
+      weighted += n * x;
+      atoms_with_value += n;
+      most = first ? x : std::max(most, x);
+      least = first ? x : std::min(least, x);
+      first = false;
+    }
+    if (IsMetal(e)) {
+      metal_atoms = metal_atoms + a.count;
+      s_block |= IsAlkaliOrAlkalineEarth(e);
+      if (IsDivalentRareEarth(e)) {
+        divalent_rare_earth = true;
+      } else if (IsTransitionOrRareEarth(e)) {
+        other_transition = true;
+        group3_f_only &= IsGroup3OrFBlock(e);
+      }
+    } else {
+      all_metal = false;
+      nonmetal_atoms = nonmetal_atoms + a.count;
+      anion_former |= IsAnionFormer(e);
+      all_nonmetals_zintl &= IsZintlAnionFormer(e);
+      if (IsBorideFormer(e)) boride_atoms = boride_atoms + a.count;
+      if (e.atomic_number == 5) boron_atoms = boron_atoms + a.count;
+    }
+  }
+  if (atoms_with_value > 0) {
+    c.electronegativity_mean = weighted / atoms_with_value;
+    c.electronegativity_difference = most - least;
+  }
+  const bool transition = other_transition || divalent_rare_earth;
+
+  if (formula.amounts.size() == 1) {
+    c.kind = CompositionKind::kElemental;
+    c.rule = "a single element";
+    return c;
+  }
+  if (all_metal) {
+    bool p_metal = false;
+    for (const ElementAmount& a : formula.amounts) {
+      p_metal |= IsZintlAnionFormer(*a.element);
+    }
+    if (s_block && p_metal && !transition &&
+        c.electronegativity_difference >= kZintlMetalDifference) {
+      c.kind = CompositionKind::kZintl;
+      c.rule =
+          "an alkali or alkaline-earth metal with a p-block metal across "
+          "the Zintl line";
+      return c;
+    }
+    c.kind = CompositionKind::kMetallic;
+    c.rule = "metals only";
+    return c;
+  }
+  if (anion_former) {
+    c.kind = CompositionKind::kIonic;
+    c.rule = "a halogen or chalcogen anion";
+    return c;
+  }
+  if (other_transition) {
+    // Borides, silicides and germanides, unless boron sits in a
+    // borohydride or the like (more other non-metal atoms than B, Si, Ge).
+    if (!boride_atoms.IsZero() &&
+        !(boride_atoms < nonmetal_atoms - boride_atoms)) {
+      c.kind = CompositionKind::kIntermetallic;
+      c.rule = "a transition or rare-earth metal with boron, silicon or "
+               "germanium";
+      return c;
+    }
+    // Metal-rich carbides, nitrides, hydrides and pnictides: interstitial
+    // or metallic (Fe3C, TiN, LaNi5H6, NiAs). Rare-earth and group 3
+    // monopnictides and mononitrides (GdN, LaSb, ScN) are ionic rock-salt
+    // compounds: with those metals alone the composition must be strictly
+    // metal-rich.
+    if (group3_f_only ? nonmetal_atoms < metal_atoms
+                      : !(metal_atoms < nonmetal_atoms)) {
+      c.kind = CompositionKind::kIntermetallic;
+      c.rule = "metal-rich: an interstitial carbide, nitride, hydride or "
+               "pnictide";
+      return c;
+    }
+    c.kind = CompositionKind::kIonic;
+    c.rule = "non-metal-rich";
+    return c;
+  }
+  if ((s_block || divalent_rare_earth) && all_nonmetals_zintl) {
+    if (!(boron_atoms < Rational(kBoronRichRatio) * metal_atoms)) {
+      c.kind = CompositionKind::kIntermetallic;
+      c.rule = "a boron-rich boride";
+      return c;
+    }
+    c.kind = CompositionKind::kZintl;
+    c.rule = "an electropositive metal with p-block polyanions";
+    return c;
+  }
+  c.kind = CompositionKind::kIonic;
+  c.rule = "formal oxidation states apply";
+  return c;
+}
+
+}  // namespace shellwright
