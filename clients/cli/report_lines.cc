@@ -280,6 +280,8 @@ class CsvGatherer : public TopLevelVisitor {
       formula = v;
     } else if (f.name == "composition_kind") {
       kind = v;
+    } else if (f.name == "moment_model") {
+      model = v;
     }
   }
   template <typename F>
@@ -291,10 +293,13 @@ class CsvGatherer : public TopLevelVisitor {
     for (size_t i = 0; i < std::size(kNumberColumns); ++i) {
       if (f.name == kNumberColumns[i]) numbers[i] = v;
     }
+    if (f.name == "saturation_moment_per_formula_unit") saturation = v;
+    if (f.name == "total_valence_electrons") total_valence = v;
   }
   template <typename F>
   void Bool(const F& f, bool v) {
     if (f.name == "valid") valid = v;
+    if (f.name == "saturation_moment_estimated") estimated = v;
   }
   template <typename F, typename Items, typename Visit>
   void Messages(const F& f, const Items& items, Visit visit) {
@@ -357,6 +362,18 @@ class CsvGatherer : public TopLevelVisitor {
       } else {
         out->push_back(',');
       }
+    }
+    // No estimate is a blank, not 0 (Fe2VAl's estimate is 0).
+    if (valid && estimated) {
+      absl::StrAppend(out, ",", saturation);
+    } else {
+      out->push_back(',');
+    }
+    CsvField(model, out);
+    if (valid) {
+      absl::StrAppend(out, ",", total_valence);
+    } else {
+      out->push_back(',');
     }
     CsvField(ions, out);
     CsvField(codes, out);
@@ -430,10 +447,12 @@ class CsvGatherer : public TopLevelVisitor {
 
   int32_t row = 0;
   // Views into the report being walked, which outlives the gatherer.
-  absl::string_view id, formula, kind;
+  absl::string_view id, formula, kind, model;
   std::string states, ions, codes, messages;
   bool valid = false;
   double numbers[std::size(kNumberColumns)] = {};
+  double saturation = 0, total_valence = 0;
+  bool estimated = false;
 };
 
 // Writes the line of whatever `walk(visitor)` walks.
@@ -460,7 +479,9 @@ std::string ReportCsvHeader() {
   return "row,id,valid,formula,composition_kind,oxidation_states,score,"
          "unpaired_per_formula_unit,effective_moment_per_formula_unit,"
          "expected_moment_low,expected_moment_high,curie_constant,"
-         "valence_electron_concentration,ions,diagnostic_codes,diagnostics";
+         "valence_electron_concentration,saturation_moment_per_formula_unit,"
+         "moment_model,total_valence_electrons,ions,diagnostic_codes,"
+         "diagnostics";
 }
 
 void AppendReportLine(ReportLineFormat format, const v1::RecordReport& report,
