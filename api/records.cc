@@ -84,15 +84,16 @@ CompositionInput CompositionInputFromProto(
 
 void RecordReportToProto(const CompositionReport& report,
                          const v1::CompositionRecord& record,
-                         v1::RecordReport* out) {
+                         v1::RecordReport* out, const ReportMask& mask) {
   out->Clear();
   ProtoBuilder<v1::RecordReport> builder(out);
-  VisitRecordReport(report, record, builder);
+  VisitRecordReport(report, record, mask, builder);
 }
 
-void AnalyzeRecord(const v1::CompositionRecord& record, v1::RecordReport* out) {
+void AnalyzeRecord(const v1::CompositionRecord& record, v1::RecordReport* out,
+                   const ReportMask& mask) {
   RecordReportToProto(AnalyzeComposition(CompositionInputFromProto(record)),
-                      record, out);
+                      record, out, mask);
 }
 
 void MalformedRecordReport(const v1::CompositionRecord& partial,

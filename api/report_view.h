@@ -63,6 +63,7 @@
 
 #include "absl/strings/string_view.h"
 #include "api/records.h"
+#include "api/report_mask.h"
 #include "engine/composition.h"
 #include "engine/rational.h"
 #include "shellwright/v1/electron_structure.pb.h"
@@ -401,7 +402,6 @@ void VisitRecordReport(const CompositionReport& r,
            number(r.total_valence_electrons));
 }
 
-namespace report_view_internal {}  // namespace report_view_internal
 }  // namespace shellwright
 
 // The generated walk of the messages (it uses NamedField, above).
@@ -417,6 +417,24 @@ namespace shellwright {
 template <typename Visitor>
 void VisitRecordReport(const v1::RecordReport& report, Visitor& v) {
   report_view_internal::WalkRecordReport(report, v);
+}
+
+// The walks above, passing on only the top-level fields `mask` wants
+// (api/report_mask.h): the others are not visited.
+template <typename Visitor>
+void VisitRecordReport(const CompositionReport& r,
+                       const v1::CompositionRecord& record,
+                       const ReportMask& mask, Visitor& v) {
+  if (mask.all()) return VisitRecordReport(r, record, v);
+  MaskedVisitor<Visitor> masked(mask, v);
+  VisitRecordReport(r, record, masked);
+}
+template <typename Visitor>
+void VisitRecordReport(const v1::RecordReport& report, const ReportMask& mask,
+                       Visitor& v) {
+  if (mask.all()) return VisitRecordReport(report, v);
+  MaskedVisitor<Visitor> masked(mask, v);
+  VisitRecordReport(report, masked);
 }
 
 }  // namespace shellwright

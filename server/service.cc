@@ -21,6 +21,7 @@
 #include "absl/time/clock.h"
 #include "api/atoms.h"
 #include "api/records.h"
+#include "api/report_mask.h"
 #include "google/protobuf/io/coded_stream.h"
 #include "google/protobuf/stubs/logging.h"
 #include "grpcpp/ext/proto_server_reflection_plugin.h"
@@ -435,6 +436,13 @@ class RecordStreamReactor final
                        kMaxRecordsPerBatch)));
       return;
     }
+    absl::StatusOr<ReportMask> mask =
+        ReportMask::FromFieldMask(batch_.report_mask());
+    if (!mask.ok()) {
+      FinishAndRecord(ToGrpcStatus(mask.status()));
+      return;
+    }
+    mask_ = *mask;
     // The call itself took the stream's first request.
     if (batches_ > 0 && rate_limiter_ != nullptr && !rate_limiter_->Take()) {
       FinishAndRecord(RateLimited());
@@ -515,7 +523,7 @@ class RecordStreamReactor final
           if (grpc::Status s = Interrupted(); !s.ok()) return s;
         }
         v1::RecordReport* report = reply_.add_reports();
-        AnalyzeRecord(batch_.records(next_record_), report);
+        AnalyzeRecord(batch_.records(next_record_), report, mask_);
         ++records_;
         const size_t report_bytes = ReportFieldBytes(*report);
         if (bytes + report_bytes > kMaxReportBatchBytes &&
@@ -557,6 +565,7 @@ class RecordStreamReactor final
   internal::RateLimiter* const rate_limiter_;  // Null: no rate limit.
   std::shared_ptr<internal::CallTracker::Stream> tracked_;  // Null: refused.
   v1::RecordBatch batch_;
+  ReportMask mask_;      // batch_'s report_mask.
   int next_record_ = 0;  // The next record of batch_ to analyse.
   v1::ReportBatch reply_;
   // A report that did not fit in the last reply; it opens the next one.

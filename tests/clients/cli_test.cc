@@ -107,6 +107,13 @@ TEST(Cli, UsageErrorsExitTwoNamingTheProblem) {
       {{"check", "in.csv", "--jobs", "0"}, "--jobs"},
       {{"check", "in.csv", "--batch-size", "10001"}, "--batch-size"},
       {{"check", "in.csv", "--format", "xml"}, "xml"},
+      // --fields names report fields; a wrong one is named, with the list.
+      {{"check", "in.csv", "--fields", "valid,validity"}, "'validity'"},
+      {{"check", "in.csv", "--fields", "ions.moment"}, "'ions.moment'"},
+      {{"check", "in.csv", "--fields", "validity"},
+       "diagnostics, oxidation_states"},
+      {{"check", "in.csv", "--fields", "valid,,id"}, "--fields"},
+      {{"atom", "Fe", "--fields", "valid"}, "--fields"},
       // Remote settings need a server.
       {{"--tls-ca", "ca.pem", "atom", "Fe"}, "--server"},
       {{"--timeout", "5", "atom", "Fe"}, "--server"},
@@ -120,6 +127,22 @@ TEST(Cli, UsageErrorsExitTwoNamingTheProblem) {
     EXPECT_THAT(r.err, HasSubstr(c.named));
     EXPECT_TRUE(r.out.empty());
   }
+}
+
+TEST(Cli, CheckFieldsWithoutACsvColumnIsAUsageError) {
+  const std::string input = std::string(SHELLWRIGHT_DEFAULT_SOURCE_DIR) +
+                            "/data/demo/sample_registry.csv";
+  CommandResult r = Cli({"check", input, "--fields", "valid,alternatives",
+                         "--out", "-", "--out-format", "csv"});
+  EXPECT_EQ(r.exit_code, 2) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("--fields: 'alternatives' has no CSV column"));
+  EXPECT_THAT(r.err, HasSubstr("oxidation_states"));  // The ones that have.
+  EXPECT_TRUE(r.out.empty());
+  // JSONL has every field.
+  CommandResult jsonl =
+      Cli({"check", input, "--fields", "valid,alternatives", "--out", "-"});
+  EXPECT_EQ(jsonl.exit_code, 1) << jsonl.err;  // The registry has defects.
+  EXPECT_THAT(jsonl.out, HasSubstr("{\"valid\":true,\"alternatives\":[]}\n"));
 }
 
 TEST(Cli, EachCommandHasItsOwnHelp) {
