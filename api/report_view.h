@@ -388,6 +388,18 @@ void VisitRecordReport(const CompositionReport& r,
   v.Double(SHELLWRIGHT_REPORT_FIELD(curie_constant), number(r.curie_constant));
   v.Double(SHELLWRIGHT_REPORT_FIELD(valence_electron_concentration),
            number(r.valence_electron_concentration));
+  const std::optional<double>& saturation =
+      r.saturation_moment_per_formula_unit;
+  v.Double(SHELLWRIGHT_REPORT_FIELD(saturation_moment_per_formula_unit),
+           number(saturation.value_or(0)));
+  v.Bool(SHELLWRIGHT_REPORT_FIELD(saturation_moment_estimated),
+         assigned && saturation.has_value());
+  v.String(SHELLWRIGHT_REPORT_FIELD(moment_model),
+           assigned ? Name(r.moment_model) : "");
+  v.String(SHELLWRIGHT_REPORT_FIELD(moment_note),
+           assigned ? absl::string_view(r.moment_note) : "");
+  v.Double(SHELLWRIGHT_REPORT_FIELD(total_valence_electrons),
+           number(r.total_valence_electrons));
 }
 
 }  // namespace shellwright

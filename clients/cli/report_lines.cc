@@ -289,6 +289,10 @@ constexpr CsvColumn kCsvColumns[] = {
     {"expected_moment_high", "expected_moment_high"},
     {"curie_constant", "curie_constant"},
     {"valence_electron_concentration", "valence_electron_concentration"},
+    {"saturation_moment_per_formula_unit",
+     "saturation_moment_per_formula_unit"},
+    {"moment_model", "moment_model"},
+    {"total_valence_electrons", "total_valence_electrons"},
     {"ions", "ions"},
     {"diagnostic_codes", "diagnostics"},
     {"diagnostics", "diagnostics"}};
@@ -326,6 +330,8 @@ class CsvGatherer : public TopLevelVisitor {
       formula = v;
     } else if (f.name == "composition_kind") {
       kind = v;
+    } else if (f.name == "moment_model") {
+      model = v;
     }
   }
   template <typename F>
@@ -337,10 +343,13 @@ class CsvGatherer : public TopLevelVisitor {
     for (size_t i = 0; i < kFigures; ++i) {
       if (f.name == kCsvColumns[kFirstFigure + i].field) numbers[i] = v;
     }
+    if (f.name == "saturation_moment_per_formula_unit") saturation = v;
+    if (f.name == "total_valence_electrons") total_valence = v;
   }
   template <typename F>
   void Bool(const F& f, bool v) {
     if (f.name == "valid") valid = v;
+    if (f.name == "saturation_moment_estimated") estimated = v;
   }
   template <typename F, typename Items, typename Visit>
   void Messages(const F& f, const Items& items, Visit visit) {
@@ -429,9 +438,19 @@ class CsvGatherer : public TopLevelVisitor {
         CsvField(states, out);
         break;
       case kFirstFigure + kFigures:
-        CsvField(ions, out);
+        // No estimate is a blank, not 0 (Fe2VAl's estimate is 0).
+        if (valid && estimated) absl::StrAppend(out, saturation);
         break;
       case kFirstFigure + kFigures + 1:
+        CsvField(model, out);
+        break;
+      case kFirstFigure + kFigures + 2:
+        if (valid) absl::StrAppend(out, total_valence);
+        break;
+      case kFirstFigure + kFigures + 3:
+        CsvField(ions, out);
+        break;
+      case kFirstFigure + kFigures + 4:
         CsvField(codes, out);
         break;
       default:
@@ -495,10 +514,12 @@ class CsvGatherer : public TopLevelVisitor {
 
   int32_t row = 0;
   // Views into the report being walked, which outlives the gatherer.
-  absl::string_view id, formula, kind;
+  absl::string_view id, formula, kind, model;
   std::string states, ions, codes, messages;
   bool valid = false;
   double numbers[kFigures] = {};
+  double saturation = 0, total_valence = 0;
+  bool estimated = false;
 };
 
 // Writes the line of the fields `mask` wants of whatever `walk(mask,
@@ -508,8 +529,11 @@ void WriteLine(ReportLineFormat format, const ReportMask& mask, Walk walk,
                std::string* out) {
   if (format == ReportLineFormat::kCsv) {
     CsvGatherer csv;
-    // The figures' cells need the verdict.
-    walk(mask.all() ? mask : mask.With("valid"), csv);
+    // The figures' cells need the verdict; the saturation moment's, its
+    // flag.
+    walk(mask.all() ? mask
+                    : mask.With("valid").With("saturation_moment_estimated"),
+         csv);
     csv.Write(mask, out);
     return;
   }

@@ -27,7 +27,7 @@ using ::testing::HasSubstr;
 // (a unit). The checks compare masked with full reports, not with outside
 // values.
 std::vector<v1::CompositionRecord> Records() {
-  std::vector<v1::CompositionRecord> records(2);
+  std::vector<v1::CompositionRecord> records(3);
   records[0].set_id("magnetite");
   records[0].set_row(7);
   records[0].set_formula("Fe3O4");
@@ -36,6 +36,10 @@ std::vector<v1::CompositionRecord> Records() {
   records[1].set_id("ferrocyanide");
   records[1].set_row(8);
   records[1].set_formula("K4[Fe(CN)6]");
+  // A metallic phase: the moment model's fields.
+  records[2].set_id("heusler");
+  records[2].set_row(9);
+  records[2].set_formula("Co2MnAl");
   return records;
 }
 

@@ -185,6 +185,37 @@ TEST(Cli, CompoundTakesSettingsPerElement) {
   }
 }
 
+TEST(Cli, CompoundGivesMetallicMomentEstimates) {
+  // Co2MnAl: M = Z_t - 24 = 28 - 24 = 4 μB (Slater-Pauling rule for
+  // Heusler compounds; measured 4.01, Webster, J. Phys. Chem. Solids 32,
+  // 1221 (1971), from memory).
+  CommandResult r = Cli({"compound", "Co2MnAl", "--json"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  v1::RecordReport report;
+  ASSERT_TRUE(google::protobuf::util::JsonStringToMessage(r.out, &report).ok())
+      << r.out;
+  EXPECT_EQ(report.moment_model(), "slater_pauling_full_heusler");
+  EXPECT_TRUE(report.saturation_moment_estimated());
+  EXPECT_EQ(report.saturation_moment_per_formula_unit(), 4);
+  EXPECT_EQ(report.total_valence_electrons(), 28);
+  EXPECT_EQ(report.unpaired_per_formula_unit(), 0);  // Not 2 x 3 + 5 + 1.
+  // Human output says what the figure is, and that measurement decides.
+  CommandResult human = Cli({"compound", "Co2MnAl"});
+  ASSERT_EQ(human.exit_code, 0) << human.err;
+  EXPECT_THAT(human.out, HasSubstr("Ordered moment: 4 μB per formula unit"));
+  EXPECT_THAT(human.out, HasSubstr("measurement decides"));
+  EXPECT_THAT(human.out, HasSubstr("free-atom configuration"));
+  // Outside every rule: no estimate, and the reason.
+  CommandResult none = Cli({"compound", "Pd", "--json"});
+  ASSERT_TRUE(
+      google::protobuf::util::JsonStringToMessage(none.out, &report).ok());
+  EXPECT_EQ(report.moment_model(), "none");
+  EXPECT_FALSE(report.saturation_moment_estimated());
+  EXPECT_THAT(report.moment_note(), HasSubstr("no estimate"));
+  EXPECT_THAT(Cli({"compound", "Pd"}).out,
+              HasSubstr("Ordered moment: no estimate"));
+}
+
 TEST(Cli, MessagesNameTheOptionThatCarriedTheValue) {
   CommandResult r = Cli({"atom", "Fe", "--charge", "99"});
   EXPECT_EQ(r.exit_code, 1);
