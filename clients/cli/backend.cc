@@ -262,7 +262,8 @@ class RemoteBatchProcessor final : public BatchProcessor {
   absl::Status Process(absl::Span<const ParsedLine> lines,
                        ReportLines* out) override {
     request_.Clear();
-    FieldsToRequest(fields_).ToFieldMask(request_.mutable_report_mask());
+    FieldsToRequest(format_, fields_)
+        .ToFieldMask(request_.mutable_report_mask());
     for (const ParsedLine& line : lines) {
       if (line.error.empty()) *request_.add_records() = line.record;
     }

@@ -522,6 +522,13 @@ class CsvGatherer : public TopLevelVisitor {
   bool estimated = false;
 };
 
+// The fields the CSV cells of `mask`'s columns are made from: the
+// figures' cells need the verdict too; the saturation moment's, its flag.
+ReportMask CsvCellFields(const ReportMask& mask) {
+  return mask.all() ? mask
+                    : mask.With("valid").With("saturation_moment_estimated");
+}
+
 // Writes the line of the fields `mask` wants of whatever `walk(mask,
 // visitor)` walks.
 template <typename Walk>
@@ -529,11 +536,7 @@ void WriteLine(ReportLineFormat format, const ReportMask& mask, Walk walk,
                std::string* out) {
   if (format == ReportLineFormat::kCsv) {
     CsvGatherer csv;
-    // The figures' cells need the verdict; the saturation moment's, its
-    // flag.
-    walk(mask.all() ? mask
-                    : mask.With("valid").With("saturation_moment_estimated"),
-         csv);
+    walk(CsvCellFields(mask), csv);
     csv.Write(mask, out);
     return;
   }
@@ -578,8 +581,10 @@ absl::Status CheckCsvFields(const ReportMask& mask) {
   return absl::OkStatus();
 }
 
-ReportMask FieldsToRequest(const ReportMask& mask) {
-  return mask.With("id").With("row").With("valid").With("diagnostics");
+ReportMask FieldsToRequest(ReportLineFormat format, const ReportMask& mask) {
+  const ReportMask counted =
+      mask.With("id").With("row").With("valid").With("diagnostics");
+  return format == ReportLineFormat::kCsv ? CsvCellFields(counted) : counted;
 }
 
 void AppendReportLine(ReportLineFormat format, const v1::RecordReport& report,

@@ -86,9 +86,10 @@ std::string ReportCsvHeader(const ReportMask& mask = ReportMask());
 // that have columns (alternatives and units have none).
 absl::Status CheckCsvFields(const ReportMask& mask);
 
-// What to ask a server for when the lines show the fields of `mask`:
-// those, and what AddReport counts (id, row, valid, diagnostics).
-ReportMask FieldsToRequest(const ReportMask& mask);
+// What to ask a server for when lines in `format` show the fields of
+// `mask`: those, what their CSV cells are made from, and what AddReport
+// counts (id, row, valid, diagnostics).
+ReportMask FieldsToRequest(ReportLineFormat format, const ReportMask& mask);
 
 // Appends the report's line, line break included, with the fields (JSONL)
 // or columns (CSV) of `mask`.

@@ -315,8 +315,12 @@ TEST(Shellwrightd, CheckFieldsThroughTheServerMatchesInProcessByteForByte) {
   EXPECT_EQ(masked[1].substr(0, masked[1].find('\n')),
             "valid,oxidation_states,diagnostic_codes,diagnostics");
   EXPECT_LT(masked[0].size(), full[0].size() / 2);
-  // Fields the summary does not need, and one it does (id) left out.
-  CheckBothWays(input, *server, 1, {"--fields", "formula,ions"});
+  // Fields the summary does not need, and one it does (id) left out; a
+  // cell made from two fields (the saturation moment, blank without an
+  // estimate).
+  CheckBothWays(
+      input, *server, 1,
+      {"--fields", "formula,ions,saturation_moment_per_formula_unit"});
   EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
 }
 
