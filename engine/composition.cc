@@ -321,11 +321,9 @@ void Summarise(const Formula& formula, CompositionReport* r) {
   // Valence electron concentration: composition-weighted mean of the
   // atoms' valence electrons (Guo et al., J. Appl. Phys. 109, 103505
   // (2011), from memory), lanthanides counted as trivalent.
-  const double atoms = formula.TotalAtoms().ToDouble();
-  r->total_valence_electrons =
-      TotalValenceElectrons(formula.amounts).ToDouble();
-  r->valence_electron_concentration =
-      atoms > 0 ? r->total_valence_electrons / atoms : 0;
+  const ValenceElectronCount valence = CountValenceElectrons(formula.amounts);
+  r->total_valence_electrons = valence.per_formula_unit;
+  r->valence_electron_concentration = valence.per_atom;
   const bool metal_phase =
       r->kind == CompositionKind::kMetallic ||
       r->kind == CompositionKind::kIntermetallic ||

@@ -1,7 +1,10 @@
 #include "engine/metallic_moments.h"
 
 #include <algorithm>
+#include <array>
 #include <cmath>
+#include <cstdint>
+#include <numeric>
 #include <vector>
 
 #include "absl/strings/str_cat.h"
@@ -354,25 +357,41 @@ int MetallicValenceElectrons(const Element& e) {
     case Block::kP:
       return e.group - 10;
     case Block::kD:
-      return e.group;
     case Block::kF:
       break;
   }
   return e.group;
 }
 
-Rational TotalValenceElectrons(absl::Span<const ElementAmount> amounts) {
-  Rational total(0);
+ValenceElectronCount CountValenceElectrons(
+    absl::Span<const ElementAmount> amounts) {
+  // Every record needs the count: the valences come from a table.
+  static const std::array<int8_t, kMaxAtomicNumber + 1>* const kValence = [] {
+    auto* t = new std::array<int8_t, kMaxAtomicNumber + 1>{};
+    for (const Element& e : AllElements()) {
+      (*t)[e.atomic_number] = static_cast<int8_t>(MetallicValenceElectrons(e));
+    }
+    return t;
+  }();
+  ValenceElectronCount out;
+  double electrons = 0, atoms = 0;
   for (const ElementAmount& a : amounts) {
-    total = total + a.count * Rational(MetallicValenceElectrons(*a.element));
+    const double c = a.count.ToDouble();
+    electrons += c * (*kValence)[a.element->atomic_number];
+    atoms += c;
   }
-  return total;
+  // Counts have at most six decimals (twelve through a group's count):
+  // rounding to 10^-9 takes the sum's rounding noise away (8.3, not
+  // 8.299999999999999) at far less cost than exact rational sums.
+  out.per_formula_unit = std::round(electrons * 1e9) / 1e9;
+  out.per_atom = atoms > 0 ? electrons / atoms : 0;
+  return out;
 }
 
 MetallicMomentEstimate EstimateMetallicMoment(
     absl::Span<const ElementAmount> amounts) {
   MetallicMomentEstimate e;
-  e.total_valence_electrons = TotalValenceElectrons(amounts).ToDouble();
+  e.total_valence_electrons = CountValenceElectrons(amounts).per_formula_unit;
   if (amounts.empty()) return None(e, "no atoms; no estimate");
   for (const ElementAmount& a : amounts) {
     if (a.element->atomic_number >= 89) {

@@ -50,7 +50,6 @@
 #include "absl/types/span.h"
 #include "engine/element.h"
 #include "engine/formula.h"
-#include "engine/rational.h"
 #include "util/enum_names.h"
 
 namespace shellwright {
@@ -103,9 +102,17 @@ struct MetallicMomentEstimate {
 // Thread-safe.
 int MetallicValenceElectrons(const Element& element);
 
-// Z_t of these amounts, exactly: Σ count x MetallicValenceElectrons.
-// Thread-safe.
-Rational TotalValenceElectrons(absl::Span<const ElementAmount> amounts);
+// Valence electrons of a composition, counted by MetallicValenceElectrons.
+struct ValenceElectronCount {
+  // Z_t = Σ count x valence, rounded to 10^-9 (8.3 for Fe0.7Co0.3, not
+  // 8.299999999999999).
+  double per_formula_unit = 0;
+  double per_atom = 0;  // The valence electron concentration; 0 if no atoms.
+};
+
+// The count for these amounts. Thread-safe; cheap enough for every record.
+ValenceElectronCount CountValenceElectrons(
+    absl::Span<const ElementAmount> amounts);
 
 // The estimate for a metallic, intermetallic or elemental composition
 // with these amounts (formula order). Never fails: a composition outside
