@@ -179,6 +179,50 @@ TEST(ReportLines, EngineLinesEqualTheProtoPathsLines) {
   EXPECT_GT(longest, 3 * 4096u);  // The writer's storage had to grow.
 }
 
+// check --fields: in process, a line is the engine walk's with the mask;
+// remote, the server fills FieldsToRequest's fields and the line is
+// written from that message with the mask. Every field alone (CSV: every
+// field with a column) and some sets give the same bytes both ways.
+TEST(ReportLines, MaskedEngineLinesEqualTheServersMaskedLines) {
+  std::vector<ReportMask> masks;
+  for (const std::string& name : ReportMask::FieldNames()) {
+    masks.push_back(*ReportMask::FromPaths({name}));
+  }
+  masks.push_back(*ReportMask::FromList("valid,diagnostics,oxidation_states"));
+  masks.push_back(*ReportMask::FromList("formula,ions,curie_constant"));
+  int csv_masks = 0;
+  for (const ReportMask& mask : masks) {
+    for (ReportLineFormat format :
+         {ReportLineFormat::kJsonl, ReportLineFormat::kCsv}) {
+      if (format == ReportLineFormat::kCsv && !CheckCsvFields(mask).ok()) {
+        continue;  // No column: a usage error (tests/clients/cli_test.cc).
+      }
+      csv_masks += format == ReportLineFormat::kCsv;
+      const ReportMask requested = FieldsToRequest(format, mask);
+      for (const v1::CompositionRecord& record : Records()) {
+        const CompositionReport report =
+            AnalyzeComposition(CompositionInputFromProto(record));
+        v1::RecordReport sent;
+        AnalyzeRecord(record, &sent, requested);
+        std::string engine, remote;
+        AppendReportLine(format, report, record, &engine, mask);
+        AppendReportLine(format, sent, &remote, mask);
+        ASSERT_EQ(engine, remote) << ::testing::PrintToString(mask.Paths())
+                                  << " " << record.formula();
+      }
+    }
+  }
+  EXPECT_GT(csv_masks, 10);
+  // One field alone, in JSONL: just its key.
+  v1::CompositionRecord record;
+  record.set_formula("Fe3O4");
+  std::string line;
+  AppendReportLine(ReportLineFormat::kJsonl,
+                   AnalyzeComposition(CompositionInputFromProto(record)),
+                   record, &line, *ReportMask::FromPaths({"valid"}));
+  EXPECT_EQ(line, "{\"valid\":true}\n");
+}
+
 TEST(ReportLines, CsvLineHasOneFieldPerHeaderColumn) {
   v1::CompositionRecord record;
   record.set_id("a,\"b\"");
