@@ -1,6 +1,8 @@
 #include "api/records.h"
 
 #include <algorithm>
+#include <array>
+#include <optional>
 #include <string>
 #include <type_traits>
 
@@ -13,8 +15,35 @@
 namespace shellwright {
 namespace {
 
+// A message kept per thread under the key of the Cached walk that built
+// it (api/report_view.h), and the setters of its varying fields, so that
+// the next message with that key is a copy plus those values.
+template <typename Key, typename Message>
+struct CachedMessage {
+  // The most varying values a Cached walk has (a state's count and exact
+  // count).
+  static constexpr int kMaxVarying = 2;
+
+  std::optional<Key> key;
+  Message message;
+  // Setter i applies varying value i: a number or an exact count.
+  void (*set_number[kMaxVarying])(Message*, const double&) = {};
+  void (*set_exact[kMaxVarying])(Message*, const std::string&) = {};
+  int varying = 0;
+};
+
+// The slot for `key` in this thread's cache of messages: a few hundred
+// distinct states and ions make up most reports, so each is built once
+// per thread (as the JSON writer keeps their text).
+template <typename Key, typename Message>
+CachedMessage<Key, Message>& CachedSlot(const Key& key) {
+  thread_local std::array<CachedMessage<Key, Message>, Key::kCacheSlots> cache;
+  return cache[key.Hash() % Key::kCacheSlots];
+}
+
 // Builds a message from VisitRecordReport's calls, through each field's
-// setter and adder.
+// setter and adder. A Cached walk's message is copied from the thread's
+// cache (made by the walk the first time), with its varying values set.
 template <typename Message>
 class ProtoBuilder : public FieldByFieldVisitor<ProtoBuilder<Message>> {
  public:
@@ -44,17 +73,67 @@ class ProtoBuilder : public FieldByFieldVisitor<ProtoBuilder<Message>> {
       visit(item, builder);
     }
   }
+
+  template <typename Key, typename Visit>
+  void Cached(const Key& key, std::initializer_list<VaryingValue> varying,
+              Visit visit) {
+    using Slot = CachedMessage<Key, Message>;
+    if (varying.size() > Slot::kMaxVarying) {  // Not kept: build it.
+      FieldByFieldVisitor<ProtoBuilder<Message>>::Cached(key, varying, visit);
+      return;
+    }
+    Slot& slot = CachedSlot<Key, Message>(key);
+    if (!slot.key.has_value() || !(*slot.key == key)) {
+      slot.key.reset();
+      slot.message.Clear();
+      slot.varying = 0;
+      ProtoBuilder<Message> builder(&slot.message);
+      builder.set_number_ = slot.set_number;
+      builder.set_exact_ = slot.set_exact;
+      builder.FieldByFieldVisitor<ProtoBuilder<Message>>::Cached(key, varying,
+                                                                 visit);
+      slot.varying = builder.varying_count_;
+      slot.key = key;
+      slot.key->Keep();
+    }
+    message_->MergeFrom(slot.message);
+    for (int i = 0; i < slot.varying; ++i) {
+      const VaryingValue& v = varying.begin()[i];
+      if (slot.set_number[i] != nullptr) {
+        slot.set_number[i](message_, v.number);
+      } else {
+        slot.set_exact[i](message_, v.exact.ToString());
+      }
+    }
+  }
   template <typename F>
   void VaryingNumber(const F& f, int i) {
     f.set(message_, this->varying(i).number);
+    Record(i, static_cast<void (*)(Message*, const double&)>(f.set), nullptr);
   }
   template <typename F>
   void VaryingExact(const F& f, int i) {
     f.set(message_, this->varying(i).exact.ToString());
+    Record(i, nullptr,
+           static_cast<void (*)(Message*, const std::string&)>(f.set));
   }
 
  private:
+  // While a cached message is built: varying value i's setter.
+  void Record(int i, void (*number)(Message*, const double&),
+              void (*exact)(Message*, const std::string&)) {
+    if (set_number_ == nullptr) return;
+    set_number_[i] = number;
+    set_exact_[i] = exact;
+    varying_count_ = std::max(varying_count_, i + 1);
+  }
+
   Message* const message_;
+  // Set while this builder makes a cached message: where its varying
+  // values' setters go.
+  void (**set_number_)(Message*, const double&) = nullptr;
+  void (**set_exact_)(Message*, const std::string&) = nullptr;
+  int varying_count_ = 0;
 };
 
 }  // namespace
@@ -84,15 +163,16 @@ CompositionInput CompositionInputFromProto(
 
 void RecordReportToProto(const CompositionReport& report,
                          const v1::CompositionRecord& record,
-                         v1::RecordReport* out) {
+                         v1::RecordReport* out, const ReportMask& mask) {
   out->Clear();
   ProtoBuilder<v1::RecordReport> builder(out);
-  VisitRecordReport(report, record, builder);
+  VisitRecordReport(report, record, mask, builder);
 }
 
-void AnalyzeRecord(const v1::CompositionRecord& record, v1::RecordReport* out) {
+void AnalyzeRecord(const v1::CompositionRecord& record, v1::RecordReport* out,
+                   const ReportMask& mask) {
   RecordReportToProto(AnalyzeComposition(CompositionInputFromProto(record)),
-                      record, out);
+                      record, out, mask);
 }
 
 void MalformedRecordReport(const v1::CompositionRecord& partial,

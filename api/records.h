@@ -22,6 +22,7 @@
 #define SHELLWRIGHT_API_RECORDS_H_
 
 #include "absl/strings/string_view.h"
+#include "api/report_mask.h"
 #include "engine/composition.h"
 #include "engine/formula.h"
 #include "shellwright/v1/electron_structure.pb.h"
@@ -49,15 +50,18 @@ inline absl::string_view EchoedFormula(const v1::CompositionRecord& record) {
 
 // Fills `out` (cleared first) from an engine report; `record` supplies the
 // echoed row and formula. The fields are those api/report_view.h's
-// VisitRecordReport walks.
+// VisitRecordReport walks that `mask` wants; the others are left at their
+// defaults, and their values are not built.
 void RecordReportToProto(const CompositionReport& report,
                          const v1::CompositionRecord& record,
-                         v1::RecordReport* out);
+                         v1::RecordReport* out,
+                         const ReportMask& mask = ReportMask());
 
 // Analyses one record into `out` (cleared first): exactly one report,
-// never an error. The report's id is the record's (cut to
-// kMaxRecordIdLength). REQUIRES: out != nullptr.
-void AnalyzeRecord(const v1::CompositionRecord& record, v1::RecordReport* out);
+// never an error, with the fields `mask` wants. The report's id is the
+// record's (cut to kMaxRecordIdLength). REQUIRES: out != nullptr.
+void AnalyzeRecord(const v1::CompositionRecord& record, v1::RecordReport* out,
+                   const ReportMask& mask = ReportMask());
 
 // The report for an input line that could not be read as a record: invalid,
 // with one malformed_record error "row N: <problem>". `partial` holds the

@@ -63,6 +63,7 @@
 
 #include "absl/strings/string_view.h"
 #include "api/records.h"
+#include "api/report_mask.h"
 #include "engine/composition.h"
 #include "engine/rational.h"
 #include "shellwright/v1/electron_structure.pb.h"
@@ -387,9 +388,20 @@ void VisitRecordReport(const CompositionReport& r,
   v.Double(SHELLWRIGHT_REPORT_FIELD(curie_constant), number(r.curie_constant));
   v.Double(SHELLWRIGHT_REPORT_FIELD(valence_electron_concentration),
            number(r.valence_electron_concentration));
+  const std::optional<double>& saturation =
+      r.saturation_moment_per_formula_unit;
+  v.Double(SHELLWRIGHT_REPORT_FIELD(saturation_moment_per_formula_unit),
+           number(saturation.value_or(0)));
+  v.Bool(SHELLWRIGHT_REPORT_FIELD(saturation_moment_estimated),
+         assigned && saturation.has_value());
+  v.String(SHELLWRIGHT_REPORT_FIELD(moment_model),
+           assigned ? Name(r.moment_model) : "");
+  v.String(SHELLWRIGHT_REPORT_FIELD(moment_note),
+           assigned ? absl::string_view(r.moment_note) : "");
+  v.Double(SHELLWRIGHT_REPORT_FIELD(total_valence_electrons),
+           number(r.total_valence_electrons));
 }
 
-namespace report_view_internal {}  // namespace report_view_internal
 }  // namespace shellwright
 
 // The generated walk of the messages (it uses NamedField, above).
@@ -405,6 +417,24 @@ namespace shellwright {
 template <typename Visitor>
 void VisitRecordReport(const v1::RecordReport& report, Visitor& v) {
   report_view_internal::WalkRecordReport(report, v);
+}
+
+// The walks above, passing on only the top-level fields `mask` wants
+// (api/report_mask.h): the others are not visited.
+template <typename Visitor>
+void VisitRecordReport(const CompositionReport& r,
+                       const v1::CompositionRecord& record,
+                       const ReportMask& mask, Visitor& v) {
+  if (mask.all()) return VisitRecordReport(r, record, v);
+  MaskedVisitor<Visitor> masked(mask, v);
+  VisitRecordReport(r, record, masked);
+}
+template <typename Visitor>
+void VisitRecordReport(const v1::RecordReport& report, const ReportMask& mask,
+                       Visitor& v) {
+  if (mask.all()) return VisitRecordReport(report, v);
+  MaskedVisitor<Visitor> masked(mask, v);
+  VisitRecordReport(report, masked);
 }
 
 }  // namespace shellwright

@@ -244,24 +244,6 @@ void Annotate(
   }
 }
 
-// Valence electrons of each neutral atom by atomic number (-1 where there
-// is no description), read once from the description tables: the VEC needs
-// only this number, not a description per element per record.
-const std::array<int, kMaxAtomicNumber + 1>& NeutralValenceElectrons() {
-  static const std::array<int, kMaxAtomicNumber + 1>* const kTable = [] {
-    auto* t = new std::array<int, kMaxAtomicNumber + 1>;
-    t->fill(-1);
-    for (const Element& e : AllElements()) {
-      AtomQuery q;
-      q.element = &e;
-      absl::StatusOr<AtomDescriptionPtr> d = DescribeAtom(q);
-      if (d.ok()) (*t)[e.atomic_number] = (*d)->valence_electrons;
-    }
-    return t;
-  }();
-  return *kTable;
-}
-
 // Unpaired electrons per formula unit, exactly: 0.7 x 4 + 0.3 x 3 is 3.7,
 // not 3.6999999999999997.
 double UnpairedPerFormulaUnit(const std::vector<IonAnnotation>& ions,
@@ -302,6 +284,21 @@ double UnpairedPerFormulaUnit(const std::vector<IonAnnotation>& ions,
   return unpaired.ToDouble();
 }
 
+// Replaces the free-atom sums of a metallic phase with the metallic
+// model's figures (engine/metallic_moments.h): its localised 4f moments
+// where it has them, otherwise none.
+void ApplyMetallicModel(const Formula& formula, CompositionReport* r) {
+  MetallicMomentEstimate m = EstimateMetallicMoment(formula.amounts);
+  r->moment_model = m.model;
+  r->saturation_moment_per_formula_unit = m.saturation;
+  r->moment_note = std::move(m.note);
+  const double effective = m.effective.value_or(0);
+  r->unpaired_per_formula_unit = m.localized_unpaired;
+  r->effective_moment_per_formula_unit = effective;
+  r->expected_moment_low = r->expected_moment_high = effective;
+  r->curie_constant = CurieConstantPerMomentSquared() * effective * effective;
+}
+
 void Summarise(const Formula& formula, CompositionReport* r) {
   double mu2 = 0, lo2 = 0, hi2 = 0;
   for (const IonAnnotation& ion : r->ions) {
@@ -322,18 +319,17 @@ void Summarise(const Formula& formula, CompositionReport* r) {
   r->expected_moment_high = std::sqrt(hi2);
   r->curie_constant = CurieConstantPerMomentSquared() * mu2;
   // Valence electron concentration: composition-weighted mean of the
-  // neutral atoms' valence electrons (Guo et al., J. Appl. Phys. 109,
-  // 103505 (2011), from memory).
-  const std::array<int, kMaxAtomicNumber + 1>& valence =
-      NeutralValenceElectrons();
-  double atoms = 0, electrons = 0;
-  for (const ElementAmount& a : formula.amounts) {
-    const int v = valence[a.element->atomic_number];
-    if (v < 0) continue;
-    atoms += a.count.ToDouble();
-    electrons += a.count.ToDouble() * v;
-  }
-  r->valence_electron_concentration = atoms > 0 ? electrons / atoms : 0;
+  // atoms' valence electrons (Guo et al., J. Appl. Phys. 109, 103505
+  // (2011), from memory), lanthanides counted as trivalent.
+  const ValenceElectronCount valence = CountValenceElectrons(formula.amounts);
+  r->total_valence_electrons = valence.per_formula_unit;
+  r->valence_electron_concentration = valence.per_atom;
+  const bool metal_phase =
+      r->kind == CompositionKind::kMetallic ||
+      r->kind == CompositionKind::kIntermetallic ||
+      (r->kind == CompositionKind::kElemental && formula.amounts.size() == 1 &&
+       IsMetal(*formula.amounts[0].element));
+  if (metal_phase) ApplyMetallicModel(formula, r);
 }
 
 }  // namespace

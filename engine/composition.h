@@ -17,6 +17,10 @@
 // (engine/coordination.h) unless the record sets them for that element.
 // The measured moment tolerance is 0.5 μB (common practice, no source).
 //
+// Metallic, intermetallic and elemental metal compositions take their
+// moments from a rule of thumb for metals instead (engine/metallic_moments.h):
+// Slater-Pauling rules, 4f moments, or no estimate.
+//
 // Moments are idealised free-ion or crystal-field estimates: the expected
 // range runs from every d ion low spin (spin-only) to every d ion with its
 // free-ion J moment, and for f ions between the J moment and the tabulated
@@ -43,6 +47,7 @@
 #include "engine/atom.h"
 #include "engine/coordination.h"
 #include "engine/diagnostic_codes.h"
+#include "engine/metallic_moments.h"
 #include "engine/oxidation.h"
 
 namespace shellwright {
@@ -130,8 +135,23 @@ struct CompositionReport {
   double expected_moment_low = 0;                // μB.
   double expected_moment_high = 0;               // μB.
   double curie_constant = 0;                     // emu·K/mol.
-  // Composition-averaged valence electrons per atom (see docs/method.md).
+  // Composition-averaged valence electrons per atom, counted as
+  // MetallicValenceElectrons does (see docs/method.md).
   double valence_electron_concentration = 0;
+  // How the moments were estimated: kLocalMoment for ionic and Zintl
+  // compositions (and elemental non-metals), a metallic model or kNone
+  // for metallic, intermetallic and elemental metal compositions
+  // (engine/metallic_moments.h). For those, the unpaired count and the
+  // effective moment above are the model's localised 4f ones, or 0 where
+  // the model has none: never free-atom counts.
+  MomentModel moment_model = MomentModel::kLocalMoment;
+  // Ordered moment per formula unit at low temperature, μB; empty where
+  // no model gives one (today every ionic composition).
+  std::optional<double> saturation_moment_per_formula_unit;
+  // How the metallic model reached its figure, or why there is none.
+  std::string moment_note;
+  // Z_t: total valence electrons per formula unit.
+  double total_valence_electrons = 0;
 };
 
 // Validates and annotates one record. Never fails: every problem, from an

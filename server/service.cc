@@ -19,12 +19,16 @@
 #include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
 #include "absl/time/clock.h"
+#include "absl/types/span.h"
 #include "api/atoms.h"
 #include "api/records.h"
+#include "api/report_mask.h"
 #include "google/protobuf/io/coded_stream.h"
 #include "google/protobuf/stubs/logging.h"
 #include "grpcpp/ext/proto_server_reflection_plugin.h"
 #include "grpcpp/health_check_service_interface.h"
+#include "grpcpp/support/proto_buffer_reader.h"
+#include "grpcpp/support/proto_buffer_writer.h"
 #include "util/small_file.h"
 
 namespace shellwright {
@@ -384,10 +388,47 @@ constexpr absl::Duration kMinClientPingInterval = absl::Seconds(10);
 // (the deadline is checked before every record).
 constexpr int kRecordsPerCancelCheck = 64;
 
+// The tag of ReportBatch.reports (field 1, length-delimited).
+constexpr uint8_t kReportsTag = (1 << 3) | 2;
+
 // Bytes a report adds to a ReportBatch: its tag, its length and itself.
+// Computes the report's size, which SerializeReports then uses.
 size_t ReportFieldBytes(const v1::RecordReport& report) {
   const size_t size = report.ByteSizeLong();
   return 1 + google::protobuf::io::CodedOutputStream::VarintSize64(size) + size;
+}
+
+// The bytes of the ReportBatch holding `reports`, whose sizes are computed
+// (ReportFieldBytes) and add up to `bytes`: written straight from the
+// cached sizes, in gRPC's usual slices (one large slice per reply would
+// cost page faults every batch). INTERNAL when they do not add up.
+grpc::Status SerializeReports(
+    absl::Span<const std::unique_ptr<v1::RecordReport>> reports, size_t bytes,
+    grpc::ByteBuffer* out) {
+  grpc::ByteBuffer buffer;
+  bool wrong_size;
+  {
+    // The stream asks for room ahead of what it writes: give it some
+    // slack, which Trim hands back.
+    grpc::ProtoBufferWriter writer(&buffer,
+                                   grpc::kProtoBufferWriterMaxBufferLength,
+                                   static_cast<int>(bytes) + 64);
+    google::protobuf::io::CodedOutputStream coded(&writer);
+    for (const std::unique_ptr<v1::RecordReport>& report : reports) {
+      coded.WriteTag(kReportsTag);
+      coded.WriteVarint32(static_cast<uint32_t>(report->GetCachedSize()));
+      report->SerializeWithCachedSizes(&coded);
+    }
+    coded.Trim();
+    wrong_size =
+        coded.HadError() || static_cast<size_t>(coded.ByteCount()) != bytes;
+  }
+  if (wrong_size) {
+    return grpc::Status(grpc::StatusCode::INTERNAL,
+                        "a reply's size did not add up");
+  }
+  out->Swap(&buffer);
+  return grpc::Status::OK;
 }
 
 // AnalyzeRecords: one batch read, analysed and answered at a time. Reading
@@ -396,7 +437,7 @@ size_t ReportFieldBytes(const v1::RecordReport& report) {
 // answer that would pass kMaxReportBatchBytes goes out in several
 // ReportBatch messages, each written once the one before it is.
 class RecordStreamReactor final
-    : public grpc::ServerBidiReactor<v1::RecordBatch, v1::ReportBatch> {
+    : public grpc::ServerBidiReactor<grpc::ByteBuffer, grpc::ByteBuffer> {
  public:
   RecordStreamReactor(grpc::CallbackServerContext* context,
                       const grpc::Status& admitted,
@@ -427,6 +468,19 @@ class RecordStreamReactor final
       FinishAndRecord(Interrupted());
       return;
     }
+    bool parsed;
+    {
+      grpc::ProtoBufferReader reader(&request_);
+      parsed = batch_.ParseFromZeroCopyStream(&reader);
+    }
+    request_.Clear();
+    if (!parsed) {
+      FinishAndRecord(grpc::Status(
+          grpc::StatusCode::INVALID_ARGUMENT,
+          "records: the RecordBatch could not be parsed (is every string "
+          "UTF-8?)"));
+      return;
+    }
     if (batch_.records_size() > kMaxRecordsPerBatch) {
       FinishAndRecord(grpc::Status(
           grpc::StatusCode::INVALID_ARGUMENT,
@@ -435,13 +489,20 @@ class RecordStreamReactor final
                        kMaxRecordsPerBatch)));
       return;
     }
+    absl::StatusOr<ReportMask> mask =
+        ReportMask::FromFieldMask(batch_.report_mask());
+    if (!mask.ok()) {
+      FinishAndRecord(ToGrpcStatus(mask.status()));
+      return;
+    }
+    mask_ = *mask;
     // The call itself took the stream's first request.
     if (batches_ > 0 && rate_limiter_ != nullptr && !rate_limiter_->Take()) {
       FinishAndRecord(RateLimited());
       return;
     }
     next_record_ = 0;
-    carried_.reset();
+    carried_ = false;
     ++batches_;
     AnswerSome();
   }
@@ -455,7 +516,7 @@ class RecordStreamReactor final
                                   : status);
       return;
     }
-    if (next_record_ < batch_.records_size() || carried_ != nullptr) {
+    if (next_record_ < batch_.records_size() || carried_) {
       AnswerSome();  // The rest of this batch's answer.
       return;
     }
@@ -488,24 +549,24 @@ class RecordStreamReactor final
       std::lock_guard<std::recursive_mutex> lock(tracked_->mu);
       tracked_->waiting_since = absl::Now();
     }
-    StartRead(&batch_);
+    StartRead(&request_);
   }
 
-  // Analyses records from next_record_ on into reply_ until the batch ends
-  // or the next report would take reply_ past kMaxReportBatchBytes (it is
-  // carried into the next reply), then writes reply_.
+  // Analyses records from next_record_ on into reports_ until the batch
+  // ends or the next report would take the reply past kMaxReportBatchBytes
+  // (it is carried into the next reply), then writes the reply. The
+  // reports are reused from batch to batch.
   void AnswerSome() {
     grpc::Status status = RunGuarded("AnalyzeRecords", [&] {
-      reply_.Clear();
       size_t bytes = 0;
-      if (carried_ != nullptr) {
-        bytes += ReportFieldBytes(*carried_);
-        reply_.mutable_reports()->AddAllocated(carried_.release());
+      int count = 0;  // Reports in this reply: reports_[0, count).
+      if (carried_) {
+        std::swap(reports_[0], reports_[carried_index_]);
+        bytes += ReportFieldBytes(*reports_[0]);
+        count = 1;
+        carried_ = false;
       }
       const int end = batch_.records_size();
-      if (next_record_ == 0) {
-        reply_.mutable_reports()->Reserve(std::min(end, 1024));
-      }
       for (; next_record_ < end; ++next_record_) {
         // A hard record takes tens of milliseconds, so checking only every
         // kRecordsPerCancelCheck records could overrun the deadline by
@@ -514,19 +575,24 @@ class RecordStreamReactor final
             next_record_ % kRecordsPerCancelCheck == 0) {
           if (grpc::Status s = Interrupted(); !s.ok()) return s;
         }
-        v1::RecordReport* report = reply_.add_reports();
-        AnalyzeRecord(batch_.records(next_record_), report);
+        if (count == static_cast<int>(reports_.size())) {
+          reports_.push_back(std::make_unique<v1::RecordReport>());
+        }
+        v1::RecordReport* report = reports_[count].get();
+        AnalyzeRecord(batch_.records(next_record_), report, mask_);
         ++records_;
         const size_t report_bytes = ReportFieldBytes(*report);
-        if (bytes + report_bytes > kMaxReportBatchBytes &&
-            reply_.reports_size() > 1) {
-          carried_.reset(reply_.mutable_reports()->ReleaseLast());
+        if (bytes + report_bytes > kMaxReportBatchBytes && count > 0) {
+          carried_ = true;
+          carried_index_ = count;
           ++next_record_;
           break;
         }
         bytes += report_bytes;
+        ++count;
       }
-      return grpc::Status::OK;
+      return SerializeReports(absl::MakeConstSpan(reports_.data(), count),
+                              bytes, &reply_);
     });
     if (!status.ok()) {
       FinishAndRecord(status);
@@ -556,11 +622,17 @@ class RecordStreamReactor final
   internal::CallTracker* const tracker_;
   internal::RateLimiter* const rate_limiter_;  // Null: no rate limit.
   std::shared_ptr<internal::CallTracker::Stream> tracked_;  // Null: refused.
+  grpc::ByteBuffer request_;  // The RecordBatch read, until parsed.
   v1::RecordBatch batch_;
+  ReportMask mask_;      // batch_'s report_mask.
   int next_record_ = 0;  // The next record of batch_ to analyse.
-  v1::ReportBatch reply_;
-  // A report that did not fit in the last reply; it opens the next one.
-  std::unique_ptr<v1::RecordReport> carried_;
+  // Reports, reused: the answer in hand is written from the first ones.
+  std::vector<std::unique_ptr<v1::RecordReport>> reports_;
+  // When set, reports_[carried_index_] did not fit in the last reply; it
+  // opens the next one.
+  bool carried_ = false;
+  int carried_index_ = 0;
+  grpc::ByteBuffer reply_;  // The ReportBatch being written.
   grpc::Status status_;
   int64_t batches_ = 0;
   int64_t records_ = 0;
@@ -687,7 +759,7 @@ grpc::ServerUnaryReactor* ElectronStructureImpl::AnalyzeCompound(
   });
 }
 
-grpc::ServerBidiReactor<v1::RecordBatch, v1::ReportBatch>*
+grpc::ServerBidiReactor<grpc::ByteBuffer, grpc::ByteBuffer>*
 ElectronStructureImpl::AnalyzeRecords(grpc::CallbackServerContext* context) {
   return new RecordStreamReactor(context, Admit(context, false), tracker_.get(),
                                  rate_limiter_.get());

@@ -78,8 +78,20 @@ struct CallLimits {
   int token_rate_burst = 100;
 };
 
-class ElectronStructureImpl final
-    : public v1::ElectronStructure::CallbackService {
+// The generated callback service, but for AnalyzeRecords, which reads and
+// writes bytes: its reactor parses each RecordBatch and writes each
+// ReportBatch's bytes itself, so that a report's size is computed once
+// (protobuf's own serialisation of the batch would compute every report's
+// size again).
+using ElectronStructureService =
+    v1::ElectronStructure::WithCallbackMethod_DescribeAtom<
+        v1::ElectronStructure::WithCallbackMethod_DescribeAtoms<
+            v1::ElectronStructure::WithCallbackMethod_ListElements<
+                v1::ElectronStructure::WithCallbackMethod_AnalyzeCompound<
+                    v1::ElectronStructure::WithRawCallbackMethod_AnalyzeRecords<
+                        v1::ElectronStructure::Service>>>>>;
+
+class ElectronStructureImpl final : public ElectronStructureService {
  public:
   // `token` empty: no authentication. Otherwise every call must carry
   // "authorization: Bearer <token>". An AnalyzeRecords stream that waits
@@ -126,8 +138,9 @@ class ElectronStructureImpl final
   // Reads one RecordBatch, writes its answer, and only then reads the
   // next, so a stream holds at most one batch and one reply in memory. The
   // answer is one ReportBatch, or several when one would pass
-  // kMaxReportBatchBytes.
-  grpc::ServerBidiReactor<v1::RecordBatch, v1::ReportBatch>* AnalyzeRecords(
+  // kMaxReportBatchBytes. Messages travel as their bytes: a RecordBatch
+  // that does not parse ends the stream with INVALID_ARGUMENT.
+  grpc::ServerBidiReactor<grpc::ByteBuffer, grpc::ByteBuffer>* AnalyzeRecords(
       grpc::CallbackServerContext* context) override;
 
  private:

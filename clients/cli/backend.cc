@@ -42,7 +42,8 @@ void AddReaderWarnings(const ParsedLine& line, v1::RecordReport* report) {
 // The engine, on the calling thread.
 class InProcessBatchProcessor final : public BatchProcessor {
  public:
-  explicit InProcessBatchProcessor(ReportLineFormat format) : format_(format) {}
+  InProcessBatchProcessor(ReportLineFormat format, const ReportMask& fields)
+      : format_(format), fields_(fields) {}
 
   absl::Status Process(absl::Span<const ParsedLine> lines,
                        ReportLines* out) override {
@@ -56,7 +57,7 @@ class InProcessBatchProcessor final : public BatchProcessor {
           report.diagnostics.push_back(
               {Severity::kWarning, w.code, w.message, 0});
         }
-        AddReport(format_, report, line.record, out);
+        AddReport(format_, report, line.record, out, fields_);
       } else {
         AddMalformed(line, out);
       }
@@ -70,10 +71,11 @@ class InProcessBatchProcessor final : public BatchProcessor {
   void AddMalformed(const ParsedLine& line, ReportLines* out) {
     MalformedRecordReport(line.record, line.error, &malformed_);
     AddReaderWarnings(line, &malformed_);
-    AddReport(format_, malformed_, out);
+    AddReport(format_, malformed_, out, fields_);
   }
 
   const ReportLineFormat format_;
+  const ReportMask fields_;
   v1::RecordReport malformed_;  // Reused.
 };
 
@@ -93,8 +95,8 @@ class InProcessBackend final : public Backend {
     return absl::OkStatus();
   }
   std::unique_ptr<BatchProcessor> NewBatchProcessor(
-      ReportLineFormat format) override {
-    return std::make_unique<InProcessBatchProcessor>(format);
+      ReportLineFormat format, const ReportMask& fields) override {
+    return std::make_unique<InProcessBatchProcessor>(format, fields);
   }
   int DefaultBatchSize() const override { return 256; }
 };
@@ -231,8 +233,6 @@ absl::Status OnSomeReplica(ReplicaSet& replicas, absl::string_view what,
   }
   // One server's own failure says it best.
   if (replicas.size() == 1) return last;
-  // One server's own failure says it best.
-  if (replicas.size() == 1) return last;
   return absl::UnavailableError(absl::StrCat(
       "no server left to answer ", what, " after ", kRoundsPerBatch,
       " rounds over ", replicas.size(),
@@ -252,15 +252,18 @@ class RemoteBatchProcessor final : public BatchProcessor {
   using OpenContext = std::function<std::unique_ptr<grpc::ClientContext>()>;
 
   RemoteBatchProcessor(ReplicaSet* replicas, OpenContext open,
-                       ReportLineFormat format)
+                       ReportLineFormat format, const ReportMask& fields)
       : replicas_(replicas),
         open_(std::move(open)),
         format_(format),
+        fields_(fields),
         streams_(replicas->size()) {}
 
   absl::Status Process(absl::Span<const ParsedLine> lines,
                        ReportLines* out) override {
     request_.Clear();
+    FieldsToRequest(format_, fields_)
+        .ToFieldMask(request_.mutable_report_mask());
     for (const ParsedLine& line : lines) {
       if (line.error.empty()) *request_.add_records() = line.record;
     }
@@ -276,11 +279,11 @@ class RemoteBatchProcessor final : public BatchProcessor {
       if (line.error.empty()) {
         v1::RecordReport* report = reply_.mutable_reports(k++);
         AddReaderWarnings(line, report);
-        AddReport(format_, *report, out);
+        AddReport(format_, *report, out, fields_);
       } else {
         MalformedRecordReport(line.record, line.error, &malformed_);
         AddReaderWarnings(line, &malformed_);
-        AddReport(format_, malformed_, out);
+        AddReport(format_, malformed_, out, fields_);
       }
     }
     return absl::OkStatus();
@@ -369,6 +372,7 @@ class RemoteBatchProcessor final : public BatchProcessor {
   ReplicaSet* const replicas_;
   const OpenContext open_;
   const ReportLineFormat format_;
+  const ReportMask fields_;
   std::vector<Stream> streams_;  // By replica.
   // Reused between batches.
   v1::RecordBatch request_;
@@ -395,7 +399,7 @@ class RemoteBackend final : public Backend {
   }
 
   std::unique_ptr<BatchProcessor> NewBatchProcessor(
-      ReportLineFormat format) override {
+      ReportLineFormat format, const ReportMask& fields) override {
     return std::make_unique<RemoteBatchProcessor>(
         replicas_.get(),
         [this] {
@@ -403,7 +407,7 @@ class RemoteBackend final : public Backend {
           Prepare(context.get(), stream_timeout_);
           return context;
         },
-        format);
+        format, fields);
   }
 
   int DefaultBatchSize() const override { return 500; }

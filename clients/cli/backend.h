@@ -44,7 +44,9 @@ class Backend {
                                        v1::RecordReport* report) = 0;
 
   // A processor for `check`'s batches (batch_processor.h) that writes
-  // report lines in `format`; `check` makes one per worker thread. The
+  // report lines in `format` with the fields of `fields` (a remote one
+  // asks the server for only those and what the counts need:
+  // FieldsToRequest); `check` makes one per worker thread. The
   // in-process one runs the engine on the calling thread. A remote one
   // owns one AnalyzeRecords stream, opened on its first batch, so N
   // workers keep N batches in flight. Over several replicas, each batch
@@ -53,7 +55,7 @@ class Backend {
   // it is sent again, whole, to another; only complete answers are
   // written.
   virtual std::unique_ptr<BatchProcessor> NewBatchProcessor(
-      ReportLineFormat format) = 0;
+      ReportLineFormat format, const ReportMask& fields) = 0;
 
   // Records per `check` batch when the user sets none: 256 in process
   // (less output in flight), 500 remote (fewer, larger messages).

@@ -173,13 +173,16 @@ absl::StatusOr<CheckResult> RunCheck(const CheckOptions& options,
     return s;
   }
   const ReportLineFormat format = LineFormat(*output_format);
+  if (format == ReportLineFormat::kCsv) {
+    if (absl::Status s = CheckCsvFields(options.fields); !s.ok()) return s;
+  }
   // Opened only once the input looks usable, so that a usage error never
   // truncates an existing output file.
   absl::StatusOr<std::unique_ptr<ReportOutput>> output =
       ReportOutput::Open(options.output);
   if (!output.ok()) return output.status();
   if (format == ReportLineFormat::kCsv) {
-    absl::Status s = (*output)->Write(ReportCsvHeader() + "\n");
+    absl::Status s = (*output)->Write(ReportCsvHeader(options.fields) + "\n");
     if (!s.ok()) return s;
   }
 
@@ -192,7 +195,7 @@ absl::StatusOr<CheckResult> RunCheck(const CheckOptions& options,
   std::vector<RecordParser> parsers;
   std::vector<std::vector<ParsedLine>> parsed(jobs);  // Reused per worker.
   for (int j = 0; j < jobs; ++j) {
-    processors.push_back(backend.NewBatchProcessor(format));
+    processors.push_back(backend.NewBatchProcessor(format, options.fields));
     parsers.emplace_back(**input, options.default_alternatives);
   }
 

@@ -47,6 +47,9 @@ struct CheckOptions {
   // Records per batch (and per stream message); 0: the backend's default.
   int batch_size = 0;
   bool progress = false;
+  // The report fields to write (JSONL keys, CSV columns); a server is
+  // asked for only those (api/report_mask.h). Default: all.
+  ReportMask fields;
   // Alternatives asked for on records that do not set max_alternatives.
   // Batch runs default to none: they are rarely read and triple the work.
   int default_alternatives = 0;
@@ -67,10 +70,10 @@ struct CheckResult {
 // processor per worker), writes one report per record in input order.
 // Returns the counts, or INVALID_ARGUMENT for usage problems (unknown
 // format, a CSV header without id or formula, an output that is the
-// input), NOT_FOUND, PERMISSION_DENIED, DATA_LOSS and the like for I/O
-// failures (every write is checked; --out is replaced only on success),
-// and the transport's status when a server fails. Bad records are never
-// errors: they get error reports.
+// input, CSV output of a field without a column: "fields: ..."), NOT_FOUND,
+// PERMISSION_DENIED, DATA_LOSS and the like for I/O failures (every write is
+// checked; --out is replaced only on success), and the transport's status when
+// a server fails. Bad records are never errors: they get error reports.
 absl::StatusOr<CheckResult> RunCheck(const CheckOptions& options,
                                      Backend& backend, std::ostream& log);
 

@@ -76,7 +76,18 @@ std::string FormatReportHuman(const v1::RecordReport& r) {
     }
     absl::StrAppend(&out, "  Units              ", units, "\n");
   }
-  if (r.ions_size() > 0) {
+  const bool metallic_model =
+      !r.moment_model().empty() && r.moment_model() != "local_moment";
+  if (metallic_model && r.ions_size() > 0) {
+    // The atoms of a metal: their free-atom unpaired electrons and moments
+    // say nothing of the metal's, and are not shown.
+    absl::StrAppendFormat(&out, "\n  %-8s %-8s %s\n", "atom", "count",
+                          "free-atom configuration");
+    for (const v1::IonReport& ion : r.ions()) {
+      absl::StrAppendFormat(&out, "  %-8s %-8g %s\n", ion.species(),
+                            ion.count(), ion.configuration());
+    }
+  } else if (r.ions_size() > 0) {
     absl::StrAppendFormat(&out, "\n  %-8s %-8s %-24s %-9s %-20s %-12s %s\n",
                           "ion", "count", "configuration", "unpaired",
                           "spin state                    ", "split",
@@ -110,7 +121,33 @@ std::string FormatReportHuman(const v1::RecordReport& r) {
           ion.moment(), ion.moment_low(), ion.moment_high());
     }
   }
-  if (r.ions_size() > 0 || r.units_size() > 0) {
+  if (metallic_model) {
+    // Free-atom figures mean nothing in a metal: the model's own instead.
+    absl::StrAppendFormat(
+        &out,
+        "\n  Per formula unit: %g valence electrons (Z_t), valence "
+        "electron concentration %.3g\n",
+        r.total_valence_electrons(), r.valence_electron_concentration());
+    if (r.effective_moment_per_formula_unit() > 0) {
+      absl::StrAppendFormat(
+          &out,
+          "  Localised 4f: %g unpaired electron%s, effective moment %.2f μB, "
+          "Curie constant %.4g emu·K/mol\n",
+          r.unpaired_per_formula_unit(),
+          r.unpaired_per_formula_unit() == 1 ? "" : "s",
+          r.effective_moment_per_formula_unit(), r.curie_constant());
+    }
+    if (r.saturation_moment_estimated()) {
+      absl::StrAppendFormat(
+          &out, "  Ordered moment: %.3g μB per formula unit (%s)\n",
+          r.saturation_moment_per_formula_unit(), r.moment_model());
+    } else {
+      absl::StrAppend(&out, "  Ordered moment: no estimate\n");
+    }
+    absl::StrAppend(&out, "    ", r.moment_note(), "\n",
+                    "    A rule of thumb from the composition alone, blind to "
+                    "structure, order and temperature: measurement decides.\n");
+  } else if (r.ions_size() > 0 || r.units_size() > 0) {
     absl::StrAppendFormat(
         &out,
         "\n  Per formula unit: %g unpaired electron%s, effective moment "

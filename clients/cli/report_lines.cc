@@ -9,8 +9,10 @@
 #include <iterator>
 #include <optional>
 #include <string>
+#include <vector>
 
 #include "absl/strings/str_cat.h"
+#include "absl/strings/str_join.h"
 #include "absl/strings/string_view.h"
 #include "api/report_view.h"
 #include "clients/cli/atom_format.h"
@@ -231,7 +233,6 @@ class JsonWriter {
 
 // Appends `field`, quoted when it holds a comma, a quote or a line break.
 void CsvField(absl::string_view field, std::string* out) {
-  out->push_back(',');
   // A plain scan: find_first_of builds a 256-entry table on every call.
   bool plain = true;
   for (char c : field) {
@@ -266,6 +267,55 @@ void AppendState(absl::string_view element, int32_t state, std::string* out) {
   absl::StrAppend(out, state);
 }
 
+// A CSV column and the report field it comes from.
+struct CsvColumn {
+  absl::string_view name;
+  absl::string_view field;
+};
+
+// The CSV columns, in the header's order (see ReportCsvHeader). The
+// figures run from kFirstFigure for kFigures columns.
+constexpr CsvColumn kCsvColumns[] = {
+    {"row", "row"},
+    {"id", "id"},
+    {"valid", "valid"},
+    {"formula", "formula"},
+    {"composition_kind", "composition_kind"},
+    {"oxidation_states", "oxidation_states"},
+    {"score", "score"},
+    {"unpaired_per_formula_unit", "unpaired_per_formula_unit"},
+    {"effective_moment_per_formula_unit", "effective_moment_per_formula_unit"},
+    {"expected_moment_low", "expected_moment_low"},
+    {"expected_moment_high", "expected_moment_high"},
+    {"curie_constant", "curie_constant"},
+    {"valence_electron_concentration", "valence_electron_concentration"},
+    {"saturation_moment_per_formula_unit",
+     "saturation_moment_per_formula_unit"},
+    {"moment_model", "moment_model"},
+    {"total_valence_electrons", "total_valence_electrons"},
+    {"ions", "ions"},
+    {"diagnostic_codes", "diagnostics"},
+    {"diagnostics", "diagnostics"}};
+constexpr size_t kCsvColumnCount = std::size(kCsvColumns);
+constexpr size_t kFirstFigure = 6;
+constexpr size_t kFigures = 7;
+
+// Each column's field as its index in ReportMask::FieldNames(), so that
+// a mask is asked per column with a shift.
+const std::array<int, kCsvColumnCount>& CsvColumnFields() {
+  static const std::array<int, kCsvColumnCount> fields = [] {
+    std::array<int, kCsvColumnCount> fields;
+    const std::vector<std::string>& names = ReportMask::FieldNames();
+    for (size_t c = 0; c < kCsvColumnCount; ++c) {
+      fields[c] = static_cast<int>(
+          std::find(names.begin(), names.end(), kCsvColumns[c].field) -
+          names.begin());
+    }
+    return fields;
+  }();
+  return fields;
+}
+
 // The values of one CSV line, gathered from the walk (api/report_view.h
 // visitor): the report's own scalars, and its states, ions and diagnostics
 // joined into one cell each (formats in ReportCsvHeader's comment).
@@ -280,6 +330,8 @@ class CsvGatherer : public TopLevelVisitor {
       formula = v;
     } else if (f.name == "composition_kind") {
       kind = v;
+    } else if (f.name == "moment_model") {
+      model = v;
     }
   }
   template <typename F>
@@ -288,13 +340,16 @@ class CsvGatherer : public TopLevelVisitor {
   }
   template <typename F>
   void Double(const F& f, double v) {
-    for (size_t i = 0; i < std::size(kNumberColumns); ++i) {
-      if (f.name == kNumberColumns[i]) numbers[i] = v;
+    for (size_t i = 0; i < kFigures; ++i) {
+      if (f.name == kCsvColumns[kFirstFigure + i].field) numbers[i] = v;
     }
+    if (f.name == "saturation_moment_per_formula_unit") saturation = v;
+    if (f.name == "total_valence_electrons") total_valence = v;
   }
   template <typename F>
   void Bool(const F& f, bool v) {
     if (f.name == "valid") valid = v;
+    if (f.name == "saturation_moment_estimated") estimated = v;
   }
   template <typename F, typename Items, typename Visit>
   void Messages(const F& f, const Items& items, Visit visit) {
@@ -340,40 +395,69 @@ class CsvGatherer : public TopLevelVisitor {
     }
   }
 
-  // The line, line break included.
-  void Write(std::string* out) const {
-    absl::StrAppend(out, row);
-    CsvField(id, out);
-    out->append(valid ? ",true" : ",false");
-    CsvField(formula, out);
-    CsvField(kind, out);
-    CsvField(states, out);
-    // StrAppend prints doubles as %.6g does (but for the sign of a NaN,
-    // which reports never hold). An invalid record's figures are blank,
-    // not 0: it has none.
-    for (double v : numbers) {
-      if (valid) {
-        absl::StrAppend(out, ",", v);
-      } else {
-        out->push_back(',');
-      }
+  // The line of the columns `mask` wants, line break included.
+  void Write(const ReportMask& mask, std::string* out) const {
+    const std::array<int, kCsvColumnCount>& fields = CsvColumnFields();
+    bool first = true;
+    for (size_t c = 0; c < kCsvColumnCount; ++c) {
+      if (!mask.Has(fields[c])) continue;
+      if (!first) out->push_back(',');
+      first = false;
+      WriteCell(c, out);
     }
-    CsvField(ions, out);
-    CsvField(codes, out);
-    CsvField(messages, out);
     out->push_back('\n');
   }
 
  private:
-  // The number columns, in the header's order.
-  static constexpr absl::string_view kNumberColumns[] = {
-      "score",
-      "unpaired_per_formula_unit",
-      "effective_moment_per_formula_unit",
-      "expected_moment_low",
-      "expected_moment_high",
-      "curie_constant",
-      "valence_electron_concentration"};
+  // Column c's cell.
+  void WriteCell(size_t c, std::string* out) const {
+    if (c >= kFirstFigure && c < kFirstFigure + kFigures) {
+      // StrAppend prints doubles as %.6g does (but for the sign of a NaN,
+      // which reports never hold). An invalid record's figures are blank,
+      // not 0: it has none.
+      if (valid) absl::StrAppend(out, numbers[c - kFirstFigure]);
+      return;
+    }
+    switch (c) {
+      case 0:
+        absl::StrAppend(out, row);
+        break;
+      case 1:
+        CsvField(id, out);
+        break;
+      case 2:
+        out->append(valid ? "true" : "false");
+        break;
+      case 3:
+        CsvField(formula, out);
+        break;
+      case 4:
+        CsvField(kind, out);
+        break;
+      case 5:
+        CsvField(states, out);
+        break;
+      case kFirstFigure + kFigures:
+        // No estimate is a blank, not 0 (Fe2VAl's estimate is 0).
+        if (valid && estimated) absl::StrAppend(out, saturation);
+        break;
+      case kFirstFigure + kFigures + 1:
+        CsvField(model, out);
+        break;
+      case kFirstFigure + kFigures + 2:
+        if (valid) absl::StrAppend(out, total_valence);
+        break;
+      case kFirstFigure + kFigures + 3:
+        CsvField(ions, out);
+        break;
+      case kFirstFigure + kFigures + 4:
+        CsvField(codes, out);
+        break;
+      default:
+        CsvField(messages, out);
+        break;
+    }
+  }
 
   // A state, an ion or a diagnostic: the members a cell needs. The views
   // point into the report being walked, which outlives the member.
@@ -430,50 +514,98 @@ class CsvGatherer : public TopLevelVisitor {
 
   int32_t row = 0;
   // Views into the report being walked, which outlives the gatherer.
-  absl::string_view id, formula, kind;
+  absl::string_view id, formula, kind, model;
   std::string states, ions, codes, messages;
   bool valid = false;
-  double numbers[std::size(kNumberColumns)] = {};
+  double numbers[kFigures] = {};
+  double saturation = 0, total_valence = 0;
+  bool estimated = false;
 };
 
-// Writes the line of whatever `walk(visitor)` walks.
+// The fields the CSV cells of `mask`'s columns are made from: the
+// figures' cells need the verdict too; the saturation moment's, its flag.
+ReportMask CsvCellFields(const ReportMask& mask) {
+  return mask.all() ? mask
+                    : mask.With("valid").With("saturation_moment_estimated");
+}
+
+// Writes the line of the fields `mask` wants of whatever `walk(mask,
+// visitor)` walks.
 template <typename Walk>
-void WriteLine(ReportLineFormat format, Walk walk, std::string* out) {
+void WriteLine(ReportLineFormat format, const ReportMask& mask, Walk walk,
+               std::string* out) {
   if (format == ReportLineFormat::kCsv) {
     CsvGatherer csv;
-    walk(csv);
-    csv.Write(out);
+    walk(CsvCellFields(mask), csv);
+    csv.Write(mask, out);
     return;
   }
   thread_local std::string storage;
   LineWriter line(&storage);
   line.Char('{');
   JsonWriter json(&line);
-  walk(json);
+  walk(mask, json);
   line.Lit("}\n");
   out->append(line.text().data(), line.text().size());
 }
 
 }  // namespace
 
-std::string ReportCsvHeader() {
-  return "row,id,valid,formula,composition_kind,oxidation_states,score,"
-         "unpaired_per_formula_unit,effective_moment_per_formula_unit,"
-         "expected_moment_low,expected_moment_high,curie_constant,"
-         "valence_electron_concentration,ions,diagnostic_codes,diagnostics";
+std::string ReportCsvHeader(const ReportMask& mask) {
+  const std::array<int, kCsvColumnCount>& fields = CsvColumnFields();
+  std::string header;
+  for (size_t c = 0; c < kCsvColumnCount; ++c) {
+    if (!mask.Has(fields[c])) continue;
+    if (!header.empty()) header += ',';
+    absl::StrAppend(&header, kCsvColumns[c].name);
+  }
+  return header;
+}
+
+absl::Status CheckCsvFields(const ReportMask& mask) {
+  std::vector<absl::string_view> with_columns;
+  for (const CsvColumn& column : kCsvColumns) {
+    if (with_columns.empty() || with_columns.back() != column.field) {
+      with_columns.push_back(column.field);
+    }
+  }
+  for (const std::string& field : mask.Paths()) {
+    if (std::find(with_columns.begin(), with_columns.end(), field) ==
+        with_columns.end()) {
+      return absl::InvalidArgumentError(absl::StrCat(
+          "fields: '", field, "' has no CSV column; the CSV columns come from ",
+          absl::StrJoin(with_columns, ", "),
+          " (JSONL output has every field)"));
+    }
+  }
+  return absl::OkStatus();
+}
+
+ReportMask FieldsToRequest(ReportLineFormat format, const ReportMask& mask) {
+  const ReportMask counted =
+      mask.With("id").With("row").With("valid").With("diagnostics");
+  return format == ReportLineFormat::kCsv ? CsvCellFields(counted) : counted;
 }
 
 void AppendReportLine(ReportLineFormat format, const v1::RecordReport& report,
-                      std::string* out) {
+                      std::string* out, const ReportMask& mask) {
   WriteLine(
-      format, [&](auto& visitor) { VisitRecordReport(report, visitor); }, out);
+      format, mask,
+      [&](const ReportMask& m, auto& visitor) {
+        VisitRecordReport(report, m, visitor);
+      },
+      out);
 }
 
 void AppendReportLine(ReportLineFormat format, const CompositionReport& report,
-                      const v1::CompositionRecord& record, std::string* out) {
+                      const v1::CompositionRecord& record, std::string* out,
+                      const ReportMask& mask) {
   WriteLine(
-      format,
-      [&](auto& visitor) { VisitRecordReport(report, record, visitor); }, out);
+      format, mask,
+      [&](const ReportMask& m, auto& visitor) {
+        VisitRecordReport(report, record, m, visitor);
+      },
+      out);
 }
 
 void ReportCounts::Add(const ReportCounts& other) {
@@ -489,8 +621,8 @@ void ReportCounts::Add(const ReportCounts& other) {
 }
 
 void AddReport(ReportLineFormat format, const v1::RecordReport& report,
-               ReportLines* out) {
-  AppendReportLine(format, report, &out->text);
+               ReportLines* out, const ReportMask& mask) {
+  AppendReportLine(format, report, &out->text, mask);
   ReportCounts& c = out->counts;
   ++c.rows;
   ++(report.valid() ? c.valid : c.invalid);
@@ -508,8 +640,9 @@ void AddReport(ReportLineFormat format, const v1::RecordReport& report,
 }
 
 void AddReport(ReportLineFormat format, const CompositionReport& report,
-               const v1::CompositionRecord& record, ReportLines* out) {
-  AppendReportLine(format, report, record, &out->text);
+               const v1::CompositionRecord& record, ReportLines* out,
+               const ReportMask& mask) {
+  AppendReportLine(format, report, record, &out->text, mask);
   ReportCounts& c = out->counts;
   ++c.rows;
   ++(report.valid ? c.valid : c.invalid);

@@ -24,6 +24,8 @@
 #include <string>
 #include <vector>
 
+#include "absl/status/status.h"
+#include "api/report_mask.h"
 #include "engine/composition.h"
 #include "shellwright/v1/electron_structure.pb.h"
 
@@ -61,34 +63,53 @@ struct ReportLines {
   std::vector<ReportRow> rows;
 };
 
-// The CSV header, without a line break. The cells:
+// The CSV header, without a line break: the columns whose field `mask`
+// wants (diagnostic_codes and diagnostics both come from diagnostics).
+// The cells:
 //   oxidation_states  element, signed state, ':', exact count, joined by
 //                     ';': "Fe+2:1;Fe+3:2;O-2:4" (counts may be "11/2");
 //   the figures       score ... valence_electron_concentration: numbers,
 //                     blank for an invalid record (it has none);
+//   saturation_moment_per_formula_unit  blank where no estimate is made;
+//   moment_model      its name ("slater_pauling_alloy", "none", ...);
+//   total_valence_electrons  Z_t, blank for an invalid record;
 //   ions              one per ion, joined by "; ": "Fe+3 count=2
 //                     unpaired=5 spin=high/octahedral moment=5.91608"
 //                     (spin only where high and low spin differ);
 //   diagnostic_codes  severity:code joined by ';':
 //                     "warning:possible_hydrate_typo;info:mixed_valence";
 //   diagnostics       "severity code: message" joined by " | ".
-std::string ReportCsvHeader();
+std::string ReportCsvHeader(const ReportMask& mask = ReportMask());
 
-// Appends the report's line, line break included.
+// OK when every field `mask` names has a CSV column; otherwise
+// INVALID_ARGUMENT starting "fields: ", naming the field and the fields
+// that have columns (alternatives and units have none).
+absl::Status CheckCsvFields(const ReportMask& mask);
+
+// What to ask a server for when lines in `format` show the fields of
+// `mask`: those, what their CSV cells are made from, and what AddReport
+// counts (id, row, valid, diagnostics).
+ReportMask FieldsToRequest(ReportLineFormat format, const ReportMask& mask);
+
+// Appends the report's line, line break included, with the fields (JSONL)
+// or columns (CSV) of `mask`.
 void AppendReportLine(ReportLineFormat format, const v1::RecordReport& report,
-                      std::string* out);
+                      std::string* out, const ReportMask& mask = ReportMask());
 
 // The same line as for RecordReportToProto(report, record) (api/
 // records.h), written from the engine report; `record` supplies the echoed
 // row and formula.
 void AppendReportLine(ReportLineFormat format, const CompositionReport& report,
-                      const v1::CompositionRecord& record, std::string* out);
+                      const v1::CompositionRecord& record, std::string* out,
+                      const ReportMask& mask = ReportMask());
 
-// AppendReportLine to out->text, and the report counted in out->counts.
+// AppendReportLine to out->text, and the report counted in out->counts
+// (whatever `mask` says: a remote report must hold FieldsToRequest's).
 void AddReport(ReportLineFormat format, const v1::RecordReport& report,
-               ReportLines* out);
+               ReportLines* out, const ReportMask& mask = ReportMask());
 void AddReport(ReportLineFormat format, const CompositionReport& report,
-               const v1::CompositionRecord& record, ReportLines* out);
+               const v1::CompositionRecord& record, ReportLines* out,
+               const ReportMask& mask = ReportMask());
 
 }  // namespace shellwright::cli
 

@@ -4,6 +4,7 @@
 //   shellwright_loadgen                      # starts its own shellwrightd
 //   shellwright_loadgen --seconds 5 --callers 1,8,32,64
 //   shellwright_loadgen --target 127.0.0.1:50051   # a running server
+//   shellwright_loadgen --fields valid,diagnostics  # masked reports
 //
 // Scenarios, each run for --warmup then measured for --seconds:
 //   * DescribeAtom (unary) with 1, 8 and 32 concurrent callers: calls/s,
@@ -46,6 +47,7 @@
 #include "absl/strings/strip.h"
 #include "api/atoms.h"
 #include "api/records.h"
+#include "api/report_mask.h"
 #include "engine/version.h"
 #include "grpcpp/grpcpp.h"
 #include "shellwright/v1/electron_structure.grpc.pb.h"
@@ -76,6 +78,9 @@ struct Flags {
   int batch = 500;
   int channels = 1;
   std::string spec = "Fe3+";
+  // AnalyzeRecords' report_mask: comma-separated RecordReport fields; "":
+  // every field.
+  std::string fields;
   bool no_echo = false;
   // --serve-echo mode (internal: the parent starts it).
   bool serve_echo = false;
@@ -278,6 +283,11 @@ v1::RecordBatch StreamRequest(const Flags& flags) {
     }
     r->set_max_alternatives(0);
   }
+  if (!flags.fields.empty()) {
+    // Checked when the flags were parsed.
+    ReportMask::FromList(flags.fields)
+        ->ToFieldMask(batch.mutable_report_mask());
+  }
   return batch;
 }
 
@@ -290,9 +300,11 @@ grpc::ByteBuffer UnaryReply(const Flags& flags) {
 
 grpc::ByteBuffer StreamReply(const Flags& flags) {
   const v1::RecordBatch batch = StreamRequest(flags);
+  // Checked when the flags were parsed.
+  const ReportMask mask = *ReportMask::FromFieldMask(batch.report_mask());
   v1::ReportBatch reply;
   for (const v1::CompositionRecord& r : batch.records()) {
-    AnalyzeRecord(r, reply.add_reports());
+    AnalyzeRecord(r, reply.add_reports(), mask);
   }
   return ToByteBuffer(reply);
 }
@@ -700,6 +712,17 @@ std::optional<int> ParseFlags(int argc, char** argv, Flags* flags) {
       ->capture_default_str();
   app.add_option("--spec", flags->spec, "species asked for")
       ->capture_default_str();
+  app.add_option("--fields", flags->fields,
+                 "AnalyzeRecords report_mask: RecordReport fields, "
+                 "comma-separated (default: every field)")
+      ->check(Accepts(
+          [](const std::string& text) {
+            absl::Status s = ReportMask::FromList(text).status();
+            return s.ok() ? s
+                          : absl::InvalidArgumentError(absl::StripPrefix(
+                                s.message(), "report_mask: "));
+          },
+          "FIELD[,FIELD...]"));
   app.add_flag("--no-echo", flags->no_echo, "skip the echo ceiling");
   // Internal: the parent starts the echo server as this binary.
   app.add_flag("--serve-echo", flags->serve_echo)->group("");
@@ -742,6 +765,9 @@ int Main(int argc, char** argv) {
                                           flags.spec,
                                           "--batch",
                                           std::to_string(flags.batch)};
+    if (!flags.fields.empty()) {
+      argv_echo.insert(argv_echo.end(), {"--fields", flags.fields});
+    }
     echo = StartServer(argv_echo, kEchoListening);
     if (echo == nullptr) return 1;
   }
@@ -764,6 +790,12 @@ int Main(int argc, char** argv) {
     std::cerr << absl::StrFormat(
         "target %s, DescribeAtom(%s): request %d B, reply %d B\n", address,
         flags.spec, UnaryRequest(flags).ByteSizeLong(), d.ByteSizeLong());
+    std::cerr << absl::StrFormat(
+        "AnalyzeRecords: %d records per batch, fields %s: request %d B, "
+        "reply %.0f B per record\n",
+        flags.batch, flags.fields.empty() ? "all" : flags.fields,
+        StreamRequest(flags).ByteSizeLong(),
+        static_cast<double>(StreamReply(flags).Length()) / flags.batch);
   }
 
   std::vector<Result> results;

@@ -23,11 +23,13 @@
 #include <vector>
 
 #include "absl/status/status.h"
+#include "absl/status/statusor.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/strip.h"
 #include "api/atoms.h"
 #include "api/caution.h"
 #include "api/records.h"
+#include "api/report_mask.h"
 #include "clients/cli/atom_format.h"
 #include "clients/cli/backend.h"
 #include "clients/cli/check.h"
@@ -51,7 +53,8 @@ constexpr FieldName kFlagNames[] = {{"spec", "SPEC"},
                                     {"geometry", "--geometry"},
                                     {"spin_state", "--spin-state"},
                                     {"configuration", "--configuration"},
-                                    {"address", "--server"}};
+                                    {"address", "--server"},
+                                    {"fields", "--fields"}};
 
 // Where answers come from: the gRPC target ("" in process), for messages.
 std::string* ServerTargetForMessages() {
@@ -310,8 +313,20 @@ struct CheckFlags {
   std::string summary_json;
   std::string format;
   std::string out_format;
+  std::string fields;
   bool no_progress = false;
 };
+
+// The report fields a --fields value names (ReportMask::FromList), its
+// error message naming no field: the parser puts --fields before it.
+absl::StatusOr<ReportMask> ParseFields(absl::string_view text) {
+  absl::StatusOr<ReportMask> mask = ReportMask::FromList(text);
+  if (!mask.ok()) {
+    return absl::InvalidArgumentError(
+        absl::StripPrefix(mask.status().message(), "report_mask: "));
+  }
+  return mask;
+}
 
 CLI::App* AddCheck(CLI::App* app, CheckFlags* f) {
   CLI::App* check = app->add_subcommand(
@@ -345,6 +360,14 @@ CLI::App* AddCheck(CLI::App* app, CheckFlags* f) {
                    "alternatives for records without their own "
                    "max_alternatives (default 0)")
       ->check(IntegerIn(0, kMaxAlternatives));
+  check
+      ->add_option("--fields", f->fields,
+                   "write only these report fields, comma-separated (CSV: "
+                   "their columns); a server sends only these (default: "
+                   "all)")
+      ->check(Accepts(
+          [](const std::string& text) { return ParseFields(text).status(); },
+          "FIELD[,FIELD...]"));
   check->add_option("--summary-json", f->summary_json,
                     "also write the summary as one JSON object to this file");
   check->add_flag("--no-progress", f->no_progress,
@@ -360,6 +383,7 @@ int RunCheck(CheckFlags& f, bool quiet, Backend& backend) {
       ParseName<RecordFormat>(f.out_format).value_or(RecordFormat::kAuto);
   f.options.progress =
       !f.no_progress && isatty(2) && std::getenv("CI") == nullptr;
+  if (!f.fields.empty()) f.options.fields = *ParseFields(f.fields);  // Checked.
   // SIGINT and SIGTERM stop reading; what was read is answered and
   // written, then the summary says how far the run got.
   std::unique_ptr<StopSignals> stop = StopSignals::Install();
@@ -367,7 +391,8 @@ int RunCheck(CheckFlags& f, bool quiet, Backend& backend) {
   absl::StatusOr<CheckResult> result =
       cli::RunCheck(f.options, backend, std::cerr);
   if (!result.ok()) {
-    std::cerr << "shellwright: check: " << Explained(result.status()).message()
+    std::cerr << "shellwright: check: "
+              << RenameField(Explained(result.status()).message(), kFlagNames)
               << "\n";
     return kExitUsage;
   }

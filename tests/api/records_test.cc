@@ -131,5 +131,31 @@ TEST(Records, MalformedLineReportCutsAtCharacterBoundaries) {
   EXPECT_THAT(report.diagnostics(0).message(), HasSubstr("broken"));
 }
 
+// States and ions with the same key are built once per thread and copied
+// (api/records.cc): each copy must carry its own record's counts.
+TEST(Records, RegressionKeptStatesAndIonsCarryTheirOwnCounts) {
+  v1::RecordReport first, second, again;
+  v1::CompositionRecord record;
+  record.set_formula("Fe2O3");
+  AnalyzeRecord(record, &first);
+  record.set_formula("FeO1.5");
+  AnalyzeRecord(record, &second);
+  record.set_formula("Fe2O3");
+  AnalyzeRecord(record, &again);
+  // Fe(III) oxide either way (Greenwood and Earnshaw, from memory).
+  ASSERT_EQ(first.oxidation_states_size(), 2);
+  ASSERT_EQ(second.oxidation_states_size(), 2);
+  EXPECT_EQ(first.oxidation_states(0).count_exact(), "2");
+  EXPECT_EQ(second.oxidation_states(0).count_exact(), "1");
+  EXPECT_EQ(second.oxidation_states(1).count_exact(), "3/2");
+  EXPECT_EQ(second.oxidation_states(1).count(), 1.5);
+  ASSERT_EQ(first.ions_size(), second.ions_size());
+  ASSERT_GE(first.ions_size(), 1);
+  EXPECT_EQ(first.ions(0).count(), 2);
+  EXPECT_EQ(second.ions(0).count(), 1);
+  EXPECT_EQ(first.ions(0).species(), second.ions(0).species());
+  EXPECT_EQ(first.SerializeAsString(), again.SerializeAsString());
+}
+
 }  // namespace
 }  // namespace shellwright

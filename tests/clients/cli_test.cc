@@ -107,6 +107,13 @@ TEST(Cli, UsageErrorsExitTwoNamingTheProblem) {
       {{"check", "in.csv", "--jobs", "0"}, "--jobs"},
       {{"check", "in.csv", "--batch-size", "10001"}, "--batch-size"},
       {{"check", "in.csv", "--format", "xml"}, "xml"},
+      // --fields names report fields; a wrong one is named, with the list.
+      {{"check", "in.csv", "--fields", "valid,validity"}, "'validity'"},
+      {{"check", "in.csv", "--fields", "ions.moment"}, "'ions.moment'"},
+      {{"check", "in.csv", "--fields", "validity"},
+       "diagnostics, oxidation_states"},
+      {{"check", "in.csv", "--fields", "valid,,id"}, "--fields"},
+      {{"atom", "Fe", "--fields", "valid"}, "--fields"},
       // Remote settings need a server.
       {{"--tls-ca", "ca.pem", "atom", "Fe"}, "--server"},
       {{"--timeout", "5", "atom", "Fe"}, "--server"},
@@ -120,6 +127,22 @@ TEST(Cli, UsageErrorsExitTwoNamingTheProblem) {
     EXPECT_THAT(r.err, HasSubstr(c.named));
     EXPECT_TRUE(r.out.empty());
   }
+}
+
+TEST(Cli, CheckFieldsWithoutACsvColumnIsAUsageError) {
+  const std::string input = std::string(SHELLWRIGHT_DEFAULT_SOURCE_DIR) +
+                            "/data/demo/sample_registry.csv";
+  CommandResult r = Cli({"check", input, "--fields", "valid,alternatives",
+                         "--out", "-", "--out-format", "csv"});
+  EXPECT_EQ(r.exit_code, 2) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("--fields: 'alternatives' has no CSV column"));
+  EXPECT_THAT(r.err, HasSubstr("oxidation_states"));  // The ones that have.
+  EXPECT_TRUE(r.out.empty());
+  // JSONL has every field.
+  CommandResult jsonl =
+      Cli({"check", input, "--fields", "valid,alternatives", "--out", "-"});
+  EXPECT_EQ(jsonl.exit_code, 1) << jsonl.err;  // The registry has defects.
+  EXPECT_THAT(jsonl.out, HasSubstr("{\"valid\":true,\"alternatives\":[]}\n"));
 }
 
 TEST(Cli, EachCommandHasItsOwnHelp) {
@@ -160,6 +183,37 @@ TEST(Cli, CompoundTakesSettingsPerElement) {
     EXPECT_EQ(ion.geometry(), "tetrahedral");
     EXPECT_EQ(ion.spin_state(), "high");
   }
+}
+
+TEST(Cli, CompoundGivesMetallicMomentEstimates) {
+  // Co2MnAl: M = Z_t - 24 = 28 - 24 = 4 μB (Slater-Pauling rule for
+  // Heusler compounds; measured 4.01, Webster, J. Phys. Chem. Solids 32,
+  // 1221 (1971), from memory).
+  CommandResult r = Cli({"compound", "Co2MnAl", "--json"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  v1::RecordReport report;
+  ASSERT_TRUE(google::protobuf::util::JsonStringToMessage(r.out, &report).ok())
+      << r.out;
+  EXPECT_EQ(report.moment_model(), "slater_pauling_full_heusler");
+  EXPECT_TRUE(report.saturation_moment_estimated());
+  EXPECT_EQ(report.saturation_moment_per_formula_unit(), 4);
+  EXPECT_EQ(report.total_valence_electrons(), 28);
+  EXPECT_EQ(report.unpaired_per_formula_unit(), 0);  // Not 2 x 3 + 5 + 1.
+  // Human output says what the figure is, and that measurement decides.
+  CommandResult human = Cli({"compound", "Co2MnAl"});
+  ASSERT_EQ(human.exit_code, 0) << human.err;
+  EXPECT_THAT(human.out, HasSubstr("Ordered moment: 4 μB per formula unit"));
+  EXPECT_THAT(human.out, HasSubstr("measurement decides"));
+  EXPECT_THAT(human.out, HasSubstr("free-atom configuration"));
+  // Outside every rule: no estimate, and the reason.
+  CommandResult none = Cli({"compound", "Pd", "--json"});
+  ASSERT_TRUE(
+      google::protobuf::util::JsonStringToMessage(none.out, &report).ok());
+  EXPECT_EQ(report.moment_model(), "none");
+  EXPECT_FALSE(report.saturation_moment_estimated());
+  EXPECT_THAT(report.moment_note(), HasSubstr("no estimate"));
+  EXPECT_THAT(Cli({"compound", "Pd"}).out,
+              HasSubstr("Ordered moment: no estimate"));
 }
 
 TEST(Cli, MessagesNameTheOptionThatCarriedTheValue) {

@@ -29,6 +29,16 @@ std::string ProtoLine(const v1::RecordReport& r,
   return out;
 }
 
+// The line written from the engine report of `record`.
+std::string EngineLine(const v1::CompositionRecord& record,
+                       ReportLineFormat format) {
+  std::string out;
+  AppendReportLine(format,
+                   AnalyzeComposition(CompositionInputFromProto(record)),
+                   record, &out);
+  return out;
+}
+
 // Sets every field of `m` and of its sub-messages, two elements per
 // repeated field, to a value that differs from the default, so that a
 // field the specialised writer misses shows up in the protobuf printer's
@@ -129,6 +139,11 @@ std::vector<v1::CompositionRecord> Records() {
   add("Xx2O3");
   add("");
   add("CuSO4.5H2O");
+  // Metallic phases: each moment model, and none.
+  for (const char* formula :
+       {"Co2MnAl", "Fe0.7Co0.3", "SmCo5", "Gd", "Fe3Al", "Pd", "Fe2VAl"}) {
+    add(formula);
+  }
   // One description (Fe3+, octahedral, auto spin) with two moment ranges:
   // the default gives a range, a geometry set by the record fixes it. The
   // ion text cache must tell them apart.
@@ -164,6 +179,50 @@ TEST(ReportLines, EngineLinesEqualTheProtoPathsLines) {
   EXPECT_GT(longest, 3 * 4096u);  // The writer's storage had to grow.
 }
 
+// check --fields: in process, a line is the engine walk's with the mask;
+// remote, the server fills FieldsToRequest's fields and the line is
+// written from that message with the mask. Every field alone (CSV: every
+// field with a column) and some sets give the same bytes both ways.
+TEST(ReportLines, MaskedEngineLinesEqualTheServersMaskedLines) {
+  std::vector<ReportMask> masks;
+  for (const std::string& name : ReportMask::FieldNames()) {
+    masks.push_back(*ReportMask::FromPaths({name}));
+  }
+  masks.push_back(*ReportMask::FromList("valid,diagnostics,oxidation_states"));
+  masks.push_back(*ReportMask::FromList("formula,ions,curie_constant"));
+  int csv_masks = 0;
+  for (const ReportMask& mask : masks) {
+    for (ReportLineFormat format :
+         {ReportLineFormat::kJsonl, ReportLineFormat::kCsv}) {
+      if (format == ReportLineFormat::kCsv && !CheckCsvFields(mask).ok()) {
+        continue;  // No column: a usage error (tests/clients/cli_test.cc).
+      }
+      csv_masks += format == ReportLineFormat::kCsv;
+      const ReportMask requested = FieldsToRequest(format, mask);
+      for (const v1::CompositionRecord& record : Records()) {
+        const CompositionReport report =
+            AnalyzeComposition(CompositionInputFromProto(record));
+        v1::RecordReport sent;
+        AnalyzeRecord(record, &sent, requested);
+        std::string engine, remote;
+        AppendReportLine(format, report, record, &engine, mask);
+        AppendReportLine(format, sent, &remote, mask);
+        ASSERT_EQ(engine, remote) << ::testing::PrintToString(mask.Paths())
+                                  << " " << record.formula();
+      }
+    }
+  }
+  EXPECT_GT(csv_masks, 10);
+  // One field alone, in JSONL: just its key.
+  v1::CompositionRecord record;
+  record.set_formula("Fe3O4");
+  std::string line;
+  AppendReportLine(ReportLineFormat::kJsonl,
+                   AnalyzeComposition(CompositionInputFromProto(record)),
+                   record, &line, *ReportMask::FromPaths({"valid"}));
+  EXPECT_EQ(line, "{\"valid\":true}\n");
+}
+
 TEST(ReportLines, CsvLineHasOneFieldPerHeaderColumn) {
   v1::CompositionRecord record;
   record.set_id("a,\"b\"");
@@ -183,11 +242,42 @@ TEST(ReportLines, CsvLineHasOneFieldPerHeaderColumn) {
   EXPECT_EQ(fields[5], "Fe+2:1;Fe+3:2;O-2:4");
   // High-spin Fe2+ (d6) and Fe3+ (d5) by default: 4 and 5 unpaired
   // (Greenwood and Earnshaw, from memory).
-  EXPECT_EQ(fields[13],
+  // No saturation estimate for an ionic record yet: blank, not 0.
+  EXPECT_EQ(header[13], "saturation_moment_per_formula_unit");
+  EXPECT_EQ(fields[13], "");
+  EXPECT_EQ(fields[14], "local_moment");
+  EXPECT_EQ(fields[15], "48");  // Z_t: 3 x 8 + 4 x 6.
+  EXPECT_EQ(fields[16],
             "Fe+2 count=1 unpaired=4 spin=high/octahedral moment=4.89898; "
             "Fe+3 count=2 unpaired=5 spin=high/octahedral moment=5.91608; "
             "O-2 count=4 unpaired=0 moment=0");
-  EXPECT_EQ(fields[14], "info:mixed_valence");
+  EXPECT_EQ(fields[17], "info:mixed_valence");
+}
+
+TEST(ReportLines, CsvLineHasTheMetallicMomentEstimate) {
+  v1::CompositionRecord record;
+  record.set_formula("Co2MnAl");
+  v1::RecordReport proto;
+  AnalyzeRecord(record, &proto);
+  std::vector<std::string> fields;
+  std::string error;
+  for (const std::string& line : {ProtoLine(proto, ReportLineFormat::kCsv),
+                                  EngineLine(record, ReportLineFormat::kCsv)}) {
+    ASSERT_TRUE(SplitCsvLine(line.substr(0, line.size() - 1), &fields, &error));
+    // M = Z_t - 24 = 28 - 24 (Galanakis et al., Phys. Rev. B 66, 174429
+    // (2002), from memory).
+    EXPECT_EQ(fields[13], "4");
+    EXPECT_EQ(fields[14], "slater_pauling_full_heusler");
+    EXPECT_EQ(fields[15], "28");
+    EXPECT_EQ(fields[7], "0");  // No free-atom unpaired count.
+  }
+  // Fe2VAl's estimate is 0, written as 0, not as a blank.
+  record.set_formula("Fe2VAl");
+  proto.Clear();
+  AnalyzeRecord(record, &proto);
+  const std::string line = ProtoLine(proto, ReportLineFormat::kCsv);
+  ASSERT_TRUE(SplitCsvLine(line.substr(0, line.size() - 1), &fields, &error));
+  EXPECT_EQ(fields[13], "0");
 }
 
 TEST(ReportLines, RegressionInvalidRowsHaveBlankFigures) {
@@ -201,9 +291,9 @@ TEST(ReportLines, RegressionInvalidRowsHaveBlankFigures) {
   std::vector<std::string> fields;
   std::string error;
   ASSERT_TRUE(SplitCsvLine(line.substr(0, line.size() - 1), &fields, &error));
-  for (int i = 6; i <= 12; ++i) EXPECT_EQ(fields[i], "") << i;
-  EXPECT_EQ(fields[14], "error:malformed_formula");
-  EXPECT_EQ(fields[15].rfind("error malformed_formula: ", 0), 0u) << fields[15];
+  for (int i = 6; i <= 15; ++i) EXPECT_EQ(fields[i], "") << i;
+  EXPECT_EQ(fields[17], "error:malformed_formula");
+  EXPECT_EQ(fields[18].rfind("error malformed_formula: ", 0), 0u) << fields[18];
 }
 
 }  // namespace

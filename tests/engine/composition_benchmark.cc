@@ -163,6 +163,55 @@ void BM_AnalyzeUnitFormula(benchmark::State& state) {
 }
 BENCHMARK(BM_AnalyzeUnitFormula);
 
+// Metallic phases (engine/metallic_moments.h): 3d alloys, Heusler
+// compounds, rare-earth magnets and rare-earth alloys with random
+// two-decimal fractions, mostly distinct.
+std::vector<std::string> MetallicFormulas(int n) {
+  std::mt19937 rng(20261204);
+  const char* late[] = {"Fe", "Co", "Ni"};
+  const char* heusler_y[] = {"Mn", "Fe", "Cr", "V", "Ti"};
+  const char* heusler_z[] = {"Al", "Ga", "In", "Sn"};
+  const char* rare_earth[] = {"Nd", "Sm", "Pr", "Gd", "Dy", "Y"};
+  std::vector<std::string> out;
+  std::uniform_int_distribution<int> family(0, 3), pick(0, 100);
+  for (int i = 0; i < n; ++i) {
+    switch (family(rng)) {
+      case 0: {  // Binary 3d alloy
+        const std::string x = Fraction(rng, 1, 99);
+        out.push_back(absl::StrCat(late[pick(rng) % 3],
+                                   absl::StrFormat("%.2f", 1 - std::stod(x)),
+                                   late[pick(rng) % 3], x));
+        break;
+      }
+      case 1:  // Full Heusler, Co or Fe based
+        out.push_back(absl::StrCat(pick(rng) % 2 ? "Co2" : "Fe2",
+                                   heusler_y[pick(rng) % 5],
+                                   heusler_z[pick(rng) % 4]));
+        break;
+      case 2: {  // Rare-earth cobalt or iron magnet, doped
+        const std::string x = Fraction(rng, 1, 60);
+        out.push_back(absl::StrCat(rare_earth[pick(rng) % 6], "Co",
+                                   absl::StrFormat("%.2f", 5 - std::stod(x)),
+                                   "Fe", x));
+        break;
+      }
+      default: {  // Rare-earth binary alloy
+        const std::string x = Fraction(rng, 1, 99);
+        out.push_back(absl::StrCat(rare_earth[pick(rng) % 6],
+                                   absl::StrFormat("%.2f", 1 - std::stod(x)),
+                                   rare_earth[pick(rng) % 6], x));
+        break;
+      }
+    }
+  }
+  return out;
+}
+
+void BM_AnalyzeMetallicFormula(benchmark::State& state) {
+  AnalyzeInTurn(state, MetallicFormulas(20000), 0);
+}
+BENCHMARK(BM_AnalyzeMetallicFormula);
+
 void BM_ParseDistinctFormula(benchmark::State& state) {
   const std::vector<std::string> formulas = DistinctFormulas(20000);
   size_t i = 0;

@@ -489,5 +489,77 @@ TEST(Composition, EveryRecordIsValidExactlyWithoutErrors) {
   }
 }
 
+// Moments of metallic phases (engine/metallic_moments.h).
+
+TEST(Composition, MetallicPhaseHasNoFreeAtomUnpairedCount) {
+  // Regression: Fe3Al reported 13 free-atom unpaired electrons (3 x Fe 4 +
+  // Al 1), which no metal has. It is outside every metallic rule.
+  CompositionReport r = Analyze("Fe3Al");
+  EXPECT_TRUE(r.valid) << DiagnosticsText(r);
+  EXPECT_EQ(r.moment_model, MomentModel::kNone);
+  EXPECT_FALSE(r.saturation_moment_per_formula_unit.has_value());
+  EXPECT_EQ(r.unpaired_per_formula_unit, 0);
+  EXPECT_EQ(r.effective_moment_per_formula_unit, 0);
+  EXPECT_EQ(r.expected_moment_high, 0);
+  EXPECT_EQ(r.curie_constant, 0);
+  EXPECT_THAT(r.moment_note, ::testing::HasSubstr("no estimate"));
+  EXPECT_EQ(r.total_valence_electrons, 27);  // 3 x 8 + 3.
+}
+
+TEST(Composition, SmCo5HasSublatticeMomentNotTwentyOneUnpaired) {
+  // Regression: SmCo5 reported 21 free-atom unpaired electrons.
+  CompositionReport r = Analyze("SmCo5");
+  EXPECT_TRUE(r.valid) << DiagnosticsText(r);
+  EXPECT_EQ(r.kind, CompositionKind::kMetallic);
+  EXPECT_EQ(r.moment_model, MomentModel::kRareEarth4fWith3d);
+  ASSERT_TRUE(r.saturation_moment_per_formula_unit.has_value());
+  // 5 x Co 1.6 + Sm3+ g_J J 0.714 (rule arithmetic).
+  EXPECT_NEAR(*r.saturation_moment_per_formula_unit, 8 + 5.0 / 7.0, 1e-9);
+  EXPECT_EQ(r.unpaired_per_formula_unit, 5);  // Sm3+ 4f5 only.
+  EXPECT_EQ(r.effective_moment_per_formula_unit, 0);
+  // Sm counts 3 valence electrons, not 4f6 6s2's 8: (3 + 45) / 6.
+  EXPECT_EQ(r.total_valence_electrons, 48);
+  EXPECT_NEAR(r.valence_electron_concentration, 8, 1e-12);
+}
+
+TEST(Composition, ElementalIronTakesTheSlaterPaulingCurve) {
+  // 2.22 μB per atom (Kittel, Introduction to Solid State Physics,
+  // table of ferromagnetic crystals, from memory).
+  CompositionReport r = Analyze("Fe");
+  EXPECT_EQ(r.kind, CompositionKind::kElemental);
+  EXPECT_EQ(r.moment_model, MomentModel::kSlaterPaulingAlloy);
+  ASSERT_TRUE(r.saturation_moment_per_formula_unit.has_value());
+  EXPECT_NEAR(*r.saturation_moment_per_formula_unit, 2.22, 0.02);
+  EXPECT_EQ(r.unpaired_per_formula_unit, 0);
+}
+
+TEST(Composition, AllMetalHeuslerCo2MnAl) {
+  // Measured 4.01 μB/f.u. (Webster, J. Phys. Chem. Solids 32, 1221
+  // (1971), from memory); M = Z_t - 24 = 28 - 24.
+  CompositionReport r = Analyze("Co2MnAl");
+  EXPECT_EQ(r.moment_model, MomentModel::kFullHeusler);
+  ASSERT_TRUE(r.saturation_moment_per_formula_unit.has_value());
+  EXPECT_NEAR(*r.saturation_moment_per_formula_unit, 4.01, 0.1);
+  EXPECT_EQ(r.total_valence_electrons, 28);
+}
+
+TEST(Composition, GadoliniumHasItsFourFEffectiveMoment) {
+  CompositionReport r = Analyze("Gd");
+  EXPECT_EQ(r.moment_model, MomentModel::kRareEarth4f);
+  // 8S7/2: g_J √(J(J+1)) = 7.94 μB (Hund's rules).
+  EXPECT_NEAR(r.effective_moment_per_formula_unit, 7.937, 0.001);
+  EXPECT_EQ(r.unpaired_per_formula_unit, 7);
+  EXPECT_NEAR(r.curie_constant, CurieConstantPerMomentSquared() * 63.0, 1e-9);
+}
+
+TEST(Composition, IonicCompositionKeepsLocalMoments) {
+  CompositionReport r = Analyze("Fe3O4");
+  EXPECT_EQ(r.moment_model, MomentModel::kLocalMoment);
+  EXPECT_FALSE(r.saturation_moment_per_formula_unit.has_value());
+  EXPECT_TRUE(r.moment_note.empty());
+  EXPECT_EQ(r.unpaired_per_formula_unit, 14);  // Fe2+ 4 + 2 x Fe3+ 5.
+  EXPECT_EQ(r.total_valence_electrons, 48);    // 3 x 8 + 4 x 6.
+}
+
 }  // namespace
 }  // namespace shellwright

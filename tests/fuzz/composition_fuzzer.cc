@@ -80,9 +80,22 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
        {report.unpaired_per_formula_unit,
         report.effective_moment_per_formula_unit, report.expected_moment_low,
         report.expected_moment_high, report.curie_constant,
-        report.valence_electron_concentration}) {
+        report.valence_electron_concentration, report.total_valence_electrons,
+        report.saturation_moment_per_formula_unit.value_or(0)}) {
     FUZZ_CHECK(Finite(v) && v >= 0, formula);
   }
+  // Only metallic phases take a metallic moment model, which always says
+  // how it reached its figure or why there is none (engine/composition.h).
+  const bool local =
+      report.moment_model == shellwright::MomentModel::kLocalMoment;
+  FUZZ_CHECK(local || report.kind == shellwright::CompositionKind::kMetallic ||
+                 report.kind == shellwright::CompositionKind::kIntermetallic ||
+                 report.kind == shellwright::CompositionKind::kElemental,
+             formula);
+  FUZZ_CHECK(local == report.moment_note.empty(), formula);
+  FUZZ_CHECK(local || !report.saturation_moment_per_formula_unit.has_value() ||
+                 report.moment_model != shellwright::MomentModel::kNone,
+             formula);
   FUZZ_CHECK(report.expected_moment_low <= report.expected_moment_high,
              formula);
   for (const shellwright::IonAnnotation& ion : report.ions) {

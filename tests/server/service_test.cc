@@ -632,6 +632,25 @@ TEST_F(ServiceTest, InvalidUtf8InAStringFieldIsRejected) {
   EXPECT_TRUE(DescribeSpec("Fe", &d).ok());
 }
 
+TEST_F(ServiceTest, RecordBatchThatDoesNotParseIsInvalidArgument) {
+  // RecordBatch{records: [{id: "\xff"}]}: not UTF-8. AnalyzeRecords parses
+  // its batches itself (it writes its replies as bytes), and says what
+  // was wrong.
+  const std::string payload("\x0a\x03\x0a\x01\xff", 5);
+  grpc::Status status =
+      RawUnaryCall(client_.channel,
+                   "/shellwright.v1.ElectronStructure/AnalyzeRecords", payload);
+  EXPECT_EQ(status.error_code(), grpc::StatusCode::INVALID_ARGUMENT);
+  EXPECT_THAT(status.error_message(), HasSubstr("RecordBatch"));
+  // A batch that parses, sent the same way, is answered.
+  grpc::Status fine = RawUnaryCall(
+      client_.channel, "/shellwright.v1.ElectronStructure/AnalyzeRecords",
+      std::string("\x0a\x03\x0a\x01x", 5));
+  EXPECT_TRUE(fine.ok()) << fine.error_message();
+  v1::AtomDescription d;
+  EXPECT_TRUE(DescribeSpec("Fe", &d).ok());
+}
+
 TEST_F(ServiceTest, RandomSpecsAndConfigurationsNeverCrash) {
   const std::vector<std::string> pieces = {
       "Fe",       "Gd", "Og",   "H",    "26", "0",          "118",

@@ -250,19 +250,24 @@ TEST(Shellwrightd, CliRemoteOutputMatchesInProcessByteForByte) {
 }
 
 // Runs `check` on `input` in-process and through `server` in both output
-// formats, expects byte-identical output and exit codes, and returns the
-// in-process output of each format (JSONL first).
-std::vector<std::string> CheckBothWays(const std::string& input,
-                                       const ServerProcess& server,
-                                       int expected_exit_code) {
+// formats (with `extra` arguments), expects byte-identical output and exit
+// codes, and returns the in-process output of each format (JSONL first).
+std::vector<std::string> CheckBothWays(
+    const std::string& input, const ServerProcess& server,
+    int expected_exit_code, const std::vector<std::string>& extra = {}) {
   std::vector<std::string> outputs;
   for (const char* format : {"jsonl", "csv"}) {
     SCOPED_TRACE(format);
-    CommandResult local = RunCommand(
-        {CliPath(), "check", input, "--out", "-", "--out-format", format});
-    CommandResult remote = RunCommand(
-        {CliPath(), "--server", server.address(), "check", input, "--out", "-",
-         "--out-format", format, "--batch-size", "137"});
+    std::vector<std::string> local_args = {
+        CliPath(), "check", input, "--out", "-", "--out-format", format};
+    std::vector<std::string> remote_args = {
+        CliPath(), "--server", server.address(), "check", input,
+        "--out",   "-",        "--out-format",   format,  "--batch-size",
+        "137"};
+    local_args.insert(local_args.end(), extra.begin(), extra.end());
+    remote_args.insert(remote_args.end(), extra.begin(), extra.end());
+    CommandResult local = RunCommand(local_args);
+    CommandResult remote = RunCommand(remote_args);
     EXPECT_EQ(local.exit_code, expected_exit_code) << local.err;
     EXPECT_EQ(remote.exit_code, local.exit_code) << remote.err;
     EXPECT_EQ(remote.out, local.out);
@@ -287,6 +292,85 @@ TEST(Shellwrightd, CheckThroughTheServerMatchesInProcessByteForByte) {
   // The registry has invalid records.
   for (const std::string& out : CheckBothWays(input, *server, 1)) {
     EXPECT_GE(Lines(out), 3000u);
+  }
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+}
+
+TEST(Shellwrightd, CheckFieldsThroughTheServerMatchesInProcessByteForByte) {
+  // A validation run: the server sends only what the lines and the summary
+  // need, and the lines are the in-process ones, byte for byte.
+  const std::string input = std::string(SHELLWRIGHT_DEFAULT_SOURCE_DIR) +
+                            "/data/demo/sample_registry.csv";
+  std::unique_ptr<ServerProcess> server = StartShellwrightd({});
+  ASSERT_NE(server, nullptr);
+  const std::vector<std::string> full = CheckBothWays(input, *server, 1);
+  const std::vector<std::string> masked = CheckBothWays(
+      input, *server, 1, {"--fields", "valid,diagnostics,oxidation_states"});
+  ASSERT_EQ(masked.size(), 2u);
+  EXPECT_EQ(Lines(masked[0]), Lines(full[0]));
+  EXPECT_EQ(Lines(masked[1]), Lines(full[1]));
+  EXPECT_THAT(masked[0], HasSubstr("{\"valid\":"));
+  EXPECT_THAT(masked[0], Not(HasSubstr("\"ions\":")));
+  EXPECT_THAT(masked[0], Not(HasSubstr("\"id\":")));
+  EXPECT_EQ(masked[1].substr(0, masked[1].find('\n')),
+            "valid,oxidation_states,diagnostic_codes,diagnostics");
+  EXPECT_LT(masked[0].size(), full[0].size() / 2);
+  // Fields the summary does not need, and one it does (id) left out; a
+  // cell made from two fields (the saturation moment, blank without an
+  // estimate).
+  CheckBothWays(
+      input, *server, 1,
+      {"--fields", "formula,ions,saturation_moment_per_formula_unit"});
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+}
+
+TEST(Shellwrightd, ReportMaskFillsOnlyTheAskedFields) {
+  std::unique_ptr<ServerProcess> server = StartShellwrightd({});
+  ASSERT_NE(server, nullptr);
+  auto stub = Stub(server->address());
+  v1::RecordBatch batch;
+  for (const char* formula : {"Fe3O4", "LiFePO4", "Fe2O3)"}) {
+    v1::CompositionRecord* r = batch.add_records();
+    r->set_id(formula);
+    r->set_formula(formula);
+  }
+  v1::ReportBatch full, masked;
+  {
+    auto context = Context();
+    auto stream = stub->AnalyzeRecords(context.get());
+    ASSERT_TRUE(stream->Write(batch));
+    ASSERT_TRUE(stream->Read(&full));
+    batch.mutable_report_mask()->add_paths("valid");
+    batch.mutable_report_mask()->add_paths("diagnostics");
+    ASSERT_TRUE(stream->Write(batch));
+    ASSERT_TRUE(stream->Read(&masked));
+    stream->WritesDone();
+    grpc::Status s = stream->Finish();
+    ASSERT_TRUE(s.ok()) << s.error_message();
+  }
+  ASSERT_EQ(masked.reports_size(), 3);
+  for (int i = 0; i < 3; ++i) {
+    v1::RecordReport expected;
+    expected.set_valid(full.reports(i).valid());
+    *expected.mutable_diagnostics() = full.reports(i).diagnostics();
+    EXPECT_EQ(masked.reports(i).SerializeAsString(),
+              expected.SerializeAsString())
+        << masked.reports(i).DebugString();
+  }
+  EXPECT_FALSE(masked.reports(2).valid());  // The unbalanced parenthesis.
+  EXPECT_LT(masked.ByteSizeLong() * 4, full.ByteSizeLong());
+  {
+    // A path that names no field ends the stream, naming it.
+    batch.mutable_report_mask()->add_paths("ions.moment");
+    auto context = Context();
+    auto stream = stub->AnalyzeRecords(context.get());
+    ASSERT_TRUE(stream->Write(batch));
+    v1::ReportBatch reply;
+    EXPECT_FALSE(stream->Read(&reply));
+    grpc::Status s = stream->Finish();
+    EXPECT_EQ(s.error_code(), grpc::StatusCode::INVALID_ARGUMENT);
+    EXPECT_THAT(s.error_message(), HasSubstr("report_mask"));
+    EXPECT_THAT(s.error_message(), HasSubstr("'ions.moment'"));
   }
   EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
 }

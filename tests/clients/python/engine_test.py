@@ -66,7 +66,7 @@ class DescribeTest(unittest.TestCase):
 class AnalyzeTest(unittest.TestCase):
 
     FORMULAS = ["La0.7Sr0.3MnO3", "Fe3O4", "CuSO4·5H2O", "LiFePO4",
-                "Xx2O3", "Fe2O", ""]
+                "Xx2O3", "Fe2O", "", "Co2MnAl", "SmCo5", "Pd"]
 
     def test_equals_compound_json(self):
         for formula in self.FORMULAS:
@@ -86,6 +86,20 @@ class AnalyzeTest(unittest.TestCase):
         self.assertEqual(
             report, cli_json("compound", "Fe3O4", "--declared", "Fe:3,O:-2",
                              "--alternatives", "0") | {"id": "s1"})
+
+    def test_metallic_moment_estimate(self):
+        # M = Z_t - 24 = 28 - 24 (Slater-Pauling rule for Heusler
+        # compounds; measured 4.01 μB, Webster, J. Phys. Chem. Solids 32,
+        # 1221 (1971), from memory).
+        report = shellwright.analyze("Co2MnAl")
+        self.assertEqual(report["moment_model"], "slater_pauling_full_heusler")
+        self.assertTrue(report["saturation_moment_estimated"])
+        self.assertEqual(report["saturation_moment_per_formula_unit"], 4)
+        self.assertEqual(report["total_valence_electrons"], 28)
+        none = shellwright.analyze("Pd")
+        self.assertEqual(none["moment_model"], "none")
+        self.assertFalse(none["saturation_moment_estimated"])
+        self.assertIn("no estimate", none["moment_note"])
 
     def test_invalid_formula_is_a_report_not_an_exception(self):
         report = shellwright.analyze("Xx2O3")
