@@ -40,8 +40,7 @@ bool IsGroup3OrFBlock(const Element& e) {
 // they form borides, silicides and germanides, metallic whatever the
 // ratio (MoSi2, LaB6).
 bool IsBorideFormer(const Element& e) {
-  return e.atomic_number == 5 || e.atomic_number == 14 ||
-         e.atomic_number == 32;
+  return e.atomic_number == 5 || e.atomic_number == 14 || e.atomic_number == 32;
 }
 
 // The Zintl line: the electronegativity difference from which an alkali
@@ -141,8 +140,9 @@ BondingClass ClassifyBonding(const Formula& formula) {
     if (!boride_atoms.IsZero() &&
         !(boride_atoms < nonmetal_atoms - boride_atoms)) {
       c.kind = CompositionKind::kIntermetallic;
-      c.rule = "a transition or rare-earth metal with boron, silicon or "
-               "germanium";
+      c.rule =
+          "a transition or rare-earth metal with boron, silicon or "
+          "germanium";
       return c;
     }
     // Metal-rich carbides, nitrides, hydrides and pnictides: interstitial
@@ -153,8 +153,9 @@ BondingClass ClassifyBonding(const Formula& formula) {
     if (group3_f_only ? nonmetal_atoms < metal_atoms
                       : !(metal_atoms < nonmetal_atoms)) {
       c.kind = CompositionKind::kIntermetallic;
-      c.rule = "metal-rich: an interstitial carbide, nitride, hydride or "
-               "pnictide";
+      c.rule =
+          "metal-rich: an interstitial carbide, nitride, hydride or "
+          "pnictide";
       return c;
     }
     c.kind = CompositionKind::kIonic;

@@ -66,7 +66,6 @@ struct EnumNames<CompositionKind> {
       {CompositionKind::kZintl, "zintl"}};
 };
 
-
 struct BondingClass {
   CompositionKind kind = CompositionKind::kIonic;
   // Atom-weighted mean of the Pauling electronegativities, and the

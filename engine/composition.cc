@@ -194,7 +194,8 @@ void Annotate(
     const SpinStatePreference* s_set = FindSetting(spin, s.element);
     const bool d_block = s.element->block == Block::kD;
     IonEnvironment env;
-    if (d_block && r->kind == CompositionKind::kIonic) {
+    if (d_block && (r->kind == CompositionKind::kIonic ||
+                    r->kind == CompositionKind::kZintl)) {
       env = FindEnvironment(formula, assignment, s, g_set, s_set);
     } else {
       env.geometry = g_set != nullptr ? *g_set : Geometry::kFree;
@@ -524,6 +525,23 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
   } else if (r.kind == CompositionKind::kElemental) {
     Add(&r, Severity::kInfo, codes::kElementalComposition,
         "a single element: reported as elemental, state 0");
+  } else if (r.kind == CompositionKind::kIntermetallic) {
+    Add(&r, Severity::kInfo, codes::kIntermetallicComposition,
+        absl::StrFormat(
+            "%s: reported as intermetallic, every state 0 (electronegativity "
+            "mean %.2f, difference %.2f); the best formal reading, where "
+            "one balances, is the first alternative. A classification from "
+            "composition alone: structure and measurement decide",
+            solved->bonding.rule, solved->bonding.electronegativity_mean,
+            solved->bonding.electronegativity_difference));
+  } else if (r.kind == CompositionKind::kZintl) {
+    Add(&r, Severity::kInfo, codes::kZintlComposition,
+        absl::StrFormat("%s: a Zintl phase, its polyanion atoms in states "
+                        "-(8-N) to -1 (electronegativity mean %.2f, "
+                        "difference %.2f)",
+                        solved->bonding.rule,
+                        solved->bonding.electronegativity_mean,
+                        solved->bonding.electronegativity_difference));
   }
   const std::vector<AssignedState>& states = r.assignment->states;
   for (size_t i = 0; i < states.size(); ++i) {
@@ -555,7 +573,8 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     // A bad value is an error even where the check itself is skipped.
     const bool bad_values = !std::isfinite(measured) || measured < 0 ||
                             !std::isfinite(tolerance) || tolerance < 0;
-    if (r.kind != CompositionKind::kIonic && !bad_values) {
+    if (r.kind != CompositionKind::kIonic &&
+        r.kind != CompositionKind::kZintl && !bad_values) {
       Add(&r, Severity::kInfo, codes::kMomentCheckSkipped,
           "local-moment estimates do not apply to metallic or elemental "
           "compositions; the measured moment was not checked");

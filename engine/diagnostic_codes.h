@@ -68,6 +68,8 @@ inline constexpr char kDuplicateId[] = "duplicate_id";
 inline constexpr char kMixedValence[] = "mixed_valence";
 inline constexpr char kMetallicComposition[] = "metallic_composition";
 inline constexpr char kElementalComposition[] = "elemental_composition";
+inline constexpr char kIntermetallicComposition[] = "intermetallic_composition";
+inline constexpr char kZintlComposition[] = "zintl_composition";
 inline constexpr char kMomentCheckSkipped[] = "moment_check_skipped";
 // The search stopped early: the answer stands, but a mixed-valence split
 // or further alternatives may have been left out.

@@ -287,7 +287,8 @@ const CompoundCase kCompounds[] = {
      0, 1},
     // Nitrides and carbides (G&E).
     {"GaN", 0, "Ga:3x1 N:-3x1", 0, 0, 0, 0, 1},
-    {"TiN", 0, "Ti:3x1 N:-3x1", 0, 0, 0, 0, 1},
+    {"ScN", 0, "Sc:3x1 N:-3x1", 0, 0, 0, 0,
+     1},  // Rock salt; TiN is interstitial.
     {"Li3N", 0, "Li:1x3 N:-3x1", 0, 0, 0, 0, 1},
     {"Mg3N2", 0, "Mg:2x3 N:-3x2", 0, 0, 0, 0, 1},
     {"SiC", 0, "Si:4x1 C:-4x1", 0, 0, 0, 0, 1},

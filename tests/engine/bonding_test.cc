@@ -1,0 +1,156 @@
+// Tests of engine/bonding.h: the bonding class of real compositions, and
+// what the oxidation-state search makes of each class.
+
+#include "engine/bonding.h"
+
+#include <string>
+
+#include "absl/strings/str_cat.h"
+#include "engine/formula.h"
+#include "engine/oxidation.h"
+#include "gtest/gtest.h"
+
+namespace shellwright {
+namespace {
+
+BondingClass Classify(const std::string& text) {
+  absl::StatusOr<Formula> f = ParseFormula(text);
+  EXPECT_TRUE(f.ok()) << text << ": " << f.status();
+  return f.ok() ? ClassifyBonding(*f) : BondingClass{};
+}
+
+// "Cu:1x1 Fe:3x1 S:-2x2" for the best assignment.
+std::string Best(const std::string& text, CompositionKind* kind = nullptr) {
+  absl::StatusOr<Formula> f = ParseFormula(text);
+  if (!f.ok()) return "parse error";
+  absl::StatusOr<OxidationResult> r = AssignOxidationStates(*f, {});
+  if (!r.ok() || !r->best.has_value()) return "no balance";
+  if (kind != nullptr) *kind = r->kind;
+  std::string out;
+  for (const AssignedState& s : r->best->states) {
+    absl::StrAppend(&out, out.empty() ? "" : " ", s.element->symbol, ":",
+                    s.state, "x", s.count.ToString());
+  }
+  return out;
+}
+
+struct Case {
+  const char* formula;
+  CompositionKind kind;
+  const char* source;
+};
+
+TEST(Bonding, ClassOfRealCompositions) {
+  using K = CompositionKind;
+  const Case kCases[] = {
+      // Permanent magnets and their relatives: metallic intermetallics
+      // (Coey, Magnetism and Magnetic Materials, from memory).
+      {"Nd2Fe14B", K::kIntermetallic, "Coey, from memory"},
+      {"Sm2Fe17N3", K::kIntermetallic, "Coey, from memory"},
+      {"SmCo5", K::kMetallic, "Coey, from memory"},
+      {"CoFeB", K::kIntermetallic, "Coey, from memory"},
+      // Borides, silicides, germanides (Greenwood and Earnshaw, Chemistry
+      // of the Elements, 2nd ed., from memory).
+      {"LaB6", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      {"MoSi2", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      {"MnSi", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      {"CoSi", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      {"Gd5Si4", K::kIntermetallic,
+       "Pecharsky and Gschneidner, PRL 78, "
+       "4494 (1997), from memory"},
+      // Interstitial carbides, nitrides and hydrides (Greenwood and
+      // Earnshaw, from memory).
+      {"Fe3C", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      {"TiN", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      {"Fe4N", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      {"LaNi5H6", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      {"PdH0.7", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      {"NiAs", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      // Heusler compounds (Graf, Felser and Parkin, Prog. Solid State
+      // Chem. 39, 1 (2011), from memory).
+      {"Co2MnSi", K::kIntermetallic, "Graf et al. 2011, from memory"},
+      {"NiMnSb", K::kIntermetallic, "Graf et al. 2011, from memory"},
+      // Zintl phases (Schäfer, Eisenmann and Müller, Angew. Chem. 12, 694
+      // (1973), from memory).
+      {"NaTl", K::kZintl, "Schäfer et al. 1973, from memory"},
+      {"CaSi2", K::kZintl, "Schäfer et al. 1973, from memory"},
+      {"KGe", K::kZintl, "Schäfer et al. 1973, from memory"},
+      {"Ca5Ge3", K::kZintl, "Schäfer et al. 1973, from memory"},
+      {"Mg2Si", K::kZintl, "Schäfer et al. 1973, from memory"},
+      {"Na3Sb", K::kZintl, "Schäfer et al. 1973, from memory"},
+      // Alloys.
+      {"Fe3Al", K::kMetallic, "common practice, no source"},
+      {"Mg17Al12", K::kMetallic, "common practice, no source"},
+      {"Fe", K::kElemental, "common practice, no source"},
+      // Ionic and polar covalent compounds keep formal states.
+      {"GdN", K::kIonic, "Greenwood and Earnshaw, from memory"},
+      {"LaSb", K::kIonic, "Greenwood and Earnshaw, from memory"},
+      {"GaAs", K::kIonic, "Greenwood and Earnshaw, from memory"},
+      {"K4[Fe(CN)6]", K::kIonic, "Greenwood and Earnshaw, from memory"},
+      {"Fe(C5H5)2", K::kIonic, "Greenwood and Earnshaw, from memory"},
+      {"CuFeS2", K::kIonic, "Greenwood and Earnshaw, from memory"},
+      {"Li3N", K::kIonic, "Greenwood and Earnshaw, from memory"},
+      {"NaH", K::kIonic, "Greenwood and Earnshaw, from memory"},
+  };
+  for (const Case& c : kCases) {
+    SCOPED_TRACE(absl::StrCat(c.formula, " (", c.source, ")"));
+    EXPECT_EQ(Name(Classify(c.formula).kind), Name(c.kind));
+  }
+}
+
+TEST(Bonding, VanArkelKetelaarCoordinates) {
+  // Pauling electronegativities Nd 1.14, Fe 1.83, B 2.04 (the elements
+  // table's values).
+  const BondingClass c = Classify("Nd2Fe14B");
+  EXPECT_NEAR(c.electronegativity_difference, 2.04 - 1.14, 1e-9);
+  EXPECT_NEAR(c.electronegativity_mean, (2 * 1.14 + 14 * 1.83 + 2.04) / 17,
+              1e-9);
+  EXPECT_FALSE(c.rule.empty());
+}
+
+TEST(Bonding, ZintlPhasesBalanceByTheEightMinusNRule) {
+  // Schäfer, Eisenmann and Müller, Angew. Chem. 12, 694 (1973), from
+  // memory: Tl- in NaTl, Si- chains in CaSi2, Ge4 tetrahedra (Ge-) in
+  // KGe, Ge4- and Ge2 6- in Ca5Ge3.
+  CompositionKind kind = CompositionKind::kIonic;
+  EXPECT_EQ(Best("NaTl", &kind), "Na:1x1 Tl:-1x1");
+  EXPECT_EQ(kind, CompositionKind::kZintl);
+  EXPECT_EQ(Best("CaSi2"), "Ca:2x1 Si:-1x2");
+  EXPECT_EQ(Best("KGe"), "K:1x1 Ge:-1x1");
+  EXPECT_EQ(Best("Ca5Ge3"), "Ca:2x5 Ge:-4x1 Ge:-3x2");
+}
+
+TEST(Bonding, IntermetallicsAreStateZeroWithTheFormalReadingAsAlternative) {
+  absl::StatusOr<Formula> f = ParseFormula("Co2MnSi");
+  ASSERT_TRUE(f.ok());
+  absl::StatusOr<OxidationResult> r = AssignOxidationStates(*f, {});
+  ASSERT_TRUE(r.ok());
+  EXPECT_EQ(r->kind, CompositionKind::kIntermetallic);
+  ASSERT_TRUE(r->best.has_value());
+  for (const AssignedState& s : r->best->states) EXPECT_EQ(s.state, 0);
+  // The formal reading balances, so it is kept for the user who wants it.
+  ASSERT_FALSE(r->alternatives.empty());
+  int charge = 0;
+  bool nonzero = false;
+  for (const AssignedState& s : r->alternatives[0].states) {
+    charge += s.state * static_cast<int>(s.count.num());
+    nonzero |= s.state != 0;
+  }
+  EXPECT_TRUE(nonzero);
+  EXPECT_EQ(charge, 0);
+}
+
+TEST(Bonding, ChargeOrDeclaredStatesAskForFormalStates) {
+  absl::StatusOr<Formula> f = ParseFormula("TiN");
+  ASSERT_TRUE(f.ok());
+  OxidationOptions o;
+  o.declared.push_back({FindElementBySymbol("Ti"), 3});
+  absl::StatusOr<OxidationResult> r = AssignOxidationStates(*f, o);
+  ASSERT_TRUE(r.ok());
+  EXPECT_EQ(r->kind, CompositionKind::kIonic);
+  ASSERT_TRUE(r->best.has_value());
+  EXPECT_EQ(r->best->states[1].state, -3);  // N-3 beside Ti+3.
+}
+
+}  // namespace
+}  // namespace shellwright
