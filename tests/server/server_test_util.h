@@ -46,6 +46,44 @@ namespace shellwright::testing {
 inline std::string ShellwrightdPath() { return BinPath("server/shellwrightd"); }
 inline std::string CliPath() { return BinPath("clients/shellwright"); }
 
+// Sanitizers slow every call several times over; deadlines that state a
+// target for the release build are stretched by this factor under them
+// (TSan: 5-15x, on a busy machine).
+#if defined(__SANITIZE_THREAD__)
+#define SHELLWRIGHT_TSAN 1
+#endif
+#if defined(__SANITIZE_ADDRESS__)
+#define SHELLWRIGHT_ASAN 1
+#endif
+#if defined(__has_feature)
+#if __has_feature(thread_sanitizer)
+#define SHELLWRIGHT_TSAN 1
+#endif
+#if __has_feature(address_sanitizer)
+#define SHELLWRIGHT_ASAN 1
+#endif
+#endif
+#if defined(SHELLWRIGHT_TSAN)
+inline constexpr int kSanitizerSlowdown = 30;
+#elif defined(SHELLWRIGHT_ASAN)
+inline constexpr int kSanitizerSlowdown = 10;
+#else
+inline constexpr int kSanitizerSlowdown = 1;
+#endif
+
+// gRPC's own shutdown (Server::Shutdown and Wait) takes seconds under the
+// sanitizers on a loaded 2-core machine (seen: 2.5 s under TSan for what
+// takes milliseconds in the release build). Bounds on shutdown time are
+// stretched by this factor; each test's hard work takes minutes, so a
+// stretched bound still tells a stopped call from one left running.
+#if defined(SHELLWRIGHT_TSAN)
+inline constexpr int kShutdownSlowdown = 10;
+#elif defined(SHELLWRIGHT_ASAN)
+inline constexpr int kShutdownSlowdown = 4;
+#else
+inline constexpr int kShutdownSlowdown = 1;
+#endif
+
 // `records` records of a formula whose solver search takes tens of
 // milliseconds each: a full batch of them is minutes of work.
 inline v1::RecordBatch HardRecordBatch(int records) {

@@ -27,6 +27,8 @@ namespace {
 using ::shellwright::testing::CliPath;
 using ::shellwright::testing::CommandResult;
 using ::shellwright::testing::HardRecordBatch;
+using ::shellwright::testing::kSanitizerSlowdown;
+using ::shellwright::testing::kShutdownSlowdown;
 using ::shellwright::testing::RunCommand;
 using ::shellwright::testing::ServerProcess;
 using ::shellwright::testing::ShellwrightdPath;
@@ -35,7 +37,8 @@ using ::shellwright::testing::TempDir;
 using ::testing::HasSubstr;
 using ::testing::Not;
 
-constexpr auto kShutdownTimeout = std::chrono::seconds(20);
+// How long a test waits for the server to exit before calling it hung.
+constexpr auto kShutdownTimeout = std::chrono::seconds(20) * kShutdownSlowdown;
 
 // On SIGTERM the server sends GOAWAY plus a PING and waits (within the
 // grace period) for the ack. An idle client channel only reads it on its
@@ -85,31 +88,6 @@ int HealthStatus(const std::string& address, const std::string& service,
   if (status_out != nullptr) *status_out = status;
   return status.ok() ? static_cast<int>(response.status()) : -1;
 }
-
-// Sanitizers slow every call several times over; deadlines that state a
-// target for the release build are stretched by this factor under them
-// (TSan: 5-15x, on a busy machine).
-#if defined(__SANITIZE_THREAD__)
-#define SHELLWRIGHT_TSAN 1
-#endif
-#if defined(__SANITIZE_ADDRESS__)
-#define SHELLWRIGHT_ASAN 1
-#endif
-#if defined(__has_feature)
-#if __has_feature(thread_sanitizer)
-#define SHELLWRIGHT_TSAN 1
-#endif
-#if __has_feature(address_sanitizer)
-#define SHELLWRIGHT_ASAN 1
-#endif
-#endif
-#if defined(SHELLWRIGHT_TSAN)
-constexpr int kSanitizerSlowdown = 30;
-#elif defined(SHELLWRIGHT_ASAN)
-constexpr int kSanitizerSlowdown = 10;
-#else
-constexpr int kSanitizerSlowdown = 1;
-#endif
 
 // Regression: records whose counts carry five decimals cost the charge
 // solver seconds and hundreds of MB each; 8 streams of them kept the server
@@ -872,7 +850,8 @@ TEST(Shellwrightd, IdleStreamsAndConnectionsDoNotHoldTheDrain) {
 
   const auto start = std::chrono::steady_clock::now();
   EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
-  EXPECT_LT(std::chrono::steady_clock::now() - start, std::chrono::seconds(5));
+  EXPECT_LT(std::chrono::steady_clock::now() - start,
+            std::chrono::seconds(5) * kShutdownSlowdown);
   EXPECT_FALSE(stream->Read(&reply));
   EXPECT_FALSE(stream->Finish().ok());
 }
@@ -888,8 +867,9 @@ TEST(Shellwrightd, GracePeriodBoundsShutdown) {
   ASSERT_TRUE(stream->Write(HardRecordBatch(5000)));
   std::this_thread::sleep_for(std::chrono::milliseconds(100));
   const auto start = std::chrono::steady_clock::now();
-  EXPECT_EQ(server->Terminate(std::chrono::seconds(10)), 0);
-  EXPECT_LT(std::chrono::steady_clock::now() - start, std::chrono::seconds(5));
+  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
+  EXPECT_LT(std::chrono::steady_clock::now() - start,
+            std::chrono::seconds(5) * kShutdownSlowdown);
   v1::ReportBatch reply;
   while (stream->Read(&reply)) {
   }
@@ -918,7 +898,7 @@ TEST(Shellwrightd, LogsOneLinePerCall) {
 // after the server had analysed all of it.
 TEST(Shellwrightd, LogsDeadlineExceededForABatchPastItsDeadline) {
   std::unique_ptr<ServerProcess> server =
-      StartShellwrightd({"--log-level", "info"});
+      StartShellwrightd({"--log-level", "info", "--drain-seconds", "120"});
   ASSERT_NE(server, nullptr);
   auto stub = Stub(server->address());
   v1::RecordBatch batch;
@@ -933,10 +913,11 @@ TEST(Shellwrightd, LogsDeadlineExceededForABatchPastItsDeadline) {
   v1::ReportBatch reply;
   EXPECT_FALSE(stream->Read(&reply));
   EXPECT_EQ(stream->Finish().error_code(), grpc::StatusCode::DEADLINE_EXCEEDED);
-  // The grace period would let unchecked work run for another 10 s.
+  // The grace period would let unchecked work run for another 120 s.
   const auto start = std::chrono::steady_clock::now();
-  EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
-  EXPECT_LT(std::chrono::steady_clock::now() - start, std::chrono::seconds(3));
+  EXPECT_EQ(server->Terminate(std::chrono::seconds(150)), 0);
+  EXPECT_LT(std::chrono::steady_clock::now() - start,
+            std::chrono::seconds(3) * kShutdownSlowdown);
   const std::string log = server->Stderr();
   EXPECT_THAT(log,
               HasSubstr("call method=AnalyzeRecords code=DEADLINE_EXCEEDED"));
