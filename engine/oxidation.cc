@@ -2,9 +2,12 @@
 
 #include <algorithm>
 #include <array>
+#include <cstdlib>
 #include <functional>
 #include <limits>
 #include <numeric>
+#include <optional>
+#include <tuple>
 
 #include "absl/container/inlined_vector.h"
 #include "absl/strings/str_cat.h"
@@ -36,7 +39,10 @@ using internal::Widening;
 struct ElementPlan {
   const Element* element = nullptr;
   Rational count;        // Atoms (or units) per formula unit.
-  int64_t scaled_count;  // count x L, >= 1.
+  int64_t scaled_count;  // count x scale, >= 1 (see AssignStates).
+  // The class of the formula's anions, which sets the state preferences.
+  internal::AnionClass anions = internal::AnionClass::kHard;
+  bool oxide = false;  // The formula holds free oxygen.
   bool declared = false;
   // No free hydride: the reading holds free carbon or nitrogen.
   bool no_hydride = false;
@@ -106,6 +112,11 @@ ThresholdList Thresholds(const Plans& plans) {
     if (p.element->pauling_electronegativity.has_value()) {
       values.push_back(*p.element->pauling_electronegativity);
     }
+    // Pb(II) at 1.87 is less electronegative than Te: PbTe needs a
+    // threshold between them.
+    for (const double en : internal::StateElectronegativities(*p.element)) {
+      values.push_back(en);
+    }
   }
   std::sort(values.begin(), values.end(), std::greater<double>());
   values.erase(std::unique(values.begin(), values.end()), values.end());
@@ -123,14 +134,27 @@ bool AboveThreshold(const Element& e, double threshold) {
          *e.pauling_electronegativity > threshold;
 }
 
-Weight OptionWeight(const StateOption& o, int64_t scaled_count,
-                    bool above_threshold) {
-  const bool inconsistent = above_threshold ? (o.high > 0) : (o.low < 0);
-  // A mixed option's gap depends on the split: this is the gap with every
-  // atom in the upper state, and Candidate::per_low_atom adds the rest.
-  return Weight::Of(o.uncommon, inconsistent ? 1 : 0, scaled_count * o.high_gap,
-                    scaled_count * (o.high - o.low));  // Spread 0 if single.
+// The weight of option `o` of element `e` with every atom in the upper
+// state. A positive state is inconsistent when its electronegativity
+// (that of the state, data/state_electronegativities.tsv) is above the
+// threshold; a negative one when the element's is not.
+Weight OptionWeight(const Element& e, const StateOption& o,
+                    int64_t scaled_count, double threshold,
+                    internal::AnionClass anions) {
+  const bool inconsistent = o.high > 0
+                                ? o.high_electronegativity > threshold
+                                : o.low < 0 && !AboveThreshold(e, threshold);
+  // A mixed option's naturalness depends on the split: this is the value
+  // with every atom in the upper state, and Candidate::per_low_atom adds
+  // the rest.
+  return Weight::Of(o.uncommon, inconsistent ? 1 : 0,
+                    scaled_count * (o.HighNatural(anions) + o.spread));
 }
+
+// Naturalness per unpaired electron of a radical unit, above the 2 of a
+// state one rank down (state_options.h), so that nitroprusside holds NO+
+// with Fe(II), not NO with Fe(III) (common practice, no source).
+constexpr int64_t kRadicalStep = 3;
 
 // Builds the plan of every element. Declared elements take exactly their
 // declared states.
@@ -145,7 +169,7 @@ using Reading = absl::InlinedVector<const UnitMatch*, 4>;
 // Builds the plan of every free element and unit of `reading`, or returns
 // false when the reading's units need more atoms than the formula holds.
 // Declared elements take exactly their declared states.
-bool MakePlans(const Formula& formula, int64_t scale,
+bool MakePlans(const Formula& formula, const Rational& scale,
                const OxidationOptions& options, const Reading& reading,
                bool zintl, Plans* out) {
   Plans& plans = *out;
@@ -168,7 +192,7 @@ bool MakePlans(const Formula& formula, int64_t scale,
     ElementPlan& p = plans.emplace_back();
     p.element = a.element;
     p.count = count;
-    p.scaled_count = count.num() * (scale / count.den());
+    p.scaled_count = (count * scale).num();
     for (const DeclaredState& d : options.declared) {
       if (d.element != p.element) continue;
       p.declared = true;
@@ -199,8 +223,13 @@ bool MakePlans(const Formula& formula, int64_t scale,
     hard_anion |= z == 7 || z == 8 || z == 9 || z == 17;
   }
   const bool soft_only = chalcogen && !hard_anion;
+  bool oxide = false;
+  for (const ElementPlan& p : plans) oxide |= p.element->atomic_number == 8;
   for (ElementPlan& p : plans) {
     p.no_hydride = carbon_or_nitrogen;
+    p.oxide = oxide;
+    p.anions =
+        soft_only ? internal::AnionClass::kSoft : internal::AnionClass::kHard;
     if (p.declared) continue;
     const bool zero = pi_acceptor && p.element->block == Block::kD;
     const int limit =
@@ -211,15 +240,15 @@ bool MakePlans(const Formula& formula, int64_t scale,
     if (!zero && limit < 0 && !polyanion) continue;
     p.custom = true;
     bool zero_added = !zero;
-    auto add = [&p, limit](int low, int high, bool low_common,
-                           bool high_common) {
+    auto add = [&p, limit](int low, int high, bool low_common, bool high_common,
+                           bool needs_oxide = false) {
       if (limit >= 0) {
         low_common &= low <= limit;
         high_common &= high <= limit;
       }
       StateOption o = internal::MakeStateOption(
           *p.element, static_cast<int>(p.fixed_options.size()), low, high,
-          low_common, high_common);
+          low_common, high_common, needs_oxide);
       p.fixed_options.push_back(o);
       if (o.low_common && o.high_common) p.fixed_common_options.push_back(o);
     };
@@ -235,17 +264,17 @@ bool MakePlans(const Formula& formula, int64_t scale,
         add(0, 0, true, true);
         zero_added = true;
       }
-      add(o.low, o.high, o.low_common, o.high_common);
+      add(o.low, o.high, o.low_common, o.high_common, o.needs_oxide);
     }
     if (!zero_added) add(0, 0, true, true);
   }
   const size_t free_elements = plans.size();
   for (const UnitMatch* m : reading) {
-    if (scale % m->count.den() != 0) return false;  // "(O2)0.5" in KO.
+    if (!(m->count * scale).IsInteger()) return false;  // "(O2)0.5" in KO.
     ElementPlan& p = plans.emplace_back();
     p.match = m;
     p.count = m->count;
-    p.scaled_count = m->count.num() * (scale / m->count.den());
+    p.scaled_count = (m->count * scale).num();
     for (const Unit* u : m->units) {
       // A unit read from a bare run keeps to the cations it is met with
       // (EuO2 is no superoxide).
@@ -282,6 +311,7 @@ bool Allowed(const ElementPlan& p, int i, bool common_only, bool strict,
              const Forbidden& forbidden, const StateOption& o) {
   if (!p.declared) {
     if (o.mixed() && p.scaled_count < 2) return false;
+    if (o.needs_oxide && !p.oxide) return false;
     if (common_only && !(o.low_common && o.high_common)) return false;
     if (strict && p.no_hydride && o.low < 0 && p.element != nullptr &&
         p.element->atomic_number == 1) {
@@ -300,7 +330,6 @@ void BuildCandidates(const Plans& plans, const Forbidden& forbidden,
   for (size_t i = 0; i < plans.size(); ++i) {
     const ElementPlan& p = plans[i];
     const bool unit = p.match != nullptr;
-    const bool above = !unit && AboveThreshold(*p.element, threshold);
     CandidateList& list =
         common_only ? candidates->narrow[i] : candidates->wide[i];
     list.begin = candidates->all.size();
@@ -315,17 +344,25 @@ void BuildCandidates(const Plans& plans, const Forbidden& forbidden,
       // A radical unit (nitric oxide, superoxide) ranks after a
       // closed-shell one of the same atoms when both balance: nitroprusside
       // holds NO+ and Fe(II), not NO and Fe(III).
-      const Weight weight =
-          unit
-              ? Weight::Of(0, 0, 0, p.scaled_count * p.units[o.index]->unpaired)
-              : OptionWeight(o, p.scaled_count, above);
-      const Candidate& added = candidates->all.emplace_back(
-          Candidate{o.index, o.low, o.high, weight,
-                    Weight::Of(0, 0, o.low_extra_gap, 0)});
-      list.min_weight = std::min(list.min_weight, added.weight);
+      const Weight weight = unit ? Weight::Of(0, 0,
+                                              p.scaled_count * kRadicalStep *
+                                                  p.units[o.index]->unpaired)
+                                 : OptionWeight(*p.element, o, p.scaled_count,
+                                                threshold, p.anions);
+      const Weight per_low_atom =
+          unit ? Weight() : Weight::Of(0, 0, o.LowExtraNatural(p.anions));
+      candidates->all.push_back(
+          Candidate{o.index, o.low, o.high, weight, per_low_atom});
+      // The least this candidate adds: with as many atoms as may be in
+      // the lower state when that lowers the weight.
+      const Weight least =
+          o.mixed() && per_low_atom < Weight()
+              ? weight + Weight::FromPacked(per_low_atom.packed() *
+                                            (p.scaled_count - 1))
+              : weight;
+      list.min_weight = std::min(list.min_weight, least);
       if (!p.declared && o.uncommon > 0) {
-        list.min_uncommon_weight =
-            std::min(list.min_uncommon_weight, added.weight);
+        list.min_uncommon_weight = std::min(list.min_uncommon_weight, least);
       }
       list.min_contribution =
           std::min(list.min_contribution, p.scaled_count * o.low);
@@ -336,17 +373,62 @@ void BuildCandidates(const Plans& plans, const Forbidden& forbidden,
   }
 }
 
-// The printed score of a weight: 100 x uncommon + 10 x inconsistencies +
-// group gap + spread, the last two per formula unit.
-double PrintedScore(Weight w, int64_t scale) {
-  return 100.0 * static_cast<double>(w.uncommon()) +
-         10.0 * static_cast<double>(w.inconsistencies()) +
-         static_cast<double>(w.group_gap()) / static_cast<double>(scale) +
-         Rational(w.spread(), scale).ToDouble();
+// Atoms per formula unit of `scaled` scaled atoms.
+Rational PerFormulaUnit(int64_t scaled, const Rational& scale) {
+  return Rational(scaled) * Rational(scale.den(), scale.num());
+}
+
+// The printed score of a weight (oxidation.h): 100 x uncommon +
+// 10 x (inconsistencies + a redox-incompatible pair) + naturalness per
+// formula unit. Each lower term is capped below the unit of the term above
+// it (naturalness at 9.99, the terms below uncommon at 99.99), so the
+// score never orders two assignments against the ranking.
+double PrintedScore(Weight w, bool redox_incompatible, const Rational& scale) {
+  const double natural =
+      std::min(9.99, PerFormulaUnit(w.naturalness(), scale).ToDouble());
+  const int64_t faults = w.inconsistencies() + (redox_incompatible ? 1 : 0);
+  const double lower =
+      faults >= 9 ? 99.99 : 10.0 * static_cast<double>(faults) + natural;
+  return 100.0 * static_cast<double>(w.uncommon()) + lower;
+}
+
+// The first pair of free ions in `a` that would react (oxidation.h).
+std::optional<RedoxPair> FindRedoxIncompatible(const OxidationAssignment& a) {
+  for (const AssignedState& ox : a.states) {
+    if (ox.unit >= 0 || ox.state <= 0) continue;
+    const std::optional<double> e_ox =
+        internal::PotentialDownFrom(*ox.element, ox.state);
+    if (!e_ox.has_value()) continue;
+    for (const AssignedState& red : a.states) {
+      if (red.unit >= 0 || red.state <= 0 || red.element == ox.element) {
+        continue;
+      }
+      const std::optional<double> e_red =
+          internal::PotentialDownTo(*red.element, red.state);
+      if (e_red.has_value() && *e_ox - *e_red > kRedoxIncompatibleVolts) {
+        return RedoxPair{ox.element,  ox.state,  *e_ox,
+                         red.element, red.state, *e_red};
+      }
+    }
+  }
+  return std::nullopt;
+}
+
+// Ranks assignments of one reading's search by their weight, with a
+// redox-incompatible pair counted as one more inconsistency (oxidation.h).
+bool RanksBefore(Weight wx, const OxidationAssignment& x, Weight wy,
+                 const OxidationAssignment& y) {
+  const auto key = [](Weight w, const OxidationAssignment& a) {
+    return std::make_tuple(
+        w.uncommon(),
+        w.inconsistencies() + (a.redox_incompatible.has_value() ? 1 : 0),
+        w.naturalness());
+  };
+  return key(wx, x) < key(wy, y);
 }
 
 OxidationAssignment ToAssignment(const Formula& formula, const Plans& plans,
-                                 const Solution& s, int64_t scale) {
+                                 const Solution& s, const Rational& scale) {
   OxidationAssignment a;
   a.states.reserve(2 * plans.size());  // Two entries per mixed element.
   bool units = false;
@@ -368,10 +450,10 @@ OxidationAssignment ToAssignment(const Formula& formula, const Plans& plans,
     } else {
       const int64_t k = s.choices[i].low_atoms;
       a.states.push_back(
-          {p.element, o.low, Rational(k, scale), o.low_common, false});
+          {p.element, o.low, PerFormulaUnit(k, scale), o.low_common, false});
       a.states.push_back({p.element, o.high,
-                          Rational(p.scaled_count - k, scale), o.high_common,
-                          false});
+                          PerFormulaUnit(p.scaled_count - k, scale),
+                          o.high_common, false});
     }
   }
   if (units) {
@@ -406,8 +488,22 @@ OxidationAssignment ToAssignment(const Formula& formula, const Plans& plans,
   a.uncommon_states = static_cast<int>(s.weight.uncommon());
   a.electronegativity_inconsistencies =
       static_cast<int>(s.weight.inconsistencies());
-  a.spread = Rational(s.weight.spread(), scale);
-  a.score = PrintedScore(s.weight, scale);
+  // Spread as oxidation.h defines it: mixed valence and radical units.
+  int64_t spread = 0;
+  for (size_t i = 0; i < plans.size(); ++i) {
+    const ElementPlan& p = plans[i];
+    const StateOption& o = p.options()[s.choices[i].option];
+    if (p.match != nullptr) {
+      spread += p.scaled_count * p.units[s.choices[i].option]->unpaired;
+    } else {
+      spread += p.scaled_count * (o.high - o.low);
+    }
+  }
+  a.spread = PerFormulaUnit(spread, scale);
+  if (plans.empty() || plans.front().anions == internal::AnionClass::kHard) {
+    a.redox_incompatible = FindRedoxIncompatible(a);
+  }
+  a.score = PrintedScore(s.weight, a.redox_incompatible.has_value(), scale);
   return a;
 }
 
@@ -417,9 +513,10 @@ OxidationAssignment ToAssignment(const Formula& formula, const Plans& plans,
 struct Search {
   int64_t target = 0;  // Net charge in scaled units.
   bool one_mixed = false;
-  bool strict = true;   // See Allowed.
-  bool zintl = false;   // Polyanion states by the 8-N rule (MakePlans).
-  UnitMatches matches;  // Of the formula, but those on declared elements.
+  bool strict = true;       // See Allowed.
+  bool zintl = false;       // Polyanion states by the 8-N rule (MakePlans).
+  UnitMatches all_matches;  // Of the formula (AssignStates finds them).
+  UnitMatches matches;      // Of the formula, but those on declared elements.
   internal::WorkBudget budget{internal::kRecordCellVisits, false};
 };
 
@@ -593,8 +690,8 @@ struct BestReading {
 // Searches every reading, strictly first (see Allowed), then, when no
 // reading balances, leniently. Stops early when search->budget runs out.
 BestReading SearchReadings(const Formula& formula,
-                           const OxidationOptions& options, int64_t scale,
-                           Search* search) {
+                           const OxidationOptions& options,
+                           const Rational& scale, Search* search) {
   BestReading best;
   const std::vector<Reading> readings = Readings(search->matches);
   Plans plans;
@@ -641,8 +738,9 @@ BestReading SearchReadings(const Formula& formula,
 // the best undeclared one) and the alternatives, into `result`. Stops
 // early when search->budget runs out.
 void SearchAssignments(const Formula& formula, const OxidationOptions& options,
-                       int64_t scale, Search* search, OxidationResult* result) {
-  search->matches = FindUnitMatches(formula);
+                       const Rational& scale, Search* search,
+                       OxidationResult* result) {
+  search->matches = search->all_matches;
   if (!options.declared.empty()) {
     // Units do not swallow an element whose state the record declares.
     search->matches.erase(
@@ -663,7 +761,7 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
     if (!options.declared.empty()) {
       OxidationOptions free = options;
       free.declared.clear();
-      search->matches = FindUnitMatches(formula);
+      search->matches = search->all_matches;
       const BestReading s = SearchReadings(formula, free, scale, search);
       if (s.found) {
         result->without_declared =
@@ -674,7 +772,10 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
   }
   const Plans& plans = best.plans;
   result->best = ToAssignment(formula, plans, best.solution, scale);
-  if (options.max_alternatives <= 0) return;
+  // A redox-incompatible best looks for a compatible alternative even
+  // when none is to be reported.
+  const bool incompatible = result->best->redox_incompatible.has_value();
+  if (options.max_alternatives <= 0 && !incompatible) return;
   search->strict = best.strict;
   const double threshold = best.threshold;
   const ChargeItems items = ItemsOf(plans);
@@ -693,7 +794,9 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
   // after it, being found later; a duplicate of a skipped one would be
   // skipped too, weighing the same).
   std::vector<Weight> weights;
-  const size_t wanted = static_cast<size_t>(options.max_alternatives);
+  const size_t wanted =
+      static_cast<size_t>(incompatible ? std::max(options.max_alternatives, 3)
+                                       : options.max_alternatives);
   for (size_t i = 0; i < plans.size(); ++i) {
     if (plans[i].declared) continue;
     Weight bound = Weight::Infinite();
@@ -728,9 +831,13 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
     }
     if (!duplicate) found.emplace_back(s.weight, std::move(a));
   }
-  std::stable_sort(
-      found.begin(), found.end(),
-      [](const auto& x, const auto& y) { return x.first < y.first; });
+  found.emplace(found.begin(), best.solution.weight, *std::move(result->best));
+  std::stable_sort(found.begin(), found.end(),
+                   [](const auto& x, const auto& y) {
+                     return RanksBefore(x.first, x.second, y.first, y.second);
+                   });
+  result->best = std::move(found.front().second);
+  found.erase(found.begin());
   for (auto& [w, a] : found) {
     if (static_cast<int>(result->alternatives.size()) >=
         options.max_alternatives) {
@@ -745,14 +852,15 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
 // whose window is too wide for kMaxSearchCells goes straight to the
 // restricted search instead of spending its budget on the stages that
 // come before the widest one.
-int64_t WideSearchCells(const Formula& formula, int64_t scale, int64_t target) {
+int64_t WideSearchCells(const Formula& formula, const Rational& scale,
+                        int64_t target) {
   const size_t n = formula.amounts.size();
   std::array<int64_t, kMaxDistinctElements + 1> rest_min, rest_max;
   std::array<int64_t, kMaxDistinctElements> lo_state, hi_state;
   rest_min[n] = rest_max[n] = 0;
   for (size_t i = n; i-- > 0;) {
     const ElementAmount& a = formula.amounts[i];
-    const int64_t c = a.count.num() * (scale / a.count.den());
+    const int64_t c = (a.count * scale).num();
     const absl::Span<const KnownOxidationState> known =
         internal::KnownStates(*a.element);
     lo_state[i] = known.empty() ? 0 : std::min(0, known.front().state);
@@ -763,7 +871,7 @@ int64_t WideSearchCells(const Formula& formula, int64_t scale, int64_t target) {
   int64_t cells = 0, prefix_min = 0, prefix_max = 0;
   for (size_t i = 0; i < n; ++i) {
     const ElementAmount& a = formula.amounts[i];
-    const int64_t c = a.count.num() * (scale / a.count.den());
+    const int64_t c = (a.count * scale).num();
     prefix_min += c * lo_state[i];
     prefix_max += c * hi_state[i];
     const int64_t lo = std::max(prefix_min, target - rest_max[i + 1]);
@@ -890,11 +998,11 @@ absl::StatusOr<OxidationResult> AssignStates(const Formula& formula,
                                              const OxidationOptions& options,
                                              bool zintl) {
   OxidationResult result;
-  // Scale counts to integers.
-  int64_t scale = 1;
+  // Scale counts to integers: L, the least common denominator.
+  int64_t lcd = 1;
   for (const ElementAmount& a : formula.amounts) {
-    scale = std::lcm(scale, a.count.den());
-    if (scale > kMaxStoichiometryDenominator) {
+    lcd = std::lcm(lcd, a.count.den());
+    if (lcd > kMaxStoichiometryDenominator) {
       return absl::InvalidArgumentError(absl::StrCat(
           "stoichiometry is too finely divided to balance exactly (common "
           "denominator above ",
@@ -903,7 +1011,7 @@ absl::StatusOr<OxidationResult> AssignStates(const Formula& formula,
   }
   int64_t scaled_atoms = 0;
   for (const ElementAmount& a : formula.amounts) {
-    scaled_atoms += a.count.num() * (scale / a.count.den());
+    scaled_atoms += a.count.num() * (lcd / a.count.den());
   }
   if (scaled_atoms > kMaxScaledAtoms) {
     return absl::InvalidArgumentError(
@@ -915,7 +1023,31 @@ absl::StatusOr<OxidationResult> AssignStates(const Formula& formula,
   } release;
   Search search;
   search.zintl = zintl;
-  search.target = static_cast<int64_t>(options.net_charge) * scale;
+  search.all_matches = FindUnitMatches(formula);
+  // The same answer however the formula unit is written: the search runs
+  // on the formula divided by the greatest common divisor g of its scaled
+  // counts, net charge and unit counts (Ba2Bi2O6 as BaBiO3), and on twice
+  // that when an element would have a single atom, which could not be
+  // split over two states (BaBiO3 as Ba2Bi2O6, Bi3+ with Bi5+). The scale
+  // is then L x m / g, with m = 1 or 2.
+  int64_t g = std::abs(static_cast<int64_t>(options.net_charge) * lcd);
+  for (const ElementAmount& a : formula.amounts) {
+    g = std::gcd(g, a.count.num() * (lcd / a.count.den()));
+  }
+  for (const UnitMatch& m : search.all_matches) {
+    if ((m.count * Rational(lcd)).IsInteger()) {
+      g = std::gcd(g, (m.count * Rational(lcd)).num());
+    }
+  }
+  int64_t twice = 1;
+  for (const ElementAmount& a : formula.amounts) {
+    if (a.count.num() * (lcd / a.count.den()) == g &&
+        2 * scaled_atoms / g <= kMaxScaledAtoms) {
+      twice = 2;
+    }
+  }
+  const Rational scale(lcd * twice, g);
+  search.target = (Rational(options.net_charge) * scale).num();
   if (WideSearchCells(formula, scale, search.target) <=
       internal::kMaxSearchCells) {
     SearchAssignments(formula, options, scale, &search, &result);

@@ -29,23 +29,29 @@
 // Within a reading, candidates rank by, in order:
 //   1. fewest uncommon states (a state flagged "no" in the table, or a
 //      declared state missing from it);
-//   2. electronegativity consistency: elements above an electronegativity
-//      threshold (Pauling) take negative states and those below positive
-//      ones; each element that breaks this counts once. The threshold first
-//      sits just below the most electronegative element; when that leaves an
-//      inconsistency, every threshold between the elements' values is tried
-//      (NH4Cl: N and Cl negative, H positive);
-//   3. main-group elements in positive states closest to their group
-//      oxidation state (group - 10), as the central atoms of oxyanions are:
-//      sulfate S+6, phosphate P+5 (common practice, no source); the gap
-//      counts once per atom;
-//   4. smallest spread: the sum over mixed-valence elements of
-//      count x (upper state - lower state), so single valence wins ties,
-//      plus count x unpaired electrons of each radical unit, so that a
-//      closed-shell unit of the same atoms wins a tie (nitroprusside holds
-//      NO+ and Fe(II), not NO and Fe(III); KO2's superoxide scores 1).
-// `score` combines them as 100 x uncommon + 10 x inconsistencies + group
-// gap + spread; 0 is a perfect assignment and lower is better.
+//   2. fewest faults: electronegativity inconsistencies (elements above an
+//      electronegativity threshold take negative states and those below
+//      positive ones; a positive state is judged by its own value where
+//      data/state_electronegativities.tsv gives one; each element that
+//      breaks this counts once; the threshold first sits just below the
+//      most electronegative element, and when that leaves an
+//      inconsistency every threshold between the values is tried), plus
+//      one for a redox-incompatible pair (RedoxPair, hard anions only);
+//   3. naturalness, per atom: the group gap of positive main-group states
+//      (group - 10, or group - 12 for Tl, Pb, Bi: sulfate S+6, phosphate
+//      P+5; common practice, no source), the state's preference penalty
+//      among the formula's anions (data/state_preferences.tsv: 2 per rank;
+//      4 for an uncommon state of an element with no rows), 1 per atom of
+//      a mixed-valence element, and 3 per unpaired electron of a radical
+//      unit (nitroprusside holds NO+ and Fe(II), not NO and Fe(III)).
+// Mixed valence is between adjacent known states of one sign, or over a
+// pair of data/mixed_valence_pairs.tsv (AgO is Ag(I)/Ag(III)). The search
+// runs on the formula divided by the greatest common divisor of its scaled
+// counts, net charge and unit counts, doubled when an element would have
+// a single atom, so BaBiO3 and Ba2Bi2O6 get the same states per atom.
+// `score` is 100 x uncommon + 10 x faults + naturalness per formula unit,
+// each lower term capped below the unit of the one above, so that it
+// never orders candidates against the ranking; 0 is a perfect assignment.
 //
 // The search is dynamic programming over the reachable charge totals, one
 // element at a time, with counts scaled to integers by the least common
@@ -74,6 +80,7 @@
 #ifndef SHELLWRIGHT_ENGINE_OXIDATION_H_
 #define SHELLWRIGHT_ENGINE_OXIDATION_H_
 
+#include <optional>
 #include <vector>
 
 #include "absl/status/statusor.h"
@@ -127,6 +134,26 @@ struct AssignedUnit {
   int enclosing = -1;  // The written group it sits in ('[Fe(CN)6]'), or -1.
 };
 
+// Two free ions of different elements that would react: the oxidant's
+// couple (data/reduction_potentials.tsv) lies more than
+// kRedoxIncompatibleVolts above the reductant's.
+struct RedoxPair {
+  const Element* oxidant;
+  int oxidant_state;
+  double oxidant_volts;  // E0 of oxidant_state down to the next state.
+  const Element* reductant;
+  int reductant_state;
+  double reductant_volts;  // E0 of the state above reductant_state to it.
+};
+
+// The gap between two couples' standard potentials above which their
+// ions count as incompatible (common practice, no source: Ti(III) reduces
+// Fe(III) at 0.67 V, the basis of a standard titration, so ilmenite is
+// Fe(II)Ti(IV)). Aqueous potentials describe oxides and halides better
+// than sulfides, so the check applies to the hard anion class only:
+// chalcopyrite keeps Fe(III) beside Cu(I).
+inline constexpr double kRedoxIncompatibleVolts = 0.5;
+
 struct OxidationAssignment {
   // Formula order of the elements; for each, its free ions (lower state
   // first), then its atoms in units.
@@ -135,7 +162,12 @@ struct OxidationAssignment {
   int uncommon_states = 0;
   int electronegativity_inconsistencies = 0;
   Rational spread;
-  double score = 0;  // 100 x uncommon + 10 x inconsistencies + gap + spread.
+  // The first redox-incompatible pair, when there is one.
+  std::optional<RedoxPair> redox_incompatible;
+  // 100 x uncommon + 10 x (inconsistencies + a redox-incompatible pair)
+  // + naturalness per formula unit (see above; each term capped below the
+  // one above it).
+  double score = 0;
 };
 
 struct DeclaredState {

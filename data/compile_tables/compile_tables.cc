@@ -167,6 +167,10 @@ std::optional<int> ParseArgs(int argc, char** argv, Paths* paths) {
       {"ligands", "spectrochemical_series.tsv"},
       {"crossover", "spin_crossover.tsv"},
       {"chalcogenide", "chalcogenide_states.tsv"},
+      {"preferences", "state_preferences.tsv"},
+      {"pairs", "mixed_valence_pairs.tsv"},
+      {"state_en", "state_electronegativities.tsv"},
+      {"potentials", "reduction_potentials.tsv"},
       {"out", "the C++ file to write"},
   };
   for (const auto& table : kTables) {
@@ -554,6 +558,102 @@ int main(int argc, char** argv) {
   }
   out << "};\n\n";
 
+  // The known states, for the tables below that refer to them.
+  std::set<std::pair<int, long>> known_states;
+  for (const Row& r : oxidation.rows) {
+    known_states.insert({z_by_symbol.at(r.fields[0]),
+                         std::strtol(r.fields[1].c_str(), nullptr, 10)});
+  }
+  auto known_state = [&](const Table& t, const Row& r, size_t col, int z) {
+    const long state = ParseInt(t, r, col, -8, 9);
+    if (!known_states.count({z, state})) {
+      Fail(t.path, r.line,
+           absl::StrCat(r.fields[0], " ", state,
+                        " is not a state in oxidation_states.tsv"));
+    }
+    return state;
+  };
+
+  // --- state_preferences.tsv ------------------------------------------------
+  const Table preferences = ReadTable(
+      args.at("preferences"), {"symbol", "anions", "state", "rank", "source"});
+  out << "constexpr StatePreferenceRow kPreferences[] = {\n";
+  std::set<std::tuple<int, std::string, long>> preference_keys;
+  for (const Row& r : preferences.rows) {
+    const int z = symbol_to_z(preferences, r, 0);
+    if (r.fields[1] != "hard" && r.fields[1] != "soft") {
+      Fail(preferences.path, r.line, "column 'anions': expected hard or soft");
+    }
+    const long state = known_state(preferences, r, 2, z);
+    if (!preference_keys.insert({z, r.fields[1], state}).second) {
+      Fail(preferences.path, r.line, "duplicate row");
+    }
+    const long rank = ParseInt(preferences, r, 3, 1, 6);
+    out << "    {" << z << ", " << (r.fields[1] == "soft" ? "true" : "false")
+        << ", " << state << ", " << rank << ", " << Literal(r.fields[4])
+        << "},\n";
+  }
+  out << "};\n\n";
+
+  // --- mixed_valence_pairs.tsv ----------------------------------------------
+  const Table pairs = ReadTable(args.at("pairs"),
+                                {"symbol", "low", "high", "anions", "source"});
+  out << "constexpr MixedValencePairRow kPairs[] = {\n";
+  for (const Row& r : pairs.rows) {
+    const int z = symbol_to_z(pairs, r, 0);
+    const long low = known_state(pairs, r, 1, z);
+    const long high = known_state(pairs, r, 2, z);
+    if (low >= high || (low < 0) != (high < 0)) {
+      Fail(pairs.path, r.line, "low must be below high, with the same sign");
+    }
+    if (r.fields[3] != "oxide" && r.fields[3] != "any") {
+      Fail(pairs.path, r.line, "column 'anions': expected oxide or any");
+    }
+    out << "    {" << z << ", " << low << ", " << high << ", "
+        << (r.fields[3] == "oxide" ? "true" : "false") << ", "
+        << Literal(r.fields[4]) << "},\n";
+  }
+  out << "};\n\n";
+
+  // --- state_electronegativities.tsv ----------------------------------------
+  const Table state_en = ReadTable(
+      args.at("state_en"), {"symbol", "state", "electronegativity", "source"});
+  out << "constexpr StateElectronegativityRow kStateEn[] = {\n";
+  for (const Row& r : state_en.rows) {
+    const int z = symbol_to_z(state_en, r, 0);
+    const long state = known_state(state_en, r, 1, z);
+    const double en = ParseDecimal(state_en, r, 2, r.fields[2], 0.5, 4.0);
+    out << "    {" << z << ", " << state << ", " << Double(en) << ", "
+        << Literal(r.fields[3]) << "},\n";
+  }
+  out << "};\n\n";
+
+  // --- reduction_potentials.tsv --------------------------------------------
+  const Table potentials =
+      ReadTable(args.at("potentials"),
+                {"symbol", "oxidised", "reduced", "volts", "source"});
+  out << "constexpr ReductionPotentialRow kPotentials[] = {\n";
+  std::set<std::pair<int, long>> couples;
+  for (const Row& r : potentials.rows) {
+    const int z = symbol_to_z(potentials, r, 0);
+    const long oxidised = known_state(potentials, r, 1, z);
+    const long reduced = known_state(potentials, r, 2, z);
+    if (reduced >= oxidised || reduced <= 0) {
+      Fail(potentials.path, r.line,
+           "reduced must be a positive state below oxidised");
+    }
+    if (!couples.insert({z, oxidised}).second ||
+        !couples.insert({z, -reduced}).second) {
+      Fail(potentials.path, r.line,
+           "a state may be the oxidised (or the reduced) state of one "
+           "couple only");
+    }
+    const double volts = ParseDecimal(potentials, r, 3, r.fields[3], -4, 4);
+    out << "    {" << z << ", " << oxidised << ", " << reduced << ", "
+        << Double(volts) << ", " << Literal(r.fields[4]) << "},\n";
+  }
+  out << "};\n\n";
+
   out << "}  // namespace\n\n"
          "absl::Span<const ElementRow> ElementRows() { return kElements; }\n"
          "absl::Span<const ConfigurationExceptionRow> "
@@ -570,7 +670,15 @@ int main(int argc, char** argv) {
          "absl::Span<const SpinCrossoverRow> SpinCrossoverRows() {\n"
          "  return kCrossover;\n}\n"
          "absl::Span<const ChalcogenideStateRow> ChalcogenideStateRows() {\n"
-         "  return kChalcogenide;\n}\n\n"
+         "  return kChalcogenide;\n}\n"
+         "absl::Span<const StatePreferenceRow> StatePreferenceRows() {\n"
+         "  return kPreferences;\n}\n"
+         "absl::Span<const MixedValencePairRow> MixedValencePairRows() {\n"
+         "  return kPairs;\n}\n"
+         "absl::Span<const StateElectronegativityRow> "
+         "StateElectronegativityRows() {\n  return kStateEn;\n}\n"
+         "absl::Span<const ReductionPotentialRow> ReductionPotentialRows() {\n"
+         "  return kPotentials;\n}\n\n"
          "}  // namespace shellwright::internal\n";
 
   // Write only when changed, so that an unchanged table does not trigger a

@@ -108,6 +108,41 @@ struct ChalcogenideStateRow {
   const char* source;
 };
 
+// data/state_preferences.tsv
+struct StatePreferenceRow {
+  int atomic_number;
+  bool soft;  // Chalcogenide anions only; otherwise hard.
+  int state;
+  int rank;  // 1 is the most natural.
+  const char* source;
+};
+
+// data/mixed_valence_pairs.tsv
+struct MixedValencePairRow {
+  int atomic_number;
+  int low;
+  int high;
+  bool oxide_only;
+  const char* source;
+};
+
+// data/state_electronegativities.tsv
+struct StateElectronegativityRow {
+  int atomic_number;
+  int state;
+  double electronegativity;  // Pauling scale.
+  const char* source;
+};
+
+// data/reduction_potentials.tsv
+struct ReductionPotentialRow {
+  int atomic_number;
+  int oxidised;
+  int reduced;
+  double volts;  // E0 against the standard hydrogen electrode.
+  const char* source;
+};
+
 absl::Span<const ElementRow> ElementRows();
 absl::Span<const ConfigurationExceptionRow> ConfigurationExceptionRows();
 absl::Span<const GroundLevelDepartureRow> GroundLevelDepartureRows();
@@ -118,6 +153,10 @@ absl::Span<const UnitRow> UnitRows();
 absl::Span<const LigandRow> LigandRows();
 absl::Span<const SpinCrossoverRow> SpinCrossoverRows();
 absl::Span<const ChalcogenideStateRow> ChalcogenideStateRows();
+absl::Span<const StatePreferenceRow> StatePreferenceRows();
+absl::Span<const MixedValencePairRow> MixedValencePairRows();
+absl::Span<const StateElectronegativityRow> StateElectronegativityRows();
+absl::Span<const ReductionPotentialRow> ReductionPotentialRows();
 
 }  // namespace shellwright::internal
 

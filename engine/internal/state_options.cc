@@ -1,12 +1,44 @@
 #include "engine/internal/state_options.h"
 
+#include <algorithm>
 #include <array>
+#include <utility>
 #include <vector>
 
 #include "engine/internal/data_tables.h"
 
 namespace shellwright::internal {
 namespace {
+
+struct PreferenceTable {
+  // Per element and class: (state, rank) rows, and the largest rank.
+  std::array<std::array<std::vector<std::pair<int, int>>, 2>,
+             kMaxAtomicNumber + 1>
+      rows;
+  std::array<std::array<int, 2>, kMaxAtomicNumber + 1> max_rank{};
+  std::array<std::vector<double>, kMaxAtomicNumber + 1> state_en_values;
+  std::array<std::vector<std::pair<int, double>>, kMaxAtomicNumber + 1>
+      state_en;
+};
+
+const PreferenceTable& Preferences() {
+  static const PreferenceTable* const kTable = [] {
+    auto* t = new PreferenceTable;
+    for (const StatePreferenceRow& row : StatePreferenceRows()) {
+      const int c = row.soft ? 1 : 0;
+      t->rows[row.atomic_number][c].push_back({row.state, row.rank});
+      t->max_rank[row.atomic_number][c] =
+          std::max(t->max_rank[row.atomic_number][c], row.rank);
+    }
+    for (const StateElectronegativityRow& row : StateElectronegativityRows()) {
+      t->state_en[row.atomic_number].push_back(
+          {row.state, row.electronegativity});
+      t->state_en_values[row.atomic_number].push_back(row.electronegativity);
+    }
+    return t;
+  }();
+  return *kTable;
+}
 
 struct StateTable {
   std::array<std::vector<KnownOxidationState>, kMaxAtomicNumber + 1> by_z;
@@ -25,10 +57,11 @@ const StateTable& States() {
       const std::vector<KnownOxidationState>& known = t->by_z[e.atomic_number];
       std::vector<StateOption>& options = t->options_by_z[e.atomic_number];
       auto add = [&](const KnownOxidationState& low,
-                     const KnownOxidationState& high) {
+                     const KnownOxidationState& high,
+                     bool needs_oxide = false) {
         options.push_back(MakeStateOption(e, static_cast<int>(options.size()),
                                           low.state, high.state, low.common,
-                                          high.common));
+                                          high.common, needs_oxide));
         if (low.common && high.common) {
           t->common_options_by_z[e.atomic_number].push_back(options.back());
         }
@@ -38,6 +71,15 @@ const StateTable& States() {
         if (k + 1 < known.size() &&
             (known[k].state > 0) == (known[k + 1].state > 0)) {
           add(known[k], known[k + 1]);
+        }
+        for (const MixedValencePairRow& pair : MixedValencePairRows()) {
+          if (pair.atomic_number != e.atomic_number ||
+              pair.low != known[k].state) {
+            continue;
+          }
+          for (const KnownOxidationState& high : known) {
+            if (high.state == pair.high) add(known[k], high, pair.oxide_only);
+          }
         }
       }
     }
@@ -74,8 +116,67 @@ bool OpenShellState(const Element& e, int state) {
   return state == 0 || (state < 0 && state != e.group - 18);
 }
 
+// What one rank down costs per atom, against 1 per atom of mixed valence.
+constexpr int kPreferenceStep = 2;
+
+int PreferencePenalty(const Element& e, int state, bool common, AnionClass c) {
+  const PreferenceTable& t = Preferences();
+  int k = static_cast<int>(c);
+  if (t.rows[e.atomic_number][k].empty()) k = 0;  // Soft falls back to hard.
+  const std::vector<std::pair<int, int>>& rows = t.rows[e.atomic_number][k];
+  if (rows.empty()) return common ? 0 : 2 * kPreferenceStep;
+  for (const auto& [s, rank] : rows) {
+    if (s == state) return kPreferenceStep * (rank - 1);
+  }
+  return kPreferenceStep * t.max_rank[e.atomic_number][k];
+}
+
+namespace {
+
+// The rows of data/reduction_potentials.tsv by element.
+const std::array<std::vector<ReductionPotentialRow>, kMaxAtomicNumber + 1>&
+PotentialsByZ() {
+  static const auto* const kTable = [] {
+    auto* t = new std::array<std::vector<ReductionPotentialRow>,
+                             kMaxAtomicNumber + 1>;
+    for (const ReductionPotentialRow& row : ReductionPotentialRows()) {
+      (*t)[row.atomic_number].push_back(row);
+    }
+    return t;
+  }();
+  return *kTable;
+}
+
+}  // namespace
+
+std::optional<double> PotentialDownFrom(const Element& e, int oxidised) {
+  for (const ReductionPotentialRow& row : PotentialsByZ()[e.atomic_number]) {
+    if (row.oxidised == oxidised) return row.volts;
+  }
+  return std::nullopt;
+}
+
+std::optional<double> PotentialDownTo(const Element& e, int reduced) {
+  for (const ReductionPotentialRow& row : PotentialsByZ()[e.atomic_number]) {
+    if (row.reduced == reduced) return row.volts;
+  }
+  return std::nullopt;
+}
+
+double StateElectronegativity(const Element& e, int state) {
+  for (const auto& [s, en] : Preferences().state_en[e.atomic_number]) {
+    if (s == state) return en;
+  }
+  return e.pauling_electronegativity.value_or(0);
+}
+
+absl::Span<const double> StateElectronegativities(const Element& e) {
+  return Preferences().state_en_values[e.atomic_number];
+}
+
 StateOption MakeStateOption(const Element& e, int index, int low, int high,
-                            bool low_common, bool high_common) {
+                            bool low_common, bool high_common,
+                            bool needs_oxide) {
   StateOption o;
   o.low = low;
   o.high = high;
@@ -83,8 +184,18 @@ StateOption MakeStateOption(const Element& e, int index, int low, int high,
   o.high_common = high_common;
   o.index = index;
   o.uncommon = (low_common ? 0 : 1) + (low != high && !high_common ? 1 : 0);
-  o.high_gap = GroupGap(e, high);
-  o.low_extra_gap = GroupGap(e, low) - o.high_gap;
+  for (const AnionClass c : {AnionClass::kHard, AnionClass::kSoft}) {
+    const int k = static_cast<int>(c);
+    o.high_natural[k] =
+        GroupGap(e, high) + PreferencePenalty(e, high, high_common, c);
+    o.low_extra_natural[k] = GroupGap(e, low) +
+                             PreferencePenalty(e, low, low_common, c) -
+                             o.high_natural[k];
+  }
+  o.spread = low == high ? 0 : 1;
+  o.needs_oxide = needs_oxide;
+  o.high_electronegativity = high > 0 ? StateElectronegativity(e, high)
+                                      : e.pauling_electronegativity.value_or(0);
   return o;
 }
 

@@ -3,9 +3,11 @@
 //
 // An option is one way an element can take its charge: a single known
 // state, or mixed valence over two adjacent known states of the same sign
-// (data/oxidation_states.tsv). The tables are built once, in search
-// order, with what an option's weight needs that does not depend on the
-// formula.
+// (data/oxidation_states.tsv) or over a pair of data/mixed_valence_pairs.tsv.
+// The tables are built once, in search order, with what an option's weight
+// needs that does not depend on the formula: its naturalness in each anion
+// class (group gap plus data/state_preferences.tsv), its spread, and the
+// electronegativity of its positive state.
 //
 // Example:
 //
@@ -20,23 +22,41 @@
 #ifndef SHELLWRIGHT_ENGINE_INTERNAL_STATE_OPTIONS_H_
 #define SHELLWRIGHT_ENGINE_INTERNAL_STATE_OPTIONS_H_
 
+#include <optional>
+
 #include "absl/types/span.h"
 #include "engine/element.h"
 #include "engine/oxidation.h"
 
 namespace shellwright::internal {
 
+// The anion classes of data/state_preferences.tsv.
+enum class AnionClass { kHard = 0, kSoft = 1 };
+
 struct StateOption {
   int low = 0;   // Lower state (== high for single valence).
   int high = 0;  // Upper state.
   bool low_common = true;
   bool high_common = true;
-  int index = 0;          // Position in the element's option list.
-  int uncommon = 0;       // Uncommon states among low and high.
-  int high_gap = 0;       // GroupGap of the upper state.
-  int low_extra_gap = 0;  // GroupGap(low) - GroupGap(high), >= 0.
+  int index = 0;     // Position in the element's option list.
+  int uncommon = 0;  // Uncommon states among low and high.
+  // Naturalness per atom in the upper state, by AnionClass, and what an
+  // atom in the lower state adds to it (may be negative).
+  int high_natural[2] = {0, 0};
+  int low_extra_natural[2] = {0, 0};
+  // Naturalness per atom of the mixed valence itself: 1 when mixed, 0 for
+  // single valence.
+  int spread = 0;
+  // A pair of data/mixed_valence_pairs.tsv that holds only among oxides.
+  bool needs_oxide = false;
+  // Electronegativity of the upper state when it is positive
+  // (data/state_electronegativities.tsv, else the element's); 0 when
+  // unknown.
+  double high_electronegativity = 0;
 
   bool mixed() const { return low != high; }
+  int HighNatural(AnionClass c) const { return high_natural[int(c)]; }
+  int LowExtraNatural(AnionClass c) const { return low_extra_natural[int(c)]; }
 };
 
 // How far a positive state of a main-group (p-block) element falls below
@@ -46,6 +66,29 @@ struct StateOption {
 // (Mn+2 P+5, not Mn+4 P+3). For Tl, Pb, Bi and Po the reference is two
 // below the group state (inert pair effect): Pb+2 scores 0.
 int GroupGap(const Element& e, int state);
+
+// What `state` costs per atom for ranking below the most natural state of
+// `e` among anions of class `c` (data/state_preferences.tsv): 2 (rank - 1),
+// 2 x the element's largest rank for a state its rows do not list; for an
+// element with no rows, 0 for a `common` state and 4 for an uncommon one.
+// An element with no soft rows uses its hard rows.
+int PreferencePenalty(const Element& e, int state, bool common, AnionClass c);
+
+// The electronegativity of `e` in a positive `state`: the value of
+// data/state_electronegativities.tsv, else the element's, else 0.
+double StateElectronegativity(const Element& e, int state);
+
+// The state-specific electronegativities of `e`
+// (data/state_electronegativities.tsv), for the search's thresholds.
+absl::Span<const double> StateElectronegativities(const Element& e);
+
+// The standard reduction potential (V) of the couple from `oxidised` down
+// to the next state of `e` (data/reduction_potentials.tsv), or nullopt.
+std::optional<double> PotentialDownFrom(const Element& e, int oxidised);
+
+// The standard reduction potential (V) of the couple from the next state
+// of `e` down to `reduced`, or nullopt.
+std::optional<double> PotentialDownTo(const Element& e, int reduced);
 
 // True for a p-block nonmetal in a state that is not its closed-shell
 // one: a negative state other than group - 18 (O-1, S-1, C-1, N-2), or 0
@@ -58,15 +101,19 @@ bool OpenShellState(const Element& e, int state);
 // (data/chalcogenide_states.tsv), or -1 when the table has no row.
 int ChalcogenideMaxState(const Element& e);
 
+// `needs_oxide`: a pair of data/mixed_valence_pairs.tsv that holds only
+// among oxides.
 StateOption MakeStateOption(const Element& e, int index, int low, int high,
-                            bool low_common, bool high_common);
+                            bool low_common, bool high_common,
+                            bool needs_oxide = false);
 
 // Known non-zero states of `e`, in increasing order.
 absl::Span<const KnownOxidationState> KnownStates(const Element& e);
 
 // Every option of `e` in search order: each known state, followed by mixed
-// valence with the next known state when both have the same sign. A split
-// across zero (O-1 with O+1) would let any count balance and hide real
+// valence with the next known state when both have the same sign, and
+// with the upper state of each of its data/mixed_valence_pairs.tsv pairs. A
+// split across zero (O-1 with O+1) would let any count balance and hide real
 // charge errors. A search stage filters this list instead of building its
 // own.
 absl::Span<const StateOption> StateOptions(const Element& e);

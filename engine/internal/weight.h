@@ -5,10 +5,12 @@
 // it that one element contributes, and compares them lexicographically:
 //   1. uncommon states;
 //   2. electronegativity inconsistencies;
-//   3. group gap: how far positive main-group states fall below the group
-//      state, summed over scaled atoms;
-//   4. spread: scaled atoms times (upper - lower state) over mixed-valence
-//      elements.
+//   3. naturalness, summed over scaled atoms: how far positive main-group
+//      states fall below the group state (group gap), how far each state
+//      ranks below the element's most natural one for the anions present
+//      (data/state_preferences.tsv), the spread of mixed valence and the
+//      unpaired electrons of radical units. One term, so that the printed
+//      score, which adds them, orders assignments as the ranking does.
 // Weights add term by term, which is what the charge search needs: the
 // weight of an assignment is the sum of its elements' weights. Lower is
 // better. The printed score (oxidation.h) is derived from a Weight, never
@@ -21,8 +23,8 @@
 //
 // Example:
 //
-//   Weight a = Weight::Of(/*uncommon=*/0, /*inconsistencies=*/1, 0, 0);
-//   Weight b = Weight::Of(1, 0, 0, 0);
+//   Weight a = Weight::Of(/*uncommon=*/0, /*inconsistencies=*/1, 0);
+//   Weight b = Weight::Of(1, 0, 0);
 //   a < b;                    // true: one uncommon state outranks anything
 //   (a + b).uncommon();       // 1
 //   Weight::Infinite() < a;   // false
@@ -44,14 +46,14 @@ inline constexpr int64_t kMaxScaledAtoms = 1000000;
 
 class Weight {
  public:
-  // Field sizes: spread < 16 x 10^6 < 2^24; group gap < 7 x 10^6 < 2^23
-  // (x 2^24 < 2^47); inconsistencies <= 48 (x 2^48 < 2^54); uncommon <= 96
-  // (x 2^54 < 2^61). Each field's unit exceeds the largest sum of the
-  // fields below it.
+  // Field sizes: naturalness < 64 per scaled atom (group gap <= 7,
+  // preference <= 12, spread 1, radical units <= 3 x 3, with
+  // room to spare) x 10^6 scaled atoms < 2^26; inconsistencies <= 48
+  // (x 2^48 < 2^54); uncommon <= 96 (x 2^54 < 2^61). Each field's unit
+  // exceeds the largest sum of the fields below it.
   static constexpr int64_t kUncommonUnit = int64_t{1} << 54;
   static constexpr int64_t kInconsistencyUnit = int64_t{1} << 48;
-  static constexpr int64_t kGroupGapUnit = int64_t{1} << 24;
-  static constexpr int64_t kSpreadUnit = 1;
+  static constexpr int64_t kNaturalnessUnit = 1;
 
   // Zero: the weight of a perfect assignment.
   constexpr Weight() = default;
@@ -60,23 +62,23 @@ class Weight {
   // at least as heavy (real weights stay below 2^61).
   static constexpr Weight Infinite() { return Weight(kInfinite); }
 
+  // `naturalness` may be negative only in a difference of weights (a
+  // mixed-valence candidate's per-low-atom term, charge_dp.h).
   static constexpr Weight Of(int64_t uncommon, int64_t inconsistencies,
-                             int64_t group_gap, int64_t spread) {
+                             int64_t naturalness) {
     return Weight(uncommon * kUncommonUnit +
                   inconsistencies * kInconsistencyUnit +
-                  group_gap * kGroupGapUnit + spread * kSpreadUnit);
+                  naturalness * kNaturalnessUnit);
   }
 
   // Each uncommon state counts once, each inconsistent element once;
-  // group gap and spread are in scaled atoms x states.
+  // naturalness is in scaled atoms x steps. REQUIRES: a weight, not a
+  // difference of weights.
   constexpr int64_t uncommon() const { return packed_ / kUncommonUnit; }
   constexpr int64_t inconsistencies() const {
     return (packed_ % kUncommonUnit) / kInconsistencyUnit;
   }
-  constexpr int64_t group_gap() const {
-    return (packed_ % kInconsistencyUnit) / kGroupGapUnit;
-  }
-  constexpr int64_t spread() const { return packed_ % kGroupGapUnit; }
+  constexpr int64_t naturalness() const { return packed_ % kInconsistencyUnit; }
 
   constexpr bool IsInfinite() const { return packed_ >= kInfinite; }
   // True when the assignment has an electronegativity inconsistency.

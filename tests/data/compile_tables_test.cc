@@ -29,7 +29,9 @@ CommandResult RunWith(const std::string& table, const std::string& contents) {
   for (const char* name :
        {"elements", "configuration_exceptions", "ground_level_departures",
         "measured_moments", "oxidation_states", "units",
-        "spectrochemical_series", "spin_crossover", "chalcogenide_states"}) {
+        "spectrochemical_series", "spin_crossover", "chalcogenide_states",
+        "state_preferences", "mixed_valence_pairs", "state_electronegativities",
+        "reduction_potentials"}) {
     paths[name] = SourcePath(std::string("data/") + name + ".tsv");
   }
   if (!table.empty()) {
@@ -46,6 +48,10 @@ CommandResult RunWith(const std::string& table, const std::string& contents) {
                      "--ligands=" + paths["spectrochemical_series"],
                      "--crossover=" + paths["spin_crossover"],
                      "--chalcogenide=" + paths["chalcogenide_states"],
+                     "--preferences=" + paths["state_preferences"],
+                     "--pairs=" + paths["mixed_valence_pairs"],
+                     "--state_en=" + paths["state_electronegativities"],
+                     "--potentials=" + paths["reduction_potentials"],
                      "--out=" + dir + "/out.cc"});
 }
 
@@ -100,6 +106,56 @@ TEST(CompileTables, UnknownSymbolInOxidationTable) {
   CommandResult r = RunWith("oxidation_states", t);
   EXPECT_EQ(r.exit_code, 1);
   EXPECT_THAT(r.err, HasSubstr("unknown element symbol 'Xq'"));
+}
+
+TEST(CompileTables, PreferenceForAStateTheElementLacksIsRejected) {
+  std::string t = RealTable("state_preferences");
+  t += "Na\thard\t2\t1\tnowhere\n";
+  CommandResult r = RunWith("state_preferences", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("state_preferences.tsv:"));
+  EXPECT_THAT(r.err, HasSubstr("Na 2 is not a state in oxidation_states.tsv"));
+}
+
+TEST(CompileTables, PreferenceNeedsAKnownAnionClass) {
+  std::string t = RealTable("state_preferences");
+  t += "Fe\tmedium\t2\t1\tnowhere\n";
+  CommandResult r = RunWith("state_preferences", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("expected hard or soft"));
+}
+
+TEST(CompileTables, DuplicatePreferenceIsRejected) {
+  std::string t = RealTable("state_preferences");
+  t += "Fe\thard\t3\t2\tnowhere\n";
+  CommandResult r = RunWith("state_preferences", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("duplicate row"));
+}
+
+TEST(CompileTables, MixedValencePairMustBeOrdered) {
+  std::string t = RealTable("mixed_valence_pairs");
+  t += "Fe\t3\t2\tany\tnowhere\n";
+  CommandResult r = RunWith("mixed_valence_pairs", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("low must be below high"));
+}
+
+TEST(CompileTables, StateElectronegativityOutOfRangeIsRejected) {
+  std::string t = RealTable("state_electronegativities");
+  t += "Fe\t2\t7.5\tnowhere\n";
+  CommandResult r = RunWith("state_electronegativities", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("expected a number from"));
+}
+
+TEST(CompileTables, ReductionPotentialCoupleMustGoDown) {
+  std::string t = RealTable("reduction_potentials");
+  t += "Ni\t2\t3\t1.0\tnowhere\n";
+  CommandResult r = RunWith("reduction_potentials", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("reduction_potentials.tsv:"));
+  EXPECT_THAT(r.err, HasSubstr("reduced must be a positive state below"));
 }
 
 TEST(CompileTables, UnitStatesMustSumToItsCharge) {

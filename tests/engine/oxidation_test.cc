@@ -20,6 +20,7 @@
 #include "absl/types/span.h"
 #include "engine/element.h"
 #include "engine/formula.h"
+#include "engine/internal/state_options.h"
 #include "engine/rational.h"
 #include "engine/units.h"
 #include "gmock/gmock.h"
@@ -44,11 +45,14 @@ std::string Describe(const OxidationAssignment& a) {
   return out;
 }
 
-OxidationResult Solve(const std::string& formula, int charge = 0) {
+OxidationResult Solve(
+    const std::string& formula, int charge = 0, OxidationOptions options = [] {
+      OxidationOptions o;
+      o.max_alternatives = 2;
+      return o;
+    }()) {
   absl::StatusOr<Formula> f = ParseFormula(formula);
   EXPECT_TRUE(f.ok()) << f.status();
-  OxidationOptions options;
-  options.max_alternatives = 2;
   options.net_charge = charge;
   absl::StatusOr<OxidationResult> r = AssignOxidationStates(*f, options);
   EXPECT_TRUE(r.ok()) << r.status();
@@ -111,22 +115,18 @@ int GroupGap(const Element& e, int state) {
   return state < group_state ? group_state - state : 0;
 }
 
-// The ranking key of oxidation.h: uncommon states, electronegativity
-// inconsistencies, group gap, spread; compared lexicographically.
+// The ranking key of oxidation.h: uncommon states, faults
+// (electronegativity inconsistencies plus a redox-incompatible pair),
+// naturalness; compared lexicographically.
 struct Rank {
   int uncommon = 0;
-  int inconsistencies = 0;
-  Rational gap;
-  Rational spread;
+  int faults = 0;
+  Rational naturalness;
 };
 
 bool RankLess(const Rank& a, const Rank& b) {
-  if (a.uncommon != b.uncommon) return a.uncommon < b.uncommon;
-  if (a.inconsistencies != b.inconsistencies) {
-    return a.inconsistencies < b.inconsistencies;
-  }
-  if (a.gap != b.gap) return a.gap < b.gap;
-  return a.spread < b.spread;
+  return std::tie(a.uncommon, a.faults, a.naturalness) <
+         std::tie(b.uncommon, b.faults, b.naturalness);
 }
 
 // Σ count x gap over the assignment's states ("the gap counts once per
@@ -140,15 +140,65 @@ Rational GapOf(const OxidationAssignment& a) {
   return gap;
 }
 
+// The anion class of oxidation.h: soft when the free elements hold S, Se
+// or Te and none of N, O, F and Cl.
+internal::AnionClass AnionsOf(const OxidationAssignment& a) {
+  bool chalcogen = false, hard = false;
+  for (const AssignedState& s : a.states) {
+    if (s.unit >= 0) continue;
+    const int z = s.element->atomic_number;
+    chalcogen |= z == 16 || z == 34 || z == 52;
+    hard |= z == 7 || z == 8 || z == 9 || z == 17;
+  }
+  return chalcogen && !hard ? internal::AnionClass::kSoft
+                            : internal::AnionClass::kHard;
+}
+
+// Naturalness per formula unit as oxidation.h defines it: per atom, the
+// group gap and the preference penalty of its state
+// (data/state_preferences.tsv), 1 per atom of a mixed-valence element, and
+// 3 per unpaired electron of a radical unit.
+Rational NaturalnessOf(const OxidationAssignment& a) {
+  const internal::AnionClass anions = AnionsOf(a);
+  Rational n;
+  std::map<const Element*, int> entries;
+  std::map<const Element*, Rational> counts;
+  for (const AssignedState& s : a.states) {
+    if (s.unit >= 0) continue;
+    n = n + s.count * Rational(GroupGap(*s.element, s.state) +
+                               internal::PreferencePenalty(*s.element, s.state,
+                                                           s.common, anions));
+    ++entries[s.element];
+    counts[s.element] = counts[s.element] + s.count;
+  }
+  for (const auto& [element, k] : entries) {
+    if (k == 2) n = n + counts[element];
+  }
+  for (const AssignedUnit& u : a.units) {
+    n = n + u.count * Rational(3 * u.unit->unpaired);
+  }
+  return n;
+}
+
 Rank RankOf(const OxidationAssignment& a) {
-  return Rank{a.uncommon_states, a.electronegativity_inconsistencies, GapOf(a),
-              a.spread};
+  return Rank{a.uncommon_states,
+              a.electronegativity_inconsistencies +
+                  (a.redox_incompatible.has_value() ? 1 : 0),
+              NaturalnessOf(a)};
+}
+
+// The printed score oxidation.h documents for a rank.
+double ScoreOf(const Rank& r) {
+  const double lower =
+      r.faults >= 9
+          ? 99.99
+          : 10.0 * r.faults + std::min(9.99, r.naturalness.ToDouble());
+  return 100.0 * r.uncommon + lower;
 }
 
 std::string RankText(const Rank& r) {
-  return "(" + std::to_string(r.uncommon) + ", " +
-         std::to_string(r.inconsistencies) + ", " + r.gap.ToString() + ", " +
-         r.spread.ToString() + ")";
+  return "(" + std::to_string(r.uncommon) + ", " + std::to_string(r.faults) +
+         ", " + r.naturalness.ToString() + ")";
 }
 
 // ---------------------------------------------------------------------------
@@ -310,12 +360,8 @@ TEST(Oxidation, CompoundTableBestAssignments) {
     EXPECT_EQ(r.best->electronegativity_inconsistencies, c.inconsistencies);
     EXPECT_EQ(r.best->spread, Rational(c.spread_num, c.spread_den));
     EXPECT_EQ(GapOf(*r.best), Rational(c.group_gap));
-    // score = 100 x uncommon + 10 x inconsistencies + gap + spread
-    // (oxidation.h).
-    EXPECT_DOUBLE_EQ(r.best->score,
-                     100.0 * c.uncommon + 10.0 * c.inconsistencies +
-                         c.group_gap +
-                         static_cast<double>(c.spread_num) / c.spread_den);
+    // score = 100 x uncommon + 10 x faults + naturalness (oxidation.h).
+    EXPECT_DOUBLE_EQ(r.best->score, ScoreOf(RankOf(*r.best)));
     int flagged = 0;
     for (const AssignedState& s : r.best->states) {
       flagged += s.common ? 0 : 1;
@@ -345,29 +391,180 @@ TEST(Oxidation, PeroxideIsAUnitNotAnUncommonFreeOxygen) {
   EXPECT_EQ(r.best->states[1].unit, 0);
 }
 
-TEST(Oxidation, LayeredNickelRichOxideTiesBetweenTwoSingleValenceAnswers) {
-  // LiNi0.8Co0.1Mn0.1O2: Li+1 and O-2 leave +3 for Ni0.8Co0.1Mn0.1. At the
-  // formula's own denominator (10) Co and Mn are one scaled atom each, so
-  // only Ni can be mixed. Single valence with common states: Ni+3 x0.8
-  // leaves 0.1 x (Co + Mn) = 0.6, i.e. Co+2/Mn+4 or Co+3/Mn+3; Ni+2 leaves
-  // 1.4, out of reach. Both have score 0 and the documented rules do not
-  // order them.
-  //
-  // NOTE: the usual chemical description (Co3+, Mn4+, Ni averaging +2.875
-  // as a Ni2+/Ni3+ mixture; common practice in the battery literature, no
-  // source) has spread 0.8 and so loses to these by rule 4.
-  const std::string kCoMn2And4 = "Li:1x1 Ni:3x4/5 Co:2x1/10 Mn:4x1/10 O:-2x2";
-  const std::string kCoMn3And3 = "Li:1x1 Ni:3x4/5 Co:3x1/10 Mn:3x1/10 O:-2x2";
-  OxidationResult r = Solve("LiNi0.8Co0.1Mn0.1O2");
+// ---------------------------------------------------------------------------
+// Natural oxidation states: preferences by anion class, redox
+// compatibility, the inert pair, non-neighbour mixed valence and the scale
+// of the formula unit (oxidation.h).
+
+struct NaturalCase {
+  const char* formula;
+  const char* expected;  // Describe() of the best assignment.
+  const char* source;
+};
+
+// Each row's states as the source gives them.
+const NaturalCase kNaturalCases[] = {
+    // High-entropy rock salt: every cation 2+ (Rost et al., Nat. Commun. 6
+    // (2015) 8485, from memory).
+    {"(Mg0.2Co0.2Ni0.2Cu0.2Zn0.2)O",
+     "Mg:2x1/5 Co:2x1/5 Ni:2x1/5 Cu:2x1/5 Zn:2x1/5 O:-2x1",
+     "Rost et al. 2015, from memory"},
+    // Sulfide minerals: Cu(I) beside Fe(III) and Sn(IV) (Vaughan and
+    // Craig, Mineral Chemistry of Metal Sulfides, from memory).
+    {"CuFeS2", "Cu:1x1 Fe:3x1 S:-2x2", "Vaughan and Craig, from memory"},
+    {"Cu2ZnSnS4", "Cu:1x2 Zn:2x1 Sn:4x1 S:-2x4",
+     "Vaughan and Craig, from memory"},
+    {"Cu3AsS4", "Cu:1x3 As:5x1 S:-2x4", "Vaughan and Craig, from memory"},
+    {"CuInSe2", "Cu:1x1 In:3x1 Se:-2x2",
+     "Greenwood and Earnshaw, ch. 28, from memory"},
+    // Spinel and ilmenite ferrites and titanates (Greenwood and Earnshaw,
+    // ch. 25-26, from memory).
+    {"MnFe2O4", "Mn:2x1 Fe:3x2 O:-2x4", "Greenwood and Earnshaw, from memory"},
+    {"CoFe2O4", "Co:2x1 Fe:3x2 O:-2x4", "Greenwood and Earnshaw, from memory"},
+    {"FeTiO3", "Fe:2x1 Ti:4x1 O:-2x3", "Greenwood and Earnshaw, from memory"},
+    {"NiCo2O4", "Ni:2x1 Co:3x2 O:-2x4", "Greenwood and Earnshaw, from memory"},
+    {"CeFeO3", "Ce:3x1 Fe:3x1 O:-2x3", "Greenwood and Earnshaw, from memory"},
+    // Co(II) vanadate, not Co(III) with V(IV) (Greenwood and Earnshaw,
+    // ch. 22, from memory).
+    {"CoV2O6", "Co:2x1 V:5x2 O:-2x6", "Greenwood and Earnshaw, from memory"},
+    // Layered oxides: Mn(IV) and Co(III), Ni(II) or Ni(II)/Ni(III) (Noh et
+    // al., J. Power Sources 233 (2013) 121, from memory).
+    {"Li3NiMnCoO6", "Li:1x3 Ni:2x1 Mn:4x1 Co:3x1 O:-2x6", "Noh et al. 2013"},
+    {"LiNi0.5Mn0.3Co0.2O2",
+     "Li:1x1 Ni:2x3/10 Ni:3x1/5 Mn:4x3/10 Co:3x1/5 O:-2x2", "Noh et al. 2013"},
+    {"LiNi0.6Co0.2Mn0.2O2", "Li:1x1 Ni:2x1/5 Ni:3x2/5 Co:3x1/5 Mn:4x1/5 O:-2x2",
+     "Noh et al. 2013"},
+    // The inert pair (Greenwood and Earnshaw, ch. 10 and 13, from memory).
+    {"CH3NH3PbI3",
+     "C:-2x1[methylammonium] H:1x6[methylammonium] N:-3x1[methylammonium] "
+     "Pb:2x1 I:-1x3",
+     "Greenwood and Earnshaw, from memory"},
+    {"PbFe12O19", "Pb:2x1 Fe:3x12 O:-2x19", "Greenwood and Earnshaw"},
+    {"PbTe", "Pb:2x1 Te:-2x1", "Greenwood and Earnshaw, from memory"},
+    {"TlCl", "Tl:1x1 Cl:-1x1", "Greenwood and Earnshaw, from memory"},
+    // Mixed valence between states that are not neighbours (Greenwood and
+    // Earnshaw, ch. 13 and 28, from memory).
+    {"AgO", "Ag:1x1/2 Ag:3x1/2 O:-2x1", "Greenwood and Earnshaw, from memory"},
+    {"CsAuCl3", "Cs:1x1 Au:1x1/2 Au:3x1/2 Cl:-1x3",
+     "Greenwood and Earnshaw, from memory"},
+    {"BaBiO3", "Ba:2x1 Bi:3x1/2 Bi:5x1/2 O:-2x3",
+     "Greenwood and Earnshaw, from memory"},
+    // AgF2 is a true Ag(II) fluoride (Greenwood and Earnshaw, ch. 28, from
+    // memory): the Ag(I)/Ag(III) pair holds among oxides only.
+    {"AgF2", "Ag:2x1 F:-1x2", "Greenwood and Earnshaw, from memory"},
+    // Europium: Eu(II) among chalcogenides, Eu(III) in the sesquioxide
+    // (Greenwood and Earnshaw, ch. 30, from memory).
+    {"EuS", "Eu:2x1 S:-2x1", "Greenwood and Earnshaw, from memory"},
+    {"Eu2O3", "Eu:3x2 O:-2x3", "Greenwood and Earnshaw, from memory"},
+};
+
+TEST(NaturalStates, CompoundsTakeTheirSourcesStates) {
+  for (const NaturalCase& c : kNaturalCases) {
+    SCOPED_TRACE(std::string(c.formula) + " (" + c.source + ")");
+    OxidationResult r = Solve(c.formula);
+    ASSERT_TRUE(r.best.has_value());
+    EXPECT_EQ(Describe(*r.best), c.expected);
+  }
+}
+
+TEST(NaturalStates, TheSameStatesPerAtomHoweverTheUnitIsWritten) {
+  // BaBiO3 is Ba2Bi(III)Bi(V)O6 (Greenwood and Earnshaw, ch. 13, from
+  // memory); every multiple of a formula gets the same states per atom.
+  for (const auto& [single, multiple, factor] :
+       std::vector<std::tuple<const char*, const char*, int>>{
+           {"BaBiO3", "Ba2Bi2O6", 2},
+           {"BaBiO3", "Ba4Bi4O12", 4},
+           {"CsAuCl3", "Cs2Au2Cl6", 2},
+           {"Fe3O4", "Fe6O8", 2},
+           {"CuFeS2", "Cu2Fe2S4", 2},
+           {"AgO", "Ag2O2", 2}}) {
+    SCOPED_TRACE(std::string(single) + " against " + multiple);
+    OxidationResult one = Solve(single);
+    OxidationResult many = Solve(multiple);
+    ASSERT_TRUE(one.best.has_value());
+    ASSERT_TRUE(many.best.has_value());
+    ASSERT_EQ(one.best->states.size(), many.best->states.size());
+    for (size_t i = 0; i < one.best->states.size(); ++i) {
+      EXPECT_EQ(one.best->states[i].element, many.best->states[i].element);
+      EXPECT_EQ(one.best->states[i].state, many.best->states[i].state);
+      EXPECT_EQ(one.best->states[i].count * Rational(factor),
+                many.best->states[i].count);
+    }
+  }
+}
+
+TEST(NaturalStates, ARedoxIncompatiblePairRanksBelowItsCompatibleRival) {
+  // Co(III) (E0 1.82 V) would oxidise Cu(I) (0.15 V): in the rock-salt
+  // high-entropy oxide that reading is an alternative, flagged, and its
+  // score carries the fault.
+  OxidationOptions options;
+  options.max_alternatives = 5;
+  OxidationResult r = Solve("(Mg0.2Co0.2Ni0.2Cu0.2Zn0.2)O", 0, options);
   ASSERT_TRUE(r.best.has_value());
-  EXPECT_THAT(Describe(*r.best), ::testing::AnyOf(kCoMn2And4, kCoMn3And3));
-  EXPECT_EQ(r.best->score, 0);
-  // The other score-0 answer is the next distinct assignment.
-  ASSERT_FALSE(r.alternatives.empty());
-  EXPECT_THAT(Describe(r.alternatives[0]),
-              ::testing::AnyOf(kCoMn2And4, kCoMn3And3));
-  EXPECT_NE(Describe(r.alternatives[0]), Describe(*r.best));
-  EXPECT_EQ(r.alternatives[0].score, 0);
+  EXPECT_FALSE(r.best->redox_incompatible.has_value());
+  bool seen = false;
+  for (const OxidationAssignment& alt : r.alternatives) {
+    if (Describe(alt).find("Co:3") == std::string::npos ||
+        Describe(alt).find("Cu:1") == std::string::npos) {
+      continue;
+    }
+    seen = true;
+    ASSERT_TRUE(alt.redox_incompatible.has_value()) << Describe(alt);
+    EXPECT_EQ(alt.redox_incompatible->oxidant->symbol, "Co");
+    EXPECT_EQ(alt.redox_incompatible->oxidant_state, 3);
+    EXPECT_EQ(alt.redox_incompatible->reductant->symbol, "Cu");
+    EXPECT_EQ(alt.redox_incompatible->reductant_state, 1);
+    EXPECT_GE(alt.score, 10);
+  }
+  EXPECT_TRUE(seen);
+  // Among sulfides the check does not apply: chalcopyrite keeps Fe(III)
+  // beside Cu(I) (Vaughan and Craig, from memory).
+  OxidationResult cufes2 = Solve("CuFeS2");
+  ASSERT_TRUE(cufes2.best.has_value());
+  EXPECT_FALSE(cufes2.best->redox_incompatible.has_value());
+}
+
+TEST(NaturalStates, PrintedScoresFollowTheRanking) {
+  // Alternatives come best first, and their printed scores never go down:
+  // the score is derived from the rank (oxidation.h).
+  OxidationOptions options;
+  options.max_alternatives = 5;
+  for (const char* formula :
+       {"PbFe12O19", "(Mg0.2Co0.2Ni0.2Cu0.2Zn0.2)O", "CuFeS2", "MnFe2O4",
+        "Fe3O4", "LiNi0.6Co0.2Mn0.2O2", "BaBiO3", "Pb3O4", "CrSO4*5H2O"}) {
+    SCOPED_TRACE(formula);
+    OxidationResult r = Solve(formula, 0, options);
+    ASSERT_TRUE(r.best.has_value());
+    double previous = r.best->score;
+    Rank previous_rank = RankOf(*r.best);
+    for (const OxidationAssignment& alt : r.alternatives) {
+      EXPECT_GE(alt.score, previous) << Describe(alt);
+      EXPECT_FALSE(RankLess(RankOf(alt), previous_rank)) << Describe(alt);
+      EXPECT_DOUBLE_EQ(alt.score, ScoreOf(RankOf(alt))) << Describe(alt);
+      previous = alt.score;
+      previous_rank = RankOf(alt);
+    }
+  }
+}
+
+TEST(NaturalStates, NickelRichLayeredOxideKeepsMn4ButNotCo3) {
+  // Known limit (docs/method.md): in LiNi0.8Co0.1Mn0.1O2 the literature's
+  // reading, Ni(II)/Ni(III) with Co(III) and Mn(IV) (Noh et al. 2013, from
+  // memory), pays 0.8 for its Ni mixed valence per formula unit, more than
+  // single-valence Ni(III) with one minor cation a rank off. The best keeps
+  // Ni(III) and Li, and the literature's reading is an alternative.
+  OxidationOptions options;
+  options.max_alternatives = 5;
+  OxidationResult r = Solve("LiNi0.8Co0.1Mn0.1O2", 0, options);
+  ASSERT_TRUE(r.best.has_value());
+  EXPECT_NE(Describe(*r.best).find("Ni:3x4/5"), std::string::npos)
+      << Describe(*r.best);
+  bool literature = false;
+  for (const OxidationAssignment& alt : r.alternatives) {
+    literature |= Describe(alt) ==
+                  "Li:1x1 Ni:2x1/10 Ni:3x7/10 Co:3x1/10 Mn:4x1/10 O:-2x2";
+  }
+  EXPECT_TRUE(literature);
 }
 
 // ---------------------------------------------------------------------------
@@ -565,11 +762,15 @@ void ExpectWellFormed(const Formula& formula, int charge,
   // states beside the free ions: the rules below are about free ions.
   if (!a.units.empty()) return;
   // Electronegativity thresholds as oxidation.h describes them: midpoints
-  // between the distinct Pauling values present, highest first.
+  // between the distinct Pauling values present (with the state-specific
+  // ones of data/state_electronegativities.tsv), highest first.
   std::vector<double> ens;
   for (const ElementAmount& amount : formula.amounts) {
     if (amount.element->pauling_electronegativity.has_value()) {
       ens.push_back(*amount.element->pauling_electronegativity);
+    }
+    for (double en : internal::StateElectronegativities(*amount.element)) {
+      ens.push_back(en);
     }
   }
   std::sort(ens.begin(), ens.end(), std::greater<double>());
@@ -582,15 +783,20 @@ void ExpectWellFormed(const Formula& formula, int charge,
   std::vector<int> inconsistencies_at(thresholds.size(), 0);
   for (const auto& [element, states] : by_element) {
     ASSERT_LE(states.size(), 2u) << element->symbol;
-    bool any_negative = false, any_positive = false;
+    bool any_negative = false;
+    int highest = 0;
     for (const AssignedState* s : states) {
       any_negative |= s->state < 0;
-      any_positive |= s->state > 0;
+      highest = std::max(highest, s->state);
     }
     for (size_t j = 0; j < thresholds.size(); ++j) {
+      // A positive state is judged by its own electronegativity.
       const bool above = element->pauling_electronegativity.has_value() &&
                          *element->pauling_electronegativity > thresholds[j];
-      inconsistencies_at[j] += above ? any_positive : any_negative;
+      const bool positive_above =
+          highest > 0 &&
+          internal::StateElectronegativity(*element, highest) > thresholds[j];
+      inconsistencies_at[j] += positive_above || (any_negative && !above);
     }
     if (states.size() == 2) {
       // Adjacent entries, lower state first, adjacent in the table, same
@@ -605,6 +811,10 @@ void ExpectWellFormed(const Formula& formula, int charge,
       for (size_t k = 0; k + 1 < known.size(); ++k) {
         adjacent |= known[k].state == states[0]->state &&
                     known[k + 1].state == states[1]->state;
+      }
+      // Or a pair of data/mixed_valence_pairs.tsv (Ag+1/Ag+3 in AgO).
+      for (const internal::StateOption& o : internal::StateOptions(*element)) {
+        adjacent |= o.low == states[0]->state && o.high == states[1]->state;
       }
       EXPECT_TRUE(adjacent) << element->symbol << " " << states[0]->state << "/"
                             << states[1]->state;
@@ -621,10 +831,7 @@ void ExpectWellFormed(const Formula& formula, int charge,
   }
   EXPECT_EQ(a.uncommon_states, uncommon);
   EXPECT_EQ(a.spread, spread);
-  EXPECT_NEAR(a.score,
-              100.0 * uncommon + 10.0 * inconsistencies + GapOf(a).ToDouble() +
-                  spread.ToDouble(),
-              1e-9);
+  EXPECT_NEAR(a.score, ScoreOf(RankOf(a)), 1e-9);
 }
 
 // "Fe0.37" etc.: `hundredths` / 100 with two decimals.
@@ -731,40 +938,67 @@ TEST(Oxidation, RandomOxideAlternativesComeInRankOrder) {
   }
 }
 
-// Exhaustive reference for the documented ranking: every element's
-// options (each known state, and each adjacent pair split k / C-k over its
-// C scaled atoms, 0 < k < C) combined by total charge, keeping the lowest
-// rank per total. Rank vectors add componentwise and lexicographic order
-// survives addition, so keeping the minimum per total is exact.
+// Exhaustive reference for the documented ranking of oxides (hard anion
+// class, no redox term): every element's options (each known state, and
+// each adjacent or listed pair split k / C-k over its C scaled atoms,
+// 0 < k < C) combined by total charge, keeping the lowest rank per total.
+// Rank vectors add componentwise and lexicographic order survives
+// addition, so keeping the minimum per total is exact. The formula is
+// scaled as oxidation.h says: divided by the greatest common divisor of
+// its scaled counts and charge, doubled when an element has one atom.
 struct ScaledRank {
   int uncommon = 0;
   int inconsistencies = 0;
-  int64_t gap = 0;     // Scaled by the formula's denominator.
-  int64_t spread = 0;  // Likewise.
+  int64_t natural = 0;  // Scaled by the formula's scale.
   bool operator<(const ScaledRank& o) const {
-    return std::tie(uncommon, inconsistencies, gap, spread) <
-           std::tie(o.uncommon, o.inconsistencies, o.gap, o.spread);
+    return std::tie(uncommon, inconsistencies, natural) <
+           std::tie(o.uncommon, o.inconsistencies, o.natural);
   }
   ScaledRank operator+(const ScaledRank& o) const {
     return {uncommon + o.uncommon, inconsistencies + o.inconsistencies,
-            gap + o.gap, spread + o.spread};
+            natural + o.natural};
   }
 };
 
+// Scaled atoms per formula unit, as oxidation.h defines the scale.
+Rational ReferenceScale(const Formula& f, int charge) {
+  int64_t lcd = 1;
+  for (const ElementAmount& a : f.amounts) lcd = std::lcm(lcd, a.count.den());
+  int64_t g = std::abs(int64_t{charge} * lcd);
+  for (const ElementAmount& a : f.amounts) {
+    g = std::gcd(g, a.count.num() * (lcd / a.count.den()));
+  }
+  int64_t twice = 1;
+  for (const ElementAmount& a : f.amounts) {
+    if (a.count.num() * (lcd / a.count.den()) == g) twice = 2;
+  }
+  return Rational(lcd * twice, g);
+}
+
 std::optional<ScaledRank> ReferenceBestRankAt(const Formula& f, int charge,
                                               double threshold,
-                                              int64_t* scale_out) {
-  int64_t scale = 1;
-  for (const ElementAmount& a : f.amounts) {
-    scale = std::lcm(scale, a.count.den());
-  }
+                                              Rational* scale_out) {
+  const Rational scale = ReferenceScale(f, charge);
   *scale_out = scale;
+  constexpr internal::AnionClass kHard = internal::AnionClass::kHard;
   std::map<int64_t, ScaledRank> totals = {{0, ScaledRank()}};
   for (const ElementAmount& a : f.amounts) {
     const Element& e = *a.element;
-    const int64_t c = a.count.num() * (scale / a.count.den());
-    const bool is_most = a.element->pauling_electronegativity.has_value() &&
-                         *a.element->pauling_electronegativity > threshold;
+    const int64_t c = (a.count * scale).num();
+    auto natural = [&e](int state) {
+      bool common = false;
+      for (const KnownOxidationState& k : KnownOxidationStates(e)) {
+        if (k.state == state) common = k.common;
+      }
+      return GroupGap(e, state) +
+             internal::PreferencePenalty(e, state, common, kHard);
+    };
+    auto inconsistent = [&](int state) {
+      return state > 0
+                 ? internal::StateElectronegativity(e, state) > threshold
+                 : state < 0 && !(e.pauling_electronegativity.has_value() &&
+                                  *e.pauling_electronegativity > threshold);
+    };
     absl::Span<const KnownOxidationState> known = KnownOxidationStates(e);
     std::map<int64_t, ScaledRank> options;  // Contribution -> best rank.
     auto offer = [&options](int64_t contribution, ScaledRank rank) {
@@ -773,22 +1007,37 @@ std::optional<ScaledRank> ReferenceBestRankAt(const Formula& f, int charge,
         options[contribution] = rank;
       }
     };
-    for (size_t k = 0; k + 1 <= known.size(); ++k) {
-      const int s = known[k].state;
-      offer(c * s, ScaledRank{known[k].common ? 0 : 1,
-                              (is_most ? s > 0 : s < 0) ? 1 : 0,
-                              c * GroupGap(e, s), 0});
-      if (k + 1 < known.size() && (s > 0) == (known[k + 1].state > 0)) {
-        const int lo = s, hi = known[k + 1].state;
-        for (int64_t low_atoms = 1; low_atoms < c; ++low_atoms) {
-          offer(low_atoms * lo + (c - low_atoms) * hi,
-                ScaledRank{
-                    (known[k].common ? 0 : 1) + (known[k + 1].common ? 0 : 1),
-                    (is_most ? hi > 0 : lo < 0) ? 1 : 0,
-                    low_atoms * GroupGap(e, lo) +
-                        (c - low_atoms) * GroupGap(e, hi),
-                    c * (hi - lo)});
+    // Mixed pairs: adjacent known states of one sign, and the listed
+    // pairs (Ag+1/Ag+3, among oxides).
+    std::vector<std::pair<size_t, size_t>> pairs;
+    for (size_t k = 0; k + 1 < known.size(); ++k) {
+      if ((known[k].state > 0) == (known[k + 1].state > 0)) {
+        pairs.push_back({k, k + 1});
+      }
+    }
+    for (const internal::StateOption& o : internal::StateOptions(e)) {
+      if (!o.mixed()) continue;
+      for (size_t k = 0; k < known.size(); ++k) {
+        for (size_t m = k + 2; m < known.size(); ++m) {
+          if (known[k].state == o.low && known[m].state == o.high) {
+            pairs.push_back({k, m});
+          }
         }
+      }
+    }
+    for (size_t k = 0; k < known.size(); ++k) {
+      const int s = known[k].state;
+      offer(c * s, ScaledRank{known[k].common ? 0 : 1, inconsistent(s) ? 1 : 0,
+                              c * natural(s)});
+    }
+    for (const auto& [k, m] : pairs) {
+      const int lo = known[k].state, hi = known[m].state;
+      for (int64_t low_atoms = 1; low_atoms < c; ++low_atoms) {
+        offer(low_atoms * lo + (c - low_atoms) * hi,
+              ScaledRank{
+                  (known[k].common ? 0 : 1) + (known[m].common ? 0 : 1),
+                  inconsistent(hi > 0 ? hi : lo) ? 1 : 0,
+                  low_atoms * natural(lo) + (c - low_atoms) * natural(hi) + c});
       }
     }
     std::map<int64_t, ScaledRank> next;
@@ -803,7 +1052,7 @@ std::optional<ScaledRank> ReferenceBestRankAt(const Formula& f, int charge,
     }
     totals = std::move(next);
   }
-  auto it = totals.find(int64_t{charge} * scale);
+  auto it = totals.find((Rational(charge) * scale).num());
   if (it == totals.end()) return std::nullopt;
   return it->second;
 }
@@ -812,10 +1061,13 @@ std::optional<ScaledRank> ReferenceBestRankAt(const Formula& f, int charge,
 // most electronegative element) unless its best is inconsistent, then the
 // best over every threshold.
 std::optional<ScaledRank> ReferenceBestRank(const Formula& f, int charge,
-                                            int64_t* scale_out) {
+                                            Rational* scale_out) {
   std::vector<double> ens;
   for (const ElementAmount& a : f.amounts) {
     ens.push_back(*a.element->pauling_electronegativity);
+    for (double en : internal::StateElectronegativities(*a.element)) {
+      ens.push_back(en);
+    }
   }
   std::sort(ens.begin(), ens.end(), std::greater<double>());
   ens.erase(std::unique(ens.begin(), ens.end()), ens.end());
@@ -868,12 +1120,26 @@ int CompareWithReference(absl::Span<const char* const> metals, int formulas,
     absl::StatusOr<OxidationResult> r = AssignOxidationStates(*f, options);
     EXPECT_TRUE(r.ok()) << r.status();
     if (!r.ok()) continue;
-    int64_t scale = 1;
+    Rational scale;
     const std::optional<ScaledRank> reference =
         ReferenceBestRank(*f, charge, &scale);
     // A unit reading (peroxide for O2.00) balances where monatomic ions
     // may not: the reference knows monatomic ions only.
     if (r->best.has_value() && !r->best->units.empty()) continue;
+    // The redox term is pairwise, which the reference's per-total minimum
+    // cannot hold: compare only formulas with at most one element that
+    // has a couple in data/reduction_potentials.tsv, where it cannot
+    // apply.
+    int with_couples = 0;
+    for (const ElementAmount& a : f->amounts) {
+      for (int state = -8; state <= 9; ++state) {
+        if (internal::PotentialDownFrom(*a.element, state).has_value()) {
+          ++with_couples;
+          break;
+        }
+      }
+    }
+    if (with_couples >= 2) continue;
     EXPECT_EQ(r->best.has_value(), reference.has_value());
     if (!reference.has_value() || !r->best.has_value()) continue;
     ++compared;
@@ -881,9 +1147,9 @@ int CompareWithReference(absl::Span<const char* const> metals, int formulas,
       ++*many_uncommon;
     }
     const Rank got = RankOf(*r->best);
-    const Rank want{reference->uncommon, reference->inconsistencies,
-                    Rational(reference->gap, scale),
-                    Rational(reference->spread, scale)};
+    const Rank want{
+        reference->uncommon, reference->inconsistencies,
+        Rational(reference->natural) * Rational(scale.den(), scale.num())};
     EXPECT_FALSE(RankLess(want, got) || RankLess(got, want))
         << "engine " << Describe(*r->best) << " ranks " << RankText(got)
         << "; the best possible ranks " << RankText(want);

@@ -44,7 +44,7 @@ Candidates Build(const std::vector<Layer>& layers) {
       list.max_contribution = INT64_MIN;
       for (const StateOption& o : layers[i].options) {
         if (pass == 0 && o.uncommon > 0) continue;
-        const Weight w = Weight::Of(o.uncommon, 0, 0,
+        const Weight w = Weight::Of(o.uncommon, 0,
                                     layers[i].scaled_count * (o.high - o.low));
         c.all.push_back(Candidate{o.index, o.low, o.high, w, Weight()});
         list.min_weight = std::min(list.min_weight, w);
@@ -80,7 +80,7 @@ TEST(ChargeDp, FindsTheMixedValenceSplitOfMagnetite) {
   ASSERT_FALSE(s.weight.IsInfinite());
   EXPECT_EQ(s.choices[0].option, 1);
   EXPECT_EQ(s.choices[0].low_atoms, 1);  // One Fe2+, two Fe3+.
-  EXPECT_EQ(s.weight.spread(), 3);       // 3 atoms x (3 - 2).
+  EXPECT_EQ(s.weight.naturalness(), 3);  // 3 atoms x (3 - 2).
 }
 
 TEST(ChargeDp, PrefersTheSingleValenceAnswerWhenOneExists) {
