@@ -218,6 +218,7 @@ void ElementToProto(const Element& e, v1::Element* out) {
   if (e.pauling_electronegativity.has_value()) {
     out->set_pauling_electronegativity(*e.pauling_electronegativity);
   }
+  out->set_electronegativity_estimated(e.electronegativity_estimated);
   AtomQuery q;
   q.element = &e;
   absl::StatusOr<AtomDescriptionPtr> d = DescribeAtom(q);

@@ -63,6 +63,7 @@ const ElementIndex& Index() {
       if (r.has_electronegativity) {
         e.pauling_electronegativity = r.pauling_electronegativity;
       }
+      e.electronegativity_estimated = r.electronegativity_estimated;
       index->by_symbol[SymbolSlot(e.symbol)] = &e;
       index->by_lower_symbol[internal::AsciiLower(e.symbol)] = &e;
       index->by_lower_name[internal::AsciiLower(e.name)] = &e;

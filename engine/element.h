@@ -68,6 +68,9 @@ struct Element {
   absl::string_view atomic_weight_text;
   // Pauling electronegativity, where one is tabulated.
   std::optional<double> pauling_electronegativity;
+  // The tabulated value is an estimate (Pm, Eu, Tb, Yb, Am, Rn;
+  // data/elements.tsv).
+  bool electronegativity_estimated = false;
 };
 
 // All 118 elements in order of Z.

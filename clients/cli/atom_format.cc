@@ -250,6 +250,12 @@ std::string ElectronegativityText(const v1::Element& e,
              : std::string(none);
 }
 
+// The human table marks an estimated value with a leading '~'.
+std::string ElectronegativityHuman(const v1::Element& e) {
+  return absl::StrCat(e.electronegativity_estimated() ? "~" : "",
+                      ElectronegativityText(e, "-"));
+}
+
 }  // namespace
 
 std::string FormatElementsHuman(const v1::ListElementsResponse& elements) {
@@ -261,12 +267,12 @@ std::string FormatElementsHuman(const v1::ListElementsResponse& elements) {
         &out, "%-4d %-3s %-14s %-6d %-5s %-5s %-12s %-6s %s\n",
         e.atomic_number(), e.symbol(), e.name(), e.period(),
         e.group() == 0 ? std::string("-") : absl::StrCat(e.group()), e.block(),
-        WeightText(e), ElectronegativityText(e, "-"), e.ground_configuration());
+        WeightText(e), ElectronegativityHuman(e), e.ground_configuration());
   }
   absl::StrAppend(&out, "\n", elements.elements_size(),
                   " elements. Weight: IUPAC standard atomic weight in Da, "
                   "[n] the mass number of the longest-lived isotope. EN: "
-                  "Pauling electronegativity.\n");
+                  "Pauling electronegativity, ~ an estimate.\n");
   return out;
 }
 
@@ -274,7 +280,7 @@ std::string FormatElementsCsv(const v1::ListElementsResponse& elements) {
   std::string out =
       "atomic_number,symbol,name,period,group,block,standard_atomic_weight,"
       "atomic_weight_is_mass_number,pauling_electronegativity,"
-      "ground_configuration\n";
+      "ground_configuration,electronegativity_estimated\n";
   for (const v1::Element& e : elements.elements()) {
     // No field holds a comma or a quote (data/elements.tsv).
     absl::StrAppend(
@@ -284,7 +290,8 @@ std::string FormatElementsCsv(const v1::ListElementsResponse& elements) {
         e.block(), ",",
         absl::StripPrefix(absl::StripSuffix(WeightText(e), "]"), "["), ",",
         e.atomic_weight_is_mass_number() ? "true" : "false", ",",
-        ElectronegativityText(e, ""), ",", e.ground_configuration(), "\n");
+        ElectronegativityText(e, ""), ",", e.ground_configuration(), ",",
+        e.electronegativity_estimated() ? "true" : "false", "\n");
   }
   return out;
 }

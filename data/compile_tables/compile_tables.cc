@@ -196,7 +196,8 @@ int main(int argc, char** argv) {
   const Table elements =
       ReadTable(args.at("elements"),
                 {"atomic_number", "symbol", "name", "period", "group", "block",
-                 "standard_atomic_weight", "pauling_electronegativity"});
+                 "standard_atomic_weight", "pauling_electronegativity",
+                 "electronegativity_estimated"});
   std::map<std::string, int> z_by_symbol;
   std::set<std::string> names;
   out << "constexpr ElementRow kElements[] = {\n";
@@ -244,12 +245,21 @@ int main(int argc, char** argv) {
     const bool has_en = r.fields[7] != "-";
     const double en =
         has_en ? ParseDecimal(elements, r, 7, r.fields[7], 0.5, 4.0) : 0.0;
+    if (r.fields[8] != "yes" && r.fields[8] != "no") {
+      Fail(elements.path, r.line,
+           "column 'electronegativity_estimated': expected yes or no");
+    }
+    if (r.fields[8] == "yes" && !has_en) {
+      Fail(elements.path, r.line,
+           "an estimated electronegativity needs a value");
+    }
     out << "    {" << z << ", " << Literal(symbol) << ", "
         << Literal(r.fields[2]) << ", " << period << ", " << group << ", '"
         << block << "', " << Double(weight) << ", "
         << (mass_number ? "true" : "false") << ", "
         << (has_en ? "true" : "false") << ", " << Double(en) << ", "
-        << Literal(r.fields[6]) << "},\n";
+        << Literal(r.fields[6]) << ", "
+        << (r.fields[8] == "yes" ? "true" : "false") << "},\n";
   }
   if (z_by_symbol.size() != 118) {
     Fail(elements.path, 0,

@@ -28,6 +28,7 @@ struct ElementRow {
   bool has_electronegativity;
   double pauling_electronegativity;
   const char* weight_text;  // As published: "15.999", "20.180", "[98]".
+  bool electronegativity_estimated;
 };
 
 // data/configuration_exceptions.tsv

@@ -446,6 +446,20 @@ TEST(Cli, ElementsFiltersAndCsv) {
   EXPECT_EQ(list.elements_size(), 7);
 }
 
+TEST(Cli, ElementsFlagEstimatedElectronegativities) {
+  // Tb's tabulated value is an interpolation (CRC Handbook, from memory).
+  CommandResult csv = Cli({"elements", "--csv"});
+  ASSERT_EQ(csv.exit_code, 0) << csv.err;
+  EXPECT_THAT(csv.out, HasSubstr(",ground_configuration,"
+                                 "electronegativity_estimated\n"));
+  EXPECT_THAT(csv.out, ::testing::ContainsRegex("\n65,Tb,[^\n]*,true\n"));
+  EXPECT_THAT(csv.out, ::testing::ContainsRegex("\n26,Fe,[^\n]*,false\n"));
+  CommandResult human = Cli({"elements"});
+  ASSERT_EQ(human.exit_code, 0) << human.err;
+  EXPECT_THAT(human.out, ::testing::ContainsRegex("Tb +Terbium[^\n]*~1\\.10"));
+  EXPECT_THAT(human.out, HasSubstr("~ an estimate"));
+}
+
 TEST(Cli, RegressionLevelOfANonGroundConfigurationIsNotTheGroundLevel) {
   // Issue 16: "[Ar] 3d4 4s2" is not Cr's ground configuration ([Ar] 3d5
   // 4s1, NIST ASD, from memory), so its lowest level is not "Ground level".

@@ -42,6 +42,16 @@ TEST(Element, KnownProperties) {
   const Element* f = FindElementBySymbol("F");
   ASSERT_NE(f, nullptr);
   EXPECT_NEAR(*f->pauling_electronegativity, 3.98, 0.01);
+  EXPECT_FALSE(fe->electronegativity_estimated);
+  EXPECT_FALSE(f->electronegativity_estimated);
+  // Interpolated values in the CRC Handbook's table (from memory) are
+  // flagged as estimates.
+  for (const char* symbol : {"Pm", "Eu", "Tb", "Yb", "Am"}) {
+    const Element* e = FindElementBySymbol(symbol);
+    ASSERT_NE(e, nullptr);
+    EXPECT_TRUE(e->electronegativity_estimated) << symbol;
+    EXPECT_TRUE(e->pauling_electronegativity.has_value()) << symbol;
+  }
   const Element* ne = FindElementBySymbol("Ne");
   ASSERT_NE(ne, nullptr);
   EXPECT_FALSE(ne->pauling_electronegativity.has_value());
