@@ -14,6 +14,7 @@
 
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_join.h"
+#include "api/records.h"
 #include "gmock/gmock.h"
 #include "grpc/health/v1/health.grpc.pb.h"
 #include "grpcpp/grpcpp.h"
@@ -795,10 +796,11 @@ TEST(Shellwrightd, DrainAnswersTheBatchInHandThenEndsTheStream) {
   auto stub = Stub(server->address());
   auto context = Context(std::chrono::seconds(90));
   auto stream = stub->AnalyzeRecords(context.get());
-  // About a second of work in a plain build (20 of these records take
-  // about 0.13 s, so a batch of 20 could be answered, and the server gone,
-  // before the health check below): still in hand when the checks run.
-  const v1::RecordBatch batch = HardRecordBatch(200);
+  // About two seconds of work in a plain build (200 of these records take
+  // about 0.35 s, so a batch of 200 could be answered, and the server
+  // gone, before the health check below): still in hand when the checks
+  // run.
+  const v1::RecordBatch batch = HardRecordBatch(1000);
   ASSERT_TRUE(stream->Write(batch));
   // Long enough for the server to have read the batch (a stream still
   // waiting for it when the drain begins is cancelled instead).
@@ -864,7 +866,7 @@ TEST(Shellwrightd, GracePeriodBoundsShutdown) {
   auto context = Context(std::chrono::seconds(30));
   auto stream = stub->AnalyzeRecords(context.get());
   // Minutes of work: the server must give up on it after the grace.
-  ASSERT_TRUE(stream->Write(HardRecordBatch(5000)));
+  ASSERT_TRUE(stream->Write(HardRecordBatch(kMaxRecordsPerBatch)));
   std::this_thread::sleep_for(std::chrono::milliseconds(100));
   const auto start = std::chrono::steady_clock::now();
   EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
