@@ -103,7 +103,9 @@ struct RemoteOptions {
 absl::StatusOr<std::vector<std::string>> ParseServerTargets(
     absl::string_view address);
 
-// Connects lazily. A call or batch that a server fails with UNAVAILABLE,
+// Defined in remote_backend.cc, in the library shellwright_cli_remote
+// (which links gRPC; the in-process CLI does not link it). Connects
+// lazily. A call or batch that a server fails with UNAVAILABLE,
 // CANCELLED, ABORTED, RESOURCE_EXHAUSTED, DATA_LOSS, INTERNAL or UNKNOWN
 // is tried on the other servers, in four rounds over all of them with
 // pauses of 0.1, 0.2 and 0.4 s between rounds; the error then names every

@@ -14,6 +14,7 @@
 #include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/strip.h"
+#include "engine/composition.h"
 #include "engine/diagnostic_codes.h"
 #include "google/protobuf/descriptor.h"
 #include "google/protobuf/util/json_util.h"
@@ -231,6 +232,15 @@ std::string JsonRecordError(absl::string_view text,
 }
 
 }  // namespace
+
+void AddReaderWarnings(const ParsedLine& line, v1::RecordReport* report) {
+  for (const ReaderWarning& w : line.warnings) {
+    v1::Diagnostic* d = report->add_diagnostics();
+    d->set_severity(std::string(Name(Severity::kWarning)));
+    d->set_code(w.code);
+    d->set_message(w.message);
+  }
+}
 
 std::string NearestRecordField(absl::string_view name) {
   const std::string spelled = FieldSpelling(name);

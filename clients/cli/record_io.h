@@ -112,6 +112,10 @@ struct ParsedLine {
   std::vector<ReaderWarning> warnings;  // Usually none.
 };
 
+// Adds `line`'s reader warnings to `report` as diagnostics with severity
+// "warning", after those it has. Thread-safe for distinct reports.
+void AddReaderWarnings(const ParsedLine& line, v1::RecordReport* report);
+
 // The record field that `name` (an unknown key or column) was most likely
 // meant to be: the same name in another case or with spaces or '-' for
 // '_', or one at most two edits away. Empty when none is that close.

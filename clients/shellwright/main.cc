@@ -6,6 +6,11 @@
 //   shellwright elements
 //   shellwright --server 127.0.0.1:50051 atom Gd3+
 //
+// Built twice (clients/CMakeLists.txt): `shellwright` answers in process
+// and links no gRPC; with --server it runs `shellwright-remote`, this
+// program built with SHELLWRIGHT_CLI_REMOTE and the remote backend, on
+// the same command line (clients/cli/remote_cli.h).
+//
 // Each command takes only its own options (`shellwright COMMAND --help`
 // lists them); the options before the command choose where the answers
 // come from. Exit codes: 0 ok; 1 invalid input (one line on stderr naming
@@ -33,6 +38,7 @@
 #include "clients/cli/atom_format.h"
 #include "clients/cli/backend.h"
 #include "clients/cli/check.h"
+#include "clients/cli/remote_cli.h"
 #include "clients/cli/report_format.h"
 #include "engine/version.h"
 #include "shellwright/v1/electron_structure.pb.h"
@@ -510,6 +516,13 @@ int Main(int argc, char** argv) {
 
   std::unique_ptr<Backend> backend;
   if (remote.server->count() > 0) {
+#if !SHELLWRIGHT_CLI_REMOTE
+    // The command line was valid; the twin with the gRPC client answers
+    // it. Nothing was written and no thread started yet.
+    const absl::Status failed = ExecRemoteCli(argv);
+    std::cerr << "shellwright: " << failed.message() << "\n";
+    return kExitUsage;
+#else
     remote.options.timeout = absl::Seconds(remote.timeout_seconds);
     remote.options.warnings = &std::cerr;
     // One server's failures are explained in plain words; with several,
@@ -527,6 +540,7 @@ int Main(int argc, char** argv) {
       return kExitUsage;
     }
     backend = std::move(*made);
+#endif
   } else {
     backend = MakeInProcessBackend();
   }
