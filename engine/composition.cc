@@ -14,6 +14,7 @@
 #include "engine/internal/state_options.h"
 #include "engine/internal/text.h"
 #include "engine/ligand_field.h"
+#include "engine/magnetism.h"
 #include "engine/units.h"
 
 namespace shellwright {
@@ -174,6 +175,98 @@ RangeEnds FindRangeEnds(const Element* e, int state) {
   return slot.by_state[state + kMaxState];
 }
 
+// The ordered moment g S of an ion with `unpaired` electrons whose
+// effective moment g √(S(S+1)) is `effective`.
+double OrderedFromEffective(double effective, int unpaired) {
+  if (unpaired <= 0) return 0;
+  const double spin = unpaired / 2.0;
+  return effective * spin / std::sqrt(spin * (spin + 1.0));
+}
+
+// The d electrons of a split d subshell.
+int SplitElectrons(const LigandFieldSplitting& split) {
+  int n = 0;
+  for (const SplitLevel& level : split.levels) n += level.electrons;
+  return n;
+}
+
+// The effective range of a 3d ion in one spin state: spin-only widened
+// by the tabulated orbital contribution, or spin-only alone where the
+// table has no row. Sets *tabulated when it has one.
+std::pair<double, double> SpinStateRange(int d, Geometry g, SpinState spin,
+                                         bool* tabulated) {
+  const double spin_only = SpinOnlyMoment(SplitD(d, g, spin).unpaired);
+  const std::optional<MomentRange> row = FindOrbitalRange(d, g, spin);
+  if (tabulated != nullptr) *tabulated = row.has_value();
+  if (!row.has_value()) return {spin_only, spin_only};
+  return {std::min(spin_only, row->low), std::max(spin_only, row->high)};
+}
+
+// Sets the ion's recommended moment, its model, its expected effective
+// range and its ordered moment (docs/method.md, "Moments"). `fixed`: the
+// record set the geometry or spin state for its element.
+void SetMomentRange(const AtomDescription& d, const IonEnvironment& env,
+                    const AssignedState& s, bool fixed, IonAnnotation* ion) {
+  const Moments& m = d.moments;
+  ion->moment = m.recommended;
+  ion->model = m.recommended_basis == MomentBasis::kJ
+                   ? IonMomentModel::kJMultiplet
+                   : IonMomentModel::kSpinOnly;
+  ion->moment_low = ion->moment_high = ion->moment;
+  ion->range_basis = RangeBasis::kExact;
+  const int unpaired = d.unpaired_electrons;
+  ion->ordered_moment = ion->model == IonMomentModel::kJMultiplet
+                            ? m.saturation
+                            : static_cast<double>(unpaired);
+  ion->ordered_low = ion->ordered_high = ion->ordered_moment;
+  if (d.ligand_field.has_value()) {
+    const LigandFieldSplitting& split = d.ligand_field->splitting;
+    const int n = SplitElectrons(split);
+    if (d.ligand_field->subshell.n == 3) {
+      if (env.near_crossover && !fixed) {
+        // Either state may be found: the range spans both.
+        const auto low =
+            SpinStateRange(n, split.geometry, SpinState::kLow, nullptr);
+        const auto high =
+            SpinStateRange(n, split.geometry, SpinState::kHigh, nullptr);
+        ion->moment_low = std::min({ion->moment, low.first, high.first});
+        ion->moment_high = std::max({ion->moment, low.second, high.second});
+        ion->ordered_low = OrderedFromEffective(
+            low.first, SplitD(n, split.geometry, SpinState::kLow).unpaired);
+        ion->ordered_high = OrderedFromEffective(
+            high.second, SplitD(n, split.geometry, SpinState::kHigh).unpaired);
+        ion->range_basis = RangeBasis::kSpinCrossover;
+      } else {
+        bool tabulated = false;
+        const auto range =
+            SpinStateRange(n, split.geometry, split.spin_state, &tabulated);
+        if (tabulated) {
+          ion->moment_low = std::min(ion->moment, range.first);
+          ion->moment_high = std::max(ion->moment, range.second);
+          ion->ordered_low = OrderedFromEffective(ion->moment_low, unpaired);
+          ion->ordered_high = OrderedFromEffective(ion->moment_high, unpaired);
+          ion->range_basis = RangeBasis::kOrbitalContribution;
+        }
+      }
+    } else if (!fixed) {
+      // 4d and 5d ions: from low spin to the free ion.
+      const RangeEnds ends = FindRangeEnds(s.element, s.state);
+      if (ends.low.has_value()) {
+        ion->moment_low = std::min(ion->moment_low, *ends.low);
+      }
+      if (ends.high.has_value()) {
+        ion->moment_high = std::max(ion->moment_high, *ends.high);
+      }
+      ion->range_basis = RangeBasis::kSpinStates;
+    }
+  } else if (!fixed && m.recommended_basis == MomentBasis::kJ &&
+             m.measured.has_value()) {
+    ion->moment_low = std::min(ion->moment, *m.measured);
+    ion->moment_high = std::max(ion->moment, *m.measured);
+    ion->range_basis = RangeBasis::kMeasured;
+  }
+}
+
 // Annotates every free ion with its environment and moment range, and
 // every unit with its moment.
 void Annotate(
@@ -223,24 +316,10 @@ void Annotate(
       r->ions.push_back(ion);  // No moment: all zero.
       continue;
     }
-    const Moments& m = (*d)->moments;
-    ion.moment = m.recommended;
-    ion.moment_low = ion.moment_high = ion.moment;
-    const bool fixed = g_set != nullptr || s_set != nullptr ||
-                       (s.state <= 0 && (*d)->configuration_user_supplied);
-    if (!fixed && (*d)->ligand_field.has_value()) {
-      const RangeEnds ends = FindRangeEnds(s.element, s.state);
-      if (ends.low.has_value()) {
-        ion.moment_low = std::min(ion.moment_low, *ends.low);
-      }
-      if (ends.high.has_value()) {
-        ion.moment_high = std::max(ion.moment_high, *ends.high);
-      }
-    } else if (!fixed && m.recommended_basis == MomentBasis::kJ &&
-               m.measured.has_value()) {
-      ion.moment_low = std::min(ion.moment, *m.measured);
-      ion.moment_high = std::max(ion.moment, *m.measured);
-    }
+    SetMomentRange(**d, env, s,
+                   g_set != nullptr || s_set != nullptr ||
+                       (s.state <= 0 && (*d)->configuration_user_supplied),
+                   &ion);
     r->ions.push_back(ion);
   }
 }
@@ -292,6 +371,10 @@ void ApplyMetallicModel(const Formula& formula, CompositionReport* r) {
   MetallicMomentEstimate m = EstimateMetallicMoment(formula.amounts);
   r->moment_model = m.model;
   r->saturation_moment_per_formula_unit = m.saturation;
+  if (m.saturation.has_value()) {
+    r->saturation_moment_low = r->saturation_moment_high = *m.saturation;
+    r->saturation_model = m.model;
+  }
   r->moment_note = std::move(m.note);
   const double effective = m.effective.value_or(0);
   r->unpaired_per_formula_unit = m.localized_unpaired;
@@ -331,6 +414,68 @@ void Summarise(const Formula& formula, CompositionReport* r) {
       (r->kind == CompositionKind::kElemental && formula.amounts.size() == 1 &&
        IsMetal(*formula.amounts[0].element));
   if (metal_phase) ApplyMetallicModel(formula, r);
+}
+
+// Checks a measured moment against its expected range [low, high]: an
+// error naming `what` when it lies outside by more than the tolerance.
+// Returns false (with an error) for a bad value or tolerance.
+void CheckOneMoment(absl::string_view what, double measured,
+                    std::optional<double> tolerance_set, double low,
+                    double high, absl::string_view model,
+                    CompositionReport* r) {
+  const double tolerance = tolerance_set.value_or(kDefaultMomentTolerance);
+  if (measured < low - tolerance || measured > high + tolerance) {
+    Add(r, Severity::kError, codes::kMomentOutOfRange,
+        absl::StrFormat("measured %s %.2f μB per formula unit is outside the "
+                        "expected %.2f to %.2f μB (±%.2f, %s); estimates are "
+                        "idealised",
+                        what, measured, low, high, tolerance, model));
+  }
+}
+
+bool BadMomentValues(std::optional<double> measured,
+                     std::optional<double> tolerance) {
+  auto bad = [](std::optional<double> v) {
+    return v.has_value() && (!std::isfinite(*v) || *v < 0);
+  };
+  return bad(measured) || (measured.has_value() && bad(tolerance));
+}
+
+void CheckMeasuredMoments(const CompositionInput& input, CompositionReport* r) {
+  const bool local = r->kind == CompositionKind::kIonic ||
+                     r->kind == CompositionKind::kZintl;
+  if (BadMomentValues(input.measured_moment, input.moment_tolerance)) {
+    Add(r, Severity::kError, codes::kMalformedRecord,
+        "measured_moment and moment_tolerance must be finite and "
+        "non-negative");
+  } else if (input.measured_moment.has_value()) {
+    if (!local) {
+      Add(r, Severity::kInfo, codes::kMomentCheckSkipped,
+          "local-moment estimates do not apply to metallic or elemental "
+          "compositions; the measured moment was not checked");
+    } else {
+      CheckOneMoment("effective moment", *input.measured_moment,
+                     input.moment_tolerance, r->expected_moment_low,
+                     r->expected_moment_high, "local moments", r);
+    }
+  }
+  if (BadMomentValues(input.measured_saturation_moment,
+                      input.saturation_moment_tolerance)) {
+    Add(r, Severity::kError, codes::kMalformedRecord,
+        "measured_saturation_moment and saturation_moment_tolerance must be "
+        "finite and non-negative");
+  } else if (input.measured_saturation_moment.has_value()) {
+    if (!r->saturation_moment_per_formula_unit.has_value()) {
+      Add(r, Severity::kInfo, codes::kMomentCheckSkipped,
+          "no ordered-moment model applies to this composition; the "
+          "measured saturation moment was not checked");
+    } else {
+      CheckOneMoment("saturation moment", *input.measured_saturation_moment,
+                     input.saturation_moment_tolerance,
+                     r->saturation_moment_low, r->saturation_moment_high,
+                     Name(r->saturation_model), r);
+    }
+  }
 }
 
 }  // namespace
@@ -566,32 +711,7 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
   Annotate(*formula, geometry, spin, &r);
   Summarise(*formula, &r);
 
-  if (input.measured_moment.has_value()) {
-    const double measured = *input.measured_moment;
-    const double tolerance =
-        input.moment_tolerance.value_or(kDefaultMomentTolerance);
-    // A bad value is an error even where the check itself is skipped.
-    const bool bad_values = !std::isfinite(measured) || measured < 0 ||
-                            !std::isfinite(tolerance) || tolerance < 0;
-    if (r.kind != CompositionKind::kIonic &&
-        r.kind != CompositionKind::kZintl && !bad_values) {
-      Add(&r, Severity::kInfo, codes::kMomentCheckSkipped,
-          "local-moment estimates do not apply to metallic or elemental "
-          "compositions; the measured moment was not checked");
-    } else if (bad_values) {
-      Add(&r, Severity::kError, codes::kMalformedRecord,
-          "measured_moment and moment_tolerance must be finite and "
-          "non-negative");
-    } else if (measured < r.expected_moment_low - tolerance ||
-               measured > r.expected_moment_high + tolerance) {
-      Add(&r, Severity::kError, codes::kMomentOutOfRange,
-          absl::StrFormat("measured moment %.2f μB per formula unit is "
-                          "outside the expected %.2f to %.2f μB (±%.2f); "
-                          "estimates are idealised",
-                          measured, r.expected_moment_low,
-                          r.expected_moment_high, tolerance));
-    }
-  }
+  CheckMeasuredMoments(input, &r);
   return finish();
 }
 

@@ -41,4 +41,26 @@ std::optional<MeasuredMoment> FindMeasuredMoment(int z, int charge) {
   return std::nullopt;
 }
 
+std::optional<MomentRange> FindOrbitalRange(int d_electrons, Geometry geometry,
+                                            SpinState spin_state) {
+  if (geometry == Geometry::kFree || d_electrons < 0 || d_electrons > 10) {
+    return std::nullopt;
+  }
+  const absl::string_view geometry_name = Name(geometry);
+  // Where both spin states put the electrons alike (octahedral d3, d8),
+  // the table lists one of them: either matches.
+  const bool either =
+      SplitD(d_electrons, geometry, SpinState::kHigh).unpaired ==
+      SplitD(d_electrons, geometry, SpinState::kLow).unpaired;
+  const bool low_spin = spin_state == SpinState::kLow;
+  for (const internal::OrbitalRangeRow& row : internal::OrbitalRangeRows()) {
+    if (row.d_electrons == d_electrons &&
+        (either || row.low_spin == low_spin) &&
+        geometry_name == row.geometry) {
+      return MomentRange{row.moment_low, row.moment_high, row.source};
+    }
+  }
+  return std::nullopt;
+}
+
 }  // namespace shellwright

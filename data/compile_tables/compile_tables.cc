@@ -171,6 +171,7 @@ std::optional<int> ParseArgs(int argc, char** argv, Paths* paths) {
       {"pairs", "mixed_valence_pairs.tsv"},
       {"state_en", "state_electronegativities.tsv"},
       {"potentials", "reduction_potentials.tsv"},
+      {"orbital", "orbital_ranges.tsv"},
       {"out", "the C++ file to write"},
   };
   for (const auto& table : kTables) {
@@ -664,6 +665,39 @@ int main(int argc, char** argv) {
   }
   out << "};\n\n";
 
+  // --- orbital_ranges.tsv --------------------------------------------------
+  const Table orbital = ReadTable(
+      args.at("orbital"), {"d_electrons", "geometry", "spin_state",
+                           "moment_low", "moment_high", "source"});
+  out << "constexpr OrbitalRangeRow kOrbital[] = {\n";
+  std::set<std::tuple<long, std::string, std::string>> orbital_keys;
+  for (const Row& r : orbital.rows) {
+    const long d = ParseInt(orbital, r, 0, 0, 10);
+    const std::string& geometry = r.fields[1];
+    if (geometry != "octahedral" && geometry != "tetrahedral" &&
+        geometry != "square_planar" && geometry != "trigonal_prismatic") {
+      Fail(orbital.path, r.line,
+           "column 'geometry': expected octahedral, tetrahedral, "
+           "square_planar or trigonal_prismatic");
+    }
+    const std::string& spin = r.fields[2];
+    if (spin != "high" && spin != "low") {
+      Fail(orbital.path, r.line, "column 'spin_state': expected high or low");
+    }
+    if (!orbital_keys.insert({d, geometry, spin}).second) {
+      Fail(orbital.path, r.line, "duplicate row");
+    }
+    const double low = ParseDecimal(orbital, r, 3, r.fields[3], 0, 8);
+    const double high = ParseDecimal(orbital, r, 4, r.fields[4], 0, 8);
+    if (low > high) {
+      Fail(orbital.path, r.line, "moment_low must not exceed moment_high");
+    }
+    out << "    {" << d << ", " << Literal(geometry) << ", "
+        << (spin == "low" ? "true" : "false") << ", " << Double(low) << ", "
+        << Double(high) << ", " << Literal(r.fields[5]) << "},\n";
+  }
+  out << "};\n\n";
+
   out << "}  // namespace\n\n"
          "absl::Span<const ElementRow> ElementRows() { return kElements; }\n"
          "absl::Span<const ConfigurationExceptionRow> "
@@ -688,7 +722,9 @@ int main(int argc, char** argv) {
          "absl::Span<const StateElectronegativityRow> "
          "StateElectronegativityRows() {\n  return kStateEn;\n}\n"
          "absl::Span<const ReductionPotentialRow> ReductionPotentialRows() {\n"
-         "  return kPotentials;\n}\n\n"
+         "  return kPotentials;\n}\n"
+         "absl::Span<const OrbitalRangeRow> OrbitalRangeRows() {\n"
+         "  return kOrbital;\n}\n\n"
          "}  // namespace shellwright::internal\n";
 
   // Write only when changed, so that an unchanged table does not trigger a

@@ -144,6 +144,16 @@ struct ReductionPotentialRow {
   const char* source;
 };
 
+// data/orbital_ranges.tsv
+struct OrbitalRangeRow {
+  int d_electrons;
+  const char* geometry;  // Name(Geometry): "octahedral", ...
+  bool low_spin;
+  double moment_low;  // Bohr magnetons.
+  double moment_high;
+  const char* source;
+};
+
 absl::Span<const ElementRow> ElementRows();
 absl::Span<const ConfigurationExceptionRow> ConfigurationExceptionRows();
 absl::Span<const GroundLevelDepartureRow> GroundLevelDepartureRows();
@@ -158,6 +168,7 @@ absl::Span<const StatePreferenceRow> StatePreferenceRows();
 absl::Span<const MixedValencePairRow> MixedValencePairRows();
 absl::Span<const StateElectronegativityRow> StateElectronegativityRows();
 absl::Span<const ReductionPotentialRow> ReductionPotentialRows();
+absl::Span<const OrbitalRangeRow> OrbitalRangeRows();
 
 }  // namespace shellwright::internal
 

@@ -133,7 +133,7 @@ GeneratedCsv GenerateCsv(int n) {
       {"K3[Fe(CN)6]", "", "", ""},
       {"CuSO4·5H2O", "", "", ""},
       {"SO4", "-2", "", ""},
-      {"Fe2O3", "", "Fe:3", "5.9"},
+      {"Fe2O3", "", "Fe:3", "8.4"},
       {"\"BaTiO3\"", " 0 ", "", ""},  // Quoted field, padded number.
       {"Cr2O3", "", "", ""},
   };
@@ -164,7 +164,7 @@ GeneratedCsv GenerateCsv(int n) {
           e.error_code = "malformed_record";
           break;
         case 4:  // Non-numeric measured moment.
-          line = e.id + ",Fe2O3,,,5.9uB";
+          line = e.id + ",Fe2O3,,,8.4uB";
           e.error_code = "malformed_record";
           break;
         case 5:  // Stray quote inside an unquoted field.
@@ -265,7 +265,7 @@ TEST_F(CheckTest, AllValidInputExitsZero) {
   WriteFile(Path("good.csv"), std::string(kHeader) +
                                   "\n"
                                   "a,NaCl,,,\n"
-                                  "b,Fe2O3,0,Fe:3,5.9\n"
+                                  "b,Fe2O3,0,Fe:3,8.4\n"
                                   "\n"
                                   "c,\"K3[Fe(CN)6]\",,,\n");
   CommandResult r = Check({Path("good.csv"), "--out", Path("good.jsonl")});
@@ -581,7 +581,7 @@ TEST_F(CheckTest, RowFieldsAreChecked) {
                                     "declared,Fe2O3,,Fe:2,\n"
                                     "moment,Fe2O3,,,99\n"
                                     "hydrate,CuSO4.5H2O,,,\n"
-                                    "plausible,Fe2O3,,,5.9\n");
+                                    "plausible,Fe2O3,,,8.4\n");
   CommandResult r = Check({Path("fields.csv"), "--out", Path("f.jsonl")});
   EXPECT_EQ(r.exit_code, 1) << r.err;
   const std::vector<v1::RecordReport> reports =

@@ -31,7 +31,7 @@ CommandResult RunWith(const std::string& table, const std::string& contents) {
         "measured_moments", "oxidation_states", "units",
         "spectrochemical_series", "spin_crossover", "chalcogenide_states",
         "state_preferences", "mixed_valence_pairs", "state_electronegativities",
-        "reduction_potentials"}) {
+        "reduction_potentials", "orbital_ranges"}) {
     paths[name] = SourcePath(std::string("data/") + name + ".tsv");
   }
   if (!table.empty()) {
@@ -52,6 +52,7 @@ CommandResult RunWith(const std::string& table, const std::string& contents) {
                      "--pairs=" + paths["mixed_valence_pairs"],
                      "--state_en=" + paths["state_electronegativities"],
                      "--potentials=" + paths["reduction_potentials"],
+                     "--orbital=" + paths["orbital_ranges"],
                      "--out=" + dir + "/out.cc"});
 }
 
@@ -156,6 +157,23 @@ TEST(CompileTables, ReductionPotentialCoupleMustGoDown) {
   EXPECT_EQ(r.exit_code, 1);
   EXPECT_THAT(r.err, HasSubstr("reduction_potentials.tsv:"));
   EXPECT_THAT(r.err, HasSubstr("reduced must be a positive state below"));
+}
+
+TEST(CompileTables, OrbitalRangeMustRunUpward) {
+  std::string t = RealTable("orbital_ranges");
+  t += "3\ttetrahedral\thigh\t4.0\t3.5\tnowhere\n";
+  CommandResult r = RunWith("orbital_ranges", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("orbital_ranges.tsv:"));
+  EXPECT_THAT(r.err, HasSubstr("moment_low must not exceed moment_high"));
+}
+
+TEST(CompileTables, OrbitalRangeKeyIsUnique) {
+  std::string t = RealTable("orbital_ranges");
+  t += "7\toctahedral\thigh\t4.0\t5.0\tnowhere\n";
+  CommandResult r = RunWith("orbital_ranges", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("duplicate row"));
 }
 
 TEST(CompileTables, UnitStatesMustSumToItsCharge) {
