@@ -442,8 +442,8 @@ bool BadMomentValues(std::optional<double> measured,
 }
 
 void CheckMeasuredMoments(const CompositionInput& input, CompositionReport* r) {
-  const bool local = r->kind == CompositionKind::kIonic ||
-                     r->kind == CompositionKind::kZintl;
+  const bool local =
+      r->kind == CompositionKind::kIonic || r->kind == CompositionKind::kZintl;
   if (BadMomentValues(input.measured_moment, input.moment_tolerance)) {
     Add(r, Severity::kError, codes::kMalformedRecord,
         "measured_moment and moment_tolerance must be finite and "

@@ -73,15 +73,19 @@ struct CompositionInput {
   std::string id;
   std::string formula;
   std::optional<int> net_charge;
-  std::string declared_states;             // "Fe:3,O:-2"
-  std::string geometry;                    // "Co:octahedral,Ni:square_planar"
-  std::string spin_state;                  // "Co:low"
+  std::string declared_states;  // "Fe:3,O:-2"
+  std::string geometry;         // "Co:octahedral,Ni:square_planar"
+  std::string spin_state;       // "Co:low"
   // Effective paramagnetic moment (Curie-Weiss), μB per formula unit.
   std::optional<double> measured_moment;
   std::optional<double> moment_tolerance;  // μB; default 0.5.
   // Ordered (saturation) moment at low temperature, μB per formula unit.
   std::optional<double> measured_saturation_moment;
   std::optional<double> saturation_moment_tolerance;  // μB; default 0.5.
+  // "auto" or "" (recognise), "none", or a family name (engine/sites.h).
+  std::string structure_family;
+  // Kelvin, > 0, for temperature-dependent moments; default 300.
+  std::optional<double> temperature;
   int max_alternatives = 0;  // 0..5: further assignments to report.
   // Values of the formula's variables: "x=0.3, δ=0.05" (formula.h).
   std::string variables;
@@ -156,6 +160,9 @@ struct IonAnnotation {
   double ordered_moment = 0;
   double ordered_low = 0;
   double ordered_high = 0;
+  // The site a structure family placed the ion on ("B (octahedral)"), or
+  // empty. Points at static storage.
+  absl::string_view site;
   // For a d ion: the ligand holding most donor sites (null if none is
   // known), the mean f of its ligands and why it has its spin state.
   const Ligand* ligand = nullptr;
@@ -208,6 +215,10 @@ struct CompositionReport {
   double saturation_moment_high = 0;
   // The model behind the saturation moment (kNone where there is none).
   MomentModel saturation_model = MomentModel::kNone;
+  // The structure family the ions were placed with ("spinel"), empty for
+  // none, and how the placement was decided.
+  absl::string_view structure_family;
+  std::string structure_note;
   // How the metallic model reached its figure, or why there is none.
   std::string moment_note;
   // Z_t: total valence electrons per formula unit.

@@ -55,8 +55,7 @@ std::optional<MomentRange> FindOrbitalRange(int d_electrons, Geometry geometry,
   const bool low_spin = spin_state == SpinState::kLow;
   for (const internal::OrbitalRangeRow& row : internal::OrbitalRangeRows()) {
     if (row.d_electrons == d_electrons &&
-        (either || row.low_spin == low_spin) &&
-        geometry_name == row.geometry) {
+        (either || row.low_spin == low_spin) && geometry_name == row.geometry) {
       return MomentRange{row.moment_low, row.moment_high, row.source};
     }
   }

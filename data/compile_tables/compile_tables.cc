@@ -666,9 +666,9 @@ int main(int argc, char** argv) {
   out << "};\n\n";
 
   // --- orbital_ranges.tsv --------------------------------------------------
-  const Table orbital = ReadTable(
-      args.at("orbital"), {"d_electrons", "geometry", "spin_state",
-                           "moment_low", "moment_high", "source"});
+  const Table orbital =
+      ReadTable(args.at("orbital"), {"d_electrons", "geometry", "spin_state",
+                                     "moment_low", "moment_high", "source"});
   out << "constexpr OrbitalRangeRow kOrbital[] = {\n";
   std::set<std::tuple<long, std::string, std::string>> orbital_keys;
   for (const Row& r : orbital.rows) {

@@ -38,22 +38,21 @@ CommandResult RunWith(const std::string& table, const std::string& contents) {
     paths[table] = dir + "/" + table + ".tsv";
     std::ofstream(paths[table]) << contents;
   }
-  return RunCommand({BinPath("data/shellwright_compile_tables"),
-                     "--elements=" + paths["elements"],
-                     "--exceptions=" + paths["configuration_exceptions"],
-                     "--departures=" + paths["ground_level_departures"],
-                     "--moments=" + paths["measured_moments"],
-                     "--oxidation=" + paths["oxidation_states"],
-                     "--units=" + paths["units"],
-                     "--ligands=" + paths["spectrochemical_series"],
-                     "--crossover=" + paths["spin_crossover"],
-                     "--chalcogenide=" + paths["chalcogenide_states"],
-                     "--preferences=" + paths["state_preferences"],
-                     "--pairs=" + paths["mixed_valence_pairs"],
-                     "--state_en=" + paths["state_electronegativities"],
-                     "--potentials=" + paths["reduction_potentials"],
-                     "--orbital=" + paths["orbital_ranges"],
-                     "--out=" + dir + "/out.cc"});
+  return RunCommand(
+      {BinPath("data/shellwright_compile_tables"),
+       "--elements=" + paths["elements"],
+       "--exceptions=" + paths["configuration_exceptions"],
+       "--departures=" + paths["ground_level_departures"],
+       "--moments=" + paths["measured_moments"],
+       "--oxidation=" + paths["oxidation_states"], "--units=" + paths["units"],
+       "--ligands=" + paths["spectrochemical_series"],
+       "--crossover=" + paths["spin_crossover"],
+       "--chalcogenide=" + paths["chalcogenide_states"],
+       "--preferences=" + paths["state_preferences"],
+       "--pairs=" + paths["mixed_valence_pairs"],
+       "--state_en=" + paths["state_electronegativities"],
+       "--potentials=" + paths["reduction_potentials"],
+       "--orbital=" + paths["orbital_ranges"], "--out=" + dir + "/out.cc"});
 }
 
 std::string RealTable(const std::string& name) {
