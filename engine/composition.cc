@@ -549,6 +549,14 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
   }
 
   // Per-record settings.
+  if (input.temperature.has_value() &&
+      !(std::isfinite(*input.temperature) && *input.temperature > 0 &&
+        *input.temperature <= kMaxTemperature)) {
+    Add(&r, Severity::kError, codes::kMalformedRecord,
+        absl::StrFormat("temperature %g K is not valid: it must be above 0 "
+                        "and at most %g K",
+                        *input.temperature, kMaxTemperature));
+  }
   std::vector<std::pair<const Element*, int>> declared;
   std::vector<std::pair<const Element*, Geometry>> geometry;
   std::vector<std::pair<const Element*, SpinStatePreference>> spin;

@@ -63,6 +63,9 @@ namespace shellwright {
 
 inline constexpr size_t kMaxRecordIdLength = 256;
 inline constexpr double kDefaultMomentTolerance = 0.5;  // μB per f.u.
+// Kelvin: the temperature of temperature-dependent moments, and its limit.
+inline constexpr double kDefaultTemperature = 300;
+inline constexpr double kMaxTemperature = 10000;
 
 // N_A μB² / (3 kB) in emu·K/mol, from the CODATA 2018 recommended values
 // N_A = 6.02214076e23 /mol, μB = 9.2740100783e-21 erg/G and

@@ -402,6 +402,51 @@ TEST(Composition, SpinCrossoverIonSpansBothStates) {
   EXPECT_DOUBLE_EQ(co->moment_high, 5.7);
 }
 
+TEST(Composition, TemperatureMustBePositiveAndFinite) {
+  for (double t : {0.0, -5.0, std::nan(""), 1e6}) {
+    SCOPED_TRACE(t);
+    CompositionInput in = Record("NiO");
+    in.temperature = t;
+    CompositionReport r = Analyze(in);
+    EXPECT_FALSE(r.valid);
+    const Diagnostic* d = Find(r, "malformed_record");
+    ASSERT_NE(d, nullptr) << DiagnosticsText(r);
+    EXPECT_NE(d->message.find("temperature"), std::string::npos);
+  }
+  CompositionInput in = Record("NiO");
+  in.temperature = 4.2;
+  EXPECT_TRUE(Analyze(in).valid);
+}
+
+TEST(Composition, SaturationCheckNeedsAModel) {
+  // NiO places no ions on sites: there is no ordered-moment estimate, so a
+  // measured saturation moment is noted as unchecked, not judged.
+  CompositionInput in = Record("NiO");
+  in.measured_saturation_moment = 1.9;
+  CompositionReport r = Analyze(in);
+  EXPECT_TRUE(r.valid) << DiagnosticsText(r);
+  EXPECT_NE(Find(r, "moment_check_skipped"), nullptr);
+  // A bad value is an error whatever the model.
+  in.measured_saturation_moment = -1;
+  EXPECT_FALSE(Analyze(in).valid);
+}
+
+TEST(Composition, HeuslerSaturationIsChecked) {
+  // Co2MnSi: M = Z_t - 24 = 5 μB (Galanakis et al., Phys. Rev. B 66,
+  // 174429 (2002), from memory; measured about 4.96-5.07 μB).
+  CompositionInput in = Record("Co2MnSi");
+  in.measured_saturation_moment = 4.96;
+  CompositionReport r = Analyze(in);
+  EXPECT_TRUE(r.valid) << DiagnosticsText(r);
+  EXPECT_EQ(r.saturation_model, MomentModel::kFullHeusler);
+  in.measured_saturation_moment = 3.0;
+  r = Analyze(in);
+  EXPECT_FALSE(r.valid);
+  const Diagnostic* d = Find(r, "moment_out_of_range");
+  ASSERT_NE(d, nullptr) << DiagnosticsText(r);
+  EXPECT_NE(d->message.find("saturation moment"), std::string::npos);
+}
+
 TEST(Composition, NegativeMeasuredMomentIsMalformed) {
   CompositionInput in = Record("NiO");
   in.measured_moment = -1.0;
