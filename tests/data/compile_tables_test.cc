@@ -31,7 +31,8 @@ CommandResult RunWith(const std::string& table, const std::string& contents) {
         "measured_moments", "oxidation_states", "units",
         "spectrochemical_series", "spin_crossover", "chalcogenide_states",
         "state_preferences", "mixed_valence_pairs", "state_electronegativities",
-        "reduction_potentials"}) {
+        "reduction_potentials", "multiplet_intervals", "actinide_moments",
+        "spin_orbit_constants"}) {
     paths[name] = SourcePath(std::string("data/") + name + ".tsv");
   }
   if (!table.empty()) {
@@ -52,6 +53,9 @@ CommandResult RunWith(const std::string& table, const std::string& contents) {
                      "--pairs=" + paths["mixed_valence_pairs"],
                      "--state_en=" + paths["state_electronegativities"],
                      "--potentials=" + paths["reduction_potentials"],
+                     "--intervals=" + paths["multiplet_intervals"],
+                     "--actinides=" + paths["actinide_moments"],
+                     "--spin_orbit=" + paths["spin_orbit_constants"],
                      "--out=" + dir + "/out.cc"});
 }
 
@@ -189,6 +193,59 @@ TEST(CompileTables, MalformedTermSymbol) {
   EXPECT_EQ(r.exit_code, 1);
   EXPECT_THAT(r.err, HasSubstr("ground_level_departures.tsv:"));
   EXPECT_THAT(r.err, HasSubstr("term symbol"));
+}
+
+TEST(CompileTables, MultipletIntervalNeedsAnOpen4fShellWithL) {
+  std::string t = RealTable("multiplet_intervals");
+  t += "Gd\t3\t500\tinvented for this test\n";  // 4f7: L = 0.
+  CommandResult r = RunWith("multiplet_intervals", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("multiplet_intervals.tsv:"));
+  EXPECT_THAT(r.err, HasSubstr("open 4f shell of L > 0"));
+}
+
+TEST(CompileTables, DuplicateMultipletIntervalIsRejected) {
+  std::string t = RealTable("multiplet_intervals");
+  t += "Eu\t3\t400\tinvented for this test\n";
+  CommandResult r = RunWith("multiplet_intervals", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("duplicate ion"));
+}
+
+TEST(CompileTables, ActinideMomentMustBeOrdered) {
+  std::string t = RealTable("actinide_moments");
+  t += "Np\t4\tF\tNpF4\t3.0\t2.0\tno\tinvented for this test\n";
+  CommandResult r = RunWith("actinide_moments", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("moment_low is above moment_high"));
+}
+
+TEST(CompileTables, TipOnlyActinideHasNoMoment) {
+  std::string t = RealTable("actinide_moments");
+  t += "Pu\t4\tF\tPuF4\t0\t1.0\tyes\tinvented for this test\n";
+  CommandResult r = RunWith("actinide_moments", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("tip_only row has no Curie moment"));
+}
+
+TEST(CompileTables, ActinideTableHoldsActinidesOnly) {
+  std::string t = RealTable("actinide_moments");
+  t += "Fe\t3\tO\tFe2O3\t5.0\t6.0\tno\tinvented for this test\n";
+  CommandResult r = RunWith("actinide_moments", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("Fe is not an actinide"));
+}
+
+TEST(CompileTables, SpinOrbitConstantNeedsA4dOr5dT2gIon) {
+  std::string t = RealTable("spin_orbit_constants");
+  t += "Fe\t3\t400\tinvented for this test\n";  // 3d.
+  CommandResult r = RunWith("spin_orbit_constants", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("not a 4d or 5d ion with 1 to 5 d electrons"));
+  t = RealTable("spin_orbit_constants") + "Ir\t3\t3000\tinvented\n";  // d6.
+  r = RunWith("spin_orbit_constants", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("not a 4d or 5d ion with 1 to 5 d electrons"));
 }
 
 }  // namespace
