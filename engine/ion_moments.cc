@@ -144,6 +144,15 @@ KotaniEstimate KotaniRangeT2g(int t2g_electrons, double zeta_cm,
   e.spin_only_moment = SpinOnlyMoment(n <= 3 ? n : 6 - n);
   const double kt = kBoltzmannCmPerK * temperature_k;
   double low = std::min(e.kotani_moment, e.spin_only_moment);
+  double high = std::max(e.kotani_moment, e.spin_only_moment);
+  if (n != 3) {
+    // Covalency: k from kMinOrbitalReduction to 1, in steps of 0.05.
+    for (double k = kMinOrbitalReduction; k < 1; k += 0.05) {
+      const double mu = KotaniMomentT2g(n, zeta_cm, temperature_k, k);
+      low = std::min(low, mu);
+      high = std::max(high, mu);
+    }
+  }
   if (n == 2 || n == 4) {
     // jj limit: the ground level (J = 2 of j=3/2², J = 0 of j=3/2⁴) has no
     // first-order moment; its Van Vleck coupling to j=3/2 → j=1/2
@@ -154,7 +163,7 @@ KotaniEstimate KotaniRangeT2g(int t2g_electrons, double zeta_cm,
     low = e.spin_only_moment * (1 - 4 * (zeta_cm / 3) / ten_dq_cm);
   }
   e.low = std::max(low, 0.0);
-  e.high = std::max(e.kotani_moment, e.spin_only_moment);
+  e.high = high;
   return e;
 }
 

@@ -59,6 +59,11 @@ inline constexpr double kRoomTemperatureK = 300.0;
 // (common practice, no source: such ions show 20,000-35,000 cm⁻¹).
 inline constexpr double kTypicalHeavyTenDqCm = 25000.0;
 
+// The smallest orbital reduction factor k the Kotani range allows for
+// (common practice, no source: fits of 4d and 5d t2g moments, as collected
+// by Figgis and Lewis, give k from about 0.7 to 1).
+inline constexpr double kMinOrbitalReduction = 0.7;
+
 // ---------------------------------------------------------------------------
 // Van Vleck sum over J multiplets.
 
@@ -123,15 +128,14 @@ struct KotaniEstimate {
   // KotaniMomentT2g with k = 1.
   double kotani_moment = 0;
   double spin_only_moment = 0;
-  // [low, high]: always holds kotani_moment, and spans
-  //   t2g^1, t2g^5  kotani_moment to spin-only (covalency, k < 1, moves the
-  //                 moment toward spin-only);
-  //   t2g^2, t2g^4  the jj-coupling limit of the ground level (μ² = 8kT/ζ
-  //                 and 16kT/ζ: strong spin-orbit coupling widens the gap to
-  //                 the first excited level) up to the larger of
-  //                 kotani_moment and spin-only;
-  //   t2g^3         μ_so (1 − 4λ/10Dq), λ = ζ/3 (second-order spin-orbit
-  //                 coupling to 4T2), up to spin-only.
+  // [low, high]: always holds kotani_moment and spin_only_moment, and
+  //   t2g^1,2,4,5   the Kotani values for k from kMinOrbitalReduction to 1
+  //                 (covalency lowers k);
+  //   t2g^2, t2g^4  also the jj-coupling limit of the ground level
+  //                 (μ² = 8kT/ζ and 16kT/ζ: strong spin-orbit coupling
+  //                 widens the gap to the first excited level);
+  //   t2g^3         down to μ_so (1 − 4λ/10Dq), λ = ζ/3 (second-order
+  //                 spin-orbit coupling to 4T2).
   double low = 0;
   double high = 0;
   double temperature_k = 0;
