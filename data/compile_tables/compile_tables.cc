@@ -14,7 +14,10 @@
 //       --moments=measured_moments.tsv --oxidation=oxidation_states.tsv
 //       --units=units.tsv --ligands=spectrochemical_series.tsv
 //       --crossover=spin_crossover.tsv
-//       --chalcogenide=chalcogenide_states.tsv --out=data_tables.cc
+//       --chalcogenide=chalcogenide_states.tsv
+//       --intervals=multiplet_intervals.tsv
+//       --actinides=actinide_moments.tsv
+//       --spin_orbit=spin_orbit_constants.tsv --out=data_tables.cc
 
 #include <cctype>
 #include <cerrno>
@@ -28,6 +31,8 @@
 #include <set>
 #include <sstream>
 #include <string>
+#include <tuple>
+#include <utility>
 #include <vector>
 
 #include "absl/strings/str_cat.h"
@@ -172,6 +177,9 @@ std::optional<int> ParseArgs(int argc, char** argv, Paths* paths) {
       {"state_en", "state_electronegativities.tsv"},
       {"potentials", "reduction_potentials.tsv"},
       {"orbital", "orbital_ranges.tsv"},
+      {"intervals", "multiplet_intervals.tsv"},
+      {"actinides", "actinide_moments.tsv"},
+      {"spin_orbit", "spin_orbit_constants.tsv"},
       {"out", "the C++ file to write"},
   };
   for (const auto& table : kTables) {
@@ -698,6 +706,98 @@ int main(int argc, char** argv) {
   }
   out << "};\n\n";
 
+  // --- multiplet_intervals.tsv ----------------------------------------------
+  // Lanthanide ions with an open 4f shell of L > 0: the Landé interval rule
+  // needs more than one J level.
+  const Table intervals =
+      ReadTable(args.at("intervals"),
+                {"symbol", "charge", "first_interval_cm1", "source"});
+  out << "constexpr MultipletIntervalRow kIntervals[] = {\n";
+  std::set<std::pair<int, long>> interval_ions;
+  for (const Row& r : intervals.rows) {
+    const int z = symbol_to_z(intervals, r, 0);
+    const long charge = ParseInt(intervals, r, 1, 1, 4);
+    const long f_electrons = z - 54 - charge;
+    if (z < 57 || z > 71 || f_electrons < 1 || f_electrons > 13 ||
+        f_electrons == 7) {
+      Fail(intervals.path, r.line,
+           absl::StrCat(r.fields[0], " ", charge,
+                        " is not a lanthanide ion with an open 4f shell of "
+                        "L > 0 (4f1-4f6 or 4f8-4f13)"));
+    }
+    if (!interval_ions.insert({z, charge}).second) {
+      Fail(intervals.path, r.line, "duplicate ion");
+    }
+    const double interval =
+        ParseDecimal(intervals, r, 2, r.fields[2], 50, 20000);
+    out << "    {" << z << ", " << charge << ", " << Double(interval) << ", "
+        << Literal(r.fields[3]) << "},\n";
+  }
+  out << "};\n\n";
+
+  // --- actinide_moments.tsv -------------------------------------------------
+  const Table actinides =
+      ReadTable(args.at("actinides"),
+                {"symbol", "charge", "anion", "compound", "moment_low",
+                 "moment_high", "tip_only", "source"});
+  out << "constexpr ActinideMomentRow kActinides[] = {\n";
+  std::set<std::tuple<int, long, int>> actinide_keys;
+  for (const Row& r : actinides.rows) {
+    const int z = symbol_to_z(actinides, r, 0);
+    if (z < 89 || z > 103) {
+      Fail(actinides.path, r.line, r.fields[0] + " is not an actinide");
+    }
+    const long charge = ParseInt(actinides, r, 1, 2, 7);
+    const int anion = r.fields[2] == "-" ? 0 : symbol_to_z(actinides, r, 2);
+    if (!actinide_keys.insert({z, charge, anion}).second) {
+      Fail(actinides.path, r.line, "duplicate row for this ion and anion");
+    }
+    const double low = ParseDecimal(actinides, r, 4, r.fields[4], 0, 12);
+    const double high = ParseDecimal(actinides, r, 5, r.fields[5], 0, 12);
+    if (low > high) {
+      Fail(actinides.path, r.line, "moment_low is above moment_high");
+    }
+    if (r.fields[6] != "yes" && r.fields[6] != "no") {
+      Fail(actinides.path, r.line, "column 'tip_only': expected yes or no");
+    }
+    const bool tip_only = r.fields[6] == "yes";
+    if (tip_only && high != 0) {
+      Fail(actinides.path, r.line,
+           "a tip_only row has no Curie moment: moments must be 0");
+    }
+    out << "    {" << z << ", " << charge << ", " << anion << ", "
+        << Literal(r.fields[3]) << ", " << Double(low) << ", " << Double(high)
+        << ", " << (tip_only ? "true" : "false") << ", " << Literal(r.fields[7])
+        << "},\n";
+  }
+  out << "};\n\n";
+
+  // --- spin_orbit_constants.tsv ---------------------------------------------
+  // 4d and 5d ions whose low-spin octahedral configuration is t2g^1..t2g^5.
+  const Table spin_orbit = ReadTable(
+      args.at("spin_orbit"), {"symbol", "charge", "zeta_cm1", "source"});
+  out << "constexpr SpinOrbitConstantRow kSpinOrbit[] = {\n";
+  std::set<std::pair<int, long>> spin_orbit_ions;
+  for (const Row& r : spin_orbit.rows) {
+    const int z = symbol_to_z(spin_orbit, r, 0);
+    const long charge = ParseInt(spin_orbit, r, 1, 1, 8);
+    const bool is_4d = z >= 39 && z <= 48;
+    const bool is_5d = z >= 72 && z <= 80;
+    const long d_electrons = (is_4d ? z - 36 : z - 68) - charge;
+    if ((!is_4d && !is_5d) || d_electrons < 1 || d_electrons > 5) {
+      Fail(spin_orbit.path, r.line,
+           absl::StrCat(r.fields[0], " ", charge,
+                        " is not a 4d or 5d ion with 1 to 5 d electrons"));
+    }
+    if (!spin_orbit_ions.insert({z, charge}).second) {
+      Fail(spin_orbit.path, r.line, "duplicate ion");
+    }
+    const double zeta = ParseDecimal(spin_orbit, r, 2, r.fields[2], 100, 10000);
+    out << "    {" << z << ", " << charge << ", " << Double(zeta) << ", "
+        << Literal(r.fields[3]) << "},\n";
+  }
+  out << "};\n\n";
+
   out << "}  // namespace\n\n"
          "absl::Span<const ElementRow> ElementRows() { return kElements; }\n"
          "absl::Span<const ConfigurationExceptionRow> "
@@ -724,7 +824,13 @@ int main(int argc, char** argv) {
          "absl::Span<const ReductionPotentialRow> ReductionPotentialRows() {\n"
          "  return kPotentials;\n}\n"
          "absl::Span<const OrbitalRangeRow> OrbitalRangeRows() {\n"
-         "  return kOrbital;\n}\n\n"
+         "  return kOrbital;\n}\n"
+         "absl::Span<const MultipletIntervalRow> MultipletIntervalRows() {\n"
+         "  return kIntervals;\n}\n"
+         "absl::Span<const ActinideMomentRow> ActinideMomentRows() {\n"
+         "  return kActinides;\n}\n"
+         "absl::Span<const SpinOrbitConstantRow> SpinOrbitConstantRows() {\n"
+         "  return kSpinOrbit;\n}\n\n"
          "}  // namespace shellwright::internal\n";
 
   // Write only when changed, so that an unchanged table does not trigger a

@@ -154,6 +154,34 @@ struct OrbitalRangeRow {
   const char* source;
 };
 
+// data/multiplet_intervals.tsv
+struct MultipletIntervalRow {
+  int atomic_number;
+  int charge;
+  double first_interval_cm1;  // First excited J level above the ground level.
+  const char* source;
+};
+
+// data/actinide_moments.tsv
+struct ActinideMomentRow {
+  int atomic_number;
+  int charge;
+  int anion_atomic_number;  // 0: any anion.
+  const char* compound;
+  double moment_low;  // Bohr magnetons.
+  double moment_high;
+  bool tip_only;  // Temperature-independent paramagnetism only.
+  const char* source;
+};
+
+// data/spin_orbit_constants.tsv
+struct SpinOrbitConstantRow {
+  int atomic_number;
+  int charge;
+  double zeta_cm1;  // One-electron spin-orbit coupling constant.
+  const char* source;
+};
+
 absl::Span<const ElementRow> ElementRows();
 absl::Span<const ConfigurationExceptionRow> ConfigurationExceptionRows();
 absl::Span<const GroundLevelDepartureRow> GroundLevelDepartureRows();
@@ -169,6 +197,9 @@ absl::Span<const MixedValencePairRow> MixedValencePairRows();
 absl::Span<const StateElectronegativityRow> StateElectronegativityRows();
 absl::Span<const ReductionPotentialRow> ReductionPotentialRows();
 absl::Span<const OrbitalRangeRow> OrbitalRangeRows();
+absl::Span<const MultipletIntervalRow> MultipletIntervalRows();
+absl::Span<const ActinideMomentRow> ActinideMomentRows();
+absl::Span<const SpinOrbitConstantRow> SpinOrbitConstantRows();
 
 }  // namespace shellwright::internal
 
