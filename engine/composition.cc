@@ -13,6 +13,7 @@
 #include "engine/formula.h"
 #include "engine/internal/state_options.h"
 #include "engine/internal/text.h"
+#include "engine/ion_moments.h"
 #include "engine/ligand_field.h"
 #include "engine/magnetism.h"
 #include "engine/units.h"
@@ -205,8 +206,99 @@ std::pair<double, double> SpinStateRange(int d, Geometry g, SpinState spin,
 // Sets the ion's recommended moment, its model, its expected effective
 // range and its ordered moment (docs/method.md, "Moments"). `fixed`: the
 // record set the geometry or spin state for its element.
+// The moment of a 4f ion with tabulated multiplet intervals: a Van Vleck
+// sum over its J levels at `temperature` (engine/ion_moments.h). Near room
+// temperature (within kRoomTemperatureBand) the range runs to the
+// measured room-temperature value. False where no sum applies.
+bool SetVanVleck(const AtomDescription& d, const AssignedState& s,
+                 double temperature, IonAnnotation* ion) {
+  constexpr double kRoomTemperatureBand = 50;  // K.
+  const std::optional<VanVleckResult> vv =
+      VanVleckMoment(s.element->atomic_number, s.state, temperature);
+  if (!vv.has_value()) return false;
+  const Moments& m = d.moments;
+  ion->moment = ion->moment_low = ion->moment_high = vv->effective_moment;
+  ion->model = IonMomentModel::kVanVleck;
+  ion->range_basis = RangeBasis::kExact;
+  if (m.measured.has_value() &&
+      std::abs(temperature - kRoomTemperatureK) <= kRoomTemperatureBand) {
+    ion->moment_low = std::min(ion->moment_low, *m.measured);
+    ion->moment_high = std::max(ion->moment_high, *m.measured);
+    ion->range_basis = RangeBasis::kMeasured;
+  }
+  ion->ordered_moment = ion->ordered_low = ion->ordered_high = m.saturation;
+  return true;
+}
+
+// The anion element most atoms of the assignment's free anions belong to
+// (O in UO2, Cl in UCl4), or 0.
+int MainAnion(const OxidationAssignment& a) {
+  int z = 0;
+  Rational most(0);
+  for (const AssignedState& t : a.states) {
+    if (t.unit >= 0 || t.state >= 0 || !(most < t.count)) continue;
+    most = t.count;
+    z = t.element->atomic_number;
+  }
+  return z;
+}
+
+// The moment of an actinide ion: a measured value for it in its anion
+// class where one is tabulated, else a cautioned estimate around the
+// Russell-Saunders J moment (engine/ion_moments.h). False outside 5f ions.
+bool SetActinide(const AtomDescription& d, const AssignedState& s, int anion_z,
+                 IonAnnotation* ion) {
+  const int z = s.element->atomic_number;
+  if (s.element->block != Block::kF || s.element->period != 7) return false;
+  if (std::optional<ActinideMoment> row =
+          FindActinideMoment(z, s.state, anion_z)) {
+    ion->moment = (row->low + row->high) / 2;
+    ion->moment_low = row->low;
+    ion->moment_high = row->high;
+    ion->model = IonMomentModel::kTabulated;
+    ion->range_basis = RangeBasis::kMeasured;
+  } else if (std::optional<ActinideEstimate> e =
+                 EstimateActinideMoment(z, s.state)) {
+    ion->moment = e->j_moment;
+    ion->moment_low = std::min(e->low, e->j_moment);
+    ion->moment_high = std::max(e->high, e->j_moment);
+    ion->model = IonMomentModel::kJMultiplet;
+    ion->range_basis = RangeBasis::kEstimate;
+  } else {
+    return false;
+  }
+  ion->ordered_moment = d.moments.saturation;
+  ion->ordered_low = std::min(ion->ordered_moment, ion->moment_low);
+  ion->ordered_high = std::max(ion->ordered_moment, ion->moment_high);
+  return true;
+}
+
+// The moment of a low-spin octahedral 4d or 5d t2g^n ion (n 1..5) whose
+// spin-orbit constant is tabulated: Kotani's value at `temperature`, with
+// a range to spin-only (engine/ion_moments.h). False where none applies.
+bool SetKotani(const AtomDescription& d, const AssignedState& s,
+               double temperature, IonAnnotation* ion) {
+  const LigandFieldSplitting& split = d.ligand_field->splitting;
+  if (split.geometry != Geometry::kOctahedral || split.levels.size() < 2 ||
+      split.levels[1].electrons != 0) {
+    return false;
+  }
+  const std::optional<KotaniEstimate> k =
+      EstimateKotaniMoment(*s.element, s.state, temperature);
+  if (!k.has_value() || k->t2g_electrons != split.levels[0].electrons) {
+    return false;
+  }
+  ion->moment = k->kotani_moment;
+  ion->moment_low = k->low;
+  ion->moment_high = k->high;
+  ion->model = IonMomentModel::kKotani;
+  ion->range_basis = RangeBasis::kSpinOrbit;
+  return true;
+}
+
 void SetMomentRange(const AtomDescription& d, const IonEnvironment& env,
-                    const AssignedState& s, bool fixed, IonAnnotation* ion) {
+                    const AssignedState& s, bool fixed, double temperature,
+                    int anion_z, IonAnnotation* ion) {
   const Moments& m = d.moments;
   ion->moment = m.recommended;
   ion->model = m.recommended_basis == MomentBasis::kJ
@@ -248,6 +340,8 @@ void SetMomentRange(const AtomDescription& d, const IonEnvironment& env,
           ion->range_basis = RangeBasis::kOrbitalContribution;
         }
       }
+    } else if (SetKotani(d, s, temperature, ion)) {
+      // Done.
     } else if (!fixed) {
       // 4d and 5d ions: from low spin to the free ion.
       const RangeEnds ends = FindRangeEnds(s.element, s.state);
@@ -259,6 +353,9 @@ void SetMomentRange(const AtomDescription& d, const IonEnvironment& env,
       }
       ion->range_basis = RangeBasis::kSpinStates;
     }
+  } else if (SetActinide(d, s, anion_z, ion) ||
+             SetVanVleck(d, s, temperature, ion)) {
+    // Done.
   } else if (!fixed && m.recommended_basis == MomentBasis::kJ &&
              m.measured.has_value()) {
     ion->moment_low = std::min(ion->moment, *m.measured);
@@ -273,8 +370,9 @@ void Annotate(
     const Formula& formula,
     const std::vector<std::pair<const Element*, Geometry>>& geometry,
     const std::vector<std::pair<const Element*, SpinStatePreference>>& spin,
-    CompositionReport* r) {
+    double temperature, CompositionReport* r) {
   const OxidationAssignment& assignment = *r->assignment;
+  const int anion_z = MainAnion(assignment);
   r->ions.reserve(assignment.states.size());
   for (const AssignedUnit& u : assignment.units) {
     r->units.push_back({u.unit, u.count,
@@ -319,7 +417,7 @@ void Annotate(
     SetMomentRange(**d, env, s,
                    g_set != nullptr || s_set != nullptr ||
                        (s.state <= 0 && (*d)->configuration_user_supplied),
-                   &ion);
+                   temperature, anion_z, &ion);
     r->ions.push_back(ion);
   }
 }
@@ -716,7 +814,8 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     }
   }
 
-  Annotate(*formula, geometry, spin, &r);
+  Annotate(*formula, geometry, spin,
+           input.temperature.value_or(kDefaultTemperature), &r);
   Summarise(*formula, &r);
 
   CheckMeasuredMoments(input, &r);

@@ -116,6 +116,9 @@ struct Diagnostic {
 enum class IonMomentModel {
   kSpinOnly,    // √(n(n+2)): 3d and main-group ions, orbital moment quenched.
   kJMultiplet,  // g_J √(J(J+1)) of the ground J level: 4f ions.
+  kVanVleck,    // A Van Vleck sum over the J multiplets at a temperature.
+  kKotani,      // Kotani's t2g moment with spin-orbit coupling (4d, 5d).
+  kTabulated,   // A measured value for the ion in its anion class.
 };
 
 template <>
@@ -123,7 +126,10 @@ struct EnumNames<IonMomentModel> {
   static constexpr absl::string_view kWhat = "ion moment model";
   static constexpr NamedValue<IonMomentModel> kNames[] = {
       {IonMomentModel::kSpinOnly, "spin_only"},
-      {IonMomentModel::kJMultiplet, "j_moment"}};
+      {IonMomentModel::kJMultiplet, "j_moment"},
+      {IonMomentModel::kVanVleck, "van_vleck"},
+      {IonMomentModel::kKotani, "kotani"},
+      {IonMomentModel::kTabulated, "tabulated"}};
 };
 
 // What an ion's expected moment range spans.
@@ -134,6 +140,8 @@ enum class RangeBasis {
   kSpinCrossover,        // Near a spin crossover: both spin states.
   kMeasured,             // From the model's value to the measured one.
   kSpinStates,           // A 4d or 5d ion: low spin to the free ion.
+  kSpinOrbit,            // A Kotani ion: its value at T to spin-only.
+  kEstimate,             // A cautioned estimate (actinides untabulated).
 };
 
 template <>
@@ -144,7 +152,9 @@ struct EnumNames<RangeBasis> {
       {RangeBasis::kOrbitalContribution, "orbital_contribution"},
       {RangeBasis::kSpinCrossover, "spin_crossover"},
       {RangeBasis::kMeasured, "measured"},
-      {RangeBasis::kSpinStates, "spin_states"}};
+      {RangeBasis::kSpinStates, "spin_states"},
+      {RangeBasis::kSpinOrbit, "spin_orbit"},
+      {RangeBasis::kEstimate, "estimate"}};
 };
 
 struct IonAnnotation {
