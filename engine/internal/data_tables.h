@@ -144,6 +144,19 @@ struct ReductionPotentialRow {
   const char* source;
 };
 
+// data/site_preferences.tsv
+struct SitePreferenceRow {
+  int atomic_number;  // 0 for a row keyed by d count.
+  int state;          // 0 for a row keyed by d count.
+  int d_electrons;    // The row's d count ("d8"), or -1 for an ion row.
+  bool low_spin;      // The value assumes the low-spin state.
+  double ospe;        // Octahedral site preference energy, kJ/mol.
+  // 't' strong tetrahedral, 'o' strong octahedral, 'w' weak octahedral,
+  // '-' none.
+  char preference;
+  const char* source;
+};
+
 absl::Span<const ElementRow> ElementRows();
 absl::Span<const ConfigurationExceptionRow> ConfigurationExceptionRows();
 absl::Span<const GroundLevelDepartureRow> GroundLevelDepartureRows();
@@ -158,6 +171,7 @@ absl::Span<const StatePreferenceRow> StatePreferenceRows();
 absl::Span<const MixedValencePairRow> MixedValencePairRows();
 absl::Span<const StateElectronegativityRow> StateElectronegativityRows();
 absl::Span<const ReductionPotentialRow> ReductionPotentialRows();
+absl::Span<const SitePreferenceRow> SitePreferenceRows();
 
 }  // namespace shellwright::internal
 

@@ -31,28 +31,28 @@ CommandResult RunWith(const std::string& table, const std::string& contents) {
         "measured_moments", "oxidation_states", "units",
         "spectrochemical_series", "spin_crossover", "chalcogenide_states",
         "state_preferences", "mixed_valence_pairs", "state_electronegativities",
-        "reduction_potentials"}) {
+        "reduction_potentials", "site_preferences"}) {
     paths[name] = SourcePath(std::string("data/") + name + ".tsv");
   }
   if (!table.empty()) {
     paths[table] = dir + "/" + table + ".tsv";
     std::ofstream(paths[table]) << contents;
   }
-  return RunCommand({BinPath("data/shellwright_compile_tables"),
-                     "--elements=" + paths["elements"],
-                     "--exceptions=" + paths["configuration_exceptions"],
-                     "--departures=" + paths["ground_level_departures"],
-                     "--moments=" + paths["measured_moments"],
-                     "--oxidation=" + paths["oxidation_states"],
-                     "--units=" + paths["units"],
-                     "--ligands=" + paths["spectrochemical_series"],
-                     "--crossover=" + paths["spin_crossover"],
-                     "--chalcogenide=" + paths["chalcogenide_states"],
-                     "--preferences=" + paths["state_preferences"],
-                     "--pairs=" + paths["mixed_valence_pairs"],
-                     "--state_en=" + paths["state_electronegativities"],
-                     "--potentials=" + paths["reduction_potentials"],
-                     "--out=" + dir + "/out.cc"});
+  return RunCommand(
+      {BinPath("data/shellwright_compile_tables"),
+       "--elements=" + paths["elements"],
+       "--exceptions=" + paths["configuration_exceptions"],
+       "--departures=" + paths["ground_level_departures"],
+       "--moments=" + paths["measured_moments"],
+       "--oxidation=" + paths["oxidation_states"], "--units=" + paths["units"],
+       "--ligands=" + paths["spectrochemical_series"],
+       "--crossover=" + paths["spin_crossover"],
+       "--chalcogenide=" + paths["chalcogenide_states"],
+       "--preferences=" + paths["state_preferences"],
+       "--pairs=" + paths["mixed_valence_pairs"],
+       "--state_en=" + paths["state_electronegativities"],
+       "--potentials=" + paths["reduction_potentials"],
+       "--sites=" + paths["site_preferences"], "--out=" + dir + "/out.cc"});
 }
 
 std::string RealTable(const std::string& name) {
@@ -156,6 +156,31 @@ TEST(CompileTables, ReductionPotentialCoupleMustGoDown) {
   EXPECT_EQ(r.exit_code, 1);
   EXPECT_THAT(r.err, HasSubstr("reduction_potentials.tsv:"));
   EXPECT_THAT(r.err, HasSubstr("reduced must be a positive state below"));
+}
+
+TEST(CompileTables, SitePreferenceNeedsAKnownPreference) {
+  std::string t = RealTable("site_preferences");
+  t += "Mg+2\t-\t0\tsquare\tinvented for this test\n";
+  CommandResult r = RunWith("site_preferences", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("site_preferences.tsv:"));
+  EXPECT_THAT(r.err, HasSubstr("column 'preference'"));
+}
+
+TEST(CompileTables, SitePreferenceDCountMustBeAtMostTen) {
+  std::string t = RealTable("site_preferences");
+  t += "d11\t-\t0\t-\tinvented for this test\n";
+  CommandResult r = RunWith("site_preferences", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("must be d0 to d10"));
+}
+
+TEST(CompileTables, DuplicateSitePreferenceIsRejected) {
+  std::string t = RealTable("site_preferences");
+  t += "Ni+2\t-\t86\t-\tinvented for this test\n";
+  CommandResult r = RunWith("site_preferences", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("duplicate ion 'Ni+2'"));
 }
 
 TEST(CompileTables, UnitStatesMustSumToItsCharge) {
