@@ -37,6 +37,11 @@ bool Small(const Rational& r) {
 
 Rational Min(const Rational& a, const Rational& b) { return b < a ? b : a; }
 
+// `v` to three decimals, without trailing zeros: "0.5", "16", "3.7".
+std::string Rounded(double v) {
+  return absl::StrCat(std::round(v * 1000) / 1000);
+}
+
 // Large cations: the A site of perovskites and hexaferrites and the c site
 // of garnets (8 to 12 oxygen neighbours). Alkali metals but Li, Ca, Sr,
 // Ba, Ra, Y, the lanthanides, Pb2+ and Bi3+ (common practice, no source:
@@ -94,12 +99,14 @@ Preference FromRow(const internal::SitePreferenceRow& row) {
   return p;
 }
 
-Preference LookupPreference(const Element& e, int state) {
+// The row of (e, state), else its d-count row, else none. Rows for spinels
+// only count when `spinel` is true.
+Preference LookupPreference(const Element& e, int state, bool spinel) {
   const absl::Span<const internal::SitePreferenceRow> rows =
       internal::SitePreferenceRows();
   for (const internal::SitePreferenceRow& row : rows) {
     if (row.d_electrons < 0 && row.atomic_number == e.atomic_number &&
-        row.state == state) {
+        row.state == state && (spinel || !row.spinel_only)) {
       return FromRow(row);
     }
   }
@@ -135,6 +142,7 @@ struct Ion {
   Rational count;
   Preference preference;
   int tie = 0;  // The family's tie-break rank: lower goes tetrahedral first.
+  size_t order = 0;  // Position in the assignment.
 };
 using Ions = absl::InlinedVector<Ion, 8>;
 
@@ -142,30 +150,52 @@ struct Shape {
   int anion_z = 0;
   Rational anions;
   Rational cations;
+  double ratio = 0;  // cations / anions, for the cheap first test.
 };
 
-// Cheap first test, no allocation: one anion element among O, F, S, Se,
-// every other element a metal, Si or Ge.
+// Cheap first test, no allocation and no rational arithmetic: one anion
+// element among O, F, S, Se, every other element a metal, Si or Ge.
 bool ReadShape(const Formula& formula, Shape* shape) {
+  const ElementAmount* anion = nullptr;
+  double cations = 0;
   for (const ElementAmount& amount : formula.amounts) {
     const int z = amount.element->atomic_number;
     if (z == kZOxygen || z == kZFluorine || z == kZSulfur || z == kZSelenium) {
-      if (shape->anion_z != 0) return false;
-      shape->anion_z = z;
-      shape->anions = amount.count;
+      if (anion != nullptr) return false;
+      anion = &amount;
     } else if (IsMetal(*amount.element) || z == kZSilicon ||
                z == kZGermanium) {
-      shape->cations = shape->cations + amount.count;
+      cations += amount.count.ToDouble();
     } else {
       return false;
     }
   }
-  return shape->anion_z != 0 && !shape->cations.IsZero();
+  if (anion == nullptr || cations == 0) return false;
+  shape->anion_z = anion->element->atomic_number;
+  shape->ratio = cations / anion->count.ToDouble();
+  return true;
+}
+
+// The exact counts, once the ratio is promising.
+void CountExactly(const Formula& formula, Shape* shape) {
+  shape->cations = Rational();
+  for (const ElementAmount& amount : formula.amounts) {
+    if (amount.element->atomic_number == shape->anion_z) {
+      shape->anions = amount.count;
+    } else {
+      shape->cations = shape->cations + amount.count;
+    }
+  }
 }
 
 // cations / anions == num / den.
 bool RatioIs(const Shape& s, int num, int den) {
   return s.cations * Rational(den) == s.anions * Rational(num);
+}
+
+// The same, in floating point, within rounding.
+bool RatioNear(const Shape& s, int num, int den) {
+  return std::abs(s.ratio - static_cast<double>(num) / den) < 1e-9;
 }
 
 struct FamilySpec {
@@ -189,13 +219,22 @@ std::string AnionText(const FamilySpec& spec) {
   return "O";
 }
 
-// The pattern test of `spec` on the shape. Fills `why` when not null.
+bool AnionFits(const FamilySpec& spec, const Shape& s) {
+  return s.anion_z == kZOxygen ||
+         (spec.chalcogenides &&
+          (s.anion_z == kZSulfur || s.anion_z == kZSelenium)) ||
+         (spec.fluorides && s.anion_z == kZFluorine);
+}
+
+// The cheap pattern test: the anion and the ratio in floating point.
+bool Candidate(const FamilySpec& spec, const Shape& s) {
+  return AnionFits(spec, s) && RatioNear(s, spec.cations, spec.anions);
+}
+
+// The exact pattern test of `spec` on the shape (after CountExactly).
+// Fills `why` when not null.
 bool ShapeFits(const FamilySpec& spec, const Shape& s, std::string* why) {
-  const bool anion_ok =
-      s.anion_z == kZOxygen ||
-      (spec.chalcogenides && (s.anion_z == kZSulfur || s.anion_z == kZSelenium)) ||
-      (spec.fluorides && s.anion_z == kZFluorine);
-  if (!anion_ok) {
+  if (!AnionFits(spec, s)) {
     if (why) {
       *why = absl::StrCat("needs ", AnionText(spec),
                           " as the only anion beside metal cations");
@@ -222,6 +261,7 @@ bool ReadIons(const OxidationAssignment& a, const FamilySpec& spec,
               const Shape& shape, Ions* ions, std::string* why) {
   const Rational scale = Rational(spec.anions) * Rational(shape.anions.den(),
                                                           shape.anions.num());
+  const bool unit_scale = scale == Rational(1);
   const int anion_state = shape.anion_z == kZFluorine ? -1 : -2;
   for (const AssignedState& s : a.states) {
     if (s.unit >= 0) {
@@ -247,7 +287,7 @@ bool ReadIons(const OxidationAssignment& a, const FamilySpec& spec,
       }
       return false;
     }
-    const Rational count = s.count * scale;
+    const Rational count = unit_scale ? s.count : s.count * scale;
     if (!Small(count) || count.den() > 1000) {
       if (why) *why = kTooFine;
       return false;
@@ -281,7 +321,7 @@ struct Pool {
 
 // The record's count of a family-unit count.
 Rational ToRecord(const Rational& count, const Rational& unscale) {
-  return count * unscale;
+  return unscale == Rational(1) ? count : count * unscale;
 }
 
 void AddOccupant(Site* site, const Ion& ion, const Rational& count) {
@@ -295,19 +335,24 @@ void AddOccupant(Site* site, const Ion& ion, const Rational& count) {
   site->occupants.push_back(SiteOccupant{ion.element, ion.state, count});
 }
 
-// Sorts `ions` least octahedral first (preference, then the tie rank) and
+// Sorts `ions` least octahedral first (preference, read for a spinel or
+// another family, then the tie rank) and
 // pours them into `pools` in order; ions that tie completely share a pool
 // in proportion to their counts. Counts on sites are the record's
 // (`unscale` = record formula units per family unit). False on overflow.
 bool Pour(Ions* ions, absl::Span<const Pool> pools, const Rational& unscale,
-          std::vector<Site>* sites) {
+          bool spinel, std::vector<Site>* sites) {
   for (Ion& ion : *ions) {
-    ion.preference = LookupPreference(*ion.element, ion.state);
+    ion.preference = LookupPreference(*ion.element, ion.state, spinel);
   }
-  std::stable_sort(ions->begin(), ions->end(), [](const Ion& a, const Ion& b) {
+  // Formula order breaks the remaining ties (std::sort, unlike
+  // std::stable_sort, allocates nothing).
+  for (size_t k = 0; k < ions->size(); ++k) (*ions)[k].order = k;
+  std::sort(ions->begin(), ions->end(), [](const Ion& a, const Ion& b) {
     const int c = ComparePreference(a.preference, b.preference);
     if (c != 0) return c < 0;
-    return a.tie < b.tie;
+    if (a.tie != b.tie) return a.tie < b.tie;
+    return a.order < b.order;
   });
   size_t pool = 0;
   Rational left = pools.empty() ? Rational() : pools[0].capacity;
@@ -346,23 +391,30 @@ bool Pour(Ions* ions, absl::Span<const Pool> pools, const Rational& unscale,
   return true;
 }
 
-std::string PreferenceText(const Ion& ion) {
+// Appends "Ni2+ 86 kJ/mol" or "Zn2+ strongly tetrahedral" to `out`.
+void AppendPreference(const Ion& ion, std::string* out) {
   const Preference& p = ion.preference;
-  std::string text = Species(ion);
-  if (p.low_spin) absl::StrAppend(&text, " (low spin)");
-  if (p.strong == 0) return absl::StrCat(text, " strongly tetrahedral");
-  if (p.strong == 2) return absl::StrCat(text, " strongly octahedral");
-  absl::StrAppend(&text, " ", absl::StrFormat("%g", p.ospe), " kJ/mol");
-  if (p.from_d_count) absl::StrAppend(&text, " (isoelectronic row)");
-  if (p.weak) absl::StrAppend(&text, ", weakly octahedral");
-  return text;
+  absl::StrAppend(out, FormatSpecies(ion.element->symbol, ion.state));
+  if (p.low_spin) absl::StrAppend(out, " (low spin)");
+  if (p.strong == 0) {
+    absl::StrAppend(out, " strongly tetrahedral");
+  } else if (p.strong == 2) {
+    absl::StrAppend(out, " strongly octahedral");
+  } else {
+    absl::StrAppend(out, " ", p.ospe, " kJ/mol");
+    if (p.from_d_count) absl::StrAppend(out, " (isoelectronic row)");
+    if (p.weak) absl::StrAppend(out, ", weakly octahedral");
+  }
 }
 
 // "Fe3+ 0 kJ/mol, Ni2+ 86 kJ/mol": the ions in the order they were placed.
 std::string OrderText(const Ions& ions) {
-  std::vector<std::string> parts;
-  for (const Ion& ion : ions) parts.push_back(PreferenceText(ion));
-  return absl::StrJoin(parts, ", ");
+  std::string text;
+  for (const Ion& ion : ions) {
+    if (!text.empty()) text += ", ";
+    AppendPreference(ion, &text);
+  }
+  return text;
 }
 
 constexpr absl::string_view kPreferenceSource =
@@ -407,7 +459,7 @@ std::optional<SitePlacement> PlaceSpinel(Ions ions, const Rational& unscale,
   p.sites.push_back(MakeSite("B (octahedral)", Geometry::kOctahedral, +1));
   const Pool pools[] = {{Rational(1), {{0, Rational(1)}}},
                         {Rational(2), {{1, Rational(1)}}}};
-  if (!Pour(&ions, pools, unscale, &p.sites)) {
+  if (!Pour(&ions, pools, unscale, /*spinel=*/true, &p.sites)) {
     if (why) *why = kTooFine;
     return std::nullopt;
   }
@@ -423,7 +475,7 @@ std::optional<SitePlacement> PlaceSpinel(Ions ions, const Rational& unscale,
                      : *p.inversion == 1 ? "inverse"
                                          : "partly inverse";
   p.note = absl::StrCat(
-      kind, " spinel (inversion ", absl::StrFormat("%.3g", *p.inversion),
+      kind, " spinel (inversion ", Rounded(*p.inversion),
       ", the fraction of the tetrahedral site not held by the ", a_type,
       "+ ions): the tetrahedral A site takes the ions of least octahedral "
       "preference, in order ",
@@ -486,7 +538,7 @@ std::optional<SitePlacement> PlaceGarnet(Ions ions, const Rational& unscale,
   }
   const Pool pools[] = {{Rational(3), {{2, Rational(1)}}},
                         {Rational(2), {{1, Rational(1)}}}};
-  if (!Pour(&rest, pools, unscale, &p.sites)) {
+  if (!Pour(&rest, pools, unscale, /*spinel=*/false, &p.sites)) {
     if (why) *why = kTooFine;
     return std::nullopt;
   }
@@ -538,7 +590,7 @@ std::optional<SitePlacement> PlaceHexaferrite(Ions ions,
       {Rational(2), {{2, Rational(1)}}},
       {Rational(1), {{5, Rational(1)}}},
       {Rational(9), {{1, Rational(6, 9)}, {3, Rational(2, 9)}, {4, Rational(1, 9)}}}};
-  if (!Pour(&rest, pools, unscale, &p.sites)) {
+  if (!Pour(&rest, pools, unscale, /*spinel=*/false, &p.sites)) {
     if (why) *why = kTooFine;
     return std::nullopt;
   }
@@ -648,6 +700,7 @@ std::optional<SitePlacement> PlaceIons(const Formula& formula,
       why = absl::StrCat("needs ", AnionText(*spec),
                          " as the only anion beside metal cations");
     } else {
+      CountExactly(formula, &shape);
       p = TryFamily(*spec, shape, a, &why);
     }
     if (!p.has_value() && why_not != nullptr) {
@@ -658,8 +711,14 @@ std::optional<SitePlacement> PlaceIons(const Formula& formula,
   // kAuto: the ratio picks at most two candidate families; nothing is
   // allocated before one matches.
   if (!shape_ok) return std::nullopt;
+  bool counted = false;
   for (const FamilySpec* spec :
-       {&kSpinel, &kHexaferrite, &kGarnet, &kPerovskite}) {
+       {&kSpinel, &kPerovskite, &kHexaferrite, &kGarnet}) {
+    if (!Candidate(*spec, shape)) continue;
+    if (!counted) {
+      CountExactly(formula, &shape);
+      counted = true;
+    }
     if (std::optional<SitePlacement> p = TryFamily(*spec, shape, a, nullptr)) {
       return p;
     }
@@ -677,7 +736,7 @@ namespace {
 
 constexpr double kNoMoment = 1e-9;
 
-std::string Mu(double v) { return absl::StrFormat("%.3g", v); }
+std::string Mu(double v) { return Rounded(v); }
 
 // Σ count × moment of site `s`, from `m` at `*next`.
 double SiteMoment(const Site& s, absl::Span<const double> m, size_t* next) {

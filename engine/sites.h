@@ -119,8 +119,9 @@ struct Site {
   // bipyramidal) and the perovskite A site (12-coordinate) kFree.
   Geometry geometry;
   // +1 or -1 in Néel's collinear model; 0: not part of the ordered
-  // magnetic structure (garnet c ions follow the net iron moment, see
-  // NeelSaturation; perovskite A ions are left out).
+  // magnetic structure (the A sites of hexaferrites and perovskites). The
+  // garnet c site is -1, antiparallel to d; NeelSaturation turns it
+  // against the net iron moment whichever of a and d wins.
   int direction;
   std::vector<SiteOccupant> occupants;  // Least octahedral first.
 };

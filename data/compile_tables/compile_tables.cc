@@ -565,7 +565,8 @@ int main(int argc, char** argv) {
 
   // --- site_preferences.tsv -------------------------------------------------
   const Table sites = ReadTable(
-      args.at("sites"), {"ion", "spin", "ospe", "preference", "source"});
+      args.at("sites"),
+      {"ion", "spin", "ospe", "families", "preference", "source"});
   out << "constexpr SitePreferenceRow kSitePreferences[] = {\n";
   std::set<std::string> site_keys;
   for (const Row& r : sites.rows) {
@@ -591,20 +592,24 @@ int main(int argc, char** argv) {
       Fail(sites.path, r.line, "column 'spin': expected high, low or -");
     }
     const double ospe = ParseDecimal(sites, r, 2, r.fields[2], 0, 400);
+    if (r.fields[3] != "all" && r.fields[3] != "spinel") {
+      Fail(sites.path, r.line, "column 'families': expected all or spinel");
+    }
     static const std::map<std::string, char> kPreferences = {
         {"tetrahedral", 't'},
         {"octahedral", 'o'},
         {"weak_octahedral", 'w'},
         {"-", '-'}};
-    const auto preference = kPreferences.find(r.fields[3]);
+    const auto preference = kPreferences.find(r.fields[4]);
     if (preference == kPreferences.end()) {
       Fail(sites.path, r.line,
            "column 'preference': expected tetrahedral, octahedral, "
            "weak_octahedral or -");
     }
     out << "    {" << z << ", " << state << ", " << d << ", "
-        << (spin == "low" ? "true" : "false") << ", " << Double(ospe) << ", '"
-        << preference->second << "', " << Literal(r.fields[4]) << "},\n";
+        << (spin == "low" ? "true" : "false") << ", " << Double(ospe) << ", "
+        << (r.fields[3] == "spinel" ? "true" : "false") << ", '"
+        << preference->second << "', " << Literal(r.fields[5]) << "},\n";
   }
   out << "};\n\n";
 

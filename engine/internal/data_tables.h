@@ -151,6 +151,7 @@ struct SitePreferenceRow {
   int d_electrons;    // The row's d count ("d8"), or -1 for an ion row.
   bool low_spin;      // The value assumes the low-spin state.
   double ospe;        // Octahedral site preference energy, kJ/mol.
+  bool spinel_only;   // An effective value for spinels only.
   // 't' strong tetrahedral, 'o' strong octahedral, 'w' weak octahedral,
   // '-' none.
   char preference;

@@ -160,7 +160,7 @@ TEST(CompileTables, ReductionPotentialCoupleMustGoDown) {
 
 TEST(CompileTables, SitePreferenceNeedsAKnownPreference) {
   std::string t = RealTable("site_preferences");
-  t += "Mg+2\t-\t0\tsquare\tinvented for this test\n";
+  t += "Ba+2\t-\t0\tall\tsquare\tinvented for this test\n";
   CommandResult r = RunWith("site_preferences", t);
   EXPECT_EQ(r.exit_code, 1);
   EXPECT_THAT(r.err, HasSubstr("site_preferences.tsv:"));
@@ -169,7 +169,7 @@ TEST(CompileTables, SitePreferenceNeedsAKnownPreference) {
 
 TEST(CompileTables, SitePreferenceDCountMustBeAtMostTen) {
   std::string t = RealTable("site_preferences");
-  t += "d11\t-\t0\t-\tinvented for this test\n";
+  t += "d11\t-\t0\tall\t-\tinvented for this test\n";
   CommandResult r = RunWith("site_preferences", t);
   EXPECT_EQ(r.exit_code, 1);
   EXPECT_THAT(r.err, HasSubstr("must be d0 to d10"));
@@ -177,7 +177,7 @@ TEST(CompileTables, SitePreferenceDCountMustBeAtMostTen) {
 
 TEST(CompileTables, DuplicateSitePreferenceIsRejected) {
   std::string t = RealTable("site_preferences");
-  t += "Ni+2\t-\t86\t-\tinvented for this test\n";
+  t += "Ni+2\t-\t86\tall\t-\tinvented for this test\n";
   CommandResult r = RunWith("site_preferences", t);
   EXPECT_EQ(r.exit_code, 1);
   EXPECT_THAT(r.err, HasSubstr("duplicate ion 'Ni+2'"));

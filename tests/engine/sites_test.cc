@@ -238,6 +238,7 @@ TEST(Sites, NormalSpinels) {
                              "FeCr2S4", "CdCr2Se4"}) {
     EXPECT_EQ(Inversion(normal), 0.0) << normal;
   }
+  EXPECT_EQ(SiteOf("MgAl2O4", 0), "Mg+2:1");
   EXPECT_EQ(SiteOf("ZnFe2O4", 0), "Zn+2:1");
   EXPECT_EQ(SiteOf("Co3O4", 0), "Co+2:1");
   EXPECT_EQ(SiteOf("Co3O4", 1), "Co+3:2");
@@ -278,12 +279,25 @@ TEST(Sites, GreigiteIsInverseLikeMagnetite) {
   EXPECT_EQ(Inversion("Fe3S4"), 1.0);
 }
 
-TEST(Sites, KnownMissMagnesiumFerrite) {
-  // MgFe2O4 is about 90% inverse (Smit and Wijn, Ferrites, from memory);
-  // Mg2+ and Fe3+ both have no ligand-field preference and the tie keeps
-  // the normal distribution. Documented in docs/method.md; this test pins
-  // the miss so that a fix shows up here.
-  EXPECT_EQ(Inversion("MgFe2O4"), 0.0);
+TEST(Sites, MagnesiumSpinels) {
+  // MgFe2O4 is about 90% inverse (Smit and Wijn, Ferrites, from memory),
+  // MgIn2O4 and MgGa2O4 inverse, MgAl2O4 and MgCr2O4 normal (Greenwood and
+  // Earnshaw, 2nd ed., from memory): Mg2+ yields the tetrahedral site to
+  // ions without a ligand-field preference, but not to Al3+ or Cr3+.
+  EXPECT_EQ(Inversion("MgFe2O4"), 1.0);
+  EXPECT_EQ(Inversion("MgIn2O4"), 1.0);
+  EXPECT_EQ(Inversion("MgGa2O4"), 1.0);
+  EXPECT_EQ(Inversion("MgCr2O4"), 0.0);
+}
+
+TEST(Sites, AluminateSpinels) {
+  // Hercynite FeAl2O4 and cobalt blue CoAl2O4 are mostly normal, NiAl2O4
+  // largely inverse (Navrotsky and Kleppa, J. Inorg. Nucl. Chem. 29 (1967)
+  // 2701, from memory).
+  EXPECT_EQ(Inversion("FeAl2O4"), 0.0);
+  EXPECT_EQ(Inversion("CoAl2O4"), 0.0);
+  EXPECT_EQ(Inversion("ZnAl2O4"), 0.0);
+  EXPECT_EQ(SiteOf("CoAl2O4", 0), "Co+2:1");
 }
 
 TEST(Sites, CountsFollowTheRecordsFormulaUnit) {
@@ -308,8 +322,12 @@ TEST(Sites, GarnetSites) {
   EXPECT_EQ(SiteOf("Y3Fe5O12", 0), "Y+3:3");
   EXPECT_EQ(SiteOf("Y3Fe5O12", 1), "Fe+3:2");
   EXPECT_EQ(SiteOf("Y3Fe5O12", 2), "Fe+3:3");
-  // Ga3+ prefers the tetrahedral d site (same source).
+  // Ga3+ and Al3+ prefer the tetrahedral d site (same source).
   EXPECT_EQ(SiteOf("Y3Fe4GaO12", 2), "Ga+3:1 Fe+3:2");
+  EXPECT_EQ(SiteOf("Y3Fe4AlO12", 2), "Al+3:1 Fe+3:2");
+  // Andradite Ca3Fe2Si3O12: Si on d, Fe3+ on a (same source).
+  EXPECT_EQ(SiteOf("Ca3Fe2Si3O12", 1), "Fe+3:2");
+  EXPECT_EQ(SiteOf("Ca3Fe2Si3O12", 2), "Si+4:3");
 }
 
 TEST(Sites, HexaferriteSites) {
