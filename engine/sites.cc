@@ -163,8 +163,7 @@ bool ReadShape(const Formula& formula, Shape* shape) {
     if (z == kZOxygen || z == kZFluorine || z == kZSulfur || z == kZSelenium) {
       if (anion != nullptr) return false;
       anion = &amount;
-    } else if (IsMetal(*amount.element) || z == kZSilicon ||
-               z == kZGermanium) {
+    } else if (IsMetal(*amount.element) || z == kZSilicon || z == kZGermanium) {
       cations += amount.count.ToDouble();
     } else {
       return false;
@@ -259,8 +258,8 @@ constexpr char kTooFine[] = "the counts are too finely divided";
 // anion is not in its usual state or the counts are too finely divided.
 bool ReadIons(const OxidationAssignment& a, const FamilySpec& spec,
               const Shape& shape, Ions* ions, std::string* why) {
-  const Rational scale = Rational(spec.anions) * Rational(shape.anions.den(),
-                                                          shape.anions.num());
+  const Rational scale =
+      Rational(spec.anions) * Rational(shape.anions.den(), shape.anions.num());
   const bool unit_scale = scale == Rational(1);
   const int anion_state = shape.anion_z == kZFluorine ? -1 : -2;
   for (const AssignedState& s : a.states) {
@@ -271,10 +270,9 @@ bool ReadIons(const OxidationAssignment& a, const FamilySpec& spec,
     if (s.element->atomic_number == shape.anion_z) {
       if (s.state != anion_state) {
         if (why) {
-          *why = absl::StrCat("the anion is ",
-                              FormatSpecies(s.element->symbol, s.state),
-                              ", not ",
-                              FormatSpecies(s.element->symbol, anion_state));
+          *why = absl::StrCat(
+              "the anion is ", FormatSpecies(s.element->symbol, s.state),
+              ", not ", FormatSpecies(s.element->symbol, anion_state));
         }
         return false;
       }
@@ -362,8 +360,8 @@ bool Pour(Ions* ions, absl::Span<const Pool> pools, const Rational& unscale,
     size_t end = i + 1;
     Rational group = (*ions)[i].count;
     while (end < ions->size() &&
-           ComparePreference((*ions)[i].preference,
-                             (*ions)[end].preference) == 0 &&
+           ComparePreference((*ions)[i].preference, (*ions)[end].preference) ==
+               0 &&
            (*ions)[i].tie == (*ions)[end].tie) {
       group = group + (*ions)[end].count;
       ++end;
@@ -432,7 +430,8 @@ std::optional<SitePlacement> PlaceSpinel(Ions ions, const Rational& unscale,
                                          std::string* why) {
   for (const Ion& ion : ions) {
     if (!IsSmallCation(*ion.element, ion.state)) {
-      if (why) *why = absl::StrCat(Species(ion), " is too large for a spinel site");
+      if (why)
+        *why = absl::StrCat(Species(ion), " is too large for a spinel site");
       return std::nullopt;
     }
   }
@@ -516,8 +515,7 @@ std::optional<SitePlacement> PlaceGarnet(Ions ions, const Rational& unscale,
   }
   SitePlacement p;
   p.family = StructureFamily::kGarnet;
-  p.sites.push_back(
-      MakeSite("c (dodecahedral)", Geometry::kTetrahedral, -1));
+  p.sites.push_back(MakeSite("c (dodecahedral)", Geometry::kTetrahedral, -1));
   p.sites.push_back(MakeSite("a (octahedral)", Geometry::kOctahedral, -1));
   p.sites.push_back(MakeSite("d (tetrahedral)", Geometry::kTetrahedral, +1));
   Ions rest;
@@ -529,7 +527,8 @@ std::optional<SitePlacement> PlaceGarnet(Ions ions, const Rational& unscale,
       continue;
     }
     if (!IsSmallCation(*ion.element, ion.state)) {
-      if (why) *why = absl::StrCat(Species(ion), " fits neither garnet a nor d site");
+      if (why)
+        *why = absl::StrCat(Species(ion), " fits neither garnet a nor d site");
       return std::nullopt;
     }
     rest.push_back(ion);
@@ -570,8 +569,7 @@ std::optional<SitePlacement> PlaceHexaferrite(Ions ions,
   p.sites.push_back(MakeSite("4f1 (tetrahedral)", Geometry::kTetrahedral, -1));
   p.sites.push_back(MakeSite("4f2 (octahedral)", Geometry::kOctahedral, -1));
   p.sites.push_back(MakeSite("2a (octahedral)", Geometry::kOctahedral, +1));
-  p.sites.push_back(
-      MakeSite("2b (trigonal bipyramidal)", Geometry::kFree, +1));
+  p.sites.push_back(MakeSite("2b (trigonal bipyramidal)", Geometry::kFree, +1));
   Ions rest;
   for (const Ion& ion : ions) {
     if (IsLargeCation(*ion.element, ion.state)) {
@@ -589,7 +587,8 @@ std::optional<SitePlacement> PlaceHexaferrite(Ions ions,
   const Pool pools[] = {
       {Rational(2), {{2, Rational(1)}}},
       {Rational(1), {{5, Rational(1)}}},
-      {Rational(9), {{1, Rational(6, 9)}, {3, Rational(2, 9)}, {4, Rational(1, 9)}}}};
+      {Rational(9),
+       {{1, Rational(6, 9)}, {3, Rational(2, 9)}, {4, Rational(1, 9)}}}};
   if (!Pour(&rest, pools, unscale, /*spinel=*/false, &p.sites)) {
     if (why) *why = kTooFine;
     return std::nullopt;
@@ -809,8 +808,8 @@ SublatticeMoment Garnet(const SitePlacement& p,
   const double iron = d - a;
   r.saturation = std::abs(std::abs(iron) - c);
   r.note = absl::StrCat(
-      "Néel collinear model: d ", Mu(d), " μB against a ", Mu(a),
-      " μB, net ", Mu(std::abs(iron)), " μB; the c ions (", Mu(c),
+      "Néel collinear model: d ", Mu(d), " μB against a ", Mu(a), " μB, net ",
+      Mu(std::abs(iron)), " μB; the c ions (", Mu(c),
       " μB) align antiparallel to it: |", Mu(std::abs(iron)), " − ", Mu(c),
       "| = ", Mu(r.saturation),
       " μB per formula unit at 0 K (Néel 1948; Pauthenet 1958 for the rare-"

@@ -65,7 +65,13 @@
 
 namespace shellwright {
 
-enum class StructureFamily { kNone, kSpinel, kGarnet, kHexaferrite, kPerovskite };
+enum class StructureFamily {
+  kNone,
+  kSpinel,
+  kGarnet,
+  kHexaferrite,
+  kPerovskite
+};
 
 // A record's setting: recognise any family (kAuto), none (kOff), or read
 // the composition as one family only.

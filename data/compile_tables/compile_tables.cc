@@ -564,9 +564,9 @@ int main(int argc, char** argv) {
   out << "};\n\n";
 
   // --- site_preferences.tsv -------------------------------------------------
-  const Table sites = ReadTable(
-      args.at("sites"),
-      {"ion", "spin", "ospe", "families", "preference", "source"});
+  const Table sites =
+      ReadTable(args.at("sites"),
+                {"ion", "spin", "ospe", "families", "preference", "source"});
   out << "constexpr SitePreferenceRow kSitePreferences[] = {\n";
   std::set<std::string> site_keys;
   for (const Row& r : sites.rows) {

@@ -239,15 +239,14 @@ void BM_PlaceIonsDistinctFormula(benchmark::State& state) {
     absl::StatusOr<OxidationResult> r =
         AssignOxidationStates(*f, OxidationOptions());
     if (!r.ok() || !r->best.has_value()) continue;
-    const bool miss =
-        !PlaceIons(*f, *r->best, FamilyChoice::kAuto).has_value();
+    const bool miss = !PlaceIons(*f, *r->best, FamilyChoice::kAuto).has_value();
     if (state.range(0) == 1 && !miss) continue;
     inputs.push_back({*std::move(f), *std::move(r->best)});
   }
   size_t i = 0;
   for (auto _ : state) {
-    auto p = PlaceIons(inputs[i].formula, inputs[i].assignment,
-                       FamilyChoice::kAuto);
+    auto p =
+        PlaceIons(inputs[i].formula, inputs[i].assignment, FamilyChoice::kAuto);
     benchmark::DoNotOptimize(p);
     if (++i == inputs.size()) i = 0;
   }

@@ -130,7 +130,8 @@ TEST(Sites, FamilyNamesRoundTrip) {
   EXPECT_EQ(Name(StructureFamily::kNone), "none");
   EXPECT_EQ(*ParseName<FamilyChoice>("none"), FamilyChoice::kOff);
   EXPECT_EQ(*ParseName<FamilyChoice>("off"), FamilyChoice::kOff);
-  EXPECT_EQ(*ParseName<FamilyChoice>("hexaferrite"), FamilyChoice::kHexaferrite);
+  EXPECT_EQ(*ParseName<FamilyChoice>("hexaferrite"),
+            FamilyChoice::kHexaferrite);
   EXPECT_FALSE(ParseName<FamilyChoice>("olivine").ok());
   for (FamilyChoice c :
        {FamilyChoice::kAuto, FamilyChoice::kOff, FamilyChoice::kSpinel,
@@ -163,8 +164,7 @@ TEST(Sites, RecognisesTheFamilies) {
   for (const char* perovskite :
        {"LaFeO3", "LaMnO3", "La0.7Sr0.3MnO3", "KNiF3", "SrTiO3", "BiFeO3",
         "PbTiO3", "YFeO3", "CaMnO3", "BaTiO3"}) {
-    EXPECT_EQ(FamilyOf(perovskite), StructureFamily::kPerovskite)
-        << perovskite;
+    EXPECT_EQ(FamilyOf(perovskite), StructureFamily::kPerovskite) << perovskite;
   }
 }
 
@@ -211,7 +211,8 @@ TEST(Sites, OffTurnsRecognitionOff) {
   EXPECT_TRUE(p.why_not.empty());
 }
 
-// --- spinel distributions -------------------------------------------------------
+// --- spinel distributions
+// -------------------------------------------------------
 
 TEST(Sites, InverseSpinels) {
   // Smit and Wijn, Ferrites (1959), and Greenwood and Earnshaw, 2nd ed.
@@ -233,9 +234,9 @@ TEST(Sites, NormalSpinels) {
   // Greenwood and Earnshaw, 2nd ed., and Smit and Wijn, Ferrites (from
   // memory): Zn ferrite, Co3O4, the chromites and spinel itself are
   // normal; MnFe2O4 is about 80% normal.
-  for (const char* normal : {"ZnFe2O4", "Co3O4", "MnFe2O4", "NiCr2O4",
-                             "FeCr2O4", "MgAl2O4", "ZnCr2O4", "Mn3O4",
-                             "FeCr2S4", "CdCr2Se4"}) {
+  for (const char* normal :
+       {"ZnFe2O4", "Co3O4", "MnFe2O4", "NiCr2O4", "FeCr2O4", "MgAl2O4",
+        "ZnCr2O4", "Mn3O4", "FeCr2S4", "CdCr2Se4"}) {
     EXPECT_EQ(Inversion(normal), 0.0) << normal;
   }
   EXPECT_EQ(SiteOf("MgAl2O4", 0), "Mg+2:1");
@@ -315,7 +316,8 @@ TEST(Sites, SpinelNoteNamesTheReasoning) {
   EXPECT_THAT(p->note, HasSubstr("McClure 1957"));
 }
 
-// --- garnets, hexaferrites, perovskites --------------------------------------------
+// --- garnets, hexaferrites, perovskites
+// --------------------------------------------
 
 TEST(Sites, GarnetSites) {
   // {Y3}[Fe2](Fe3)O12 (Geller, Z. Kristallogr. 125 (1967) 1, from memory).
@@ -353,17 +355,18 @@ TEST(Sites, PerovskiteSites) {
   EXPECT_EQ(SiteOf("KNiF3", 1), "Ni+2:1");
 }
 
-// --- saturation moments ----------------------------------------------------------
+// --- saturation moments
+// ----------------------------------------------------------
 
 TEST(Sites, SpinelFerriteMoments) {
   // Saturation moments at 0 K, μB per formula unit (Smit and Wijn,
   // Ferrites, 1959, and Kittel, Introduction to Solid State Physics,
   // ferrimagnetism table; from memory). Tolerances: see the file comment.
-  EXPECT_NEAR(Moment("Fe3O4"), 4.1, 0.3);      // measured 4.1
-  EXPECT_NEAR(Moment("NiFe2O4"), 2.3, 0.35);   // measured 2.3, Ni2+ orbital
-  EXPECT_NEAR(Moment("CoFe2O4"), 3.7, 0.75);   // measured 3.7, Co2+ orbital
-  EXPECT_NEAR(Moment("MnFe2O4"), 4.6, 0.5);    // measured 4.6, 20% inverse
-  EXPECT_NEAR(Moment("CuFe2O4"), 1.3, 0.35);   // measured 1.3
+  EXPECT_NEAR(Moment("Fe3O4"), 4.1, 0.3);         // measured 4.1
+  EXPECT_NEAR(Moment("NiFe2O4"), 2.3, 0.35);      // measured 2.3, Ni2+ orbital
+  EXPECT_NEAR(Moment("CoFe2O4"), 3.7, 0.75);      // measured 3.7, Co2+ orbital
+  EXPECT_NEAR(Moment("MnFe2O4"), 4.6, 0.5);       // measured 4.6, 20% inverse
+  EXPECT_NEAR(Moment("CuFe2O4"), 1.3, 0.35);      // measured 1.3
   EXPECT_NEAR(Moment("Li0.5Fe2.5O4"), 2.6, 0.2);  // measured 2.6
 }
 
