@@ -691,12 +691,14 @@ std::optional<SitePlacement> PlaceIons(const Formula& formula,
   if (why_not != nullptr) why_not->clear();
   if (choice == FamilyChoice::kOff) return std::nullopt;
   Shape shape;
-  const bool shape_ok = ReadShape(formula, &shape);
+  // A charged formula (an ion) is no crystal of a family.
+  const bool shape_ok =
+      formula.charge.value_or(0) == 0 && ReadShape(formula, &shape);
   if (const FamilySpec* spec = SpecOf(choice)) {
     std::string why;
     std::optional<SitePlacement> p;
     if (!shape_ok) {
-      why = absl::StrCat("needs ", AnionText(*spec),
+      why = absl::StrCat("needs a neutral formula with ", AnionText(*spec),
                          " as the only anion beside metal cations");
     } else {
       CountExactly(formula, &shape);
@@ -787,9 +789,18 @@ SublatticeMoment TwoSided(const SitePlacement& p,
   return r;
 }
 
+// True for a lanthanide ion whose 4f shell is less than half full (Ce3+ to
+// Sm3+): J = L − S, so its moment points against its spin.
+bool IsLightLanthanide(const Element& e, int state) {
+  const int z = e.atomic_number;
+  const int f = z - 54 - state;  // 4f electrons beyond the Xe core.
+  return z >= 57 && z <= 71 && f > 0 && f < 7;
+}
+
 SublatticeMoment Garnet(const SitePlacement& p,
                         absl::Span<const double> moments) {
   size_t next = 0;
+  const size_t first_c = 0;  // c is the first site.
   const double c = SiteMoment(p.sites[0], moments, &next);
   const double a = SiteMoment(p.sites[1], moments, &next);
   const double d = SiteMoment(p.sites[2], moments, &next);
@@ -805,15 +816,31 @@ SublatticeMoment Garnet(const SitePlacement& p,
         "Ferrites, 1959, from memory)");
     return r;
   }
-  const double iron = d - a;
-  r.saturation = std::abs(std::abs(iron) - c);
+  // The c ions' spins couple antiparallel to the net iron spin; a heavy
+  // rare earth's moment follows its spin, a light one's (J = L − S) points
+  // against it, along the iron moment.
+  const double iron = std::abs(d - a);
+  double against = 0, along = 0;
+  for (size_t i = 0; i < p.sites[0].occupants.size(); ++i) {
+    const SiteOccupant& o = p.sites[0].occupants[i];
+    const double m = o.count.ToDouble() * moments[first_c + i];
+    if (IsLightLanthanide(*o.element, o.state)) {
+      along += m;
+    } else {
+      against += m;
+    }
+  }
+  r.saturation = std::abs(iron + along - against);
   r.note = absl::StrCat(
       "Néel collinear model: d ", Mu(d), " μB against a ", Mu(a), " μB, net ",
-      Mu(std::abs(iron)), " μB; the c ions (", Mu(c),
-      " μB) align antiparallel to it: |", Mu(std::abs(iron)), " − ", Mu(c),
-      "| = ", Mu(r.saturation),
-      " μB per formula unit at 0 K (Néel 1948; Pauthenet 1958 for the rare-"
-      "earth garnets, from memory)");
+      Mu(iron), " μB; the c ions' spins align antiparallel to it, so that ",
+      Mu(against), " μB (heavy rare earths and others) point against it",
+      along > 0 ? absl::StrCat(" and ", Mu(along),
+                               " μB (light rare earths, J = L − S) along it")
+                : "",
+      ": ", Mu(r.saturation),
+      " μB per formula unit at 0 K (Néel 1948; Pauthenet 1958 for the "
+      "rare-earth garnets, from memory)");
   return r;
 }
 

@@ -182,8 +182,10 @@ struct SublatticeMoment {
 //     site of one direction carries no moment, the other side orders
 //     antiferromagnetically within itself: 0 (ZnFe2O4, Co3O4);
 //   - garnet: iron-site net M_Fe = Σ d − Σ a; 0 when a or d carries no
-//     moment; the c ions align antiparallel to M_Fe: | |M_Fe| − Σ c |
-//     (Gd3Fe5O12: |5 − 21| = 16 at 0 K);
+//     moment; the c ions' spins align antiparallel to M_Fe, so that heavy
+//     rare earths (4f7 and beyond) and other c ions count against it and
+//     light ones (Ce3+ to Sm3+, J = L − S) along it:
+//     | |M_Fe| + Σ light − Σ others | (Gd3Fe5O12: |5 − 21| = 16 at 0 K);
 //   - perovskite: A ions left out; a B site of one magnetic element in one
 //     state orders antiferromagnetically (Goodenough–Kanamori): 0; one
 //     element in two states orders ferromagnetically by double exchange:

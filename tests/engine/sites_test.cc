@@ -197,12 +197,26 @@ TEST(Sites, ForcedFamilyThatDoesNotFitSaysWhy) {
   EXPECT_FALSE(garnet.placement.has_value());
   EXPECT_THAT(garnet.why_not, HasSubstr("garnet: needs 3 large cations"));
   const Placed chloride = Place("FeCl3", FamilyChoice::kPerovskite);
-  EXPECT_THAT(chloride.why_not, HasSubstr("perovskite: needs O or F"));
+  EXPECT_THAT(chloride.why_not,
+              HasSubstr("perovskite: needs a neutral formula with O or F"));
   // A forced family that fits is the same as auto.
   const Placed forced = Place("Fe3O4", FamilyChoice::kSpinel);
   ASSERT_TRUE(forced.placement.has_value());
   EXPECT_EQ(forced.placement->family, StructureFamily::kSpinel);
   EXPECT_TRUE(forced.why_not.empty());
+}
+
+TEST(Sites, ChargedFormulaHasNoFamily) {
+  absl::StatusOr<Formula> f = ParseFormula("[Fe3O4]+");
+  ASSERT_TRUE(f.ok()) << f.status();
+  OxidationOptions options;
+  options.net_charge = 1;
+  absl::StatusOr<OxidationResult> r = AssignOxidationStates(*f, options);
+  ASSERT_TRUE(r.ok() && r->best.has_value());
+  std::string why;
+  EXPECT_FALSE(
+      PlaceIons(*f, *r->best, FamilyChoice::kSpinel, &why).has_value());
+  EXPECT_THAT(why, HasSubstr("neutral formula"));
 }
 
 TEST(Sites, OffTurnsRecognitionOff) {
@@ -389,6 +403,12 @@ TEST(Sites, GarnetMoments) {
   // Phys. 3 (1958) 424; Kittel, ferrimagnetism; from memory).
   EXPECT_NEAR(Moment("Y3Fe5O12"), 5.0, 0.1);
   EXPECT_NEAR(Moment("Gd3Fe5O12"), 16.0, 0.5);
+  // Light rare earths (J = L − S) point their moment along the iron
+  // moment, since their spin, coupled antiparallel, is opposite to their
+  // moment (the same rule makes light rare-earth–iron magnets
+  // ferromagnetic: Herbst, Rev. Mod. Phys. 63 (1991) 819, from memory).
+  // Sm3+ g_J J = 5/7: 5 + 3 x 5/7 (model arithmetic).
+  EXPECT_NEAR(Moment("Sm3Fe5O12"), 5.0 + 15.0 / 7, 1e-9);
   // Gadolinium gallium garnet has no ordered iron: paramagnet, 0.
   EXPECT_EQ(Moment("Gd3Ga5O12"), 0);
   // Ga on d lowers the moment: Néel model arithmetic, 2 x 5 - 2 x 5 = 0.
