@@ -831,12 +831,25 @@ SublatticeMoment Garnet(const SitePlacement& p,
     }
   }
   r.saturation = std::abs(iron + along - against);
+  const std::string fe =
+      absl::StrCat("Néel collinear model: d ", Mu(d), " μB against a ", Mu(a),
+                   " μB, net ", Mu(iron), " μB");
+  if (against + along < kNoMoment) {
+    r.note =
+        absl::StrCat(fe, "; the c ions carry no moment: ", Mu(r.saturation),
+                     " μB per formula unit at 0 K");
+    return r;
+  }
   r.note = absl::StrCat(
-      "Néel collinear model: d ", Mu(d), " μB against a ", Mu(a), " μB, net ",
-      Mu(iron), " μB; the c ions' spins align antiparallel to it, so that ",
-      Mu(against), " μB (heavy rare earths and others) point against it",
-      along > 0 ? absl::StrCat(" and ", Mu(along),
-                               " μB (light rare earths, J = L − S) along it")
+      fe, "; the c ions' spins align antiparallel to it, so that ",
+      against > 0 ? absl::StrCat(Mu(against),
+                                 " μB (heavy rare earths and others) point "
+                                 "against it")
+                  : "",
+      against > 0 && along > 0 ? " and " : "",
+      along > 0 ? absl::StrCat(Mu(along),
+                               " μB (light rare earths, J = L − S) point "
+                               "along it")
                 : "",
       ": ", Mu(r.saturation),
       " μB per formula unit at 0 K (Néel 1948; Pauthenet 1958 for the "

@@ -403,6 +403,7 @@ TEST(Sites, GarnetMoments) {
   // Phys. 3 (1958) 424; Kittel, ferrimagnetism; from memory).
   EXPECT_NEAR(Moment("Y3Fe5O12"), 5.0, 0.1);
   EXPECT_NEAR(Moment("Gd3Fe5O12"), 16.0, 0.5);
+  EXPECT_THAT(Saturation("Gd3Fe5O12").note, HasSubstr("antiparallel"));
   // Light rare earths (J = L − S) point their moment along the iron
   // moment, since their spin, coupled antiparallel, is opposite to their
   // moment (the same rule makes light rare-earth–iron magnets
