@@ -111,8 +111,8 @@ struct EnumNames<FamilyChoice> {
 
 // An ion on a site: `count` ions per formula unit of the record's formula.
 struct SiteOccupant {
-  const Element* element;
-  int state;
+  const Element* element = nullptr;
+  int state = 0;
   Rational count;
 };
 
@@ -123,12 +123,12 @@ struct Site {
   // (dodecahedral, a distorted cube) kTetrahedral, whose level order
   // (e below t2) a cube shares; the hexaferrite 2b site (trigonal
   // bipyramidal) and the perovskite A site (12-coordinate) kFree.
-  Geometry geometry;
+  Geometry geometry = Geometry::kFree;
   // +1 or -1 in Néel's collinear model; 0: not part of the ordered
   // magnetic structure (the A sites of hexaferrites and perovskites). The
   // garnet c site is -1, antiparallel to d; NeelSaturation turns it
   // against the net iron moment whichever of a and d wins.
-  int direction;
+  int direction = 0;
   std::vector<SiteOccupant> occupants;  // Least octahedral first.
 };
 
