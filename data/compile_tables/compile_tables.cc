@@ -18,6 +18,7 @@
 //       --intervals=multiplet_intervals.tsv
 //       --actinides=actinide_moments.tsv
 //       --spin_orbit=spin_orbit_constants.tsv --out=data_tables.cc
+//       --sites=site_preferences.tsv --out=data_tables.cc
 
 #include <cctype>
 #include <cerrno>
@@ -180,6 +181,7 @@ std::optional<int> ParseArgs(int argc, char** argv, Paths* paths) {
       {"intervals", "multiplet_intervals.tsv"},
       {"actinides", "actinide_moments.tsv"},
       {"spin_orbit", "spin_orbit_constants.tsv"},
+      {"sites", "site_preferences.tsv"},
       {"out", "the C++ file to write"},
   };
   for (const auto& table : kTables) {
@@ -524,6 +526,25 @@ int main(int argc, char** argv) {
   }
   out << "};\n\n";
 
+  // A cation written "Fe+2" in column 0: its atomic number and state.
+  auto parse_ion = [&](const Table& t, const Row& r) {
+    const std::string& ion = r.fields[0];
+    const size_t sign = ion.find_first_of("+-");
+    if (sign == std::string::npos || sign == 0) {
+      Fail(t.path, r.line, "ion '" + ion + "' must look like Fe+2");
+    }
+    auto z = z_by_symbol.find(ion.substr(0, sign));
+    if (z == z_by_symbol.end()) {
+      Fail(t.path, r.line, "unknown element in ion '" + ion + "'");
+    }
+    char* end = nullptr;
+    const long state = std::strtol(ion.c_str() + sign, &end, 10);
+    if (*end != '\0' || state < 0 || state > 9) {
+      Fail(t.path, r.line, "bad state in ion '" + ion + "'");
+    }
+    return std::pair<int, long>(z->second, state);
+  };
+
   // --- spin_crossover.tsv ---------------------------------------------------
   const Table crossover =
       ReadTable(args.at("crossover"),
@@ -531,33 +552,71 @@ int main(int argc, char** argv) {
   out << "constexpr SpinCrossoverRow kCrossover[] = {\n";
   std::set<std::pair<int, long>> crossover_ions;
   for (const Row& r : crossover.rows) {
-    // "Fe+2".
-    const std::string& ion = r.fields[0];
-    const size_t sign = ion.find_first_of("+-");
-    if (sign == std::string::npos || sign == 0) {
-      Fail(crossover.path, r.line, "ion '" + ion + "' must look like Fe+2");
+    const std::pair<int, long> ion = parse_ion(crossover, r);
+    if (!crossover_ions.insert(ion).second) {
+      Fail(crossover.path, r.line, "duplicate ion '" + r.fields[0] + "'");
     }
-    auto z = z_by_symbol.find(ion.substr(0, sign));
-    if (z == z_by_symbol.end()) {
-      Fail(crossover.path, r.line, "unknown element in ion '" + ion + "'");
-    }
-    char* end = nullptr;
-    const long state = std::strtol(ion.c_str() + sign, &end, 10);
-    if (*end != '\0' || state < 0 || state > 9) {
-      Fail(crossover.path, r.line, "bad state in ion '" + ion + "'");
-    }
-    if (!crossover_ions.insert({z->second, state}).second) {
-      Fail(crossover.path, r.line, "duplicate ion '" + ion + "'");
-    }
+    const int z_ion = ion.first;
+    const long state = ion.second;
     const double g = r.fields[1] == "-"
                          ? 0.0
                          : ParseDecimal(crossover, r, 1, r.fields[1], 1, 60);
     const double fc = ParseDecimal(crossover, r, 2, r.fields[2], 0.3, 3.0);
     const long pairing =
         r.fields[3] == "-" ? 0 : ParseInt(crossover, r, 3, 1000, 60000);
-    out << "    {" << z->second << ", " << state << ", " << Double(g) << ", "
+    out << "    {" << z_ion << ", " << state << ", " << Double(g) << ", "
         << Double(fc) << ", " << pairing << ", " << Literal(r.fields[4])
         << "},\n";
+  }
+  out << "};\n\n";
+
+  // --- site_preferences.tsv -------------------------------------------------
+  const Table sites =
+      ReadTable(args.at("sites"),
+                {"ion", "spin", "ospe", "families", "preference", "source"});
+  out << "constexpr SitePreferenceRow kSitePreferences[] = {\n";
+  std::set<std::string> site_keys;
+  for (const Row& r : sites.rows) {
+    const std::string& key = r.fields[0];
+    if (!site_keys.insert(key).second) {
+      Fail(sites.path, r.line, "duplicate ion '" + key + "'");
+    }
+    int z = 0;
+    long state = 0;
+    long d = -1;
+    if (key.size() >= 2 && key[0] == 'd' &&
+        std::isdigit(static_cast<unsigned char>(key[1]))) {
+      char* end = nullptr;
+      d = std::strtol(key.c_str() + 1, &end, 10);
+      if (*end != '\0' || d > 10) {
+        Fail(sites.path, r.line, "ion '" + key + "' must be d0 to d10");
+      }
+    } else {
+      std::tie(z, state) = parse_ion(sites, r);
+    }
+    const std::string& spin = r.fields[1];
+    if (spin != "high" && spin != "low" && spin != "-") {
+      Fail(sites.path, r.line, "column 'spin': expected high, low or -");
+    }
+    const double ospe = ParseDecimal(sites, r, 2, r.fields[2], 0, 400);
+    if (r.fields[3] != "all" && r.fields[3] != "spinel") {
+      Fail(sites.path, r.line, "column 'families': expected all or spinel");
+    }
+    static const std::map<std::string, char> kPreferences = {
+        {"tetrahedral", 't'},
+        {"octahedral", 'o'},
+        {"weak_octahedral", 'w'},
+        {"-", '-'}};
+    const auto preference = kPreferences.find(r.fields[4]);
+    if (preference == kPreferences.end()) {
+      Fail(sites.path, r.line,
+           "column 'preference': expected tetrahedral, octahedral, "
+           "weak_octahedral or -");
+    }
+    out << "    {" << z << ", " << state << ", " << d << ", "
+        << (spin == "low" ? "true" : "false") << ", " << Double(ospe) << ", "
+        << (r.fields[3] == "spinel" ? "true" : "false") << ", '"
+        << preference->second << "', " << Literal(r.fields[5]) << "},\n";
   }
   out << "};\n\n";
 
@@ -830,7 +889,9 @@ int main(int argc, char** argv) {
          "absl::Span<const ActinideMomentRow> ActinideMomentRows() {\n"
          "  return kActinides;\n}\n"
          "absl::Span<const SpinOrbitConstantRow> SpinOrbitConstantRows() {\n"
-         "  return kSpinOrbit;\n}\n\n"
+         "  return kSpinOrbit;\n}\n"
+         "absl::Span<const SitePreferenceRow> SitePreferenceRows() {\n"
+         "  return kSitePreferences;\n}\n\n"
          "}  // namespace shellwright::internal\n";
 
   // Write only when changed, so that an unchanged table does not trigger a

@@ -182,6 +182,20 @@ struct SpinOrbitConstantRow {
   const char* source;
 };
 
+// data/site_preferences.tsv
+struct SitePreferenceRow {
+  int atomic_number;  // 0 for a row keyed by d count.
+  int state;          // 0 for a row keyed by d count.
+  int d_electrons;    // The row's d count ("d8"), or -1 for an ion row.
+  bool low_spin;      // The value assumes the low-spin state.
+  double ospe;        // Octahedral site preference energy, kJ/mol.
+  bool spinel_only;   // An effective value for spinels only.
+  // 't' strong tetrahedral, 'o' strong octahedral, 'w' weak octahedral,
+  // '-' none.
+  char preference;
+  const char* source;
+};
+
 absl::Span<const ElementRow> ElementRows();
 absl::Span<const ConfigurationExceptionRow> ConfigurationExceptionRows();
 absl::Span<const GroundLevelDepartureRow> GroundLevelDepartureRows();
@@ -200,6 +214,7 @@ absl::Span<const OrbitalRangeRow> OrbitalRangeRows();
 absl::Span<const MultipletIntervalRow> MultipletIntervalRows();
 absl::Span<const ActinideMomentRow> ActinideMomentRows();
 absl::Span<const SpinOrbitConstantRow> SpinOrbitConstantRows();
+absl::Span<const SitePreferenceRow> SitePreferenceRows();
 
 }  // namespace shellwright::internal
 

@@ -43,6 +43,7 @@ CommandResult RunWith(const std::string& table, const std::string& contents) {
       {"intervals", "multiplet_intervals"},
       {"actinides", "actinide_moments"},
       {"spin_orbit", "spin_orbit_constants"},
+      {"sites", "site_preferences"},
   };
   const testing::TempDir temp;
   const std::string& dir = temp.path();
@@ -177,6 +178,31 @@ TEST(CompileTables, OrbitalRangeKeyIsUnique) {
   CommandResult r = RunWith("orbital_ranges", t);
   EXPECT_EQ(r.exit_code, 1);
   EXPECT_THAT(r.err, HasSubstr("duplicate row"));
+}
+
+TEST(CompileTables, SitePreferenceNeedsAKnownPreference) {
+  std::string t = RealTable("site_preferences");
+  t += "Ba+2\t-\t0\tall\tsquare\tinvented for this test\n";
+  CommandResult r = RunWith("site_preferences", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("site_preferences.tsv:"));
+  EXPECT_THAT(r.err, HasSubstr("column 'preference'"));
+}
+
+TEST(CompileTables, SitePreferenceDCountMustBeAtMostTen) {
+  std::string t = RealTable("site_preferences");
+  t += "d11\t-\t0\tall\t-\tinvented for this test\n";
+  CommandResult r = RunWith("site_preferences", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("must be d0 to d10"));
+}
+
+TEST(CompileTables, DuplicateSitePreferenceIsRejected) {
+  std::string t = RealTable("site_preferences");
+  t += "Ni+2\t-\t86\tall\t-\tinvented for this test\n";
+  CommandResult r = RunWith("site_preferences", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("duplicate ion 'Ni+2'"));
 }
 
 TEST(CompileTables, UnitStatesMustSumToItsCharge) {
