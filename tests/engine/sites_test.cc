@@ -219,6 +219,27 @@ TEST(Sites, ChargedFormulaHasNoFamily) {
   EXPECT_THAT(why, HasSubstr("neutral formula"));
 }
 
+TEST(Sites, FinelyDividedAndLargeCountsStayInRange) {
+  // Six-decimal and large counts must neither overflow the rational
+  // arithmetic (UBSan in .ci/sanitize) nor give an inversion outside 0..1.
+  for (const char* text :
+       {"Ni0.333333Zn0.666667Fe2O4", "Fe2.999999O3.999998", "Fe750000O1000000",
+        "Ni0.000001Zn0.999999Fe2O4", "La0.999999Sr0.000001MnO3",
+        "Ba50000Fe600000O950000", "Ba0.999999Fe11.999999O18.999998"}) {
+    absl::StatusOr<Formula> f = ParseFormula(text);
+    ASSERT_TRUE(f.ok()) << text;
+    absl::StatusOr<OxidationResult> r =
+        AssignOxidationStates(*f, OxidationOptions());
+    if (!r.ok() || !r->best.has_value()) continue;
+    std::optional<SitePlacement> p =
+        PlaceIons(*f, *r->best, FamilyChoice::kAuto);
+    if (p.has_value() && p->inversion.has_value()) {
+      EXPECT_GE(*p->inversion, 0.0) << text;
+      EXPECT_LE(*p->inversion, 1.0) << text;
+    }
+  }
+}
+
 TEST(Sites, OffTurnsRecognitionOff) {
   const Placed p = Place("Fe3O4", FamilyChoice::kOff);
   EXPECT_FALSE(p.placement.has_value());
