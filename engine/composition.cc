@@ -4,18 +4,21 @@
 #include <cmath>
 #include <mutex>
 #include <numeric>
+#include <set>
 
 #include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
 #include "absl/strings/str_split.h"
 #include "absl/strings/strip.h"
+#include "absl/synchronization/mutex.h"
 #include "engine/formula.h"
 #include "engine/internal/state_options.h"
 #include "engine/internal/text.h"
 #include "engine/ion_moments.h"
 #include "engine/ligand_field.h"
 #include "engine/magnetism.h"
+#include "engine/sites.h"
 #include "engine/units.h"
 
 namespace shellwright {
@@ -335,9 +338,15 @@ void SetMomentRange(const AtomDescription& d, const IonEnvironment& env,
         if (tabulated) {
           ion->moment_low = std::min(ion->moment, range.first);
           ion->moment_high = std::max(ion->moment, range.second);
-          ion->ordered_low = OrderedFromEffective(ion->moment_low, unpaired);
-          ion->ordered_high = OrderedFromEffective(ion->moment_high, unpaired);
           ion->range_basis = RangeBasis::kOrbitalContribution;
+          // An S-state ion (high-spin d5, 6S) has no orbital moment to
+          // lend: g = 2 exactly, and the effective range is scatter.
+          const bool s_state = d.term.l == 0 && d.term.two_s == unpaired;
+          if (!s_state) {
+            ion->ordered_low = OrderedFromEffective(ion->moment_low, unpaired);
+            ion->ordered_high =
+                OrderedFromEffective(ion->moment_high, unpaired);
+          }
         }
       }
     } else if (SetKotani(d, s, temperature, ion)) {
@@ -366,11 +375,89 @@ void SetMomentRange(const AtomDescription& d, const IonEnvironment& env,
 
 // Annotates every free ion with its environment and moment range, and
 // every unit with its moment.
-void Annotate(
-    const Formula& formula,
-    const std::vector<std::pair<const Element*, Geometry>>& geometry,
-    const std::vector<std::pair<const Element*, SpinStatePreference>>& spin,
-    double temperature, CompositionReport* r) {
+// A site name kept for the life of the program, so that ions can point at
+// it: the families' site names are few.
+absl::string_view InternSiteName(const std::string& name) {
+  static absl::Mutex mu(absl::kConstInit);
+  static std::set<std::string>* const names = new std::set<std::string>;
+  absl::MutexLock lock(&mu);
+  return *names->insert(name).first;
+}
+
+// The record's per-element settings.
+struct ElementSettings {
+  std::vector<std::pair<const Element*, Geometry>> geometry;
+  std::vector<std::pair<const Element*, SpinStatePreference>> spin;
+};
+
+// Annotates the free ion `s` (`count` of it, on `site` when a structure
+// family placed it there) with its environment and moments.
+void AnnotateIon(const Formula& formula, const AssignedState& s,
+                 const Rational& count, const Site* site,
+                 const ElementSettings& settings, double temperature,
+                 int anion_z, CompositionReport* r) {
+  const OxidationAssignment& assignment = *r->assignment;
+  const Geometry* g_set = FindSetting(settings.geometry, s.element);
+  const SpinStatePreference* s_set = FindSetting(settings.spin, s.element);
+  const bool d_block = s.element->block == Block::kD;
+  IonEnvironment env;
+  if (d_block && (r->kind == CompositionKind::kIonic ||
+                  r->kind == CompositionKind::kZintl)) {
+    env = FindEnvironment(formula, assignment, s, g_set, s_set);
+    if (site != nullptr && g_set == nullptr && s_set == nullptr &&
+        site->geometry != env.geometry) {
+      // The site's coordination replaces the default octahedron: the
+      // tetrahedral sites of spinels and garnets hold high-spin 3d ions
+      // (common practice, no source: tetrahedral splitting is about 4/9
+      // of octahedral).
+      env.geometry = site->geometry;
+      env.near_crossover = false;
+      if (site->geometry == Geometry::kTetrahedral) {
+        const int d = CoordinationDCount(*s.element, s.state);
+        env.spin_state = SpinStatePreference::kHigh;
+        env.basis =
+            d >= 3 && d <= 6 ? SpinBasis::kTetrahedral : SpinBasis::kNoChoice;
+      } else {
+        env.spin_state = SpinStatePreference::kAuto;
+        env.basis = SpinBasis::kNone;
+      }
+    }
+  } else {
+    env.geometry = g_set != nullptr ? *g_set : Geometry::kFree;
+    env.spin_state = s_set != nullptr ? *s_set : SpinStatePreference::kAuto;
+    if (g_set != nullptr || s_set != nullptr) env.basis = SpinBasis::kRecord;
+  }
+  absl::StatusOr<AtomDescriptionPtr> d =
+      DescribeIon(s.element, s.state, env.geometry, env.spin_state);
+  if (!d.ok()) {
+    Add(r, Severity::kWarning, codes::kIonNotDescribed,
+        absl::StrCat(s.element->symbol, SignedState(s.state), ": ",
+                     d.status().message()));
+    return;
+  }
+  IonAnnotation ion{s.element, s.state, count, *d, 0, 0, 0};
+  ion.ligand = env.ligand;
+  ion.ligand_f = env.f;
+  ion.spin_basis =
+      (*d)->ligand_field.has_value() ? env.basis : SpinBasis::kNone;
+  ion.near_spin_crossover = env.near_crossover;
+  ion.bonded = internal::OpenShellState(*s.element, s.state);
+  if (site != nullptr) ion.site = InternSiteName(site->name);
+  if (!ion.bonded) {  // Bonded: no moment, all zero.
+    SetMomentRange(**d, env, s,
+                   g_set != nullptr || s_set != nullptr ||
+                       (s.state <= 0 && (*d)->configuration_user_supplied),
+                   temperature, anion_z, &ion);
+  }
+  r->ions.push_back(ion);
+}
+
+// Annotates every free ion with its environment and moment range (one
+// ion per site it occupies where `placement` placed it), and every unit
+// with its moment.
+void Annotate(const Formula& formula, const ElementSettings& settings,
+              const SitePlacement* placement, double temperature,
+              CompositionReport* r) {
   const OxidationAssignment& assignment = *r->assignment;
   const int anion_z = MainAnion(assignment);
   r->ions.reserve(assignment.states.size());
@@ -381,45 +468,60 @@ void Annotate(
   }
   for (const AssignedState& s : assignment.states) {
     if (s.unit >= 0) continue;  // Bonded in a unit: not an ion.
-    const Geometry* g_set = FindSetting(geometry, s.element);
-    const SpinStatePreference* s_set = FindSetting(spin, s.element);
-    const bool d_block = s.element->block == Block::kD;
-    IonEnvironment env;
-    if (d_block && (r->kind == CompositionKind::kIonic ||
-                    r->kind == CompositionKind::kZintl)) {
-      env = FindEnvironment(formula, assignment, s, g_set, s_set);
-    } else {
-      env.geometry = g_set != nullptr ? *g_set : Geometry::kFree;
-      env.spin_state = s_set != nullptr ? *s_set : SpinStatePreference::kAuto;
-      if (g_set != nullptr || s_set != nullptr) env.basis = SpinBasis::kRecord;
+    bool placed = false;
+    if (placement != nullptr) {
+      for (const Site& site : placement->sites) {
+        for (const SiteOccupant& o : site.occupants) {
+          if (o.element != s.element || o.state != s.state) continue;
+          AnnotateIon(formula, s, o.count, &site, settings, temperature,
+                      anion_z, r);
+          placed = true;
+        }
+      }
     }
-    const Geometry g = env.geometry;
-    const SpinStatePreference sp = env.spin_state;
-    absl::StatusOr<AtomDescriptionPtr> d =
-        DescribeIon(s.element, s.state, g, sp);
-    if (!d.ok()) {
-      Add(r, Severity::kWarning, codes::kIonNotDescribed,
-          absl::StrCat(s.element->symbol, SignedState(s.state), ": ",
-                       d.status().message()));
-      continue;
+    if (!placed) {
+      AnnotateIon(formula, s, s.count, nullptr, settings, temperature, anion_z,
+                  r);
     }
-    IonAnnotation ion{s.element, s.state, s.count, *d, 0, 0, 0};
-    ion.ligand = env.ligand;
-    ion.ligand_f = env.f;
-    ion.spin_basis =
-        (*d)->ligand_field.has_value() ? env.basis : SpinBasis::kNone;
-    ion.near_spin_crossover = env.near_crossover;
-    ion.bonded = internal::OpenShellState(*s.element, s.state);
-    if (ion.bonded) {
-      r->ions.push_back(ion);  // No moment: all zero.
-      continue;
-    }
-    SetMomentRange(**d, env, s,
-                   g_set != nullptr || s_set != nullptr ||
-                       (s.state <= 0 && (*d)->configuration_user_supplied),
-                   temperature, anion_z, &ion);
-    r->ions.push_back(ion);
   }
+}
+
+// The saturation moment of ions placed on sites, with its range, from
+// Néel's collinear model (engine/sites.h): each occupant's ordered moment
+// at its nominal value and at the ends of its range, the range taken over
+// the corners that raise one sublattice and lower the other.
+void ApplySublattices(const SitePlacement& placement, CompositionReport* r) {
+  std::vector<double> nominal, up_high, up_low;
+  for (const Site& site : placement.sites) {
+    for (const SiteOccupant& o : site.occupants) {
+      const IonAnnotation* found = nullptr;
+      for (const IonAnnotation& ion : r->ions) {
+        if (ion.element == o.element && ion.state == o.state &&
+            ion.site == site.name) {
+          found = &ion;
+        }
+      }
+      if (found == nullptr) return;  // Not described: no estimate.
+      nominal.push_back(found->ordered_moment);
+      const bool up = site.direction >= 0;
+      up_high.push_back(up ? found->ordered_high : found->ordered_low);
+      up_low.push_back(up ? found->ordered_low : found->ordered_high);
+    }
+  }
+  const SublatticeMoment m = NeelSaturation(placement, nominal);
+  r->structure_note = placement.note;
+  if (!m.note.empty()) absl::StrAppend(&r->structure_note, "; ", m.note);
+  if (!m.determined) return;
+  double low = m.saturation, high = m.saturation;
+  for (const std::vector<double>* corner : {&up_high, &up_low}) {
+    const SublatticeMoment c = NeelSaturation(placement, *corner);
+    low = std::min(low, c.saturation);
+    high = std::max(high, c.saturation);
+  }
+  r->saturation_moment_per_formula_unit = m.saturation;
+  r->saturation_moment_low = low;
+  r->saturation_moment_high = high;
+  r->saturation_model = MomentModel::kSublatticeNeel;
 }
 
 // Unpaired electrons per formula unit, exactly: 0.7 x 4 + 0.3 x 3 is 3.7,
@@ -656,8 +758,11 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
                         *input.temperature, kMaxTemperature));
   }
   std::vector<std::pair<const Element*, int>> declared;
-  std::vector<std::pair<const Element*, Geometry>> geometry;
-  std::vector<std::pair<const Element*, SpinStatePreference>> spin;
+  ElementSettings settings;
+  std::vector<std::pair<const Element*, Geometry>>& geometry =
+      settings.geometry;
+  std::vector<std::pair<const Element*, SpinStatePreference>>& spin =
+      settings.spin;
   std::string error;
   if (!ParseElementList<int>(input.declared_states, "declared_states",
                              ParseState, &declared, &error)) {
@@ -681,6 +786,20 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
           },
           &spin, &error)) {
     Add(&r, Severity::kError, codes::kMalformedElementSettings, error);
+  }
+  FamilyChoice family = FamilyChoice::kAuto;
+  if (!input.structure_family.empty()) {
+    absl::StatusOr<FamilyChoice> parsed = ParseName<FamilyChoice>(
+        absl::StripAsciiWhitespace(input.structure_family));
+    if (parsed.ok()) {
+      family = *parsed;
+    } else {
+      Add(&r, Severity::kError, codes::kMalformedElementSettings,
+          absl::StrCat("structure_family ",
+                       QuoteForMessage(input.structure_family),
+                       " is not one of auto, none, spinel, garnet, "
+                       "hexaferrite, perovskite"));
+    }
   }
   OxidationOptions options;
   options.net_charge = net_charge.value_or(0);
@@ -814,9 +933,27 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     }
   }
 
-  Annotate(*formula, geometry, spin,
+  std::optional<SitePlacement> placement;
+  if (r.kind == CompositionKind::kIonic) {
+    std::string why_not;
+    placement = PlaceIons(*formula, *r.assignment, family, &why_not);
+    if (!why_not.empty()) {
+      Add(&r, Severity::kWarning, codes::kStructureFamilyNotMatched,
+          absl::StrCat("structure_family ", Name(family),
+                       " does not fit: ", why_not));
+    }
+  } else if (family != FamilyChoice::kAuto && family != FamilyChoice::kOff) {
+    Add(&r, Severity::kWarning, codes::kStructureFamilyNotMatched,
+        absl::StrCat("structure_family ", Name(family),
+                     " applies to ionic compositions only"));
+  }
+  Annotate(*formula, settings, placement ? &*placement : nullptr,
            input.temperature.value_or(kDefaultTemperature), &r);
   Summarise(*formula, &r);
+  if (placement.has_value()) {
+    r.structure_family = Name(placement->family);
+    ApplySublattices(*placement, &r);
+  }
 
   CheckMeasuredMoments(input, &r);
   return finish();
