@@ -4,14 +4,12 @@
 #include <cmath>
 #include <mutex>
 #include <numeric>
-#include <set>
 
 #include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
 #include "absl/strings/str_split.h"
 #include "absl/strings/strip.h"
-#include "absl/synchronization/mutex.h"
 #include "engine/formula.h"
 #include "engine/internal/state_options.h"
 #include "engine/internal/text.h"
@@ -194,21 +192,75 @@ int SplitElectrons(const LigandFieldSplitting& split) {
   return n;
 }
 
+// Unpaired electrons of d^n in `g` and `spin`, read from a table built on
+// first use (SplitD allocates; every record's d ions ask).
+int SplitUnpaired(int d, Geometry g, SpinState spin) {
+  constexpr int kGeometries =
+      static_cast<int>(Geometry::kTrigonalPrismatic) + 1;
+  using Table = std::array<int, 11 * kGeometries * 2>;
+  static const Table* const kTable = [] {
+    auto* t = new Table;
+    for (int n = 0; n <= 10; ++n) {
+      for (int k = 0; k < kGeometries; ++k) {
+        for (int low = 0; low < 2; ++low) {
+          const Geometry geometry = static_cast<Geometry>(k);
+          (*t)[(n * kGeometries + k) * 2 + low] =
+              geometry == Geometry::kFree
+                  ? 0
+                  : SplitD(n, geometry,
+                           low ? SpinState::kLow : SpinState::kHigh)
+                        .unpaired;
+        }
+      }
+    }
+    return t;
+  }();
+  if (d < 0 || d > 10) return 0;
+  return (*kTable)[(d * kGeometries + static_cast<int>(g)) * 2 +
+                   (spin == SpinState::kLow ? 1 : 0)];
+}
+
 // The effective range of a 3d ion in one spin state: spin-only widened
 // by the tabulated orbital contribution, or spin-only alone where the
 // table has no row. Sets *tabulated when it has one.
 std::pair<double, double> SpinStateRange(int d, Geometry g, SpinState spin,
                                          bool* tabulated) {
-  const double spin_only = SpinOnlyMoment(SplitD(d, g, spin).unpaired);
+  const double spin_only = SpinOnlyMoment(SplitUnpaired(d, g, spin));
   const std::optional<MomentRange> row = FindOrbitalRange(d, g, spin);
   if (tabulated != nullptr) *tabulated = row.has_value();
   if (!row.has_value()) return {spin_only, spin_only};
   return {std::min(spin_only, row->low), std::max(spin_only, row->high)};
 }
 
-// Sets the ion's recommended moment, its model, its expected effective
-// range and its ordered moment (docs/method.md, "Moments"). `fixed`: the
-// record set the geometry or spin state for its element.
+// Van Vleck and Kotani estimates of one ion at the default temperature,
+// computed once per element (every record with Nd3+ or Ru3+ asks).
+struct RoomTemperatureMoments {
+  std::optional<VanVleckResult> van_vleck;
+  std::optional<KotaniEstimate> kotani;
+};
+
+const RoomTemperatureMoments& FindRoomTemperatureMoments(const Element* e,
+                                                         int state) {
+  constexpr int kMaxState = 9;
+  struct PerElement {
+    std::once_flag once;
+    std::array<RoomTemperatureMoments, 2 * kMaxState + 1> by_state;
+  };
+  static std::array<PerElement, kMaxAtomicNumber + 1>* const kTable =
+      new std::array<PerElement, kMaxAtomicNumber + 1>;
+  static const RoomTemperatureMoments* const kNone = new RoomTemperatureMoments;
+  if (state < -kMaxState || state > kMaxState) return *kNone;
+  PerElement& slot = (*kTable)[e->atomic_number];
+  std::call_once(slot.once, [&] {
+    for (int q = -kMaxState; q <= kMaxState; ++q) {
+      RoomTemperatureMoments& m = slot.by_state[q + kMaxState];
+      m.van_vleck = VanVleckMoment(e->atomic_number, q, kDefaultTemperature);
+      m.kotani = EstimateKotaniMoment(*e, q, kDefaultTemperature);
+    }
+  });
+  return slot.by_state[state + kMaxState];
+}
+
 // The moment of a 4f ion with tabulated multiplet intervals: a Van Vleck
 // sum over its J levels at `temperature` (engine/ion_moments.h). Near room
 // temperature (within kRoomTemperatureBand) the range runs to the
@@ -217,7 +269,9 @@ bool SetVanVleck(const AtomDescription& d, const AssignedState& s,
                  double temperature, IonAnnotation* ion) {
   constexpr double kRoomTemperatureBand = 50;  // K.
   const std::optional<VanVleckResult> vv =
-      VanVleckMoment(s.element->atomic_number, s.state, temperature);
+      temperature == kDefaultTemperature
+          ? FindRoomTemperatureMoments(s.element, s.state).van_vleck
+          : VanVleckMoment(s.element->atomic_number, s.state, temperature);
   if (!vv.has_value()) return false;
   const Moments& m = d.moments;
   ion->moment = ion->moment_low = ion->moment_high = vv->effective_moment;
@@ -287,7 +341,9 @@ bool SetKotani(const AtomDescription& d, const AssignedState& s,
     return false;
   }
   const std::optional<KotaniEstimate> k =
-      EstimateKotaniMoment(*s.element, s.state, temperature);
+      temperature == kDefaultTemperature
+          ? FindRoomTemperatureMoments(s.element, s.state).kotani
+          : EstimateKotaniMoment(*s.element, s.state, temperature);
   if (!k.has_value() || k->t2g_electrons != split.levels[0].electrons) {
     return false;
   }
@@ -327,9 +383,9 @@ void SetMomentRange(const AtomDescription& d, const IonEnvironment& env,
         ion->moment_low = std::min({ion->moment, low.first, high.first});
         ion->moment_high = std::max({ion->moment, low.second, high.second});
         ion->ordered_low = OrderedFromEffective(
-            low.first, SplitD(n, split.geometry, SpinState::kLow).unpaired);
+            low.first, SplitUnpaired(n, split.geometry, SpinState::kLow));
         ion->ordered_high = OrderedFromEffective(
-            high.second, SplitD(n, split.geometry, SpinState::kHigh).unpaired);
+            high.second, SplitUnpaired(n, split.geometry, SpinState::kHigh));
         ion->range_basis = RangeBasis::kSpinCrossover;
       } else {
         bool tabulated = false;
@@ -375,58 +431,61 @@ void SetMomentRange(const AtomDescription& d, const IonEnvironment& env,
 
 // Annotates every free ion with its environment and moment range, and
 // every unit with its moment.
-// A site name kept for the life of the program, so that ions can point at
-// it: the families' site names are few.
-absl::string_view InternSiteName(const std::string& name) {
-  static absl::Mutex mu(absl::kConstInit);
-  static std::set<std::string>* const names = new std::set<std::string>;
-  absl::MutexLock lock(&mu);
-  return *names->insert(name).first;
-}
-
 // The record's per-element settings.
 struct ElementSettings {
   std::vector<std::pair<const Element*, Geometry>> geometry;
   std::vector<std::pair<const Element*, SpinStatePreference>> spin;
 };
 
-// Annotates the free ion `s` (`count` of it, on `site` when a structure
-// family placed it there) with its environment and moments.
-void AnnotateIon(const Formula& formula, const AssignedState& s,
-                 const Rational& count, const Site* site,
-                 const ElementSettings& settings, double temperature,
-                 int anion_z, CompositionReport* r) {
-  const OxidationAssignment& assignment = *r->assignment;
+// The environment of the free ion `s` as its ligands and the record's
+// settings set it (engine/coordination.h).
+IonEnvironment EnvironmentOf(const Formula& formula, const AssignedState& s,
+                             const ElementSettings& settings,
+                             const CompositionReport& r) {
   const Geometry* g_set = FindSetting(settings.geometry, s.element);
   const SpinStatePreference* s_set = FindSetting(settings.spin, s.element);
-  const bool d_block = s.element->block == Block::kD;
   IonEnvironment env;
-  if (d_block && (r->kind == CompositionKind::kIonic ||
-                  r->kind == CompositionKind::kZintl)) {
-    env = FindEnvironment(formula, assignment, s, g_set, s_set);
-    if (site != nullptr && g_set == nullptr && s_set == nullptr &&
-        site->geometry != env.geometry) {
-      // The site's coordination replaces the default octahedron: the
-      // tetrahedral sites of spinels and garnets hold high-spin 3d ions
-      // (common practice, no source: tetrahedral splitting is about 4/9
-      // of octahedral).
-      env.geometry = site->geometry;
-      env.near_crossover = false;
-      if (site->geometry == Geometry::kTetrahedral) {
-        const int d = CoordinationDCount(*s.element, s.state);
-        env.spin_state = SpinStatePreference::kHigh;
-        env.basis =
-            d >= 3 && d <= 6 ? SpinBasis::kTetrahedral : SpinBasis::kNoChoice;
-      } else {
-        env.spin_state = SpinStatePreference::kAuto;
-        env.basis = SpinBasis::kNone;
-      }
-    }
+  if (s.element->block == Block::kD && (r.kind == CompositionKind::kIonic ||
+                                        r.kind == CompositionKind::kZintl)) {
+    env = FindEnvironment(formula, *r.assignment, s, g_set, s_set);
   } else {
     env.geometry = g_set != nullptr ? *g_set : Geometry::kFree;
     env.spin_state = s_set != nullptr ? *s_set : SpinStatePreference::kAuto;
     if (g_set != nullptr || s_set != nullptr) env.basis = SpinBasis::kRecord;
   }
+  return env;
+}
+
+// `env` with the coordination of `site` in place of the default
+// octahedron, where the record set neither geometry nor spin state: the
+// tetrahedral sites of spinels and garnets hold high-spin 3d ions (common
+// practice, no source: tetrahedral splitting is about 4/9 of octahedral).
+IonEnvironment OnSite(IonEnvironment env, const AssignedState& s,
+                      const Site& site) {
+  if (env.basis == SpinBasis::kRecord || s.element->block != Block::kD ||
+      site.geometry == env.geometry) {
+    return env;
+  }
+  env.geometry = site.geometry;
+  env.near_crossover = false;
+  if (site.geometry == Geometry::kTetrahedral) {
+    const int d = CoordinationDCount(*s.element, s.state);
+    env.spin_state = SpinStatePreference::kHigh;
+    env.basis =
+        d >= 3 && d <= 6 ? SpinBasis::kTetrahedral : SpinBasis::kNoChoice;
+  } else {
+    env.spin_state = SpinStatePreference::kAuto;
+    env.basis = SpinBasis::kNone;
+  }
+  return env;
+}
+
+// Annotates the free ion `s` (`count` of it, in `env`, on `site` when a
+// structure family placed it there) with its description and moments.
+void AnnotateIon(const AssignedState& s, const Rational& count,
+                 const IonEnvironment& env, const Site* site,
+                 const ElementSettings& settings, double temperature,
+                 int anion_z, CompositionReport* r) {
   absl::StatusOr<AtomDescriptionPtr> d =
       DescribeIon(s.element, s.state, env.geometry, env.spin_state);
   if (!d.ok()) {
@@ -442,12 +501,12 @@ void AnnotateIon(const Formula& formula, const AssignedState& s,
       (*d)->ligand_field.has_value() ? env.basis : SpinBasis::kNone;
   ion.near_spin_crossover = env.near_crossover;
   ion.bonded = internal::OpenShellState(*s.element, s.state);
-  if (site != nullptr) ion.site = InternSiteName(site->name);
+  if (site != nullptr) ion.site = site->name;
   if (!ion.bonded) {  // Bonded: no moment, all zero.
-    SetMomentRange(**d, env, s,
-                   g_set != nullptr || s_set != nullptr ||
-                       (s.state <= 0 && (*d)->configuration_user_supplied),
-                   temperature, anion_z, &ion);
+    const bool fixed = FindSetting(settings.geometry, s.element) != nullptr ||
+                       FindSetting(settings.spin, s.element) != nullptr ||
+                       (s.state <= 0 && (*d)->configuration_user_supplied);
+    SetMomentRange(**d, env, s, fixed, temperature, anion_z, &ion);
   }
   r->ions.push_back(ion);
 }
@@ -460,7 +519,7 @@ void Annotate(const Formula& formula, const ElementSettings& settings,
               CompositionReport* r) {
   const OxidationAssignment& assignment = *r->assignment;
   const int anion_z = MainAnion(assignment);
-  r->ions.reserve(assignment.states.size());
+  r->ions.reserve(assignment.states.size() + (placement != nullptr ? 4 : 0));
   for (const AssignedUnit& u : assignment.units) {
     r->units.push_back({u.unit, u.count,
                         std::sqrt(static_cast<double>(
@@ -468,20 +527,20 @@ void Annotate(const Formula& formula, const ElementSettings& settings,
   }
   for (const AssignedState& s : assignment.states) {
     if (s.unit >= 0) continue;  // Bonded in a unit: not an ion.
+    const IonEnvironment env = EnvironmentOf(formula, s, settings, *r);
     bool placed = false;
     if (placement != nullptr) {
       for (const Site& site : placement->sites) {
         for (const SiteOccupant& o : site.occupants) {
           if (o.element != s.element || o.state != s.state) continue;
-          AnnotateIon(formula, s, o.count, &site, settings, temperature,
-                      anion_z, r);
+          AnnotateIon(s, o.count, OnSite(env, s, site), &site, settings,
+                      temperature, anion_z, r);
           placed = true;
         }
       }
     }
     if (!placed) {
-      AnnotateIon(formula, s, s.count, nullptr, settings, temperature, anion_z,
-                  r);
+      AnnotateIon(s, s.count, env, nullptr, settings, temperature, anion_z, r);
     }
   }
 }
@@ -513,7 +572,10 @@ void ApplySublattices(const SitePlacement& placement, CompositionReport* r) {
   if (!m.note.empty()) absl::StrAppend(&r->structure_note, "; ", m.note);
   if (!m.determined) return;
   double low = m.saturation, high = m.saturation;
+  // Where every ordered moment is exact (S-state ions), so is the sum.
+  const bool exact = up_high == nominal && up_low == nominal;
   for (const std::vector<double>* corner : {&up_high, &up_low}) {
+    if (exact) break;
     const SublatticeMoment c = NeelSaturation(placement, *corner);
     low = std::min(low, c.saturation);
     high = std::max(high, c.saturation);

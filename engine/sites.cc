@@ -39,7 +39,12 @@ Rational Min(const Rational& a, const Rational& b) { return b < a ? b : a; }
 
 // `v` to three decimals, without trailing zeros: "0.5", "16", "3.7".
 std::string Rounded(double v) {
-  return absl::StrCat(std::round(v * 1000) / 1000);
+  const double r = std::round(v * 1000) / 1000;
+  // Whole numbers, the usual case, without the floating-point formatter.
+  if (r == std::trunc(r) && std::abs(r) < 1e9) {
+    return absl::StrCat(static_cast<int64_t>(r));
+  }
+  return absl::StrCat(r);
 }
 
 // Large cations: the A site of perovskites and hexaferrites and the c site
@@ -399,7 +404,7 @@ void AppendPreference(const Ion& ion, std::string* out) {
   } else if (p.strong == 2) {
     absl::StrAppend(out, " strongly octahedral");
   } else {
-    absl::StrAppend(out, " ", p.ospe, " kJ/mol");
+    absl::StrAppend(out, " ", Rounded(p.ospe), " kJ/mol");
     if (p.from_d_count) absl::StrAppend(out, " (isoelectronic row)");
     if (p.weak) absl::StrAppend(out, ", weakly octahedral");
   }
@@ -420,7 +425,7 @@ constexpr absl::string_view kPreferenceSource =
     "McClure 1957, data/site_preferences.tsv";
 
 Site MakeSite(absl::string_view name, Geometry geometry, int direction) {
-  return Site{std::string(name), geometry, direction, {}};
+  return Site{name, geometry, direction, {}};
 }
 
 // ---------------------------------------------------------------------------
@@ -759,7 +764,7 @@ SublatticeMoment TwoSided(const SitePlacement& p,
                           absl::Span<const double> moments) {
   size_t next = 0;
   double up = 0, down = 0;
-  std::vector<std::string> up_names, down_names;
+  std::vector<absl::string_view> up_names, down_names;
   for (const Site& s : p.sites) {
     const double m = SiteMoment(s, moments, &next);
     if (s.direction > 0) {

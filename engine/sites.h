@@ -117,7 +117,9 @@ struct SiteOccupant {
 };
 
 struct Site {
-  std::string name;  // "A (tetrahedral)", "12k", "c (dodecahedral)", ...
+  // "A (tetrahedral)", "12k (octahedral)", "c (dodecahedral)", ...; in
+  // static storage, so that reports may point at it.
+  absl::string_view name;
   // For the ligand field of the ions on it. Sites with no Geometry of
   // their own take the nearest (docs/method.md): the garnet c site
   // (dodecahedral, a distorted cube) kTetrahedral, whose level order
