@@ -1,5 +1,7 @@
 # `cmake --install build --prefix PREFIX` puts under PREFIX:
 #   bin/                     shellwright, shellwrightd
+#   libexec/shellwright/     shellwright-remote, the CLI with the gRPC
+#                            client that `shellwright --server` runs
 #   lib/                     the engine's static libraries
 #   include/engine, util     the engine's public headers (and the util
 #                            headers they include)
@@ -15,6 +17,9 @@ include(CMakePackageConfigHelpers)
 
 install(TARGETS shellwright shellwrightd
   RUNTIME DESTINATION ${CMAKE_INSTALL_BINDIR})
+# Where clients/CMakeLists.txt tells shellwright to look for its twin.
+install(TARGETS shellwright_remote
+  RUNTIME DESTINATION ${SHELLWRIGHT_REMOTE_CLI_DIR})
 
 set_target_properties(shellwright_engine PROPERTIES EXPORT_NAME engine)
 set_target_properties(shellwright_notation PROPERTIES EXPORT_NAME notation)

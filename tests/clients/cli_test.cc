@@ -16,8 +16,10 @@ namespace {
 using ::shellwright::testing::BinPath;
 using ::shellwright::testing::CommandResult;
 using ::shellwright::testing::RunCommand;
+using ::testing::Contains;
 using ::testing::ContainsRegex;
 using ::testing::HasSubstr;
+using ::testing::Not;
 
 CommandResult Cli(std::vector<std::string> args) {
   args.insert(args.begin(), BinPath("clients/shellwright"));
@@ -593,6 +595,44 @@ TEST(Cli, SuperscriptChargesAndDeclaredStatesInEveryForm) {
     EXPECT_EQ(r.exit_code, 0) << declared << r.out;
     EXPECT_THAT(r.out, HasSubstr("Fe+3 ×2")) << declared;
   }
+}
+
+// The shared libraries the dynamic loader loads for `binary` running
+// `args`, as its LD_DEBUG=libs trace lists them (the "calling init:" lines).
+std::vector<std::string> LoadedLibraries(const std::string& binary,
+                                         std::vector<std::string> args) {
+  args.insert(args.begin(), {"/usr/bin/env", "LD_DEBUG=libs", binary});
+  CommandResult r = RunCommand(args);
+  EXPECT_EQ(r.exit_code, 0) << r.err;
+  std::vector<std::string> libraries;
+  const std::string marker = "calling init: ";
+  for (size_t at = r.err.find(marker); at != std::string::npos;
+       at = r.err.find(marker, at + 1)) {
+    const size_t start = at + marker.size();
+    libraries.push_back(r.err.substr(start, r.err.find('\n', start) - start));
+  }
+  return libraries;
+}
+
+// The in-process CLI links no gRPC; with SHELLWRIGHT_STATIC_CLI (off in
+// sanitizer and fuzzer builds) it takes Abseil and protobuf from static
+// archives, since loading them as shared libraries dominated a one-record
+// run (docs/performance.md, "One record in a fresh process").
+TEST(Cli, InProcessCliLoadsNoGrpcAbseilOrProtobufLibraries) {
+  const std::vector<std::string> in_process = LoadedLibraries(
+      BinPath("clients/shellwright"), {"compound", "Fe3O4", "--json"});
+  ASSERT_FALSE(in_process.empty()) << "no LD_DEBUG trace";
+  EXPECT_THAT(in_process, Contains(HasSubstr("libc.so")));
+  EXPECT_THAT(in_process, Not(Contains(HasSubstr("libgrpc"))));
+#if SHELLWRIGHT_STATIC_CLI
+  EXPECT_THAT(in_process, Not(Contains(HasSubstr("libabsl_"))));
+  EXPECT_THAT(in_process, Not(Contains(HasSubstr("libprotobuf"))));
+#endif
+  // The twin that --server runs is the one that loads gRPC, which shows
+  // that the trace would name it.
+  EXPECT_THAT(LoadedLibraries(BinPath("clients/shellwright-remote"),
+                              {"atom", "Fe3+"}),
+              Contains(HasSubstr("libgrpc++")));
 }
 
 }  // namespace

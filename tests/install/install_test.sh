@@ -12,7 +12,8 @@ tmp="$(mktemp -d)"
 trap 'rm -rf "$tmp"' EXIT
 
 cmake --install "$build" --prefix "$tmp/prefix" >"$tmp/install.log"
-for f in bin/shellwright bin/shellwrightd include/engine/composition.h \
+for f in bin/shellwright bin/shellwrightd libexec/shellwright/shellwright-remote \
+         include/engine/composition.h \
          lib/cmake/Shellwright/ShellwrightConfig.cmake \
          share/shellwright/data/elements.tsv \
          share/shellwright/proto/shellwright/v1/electron_structure.proto; do
@@ -36,4 +37,17 @@ if [[ "$out" != "$expected" ]]; then
 fi
 "$tmp/prefix/bin/shellwright" atom Fe3+ --json | grep -q '"unpaired_electrons": 5' ||
   { echo "installed CLI: unexpected output"; exit 1; }
+# With --server the installed shellwright runs its twin from
+# libexec/shellwright/: port 1 has no server, so the twin's connection
+# error shows that it was found and ran (not "--server needs ...").
+set +e
+remote_err="$("$tmp/prefix/bin/shellwright" --server 127.0.0.1:1 --timeout 5 \
+  atom Fe3+ 2>&1 >/dev/null)"
+remote_rc=$?
+set -e
+if [[ $remote_rc -eq 0 || "$remote_err" != *"cannot reach shellwrightd"* ]]; then
+  printf 'installed shellwright --server (exit %d) said:\n%s\n' \
+    "$remote_rc" "$remote_err"
+  exit 1
+fi
 echo "install test passed"

@@ -191,6 +191,8 @@ TEST(Shellwrightd, HealthIsServingForTheServerAndTheService) {
 }
 
 // The CLI's --server mode must print exactly what its in-process mode does.
+// `shellwright --server` runs its twin shellwright-remote (the gRPC client),
+// so this compares the two executables.
 TEST(Shellwrightd, CliRemoteOutputMatchesInProcessByteForByte) {
   std::unique_ptr<ServerProcess> server = StartShellwrightd({});
   ASSERT_NE(server, nullptr);
@@ -203,6 +205,8 @@ TEST(Shellwrightd, CliRemoteOutputMatchesInProcessByteForByte) {
       {"atom", "Gd3+", "--json"},
       {"atom", "Cr", "--configuration", "[Ar] 3d5 4s1"},
       {"elements", "--json"},
+      {"compound", "Fe3O4"},
+      {"compound", "SbWFeMoPrPbCoMnVO0.99999", "--json"},
       {"atom", "Xx"},
       {"atom", "Fe99+", "--json"},
   };
