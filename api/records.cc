@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <array>
+#include <memory>
 #include <optional>
 #include <string>
 #include <type_traits>
@@ -37,8 +38,13 @@ struct CachedMessage {
 // per thread (as the JSON writer keeps their text).
 template <typename Key, typename Message>
 CachedMessage<Key, Message>& CachedSlot(const Key& key) {
-  thread_local std::array<CachedMessage<Key, Message>, Key::kCacheSlots> cache;
-  return cache[key.Hash() % Key::kCacheSlots];
+  // On the heap, made on first use: as thread_local storage it would be
+  // zeroed by the loader at every process and thread start (the caches
+  // made some 0.6 MB of TLS, docs/performance.md).
+  using Cache = std::array<CachedMessage<Key, Message>, Key::kCacheSlots>;
+  thread_local std::unique_ptr<Cache> cache;
+  if (cache == nullptr) cache = std::make_unique<Cache>();
+  return (*cache)[key.Hash() % Key::kCacheSlots];
 }
 
 // Builds a message from VisitRecordReport's calls, through each field's

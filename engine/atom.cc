@@ -351,7 +351,7 @@ class LigandFieldCache {
         charge > e.atomic_number || g == Geometry::kFree) {
       return nullptr;
     }
-    PerElement& slot = elements_[e.atomic_number];
+    PerElement& slot = Element(e.atomic_number);
     const int i = Index(charge, g, s);
     std::call_once(slot.built[i], [&] {
       absl::StatusOr<Configuration> c =
@@ -367,7 +367,7 @@ class LigandFieldCache {
   AtomDescriptionPtr Get(const Element& e, int charge, Geometry g,
                          SpinStatePreference s) {
     if (Find(e, charge, g, s) == nullptr) return nullptr;
-    return elements_[e.atomic_number].entries[Index(charge, g, s)];
+    return Element(e.atomic_number).entries[Index(charge, g, s)];
   }
 
  private:
@@ -384,7 +384,17 @@ class LigandFieldCache {
            static_cast<int>(s);
   }
 
-  std::array<PerElement, kMaxAtomicNumber + 1> elements_;
+  // An element's entries, allocated when it is first asked for: all of
+  // them take some 0.4 MB, which a one-record process would spend most of
+  // its start zeroing (docs/performance.md).
+  PerElement& Element(int z) {
+    std::call_once(made_[z],
+                   [&] { elements_[z] = std::make_unique<PerElement>(); });
+    return *elements_[z];
+  }
+
+  std::array<std::once_flag, kMaxAtomicNumber + 1> made_;
+  std::array<std::unique_ptr<PerElement>, kMaxAtomicNumber + 1> elements_;
 };
 
 LigandFieldCache& FieldCache() {

@@ -4,6 +4,7 @@
 #include <charconv>
 #include <cmath>
 #include <cstring>
+#include <memory>
 
 #include "absl/strings/string_view.h"
 
@@ -248,10 +249,14 @@ absl::string_view DoubleText(double v, char* scratch) {
   if (IsSmallWhole(v)) {
     return absl::string_view(scratch, FormatDouble(v, scratch));
   }
-  thread_local std::array<Entry, 512> cache;
+  // On the heap, made on first use, like report_lines.cc's caches: TLS
+  // is zeroed at every process and thread start.
+  using Cache = std::array<Entry, 512>;
+  thread_local std::unique_ptr<Cache> cache;
+  if (cache == nullptr) cache = std::make_unique<Cache>();
   uint64_t bits;
   std::memcpy(&bits, &v, sizeof(bits));
-  Entry& e = cache[(bits * 0x9E3779B97F4A7C15ull) >> 55];
+  Entry& e = (*cache)[(bits * 0x9E3779B97F4A7C15ull) >> 55];
   if (e.bits != bits) {
     e.size = FormatDouble(v, e.text);
     e.bits = bits;

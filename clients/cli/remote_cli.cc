@@ -31,9 +31,9 @@ absl::Status ExecRemoteCli(char** argv) {
   std::string self(4096, '\0');
   const ssize_t n = readlink("/proc/self/exe", self.data(), self.size());
   if (n <= 0 || static_cast<size_t>(n) >= self.size()) {
-    return absl::InternalError(absl::StrCat(
-        "cannot find this program's own path for --server: ",
-        std::strerror(errno)));
+    return absl::InternalError(
+        absl::StrCat("cannot find this program's own path for --server: ",
+                     std::strerror(errno)));
   }
   self.resize(n);
   const std::string dir = self.substr(0, self.rfind('/'));
@@ -42,8 +42,8 @@ absl::Status ExecRemoteCli(char** argv) {
   for (const std::string& path : candidates) {
     if (access(path.c_str(), X_OK) != 0) continue;
     execv(path.c_str(), argv);
-    return absl::InternalError(absl::StrCat("--server: cannot run ", path,
-                                            ": ", std::strerror(errno)));
+    return absl::InternalError(absl::StrCat("--server: cannot run ", path, ": ",
+                                            std::strerror(errno)));
   }
   return absl::NotFoundError(absl::StrCat(
       "--server needs ", kRemoteCliName,

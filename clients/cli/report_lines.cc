@@ -7,6 +7,7 @@
 #include <cstring>
 #include <initializer_list>
 #include <iterator>
+#include <memory>
 #include <optional>
 #include <string>
 #include <vector>
@@ -118,8 +119,13 @@ struct Fragment {
 // up most reports, so each is written once per thread.
 template <typename Key>
 Fragment<Key>& CachedFragment(const Key& key) {
-  thread_local std::array<Fragment<Key>, Key::kCacheSlots> cache;
-  return cache[key.Hash() % Key::kCacheSlots];
+  // On the heap, made on first use: as thread_local storage it would be
+  // zeroed by the loader at every process and thread start (the caches
+  // made some 0.6 MB of TLS, docs/performance.md).
+  using Cache = std::array<Fragment<Key>, Key::kCacheSlots>;
+  thread_local std::unique_ptr<Cache> cache;
+  if (cache == nullptr) cache = std::make_unique<Cache>();
+  return (*cache)[key.Hash() % Key::kCacheSlots];
 }
 
 // The JSON object of a report (api/report_view.h visitor): members in

@@ -567,12 +567,12 @@ int Main(int argc, char** argv) {
     remote.options.warnings = &std::cerr;
     // One server's failures are explained in plain words; with several,
     // the message names each server's last failure itself.
-    if (absl::StatusOr<std::vector<std::string>> targets =
+    if (absl::StatusOr<std::vector<std::string> > targets =
             ParseServerTargets(remote.options.address);
         targets.ok() && targets->size() == 1) {
       *ServerTargetForMessages() = ServerTarget(targets->front());
     }
-    absl::StatusOr<std::unique_ptr<Backend>> made =
+    absl::StatusOr<std::unique_ptr<Backend> > made =
         MakeRemoteBackend(remote.options);
     if (!made.ok()) {
       std::cerr << "shellwright: "

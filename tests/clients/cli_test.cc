@@ -630,9 +630,9 @@ TEST(Cli, InProcessCliLoadsNoGrpcAbseilOrProtobufLibraries) {
 #endif
   // The twin that --server runs is the one that loads gRPC, which shows
   // that the trace would name it.
-  EXPECT_THAT(LoadedLibraries(BinPath("clients/shellwright-remote"),
-                              {"atom", "Fe3+"}),
-              Contains(HasSubstr("libgrpc++")));
+  EXPECT_THAT(
+      LoadedLibraries(BinPath("clients/shellwright-remote"), {"atom", "Fe3+"}),
+      Contains(HasSubstr("libgrpc++")));
 }
 
 }  // namespace
