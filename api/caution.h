@@ -16,9 +16,9 @@
 namespace shellwright {
 
 inline constexpr char kMomentCaution[] =
-    "Caution: moments and spin states are idealised free-ion or "
-    "crystal-field estimates; verify them against measurement before "
-    "relying on them.";
+    "Caution: moments and spin states are idealised estimates from the "
+    "composition alone (free-ion, crystal-field, sublattice and metallic "
+    "models); verify them against measurement before relying on them.";
 
 }  // namespace shellwright
 

@@ -154,6 +154,14 @@ CompositionInput CompositionInputFromProto(
   if (record.has_moment_tolerance()) {
     in.moment_tolerance = record.moment_tolerance();
   }
+  if (record.has_measured_saturation_moment()) {
+    in.measured_saturation_moment = record.measured_saturation_moment();
+  }
+  if (record.has_saturation_moment_tolerance()) {
+    in.saturation_moment_tolerance = record.saturation_moment_tolerance();
+  }
+  in.structure_family = record.structure_family();
+  if (record.has_temperature()) in.temperature = record.temperature();
   if (record.has_max_alternatives()) {
     in.max_alternatives =
         std::clamp(record.max_alternatives(), 0, kMaxAlternatives);

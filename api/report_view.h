@@ -220,6 +220,10 @@ struct IonKey {
   const Ligand* ligand;
   uint64_t f;
   int environment;  // basis x 4 + near x 2 + bonded.
+  // The moment model and range basis, the ordered moment and the site.
+  int model;
+  uint64_t ordered;
+  const char* site;
 
   void Keep() {
     if (source != nullptr) kept = *source;
@@ -229,7 +233,8 @@ struct IonKey {
     return description == o.description && element == o.element &&
            state == o.state && moment == o.moment && low == o.low &&
            high == o.high && ligand == o.ligand && f == o.f &&
-           environment == o.environment;
+           environment == o.environment && model == o.model &&
+           ordered == o.ordered && site == o.site;
   }
   uint64_t Hash() const {
     return (reinterpret_cast<uintptr_t>(description) ^
@@ -237,6 +242,9 @@ struct IonKey {
             (high * 0x165667B19E3779F9ull) ^ static_cast<uint64_t>(state) ^
             (f * 0x27D4EB2F165667C5ull) ^
             (static_cast<uint64_t>(environment) << 40) ^
+            (static_cast<uint64_t>(model) << 52) ^
+            (ordered * 0x94D049BB133111EBull) ^
+            reinterpret_cast<uintptr_t>(site) ^
             reinterpret_cast<uintptr_t>(ligand)) *
            0xFF51AFD7ED558CCDull;
   }
@@ -266,11 +274,14 @@ template <typename Visitor>
 void VisitIon(const IonAnnotation& ion, Visitor& v) {
   const AtomDescription& d = *ion.description;
   v.Cached(
-      IonKey{&ion.description, nullptr, ion.description.get(), ion.element,
-             ion.state, Bits(ion.moment), Bits(ion.moment_low),
-             Bits(ion.moment_high), ion.ligand, Bits(ion.ligand_f),
-             static_cast<int>(ion.spin_basis) * 4 +
-                 (ion.near_spin_crossover ? 2 : 0) + (ion.bonded ? 1 : 0)},
+      IonKey{
+          &ion.description, nullptr, ion.description.get(), ion.element,
+          ion.state, Bits(ion.moment), Bits(ion.moment_low),
+          Bits(ion.moment_high), ion.ligand, Bits(ion.ligand_f),
+          static_cast<int>(ion.spin_basis) * 4 +
+              (ion.near_spin_crossover ? 2 : 0) + (ion.bonded ? 1 : 0),
+          static_cast<int>(ion.model) * 16 + static_cast<int>(ion.range_basis),
+          Bits(ion.ordered_moment), ion.site.data()},
       {VaryingValue::Number(ion.count.ToDouble())}, [&](auto& v) {
         const LigandFieldSplitting* lf =
             d.ligand_field.has_value() ? &d.ligand_field->splitting : nullptr;
@@ -300,8 +311,7 @@ void VisitIon(const IonAnnotation& ion, Visitor& v) {
                  lf != nullptr ? lf->Notation() : "");
         v.String(SHELLWRIGHT_REPORT_FIELD(term_symbol), d.term.ToAscii());
         v.Double(SHELLWRIGHT_REPORT_FIELD(moment), ion.moment);
-        v.String(SHELLWRIGHT_REPORT_FIELD(moment_basis),
-                 Name(d.moments.recommended_basis));
+        v.String(SHELLWRIGHT_REPORT_FIELD(moment_basis), Name(ion.model));
         v.Double(SHELLWRIGHT_REPORT_FIELD(moment_low), ion.moment_low);
         v.Double(SHELLWRIGHT_REPORT_FIELD(moment_high), ion.moment_high);
         v.String(SHELLWRIGHT_REPORT_FIELD(ligand),
@@ -312,6 +322,10 @@ void VisitIon(const IonAnnotation& ion, Visitor& v) {
         v.Bool(SHELLWRIGHT_REPORT_FIELD(near_spin_crossover),
                ion.near_spin_crossover);
         v.Bool(SHELLWRIGHT_REPORT_FIELD(bonded), ion.bonded);
+        v.String(SHELLWRIGHT_REPORT_FIELD(moment_range_basis),
+                 Name(ion.range_basis));
+        v.Double(SHELLWRIGHT_REPORT_FIELD(ordered_moment), ion.ordered_moment);
+        v.String(SHELLWRIGHT_REPORT_FIELD(site), ion.site);
       });
 }
 
@@ -411,6 +425,17 @@ void VisitRecordReport(const CompositionReport& r,
            assigned ? absl::string_view(r.moment_note) : "");
   v.Double(SHELLWRIGHT_REPORT_FIELD(total_valence_electrons),
            number(r.total_valence_electrons));
+  const bool estimated = assigned && saturation.has_value();
+  v.Double(SHELLWRIGHT_REPORT_FIELD(saturation_moment_low),
+           estimated ? r.saturation_moment_low : 0.0);
+  v.Double(SHELLWRIGHT_REPORT_FIELD(saturation_moment_high),
+           estimated ? r.saturation_moment_high : 0.0);
+  v.String(SHELLWRIGHT_REPORT_FIELD(saturation_moment_model),
+           estimated ? Name(r.saturation_model) : "");
+  v.String(SHELLWRIGHT_REPORT_FIELD(structure_family),
+           assigned ? r.structure_family : "");
+  v.String(SHELLWRIGHT_REPORT_FIELD(structure_note),
+           assigned ? absl::string_view(r.structure_note) : "");
 }
 
 }  // namespace shellwright

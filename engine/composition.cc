@@ -13,7 +13,10 @@
 #include "engine/formula.h"
 #include "engine/internal/state_options.h"
 #include "engine/internal/text.h"
+#include "engine/ion_moments.h"
 #include "engine/ligand_field.h"
+#include "engine/magnetism.h"
+#include "engine/sites.h"
 #include "engine/units.h"
 
 namespace shellwright {
@@ -174,15 +177,349 @@ RangeEnds FindRangeEnds(const Element* e, int state) {
   return slot.by_state[state + kMaxState];
 }
 
+// The ordered moment g S of an ion with `unpaired` electrons whose
+// effective moment g √(S(S+1)) is `effective`.
+double OrderedFromEffective(double effective, int unpaired) {
+  if (unpaired <= 0) return 0;
+  const double spin = unpaired / 2.0;
+  return effective * spin / std::sqrt(spin * (spin + 1.0));
+}
+
+// The d electrons of a split d subshell.
+int SplitElectrons(const LigandFieldSplitting& split) {
+  int n = 0;
+  for (const SplitLevel& level : split.levels) n += level.electrons;
+  return n;
+}
+
+// Unpaired electrons of d^n in `g` and `spin`, read from a table built on
+// first use (SplitD allocates; every record's d ions ask).
+int SplitUnpaired(int d, Geometry g, SpinState spin) {
+  constexpr int kGeometries =
+      static_cast<int>(Geometry::kTrigonalPrismatic) + 1;
+  using Table = std::array<int, 11 * kGeometries * 2>;
+  static const Table* const kTable = [] {
+    auto* t = new Table;
+    for (int n = 0; n <= 10; ++n) {
+      for (int k = 0; k < kGeometries; ++k) {
+        for (int low = 0; low < 2; ++low) {
+          const Geometry geometry = static_cast<Geometry>(k);
+          (*t)[(n * kGeometries + k) * 2 + low] =
+              geometry == Geometry::kFree
+                  ? 0
+                  : SplitD(n, geometry,
+                           low ? SpinState::kLow : SpinState::kHigh)
+                        .unpaired;
+        }
+      }
+    }
+    return t;
+  }();
+  if (d < 0 || d > 10) return 0;
+  return (*kTable)[(d * kGeometries + static_cast<int>(g)) * 2 +
+                   (spin == SpinState::kLow ? 1 : 0)];
+}
+
+// The effective range of a 3d ion in one spin state: spin-only widened
+// by the tabulated orbital contribution, or spin-only alone where the
+// table has no row. Sets *tabulated when it has one.
+std::pair<double, double> SpinStateRange(int d, Geometry g, SpinState spin,
+                                         bool* tabulated) {
+  const double spin_only = SpinOnlyMoment(SplitUnpaired(d, g, spin));
+  const std::optional<MomentRange> row = FindOrbitalRange(d, g, spin);
+  if (tabulated != nullptr) *tabulated = row.has_value();
+  if (!row.has_value()) return {spin_only, spin_only};
+  return {std::min(spin_only, row->low), std::max(spin_only, row->high)};
+}
+
+// Van Vleck and Kotani estimates of one ion at the default temperature,
+// computed once per element (every record with Nd3+ or Ru3+ asks).
+struct RoomTemperatureMoments {
+  std::optional<VanVleckResult> van_vleck;
+  std::optional<KotaniEstimate> kotani;
+};
+
+const RoomTemperatureMoments& FindRoomTemperatureMoments(const Element* e,
+                                                         int state) {
+  constexpr int kMaxState = 9;
+  struct PerElement {
+    std::once_flag once;
+    std::array<RoomTemperatureMoments, 2 * kMaxState + 1> by_state;
+  };
+  static std::array<PerElement, kMaxAtomicNumber + 1>* const kTable =
+      new std::array<PerElement, kMaxAtomicNumber + 1>;
+  static const RoomTemperatureMoments* const kNone = new RoomTemperatureMoments;
+  if (state < -kMaxState || state > kMaxState) return *kNone;
+  PerElement& slot = (*kTable)[e->atomic_number];
+  std::call_once(slot.once, [&] {
+    for (int q = -kMaxState; q <= kMaxState; ++q) {
+      RoomTemperatureMoments& m = slot.by_state[q + kMaxState];
+      m.van_vleck = VanVleckMoment(e->atomic_number, q, kDefaultTemperature);
+      m.kotani = EstimateKotaniMoment(*e, q, kDefaultTemperature);
+    }
+  });
+  return slot.by_state[state + kMaxState];
+}
+
+// The moment of a 4f ion with tabulated multiplet intervals: a Van Vleck
+// sum over its J levels at `temperature` (engine/ion_moments.h). Near room
+// temperature (within kRoomTemperatureBand) the range runs to the
+// measured room-temperature value. False where no sum applies.
+bool SetVanVleck(const AtomDescription& d, const AssignedState& s,
+                 double temperature, IonAnnotation* ion) {
+  constexpr double kRoomTemperatureBand = 50;  // K.
+  const std::optional<VanVleckResult> vv =
+      temperature == kDefaultTemperature
+          ? FindRoomTemperatureMoments(s.element, s.state).van_vleck
+          : VanVleckMoment(s.element->atomic_number, s.state, temperature);
+  if (!vv.has_value()) return false;
+  const Moments& m = d.moments;
+  ion->moment = ion->moment_low = ion->moment_high = vv->effective_moment;
+  ion->model = IonMomentModel::kVanVleck;
+  ion->range_basis = RangeBasis::kExact;
+  if (m.measured.has_value() &&
+      std::abs(temperature - kRoomTemperatureK) <= kRoomTemperatureBand) {
+    ion->moment_low = std::min(ion->moment_low, *m.measured);
+    ion->moment_high = std::max(ion->moment_high, *m.measured);
+    ion->range_basis = RangeBasis::kMeasured;
+  }
+  ion->ordered_moment = ion->ordered_low = ion->ordered_high = m.saturation;
+  return true;
+}
+
+// The anion element most atoms of the assignment's free anions belong to
+// (O in UO2, Cl in UCl4), or 0.
+int MainAnion(const OxidationAssignment& a) {
+  int z = 0;
+  Rational most(0);
+  for (const AssignedState& t : a.states) {
+    if (t.unit >= 0 || t.state >= 0 || !(most < t.count)) continue;
+    most = t.count;
+    z = t.element->atomic_number;
+  }
+  return z;
+}
+
+// The moment of an actinide ion: a measured value for it in its anion
+// class where one is tabulated, else a cautioned estimate around the
+// Russell-Saunders J moment (engine/ion_moments.h). False outside 5f ions.
+bool SetActinide(const AtomDescription& d, const AssignedState& s, int anion_z,
+                 IonAnnotation* ion) {
+  const int z = s.element->atomic_number;
+  if (s.element->block != Block::kF || s.element->period != 7) return false;
+  if (std::optional<ActinideMoment> row =
+          FindActinideMoment(z, s.state, anion_z)) {
+    ion->moment = (row->low + row->high) / 2;
+    ion->moment_low = row->low;
+    ion->moment_high = row->high;
+    ion->model = IonMomentModel::kTabulated;
+    ion->range_basis = RangeBasis::kMeasured;
+  } else if (std::optional<ActinideEstimate> e =
+                 EstimateActinideMoment(z, s.state)) {
+    ion->moment = e->j_moment;
+    ion->moment_low = std::min(e->low, e->j_moment);
+    ion->moment_high = std::max(e->high, e->j_moment);
+    ion->model = IonMomentModel::kJMultiplet;
+    ion->range_basis = RangeBasis::kEstimate;
+  } else {
+    return false;
+  }
+  ion->ordered_moment = d.moments.saturation;
+  ion->ordered_low = std::min(ion->ordered_moment, ion->moment_low);
+  ion->ordered_high = std::max(ion->ordered_moment, ion->moment_high);
+  return true;
+}
+
+// The moment of a low-spin octahedral 4d or 5d t2g^n ion (n 1..5) whose
+// spin-orbit constant is tabulated: Kotani's value at `temperature`, with
+// a range to spin-only (engine/ion_moments.h). False where none applies.
+bool SetKotani(const AtomDescription& d, const AssignedState& s,
+               double temperature, IonAnnotation* ion) {
+  const LigandFieldSplitting& split = d.ligand_field->splitting;
+  if (split.geometry != Geometry::kOctahedral || split.levels.size() < 2 ||
+      split.levels[1].electrons != 0) {
+    return false;
+  }
+  const std::optional<KotaniEstimate> k =
+      temperature == kDefaultTemperature
+          ? FindRoomTemperatureMoments(s.element, s.state).kotani
+          : EstimateKotaniMoment(*s.element, s.state, temperature);
+  if (!k.has_value() || k->t2g_electrons != split.levels[0].electrons) {
+    return false;
+  }
+  ion->moment = k->kotani_moment;
+  ion->moment_low = k->low;
+  ion->moment_high = k->high;
+  ion->model = IonMomentModel::kKotani;
+  ion->range_basis = RangeBasis::kSpinOrbit;
+  return true;
+}
+
+void SetMomentRange(const AtomDescription& d, const IonEnvironment& env,
+                    const AssignedState& s, bool fixed, double temperature,
+                    int anion_z, IonAnnotation* ion) {
+  const Moments& m = d.moments;
+  ion->moment = m.recommended;
+  ion->model = m.recommended_basis == MomentBasis::kJ
+                   ? IonMomentModel::kJMultiplet
+                   : IonMomentModel::kSpinOnly;
+  ion->moment_low = ion->moment_high = ion->moment;
+  ion->range_basis = RangeBasis::kExact;
+  const int unpaired = d.unpaired_electrons;
+  ion->ordered_moment = ion->model == IonMomentModel::kJMultiplet
+                            ? m.saturation
+                            : static_cast<double>(unpaired);
+  ion->ordered_low = ion->ordered_high = ion->ordered_moment;
+  if (d.ligand_field.has_value()) {
+    const LigandFieldSplitting& split = d.ligand_field->splitting;
+    const int n = SplitElectrons(split);
+    if (d.ligand_field->subshell.n == 3) {
+      if (env.near_crossover && !fixed) {
+        // Either state may be found: the range spans both.
+        const auto low =
+            SpinStateRange(n, split.geometry, SpinState::kLow, nullptr);
+        const auto high =
+            SpinStateRange(n, split.geometry, SpinState::kHigh, nullptr);
+        ion->moment_low = std::min({ion->moment, low.first, high.first});
+        ion->moment_high = std::max({ion->moment, low.second, high.second});
+        ion->ordered_low = OrderedFromEffective(
+            low.first, SplitUnpaired(n, split.geometry, SpinState::kLow));
+        ion->ordered_high = OrderedFromEffective(
+            high.second, SplitUnpaired(n, split.geometry, SpinState::kHigh));
+        ion->range_basis = RangeBasis::kSpinCrossover;
+      } else {
+        bool tabulated = false;
+        const auto range =
+            SpinStateRange(n, split.geometry, split.spin_state, &tabulated);
+        if (tabulated) {
+          ion->moment_low = std::min(ion->moment, range.first);
+          ion->moment_high = std::max(ion->moment, range.second);
+          ion->range_basis = RangeBasis::kOrbitalContribution;
+          // An S-state ion (high-spin d5, 6S) has no orbital moment to
+          // lend: g = 2 exactly, and the effective range is scatter.
+          const bool s_state = d.term.l == 0 && d.term.two_s == unpaired;
+          if (!s_state) {
+            ion->ordered_low = OrderedFromEffective(ion->moment_low, unpaired);
+            ion->ordered_high =
+                OrderedFromEffective(ion->moment_high, unpaired);
+          }
+        }
+      }
+    } else if (SetKotani(d, s, temperature, ion)) {
+      // Done.
+    } else if (!fixed) {
+      // 4d and 5d ions: from low spin to the free ion.
+      const RangeEnds ends = FindRangeEnds(s.element, s.state);
+      if (ends.low.has_value()) {
+        ion->moment_low = std::min(ion->moment_low, *ends.low);
+      }
+      if (ends.high.has_value()) {
+        ion->moment_high = std::max(ion->moment_high, *ends.high);
+      }
+      ion->range_basis = RangeBasis::kSpinStates;
+    }
+  } else if (SetActinide(d, s, anion_z, ion) ||
+             SetVanVleck(d, s, temperature, ion)) {
+    // Done.
+  } else if (!fixed && m.recommended_basis == MomentBasis::kJ &&
+             m.measured.has_value()) {
+    ion->moment_low = std::min(ion->moment, *m.measured);
+    ion->moment_high = std::max(ion->moment, *m.measured);
+    ion->range_basis = RangeBasis::kMeasured;
+  }
+}
+
 // Annotates every free ion with its environment and moment range, and
 // every unit with its moment.
-void Annotate(
-    const Formula& formula,
-    const std::vector<std::pair<const Element*, Geometry>>& geometry,
-    const std::vector<std::pair<const Element*, SpinStatePreference>>& spin,
-    CompositionReport* r) {
+// The record's per-element settings.
+struct ElementSettings {
+  std::vector<std::pair<const Element*, Geometry>> geometry;
+  std::vector<std::pair<const Element*, SpinStatePreference>> spin;
+};
+
+// The environment of the free ion `s` as its ligands and the record's
+// settings set it (engine/coordination.h).
+IonEnvironment EnvironmentOf(const Formula& formula, const AssignedState& s,
+                             const ElementSettings& settings,
+                             const CompositionReport& r) {
+  const Geometry* g_set = FindSetting(settings.geometry, s.element);
+  const SpinStatePreference* s_set = FindSetting(settings.spin, s.element);
+  IonEnvironment env;
+  if (s.element->block == Block::kD && (r.kind == CompositionKind::kIonic ||
+                                        r.kind == CompositionKind::kZintl)) {
+    env = FindEnvironment(formula, *r.assignment, s, g_set, s_set);
+  } else {
+    env.geometry = g_set != nullptr ? *g_set : Geometry::kFree;
+    env.spin_state = s_set != nullptr ? *s_set : SpinStatePreference::kAuto;
+    if (g_set != nullptr || s_set != nullptr) env.basis = SpinBasis::kRecord;
+  }
+  return env;
+}
+
+// `env` with the coordination of `site` in place of the default
+// octahedron, where the record set neither geometry nor spin state: the
+// tetrahedral sites of spinels and garnets hold high-spin 3d ions (common
+// practice, no source: tetrahedral splitting is about 4/9 of octahedral).
+IonEnvironment OnSite(IonEnvironment env, const AssignedState& s,
+                      const Site& site) {
+  if (env.basis == SpinBasis::kRecord || s.element->block != Block::kD ||
+      site.geometry == env.geometry) {
+    return env;
+  }
+  env.geometry = site.geometry;
+  env.near_crossover = false;
+  if (site.geometry == Geometry::kTetrahedral) {
+    const int d = CoordinationDCount(*s.element, s.state);
+    env.spin_state = SpinStatePreference::kHigh;
+    env.basis =
+        d >= 3 && d <= 6 ? SpinBasis::kTetrahedral : SpinBasis::kNoChoice;
+  } else {
+    env.spin_state = SpinStatePreference::kAuto;
+    env.basis = SpinBasis::kNone;
+  }
+  return env;
+}
+
+// Annotates the free ion `s` (`count` of it, in `env`, on `site` when a
+// structure family placed it there) with its description and moments.
+void AnnotateIon(const AssignedState& s, const Rational& count,
+                 const IonEnvironment& env, const Site* site,
+                 const ElementSettings& settings, double temperature,
+                 int anion_z, CompositionReport* r) {
+  absl::StatusOr<AtomDescriptionPtr> d =
+      DescribeIon(s.element, s.state, env.geometry, env.spin_state);
+  if (!d.ok()) {
+    Add(r, Severity::kWarning, codes::kIonNotDescribed,
+        absl::StrCat(s.element->symbol, SignedState(s.state), ": ",
+                     d.status().message()));
+    return;
+  }
+  IonAnnotation ion{s.element, s.state, count, *d, 0, 0, 0};
+  ion.ligand = env.ligand;
+  ion.ligand_f = env.f;
+  ion.spin_basis =
+      (*d)->ligand_field.has_value() ? env.basis : SpinBasis::kNone;
+  ion.near_spin_crossover = env.near_crossover;
+  ion.bonded = internal::OpenShellState(*s.element, s.state);
+  if (site != nullptr) ion.site = site->name;
+  if (!ion.bonded) {  // Bonded: no moment, all zero.
+    const bool fixed = FindSetting(settings.geometry, s.element) != nullptr ||
+                       FindSetting(settings.spin, s.element) != nullptr ||
+                       (s.state <= 0 && (*d)->configuration_user_supplied);
+    SetMomentRange(**d, env, s, fixed, temperature, anion_z, &ion);
+  }
+  r->ions.push_back(ion);
+}
+
+// Annotates every free ion with its environment and moment range (one
+// ion per site it occupies where `placement` placed it), and every unit
+// with its moment.
+void Annotate(const Formula& formula, const ElementSettings& settings,
+              const SitePlacement* placement, double temperature,
+              CompositionReport* r) {
   const OxidationAssignment& assignment = *r->assignment;
-  r->ions.reserve(assignment.states.size());
+  const int anion_z = MainAnion(assignment);
+  r->ions.reserve(assignment.states.size() + (placement != nullptr ? 4 : 0));
   for (const AssignedUnit& u : assignment.units) {
     r->units.push_back({u.unit, u.count,
                         std::sqrt(static_cast<double>(
@@ -190,59 +527,63 @@ void Annotate(
   }
   for (const AssignedState& s : assignment.states) {
     if (s.unit >= 0) continue;  // Bonded in a unit: not an ion.
-    const Geometry* g_set = FindSetting(geometry, s.element);
-    const SpinStatePreference* s_set = FindSetting(spin, s.element);
-    const bool d_block = s.element->block == Block::kD;
-    IonEnvironment env;
-    if (d_block && (r->kind == CompositionKind::kIonic ||
-                    r->kind == CompositionKind::kZintl)) {
-      env = FindEnvironment(formula, assignment, s, g_set, s_set);
-    } else {
-      env.geometry = g_set != nullptr ? *g_set : Geometry::kFree;
-      env.spin_state = s_set != nullptr ? *s_set : SpinStatePreference::kAuto;
-      if (g_set != nullptr || s_set != nullptr) env.basis = SpinBasis::kRecord;
-    }
-    const Geometry g = env.geometry;
-    const SpinStatePreference sp = env.spin_state;
-    absl::StatusOr<AtomDescriptionPtr> d =
-        DescribeIon(s.element, s.state, g, sp);
-    if (!d.ok()) {
-      Add(r, Severity::kWarning, codes::kIonNotDescribed,
-          absl::StrCat(s.element->symbol, SignedState(s.state), ": ",
-                       d.status().message()));
-      continue;
-    }
-    IonAnnotation ion{s.element, s.state, s.count, *d, 0, 0, 0};
-    ion.ligand = env.ligand;
-    ion.ligand_f = env.f;
-    ion.spin_basis =
-        (*d)->ligand_field.has_value() ? env.basis : SpinBasis::kNone;
-    ion.near_spin_crossover = env.near_crossover;
-    ion.bonded = internal::OpenShellState(*s.element, s.state);
-    if (ion.bonded) {
-      r->ions.push_back(ion);  // No moment: all zero.
-      continue;
-    }
-    const Moments& m = (*d)->moments;
-    ion.moment = m.recommended;
-    ion.moment_low = ion.moment_high = ion.moment;
-    const bool fixed = g_set != nullptr || s_set != nullptr ||
-                       (s.state <= 0 && (*d)->configuration_user_supplied);
-    if (!fixed && (*d)->ligand_field.has_value()) {
-      const RangeEnds ends = FindRangeEnds(s.element, s.state);
-      if (ends.low.has_value()) {
-        ion.moment_low = std::min(ion.moment_low, *ends.low);
+    const IonEnvironment env = EnvironmentOf(formula, s, settings, *r);
+    bool placed = false;
+    if (placement != nullptr) {
+      for (const Site& site : placement->sites) {
+        for (const SiteOccupant& o : site.occupants) {
+          if (o.element != s.element || o.state != s.state) continue;
+          AnnotateIon(s, o.count, OnSite(env, s, site), &site, settings,
+                      temperature, anion_z, r);
+          placed = true;
+        }
       }
-      if (ends.high.has_value()) {
-        ion.moment_high = std::max(ion.moment_high, *ends.high);
-      }
-    } else if (!fixed && m.recommended_basis == MomentBasis::kJ &&
-               m.measured.has_value()) {
-      ion.moment_low = std::min(ion.moment, *m.measured);
-      ion.moment_high = std::max(ion.moment, *m.measured);
     }
-    r->ions.push_back(ion);
+    if (!placed) {
+      AnnotateIon(s, s.count, env, nullptr, settings, temperature, anion_z, r);
+    }
   }
+}
+
+// The saturation moment of ions placed on sites, with its range, from
+// Néel's collinear model (engine/sites.h): each occupant's ordered moment
+// at its nominal value and at the ends of its range, the range taken over
+// the corners that raise one sublattice and lower the other.
+void ApplySublattices(const SitePlacement& placement, CompositionReport* r) {
+  std::vector<double> nominal, up_high, up_low;
+  for (const Site& site : placement.sites) {
+    for (const SiteOccupant& o : site.occupants) {
+      const IonAnnotation* found = nullptr;
+      for (const IonAnnotation& ion : r->ions) {
+        if (ion.element == o.element && ion.state == o.state &&
+            ion.site == site.name) {
+          found = &ion;
+        }
+      }
+      if (found == nullptr) return;  // Not described: no estimate.
+      nominal.push_back(found->ordered_moment);
+      const bool up = site.direction >= 0;
+      up_high.push_back(up ? found->ordered_high : found->ordered_low);
+      up_low.push_back(up ? found->ordered_low : found->ordered_high);
+    }
+  }
+  const SublatticeMoment m = NeelSaturation(placement, nominal);
+  r->structure_note = placement.note;
+  if (!m.note.empty()) absl::StrAppend(&r->structure_note, "; ", m.note);
+  if (!m.determined) return;
+  double low = m.saturation, high = m.saturation;
+  // Where every ordered moment is exact (S-state ions), so is the sum.
+  const bool exact = up_high == nominal && up_low == nominal;
+  for (const std::vector<double>* corner : {&up_high, &up_low}) {
+    if (exact) break;
+    const SublatticeMoment c = NeelSaturation(placement, *corner);
+    low = std::min(low, c.saturation);
+    high = std::max(high, c.saturation);
+  }
+  r->saturation_moment_per_formula_unit = m.saturation;
+  r->saturation_moment_low = low;
+  r->saturation_moment_high = high;
+  r->saturation_model = MomentModel::kSublatticeNeel;
 }
 
 // Unpaired electrons per formula unit, exactly: 0.7 x 4 + 0.3 x 3 is 3.7,
@@ -292,6 +633,10 @@ void ApplyMetallicModel(const Formula& formula, CompositionReport* r) {
   MetallicMomentEstimate m = EstimateMetallicMoment(formula.amounts);
   r->moment_model = m.model;
   r->saturation_moment_per_formula_unit = m.saturation;
+  if (m.saturation.has_value()) {
+    r->saturation_moment_low = r->saturation_moment_high = *m.saturation;
+    r->saturation_model = m.model;
+  }
   r->moment_note = std::move(m.note);
   const double effective = m.effective.value_or(0);
   r->unpaired_per_formula_unit = m.localized_unpaired;
@@ -331,6 +676,68 @@ void Summarise(const Formula& formula, CompositionReport* r) {
       (r->kind == CompositionKind::kElemental && formula.amounts.size() == 1 &&
        IsMetal(*formula.amounts[0].element));
   if (metal_phase) ApplyMetallicModel(formula, r);
+}
+
+// Checks a measured moment against its expected range [low, high]: an
+// error naming `what` when it lies outside by more than the tolerance.
+// Returns false (with an error) for a bad value or tolerance.
+void CheckOneMoment(absl::string_view what, double measured,
+                    std::optional<double> tolerance_set, double low,
+                    double high, absl::string_view model,
+                    CompositionReport* r) {
+  const double tolerance = tolerance_set.value_or(kDefaultMomentTolerance);
+  if (measured < low - tolerance || measured > high + tolerance) {
+    Add(r, Severity::kError, codes::kMomentOutOfRange,
+        absl::StrFormat("measured %s %.2f μB per formula unit is outside the "
+                        "expected %.2f to %.2f μB (±%.2f, %s); estimates are "
+                        "idealised",
+                        what, measured, low, high, tolerance, model));
+  }
+}
+
+bool BadMomentValues(std::optional<double> measured,
+                     std::optional<double> tolerance) {
+  auto bad = [](std::optional<double> v) {
+    return v.has_value() && (!std::isfinite(*v) || *v < 0);
+  };
+  return bad(measured) || (measured.has_value() && bad(tolerance));
+}
+
+void CheckMeasuredMoments(const CompositionInput& input, CompositionReport* r) {
+  const bool local =
+      r->kind == CompositionKind::kIonic || r->kind == CompositionKind::kZintl;
+  if (BadMomentValues(input.measured_moment, input.moment_tolerance)) {
+    Add(r, Severity::kError, codes::kMalformedRecord,
+        "measured_moment and moment_tolerance must be finite and "
+        "non-negative");
+  } else if (input.measured_moment.has_value()) {
+    if (!local) {
+      Add(r, Severity::kInfo, codes::kMomentCheckSkipped,
+          "local-moment estimates do not apply to metallic or elemental "
+          "compositions; the measured moment was not checked");
+    } else {
+      CheckOneMoment("effective moment", *input.measured_moment,
+                     input.moment_tolerance, r->expected_moment_low,
+                     r->expected_moment_high, "local moments", r);
+    }
+  }
+  if (BadMomentValues(input.measured_saturation_moment,
+                      input.saturation_moment_tolerance)) {
+    Add(r, Severity::kError, codes::kMalformedRecord,
+        "measured_saturation_moment and saturation_moment_tolerance must be "
+        "finite and non-negative");
+  } else if (input.measured_saturation_moment.has_value()) {
+    if (!r->saturation_moment_per_formula_unit.has_value()) {
+      Add(r, Severity::kInfo, codes::kMomentCheckSkipped,
+          "no ordered-moment model applies to this composition; the "
+          "measured saturation moment was not checked");
+    } else {
+      CheckOneMoment("saturation moment", *input.measured_saturation_moment,
+                     input.saturation_moment_tolerance,
+                     r->saturation_moment_low, r->saturation_moment_high,
+                     Name(r->saturation_model), r);
+    }
+  }
 }
 
 }  // namespace
@@ -404,9 +811,20 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
   }
 
   // Per-record settings.
+  if (input.temperature.has_value() &&
+      !(std::isfinite(*input.temperature) && *input.temperature > 0 &&
+        *input.temperature <= kMaxTemperature)) {
+    Add(&r, Severity::kError, codes::kMalformedRecord,
+        absl::StrFormat("temperature %g K is not valid: it must be above 0 "
+                        "and at most %g K",
+                        *input.temperature, kMaxTemperature));
+  }
   std::vector<std::pair<const Element*, int>> declared;
-  std::vector<std::pair<const Element*, Geometry>> geometry;
-  std::vector<std::pair<const Element*, SpinStatePreference>> spin;
+  ElementSettings settings;
+  std::vector<std::pair<const Element*, Geometry>>& geometry =
+      settings.geometry;
+  std::vector<std::pair<const Element*, SpinStatePreference>>& spin =
+      settings.spin;
   std::string error;
   if (!ParseElementList<int>(input.declared_states, "declared_states",
                              ParseState, &declared, &error)) {
@@ -430,6 +848,20 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
           },
           &spin, &error)) {
     Add(&r, Severity::kError, codes::kMalformedElementSettings, error);
+  }
+  FamilyChoice family = FamilyChoice::kAuto;
+  if (!input.structure_family.empty()) {
+    absl::StatusOr<FamilyChoice> parsed = ParseName<FamilyChoice>(
+        absl::StripAsciiWhitespace(input.structure_family));
+    if (parsed.ok()) {
+      family = *parsed;
+    } else {
+      Add(&r, Severity::kError, codes::kMalformedElementSettings,
+          absl::StrCat("structure_family ",
+                       QuoteForMessage(input.structure_family),
+                       " is not one of auto, none, spinel, garnet, "
+                       "hexaferrite, perovskite"));
+    }
   }
   OxidationOptions options;
   options.net_charge = net_charge.value_or(0);
@@ -563,35 +995,29 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     }
   }
 
-  Annotate(*formula, geometry, spin, &r);
-  Summarise(*formula, &r);
-
-  if (input.measured_moment.has_value()) {
-    const double measured = *input.measured_moment;
-    const double tolerance =
-        input.moment_tolerance.value_or(kDefaultMomentTolerance);
-    // A bad value is an error even where the check itself is skipped.
-    const bool bad_values = !std::isfinite(measured) || measured < 0 ||
-                            !std::isfinite(tolerance) || tolerance < 0;
-    if (r.kind != CompositionKind::kIonic &&
-        r.kind != CompositionKind::kZintl && !bad_values) {
-      Add(&r, Severity::kInfo, codes::kMomentCheckSkipped,
-          "local-moment estimates do not apply to metallic or elemental "
-          "compositions; the measured moment was not checked");
-    } else if (bad_values) {
-      Add(&r, Severity::kError, codes::kMalformedRecord,
-          "measured_moment and moment_tolerance must be finite and "
-          "non-negative");
-    } else if (measured < r.expected_moment_low - tolerance ||
-               measured > r.expected_moment_high + tolerance) {
-      Add(&r, Severity::kError, codes::kMomentOutOfRange,
-          absl::StrFormat("measured moment %.2f μB per formula unit is "
-                          "outside the expected %.2f to %.2f μB (±%.2f); "
-                          "estimates are idealised",
-                          measured, r.expected_moment_low,
-                          r.expected_moment_high, tolerance));
+  std::optional<SitePlacement> placement;
+  if (r.kind == CompositionKind::kIonic) {
+    std::string why_not;
+    placement = PlaceIons(*formula, *r.assignment, family, &why_not);
+    if (!why_not.empty()) {
+      Add(&r, Severity::kWarning, codes::kStructureFamilyNotMatched,
+          absl::StrCat("structure_family ", Name(family),
+                       " does not fit: ", why_not));
     }
+  } else if (family != FamilyChoice::kAuto && family != FamilyChoice::kOff) {
+    Add(&r, Severity::kWarning, codes::kStructureFamilyNotMatched,
+        absl::StrCat("structure_family ", Name(family),
+                     " applies to ionic compositions only"));
   }
+  Annotate(*formula, settings, placement ? &*placement : nullptr,
+           input.temperature.value_or(kDefaultTemperature), &r);
+  Summarise(*formula, &r);
+  if (placement.has_value()) {
+    r.structure_family = Name(placement->family);
+    ApplySublattices(*placement, &r);
+  }
+
+  CheckMeasuredMoments(input, &r);
   return finish();
 }
 

@@ -63,6 +63,10 @@ inline constexpr char kUnknownField[] = "unknown_field";
 // `check`: a record whose id an earlier record of the same input has
 // (counted in the summary and named on stderr, not in either report).
 inline constexpr char kDuplicateId[] = "duplicate_id";
+// The record's structure_family does not fit the composition (engine/
+// sites.h says why); no ions are placed on sites.
+inline constexpr char kStructureFamilyNotMatched[] =
+    "structure_family_not_matched";
 
 // Info.
 inline constexpr char kMixedValence[] = "mixed_valence";

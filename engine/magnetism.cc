@@ -1,5 +1,6 @@
 #include "engine/magnetism.h"
 
+#include <array>
 #include <cmath>
 
 #include "engine/internal/data_tables.h"
@@ -39,6 +40,56 @@ std::optional<MeasuredMoment> FindMeasuredMoment(int z, int charge) {
     }
   }
   return std::nullopt;
+}
+
+namespace {
+
+constexpr int kGeometries = static_cast<int>(Geometry::kTrigonalPrismatic) + 1;
+
+std::optional<MomentRange> LookUpOrbitalRange(int d_electrons,
+                                              Geometry geometry,
+                                              SpinState spin_state) {
+  const absl::string_view geometry_name = Name(geometry);
+  // Where both spin states put the electrons alike (octahedral d3, d8),
+  // the table lists one of them: either matches.
+  const bool either =
+      SplitD(d_electrons, geometry, SpinState::kHigh).unpaired ==
+      SplitD(d_electrons, geometry, SpinState::kLow).unpaired;
+  const bool low_spin = spin_state == SpinState::kLow;
+  for (const internal::OrbitalRangeRow& row : internal::OrbitalRangeRows()) {
+    if (row.d_electrons == d_electrons &&
+        (either || row.low_spin == low_spin) && geometry_name == row.geometry) {
+      return MomentRange{row.moment_low, row.moment_high, row.source};
+    }
+  }
+  return std::nullopt;
+}
+
+}  // namespace
+
+std::optional<MomentRange> FindOrbitalRange(int d_electrons, Geometry geometry,
+                                            SpinState spin_state) {
+  if (geometry == Geometry::kFree || d_electrons < 0 || d_electrons > 10) {
+    return std::nullopt;
+  }
+  // Every record's d ions ask: look each key up once.
+  using Table = std::array<std::optional<MomentRange>, 11 * kGeometries * 2>;
+  static const Table* const kTable = [] {
+    auto* t = new Table;
+    for (int d = 0; d <= 10; ++d) {
+      for (int g = 1; g < kGeometries; ++g) {
+        for (int low = 0; low < 2; ++low) {
+          (*t)[(d * kGeometries + g) * 2 + low] =
+              LookUpOrbitalRange(d, static_cast<Geometry>(g),
+                                 low ? SpinState::kLow : SpinState::kHigh);
+        }
+      }
+    }
+    return t;
+  }();
+  return (
+      *kTable)[(d_electrons * kGeometries + static_cast<int>(geometry)) * 2 +
+               (spin_state == SpinState::kLow ? 1 : 0)];
 }
 
 }  // namespace shellwright

@@ -31,6 +31,7 @@
 #include <optional>
 
 #include "absl/strings/string_view.h"
+#include "engine/ligand_field.h"
 #include "engine/term_symbol.h"
 
 namespace shellwright {
@@ -48,6 +49,22 @@ struct MeasuredMoment {
 
 // The measured effective moment of the ion (`z`, `charge`), if tabulated.
 std::optional<MeasuredMoment> FindMeasuredMoment(int z, int charge);
+
+// The spread of measured room-temperature effective moments of 3d ions
+// with `d_electrons` in `geometry` and `spin_state`, widened from the
+// spin-only value by the orbital contribution (data/orbital_ranges.tsv,
+// after Figgis and Lewis).
+struct MomentRange {
+  double low;   // μB.
+  double high;  // μB.
+  absl::string_view source;
+};
+
+// The tabulated range, or nullopt where the table has none (4d and 5d
+// ions, whose spin-orbit coupling is too strong for it, are not covered:
+// callers pass only 3d ions). Thread-safe.
+std::optional<MomentRange> FindOrbitalRange(int d_electrons, Geometry geometry,
+                                            SpinState spin_state);
 
 }  // namespace shellwright
 

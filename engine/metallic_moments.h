@@ -63,6 +63,7 @@ enum class MomentModel {
   kRareEarth4f,         // Trivalent 4f moments only.
   kRareEarth4fWith3d,   // 4f sublattice plus Fe/Co sublattice.
   kNone,                // No estimate: outside every rule's domain.
+  kSublatticeNeel,      // Néel's collinear sublattices (engine/sites.h).
 };
 
 template <>
@@ -75,7 +76,8 @@ struct EnumNames<MomentModel> {
       {MomentModel::kSlaterPaulingAlloy, "slater_pauling_alloy"},
       {MomentModel::kRareEarth4f, "rare_earth_4f"},
       {MomentModel::kRareEarth4fWith3d, "rare_earth_4f_with_3d"},
-      {MomentModel::kNone, "none"}};
+      {MomentModel::kNone, "none"},
+      {MomentModel::kSublatticeNeel, "sublattice_neel"}};
 };
 
 struct MetallicMomentEstimate {

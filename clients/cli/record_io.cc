@@ -420,16 +420,21 @@ bool SplitCsvLine(absl::string_view line, std::vector<std::string>* fields,
 }
 
 absl::Status CsvRecordReader::ReadHeader(absl::string_view line) {
-  static constexpr const char* kNames[kColumns] = {"id",
-                                                   "formula",
-                                                   "charge",
-                                                   "declared_states",
-                                                   "geometry",
-                                                   "spin_state",
-                                                   "measured_moment",
-                                                   "moment_tolerance",
-                                                   "max_alternatives",
-                                                   "variables"};
+  static constexpr const char* kNames[kColumns] = {
+      "id",
+      "formula",
+      "charge",
+      "declared_states",
+      "geometry",
+      "spin_state",
+      "measured_moment",
+      "moment_tolerance",
+      "max_alternatives",
+      "variables",
+      "measured_saturation_moment",
+      "saturation_moment_tolerance",
+      "structure_family",
+      "temperature"};
   std::vector<std::string> columns;
   std::string error;
   if (!SplitCsvLine(line, &columns, &error)) {
@@ -515,6 +520,10 @@ ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) {
   if (!Field(kGeometry).empty()) p.record.set_geometry(Field(kGeometry));
   if (!Field(kSpinState).empty()) p.record.set_spin_state(Field(kSpinState));
   if (!Field(kVariables).empty()) p.record.set_variables(Field(kVariables));
+  if (!Field(kStructureFamily).empty()) {
+    p.record.set_structure_family(
+        std::string(absl::StripAsciiWhitespace(Field(kStructureFamily))));
+  }
   auto parse_int = [&](Column k, const char* name, auto setter) {
     const absl::string_view v = absl::StripAsciiWhitespace(Field(k));
     if (v.empty()) return true;
@@ -545,7 +554,15 @@ ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) {
       !parse_double(kMeasuredMoment, "measured_moment",
                     [&](double v) { p.record.set_measured_moment(v); }) ||
       !parse_double(kMomentTolerance, "moment_tolerance",
-                    [&](double v) { p.record.set_moment_tolerance(v); })) {
+                    [&](double v) { p.record.set_moment_tolerance(v); }) ||
+      !parse_double(
+          kMeasuredSaturationMoment, "measured_saturation_moment",
+          [&](double v) { p.record.set_measured_saturation_moment(v); }) ||
+      !parse_double(
+          kSaturationMomentTolerance, "saturation_moment_tolerance",
+          [&](double v) { p.record.set_saturation_moment_tolerance(v); }) ||
+      !parse_double(kTemperature, "temperature",
+                    [&](double v) { p.record.set_temperature(v); })) {
     return p;
   }
   if (absl::StripAsciiWhitespace(p.record.id()).empty()) {

@@ -6,7 +6,9 @@
 //     regard to case or surrounding spaces); `id` and `formula` are
 //     required, and `charge`, `declared_states`, `geometry`,
 //     `spin_state`, `measured_moment`, `moment_tolerance`,
-//     `max_alternatives`, `variables` are understood (other columns are
+//     `measured_saturation_moment`, `saturation_moment_tolerance`,
+//     `structure_family`, `temperature`, `max_alternatives`, `variables`
+//     are understood (other columns are
 //     ignored, and listed by unknown_columns()). One record per line: fields
 //     may be quoted ("a, b"), with "" for a quote inside, but may not span
 //     lines (a line break inside quotes would let one broken quote swallow the
@@ -151,6 +153,10 @@ class CsvRecordReader {
     kMomentTolerance,
     kMaxAlternatives,
     kVariables,
+    kMeasuredSaturationMoment,
+    kSaturationMomentTolerance,
+    kStructureFamily,
+    kTemperature,
     kColumns
   };
   // The field of column k in the last split line, or "" when absent.

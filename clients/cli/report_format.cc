@@ -114,11 +114,12 @@ std::string FormatReportHuman(const v1::RecordReport& r) {
       }
       // Pad by characters: the superscripts take several bytes each.
       absl::StrAppendFormat(
-          &out, "  %-8s %-8g %-24s %-9d %s %s %.2f  [%.2f-%.2f]\n",
+          &out, "  %-8s %-8g %-24s %-9d %s %s %.2f  [%.2f-%.2f] %s%s\n",
           ion.species(), ion.count(),
           ion.configuration().empty() ? "(none)" : ion.configuration(),
           ion.unpaired_electrons(), PadTo(spin, 30), PadTo(split, 12),
-          ion.moment(), ion.moment_low(), ion.moment_high());
+          ion.moment(), ion.moment_low(), ion.moment_high(), ion.moment_basis(),
+          ion.site().empty() ? "" : absl::StrCat(", site ", ion.site()));
     }
   }
   if (metallic_model) {
@@ -158,6 +159,18 @@ std::string FormatReportHuman(const v1::RecordReport& r) {
         r.effective_moment_per_formula_unit(), r.expected_moment_low(),
         r.expected_moment_high(), r.curie_constant(),
         r.valence_electron_concentration());
+    if (!r.structure_family().empty()) {
+      absl::StrAppend(&out, "  Sites: ", r.structure_family(), ": ",
+                      r.structure_note(), "\n");
+    }
+    if (r.saturation_moment_estimated()) {
+      absl::StrAppendFormat(
+          &out,
+          "  Ordered moment: %.3g μB per formula unit (expected range "
+          "%.3g-%.3g, %s)\n",
+          r.saturation_moment_per_formula_unit(), r.saturation_moment_low(),
+          r.saturation_moment_high(), r.saturation_moment_model());
+    }
   }
   if (r.diagnostics_size() > 0) out += "\n";
   for (const v1::Diagnostic& d : r.diagnostics()) {

@@ -267,38 +267,63 @@ void AppendState(absl::string_view element, int32_t state, std::string* out) {
   absl::StrAppend(out, state);
 }
 
-// A CSV column and the report field it comes from.
+// What a CSV cell holds.
+enum class Cell {
+  kRow,
+  kId,
+  kValid,
+  kFormula,
+  kKind,
+  kStates,
+  kFigure,      // A number, blank for an invalid record.
+  kSaturation,  // A number, blank where no estimate is made.
+  kModel,
+  kSaturationModel,
+  kFamily,
+  kTotalValence,
+  kIons,
+  kCodes,
+  kMessages,
+};
+
+// A CSV column, the report field it comes from and what its cell holds.
 struct CsvColumn {
   absl::string_view name;
   absl::string_view field;
+  Cell cell;
 };
 
-// The CSV columns, in the header's order (see ReportCsvHeader). The
-// figures run from kFirstFigure for kFigures columns.
+// The CSV columns, in the header's order (see ReportCsvHeader).
 constexpr CsvColumn kCsvColumns[] = {
-    {"row", "row"},
-    {"id", "id"},
-    {"valid", "valid"},
-    {"formula", "formula"},
-    {"composition_kind", "composition_kind"},
-    {"oxidation_states", "oxidation_states"},
-    {"score", "score"},
-    {"unpaired_per_formula_unit", "unpaired_per_formula_unit"},
-    {"effective_moment_per_formula_unit", "effective_moment_per_formula_unit"},
-    {"expected_moment_low", "expected_moment_low"},
-    {"expected_moment_high", "expected_moment_high"},
-    {"curie_constant", "curie_constant"},
-    {"valence_electron_concentration", "valence_electron_concentration"},
-    {"saturation_moment_per_formula_unit",
-     "saturation_moment_per_formula_unit"},
-    {"moment_model", "moment_model"},
-    {"total_valence_electrons", "total_valence_electrons"},
-    {"ions", "ions"},
-    {"diagnostic_codes", "diagnostics"},
-    {"diagnostics", "diagnostics"}};
+    {"row", "row", Cell::kRow},
+    {"id", "id", Cell::kId},
+    {"valid", "valid", Cell::kValid},
+    {"formula", "formula", Cell::kFormula},
+    {"composition_kind", "composition_kind", Cell::kKind},
+    {"oxidation_states", "oxidation_states", Cell::kStates},
+    {"score", "score", Cell::kFigure},
+    {"unpaired_per_formula_unit", "unpaired_per_formula_unit", Cell::kFigure},
+    {"effective_moment_per_formula_unit", "effective_moment_per_formula_unit",
+     Cell::kFigure},
+    {"expected_moment_low", "expected_moment_low", Cell::kFigure},
+    {"expected_moment_high", "expected_moment_high", Cell::kFigure},
+    {"curie_constant", "curie_constant", Cell::kFigure},
+    {"valence_electron_concentration", "valence_electron_concentration",
+     Cell::kFigure},
+    {"saturation_moment_per_formula_unit", "saturation_moment_per_formula_unit",
+     Cell::kSaturation},
+    {"saturation_moment_low", "saturation_moment_low", Cell::kSaturation},
+    {"saturation_moment_high", "saturation_moment_high", Cell::kSaturation},
+    {"saturation_moment_model", "saturation_moment_model",
+     Cell::kSaturationModel},
+    {"moment_model", "moment_model", Cell::kModel},
+    {"structure_family", "structure_family", Cell::kFamily},
+    {"total_valence_electrons", "total_valence_electrons", Cell::kTotalValence},
+    {"ions", "ions", Cell::kIons},
+    {"diagnostic_codes", "diagnostics", Cell::kCodes},
+    {"diagnostics", "diagnostics", Cell::kMessages}};
 constexpr size_t kCsvColumnCount = std::size(kCsvColumns);
-constexpr size_t kFirstFigure = 6;
-constexpr size_t kFigures = 7;
+// The numbers of the columns, which the gatherer keeps by column.
 
 // Each column's field as its index in ReportMask::FieldNames(), so that
 // a mask is asked per column with a shift.
@@ -332,6 +357,10 @@ class CsvGatherer : public TopLevelVisitor {
       kind = v;
     } else if (f.name == "moment_model") {
       model = v;
+    } else if (f.name == "saturation_moment_model") {
+      saturation_model = v;
+    } else if (f.name == "structure_family") {
+      family = v;
     }
   }
   template <typename F>
@@ -340,11 +369,9 @@ class CsvGatherer : public TopLevelVisitor {
   }
   template <typename F>
   void Double(const F& f, double v) {
-    for (size_t i = 0; i < kFigures; ++i) {
-      if (f.name == kCsvColumns[kFirstFigure + i].field) numbers[i] = v;
+    for (size_t c = 0; c < kCsvColumnCount; ++c) {
+      if (f.name == kCsvColumns[c].field) numbers[c] = v;
     }
-    if (f.name == "saturation_moment_per_formula_unit") saturation = v;
-    if (f.name == "total_valence_electrons") total_valence = v;
   }
   template <typename F>
   void Bool(const F& f, bool v) {
@@ -381,6 +408,7 @@ class CsvGatherer : public TopLevelVisitor {
           }
         }
         absl::StrAppend(&ions, " moment=", ion.moment);
+        if (!ion.site.empty()) absl::StrAppend(&ions, " site=", ion.site);
       }
     } else if (f.name == "diagnostics") {
       bool first_code = true, first_message = true;
@@ -411,49 +439,52 @@ class CsvGatherer : public TopLevelVisitor {
  private:
   // Column c's cell.
   void WriteCell(size_t c, std::string* out) const {
-    if (c >= kFirstFigure && c < kFirstFigure + kFigures) {
-      // StrAppend prints doubles as %.6g does (but for the sign of a NaN,
-      // which reports never hold). An invalid record's figures are blank,
-      // not 0: it has none.
-      if (valid) absl::StrAppend(out, numbers[c - kFirstFigure]);
-      return;
-    }
-    switch (c) {
-      case 0:
+    switch (kCsvColumns[c].cell) {
+      case Cell::kFigure:
+      case Cell::kTotalValence:
+        // StrAppend prints doubles as %.6g does (but for the sign of a
+        // NaN, which reports never hold). An invalid record's figures are
+        // blank, not 0: it has none.
+        if (valid) absl::StrAppend(out, numbers[c]);
+        break;
+      case Cell::kSaturation:
+        // No estimate is a blank, not 0 (Fe2VAl's estimate is 0).
+        if (valid && estimated) absl::StrAppend(out, numbers[c]);
+        break;
+      case Cell::kRow:
         absl::StrAppend(out, row);
         break;
-      case 1:
+      case Cell::kId:
         CsvField(id, out);
         break;
-      case 2:
+      case Cell::kValid:
         out->append(valid ? "true" : "false");
         break;
-      case 3:
+      case Cell::kFormula:
         CsvField(formula, out);
         break;
-      case 4:
+      case Cell::kKind:
         CsvField(kind, out);
         break;
-      case 5:
+      case Cell::kStates:
         CsvField(states, out);
         break;
-      case kFirstFigure + kFigures:
-        // No estimate is a blank, not 0 (Fe2VAl's estimate is 0).
-        if (valid && estimated) absl::StrAppend(out, saturation);
-        break;
-      case kFirstFigure + kFigures + 1:
+      case Cell::kModel:
         CsvField(model, out);
         break;
-      case kFirstFigure + kFigures + 2:
-        if (valid) absl::StrAppend(out, total_valence);
+      case Cell::kSaturationModel:
+        CsvField(saturation_model, out);
         break;
-      case kFirstFigure + kFigures + 3:
+      case Cell::kFamily:
+        CsvField(family, out);
+        break;
+      case Cell::kIons:
         CsvField(ions, out);
         break;
-      case kFirstFigure + kFigures + 4:
+      case Cell::kCodes:
         CsvField(codes, out);
         break;
-      default:
+      case Cell::kMessages:
         CsvField(messages, out);
         break;
     }
@@ -463,7 +494,7 @@ class CsvGatherer : public TopLevelVisitor {
   // point into the report being walked, which outlives the member.
   struct Member : FieldByFieldVisitor<Member> {
     absl::string_view element, code, severity, message, exact, spin_state,
-        geometry;
+        geometry, site;
     std::string occupancy;
     int32_t state = 0;
     int32_t unpaired = 0;
@@ -480,6 +511,7 @@ class CsvGatherer : public TopLevelVisitor {
                               : f.name == "count_exact" ? &exact
                               : f.name == "spin_state"  ? &spin_state
                               : f.name == "geometry"    ? &geometry
+                              : f.name == "site"        ? &site
                                                         : nullptr;
       if (to != nullptr) *to = v;
       // The engine walk makes this text on the fly: keep a copy.
@@ -514,11 +546,10 @@ class CsvGatherer : public TopLevelVisitor {
 
   int32_t row = 0;
   // Views into the report being walked, which outlives the gatherer.
-  absl::string_view id, formula, kind, model;
+  absl::string_view id, formula, kind, model, saturation_model, family;
   std::string states, ions, codes, messages;
   bool valid = false;
-  double numbers[kFigures] = {};
-  double saturation = 0, total_valence = 0;
+  double numbers[kCsvColumnCount] = {};  // By column.
   bool estimated = false;
 };
 

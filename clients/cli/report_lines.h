@@ -70,12 +70,16 @@ struct ReportLines {
 //                     ';': "Fe+2:1;Fe+3:2;O-2:4" (counts may be "11/2");
 //   the figures       score ... valence_electron_concentration: numbers,
 //                     blank for an invalid record (it has none);
-//   saturation_moment_per_formula_unit  blank where no estimate is made;
+//   saturation_moment_per_formula_unit, saturation_moment_low,
+//   saturation_moment_high  blank where no estimate is made;
+//   saturation_moment_model  "sublattice_neel", a metallic model, or "";
 //   moment_model      its name ("slater_pauling_alloy", "none", ...);
+//   structure_family  "spinel", "garnet", ... or "" (no sites);
 //   total_valence_electrons  Z_t, blank for an invalid record;
 //   ions              one per ion, joined by "; ": "Fe+3 count=2
 //                     unpaired=5 spin=high/octahedral moment=5.91608"
-//                     (spin only where high and low spin differ);
+//                     (spin only where high and low spin differ), and
+//                     " site=B" where a structure family placed it;
 //   diagnostic_codes  severity:code joined by ';':
 //                     "warning:possible_hydrate_typo;info:mixed_valence";
 //   diagnostics       "severity code: message" joined by " | ".

@@ -231,6 +231,13 @@ struct CompoundFlags {
   CLI::Option* measured_option = nullptr;
   double moment_tolerance = 0;
   CLI::Option* tolerance_option = nullptr;
+  double measured_saturation = 0;
+  CLI::Option* saturation_option = nullptr;
+  double saturation_tolerance = 0;
+  CLI::Option* saturation_tolerance_option = nullptr;
+  std::string structure_family;
+  double temperature = 0;
+  CLI::Option* temperature_option = nullptr;
   int alternatives = 2;
   bool json = false;
 };
@@ -262,12 +269,35 @@ CLI::App* AddCompound(CLI::App* app, CompoundFlags* f) {
                        "for La1-xSrxMnO3 (δ and d default to 0)");
   f->measured_option = compound
                            ->add_option("--measured-moment", f->measured_moment,
-                                        "measured moment, μB per formula unit")
+                                        "measured effective (Curie-Weiss) "
+                                        "moment, μB per formula unit")
                            ->check(FiniteNumber());
   f->tolerance_option =
       compound
           ->add_option("--moment-tolerance", f->moment_tolerance,
                        "tolerance of the moment check in μB (default 0.5)")
+          ->check(FiniteNumber());
+  f->saturation_option =
+      compound
+          ->add_option("--measured-saturation-moment", f->measured_saturation,
+                       "measured ordered (saturation) moment at low "
+                       "temperature, μB per formula unit")
+          ->check(FiniteNumber());
+  f->saturation_tolerance_option =
+      compound
+          ->add_option("--saturation-tolerance", f->saturation_tolerance,
+                       "tolerance of the saturation check in μB (default "
+                       "0.5)")
+          ->check(FiniteNumber());
+  compound->add_option("--structure-family", f->structure_family,
+                       "place ions on the sites of this family: auto "
+                       "(default), none, spinel, garnet, hexaferrite, "
+                       "perovskite");
+  f->temperature_option =
+      compound
+          ->add_option("--temperature", f->temperature,
+                       "temperature in K for Van Vleck and Kotani moments "
+                       "(default 300)")
           ->check(FiniteNumber());
   compound
       ->add_option("--alternatives", f->alternatives,
@@ -293,6 +323,16 @@ int RunCompound(const CompoundFlags& f, bool quiet, Backend& backend) {
   }
   if (f.tolerance_option->count() > 0) {
     record.set_moment_tolerance(f.moment_tolerance);
+  }
+  if (f.saturation_option->count() > 0) {
+    record.set_measured_saturation_moment(f.measured_saturation);
+  }
+  if (f.saturation_tolerance_option->count() > 0) {
+    record.set_saturation_moment_tolerance(f.saturation_tolerance);
+  }
+  record.set_structure_family(f.structure_family);
+  if (f.temperature_option->count() > 0) {
+    record.set_temperature(f.temperature);
   }
   record.set_max_alternatives(f.alternatives);
   v1::RecordReport report;

@@ -14,7 +14,11 @@
 //       --moments=measured_moments.tsv --oxidation=oxidation_states.tsv
 //       --units=units.tsv --ligands=spectrochemical_series.tsv
 //       --crossover=spin_crossover.tsv
-//       --chalcogenide=chalcogenide_states.tsv --out=data_tables.cc
+//       --chalcogenide=chalcogenide_states.tsv
+//       --intervals=multiplet_intervals.tsv
+//       --actinides=actinide_moments.tsv
+//       --spin_orbit=spin_orbit_constants.tsv --out=data_tables.cc
+//       --sites=site_preferences.tsv --out=data_tables.cc
 
 #include <cctype>
 #include <cerrno>
@@ -28,6 +32,8 @@
 #include <set>
 #include <sstream>
 #include <string>
+#include <tuple>
+#include <utility>
 #include <vector>
 
 #include "absl/strings/str_cat.h"
@@ -171,6 +177,11 @@ std::optional<int> ParseArgs(int argc, char** argv, Paths* paths) {
       {"pairs", "mixed_valence_pairs.tsv"},
       {"state_en", "state_electronegativities.tsv"},
       {"potentials", "reduction_potentials.tsv"},
+      {"orbital", "orbital_ranges.tsv"},
+      {"intervals", "multiplet_intervals.tsv"},
+      {"actinides", "actinide_moments.tsv"},
+      {"spin_orbit", "spin_orbit_constants.tsv"},
+      {"sites", "site_preferences.tsv"},
       {"out", "the C++ file to write"},
   };
   for (const auto& table : kTables) {
@@ -515,6 +526,25 @@ int main(int argc, char** argv) {
   }
   out << "};\n\n";
 
+  // A cation written "Fe+2" in column 0: its atomic number and state.
+  auto parse_ion = [&](const Table& t, const Row& r) {
+    const std::string& ion = r.fields[0];
+    const size_t sign = ion.find_first_of("+-");
+    if (sign == std::string::npos || sign == 0) {
+      Fail(t.path, r.line, "ion '" + ion + "' must look like Fe+2");
+    }
+    auto z = z_by_symbol.find(ion.substr(0, sign));
+    if (z == z_by_symbol.end()) {
+      Fail(t.path, r.line, "unknown element in ion '" + ion + "'");
+    }
+    char* end = nullptr;
+    const long state = std::strtol(ion.c_str() + sign, &end, 10);
+    if (*end != '\0' || state < 0 || state > 9) {
+      Fail(t.path, r.line, "bad state in ion '" + ion + "'");
+    }
+    return std::pair<int, long>(z->second, state);
+  };
+
   // --- spin_crossover.tsv ---------------------------------------------------
   const Table crossover =
       ReadTable(args.at("crossover"),
@@ -522,33 +552,71 @@ int main(int argc, char** argv) {
   out << "constexpr SpinCrossoverRow kCrossover[] = {\n";
   std::set<std::pair<int, long>> crossover_ions;
   for (const Row& r : crossover.rows) {
-    // "Fe+2".
-    const std::string& ion = r.fields[0];
-    const size_t sign = ion.find_first_of("+-");
-    if (sign == std::string::npos || sign == 0) {
-      Fail(crossover.path, r.line, "ion '" + ion + "' must look like Fe+2");
+    const std::pair<int, long> ion = parse_ion(crossover, r);
+    if (!crossover_ions.insert(ion).second) {
+      Fail(crossover.path, r.line, "duplicate ion '" + r.fields[0] + "'");
     }
-    auto z = z_by_symbol.find(ion.substr(0, sign));
-    if (z == z_by_symbol.end()) {
-      Fail(crossover.path, r.line, "unknown element in ion '" + ion + "'");
-    }
-    char* end = nullptr;
-    const long state = std::strtol(ion.c_str() + sign, &end, 10);
-    if (*end != '\0' || state < 0 || state > 9) {
-      Fail(crossover.path, r.line, "bad state in ion '" + ion + "'");
-    }
-    if (!crossover_ions.insert({z->second, state}).second) {
-      Fail(crossover.path, r.line, "duplicate ion '" + ion + "'");
-    }
+    const int z_ion = ion.first;
+    const long state = ion.second;
     const double g = r.fields[1] == "-"
                          ? 0.0
                          : ParseDecimal(crossover, r, 1, r.fields[1], 1, 60);
     const double fc = ParseDecimal(crossover, r, 2, r.fields[2], 0.3, 3.0);
     const long pairing =
         r.fields[3] == "-" ? 0 : ParseInt(crossover, r, 3, 1000, 60000);
-    out << "    {" << z->second << ", " << state << ", " << Double(g) << ", "
+    out << "    {" << z_ion << ", " << state << ", " << Double(g) << ", "
         << Double(fc) << ", " << pairing << ", " << Literal(r.fields[4])
         << "},\n";
+  }
+  out << "};\n\n";
+
+  // --- site_preferences.tsv -------------------------------------------------
+  const Table sites =
+      ReadTable(args.at("sites"),
+                {"ion", "spin", "ospe", "families", "preference", "source"});
+  out << "constexpr SitePreferenceRow kSitePreferences[] = {\n";
+  std::set<std::string> site_keys;
+  for (const Row& r : sites.rows) {
+    const std::string& key = r.fields[0];
+    if (!site_keys.insert(key).second) {
+      Fail(sites.path, r.line, "duplicate ion '" + key + "'");
+    }
+    int z = 0;
+    long state = 0;
+    long d = -1;
+    if (key.size() >= 2 && key[0] == 'd' &&
+        std::isdigit(static_cast<unsigned char>(key[1]))) {
+      char* end = nullptr;
+      d = std::strtol(key.c_str() + 1, &end, 10);
+      if (*end != '\0' || d > 10) {
+        Fail(sites.path, r.line, "ion '" + key + "' must be d0 to d10");
+      }
+    } else {
+      std::tie(z, state) = parse_ion(sites, r);
+    }
+    const std::string& spin = r.fields[1];
+    if (spin != "high" && spin != "low" && spin != "-") {
+      Fail(sites.path, r.line, "column 'spin': expected high, low or -");
+    }
+    const double ospe = ParseDecimal(sites, r, 2, r.fields[2], 0, 400);
+    if (r.fields[3] != "all" && r.fields[3] != "spinel") {
+      Fail(sites.path, r.line, "column 'families': expected all or spinel");
+    }
+    static const std::map<std::string, char> kPreferences = {
+        {"tetrahedral", 't'},
+        {"octahedral", 'o'},
+        {"weak_octahedral", 'w'},
+        {"-", '-'}};
+    const auto preference = kPreferences.find(r.fields[4]);
+    if (preference == kPreferences.end()) {
+      Fail(sites.path, r.line,
+           "column 'preference': expected tetrahedral, octahedral, "
+           "weak_octahedral or -");
+    }
+    out << "    {" << z << ", " << state << ", " << d << ", "
+        << (spin == "low" ? "true" : "false") << ", " << Double(ospe) << ", "
+        << (r.fields[3] == "spinel" ? "true" : "false") << ", '"
+        << preference->second << "', " << Literal(r.fields[5]) << "},\n";
   }
   out << "};\n\n";
 
@@ -664,6 +732,131 @@ int main(int argc, char** argv) {
   }
   out << "};\n\n";
 
+  // --- orbital_ranges.tsv --------------------------------------------------
+  const Table orbital =
+      ReadTable(args.at("orbital"), {"d_electrons", "geometry", "spin_state",
+                                     "moment_low", "moment_high", "source"});
+  out << "constexpr OrbitalRangeRow kOrbital[] = {\n";
+  std::set<std::tuple<long, std::string, std::string>> orbital_keys;
+  for (const Row& r : orbital.rows) {
+    const long d = ParseInt(orbital, r, 0, 0, 10);
+    const std::string& geometry = r.fields[1];
+    if (geometry != "octahedral" && geometry != "tetrahedral" &&
+        geometry != "square_planar" && geometry != "trigonal_prismatic") {
+      Fail(orbital.path, r.line,
+           "column 'geometry': expected octahedral, tetrahedral, "
+           "square_planar or trigonal_prismatic");
+    }
+    const std::string& spin = r.fields[2];
+    if (spin != "high" && spin != "low") {
+      Fail(orbital.path, r.line, "column 'spin_state': expected high or low");
+    }
+    if (!orbital_keys.insert({d, geometry, spin}).second) {
+      Fail(orbital.path, r.line, "duplicate row");
+    }
+    const double low = ParseDecimal(orbital, r, 3, r.fields[3], 0, 8);
+    const double high = ParseDecimal(orbital, r, 4, r.fields[4], 0, 8);
+    if (low > high) {
+      Fail(orbital.path, r.line, "moment_low must not exceed moment_high");
+    }
+    out << "    {" << d << ", " << Literal(geometry) << ", "
+        << (spin == "low" ? "true" : "false") << ", " << Double(low) << ", "
+        << Double(high) << ", " << Literal(r.fields[5]) << "},\n";
+  }
+  out << "};\n\n";
+
+  // --- multiplet_intervals.tsv ----------------------------------------------
+  // Lanthanide ions with an open 4f shell of L > 0: the Landé interval rule
+  // needs more than one J level.
+  const Table intervals =
+      ReadTable(args.at("intervals"),
+                {"symbol", "charge", "first_interval_cm1", "source"});
+  out << "constexpr MultipletIntervalRow kIntervals[] = {\n";
+  std::set<std::pair<int, long>> interval_ions;
+  for (const Row& r : intervals.rows) {
+    const int z = symbol_to_z(intervals, r, 0);
+    const long charge = ParseInt(intervals, r, 1, 1, 4);
+    const long f_electrons = z - 54 - charge;
+    if (z < 57 || z > 71 || f_electrons < 1 || f_electrons > 13 ||
+        f_electrons == 7) {
+      Fail(intervals.path, r.line,
+           absl::StrCat(r.fields[0], " ", charge,
+                        " is not a lanthanide ion with an open 4f shell of "
+                        "L > 0 (4f1-4f6 or 4f8-4f13)"));
+    }
+    if (!interval_ions.insert({z, charge}).second) {
+      Fail(intervals.path, r.line, "duplicate ion");
+    }
+    const double interval =
+        ParseDecimal(intervals, r, 2, r.fields[2], 50, 20000);
+    out << "    {" << z << ", " << charge << ", " << Double(interval) << ", "
+        << Literal(r.fields[3]) << "},\n";
+  }
+  out << "};\n\n";
+
+  // --- actinide_moments.tsv -------------------------------------------------
+  const Table actinides =
+      ReadTable(args.at("actinides"),
+                {"symbol", "charge", "anion", "compound", "moment_low",
+                 "moment_high", "tip_only", "source"});
+  out << "constexpr ActinideMomentRow kActinides[] = {\n";
+  std::set<std::tuple<int, long, int>> actinide_keys;
+  for (const Row& r : actinides.rows) {
+    const int z = symbol_to_z(actinides, r, 0);
+    if (z < 89 || z > 103) {
+      Fail(actinides.path, r.line, r.fields[0] + " is not an actinide");
+    }
+    const long charge = ParseInt(actinides, r, 1, 2, 7);
+    const int anion = r.fields[2] == "-" ? 0 : symbol_to_z(actinides, r, 2);
+    if (!actinide_keys.insert({z, charge, anion}).second) {
+      Fail(actinides.path, r.line, "duplicate row for this ion and anion");
+    }
+    const double low = ParseDecimal(actinides, r, 4, r.fields[4], 0, 12);
+    const double high = ParseDecimal(actinides, r, 5, r.fields[5], 0, 12);
+    if (low > high) {
+      Fail(actinides.path, r.line, "moment_low is above moment_high");
+    }
+    if (r.fields[6] != "yes" && r.fields[6] != "no") {
+      Fail(actinides.path, r.line, "column 'tip_only': expected yes or no");
+    }
+    const bool tip_only = r.fields[6] == "yes";
+    if (tip_only && high != 0) {
+      Fail(actinides.path, r.line,
+           "a tip_only row has no Curie moment: moments must be 0");
+    }
+    out << "    {" << z << ", " << charge << ", " << anion << ", "
+        << Literal(r.fields[3]) << ", " << Double(low) << ", " << Double(high)
+        << ", " << (tip_only ? "true" : "false") << ", " << Literal(r.fields[7])
+        << "},\n";
+  }
+  out << "};\n\n";
+
+  // --- spin_orbit_constants.tsv ---------------------------------------------
+  // 4d and 5d ions whose low-spin octahedral configuration is t2g^1..t2g^5.
+  const Table spin_orbit = ReadTable(
+      args.at("spin_orbit"), {"symbol", "charge", "zeta_cm1", "source"});
+  out << "constexpr SpinOrbitConstantRow kSpinOrbit[] = {\n";
+  std::set<std::pair<int, long>> spin_orbit_ions;
+  for (const Row& r : spin_orbit.rows) {
+    const int z = symbol_to_z(spin_orbit, r, 0);
+    const long charge = ParseInt(spin_orbit, r, 1, 1, 8);
+    const bool is_4d = z >= 39 && z <= 48;
+    const bool is_5d = z >= 72 && z <= 80;
+    const long d_electrons = (is_4d ? z - 36 : z - 68) - charge;
+    if ((!is_4d && !is_5d) || d_electrons < 1 || d_electrons > 5) {
+      Fail(spin_orbit.path, r.line,
+           absl::StrCat(r.fields[0], " ", charge,
+                        " is not a 4d or 5d ion with 1 to 5 d electrons"));
+    }
+    if (!spin_orbit_ions.insert({z, charge}).second) {
+      Fail(spin_orbit.path, r.line, "duplicate ion");
+    }
+    const double zeta = ParseDecimal(spin_orbit, r, 2, r.fields[2], 100, 10000);
+    out << "    {" << z << ", " << charge << ", " << Double(zeta) << ", "
+        << Literal(r.fields[3]) << "},\n";
+  }
+  out << "};\n\n";
+
   out << "}  // namespace\n\n"
          "absl::Span<const ElementRow> ElementRows() { return kElements; }\n"
          "absl::Span<const ConfigurationExceptionRow> "
@@ -688,7 +881,17 @@ int main(int argc, char** argv) {
          "absl::Span<const StateElectronegativityRow> "
          "StateElectronegativityRows() {\n  return kStateEn;\n}\n"
          "absl::Span<const ReductionPotentialRow> ReductionPotentialRows() {\n"
-         "  return kPotentials;\n}\n\n"
+         "  return kPotentials;\n}\n"
+         "absl::Span<const OrbitalRangeRow> OrbitalRangeRows() {\n"
+         "  return kOrbital;\n}\n"
+         "absl::Span<const MultipletIntervalRow> MultipletIntervalRows() {\n"
+         "  return kIntervals;\n}\n"
+         "absl::Span<const ActinideMomentRow> ActinideMomentRows() {\n"
+         "  return kActinides;\n}\n"
+         "absl::Span<const SpinOrbitConstantRow> SpinOrbitConstantRows() {\n"
+         "  return kSpinOrbit;\n}\n"
+         "absl::Span<const SitePreferenceRow> SitePreferenceRows() {\n"
+         "  return kSitePreferences;\n}\n\n"
          "}  // namespace shellwright::internal\n";
 
   // Write only when changed, so that an unchanged table does not trigger a

@@ -144,6 +144,58 @@ struct ReductionPotentialRow {
   const char* source;
 };
 
+// data/orbital_ranges.tsv
+struct OrbitalRangeRow {
+  int d_electrons;
+  const char* geometry;  // Name(Geometry): "octahedral", ...
+  bool low_spin;
+  double moment_low;  // Bohr magnetons.
+  double moment_high;
+  const char* source;
+};
+
+// data/multiplet_intervals.tsv
+struct MultipletIntervalRow {
+  int atomic_number;
+  int charge;
+  double first_interval_cm1;  // First excited J level above the ground level.
+  const char* source;
+};
+
+// data/actinide_moments.tsv
+struct ActinideMomentRow {
+  int atomic_number;
+  int charge;
+  int anion_atomic_number;  // 0: any anion.
+  const char* compound;
+  double moment_low;  // Bohr magnetons.
+  double moment_high;
+  bool tip_only;  // Temperature-independent paramagnetism only.
+  const char* source;
+};
+
+// data/spin_orbit_constants.tsv
+struct SpinOrbitConstantRow {
+  int atomic_number;
+  int charge;
+  double zeta_cm1;  // One-electron spin-orbit coupling constant.
+  const char* source;
+};
+
+// data/site_preferences.tsv
+struct SitePreferenceRow {
+  int atomic_number;  // 0 for a row keyed by d count.
+  int state;          // 0 for a row keyed by d count.
+  int d_electrons;    // The row's d count ("d8"), or -1 for an ion row.
+  bool low_spin;      // The value assumes the low-spin state.
+  double ospe;        // Octahedral site preference energy, kJ/mol.
+  bool spinel_only;   // An effective value for spinels only.
+  // 't' strong tetrahedral, 'o' strong octahedral, 'w' weak octahedral,
+  // '-' none.
+  char preference;
+  const char* source;
+};
+
 absl::Span<const ElementRow> ElementRows();
 absl::Span<const ConfigurationExceptionRow> ConfigurationExceptionRows();
 absl::Span<const GroundLevelDepartureRow> GroundLevelDepartureRows();
@@ -158,6 +210,11 @@ absl::Span<const StatePreferenceRow> StatePreferenceRows();
 absl::Span<const MixedValencePairRow> MixedValencePairRows();
 absl::Span<const StateElectronegativityRow> StateElectronegativityRows();
 absl::Span<const ReductionPotentialRow> ReductionPotentialRows();
+absl::Span<const OrbitalRangeRow> OrbitalRangeRows();
+absl::Span<const MultipletIntervalRow> MultipletIntervalRows();
+absl::Span<const ActinideMomentRow> ActinideMomentRows();
+absl::Span<const SpinOrbitConstantRow> SpinOrbitConstantRows();
+absl::Span<const SitePreferenceRow> SitePreferenceRows();
 
 }  // namespace shellwright::internal
 

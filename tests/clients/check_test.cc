@@ -133,7 +133,7 @@ GeneratedCsv GenerateCsv(int n) {
       {"K3[Fe(CN)6]", "", "", ""},
       {"CuSO4·5H2O", "", "", ""},
       {"SO4", "-2", "", ""},
-      {"Fe2O3", "", "Fe:3", "5.9"},
+      {"Fe2O3", "", "Fe:3", "8.4"},
       {"\"BaTiO3\"", " 0 ", "", ""},  // Quoted field, padded number.
       {"Cr2O3", "", "", ""},
   };
@@ -164,7 +164,7 @@ GeneratedCsv GenerateCsv(int n) {
           e.error_code = "malformed_record";
           break;
         case 4:  // Non-numeric measured moment.
-          line = e.id + ",Fe2O3,,,5.9uB";
+          line = e.id + ",Fe2O3,,,8.4uB";
           e.error_code = "malformed_record";
           break;
         case 5:  // Stray quote inside an unquoted field.
@@ -265,7 +265,7 @@ TEST_F(CheckTest, AllValidInputExitsZero) {
   WriteFile(Path("good.csv"), std::string(kHeader) +
                                   "\n"
                                   "a,NaCl,,,\n"
-                                  "b,Fe2O3,0,Fe:3,5.9\n"
+                                  "b,Fe2O3,0,Fe:3,8.4\n"
                                   "\n"
                                   "c,\"K3[Fe(CN)6]\",,,\n");
   CommandResult r = Check({Path("good.csv"), "--out", Path("good.jsonl")});
@@ -555,6 +555,32 @@ TEST_F(CheckTest, CsvOutputHasHeaderAndOneLinePerRow) {
   EXPECT_EQ(s.out, ReadFile(Path("out.csv")));
 }
 
+TEST_F(CheckTest, SaturationMomentColumnsAreRead) {
+  // Saturation moments (Smit and Wijn, Ferrites, from memory): Fe3O4 about
+  // 4.1 μB, NiFe2O4 about 2.3; 14 μB for Fe3O4 is three free ions added.
+  WriteFile(Path("sat.csv"),
+            "id,formula,measured_saturation_moment,"
+            "saturation_moment_tolerance,structure_family,temperature\n"
+            "m,Fe3O4,4.1,,,\n"
+            "n,NiFe2O4,2.3,0.3,spinel,300\n"
+            "bad,Fe3O4,14,,,\n"
+            "off,Fe3O4,14,,none,\n"
+            "cold,Eu2O3,,,,-4\n");
+  CommandResult r = Check({Path("sat.csv"), "--out", Path("sat.jsonl")});
+  EXPECT_EQ(r.exit_code, 1) << r.err;
+  const std::vector<v1::RecordReport> reports =
+      ParseReports(ReadFile(Path("sat.jsonl")));
+  ASSERT_EQ(reports.size(), 5u);
+  EXPECT_TRUE(reports[0].valid());
+  EXPECT_EQ(reports[0].structure_family(), "spinel");
+  EXPECT_TRUE(reports[1].valid());
+  EXPECT_FALSE(reports[2].valid());
+  // No family: no ordered-moment model, so the value is not judged.
+  EXPECT_TRUE(reports[3].valid());
+  EXPECT_EQ(reports[3].structure_family(), "");
+  EXPECT_FALSE(reports[4].valid());  // A negative temperature.
+}
+
 TEST_F(CheckTest, OutputIndependentOfJobsAndBatchSize) {
   const GeneratedCsv g = GenerateCsv(3000);
   WriteFile(Path("in.csv"), g.text);
@@ -581,7 +607,7 @@ TEST_F(CheckTest, RowFieldsAreChecked) {
                                     "declared,Fe2O3,,Fe:2,\n"
                                     "moment,Fe2O3,,,99\n"
                                     "hydrate,CuSO4.5H2O,,,\n"
-                                    "plausible,Fe2O3,,,5.9\n");
+                                    "plausible,Fe2O3,,,8.4\n");
   CommandResult r = Check({Path("fields.csv"), "--out", Path("f.jsonl")});
   EXPECT_EQ(r.exit_code, 1) << r.err;
   const std::vector<v1::RecordReport> reports =

@@ -187,6 +187,41 @@ TEST(Cli, CompoundTakesSettingsPerElement) {
   }
 }
 
+TEST(Cli, CompoundGivesTheInverseSpinelOfMagnetite) {
+  // Issue 11's check: Fe3O4 is an inverse spinel with 4 μB per formula
+  // unit (Smit and Wijn, Ferrites, about 4.1 measured, from memory).
+  CommandResult r = Cli(
+      {"compound", "Fe3O4", "--json", "--measured-saturation-moment", "4.1"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  v1::RecordReport report;
+  ASSERT_TRUE(google::protobuf::util::JsonStringToMessage(r.out, &report).ok())
+      << r.out;
+  EXPECT_TRUE(report.valid());
+  EXPECT_EQ(report.structure_family(), "spinel");
+  EXPECT_THAT(report.structure_note(), HasSubstr("inverse spinel"));
+  EXPECT_EQ(report.saturation_moment_per_formula_unit(), 4);
+  EXPECT_EQ(report.saturation_moment_model(), "sublattice_neel");
+  // Haematite at 3.0 μB: two high-spin Fe3+ expect about 8.4 μB.
+  CommandResult fe2o3 =
+      Cli({"compound", "Fe2O3", "--json", "--measured-moment", "3.0"});
+  ASSERT_TRUE(
+      google::protobuf::util::JsonStringToMessage(fe2o3.out, &report).ok());
+  EXPECT_FALSE(report.valid());
+  bool out_of_range = false;
+  for (const v1::Diagnostic& d : report.diagnostics()) {
+    out_of_range |= d.code() == "moment_out_of_range";
+  }
+  EXPECT_TRUE(out_of_range) << fe2o3.out;
+  // Human output names the sites and the ordered moment.
+  CommandResult human = Cli({"compound", "Fe3O4"});
+  EXPECT_THAT(human.out, HasSubstr("Sites: spinel"));
+  EXPECT_THAT(human.out, HasSubstr("Ordered moment: 4 μB per formula unit"));
+  // A bad family name is a clear error in the report.
+  CommandResult bad =
+      Cli({"compound", "Fe3O4", "--structure-family", "wurtzite"});
+  EXPECT_THAT(bad.out, HasSubstr("wurtzite"));
+}
+
 TEST(Cli, CompoundGivesMetallicMomentEstimates) {
   // Co2MnAl: M = Z_t - 24 = 28 - 24 = 4 μB (Slater-Pauling rule for
   // Heusler compounds; measured 4.01, Webster, J. Phys. Chem. Solids 32,

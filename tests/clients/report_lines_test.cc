@@ -223,10 +223,22 @@ TEST(ReportLines, MaskedEngineLinesEqualTheServersMaskedLines) {
   EXPECT_EQ(line, "{\"valid\":true}\n");
 }
 
+// The cell of the CSV column `name` in `fields`, by the header's order.
+std::string Cell(const std::vector<std::string>& fields,
+                 absl::string_view name) {
+  std::vector<std::string> header;
+  std::string error;
+  if (!SplitCsvLine(ReportCsvHeader(), &header, &error)) return "(bad header)";
+  for (size_t i = 0; i < header.size() && i < fields.size(); ++i) {
+    if (header[i] == name) return fields[i];
+  }
+  return "(no column)";
+}
+
 TEST(ReportLines, CsvLineHasOneFieldPerHeaderColumn) {
   v1::CompositionRecord record;
   record.set_id("a,\"b\"");
-  record.set_formula("Fe3O4");
+  record.set_formula("NiO");
   record.set_row(2);
   v1::RecordReport proto;
   AnalyzeRecord(record, &proto);
@@ -239,19 +251,22 @@ TEST(ReportLines, CsvLineHasOneFieldPerHeaderColumn) {
   EXPECT_EQ(fields.size(), header.size());
   EXPECT_EQ(fields[1], "a,\"b\"");
   // Issue 16: "Fe:0x23/25" read like hexadecimal; now signed states.
-  EXPECT_EQ(fields[5], "Fe+2:1;Fe+3:2;O-2:4");
-  // High-spin Fe2+ (d6) and Fe3+ (d5) by default: 4 and 5 unpaired
-  // (Greenwood and Earnshaw, from memory).
-  // No saturation estimate for an ionic record yet: blank, not 0.
-  EXPECT_EQ(header[13], "saturation_moment_per_formula_unit");
-  EXPECT_EQ(fields[13], "");
-  EXPECT_EQ(fields[14], "local_moment");
-  EXPECT_EQ(fields[15], "48");  // Z_t: 3 x 8 + 4 x 6.
-  EXPECT_EQ(fields[16],
-            "Fe+2 count=1 unpaired=4 spin=high/octahedral moment=4.89898; "
-            "Fe+3 count=2 unpaired=5 spin=high/octahedral moment=5.91608; "
-            "O-2 count=4 unpaired=0 moment=0");
-  EXPECT_EQ(fields[17], "info:mixed_valence");
+  EXPECT_EQ(Cell(fields, "oxidation_states"), "Ni+2:1;O-2:1");
+  // No saturation estimate for NiO (no structure family): blank, not 0.
+  EXPECT_EQ(Cell(fields, "saturation_moment_per_formula_unit"), "");
+  EXPECT_EQ(Cell(fields, "saturation_moment_low"), "");
+  EXPECT_EQ(Cell(fields, "saturation_moment_model"), "");
+  EXPECT_EQ(Cell(fields, "moment_model"), "local_moment");
+  EXPECT_EQ(Cell(fields, "total_valence_electrons"), "16");  // 10 + 6.
+  // Octahedral Ni2+ measures 2.8-3.5 μB (Figgis and Lewis, from memory).
+  EXPECT_EQ(Cell(fields, "expected_moment_low"), "2.8");
+  EXPECT_EQ(Cell(fields, "expected_moment_high"), "3.5");
+  // Ni2+ d8: 2 unpaired (Greenwood and Earnshaw, from memory); octahedral
+  // d8 has one spin state, so none is written.
+  EXPECT_EQ(Cell(fields, "ions"),
+            "Ni+2 count=1 unpaired=2 moment=2.82843; "
+            "O-2 count=1 unpaired=0 moment=0");
+  EXPECT_EQ(Cell(fields, "diagnostic_codes"), "");
 }
 
 TEST(ReportLines, CsvLineHasTheMetallicMomentEstimate) {
@@ -266,10 +281,15 @@ TEST(ReportLines, CsvLineHasTheMetallicMomentEstimate) {
     ASSERT_TRUE(SplitCsvLine(line.substr(0, line.size() - 1), &fields, &error));
     // M = Z_t - 24 = 28 - 24 (Galanakis et al., Phys. Rev. B 66, 174429
     // (2002), from memory).
-    EXPECT_EQ(fields[13], "4");
-    EXPECT_EQ(fields[14], "slater_pauling_full_heusler");
-    EXPECT_EQ(fields[15], "28");
-    EXPECT_EQ(fields[7], "0");  // No free-atom unpaired count.
+    EXPECT_EQ(Cell(fields, "saturation_moment_per_formula_unit"), "4");
+    EXPECT_EQ(Cell(fields, "saturation_moment_low"), "4");
+    EXPECT_EQ(Cell(fields, "saturation_moment_high"), "4");
+    EXPECT_EQ(Cell(fields, "saturation_moment_model"),
+              "slater_pauling_full_heusler");
+    EXPECT_EQ(Cell(fields, "moment_model"), "slater_pauling_full_heusler");
+    EXPECT_EQ(Cell(fields, "total_valence_electrons"), "28");
+    // No free-atom unpaired count.
+    EXPECT_EQ(Cell(fields, "unpaired_per_formula_unit"), "0");
   }
   // Fe2VAl's estimate is 0, written as 0, not as a blank.
   record.set_formula("Fe2VAl");
@@ -277,7 +297,7 @@ TEST(ReportLines, CsvLineHasTheMetallicMomentEstimate) {
   AnalyzeRecord(record, &proto);
   const std::string line = ProtoLine(proto, ReportLineFormat::kCsv);
   ASSERT_TRUE(SplitCsvLine(line.substr(0, line.size() - 1), &fields, &error));
-  EXPECT_EQ(fields[13], "0");
+  EXPECT_EQ(Cell(fields, "saturation_moment_per_formula_unit"), "0");
 }
 
 TEST(ReportLines, RegressionInvalidRowsHaveBlankFigures) {
@@ -291,9 +311,20 @@ TEST(ReportLines, RegressionInvalidRowsHaveBlankFigures) {
   std::vector<std::string> fields;
   std::string error;
   ASSERT_TRUE(SplitCsvLine(line.substr(0, line.size() - 1), &fields, &error));
-  for (int i = 6; i <= 15; ++i) EXPECT_EQ(fields[i], "") << i;
-  EXPECT_EQ(fields[17], "error:malformed_formula");
-  EXPECT_EQ(fields[18].rfind("error malformed_formula: ", 0), 0u) << fields[18];
+  for (const char* name :
+       {"score", "unpaired_per_formula_unit",
+        "effective_moment_per_formula_unit", "expected_moment_low",
+        "expected_moment_high", "curie_constant",
+        "valence_electron_concentration", "saturation_moment_per_formula_unit",
+        "saturation_moment_low", "saturation_moment_high",
+        "saturation_moment_model", "moment_model", "structure_family",
+        "total_valence_electrons", "ions"}) {
+    EXPECT_EQ(Cell(fields, name), "") << name;
+  }
+  EXPECT_EQ(Cell(fields, "diagnostic_codes"), "error:malformed_formula");
+  EXPECT_EQ(Cell(fields, "diagnostics").rfind("error malformed_formula: ", 0),
+            0u)
+      << Cell(fields, "diagnostics");
 }
 
 }  // namespace

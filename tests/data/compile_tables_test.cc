@@ -2,8 +2,9 @@
 // file, line and problem, and accepts the real tables.
 
 #include <fstream>
-#include <map>
 #include <string>
+#include <utility>
+#include <vector>
 
 #include "gmock/gmock.h"
 #include "gtest/gtest.h"
@@ -23,36 +24,40 @@ using ::testing::HasSubstr;
 // Runs compile_tables with the real tables, replacing `table` by
 // `contents`.
 CommandResult RunWith(const std::string& table, const std::string& contents) {
+  // Each table: compile_tables' option and the file in data/.
+  static const std::pair<const char*, const char*> kTables[] = {
+      {"elements", "elements"},
+      {"exceptions", "configuration_exceptions"},
+      {"departures", "ground_level_departures"},
+      {"moments", "measured_moments"},
+      {"oxidation", "oxidation_states"},
+      {"units", "units"},
+      {"ligands", "spectrochemical_series"},
+      {"crossover", "spin_crossover"},
+      {"chalcogenide", "chalcogenide_states"},
+      {"preferences", "state_preferences"},
+      {"pairs", "mixed_valence_pairs"},
+      {"state_en", "state_electronegativities"},
+      {"potentials", "reduction_potentials"},
+      {"orbital", "orbital_ranges"},
+      {"intervals", "multiplet_intervals"},
+      {"actinides", "actinide_moments"},
+      {"spin_orbit", "spin_orbit_constants"},
+      {"sites", "site_preferences"},
+  };
   const testing::TempDir temp;
   const std::string& dir = temp.path();
-  std::map<std::string, std::string> paths;
-  for (const char* name :
-       {"elements", "configuration_exceptions", "ground_level_departures",
-        "measured_moments", "oxidation_states", "units",
-        "spectrochemical_series", "spin_crossover", "chalcogenide_states",
-        "state_preferences", "mixed_valence_pairs", "state_electronegativities",
-        "reduction_potentials"}) {
-    paths[name] = SourcePath(std::string("data/") + name + ".tsv");
+  std::vector<std::string> args = {BinPath("data/shellwright_compile_tables")};
+  for (const auto& [option, name] : kTables) {
+    std::string path = SourcePath(std::string("data/") + name + ".tsv");
+    if (table == name) {
+      path = dir + "/" + name + ".tsv";
+      std::ofstream(path) << contents;
+    }
+    args.push_back(std::string("--") + option + "=" + path);
   }
-  if (!table.empty()) {
-    paths[table] = dir + "/" + table + ".tsv";
-    std::ofstream(paths[table]) << contents;
-  }
-  return RunCommand({BinPath("data/shellwright_compile_tables"),
-                     "--elements=" + paths["elements"],
-                     "--exceptions=" + paths["configuration_exceptions"],
-                     "--departures=" + paths["ground_level_departures"],
-                     "--moments=" + paths["measured_moments"],
-                     "--oxidation=" + paths["oxidation_states"],
-                     "--units=" + paths["units"],
-                     "--ligands=" + paths["spectrochemical_series"],
-                     "--crossover=" + paths["spin_crossover"],
-                     "--chalcogenide=" + paths["chalcogenide_states"],
-                     "--preferences=" + paths["state_preferences"],
-                     "--pairs=" + paths["mixed_valence_pairs"],
-                     "--state_en=" + paths["state_electronegativities"],
-                     "--potentials=" + paths["reduction_potentials"],
-                     "--out=" + dir + "/out.cc"});
+  args.push_back("--out=" + dir + "/out.cc");
+  return RunCommand(args);
 }
 
 std::string RealTable(const std::string& name) {
@@ -158,6 +163,48 @@ TEST(CompileTables, ReductionPotentialCoupleMustGoDown) {
   EXPECT_THAT(r.err, HasSubstr("reduced must be a positive state below"));
 }
 
+TEST(CompileTables, OrbitalRangeMustRunUpward) {
+  std::string t = RealTable("orbital_ranges");
+  t += "3\ttetrahedral\thigh\t4.0\t3.5\tnowhere\n";
+  CommandResult r = RunWith("orbital_ranges", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("orbital_ranges.tsv:"));
+  EXPECT_THAT(r.err, HasSubstr("moment_low must not exceed moment_high"));
+}
+
+TEST(CompileTables, OrbitalRangeKeyIsUnique) {
+  std::string t = RealTable("orbital_ranges");
+  t += "7\toctahedral\thigh\t4.0\t5.0\tnowhere\n";
+  CommandResult r = RunWith("orbital_ranges", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("duplicate row"));
+}
+
+TEST(CompileTables, SitePreferenceNeedsAKnownPreference) {
+  std::string t = RealTable("site_preferences");
+  t += "Ba+2\t-\t0\tall\tsquare\tinvented for this test\n";
+  CommandResult r = RunWith("site_preferences", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("site_preferences.tsv:"));
+  EXPECT_THAT(r.err, HasSubstr("column 'preference'"));
+}
+
+TEST(CompileTables, SitePreferenceDCountMustBeAtMostTen) {
+  std::string t = RealTable("site_preferences");
+  t += "d11\t-\t0\tall\t-\tinvented for this test\n";
+  CommandResult r = RunWith("site_preferences", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("must be d0 to d10"));
+}
+
+TEST(CompileTables, DuplicateSitePreferenceIsRejected) {
+  std::string t = RealTable("site_preferences");
+  t += "Ni+2\t-\t86\tall\t-\tinvented for this test\n";
+  CommandResult r = RunWith("site_preferences", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("duplicate ion 'Ni+2'"));
+}
+
 TEST(CompileTables, UnitStatesMustSumToItsCharge) {
   std::string t = RealTable("units");
   t += "test unit\t-2\tS:6:1,O:-2:3\t0\tSO3\t-\tinvented for this test\n";
@@ -189,6 +236,59 @@ TEST(CompileTables, MalformedTermSymbol) {
   EXPECT_EQ(r.exit_code, 1);
   EXPECT_THAT(r.err, HasSubstr("ground_level_departures.tsv:"));
   EXPECT_THAT(r.err, HasSubstr("term symbol"));
+}
+
+TEST(CompileTables, MultipletIntervalNeedsAnOpen4fShellWithL) {
+  std::string t = RealTable("multiplet_intervals");
+  t += "Gd\t3\t500\tinvented for this test\n";  // 4f7: L = 0.
+  CommandResult r = RunWith("multiplet_intervals", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("multiplet_intervals.tsv:"));
+  EXPECT_THAT(r.err, HasSubstr("open 4f shell of L > 0"));
+}
+
+TEST(CompileTables, DuplicateMultipletIntervalIsRejected) {
+  std::string t = RealTable("multiplet_intervals");
+  t += "Eu\t3\t400\tinvented for this test\n";
+  CommandResult r = RunWith("multiplet_intervals", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("duplicate ion"));
+}
+
+TEST(CompileTables, ActinideMomentMustBeOrdered) {
+  std::string t = RealTable("actinide_moments");
+  t += "Np\t4\tF\tNpF4\t3.0\t2.0\tno\tinvented for this test\n";
+  CommandResult r = RunWith("actinide_moments", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("moment_low is above moment_high"));
+}
+
+TEST(CompileTables, TipOnlyActinideHasNoMoment) {
+  std::string t = RealTable("actinide_moments");
+  t += "Pu\t4\tF\tPuF4\t0\t1.0\tyes\tinvented for this test\n";
+  CommandResult r = RunWith("actinide_moments", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("tip_only row has no Curie moment"));
+}
+
+TEST(CompileTables, ActinideTableHoldsActinidesOnly) {
+  std::string t = RealTable("actinide_moments");
+  t += "Fe\t3\tO\tFe2O3\t5.0\t6.0\tno\tinvented for this test\n";
+  CommandResult r = RunWith("actinide_moments", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("Fe is not an actinide"));
+}
+
+TEST(CompileTables, SpinOrbitConstantNeedsA4dOr5dT2gIon) {
+  std::string t = RealTable("spin_orbit_constants");
+  t += "Fe\t3\t400\tinvented for this test\n";  // 3d.
+  CommandResult r = RunWith("spin_orbit_constants", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("not a 4d or 5d ion with 1 to 5 d electrons"));
+  t = RealTable("spin_orbit_constants") + "Ir\t3\t3000\tinvented\n";  // d6.
+  r = RunWith("spin_orbit_constants", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("not a 4d or 5d ion with 1 to 5 d electrons"));
 }
 
 }  // namespace

@@ -14,6 +14,7 @@
 #include "engine/composition.h"
 #include "engine/formula.h"
 #include "engine/oxidation.h"
+#include "engine/sites.h"
 
 namespace shellwright {
 namespace {
@@ -222,6 +223,36 @@ void BM_ParseDistinctFormula(benchmark::State& state) {
   }
 }
 BENCHMARK(BM_ParseDistinctFormula);
+
+// PlaceIons alone on the distinct formulas, with their assignments solved
+// beforehand: the cost the sites stage adds to a record. Arg 0 runs every
+// formula; arg 1 only those of no family (the miss path).
+void BM_PlaceIonsDistinctFormula(benchmark::State& state) {
+  struct Input {
+    Formula formula;
+    OxidationAssignment assignment;
+  };
+  std::vector<Input> inputs;
+  for (const std::string& text : DistinctFormulas(20000)) {
+    absl::StatusOr<Formula> f = ParseFormula(text);
+    if (!f.ok()) continue;
+    absl::StatusOr<OxidationResult> r =
+        AssignOxidationStates(*f, OxidationOptions());
+    if (!r.ok() || !r->best.has_value()) continue;
+    const bool miss = !PlaceIons(*f, *r->best, FamilyChoice::kAuto).has_value();
+    if (state.range(0) == 1 && !miss) continue;
+    inputs.push_back({*std::move(f), *std::move(r->best)});
+  }
+  size_t i = 0;
+  for (auto _ : state) {
+    auto p =
+        PlaceIons(inputs[i].formula, inputs[i].assignment, FamilyChoice::kAuto);
+    benchmark::DoNotOptimize(p);
+    if (++i == inputs.size()) i = 0;
+  }
+  state.counters["records"] = static_cast<double>(inputs.size());
+}
+BENCHMARK(BM_PlaceIonsDistinctFormula)->Arg(0)->Arg(1);
 
 // Equimolar N multivalent metals plus oxygen, solver only.
 void BM_SolveEquimolarMultivalent(benchmark::State& state) {

@@ -27,8 +27,12 @@ def analyze(formula, **record_fields):
 
     record_fields are the other fields of a record (id, charge,
     declared_states, geometry, spin_state, measured_moment,
-    moment_tolerance, max_alternatives, row); None or NaN leaves one
-    unset. A formula the engine cannot read is not an exception: the report
+    moment_tolerance, measured_saturation_moment,
+    saturation_moment_tolerance, structure_family, temperature,
+    max_alternatives, variables, row); None or NaN leaves one unset.
+    measured_moment is the effective (Curie-Weiss) moment and
+    measured_saturation_moment the ordered one, each in μB per formula
+    unit. A formula the engine cannot read is not an exception: the report
     says so (valid False, with error diagnostics). Raises TypeError or
     ValueError for an argument that cannot fill its field (analyze(42),
     a formula that is None or NaN, bytes that are not UTF-8).

@@ -101,6 +101,38 @@ class AnalyzeTest(unittest.TestCase):
         self.assertFalse(none["saturation_moment_estimated"])
         self.assertIn("no estimate", none["moment_note"])
 
+    def test_ferrimagnet_saturation_moment(self):
+        # Fe3O4, an inverse spinel: |(Fe2+ 4 + Fe3+ 5) - Fe3+ 5| = 4 μB per
+        # formula unit against about 4.1 measured (Smit and Wijn, Ferrites,
+        # from memory).
+        report = shellwright.analyze("Fe3O4", measured_saturation_moment=4.1,
+                                     temperature=300.0)
+        self.assertTrue(report["valid"])
+        self.assertEqual(report["structure_family"], "spinel")
+        self.assertEqual(report["saturation_moment_model"], "sublattice_neel")
+        self.assertEqual(report["saturation_moment_per_formula_unit"], 4)
+        self.assertEqual(sorted(i["site"] for i in report["ions"]
+                                if i["element"] == "Fe"),
+                         ["A (tetrahedral)", "B (octahedral)",
+                          "B (octahedral)"])
+        # The ferromagnetic sum of the free ions, 14 μB, is rejected.
+        bad = shellwright.analyze("Fe3O4", measured_saturation_moment=14.0)
+        self.assertFalse(bad["valid"])
+        self.assertIn("moment_out_of_range",
+                      [d["code"] for d in bad["diagnostics"]])
+        # The family can be turned off.
+        off = shellwright.analyze("Fe3O4", structure_family="none")
+        self.assertEqual(off["structure_family"], "")
+        self.assertFalse(off["saturation_moment_estimated"])
+
+    def test_van_vleck_moment(self):
+        # Eu3+ carries about 3.4 μB at room temperature (Kittel, table of
+        # effective magneton numbers, from memory) though 7F0 has none.
+        eu = [i for i in shellwright.analyze("Eu2O3")["ions"]
+              if i["element"] == "Eu"][0]
+        self.assertEqual(eu["moment_basis"], "van_vleck")
+        self.assertAlmostEqual(eu["moment"], 3.4, delta=0.2)
+
     def test_invalid_formula_is_a_report_not_an_exception(self):
         report = shellwright.analyze("Xx2O3")
         self.assertFalse(report["valid"])

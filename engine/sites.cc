@@ -1,0 +1,945 @@
+#include "engine/sites.h"
+
+#include <algorithm>
+#include <cmath>
+#include <cstdint>
+#include <cstdlib>
+#include <optional>
+#include <string>
+#include <utility>
+#include <vector>
+
+#include "absl/container/inlined_vector.h"
+#include "absl/strings/str_cat.h"
+#include "absl/strings/str_format.h"
+#include "absl/strings/str_join.h"
+#include "engine/internal/data_tables.h"
+
+namespace shellwright {
+namespace {
+
+constexpr int kZLithium = 3;
+constexpr int kZOxygen = 8;
+constexpr int kZFluorine = 9;
+constexpr int kZSilicon = 14;
+constexpr int kZSulfur = 16;
+constexpr int kZGermanium = 32;
+constexpr int kZSelenium = 34;
+
+// Counts are rationals; placements stop (no family) rather than risk
+// overflow when a formula is too finely divided for them.
+constexpr int64_t kMaxDenominator = 1000000;
+constexpr int64_t kMaxNumerator = 1000000000;
+
+bool Small(const Rational& r) {
+  return r.den() <= kMaxDenominator && std::llabs(r.num()) <= kMaxNumerator;
+}
+
+Rational Min(const Rational& a, const Rational& b) { return b < a ? b : a; }
+
+// `v` to three decimals, without trailing zeros: "0.5", "16", "3.7".
+std::string Rounded(double v) {
+  const double r = std::round(v * 1000) / 1000;
+  // Whole numbers, the usual case, without the floating-point formatter.
+  if (r == std::trunc(r) && std::abs(r) < 1e9) {
+    return absl::StrCat(static_cast<int64_t>(r));
+  }
+  return absl::StrCat(r);
+}
+
+// Large cations: the A site of perovskites and hexaferrites and the c site
+// of garnets (8 to 12 oxygen neighbours). Alkali metals but Li, Ca, Sr,
+// Ba, Ra, Y, the lanthanides, Pb2+ and Bi3+ (common practice, no source:
+// Shannon radii above about 1 Å in 8-coordination).
+bool IsLargeCation(const Element& e, int state) {
+  const int z = e.atomic_number;
+  if (e.group == 1) return z != 1 && z != kZLithium;
+  if (e.group == 2) return z == 20 || z == 38 || z == 56 || z == 88;
+  if (z == 39 || (z >= 57 && z <= 71)) return true;
+  if (z == 82) return state == 2;
+  if (z == 83) return state == 3;
+  return false;
+}
+
+// Cations with a stereochemically active lone pair, kept off spinel sites
+// (common practice, no source).
+bool IsLonePairCation(const Element& e, int state) {
+  const int z = e.atomic_number;
+  return (z == 50 && state == 2) || (z == 51 && state == 3) ||
+         (z == 81 && state == 1) || (z == 49 && state == 1) || z == 82 ||
+         z == 83;
+}
+
+// A small cation of spinels, garnets and hexaferrites: a metal, Si or Ge,
+// neither large nor a lone-pair cation.
+bool IsSmallCation(const Element& e, int state) {
+  const int z = e.atomic_number;
+  return (IsMetal(e) || z == kZSilicon || z == kZGermanium) &&
+         !IsLargeCation(e, state) && !IsLonePairCation(e, state);
+}
+
+// ---------------------------------------------------------------------------
+// Octahedral site preference (data/site_preferences.tsv).
+
+struct Preference {
+  int strong = 1;  // 0 strongly tetrahedral, 1 none, 2 strongly octahedral.
+  double ospe = 0;
+  int weak = 0;  // 1 weakly octahedral.
+  bool low_spin = false;
+  bool from_d_count = false;  // Read from a "dN" row.
+};
+
+int DCount(const Element& e, int state) {
+  if (e.block != Block::kD || e.group < 3) return -1;
+  const int d = e.group - state;
+  return d >= 0 && d <= 10 ? d : -1;
+}
+
+Preference FromRow(const internal::SitePreferenceRow& row) {
+  Preference p;
+  p.strong = row.preference == 't' ? 0 : row.preference == 'o' ? 2 : 1;
+  p.ospe = row.ospe;
+  p.weak = row.preference == 'w' ? 1 : 0;
+  p.low_spin = row.low_spin;
+  return p;
+}
+
+// The row of (e, state), else its d-count row, else none. Rows for spinels
+// only count when `spinel` is true.
+Preference LookupPreference(const Element& e, int state, bool spinel) {
+  const absl::Span<const internal::SitePreferenceRow> rows =
+      internal::SitePreferenceRows();
+  for (const internal::SitePreferenceRow& row : rows) {
+    if (row.d_electrons < 0 && row.atomic_number == e.atomic_number &&
+        row.state == state && (spinel || !row.spinel_only)) {
+      return FromRow(row);
+    }
+  }
+  const int d = DCount(e, state);
+  if (d >= 0) {
+    for (const internal::SitePreferenceRow& row : rows) {
+      if (row.d_electrons == d) {
+        Preference p = FromRow(row);
+        p.from_d_count = true;
+        return p;
+      }
+    }
+  }
+  return Preference();
+}
+
+// -1, 0 or 1: how `a` compares with `b` in octahedral preference.
+int ComparePreference(const Preference& a, const Preference& b) {
+  if (a.strong != b.strong) return a.strong < b.strong ? -1 : 1;
+  if (a.ospe != b.ospe) return a.ospe < b.ospe ? -1 : 1;
+  if (a.weak != b.weak) return a.weak < b.weak ? -1 : 1;
+  return 0;
+}
+
+// ---------------------------------------------------------------------------
+// Recognition.
+
+// The record's ions, counted per family formula unit (4, 12, 19 or 3
+// anions).
+struct Ion {
+  const Element* element;
+  int state;
+  Rational count;
+  Preference preference;
+  int tie = 0;  // The family's tie-break rank: lower goes tetrahedral first.
+  size_t order = 0;  // Position in the assignment.
+};
+using Ions = absl::InlinedVector<Ion, 8>;
+
+struct Shape {
+  int anion_z = 0;
+  Rational anions;
+  Rational cations;
+  double ratio = 0;  // cations / anions, for the cheap first test.
+};
+
+// Cheap first test, no allocation and no rational arithmetic: one anion
+// element among O, F, S, Se, every other element a metal, Si or Ge.
+bool ReadShape(const Formula& formula, Shape* shape) {
+  const ElementAmount* anion = nullptr;
+  double cations = 0;
+  for (const ElementAmount& amount : formula.amounts) {
+    const int z = amount.element->atomic_number;
+    if (z == kZOxygen || z == kZFluorine || z == kZSulfur || z == kZSelenium) {
+      if (anion != nullptr) return false;
+      anion = &amount;
+    } else if (IsMetal(*amount.element) || z == kZSilicon || z == kZGermanium) {
+      cations += amount.count.ToDouble();
+    } else {
+      return false;
+    }
+  }
+  if (anion == nullptr || cations == 0) return false;
+  shape->anion_z = anion->element->atomic_number;
+  shape->ratio = cations / anion->count.ToDouble();
+  return true;
+}
+
+// The exact counts, once the ratio is promising.
+void CountExactly(const Formula& formula, Shape* shape) {
+  shape->cations = Rational();
+  for (const ElementAmount& amount : formula.amounts) {
+    if (amount.element->atomic_number == shape->anion_z) {
+      shape->anions = amount.count;
+    } else {
+      shape->cations = shape->cations + amount.count;
+    }
+  }
+}
+
+// cations / anions == num / den.
+bool RatioIs(const Shape& s, int num, int den) {
+  return s.cations * Rational(den) == s.anions * Rational(num);
+}
+
+// The same, in floating point, within rounding.
+bool RatioNear(const Shape& s, int num, int den) {
+  return std::abs(s.ratio - static_cast<double>(num) / den) < 1e-9;
+}
+
+struct FamilySpec {
+  StructureFamily family;
+  int anions;          // Per family formula unit.
+  int cations;         // Per family formula unit.
+  bool chalcogenides;  // S and Se allowed besides O.
+  bool fluorides;
+};
+
+constexpr FamilySpec kSpinel = {StructureFamily::kSpinel, 4, 3, true, false};
+constexpr FamilySpec kGarnet = {StructureFamily::kGarnet, 12, 8, false, false};
+constexpr FamilySpec kHexaferrite = {StructureFamily::kHexaferrite, 19, 13,
+                                     false, false};
+constexpr FamilySpec kPerovskite = {StructureFamily::kPerovskite, 3, 2, false,
+                                    true};
+
+std::string AnionText(const FamilySpec& spec) {
+  if (spec.chalcogenides) return "O, S or Se";
+  if (spec.fluorides) return "O or F";
+  return "O";
+}
+
+bool AnionFits(const FamilySpec& spec, const Shape& s) {
+  return s.anion_z == kZOxygen ||
+         (spec.chalcogenides &&
+          (s.anion_z == kZSulfur || s.anion_z == kZSelenium)) ||
+         (spec.fluorides && s.anion_z == kZFluorine);
+}
+
+// The cheap pattern test: the anion and the ratio in floating point.
+bool Candidate(const FamilySpec& spec, const Shape& s) {
+  return AnionFits(spec, s) && RatioNear(s, spec.cations, spec.anions);
+}
+
+// The exact pattern test of `spec` on the shape (after CountExactly).
+// Fills `why` when not null.
+bool ShapeFits(const FamilySpec& spec, const Shape& s, std::string* why) {
+  if (!AnionFits(spec, s)) {
+    if (why) {
+      *why = absl::StrCat("needs ", AnionText(spec),
+                          " as the only anion beside metal cations");
+    }
+    return false;
+  }
+  if (!RatioIs(s, spec.cations, spec.anions)) {
+    if (why) {
+      *why = absl::StrCat("needs ", spec.cations, " cations per ", spec.anions,
+                          " anions, found ", s.cations.ToString(), " per ",
+                          s.anions.ToString());
+    }
+    return false;
+  }
+  return true;
+}
+
+constexpr char kTooFine[] = "the counts are too finely divided";
+
+// Reads the assignment's ions, counted per family formula unit. False
+// (with `why`) when an ion sits in a unit, a cation is not positive, the
+// anion is not in its usual state or the counts are too finely divided.
+bool ReadIons(const OxidationAssignment& a, const FamilySpec& spec,
+              const Shape& shape, Ions* ions, std::string* why) {
+  const Rational scale =
+      Rational(spec.anions) * Rational(shape.anions.den(), shape.anions.num());
+  const bool unit_scale = scale == Rational(1);
+  const int anion_state = shape.anion_z == kZFluorine ? -1 : -2;
+  for (const AssignedState& s : a.states) {
+    if (s.unit >= 0) {
+      if (why) *why = "the assignment reads a polyatomic unit";
+      return false;
+    }
+    if (s.element->atomic_number == shape.anion_z) {
+      if (s.state != anion_state) {
+        if (why) {
+          *why = absl::StrCat(
+              "the anion is ", FormatSpecies(s.element->symbol, s.state),
+              ", not ", FormatSpecies(s.element->symbol, anion_state));
+        }
+        return false;
+      }
+      continue;
+    }
+    if (s.state <= 0) {
+      if (why) {
+        *why = absl::StrCat(FormatSpecies(s.element->symbol, s.state),
+                            " is not a cation");
+      }
+      return false;
+    }
+    const Rational count = unit_scale ? s.count : s.count * scale;
+    if (!Small(count) || count.den() > 1000) {
+      if (why) *why = kTooFine;
+      return false;
+    }
+    ions->push_back(Ion{s.element, s.state, count, Preference()});
+  }
+  return true;
+}
+
+// Splits `ions` into the large cations and the others.
+Rational LargeTotal(const Ions& ions) {
+  Rational total;
+  for (const Ion& ion : ions) {
+    if (IsLargeCation(*ion.element, ion.state)) total = total + ion.count;
+  }
+  return total;
+}
+
+std::string Species(const Ion& ion) {
+  return FormatSpecies(ion.element->symbol, ion.state);
+}
+
+// ---------------------------------------------------------------------------
+// Filling sites.
+
+// Sites filled together: a capacity shared by sites in fixed proportions.
+struct Pool {
+  Rational capacity;
+  absl::InlinedVector<std::pair<int, Rational>, 3> shares;  // Site, share.
+};
+
+// The record's count of a family-unit count.
+Rational ToRecord(const Rational& count, const Rational& unscale) {
+  return unscale == Rational(1) ? count : count * unscale;
+}
+
+void AddOccupant(Site* site, const Ion& ion, const Rational& count) {
+  if (count.IsZero()) return;
+  for (SiteOccupant& o : site->occupants) {
+    if (o.element == ion.element && o.state == ion.state) {
+      o.count = o.count + count;
+      return;
+    }
+  }
+  site->occupants.push_back(SiteOccupant{ion.element, ion.state, count});
+}
+
+// Sorts `ions` least octahedral first (preference, read for a spinel or
+// another family, then the tie rank) and
+// pours them into `pools` in order; ions that tie completely share a pool
+// in proportion to their counts. Counts on sites are the record's
+// (`unscale` = record formula units per family unit). False on overflow.
+bool Pour(Ions* ions, absl::Span<const Pool> pools, const Rational& unscale,
+          bool spinel, std::vector<Site>* sites) {
+  for (Ion& ion : *ions) {
+    ion.preference = LookupPreference(*ion.element, ion.state, spinel);
+  }
+  // Formula order breaks the remaining ties (std::sort, unlike
+  // std::stable_sort, allocates nothing).
+  for (size_t k = 0; k < ions->size(); ++k) (*ions)[k].order = k;
+  std::sort(ions->begin(), ions->end(), [](const Ion& a, const Ion& b) {
+    const int c = ComparePreference(a.preference, b.preference);
+    if (c != 0) return c < 0;
+    if (a.tie != b.tie) return a.tie < b.tie;
+    return a.order < b.order;
+  });
+  size_t pool = 0;
+  Rational left = pools.empty() ? Rational() : pools[0].capacity;
+  size_t i = 0;
+  while (i < ions->size() && pool < pools.size()) {
+    // A group of ions that tie completely.
+    size_t end = i + 1;
+    Rational group = (*ions)[i].count;
+    while (end < ions->size() &&
+           ComparePreference((*ions)[i].preference, (*ions)[end].preference) ==
+               0 &&
+           (*ions)[i].tie == (*ions)[end].tie) {
+      group = group + (*ions)[end].count;
+      ++end;
+    }
+    Rational remaining = group;  // Of the group, still to place.
+    while (!remaining.IsZero() && pool < pools.size()) {
+      const Rational take = Min(remaining, left);
+      const Rational fraction =
+          take * Rational(group.den(), group.num());  // Of each ion's count.
+      for (size_t k = i; k < end; ++k) {
+        const Rational amount = (*ions)[k].count * fraction;
+        for (const auto& [site, share] : pools[pool].shares) {
+          const Rational placed = ToRecord(amount * share, unscale);
+          if (!Small(placed)) return false;
+          AddOccupant(&(*sites)[site], (*ions)[k], placed);
+        }
+      }
+      remaining = remaining - take;
+      left = left - take;
+      if (!Small(remaining) || !Small(left)) return false;
+      if (left.IsZero() && ++pool < pools.size()) left = pools[pool].capacity;
+    }
+    i = end;
+  }
+  return true;
+}
+
+// Appends "Ni2+ 86 kJ/mol" or "Zn2+ strongly tetrahedral" to `out`.
+void AppendPreference(const Ion& ion, std::string* out) {
+  const Preference& p = ion.preference;
+  absl::StrAppend(out, FormatSpecies(ion.element->symbol, ion.state));
+  if (p.low_spin) absl::StrAppend(out, " (low spin)");
+  if (p.strong == 0) {
+    absl::StrAppend(out, " strongly tetrahedral");
+  } else if (p.strong == 2) {
+    absl::StrAppend(out, " strongly octahedral");
+  } else {
+    absl::StrAppend(out, " ", Rounded(p.ospe), " kJ/mol");
+    if (p.from_d_count) absl::StrAppend(out, " (isoelectronic row)");
+    if (p.weak) absl::StrAppend(out, ", weakly octahedral");
+  }
+}
+
+// "Fe3+ 0 kJ/mol, Ni2+ 86 kJ/mol": the ions in the order they were placed.
+std::string OrderText(const Ions& ions) {
+  std::string text;
+  for (const Ion& ion : ions) {
+    if (!text.empty()) text += ", ";
+    AppendPreference(ion, &text);
+  }
+  return text;
+}
+
+constexpr absl::string_view kPreferenceSource =
+    "octahedral site preference energies after Dunitz and Orgel 1957 and "
+    "McClure 1957, data/site_preferences.tsv";
+
+Site MakeSite(absl::string_view name, Geometry geometry, int direction) {
+  return Site{name, geometry, direction, {}};
+}
+
+// ---------------------------------------------------------------------------
+// The families.
+
+std::optional<SitePlacement> PlaceSpinel(Ions ions, const Rational& unscale,
+                                         std::string* why) {
+  for (const Ion& ion : ions) {
+    if (!IsSmallCation(*ion.element, ion.state)) {
+      if (why)
+        *why = absl::StrCat(Species(ion), " is too large for a spinel site");
+      return std::nullopt;
+    }
+  }
+  // The A-type charge: the lowest charge whose ions sum to one per AB2X4,
+  // else the lowest charge.
+  int lowest = 1000;
+  int a_type = 0;
+  for (const Ion& ion : ions) {
+    lowest = std::min(lowest, ion.state);
+    Rational total;
+    for (const Ion& other : ions) {
+      if (other.state == ion.state) total = total + other.count;
+    }
+    if (total == Rational(1) && (a_type == 0 || ion.state < a_type)) {
+      a_type = ion.state;
+    }
+  }
+  if (a_type == 0) a_type = lowest;
+  for (Ion& ion : ions) ion.tie = ion.state == a_type ? 0 : 1;
+
+  SitePlacement p;
+  p.family = StructureFamily::kSpinel;
+  p.sites.push_back(MakeSite("A (tetrahedral)", Geometry::kTetrahedral, -1));
+  p.sites.push_back(MakeSite("B (octahedral)", Geometry::kOctahedral, +1));
+  const Pool pools[] = {{Rational(1), {{0, Rational(1)}}},
+                        {Rational(2), {{1, Rational(1)}}}};
+  if (!Pour(&ions, pools, unscale, /*spinel=*/true, &p.sites)) {
+    if (why) *why = kTooFine;
+    return std::nullopt;
+  }
+  Rational a_type_on_a;
+  for (const SiteOccupant& o : p.sites[0].occupants) {
+    if (o.state == a_type) a_type_on_a = a_type_on_a + o.count;
+  }
+  // The tetrahedral site holds one per AB2X4: its share of the record.
+  const double inversion =
+      1.0 - (a_type_on_a * Rational(unscale.den(), unscale.num())).ToDouble();
+  p.inversion = std::abs(inversion) < 1e-12 ? 0.0 : inversion;
+  const char* kind = *p.inversion == 0   ? "normal"
+                     : *p.inversion == 1 ? "inverse"
+                                         : "partly inverse";
+  p.note = absl::StrCat(
+      kind, " spinel (inversion ", Rounded(*p.inversion),
+      ", the fraction of the tetrahedral site not held by the ", a_type,
+      "+ ions): the tetrahedral A site takes the ions of least octahedral "
+      "preference, in order ",
+      OrderText(ions), " (", kPreferenceSource,
+      "); ties keep the normal distribution");
+  return p;
+}
+
+// Mg2+, Mn2+, Fe2+ and Ca2+: the c-site ions of silicate and germanate
+// garnets (pyrope, spessartine, almandine, grossular).
+bool IsGarnetDivalent(const Ion& ion) {
+  const int z = ion.element->atomic_number;
+  return ion.state == 2 && (z == 12 || z == 25 || z == 26 || z == 20);
+}
+
+std::optional<SitePlacement> PlaceGarnet(Ions ions, const Rational& unscale,
+                                         std::string* why) {
+  Rational large = LargeTotal(ions);
+  bool silicate = false;
+  if (large != Rational(3)) {
+    // Silicate and germanate garnets with small divalent c ions.
+    Rational si_ge, divalent;
+    for (const Ion& ion : ions) {
+      const int z = ion.element->atomic_number;
+      if (z == kZSilicon || z == kZGermanium) si_ge = si_ge + ion.count;
+      if (IsGarnetDivalent(ion)) divalent = divalent + ion.count;
+    }
+    if (!large.IsZero() || si_ge != Rational(3) || divalent != Rational(3)) {
+      if (why) {
+        *why = absl::StrCat(
+            "needs 3 large cations (Y, lanthanides, Bi3+, Ca2+, Na+) per 12 "
+            "O, or 3 Si/Ge beside 3 Mg2+, Mn2+, Fe2+ or Ca2+, found ",
+            large.ToString(), " large");
+      }
+      return std::nullopt;
+    }
+    silicate = true;
+  }
+  SitePlacement p;
+  p.family = StructureFamily::kGarnet;
+  p.sites.push_back(MakeSite("c (dodecahedral)", Geometry::kTetrahedral, -1));
+  p.sites.push_back(MakeSite("a (octahedral)", Geometry::kOctahedral, -1));
+  p.sites.push_back(MakeSite("d (tetrahedral)", Geometry::kTetrahedral, +1));
+  Ions rest;
+  for (const Ion& ion : ions) {
+    const bool on_c = silicate ? IsGarnetDivalent(ion)
+                               : IsLargeCation(*ion.element, ion.state);
+    if (on_c) {
+      AddOccupant(&p.sites[0], ion, ToRecord(ion.count, unscale));
+      continue;
+    }
+    if (!IsSmallCation(*ion.element, ion.state)) {
+      if (why)
+        *why = absl::StrCat(Species(ion), " fits neither garnet a nor d site");
+      return std::nullopt;
+    }
+    rest.push_back(ion);
+    // Ties: the lighter (smaller) ion takes the tetrahedral site.
+    rest.back().tie = ion.element->atomic_number;
+  }
+  const Pool pools[] = {{Rational(3), {{2, Rational(1)}}},
+                        {Rational(2), {{1, Rational(1)}}}};
+  if (!Pour(&rest, pools, unscale, /*spinel=*/false, &p.sites)) {
+    if (why) *why = kTooFine;
+    return std::nullopt;
+  }
+  p.note = absl::StrCat(
+      "garnet {c3}[a2](d3)O12: ",
+      silicate ? "the divalent ions beside Si/Ge" : "the large cations",
+      " on the dodecahedral c site; the tetrahedral d site takes the ions of "
+      "least octahedral preference, in order ",
+      OrderText(rest), " (", kPreferenceSource,
+      "); ties put the lighter ion on d");
+  return p;
+}
+
+std::optional<SitePlacement> PlaceHexaferrite(Ions ions,
+                                              const Rational& unscale,
+                                              std::string* why) {
+  if (LargeTotal(ions) != Rational(1)) {
+    if (why) {
+      *why = absl::StrCat(
+          "needs one large cation (Ba, Sr, Pb2+, Ca, La) per 19 O, found ",
+          LargeTotal(ions).ToString());
+    }
+    return std::nullopt;
+  }
+  SitePlacement p;
+  p.family = StructureFamily::kHexaferrite;
+  p.sites.push_back(MakeSite("A (12-coordinate)", Geometry::kFree, 0));
+  p.sites.push_back(MakeSite("12k (octahedral)", Geometry::kOctahedral, +1));
+  p.sites.push_back(MakeSite("4f1 (tetrahedral)", Geometry::kTetrahedral, -1));
+  p.sites.push_back(MakeSite("4f2 (octahedral)", Geometry::kOctahedral, -1));
+  p.sites.push_back(MakeSite("2a (octahedral)", Geometry::kOctahedral, +1));
+  p.sites.push_back(MakeSite("2b (trigonal bipyramidal)", Geometry::kFree, +1));
+  Ions rest;
+  for (const Ion& ion : ions) {
+    if (IsLargeCation(*ion.element, ion.state)) {
+      AddOccupant(&p.sites[0], ion, ToRecord(ion.count, unscale));
+      continue;
+    }
+    if (!IsSmallCation(*ion.element, ion.state)) {
+      if (why) *why = absl::StrCat(Species(ion), " fits no hexaferrite site");
+      return std::nullopt;
+    }
+    rest.push_back(ion);
+    // Ties: the majority ion keeps the tetrahedral and bipyramidal sites.
+    rest.back().tie = static_cast<int>(-ion.count.ToDouble() * 1000);
+  }
+  const Pool pools[] = {
+      {Rational(2), {{2, Rational(1)}}},
+      {Rational(1), {{5, Rational(1)}}},
+      {Rational(9),
+       {{1, Rational(6, 9)}, {3, Rational(2, 9)}, {4, Rational(1, 9)}}}};
+  if (!Pour(&rest, pools, unscale, /*spinel=*/false, &p.sites)) {
+    if (why) *why = kTooFine;
+    return std::nullopt;
+  }
+  p.note = absl::StrCat(
+      "magnetoplumbite hexaferrite AB12O19: the large cation on the A site; "
+      "the tetrahedral 4f1 and then the bipyramidal 2b site take the ions of "
+      "least octahedral preference, in order ",
+      OrderText(rest), " (", kPreferenceSource,
+      "); ties leave them to the majority ion; the rest share 12k, 4f2 and 2a "
+      "in proportion to their multiplicity (no preference among octahedral "
+      "sites)");
+  return p;
+}
+
+std::optional<SitePlacement> PlacePerovskite(const Ions& ions,
+                                             const Rational& unscale,
+                                             std::string* why) {
+  Rational large, small;
+  for (const Ion& ion : ions) {
+    if (IsLargeCation(*ion.element, ion.state)) {
+      large = large + ion.count;
+    } else if (IsMetal(*ion.element)) {
+      small = small + ion.count;
+    } else {
+      if (why) *why = absl::StrCat(Species(ion), " fits no perovskite site");
+      return std::nullopt;
+    }
+  }
+  if (large != Rational(1) || small != Rational(1)) {
+    if (why) {
+      *why = absl::StrCat(
+          "needs one large A cation (alkali but Li, Ca, Sr, Ba, Pb2+, Bi3+, "
+          "Y, lanthanides) and one small B cation per 3 anions, found ",
+          large.ToString(), " and ", small.ToString());
+    }
+    return std::nullopt;
+  }
+  SitePlacement p;
+  p.family = StructureFamily::kPerovskite;
+  p.sites.push_back(MakeSite("A (12-coordinate)", Geometry::kFree, 0));
+  p.sites.push_back(MakeSite("B (octahedral)", Geometry::kOctahedral, +1));
+  for (const Ion& ion : ions) {
+    const int site = IsLargeCation(*ion.element, ion.state) ? 0 : 1;
+    AddOccupant(&p.sites[site], ion, ToRecord(ion.count, unscale));
+  }
+  p.note =
+      "perovskite ABX3: the large cations on the 12-coordinate A site, the "
+      "small ones on the octahedral B site";
+  return p;
+}
+
+std::optional<SitePlacement> TryFamily(const FamilySpec& spec,
+                                       const Shape& shape,
+                                       const OxidationAssignment& a,
+                                       std::string* why) {
+  if (!ShapeFits(spec, shape, why)) return std::nullopt;
+  Ions ions;
+  if (!ReadIons(a, spec, shape, &ions, why)) return std::nullopt;
+  // Record formula units per family formula unit.
+  const Rational unscale = shape.anions * Rational(1, spec.anions);
+  switch (spec.family) {
+    case StructureFamily::kSpinel:
+      return PlaceSpinel(std::move(ions), unscale, why);
+    case StructureFamily::kGarnet:
+      return PlaceGarnet(std::move(ions), unscale, why);
+    case StructureFamily::kHexaferrite:
+      return PlaceHexaferrite(std::move(ions), unscale, why);
+    case StructureFamily::kPerovskite:
+      return PlacePerovskite(ions, unscale, why);
+    case StructureFamily::kNone:
+      break;
+  }
+  return std::nullopt;
+}
+
+const FamilySpec* SpecOf(FamilyChoice choice) {
+  switch (choice) {
+    case FamilyChoice::kSpinel:
+      return &kSpinel;
+    case FamilyChoice::kGarnet:
+      return &kGarnet;
+    case FamilyChoice::kHexaferrite:
+      return &kHexaferrite;
+    case FamilyChoice::kPerovskite:
+      return &kPerovskite;
+    case FamilyChoice::kAuto:
+    case FamilyChoice::kOff:
+      break;
+  }
+  return nullptr;
+}
+
+}  // namespace
+
+std::optional<SitePlacement> PlaceIons(const Formula& formula,
+                                       const OxidationAssignment& a,
+                                       FamilyChoice choice,
+                                       std::string* why_not) {
+  if (why_not != nullptr) why_not->clear();
+  if (choice == FamilyChoice::kOff) return std::nullopt;
+  Shape shape;
+  // A charged formula (an ion) is no crystal of a family.
+  const bool shape_ok =
+      formula.charge.value_or(0) == 0 && ReadShape(formula, &shape);
+  if (const FamilySpec* spec = SpecOf(choice)) {
+    std::string why;
+    std::optional<SitePlacement> p;
+    if (!shape_ok) {
+      why = absl::StrCat("needs a neutral formula with ", AnionText(*spec),
+                         " as the only anion beside metal cations");
+    } else {
+      CountExactly(formula, &shape);
+      p = TryFamily(*spec, shape, a, &why);
+    }
+    if (!p.has_value() && why_not != nullptr) {
+      *why_not = absl::StrCat(Name(spec->family), ": ", why);
+    }
+    return p;
+  }
+  // kAuto: the ratio picks at most two candidate families; nothing is
+  // allocated before one matches.
+  if (!shape_ok) return std::nullopt;
+  bool counted = false;
+  for (const FamilySpec* spec :
+       {&kSpinel, &kPerovskite, &kHexaferrite, &kGarnet}) {
+    if (!Candidate(*spec, shape)) continue;
+    if (!counted) {
+      CountExactly(formula, &shape);
+      counted = true;
+    }
+    if (std::optional<SitePlacement> p = TryFamily(*spec, shape, a, nullptr)) {
+      return p;
+    }
+  }
+  return std::nullopt;
+}
+
+double OrderedIonMoment(const AtomDescription& ion) {
+  return ion.moments.recommended_basis == MomentBasis::kJ
+             ? ion.moments.saturation
+             : ion.moments.spin_moment;
+}
+
+namespace {
+
+constexpr double kNoMoment = 1e-9;
+
+std::string Mu(double v) { return Rounded(v); }
+
+// Σ count × moment of site `s`, from `m` at `*next`.
+double SiteMoment(const Site& s, absl::Span<const double> m, size_t* next) {
+  double total = 0;
+  for (const SiteOccupant& o : s.occupants) {
+    total += o.count.ToDouble() * m[(*next)++];
+  }
+  return total;
+}
+
+SublatticeMoment Undetermined(std::string note) {
+  SublatticeMoment r;
+  r.determined = false;
+  r.note = std::move(note);
+  return r;
+}
+
+SublatticeMoment TwoSided(const SitePlacement& p,
+                          absl::Span<const double> moments) {
+  size_t next = 0;
+  double up = 0, down = 0;
+  std::vector<absl::string_view> up_names, down_names;
+  for (const Site& s : p.sites) {
+    const double m = SiteMoment(s, moments, &next);
+    if (s.direction > 0) {
+      up += m;
+      up_names.push_back(s.name);
+    } else if (s.direction < 0) {
+      down += m;
+      down_names.push_back(s.name);
+    }
+  }
+  SublatticeMoment r;
+  const std::string sides =
+      absl::StrCat(absl::StrJoin(up_names, " + "), " ", Mu(up), " μB against ",
+                   absl::StrJoin(down_names, " + "), " ", Mu(down), " μB");
+  if (up < kNoMoment || down < kNoMoment) {
+    r.saturation = 0;
+    r.note = absl::StrCat(
+        "Néel collinear model: ", sides,
+        "; one sublattice carries no moment, so the other orders "
+        "antiferromagnetically within itself and the net moment is 0 "
+        "(Smit and Wijn, Ferrites, 1959, from memory)");
+    return r;
+  }
+  r.saturation = std::abs(up - down);
+  r.note = absl::StrCat("Néel collinear model: ", sides, ", net ",
+                        Mu(r.saturation), " μB per formula unit");
+  return r;
+}
+
+// True for a lanthanide ion whose 4f shell is less than half full (Ce3+ to
+// Sm3+): J = L − S, so its moment points against its spin.
+bool IsLightLanthanide(const Element& e, int state) {
+  const int z = e.atomic_number;
+  const int f = z - 54 - state;  // 4f electrons beyond the Xe core.
+  return z >= 57 && z <= 71 && f > 0 && f < 7;
+}
+
+SublatticeMoment Garnet(const SitePlacement& p,
+                        absl::Span<const double> moments) {
+  size_t next = 0;
+  const size_t first_c = 0;  // c is the first site.
+  const double c = SiteMoment(p.sites[0], moments, &next);
+  const double a = SiteMoment(p.sites[1], moments, &next);
+  const double d = SiteMoment(p.sites[2], moments, &next);
+  SublatticeMoment r;
+  if (a < kNoMoment || d < kNoMoment) {
+    r.saturation = 0;
+    r.note = absl::StrCat(
+        "Néel collinear model: a ", Mu(a), " μB, d ", Mu(d),
+        " μB; one of them carries no moment, so the other orders "
+        "antiferromagnetically within itself and the c ions (",
+        Mu(c),
+        " μB) are left without an ordered partner: net 0 (Smit and Wijn, "
+        "Ferrites, 1959, from memory)");
+    return r;
+  }
+  // The c ions' spins couple antiparallel to the net iron spin; a heavy
+  // rare earth's moment follows its spin, a light one's (J = L − S) points
+  // against it, along the iron moment.
+  const double iron = std::abs(d - a);
+  double against = 0, along = 0;
+  for (size_t i = 0; i < p.sites[0].occupants.size(); ++i) {
+    const SiteOccupant& o = p.sites[0].occupants[i];
+    const double m = o.count.ToDouble() * moments[first_c + i];
+    if (IsLightLanthanide(*o.element, o.state)) {
+      along += m;
+    } else {
+      against += m;
+    }
+  }
+  r.saturation = std::abs(iron + along - against);
+  const std::string fe =
+      absl::StrCat("Néel collinear model: d ", Mu(d), " μB against a ", Mu(a),
+                   " μB, net ", Mu(iron), " μB");
+  if (against + along < kNoMoment) {
+    r.note =
+        absl::StrCat(fe, "; the c ions carry no moment: ", Mu(r.saturation),
+                     " μB per formula unit at 0 K");
+    return r;
+  }
+  r.note = absl::StrCat(
+      fe, "; the c ions' spins align antiparallel to it, so that ",
+      against > 0 ? absl::StrCat(Mu(against),
+                                 " μB (heavy rare earths and others) point "
+                                 "against it")
+                  : "",
+      against > 0 && along > 0 ? " and " : "",
+      along > 0 ? absl::StrCat(Mu(along),
+                               " μB (light rare earths, J = L − S) point "
+                               "along it")
+                : "",
+      ": ", Mu(r.saturation),
+      " μB per formula unit at 0 K (Néel 1948; Pauthenet 1958 for the "
+      "rare-earth garnets, from memory)");
+  return r;
+}
+
+SublatticeMoment Perovskite(const SitePlacement& p,
+                            absl::Span<const double> moments) {
+  const Site& a_site = p.sites[0];
+  const Site& b = p.sites[1];
+  const size_t first_b = a_site.occupants.size();
+  const Element* magnetic = nullptr;
+  for (size_t i = 0; i < b.occupants.size(); ++i) {
+    if (moments[first_b + i] < kNoMoment) continue;
+    const Element* e = b.occupants[i].element;
+    if (magnetic != nullptr && e != magnetic) {
+      return Undetermined(
+          "perovskite: the B site holds several magnetic elements (a double "
+          "perovskite or solid solution); their exchange signs depend on the "
+          "ordering of the B ions and are not estimated");
+    }
+    magnetic = e;
+  }
+  // The magnetic element's states on B, magnetic or not (Co3+ low spin
+  // beside Co4+ is mixed valence too).
+  int states = 0;
+  double total = 0;
+  for (size_t i = 0; i < b.occupants.size(); ++i) {
+    if (b.occupants[i].element != magnetic) continue;
+    ++states;
+    total += b.occupants[i].count.ToDouble() * moments[first_b + i];
+  }
+  SublatticeMoment r;
+  if (magnetic == nullptr) {
+    r.note = "perovskite: no ordered moment on the B site";
+    return r;
+  }
+  if (states == 1) {
+    r.note = absl::StrCat(
+        "perovskite: one magnetic B ion (", magnetic->symbol,
+        " in one state) orders antiferromagnetically by 180° superexchange "
+        "(Goodenough–Kanamori rules): net 0; canting gives the orthoferrites "
+        "a weak moment (about 0.05 μB), and BiMnO3, YTiO3, SrRuO3 and SrCoO3 "
+        "are ferromagnets that this rule misses; A-site moments are left "
+        "out");
+    return r;
+  }
+  r.saturation = total;
+  r.note = absl::StrCat(
+      "perovskite: mixed-valence ", magnetic->symbol,
+      " on the B site orders ferromagnetically by double exchange (Zener "
+      "1951): Σ count × moment = ",
+      Mu(total),
+      " μB per formula unit; holds in the ferromagnetic range of doping "
+      "(La1-xSrxMnO3 about 0.17 < x < 0.5), not for charge-ordered or "
+      "antiferromagnetic compositions; A-site moments are left out");
+  return r;
+}
+
+}  // namespace
+
+SublatticeMoment NeelSaturation(const SitePlacement& p,
+                                absl::Span<const double> ordered_moments) {
+  size_t occupants = 0;
+  for (const Site& s : p.sites) occupants += s.occupants.size();
+  if (occupants != ordered_moments.size()) {
+    return Undetermined(absl::StrCat("expected ", occupants,
+                                     " ordered moments, one per occupant, got ",
+                                     ordered_moments.size()));
+  }
+  switch (p.family) {
+    case StructureFamily::kSpinel:
+    case StructureFamily::kHexaferrite:
+      return TwoSided(p, ordered_moments);
+    case StructureFamily::kGarnet:
+      if (p.sites.size() == 3) return Garnet(p, ordered_moments);
+      break;
+    case StructureFamily::kPerovskite:
+      if (p.sites.size() == 2) return Perovskite(p, ordered_moments);
+      break;
+    case StructureFamily::kNone:
+      break;
+  }
+  return Undetermined("no structure family: no sublattice model");
+}
+
+}  // namespace shellwright
