@@ -65,6 +65,7 @@
 #include "api/records.h"
 #include "api/report_mask.h"
 #include "engine/composition.h"
+#include "engine/ligand_field.h"
 #include "engine/rational.h"
 #include "shellwright/v1/electron_structure.pb.h"
 #include "util/enum_names.h"
@@ -294,8 +295,18 @@ void VisitIon(const IonAnnotation& ion, Visitor& v) {
         v.Int(SHELLWRIGHT_REPORT_FIELD(unpaired_electrons), ion.unpaired());
         v.String(SHELLWRIGHT_REPORT_FIELD(geometry),
                  Name(lf != nullptr ? lf->geometry : Geometry::kFree));
+        // No spin state where its d count has only one (d0, d10,
+        // octahedral d3).
+        int d_electrons = 0;
+        if (lf != nullptr) {
+          for (const SplitLevel& level : lf->levels) {
+            d_electrons += level.electrons;
+          }
+        }
         v.String(SHELLWRIGHT_REPORT_FIELD(spin_state),
-                 lf != nullptr ? Name(lf->spin_state) : "");
+                 lf != nullptr && HasSpinChoice(d_electrons, lf->geometry)
+                     ? Name(lf->spin_state)
+                     : "");
         v.String(SHELLWRIGHT_REPORT_FIELD(ligand_field_occupancy),
                  lf != nullptr ? lf->Notation() : "");
         v.String(SHELLWRIGHT_REPORT_FIELD(term_symbol), d.term.ToAscii());

@@ -50,6 +50,40 @@ Rational AtomsInside(const Formula& formula, const Element* e, int g) {
   return n;
 }
 
+// An A-site cation of a perovskite: Ca, Sr, Ba, Y or a lanthanide.
+bool PerovskiteASite(const Element& e) {
+  const int z = e.atomic_number;
+  return z == 20 || z == 38 || z == 56 || z == 39 || (z >= 57 && z <= 71);
+}
+
+// Whether `assignment` is an oxygen-deficient perovskite of the
+// brownmillerite kind: free A-site cations (PerovskiteASite) and 3d metals
+// in equal numbers, oxide as the only anion, and from 2.5 up to (not
+// including) 2.75 oxygen per 3d metal: nearer the brownmillerite A2B2O5
+// than the perovskite ABO3 (common practice, no source for the bound). In
+// A2B2O5 half the B sites are tetrahedral and the octahedra share their
+// apical oxygen with the tetrahedra; their metal-oxygen bonds are longer
+// than in the perovskite and their field weaker (docs/method.md).
+bool OxygenDeficientPerovskite(const OxidationAssignment& assignment) {
+  if (!assignment.units.empty()) return false;
+  Rational a(0), b(0), o(0);
+  for (const AssignedState& s : assignment.states) {
+    const int z = s.element->atomic_number;
+    if (s.state < 0) {
+      if (z != 8 || s.state != -2) return false;
+      o = o + s.count;
+    } else if (z >= 21 && z <= 30) {
+      b = b + s.count;
+    } else if (PerovskiteASite(*s.element) && s.state > 0) {
+      a = a + s.count;
+    } else {
+      return false;  // Another cation, or O in a state other than -2.
+    }
+  }
+  return !b.IsZero() && a == b && !(o < b * Rational(5, 2)) &&
+         o < b * Rational(11, 4);
+}
+
 struct Site {
   const Ligand* ligand;
   double sites;  // Ligands times denticity, per formula unit.
@@ -197,6 +231,10 @@ IonEnvironment FindEnvironment(const Formula& formula,
   }
   if (total <= 0) {
     set(SpinState::kHigh, SpinBasis::kDefaultHigh);
+    return env;
+  }
+  if (OxygenDeficientPerovskite(assignment)) {
+    set(SpinState::kHigh, SpinBasis::kOxygenDeficientPerovskite);
     return env;
   }
   const SpinCrossover* c = FindSpinCrossover(e, ion.state);

@@ -53,6 +53,9 @@ enum class SpinBasis {
   kHeavyMetal,   // 4d or 5d: low spin.
   kTetrahedral,  // Tetrahedral 3d: high spin.
   kDefaultHigh,  // No ligand known: 3d high spin.
+  // An octahedral 3d ion in an oxygen-deficient perovskite of the
+  // brownmillerite kind (A2B2O5, SrCoO2.5): high spin.
+  kOxygenDeficientPerovskite,
 };
 
 template <>
@@ -65,7 +68,8 @@ struct EnumNames<SpinBasis> {
       {SpinBasis::kLigandField, "ligand_field"},
       {SpinBasis::kHeavyMetal, "4d_5d_low_spin"},
       {SpinBasis::kTetrahedral, "tetrahedral_high_spin"},
-      {SpinBasis::kDefaultHigh, "default_high_spin"}};
+      {SpinBasis::kDefaultHigh, "default_high_spin"},
+      {SpinBasis::kOxygenDeficientPerovskite, "oxygen_deficient_perovskite"}};
 };
 
 struct IonEnvironment {

@@ -1,6 +1,8 @@
 #include "engine/ligand_field.h"
 
 #include <algorithm>
+#include <array>
+#include <iterator>
 
 #include "absl/strings/str_cat.h"
 
@@ -88,6 +90,28 @@ LigandFieldSplitting SplitD(int d_electrons, Geometry geometry,
     result.unpaired += unpaired;
   }
   return result;
+}
+
+bool HasSpinChoice(int d_electrons, Geometry geometry) {
+  if (geometry == Geometry::kFree || d_electrons < 0 || d_electrons > 10) {
+    return false;
+  }
+  constexpr size_t kGeometries =
+      std::size(EnumNames<Geometry>::kNames);  // Indexed by value.
+  static const auto* const table = [] {
+    auto* t = new std::array<std::array<bool, 11>, kGeometries>();
+    for (const auto& named : EnumNames<Geometry>::kNames) {
+      if (named.value == Geometry::kFree) continue;
+      for (int d = 0; d <= 10; ++d) {
+        (*t)[static_cast<size_t>(named.value)][d] =
+            SplitD(d, named.value, SpinState::kHigh).unpaired !=
+            SplitD(d, named.value, SpinState::kLow).unpaired;
+      }
+    }
+    return t;
+  }();
+  const size_t g = static_cast<size_t>(geometry);
+  return g < kGeometries && (*table)[g][d_electrons];
 }
 
 }  // namespace shellwright

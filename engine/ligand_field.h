@@ -109,6 +109,17 @@ SpinState ResolveSpinState(Geometry geometry, SpinStatePreference preference,
 LigandFieldSplitting SplitD(int d_electrons, Geometry geometry,
                             SpinState spin_state);
 
+// True when `d_electrons` (0..10) in `geometry` can be high or low spin
+// with different unpaired counts (SplitD's levels): octahedral d4-d7,
+// tetrahedral d3-d6, square-planar d3-d8, trigonal-prismatic d2-d7. False
+// for d0 and d10, for a count with one spin state in its geometry
+// (octahedral d3 or d8), for kFree and for a count outside 0..10.
+// Thread-safe (a table built on first use).
+//
+//   HasSpinChoice(6, Geometry::kOctahedral);  // true: Co3+ low or high
+//   HasSpinChoice(10, Geometry::kOctahedral);  // false: Zn2+
+bool HasSpinChoice(int d_electrons, Geometry geometry);
+
 }  // namespace shellwright
 
 #endif  // SHELLWRIGHT_ENGINE_LIGAND_FIELD_H_

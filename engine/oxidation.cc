@@ -169,19 +169,26 @@ using Reading = absl::InlinedVector<const UnitMatch*, 4>;
 // Builds the plan of every free element and unit of `reading`, or returns
 // false when the reading's units need more atoms than the formula holds.
 // Declared elements take exactly their declared states.
+//
+// `scaled_counts` holds each formula element's count times `scale`.
 bool MakePlans(const Formula& formula, const Rational& scale,
+               absl::Span<const int64_t> scaled_counts,
                const OxidationOptions& options, const Reading& reading,
                bool zintl, Plans* out) {
   Plans& plans = *out;
   plans.clear();
   plans.reserve(formula.amounts.size() + reading.size());
   bool carbon_or_nitrogen = false;
-  for (const ElementAmount& a : formula.amounts) {
+  for (size_t i = 0; i < formula.amounts.size(); ++i) {
+    const ElementAmount& a = formula.amounts[i];
     Rational count = a.count;
+    bool in_unit = false;
     for (const UnitMatch* m : reading) {
       for (const UnitAtom& u : m->units.front()->atoms) {
-        if (u.element == a.element)
+        if (u.element == a.element) {
           count = count - m->count * Rational(u.count);
+          in_unit = true;
+        }
       }
     }
     if (count < Rational(0)) return false;
@@ -192,7 +199,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     ElementPlan& p = plans.emplace_back();
     p.element = a.element;
     p.count = count;
-    p.scaled_count = (count * scale).num();
+    p.scaled_count = in_unit ? (count * scale).num() : scaled_counts[i];
     for (const DeclaredState& d : options.declared) {
       if (d.element != p.element) continue;
       p.declared = true;
@@ -375,7 +382,8 @@ void BuildCandidates(const Plans& plans, const Forbidden& forbidden,
 
 // Atoms per formula unit of `scaled` scaled atoms.
 Rational PerFormulaUnit(int64_t scaled, const Rational& scale) {
-  return Rational(scaled) * Rational(scale.den(), scale.num());
+  // One reduction: scaled x den stays far inside int64 (kMaxScaledAtoms).
+  return Rational(scaled * scale.den(), scale.num());
 }
 
 // The printed score of a weight (oxidation.h): 100 x uncommon +
@@ -513,8 +521,10 @@ OxidationAssignment ToAssignment(const Formula& formula, const Plans& plans,
 struct Search {
   int64_t target = 0;  // Net charge in scaled units.
   bool one_mixed = false;
-  bool strict = true;       // See Allowed.
-  bool zintl = false;       // Polyanion states by the 8-N rule (MakePlans).
+  bool strict = true;  // See Allowed.
+  bool zintl = false;  // Polyanion states by the 8-N rule (MakePlans).
+  // Each formula element's count times the scale (AssignStates).
+  absl::InlinedVector<int64_t, 8> scaled_counts;
   UnitMatches all_matches;  // Of the formula (AssignStates finds them).
   UnitMatches matches;      // Of the formula, but those on declared elements.
   internal::WorkBudget budget{internal::kRecordCellVisits, false};
@@ -706,7 +716,8 @@ BestReading SearchReadings(const Formula& formula,
           best.terms.weak_open_atoms == 0) {
         continue;
       }
-      if (!MakePlans(formula, scale, options, reading, search->zintl, &plans)) {
+      if (!MakePlans(formula, scale, search->scaled_counts, options, reading,
+                     search->zintl, &plans)) {
         continue;
       }
       const Weight bound =
@@ -797,15 +808,27 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
   const size_t wanted =
       static_cast<size_t>(incompatible ? std::max(options.max_alternatives, 3)
                                        : options.max_alternatives);
+  // With no alternatives to report, a search only matters if it could
+  // rank before every assignment found so far (RanksBefore): its weight
+  // must be below the lightest of their ranking keys, in which a
+  // redox-incompatible assignment counts one inconsistency more. A tie
+  // ranks after what was found first.
+  const auto rank_key = [](Weight w, const OxidationAssignment& a) {
+    return a.redox_incompatible.has_value()
+               ? Weight::FromPacked(w.packed() + Weight::kInconsistencyUnit)
+               : w;
+  };
+  Weight rank_bound = rank_key(best.solution.weight, *result->best);
   for (size_t i = 0; i < plans.size(); ++i) {
     if (plans[i].declared) continue;
-    Weight bound = Weight::Infinite();
+    Weight bound =
+        options.max_alternatives <= 0 ? rank_bound : Weight::Infinite();
     if (found.size() >= wanted) {
       weights.clear();
       for (const auto& [w, unused] : found) weights.push_back(w);
       std::nth_element(weights.begin(), weights.begin() + (wanted - 1),
                        weights.end());
-      bound = weights[wanted - 1];
+      bound = std::min(bound, weights[wanted - 1]);
     }
     const StateOption& chosen =
         plans[i].options()[best.solution.choices[i].option];
@@ -829,7 +852,9 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
       }
       duplicate |= same;
     }
-    if (!duplicate) found.emplace_back(s.weight, std::move(a));
+    if (duplicate) continue;
+    rank_bound = std::min(rank_bound, rank_key(s.weight, a));
+    found.emplace_back(s.weight, std::move(a));
   }
   found.emplace(found.begin(), best.solution.weight, *std::move(result->best));
   std::stable_sort(found.begin(), found.end(),
@@ -852,7 +877,8 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
 // whose window is too wide for kMaxSearchCells goes straight to the
 // restricted search instead of spending its budget on the stages that
 // come before the widest one.
-int64_t WideSearchCells(const Formula& formula, const Rational& scale,
+int64_t WideSearchCells(const Formula& formula,
+                        absl::Span<const int64_t> scaled_counts,
                         int64_t target) {
   const size_t n = formula.amounts.size();
   std::array<int64_t, kMaxDistinctElements + 1> rest_min, rest_max;
@@ -860,7 +886,7 @@ int64_t WideSearchCells(const Formula& formula, const Rational& scale,
   rest_min[n] = rest_max[n] = 0;
   for (size_t i = n; i-- > 0;) {
     const ElementAmount& a = formula.amounts[i];
-    const int64_t c = (a.count * scale).num();
+    const int64_t c = scaled_counts[i];
     const absl::Span<const KnownOxidationState> known =
         internal::KnownStates(*a.element);
     lo_state[i] = known.empty() ? 0 : std::min(0, known.front().state);
@@ -870,8 +896,7 @@ int64_t WideSearchCells(const Formula& formula, const Rational& scale,
   }
   int64_t cells = 0, prefix_min = 0, prefix_max = 0;
   for (size_t i = 0; i < n; ++i) {
-    const ElementAmount& a = formula.amounts[i];
-    const int64_t c = (a.count * scale).num();
+    const int64_t c = scaled_counts[i];
     prefix_min += c * lo_state[i];
     prefix_max += c * hi_state[i];
     const int64_t lo = std::max(prefix_min, target - rest_max[i + 1]);
@@ -1048,7 +1073,12 @@ absl::StatusOr<OxidationResult> AssignStates(const Formula& formula,
   }
   const Rational scale(lcd * twice, g);
   search.target = (Rational(options.net_charge) * scale).num();
-  if (WideSearchCells(formula, scale, search.target) <=
+  // g divides every count times lcd, so these are exact.
+  for (const ElementAmount& a : formula.amounts) {
+    search.scaled_counts.push_back(a.count.num() * (lcd / a.count.den()) / g *
+                                   twice);
+  }
+  if (WideSearchCells(formula, search.scaled_counts, search.target) <=
       internal::kMaxSearchCells) {
     SearchAssignments(formula, options, scale, &search, &result);
     if (!search.budget.exhausted || result.alternatives_cut) return result;

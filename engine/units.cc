@@ -234,9 +234,15 @@ std::string Ligand::Name() const {
 
 bool Unit::AcceptsCation(const Element& cation) const {
   if (cations == "-") return true;
-  for (absl::string_view c : absl::StrSplit(cations, ',')) {
+  // A comma-separated list, scanned in place (this runs in the search).
+  absl::string_view rest = cations;
+  while (!rest.empty()) {
+    const size_t comma = rest.find(',');
+    const absl::string_view c = rest.substr(0, comma);
     if (c == cation.symbol) return true;
-    if (c.size() == 1 && cation.block == Block::kS && c == "s") return true;
+    if (c == "s" && cation.block == Block::kS) return true;
+    if (comma == absl::string_view::npos) break;
+    rest.remove_prefix(comma + 1);
   }
   return false;
 }

@@ -97,9 +97,7 @@ std::optional<LigandFieldText> DescribeLigandField(
                              " d subshell: no spin state");
     return text;
   }
-  const bool choice =
-      SplitD(d_electrons, *geometry, SpinState::kHigh).unpaired !=
-      SplitD(d_electrons, *geometry, SpinState::kLow).unpaired;
+  const bool choice = HasSpinChoice(d_electrons, *geometry);
   text.spin = choice ? absl::StrCat(spin_state, " spin")
                      : absl::StrCat("d", d_electrons, ": one spin state only");
   text.has_spin_choice = choice;

@@ -157,5 +157,34 @@ TEST(Records, RegressionKeptStatesAndIonsCarryTheirOwnCounts) {
   EXPECT_EQ(first.SerializeAsString(), again.SerializeAsString());
 }
 
+// An ion whose d count has one spin state in its geometry gets no spin
+// state label: Zn2+ (d10), Ti4+ (d0) and Cr3+ (octahedral d3), while
+// low-spin Co3+ in LaCoO3 keeps "low" (Greenwood and Earnshaw, Chemistry of
+// the Elements, from memory).
+TEST(Records, SpinStateOnlyWhereTheDCountHasAChoice) {
+  const struct {
+    const char* formula;
+    const char* species;
+    const char* spin_state;
+  } kCases[] = {{"ZnO", "Zn2+", ""},
+                {"TiO2", "Ti4+", ""},
+                {"Cr2O3", "Cr3+", ""},
+                {"LaCoO3", "Co3+", "low"}};
+  for (const auto& c : kCases) {
+    v1::CompositionRecord record;
+    record.set_formula(c.formula);
+    v1::RecordReport report;
+    AnalyzeRecord(record, &report);
+    bool seen = false;
+    for (const v1::IonReport& ion : report.ions()) {
+      if (ion.species() != c.species) continue;
+      seen = true;
+      EXPECT_EQ(ion.spin_state(), c.spin_state) << c.formula;
+      EXPECT_EQ(ion.geometry(), "octahedral") << c.formula;
+    }
+    EXPECT_TRUE(seen) << c.formula;
+  }
+}
+
 }  // namespace
 }  // namespace shellwright

@@ -494,6 +494,42 @@ TEST(Composition, OxideLigandsMakeLayeredCobaltLowSpin) {
   EXPECT_DOUBLE_EQ(fluoride.unpaired_per_formula_unit, 4);
 }
 
+// The brownmillerite SrCoO2.5 (Sr2Co2O5) holds high-spin Co3+ on its
+// octahedral and tetrahedral sites (Munoz et al., Phys. Rev. B 78, 054404
+// (2008), neutron diffraction, from memory), while the perovskite LaCoO3 is
+// low spin in its ground state (Raccah and Goodenough, Phys. Rev. 155
+// (1967), from memory). The rule keys on the oxygen count: nearer A2B2O5
+// than ABO3.
+TEST(Composition, OxygenDeficientPerovskitesAreHighSpin) {
+  for (const char* formula :
+       {"SrCoO2.5", "Sr2Co2O5", "Ca2Co2O5", "La0.5Sr0.5CoO2.6"}) {
+    CompositionReport r = Analyze(formula);
+    EXPECT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+    bool cobalt = false;
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->symbol != "Co") continue;
+      cobalt = true;
+      EXPECT_EQ(ion.spin_basis, SpinBasis::kOxygenDeficientPerovskite)
+          << formula;
+      EXPECT_EQ(ion.description->ligand_field->splitting.spin_state,
+                SpinState::kHigh)
+          << formula;
+    }
+    EXPECT_TRUE(cobalt) << formula;
+  }
+  // The perovskite itself, a composition exactly half way (SrCoO2.75), a
+  // layered oxide with no A-site cation (LiCoO2) and a Ruddlesden-Popper
+  // A2BO4 (LaSrCoO4, two A per B) keep the ligand-field rule.
+  for (const char* formula : {"LaCoO3", "SrCoO2.75", "LiCoO2", "LaSrCoO4"}) {
+    CompositionReport r = Analyze(formula);
+    EXPECT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+    for (const IonAnnotation& ion : r.ions) {
+      EXPECT_NE(ion.spin_basis, SpinBasis::kOxygenDeficientPerovskite)
+          << formula << " " << ion.element->symbol;
+    }
+  }
+}
+
 // ---------------------------------------------------------------------------
 // Record id.
 

@@ -1,7 +1,8 @@
 // Tests for engine/ligand_field.h and the ligand-field part of DescribeAtom():
 // octahedral high/low spin occupancies against reference_magnetism.h, SplitD
 // for d0..d10 in octahedral, tetrahedral and square-planar fields, the kAuto
-// spin-state rule, and geometry requests on ions without an open d subshell.
+// spin-state rule, HasSpinChoice, and geometry requests on ions without an
+// open d subshell.
 
 #include "engine/ligand_field.h"
 
@@ -92,6 +93,31 @@ TEST(SplitD, ConservesElectronsAndNeverExceedsHund) {
         EXPECT_EQ((n - s.unpaired) % 2, 0);
       }
     }
+  }
+}
+
+// HasSpinChoice agrees with SplitD: a choice exactly where high and low
+// spin leave different unpaired counts.
+TEST(HasSpinChoice, MatchesSplitD) {
+  for (Geometry g : kSplitGeometries) {
+    for (int d = 0; d <= 10; ++d) {
+      EXPECT_EQ(HasSpinChoice(d, g), SplitD(d, g, SpinState::kHigh).unpaired !=
+                                         SplitD(d, g, SpinState::kLow).unpaired)
+          << Name(g) << " d" << d;
+    }
+  }
+  EXPECT_FALSE(HasSpinChoice(5, Geometry::kFree));
+  EXPECT_FALSE(HasSpinChoice(-1, Geometry::kOctahedral));
+  EXPECT_FALSE(HasSpinChoice(11, Geometry::kOctahedral));
+}
+
+// Octahedral d4-d7 can be high or low spin; d0-d3 and d8-d10 have one
+// state (Figgis and Hitchman, Ligand Field Theory and Its Applications,
+// from memory).
+TEST(HasSpinChoice, OctahedralTextbookRange) {
+  for (int d = 0; d <= 10; ++d) {
+    EXPECT_EQ(HasSpinChoice(d, Geometry::kOctahedral), d >= 4 && d <= 7)
+        << "d" << d;
   }
 }
 
