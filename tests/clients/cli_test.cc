@@ -557,7 +557,9 @@ TEST(Cli, DoneWhenChargedComplexIsValidWithChargePlusTwo) {
   double charge = 0;
   for (const v1::OxidationState& s : report.oxidation_states()) {
     charge += s.state() * s.count();
-    if (s.element() == "Fe") EXPECT_EQ(s.state(), 2);
+    if (s.element() == "Fe") {
+      EXPECT_EQ(s.state(), 2);
+    }
   }
   EXPECT_DOUBLE_EQ(charge, 2);
   // A record charge that contradicts the suffix is an error.
