@@ -40,11 +40,17 @@ template <typename Key, typename Message>
 CachedMessage<Key, Message>& CachedSlot(const Key& key) {
   // On the heap, made on first use: as thread_local storage it would be
   // zeroed by the loader at every process and thread start (the caches
-  // made some 0.6 MB of TLS, docs/performance.md).
-  using Cache = std::array<CachedMessage<Key, Message>, Key::kCacheSlots>;
+  // made some 0.6 MB of TLS, docs/performance.md). Each slot is made when
+  // first used too: a whole table of messages is some 0.35 MB that a
+  // one-record process would zero, and every page costs a fault.
+  using Cache = std::array<std::unique_ptr<CachedMessage<Key, Message>>,
+                           Key::kCacheSlots>;
   thread_local std::unique_ptr<Cache> cache;
   if (cache == nullptr) cache = std::make_unique<Cache>();
-  return (*cache)[key.Hash() % Key::kCacheSlots];
+  std::unique_ptr<CachedMessage<Key, Message>>& slot =
+      (*cache)[key.Hash() % Key::kCacheSlots];
+  if (slot == nullptr) slot = std::make_unique<CachedMessage<Key, Message>>();
+  return *slot;
 }
 
 // Builds a message from VisitRecordReport's calls, through each field's

@@ -2,6 +2,7 @@
 
 #include <array>
 #include <cmath>
+#include <memory>
 #include <mutex>
 #include <utility>
 
@@ -291,40 +292,36 @@ AtomDescriptionPtr Build(const Element& element, int charge,
 // charge from -kMaxAnionCharge to +Z, each built on first use: a process
 // that asks about a few ions (one CLI call) builds only those, a long run
 // ends up with the whole table.
+//
+// Each element's slots are allocated on its first use too: the whole
+// table is some 150 KB, which a one-record process would zero page by
+// page.
 class DescriptionCache {
  public:
-  DescriptionCache() {
-    int offset = 0;
-    for (int z = 1; z <= kMaxAtomicNumber; ++z) {
-      offsets_[z] = offset;
-      offset += z + kMaxAnionCharge + 1;
-    }
-    entries_.resize(offset);
-    built_ = std::make_unique<std::once_flag[]>(offset);
-  }
-
   // REQUIRES: -kMaxAnionCharge <= charge <= e.atomic_number.
   const AtomDescriptionPtr& Get(const Element& e, int charge) {
-    const int slot = Slot(e.atomic_number, charge);
-    // Every slot exists from the start; each is written once, by the
-    // call_once that guards it.
-    std::call_once(built_[slot], [&] {
-      absl::StatusOr<Configuration> c =
-          IonConfiguration(e.atomic_number, charge);
-      if (!c.ok()) return;
-      entries_[slot] = Build(e, charge, *c, /*user_supplied=*/false,
-                             Geometry::kFree, SpinStatePreference::kAuto);
+    const int z = e.atomic_number;
+    std::call_once(element_once_[z], [&] {
+      rows_[z] = std::make_unique<Entry[]>(z + kMaxAnionCharge + 1);
     });
-    return entries_[slot];
+    Entry& entry = rows_[z][charge + kMaxAnionCharge];
+    // Each slot is written once, by the call_once that guards it.
+    std::call_once(entry.built, [&] {
+      absl::StatusOr<Configuration> c = IonConfiguration(z, charge);
+      if (!c.ok()) return;
+      entry.description = Build(e, charge, *c, /*user_supplied=*/false,
+                                Geometry::kFree, SpinStatePreference::kAuto);
+    });
+    return entry.description;
   }
 
  private:
-  int Slot(int z, int charge) const {
-    return offsets_[z] + charge + kMaxAnionCharge;
-  }
-  std::array<int, kMaxAtomicNumber + 1> offsets_{};
-  std::unique_ptr<std::once_flag[]> built_;
-  std::vector<AtomDescriptionPtr> entries_;
+  struct Entry {
+    std::once_flag built;
+    AtomDescriptionPtr description;
+  };
+  std::array<std::once_flag, kMaxAtomicNumber + 1> element_once_;
+  std::array<std::unique_ptr<Entry[]>, kMaxAtomicNumber + 1> rows_;
 };
 
 DescriptionCache& Cache() {

@@ -2,6 +2,7 @@
 
 #include <array>
 #include <cmath>
+#include <memory>
 #include <mutex>
 #include <numeric>
 
@@ -154,6 +155,24 @@ RangeEnds DescribeRangeEnds(const Element* e, int state) {
   return ends;
 }
 
+// Rows of values per element, each row made on first use by `make`
+// (called once per element, under a once flag). A whole table made up
+// front is tens or hundreds of KB that a process asking about a few ions
+// would zero page by page, at a page fault each.
+template <typename Row>
+class LazyElementRows {
+ public:
+  template <typename Make>
+  const Row& Get(int z, Make make) {
+    std::call_once(once_[z], [&] { rows_[z] = std::make_unique<Row>(make()); });
+    return *rows_[z];
+  }
+
+ private:
+  std::array<std::once_flag, kMaxAtomicNumber + 1> once_;
+  std::array<std::unique_ptr<Row>, kMaxAtomicNumber + 1> rows_;
+};
+
 // RangeEnds depend only on the element and the state: read once per
 // element, for every state a record can hold (-9..+9), from the same
 // descriptions.
@@ -162,19 +181,15 @@ RangeEnds FindRangeEnds(const Element* e, int state) {
   if (state < -kMaxState || state > kMaxState) {
     return DescribeRangeEnds(e, state);
   }
-  struct PerElement {
-    std::once_flag once;
-    std::array<RangeEnds, 2 * kMaxState + 1> by_state;
-  };
-  static std::array<PerElement, kMaxAtomicNumber + 1>* const kTable =
-      new std::array<PerElement, kMaxAtomicNumber + 1>;
-  PerElement& slot = (*kTable)[e->atomic_number];
-  std::call_once(slot.once, [&] {
+  using Row = std::array<RangeEnds, 2 * kMaxState + 1>;
+  static auto* const kTable = new LazyElementRows<Row>;
+  return kTable->Get(e->atomic_number, [&] {
+    Row row;
     for (int q = -kMaxState; q <= kMaxState; ++q) {
-      slot.by_state[q + kMaxState] = DescribeRangeEnds(e, q);
+      row[q + kMaxState] = DescribeRangeEnds(e, q);
     }
-  });
-  return slot.by_state[state + kMaxState];
+    return row;
+  })[state + kMaxState];
 }
 
 // The ordered moment g S of an ion with `unpaired` electrons whose
@@ -242,23 +257,20 @@ struct RoomTemperatureMoments {
 const RoomTemperatureMoments& FindRoomTemperatureMoments(const Element* e,
                                                          int state) {
   constexpr int kMaxState = 9;
-  struct PerElement {
-    std::once_flag once;
-    std::array<RoomTemperatureMoments, 2 * kMaxState + 1> by_state;
-  };
-  static std::array<PerElement, kMaxAtomicNumber + 1>* const kTable =
-      new std::array<PerElement, kMaxAtomicNumber + 1>;
+  using Row = std::array<RoomTemperatureMoments, 2 * kMaxState + 1>;
+  static auto* const kTable = new LazyElementRows<Row>;
   static const RoomTemperatureMoments* const kNone = new RoomTemperatureMoments;
   if (state < -kMaxState || state > kMaxState) return *kNone;
-  PerElement& slot = (*kTable)[e->atomic_number];
-  std::call_once(slot.once, [&] {
+  return kTable->Get(e->atomic_number, [&] {
+    Row row;
     for (int q = -kMaxState; q <= kMaxState; ++q) {
-      RoomTemperatureMoments& m = slot.by_state[q + kMaxState];
-      m.van_vleck = VanVleckMoment(e->atomic_number, q, kDefaultTemperature);
-      m.kotani = EstimateKotaniMoment(*e, q, kDefaultTemperature);
+      row[q + kMaxState].van_vleck =
+          VanVleckMoment(e->atomic_number, q, kDefaultTemperature);
+      row[q + kMaxState].kotani =
+          EstimateKotaniMoment(*e, q, kDefaultTemperature);
     }
-  });
-  return slot.by_state[state + kMaxState];
+    return row;
+  })[state + kMaxState];
 }
 
 // The moment of a 4f ion with tabulated multiplet intervals: a Van Vleck

@@ -175,7 +175,7 @@ struct IonAnnotation {
   double ordered_high = 0;
   // The site a structure family placed the ion on ("B (octahedral)"), or
   // empty. Points at static storage.
-  absl::string_view site;
+  absl::string_view site = {};
   // For a d ion: the ligand holding most donor sites (null if none is
   // known), the mean f of its ligands and why it has its spin state.
   const Ligand* ligand = nullptr;

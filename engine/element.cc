@@ -36,8 +36,9 @@ struct ElementIndex {
   std::array<Element, kMaxAtomicNumber> elements;
   // Symbols are one capital and up to two lowercase letters: a direct
   // table indexed by the letters is faster than hashing, and symbol
-  // lookup is on every formula's hot path.
-  std::array<const Element*, 26 * 27 * 27> by_symbol{};
+  // lookup is on every formula's hot path. Atomic numbers (0 for none),
+  // not pointers: 19 KB instead of 150 KB for a process to zero.
+  std::array<uint8_t, 26 * 27 * 27> by_symbol{};
   absl::flat_hash_map<std::string, const Element*> by_lower_symbol;
   absl::flat_hash_map<std::string, const Element*> by_lower_name;
 };
@@ -64,7 +65,8 @@ const ElementIndex& Index() {
         e.pauling_electronegativity = r.pauling_electronegativity;
       }
       e.electronegativity_estimated = r.electronegativity_estimated;
-      index->by_symbol[SymbolSlot(e.symbol)] = &e;
+      index->by_symbol[SymbolSlot(e.symbol)] =
+          static_cast<uint8_t>(e.atomic_number);
       index->by_lower_symbol[internal::AsciiLower(e.symbol)] = &e;
       index->by_lower_name[internal::AsciiLower(e.name)] = &e;
     }
@@ -91,7 +93,10 @@ absl::StatusOr<const Element*> ElementByAtomicNumber(int z) {
 
 const Element* FindElementBySymbol(absl::string_view symbol) {
   const int slot = SymbolSlot(symbol);
-  return slot < 0 ? nullptr : Index().by_symbol[slot];
+  if (slot < 0) return nullptr;
+  const ElementIndex& index = Index();
+  const int z = index.by_symbol[slot];
+  return z == 0 ? nullptr : &index.elements[z - 1];
 }
 
 absl::StatusOr<const Element*> LookupElement(absl::string_view spec) {

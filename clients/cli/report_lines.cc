@@ -121,11 +121,16 @@ template <typename Key>
 Fragment<Key>& CachedFragment(const Key& key) {
   // On the heap, made on first use: as thread_local storage it would be
   // zeroed by the loader at every process and thread start (the caches
-  // made some 0.6 MB of TLS, docs/performance.md).
-  using Cache = std::array<Fragment<Key>, Key::kCacheSlots>;
+  // made some 0.6 MB of TLS, docs/performance.md). Each slot is made when
+  // first used too, so that a one-record process touches a page of
+  // pointers, not the whole table.
+  using Cache = std::array<std::unique_ptr<Fragment<Key>>, Key::kCacheSlots>;
   thread_local std::unique_ptr<Cache> cache;
   if (cache == nullptr) cache = std::make_unique<Cache>();
-  return (*cache)[key.Hash() % Key::kCacheSlots];
+  std::unique_ptr<Fragment<Key>>& slot =
+      (*cache)[key.Hash() % Key::kCacheSlots];
+  if (slot == nullptr) slot = std::make_unique<Fragment<Key>>();
+  return *slot;
 }
 
 // The JSON object of a report (api/report_view.h visitor): members in

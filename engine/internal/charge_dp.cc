@@ -4,10 +4,98 @@
 #include <limits>
 #include <utility>
 
-#include "absl/container/flat_hash_map.h"
+#include "absl/numeric/bits.h"
 
 namespace shellwright::internal {
 namespace {
+
+// One total reached by single-valence choices of a run of layers.
+struct SparseEntry {
+  int64_t total;
+  int64_t weight;     // Packed Weight.
+  int32_t link;       // Entry index in the neighbouring map; -1 at the root.
+  int32_t candidate;  // Index into Candidates::all; -1 at the root.
+};
+
+// Totals reached by single-valence choices: maps[i] holds those of the
+// layers before i (a forward run) or from i on (a backward run), each with
+// the lightest way to it. `depth` maps are in use; the vectors beyond keep
+// their capacity for the next search.
+struct SparseRun {
+  std::vector<std::vector<SparseEntry>> maps;
+  size_t depth = 0;
+};
+
+// Where each total of the layer being built sits in its map: open
+// addressing with linear probing, emptied in O(1) by a new stamp (a
+// general hash map frees and rehashes its array for every layer, which
+// cost more than the search itself).
+class TotalIndex {
+ public:
+  // Empties the index.
+  void Reset() {
+    if (slots_.empty()) Resize(64);
+    count_ = 0;
+    if (++stamp_ == 0) {  // Stamps wrapped: clear for real.
+      std::fill(slots_.begin(), slots_.end(), Slot{});
+      stamp_ = 1;
+    }
+  }
+  // The index stored for `total`, or a slot to store it in (then
+  // `*inserted` is true and the caller must set it before the next call).
+  int32_t& Find(int64_t total, bool* inserted) {
+    if (2 * (count_ + 1) > slots_.size()) Grow();
+    for (size_t i = Home(total);; i = (i + 1) & mask_) {
+      Slot& s = slots_[i];
+      if (s.stamp != stamp_) {
+        s = Slot{total, 0, stamp_};
+        ++count_;
+        *inserted = true;
+        return s.index;
+      }
+      if (s.total == total) {
+        *inserted = false;
+        return s.index;
+      }
+    }
+  }
+  size_t capacity() const { return slots_.size(); }
+
+ private:
+  struct Slot {
+    int64_t total = 0;
+    int32_t index = 0;
+    uint32_t stamp = 0;
+  };
+  size_t Home(int64_t total) const {
+    return (static_cast<uint64_t>(total) * 0x9E3779B97F4A7C15ull) >> shift_;
+  }
+  void Resize(size_t size) {
+    slots_.assign(size, Slot{});
+    mask_ = size - 1;
+    shift_ = 64 - absl::countr_zero(size);
+    stamp_ = 1;
+  }
+  // Doubles the table, keeping what the current stamp holds.
+  void Grow() {
+    std::vector<Slot> old;
+    old.swap(slots_);
+    const uint32_t live = stamp_;
+    Resize(2 * old.size());
+    for (const Slot& s : old) {
+      if (s.stamp != live) continue;
+      size_t i = Home(s.total);
+      while (slots_[i].stamp == stamp_) i = (i + 1) & mask_;
+      slots_[i] = Slot{s.total, s.index, stamp_};
+    }
+  }
+
+  std::vector<Slot> slots_;
+  size_t count_ = 0;
+  size_t mask_ = 0;
+  int shift_ = 63;
+  uint32_t stamp_ = 0;
+};
 
 // How many uncommon states layers i.. of a search need at least to add
 // up to a given total. Each layer on its narrow candidates contributes
@@ -49,7 +137,10 @@ struct Scratch {
   std::vector<std::vector<Choice>> back;
   std::vector<std::pair<int64_t, int64_t>> window;
   std::vector<UncommonNeed> needs;
-  absl::flat_hash_map<int64_t, int32_t> slot;  // SolveChargeOneMixed.
+  // SolveChargeOneMixed's.
+  TotalIndex slot;
+  SparseRun forward, backward;
+  std::vector<size_t> by_total;
 };
 
 Scratch& ThreadScratch() {
@@ -62,8 +153,13 @@ Scratch& ThreadScratch() {
 void ReleaseSearchScratch() {
   constexpr size_t kKeepCells = 1 << 15;
   Scratch& s = ThreadScratch();
-  size_t held = s.window.capacity() + s.slot.capacity();
+  size_t held = s.window.capacity() + s.slot.capacity() + s.by_total.capacity();
   for (const std::vector<int64_t>& layer : s.cost) held += layer.capacity();
+  for (const SparseRun* run : {&s.forward, &s.backward}) {
+    for (const std::vector<SparseEntry>& map : run->maps) {
+      held += map.capacity();
+    }
+  }
   if (held > kKeepCells) s = Scratch();
 }
 
@@ -363,25 +459,10 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
 
 namespace {
 
-// One total reached by single-valence choices of a run of layers.
-struct SparseEntry {
-  int64_t total;
-  int64_t weight;     // Packed Weight.
-  int32_t link;       // Entry index in the neighbouring map; -1 at the root.
-  int32_t candidate;  // Index into Candidates::all; -1 at the root.
-};
-
 // Cost of one sparse visit (a hash-map insertion, or a step of a join) in
 // dense cell visits, for the WorkBudget: about 8x on the reference
 // machine.
 constexpr int64_t kSparseVisitCost = 8;
-
-// Totals reached by single-valence choices: maps[i] holds those of the
-// layers before i (a forward run) or from i on (a backward run), each with
-// the lightest way to it.
-struct SparseRun {
-  std::vector<std::vector<SparseEntry>> maps;
-};
 
 // Fills run->maps layer by layer, in `order`, adding each layer's single
 // candidates to the previous map and keeping only totals inside
@@ -394,11 +475,13 @@ bool SparseSweep(absl::Span<const ChargeItem> items,
                  absl::Span<const int64_t> keep_hi,
                  const Candidates& candidates, int64_t bound,
                  WorkBudget* budget, int64_t* held, SparseRun* run) {
-  absl::flat_hash_map<int64_t, int32_t>& slot = ThreadScratch().slot;
-  run->maps.assign(1, {SparseEntry{0, 0, -1, -1}});
+  TotalIndex& slot = ThreadScratch().slot;
+  if (run->maps.size() < order.size() + 1) run->maps.resize(order.size() + 1);
+  run->maps[0].assign(1, SparseEntry{0, 0, -1, -1});
+  run->depth = 1;
   for (size_t step = 0; step < order.size(); ++step) {
     const size_t e = order[step];
-    const std::vector<SparseEntry>& prev = run->maps.back();
+    const std::vector<SparseEntry>& prev = run->maps[step];
     const CandidateList& list = *lists[e];
     const int64_t visits = kSparseVisitCost *
                            static_cast<int64_t>(prev.size()) *
@@ -407,30 +490,40 @@ bool SparseSweep(absl::Span<const ChargeItem> items,
       if (visits > budget->cell_visits) return false;
       budget->cell_visits -= visits;
     }
-    std::vector<SparseEntry> next;
-    slot.clear();
+    std::vector<SparseEntry>& next = run->maps[step + 1];
+    next.clear();
+    // The layer may hold what the search's cell bound leaves.
+    const size_t room = static_cast<size_t>(kMaxSearchCells - *held);
+    slot.Reset();
+    const int64_t count = items[e].scaled_count;
     for (size_t pi = 0; pi < prev.size(); ++pi) {
       for (size_t ci = list.begin; ci < list.end; ++ci) {
         const Candidate& c = candidates.all[ci];
         if (c.low != c.high) continue;
-        const int64_t t = prev[pi].total + items[e].scaled_count * c.low;
+        const int64_t t = prev[pi].total + count * c.low;
         if (t < keep_lo[step] || t > keep_hi[step]) continue;
         const int64_t w = prev[pi].weight + c.weight.packed();
         if (w >= bound) continue;
+        bool inserted = false;
+        int32_t& index = slot.Find(t, &inserted);
+        if (inserted) {
+          if (next.size() == room) return false;
+          index = static_cast<int32_t>(next.size());
+        } else if (w >= next[index].weight) {
+          continue;
+        }
         const SparseEntry entry{t, w, static_cast<int32_t>(pi),
                                 static_cast<int32_t>(ci)};
-        auto [it, inserted] =
-            slot.try_emplace(t, static_cast<int32_t>(next.size()));
         if (inserted) {
           next.push_back(entry);
-        } else if (w < next[it->second].weight) {
-          next[it->second] = entry;
+        } else {
+          next[index] = entry;
         }
       }
     }
     *held += static_cast<int64_t>(next.size());
     if (*held > kMaxSearchCells) return false;
-    run->maps.push_back(std::move(next));
+    run->depth = step + 2;
   }
   return true;
 }
@@ -495,7 +588,9 @@ Solution SolveChargeOneMixed(absl::Span<const ChargeItem> items,
       bo(backward_order.data(), n);
   const int64_t bound = limits.bound.packed();
   int64_t held = 0;
-  SparseRun forward, backward;
+  Scratch& scratch = ThreadScratch();
+  SparseRun& forward = scratch.forward;
+  SparseRun& backward = scratch.backward;
   if (!SparseSweep(items, list_span, fo, {f_lo.data(), n}, {f_hi.data(), n},
                    candidates, bound, limits.budget, &held, &forward) ||
       !SparseSweep(items, list_span, bo, {b_lo.data(), n}, {b_hi.data(), n},
@@ -513,7 +608,7 @@ Solution SolveChargeOneMixed(absl::Span<const ChargeItem> items,
   // Layer e mixed: the layers before it reach f, those after it g, and its
   // k scaled atoms in the lower state make up the rest:
   // f + g + c*high - k*d = target, 1 <= k <= c-1.
-  std::vector<size_t> by_total;
+  std::vector<size_t>& by_total = scratch.by_total;
   for (size_t e = 0; e < n; ++e) {
     const std::vector<SparseEntry>& before = forward.maps[e];
     const std::vector<SparseEntry>& after = backward.maps[n - 1 - e];
