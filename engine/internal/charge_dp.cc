@@ -464,13 +464,17 @@ namespace {
 // machine.
 constexpr int64_t kSparseVisitCost = 8;
 
-// Fills run->maps layer by layer, in `order`, adding each layer's single
-// candidates to the previous map and keeping only totals inside
-// [keep_lo[i], keep_hi[i]] after layer i joins. Returns false when the
-// budget or the cell bound runs out.
+// Fills run->maps layer by layer, in `order`, for the first `layers`
+// layers of it, adding each layer's single candidates to the previous map
+// and keeping only totals inside [keep_lo[i], keep_hi[i]] after layer i
+// joins, and only entries below `bound`. (Dropping those that cannot
+// come below it with the least weight of the layers still to come would
+// be sound, but it reorders the maps and so changes which of two equally
+// light results the join finds first.) Returns false when the budget or
+// the cell bound runs out.
 bool SparseSweep(absl::Span<const ChargeItem> items,
                  absl::Span<const CandidateList* const> lists,
-                 absl::Span<const size_t> order,
+                 absl::Span<const size_t> order, size_t layers,
                  absl::Span<const int64_t> keep_lo,
                  absl::Span<const int64_t> keep_hi,
                  const Candidates& candidates, int64_t bound,
@@ -479,7 +483,7 @@ bool SparseSweep(absl::Span<const ChargeItem> items,
   if (run->maps.size() < order.size() + 1) run->maps.resize(order.size() + 1);
   run->maps[0].assign(1, SparseEntry{0, 0, -1, -1});
   run->depth = 1;
-  for (size_t step = 0; step < order.size(); ++step) {
+  for (size_t step = 0; step < layers; ++step) {
     const size_t e = order[step];
     const std::vector<SparseEntry>& prev = run->maps[step];
     const CandidateList& list = *lists[e];
@@ -591,10 +595,12 @@ Solution SolveChargeOneMixed(absl::Span<const ChargeItem> items,
   Scratch& scratch = ThreadScratch();
   SparseRun& forward = scratch.forward;
   SparseRun& backward = scratch.backward;
-  if (!SparseSweep(items, list_span, fo, {f_lo.data(), n}, {f_hi.data(), n},
+  // The join reads forward maps 0..n and backward maps 0..n-1.
+  if (!SparseSweep(items, list_span, fo, n, {f_lo.data(), n}, {f_hi.data(), n},
                    candidates, bound, limits.budget, &held, &forward) ||
-      !SparseSweep(items, list_span, bo, {b_lo.data(), n}, {b_hi.data(), n},
-                   candidates, bound, limits.budget, &held, &backward)) {
+      !SparseSweep(items, list_span, bo, n - 1, {b_lo.data(), n},
+                   {b_hi.data(), n}, candidates, bound, limits.budget, &held,
+                   &backward)) {
     return exhaust();
   }
   Solution best;
@@ -609,6 +615,14 @@ Solution SolveChargeOneMixed(absl::Span<const ChargeItem> items,
   // k scaled atoms in the lower state make up the rest:
   // f + g + c*high - k*d = target, 1 <= k <= c-1.
   std::vector<size_t>& by_total = scratch.by_total;
+  // from[e]: the least layers e.. add; a `before` entry that cannot come
+  // below the bound or the best with them has nothing to join.
+  constexpr int64_t kInfinity = Weight::Infinite().packed();
+  std::array<int64_t, kMaxDistinctElements + 1> from;
+  from[n] = 0;
+  for (size_t e = n; e-- > 0;) {
+    from[e] = std::min(kInfinity, from[e + 1] + lists[e]->min_weight.packed());
+  }
   for (size_t e = 0; e < n; ++e) {
     const std::vector<SparseEntry>& before = forward.maps[e];
     const std::vector<SparseEntry>& after = backward.maps[n - 1 - e];
@@ -624,6 +638,10 @@ Solution SolveChargeOneMixed(absl::Span<const ChargeItem> items,
       if (o.low == o.high) continue;
       const int64_t d = o.high - o.low;
       for (size_t fi = 0; fi < before.size(); ++fi) {
+        if (before[fi].weight + from[e] >=
+            std::min(bound, best.weight.packed())) {
+          continue;
+        }
         // g = base + k*d with base = target - f - c*high.
         const int64_t base = target - before[fi].total - c * o.high;
         const int64_t g_lo = base + d, g_hi = base + (c - 1) * d;
