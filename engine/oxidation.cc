@@ -733,7 +733,8 @@ BestReading SearchReadings(const Formula& formula,
            (s.weight == best.solution.weight && !(terms < best.terms)))) {
         continue;
       }
-      best.plans = plans;
+      // MakePlans rebuilds `plans` from scratch: take them, not a copy.
+      best.plans.swap(plans);
       best.solution = std::move(s);
       best.terms = terms;
       best.threshold = threshold;
