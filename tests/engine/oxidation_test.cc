@@ -456,6 +456,38 @@ const NaturalCase kNaturalCases[] = {
     // (Greenwood and Earnshaw, ch. 30, from memory).
     {"EuS", "Eu:2x1 S:-2x1", "Greenwood and Earnshaw, from memory"},
     {"Eu2O3", "Eu:3x2 O:-2x3", "Greenwood and Earnshaw, from memory"},
+    // Eu(II) titanate, zirconate and tungstate, isostructural with their
+    // Sr analogues; the orthomanganite and orthoferrite stay Eu(III)
+    // (Greenwood and Earnshaw, ch. 30, from memory).
+    {"EuTiO3", "Eu:2x1 Ti:4x1 O:-2x3", "Greenwood and Earnshaw, from memory"},
+    {"EuZrO3", "Eu:2x1 Zr:4x1 O:-2x3", "Greenwood and Earnshaw, from memory"},
+    {"Eu2TiO4", "Eu:2x2 Ti:4x1 O:-2x4", "Greenwood and Earnshaw, from memory"},
+    {"EuMnO3", "Eu:3x1 Mn:3x1 O:-2x3", "Greenwood and Earnshaw, from memory"},
+    {"EuFeO3", "Eu:3x1 Fe:3x1 O:-2x3", "Greenwood and Earnshaw, from memory"},
+    {"EuVO3", "Eu:3x1 V:3x1 O:-2x3", "Greenwood and Earnshaw, from memory"},
+    // Transition-metal dipnictides: X2 4- pairs, isoelectronic with S2 2-,
+    // beside Fe(IV) in loellingite, Co(IV), Ni(IV) and Pt(IV) in the
+    // marcasite- and pyrite-type phases (Hulliger and Mooser, J. Phys.
+    // Chem. Solids 26 (1965) 429, from memory).
+    {"FeAs2", "Fe:4x1 As:-2x2[diarsenide]", "Hulliger and Mooser 1965"},
+    {"CoAs2", "Co:4x1 As:-2x2[diarsenide]", "Hulliger and Mooser 1965"},
+    {"NiAs2", "Ni:4x1 As:-2x2[diarsenide]", "Hulliger and Mooser 1965"},
+    {"PtAs2", "Pt:4x1 As:-2x2[diarsenide]", "Hulliger and Mooser 1965"},
+    {"FeSb2", "Fe:4x1 Sb:-2x2[diantimonide]", "Hulliger and Mooser 1965"},
+    {"NiSb2", "Ni:4x1 Sb:-2x2[diantimonide]", "Hulliger and Mooser 1965"},
+    // Arsenides and antimonides of electropositive metals stay X(-III);
+    // skutterudite CoAs3 holds As4 4- rings, As(-I), beside Co(III)
+    // (Greenwood and Earnshaw, ch. 13, from memory).
+    {"Zn3As2", "Zn:2x3 As:-3x2", "Greenwood and Earnshaw, from memory"},
+    {"Cd3As2", "Cd:2x3 As:-3x2", "Greenwood and Earnshaw, from memory"},
+    {"GaSb", "Ga:3x1 Sb:-3x1", "Greenwood and Earnshaw, from memory"},
+    {"CoAs3", "Co:3x1 As:-1x3", "Greenwood and Earnshaw, from memory"},
+    // La(1-x)Sr(x)Co(1-y)Fe(y)O3 cathodes: Fe(III) with Co(III)/Co(IV), not
+    // Fe(V) as a charge sink (Tai et al., Solid State Ionics 76 (1995) 259
+    // and 273, from memory).
+    {"La0.6Sr0.4Co0.72Fe0.28O3",
+     "La:3x3/5 Sr:2x2/5 Co:3x8/25 Co:4x2/5 Fe:3x7/25 O:-2x3",
+     "Tai et al. 1995, from memory"},
 };
 
 TEST(NaturalStates, CompoundsTakeTheirSourcesStates) {
