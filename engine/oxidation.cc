@@ -969,10 +969,11 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
     declared_all_zero &= d.state == 0;
   }
   const CompositionKind kind = result.bonding.kind;
-  // A net charge or a declared non-zero state asks for formal states.
-  if (options.net_charge == 0 && declared_all_zero &&
-      kind != CompositionKind::kIonic && kind != CompositionKind::kZintl) {
-    result.kind = kind;
+  // Every atom in state 0, for a metallic or intermetallic composition,
+  // with the best ionic reading first among the alternatives of an
+  // intermetallic one, for the user who wants one.
+  auto neutral = [&](OxidationResult r) {
+    r.kind = r.bonding.kind;
     OxidationAssignment a;
     a.states.reserve(formula.amounts.size());
     for (const ElementAmount& amount : formula.amounts) {
@@ -982,23 +983,27 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
       }
       a.states.push_back({amount.element, 0, amount.count, true, declared});
     }
-    result.best = std::move(a);
-    if (kind == CompositionKind::kIntermetallic) {
-      // The best ionic reading, for the user who wants one, first among
-      // the alternatives.
+    r.best = std::move(a);
+    if (r.kind == CompositionKind::kIntermetallic) {
       OxidationOptions ionic = options;
       ionic.max_alternatives = std::max(0, options.max_alternatives - 1);
       absl::StatusOr<OxidationResult> formal =
           AssignStates(formula, ionic, /*zintl=*/false);
       if (formal.ok() && formal->best.has_value()) {
-        result.alternatives.push_back(*std::move(formal->best));
+        r.alternatives.push_back(*std::move(formal->best));
         for (OxidationAssignment& other : formal->alternatives) {
-          result.alternatives.push_back(std::move(other));
+          r.alternatives.push_back(std::move(other));
         }
-        result.alternatives_cut = formal->alternatives_cut;
+        r.alternatives_cut = formal->alternatives_cut;
       }
     }
-    return result;
+    return r;
+  };
+  // A net charge or a declared non-zero state asks for formal states.
+  const bool formal_asked = options.net_charge != 0 || !declared_all_zero;
+  if (!formal_asked && kind != CompositionKind::kIonic &&
+      kind != CompositionKind::kZintl) {
+    return neutral(std::move(result));
   }
   if (kind == CompositionKind::kZintl) {
     absl::StatusOr<OxidationResult> zintl =
@@ -1015,6 +1020,18 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
   absl::StatusOr<OxidationResult> formal =
       AssignStates(formula, options, /*zintl=*/false);
   if (formal.ok()) formal->bonding = result.bonding;
+  if (kind == CompositionKind::kZintl && !formal_asked && formal.ok() &&
+      !formal->best.has_value() && !formal->without_declared.has_value()) {
+    // Neither the 8-N rule nor formal states balance it: not an
+    // electron-precise Zintl phase but a polar intermetallic, as BaAl4,
+    // BaSn3 and SrGa4 are (Nesper, Angew. Chem. Int. Ed. Engl. 30 (1991)
+    // 789, from memory).
+    result.bonding.kind = CompositionKind::kIntermetallic;
+    result.bonding.rule =
+        "an electropositive metal with p-block atoms that balance neither "
+        "by the 8-N rule nor formally: a polar intermetallic";
+    return neutral(std::move(result));
+  }
   return formal;
 }
 

@@ -112,8 +112,9 @@ int ChalcogenideMaxState(const Element& e) {
 }
 
 bool OpenShellState(const Element& e, int state) {
-  if (e.block != Block::kP || IsMetal(e) || e.group == 18) return false;
-  return state == 0 || (state < 0 && state != e.group - 18);
+  if (e.block != Block::kP || e.group == 18) return false;
+  if (state < 0) return state != e.group - 18;
+  return state == 0 && !IsMetal(e);
 }
 
 // What one rank down costs per atom, against 1 per atom of mixed valence.

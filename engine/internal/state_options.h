@@ -90,11 +90,13 @@ std::optional<double> PotentialDownFrom(const Element& e, int oxidised);
 // of `e` down to `reduced`, or nullopt.
 std::optional<double> PotentialDownTo(const Element& e, int reduced);
 
-// True for a p-block nonmetal in a state that is not its closed-shell
-// one: a negative state other than group - 18 (O-1, S-1, C-1, N-2), or 0
-// (bonded only to its own kind). Positive states, those of the central
-// atoms of oxo-anions, are not counted. Such an atom is bonded, and
-// carries no free-ion unpaired electrons.
+// True for a p-block atom in a state that is not its closed-shell one: a
+// negative state other than group - 18 (O-1, S-1, C-1, N-2, and the
+// polyanion atoms of Zintl phases, Tl-1 in NaTl and Al-1 in SrAl2, whose
+// elements are metals), or 0 for a nonmetal (bonded only to its own
+// kind). Positive states, those of the central atoms of oxo-anions, are
+// not counted. Such an atom is bonded, and carries no free-ion unpaired
+// electrons.
 bool OpenShellState(const Element& e, int state);
 
 // The highest state of metal `e` as a cation of chalcogenide anions

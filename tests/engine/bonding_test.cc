@@ -120,6 +120,29 @@ TEST(Bonding, ZintlPhasesBalanceByTheEightMinusNRule) {
   EXPECT_EQ(Best("Ca5Ge3"), "Ca:2x5 Ge:-4x1 Ge:-3x2");
 }
 
+TEST(Bonding, UnbalancedZintlCompositionsArePolarIntermetallics) {
+  // BaAl4, BaSn3, CaAl4 and SrGa4 are not electron-precise: they balance
+  // neither by the 8-N rule nor formally, and are polar intermetallics,
+  // valid records (Nesper, Angew. Chem. Int. Ed. Engl. 30 (1991) 789, from
+  // memory). An ionic composition that does not balance stays unbalanced.
+  for (const char* formula : {"BaAl4", "BaSn3", "CaAl4", "SrGa4"}) {
+    SCOPED_TRACE(formula);
+    absl::StatusOr<Formula> f = ParseFormula(formula);
+    ASSERT_TRUE(f.ok());
+    absl::StatusOr<OxidationResult> r = AssignOxidationStates(*f, {});
+    ASSERT_TRUE(r.ok()) << r.status();
+    EXPECT_EQ(r->kind, CompositionKind::kIntermetallic);
+    EXPECT_EQ(r->bonding.kind, CompositionKind::kIntermetallic);
+    ASSERT_TRUE(r->best.has_value());
+    for (const AssignedState& s : r->best->states) EXPECT_EQ(s.state, 0);
+  }
+  absl::StatusOr<Formula> f = ParseFormula("NaCl2");
+  ASSERT_TRUE(f.ok());
+  absl::StatusOr<OxidationResult> r = AssignOxidationStates(*f, {});
+  ASSERT_TRUE(r.ok());
+  EXPECT_FALSE(r->best.has_value());
+}
+
 TEST(Bonding, IntermetallicsAreStateZeroWithTheFormalReadingAsAlternative) {
   absl::StatusOr<Formula> f = ParseFormula("Co2MnSi");
   ASSERT_TRUE(f.ok());

@@ -463,6 +463,22 @@ TEST(Composition, NegativeMeasuredMomentIsMalformed) {
 // ---------------------------------------------------------------------------
 // Geometry and spin settings.
 
+TEST(Composition, ZintlPolyanionAtomsCarryNoMoment) {
+  // The polyanion atoms of Zintl phases are bonded: Tl- in the diamond
+  // network of NaTl, Al- in SrAl2, Si- chains in CaSi2 (Schäfer,
+  // Eisenmann and Müller, Angew. Chem. 12 (1973) 694, from memory); the
+  // phases are diamagnetic, whatever a free Tl- ion would carry.
+  for (const char* formula : {"NaTl", "SrAl2", "CaGa2", "CaSi2"}) {
+    SCOPED_TRACE(formula);
+    CompositionReport r = Analyze(Record(formula));
+    EXPECT_TRUE(r.valid) << DiagnosticsText(r);
+    EXPECT_EQ(r.kind, CompositionKind::kZintl);
+    EXPECT_DOUBLE_EQ(r.unpaired_per_formula_unit, 0);
+    EXPECT_NEAR(r.effective_moment_per_formula_unit, 0, 1e-12);
+    for (const IonAnnotation& ion : r.ions) EXPECT_EQ(ion.unpaired(), 0);
+  }
+}
+
 TEST(Composition, ExplicitLowSpinCobaltIsDiamagnetic) {
   // LiCoO2 holds low-spin Co3+ t2g6, no unpaired electrons (common
   // practice, no source).
