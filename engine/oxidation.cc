@@ -284,11 +284,17 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     p.scaled_count = (m->count * scale).num();
     for (const Unit* u : m->units) {
       // A unit read from a bare run keeps to the cations it is met with
-      // (EuO2 is no superoxide).
-      bool accepted = true;
+      // (EuO2 is no superoxide), and needs one of them (ClO2 is no
+      // superoxide of Cl+1; H2O2 is a peroxide, H being in the s block).
+      bool accepted = !m->weak;
       for (size_t k = 0; k < free_elements && m->weak; ++k) {
         const Element& e = *plans[k].element;
-        accepted &= !IsMetal(e) || u->AcceptsCation(e);
+        const bool cation = u->AcceptsCation(e);
+        if (IsMetal(e) && !cation) {
+          accepted = false;
+          break;
+        }
+        accepted |= cation;
       }
       if (!accepted) continue;
       p.units.push_back(u);

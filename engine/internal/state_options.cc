@@ -114,7 +114,15 @@ int ChalcogenideMaxState(const Element& e) {
 bool OpenShellState(const Element& e, int state) {
   if (e.block != Block::kP || e.group == 18) return false;
   if (state < 0) return state != e.group - 18;
-  return state == 0 && !IsMetal(e);
+  if (state == 0) return !IsMetal(e);
+  // A positive state that leaves the p subshell part-filled (neither the
+  // group state nor the inert pair's s2): bonded from period 3 down in
+  // groups 13 to 16; in period 2 and among the halogens only with an even
+  // count left, since an odd one there is a radical (NO2, ClO2).
+  const int left = e.group - 10 - state;
+  if (left == 0 || left == 2) return false;
+  if (e.period >= 3 && e.group <= 16) return true;
+  return left % 2 == 0;
 }
 
 // What one rank down costs per atom, against 1 per atom of mixed valence.

@@ -94,9 +94,14 @@ std::optional<double> PotentialDownTo(const Element& e, int reduced);
 // negative state other than group - 18 (O-1, S-1, C-1, N-2, and the
 // polyanion atoms of Zintl phases, Tl-1 in NaTl and Al-1 in SrAl2, whose
 // elements are metals), or 0 for a nonmetal (bonded only to its own
-// kind). Positive states, those of the central atoms of oxo-anions, are
-// not counted. Such an atom is bonded, and carries no free-ion unpaired
-// electrons.
+// kind); or a positive state that leaves the p subshell part-filled: from
+// period 3 down in groups 13 to 16 always (As+2 in realgar As4S4 and Ga+2
+// in GaS sit in As-As and Ga-Ga bonds, S+2 in SCl2 makes two bonds), in
+// period 2 and among the halogens with an even count of valence electrons
+// left (O+2 in OF2, Cl+1 in Cl2O, I+3 in ICl3; an odd count there is a
+// radical, NO2 and ClO2, and keeps its free-ion count). Positive states
+// that leave no p electrons, or the inert pair, are closed-shell already.
+// Such an atom is bonded, and carries no free-ion unpaired electrons.
 bool OpenShellState(const Element& e, int state);
 
 // The highest state of metal `e` as a cation of chalcogenide anions

@@ -479,6 +479,28 @@ TEST(Composition, ZintlPolyanionAtomsCarryNoMoment) {
   }
 }
 
+TEST(Composition, BondedMainGroupCationsCarryNoMoment) {
+  // Realgar As4S4 holds As-As bonds, GaS and InS Ga-Ga and In-In pairs,
+  // OF2, Cl2O and ICl3 are closed-shell molecules: all diamagnetic
+  // (Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed., chs. 7,
+  // 13, 14 and 17, from memory), whatever the free As2+ or O2+ ion would
+  // carry. The radicals NO2 and ClO2 keep their one unpaired electron
+  // (same source).
+  for (const char* formula : {"As4S4", "GaS", "InS", "OF2", "Cl2O", "ICl3"}) {
+    SCOPED_TRACE(formula);
+    CompositionReport r = Analyze(Record(formula));
+    ASSERT_FALSE(r.ions.empty()) << DiagnosticsText(r);
+    EXPECT_DOUBLE_EQ(r.unpaired_per_formula_unit, 0);
+  }
+  for (const char* formula : {"NO2", "ClO2"}) {
+    SCOPED_TRACE(formula);
+    CompositionReport r = Analyze(Record(formula));
+    ASSERT_FALSE(r.ions.empty()) << DiagnosticsText(r);
+    EXPECT_DOUBLE_EQ(r.unpaired_per_formula_unit, 1);
+    EXPECT_TRUE(r.units.empty());  // ClO2 is no superoxide of Cl+1.
+  }
+}
+
 TEST(Composition, ExplicitLowSpinCobaltIsDiamagnetic) {
   // LiCoO2 holds low-spin Co3+ t2g6, no unpaired electrons (common
   // practice, no source).
