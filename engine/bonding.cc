@@ -72,6 +72,7 @@ BondingClass ClassifyBonding(const Formula& formula) {
   bool all_metal = true, anion_former = false, s_block = false;
   bool divalent_rare_earth = false, other_transition = false;
   bool group3_f_only = true, all_nonmetals_zintl = true;
+  bool hydrogen_only = true;  // The only non-metal is H.
   for (const ElementAmount& a : formula.amounts) {
     const Element& e = *a.element;
     if (e.pauling_electronegativity.has_value()) {
@@ -97,6 +98,7 @@ BondingClass ClassifyBonding(const Formula& formula) {
       nonmetal_atoms = nonmetal_atoms + a.count;
       anion_former |= IsAnionFormer(e);
       all_nonmetals_zintl &= IsZintlAnionFormer(e);
+      hydrogen_only &= e.atomic_number == 1;
       if (IsBorideFormer(e)) boride_atoms = boride_atoms + a.count;
       if (e.atomic_number == 5) boron_atoms = boron_atoms + a.count;
     }
@@ -143,6 +145,18 @@ BondingClass ClassifyBonding(const Formula& formula) {
       c.rule =
           "a transition or rare-earth metal with boron, silicon or "
           "germanium";
+      return c;
+    }
+    // Hydrides of the d- and f-block metals without an electropositive
+    // one are metallic and interstitial (Greenwood and Earnshaw, Chemistry
+    // of the Elements, 2nd ed., ch. 3, from memory): the d-block ones at
+    // any hydrogen content (TiH2, ZrH2, PdH0.6), those of group 3 and the
+    // lanthanides up to the dihydride (LaH2, YH2); their trihydrides (LaH3,
+    // YH3) are salt-like, and Mg2FeH6 holds [FeH6]4- anions.
+    if (hydrogen_only && !s_block &&
+        (!group3_f_only || nonmetal_atoms < Rational(3) * metal_atoms)) {
+      c.kind = CompositionKind::kIntermetallic;
+      c.rule = "a d- or f-block metal hydride: interstitial, metallic";
       return c;
     }
     // Metal-rich carbides, nitrides, hydrides and pnictides: interstitial

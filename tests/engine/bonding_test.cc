@@ -49,6 +49,18 @@ TEST(Bonding, ClassOfRealCompositions) {
       {"Sm2Fe17N3", K::kIntermetallic, "Coey, from memory"},
       {"SmCo5", K::kMetallic, "Coey, from memory"},
       {"CoFeB", K::kIntermetallic, "Coey, from memory"},
+      // Hydrides: interstitial and metallic for the d-block metals and
+      // the group 3 and lanthanide dihydrides, salt-like for the
+      // trihydrides and beside electropositive metals (Greenwood and
+      // Earnshaw, Chemistry of the Elements, 2nd ed., ch. 3, from memory).
+      {"TiH2", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      {"ZrH2", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      {"PdH0.6", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      {"LaH2", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      {"LaH3", K::kIonic, "Greenwood and Earnshaw, from memory"},
+      {"YH3", K::kIonic, "Greenwood and Earnshaw, from memory"},
+      {"Mg2FeH6", K::kIonic, "Greenwood and Earnshaw, from memory"},
+      {"MgH2", K::kIonic, "Greenwood and Earnshaw, from memory"},
       // Borides, silicides, germanides (Greenwood and Earnshaw, Chemistry
       // of the Elements, 2nd ed., from memory).
       {"LaB6", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
