@@ -6,6 +6,7 @@
 #include <mutex>
 #include <numeric>
 
+#include "absl/container/inlined_vector.h"
 #include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
@@ -562,7 +563,9 @@ void Annotate(const Formula& formula, const ElementSettings& settings,
 // at its nominal value and at the ends of its range, the range taken over
 // the corners that raise one sublattice and lower the other.
 void ApplySublattices(const SitePlacement& placement, CompositionReport* r) {
-  std::vector<double> nominal, up_high, up_low;
+  // Inline room for the usual few occupants: no allocation per record.
+  using Moments = absl::InlinedVector<double, 8>;
+  Moments nominal, up_high, up_low;
   for (const Site& site : placement.sites) {
     for (const SiteOccupant& o : site.occupants) {
       const IonAnnotation* found = nullptr;
@@ -580,17 +583,18 @@ void ApplySublattices(const SitePlacement& placement, CompositionReport* r) {
     }
   }
   const SublatticeMoment m = NeelSaturation(placement, nominal);
-  r->structure_note = placement.note;
-  if (!m.note.empty()) absl::StrAppend(&r->structure_note, "; ", m.note);
+  r->structure_note = m.note.empty()
+                          ? placement.note
+                          : absl::StrCat(placement.note, "; ", m.note);
   if (!m.determined) return;
   double low = m.saturation, high = m.saturation;
   // Where every ordered moment is exact (S-state ions), so is the sum.
   const bool exact = up_high == nominal && up_low == nominal;
-  for (const std::vector<double>* corner : {&up_high, &up_low}) {
+  for (const Moments* corner : {&up_high, &up_low}) {
     if (exact) break;
-    const SublatticeMoment c = NeelSaturation(placement, *corner);
-    low = std::min(low, c.saturation);
-    high = std::max(high, c.saturation);
+    const double c = NeelSaturationValue(placement, *corner);
+    low = std::min(low, c);
+    high = std::max(high, c);
   }
   r->saturation_moment_per_formula_unit = m.saturation;
   r->saturation_moment_low = low;

@@ -12,7 +12,6 @@
 #include "absl/container/inlined_vector.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
-#include "absl/strings/str_join.h"
 #include "engine/internal/data_tables.h"
 
 namespace shellwright {
@@ -760,37 +759,51 @@ SublatticeMoment Undetermined(std::string note) {
   return r;
 }
 
+// Appends the names of the sites of one side (`direction` +1 or -1) to
+// `out`, joined by " + ".
+void AppendSiteNames(const SitePlacement& p, int direction, std::string* out) {
+  bool first = true;
+  for (const Site& s : p.sites) {
+    if (direction > 0 ? s.direction <= 0 : s.direction >= 0) continue;
+    if (!first) out->append(" + ");
+    out->append(s.name.data(), s.name.size());
+    first = false;
+  }
+}
+
+// The family rules below fill the note only when `describe` is true: the
+// corners of a range need the number alone.
 SublatticeMoment TwoSided(const SitePlacement& p,
-                          absl::Span<const double> moments) {
+                          absl::Span<const double> moments, bool describe) {
   size_t next = 0;
   double up = 0, down = 0;
-  std::vector<absl::string_view> up_names, down_names;
   for (const Site& s : p.sites) {
     const double m = SiteMoment(s, moments, &next);
     if (s.direction > 0) {
       up += m;
-      up_names.push_back(s.name);
     } else if (s.direction < 0) {
       down += m;
-      down_names.push_back(s.name);
     }
   }
   SublatticeMoment r;
-  const std::string sides =
-      absl::StrCat(absl::StrJoin(up_names, " + "), " ", Mu(up), " μB against ",
-                   absl::StrJoin(down_names, " + "), " ", Mu(down), " μB");
-  if (up < kNoMoment || down < kNoMoment) {
-    r.saturation = 0;
-    r.note = absl::StrCat(
-        "Néel collinear model: ", sides,
+  const bool one_side_empty = up < kNoMoment || down < kNoMoment;
+  r.saturation = one_side_empty ? 0 : std::abs(up - down);
+  if (!describe) return r;
+  r.note = "Néel collinear model: ";
+  AppendSiteNames(p, +1, &r.note);
+  absl::StrAppend(&r.note, " ", Mu(up), " μB against ");
+  AppendSiteNames(p, -1, &r.note);
+  absl::StrAppend(&r.note, " ", Mu(down), " μB");
+  if (one_side_empty) {
+    absl::StrAppend(
+        &r.note,
         "; one sublattice carries no moment, so the other orders "
         "antiferromagnetically within itself and the net moment is 0 "
         "(Smit and Wijn, Ferrites, 1959, from memory)");
-    return r;
+  } else {
+    absl::StrAppend(&r.note, ", net ", Mu(r.saturation),
+                    " μB per formula unit");
   }
-  r.saturation = std::abs(up - down);
-  r.note = absl::StrCat("Néel collinear model: ", sides, ", net ",
-                        Mu(r.saturation), " μB per formula unit");
   return r;
 }
 
@@ -803,7 +816,7 @@ bool IsLightLanthanide(const Element& e, int state) {
 }
 
 SublatticeMoment Garnet(const SitePlacement& p,
-                        absl::Span<const double> moments) {
+                        absl::Span<const double> moments, bool describe) {
   size_t next = 0;
   const size_t first_c = 0;  // c is the first site.
   const double c = SiteMoment(p.sites[0], moments, &next);
@@ -812,6 +825,7 @@ SublatticeMoment Garnet(const SitePlacement& p,
   SublatticeMoment r;
   if (a < kNoMoment || d < kNoMoment) {
     r.saturation = 0;
+    if (!describe) return r;
     r.note = absl::StrCat(
         "Néel collinear model: a ", Mu(a), " μB, d ", Mu(d),
         " μB; one of them carries no moment, so the other orders "
@@ -836,6 +850,7 @@ SublatticeMoment Garnet(const SitePlacement& p,
     }
   }
   r.saturation = std::abs(iron + along - against);
+  if (!describe) return r;
   const std::string fe =
       absl::StrCat("Néel collinear model: d ", Mu(d), " μB against a ", Mu(a),
                    " μB, net ", Mu(iron), " μB");
@@ -863,7 +878,7 @@ SublatticeMoment Garnet(const SitePlacement& p,
 }
 
 SublatticeMoment Perovskite(const SitePlacement& p,
-                            absl::Span<const double> moments) {
+                            absl::Span<const double> moments, bool describe) {
   const Site& a_site = p.sites[0];
   const Site& b = p.sites[1];
   const size_t first_b = a_site.occupants.size();
@@ -890,10 +905,11 @@ SublatticeMoment Perovskite(const SitePlacement& p,
   }
   SublatticeMoment r;
   if (magnetic == nullptr) {
-    r.note = "perovskite: no ordered moment on the B site";
+    if (describe) r.note = "perovskite: no ordered moment on the B site";
     return r;
   }
   if (states == 1) {
+    if (!describe) return r;
     r.note = absl::StrCat(
         "perovskite: one magnetic B ion (", magnetic->symbol,
         " in one state) orders antiferromagnetically by 180° superexchange "
@@ -904,6 +920,7 @@ SublatticeMoment Perovskite(const SitePlacement& p,
     return r;
   }
   r.saturation = total;
+  if (!describe) return r;
   r.note = absl::StrCat(
       "perovskite: mixed-valence ", magnetic->symbol,
       " on the B site orders ferromagnetically by double exchange (Zener "
@@ -917,8 +934,11 @@ SublatticeMoment Perovskite(const SitePlacement& p,
 
 }  // namespace
 
-SublatticeMoment NeelSaturation(const SitePlacement& p,
-                                absl::Span<const double> ordered_moments) {
+namespace {
+
+SublatticeMoment Saturation(const SitePlacement& p,
+                            absl::Span<const double> ordered_moments,
+                            bool describe) {
   size_t occupants = 0;
   for (const Site& s : p.sites) occupants += s.occupants.size();
   if (occupants != ordered_moments.size()) {
@@ -929,17 +949,29 @@ SublatticeMoment NeelSaturation(const SitePlacement& p,
   switch (p.family) {
     case StructureFamily::kSpinel:
     case StructureFamily::kHexaferrite:
-      return TwoSided(p, ordered_moments);
+      return TwoSided(p, ordered_moments, describe);
     case StructureFamily::kGarnet:
-      if (p.sites.size() == 3) return Garnet(p, ordered_moments);
+      if (p.sites.size() == 3) return Garnet(p, ordered_moments, describe);
       break;
     case StructureFamily::kPerovskite:
-      if (p.sites.size() == 2) return Perovskite(p, ordered_moments);
+      if (p.sites.size() == 2) return Perovskite(p, ordered_moments, describe);
       break;
     case StructureFamily::kNone:
       break;
   }
   return Undetermined("no structure family: no sublattice model");
+}
+
+}  // namespace
+
+SublatticeMoment NeelSaturation(const SitePlacement& p,
+                                absl::Span<const double> ordered_moments) {
+  return Saturation(p, ordered_moments, /*describe=*/true);
+}
+
+double NeelSaturationValue(const SitePlacement& p,
+                           absl::Span<const double> ordered_moments) {
+  return Saturation(p, ordered_moments, /*describe=*/false).saturation;
 }
 
 }  // namespace shellwright
