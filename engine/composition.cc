@@ -2,8 +2,6 @@
 
 #include <array>
 #include <cmath>
-#include <memory>
-#include <mutex>
 #include <numeric>
 
 #include "absl/container/inlined_vector.h"
@@ -13,6 +11,7 @@
 #include "absl/strings/str_split.h"
 #include "absl/strings/strip.h"
 #include "engine/formula.h"
+#include "engine/internal/lazy_element_rows.h"
 #include "engine/internal/state_options.h"
 #include "engine/internal/text.h"
 #include "engine/ion_moments.h"
@@ -24,6 +23,7 @@
 namespace shellwright {
 namespace {
 
+using internal::LazyElementRows;
 using internal::QuoteForMessage;
 
 void Add(CompositionReport* r, Severity severity, std::string code,
@@ -155,24 +155,6 @@ RangeEnds DescribeRangeEnds(const Element* e, int state) {
   }
   return ends;
 }
-
-// Rows of values per element, each row made on first use by `make`
-// (called once per element, under a once flag). A whole table made up
-// front is tens or hundreds of KB that a process asking about a few ions
-// would zero page by page, at a page fault each.
-template <typename Row>
-class LazyElementRows {
- public:
-  template <typename Make>
-  const Row& Get(int z, Make make) {
-    std::call_once(once_[z], [&] { rows_[z] = std::make_unique<Row>(make()); });
-    return *rows_[z];
-  }
-
- private:
-  std::array<std::once_flag, kMaxAtomicNumber + 1> once_;
-  std::array<std::unique_ptr<Row>, kMaxAtomicNumber + 1> rows_;
-};
 
 // RangeEnds depend only on the element and the state: read once per
 // element, for every state a record can hold (-9..+9), from the same

@@ -1,6 +1,7 @@
 #include "engine/sites.h"
 
 #include <algorithm>
+#include <array>
 #include <cmath>
 #include <cstdint>
 #include <cstdlib>
@@ -13,6 +14,7 @@
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
 #include "engine/internal/data_tables.h"
+#include "engine/internal/lazy_element_rows.h"
 
 namespace shellwright {
 namespace {
@@ -145,6 +147,9 @@ struct Ion {
   int state;
   Rational count;
   Preference preference;
+  // The preference as OrderText writes it ("Ni2+ 86 kJ/mol"), where it
+  // was read from the cache, else empty.
+  absl::string_view preference_text;
   int tie = 0;  // The family's tie-break rank: lower goes tetrahedral first.
   size_t order = 0;  // Position in the assignment.
 };
@@ -294,7 +299,7 @@ bool ReadIons(const OxidationAssignment& a, const FamilySpec& spec,
       if (why) *why = kTooFine;
       return false;
     }
-    ions->push_back(Ion{s.element, s.state, count, Preference()});
+    ions->push_back(Ion{s.element, s.state, count, Preference(), {}});
   }
   return true;
 }
@@ -321,9 +326,14 @@ struct Pool {
   absl::InlinedVector<std::pair<int, Rational>, 3> shares;  // Site, share.
 };
 
+// a × b, with no arithmetic when b is 1 (the usual factor).
+Rational Times(const Rational& a, const Rational& b) {
+  return b.IsInteger() && b.num() == 1 ? a : a * b;
+}
+
 // The record's count of a family-unit count.
 Rational ToRecord(const Rational& count, const Rational& unscale) {
-  return unscale == Rational(1) ? count : count * unscale;
+  return Times(count, unscale);
 }
 
 void AddOccupant(Site* site, const Ion& ion, const Rational& count) {
@@ -337,6 +347,66 @@ void AddOccupant(Site* site, const Ion& ion, const Rational& count) {
   site->occupants.push_back(SiteOccupant{ion.element, ion.state, count});
 }
 
+// Appends "Ni2+ 86 kJ/mol" or "Zn2+ strongly tetrahedral" to `out`.
+void AppendPreference(const Element& e, int state, const Preference& p,
+                      std::string* out) {
+  absl::StrAppend(out, FormatSpecies(e.symbol, state));
+  if (p.low_spin) absl::StrAppend(out, " (low spin)");
+  if (p.strong == 0) {
+    absl::StrAppend(out, " strongly tetrahedral");
+  } else if (p.strong == 2) {
+    absl::StrAppend(out, " strongly octahedral");
+  } else {
+    absl::StrAppend(out, " ", Rounded(p.ospe), " kJ/mol");
+    if (p.from_d_count) absl::StrAppend(out, " (isoelectronic row)");
+    if (p.weak) absl::StrAppend(out, ", weakly octahedral");
+  }
+}
+
+// A cation's preference and its text, read for a spinel or another family.
+struct PreferenceEntry {
+  Preference preference;
+  std::string text;
+};
+
+// Cations in states 1 to kMaxCachedState read their preference from a
+// cache, filled once per element: the lookup scans the table and every
+// placement writes the texts.
+constexpr int kMaxCachedState = 9;
+
+// The cached entry of `e` in `state`, or null outside the cached states.
+const PreferenceEntry* CachedPreference(const Element& e, int state,
+                                        bool spinel) {
+  if (state < 1 || state > kMaxCachedState) return nullptr;
+  // Per state from 1, for another family and for a spinel.
+  using Row = std::array<std::array<PreferenceEntry, 2>, kMaxCachedState>;
+  static auto* const kTable = new internal::LazyElementRows<Row>;
+  const Row& row = kTable->Get(e.atomic_number, [&e] {
+    Row made;
+    for (int q = 1; q <= kMaxCachedState; ++q) {
+      for (const bool for_spinel : {false, true}) {
+        PreferenceEntry& entry = made[q - 1][for_spinel ? 1 : 0];
+        entry.preference = LookupPreference(e, q, for_spinel);
+        AppendPreference(e, q, entry.preference, &entry.text);
+      }
+    }
+    return made;
+  });
+  return &row[state - 1][spinel ? 1 : 0];
+}
+
+// Sets the preference of `ion`, read for a spinel or another family.
+void ReadPreference(bool spinel, Ion* ion) {
+  if (const PreferenceEntry* entry =
+          CachedPreference(*ion->element, ion->state, spinel)) {
+    ion->preference = entry->preference;
+    ion->preference_text = entry->text;
+  } else {
+    ion->preference = LookupPreference(*ion->element, ion->state, spinel);
+    ion->preference_text = {};
+  }
+}
+
 // Sorts `ions` least octahedral first (preference, read for a spinel or
 // another family, then the tie rank) and
 // pours them into `pools` in order; ions that tie completely share a pool
@@ -344,9 +414,7 @@ void AddOccupant(Site* site, const Ion& ion, const Rational& count) {
 // (`unscale` = record formula units per family unit). False on overflow.
 bool Pour(Ions* ions, absl::Span<const Pool> pools, const Rational& unscale,
           bool spinel, std::vector<Site>* sites) {
-  for (Ion& ion : *ions) {
-    ion.preference = LookupPreference(*ion.element, ion.state, spinel);
-  }
+  for (Ion& ion : *ions) ReadPreference(spinel, &ion);
   // Formula order breaks the remaining ties (std::sort, unlike
   // std::stable_sort, allocates nothing).
   for (size_t k = 0; k < ions->size(); ++k) (*ions)[k].order = k;
@@ -373,12 +441,14 @@ bool Pour(Ions* ions, absl::Span<const Pool> pools, const Rational& unscale,
     Rational remaining = group;  // Of the group, still to place.
     while (!remaining.IsZero() && pool < pools.size()) {
       const Rational take = Min(remaining, left);
-      const Rational fraction =
-          take * Rational(group.den(), group.num());  // Of each ion's count.
+      // Of each ion's count: all of it when the whole group fits.
+      const Rational fraction = take == group
+                                    ? Rational(1)
+                                    : take * Rational(group.den(), group.num());
       for (size_t k = i; k < end; ++k) {
-        const Rational amount = (*ions)[k].count * fraction;
+        const Rational amount = Times((*ions)[k].count, fraction);
         for (const auto& [site, share] : pools[pool].shares) {
-          const Rational placed = ToRecord(amount * share, unscale);
+          const Rational placed = ToRecord(Times(amount, share), unscale);
           if (!Small(placed)) return false;
           AddOccupant(&(*sites)[site], (*ions)[k], placed);
         }
@@ -393,28 +463,16 @@ bool Pour(Ions* ions, absl::Span<const Pool> pools, const Rational& unscale,
   return true;
 }
 
-// Appends "Ni2+ 86 kJ/mol" or "Zn2+ strongly tetrahedral" to `out`.
-void AppendPreference(const Ion& ion, std::string* out) {
-  const Preference& p = ion.preference;
-  absl::StrAppend(out, FormatSpecies(ion.element->symbol, ion.state));
-  if (p.low_spin) absl::StrAppend(out, " (low spin)");
-  if (p.strong == 0) {
-    absl::StrAppend(out, " strongly tetrahedral");
-  } else if (p.strong == 2) {
-    absl::StrAppend(out, " strongly octahedral");
-  } else {
-    absl::StrAppend(out, " ", Rounded(p.ospe), " kJ/mol");
-    if (p.from_d_count) absl::StrAppend(out, " (isoelectronic row)");
-    if (p.weak) absl::StrAppend(out, ", weakly octahedral");
-  }
-}
-
 // "Fe3+ 0 kJ/mol, Ni2+ 86 kJ/mol": the ions in the order they were placed.
 std::string OrderText(const Ions& ions) {
   std::string text;
   for (const Ion& ion : ions) {
     if (!text.empty()) text += ", ";
-    AppendPreference(ion, &text);
+    if (ion.preference_text.empty()) {
+      AppendPreference(*ion.element, ion.state, ion.preference, &text);
+    } else {
+      text.append(ion.preference_text.data(), ion.preference_text.size());
+    }
   }
   return text;
 }
@@ -423,8 +481,13 @@ constexpr absl::string_view kPreferenceSource =
     "octahedral site preference energies after Dunitz and Orgel 1957 and "
     "McClure 1957, data/site_preferences.tsv";
 
-Site MakeSite(absl::string_view name, Geometry geometry, int direction) {
-  return Site{name, geometry, direction, {}};
+// A site with room for `room` occupants (each ion of the placement at
+// most once), so that filling it reallocates nothing.
+Site MakeSite(absl::string_view name, Geometry geometry, int direction,
+              size_t room) {
+  Site site{name, geometry, direction, {}};
+  site.occupants.reserve(room);
+  return site;
 }
 
 // ---------------------------------------------------------------------------
@@ -458,8 +521,11 @@ std::optional<SitePlacement> PlaceSpinel(Ions ions, const Rational& unscale,
 
   SitePlacement p;
   p.family = StructureFamily::kSpinel;
-  p.sites.push_back(MakeSite("A (tetrahedral)", Geometry::kTetrahedral, -1));
-  p.sites.push_back(MakeSite("B (octahedral)", Geometry::kOctahedral, +1));
+  p.sites.reserve(2);
+  p.sites.push_back(
+      MakeSite("A (tetrahedral)", Geometry::kTetrahedral, -1, ions.size()));
+  p.sites.push_back(
+      MakeSite("B (octahedral)", Geometry::kOctahedral, +1, ions.size()));
   const Pool pools[] = {{Rational(1), {{0, Rational(1)}}},
                         {Rational(2), {{1, Rational(1)}}}};
   if (!Pour(&ions, pools, unscale, /*spinel=*/true, &p.sites)) {
@@ -519,9 +585,13 @@ std::optional<SitePlacement> PlaceGarnet(Ions ions, const Rational& unscale,
   }
   SitePlacement p;
   p.family = StructureFamily::kGarnet;
-  p.sites.push_back(MakeSite("c (dodecahedral)", Geometry::kTetrahedral, -1));
-  p.sites.push_back(MakeSite("a (octahedral)", Geometry::kOctahedral, -1));
-  p.sites.push_back(MakeSite("d (tetrahedral)", Geometry::kTetrahedral, +1));
+  p.sites.reserve(3);
+  p.sites.push_back(
+      MakeSite("c (dodecahedral)", Geometry::kTetrahedral, -1, ions.size()));
+  p.sites.push_back(
+      MakeSite("a (octahedral)", Geometry::kOctahedral, -1, ions.size()));
+  p.sites.push_back(
+      MakeSite("d (tetrahedral)", Geometry::kTetrahedral, +1, ions.size()));
   Ions rest;
   for (const Ion& ion : ions) {
     const bool on_c = silicate ? IsGarnetDivalent(ion)
@@ -568,12 +638,19 @@ std::optional<SitePlacement> PlaceHexaferrite(Ions ions,
   }
   SitePlacement p;
   p.family = StructureFamily::kHexaferrite;
-  p.sites.push_back(MakeSite("A (12-coordinate)", Geometry::kFree, 0));
-  p.sites.push_back(MakeSite("12k (octahedral)", Geometry::kOctahedral, +1));
-  p.sites.push_back(MakeSite("4f1 (tetrahedral)", Geometry::kTetrahedral, -1));
-  p.sites.push_back(MakeSite("4f2 (octahedral)", Geometry::kOctahedral, -1));
-  p.sites.push_back(MakeSite("2a (octahedral)", Geometry::kOctahedral, +1));
-  p.sites.push_back(MakeSite("2b (trigonal bipyramidal)", Geometry::kFree, +1));
+  p.sites.reserve(6);
+  p.sites.push_back(
+      MakeSite("A (12-coordinate)", Geometry::kFree, 0, ions.size()));
+  p.sites.push_back(
+      MakeSite("12k (octahedral)", Geometry::kOctahedral, +1, ions.size()));
+  p.sites.push_back(
+      MakeSite("4f1 (tetrahedral)", Geometry::kTetrahedral, -1, ions.size()));
+  p.sites.push_back(
+      MakeSite("4f2 (octahedral)", Geometry::kOctahedral, -1, ions.size()));
+  p.sites.push_back(
+      MakeSite("2a (octahedral)", Geometry::kOctahedral, +1, ions.size()));
+  p.sites.push_back(
+      MakeSite("2b (trigonal bipyramidal)", Geometry::kFree, +1, ions.size()));
   Ions rest;
   for (const Ion& ion : ions) {
     if (IsLargeCation(*ion.element, ion.state)) {
@@ -633,8 +710,11 @@ std::optional<SitePlacement> PlacePerovskite(const Ions& ions,
   }
   SitePlacement p;
   p.family = StructureFamily::kPerovskite;
-  p.sites.push_back(MakeSite("A (12-coordinate)", Geometry::kFree, 0));
-  p.sites.push_back(MakeSite("B (octahedral)", Geometry::kOctahedral, +1));
+  p.sites.reserve(2);
+  p.sites.push_back(
+      MakeSite("A (12-coordinate)", Geometry::kFree, 0, ions.size()));
+  p.sites.push_back(
+      MakeSite("B (octahedral)", Geometry::kOctahedral, +1, ions.size()));
   for (const Ion& ion : ions) {
     const int site = IsLargeCation(*ion.element, ion.state) ? 0 : 1;
     AddOccupant(&p.sites[site], ion, ToRecord(ion.count, unscale));
