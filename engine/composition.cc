@@ -489,21 +489,24 @@ void AnnotateIon(const AssignedState& s, const Rational& count,
                      d.status().message()));
     return;
   }
-  IonAnnotation ion{s.element, s.state, count, *d, 0, 0, 0};
+  // The report's ion is filled in place and owns the description.
+  IonAnnotation& ion = r->ions.emplace_back(
+      IonAnnotation{s.element, s.state, count, *std::move(d), 0, 0, 0});
+  const AtomDescription& description = *ion.description;
   ion.ligand = env.ligand;
   ion.ligand_f = env.f;
   ion.spin_basis =
-      (*d)->ligand_field.has_value() ? env.basis : SpinBasis::kNone;
+      description.ligand_field.has_value() ? env.basis : SpinBasis::kNone;
   ion.near_spin_crossover = env.near_crossover;
   ion.bonded = internal::OpenShellState(*s.element, s.state);
   if (site != nullptr) ion.site = site->name;
   if (!ion.bonded) {  // Bonded: no moment, all zero.
-    const bool fixed = FindSetting(settings.geometry, s.element) != nullptr ||
-                       FindSetting(settings.spin, s.element) != nullptr ||
-                       (s.state <= 0 && (*d)->configuration_user_supplied);
-    SetMomentRange(**d, env, s, fixed, temperature, anion_z, &ion);
+    const bool fixed =
+        FindSetting(settings.geometry, s.element) != nullptr ||
+        FindSetting(settings.spin, s.element) != nullptr ||
+        (s.state <= 0 && description.configuration_user_supplied);
+    SetMomentRange(description, env, s, fixed, temperature, anion_z, &ion);
   }
-  r->ions.push_back(ion);
 }
 
 // Annotates every free ion with its environment and moment range (one
