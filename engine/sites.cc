@@ -36,8 +36,6 @@ bool Small(const Rational& r) {
   return r.den() <= kMaxDenominator && std::llabs(r.num()) <= kMaxNumerator;
 }
 
-Rational Min(const Rational& a, const Rational& b) { return b < a ? b : a; }
-
 // `v` to three decimals, without trailing zeros: "0.5", "16", "3.7".
 std::string Rounded(double v) {
   const double r = std::round(v * 1000) / 1000;
@@ -440,7 +438,9 @@ bool Pour(Ions* ions, absl::Span<const Pool> pools, const Rational& unscale,
     }
     Rational remaining = group;  // Of the group, still to place.
     while (!remaining.IsZero() && pool < pools.size()) {
-      const Rational take = Min(remaining, left);
+      // The rest of the group fits in what the pool has left, or fills it.
+      const bool fits = !(left < remaining);
+      const Rational take = fits ? remaining : left;
       // Of each ion's count: all of it when the whole group fits.
       const Rational fraction = take == group
                                     ? Rational(1)
@@ -453,8 +453,14 @@ bool Pour(Ions* ions, absl::Span<const Pool> pools, const Rational& unscale,
           AddOccupant(&(*sites)[site], (*ions)[k], placed);
         }
       }
-      remaining = remaining - take;
-      left = left - take;
+      // Whichever was taken in full is now empty.
+      if (fits) {
+        left = left - take;
+        remaining = Rational();
+      } else {
+        remaining = remaining - take;
+        left = Rational();
+      }
       if (!Small(remaining) || !Small(left)) return false;
       if (left.IsZero() && ++pool < pools.size()) left = pools[pool].capacity;
     }
@@ -465,7 +471,10 @@ bool Pour(Ions* ions, absl::Span<const Pool> pools, const Rational& unscale,
 
 // "Fe3+ 0 kJ/mol, Ni2+ 86 kJ/mol": the ions in the order they were placed.
 std::string OrderText(const Ions& ions) {
+  size_t size = 0;  // Of the cached texts and the separators.
+  for (const Ion& ion : ions) size += ion.preference_text.size() + 2;
   std::string text;
+  text.reserve(size);
   for (const Ion& ion : ions) {
     if (!text.empty()) text += ", ";
     if (ion.preference_text.empty()) {
@@ -869,6 +878,7 @@ SublatticeMoment TwoSided(const SitePlacement& p,
   const bool one_side_empty = up < kNoMoment || down < kNoMoment;
   r.saturation = one_side_empty ? 0 : std::abs(up - down);
   if (!describe) return r;
+  r.note.reserve(256);  // Room for the usual note, filled piece by piece.
   r.note = "Néel collinear model: ";
   AppendSiteNames(p, +1, &r.note);
   absl::StrAppend(&r.note, " ", Mu(up), " μB against ");
