@@ -441,12 +441,15 @@ bool Pour(Ions* ions, absl::Span<const Pool> pools, const Rational& unscale,
       // The rest of the group fits in what the pool has left, or fills it.
       const bool fits = !(left < remaining);
       const Rational take = fits ? remaining : left;
-      // Of each ion's count: all of it when the whole group fits.
-      const Rational fraction = take == group
+      // Each ion's part of `take`, in proportion to its count: all of a
+      // lone ion's, all of each count when the whole group fits.
+      const bool alone = end == i + 1;
+      const Rational fraction = alone || take == group
                                     ? Rational(1)
                                     : take * Rational(group.den(), group.num());
       for (size_t k = i; k < end; ++k) {
-        const Rational amount = Times((*ions)[k].count, fraction);
+        const Rational amount =
+            alone ? take : Times((*ions)[k].count, fraction);
         for (const auto& [site, share] : pools[pool].shares) {
           const Rational placed = ToRecord(Times(amount, share), unscale);
           if (!Small(placed)) return false;
@@ -515,14 +518,19 @@ std::optional<SitePlacement> PlaceSpinel(Ions ions, const Rational& unscale,
   // else the lowest charge.
   int lowest = 1000;
   int a_type = 0;
-  for (const Ion& ion : ions) {
-    lowest = std::min(lowest, ion.state);
-    Rational total;
-    for (const Ion& other : ions) {
-      if (other.state == ion.state) total = total + other.count;
+  for (size_t i = 0; i < ions.size(); ++i) {
+    const int state = ions[i].state;
+    lowest = std::min(lowest, state);
+    // Each charge is summed once, from its first ion on.
+    bool summed = false;
+    for (size_t j = 0; j < i; ++j) summed |= ions[j].state == state;
+    if (summed) continue;
+    Rational total = ions[i].count;
+    for (size_t j = i + 1; j < ions.size(); ++j) {
+      if (ions[j].state == state) total = total + ions[j].count;
     }
-    if (total == Rational(1) && (a_type == 0 || ion.state < a_type)) {
-      a_type = ion.state;
+    if (total == Rational(1) && (a_type == 0 || state < a_type)) {
+      a_type = state;
     }
   }
   if (a_type == 0) a_type = lowest;
