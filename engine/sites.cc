@@ -196,7 +196,10 @@ void CountExactly(const Formula& formula, Shape* shape) {
 
 // cations / anions == num / den.
 bool RatioIs(const Shape& s, int num, int den) {
-  return s.cations * Rational(den) == s.anions * Rational(num);
+  // Cross-multiplied (denominators are positive), with no rational to
+  // reduce.
+  return static_cast<__int128>(s.cations.num()) * s.anions.den() * den ==
+         static_cast<__int128>(s.anions.num()) * s.cations.den() * num;
 }
 
 // The same, in floating point, within rounding.
@@ -260,14 +263,24 @@ bool ShapeFits(const FamilySpec& spec, const Shape& s, std::string* why) {
 
 constexpr char kTooFine[] = "the counts are too finely divided";
 
+// Record formula units per family formula unit: the record's anions over
+// the family's, 1 with no arithmetic when they agree (Fe3O4, LaMnO3).
+Rational RecordUnitsPerFamilyUnit(const FamilySpec& spec, const Shape& shape) {
+  const Rational family_anions(spec.anions);
+  return shape.anions == family_anions
+             ? Rational(1)
+             : shape.anions * Rational(1, spec.anions);
+}
+
 // Reads the assignment's ions, counted per family formula unit. False
 // (with `why`) when an ion sits in a unit, a cation is not positive, the
 // anion is not in its usual state or the counts are too finely divided.
 bool ReadIons(const OxidationAssignment& a, const FamilySpec& spec,
               const Shape& shape, Ions* ions, std::string* why) {
+  const Rational unscale = RecordUnitsPerFamilyUnit(spec, shape);
+  const bool unit_scale = unscale == Rational(1);
   const Rational scale =
-      Rational(spec.anions) * Rational(shape.anions.den(), shape.anions.num());
-  const bool unit_scale = scale == Rational(1);
+      unit_scale ? unscale : Rational(unscale.den(), unscale.num());
   const int anion_state = shape.anion_z == kZFluorine ? -1 : -2;
   for (const AssignedState& s : a.states) {
     if (s.unit >= 0) {
@@ -749,8 +762,7 @@ std::optional<SitePlacement> TryFamily(const FamilySpec& spec,
   if (!ShapeFits(spec, shape, why)) return std::nullopt;
   Ions ions;
   if (!ReadIons(a, spec, shape, &ions, why)) return std::nullopt;
-  // Record formula units per family formula unit.
-  const Rational unscale = shape.anions * Rational(1, spec.anions);
+  const Rational unscale = RecordUnitsPerFamilyUnit(spec, shape);
   switch (spec.family) {
     case StructureFamily::kSpinel:
       return PlaceSpinel(std::move(ions), unscale, why);
