@@ -5,6 +5,7 @@
 #include <cmath>
 #include <cstdint>
 #include <cstdlib>
+#include <initializer_list>
 #include <optional>
 #include <string>
 #include <utility>
@@ -272,12 +273,13 @@ Rational RecordUnitsPerFamilyUnit(const FamilySpec& spec, const Shape& shape) {
              : shape.anions * Rational(1, spec.anions);
 }
 
-// Reads the assignment's ions, counted per family formula unit. False
-// (with `why`) when an ion sits in a unit, a cation is not positive, the
-// anion is not in its usual state or the counts are too finely divided.
+// Reads the assignment's ions, counted per family formula unit
+// (`unscale` = RecordUnitsPerFamilyUnit). False (with `why`) when an ion
+// sits in a unit, a cation is not positive, the anion is not in its usual
+// state or the counts are too finely divided.
 bool ReadIons(const OxidationAssignment& a, const FamilySpec& spec,
-              const Shape& shape, Ions* ions, std::string* why) {
-  const Rational unscale = RecordUnitsPerFamilyUnit(spec, shape);
+              const Shape& shape, const Rational& unscale, Ions* ions,
+              std::string* why) {
   const bool unit_scale = unscale == Rational(1);
   const Rational scale =
       unit_scale ? unscale : Rational(unscale.den(), unscale.num());
@@ -506,13 +508,22 @@ constexpr absl::string_view kPreferenceSource =
     "octahedral site preference energies after Dunitz and Orgel 1957 and "
     "McClure 1957, data/site_preferences.tsv";
 
-// A site with room for `room` occupants (each ion of the placement at
-// most once), so that filling it reallocates nothing.
-Site MakeSite(absl::string_view name, Geometry geometry, int direction,
-              size_t room) {
-  Site site{name, geometry, direction, {}};
-  site.occupants.reserve(room);
-  return site;
+struct SiteSpec {
+  absl::string_view name;  // In static storage (Site::name).
+  Geometry geometry;
+  int direction;
+};
+
+// Adds `sites` to `p`, each with room for `room` occupants (each ion of
+// the placement at most once), so that filling them reallocates nothing.
+void AddSites(std::initializer_list<SiteSpec> sites, size_t room,
+              SitePlacement* p) {
+  p->sites.reserve(sites.size());
+  for (const SiteSpec& spec : sites) {
+    Site& site = p->sites.emplace_back(
+        Site{spec.name, spec.geometry, spec.direction, {}});
+    site.occupants.reserve(room);
+  }
 }
 
 // ---------------------------------------------------------------------------
@@ -551,11 +562,9 @@ std::optional<SitePlacement> PlaceSpinel(Ions ions, const Rational& unscale,
 
   SitePlacement p;
   p.family = StructureFamily::kSpinel;
-  p.sites.reserve(2);
-  p.sites.push_back(
-      MakeSite("A (tetrahedral)", Geometry::kTetrahedral, -1, ions.size()));
-  p.sites.push_back(
-      MakeSite("B (octahedral)", Geometry::kOctahedral, +1, ions.size()));
+  AddSites({{"A (tetrahedral)", Geometry::kTetrahedral, -1},
+            {"B (octahedral)", Geometry::kOctahedral, +1}},
+           ions.size(), &p);
   const Pool pools[] = {{Rational(1), {{0, Rational(1)}}},
                         {Rational(2), {{1, Rational(1)}}}};
   if (!Pour(&ions, pools, unscale, /*spinel=*/true, &p.sites)) {
@@ -615,13 +624,10 @@ std::optional<SitePlacement> PlaceGarnet(Ions ions, const Rational& unscale,
   }
   SitePlacement p;
   p.family = StructureFamily::kGarnet;
-  p.sites.reserve(3);
-  p.sites.push_back(
-      MakeSite("c (dodecahedral)", Geometry::kTetrahedral, -1, ions.size()));
-  p.sites.push_back(
-      MakeSite("a (octahedral)", Geometry::kOctahedral, -1, ions.size()));
-  p.sites.push_back(
-      MakeSite("d (tetrahedral)", Geometry::kTetrahedral, +1, ions.size()));
+  AddSites({{"c (dodecahedral)", Geometry::kTetrahedral, -1},
+            {"a (octahedral)", Geometry::kOctahedral, -1},
+            {"d (tetrahedral)", Geometry::kTetrahedral, +1}},
+           ions.size(), &p);
   Ions rest;
   for (const Ion& ion : ions) {
     const bool on_c = silicate ? IsGarnetDivalent(ion)
@@ -668,19 +674,13 @@ std::optional<SitePlacement> PlaceHexaferrite(Ions ions,
   }
   SitePlacement p;
   p.family = StructureFamily::kHexaferrite;
-  p.sites.reserve(6);
-  p.sites.push_back(
-      MakeSite("A (12-coordinate)", Geometry::kFree, 0, ions.size()));
-  p.sites.push_back(
-      MakeSite("12k (octahedral)", Geometry::kOctahedral, +1, ions.size()));
-  p.sites.push_back(
-      MakeSite("4f1 (tetrahedral)", Geometry::kTetrahedral, -1, ions.size()));
-  p.sites.push_back(
-      MakeSite("4f2 (octahedral)", Geometry::kOctahedral, -1, ions.size()));
-  p.sites.push_back(
-      MakeSite("2a (octahedral)", Geometry::kOctahedral, +1, ions.size()));
-  p.sites.push_back(
-      MakeSite("2b (trigonal bipyramidal)", Geometry::kFree, +1, ions.size()));
+  AddSites({{"A (12-coordinate)", Geometry::kFree, 0},
+            {"12k (octahedral)", Geometry::kOctahedral, +1},
+            {"4f1 (tetrahedral)", Geometry::kTetrahedral, -1},
+            {"4f2 (octahedral)", Geometry::kOctahedral, -1},
+            {"2a (octahedral)", Geometry::kOctahedral, +1},
+            {"2b (trigonal bipyramidal)", Geometry::kFree, +1}},
+           ions.size(), &p);
   Ions rest;
   for (const Ion& ion : ions) {
     if (IsLargeCation(*ion.element, ion.state)) {
@@ -740,11 +740,9 @@ std::optional<SitePlacement> PlacePerovskite(const Ions& ions,
   }
   SitePlacement p;
   p.family = StructureFamily::kPerovskite;
-  p.sites.reserve(2);
-  p.sites.push_back(
-      MakeSite("A (12-coordinate)", Geometry::kFree, 0, ions.size()));
-  p.sites.push_back(
-      MakeSite("B (octahedral)", Geometry::kOctahedral, +1, ions.size()));
+  AddSites({{"A (12-coordinate)", Geometry::kFree, 0},
+            {"B (octahedral)", Geometry::kOctahedral, +1}},
+           ions.size(), &p);
   for (const Ion& ion : ions) {
     const int site = IsLargeCation(*ion.element, ion.state) ? 0 : 1;
     AddOccupant(&p.sites[site], ion, ToRecord(ion.count, unscale));
@@ -760,9 +758,9 @@ std::optional<SitePlacement> TryFamily(const FamilySpec& spec,
                                        const OxidationAssignment& a,
                                        std::string* why) {
   if (!ShapeFits(spec, shape, why)) return std::nullopt;
-  Ions ions;
-  if (!ReadIons(a, spec, shape, &ions, why)) return std::nullopt;
   const Rational unscale = RecordUnitsPerFamilyUnit(spec, shape);
+  Ions ions;
+  if (!ReadIons(a, spec, shape, unscale, &ions, why)) return std::nullopt;
   switch (spec.family) {
     case StructureFamily::kSpinel:
       return PlaceSpinel(std::move(ions), unscale, why);
