@@ -2,16 +2,16 @@
 
 #include <array>
 #include <cmath>
-#include <memory>
-#include <mutex>
 #include <numeric>
 
+#include "absl/container/inlined_vector.h"
 #include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
 #include "absl/strings/str_split.h"
 #include "absl/strings/strip.h"
 #include "engine/formula.h"
+#include "engine/internal/lazy_element_rows.h"
 #include "engine/internal/state_options.h"
 #include "engine/internal/text.h"
 #include "engine/ion_moments.h"
@@ -23,6 +23,7 @@
 namespace shellwright {
 namespace {
 
+using internal::LazyElementRows;
 using internal::QuoteForMessage;
 
 void Add(CompositionReport* r, Severity severity, std::string code,
@@ -154,24 +155,6 @@ RangeEnds DescribeRangeEnds(const Element* e, int state) {
   }
   return ends;
 }
-
-// Rows of values per element, each row made on first use by `make`
-// (called once per element, under a once flag). A whole table made up
-// front is tens or hundreds of KB that a process asking about a few ions
-// would zero page by page, at a page fault each.
-template <typename Row>
-class LazyElementRows {
- public:
-  template <typename Make>
-  const Row& Get(int z, Make make) {
-    std::call_once(once_[z], [&] { rows_[z] = std::make_unique<Row>(make()); });
-    return *rows_[z];
-  }
-
- private:
-  std::array<std::once_flag, kMaxAtomicNumber + 1> once_;
-  std::array<std::unique_ptr<Row>, kMaxAtomicNumber + 1> rows_;
-};
 
 // RangeEnds depend only on the element and the state: read once per
 // element, for every state a record can hold (-9..+9), from the same
@@ -506,21 +489,24 @@ void AnnotateIon(const AssignedState& s, const Rational& count,
                      d.status().message()));
     return;
   }
-  IonAnnotation ion{s.element, s.state, count, *d, 0, 0, 0};
+  // The report's ion is filled in place and owns the description.
+  IonAnnotation& ion = r->ions.emplace_back(
+      IonAnnotation{s.element, s.state, count, *std::move(d), 0, 0, 0});
+  const AtomDescription& description = *ion.description;
   ion.ligand = env.ligand;
   ion.ligand_f = env.f;
   ion.spin_basis =
-      (*d)->ligand_field.has_value() ? env.basis : SpinBasis::kNone;
+      description.ligand_field.has_value() ? env.basis : SpinBasis::kNone;
   ion.near_spin_crossover = env.near_crossover;
   ion.bonded = internal::OpenShellState(*s.element, s.state);
   if (site != nullptr) ion.site = site->name;
   if (!ion.bonded) {  // Bonded: no moment, all zero.
-    const bool fixed = FindSetting(settings.geometry, s.element) != nullptr ||
-                       FindSetting(settings.spin, s.element) != nullptr ||
-                       (s.state <= 0 && (*d)->configuration_user_supplied);
-    SetMomentRange(**d, env, s, fixed, temperature, anion_z, &ion);
+    const bool fixed =
+        FindSetting(settings.geometry, s.element) != nullptr ||
+        FindSetting(settings.spin, s.element) != nullptr ||
+        (s.state <= 0 && description.configuration_user_supplied);
+    SetMomentRange(description, env, s, fixed, temperature, anion_z, &ion);
   }
-  r->ions.push_back(ion);
 }
 
 // Annotates every free ion with its environment and moment range (one
@@ -562,7 +548,9 @@ void Annotate(const Formula& formula, const ElementSettings& settings,
 // at its nominal value and at the ends of its range, the range taken over
 // the corners that raise one sublattice and lower the other.
 void ApplySublattices(const SitePlacement& placement, CompositionReport* r) {
-  std::vector<double> nominal, up_high, up_low;
+  // Inline room for the usual few occupants: no allocation per record.
+  using Moments = absl::InlinedVector<double, 8>;
+  Moments nominal, up_high, up_low;
   for (const Site& site : placement.sites) {
     for (const SiteOccupant& o : site.occupants) {
       const IonAnnotation* found = nullptr;
@@ -580,17 +568,18 @@ void ApplySublattices(const SitePlacement& placement, CompositionReport* r) {
     }
   }
   const SublatticeMoment m = NeelSaturation(placement, nominal);
-  r->structure_note = placement.note;
-  if (!m.note.empty()) absl::StrAppend(&r->structure_note, "; ", m.note);
+  r->structure_note = m.note.empty()
+                          ? placement.note
+                          : absl::StrCat(placement.note, "; ", m.note);
   if (!m.determined) return;
   double low = m.saturation, high = m.saturation;
   // Where every ordered moment is exact (S-state ions), so is the sum.
   const bool exact = up_high == nominal && up_low == nominal;
-  for (const std::vector<double>* corner : {&up_high, &up_low}) {
+  for (const Moments* corner : {&up_high, &up_low}) {
     if (exact) break;
-    const SublatticeMoment c = NeelSaturation(placement, *corner);
-    low = std::min(low, c.saturation);
-    high = std::max(high, c.saturation);
+    const double c = NeelSaturationValue(placement, *corner);
+    low = std::min(low, c);
+    high = std::max(high, c);
   }
   r->saturation_moment_per_formula_unit = m.saturation;
   r->saturation_moment_low = low;

@@ -50,6 +50,13 @@ Rational AtomsInside(const Formula& formula, const Element* e, int g) {
   return n;
 }
 
+// x < y × num / den, cross-multiplied (denominators are positive), with
+// no rational to reduce.
+bool BelowMultiple(const Rational& x, const Rational& y, int num, int den) {
+  return static_cast<__int128>(x.num()) * y.den() * den <
+         static_cast<__int128>(y.num()) * x.den() * num;
+}
+
 // An A-site cation of a perovskite: Ca, Sr, Ba, Y or a lanthanide.
 bool PerovskiteASite(const Element& e) {
   const int z = e.atomic_number;
@@ -80,8 +87,8 @@ bool OxygenDeficientPerovskite(const OxidationAssignment& assignment) {
       return false;  // Another cation, or O in a state other than -2.
     }
   }
-  return !b.IsZero() && a == b && !(o < b * Rational(5, 2)) &&
-         o < b * Rational(11, 4);
+  return !b.IsZero() && a == b && !BelowMultiple(o, b, 5, 2) &&
+         BelowMultiple(o, b, 11, 4);
 }
 
 struct Site {

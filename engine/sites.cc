@@ -1,9 +1,11 @@
 #include "engine/sites.h"
 
 #include <algorithm>
+#include <array>
 #include <cmath>
 #include <cstdint>
 #include <cstdlib>
+#include <initializer_list>
 #include <optional>
 #include <string>
 #include <utility>
@@ -12,8 +14,8 @@
 #include "absl/container/inlined_vector.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
-#include "absl/strings/str_join.h"
 #include "engine/internal/data_tables.h"
+#include "engine/internal/lazy_element_rows.h"
 
 namespace shellwright {
 namespace {
@@ -34,8 +36,6 @@ constexpr int64_t kMaxNumerator = 1000000000;
 bool Small(const Rational& r) {
   return r.den() <= kMaxDenominator && std::llabs(r.num()) <= kMaxNumerator;
 }
-
-Rational Min(const Rational& a, const Rational& b) { return b < a ? b : a; }
 
 // `v` to three decimals, without trailing zeros: "0.5", "16", "3.7".
 std::string Rounded(double v) {
@@ -146,6 +146,9 @@ struct Ion {
   int state;
   Rational count;
   Preference preference;
+  // The preference as OrderText writes it ("Ni2+ 86 kJ/mol"), where it
+  // was read from the cache, else empty.
+  absl::string_view preference_text;
   int tie = 0;  // The family's tie-break rank: lower goes tetrahedral first.
   size_t order = 0;  // Position in the assignment.
 };
@@ -194,7 +197,10 @@ void CountExactly(const Formula& formula, Shape* shape) {
 
 // cations / anions == num / den.
 bool RatioIs(const Shape& s, int num, int den) {
-  return s.cations * Rational(den) == s.anions * Rational(num);
+  // Cross-multiplied (denominators are positive), with no rational to
+  // reduce.
+  return static_cast<__int128>(s.cations.num()) * s.anions.den() * den ==
+         static_cast<__int128>(s.anions.num()) * s.cations.den() * num;
 }
 
 // The same, in floating point, within rounding.
@@ -258,14 +264,25 @@ bool ShapeFits(const FamilySpec& spec, const Shape& s, std::string* why) {
 
 constexpr char kTooFine[] = "the counts are too finely divided";
 
-// Reads the assignment's ions, counted per family formula unit. False
-// (with `why`) when an ion sits in a unit, a cation is not positive, the
-// anion is not in its usual state or the counts are too finely divided.
+// Record formula units per family formula unit: the record's anions over
+// the family's, 1 with no arithmetic when they agree (Fe3O4, LaMnO3).
+Rational RecordUnitsPerFamilyUnit(const FamilySpec& spec, const Shape& shape) {
+  const Rational family_anions(spec.anions);
+  return shape.anions == family_anions
+             ? Rational(1)
+             : shape.anions * Rational(1, spec.anions);
+}
+
+// Reads the assignment's ions, counted per family formula unit
+// (`unscale` = RecordUnitsPerFamilyUnit). False (with `why`) when an ion
+// sits in a unit, a cation is not positive, the anion is not in its usual
+// state or the counts are too finely divided.
 bool ReadIons(const OxidationAssignment& a, const FamilySpec& spec,
-              const Shape& shape, Ions* ions, std::string* why) {
+              const Shape& shape, const Rational& unscale, Ions* ions,
+              std::string* why) {
+  const bool unit_scale = unscale == Rational(1);
   const Rational scale =
-      Rational(spec.anions) * Rational(shape.anions.den(), shape.anions.num());
-  const bool unit_scale = scale == Rational(1);
+      unit_scale ? unscale : Rational(unscale.den(), unscale.num());
   const int anion_state = shape.anion_z == kZFluorine ? -1 : -2;
   for (const AssignedState& s : a.states) {
     if (s.unit >= 0) {
@@ -295,7 +312,7 @@ bool ReadIons(const OxidationAssignment& a, const FamilySpec& spec,
       if (why) *why = kTooFine;
       return false;
     }
-    ions->push_back(Ion{s.element, s.state, count, Preference()});
+    ions->push_back(Ion{s.element, s.state, count, Preference(), {}});
   }
   return true;
 }
@@ -322,9 +339,14 @@ struct Pool {
   absl::InlinedVector<std::pair<int, Rational>, 3> shares;  // Site, share.
 };
 
+// a × b, with no arithmetic when b is 1 (the usual factor).
+Rational Times(const Rational& a, const Rational& b) {
+  return b.IsInteger() && b.num() == 1 ? a : a * b;
+}
+
 // The record's count of a family-unit count.
 Rational ToRecord(const Rational& count, const Rational& unscale) {
-  return unscale == Rational(1) ? count : count * unscale;
+  return Times(count, unscale);
 }
 
 void AddOccupant(Site* site, const Ion& ion, const Rational& count) {
@@ -338,6 +360,66 @@ void AddOccupant(Site* site, const Ion& ion, const Rational& count) {
   site->occupants.push_back(SiteOccupant{ion.element, ion.state, count});
 }
 
+// Appends "Ni2+ 86 kJ/mol" or "Zn2+ strongly tetrahedral" to `out`.
+void AppendPreference(const Element& e, int state, const Preference& p,
+                      std::string* out) {
+  absl::StrAppend(out, FormatSpecies(e.symbol, state));
+  if (p.low_spin) absl::StrAppend(out, " (low spin)");
+  if (p.strong == 0) {
+    absl::StrAppend(out, " strongly tetrahedral");
+  } else if (p.strong == 2) {
+    absl::StrAppend(out, " strongly octahedral");
+  } else {
+    absl::StrAppend(out, " ", Rounded(p.ospe), " kJ/mol");
+    if (p.from_d_count) absl::StrAppend(out, " (isoelectronic row)");
+    if (p.weak) absl::StrAppend(out, ", weakly octahedral");
+  }
+}
+
+// A cation's preference and its text, read for a spinel or another family.
+struct PreferenceEntry {
+  Preference preference;
+  std::string text;
+};
+
+// Cations in states 1 to kMaxCachedState read their preference from a
+// cache, filled once per element: the lookup scans the table and every
+// placement writes the texts.
+constexpr int kMaxCachedState = 9;
+
+// The cached entry of `e` in `state`, or null outside the cached states.
+const PreferenceEntry* CachedPreference(const Element& e, int state,
+                                        bool spinel) {
+  if (state < 1 || state > kMaxCachedState) return nullptr;
+  // Per state from 1, for another family and for a spinel.
+  using Row = std::array<std::array<PreferenceEntry, 2>, kMaxCachedState>;
+  static auto* const kTable = new internal::LazyElementRows<Row>;
+  const Row& row = kTable->Get(e.atomic_number, [&e] {
+    Row made;
+    for (int q = 1; q <= kMaxCachedState; ++q) {
+      for (const bool for_spinel : {false, true}) {
+        PreferenceEntry& entry = made[q - 1][for_spinel ? 1 : 0];
+        entry.preference = LookupPreference(e, q, for_spinel);
+        AppendPreference(e, q, entry.preference, &entry.text);
+      }
+    }
+    return made;
+  });
+  return &row[state - 1][spinel ? 1 : 0];
+}
+
+// Sets the preference of `ion`, read for a spinel or another family.
+void ReadPreference(bool spinel, Ion* ion) {
+  if (const PreferenceEntry* entry =
+          CachedPreference(*ion->element, ion->state, spinel)) {
+    ion->preference = entry->preference;
+    ion->preference_text = entry->text;
+  } else {
+    ion->preference = LookupPreference(*ion->element, ion->state, spinel);
+    ion->preference_text = {};
+  }
+}
+
 // Sorts `ions` least octahedral first (preference, read for a spinel or
 // another family, then the tie rank) and
 // pours them into `pools` in order; ions that tie completely share a pool
@@ -345,9 +427,7 @@ void AddOccupant(Site* site, const Ion& ion, const Rational& count) {
 // (`unscale` = record formula units per family unit). False on overflow.
 bool Pour(Ions* ions, absl::Span<const Pool> pools, const Rational& unscale,
           bool spinel, std::vector<Site>* sites) {
-  for (Ion& ion : *ions) {
-    ion.preference = LookupPreference(*ion.element, ion.state, spinel);
-  }
+  for (Ion& ion : *ions) ReadPreference(spinel, &ion);
   // Formula order breaks the remaining ties (std::sort, unlike
   // std::stable_sort, allocates nothing).
   for (size_t k = 0; k < ions->size(); ++k) (*ions)[k].order = k;
@@ -373,19 +453,32 @@ bool Pour(Ions* ions, absl::Span<const Pool> pools, const Rational& unscale,
     }
     Rational remaining = group;  // Of the group, still to place.
     while (!remaining.IsZero() && pool < pools.size()) {
-      const Rational take = Min(remaining, left);
-      const Rational fraction =
-          take * Rational(group.den(), group.num());  // Of each ion's count.
+      // The rest of the group fits in what the pool has left, or fills it.
+      const bool fits = !(left < remaining);
+      const Rational take = fits ? remaining : left;
+      // Each ion's part of `take`, in proportion to its count: all of a
+      // lone ion's, all of each count when the whole group fits.
+      const bool alone = end == i + 1;
+      const Rational fraction = alone || take == group
+                                    ? Rational(1)
+                                    : take * Rational(group.den(), group.num());
       for (size_t k = i; k < end; ++k) {
-        const Rational amount = (*ions)[k].count * fraction;
+        const Rational amount =
+            alone ? take : Times((*ions)[k].count, fraction);
         for (const auto& [site, share] : pools[pool].shares) {
-          const Rational placed = ToRecord(amount * share, unscale);
+          const Rational placed = ToRecord(Times(amount, share), unscale);
           if (!Small(placed)) return false;
           AddOccupant(&(*sites)[site], (*ions)[k], placed);
         }
       }
-      remaining = remaining - take;
-      left = left - take;
+      // Whichever was taken in full is now empty.
+      if (fits) {
+        left = left - take;
+        remaining = Rational();
+      } else {
+        remaining = remaining - take;
+        left = Rational();
+      }
       if (!Small(remaining) || !Small(left)) return false;
       if (left.IsZero() && ++pool < pools.size()) left = pools[pool].capacity;
     }
@@ -394,28 +487,19 @@ bool Pour(Ions* ions, absl::Span<const Pool> pools, const Rational& unscale,
   return true;
 }
 
-// Appends "Ni2+ 86 kJ/mol" or "Zn2+ strongly tetrahedral" to `out`.
-void AppendPreference(const Ion& ion, std::string* out) {
-  const Preference& p = ion.preference;
-  absl::StrAppend(out, FormatSpecies(ion.element->symbol, ion.state));
-  if (p.low_spin) absl::StrAppend(out, " (low spin)");
-  if (p.strong == 0) {
-    absl::StrAppend(out, " strongly tetrahedral");
-  } else if (p.strong == 2) {
-    absl::StrAppend(out, " strongly octahedral");
-  } else {
-    absl::StrAppend(out, " ", Rounded(p.ospe), " kJ/mol");
-    if (p.from_d_count) absl::StrAppend(out, " (isoelectronic row)");
-    if (p.weak) absl::StrAppend(out, ", weakly octahedral");
-  }
-}
-
 // "Fe3+ 0 kJ/mol, Ni2+ 86 kJ/mol": the ions in the order they were placed.
 std::string OrderText(const Ions& ions) {
+  size_t size = 0;  // Of the cached texts and the separators.
+  for (const Ion& ion : ions) size += ion.preference_text.size() + 2;
   std::string text;
+  text.reserve(size);
   for (const Ion& ion : ions) {
     if (!text.empty()) text += ", ";
-    AppendPreference(ion, &text);
+    if (ion.preference_text.empty()) {
+      AppendPreference(*ion.element, ion.state, ion.preference, &text);
+    } else {
+      text.append(ion.preference_text.data(), ion.preference_text.size());
+    }
   }
   return text;
 }
@@ -424,8 +508,22 @@ constexpr absl::string_view kPreferenceSource =
     "octahedral site preference energies after Dunitz and Orgel 1957 and "
     "McClure 1957, data/site_preferences.tsv";
 
-Site MakeSite(absl::string_view name, Geometry geometry, int direction) {
-  return Site{name, geometry, direction, {}};
+struct SiteSpec {
+  absl::string_view name;  // In static storage (Site::name).
+  Geometry geometry;
+  int direction;
+};
+
+// Adds `sites` to `p`, each with room for `room` occupants (each ion of
+// the placement at most once), so that filling them reallocates nothing.
+void AddSites(std::initializer_list<SiteSpec> sites, size_t room,
+              SitePlacement* p) {
+  p->sites.reserve(sites.size());
+  for (const SiteSpec& spec : sites) {
+    Site& site = p->sites.emplace_back(
+        Site{spec.name, spec.geometry, spec.direction, {}});
+    site.occupants.reserve(room);
+  }
 }
 
 // ---------------------------------------------------------------------------
@@ -444,14 +542,19 @@ std::optional<SitePlacement> PlaceSpinel(Ions ions, const Rational& unscale,
   // else the lowest charge.
   int lowest = 1000;
   int a_type = 0;
-  for (const Ion& ion : ions) {
-    lowest = std::min(lowest, ion.state);
-    Rational total;
-    for (const Ion& other : ions) {
-      if (other.state == ion.state) total = total + other.count;
+  for (size_t i = 0; i < ions.size(); ++i) {
+    const int state = ions[i].state;
+    lowest = std::min(lowest, state);
+    // Each charge is summed once, from its first ion on.
+    bool summed = false;
+    for (size_t j = 0; j < i; ++j) summed |= ions[j].state == state;
+    if (summed) continue;
+    Rational total = ions[i].count;
+    for (size_t j = i + 1; j < ions.size(); ++j) {
+      if (ions[j].state == state) total = total + ions[j].count;
     }
-    if (total == Rational(1) && (a_type == 0 || ion.state < a_type)) {
-      a_type = ion.state;
+    if (total == Rational(1) && (a_type == 0 || state < a_type)) {
+      a_type = state;
     }
   }
   if (a_type == 0) a_type = lowest;
@@ -459,8 +562,9 @@ std::optional<SitePlacement> PlaceSpinel(Ions ions, const Rational& unscale,
 
   SitePlacement p;
   p.family = StructureFamily::kSpinel;
-  p.sites.push_back(MakeSite("A (tetrahedral)", Geometry::kTetrahedral, -1));
-  p.sites.push_back(MakeSite("B (octahedral)", Geometry::kOctahedral, +1));
+  AddSites({{"A (tetrahedral)", Geometry::kTetrahedral, -1},
+            {"B (octahedral)", Geometry::kOctahedral, +1}},
+           ions.size(), &p);
   const Pool pools[] = {{Rational(1), {{0, Rational(1)}}},
                         {Rational(2), {{1, Rational(1)}}}};
   if (!Pour(&ions, pools, unscale, /*spinel=*/true, &p.sites)) {
@@ -520,9 +624,10 @@ std::optional<SitePlacement> PlaceGarnet(Ions ions, const Rational& unscale,
   }
   SitePlacement p;
   p.family = StructureFamily::kGarnet;
-  p.sites.push_back(MakeSite("c (dodecahedral)", Geometry::kTetrahedral, -1));
-  p.sites.push_back(MakeSite("a (octahedral)", Geometry::kOctahedral, -1));
-  p.sites.push_back(MakeSite("d (tetrahedral)", Geometry::kTetrahedral, +1));
+  AddSites({{"c (dodecahedral)", Geometry::kTetrahedral, -1},
+            {"a (octahedral)", Geometry::kOctahedral, -1},
+            {"d (tetrahedral)", Geometry::kTetrahedral, +1}},
+           ions.size(), &p);
   Ions rest;
   for (const Ion& ion : ions) {
     const bool on_c = silicate ? IsGarnetDivalent(ion)
@@ -569,12 +674,13 @@ std::optional<SitePlacement> PlaceHexaferrite(Ions ions,
   }
   SitePlacement p;
   p.family = StructureFamily::kHexaferrite;
-  p.sites.push_back(MakeSite("A (12-coordinate)", Geometry::kFree, 0));
-  p.sites.push_back(MakeSite("12k (octahedral)", Geometry::kOctahedral, +1));
-  p.sites.push_back(MakeSite("4f1 (tetrahedral)", Geometry::kTetrahedral, -1));
-  p.sites.push_back(MakeSite("4f2 (octahedral)", Geometry::kOctahedral, -1));
-  p.sites.push_back(MakeSite("2a (octahedral)", Geometry::kOctahedral, +1));
-  p.sites.push_back(MakeSite("2b (trigonal bipyramidal)", Geometry::kFree, +1));
+  AddSites({{"A (12-coordinate)", Geometry::kFree, 0},
+            {"12k (octahedral)", Geometry::kOctahedral, +1},
+            {"4f1 (tetrahedral)", Geometry::kTetrahedral, -1},
+            {"4f2 (octahedral)", Geometry::kOctahedral, -1},
+            {"2a (octahedral)", Geometry::kOctahedral, +1},
+            {"2b (trigonal bipyramidal)", Geometry::kFree, +1}},
+           ions.size(), &p);
   Ions rest;
   for (const Ion& ion : ions) {
     if (IsLargeCation(*ion.element, ion.state)) {
@@ -634,8 +740,9 @@ std::optional<SitePlacement> PlacePerovskite(const Ions& ions,
   }
   SitePlacement p;
   p.family = StructureFamily::kPerovskite;
-  p.sites.push_back(MakeSite("A (12-coordinate)", Geometry::kFree, 0));
-  p.sites.push_back(MakeSite("B (octahedral)", Geometry::kOctahedral, +1));
+  AddSites({{"A (12-coordinate)", Geometry::kFree, 0},
+            {"B (octahedral)", Geometry::kOctahedral, +1}},
+           ions.size(), &p);
   for (const Ion& ion : ions) {
     const int site = IsLargeCation(*ion.element, ion.state) ? 0 : 1;
     AddOccupant(&p.sites[site], ion, ToRecord(ion.count, unscale));
@@ -651,10 +758,9 @@ std::optional<SitePlacement> TryFamily(const FamilySpec& spec,
                                        const OxidationAssignment& a,
                                        std::string* why) {
   if (!ShapeFits(spec, shape, why)) return std::nullopt;
+  const Rational unscale = RecordUnitsPerFamilyUnit(spec, shape);
   Ions ions;
-  if (!ReadIons(a, spec, shape, &ions, why)) return std::nullopt;
-  // Record formula units per family formula unit.
-  const Rational unscale = shape.anions * Rational(1, spec.anions);
+  if (!ReadIons(a, spec, shape, unscale, &ions, why)) return std::nullopt;
   switch (spec.family) {
     case StructureFamily::kSpinel:
       return PlaceSpinel(std::move(ions), unscale, why);
@@ -760,37 +866,52 @@ SublatticeMoment Undetermined(std::string note) {
   return r;
 }
 
+// Appends the names of the sites of one side (`direction` +1 or -1) to
+// `out`, joined by " + ".
+void AppendSiteNames(const SitePlacement& p, int direction, std::string* out) {
+  bool first = true;
+  for (const Site& s : p.sites) {
+    if (direction > 0 ? s.direction <= 0 : s.direction >= 0) continue;
+    if (!first) out->append(" + ");
+    out->append(s.name.data(), s.name.size());
+    first = false;
+  }
+}
+
+// The family rules below fill the note only when `describe` is true: the
+// corners of a range need the number alone.
 SublatticeMoment TwoSided(const SitePlacement& p,
-                          absl::Span<const double> moments) {
+                          absl::Span<const double> moments, bool describe) {
   size_t next = 0;
   double up = 0, down = 0;
-  std::vector<absl::string_view> up_names, down_names;
   for (const Site& s : p.sites) {
     const double m = SiteMoment(s, moments, &next);
     if (s.direction > 0) {
       up += m;
-      up_names.push_back(s.name);
     } else if (s.direction < 0) {
       down += m;
-      down_names.push_back(s.name);
     }
   }
   SublatticeMoment r;
-  const std::string sides =
-      absl::StrCat(absl::StrJoin(up_names, " + "), " ", Mu(up), " μB against ",
-                   absl::StrJoin(down_names, " + "), " ", Mu(down), " μB");
-  if (up < kNoMoment || down < kNoMoment) {
-    r.saturation = 0;
-    r.note = absl::StrCat(
-        "Néel collinear model: ", sides,
+  const bool one_side_empty = up < kNoMoment || down < kNoMoment;
+  r.saturation = one_side_empty ? 0 : std::abs(up - down);
+  if (!describe) return r;
+  r.note.reserve(256);  // Room for the usual note, filled piece by piece.
+  r.note = "Néel collinear model: ";
+  AppendSiteNames(p, +1, &r.note);
+  absl::StrAppend(&r.note, " ", Mu(up), " μB against ");
+  AppendSiteNames(p, -1, &r.note);
+  absl::StrAppend(&r.note, " ", Mu(down), " μB");
+  if (one_side_empty) {
+    absl::StrAppend(
+        &r.note,
         "; one sublattice carries no moment, so the other orders "
         "antiferromagnetically within itself and the net moment is 0 "
         "(Smit and Wijn, Ferrites, 1959, from memory)");
-    return r;
+  } else {
+    absl::StrAppend(&r.note, ", net ", Mu(r.saturation),
+                    " μB per formula unit");
   }
-  r.saturation = std::abs(up - down);
-  r.note = absl::StrCat("Néel collinear model: ", sides, ", net ",
-                        Mu(r.saturation), " μB per formula unit");
   return r;
 }
 
@@ -803,7 +924,7 @@ bool IsLightLanthanide(const Element& e, int state) {
 }
 
 SublatticeMoment Garnet(const SitePlacement& p,
-                        absl::Span<const double> moments) {
+                        absl::Span<const double> moments, bool describe) {
   size_t next = 0;
   const size_t first_c = 0;  // c is the first site.
   const double c = SiteMoment(p.sites[0], moments, &next);
@@ -812,6 +933,7 @@ SublatticeMoment Garnet(const SitePlacement& p,
   SublatticeMoment r;
   if (a < kNoMoment || d < kNoMoment) {
     r.saturation = 0;
+    if (!describe) return r;
     r.note = absl::StrCat(
         "Néel collinear model: a ", Mu(a), " μB, d ", Mu(d),
         " μB; one of them carries no moment, so the other orders "
@@ -836,6 +958,7 @@ SublatticeMoment Garnet(const SitePlacement& p,
     }
   }
   r.saturation = std::abs(iron + along - against);
+  if (!describe) return r;
   const std::string fe =
       absl::StrCat("Néel collinear model: d ", Mu(d), " μB against a ", Mu(a),
                    " μB, net ", Mu(iron), " μB");
@@ -863,7 +986,7 @@ SublatticeMoment Garnet(const SitePlacement& p,
 }
 
 SublatticeMoment Perovskite(const SitePlacement& p,
-                            absl::Span<const double> moments) {
+                            absl::Span<const double> moments, bool describe) {
   const Site& a_site = p.sites[0];
   const Site& b = p.sites[1];
   const size_t first_b = a_site.occupants.size();
@@ -890,10 +1013,11 @@ SublatticeMoment Perovskite(const SitePlacement& p,
   }
   SublatticeMoment r;
   if (magnetic == nullptr) {
-    r.note = "perovskite: no ordered moment on the B site";
+    if (describe) r.note = "perovskite: no ordered moment on the B site";
     return r;
   }
   if (states == 1) {
+    if (!describe) return r;
     r.note = absl::StrCat(
         "perovskite: one magnetic B ion (", magnetic->symbol,
         " in one state) orders antiferromagnetically by 180° superexchange "
@@ -904,6 +1028,7 @@ SublatticeMoment Perovskite(const SitePlacement& p,
     return r;
   }
   r.saturation = total;
+  if (!describe) return r;
   r.note = absl::StrCat(
       "perovskite: mixed-valence ", magnetic->symbol,
       " on the B site orders ferromagnetically by double exchange (Zener "
@@ -917,8 +1042,11 @@ SublatticeMoment Perovskite(const SitePlacement& p,
 
 }  // namespace
 
-SublatticeMoment NeelSaturation(const SitePlacement& p,
-                                absl::Span<const double> ordered_moments) {
+namespace {
+
+SublatticeMoment Saturation(const SitePlacement& p,
+                            absl::Span<const double> ordered_moments,
+                            bool describe) {
   size_t occupants = 0;
   for (const Site& s : p.sites) occupants += s.occupants.size();
   if (occupants != ordered_moments.size()) {
@@ -929,17 +1057,29 @@ SublatticeMoment NeelSaturation(const SitePlacement& p,
   switch (p.family) {
     case StructureFamily::kSpinel:
     case StructureFamily::kHexaferrite:
-      return TwoSided(p, ordered_moments);
+      return TwoSided(p, ordered_moments, describe);
     case StructureFamily::kGarnet:
-      if (p.sites.size() == 3) return Garnet(p, ordered_moments);
+      if (p.sites.size() == 3) return Garnet(p, ordered_moments, describe);
       break;
     case StructureFamily::kPerovskite:
-      if (p.sites.size() == 2) return Perovskite(p, ordered_moments);
+      if (p.sites.size() == 2) return Perovskite(p, ordered_moments, describe);
       break;
     case StructureFamily::kNone:
       break;
   }
   return Undetermined("no structure family: no sublattice model");
+}
+
+}  // namespace
+
+SublatticeMoment NeelSaturation(const SitePlacement& p,
+                                absl::Span<const double> ordered_moments) {
+  return Saturation(p, ordered_moments, /*describe=*/true);
+}
+
+double NeelSaturationValue(const SitePlacement& p,
+                           absl::Span<const double> ordered_moments) {
+  return Saturation(p, ordered_moments, /*describe=*/false).saturation;
 }
 
 }  // namespace shellwright

@@ -197,6 +197,11 @@ struct SublatticeMoment {
 SublatticeMoment NeelSaturation(const SitePlacement& p,
                                 absl::Span<const double> ordered_moments);
 
+// NeelSaturation(p, ordered_moments).saturation, without building its
+// note: for the many moment sets of a range. Thread safety: pure function.
+double NeelSaturationValue(const SitePlacement& p,
+                           absl::Span<const double> ordered_moments);
+
 }  // namespace shellwright
 
 #endif  // SHELLWRIGHT_ENGINE_SITES_H_

@@ -482,6 +482,30 @@ TEST(Sites, NeelArithmeticWithGivenMoments) {
   EXPECT_FALSE(NeelSaturation(*p, short_list).determined);
 }
 
+TEST(Sites, SaturationValueMatchesTheDescribedSaturation) {
+  // Each family and rule, with the ions' own moments and with every moment
+  // scaled and zeroed in turn (the corners of a range differ so).
+  for (const std::string formula :
+       {"NiFe2O4", "ZnFe2O4", "Y3Fe5O12", "Gd3Fe5O12", "Sm3Fe5O12", "BaFe12O19",
+        "LaMnO3", "La0.7Sr0.3MnO3", "La2NiMnO6", "LaAlO3"}) {
+    std::optional<SitePlacement> p = Auto(formula);
+    ASSERT_TRUE(p.has_value()) << formula;
+    const std::vector<double> moments = OrderedMoments(*p);
+    std::vector<std::vector<double>> sets = {moments};
+    for (size_t i = 0; i < moments.size(); ++i) {
+      sets.push_back(moments);
+      sets.back()[i] *= 1.3;
+      sets.push_back(moments);
+      sets.back()[i] = 0;
+    }
+    for (const std::vector<double>& set : sets) {
+      const SublatticeMoment m = NeelSaturation(*p, set);
+      EXPECT_FALSE(m.note.empty()) << formula;
+      EXPECT_EQ(NeelSaturationValue(*p, set), m.saturation) << formula;
+    }
+  }
+}
+
 TEST(Sites, OrderedIonMomentIsSpinForDIonsAndGJForFIons) {
   AtomQuery fe;
   fe.element = FindElementBySymbol("Fe");

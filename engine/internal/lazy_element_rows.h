@@ -1,0 +1,45 @@
+// Per-element rows of values, each made on first use. Not part of the API.
+//
+// A whole table made up front is tens or hundreds of KB that a process
+// asking about a few ions would zero page by page, at a page fault each;
+// these rows are allocated one element at a time instead.
+//
+// Example:
+//   static auto* const kSquares = new LazyElementRows<std::array<int, 3>>;
+//   const std::array<int, 3>& row =
+//       kSquares->Get(26, [] { return std::array<int, 3>{0, 1, 4}; });
+//
+// Thread safety: Get may be called from any thread; `make` runs once per
+// element, and a row once made costs one atomic load (absl::call_once).
+
+#ifndef SHELLWRIGHT_ENGINE_INTERNAL_LAZY_ELEMENT_ROWS_H_
+#define SHELLWRIGHT_ENGINE_INTERNAL_LAZY_ELEMENT_ROWS_H_
+
+#include <array>
+#include <memory>
+
+#include "absl/base/call_once.h"
+#include "engine/element.h"
+
+namespace shellwright::internal {
+
+template <typename Row>
+class LazyElementRows {
+ public:
+  // The row of element `z`, made by `make()` (returning a Row) on the
+  // first call for `z`. REQUIRES: 0 <= z <= kMaxAtomicNumber.
+  template <typename Make>
+  const Row& Get(int z, Make make) {
+    absl::call_once(once_[z],
+                    [&] { rows_[z] = std::make_unique<Row>(make()); });
+    return *rows_[z];
+  }
+
+ private:
+  std::array<absl::once_flag, kMaxAtomicNumber + 1> once_;
+  std::array<std::unique_ptr<Row>, kMaxAtomicNumber + 1> rows_;
+};
+
+}  // namespace shellwright::internal
+
+#endif  // SHELLWRIGHT_ENGINE_INTERNAL_LAZY_ELEMENT_ROWS_H_
