@@ -1,5 +1,6 @@
 #include "engine/formula.h"
 
+#include <algorithm>
 #include <array>
 #include <utility>
 
@@ -193,6 +194,12 @@ class FormulaParser {
       text_.remove_suffix(suffix);
       formula.charge = charge;
     }
+    // Every term starts with a capital letter: one allocation each for
+    // the terms and the amounts.
+    const size_t capitals = static_cast<size_t>(
+        std::count_if(text_.begin(), text_.end(), IsUpper));
+    terms_.reserve(capitals);
+    formula.amounts.reserve(capitals);
     std::array<int, kMaxAtomicNumber + 1> slot;
     slot.fill(-1);
     while (true) {
