@@ -34,6 +34,9 @@ struct Tables {
     bool weak = false;  // Every unit has open-shell atoms.
   };
   std::vector<UnitClass> classes;
+  // Indices into `classes` by the atomic number of their signature's
+  // first (lightest) atom, in increasing order.
+  std::array<std::vector<int>, kMaxAtomicNumber + 1> classes_by_first;
   // Written forms by the atomic number of their first element.
   std::array<std::vector<WrittenForm>, kMaxAtomicNumber + 1> forms_by_first;
   std::vector<Ligand> ligands;
@@ -95,6 +98,10 @@ const Tables& GetTables() {
       }
       it->units.push_back(&u);
       it->weak &= u.open_shell_atoms > 0;
+    }
+    for (size_t k = 0; k < t->classes.size(); ++k) {
+      t->classes_by_first[t->classes[k].signature.front().first].push_back(
+          static_cast<int>(k));
     }
     for (Tables::UnitClass& c : t->classes) {
       std::sort(
@@ -172,19 +179,29 @@ const Tables& GetTables() {
   return *kTables;
 }
 
-// The class whose atoms, times `multiplier`, are `signature`, or -1.
+// Whether `value` is `count` times `multiplier`, compared crosswise
+// (no gcd): value.num * multiplier.den == count * multiplier.num *
+// value.den. The parser bounds the parts far below overflow of 128 bits.
+bool IsMultiple(const Rational& value, int count, const Rational& multiplier) {
+  return static_cast<__int128>(value.num()) * multiplier.den() ==
+         static_cast<__int128>(count) * multiplier.num() * value.den();
+}
+
+// The class whose atoms, times `multiplier`, are `signature` (sorted by
+// atomic number), or -1.
 int FindClass(const Tables& t,
               const absl::InlinedVector<std::pair<int, Rational>, 8>& signature,
               const Rational& multiplier) {
-  for (size_t k = 0; k < t.classes.size(); ++k) {
+  if (signature.empty()) return -1;
+  for (const int k : t.classes_by_first[signature.front().first]) {
     const auto& c = t.classes[k].signature;
     if (c.size() != signature.size()) continue;
     bool same = true;
     for (size_t i = 0; i < c.size() && same; ++i) {
       same = c[i].first == signature[i].first &&
-             signature[i].second == Rational(c[i].second) * multiplier;
+             IsMultiple(signature[i].second, c[i].second, multiplier);
     }
-    if (same) return static_cast<int>(k);
+    if (same) return k;
   }
   return -1;
 }
@@ -271,7 +288,7 @@ UnitMatches FindUnitMatches(const Formula& formula) {
   const Tables& t = GetTables();
   UnitMatches matches;
   // Written groups whose contents are a unit's atoms.
-  std::vector<bool> whole(formula.groups.size(), false);
+  absl::InlinedVector<bool, 8> whole(formula.groups.size(), false);
   for (size_t g = 0; g < formula.groups.size(); ++g) {
     const WrittenGroup& group = formula.groups[g];
     absl::InlinedVector<std::pair<int, Rational>, 8> signature;
@@ -338,7 +355,8 @@ UnitMatches FindUnitMatches(const Formula& formula) {
         const WrittenTerm& term = terms[i + k];
         same = term.group == first.group && term.part == first.part &&
                term.element == form.terms[k].first &&
-               term.count == Rational(form.terms[k].second);
+               term.count.IsInteger() &&
+               term.count.num() == form.terms[k].second;
       }
       if (!same) continue;
       // A run that is a whole group was found as the group.
