@@ -415,7 +415,6 @@ class FormulaParser {
   // returns true, or false on error; leaves everything alone when there
   // is none.
   bool ParseVariableCount(size_t start, bool had_number, Rational* count) {
-    std::string name;
     size_t p = pos_;
     int sign = 1;
     Rational factor(1);
@@ -433,6 +432,7 @@ class FormulaParser {
       p = q;
     }
     const size_t var_pos = p;
+    std::string name;
     const size_t len = VariableAt(text_.substr(p), &name);
     if (len == 0) return true;
     // "Cd", "Nd": a lower-case letter that continues an element symbol was

@@ -56,7 +56,10 @@ class Rational {
     return a + Rational(-b.num_, b.den_);
   }
   friend Rational operator*(const Rational& a, const Rational& b) {
+    // Fast paths: integers, and a factor 1 (most multipliers).
     if (a.den_ == 1 && b.den_ == 1) return Integer(a.num_ * b.num_);
+    if (b.num_ == 1 && b.den_ == 1) return a;
+    if (a.num_ == 1 && a.den_ == 1) return b;
     const int64_t g1 = std::gcd(a.num_, b.den_);
     const int64_t g2 = std::gcd(b.num_, a.den_);
     return Rational((a.num_ / (g1 ? g1 : 1)) * (b.num_ / (g2 ? g2 : 1)),

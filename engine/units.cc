@@ -22,6 +22,21 @@ struct WrittenForm {
   int unit_class = 0;
 };
 
+// The atomic numbers of a unit's cation list (Unit::cations): "-" for
+// any, or a comma-separated list of symbols and "s" for the s block.
+std::bitset<kMaxAtomicNumber + 1> AcceptedCations(absl::string_view list) {
+  std::bitset<kMaxAtomicNumber + 1> accepted;
+  if (list == "-") return accepted.set();
+  for (absl::string_view c : absl::StrSplit(list, ',')) {
+    for (const Element& e : AllElements()) {
+      if (c == e.symbol || (c == "s" && e.block == Block::kS)) {
+        accepted.set(e.atomic_number);
+      }
+    }
+  }
+  return accepted;
+}
+
 // The units and everything derived from them, built once.
 struct Tables {
   std::vector<Unit> units;
@@ -57,6 +72,7 @@ const Tables& GetTables() {
       u.unpaired = row.unpaired;
       u.source = row.source;
       u.cations = row.cations;
+      u.accepted_cations = AcceptedCations(u.cations);
       const std::vector<absl::string_view> written =
           absl::StrSplit(row.written, '|');
       u.formula = std::string(written.front());
@@ -250,18 +266,7 @@ std::string Ligand::Name() const {
 }
 
 bool Unit::AcceptsCation(const Element& cation) const {
-  if (cations == "-") return true;
-  // A comma-separated list, scanned in place (this runs in the search).
-  absl::string_view rest = cations;
-  while (!rest.empty()) {
-    const size_t comma = rest.find(',');
-    const absl::string_view c = rest.substr(0, comma);
-    if (c == cation.symbol) return true;
-    if (c == "s" && cation.block == Block::kS) return true;
-    if (comma == absl::string_view::npos) break;
-    rest.remove_prefix(comma + 1);
-  }
-  return false;
+  return accepted_cations[cation.atomic_number];
 }
 
 absl::Span<const Unit> AllUnits() { return GetTables().units; }
