@@ -1,7 +1,7 @@
 #include "engine/formula.h"
 
-#include <algorithm>
 #include <array>
+#include <cstdint>
 #include <utility>
 
 #include "absl/container/inlined_vector.h"
@@ -196,12 +196,13 @@ class FormulaParser {
     }
     // Every term starts with a capital letter: one allocation each for
     // the terms and the amounts.
-    const size_t capitals = static_cast<size_t>(
-        std::count_if(text_.begin(), text_.end(), IsUpper));
+    size_t capitals = 0;
+    for (const char c : text_) capitals += IsUpper(c);
     terms_.reserve(capitals);
     formula.amounts.reserve(capitals);
-    std::array<int, kMaxAtomicNumber + 1> slot;
-    slot.fill(-1);
+    // Each element's place in formula.amounts plus one; 0 before it has one.
+    static_assert(kMaxAtomicNumber < 255);
+    std::array<uint8_t, kMaxAtomicNumber + 1> place{};
     while (true) {
       const size_t part_start = pos_;
       Rational multiplier(1);
@@ -253,7 +254,6 @@ class FormulaParser {
         groups_.resize(first_group);
         items.clear();
       }
-      formula.amounts.reserve(formula.amounts.size() + items.size());
       for (auto& [element, count] : items) {
         if (count.IsZero()) continue;  // "Sr0" once x = 0.
         Rational total;
@@ -261,14 +261,15 @@ class FormulaParser {
           Fail(codes::kCountTooLarge, part_start, "stoichiometry is too large");
           return Failed(error);
         }
-        int& s = slot[element->atomic_number];
-        if (s < 0) {
-          s = static_cast<int>(formula.amounts.size());
+        uint8_t& p = place[element->atomic_number];
+        if (p == 0) {
           formula.amounts.push_back({element, total});
+          p = static_cast<uint8_t>(formula.amounts.size());
         } else {
-          formula.amounts[s].count = formula.amounts[s].count + total;
-          if (formula.amounts[s].count.num() > kMaxExactMagnitude ||
-              formula.amounts[s].count.den() > kMaxExactMagnitude) {
+          Rational& sum = formula.amounts[p - 1].count;
+          sum = sum + total;
+          if (sum.num() > kMaxExactMagnitude ||
+              sum.den() > kMaxExactMagnitude) {
             Fail(codes::kCountTooLarge, part_start,
                  "stoichiometry is too large");
             return Failed(error);
