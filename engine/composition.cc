@@ -984,16 +984,11 @@ CompositionReport Analyze(const CompositionInput& input) {
                         solved->bonding.electronegativity_mean,
                         solved->bonding.electronegativity_difference));
   }
-  const std::vector<AssignedState>& states = r.assignment->states;
-  for (size_t i = 0; i < states.size(); ++i) {
-    const AssignedState& s = states[i];
-    // An element's second free state makes it mixed valence (a third does
-    // not say so again); atoms in units have their own states.
-    int earlier = 0;
-    for (size_t j = 0; j < i && s.unit < 0; ++j) {
-      earlier += states[j].element == s.element && states[j].unit < 0;
-    }
-    if (earlier == 1) {
+  // An element's second free state makes it mixed valence (a third does
+  // not say so again); atoms in units have their own states.
+  std::array<int, kMaxAtomicNumber + 1> free_states{};
+  for (const AssignedState& s : r.assignment->states) {
+    if (s.unit < 0 && ++free_states[s.element->atomic_number] == 2) {
       Add(&r, Severity::kInfo, codes::kMixedValence,
           absl::StrCat(s.element->symbol, " is mixed valence"));
     }

@@ -21,9 +21,12 @@ using internal::QuoteForMessage;
 // exact arithmetic downstream can never overflow.
 constexpr int64_t kMaxExactMagnitude = 1000000000000;  // 1e12
 
-// Inline storage: typical formulas and groups hold a handful of items, and
-// parsing should not allocate for them.
-using Items = absl::InlinedVector<std::pair<const Element*, Rational>, 8>;
+// Typical formulas and groups hold a handful of items or terms.
+constexpr size_t kTypicalTerms = 8;
+
+// Inline storage: parsing should not allocate for typical items.
+using Items =
+    absl::InlinedVector<std::pair<const Element*, Rational>, kTypicalTerms>;
 
 bool CheckedMultiply(const Rational& a, const Rational& b, Rational* out) {
   // Fast paths: most counts are multiplied by 1 or are small integers.
@@ -194,12 +197,9 @@ class FormulaParser {
       text_.remove_suffix(suffix);
       formula.charge = charge;
     }
-    // Every term starts with a capital letter: one allocation each for
-    // the terms and the amounts.
-    size_t capitals = 0;
-    for (const char c : text_) capitals += IsUpper(c);
-    terms_.reserve(capitals);
-    formula.amounts.reserve(capitals);
+    // One allocation each for most formulas' terms and amounts.
+    terms_.reserve(kTypicalTerms);
+    formula.amounts.reserve(kTypicalTerms);
     // Each element's place in formula.amounts plus one; 0 before it has one.
     static_assert(kMaxAtomicNumber < 255);
     std::array<uint8_t, kMaxAtomicNumber + 1> place{};
@@ -497,7 +497,13 @@ class FormulaParser {
       ++digits;
       pos_ += used;
     }
-    if (digits == 0) return ParseVariableCount(start, false, count);
+    if (digits == 0) {
+      // A bare variable ("(...)x") needs a lowercase or non-ASCII letter.
+      const bool letter = pos_ < text_.size() &&
+                          (IsLower(text_[pos_]) ||
+                           static_cast<unsigned char>(text_[pos_]) >= 0x80);
+      return !letter || ParseVariableCount(start, false, count);
+    }
     int64_t frac_num = 0, frac_den = 1;
     int decimals = 0;
     if (!subscript && pos_ < text_.size() && text_[pos_] == '.' &&
@@ -538,7 +544,10 @@ class FormulaParser {
            absl::StrCat("count at column ", Column(start), " is zero"));
       return false;
     }
-    return ParseVariableCount(start, true, count);
+    // A variable after the number needs a sign: "1-x", "7-δ".
+    const bool sign =
+        pos_ < text_.size() && (text_[pos_] == '+' || text_[pos_] == '-');
+    return !sign || ParseVariableCount(start, true, count);
   }
 
   // Parses items until end, a separator, or a closing bracket. A closing
@@ -557,15 +566,16 @@ class FormulaParser {
         }
         absl::string_view symbol = text_.substr(start, end - start);
         const Element* element = FindElementBySymbol(symbol);
-        std::string variable;
-        if (element == nullptr && symbol.size() >= 2 &&
-            VariableAt(symbol.substr(symbol.size() - 1), &variable) == 1 &&
-            FindElementBySymbol(symbol.substr(0, symbol.size() - 1)) !=
-                nullptr) {
-          // "Srx": Sr with count x.
-          symbol.remove_suffix(1);
-          end -= 1;
-          element = FindElementBySymbol(symbol);
+        if (element == nullptr && symbol.size() >= 2) {
+          std::string variable;
+          if (VariableAt(symbol.substr(symbol.size() - 1), &variable) == 1 &&
+              FindElementBySymbol(symbol.substr(0, symbol.size() - 1)) !=
+                  nullptr) {
+            // "Srx": Sr with count x.
+            symbol.remove_suffix(1);
+            end -= 1;
+            element = FindElementBySymbol(symbol);
+          }
         }
         if (element == nullptr && (symbol == "D" || symbol == "T")) {
           element = FindElementBySymbol("H");  // Deuterium, tritium.

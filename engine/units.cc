@@ -359,8 +359,7 @@ UnitMatches FindUnitMatches(const Formula& formula) {
       for (size_t k = 0; k < n && same; ++k) {
         const WrittenTerm& term = terms[i + k];
         same = term.group == first.group && term.part == first.part &&
-               term.element == form.terms[k].first &&
-               term.count.IsInteger() &&
+               term.element == form.terms[k].first && term.count.IsInteger() &&
                term.count.num() == form.terms[k].second;
       }
       if (!same) continue;
