@@ -985,8 +985,9 @@ CompositionReport Analyze(const CompositionInput& input) {
                         solved->bonding.electronegativity_difference));
   }
   // An element's second free state makes it mixed valence (a third does
-  // not say so again); atoms in units have their own states.
-  std::array<int, kMaxAtomicNumber + 1> free_states{};
+  // not say so again); atoms in units have their own states. An element
+  // has a few states at most.
+  std::array<uint8_t, kMaxAtomicNumber + 1> free_states{};
   for (const AssignedState& s : r.assignment->states) {
     if (s.unit < 0 && ++free_states[s.element->atomic_number] == 2) {
       Add(&r, Severity::kInfo, codes::kMixedValence,

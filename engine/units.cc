@@ -351,10 +351,17 @@ UnitMatches FindUnitMatches(const Formula& formula) {
   for (size_t i = 0; i < terms.size(); ++i) {
     const WrittenTerm& first = terms[i];
     if (first.group >= 0 && whole[first.group]) continue;
-    for (const WrittenForm& form :
-         t.forms_by_first[first.element->atomic_number]) {
+    // The forms run from the longest: skip those longer than the terms
+    // left.
+    const std::vector<WrittenForm>& forms =
+        t.forms_by_first[first.element->atomic_number];
+    const size_t left = terms.size() - i;
+    for (auto form_it = std::partition_point(
+             forms.begin(), forms.end(),
+             [left](const WrittenForm& f) { return f.terms.size() > left; });
+         form_it != forms.end(); ++form_it) {
+      const WrittenForm& form = *form_it;
       const size_t n = form.terms.size();
-      if (i + n > terms.size()) continue;
       bool same = true;
       for (size_t k = 0; k < n && same; ++k) {
         const WrittenTerm& term = terms[i + k];
