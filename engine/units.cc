@@ -28,10 +28,12 @@ std::bitset<kMaxAtomicNumber + 1> AcceptedCations(absl::string_view list) {
   std::bitset<kMaxAtomicNumber + 1> accepted;
   if (list == "-") return accepted.set();
   for (absl::string_view c : absl::StrSplit(list, ',')) {
-    for (const Element& e : AllElements()) {
-      if (c == e.symbol || (c == "s" && e.block == Block::kS)) {
-        accepted.set(e.atomic_number);
+    if (c == "s") {
+      for (const Element& e : AllElements()) {
+        if (e.block == Block::kS) accepted.set(e.atomic_number);
       }
+    } else if (const Element* e = FindElementBySymbol(c)) {
+      accepted.set(e->atomic_number);
     }
   }
   return accepted;
@@ -377,11 +379,17 @@ UnitMatches FindUnitMatches(const Formula& formula) {
                                   first.multiplier));
     }
   }
-  std::stable_sort(matches.begin() + groups_found, matches.end(),
-                   [](const UnitMatch& a, const UnitMatch& b) {
-                     return a.end_term - a.first_term >
-                            b.end_term - b.first_term;
-                   });
+  // Longer runs first, runs of one length in written order. No two runs of
+  // one length start at the same term (the forms of an element differ), so
+  // this order is total, and std::sort needs no buffer as std::stable_sort
+  // does.
+  std::sort(matches.begin() + groups_found, matches.end(),
+            [](const UnitMatch& a, const UnitMatch& b) {
+              const int a_length = a.end_term - a.first_term;
+              const int b_length = b.end_term - b.first_term;
+              if (a_length != b_length) return a_length > b_length;
+              return a.first_term < b.first_term;
+            });
   return matches;
 }
 
