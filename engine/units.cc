@@ -59,6 +59,9 @@ struct Tables {
   std::vector<Ligand> ligands;
   std::array<const Ligand*, kMaxAtomicNumber + 1> anion_ligand{};
   std::vector<SpinCrossover> crossover;
+  // Rows of `crossover` by the atomic number of their element.
+  std::array<std::vector<const SpinCrossover*>, kMaxAtomicNumber + 1>
+      crossover_by_z;
 };
 
 const Tables& GetTables() {
@@ -192,6 +195,9 @@ const Tables& GetTables() {
                               row.g, row.f_crossover, row.pairing_cm1,
                               row.source});
     }
+    for (const SpinCrossover& c : t->crossover) {
+      t->crossover_by_z[c.element->atomic_number].push_back(&c);
+    }
     return t;
   }();
   return *kTables;
@@ -285,8 +291,9 @@ const Ligand* FindAnionLigand(const Element& element) {
 }
 
 const SpinCrossover* FindSpinCrossover(const Element& element, int state) {
-  for (const SpinCrossover& c : GetTables().crossover) {
-    if (c.element == &element && c.state == state) return &c;
+  for (const SpinCrossover* c :
+       GetTables().crossover_by_z[element.atomic_number]) {
+    if (c->element == &element && c->state == state) return c;
   }
   return nullptr;
 }
