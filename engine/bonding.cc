@@ -54,6 +54,26 @@ constexpr double kZintlMetalDifference = 0.6;
 // source.
 constexpr int kBoronRichRatio = 4;
 
+// Atoms per formula unit by kind, for the rules that weigh them.
+struct AtomCounts {
+  Rational metal, nonmetal, boride, boron;
+};
+
+AtomCounts CountAtoms(const Formula& formula) {
+  AtomCounts n;
+  for (const ElementAmount& a : formula.amounts) {
+    const Element& e = *a.element;
+    if (IsMetal(e)) {
+      n.metal = n.metal + a.count;
+      continue;
+    }
+    n.nonmetal = n.nonmetal + a.count;
+    if (IsBorideFormer(e)) n.boride = n.boride + a.count;
+    if (e.atomic_number == 5) n.boron = n.boron + a.count;
+  }
+  return n;
+}
+
 }  // namespace
 
 bool IsZintlAnionFormer(const Element& e) {
@@ -68,7 +88,6 @@ BondingClass ClassifyBonding(const Formula& formula) {
   double weighted = 0, atoms_with_value = 0;
   double most = 0, least = 0;
   bool first = true;
-  Rational metal_atoms, nonmetal_atoms, boride_atoms, boron_atoms;
   bool all_metal = true, anion_former = false, s_block = false;
   bool divalent_rare_earth = false, other_transition = false;
   bool group3_f_only = true, all_nonmetals_zintl = true;
@@ -85,7 +104,6 @@ BondingClass ClassifyBonding(const Formula& formula) {
       first = false;
     }
     if (IsMetal(e)) {
-      metal_atoms = metal_atoms + a.count;
       s_block |= IsAlkaliOrAlkalineEarth(e);
       if (IsDivalentRareEarth(e)) {
         divalent_rare_earth = true;
@@ -95,12 +113,9 @@ BondingClass ClassifyBonding(const Formula& formula) {
       }
     } else {
       all_metal = false;
-      nonmetal_atoms = nonmetal_atoms + a.count;
       anion_former |= IsAnionFormer(e);
       all_nonmetals_zintl &= IsZintlAnionFormer(e);
       hydrogen_only &= e.atomic_number == 1;
-      if (IsBorideFormer(e)) boride_atoms = boride_atoms + a.count;
-      if (e.atomic_number == 5) boron_atoms = boron_atoms + a.count;
     }
   }
   if (atoms_with_value > 0) {
@@ -137,10 +152,10 @@ BondingClass ClassifyBonding(const Formula& formula) {
     return c;
   }
   if (other_transition) {
+    const AtomCounts n = CountAtoms(formula);
     // Borides, silicides and germanides, unless boron sits in a
     // borohydride or the like (more other non-metal atoms than B, Si, Ge).
-    if (!boride_atoms.IsZero() &&
-        !(boride_atoms < nonmetal_atoms - boride_atoms)) {
+    if (!n.boride.IsZero() && !(n.boride < n.nonmetal - n.boride)) {
       c.kind = CompositionKind::kIntermetallic;
       c.rule =
           "a transition or rare-earth metal with boron, silicon or "
@@ -154,7 +169,7 @@ BondingClass ClassifyBonding(const Formula& formula) {
     // lanthanides up to the dihydride (LaH2, YH2); their trihydrides (LaH3,
     // YH3) are salt-like, and Mg2FeH6 holds [FeH6]4- anions.
     if (hydrogen_only && !s_block &&
-        (!group3_f_only || nonmetal_atoms < Rational(3) * metal_atoms)) {
+        (!group3_f_only || n.nonmetal < Rational(3) * n.metal)) {
       c.kind = CompositionKind::kIntermetallic;
       c.rule = "a d- or f-block metal hydride: interstitial, metallic";
       return c;
@@ -164,8 +179,7 @@ BondingClass ClassifyBonding(const Formula& formula) {
     // monopnictides and mononitrides (GdN, LaSb, ScN) are ionic rock-salt
     // compounds: with those metals alone the composition must be strictly
     // metal-rich.
-    if (group3_f_only ? nonmetal_atoms < metal_atoms
-                      : !(metal_atoms < nonmetal_atoms)) {
+    if (group3_f_only ? n.nonmetal < n.metal : !(n.metal < n.nonmetal)) {
       c.kind = CompositionKind::kIntermetallic;
       c.rule =
           "metal-rich: an interstitial carbide, nitride, hydride or "
@@ -177,7 +191,8 @@ BondingClass ClassifyBonding(const Formula& formula) {
     return c;
   }
   if ((s_block || divalent_rare_earth) && all_nonmetals_zintl) {
-    if (!(boron_atoms < Rational(kBoronRichRatio) * metal_atoms)) {
+    const AtomCounts n = CountAtoms(formula);
+    if (!(n.boron < Rational(kBoronRichRatio) * n.metal)) {
       c.kind = CompositionKind::kIntermetallic;
       c.rule = "a boron-rich boride";
       return c;

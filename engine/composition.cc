@@ -750,7 +750,11 @@ double CurieConstantPerMomentSquared() {
   return kAvogadro * kBohrMagneton * kBohrMagneton / (3.0 * kBoltzmann);
 }
 
-CompositionReport AnalyzeComposition(const CompositionInput& input) {
+namespace {
+
+// AnalyzeComposition without `valid`. Every return returns `r`, which the
+// compiler then builds in the caller's place (no move of the report).
+CompositionReport Analyze(const CompositionInput& input) {
   CompositionReport r;
   r.diagnostics.reserve(4);  // Enough for most records.
   r.id = input.id;
@@ -760,13 +764,6 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
         absl::StrCat("id is ", input.id.size(), " bytes, above the limit of ",
                      kMaxRecordIdLength, "; truncated"));
   }
-  auto finish = [&r]() -> CompositionReport {
-    r.valid = true;
-    for (const Diagnostic& d : r.diagnostics) {
-      if (d.severity == Severity::kError) r.valid = false;
-    }
-    return std::move(r);
-  };
 
   FormulaOptions formula_options;
   if (!input.variables.empty()) {
@@ -775,7 +772,7 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     if (!variables.ok()) {
       Add(&r, Severity::kError, codes::kMalformedVariables,
           std::string(variables.status().message()));
-      return finish();
+      return r;
     }
     formula_options.variables = *std::move(variables);
   }
@@ -787,7 +784,7 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
         absl::StrCat("formula ", QuoteForMessage(input.formula), ": ",
                      issue.message),
         issue.column);
-    return finish();
+    return r;
   }
   for (FormulaIssue& w : formula->warnings) {  // Not needed again.
     Add(&r, Severity::kWarning, std::move(w.code), std::move(w.message),
@@ -806,7 +803,7 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
                        " carries charge ", *formula->charge > 0 ? "+" : "",
                        *formula->charge, " but the record's charge is ",
                        *net_charge > 0 ? "+" : "", *net_charge));
-      return finish();
+      return r;
     }
     net_charge = formula->charge;
   }
@@ -888,7 +885,7 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
     options.declared.push_back({e, state});
   }
   for (const Diagnostic& d : r.diagnostics) {
-    if (d.severity == Severity::kError) return finish();
+    if (d.severity == Severity::kError) return r;
   }
 
   absl::StatusOr<OxidationResult> solved =
@@ -899,7 +896,7 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
             ? codes::kSearchBudgetExceeded
             : codes::kChargeNotBalanced,
         std::string(solved.status().message()));
-    return finish();
+    return r;
   }
   if (solved->one_mixed_search) {
     Add(&r, Severity::kInfo, codes::kMixedValenceSearchLimited,
@@ -925,7 +922,7 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
           absl::StrCat("no combination of known oxidation states balances ",
                        input.formula, " to net charge ", options.net_charge));
     }
-    return finish();
+    return r;
   }
   if (!options.declared.empty()) {
     // Declared states that force otherwise-avoidable uncommon states on the
@@ -947,7 +944,7 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
               "the declared states balance ", input.formula,
               " only with uncommon states (", AssignmentText(*solved->best),
               "); without them: ", AssignmentText(*unconstrained->best)));
-      return finish();
+      return r;
     }
   }
   r.assignment = std::move(solved->best);
@@ -976,16 +973,12 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
                         solved->bonding.electronegativity_mean,
                         solved->bonding.electronegativity_difference));
   }
-  const std::vector<AssignedState>& states = r.assignment->states;
-  for (size_t i = 0; i < states.size(); ++i) {
-    const AssignedState& s = states[i];
-    // An element's second free state makes it mixed valence (a third does
-    // not say so again); atoms in units have their own states.
-    int earlier = 0;
-    for (size_t j = 0; j < i && s.unit < 0; ++j) {
-      earlier += states[j].element == s.element && states[j].unit < 0;
-    }
-    if (earlier == 1) {
+  // An element's second free state makes it mixed valence (a third does
+  // not say so again); atoms in units have their own states. An element
+  // has a few states at most.
+  std::array<uint8_t, kMaxAtomicNumber + 1> free_states{};
+  for (const AssignedState& s : r.assignment->states) {
+    if (s.unit < 0 && ++free_states[s.element->atomic_number] == 2) {
       Add(&r, Severity::kInfo, codes::kMixedValence,
           absl::StrCat(s.element->symbol, " is mixed valence"));
     }
@@ -1019,7 +1012,18 @@ CompositionReport AnalyzeComposition(const CompositionInput& input) {
   }
 
   CheckMeasuredMoments(input, &r);
-  return finish();
+  return r;
+}
+
+}  // namespace
+
+CompositionReport AnalyzeComposition(const CompositionInput& input) {
+  CompositionReport r = Analyze(input);
+  r.valid = true;
+  for (const Diagnostic& d : r.diagnostics) {
+    if (d.severity == Severity::kError) r.valid = false;
+  }
+  return r;
 }
 
 }  // namespace shellwright

@@ -1,6 +1,7 @@
 #include "engine/formula.h"
 
 #include <array>
+#include <cstdint>
 #include <utility>
 
 #include "absl/container/inlined_vector.h"
@@ -20,9 +21,12 @@ using internal::QuoteForMessage;
 // exact arithmetic downstream can never overflow.
 constexpr int64_t kMaxExactMagnitude = 1000000000000;  // 1e12
 
-// Inline storage: typical formulas and groups hold a handful of items, and
-// parsing should not allocate for them.
-using Items = absl::InlinedVector<std::pair<const Element*, Rational>, 8>;
+// Typical formulas and groups hold a handful of items or terms.
+constexpr size_t kTypicalTerms = 8;
+
+// Inline storage: parsing should not allocate for typical items.
+using Items =
+    absl::InlinedVector<std::pair<const Element*, Rational>, kTypicalTerms>;
 
 bool CheckedMultiply(const Rational& a, const Rational& b, Rational* out) {
   // Fast paths: most counts are multiplied by 1 or are small integers.
@@ -193,8 +197,12 @@ class FormulaParser {
       text_.remove_suffix(suffix);
       formula.charge = charge;
     }
-    std::array<int, kMaxAtomicNumber + 1> slot;
-    slot.fill(-1);
+    // One allocation each for most formulas' terms and amounts.
+    terms_.reserve(kTypicalTerms);
+    formula.amounts.reserve(kTypicalTerms);
+    // Each element's place in formula.amounts plus one; 0 before it has one.
+    static_assert(kMaxAtomicNumber < 255);
+    std::array<uint8_t, kMaxAtomicNumber + 1> place{};
     while (true) {
       const size_t part_start = pos_;
       Rational multiplier(1);
@@ -246,7 +254,6 @@ class FormulaParser {
         groups_.resize(first_group);
         items.clear();
       }
-      formula.amounts.reserve(formula.amounts.size() + items.size());
       for (auto& [element, count] : items) {
         if (count.IsZero()) continue;  // "Sr0" once x = 0.
         Rational total;
@@ -254,14 +261,15 @@ class FormulaParser {
           Fail(codes::kCountTooLarge, part_start, "stoichiometry is too large");
           return Failed(error);
         }
-        int& s = slot[element->atomic_number];
-        if (s < 0) {
-          s = static_cast<int>(formula.amounts.size());
+        uint8_t& p = place[element->atomic_number];
+        if (p == 0) {
           formula.amounts.push_back({element, total});
+          p = static_cast<uint8_t>(formula.amounts.size());
         } else {
-          formula.amounts[s].count = formula.amounts[s].count + total;
-          if (formula.amounts[s].count.num() > kMaxExactMagnitude ||
-              formula.amounts[s].count.den() > kMaxExactMagnitude) {
+          Rational& sum = formula.amounts[p - 1].count;
+          sum = sum + total;
+          if (sum.num() > kMaxExactMagnitude ||
+              sum.den() > kMaxExactMagnitude) {
             Fail(codes::kCountTooLarge, part_start,
                  "stoichiometry is too large");
             return Failed(error);
@@ -408,7 +416,6 @@ class FormulaParser {
   // returns true, or false on error; leaves everything alone when there
   // is none.
   bool ParseVariableCount(size_t start, bool had_number, Rational* count) {
-    std::string name;
     size_t p = pos_;
     int sign = 1;
     Rational factor(1);
@@ -426,6 +433,7 @@ class FormulaParser {
       p = q;
     }
     const size_t var_pos = p;
+    std::string name;
     const size_t len = VariableAt(text_.substr(p), &name);
     if (len == 0) return true;
     // "Cd", "Nd": a lower-case letter that continues an element symbol was
@@ -489,7 +497,13 @@ class FormulaParser {
       ++digits;
       pos_ += used;
     }
-    if (digits == 0) return ParseVariableCount(start, false, count);
+    if (digits == 0) {
+      // A bare variable ("(...)x") needs a lowercase or non-ASCII letter.
+      const bool letter = pos_ < text_.size() &&
+                          (IsLower(text_[pos_]) ||
+                           static_cast<unsigned char>(text_[pos_]) >= 0x80);
+      return !letter || ParseVariableCount(start, false, count);
+    }
     int64_t frac_num = 0, frac_den = 1;
     int decimals = 0;
     if (!subscript && pos_ < text_.size() && text_[pos_] == '.' &&
@@ -530,7 +544,10 @@ class FormulaParser {
            absl::StrCat("count at column ", Column(start), " is zero"));
       return false;
     }
-    return ParseVariableCount(start, true, count);
+    // A variable after the number needs a sign: "1-x", "7-δ".
+    const bool sign =
+        pos_ < text_.size() && (text_[pos_] == '+' || text_[pos_] == '-');
+    return !sign || ParseVariableCount(start, true, count);
   }
 
   // Parses items until end, a separator, or a closing bracket. A closing
@@ -549,15 +566,16 @@ class FormulaParser {
         }
         absl::string_view symbol = text_.substr(start, end - start);
         const Element* element = FindElementBySymbol(symbol);
-        std::string variable;
-        if (element == nullptr && symbol.size() >= 2 &&
-            VariableAt(symbol.substr(symbol.size() - 1), &variable) == 1 &&
-            FindElementBySymbol(symbol.substr(0, symbol.size() - 1)) !=
-                nullptr) {
-          // "Srx": Sr with count x.
-          symbol.remove_suffix(1);
-          end -= 1;
-          element = FindElementBySymbol(symbol);
+        if (element == nullptr && symbol.size() >= 2) {
+          std::string variable;
+          if (VariableAt(symbol.substr(symbol.size() - 1), &variable) == 1 &&
+              FindElementBySymbol(symbol.substr(0, symbol.size() - 1)) !=
+                  nullptr) {
+            // "Srx": Sr with count x.
+            symbol.remove_suffix(1);
+            end -= 1;
+            element = FindElementBySymbol(symbol);
+          }
         }
         if (element == nullptr && (symbol == "D" || symbol == "T")) {
           element = FindElementBySymbol("H");  // Deuterium, tritium.

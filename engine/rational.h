@@ -43,6 +43,11 @@ class Rational {
   // The callers keep magnitudes far below overflow: counts are bounded by
   // the formula parser (see formula.h).
   friend Rational operator+(const Rational& a, const Rational& b) {
+    // Fast paths for the common cases, which need no gcd of denominators.
+    if (a.den_ == b.den_) {
+      return a.den_ == 1 ? Integer(a.num_ + b.num_)
+                         : Rational(a.num_ + b.num_, a.den_);
+    }
     const int64_t g = std::gcd(a.den_, b.den_);
     return Rational(a.num_ * (b.den_ / g) + b.num_ * (a.den_ / g),
                     a.den_ / g * b.den_);
@@ -51,6 +56,10 @@ class Rational {
     return a + Rational(-b.num_, b.den_);
   }
   friend Rational operator*(const Rational& a, const Rational& b) {
+    // Fast paths: integers, and a factor 1 (most multipliers).
+    if (a.den_ == 1 && b.den_ == 1) return Integer(a.num_ * b.num_);
+    if (b.num_ == 1 && b.den_ == 1) return a;
+    if (a.num_ == 1 && a.den_ == 1) return b;
     const int64_t g1 = std::gcd(a.num_, b.den_);
     const int64_t g2 = std::gcd(b.num_, a.den_);
     return Rational((a.num_ / (g1 ? g1 : 1)) * (b.num_ / (g2 ? g2 : 1)),
@@ -68,7 +77,15 @@ class Rational {
   }
 
  private:
+  // An integer, already in lowest terms: no gcd to take.
+  static Rational Integer(int64_t n) {
+    Rational r;
+    r.num_ = n;
+    return r;
+  }
+
   void Reduce() {
+    if (den_ == 1) return;  // Integers, most counts: nothing to reduce.
     if (den_ < 0) {
       num_ = -num_;
       den_ = -den_;

@@ -22,6 +22,23 @@ struct WrittenForm {
   int unit_class = 0;
 };
 
+// The atomic numbers of a unit's cation list (Unit::cations): "-" for
+// any, or a comma-separated list of symbols and "s" for the s block.
+std::bitset<kMaxAtomicNumber + 1> AcceptedCations(absl::string_view list) {
+  std::bitset<kMaxAtomicNumber + 1> accepted;
+  if (list == "-") return accepted.set();
+  for (absl::string_view c : absl::StrSplit(list, ',')) {
+    if (c == "s") {
+      for (const Element& e : AllElements()) {
+        if (e.block == Block::kS) accepted.set(e.atomic_number);
+      }
+    } else if (const Element* e = FindElementBySymbol(c)) {
+      accepted.set(e->atomic_number);
+    }
+  }
+  return accepted;
+}
+
 // The units and everything derived from them, built once.
 struct Tables {
   std::vector<Unit> units;
@@ -34,11 +51,17 @@ struct Tables {
     bool weak = false;  // Every unit has open-shell atoms.
   };
   std::vector<UnitClass> classes;
+  // Indices into `classes` by the atomic number of their signature's
+  // first (lightest) atom, in increasing order.
+  std::array<std::vector<int>, kMaxAtomicNumber + 1> classes_by_first;
   // Written forms by the atomic number of their first element.
   std::array<std::vector<WrittenForm>, kMaxAtomicNumber + 1> forms_by_first;
   std::vector<Ligand> ligands;
   std::array<const Ligand*, kMaxAtomicNumber + 1> anion_ligand{};
   std::vector<SpinCrossover> crossover;
+  // Rows of `crossover` by the atomic number of their element.
+  std::array<std::vector<const SpinCrossover*>, kMaxAtomicNumber + 1>
+      crossover_by_z;
 };
 
 const Tables& GetTables() {
@@ -54,6 +77,7 @@ const Tables& GetTables() {
       u.unpaired = row.unpaired;
       u.source = row.source;
       u.cations = row.cations;
+      u.accepted_cations = AcceptedCations(u.cations);
       const std::vector<absl::string_view> written =
           absl::StrSplit(row.written, '|');
       u.formula = std::string(written.front());
@@ -95,6 +119,10 @@ const Tables& GetTables() {
       }
       it->units.push_back(&u);
       it->weak &= u.open_shell_atoms > 0;
+    }
+    for (size_t k = 0; k < t->classes.size(); ++k) {
+      t->classes_by_first[t->classes[k].signature.front().first].push_back(
+          static_cast<int>(k));
     }
     for (Tables::UnitClass& c : t->classes) {
       std::sort(
@@ -167,24 +195,37 @@ const Tables& GetTables() {
                               row.g, row.f_crossover, row.pairing_cm1,
                               row.source});
     }
+    for (const SpinCrossover& c : t->crossover) {
+      t->crossover_by_z[c.element->atomic_number].push_back(&c);
+    }
     return t;
   }();
   return *kTables;
 }
 
-// The class whose atoms, times `multiplier`, are `signature`, or -1.
+// Whether `value` is `count` times `multiplier`, compared crosswise
+// (no gcd): value.num * multiplier.den == count * multiplier.num *
+// value.den. The parser bounds the parts far below overflow of 128 bits.
+bool IsMultiple(const Rational& value, int count, const Rational& multiplier) {
+  return static_cast<__int128>(value.num()) * multiplier.den() ==
+         static_cast<__int128>(count) * multiplier.num() * value.den();
+}
+
+// The class whose atoms, times `multiplier`, are `signature` (sorted by
+// atomic number), or -1.
 int FindClass(const Tables& t,
               const absl::InlinedVector<std::pair<int, Rational>, 8>& signature,
               const Rational& multiplier) {
-  for (size_t k = 0; k < t.classes.size(); ++k) {
+  if (signature.empty()) return -1;
+  for (const int k : t.classes_by_first[signature.front().first]) {
     const auto& c = t.classes[k].signature;
     if (c.size() != signature.size()) continue;
     bool same = true;
     for (size_t i = 0; i < c.size() && same; ++i) {
       same = c[i].first == signature[i].first &&
-             signature[i].second == Rational(c[i].second) * multiplier;
+             IsMultiple(signature[i].second, c[i].second, multiplier);
     }
-    if (same) return static_cast<int>(k);
+    if (same) return k;
   }
   return -1;
 }
@@ -233,18 +274,7 @@ std::string Ligand::Name() const {
 }
 
 bool Unit::AcceptsCation(const Element& cation) const {
-  if (cations == "-") return true;
-  // A comma-separated list, scanned in place (this runs in the search).
-  absl::string_view rest = cations;
-  while (!rest.empty()) {
-    const size_t comma = rest.find(',');
-    const absl::string_view c = rest.substr(0, comma);
-    if (c == cation.symbol) return true;
-    if (c == "s" && cation.block == Block::kS) return true;
-    if (comma == absl::string_view::npos) break;
-    rest.remove_prefix(comma + 1);
-  }
-  return false;
+  return accepted_cations[cation.atomic_number];
 }
 
 absl::Span<const Unit> AllUnits() { return GetTables().units; }
@@ -261,8 +291,9 @@ const Ligand* FindAnionLigand(const Element& element) {
 }
 
 const SpinCrossover* FindSpinCrossover(const Element& element, int state) {
-  for (const SpinCrossover& c : GetTables().crossover) {
-    if (c.element == &element && c.state == state) return &c;
+  for (const SpinCrossover* c :
+       GetTables().crossover_by_z[element.atomic_number]) {
+    if (c->element == &element && c->state == state) return c;
   }
   return nullptr;
 }
@@ -271,7 +302,7 @@ UnitMatches FindUnitMatches(const Formula& formula) {
   const Tables& t = GetTables();
   UnitMatches matches;
   // Written groups whose contents are a unit's atoms.
-  std::vector<bool> whole(formula.groups.size(), false);
+  absl::InlinedVector<bool, 8> whole(formula.groups.size(), false);
   for (size_t g = 0; g < formula.groups.size(); ++g) {
     const WrittenGroup& group = formula.groups[g];
     absl::InlinedVector<std::pair<int, Rational>, 8> signature;
@@ -329,16 +360,23 @@ UnitMatches FindUnitMatches(const Formula& formula) {
   for (size_t i = 0; i < terms.size(); ++i) {
     const WrittenTerm& first = terms[i];
     if (first.group >= 0 && whole[first.group]) continue;
-    for (const WrittenForm& form :
-         t.forms_by_first[first.element->atomic_number]) {
+    // The forms run from the longest: skip those longer than the terms
+    // left.
+    const std::vector<WrittenForm>& forms =
+        t.forms_by_first[first.element->atomic_number];
+    const size_t left = terms.size() - i;
+    for (auto form_it = std::partition_point(
+             forms.begin(), forms.end(),
+             [left](const WrittenForm& f) { return f.terms.size() > left; });
+         form_it != forms.end(); ++form_it) {
+      const WrittenForm& form = *form_it;
       const size_t n = form.terms.size();
-      if (i + n > terms.size()) continue;
       bool same = true;
       for (size_t k = 0; k < n && same; ++k) {
         const WrittenTerm& term = terms[i + k];
         same = term.group == first.group && term.part == first.part &&
-               term.element == form.terms[k].first &&
-               term.count == Rational(form.terms[k].second);
+               term.element == form.terms[k].first && term.count.IsInteger() &&
+               term.count.num() == form.terms[k].second;
       }
       if (!same) continue;
       // A run that is a whole group was found as the group.
@@ -348,11 +386,17 @@ UnitMatches FindUnitMatches(const Formula& formula) {
                                   first.multiplier));
     }
   }
-  std::stable_sort(matches.begin() + groups_found, matches.end(),
-                   [](const UnitMatch& a, const UnitMatch& b) {
-                     return a.end_term - a.first_term >
-                            b.end_term - b.first_term;
-                   });
+  // Longer runs first, runs of one length in written order. No two runs of
+  // one length start at the same term (the forms of an element differ), so
+  // this order is total, and std::sort needs no buffer as std::stable_sort
+  // does.
+  std::sort(matches.begin() + groups_found, matches.end(),
+            [](const UnitMatch& a, const UnitMatch& b) {
+              const int a_length = a.end_term - a.first_term;
+              const int b_length = b.end_term - b.first_term;
+              if (a_length != b_length) return a_length > b_length;
+              return a.first_term < b.first_term;
+            });
   return matches;
 }
 

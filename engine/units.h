@@ -34,6 +34,7 @@
 #ifndef SHELLWRIGHT_ENGINE_UNITS_H_
 #define SHELLWRIGHT_ENGINE_UNITS_H_
 
+#include <bitset>
 #include <string>
 #include <vector>
 
@@ -76,6 +77,9 @@ struct Unit {
   // cations it is met with (data/units.tsv, column 'cations').
   bool AcceptsCation(const Element& cation) const;
   std::string cations;  // "-" for any.
+  // `cations` as atomic numbers, read with the tables: every element for
+  // "-", every s-block element for "s".
+  std::bitset<kMaxAtomicNumber + 1> accepted_cations;
 };
 
 // A ligand: a unit or a monatomic anion, with its place in the

@@ -2,6 +2,7 @@
 
 #include "engine/rational.h"
 
+#include <numeric>
 #include <random>
 
 #include "gtest/gtest.h"
@@ -41,6 +42,36 @@ TEST(Rational, ArithmeticIsExact) {
   EXPECT_EQ(Rational(7, 10) * Rational(2), Rational(7, 5));
   EXPECT_EQ(Rational(-2, 3) * Rational(9, 4), Rational(-3, 2));
   EXPECT_EQ(Rational(0) * Rational(5, 7), Rational(0));
+}
+
+TEST(Rational, FastPathsKeepLowestTerms) {
+  // Equal denominators, integers and a factor 1 skip the general gcd.
+  EXPECT_EQ(Rational(1, 4) + Rational(1, 4), Rational(1, 2));
+  EXPECT_EQ((Rational(1, 4) + Rational(1, 4)).den(), 2);
+  EXPECT_EQ(Rational(1, 6) + Rational(5, 6), Rational(1));
+  EXPECT_EQ((Rational(-1, 4) + Rational(1, 4)).den(), 1);
+  EXPECT_EQ(Rational(3) + Rational(-5), Rational(-2));
+  EXPECT_EQ(Rational(-3) * Rational(4), Rational(-12));
+  EXPECT_EQ(Rational(7, 10) * Rational(1), Rational(7, 10));
+  EXPECT_EQ(Rational(1) * Rational(-2, 6), Rational(-1, 3));
+  // Small denominators take the fast paths often: the results must be
+  // the values, in lowest terms, that integer arithmetic gives.
+  std::mt19937 rng(7);
+  std::uniform_int_distribution<int64_t> num(-12, 12), den(1, 4);
+  for (int i = 0; i < 2000; ++i) {
+    const int64_t a = num(rng), b = den(rng), c = num(rng), d = den(rng);
+    for (const Rational& r :
+         {Rational(a, b) + Rational(c, d), Rational(a, b) * Rational(c, d)}) {
+      EXPECT_GT(r.den(), 0);
+      // Lowest terms (zero as 0/1, since gcd(0, d) is d).
+      EXPECT_EQ(std::gcd(r.num() < 0 ? -r.num() : r.num(), r.den()), 1)
+          << r.ToString();
+    }
+    const Rational sum = Rational(a, b) + Rational(c, d);
+    EXPECT_EQ(sum.num() * (b * d), (a * d + c * b) * sum.den());
+    const Rational product = Rational(a, b) * Rational(c, d);
+    EXPECT_EQ(product.num() * (b * d), (a * c) * product.den());
+  }
 }
 
 TEST(Rational, OrdersByValue) {
