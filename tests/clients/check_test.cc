@@ -372,6 +372,23 @@ TEST_F(CheckTest, RegressionSummaryGroupsCodesBySeverity) {
   EXPECT_THAT(r.err, HasSubstr("Caution"));
 }
 
+TEST_F(CheckTest, RepeatedIdsPastTheRememberedRowsAreStillFound) {
+  // Rows count from the header line. The repeated-id check keeps a hash
+  // of every id but the first row only of the first 65,536: a later id's
+  // repeat is found and counted, and its warning names no row.
+  std::string csv = "id,formula\n";
+  for (int i = 0; i < 70000; ++i) csv += "u" + std::to_string(i) + ",MgO\n";
+  csv += "u5,MgO\nu69000,MgO\n";
+  WriteFile(Path("many.csv"), csv);
+  CommandResult r = Check(
+      {Path("many.csv"), "--out", Path("many.csv.jsonl"), "--fields", "valid"});
+  EXPECT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("row 70002: id 'u5' repeats the id of row 7"));
+  EXPECT_THAT(r.err, HasSubstr("row 70003: id 'u69000' repeats the id of an "
+                               "earlier row"));
+  EXPECT_THAT(r.err, ContainsRegex("duplicate_id +2"));
+}
+
 TEST_F(CheckTest, RegressionRecordWarningsReachReportsAndSummary) {
   // Issue 16: unknown keys and columns were ignored in silence, and
   // repeated ids went unflagged.
