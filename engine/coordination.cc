@@ -176,6 +176,14 @@ IonEnvironment FindEnvironment(const Formula& formula,
     env.geometry = (d == 8 && (n >= 4 || env.f >= 1.5)) || d == 9
                        ? Geometry::kSquarePlanar
                        : Geometry::kTetrahedral;
+  } else if (cn == 0 && complex < 0 && d == 8 && n >= 4 &&
+             !(env.ligand != nullptr && env.ligand->anion != nullptr &&
+               env.ligand->anion->atomic_number == 9)) {
+    // 4d and 5d d8 ions are square planar and diamagnetic whatever the
+    // formula shows: PdCl2, PdO, PtS, AuCl3 (Au2Cl6), but PdF2 is
+    // octahedral and paramagnetic (Greenwood and Earnshaw, Chemistry of
+    // the Elements, 2nd ed., chs. 27 and 28, from memory).
+    env.geometry = Geometry::kSquarePlanar;
   } else if (complex < 0 && (e.group == 5 || e.group == 6) &&
              (d == 1 || d == 2) && assignment.units.empty()) {
     // MX2 layers of group 5 and 6 chalcogenides (MoS2, NbSe2).
