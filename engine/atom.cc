@@ -3,9 +3,9 @@
 #include <array>
 #include <cmath>
 #include <memory>
+#include <mutex>
 #include <utility>
 
-#include "absl/base/call_once.h"
 #include "absl/strings/match.h"
 #include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
@@ -297,20 +297,21 @@ AtomDescriptionPtr Build(const Element& element, int charge,
 // table is some 150 KB, which a one-record process would zero page by
 // page.
 //
-// The caches here guard their slots with absl::call_once, which returns
-// after one inline load once a slot is built (std::call_once enters
-// pthread_once on every call, and every record asks for several ions).
+// The slots are guarded by std::call_once, not absl::call_once: the
+// latter is cheaper once a slot is built, but its waiting path runs in
+// the uninstrumented Abseil library, so ThreadSanitizer cannot see the
+// ordering and reports the first reads of a slot as races.
 class DescriptionCache {
  public:
   // REQUIRES: -kMaxAnionCharge <= charge <= e.atomic_number.
   const AtomDescriptionPtr& Get(const Element& e, int charge) {
     const int z = e.atomic_number;
-    absl::call_once(element_once_[z], [&] {
+    std::call_once(element_once_[z], [&] {
       rows_[z] = std::make_unique<Entry[]>(z + kMaxAnionCharge + 1);
     });
     Entry& entry = rows_[z][charge + kMaxAnionCharge];
     // Each slot is written once, by the call_once that guards it.
-    absl::call_once(entry.built, [&] {
+    std::call_once(entry.built, [&] {
       absl::StatusOr<Configuration> c = IonConfiguration(z, charge);
       if (!c.ok()) return;
       entry.description = Build(e, charge, *c, /*user_supplied=*/false,
@@ -321,10 +322,10 @@ class DescriptionCache {
 
  private:
   struct Entry {
-    absl::once_flag built;
+    std::once_flag built;
     AtomDescriptionPtr description;
   };
-  std::array<absl::once_flag, kMaxAtomicNumber + 1> element_once_;
+  std::array<std::once_flag, kMaxAtomicNumber + 1> element_once_;
   std::array<std::unique_ptr<Entry[]>, kMaxAtomicNumber + 1> rows_;
 };
 
@@ -354,7 +355,7 @@ class LigandFieldCache {
     }
     PerElement& slot = Element(e.atomic_number);
     const int i = Index(charge, g, s);
-    absl::call_once(slot.built[i], [&] {
+    std::call_once(slot.built[i], [&] {
       absl::StatusOr<Configuration> c =
           IonConfiguration(e.atomic_number, charge);
       if (c.ok()) {
@@ -375,7 +376,7 @@ class LigandFieldCache {
   static constexpr int kEntries = kCharges * kGeometries * kSpins;
   // Each entry is built on first use, under its own flag.
   struct PerElement {
-    std::array<absl::once_flag, kEntries> built;
+    std::array<std::once_flag, kEntries> built;
     std::array<AtomDescriptionPtr, kEntries> entries;
   };
 
@@ -389,12 +390,12 @@ class LigandFieldCache {
   // them take some 0.4 MB, which a one-record process would spend most of
   // its start zeroing (docs/performance.md).
   PerElement& Element(int z) {
-    absl::call_once(made_[z],
-                    [&] { elements_[z] = std::make_unique<PerElement>(); });
+    std::call_once(made_[z],
+                   [&] { elements_[z] = std::make_unique<PerElement>(); });
     return *elements_[z];
   }
 
-  std::array<absl::once_flag, kMaxAtomicNumber + 1> made_;
+  std::array<std::once_flag, kMaxAtomicNumber + 1> made_;
   std::array<std::unique_ptr<PerElement>, kMaxAtomicNumber + 1> elements_;
 };
 

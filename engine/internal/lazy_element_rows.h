@@ -10,15 +10,15 @@
 //       kSquares->Get(26, [] { return std::array<int, 3>{0, 1, 4}; });
 //
 // Thread safety: Get may be called from any thread; `make` runs once per
-// element, and a row once made costs one atomic load (absl::call_once).
+// element (std::call_once; see engine/atom.cc for why not absl::call_once).
 
 #ifndef SHELLWRIGHT_ENGINE_INTERNAL_LAZY_ELEMENT_ROWS_H_
 #define SHELLWRIGHT_ENGINE_INTERNAL_LAZY_ELEMENT_ROWS_H_
 
 #include <array>
 #include <memory>
+#include <mutex>
 
-#include "absl/base/call_once.h"
 #include "engine/element.h"
 
 namespace shellwright::internal {
@@ -30,13 +30,12 @@ class LazyElementRows {
   // first call for `z`. REQUIRES: 0 <= z <= kMaxAtomicNumber.
   template <typename Make>
   const Row& Get(int z, Make make) {
-    absl::call_once(once_[z],
-                    [&] { rows_[z] = std::make_unique<Row>(make()); });
+    std::call_once(once_[z], [&] { rows_[z] = std::make_unique<Row>(make()); });
     return *rows_[z];
   }
 
  private:
-  std::array<absl::once_flag, kMaxAtomicNumber + 1> once_;
+  std::array<std::once_flag, kMaxAtomicNumber + 1> once_;
   std::array<std::unique_ptr<Row>, kMaxAtomicNumber + 1> rows_;
 };
 
