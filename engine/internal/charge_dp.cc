@@ -19,11 +19,11 @@ struct SparseEntry {
 
 // Totals reached by single-valence choices: maps[i] holds those of the
 // layers before i (a forward run) or from i on (a backward run), each with
-// the lightest way to it. `depth` maps are in use; the vectors beyond keep
-// their capacity for the next search.
+// the lightest way to it. A sweep fills as many maps as it has layers
+// (SparseSweep); the vectors beyond keep their capacity for the next
+// search and are never read.
 struct SparseRun {
   std::vector<std::vector<SparseEntry>> maps;
-  size_t depth = 0;
 };
 
 // Where each total of the layer being built sits in its map: open
@@ -482,7 +482,6 @@ bool SparseSweep(absl::Span<const ChargeItem> items,
   TotalIndex& slot = ThreadScratch().slot;
   if (run->maps.size() < order.size() + 1) run->maps.resize(order.size() + 1);
   run->maps[0].assign(1, SparseEntry{0, 0, -1, -1});
-  run->depth = 1;
   for (size_t step = 0; step < layers; ++step) {
     const size_t e = order[step];
     const std::vector<SparseEntry>& prev = run->maps[step];
@@ -527,7 +526,6 @@ bool SparseSweep(absl::Span<const ChargeItem> items,
     }
     *held += static_cast<int64_t>(next.size());
     if (*held > kMaxSearchCells) return false;
-    run->depth = step + 2;
   }
   return true;
 }
