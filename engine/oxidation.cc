@@ -977,8 +977,9 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
   const CompositionKind kind = result.bonding.kind;
   // Every atom in state 0, for a metallic or intermetallic composition,
   // with the best ionic reading first among the alternatives of an
-  // intermetallic one, for the user who wants one.
-  auto neutral = [&](OxidationResult r) {
+  // intermetallic one, for the user who wants one, unless the caller
+  // already knows none balances.
+  auto neutral = [&](OxidationResult r, bool formal_may_balance) {
     r.kind = r.bonding.kind;
     OxidationAssignment a;
     a.states.reserve(formula.amounts.size());
@@ -990,7 +991,7 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
       a.states.push_back({amount.element, 0, amount.count, true, declared});
     }
     r.best = std::move(a);
-    if (r.kind == CompositionKind::kIntermetallic) {
+    if (r.kind == CompositionKind::kIntermetallic && formal_may_balance) {
       OxidationOptions ionic = options;
       ionic.max_alternatives = std::max(0, options.max_alternatives - 1);
       absl::StatusOr<OxidationResult> formal =
@@ -1009,7 +1010,7 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
   const bool formal_asked = options.net_charge != 0 || !declared_all_zero;
   if (!formal_asked && kind != CompositionKind::kIonic &&
       kind != CompositionKind::kZintl) {
-    return neutral(std::move(result));
+    return neutral(std::move(result), /*formal_may_balance=*/true);
   }
   if (kind == CompositionKind::kZintl) {
     absl::StatusOr<OxidationResult> zintl =
@@ -1036,7 +1037,8 @@ absl::StatusOr<OxidationResult> AssignOxidationStates(
     result.bonding.rule =
         "an electropositive metal with p-block atoms that balance neither "
         "by the 8-N rule nor formally: a polar intermetallic";
-    return neutral(std::move(result));
+    // The formal search just found no balance: no ionic reading to add.
+    return neutral(std::move(result), /*formal_may_balance=*/false);
   }
   return formal;
 }
