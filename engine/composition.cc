@@ -436,13 +436,14 @@ struct ElementSettings {
 // settings set it (engine/coordination.h).
 IonEnvironment EnvironmentOf(const Formula& formula, const AssignedState& s,
                              const ElementSettings& settings,
-                             const CompositionReport& r) {
+                             const CompositionReport& r,
+                             ComplexSide side = ComplexSide::kAsWritten) {
   const Geometry* g_set = FindSetting(settings.geometry, s.element);
   const SpinStatePreference* s_set = FindSetting(settings.spin, s.element);
   IonEnvironment env;
   if (s.element->block == Block::kD && (r.kind == CompositionKind::kIonic ||
                                         r.kind == CompositionKind::kZintl)) {
-    env = FindEnvironment(formula, *r.assignment, s, g_set, s_set);
+    env = FindEnvironment(formula, *r.assignment, s, g_set, s_set, side);
   } else {
     env.geometry = g_set != nullptr ? *g_set : Geometry::kFree;
     env.spin_state = s_set != nullptr ? *s_set : SpinStatePreference::kAuto;
@@ -509,6 +510,20 @@ void AnnotateIon(const AssignedState& s, const Rational& count,
   }
 }
 
+// The two sides of a formula that writes an element both in a bracketed
+// complex and outside it; not sites of a structure family (no Néel
+// direction).
+const Site& InComplexSite() {
+  static const Site* const site =
+      new Site{"in the bracketed complex", Geometry::kOctahedral, 0, {}};
+  return *site;
+}
+const Site& OutsideComplexSite() {
+  static const Site* const site =
+      new Site{"outside the bracketed complex", Geometry::kOctahedral, 0, {}};
+  return *site;
+}
+
 // Annotates every free ion with its environment and moment range (one
 // ion per site it occupies where `placement` placed it), and every unit
 // with its moment.
@@ -525,6 +540,29 @@ void Annotate(const Formula& formula, const ElementSettings& settings,
   }
   for (const AssignedState& s : assignment.states) {
     if (s.unit >= 0) continue;  // Bonded in a unit: not an ion.
+    // An element written both in a bracketed complex and outside it
+    // (Prussian blue): one ion for each side, each in its own ligands.
+    if (placement == nullptr && r->kind == CompositionKind::kIonic &&
+        FindSetting(settings.geometry, s.element) == nullptr &&
+        FindSetting(settings.spin, s.element) == nullptr) {
+      if (const std::optional<Rational> inside =
+              AtomsInComplex(formula, assignment, s)) {
+        const Rational outside = s.count - *inside;
+        if (!inside->IsZero()) {
+          AnnotateIon(
+              s, *inside,
+              EnvironmentOf(formula, s, settings, *r, ComplexSide::kInside),
+              &InComplexSite(), settings, temperature, anion_z, r);
+        }
+        if (!outside.IsZero()) {
+          AnnotateIon(
+              s, outside,
+              EnvironmentOf(formula, s, settings, *r, ComplexSide::kOutside),
+              &OutsideComplexSite(), settings, temperature, anion_z, r);
+        }
+        continue;
+      }
+    }
     const IonEnvironment env = EnvironmentOf(formula, s, settings, *r);
     bool placed = false;
     if (placement != nullptr) {

@@ -1,5 +1,6 @@
 #include "engine/coordination.h"
 
+#include <algorithm>
 #include <cmath>
 
 #include "absl/container/inlined_vector.h"
@@ -27,14 +28,21 @@ bool Inside(const Formula& formula, int g, int outer) {
   return false;
 }
 
-// The innermost '[' group around the first written term of `e`, or -1.
-int ComplexOf(const Formula& formula, const Element* e) {
+// The innermost '[' group around term `t`, or -1.
+int ComplexAround(const Formula& formula, const WrittenTerm& t) {
+  for (int g = t.group; g >= 0; g = formula.groups[g].parent) {
+    if (formula.groups[g].bracket == '[') return g;
+  }
+  return -1;
+}
+
+// The innermost '[' group around the atoms of `e` that `side` names, or -1.
+int ComplexOf(const Formula& formula, const Element* e, ComplexSide side) {
+  if (side == ComplexSide::kOutside) return -1;
   for (const WrittenTerm& t : formula.terms) {
     if (t.element != e) continue;
-    for (int g = t.group; g >= 0; g = formula.groups[g].parent) {
-      if (formula.groups[g].bracket == '[') return g;
-    }
-    return -1;
+    const int g = ComplexAround(formula, t);
+    if (g >= 0 || side == ComplexSide::kAsWritten) return g;
   }
   return -1;
 }
@@ -105,11 +113,48 @@ int CoordinationDCount(const Element& e, int state) {
   return d >= 0 && d <= 10 ? d : -1;
 }
 
+std::optional<Rational> AtomsInComplex(const Formula& formula,
+                                       const OxidationAssignment& assignment,
+                                       const AssignedState& ion) {
+  if (ion.element->block != Block::kD || ion.unit >= 0) return std::nullopt;
+  Rational inside(0);
+  for (const WrittenTerm& t : formula.terms) {
+    if (t.element == ion.element && ComplexAround(formula, t) >= 0) {
+      inside = inside + t.count * t.multiplier;
+    }
+  }
+  if (inside.IsZero()) return std::nullopt;
+  // The element's free states, lower first (as the assignment lists them).
+  absl::InlinedVector<const AssignedState*, 4> states;
+  Rational total(0);
+  for (const AssignedState& s : assignment.states) {
+    if (s.element != ion.element || s.unit >= 0) continue;
+    states.push_back(&s);
+    total = total + s.count;
+  }
+  if (!(inside < total)) return std::nullopt;  // All inside.
+  std::sort(states.begin(), states.end(),
+            [](const AssignedState* a, const AssignedState* b) {
+              return a->state < b->state;
+            });
+  for (const AssignedState* s : states) {
+    if (s->count == inside) return s == &ion ? inside : Rational(0);
+  }
+  Rational left = inside;
+  for (const AssignedState* s : states) {
+    const Rational take = s->count < left ? s->count : left;
+    if (s == &ion) return take;
+    left = left - take;
+  }
+  return Rational(0);
+}
+
 IonEnvironment FindEnvironment(const Formula& formula,
                                const OxidationAssignment& assignment,
                                const AssignedState& ion,
                                const Geometry* geometry_set,
-                               const SpinStatePreference* spin_set) {
+                               const SpinStatePreference* spin_set,
+                               ComplexSide side) {
   IonEnvironment env;
   const Element& e = *ion.element;
   const int d = CoordinationDCount(e, ion.state);
@@ -117,7 +162,7 @@ IonEnvironment FindEnvironment(const Formula& formula,
 
   // Ligands.
   Sites sites;
-  const int complex = ComplexOf(formula, &e);
+  const int complex = ComplexOf(formula, &e, side);
   double metal = 0;       // This element's atoms where the ligands are counted.
   bool molecular = true;  // Only unit ligands (no monatomic anions).
   for (const AssignedUnit& u : assignment.units) {

@@ -36,6 +36,8 @@
 #ifndef SHELLWRIGHT_ENGINE_COORDINATION_H_
 #define SHELLWRIGHT_ENGINE_COORDINATION_H_
 
+#include <optional>
+
 #include "engine/formula.h"
 #include "engine/ligand_field.h"
 #include "engine/oxidation.h"
@@ -72,6 +74,16 @@ struct EnumNames<SpinBasis> {
       {SpinBasis::kOxygenDeficientPerovskite, "oxygen_deficient_perovskite"}};
 };
 
+// Which of an element's atoms an environment is for, where the formula
+// writes the element both inside a bracketed complex and outside one
+// (Prussian blue, Fe4[Fe(CN)6]3: the C-bound iron in the complex, the
+// N-bound iron outside it).
+enum class ComplexSide {
+  kAsWritten,  // Where the element's first written atom is.
+  kInside,     // In the first bracketed complex that holds the element.
+  kOutside,    // Outside every bracketed complex.
+};
+
 struct IonEnvironment {
   Geometry geometry = Geometry::kOctahedral;
   SpinStatePreference spin_state = SpinStatePreference::kAuto;
@@ -85,12 +97,26 @@ struct IonEnvironment {
 
 // The environment of the d-block ion `ion` (an entry of `assignment`).
 // `geometry_set` and `spin_set` are the record's settings for its element,
-// or null.
+// or null; `side` says which of its atoms (ComplexSide).
 IonEnvironment FindEnvironment(const Formula& formula,
                                const OxidationAssignment& assignment,
                                const AssignedState& ion,
                                const Geometry* geometry_set,
-                               const SpinStatePreference* spin_set);
+                               const SpinStatePreference* spin_set,
+                               ComplexSide side = ComplexSide::kAsWritten);
+
+// How many of the `ion.count` atoms of `ion` (a free d-block ion of
+// `assignment`) sit inside a bracketed complex, where its element is
+// written both inside one and outside (Fe4[Fe(CN)6]3); nullopt where it is
+// not. The element's states are shared out so that the complexes hold one
+// state where the counts allow it (Fe4[Fe(CN)6]3: 3 Fe2+ inside, 4 Fe3+
+// outside; Mn3[Mn(CN)6]2: 2 Mn3+ inside), the lower state where two would
+// (KFe[Fe(CN)6]: Fe2+, low spin at the carbon end, beside high-spin Fe3+
+// at the nitrogen end; Greenwood and Earnshaw, Chemistry of the Elements,
+// 2nd ed., ch. 25, from memory), else the lower states first.
+std::optional<Rational> AtomsInComplex(const Formula& formula,
+                                       const OxidationAssignment& assignment,
+                                       const AssignedState& ion);
 
 // The d electrons of a d-block ion counted as coordination chemistry
 // does: group - state (Ni(CO)4's Ni0 is d10, Fe-2 is d10), or -1 when
