@@ -26,7 +26,8 @@ constexpr GeometryPair kGeometries[] = {
     {v1::GEOMETRY_OCTAHEDRAL, Geometry::kOctahedral},
     {v1::GEOMETRY_TETRAHEDRAL, Geometry::kTetrahedral},
     {v1::GEOMETRY_SQUARE_PLANAR, Geometry::kSquarePlanar},
-    {v1::GEOMETRY_TRIGONAL_PRISMATIC, Geometry::kTrigonalPrismatic}};
+    {v1::GEOMETRY_TRIGONAL_PRISMATIC, Geometry::kTrigonalPrismatic},
+    {v1::GEOMETRY_TRIGONAL_BIPYRAMIDAL, Geometry::kTrigonalBipyramidal}};
 
 struct SpinPair {
   v1::SpinStatePreference proto;

@@ -342,8 +342,8 @@ class LigandFieldCache {
   static constexpr int kMinCharge = -kMaxAnionCharge;
   static constexpr int kMaxCharge = 9;
   static constexpr int kCharges = kMaxCharge - kMinCharge + 1;
-  // Octahedral, tetrahedral, square planar, trigonal prismatic.
-  static constexpr int kGeometries = 4;
+  // Every geometry but kFree.
+  static constexpr int kGeometries = kGeometryCount - 1;
   static constexpr int kSpins = 3;  // Auto, high, low.
 
   // nullptr when the query is outside the cached set.

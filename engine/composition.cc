@@ -193,8 +193,7 @@ int SplitElectrons(const LigandFieldSplitting& split) {
 // Unpaired electrons of d^n in `g` and `spin`, read from a table built on
 // first use (SplitD allocates; every record's d ions ask).
 int SplitUnpaired(int d, Geometry g, SpinState spin) {
-  constexpr int kGeometries =
-      static_cast<int>(Geometry::kTrigonalPrismatic) + 1;
+  constexpr int kGeometries = kGeometryCount;
   using Table = std::array<int, 11 * kGeometries * 2>;
   static const Table* const kTable = [] {
     auto* t = new Table;
@@ -499,7 +498,8 @@ void AnnotateIon(const AssignedState& s, const Rational& count,
   ion.spin_basis =
       description.ligand_field.has_value() ? env.basis : SpinBasis::kNone;
   ion.near_spin_crossover = env.near_crossover;
-  ion.bonded = internal::OpenShellState(*s.element, s.state);
+  ion.bonded =
+      internal::OpenShellState(*s.element, s.state) || env.metal_metal_bonded;
   if (site != nullptr) ion.site = site->name;
   if (!ion.bonded) {  // Bonded: no moment, all zero.
     const bool fixed =

@@ -182,8 +182,9 @@ struct IonAnnotation {
   double ligand_f = 0;
   SpinBasis spin_basis = SpinBasis::kNone;
   bool near_spin_crossover = false;
-  // A p-block atom in an open-shell formal state (O-1, S-1): bonded, it
-  // carries no unpaired electrons and no moment.
+  // A p-block atom in an open-shell formal state (O-1, S-1), or a metal of
+  // a polynuclear carbonyl paired in metal-metal bonds (Mn2(CO)10):
+  // bonded, it carries no unpaired electrons and no moment.
   bool bonded = false;
 
   // Unpaired electrons this ion contributes (0 when bonded).

@@ -16,6 +16,11 @@ double DefaultCrossover(int state) {
   return 0.9;
 }
 
+// Ligand f from which a d8 ion with four donor sites is square planar
+// and a five-coordinate ion low spin (common practice, no source: cyanide
+// and carbon monoxide, not ammonia).
+constexpr double kStrongFieldF = 1.5;
+
 // How close to its crossover f an ion is flagged (common practice, no
 // source: about the spread of f between neighbours in the series).
 constexpr double kNearCrossover = 0.1;
@@ -214,11 +219,36 @@ IonEnvironment FindEnvironment(const Formula& formula,
                         ? total / metal
                         : 0;
 
+  // Polynuclear carbonyls: the 18-electron rule's metal-metal bonds.
+  if (geometry_set == nullptr && spin_set == nullptr && complex < 0 &&
+      molecular && total > 0 && d >= 0 && ion.state <= 0) {
+    double metals = 0;  // Atoms of every free d-block metal.
+    bool acceptors = true;
+    for (const AssignedState& s : assignment.states) {
+      if (s.unit < 0 && s.element->block == Block::kD) {
+        metals += s.count.ToDouble();
+      }
+    }
+    for (const Site& s : sites) acceptors &= s.ligand->f >= kPiAcceptorF;
+    // Valence electrons per metal atom: its d electrons and two from each
+    // donor site (Greenwood and Earnshaw, Chemistry of the Elements, 2nd
+    // ed., ch. 8, metal carbonyls, from memory).
+    if (acceptors && metals > 1.5 && d + 2 * total / metals < 17.99) {
+      env.geometry = Geometry::kOctahedral;
+      env.spin_state = SpinStatePreference::kLow;
+      env.basis = SpinBasis::kMetalMetalBond;
+      env.metal_metal_bonded = true;
+      return env;
+    }
+  }
+
   // Geometry.
   if (geometry_set != nullptr) {
     env.geometry = *geometry_set;
+  } else if (std::abs(cn - 5) < 0.01 && std::abs(metal - 1) < 0.01) {
+    env.geometry = Geometry::kTrigonalBipyramidal;
   } else if (std::abs(cn - 4) < 0.01) {
-    env.geometry = (d == 8 && (n >= 4 || env.f >= 1.5)) || d == 9
+    env.geometry = (d == 8 && (n >= 4 || env.f >= kStrongFieldF)) || d == 9
                        ? Geometry::kSquarePlanar
                        : Geometry::kTetrahedral;
   } else if (cn == 0 && complex < 0 && d == 8 && n >= 4 &&
@@ -275,6 +305,17 @@ IonEnvironment FindEnvironment(const Formula& formula,
       return env;
     case Geometry::kTrigonalPrismatic:
       set(SpinState::kLow, SpinBasis::kNoChoice);
+      return env;
+    case Geometry::kTrigonalBipyramidal:
+      // Low spin as square planar d8 is: 4d/5d, or strong-field ligands.
+      if (!HasSpinChoice(d, env.geometry)) {
+        set(SpinState::kLow, SpinBasis::kNoChoice);
+      } else if (n >= 4) {
+        set(SpinState::kLow, SpinBasis::kHeavyMetal);
+      } else {
+        set(env.f >= kStrongFieldF ? SpinState::kLow : SpinState::kHigh,
+            SpinBasis::kLigandField);
+      }
       return env;
     case Geometry::kFree:
       return env;

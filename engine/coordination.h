@@ -11,7 +11,11 @@
 //      (data/spectrochemical_series.tsv).
 //   2. Geometry. A complex with 4 donor sites is square planar for a d8
 //      ion with 4d/5d character or strong-field ligands (f >= 1.5), else
-//      tetrahedral; with 6 it is octahedral. A group 5 or 6 d1/d2 ion in a
+//      tetrahedral; with 5, on one metal atom, trigonal bipyramidal
+//      (Fe(CO)5); with 6 it is octahedral. The metals of a polynuclear
+//      carbonyl short of 18 valence electrons (Mn2(CO)10, Co2(CO)8) pair
+//      their odd electrons in metal-metal bonds and are octahedral
+//      counting them. A group 5 or 6 d1/d2 ion in a
 //      1:2 chalcogenide (MoS2) is trigonal prismatic. Otherwise octahedral.
 //   3. Spin state. 4d and 5d ions are low spin; tetrahedral 3d ions high
 //      spin. An octahedral 3d d4-d7 ion is low spin when the ligands' f
@@ -58,6 +62,9 @@ enum class SpinBasis {
   // An octahedral 3d ion in an oxygen-deficient perovskite of the
   // brownmillerite kind (A2B2O5, SrCoO2.5): high spin.
   kOxygenDeficientPerovskite,
+  // A metal of a polynuclear carbonyl short of 18 valence electrons
+  // (Mn2(CO)10): paired in metal-metal bonds.
+  kMetalMetalBond,
 };
 
 template <>
@@ -71,7 +78,8 @@ struct EnumNames<SpinBasis> {
       {SpinBasis::kHeavyMetal, "4d_5d_low_spin"},
       {SpinBasis::kTetrahedral, "tetrahedral_high_spin"},
       {SpinBasis::kDefaultHigh, "default_high_spin"},
-      {SpinBasis::kOxygenDeficientPerovskite, "oxygen_deficient_perovskite"}};
+      {SpinBasis::kOxygenDeficientPerovskite, "oxygen_deficient_perovskite"},
+      {SpinBasis::kMetalMetalBond, "metal_metal_bond"}};
 };
 
 // Which of an element's atoms an environment is for, where the formula
@@ -93,6 +101,9 @@ struct IonEnvironment {
   double f = 0;
   SpinBasis basis = SpinBasis::kNone;
   bool near_crossover = false;
+  // Its d electrons pair in metal-metal bonds (kMetalMetalBond): no
+  // unpaired electrons.
+  bool metal_metal_bonded = false;
 };
 
 // The environment of the d-block ion `ion` (an entry of `assignment`).

@@ -24,6 +24,11 @@ std::vector<LevelSpec> LevelsFor(Geometry g) {
       return {{"eg", 2}, {"a1g", 1}, {"b2g", 1}, {"b1g", 1}};
     case Geometry::kTrigonalPrismatic:
       return {{"a1'", 1}, {"e'", 2}, {"e''", 2}};
+    case Geometry::kTrigonalBipyramidal:
+      // D3h with the axis along z: (xz, yz) lowest, then (xy, x2-y2), z2
+      // highest (Huheey, Keiter and Keiter, Inorganic Chemistry, 4th ed.,
+      // from memory).
+      return {{"e''", 2}, {"e'", 2}, {"a1'", 1}};
     case Geometry::kFree:
       break;
   }
@@ -43,6 +48,7 @@ SpinState ResolveSpinState(Geometry geometry, SpinStatePreference preference,
       return SpinState::kHigh;
     case Geometry::kSquarePlanar:
     case Geometry::kTrigonalPrismatic:
+    case Geometry::kTrigonalBipyramidal:
       return SpinState::kLow;
     case Geometry::kFree:
       break;

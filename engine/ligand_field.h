@@ -47,8 +47,12 @@ enum class Geometry {
   kOctahedral,
   kTetrahedral,
   kSquarePlanar,
-  kTrigonalPrismatic
+  kTrigonalPrismatic,
+  kTrigonalBipyramidal
 };
+// Geometries, kFree included: arrays indexed by Geometry have this size.
+inline constexpr int kGeometryCount =
+    static_cast<int>(Geometry::kTrigonalBipyramidal) + 1;
 enum class SpinStatePreference { kAuto, kHigh, kLow };
 enum class SpinState { kHigh, kLow };
 
@@ -61,10 +65,12 @@ struct EnumNames<Geometry> {
       {Geometry::kOctahedral, "octahedral"},
       {Geometry::kTetrahedral, "tetrahedral"},
       {Geometry::kSquarePlanar, "square_planar"},
-      {Geometry::kTrigonalPrismatic, "trigonal_prismatic"}};
+      {Geometry::kTrigonalPrismatic, "trigonal_prismatic"},
+      {Geometry::kTrigonalBipyramidal, "trigonal_bipyramidal"}};
   static constexpr NamedValue<Geometry> kAliases[] = {
       {Geometry::kSquarePlanar, "square-planar"},
-      {Geometry::kTrigonalPrismatic, "trigonal-prismatic"}};
+      {Geometry::kTrigonalPrismatic, "trigonal-prismatic"},
+      {Geometry::kTrigonalBipyramidal, "trigonal-bipyramidal"}};
 };
 template <>
 struct EnumNames<SpinStatePreference> {

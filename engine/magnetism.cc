@@ -44,7 +44,7 @@ std::optional<MeasuredMoment> FindMeasuredMoment(int z, int charge) {
 
 namespace {
 
-constexpr int kGeometries = static_cast<int>(Geometry::kTrigonalPrismatic) + 1;
+constexpr int kGeometries = kGeometryCount;
 
 std::optional<MomentRange> LookUpOrbitalRange(int d_electrons,
                                               Geometry geometry,

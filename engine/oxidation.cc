@@ -158,11 +158,6 @@ constexpr int64_t kRadicalStep = 3;
 
 // Builds the plan of every element. Declared elements take exactly their
 // declared states.
-// Ligand f from which a neutral ligand counts as a pi acceptor that
-// stabilises metals in state 0 (carbon monoxide 1.9; common practice, no
-// source).
-constexpr double kPiAcceptorF = 1.8;
-
 // A reading of the formula: the unit matches read as units.
 using Reading = absl::InlinedVector<const UnitMatch*, 4>;
 

@@ -96,6 +96,11 @@ struct Ligand {
   std::string Name() const;
 };
 
+// Ligand f from which a neutral ligand counts as a pi acceptor that
+// stabilises metals in state 0 (carbon monoxide 1.9; common practice, no
+// source).
+inline constexpr double kPiAcceptorF = 1.8;
+
 // Where a 3d ion turns low spin in an octahedral field.
 struct SpinCrossover {
   const Element* element;

@@ -51,7 +51,8 @@ TEST(EnumNames, ParseIsExactAndSaysWhatItExpected) {
             "unknown shade 'grey' (expected light or dark)");
   EXPECT_THAT(std::string(ParseName<Geometry>("cubic").status().message()),
               HasSubstr("(expected free, octahedral, tetrahedral, "
-                        "square_planar or trigonal_prismatic)"));
+                        "square_planar, trigonal_prismatic or "
+                        "trigonal_bipyramidal)"));
 }
 
 // Every enumerator from first to last has one distinct name, and the name
