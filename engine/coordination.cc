@@ -251,13 +251,16 @@ IonEnvironment FindEnvironment(const Formula& formula,
     env.geometry = (d == 8 && (n >= 4 || env.f >= kStrongFieldF)) || d == 9
                        ? Geometry::kSquarePlanar
                        : Geometry::kTetrahedral;
-  } else if (cn == 0 && complex < 0 && d == 8 && n >= 4 &&
+  } else if (cn == 0 && complex < 0 && d == 8 &&
+             (n >= 4 || e.atomic_number == 29) &&
              !(env.ligand != nullptr && env.ligand->anion != nullptr &&
                env.ligand->anion->atomic_number == 9)) {
     // 4d and 5d d8 ions are square planar and diamagnetic whatever the
     // formula shows: PdCl2, PdO, PtS, AuCl3 (Au2Cl6), but PdF2 is
     // octahedral and paramagnetic (Greenwood and Earnshaw, Chemistry of
-    // the Elements, 2nd ed., chs. 27 and 28, from memory).
+    // the Elements, 2nd ed., chs. 27 and 28, from memory). So is Cu(III)
+    // in oxides (KCuO2, NaCuO2: CuO4 chains, diamagnetic), while K3CuF6 is
+    // high-spin octahedral and paramagnetic (same source, ch. 28).
     env.geometry = Geometry::kSquarePlanar;
   } else if (complex < 0 && (e.group == 5 || e.group == 6) &&
              (d == 1 || d == 2) && assignment.units.empty()) {

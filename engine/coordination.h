@@ -15,8 +15,10 @@
 //      (Fe(CO)5); with 6 it is octahedral. The metals of a polynuclear
 //      carbonyl short of 18 valence electrons (Mn2(CO)10, Co2(CO)8) pair
 //      their odd electrons in metal-metal bonds and are octahedral
-//      counting them. A group 5 or 6 d1/d2 ion in a
-//      1:2 chalcogenide (MoS2) is trigonal prismatic. Otherwise octahedral.
+//      counting them. A group 5 or 6 d1/d2 ion in a 1:2 chalcogenide
+//      (MoS2) is trigonal prismatic. A 4d/5d d8 ion, or Cu(III), whose
+//      formula shows no coordination is square planar (PdCl2, KCuO2),
+//      except among fluorides (PdF2, K3CuF6). Otherwise octahedral.
 //   3. Spin state. 4d and 5d ions are low spin; tetrahedral 3d ions high
 //      spin. An octahedral 3d d4-d7 ion is low spin when the ligands' f
 //      exceeds the ion's crossover f (data/spin_crossover.tsv), high spin
