@@ -43,6 +43,29 @@ bool IsBorideFormer(const Element& e) {
   return e.atomic_number == 5 || e.atomic_number == 14 || e.atomic_number == 32;
 }
 
+// Rubidium and caesium with gold or platinum and nothing else: salts of
+// the auride Au- and platinide Pt2- anions (CsAu and RbAu are
+// semiconductors, Cs2Pt a red transparent salt; Jansen, Chem. Soc. Rev.
+// 37 (2008) 1826, and Karpov, Jansen et al., Angew. Chem. 2003, from
+// memory), when the counts balance those charges. The lighter alkali
+// metals form intermetallics with gold (NaAu2, KAu5).
+bool IsAurideOrPlatinide(const Formula& formula) {
+  Rational alkali(0), anion_charge(0);
+  for (const ElementAmount& a : formula.amounts) {
+    const int z = a.element->atomic_number;
+    if (z == 37 || z == 55) {
+      alkali = alkali + a.count;
+    } else if (z == 79) {
+      anion_charge = anion_charge + a.count;
+    } else if (z == 78) {
+      anion_charge = anion_charge + a.count * Rational(2);
+    } else {
+      return false;
+    }
+  }
+  return !alkali.IsZero() && alkali == anion_charge;
+}
+
 // The Zintl line: the electronegativity difference from which an alkali
 // or alkaline-earth metal gives up its electrons to a p-block metal
 // (NaTl 0.69, LiAl 0.63; Mg17Al12 at 0.30 stays metallic). Common
@@ -127,6 +150,11 @@ BondingClass ClassifyBonding(const Formula& formula) {
   if (formula.amounts.size() == 1) {
     c.kind = CompositionKind::kElemental;
     c.rule = "a single element";
+    return c;
+  }
+  if (all_metal && IsAurideOrPlatinide(formula)) {
+    c.kind = CompositionKind::kIonic;
+    c.rule = "a heavy alkali metal with gold or platinum: auride or platinide";
     return c;
   }
   if (all_metal) {

@@ -90,6 +90,15 @@ TEST(Bonding, ClassOfRealCompositions) {
       {"Ca5Ge3", K::kZintl, "Schäfer et al. 1973, from memory"},
       {"Mg2Si", K::kZintl, "Schäfer et al. 1973, from memory"},
       {"Na3Sb", K::kZintl, "Schäfer et al. 1973, from memory"},
+      // Aurides and platinides of the heavy alkali metals, against the
+      // intermetallics of the lighter ones (Jansen, Chem. Soc. Rev. 37,
+      // 1826 (2008); Karpov, Jansen et al., Angew. Chem. 2003; from
+      // memory).
+      {"CsAu", K::kIonic, "Jansen 2008, from memory"},
+      {"RbAu", K::kIonic, "Jansen 2008, from memory"},
+      {"Cs2Pt", K::kIonic, "Karpov et al. 2003, from memory"},
+      {"NaAu2", K::kMetallic, "Jansen 2008, from memory"},
+      {"Cs3Au2", K::kMetallic, "common practice, no source"},
       // Alloys.
       {"Fe3Al", K::kMetallic, "common practice, no source"},
       {"Mg17Al12", K::kMetallic, "common practice, no source"},
