@@ -112,7 +112,13 @@ int ChalcogenideMaxState(const Element& e) {
 }
 
 bool OpenShellState(const Element& e, int state) {
-  if (e.block != Block::kP || e.group == 18) return false;
+  if (e.block != Block::kP) return false;
+  if (e.group == 18) {
+    // Noble-gas compounds (XeF2, XeF4, KrF2) are closed-shell molecules:
+    // an even count left is bonded, as among the halogens.
+    const int left = 8 - state;
+    return state > 0 && left != 0 && left != 2 && left % 2 == 0;
+  }
   if (state < 0) return state != e.group - 18;
   if (state == 0) return !IsMetal(e);
   // A positive state that leaves the p subshell part-filled (neither the

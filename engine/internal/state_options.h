@@ -101,6 +101,8 @@ std::optional<double> PotentialDownTo(const Element& e, int reduced);
 // left (O+2 in OF2, Cl+1 in Cl2O, I+3 in ICl3; an odd count there is a
 // radical, NO2 and ClO2, and keeps its free-ion count). Positive states
 // that leave no p electrons, or the inert pair, are closed-shell already.
+// So are the noble gases' even positive states, as the halogens' (Xe+2 in
+// XeF2, Xe+4 in XeF4; Greenwood and Earnshaw, ch. 18, from memory).
 // Such an atom is bonded, and carries no free-ion unpaired electrons.
 bool OpenShellState(const Element& e, int state);
 

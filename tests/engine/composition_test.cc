@@ -481,12 +481,13 @@ TEST(Composition, ZintlPolyanionAtomsCarryNoMoment) {
 
 TEST(Composition, BondedMainGroupCationsCarryNoMoment) {
   // Realgar As4S4 holds As-As bonds, GaS and InS Ga-Ga and In-In pairs,
-  // OF2, Cl2O and ICl3 are closed-shell molecules: all diamagnetic
-  // (Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed., chs. 7,
-  // 13, 14 and 17, from memory), whatever the free As2+ or O2+ ion would
-  // carry. The radicals NO2 and ClO2 keep their one unpaired electron
-  // (same source).
-  for (const char* formula : {"As4S4", "GaS", "InS", "OF2", "Cl2O", "ICl3"}) {
+  // OF2, Cl2O, ICl3, XeF2 and XeF4 are closed-shell molecules: all
+  // diamagnetic (Greenwood and Earnshaw, Chemistry of the Elements, 2nd
+  // ed., chs. 7, 13, 14, 17 and 18, from memory), whatever the free As2+,
+  // O2+ or Xe2+ ion would carry. The radicals NO2 and ClO2 keep their one
+  // unpaired electron (same source).
+  for (const char* formula :
+       {"As4S4", "GaS", "InS", "OF2", "Cl2O", "ICl3", "XeF2", "XeF4"}) {
     SCOPED_TRACE(formula);
     CompositionReport r = Analyze(Record(formula));
     ASSERT_FALSE(r.ions.empty()) << DiagnosticsText(r);
