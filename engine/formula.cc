@@ -440,11 +440,13 @@ class FormulaParser {
   // the abbreviation. False on error.
   bool ParseAbbreviation(const LigandAbbreviation& a, size_t start, size_t end,
                          int depth, Items* items) {
-    const bool alone =
-        current_group_ >= 0 && groups_[current_group_].bracket != '*' &&
-        groups_[current_group_].first_term == static_cast<int>(terms_.size()) &&
-        start > 0 && (text_[start - 1] == '(' || text_[start - 1] == '[') &&
-        end < text_.size() && (text_[end] == ')' || text_[end] == ']');
+    bool alone = current_group_ >= 0 && groups_[current_group_].first_term ==
+                                            static_cast<int>(terms_.size());
+    if (alone && groups_[current_group_].bracket == '*') {  // "·2py"
+      alone = end == text_.size() || SeparatorLength(end) > 0;
+    } else if (alone) {
+      alone = end < text_.size() && (text_[end] == ')' || text_[end] == ']');
+    }
     pos_ = end;
     if (alone) {
       AddAbbreviationTerms(a, items);
@@ -711,15 +713,38 @@ class FormulaParser {
         if (element == nullptr && (symbol == "D" || symbol == "T")) {
           element = FindElementBySymbol("H");  // Deuterium, tritium.
         }
+        // "Nien3", "Ptpy2": a d- or f-block metal with an abbreviation
+        // written straight after it, the two-letter symbol first. Other
+        // elements stay unknown words ("Bipy" is not Bi with py).
+        for (int n = 2; element == nullptr && n >= 1; --n) {
+          if (symbol.size() <= static_cast<size_t>(n)) continue;
+          const Element* metal = FindElementBySymbol(symbol.substr(0, n));
+          if (metal != nullptr &&
+              (metal->block == Block::kD || metal->block == Block::kF) &&
+              FindLigandAbbreviation(symbol.substr(n)) != nullptr &&
+              FindLigandAbbreviation(symbol) == nullptr) {
+            symbol = symbol.substr(0, n);
+            end = start + n;
+            element = metal;
+          }
+        }
         if (element == nullptr) {
           // "Cp": a capitalised abbreviation, never an element symbol.
           if (const LigandAbbreviation* a = FindLigandAbbreviation(symbol)) {
             if (!ParseAbbreviation(*a, start, end, depth, items)) return false;
             continue;
           }
+          // "Bipy", "Phen": an abbreviation is written in lower case.
+          std::string lower(symbol);
+          lower[0] = static_cast<char>(lower[0] - 'A' + 'a');
           Fail(codes::kUnknownElement, start,
                absl::StrCat("unknown element ", QuoteForMessage(symbol),
-                            " at column ", Column(start)));
+                            " at column ", Column(start),
+                            FindLigandAbbreviation(lower) == nullptr
+                                ? ""
+                                : absl::StrCat(" (ligand abbreviations are "
+                                               "case-sensitive: did you mean '",
+                                               lower, "'?)")));
           return false;
         }
         pos_ = end;
