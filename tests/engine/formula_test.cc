@@ -737,6 +737,8 @@ TEST(FormulaAbbreviations, CountsMultiplyThroughNestedGroups) {
   // "dien" after a group is the ligand, not the variable d.
   EXPECT_EQ(AmountsText("[Co(NH3)3dien]Cl3"),
             AmountsText("[Co(NH3)3(C4H13N3)]Cl3"));
+  EXPECT_EQ(AmountsText("[Co(NH3)dien(NH3)2]Cl3"),
+            AmountsText("[Co(NH3)(C4H13N3)(NH3)2]Cl3"));
 }
 
 TEST(FormulaAbbreviations, HydratesAndChargesAroundAbbreviations) {
