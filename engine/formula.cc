@@ -7,9 +7,11 @@
 #include "absl/container/inlined_vector.h"
 #include "absl/strings/match.h"
 #include "absl/strings/str_cat.h"
+#include "absl/strings/str_join.h"
 #include "absl/strings/str_split.h"
 #include "absl/strings/strip.h"
 #include "engine/diagnostic_codes.h"
+#include "engine/internal/data_tables.h"
 #include "engine/internal/text.h"
 
 namespace shellwright {
@@ -185,6 +187,58 @@ bool ParseDecimal(absl::string_view text, Rational* out) {
   return true;
 }
 
+// The abbreviations, in table order, built once from the compiled tables.
+const std::vector<LigandAbbreviation>& AbbreviationTable() {
+  static const std::vector<LigandAbbreviation>* const kTable = [] {
+    auto* table = new std::vector<LigandAbbreviation>;
+    const absl::Span<const internal::UnitRow> units = internal::UnitRows();
+    for (const internal::LigandAbbreviationRow& row :
+         internal::LigandAbbreviationRows()) {
+      LigandAbbreviation& a = table->emplace_back();
+      const internal::UnitRow& unit = units[row.unit];
+      a.abbreviation = row.abbreviation;
+      a.unit = unit.name;
+      a.source = row.source;
+      // The unit's first written form: "C10H8N2" (compile_tables has
+      // checked that it is a run of symbols holding the unit's atoms).
+      const absl::string_view written =
+          absl::string_view(unit.written)
+              .substr(0, absl::string_view(unit.written).find('|'));
+      a.formula = std::string(written);
+      size_t i = 0;
+      while (i < written.size()) {
+        size_t j = i + 1;
+        while (j < written.size() && written[j] >= 'a' && written[j] <= 'z') {
+          ++j;
+        }
+        const Element* element = FindElementBySymbol(written.substr(i, j - i));
+        int n = 0;
+        size_t k = j;
+        while (k < written.size() && IsDigitChar(written[k])) {
+          n = n * 10 + (written[k] - '0');
+          ++k;
+        }
+        a.terms.emplace_back(element, k == j ? 1 : n);
+        i = k;
+      }
+    }
+    return table;
+  }();
+  return *kTable;
+}
+
+// "acac, bipy, bpy, ...": the known abbreviations, for messages.
+const std::string& KnownAbbreviations() {
+  static const std::string* const kText = [] {
+    std::vector<absl::string_view> names;
+    for (const LigandAbbreviation& a : AbbreviationTable()) {
+      names.push_back(a.abbreviation);
+    }
+    return new std::string(absl::StrJoin(names, ", "));
+  }();
+  return *kText;
+}
+
 class FormulaParser {
  public:
   FormulaParser(absl::string_view text, const FormulaOptions& options)
@@ -351,6 +405,79 @@ class FormulaParser {
     issue_.message = std::move(message);
   }
 
+  // The end of the run of lowercase ASCII letters from `p`.
+  size_t LowercaseRunEnd(size_t p) const {
+    while (p < text_.size() && IsLower(text_[p])) ++p;
+    return p;
+  }
+
+  // After the closing bracket of `group` (opened at byte `open`, holding
+  // `inner`): parses the count written after it and adds the group's
+  // amounts to `items`. False on error.
+  bool CloseGroup(int group, size_t open, const Items& inner, Items* items) {
+    Rational count(1);
+    if (!ParseCount(&count)) return false;
+    groups_[group].count = count;
+    if (!Multiply(groups_[group].first_term, group, count)) {
+      Fail(codes::kCountTooLarge, open, "stoichiometry is too large");
+      return false;
+    }
+    for (const auto& [element, n] : inner) {
+      Rational total;
+      if (!CheckedMultiply(n, count, &total)) {
+        Fail(codes::kCountTooLarge, open, "stoichiometry is too large");
+        return false;
+      }
+      items->emplace_back(element, total);
+    }
+    return true;
+  }
+
+  // Writes out the ligand abbreviation `a` at bytes [start, end) as its
+  // unit's atoms. Alone in a written group ("(bpy)3") they are that
+  // group's terms, as "(C10H8N2)3" would be; anywhere else ("[PtCl2en]",
+  // "FeCp2") they form a group of their own, with the count written after
+  // the abbreviation. False on error.
+  bool ParseAbbreviation(const LigandAbbreviation& a, size_t start, size_t end,
+                         int depth, Items* items) {
+    bool alone = current_group_ >= 0 && groups_[current_group_].first_term ==
+                                            static_cast<int>(terms_.size());
+    if (alone && groups_[current_group_].bracket == '*') {  // "·2py"
+      alone = end == text_.size() || SeparatorLength(end) > 0;
+    } else if (alone) {
+      alone = end < text_.size() && (text_[end] == ')' || text_[end] == ']');
+    }
+    pos_ = end;
+    if (alone) {
+      AddAbbreviationTerms(a, items);
+      return true;
+    }
+    if (depth + 1 > kMaxFormulaDepth) {
+      Fail(codes::kNestingTooDeep, start,
+           absl::StrCat("groups nest deeper than ", kMaxFormulaDepth,
+                        " at column ", Column(start)));
+      return false;
+    }
+    const int group = static_cast<int>(groups_.size());
+    const int first_term = static_cast<int>(terms_.size());
+    groups_.push_back(WrittenGroup{'(', current_group_, first_term, first_term,
+                                   Rational(1), Rational(1)});
+    current_group_ = group;
+    Items inner;
+    AddAbbreviationTerms(a, &inner);
+    current_group_ = groups_[group].parent;
+    groups_[group].end_term = static_cast<int>(terms_.size());
+    return CloseGroup(group, start, inner, items);
+  }
+
+  void AddAbbreviationTerms(const LigandAbbreviation& a, Items* items) {
+    for (const auto& [element, n] : a.terms) {
+      items->emplace_back(element, Rational(n));
+      terms_.push_back(WrittenTerm{element, Rational(n), Rational(1),
+                                   current_group_, part_});
+    }
+  }
+
   // Multiplies the written multipliers of the terms from `first_term` and
   // of the groups from `first_group` on by `count`: the count after a
   // closing bracket, or a part's leading multiplier. False on overflow.
@@ -498,10 +625,16 @@ class FormulaParser {
       pos_ += used;
     }
     if (digits == 0) {
-      // A bare variable ("(...)x") needs a lowercase or non-ASCII letter.
+      // A bare variable ("(...)x") needs a lowercase or non-ASCII letter;
+      // "(NH3)3dien" is a ligand abbreviation, not the variable d.
       const bool letter = pos_ < text_.size() &&
                           (IsLower(text_[pos_]) ||
                            static_cast<unsigned char>(text_[pos_]) >= 0x80);
+      if (letter && IsLower(text_[pos_]) &&
+          FindLigandAbbreviation(
+              text_.substr(pos_, LowercaseRunEnd(pos_) - pos_)) != nullptr) {
+        return true;
+      }
       return !letter || ParseVariableCount(start, false, count);
     }
     int64_t frac_num = 0, frac_den = 1;
@@ -580,10 +713,38 @@ class FormulaParser {
         if (element == nullptr && (symbol == "D" || symbol == "T")) {
           element = FindElementBySymbol("H");  // Deuterium, tritium.
         }
+        // "Nien3", "Ptpy2": a d- or f-block metal with an abbreviation
+        // written straight after it, the two-letter symbol first. Other
+        // elements stay unknown words ("Bipy" is not Bi with py).
+        for (int n = 2; element == nullptr && n >= 1; --n) {
+          if (symbol.size() <= static_cast<size_t>(n)) continue;
+          const Element* metal = FindElementBySymbol(symbol.substr(0, n));
+          if (metal != nullptr &&
+              (metal->block == Block::kD || metal->block == Block::kF) &&
+              FindLigandAbbreviation(symbol.substr(n)) != nullptr &&
+              FindLigandAbbreviation(symbol) == nullptr) {
+            symbol = symbol.substr(0, n);
+            end = start + n;
+            element = metal;
+          }
+        }
         if (element == nullptr) {
+          // "Cp": a capitalised abbreviation, never an element symbol.
+          if (const LigandAbbreviation* a = FindLigandAbbreviation(symbol)) {
+            if (!ParseAbbreviation(*a, start, end, depth, items)) return false;
+            continue;
+          }
+          // "Bipy", "Phen": an abbreviation is written in lower case.
+          std::string lower(symbol);
+          lower[0] = static_cast<char>(lower[0] - 'A' + 'a');
           Fail(codes::kUnknownElement, start,
                absl::StrCat("unknown element ", QuoteForMessage(symbol),
-                            " at column ", Column(start)));
+                            " at column ", Column(start),
+                            FindLigandAbbreviation(lower) == nullptr
+                                ? ""
+                                : absl::StrCat(" (ligand abbreviations are "
+                                               "case-sensitive: did you mean '",
+                                               lower, "'?)")));
           return false;
         }
         pos_ = end;
@@ -625,21 +786,7 @@ class FormulaParser {
           return false;
         }
         ++pos_;
-        Rational count(1);
-        if (!ParseCount(&count)) return false;
-        groups_[group].count = count;
-        if (!Multiply(first_term, group, count)) {
-          Fail(codes::kCountTooLarge, open, "stoichiometry is too large");
-          return false;
-        }
-        for (auto& [element, n] : inner) {
-          Rational total;
-          if (!CheckedMultiply(n, count, &total)) {
-            Fail(codes::kCountTooLarge, open, "stoichiometry is too large");
-            return false;
-          }
-          items->emplace_back(element, total);
-        }
+        if (!CloseGroup(group, open, inner, items)) return false;
         continue;
       }
       if (c == ')' || c == ']') {
@@ -663,6 +810,13 @@ class FormulaParser {
         return true;
       }
       if (IsLower(c)) {
+        const size_t start = pos_;
+        const size_t end = LowercaseRunEnd(start);
+        const absl::string_view word = text_.substr(start, end - start);
+        if (const LigandAbbreviation* a = FindLigandAbbreviation(word)) {
+          if (!ParseAbbreviation(*a, start, end, depth, items)) return false;
+          continue;
+        }
         // Suggest only real symbols: "fe" -> "Fe", "o" -> "O"; never "E".
         std::string suggestion(1, static_cast<char>(c - 'a' + 'A'));
         if (pos_ + 1 < text_.size() && IsLower(text_[pos_ + 1]) &&
@@ -670,6 +824,16 @@ class FormulaParser {
           suggestion += text_[pos_ + 1];
         } else if (FindElementBySymbol(suggestion) == nullptr) {
           suggestion.clear();
+        }
+        // A word that is not a miscased symbol ("fe", "o") was meant as an
+        // abbreviation: "bpz".
+        if (word.size() > 1 && word.size() != suggestion.size()) {
+          Fail(codes::kMalformedFormula, start,
+               absl::StrCat("unknown ligand abbreviation ",
+                            QuoteForMessage(word), " at column ", Column(start),
+                            " (known: ", KnownAbbreviations(),
+                            "; element symbols start with a capital)"));
+          return false;
         }
         Fail(codes::kMalformedFormula, pos_,
              absl::StrCat(
@@ -740,6 +904,18 @@ absl::StatusOr<Formula> ParseFormula(absl::string_view text,
                                      FormulaIssue* error) {
   static const FormulaOptions* const kNone = new FormulaOptions;
   return ParseFormula(text, *kNone, error);
+}
+
+absl::Span<const LigandAbbreviation> LigandAbbreviations() {
+  return AbbreviationTable();
+}
+
+const LigandAbbreviation* FindLigandAbbreviation(
+    absl::string_view abbreviation) {
+  for (const LigandAbbreviation& a : AbbreviationTable()) {
+    if (a.abbreviation == abbreviation) return &a;
+  }
+  return nullptr;
 }
 
 absl::StatusOr<std::vector<FormulaVariable>> ParseFormulaVariables(

@@ -28,7 +28,16 @@
 //     error "variable_without_value";
 //   - a part whose multiplier is 'n' ("CuSO4·nH2O": unknown hydration) is
 //     left out of the amounts, with the info "unknown_hydration";
-//   - D and T (deuterium, tritium) count as hydrogen.
+//   - D and T (deuterium, tritium) count as hydrogen;
+//   - ligand abbreviations (data/ligand_abbreviations.tsv, case-sensitive:
+//     "bpy", "en", "acac", "Cp", ...) stand for their unit's atoms:
+//     "[Fe(bpy)3]Cl2" is read as "[Fe(C10H8N2)3]Cl2". Alone in brackets
+//     ("(bpy)3") the atoms are that group's terms; elsewhere ("[PtCl2en]",
+//     "FeCp2") they form a group of their own with the count written after
+//     the abbreviation. Element symbols always win ("Co" is cobalt); a
+//     lowercase word that is neither an abbreviation nor a miscased symbol
+//     is the error "unknown ligand abbreviation 'bpz' at column 5 (known:
+//     ...)".
 //
 // Limits: kMaxFormulaLength bytes, nesting depth kMaxFormulaDepth, each
 // count at most kMaxFormulaCount with at most kMaxCountDecimals decimals.
@@ -54,10 +63,12 @@
 
 #include <optional>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "absl/status/statusor.h"
 #include "absl/strings/string_view.h"
+#include "absl/types/span.h"
 #include "engine/element.h"
 #include "engine/rational.h"
 
@@ -113,6 +124,25 @@ struct FormulaVariable {
 struct FormulaOptions {
   std::vector<FormulaVariable> variables;
 };
+
+// A ligand abbreviation accepted in formulas (data/ligand_abbreviations.tsv).
+struct LigandAbbreviation {
+  std::string abbreviation;  // As written: "bpy", "Cp".
+  std::string unit;          // The unit it stands for: "2,2'-bipyridine".
+  std::string formula;       // The unit written out: "C10H8N2".
+  std::string source;
+  // `formula` as (element, count) terms, in order: (C, 10), (H, 8), (N, 2).
+  std::vector<std::pair<const Element*, int>> terms;
+};
+
+// Every abbreviation, in table order. Thread-safe; the table is built on
+// first use.
+absl::Span<const LigandAbbreviation> LigandAbbreviations();
+
+// The abbreviation written exactly as `abbreviation` (case-sensitive), or
+// null. Thread-safe.
+const LigandAbbreviation* FindLigandAbbreviation(
+    absl::string_view abbreviation);
 
 // Parses a record's variables: "x=0.3", "x=0.3, δ=0.05" (',' or ';'
 // between them; values are decimals with at most kMaxCountDecimals

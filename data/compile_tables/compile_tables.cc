@@ -12,7 +12,8 @@
 //       --exceptions=configuration_exceptions.tsv
 //       --departures=ground_level_departures.tsv
 //       --moments=measured_moments.tsv --oxidation=oxidation_states.tsv
-//       --units=units.tsv --ligands=spectrochemical_series.tsv
+//       --units=units.tsv --abbreviations=ligand_abbreviations.tsv
+//       --ligands=spectrochemical_series.tsv
 //       --crossover=spin_crossover.tsv
 //       --chalcogenide=chalcogenide_states.tsv
 //       --intervals=multiplet_intervals.tsv
@@ -170,6 +171,7 @@ std::optional<int> ParseArgs(int argc, char** argv, Paths* paths) {
       {"moments", "measured_moments.tsv"},
       {"oxidation", "oxidation_states.tsv"},
       {"units", "units.tsv"},
+      {"abbreviations", "ligand_abbreviations.tsv"},
       {"ligands", "spectrochemical_series.tsv"},
       {"crossover", "spin_crossover.tsv"},
       {"chalcogenide", "chalcogenide_states.tsv"},
@@ -499,6 +501,45 @@ int main(int argc, char** argv) {
   out << "constexpr UnitAtomRow kUnitAtoms[] = {\n"
       << unit_atoms.str() << "};\n\n";
   out << "constexpr UnitRow kUnits[] = {\n" << unit_rows.str() << "};\n\n";
+
+  // --- ligand_abbreviations.tsv ---------------------------------------------
+  // Each abbreviation names a unit; it must never be read as element
+  // symbols, so that no formula that parses without it changes meaning.
+  const Table abbreviations =
+      ReadTable(args.at("abbreviations"), {"abbreviation", "unit", "source"});
+  out << "constexpr LigandAbbreviationRow kLigandAbbreviations[] = {\n";
+  std::set<std::string> abbreviation_names;
+  for (const Row& r : abbreviations.rows) {
+    const std::string& a = r.fields[0];
+    if (!abbreviation_names.insert(a).second) {
+      Fail(abbreviations.path, r.line, "duplicate abbreviation '" + a + "'");
+    }
+    bool letters = a.size() >= 2 && a.size() <= 8;
+    for (size_t i = 0; i < a.size() && letters; ++i) {
+      const unsigned char c = static_cast<unsigned char>(a[i]);
+      letters = std::islower(c) || (i == 0 && std::isupper(c));
+    }
+    if (!letters) {
+      Fail(abbreviations.path, r.line,
+           "abbreviation '" + a +
+               "' must be 2 to 8 ASCII letters, lower case after the first");
+    }
+    if (z_by_symbol.count(a) > 0) {
+      Fail(abbreviations.path, r.line,
+           "abbreviation '" + a + "' is an element symbol");
+    }
+    int unit = -1;
+    for (size_t k = 0; k < units.rows.size(); ++k) {
+      if (units.rows[k].fields[0] == r.fields[1]) unit = static_cast<int>(k);
+    }
+    if (unit < 0) {
+      Fail(abbreviations.path, r.line,
+           "unit '" + r.fields[1] + "' is not a unit in units.tsv");
+    }
+    out << "    {" << Literal(a) << ", " << unit << ", " << Literal(r.fields[2])
+        << "},\n";
+  }
+  out << "};\n\n";
 
   // --- spectrochemical_series.tsv -------------------------------------------
   const Table ligands = ReadTable(
@@ -869,6 +910,8 @@ int main(int argc, char** argv) {
          "  return kOxidation;\n}\n"
          "absl::Span<const UnitAtomRow> UnitAtomRows() { return kUnitAtoms; }\n"
          "absl::Span<const UnitRow> UnitRows() { return kUnits; }\n"
+         "absl::Span<const LigandAbbreviationRow> LigandAbbreviationRows() {\n"
+         "  return kLigandAbbreviations;\n}\n"
          "absl::Span<const LigandRow> LigandRows() { return kLigands; }\n"
          "absl::Span<const SpinCrossoverRow> SpinCrossoverRows() {\n"
          "  return kCrossover;\n}\n"

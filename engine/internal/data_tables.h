@@ -82,6 +82,13 @@ struct UnitRow {
   const char* source;
 };
 
+// data/ligand_abbreviations.tsv
+struct LigandAbbreviationRow {
+  const char* abbreviation;  // "bpy", "Cp".
+  int unit;                  // Index into UnitRows().
+  const char* source;
+};
+
 // data/spectrochemical_series.tsv
 struct LigandRow {
   const char* ligand;       // A unit name, or "" for a monatomic anion.
@@ -203,6 +210,7 @@ absl::Span<const MeasuredMomentRow> MeasuredMomentRows();
 absl::Span<const OxidationStateRow> OxidationStateRows();
 absl::Span<const UnitAtomRow> UnitAtomRows();
 absl::Span<const UnitRow> UnitRows();
+absl::Span<const LigandAbbreviationRow> LigandAbbreviationRows();
 absl::Span<const LigandRow> LigandRows();
 absl::Span<const SpinCrossoverRow> SpinCrossoverRows();
 absl::Span<const ChalcogenideStateRow> ChalcogenideStateRows();

@@ -282,6 +282,47 @@ TEST_F(CheckTest, AllValidInputExitsZero) {
   for (const v1::RecordReport& report : reports) EXPECT_TRUE(report.valid());
 }
 
+// Ligand abbreviations reach check's records: each abbreviated record
+// gets the report of its written-out twin, apart from the formula text.
+TEST_F(CheckTest, LigandAbbreviationsInRecords) {
+  WriteFile(Path("ligands.csv"), std::string(kHeader) +
+                                     "\n"
+                                     "a,\"[Fe(bpy)3]Cl2\",,,\n"
+                                     "b,\"[Fe(C10H8N2)3]Cl2\",,,\n"
+                                     "c,\"K3[Fe(ox)3]\",,,\n"
+                                     "d,\"K3[Fe(C2O4)3]\",,,\n"
+                                     "e,\"[Fe(bpz)3]Cl2\",,,\n");
+  CommandResult r =
+      Check({Path("ligands.csv"), "--out", Path("ligands.jsonl")});
+  EXPECT_EQ(r.exit_code, 1) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("5 rows: 4 valid, 1 invalid"));
+  std::vector<v1::RecordReport> reports =
+      ParseReports(ReadFile(Path("ligands.jsonl")));
+  ASSERT_EQ(reports.size(), 5u);
+  EXPECT_EQ(reports[0].formula(), "[Fe(bpy)3]Cl2");  // As the record wrote.
+  for (int i : {0, 2}) {
+    v1::RecordReport abbreviated = reports[i];
+    v1::RecordReport written_out = reports[i + 1];
+    EXPECT_TRUE(abbreviated.valid()) << abbreviated.id();
+    for (v1::RecordReport* report : {&abbreviated, &written_out}) {
+      report->clear_id();
+      report->clear_row();
+      report->clear_formula();
+    }
+    EXPECT_EQ(abbreviated.SerializeAsString(), written_out.SerializeAsString())
+        << reports[i].id();
+  }
+  // [Fe(bpy)3]2+ low spin, diamagnetic; [Fe(ox)3]3- high spin, 5 unpaired
+  // (Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed., from
+  // memory).
+  EXPECT_EQ(reports[0].unpaired_per_formula_unit(), 0);
+  EXPECT_EQ(reports[2].unpaired_per_formula_unit(), 5);
+  EXPECT_FALSE(reports[4].valid());
+  EXPECT_TRUE(HasErrorWithCode(reports[4], "malformed_formula"));
+  EXPECT_THAT(reports[4].diagnostics(0).message(),
+              HasSubstr("unknown ligand abbreviation 'bpz' at column 5"));
+}
+
 TEST_F(CheckTest, MissingInputFileIsUsageError) {
   CommandResult r =
       Check({Path("does_not_exist.csv"), "--out", Path("o.jsonl")});

@@ -32,6 +32,7 @@ CommandResult RunWith(const std::string& table, const std::string& contents) {
       {"moments", "measured_moments"},
       {"oxidation", "oxidation_states"},
       {"units", "units"},
+      {"abbreviations", "ligand_abbreviations"},
       {"ligands", "spectrochemical_series"},
       {"crossover", "spin_crossover"},
       {"chalcogenide", "chalcogenide_states"},
@@ -227,6 +228,43 @@ TEST(CompileTables, LigandMustBeAUnitOrAnElement) {
   CommandResult r = RunWith("spectrochemical_series", t);
   EXPECT_EQ(r.exit_code, 1);
   EXPECT_THAT(r.err, HasSubstr("neither a unit in units.tsv nor an element"));
+}
+
+// A capitalised abbreviation that is an element symbol would change the
+// meaning of formulas that parse today ("Co" is cobalt).
+TEST(CompileTables, AbbreviationMustNotBeAnElementSymbol) {
+  std::string t = RealTable("ligand_abbreviations");
+  t += "Co\tcarbon monoxide\tinvented for this test\n";
+  CommandResult r = RunWith("ligand_abbreviations", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("ligand_abbreviations.tsv:"));
+  EXPECT_THAT(r.err, HasSubstr("abbreviation 'Co' is an element symbol"));
+}
+
+TEST(CompileTables, AbbreviationMustBeLettersLowerCaseAfterTheFirst) {
+  for (const char* bad : {"x", "bPy", "py2", "p-y"}) {
+    std::string t = RealTable("ligand_abbreviations");
+    t += std::string(bad) + "\tpyridine\tinvented for this test\n";
+    CommandResult r = RunWith("ligand_abbreviations", t);
+    EXPECT_EQ(r.exit_code, 1) << bad;
+    EXPECT_THAT(r.err, HasSubstr("must be 2 to 8 ASCII letters")) << bad;
+  }
+}
+
+TEST(CompileTables, AbbreviationMustNameAUnit) {
+  std::string t = RealTable("ligand_abbreviations");
+  t += "tmen\tno such unit\tinvented for this test\n";
+  CommandResult r = RunWith("ligand_abbreviations", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("unit 'no such unit' is not a unit"));
+}
+
+TEST(CompileTables, DuplicateAbbreviationIsRejected) {
+  std::string t = RealTable("ligand_abbreviations");
+  t += "en\tethylenediamine\tinvented for this test\n";
+  CommandResult r = RunWith("ligand_abbreviations", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("duplicate abbreviation 'en'"));
 }
 
 TEST(CompileTables, MalformedTermSymbol) {

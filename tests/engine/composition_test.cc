@@ -5,10 +5,13 @@
 
 #include <cmath>
 #include <string>
+#include <utility>
 #include <vector>
 
+#include "absl/strings/str_cat.h"
 #include "engine/oxidation.h"
 #include "engine/rational.h"
+#include "engine/units.h"
 #include "gmock/gmock.h"
 #include "gtest/gtest.h"
 
@@ -756,6 +759,137 @@ TEST(Composition, IonicCompositionKeepsLocalMoments) {
   EXPECT_EQ(r.structure_family, "spinel");
   EXPECT_EQ(r.unpaired_per_formula_unit, 14);  // Fe2+ 4 + 2 x Fe3+ 5.
   EXPECT_EQ(r.total_valence_electrons, 48);    // 3 x 8 + 4 x 6.
+}
+
+// What a report says, as text, for comparing two writings of a compound:
+// states with their units, ions with unpaired electrons, spin state and
+// moments, and the totals.
+std::string AnalysisText(const CompositionReport& r) {
+  std::string out =
+      absl::StrCat("valid=", r.valid, " kind=", Name(r.kind), "\n");
+  if (r.assignment.has_value()) {
+    for (const AssignedState& s : r.assignment->states) {
+      absl::StrAppend(
+          &out, s.element->symbol, s.state, " x", s.count.ToString(), " ",
+          s.unit < 0 ? "" : r.assignment->units[s.unit].unit->name, "\n");
+    }
+  }
+  for (const IonAnnotation& ion : r.ions) {
+    absl::StrAppend(&out, ion.element->symbol, ion.state, " x",
+                    ion.count.ToString(), " unpaired ",
+                    ion.description->unpaired_electrons);
+    if (ion.description->ligand_field.has_value()) {
+      absl::StrAppend(
+          &out, " ", Name(ion.description->ligand_field->splitting.spin_state));
+    }
+    absl::StrAppend(&out, " moment ", ion.moment, " [", ion.moment_low, ", ",
+                    ion.moment_high, "] ligand ",
+                    ion.ligand == nullptr ? "-" : ion.ligand->Name(), "\n");
+  }
+  for (const UnitAnnotation& u : r.units) {
+    absl::StrAppend(&out, u.unit->name, " x", u.count.ToString(), "\n");
+  }
+  absl::StrAppend(&out, "unpaired ", r.unpaired_per_formula_unit, " moment ",
+                  r.effective_moment_per_formula_unit, " [",
+                  r.expected_moment_low, ", ", r.expected_moment_high,
+                  "] curie ", r.curie_constant, "\n");
+  for (const Diagnostic& d : r.diagnostics) absl::StrAppend(&out, d.code, "\n");
+  return out;
+}
+
+// A ligand abbreviation gives the analysis of the ligand written out
+// (data/ligand_abbreviations.tsv; molecular formulas worked out by hand
+// from the structures, common practice, no source).
+TEST(CompositionAbbreviations, AbbreviatedAndWrittenOutAnalyseAlike) {
+  const std::pair<const char*, const char*> kPairs[] = {
+      {"[Fe(bpy)3]Cl2", "[Fe(C10H8N2)3]Cl2"},
+      {"[Fe(bipy)3]Cl2", "[Fe(C10H8N2)3]Cl2"},
+      {"[Co(en)3]Cl3", "[Co(C2H8N2)3]Cl3"},
+      {"[Ni(en)3]Cl2", "[Ni(C2H8N2)3]Cl2"},
+      {"Fe(acac)3", "Fe(C5H7O2)3"},
+      {"[Fe(phen)3]SO4", "[Fe(C12H8N2)3]SO4"},
+      {"[Ni(py)4]Cl2", "[Ni(C5H5N)4]Cl2"},
+      {"K3[Fe(ox)3]", "K3[Fe(C2O4)3]"},
+      {"Fe(Cp)2", "Fe(C5H5)2"},
+      {"FeCp2", "Fe(C5H5)2"},
+      {"[Fe(terpy)2]Cl2", "[Fe(C15H11N3)2]Cl2"},
+      {"[Fe(tpy)2]Cl2", "[Fe(C15H11N3)2]Cl2"},
+      {"[Co(dien)2]Cl3", "[Co(C4H13N3)2]Cl3"},
+      {"Na[Fe(edta)]", "Na[Fe(C10H12N2O8)]"},
+      {"[Cu(gly)2]", "[Cu(C2H4NO2)2]"},
+      {"[Cu(pz)4](NO3)2", "[Cu(C4H4N2)4](NO3)2"},
+      {"[Ni(en)3]Cl2·2H2O", "[Ni(C2H8N2)3]Cl2·2H2O"},
+      {"[PtCl2en]", "[PtCl2(C2H8N2)]"},
+      {"[Co(NH3)4en]Cl3", "[Co(NH3)4(C2H8N2)]Cl3"},
+      {"SnCl4·2py", "SnCl4·2C5H5N"},
+  };
+  for (const auto& [abbreviated, written_out] : kPairs) {
+    SCOPED_TRACE(abbreviated);
+    const CompositionReport a = Analyze(abbreviated);
+    const CompositionReport b = Analyze(written_out);
+    EXPECT_TRUE(a.valid) << DiagnosticsText(a);
+    EXPECT_EQ(a.ions.size(), b.ions.size());
+    EXPECT_EQ(AnalysisText(a), AnalysisText(b));
+  }
+}
+
+// Expected outcomes of abbreviated formulas, each with its source.
+TEST(CompositionAbbreviations, ClassicComplexesHaveTheirSpinStates) {
+  struct Case {
+    const char* formula;
+    const char* ion;  // "Fe" with `state`.
+    int state;
+    int unpaired;
+    const char* spin;  // "low", "high", or "" for no spin choice.
+  };
+  const Case kCases[] = {
+      // Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed., from
+      // memory: [Fe(bpy)3]2+ low spin, diamagnetic.
+      {"[Fe(bpy)3]Cl2", "Fe", 2, 0, "low"},
+      // Greenwood and Earnshaw, 2nd ed., from memory: ferroin low spin.
+      {"[Fe(phen)3]SO4", "Fe", 2, 0, "low"},
+      // Figgis and Lewis, magnetochemistry tables, from memory: Fe(acac)3
+      // high spin, 5.9 μB, five unpaired electrons.
+      {"Fe(acac)3", "Fe", 3, 5, "high"},
+      // Greenwood and Earnshaw, 2nd ed., from memory: [Co(en)3]3+ low spin,
+      // diamagnetic.
+      {"[Co(en)3]Cl3", "Co", 3, 0, "low"},
+      // Figgis and Lewis, from memory: octahedral Ni(II), two unpaired
+      // electrons, no spin choice.
+      {"[Ni(en)3]Cl2", "Ni", 2, 2, ""},
+      // Greenwood and Earnshaw, 2nd ed., from memory: [Fe(ox)3]3- high spin.
+      {"K3[Fe(ox)3]", "Fe", 3, 5, "high"},
+      // Greenwood and Earnshaw, 2nd ed., from memory: ferrocene diamagnetic.
+      {"FeCp2", "Fe", 2, 0, "low"},
+      // Greenwood and Earnshaw, 2nd ed., from memory: [Fe(terpy)2]2+ low spin.
+      {"[Fe(terpy)2]Cl2", "Fe", 2, 0, "low"},
+  };
+  for (const Case& c : kCases) {
+    SCOPED_TRACE(c.formula);
+    const CompositionReport r = Analyze(c.formula);
+    ASSERT_TRUE(r.valid) << DiagnosticsText(r);
+    const IonAnnotation* found = nullptr;
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->symbol == c.ion && ion.state == c.state) found = &ion;
+    }
+    ASSERT_NE(found, nullptr);
+    EXPECT_EQ(found->description->unpaired_electrons, c.unpaired);
+    if (c.spin[0] != '\0') {
+      ASSERT_TRUE(found->description->ligand_field.has_value());
+      EXPECT_EQ(Name(found->description->ligand_field->splitting.spin_state),
+                c.spin);
+    }
+    EXPECT_DOUBLE_EQ(r.unpaired_per_formula_unit, c.unpaired);
+  }
+}
+
+TEST(CompositionAbbreviations, UnknownAbbreviationIsAMalformedFormula) {
+  const CompositionReport r = Analyze("[Fe(bpz)3]Cl2");
+  EXPECT_FALSE(r.valid);
+  const Diagnostic* d = Find(r, "malformed_formula");
+  ASSERT_NE(d, nullptr) << DiagnosticsText(r);
+  EXPECT_EQ(d->column, 5);
+  EXPECT_THAT(d->message, ::testing::HasSubstr("'bpz'"));
 }
 
 }  // namespace

@@ -8,6 +8,7 @@
 #include "engine/formula.h"
 
 #include <cstdint>
+#include <iterator>
 #include <ostream>
 #include <random>
 #include <string>
@@ -16,6 +17,7 @@
 
 #include "absl/status/status.h"
 #include "absl/strings/str_cat.h"
+#include "absl/strings/str_split.h"
 #include "engine/rational.h"
 #include "gmock/gmock.h"
 #include "gtest/gtest.h"
@@ -663,6 +665,169 @@ TEST(FormulaNotations, RegressionDidYouMeanSuggestsRealSymbolsOnly) {
   EXPECT_THAT(issue.message, HasSubstr("did you mean 'Fe'?"));
   EXPECT_FALSE(ParseFormula("o2", &issue).ok());
   EXPECT_THAT(issue.message, HasSubstr("did you mean 'O'?"));
+}
+
+// Ligand abbreviations (data/ligand_abbreviations.tsv). The written-out
+// formulas are the ligands' molecular formulas (IUPAC Nomenclature of
+// Inorganic Chemistry, Recommendations 2005, Table VII, from memory; the
+// formulas worked out by hand from the structures).
+struct AbbreviationCase {
+  const char* abbreviation;
+  const char* written_out;
+};
+constexpr AbbreviationCase kAbbreviations[] = {
+    {"acac", "C5H7O2"},    {"bpy", "C10H8N2"},  {"bipy", "C10H8N2"},
+    {"Cp", "C5H5"},        {"dien", "C4H13N3"}, {"edta", "C10H12N2O8"},
+    {"en", "C2H8N2"},      {"gly", "C2H4NO2"},  {"ox", "C2O4"},
+    {"phen", "C12H8N2"},   {"py", "C5H5N"},     {"pz", "C4H4N2"},
+    {"terpy", "C15H11N3"}, {"tpy", "C15H11N3"},
+};
+
+// The amounts of `text` as "Sym=count" in formula order.
+std::string AmountsText(absl::string_view text) {
+  const Formula f = ParseOrFail(text);
+  std::string out;
+  for (const auto& [symbol, count] : CountsOf(f)) {
+    absl::StrAppend(&out, symbol, "=", count.ToString(), " ");
+  }
+  return out;
+}
+
+TEST(FormulaAbbreviations, EveryAbbreviationIsItsLigandsAtoms) {
+  ASSERT_EQ(LigandAbbreviations().size(), std::size(kAbbreviations));
+  for (const AbbreviationCase& c : kAbbreviations) {
+    SCOPED_TRACE(c.abbreviation);
+    const LigandAbbreviation* a = FindLigandAbbreviation(c.abbreviation);
+    ASSERT_NE(a, nullptr);
+    EXPECT_EQ(a->formula, c.written_out);
+    EXPECT_THAT(a->source, ::testing::Not(IsEmpty()));
+    // Alone, in brackets with a count, and beside a metal in a complex.
+    EXPECT_EQ(AmountsText(c.abbreviation), AmountsText(c.written_out));
+    EXPECT_EQ(AmountsText(absl::StrCat("[Co(", c.abbreviation, ")2]Cl2")),
+              AmountsText(absl::StrCat("[Co(", c.written_out, ")2]Cl2")));
+    EXPECT_EQ(AmountsText(absl::StrCat("Fe(", c.abbreviation, ")3")),
+              AmountsText(absl::StrCat("Fe(", c.written_out, ")3")));
+  }
+}
+
+TEST(FormulaAbbreviations, CountsMultiplyThroughNestedGroups) {
+  // [Fe(bpy)3]Cl2: C 3 x 10, H 3 x 8, N 3 x 2.
+  EXPECT_THAT(CountsOf(ParseOrFail("[Fe(bpy)3]Cl2")),
+              ElementsAre(Pair("Fe", Rational(1)), Pair("C", Rational(30)),
+                          Pair("H", Rational(24)), Pair("N", Rational(6)),
+                          Pair("Cl", Rational(2))));
+  // K3[Fe(ox)3]: C 3 x 2, O 3 x 4.
+  EXPECT_THAT(CountsOf(ParseOrFail("K3[Fe(ox)3]")),
+              ElementsAre(Pair("K", Rational(3)), Pair("Fe", Rational(1)),
+                          Pair("C", Rational(6)), Pair("O", Rational(12))));
+  // Two complexes, each with two en.
+  EXPECT_THAT(CountsOf(ParseOrFail("([Co(en)2]Cl2)2")),
+              ElementsAre(Pair("Co", Rational(2)), Pair("C", Rational(8)),
+                          Pair("H", Rational(32)), Pair("N", Rational(8)),
+                          Pair("Cl", Rational(4))));
+  // A bare abbreviation takes the count after it: FeCp2 is Fe(C5H5)2.
+  EXPECT_THAT(CountsOf(ParseOrFail("FeCp2")),
+              ElementsAre(Pair("Fe", Rational(1)), Pair("C", Rational(10)),
+                          Pair("H", Rational(10))));
+  // Mixed with written ligands and a metal written straight before it.
+  EXPECT_EQ(AmountsText("[Co(NH3)4en]Cl3"),
+            AmountsText("[Co(NH3)4(C2H8N2)]Cl3"));
+  EXPECT_EQ(AmountsText("[Nien3]Cl2"), AmountsText("[Ni(C2H8N2)3]Cl2"));
+  EXPECT_EQ(AmountsText("[PtCl2py2]"), AmountsText("[PtCl2(C5H5N)2]"));
+  // "dien" after a group is the ligand, not the variable d.
+  EXPECT_EQ(AmountsText("[Co(NH3)3dien]Cl3"),
+            AmountsText("[Co(NH3)3(C4H13N3)]Cl3"));
+  EXPECT_EQ(AmountsText("[Co(NH3)dien(NH3)2]Cl3"),
+            AmountsText("[Co(NH3)(C4H13N3)(NH3)2]Cl3"));
+}
+
+TEST(FormulaAbbreviations, HydratesAndChargesAroundAbbreviations) {
+  EXPECT_EQ(AmountsText("[Ni(en)3]Cl2·2H2O"),
+            AmountsText("[Ni(C2H8N2)3]Cl2·2H2O"));
+  EXPECT_EQ(AmountsText("K3[Fe(ox)3]*3H2O"), AmountsText("K3[Fe(C2O4)3]*3H2O"));
+  // An adduct part that is one abbreviation: SnCl4·2py.
+  EXPECT_EQ(AmountsText("SnCl4·2py"), AmountsText("SnCl4·2C5H5N"));
+  const Formula ion = ParseOrFail("[Fe(phen)3]2+");
+  EXPECT_EQ(ion.charge, 2);
+  EXPECT_EQ(AmountsText("[Fe(phen)3]2+"), AmountsText("[Fe(C12H8N2)3]2+"));
+}
+
+TEST(FormulaAbbreviations, WrittenStructureMatchesTheWrittenOutFormula) {
+  // "(bpy)3" is one group holding the ligand's terms, as "(C10H8N2)3".
+  for (const char* pair :
+       {"[Fe(bpy)3]Cl2|[Fe(C10H8N2)3]Cl2", "Fe(acac)3|Fe(C5H7O2)3",
+        "FeCp2|Fe(C5H5)2", "SnCl4·2py|SnCl4·2C5H5N"}) {
+    const std::vector<std::string> texts = absl::StrSplit(pair, '|');
+    SCOPED_TRACE(pair);
+    const Formula a = ParseOrFail(texts[0]);
+    const Formula b = ParseOrFail(texts[1]);
+    ASSERT_EQ(a.terms.size(), b.terms.size());
+    for (size_t i = 0; i < a.terms.size(); ++i) {
+      EXPECT_EQ(a.terms[i].element, b.terms[i].element) << i;
+      EXPECT_EQ(a.terms[i].count, b.terms[i].count) << i;
+      EXPECT_EQ(a.terms[i].multiplier, b.terms[i].multiplier) << i;
+      EXPECT_EQ(a.terms[i].group, b.terms[i].group) << i;
+    }
+    ASSERT_EQ(a.groups.size(), b.groups.size());
+    for (size_t g = 0; g < a.groups.size(); ++g) {
+      EXPECT_EQ(a.groups[g].bracket, b.groups[g].bracket) << g;
+      EXPECT_EQ(a.groups[g].first_term, b.groups[g].first_term) << g;
+      EXPECT_EQ(a.groups[g].end_term, b.groups[g].end_term) << g;
+      EXPECT_EQ(a.groups[g].multiplier, b.groups[g].multiplier) << g;
+    }
+  }
+}
+
+TEST(FormulaAbbreviations, ElementSymbolsKeepTheirMeaning) {
+  // Capitalised words that are symbols never become abbreviations, and
+  // abbreviations are case-sensitive.
+  EXPECT_THAT(CountsOf(ParseOrFail("CoCl2")),
+              ElementsAre(Pair("Co", Rational(1)), Pair("Cl", Rational(2))));
+  for (const char* symbol : {"Cs", "Cu", "Po", "Pu", "Np", "Pd", "Pb", "Pt"}) {
+    const Formula f = ParseOrFail(absl::StrCat(symbol, "2O"));
+    ASSERT_EQ(f.amounts.size(), 2u) << symbol;
+    EXPECT_EQ(f.amounts[0].element->symbol, symbol);
+  }
+  // "BPY" is boron, phosphorus and yttrium, as before.
+  EXPECT_THAT(CountsOf(ParseOrFail("BPY")),
+              ElementsAre(Pair("B", Rational(1)), Pair("P", Rational(1)),
+                          Pair("Y", Rational(1))));
+  FormulaIssue issue;
+  EXPECT_FALSE(ParseFormula("Fe(cp)2", &issue).ok());
+  EXPECT_EQ(issue.code, "malformed_formula");
+  EXPECT_THAT(issue.message, HasSubstr("'cp'"));
+  // A capitalised abbreviation is pointed to its written form.
+  EXPECT_FALSE(ParseFormula("[Fe(Bpy)3]Cl2", &issue).ok());
+  EXPECT_THAT(issue.message, HasSubstr("did you mean 'bpy'?"));
+  // Only d- and f-block metals take an abbreviation written straight after
+  // them: "Bipy" is not Bi with py.
+  EXPECT_FALSE(ParseFormula("Bipy", &issue).ok());
+  EXPECT_EQ(issue.code, "unknown_element");
+  EXPECT_THAT(issue.message, HasSubstr("did you mean 'bipy'?"));
+  // Variables still read as variables.
+  FormulaOptions options;
+  options.variables = {{"x", Rational(1, 2)}};
+  absl::StatusOr<Formula> v = ParseFormula("Fe(py)x", options);
+  ASSERT_TRUE(v.ok()) << v.status();
+  EXPECT_EQ(v->amounts[1].count, Rational(5, 2));
+}
+
+TEST(FormulaAbbreviations, UnknownAbbreviationNamesItsTextAndColumn) {
+  FormulaIssue issue;
+  absl::StatusOr<Formula> f = ParseFormula("[Fe(bpz)3]Cl2", &issue);
+  ASSERT_FALSE(f.ok());
+  EXPECT_EQ(issue.code, "malformed_formula");
+  EXPECT_EQ(issue.column, 5);
+  EXPECT_THAT(issue.message,
+              HasSubstr("unknown ligand abbreviation 'bpz' at column 5"));
+  EXPECT_THAT(issue.message, HasSubstr("bpy"));  // The known ones listed.
+  EXPECT_THAT(std::string(f.status().message()), HasSubstr("[Fe(bpz)3]Cl2"));
+  EXPECT_FALSE(ParseFormula("[Co(NH3)5tmen]Cl3", &issue).ok());
+  EXPECT_EQ(issue.column, 10);
+  EXPECT_THAT(issue.message, HasSubstr("'tmen' at column 10"));
+  // A miscased symbol keeps its hint.
+  EXPECT_FALSE(ParseFormula("[Fe(en)3]cl2", &issue).ok());
+  EXPECT_THAT(issue.message, HasSubstr("did you mean 'Cl'?"));
 }
 
 }  // namespace

@@ -226,7 +226,11 @@ TEST(RealCompounds, TableCoversTheClasses) {
                            "water",
                            "ammonia",
                            "carbon monoxide",
-                           "ethylenediamine"}) {
+                           "ethylenediamine",
+                           "diethylenetriamine",
+                           "2,2':6',2''-terpyridine",
+                           "glycinate",
+                           "ethylenediaminetetraacetate"}) {
     EXPECT_GT(units[name], 0) << name;
   }
 }

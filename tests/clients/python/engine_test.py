@@ -140,6 +140,23 @@ class AnalyzeTest(unittest.TestCase):
         self.assertIn("unknown element 'Xx' at column 1",
                       report["diagnostics"][0]["message"])
 
+    def test_ligand_abbreviations(self):
+        # [Co(en)3]3+ low spin, diamagnetic (Greenwood and Earnshaw,
+        # Chemistry of the Elements, 2nd ed., from memory); the abbreviated
+        # record reports as its written-out twin, formula text aside.
+        short = shellwright.analyze("[Co(en)3]Cl3")
+        full = shellwright.analyze("[Co(C2H8N2)3]Cl3")
+        self.assertTrue(short["valid"])
+        self.assertEqual(short["formula"], "[Co(en)3]Cl3")
+        self.assertEqual(short["unpaired_per_formula_unit"], 0)
+        for report in (short, full):
+            del report["formula"]
+        self.assertEqual(short, full)
+        bad = shellwright.analyze("[Co(enn)3]Cl3")
+        self.assertFalse(bad["valid"])
+        self.assertIn("unknown ligand abbreviation 'enn' at column 5",
+                      bad["diagnostics"][0]["message"])
+
     def test_bad_arguments_raise(self):
         with self.assertRaisesRegex(TypeError, r"^formula: expected str, "
                                                r"got int 42"):
