@@ -56,17 +56,21 @@ struct ElementPlan {
   absl::InlinedVector<StateOption, 1> fixed_options;
   bool custom = false;
   absl::InlinedVector<StateOption, 1> fixed_common_options;  // custom.
+  // A free element's StateOptions() and CommonStateOptions(), looked up
+  // once (the tables outlive every plan).
+  absl::Span<const StateOption> table_options;
+  absl::Span<const StateOption> table_common_options;
 
   absl::Span<const StateOption> options() const {
     if (declared || match != nullptr || custom) return fixed_options;
-    return internal::StateOptions(*element);
+    return table_options;
   }
   // The options whose states are all common, with their index in
   // options(); all of them for a declared element or a unit.
   absl::Span<const StateOption> common_options() const {
     if (custom && !declared) return fixed_common_options;
     if (declared || match != nullptr) return fixed_options;
-    return internal::CommonStateOptions(*element);
+    return table_common_options;
   }
 };
 
@@ -198,6 +202,8 @@ bool MakePlans(const Formula& formula, const Rational& scale,
         a.element->atomic_number == 6 || a.element->atomic_number == 7;
     ElementPlan& p = plans.emplace_back();
     p.element = a.element;
+    p.table_options = internal::StateOptions(*a.element);
+    p.table_common_options = internal::CommonStateOptions(*a.element);
     p.count = count;
     p.scaled_count = in_unit ? (count * scale).num() : scaled_counts[i];
     for (const DeclaredState& d : options.declared) {
@@ -640,8 +646,10 @@ Solution SolveReading(const Plans& plans, const Forbidden& forbidden,
 // The readings to try: none, the greedy maximal set of non-overlapping
 // matches (groups first, then longer runs), and that set without each of
 // its runs in turn (refilled greedily): at most 2 + kMaxUnitMatches.
-std::vector<Reading> Readings(const UnitMatches& matches) {
-  std::vector<Reading> readings(1);
+using ReadingList = absl::InlinedVector<Reading, 4>;
+
+ReadingList Readings(const UnitMatches& matches) {
+  ReadingList readings(1);
   if (matches.empty()) return readings;
   auto greedy = [&](const UnitMatch* skip) {
     Reading r;
@@ -709,7 +717,7 @@ BestReading SearchReadings(const Formula& formula,
                            const OxidationOptions& options,
                            const Rational& scale, Search* search) {
   BestReading best;
-  const std::vector<Reading> readings = Readings(search->matches);
+  const ReadingList readings = Readings(search->matches);
   Plans plans;
   for (const bool strict : {true, false}) {
     search->strict = strict;

@@ -336,11 +336,15 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
       if (visits > limits.budget->cell_visits) return exhaust();
       limits.budget->cell_visits -= visits;
     }
+    // The buffers only grow (ReleaseSearchScratch trims them): a layer
+    // narrower than the last one held reuses its storage as it is.
+    const size_t width = static_cast<size_t>(next_hi - next_lo + 1);
     std::vector<int64_t>& next_layer = cost[i + 1];
-    next_layer.assign(next_hi - next_lo + 1, kInfinity);
+    if (next_layer.size() < width) next_layer.resize(width);
+    std::fill_n(next_layer.data(), width, kInfinity);
     // Only cells with a finite cost are ever read back, and each of those
     // is written below: no need to clear.
-    back[i + 1].resize(next_hi - next_lo + 1);
+    if (back[i + 1].size() < width) back[i + 1].resize(width);
     int64_t* const next = next_layer.data();
     Choice* const next_back = back[i + 1].data();
     const int64_t* const prev = cost[i].data();
