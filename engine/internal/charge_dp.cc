@@ -383,6 +383,26 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
       const int64_t d = o.high - o.low;
       const int64_t base = c * o.high;
       const int64_t per_low_atom = o.per_low_atom.packed();
+      if (reach_lo == reach_hi) {
+        // One reachable cell (always so in the first layer): each k
+        // reaches one total from it, and there is no window to slide.
+        // Totals are independent, so visiting them by k finds what the
+        // queue would.
+        const int64_t from = reach_lo + base;
+        const int64_t k_begin =
+            std::max<int64_t>(1, CeilDiv(from - next_hi, d));
+        const int64_t k_end = std::min(c - 1, FloorDiv(from - next_lo, d));
+        const int64_t w0 = prev[reach_lo - prev_lo] + o.weight.packed();
+        for (int64_t k = k_begin; k <= k_end; ++k) {
+          const int64_t w = w0 + per_low_atom * k;
+          const int64_t cell = from - k * d - next_lo;
+          if (w < next[cell]) {
+            next[cell] = w;
+            next_back[cell] = Choice{oi, static_cast<int32_t>(k)};
+          }
+        }
+        continue;
+      }
       // Totals whose window meets the reachable cells.
       const int64_t t_begin = std::max(next_lo, reach_lo + base - (c - 1) * d);
       const int64_t t_end = std::min(next_hi, reach_hi + base - d);
