@@ -561,15 +561,12 @@ Solution SolveStaged(const Plans& plans, const ChargeItems& items,
   candidates.all.clear();
   const int64_t target = search->target;
   internal::WorkBudget* const budget = &search->budget;
-  if (search->one_mixed) {
-    BuildCandidates(plans, forbidden, threshold, /*common_only=*/false,
-                    search->strict, &candidates);
-    return internal::SolveChargeOneMixed(items, candidates, Widening::All(),
-                                         target,
-                                         SearchLimits{bound, false, budget});
-  }
-  BuildCandidates(plans, forbidden, threshold, /*common_only=*/true,
-                  search->strict, &candidates);
+  // The restricted search takes every allowed option at once (the wide
+  // lists); the exhaustive one starts narrow. Every return below returns
+  // `best`, which is then built in the caller's place.
+  BuildCandidates(plans, forbidden, threshold,
+                  /*common_only=*/!search->one_mixed, search->strict,
+                  &candidates);
   // Every solution shares the declared states, D of them uncommon. A
   // narrow solution (common and declared states only) weighs below
   // D + 1 uncommon states and every solution of the later stages at least
@@ -577,8 +574,13 @@ Solution SolveStaged(const Plans& plans, const ChargeItems& items,
   // uncommon state nothing in the later stages can come below it either.
   // With a higher bound, whatever the narrow stage dropped weighs at least
   // the bound, and so does everything the later stages could find.
-  Solution best = SolveCharge(items, candidates, Widening::None(), target,
-                              SearchLimits{bound, false, budget});
+  Solution best = search->one_mixed
+                      ? internal::SolveChargeOneMixed(
+                            items, candidates, Widening::All(), target,
+                            SearchLimits{bound, false, budget})
+                      : SolveCharge(items, candidates, Widening::None(), target,
+                                    SearchLimits{bound, false, budget});
+  if (search->one_mixed) return best;
   if (!best.weight.IsInfinite() || bound <= Weight::Uncommon(1) ||
       budget->exhausted) {
     return best;
