@@ -341,12 +341,12 @@ bool Allowed(const ElementPlan& p, int i, bool common_only, bool strict,
          o.high != forbidden.high;
 }
 
-// Fills the narrow (`common_only`) or wide candidate lists of every
-// element, appending to candidates->all.
-void BuildCandidates(const Plans& plans, const Forbidden& forbidden,
-                     double threshold, bool common_only, bool strict,
-                     Candidates* candidates) {
-  for (size_t i = 0; i < plans.size(); ++i) {
+// Fills the narrow (`common_only`) or wide candidate list of element `i`,
+// appending to candidates->all.
+void BuildList(const Plans& plans, size_t i, const Forbidden& forbidden,
+               double threshold, bool common_only, bool strict,
+               Candidates* candidates) {
+  {
     const ElementPlan& p = plans[i];
     const bool unit = p.match != nullptr;
     CandidateList& list =
@@ -390,6 +390,23 @@ void BuildCandidates(const Plans& plans, const Forbidden& forbidden,
     }
     list.end = candidates->all.size();
   }
+}
+
+// Fills the narrow (`common_only`) or wide candidate lists of every
+// element, appending to candidates->all.
+void BuildCandidates(const Plans& plans, const Forbidden& forbidden,
+                     double threshold, bool common_only, bool strict,
+                     Candidates* candidates) {
+  for (size_t i = 0; i < plans.size(); ++i) {
+    BuildList(plans, i, forbidden, threshold, common_only, strict, candidates);
+  }
+}
+
+// This thread's candidate lists, reused by every search (their buffer
+// keeps its capacity).
+Candidates& SearchCandidates() {
+  thread_local Candidates candidates;
+  return candidates;
 }
 
 // Atoms per formula unit of `scaled` scaled atoms.
@@ -554,19 +571,25 @@ struct Search {
 // Only a result lighter than `bound` is wanted (see SearchLimits):
 // anything else may come back as no solution. When the budget runs out
 // the result is no solution and search->budget says so.
+//
+// With `narrow_built`, SearchCandidates() holds the narrow lists for
+// `forbidden` already (exhaustive search only).
 Solution SolveStaged(const Plans& plans, const ChargeItems& items,
                      const Forbidden& forbidden, double threshold,
-                     Search* search, Weight bound = Weight::Infinite()) {
-  thread_local Candidates candidates;
-  candidates.all.clear();
+                     Search* search, Weight bound = Weight::Infinite(),
+                     bool narrow_built = false) {
+  Candidates& candidates = SearchCandidates();
   const int64_t target = search->target;
   internal::WorkBudget* const budget = &search->budget;
   // The restricted search takes every allowed option at once (the wide
   // lists); the exhaustive one starts narrow. Every return below returns
   // `best`, which is then built in the caller's place.
-  BuildCandidates(plans, forbidden, threshold,
-                  /*common_only=*/!search->one_mixed, search->strict,
-                  &candidates);
+  if (!narrow_built) {
+    candidates.all.clear();
+    BuildCandidates(plans, forbidden, threshold,
+                    /*common_only=*/!search->one_mixed, search->strict,
+                    &candidates);
+  }
   // Every solution shares the declared states, D of them uncommon. A
   // narrow solution (common and declared states only) weighs below
   // D + 1 uncommon states and every solution of the later stages at least
@@ -836,6 +859,18 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
                : w;
   };
   Weight rank_bound = rank_key(best.solution.weight, *result->best);
+  // Forbidding an option of element i changes only its own narrow list:
+  // the others are built once, and each search rebuilds element i's after
+  // them (a list's place in Candidates::all does not matter).
+  const bool reuse_narrow = !search->one_mixed;
+  Candidates& candidates = SearchCandidates();
+  size_t narrow_end = 0;
+  if (reuse_narrow) {
+    candidates.all.clear();
+    BuildCandidates(plans, Forbidden(), threshold, /*common_only=*/true,
+                    search->strict, &candidates);
+    narrow_end = candidates.all.size();
+  }
   for (size_t i = 0; i < plans.size(); ++i) {
     if (plans[i].declared) continue;
     Weight bound =
@@ -849,9 +884,17 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
     }
     const StateOption& chosen =
         plans[i].options()[best.solution.choices[i].option];
-    const Solution s = SolveStaged(
-        plans, items, Forbidden{static_cast<int>(i), chosen.low, chosen.high},
-        threshold, search, bound);
+    const Forbidden forbidden{static_cast<int>(i), chosen.low, chosen.high};
+    CandidateList unforbidden;
+    if (reuse_narrow) {
+      unforbidden = candidates.narrow[i];
+      candidates.all.resize(narrow_end);
+      BuildList(plans, i, forbidden, threshold, /*common_only=*/true,
+                search->strict, &candidates);
+    }
+    const Solution s = SolveStaged(plans, items, forbidden, threshold, search,
+                                   bound, /*narrow_built=*/reuse_narrow);
+    if (reuse_narrow) candidates.narrow[i] = unforbidden;
     if (search->budget.exhausted) {
       result->alternatives_cut = true;
       break;
