@@ -557,6 +557,9 @@ struct Search {
   UnitMatches all_matches;  // Of the formula (AssignStates finds them).
   UnitMatches matches;      // Of the formula, but those on declared elements.
   internal::WorkBudget budget{internal::kRecordCellVisits, false};
+  // The plans of the reading being tried and of the best one so far
+  // (SearchReadings): they trade places instead of being moved.
+  std::array<Plans, 2> plan_buffers;
 };
 
 // Finds the best assignment. Exhaustively, it widens the search in stages,
@@ -728,7 +731,7 @@ ReadingTerms TermsOf(const Plans& plans, const Solution& s) {
 // The best reading: its plans, its best solution, the threshold and the
 // search phase it was found in.
 struct BestReading {
-  Plans plans;
+  const Plans* plans = nullptr;  // One of Search::plan_buffers.
   Solution solution;
   ReadingTerms terms;
   double threshold = 0;
@@ -743,7 +746,8 @@ BestReading SearchReadings(const Formula& formula,
                            const Rational& scale, Search* search) {
   BestReading best;
   const ReadingList readings = Readings(search->matches);
-  Plans plans;
+  // The buffer the next reading's plans go to; the other holds the best's.
+  int work = 0;
   for (const bool strict : {true, false}) {
     search->strict = strict;
     for (const Reading& reading : readings) {
@@ -755,6 +759,7 @@ BestReading SearchReadings(const Formula& formula,
           best.terms.weak_open_atoms == 0) {
         continue;
       }
+      Plans& plans = search->plan_buffers[work];
       if (!MakePlans(formula, scale, search->scaled_counts, options, reading,
                      search->zintl, &plans)) {
         continue;
@@ -772,8 +777,10 @@ BestReading SearchReadings(const Formula& formula,
            (s.weight == best.solution.weight && !(terms < best.terms)))) {
         continue;
       }
-      // MakePlans rebuilds `plans` from scratch: take them, not a copy.
-      best.plans.swap(plans);
+      // MakePlans rebuilds a buffer from scratch: the next reading takes
+      // the other one.
+      best.plans = &plans;
+      work = 1 - work;
       best.solution = std::move(s);
       best.terms = terms;
       best.threshold = threshold;
@@ -816,12 +823,12 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
       const BestReading s = SearchReadings(formula, free, scale, search);
       if (s.found) {
         result->without_declared =
-            ToAssignment(formula, s.plans, s.solution, scale);
+            ToAssignment(formula, *s.plans, s.solution, scale);
       }
     }
     return;
   }
-  const Plans& plans = best.plans;
+  const Plans& plans = *best.plans;
   result->best = ToAssignment(formula, plans, best.solution, scale);
   // A redox-incompatible best looks for a compatible alternative even
   // when none is to be reported.
