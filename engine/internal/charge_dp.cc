@@ -328,10 +328,12 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
     hi[i + 1] = std::min(hi[i + 1], reach_hi + lists[i]->max_contribution);
     if (lo[i + 1] > hi[i + 1]) return s;
     const int64_t next_lo = lo[i + 1], next_hi = hi[i + 1];
+    // The layer's candidates; the writes below cannot change them.
+    const size_t list_begin = lists[i]->begin, list_end = lists[i]->end;
     if (limits.budget != nullptr) {
       // A mixed candidate's queue costs about four single visits a cell.
       int64_t per_cell = 0;
-      for (size_t ci = lists[i]->begin; ci < lists[i]->end; ++ci) {
+      for (size_t ci = list_begin; ci < list_end; ++ci) {
         per_cell += candidates.all[ci].low == candidates.all[ci].high
                         ? 1
                         : kMixedVisitCost;
@@ -356,7 +358,7 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
     Choice* const next_back = back[i + 1].data();
     const int64_t* const prev = cost[i].data();
     const int64_t prev_lo = lo[i];
-    for (size_t ci = lists[i]->begin; ci < lists[i]->end; ++ci) {
+    for (size_t ci = list_begin; ci < list_end; ++ci) {
       const Candidate& o = candidates.all[ci];
       const int32_t oi = o.option;
       if (o.low == o.high) {
