@@ -56,17 +56,21 @@ struct ElementPlan {
   absl::InlinedVector<StateOption, 1> fixed_options;
   bool custom = false;
   absl::InlinedVector<StateOption, 1> fixed_common_options;  // custom.
+  // A free element's StateOptions() and CommonStateOptions(), looked up
+  // once (the tables outlive every plan).
+  absl::Span<const StateOption> table_options;
+  absl::Span<const StateOption> table_common_options;
 
   absl::Span<const StateOption> options() const {
     if (declared || match != nullptr || custom) return fixed_options;
-    return internal::StateOptions(*element);
+    return table_options;
   }
   // The options whose states are all common, with their index in
   // options(); all of them for a declared element or a unit.
   absl::Span<const StateOption> common_options() const {
     if (custom && !declared) return fixed_common_options;
     if (declared || match != nullptr) return fixed_options;
-    return internal::CommonStateOptions(*element);
+    return table_common_options;
   }
 };
 
@@ -193,6 +197,8 @@ bool MakePlans(const Formula& formula, const Rational& scale,
         a.element->atomic_number == 6 || a.element->atomic_number == 7;
     ElementPlan& p = plans.emplace_back();
     p.element = a.element;
+    p.table_options = internal::StateOptions(*a.element);
+    p.table_common_options = internal::CommonStateOptions(*a.element);
     p.count = count;
     p.scaled_count = in_unit ? (count * scale).num() : scaled_counts[i];
     for (const DeclaredState& d : options.declared) {
@@ -330,12 +336,12 @@ bool Allowed(const ElementPlan& p, int i, bool common_only, bool strict,
          o.high != forbidden.high;
 }
 
-// Fills the narrow (`common_only`) or wide candidate lists of every
-// element, appending to candidates->all.
-void BuildCandidates(const Plans& plans, const Forbidden& forbidden,
-                     double threshold, bool common_only, bool strict,
-                     Candidates* candidates) {
-  for (size_t i = 0; i < plans.size(); ++i) {
+// Fills the narrow (`common_only`) or wide candidate list of element `i`,
+// appending to candidates->all.
+void BuildList(const Plans& plans, size_t i, const Forbidden& forbidden,
+               double threshold, bool common_only, bool strict,
+               Candidates* candidates) {
+  {
     const ElementPlan& p = plans[i];
     const bool unit = p.match != nullptr;
     CandidateList& list =
@@ -379,6 +385,23 @@ void BuildCandidates(const Plans& plans, const Forbidden& forbidden,
     }
     list.end = candidates->all.size();
   }
+}
+
+// Fills the narrow (`common_only`) or wide candidate lists of every
+// element, appending to candidates->all.
+void BuildCandidates(const Plans& plans, const Forbidden& forbidden,
+                     double threshold, bool common_only, bool strict,
+                     Candidates* candidates) {
+  for (size_t i = 0; i < plans.size(); ++i) {
+    BuildList(plans, i, forbidden, threshold, common_only, strict, candidates);
+  }
+}
+
+// This thread's candidate lists, reused by every search (their buffer
+// keeps its capacity).
+Candidates& SearchCandidates() {
+  thread_local Candidates candidates;
+  return candidates;
 }
 
 // Atoms per formula unit of `scaled` scaled atoms.
@@ -529,6 +552,9 @@ struct Search {
   UnitMatches all_matches;  // Of the formula (AssignStates finds them).
   UnitMatches matches;      // Of the formula, but those on declared elements.
   internal::WorkBudget budget{internal::kRecordCellVisits, false};
+  // The plans of the reading being tried and of the best one so far
+  // (SearchReadings): they trade places instead of being moved.
+  std::array<Plans, 2> plan_buffers;
 };
 
 // Finds the best assignment. Exhaustively, it widens the search in stages,
@@ -543,22 +569,25 @@ struct Search {
 // Only a result lighter than `bound` is wanted (see SearchLimits):
 // anything else may come back as no solution. When the budget runs out
 // the result is no solution and search->budget says so.
+//
+// With `narrow_built`, SearchCandidates() holds the narrow lists for
+// `forbidden` already (exhaustive search only).
 Solution SolveStaged(const Plans& plans, const ChargeItems& items,
                      const Forbidden& forbidden, double threshold,
-                     Search* search, Weight bound = Weight::Infinite()) {
-  thread_local Candidates candidates;
-  candidates.all.clear();
+                     Search* search, Weight bound = Weight::Infinite(),
+                     bool narrow_built = false) {
+  Candidates& candidates = SearchCandidates();
   const int64_t target = search->target;
   internal::WorkBudget* const budget = &search->budget;
-  if (search->one_mixed) {
-    BuildCandidates(plans, forbidden, threshold, /*common_only=*/false,
-                    search->strict, &candidates);
-    return internal::SolveChargeOneMixed(items, candidates, Widening::All(),
-                                         target,
-                                         SearchLimits{bound, false, budget});
+  // The restricted search takes every allowed option at once (the wide
+  // lists); the exhaustive one starts narrow. Every return below returns
+  // `best`, which is then built in the caller's place.
+  if (!narrow_built) {
+    candidates.all.clear();
+    BuildCandidates(plans, forbidden, threshold,
+                    /*common_only=*/!search->one_mixed, search->strict,
+                    &candidates);
   }
-  BuildCandidates(plans, forbidden, threshold, /*common_only=*/true,
-                  search->strict, &candidates);
   // Every solution shares the declared states, D of them uncommon. A
   // narrow solution (common and declared states only) weighs below
   // D + 1 uncommon states and every solution of the later stages at least
@@ -566,8 +595,13 @@ Solution SolveStaged(const Plans& plans, const ChargeItems& items,
   // uncommon state nothing in the later stages can come below it either.
   // With a higher bound, whatever the narrow stage dropped weighs at least
   // the bound, and so does everything the later stages could find.
-  Solution best = SolveCharge(items, candidates, Widening::None(), target,
-                              SearchLimits{bound, false, budget});
+  Solution best = search->one_mixed
+                      ? internal::SolveChargeOneMixed(
+                            items, candidates, Widening::All(), target,
+                            SearchLimits{bound, false, budget})
+                      : SolveCharge(items, candidates, Widening::None(), target,
+                                    SearchLimits{bound, false, budget});
+  if (search->one_mixed) return best;
   if (!best.weight.IsInfinite() || bound <= Weight::Uncommon(1) ||
       budget->exhausted) {
     return best;
@@ -635,8 +669,10 @@ Solution SolveReading(const Plans& plans, const Forbidden& forbidden,
 // The readings to try: none, the greedy maximal set of non-overlapping
 // matches (groups first, then longer runs), and that set without each of
 // its runs in turn (refilled greedily): at most 2 + kMaxUnitMatches.
-std::vector<Reading> Readings(const UnitMatches& matches) {
-  std::vector<Reading> readings(1);
+using ReadingList = absl::InlinedVector<Reading, 4>;
+
+ReadingList Readings(const UnitMatches& matches) {
+  ReadingList readings(1);
   if (matches.empty()) return readings;
   auto greedy = [&](const UnitMatch* skip) {
     Reading r;
@@ -690,7 +726,7 @@ ReadingTerms TermsOf(const Plans& plans, const Solution& s) {
 // The best reading: its plans, its best solution, the threshold and the
 // search phase it was found in.
 struct BestReading {
-  Plans plans;
+  const Plans* plans = nullptr;  // One of Search::plan_buffers.
   Solution solution;
   ReadingTerms terms;
   double threshold = 0;
@@ -704,8 +740,9 @@ BestReading SearchReadings(const Formula& formula,
                            const OxidationOptions& options,
                            const Rational& scale, Search* search) {
   BestReading best;
-  const std::vector<Reading> readings = Readings(search->matches);
-  Plans plans;
+  const ReadingList readings = Readings(search->matches);
+  // The buffer the next reading's plans go to; the other holds the best's.
+  int work = 0;
   for (const bool strict : {true, false}) {
     search->strict = strict;
     for (const Reading& reading : readings) {
@@ -717,6 +754,7 @@ BestReading SearchReadings(const Formula& formula,
           best.terms.weak_open_atoms == 0) {
         continue;
       }
+      Plans& plans = search->plan_buffers[work];
       if (!MakePlans(formula, scale, search->scaled_counts, options, reading,
                      search->zintl, &plans)) {
         continue;
@@ -734,8 +772,10 @@ BestReading SearchReadings(const Formula& formula,
            (s.weight == best.solution.weight && !(terms < best.terms)))) {
         continue;
       }
-      // MakePlans rebuilds `plans` from scratch: take them, not a copy.
-      best.plans.swap(plans);
+      // MakePlans rebuilds a buffer from scratch: the next reading takes
+      // the other one.
+      best.plans = &plans;
+      work = 1 - work;
       best.solution = std::move(s);
       best.terms = terms;
       best.threshold = threshold;
@@ -778,12 +818,12 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
       const BestReading s = SearchReadings(formula, free, scale, search);
       if (s.found) {
         result->without_declared =
-            ToAssignment(formula, s.plans, s.solution, scale);
+            ToAssignment(formula, *s.plans, s.solution, scale);
       }
     }
     return;
   }
-  const Plans& plans = best.plans;
+  const Plans& plans = *best.plans;
   result->best = ToAssignment(formula, plans, best.solution, scale);
   // A redox-incompatible best looks for a compatible alternative even
   // when none is to be reported.
@@ -821,6 +861,18 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
                : w;
   };
   Weight rank_bound = rank_key(best.solution.weight, *result->best);
+  // Forbidding an option of element i changes only its own narrow list:
+  // the others are built once, and each search rebuilds element i's after
+  // them (a list's place in Candidates::all does not matter).
+  const bool reuse_narrow = !search->one_mixed;
+  Candidates& candidates = SearchCandidates();
+  size_t narrow_end = 0;
+  if (reuse_narrow) {
+    candidates.all.clear();
+    BuildCandidates(plans, Forbidden(), threshold, /*common_only=*/true,
+                    search->strict, &candidates);
+    narrow_end = candidates.all.size();
+  }
   for (size_t i = 0; i < plans.size(); ++i) {
     if (plans[i].declared) continue;
     Weight bound =
@@ -834,9 +886,17 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
     }
     const StateOption& chosen =
         plans[i].options()[best.solution.choices[i].option];
-    const Solution s = SolveStaged(
-        plans, items, Forbidden{static_cast<int>(i), chosen.low, chosen.high},
-        threshold, search, bound);
+    const Forbidden forbidden{static_cast<int>(i), chosen.low, chosen.high};
+    CandidateList unforbidden;
+    if (reuse_narrow) {
+      unforbidden = candidates.narrow[i];
+      candidates.all.resize(narrow_end);
+      BuildList(plans, i, forbidden, threshold, /*common_only=*/true,
+                search->strict, &candidates);
+    }
+    const Solution s = SolveStaged(plans, items, forbidden, threshold, search,
+                                   bound, /*narrow_built=*/reuse_narrow);
+    if (reuse_narrow) candidates.narrow[i] = unforbidden;
     if (search->budget.exhausted) {
       result->alternatives_cut = true;
       break;

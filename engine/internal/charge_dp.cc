@@ -180,6 +180,8 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
   std::vector<std::vector<Choice>>& back = scratch.back;
   std::vector<std::pair<int64_t, int64_t>>& window = scratch.window;
   if (pruning != nullptr) *pruning = Pruning::kNone;
+  // Every return returns `s` (its weight infinite until a solution is
+  // found), which the caller then holds in place: no copy.
   Solution s;
   // Elements with a single single-state candidate only shift the total and
   // the weight: they are folded into the target and take no layer, which
@@ -193,14 +195,14 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
     const CandidateList* list = widening.Includes(static_cast<int>(e))
                                     ? &candidates.wide[e]
                                     : &candidates.narrow[e];
-    if (list->begin == list->end) return Solution();
+    if (list->begin == list->end) return s;
     const Candidate& only = candidates.all[list->begin];
     if (list->end - list->begin == 1 && only.low == only.high) {
       // A forced element that must take an uncommon state but has none
       // leaves nothing to search.
       if (must_widen && forced_wide == static_cast<int>(e) &&
           list->min_uncommon_weight.IsInfinite()) {
-        return Solution();
+        return s;
       }
       target -= items[e].scaled_count * only.low;
       fixed_weight += only.weight.packed();
@@ -227,12 +229,12 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
                          ? kInfinity
                          : std::min(kInfinity, rest_weight[i + 1] + w);
   }
-  if (target < rest_min[0] || target > rest_max[0]) return Solution();
+  if (target < rest_min[0] || target > rest_max[0]) return s;
   std::vector<UncommonNeed>& needs = scratch.needs;
   if (bound < kInfinity) {
     // From the last layer back, keeping the extensions sorted (largest
     // first) as layers join.
-    needs.resize(n + 1);
+    if (needs.size() < n + 1) needs.resize(n + 1);
     std::array<int64_t, kMaxDistinctElements> down, up;
     int extensible = 0, forced = 0;
     int64_t sum_min = 0, sum_max = 0;
@@ -285,7 +287,7 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
   };
   if (bound < kInfinity && !promising(0, 0, 0)) {
     if (pruning != nullptr) *pruning = Pruning::kAtStart;
-    return Solution();
+    return s;
   }
 
   // Layer i holds totals of layers 0..i-1 within [lo[i], hi[i]]: what the
@@ -298,16 +300,18 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
     prefix_max += lists[i - 1]->max_contribution;
     lo[i] = std::max(prefix_min, target - rest_max[i]);
     hi[i] = std::min(prefix_max, target - rest_min[i]);
-    if (lo[i] > hi[i]) return Solution();
+    if (lo[i] > hi[i]) return s;
   }
   // Memory: the layers' cells, bounded before anything is allocated.
   int64_t cells = 1;
   for (size_t i = 1; i <= n; ++i) cells += hi[i] - lo[i] + 1;
   auto exhaust = [&]() {
     if (limits.budget != nullptr) limits.budget->exhausted = true;
-    return Solution();
   };
-  if (cells > kMaxSearchCells) return exhaust();
+  if (cells > kMaxSearchCells) {
+    exhaust();
+    return s;
+  }
 
   if (cost.size() < n + 1) {
     cost.resize(n + 1);
@@ -322,30 +326,39 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
     // Narrow this layer to what the reachable cells can get to.
     lo[i + 1] = std::max(lo[i + 1], reach_lo + lists[i]->min_contribution);
     hi[i + 1] = std::min(hi[i + 1], reach_hi + lists[i]->max_contribution);
-    if (lo[i + 1] > hi[i + 1]) return Solution();
+    if (lo[i + 1] > hi[i + 1]) return s;
     const int64_t next_lo = lo[i + 1], next_hi = hi[i + 1];
+    // The layer's candidates; the writes below cannot change them.
+    const size_t list_begin = lists[i]->begin, list_end = lists[i]->end;
     if (limits.budget != nullptr) {
       // A mixed candidate's queue costs about four single visits a cell.
       int64_t per_cell = 0;
-      for (size_t ci = lists[i]->begin; ci < lists[i]->end; ++ci) {
+      for (size_t ci = list_begin; ci < list_end; ++ci) {
         per_cell += candidates.all[ci].low == candidates.all[ci].high
                         ? 1
                         : kMixedVisitCost;
       }
       const int64_t visits = (next_hi - next_lo + 1) * per_cell;
-      if (visits > limits.budget->cell_visits) return exhaust();
+      if (visits > limits.budget->cell_visits) {
+        exhaust();
+        return s;
+      }
       limits.budget->cell_visits -= visits;
     }
+    // The buffers only grow (ReleaseSearchScratch trims them): a layer
+    // narrower than the last one held reuses its storage as it is.
+    const size_t width = static_cast<size_t>(next_hi - next_lo + 1);
     std::vector<int64_t>& next_layer = cost[i + 1];
-    next_layer.assign(next_hi - next_lo + 1, kInfinity);
+    if (next_layer.size() < width) next_layer.resize(width);
+    std::fill_n(next_layer.data(), width, kInfinity);
     // Only cells with a finite cost are ever read back, and each of those
     // is written below: no need to clear.
-    back[i + 1].resize(next_hi - next_lo + 1);
+    if (back[i + 1].size() < width) back[i + 1].resize(width);
     int64_t* const next = next_layer.data();
     Choice* const next_back = back[i + 1].data();
     const int64_t* const prev = cost[i].data();
     const int64_t prev_lo = lo[i];
-    for (size_t ci = lists[i]->begin; ci < lists[i]->end; ++ci) {
+    for (size_t ci = list_begin; ci < list_end; ++ci) {
       const Candidate& o = candidates.all[ci];
       const int32_t oi = o.option;
       if (o.low == o.high) {
@@ -379,9 +392,57 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
       const int64_t d = o.high - o.low;
       const int64_t base = c * o.high;
       const int64_t per_low_atom = o.per_low_atom.packed();
+      if (reach_lo == reach_hi) {
+        // One reachable cell (always so in the first layer): each k
+        // reaches one total from it, and there is no window to slide.
+        // Totals are independent, so visiting them by k finds what the
+        // queue would.
+        const int64_t from = reach_lo + base;
+        const int64_t k_begin =
+            std::max<int64_t>(1, CeilDiv(from - next_hi, d));
+        const int64_t k_end = std::min(c - 1, FloorDiv(from - next_lo, d));
+        const int64_t w0 = prev[reach_lo - prev_lo] + o.weight.packed();
+        for (int64_t k = k_begin; k <= k_end; ++k) {
+          const int64_t w = w0 + per_low_atom * k;
+          const int64_t cell = from - k * d - next_lo;
+          if (w < next[cell]) {
+            next[cell] = w;
+            next_back[cell] = Choice{oi, static_cast<int32_t>(k)};
+          }
+        }
+        continue;
+      }
       // Totals whose window meets the reachable cells.
       const int64_t t_begin = std::max(next_lo, reach_lo + base - (c - 1) * d);
       const int64_t t_end = std::min(next_hi, reach_hi + base - d);
+      if (t_begin == t_end) {
+        // One total (always so in the last layer): the least of its
+        // window by a plain scan, keeping the last of equal costs (the
+        // largest q) as the queue does.
+        const int64_t s0 = t_begin - base;
+        const int64_t j_begin = std::max<int64_t>(1, CeilDiv(reach_lo - s0, d));
+        const int64_t j_end = std::min(c - 1, FloorDiv(reach_hi - s0, d));
+        int64_t least = kInfinity, least_j = 0;
+        for (int64_t j = j_begin; j <= j_end; ++j) {
+          const int64_t w = prev[s0 - prev_lo + j * d];
+          if (w >= kInfinity) continue;
+          const int64_t adjusted = w + per_low_atom * j;
+          if (adjusted <= least) {
+            least = adjusted;
+            least_j = j;
+          }
+        }
+        if (least < kInfinity) {
+          const int64_t w = least + o.weight.packed();
+          int64_t& slot = next[t_begin - next_lo];
+          if (w < slot) {
+            slot = w;
+            next_back[t_begin - next_lo] =
+                Choice{oi, static_cast<int32_t>(least_j)};
+          }
+        }
+        continue;
+      }
       for (int64_t r = 0; r < d; ++r) {
         // Walk totals t = t0 + m*d of one residue class; the window for
         // t covers j = m+1 .. m+c-1.
@@ -435,14 +496,14 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
     // The reachable part of the new layer.
     int64_t a = 0, b = next_hi - next_lo;
     while (a <= b && next[a] >= kInfinity) ++a;
-    if (a > b) return Solution();
+    if (a > b) return s;
     while (next[b] >= kInfinity) --b;
     reach_lo = next_lo + a;
     reach_hi = next_lo + b;
   }
-  if (target < lo[n] || target > hi[n]) return Solution();
+  if (target < lo[n] || target > hi[n]) return s;
   const int64_t weight = cost[n][target - lo[n]];
-  if (weight >= kInfinity) return Solution();
+  if (weight >= kInfinity) return s;
   s.weight = Weight::FromPacked(weight + fixed_weight);
   int64_t t = target;
   for (size_t i = n; i > 0; --i) {
