@@ -973,7 +973,11 @@ CompositionReport Analyze(const CompositionInput& input) {
         AssignOxidationStates(*formula, free);
     int forced = 0;
     for (const AssignedState& s : solved->best->states) {
-      forced += !s.common && !s.declared;
+      if (s.declared) continue;
+      // Counted as the ranking counts them (oxidation.h).
+      forced +=
+          (s.common ? 0 : 1) +
+          (s.unit < 0 && internal::BoundOnlyState(*s.element, s.state) ? 1 : 0);
     }
     if (unconstrained.ok() && unconstrained->best.has_value() &&
         forced > unconstrained->best->uncommon_states) {

@@ -49,6 +49,10 @@
 // runs on the formula divided by the greatest common divisor of its scaled
 // counts, net charge and unit counts, doubled when an element would have
 // a single atom, so BaBiO3 and Ba2Bi2O6 get the same states per atom.
+// A state met only bound in a unit (data/bound_only_states.tsv: Fe+6 of
+// ferrate, O-1 of peroxide) counts as two uncommon states as a free ion,
+// so that two merely uncommon states win over it: SrFe0.5Co0.5O3 is
+// Fe(IV) with Co(IV), not Fe(VI) with Co(II).
 // `score` is 100 x uncommon + 10 x faults + naturalness per formula unit,
 // each lower term capped below the unit of the one above, so that it
 // never orders candidates against the ranking; 0 is a perfect assignment.
@@ -159,6 +163,7 @@ struct OxidationAssignment {
   // first), then its atoms in units.
   std::vector<AssignedState> states;
   std::vector<AssignedUnit> units;
+  // Uncommon free states, a bound-only one counting two (see above).
   int uncommon_states = 0;
   int electronegativity_inconsistencies = 0;
   Rational spread;

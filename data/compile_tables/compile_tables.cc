@@ -175,6 +175,7 @@ std::optional<int> ParseArgs(int argc, char** argv, Paths* paths) {
       {"ligands", "spectrochemical_series.tsv"},
       {"crossover", "spin_crossover.tsv"},
       {"chalcogenide", "chalcogenide_states.tsv"},
+      {"bound_only", "bound_only_states.tsv"},
       {"preferences", "state_preferences.tsv"},
       {"pairs", "mixed_valence_pairs.tsv"},
       {"state_en", "state_electronegativities.tsv"},
@@ -693,6 +694,23 @@ int main(int argc, char** argv) {
     return state;
   };
 
+  // --- bound_only_states.tsv ------------------------------------------------
+  const Table bound_only =
+      ReadTable(args.at("bound_only"), {"symbol", "state", "where", "source"});
+  out << "constexpr BoundOnlyStateRow kBoundOnly[] = {\n";
+  std::set<std::pair<int, long>> bound_only_keys;
+  for (const Row& r : bound_only.rows) {
+    const int z = symbol_to_z(bound_only, r, 0);
+    const long state = known_state(bound_only, r, 1, z);
+    if (!bound_only_keys.insert({z, state}).second) {
+      Fail(bound_only.path, r.line,
+           absl::StrCat("duplicate row for ", r.fields[0], " ", state));
+    }
+    out << "    {" << z << ", " << state << ", " << Literal(r.fields[3])
+        << "},\n";
+  }
+  out << "};\n\n";
+
   // --- state_preferences.tsv ------------------------------------------------
   const Table preferences = ReadTable(
       args.at("preferences"), {"symbol", "anions", "state", "rank", "source"});
@@ -917,6 +935,8 @@ int main(int argc, char** argv) {
          "  return kCrossover;\n}\n"
          "absl::Span<const ChalcogenideStateRow> ChalcogenideStateRows() {\n"
          "  return kChalcogenide;\n}\n"
+         "absl::Span<const BoundOnlyStateRow> BoundOnlyStateRows() {\n"
+         "  return kBoundOnly;\n}\n"
          "absl::Span<const StatePreferenceRow> StatePreferenceRows() {\n"
          "  return kPreferences;\n}\n"
          "absl::Span<const MixedValencePairRow> MixedValencePairRows() {\n"

@@ -116,6 +116,13 @@ struct ChalcogenideStateRow {
   const char* source;
 };
 
+// data/bound_only_states.tsv
+struct BoundOnlyStateRow {
+  int atomic_number;
+  int state;
+  const char* source;
+};
+
 // data/state_preferences.tsv
 struct StatePreferenceRow {
   int atomic_number;
@@ -214,6 +221,7 @@ absl::Span<const LigandAbbreviationRow> LigandAbbreviationRows();
 absl::Span<const LigandRow> LigandRows();
 absl::Span<const SpinCrossoverRow> SpinCrossoverRows();
 absl::Span<const ChalcogenideStateRow> ChalcogenideStateRows();
+absl::Span<const BoundOnlyStateRow> BoundOnlyStateRows();
 absl::Span<const StatePreferenceRow> StatePreferenceRows();
 absl::Span<const MixedValencePairRow> MixedValencePairRows();
 absl::Span<const StateElectronegativityRow> StateElectronegativityRows();

@@ -189,6 +189,15 @@ absl::Span<const double> StateElectronegativities(const Element& e) {
   return Preferences().state_en_values[e.atomic_number];
 }
 
+bool BoundOnlyState(const Element& e, int state) {
+  for (const BoundOnlyStateRow& row : BoundOnlyStateRows()) {
+    if (row.atomic_number == e.atomic_number && row.state == state) {
+      return true;
+    }
+  }
+  return false;
+}
+
 StateOption MakeStateOption(const Element& e, int index, int low, int high,
                             bool low_common, bool high_common,
                             bool needs_oxide) {
@@ -198,7 +207,12 @@ StateOption MakeStateOption(const Element& e, int index, int low, int high,
   o.low_common = low_common;
   o.high_common = high_common;
   o.index = index;
-  o.uncommon = (low_common ? 0 : 1) + (low != high && !high_common ? 1 : 0);
+  // A state met only bound in a unit counts twice as a free ion.
+  auto uncommon = [&e](int state, bool common) {
+    return (common ? 0 : 1) + (BoundOnlyState(e, state) ? 1 : 0);
+  };
+  o.uncommon = uncommon(low, low_common) +
+               (low != high ? uncommon(high, high_common) : 0);
   for (const AnionClass c : {AnionClass::kHard, AnionClass::kSoft}) {
     const int k = static_cast<int>(c);
     o.high_natural[k] =

@@ -39,7 +39,7 @@ struct StateOption {
   bool low_common = true;
   bool high_common = true;
   int index = 0;     // Position in the element's option list.
-  int uncommon = 0;  // Uncommon states among low and high.
+  int uncommon = 0;  // Uncommon states among low and high (bound-only: 2).
   // Naturalness per atom in the upper state, by AnionClass, and what an
   // atom in the lower state adds to it (may be negative).
   int high_natural[2] = {0, 0};
@@ -112,6 +112,10 @@ int ChalcogenideMaxState(const Element& e);
 
 // `needs_oxide`: a pair of data/mixed_valence_pairs.tsv that holds only
 // among oxides.
+// Whether `state` of `e` is met only bound in a polyatomic unit
+// (data/bound_only_states.tsv: Fe+6 in ferrate, O-1 in peroxide).
+bool BoundOnlyState(const Element& e, int state);
+
 StateOption MakeStateOption(const Element& e, int index, int low, int high,
                             bool low_common, bool high_common,
                             bool needs_oxide = false);

@@ -36,6 +36,7 @@ CommandResult RunWith(const std::string& table, const std::string& contents) {
       {"ligands", "spectrochemical_series"},
       {"crossover", "spin_crossover"},
       {"chalcogenide", "chalcogenide_states"},
+      {"bound_only", "bound_only_states"},
       {"preferences", "state_preferences"},
       {"pairs", "mixed_valence_pairs"},
       {"state_en", "state_electronegativities"},
@@ -315,6 +316,18 @@ TEST(CompileTables, ActinideTableHoldsActinidesOnly) {
   CommandResult r = RunWith("actinide_moments", t);
   EXPECT_EQ(r.exit_code, 1);
   EXPECT_THAT(r.err, HasSubstr("Fe is not an actinide"));
+}
+
+TEST(CompileTables, BoundOnlyStateMustBeAKnownStateOnce) {
+  std::string t = RealTable("bound_only_states");
+  t += "Fe\t9\tnowhere\tinvented for this test\n";
+  CommandResult r = RunWith("bound_only_states", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("is not a state in oxidation_states.tsv"));
+  t = RealTable("bound_only_states") + "Fe\t6\tagain\tinvented\n";
+  r = RunWith("bound_only_states", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("duplicate row for Fe 6"));
 }
 
 TEST(CompileTables, SpinOrbitConstantNeedsA4dOr5dT2gIon) {
