@@ -240,12 +240,15 @@ absl::StatusOr<CheckResult> RunCheck(const CheckOptions& options,
     return !batch->refs.empty();
   };
   auto process = [&](int worker, CheckBatch& batch) {
+    // Parsed into the worker's records of the batch before, which keep
+    // their strings' memory.
     std::vector<ParsedLine>& lines = parsed[worker];
-    lines.clear();
-    for (const LineRef& ref : batch.refs) {
-      lines.push_back(parsers[worker].Parse(
+    lines.resize(batch.refs.size());
+    for (size_t i = 0; i < batch.refs.size(); ++i) {
+      const LineRef& ref = batch.refs[i];
+      parsers[worker].Parse(
           absl::string_view(batch.lines).substr(ref.offset, ref.size), ref.row,
-          ref.too_long));
+          ref.too_long, &lines[i]);
     }
     // About 3.8 KB per JSONL report (and 4 KB of room while one is
     // written) and 520 B per CSV line: room for the whole batch, so that
