@@ -185,7 +185,7 @@ constexpr DigitPairs kDigitPairs;
 
 // Writes the `count` decimal digits of q < 10^count, leading zeros
 // included, at `out`: eight at a time from 64 bits, then pairs from 32.
-void WriteDigits(uint64_t q, int count, char* out) {
+inline void WriteDigits(uint64_t q, int count, char* out) {
   char* p = out + count;
   auto put_pairs = [&p](uint32_t value, int pairs) {
     for (int i = 0; i < pairs; ++i) {
@@ -325,14 +325,23 @@ int FormatShortDecimal(double v, char* buf) {
   if (fraction == 0) return 0;  // Whole numbers are not this function's.
   char* p = buf;
   if (v < 0) *p++ = '-';
-  int whole_digits = 1;
-  while (whole >= static_cast<uint64_t>(kPow10[whole_digits])) ++whole_digits;
-  WriteDigits(whole, whole_digits, p);
-  p += whole_digits;
+  if (whole < 10) {  // Most counts and figures.
+    *p++ = static_cast<char>('0' + whole);
+  } else {
+    int whole_digits = 2;
+    while (whole >= static_cast<uint64_t>(kPow10[whole_digits])) {
+      ++whole_digits;
+    }
+    WriteDigits(whole, whole_digits, p);
+    p += whole_digits;
+  }
   *p++ = '.';
   // Six places, then %g's cut of the trailing zeros: "22.370000" is
   // "22.37".
-  WriteDigits(fraction, 6, p);
+  const char* const pairs = kDigitPairs.pairs;
+  std::memcpy(p, &pairs[2 * (fraction / 10000)], 2);
+  std::memcpy(p + 2, &pairs[2 * (fraction / 100 % 100)], 2);
+  std::memcpy(p + 4, &pairs[2 * (fraction % 100)], 2);
   p += 6;
   while (p[-1] == '0') --p;
   return static_cast<int>(p - buf);
