@@ -1,7 +1,9 @@
 #include "clients/cli/atom_format.h"
 
 #include <algorithm>
+#include <array>
 #include <cstdio>
+#include <iterator>
 #include <optional>
 #include <vector>
 
@@ -37,13 +39,67 @@ std::string Superscript(int n) {
   return out;
 }
 
-// The names of the split d levels in `geometry` ("t2g", "eg"; "e", "t2").
-std::vector<std::string> LevelNames(Geometry geometry) {
-  std::vector<std::string> names;
-  for (const SplitLevel& level : SplitD(0, geometry, SpinState::kHigh).levels) {
-    names.push_back(std::string(level.name));
+// The names of the split d levels in `geometry` ("t2g", "eg"; "e", "t2"),
+// longest first; made once per geometry.
+const std::vector<std::string>& LevelNames(Geometry geometry) {
+  constexpr size_t kGeometries = std::size(EnumNames<Geometry>::kNames);
+  static const auto* const kByGeometry = [] {
+    auto* by_geometry = new std::array<std::vector<std::string>, kGeometries>;
+    for (const NamedValue<Geometry>& g : EnumNames<Geometry>::kNames) {
+      std::vector<std::string>& names =
+          (*by_geometry)[static_cast<size_t>(g.value)];
+      for (const SplitLevel& level :
+           SplitD(0, g.value, SpinState::kHigh).levels) {
+        names.push_back(std::string(level.name));
+      }
+      std::stable_sort(names.begin(), names.end(),
+                       [](const std::string& a, const std::string& b) {
+                         return a.size() > b.size();
+                       });
+    }
+    return by_geometry;
+  }();
+  return (*kByGeometry)[static_cast<size_t>(geometry)];
+}
+
+// The d electrons of an occupancy in `geometry`'s levels ("t2g3 eg2": 5),
+// and its human form in `human` when not null ("t2g³ eg²"). nullopt when
+// a token does not read as a level name and its electrons.
+std::optional<int> ReadOccupancy(Geometry geometry, absl::string_view occupancy,
+                                 std::string* human) {
+  // Each token is a level name and its electrons; the longest level name
+  // that leaves only digits is the name.
+  const std::vector<std::string>& names = LevelNames(geometry);
+  int d_electrons = 0;
+  for (absl::string_view token : absl::StrSplit(occupancy, ' ')) {
+    bool matched = false;
+    for (const std::string& name : names) {
+      int n = 0;
+      if (absl::StartsWith(token, name) &&
+          absl::SimpleAtoi(token.substr(name.size()), &n)) {
+        if (human != nullptr) {
+          absl::StrAppend(human, human->empty() ? "" : " ", name,
+                          Superscript(n));
+        }
+        d_electrons += n;
+        matched = true;
+        break;
+      }
+    }
+    if (!matched) return std::nullopt;  // Not a notation this client knows.
   }
-  return names;
+  return d_electrons;
+}
+
+// The geometry that DescribeLigandField describes, or nullopt where it
+// describes none (an unknown or free geometry, no occupancy).
+std::optional<Geometry> FieldGeometry(absl::string_view geometry_name,
+                                      absl::string_view occupancy) {
+  absl::StatusOr<Geometry> geometry = ParseName<Geometry>(geometry_name);
+  if (!geometry.ok() || *geometry == Geometry::kFree || occupancy.empty()) {
+    return std::nullopt;
+  }
+  return *geometry;
 }
 
 }  // namespace
@@ -63,45 +119,36 @@ std::string ToJson(const google::protobuf::Message& message, bool pretty) {
 std::optional<LigandFieldText> DescribeLigandField(
     absl::string_view geometry_name, absl::string_view spin_state,
     absl::string_view occupancy) {
-  absl::StatusOr<Geometry> geometry = ParseName<Geometry>(geometry_name);
-  if (!geometry.ok() || *geometry == Geometry::kFree || occupancy.empty()) {
-    return std::nullopt;
-  }
-  // "t2g3 eg2", "e4 t23": each token is a level name and its electrons;
-  // the longest level name that leaves only digits is the name.
-  std::vector<std::string> names = LevelNames(*geometry);
-  std::sort(names.begin(), names.end(),
-            [](const std::string& a, const std::string& b) {
-              return a.size() > b.size();
-            });
+  const std::optional<Geometry> geometry =
+      FieldGeometry(geometry_name, occupancy);
+  if (!geometry.has_value()) return std::nullopt;
   LigandFieldText text;
-  int d_electrons = 0;
-  for (absl::string_view token : absl::StrSplit(occupancy, ' ')) {
-    bool matched = false;
-    for (const std::string& name : names) {
-      int n = 0;
-      if (absl::StartsWith(token, name) &&
-          absl::SimpleAtoi(token.substr(name.size()), &n)) {
-        absl::StrAppend(&text.occupancy, text.occupancy.empty() ? "" : " ",
-                        name, Superscript(n));
-        d_electrons += n;
-        matched = true;
-        break;
-      }
-    }
-    if (!matched) return std::nullopt;  // Not a notation this client knows.
-  }
+  const std::optional<int> d_electrons =
+      ReadOccupancy(*geometry, occupancy, &text.occupancy);
+  if (!d_electrons.has_value()) return std::nullopt;
   text.geometry = std::string(geometry_name);
-  if (d_electrons == 0 || d_electrons == 10) {
-    text.spin = absl::StrCat(d_electrons == 0 ? "empty" : "full",
+  if (*d_electrons == 0 || *d_electrons == 10) {
+    text.spin = absl::StrCat(*d_electrons == 0 ? "empty" : "full",
                              " d subshell: no spin state");
     return text;
   }
-  const bool choice = HasSpinChoice(d_electrons, *geometry);
+  const bool choice = HasSpinChoice(*d_electrons, *geometry);
   text.spin = choice ? absl::StrCat(spin_state, " spin")
-                     : absl::StrCat("d", d_electrons, ": one spin state only");
+                     : absl::StrCat("d", *d_electrons, ": one spin state only");
   text.has_spin_choice = choice;
   return text;
+}
+
+bool SpinStateMatters(absl::string_view geometry_name,
+                      absl::string_view occupancy) {
+  const std::optional<Geometry> geometry =
+      FieldGeometry(geometry_name, occupancy);
+  if (!geometry.has_value()) return true;
+  const std::optional<int> d_electrons =
+      ReadOccupancy(*geometry, occupancy, /*human=*/nullptr);
+  if (!d_electrons.has_value()) return true;
+  return *d_electrons != 0 && *d_electrons != 10 &&
+         HasSpinChoice(*d_electrons, *geometry);
 }
 
 std::string OrbitalBoxes(int orbitals, int electrons) {

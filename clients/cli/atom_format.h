@@ -49,6 +49,12 @@ std::optional<LigandFieldText> DescribeLigandField(absl::string_view geometry,
                                                    absl::string_view spin_state,
                                                    absl::string_view occupancy);
 
+// Whether an ion's spin state is worth showing: false exactly where
+// DescribeLigandField gives has_spin_choice false (d0, d10, octahedral d3:
+// high and low spin give the same occupancy), true also where it gives
+// nullopt. Makes no text, so it is cheap enough for every report line.
+bool SpinStateMatters(absl::string_view geometry, absl::string_view occupancy);
+
 // The multi-line human report for `atom`, without the moment caution (the
 // caller ends its output with it once, api/caution.h).
 std::string FormatAtomHuman(const v1::AtomDescription& d);

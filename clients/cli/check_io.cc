@@ -157,21 +157,26 @@ RecordParser::RecordParser(const RecordInput& input, int default_alternatives)
 
 ParsedLine RecordParser::Parse(absl::string_view line, int row, bool too_long) {
   ParsedLine p;
+  Parse(line, row, too_long, &p);
+  return p;
+}
+
+void RecordParser::Parse(absl::string_view line, int row, bool too_long,
+                         ParsedLine* out) {
   if (too_long) {
-    p = TooLongLine(line, row,
-                    format_ == RecordFormat::kCsv && csv_.id_is_first_column());
+    *out = TooLongLine(
+        line, row, format_ == RecordFormat::kCsv && csv_.id_is_first_column());
   } else if (format_ == RecordFormat::kJsonl) {
-    p = ParseJsonLine(line, row);
+    *out = ParseJsonLine(line, row);
   } else {
     // One record per physical line, as the output promises one report per
     // input line: a quoted field cannot span lines, so a broken quote costs
     // exactly one record, never the ones after it.
-    p = csv_.ParseLine(line, row);
+    csv_.ParseLine(line, row, out);
   }
-  if (!p.record.has_max_alternatives()) {
-    p.record.set_max_alternatives(default_alternatives_);
+  if (!out->record.has_max_alternatives()) {
+    out->record.set_max_alternatives(default_alternatives_);
   }
-  return p;
 }
 
 // ---------------------------------------------------------------------------

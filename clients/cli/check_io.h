@@ -139,6 +139,9 @@ class RecordParser {
   RecordParser(const RecordInput& input, int default_alternatives);
 
   ParsedLine Parse(absl::string_view line, int row, bool too_long);
+  // The same into `out`, replacing what it held (and reusing its memory:
+  // `check`'s workers keep a batch of lines).
+  void Parse(absl::string_view line, int row, bool too_long, ParsedLine* out);
 
  private:
   const RecordFormat format_;

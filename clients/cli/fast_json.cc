@@ -1,12 +1,17 @@
 #include "clients/cli/fast_json.h"
 
+#include <algorithm>
 #include <array>
 #include <charconv>
 #include <cmath>
+#include <cstdint>
 #include <cstring>
-#include <memory>
 
 #include "absl/strings/string_view.h"
+
+#if defined(__SSE2__)
+#include <emmintrin.h>
+#endif
 
 namespace shellwright::cli {
 namespace {
@@ -27,6 +32,36 @@ constexpr EscapeTable kEscape;
 
 inline bool NeedsEscape(unsigned char c) { return kEscape.needs[c]; }
 
+// The length of the longest prefix of [p, p + n) made of whole 16-byte
+// blocks with no byte that NeedsEscape: most text has none, and SSE2
+// (part of every x86-64) tests 16 bytes in a few instructions. Elsewhere
+// 0: the caller looks at every byte.
+size_t PlainBlocks(const char* p, size_t n) {
+  size_t i = 0;
+#if defined(__SSE2__)
+  const __m128i last_control = _mm_set1_epi8(0x1f);
+  const __m128i quote = _mm_set1_epi8('"');
+  const __m128i backslash = _mm_set1_epi8('\\');
+  const __m128i del = _mm_set1_epi8(0x7f);
+  const __m128i less = _mm_set1_epi8('<');
+  const __m128i greater = _mm_set1_epi8('>');
+  const __m128i e2 = _mm_set1_epi8(static_cast<char>(0xE2));
+  for (; i + 16 <= n; i += 16) {
+    const __m128i x = _mm_loadu_si128(reinterpret_cast<const __m128i*>(p + i));
+    // A control character: x <= 0x1f unsigned, i.e. max(x, 0x1f) == 0x1f.
+    __m128i hit = _mm_cmpeq_epi8(_mm_max_epu8(x, last_control), last_control);
+    hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, quote));
+    hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, backslash));
+    hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, del));
+    hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, less));
+    hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, greater));
+    hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, e2));
+    if (_mm_movemask_epi8(hit) != 0) break;
+  }
+#endif
+  return i;
+}
+
 }  // namespace
 
 char* WriteJsonString(absl::string_view s, char* out) {
@@ -41,21 +76,21 @@ char* WriteJsonString(absl::string_view s, char* out) {
     std::memcpy(out, text.data(), text.size());
     out += text.size();
   };
-  for (size_t i = 0; i < s.size(); ++i) {
+  // Writes the escape of the character at s[i], whose first byte
+  // NeedsEscape, if it has one; returns the index of its last byte.
+  auto escape = [&](size_t i) -> size_t {
     const unsigned char c = static_cast<unsigned char>(s[i]);
-    if (!NeedsEscape(c)) continue;
     if (c == 0xE2) {
       // Only U+2028 and U+2029 are escaped among multi-byte characters.
       if (!(i + 2 < s.size() && static_cast<unsigned char>(s[i + 1]) == 0x80 &&
             (static_cast<unsigned char>(s[i + 2]) == 0xA8 ||
              static_cast<unsigned char>(s[i + 2]) == 0xA9))) {
-        continue;
+        return i;
       }
       flush(i);
       put(static_cast<unsigned char>(s[i + 2]) == 0xA8 ? "\\u2028" : "\\u2029");
-      i += 2;
-      run = i + 1;
-      continue;
+      run = i + 3;
+      return i + 2;
     }
     flush(i);
     run = i + 1;
@@ -87,6 +122,17 @@ char* WriteJsonString(absl::string_view s, char* out) {
         *out++ = kHex[c >> 4];
         *out++ = kHex[c & 15];
       }
+    }
+    return i;
+  };
+  size_t i = 0;
+  while (i < s.size()) {
+    // Skip plain blocks, then look at the bytes of the next block (or of
+    // the short rest) one by one.
+    i += PlainBlocks(s.data() + i, s.size() - i);
+    const size_t block_end = std::min(i + 16, s.size());
+    for (; i < block_end; ++i) {
+      if (NeedsEscape(static_cast<unsigned char>(s[i]))) i = escape(i);
     }
   }
   flush(s.size());
@@ -123,6 +169,39 @@ uint64_t ScaledRound(uint64_t m, int s, int k) {
   const uint128 half = static_cast<uint128>(1) << (s - 1);
   if (rest > half || (rest == half && (q & 1))) ++q;
   return static_cast<uint64_t>(q);
+}
+
+// "00" to "99", for writing two digits at a time.
+struct DigitPairs {
+  char pairs[200];
+  constexpr DigitPairs() : pairs() {
+    for (int i = 0; i < 100; ++i) {
+      pairs[2 * i] = static_cast<char>('0' + i / 10);
+      pairs[2 * i + 1] = static_cast<char>('0' + i % 10);
+    }
+  }
+};
+constexpr DigitPairs kDigitPairs;
+
+// Writes the `count` decimal digits of q < 10^count, leading zeros
+// included, at `out`: eight at a time from 64 bits, then pairs from 32.
+inline void WriteDigits(uint64_t q, int count, char* out) {
+  char* p = out + count;
+  auto put_pairs = [&p](uint32_t value, int pairs) {
+    for (int i = 0; i < pairs; ++i) {
+      p -= 2;
+      std::memcpy(p, &kDigitPairs.pairs[2 * (value % 100)], 2);
+      value /= 100;
+    }
+    return value;
+  };
+  while (count > 8) {
+    put_pairs(static_cast<uint32_t>(q % 100000000), 4);
+    q /= 100000000;
+    count -= 8;
+  }
+  const uint32_t rest = put_pairs(static_cast<uint32_t>(q), count / 2);
+  if (count % 2 == 1) *--p = static_cast<char>('0' + rest);
 }
 
 // The protobuf printer's text (%.15g if it round-trips, else %.17g) for
@@ -164,24 +243,35 @@ int FormatDoubleInRange(double v, char* buf) {
     }
     return 0;
   };
+  // 17 digits, and from them the 15-digit rounding: the 17 cut to 15 and
+  // rounded by the two cut off, but for a cut-off "50", where the 17 are
+  // themselves rounded and only the exact value tells which way 15 go.
   int exponent = d;
-  int precision = 15;
-  uint64_t q = round_to(15, &exponent);
-  if (q == 0) return 0;
-  // Does the 15-digit text round-trip? q / 10^k is then an exact division
-  // of exactly representable numbers (q < 2^53, k <= 18).
-  const int k15 = 14 - exponent;
-  const double back = k15 >= 0 ? static_cast<double>(q) / kPow10Double[k15] : 0;
-  if (k15 < 0 || back != a) {
-    precision = 17;
-    exponent = d;
-    q = round_to(17, &exponent);
-    if (q == 0) return 0;
+  const uint64_t q17 = round_to(17, &exponent);
+  if (q17 == 0) return 0;
+  int exponent15 = exponent;
+  uint64_t q15;
+  const uint64_t cut = q17 % 100;
+  if (cut != 50) {
+    q15 = q17 / 100 + (cut > 50 ? 1 : 0);
+    if (q15 == static_cast<uint64_t>(kPow10[15])) {  // 99..9 rounded up.
+      q15 /= 10;
+      ++exponent15;
+    }
+  } else {
+    q15 = round_to(15, &exponent15);
+    if (q15 == 0) return 0;
   }
-  if (exponent < -4 || exponent >= precision) return 0;
+  // Does the 15-digit text round-trip? q15 / 10^k is then an exact
+  // division of exactly representable numbers (q15 < 2^53, k <= 18).
+  const int k15 = 14 - exponent15;
+  const bool fifteen =
+      k15 >= 0 && static_cast<double>(q15) / kPow10Double[k15] == a;
+  const int n = fifteen ? 15 : 17;
+  if (fifteen) exponent = exponent15;
+  if (exponent < -4 || exponent >= n) return 0;
   char digits[24];
-  const int n = static_cast<int>(std::to_chars(digits, digits + 24, q).ptr -
-                                 digits);  // == precision
+  WriteDigits(fifteen ? q15 : q17, n, digits);
   int used = n;
   while (used > 1 && digits[used - 1] == '0') --used;
   char* p = buf;
@@ -207,6 +297,54 @@ int FormatDoubleInRange(double v, char* buf) {
 bool IsSmallWhole(double v) {
   return std::fabs(v) < 1e15 &&
          static_cast<double>(static_cast<int64_t>(v)) == v;
+}
+
+// The protobuf printer's text for a short decimal: v is the double nearest
+// to n / 10^6 for a whole n, and 10^-4 <= |v| < 10^6 (counts such as 0.16,
+// figures such as 22.37). Such a decimal has at most 12 significant
+// digits and v lies within half an ulp of it, far inside the rounding
+// interval of %.15g's last digit, so %.15g prints exactly that decimal,
+// and it reads back as v. Returns the length written to `buf`, or 0 when
+// v is not such a decimal (or is whole).
+int FormatShortDecimal(double v, char* buf) {
+  const double a = std::fabs(v);
+  if (!(a >= 1e-4 && a < 1e6)) return 0;
+  // A short decimal times 10^6 lies within 2e-4 of a whole number (the
+  // product's rounding and v's own, below 10^12): one test rules out
+  // most other values. The division decides: of exact operands, it is
+  // correctly rounded, so equality means v is the double nearest to
+  // n / 10^6.
+  const double scaled = a * 1e6;
+  const uint64_t n = static_cast<uint64_t>(scaled + 0.5);
+  if (std::fabs(scaled - static_cast<double>(n)) > 1e-3 ||
+      static_cast<double>(n) / 1e6 != a) {
+    return 0;
+  }
+  const uint64_t whole = n / 1000000;
+  const uint32_t fraction = static_cast<uint32_t>(n % 1000000);
+  if (fraction == 0) return 0;  // Whole numbers are not this function's.
+  char* p = buf;
+  if (v < 0) *p++ = '-';
+  if (whole < 10) {  // Most counts and figures.
+    *p++ = static_cast<char>('0' + whole);
+  } else {
+    int whole_digits = 2;
+    while (whole >= static_cast<uint64_t>(kPow10[whole_digits])) {
+      ++whole_digits;
+    }
+    WriteDigits(whole, whole_digits, p);
+    p += whole_digits;
+  }
+  *p++ = '.';
+  // Six places, then %g's cut of the trailing zeros: "22.370000" is
+  // "22.37".
+  const char* const pairs = kDigitPairs.pairs;
+  std::memcpy(p, &pairs[2 * (fraction / 10000)], 2);
+  std::memcpy(p + 2, &pairs[2 * (fraction / 100 % 100)], 2);
+  std::memcpy(p + 4, &pairs[2 * (fraction % 100)], 2);
+  p += 6;
+  while (p[-1] == '0') --p;
+  return static_cast<int>(p - buf);
 }
 
 // The shorter of %.15g / %.17g that round-trips, as the protobuf printer
@@ -236,41 +374,17 @@ int FormatDouble(double v, char* buf) {
   return static_cast<int>(r.ptr - buf);
 }
 
-// FormatDouble behind a small per-thread cache keyed by the value's bits:
-// a report's moments come from a few dozen values (sqrt(n(n+2)), the J
-// moments), and a hit costs a fraction of formatting.
-absl::string_view DoubleText(double v, char* scratch) {
-  struct Entry {
-    uint64_t bits = 0;  // 0 is +0.0, which never reaches the cache.
-    int size = 0;
-    char text[kJsonDoubleMax];
-  };
-  // Whole numbers are cheap already (and many, and would flood the cache).
-  if (IsSmallWhole(v)) {
-    return absl::string_view(scratch, FormatDouble(v, scratch));
-  }
-  // On the heap, made on first use, like report_lines.cc's caches: TLS
-  // is zeroed at every process and thread start.
-  using Cache = std::array<Entry, 512>;
-  thread_local std::unique_ptr<Cache> cache;
-  if (cache == nullptr) cache = std::make_unique<Cache>();
-  uint64_t bits;
-  std::memcpy(&bits, &v, sizeof(bits));
-  Entry& e = (*cache)[(bits * 0x9E3779B97F4A7C15ull) >> 55];
-  if (e.bits != bits) {
-    e.size = FormatDouble(v, e.text);
-    e.bits = bits;
-  }
-  return absl::string_view(e.text, e.size);
-}
-
 }  // namespace
 
 char* WriteJsonDouble(double v, char* out) {
-  char scratch[kJsonDoubleMax];
-  const absl::string_view text = DoubleText(v, scratch);
-  std::memcpy(out, text.data(), text.size());
-  return out + text.size();
+  // Whole numbers (counts, states, zero moments) and short decimals
+  // (counts such as 0.16) are most of a report's doubles.
+  if (IsSmallWhole(v) && !(v == 0 && std::signbit(v))) {
+    return std::to_chars(out, out + kJsonDoubleMax, static_cast<int64_t>(v))
+        .ptr;
+  }
+  if (const int n = FormatShortDecimal(v, out); n > 0) return out + n;
+  return out + FormatDouble(v, out);
 }
 
 }  // namespace shellwright::cli

@@ -14,7 +14,7 @@
 //   char* end = shellwright::cli::WriteJsonDouble(0.1 + 0.2, buf);
 //   // [buf, end) is 0.30000000000000004
 //
-// Thread safety: thread-safe (a per-thread cache of formatted doubles).
+// Thread safety: thread-safe.
 
 #ifndef SHELLWRIGHT_CLIENTS_CLI_FAST_JSON_H_
 #define SHELLWRIGHT_CLIENTS_CLI_FAST_JSON_H_

@@ -493,11 +493,22 @@ const std::string& CsvRecordReader::Field(Column k) const {
 
 ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) {
   ParsedLine p;
+  ParseLine(line, row, &p);
+  return p;
+}
+
+void CsvRecordReader::ParseLine(absl::string_view line, int row,
+                                ParsedLine* out) {
+  // Cleared, not made anew: the record's strings keep their memory.
+  out->record.Clear();
+  out->error.clear();
+  out->warnings.clear();
+  ParsedLine& p = *out;
   p.record.set_row(row);
   std::string error;
   if (line.size() > kMaxLineBytes) {
     p.error = absl::StrCat("line is longer than ", kMaxLineBytes, " bytes");
-    return p;
+    return;
   }
   if (!SplitCsvLine(line, &fields_, &error)) {
     p.error = error;
@@ -509,14 +520,14 @@ ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) {
       ReplaceInvalidUtf8(&id);
       p.record.set_id(std::move(id));
     }
-    return p;
+    return;
   }
   p.record.set_id(Field(kId));
   p.record.set_formula(Field(kFormula));
   if (fields_.size() != header_size_) {
     p.error = absl::StrCat("line has ", fields_.size(), " fields, the header ",
                            header_size_);
-    return p;
+    return;
   }
   // Spaces around a value are CSV padding, not part of the formula.
   const absl::string_view formula = absl::StripAsciiWhitespace(Field(kFormula));
@@ -573,12 +584,11 @@ ParsedLine CsvRecordReader::ParseLine(absl::string_view line, int row) {
           [&](double v) { p.record.set_saturation_moment_tolerance(v); }) ||
       !parse_double(kTemperature, "temperature",
                     [&](double v) { p.record.set_temperature(v); })) {
-    return p;
+    return;
   }
   if (absl::StripAsciiWhitespace(p.record.id()).empty()) {
     p.error = "the id field is empty";
   }
-  return p;
 }
 
 ParsedLine ParseJsonLine(absl::string_view line, int row) {

@@ -134,6 +134,9 @@ class CsvRecordReader {
   absl::Status ReadHeader(absl::string_view line);
   // One record from one line after the header.
   ParsedLine ParseLine(absl::string_view line, int row);
+  // The same into `out`, whose earlier contents it replaces (reusing
+  // their memory: a caller that parses many lines keeps a few).
+  void ParseLine(absl::string_view line, int row, ParsedLine* out);
   bool id_is_first_column() const { return column_[kId] == 0; }
 
   // The header's columns that no record field has, each with a "did you

@@ -19,6 +19,10 @@
 #include "clients/cli/atom_format.h"
 #include "clients/cli/fast_json.h"
 
+#if defined(__SSE2__)
+#include <emmintrin.h>
+#endif
+
 namespace shellwright::cli {
 namespace {
 
@@ -115,21 +119,21 @@ struct Fragment {
   int gap_count = 0;
 };
 
-// Per-thread fragment caches: a few hundred distinct states and ions make
-// up most reports, so each is written once per thread.
-template <typename Key>
-Fragment<Key>& CachedFragment(const Key& key) {
+// Per-thread caches of text kept under a state's or an ion's key (an
+// Entry has `std::optional<Key> key`): a few hundred distinct states and
+// ions make up most reports, so each is written once per thread.
+template <typename Key, typename Entry = Fragment<Key>>
+Entry& CachedFragment(const Key& key) {
   // On the heap, made on first use: as thread_local storage it would be
   // zeroed by the loader at every process and thread start (the caches
   // made some 0.6 MB of TLS, docs/performance.md). Each slot is made when
   // first used too, so that a one-record process touches a page of
   // pointers, not the whole table.
-  using Cache = std::array<std::unique_ptr<Fragment<Key>>, Key::kCacheSlots>;
+  using Cache = std::array<std::unique_ptr<Entry>, Key::kCacheSlots>;
   thread_local std::unique_ptr<Cache> cache;
   if (cache == nullptr) cache = std::make_unique<Cache>();
-  std::unique_ptr<Fragment<Key>>& slot =
-      (*cache)[key.Hash() % Key::kCacheSlots];
-  if (slot == nullptr) slot = std::make_unique<Fragment<Key>>();
+  std::unique_ptr<Entry>& slot = (*cache)[key.Hash() % Key::kCacheSlots];
+  if (slot == nullptr) slot = std::make_unique<Entry>();
   return *slot;
 }
 
@@ -242,25 +246,51 @@ class JsonWriter {
   int gap_count_ = 0;
 };
 
+// Whether `field` holds a comma, a quote or a line break: 16 bytes at a
+// time with SSE2 (part of every x86-64; cells of ions and messages are a
+// few hundred bytes), the rest byte by byte.
+bool NeedsCsvQuotes(absl::string_view field) {
+  size_t i = 0;
+#if defined(__SSE2__)
+  const __m128i comma = _mm_set1_epi8(',');
+  const __m128i quote = _mm_set1_epi8('"');
+  const __m128i newline = _mm_set1_epi8('\n');
+  const __m128i carriage_return = _mm_set1_epi8('\r');
+  for (; i + 16 <= field.size(); i += 16) {
+    const __m128i x =
+        _mm_loadu_si128(reinterpret_cast<const __m128i*>(field.data() + i));
+    const __m128i hit = _mm_or_si128(
+        _mm_or_si128(_mm_cmpeq_epi8(x, comma), _mm_cmpeq_epi8(x, quote)),
+        _mm_or_si128(_mm_cmpeq_epi8(x, newline),
+                     _mm_cmpeq_epi8(x, carriage_return)));
+    if (_mm_movemask_epi8(hit) != 0) return true;
+  }
+#endif
+  // A plain scan: find_first_of builds a 256-entry table on every call.
+  for (; i < field.size(); ++i) {
+    const char c = field[i];
+    if (c == ',' || c == '"' || c == '\n' || c == '\r') return true;
+  }
+  return false;
+}
+
 // Appends `field`, quoted when it holds a comma, a quote or a line break.
 void CsvField(absl::string_view field, std::string* out) {
-  // A plain scan: find_first_of builds a 256-entry table on every call.
-  bool plain = true;
-  for (char c : field) {
-    if (c == ',' || c == '"' || c == '\n' || c == '\r') {
-      plain = false;
-      break;
-    }
-  }
-  if (plain) {
+  if (!NeedsCsvQuotes(field)) {
     out->append(field.data(), field.size());
     return;
   }
+  // Quoted, with each quote doubled: the runs up to and including each
+  // quote, then the rest.
   out->push_back('"');
-  for (char c : field) {
-    if (c == '"') out->push_back('"');
-    out->push_back(c);
+  size_t from = 0;
+  for (size_t quote = field.find('"'); quote != absl::string_view::npos;
+       quote = field.find('"', quote + 1)) {
+    out->append(field.data() + from, quote + 1 - from);
+    out->push_back('"');
+    from = quote + 1;
   }
+  out->append(field.data() + from, field.size() - from);
   out->push_back('"');
 }
 
@@ -394,32 +424,18 @@ class CsvGatherer : public TopLevelVisitor {
     if (f.name == "oxidation_states") {
       bool first = true;
       for (const auto& item : items) {
-        Member state;
-        visit(item, state);
         Separate(";", &first, &states);
-        AppendState(state.element, state.state, &states);
-        absl::StrAppend(&states, ":", state.exact);
+        ItemCell state(ItemCell::kState, &states);
+        visit(item, state);
+        state.Finish();
       }
     } else if (f.name == "ions") {
       bool first = true;
       for (const auto& item : items) {
-        Member ion;
-        visit(item, ion);
         Separate("; ", &first, &ions);
-        AppendState(ion.element, ion.state, &ions);
-        absl::StrAppend(&ions, " count=", ion.count,
-                        " unpaired=", ion.unpaired);
-        // A spin state only where high and low spin differ (not for d0,
-        // d10 or octahedral d3, say), as in human output.
-        if (!ion.spin_state.empty()) {
-          const std::optional<LigandFieldText> field =
-              DescribeLigandField(ion.geometry, ion.spin_state, ion.occupancy);
-          if (!field.has_value() || field->has_spin_choice) {
-            absl::StrAppend(&ions, " spin=", ion.spin_state, "/", ion.geometry);
-          }
-        }
-        absl::StrAppend(&ions, " moment=", ion.moment);
-        if (!ion.site.empty()) absl::StrAppend(&ions, " site=", ion.site);
+        ItemCell ion(ItemCell::kIon, &ions);
+        visit(item, ion);
+        ion.Finish();
       }
     } else if (f.name == "diagnostics") {
       bool first_code = true, first_message = true;
@@ -553,6 +569,113 @@ class CsvGatherer : public TopLevelVisitor {
       varying_exact = varying(i).exact.ToString();
       exact = varying_exact;
     }
+  };
+
+  // A state's or an ion's text before and after its count in its cell,
+  // kept per thread under the item's key.
+  template <typename Key>
+  struct AroundCount {
+    std::optional<Key> key;
+    std::string before, after;
+  };
+
+  // Appends a state's part of its cell ("Fe+2:4/25") or an ion's ("Fe+3
+  // count=2 unpaired=5 spin=high/octahedral moment=5.91608 site=B") to
+  // `out`: from its fields one by one (the message walk), or, where the
+  // walk offers it (Cached, the engine walk), from the text kept under the
+  // item's key around its count, which is all that varies.
+  class ItemCell {
+   public:
+    enum Kind { kState, kIon };
+    ItemCell(Kind kind, std::string* out) : kind_(kind), out_(out) {}
+
+    template <typename F>
+    void String(const F& f, absl::string_view v) {
+      fields_.String(f, v);
+    }
+    template <typename F>
+    void Int(const F& f, int32_t v) {
+      fields_.Int(f, v);
+    }
+    template <typename F>
+    void Double(const F& f, double v) {
+      fields_.Double(f, v);
+    }
+    template <typename F>
+    void Bool(const F&, bool) {}
+    template <typename F, typename Items, typename Visit>
+    void Messages(const F&, const Items&, Visit) {}
+    // Only Cached's walk has varying values, and it goes to a Member.
+    template <typename F>
+    void VaryingNumber(const F&, int) {}
+    template <typename F>
+    void VaryingExact(const F&, int) {}
+
+    template <typename Key, typename Visit>
+    void Cached(const Key& key, std::initializer_list<VaryingValue> varying,
+                Visit visit) {
+      AroundCount<Key>& kept = CachedFragment<Key, AroundCount<Key>>(key);
+      if (!kept.key.has_value() || !(*kept.key == key)) {
+        Member item;
+        item.Cached(key, varying, visit);
+        kept.before.clear();
+        kept.after.clear();
+        Around(item, &kept.before, &kept.after);
+        kept.key = key;
+        kept.key->Keep();
+      }
+      out_->append(kept.before);
+      // The count as the walk gives it: a state's exact one (as
+      // Rational::ToString writes it), an ion's number.
+      if (kind_ == kState) {
+        const Rational& exact = varying.begin()[1].exact;
+        absl::StrAppend(out_, exact.num());
+        if (exact.den() != 1) absl::StrAppend(out_, "/", exact.den());
+      } else {
+        absl::StrAppend(out_, varying.begin()[0].number);
+      }
+      out_->append(kept.after);
+      done_ = true;
+    }
+
+    // Appends the part from the fields, unless Cached has appended it.
+    void Finish() {
+      if (done_) return;
+      std::string before, after;
+      Around(fields_, &before, &after);
+      out_->append(before);
+      if (kind_ == kState) {
+        out_->append(fields_.exact.data(), fields_.exact.size());
+      } else {
+        absl::StrAppend(out_, fields_.count);
+      }
+      out_->append(after);
+    }
+
+   private:
+    // The text before and after the count.
+    void Around(const Member& m, std::string* before,
+                std::string* after) const {
+      AppendState(m.element, m.state, before);
+      if (kind_ == kState) {
+        before->push_back(':');
+        return;
+      }
+      before->append(" count=");
+      absl::StrAppend(after, " unpaired=", m.unpaired);
+      // A spin state only where high and low spin differ (not for d0,
+      // d10 or octahedral d3, say), as in human output.
+      if (!m.spin_state.empty() && SpinStateMatters(m.geometry, m.occupancy)) {
+        absl::StrAppend(after, " spin=", m.spin_state, "/", m.geometry);
+      }
+      absl::StrAppend(after, " moment=", m.moment);
+      if (!m.site.empty()) absl::StrAppend(after, " site=", m.site);
+    }
+
+    const Kind kind_;
+    std::string* const out_;
+    Member fields_;  // The fields, when they come one by one.
+    bool done_ = false;
   };
 
   int32_t row = 0;

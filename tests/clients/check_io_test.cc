@@ -103,6 +103,41 @@ TEST(CheckIo, ParserReadsJsonlAndFlagsCutLines) {
   EXPECT_FALSE(parser.Parse("not json", 3, false).error.empty());
 }
 
+TEST(CheckIo, ParsingIntoAUsedLineKeepsNothingOfTheLineBefore) {
+  // check's workers parse each batch into the lines of the batch before.
+  testing::TempDir dir;
+  absl::StatusOr<std::unique_ptr<RecordInput>> input = RecordInput::Open(
+      dir.Write("in.csv",
+                "id,formula,charge,geometry,measured_moment,Formla\n"),
+      RecordFormat::kAuto);
+  ASSERT_TRUE(input.ok()) << input.status();
+  RecordParser parser(**input, /*default_alternatives=*/1);
+  ParsedLine line;
+  parser.Parse("full,FeO,1,octahedral,4.9,x", 2, false, &line);
+  ASSERT_TRUE(line.error.empty()) << line.error;
+  ASSERT_EQ(line.record.geometry(), "octahedral");
+  ASSERT_TRUE(line.record.has_measured_moment());
+
+  parser.Parse("bare,MgO,,,,", 3, false, &line);
+  EXPECT_TRUE(line.error.empty()) << line.error;
+  EXPECT_EQ(line.record.id(), "bare");
+  EXPECT_EQ(line.record.formula(), "MgO");
+  EXPECT_EQ(line.record.row(), 3);
+  EXPECT_EQ(line.record.charge(), 0);
+  EXPECT_EQ(line.record.geometry(), "");
+  EXPECT_FALSE(line.record.has_measured_moment());
+  EXPECT_EQ(line.record.max_alternatives(), 1);
+
+  parser.Parse("broken,\"MgO,,,,", 4, false, &line);
+  EXPECT_THAT(line.error, HasSubstr("quote"));
+  parser.Parse("again,NaCl,,,,", 5, false, &line);
+  EXPECT_TRUE(line.error.empty()) << line.error;
+  EXPECT_EQ(line.record.formula(), "NaCl");
+  // The by-value form reads the same.
+  EXPECT_EQ(parser.Parse("again,NaCl,,,,", 5, false).record.SerializeAsString(),
+            line.record.SerializeAsString());
+}
+
 TEST(CheckIo, RegressionJsonTypeErrorsNameTheFieldInPlainWords) {
   // Issue 16: {"id":9} gave "invalid value 9 for type TYPE_STRING" and
   // [1,2] "Root element must be a message."

@@ -93,6 +93,40 @@ TEST(FastJson, DoublesFollowThePrintfRuleAcrossTheExactRange) {
   }
 }
 
+TEST(FastJson, ShortDecimalsAndTheirNeighboursFollowThePrintfRule) {
+  // Decimals of up to six places (the shape of counts and most figures),
+  // and the doubles next to them, which are not such decimals.
+  std::mt19937_64 rng(11);
+  for (int i = 0; i < 200000; ++i) {
+    const int places = 1 + static_cast<int>(rng() % 6);
+    const int64_t n = static_cast<int64_t>(rng() % 1000000000000ull);
+    double v = static_cast<double>(n) / std::pow(10.0, places);
+    if (rng() % 2) v = -v;
+    ASSERT_EQ(FastDouble(v), PrintfRule(v)) << absl::StrFormat("%.17g", v);
+    const double up = std::nextafter(v, 1e300);
+    ASSERT_EQ(FastDouble(up), PrintfRule(up)) << absl::StrFormat("%.17g", up);
+    const double down = std::nextafter(v, -1e300);
+    ASSERT_EQ(FastDouble(down), PrintfRule(down))
+        << absl::StrFormat("%.17g", down);
+  }
+}
+
+TEST(FastJson, StringsMatchTheProtobufPrinterWhereverTheEscapeFalls) {
+  // Plain text is skipped eight bytes at a time: each character that
+  // needs an escape (and neighbours of those that do not), at every
+  // offset of a longer string.
+  for (const char* special :
+       {"\"", "\\", "\n", "\x01", "\x1f", "\x7f", "<", ">", "=", ";", "?",
+        "\u2028", "\u2029", "\xe2\x80\xa7", "\xc2\xb7", " "}) {
+    for (int offset = 0; offset < 20; ++offset) {
+      std::string s(offset, 'x');
+      s += special;
+      s += "abcdefghijklmnopq";
+      ExpectStringMatchesPrinter(s);
+    }
+  }
+}
+
 TEST(FastJson, StringsMatchTheProtobufPrinterOnEveryCharacterClass) {
   std::string all;
   for (int c = 1; c < 128; ++c) all.push_back(static_cast<char>(c));
