@@ -503,6 +503,12 @@ const NaturalCase kNaturalCases[] = {
     {"K3FeO4", "K:1x3 Fe:5x1[ferrate(V)] O:-2x4[ferrate(V)]",
      "Greenwood and Earnshaw, from memory"},
     {"CrO5", "Cr:6x1 O:-2x1 O:-1x4", "Greenwood and Earnshaw, from memory"},
+    // Tb(IV) and Pr(IV) (3.1 and 3.2 V) would oxidise Mn(II): the
+    // manganites are R(III)Mn(III)O3 (Kimura et al., Nature 426 (2003) 55,
+    // for TbMnO3, from memory).
+    {"TbMnO3", "Tb:3x1 Mn:3x1 O:-2x3", "Kimura et al. 2003, from memory"},
+    {"PrMnO3", "Pr:3x1 Mn:3x1 O:-2x3", "Greenwood and Earnshaw, from memory"},
+    {"Tb4O7", "Tb:3x2 Tb:4x2 O:-2x7", "Greenwood and Earnshaw, from memory"},
 };
 
 TEST(NaturalStates, CompoundsTakeTheirSourcesStates) {
