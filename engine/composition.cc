@@ -669,6 +669,13 @@ double UnpairedPerFormulaUnit(const std::vector<IonAnnotation>& ions,
 // model's figures (engine/metallic_moments.h): its localised 4f moments
 // where it has them, otherwise none.
 void ApplyMetallicModel(const Formula& formula, CompositionReport* r) {
+  // Atoms in a metal are no free atoms: their free-atom unpaired electrons
+  // are no local moments (Fe3Al's Fe would carry 4 each).
+  for (IonAnnotation& ion : r->ions) {
+    ion.bonded = true;
+    ion.moment = ion.moment_low = ion.moment_high = 0;
+    ion.ordered_moment = ion.ordered_low = ion.ordered_high = 0;
+  }
   MetallicMomentEstimate m = EstimateMetallicMoment(formula.amounts);
   r->moment_model = m.model;
   r->saturation_moment_per_formula_unit = m.saturation;

@@ -182,9 +182,11 @@ struct IonAnnotation {
   double ligand_f = 0;
   SpinBasis spin_basis = SpinBasis::kNone;
   bool near_spin_crossover = false;
-  // A p-block atom in an open-shell formal state (O-1, S-1), or a metal of
-  // a polynuclear carbonyl paired in metal-metal bonds (Mn2(CO)10):
-  // bonded, it carries no unpaired electrons and no moment.
+  // A p-block atom in an open-shell formal state (O-1, S-1), a metal of a
+  // polynuclear carbonyl paired in metal-metal bonds (Mn2(CO)10), or any
+  // atom of a metallic, intermetallic or elemental metal phase (whose
+  // moment is the metallic model's, per formula unit): bonded, it carries
+  // no unpaired electrons and no moment of its own.
   bool bonded = false;
 
   // Unpaired electrons this ion contributes (0 when bonded).

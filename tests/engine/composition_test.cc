@@ -698,6 +698,18 @@ TEST(Composition, MetallicPhaseHasNoFreeAtomUnpairedCount) {
   EXPECT_EQ(r.curie_constant, 0);
   EXPECT_THAT(r.moment_note, ::testing::HasSubstr("no estimate"));
   EXPECT_EQ(r.total_valence_electrons, 27);  // 3 x 8 + 3.
+  // Nor does any atom carry its free-atom count (common practice, no
+  // source: an atom in a metal is no free atom).
+  ASSERT_EQ(r.ions.size(), 2u);
+  for (const IonAnnotation& ion : r.ions) {
+    SCOPED_TRACE(ion.element->symbol);
+    EXPECT_TRUE(ion.bonded);
+    EXPECT_EQ(ion.unpaired(), 0);
+    EXPECT_EQ(ion.moment, 0);
+    EXPECT_EQ(ion.ordered_moment, 0);
+    EXPECT_EQ(ion.description->unpaired_electrons,
+              ion.element->symbol == "Fe" ? 4 : 1);
+  }
 }
 
 TEST(Composition, SmCo5HasSublatticeMomentNotTwentyOneUnpaired) {
