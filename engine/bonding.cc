@@ -66,6 +66,30 @@ bool IsAurideOrPlatinide(const Formula& formula) {
   return !alkali.IsZero() && alkali == anion_charge;
 }
 
+// Metal-rich chalcogenides of the transition metals of groups 3 to 10:
+// more of those metal atoms than S, Se and Te atoms, and no other
+// non-metal. Heazlewoodite Ni3S2, Co9S8, pentlandite (Fe,Ni)9S8, Ti2S,
+// Ta2S and Pd4S hold metal-metal bonds and are metallic (Greenwood and
+// Earnshaw, Chemistry of the Elements, 2nd ed., ch. 15; Vaughan and Craig,
+// Mineral Chemistry of Metal Sulfides (1978); from memory). Copper and
+// silver sulfides (Cu2S, Cu5FeS4) stay ionic: their metals are not
+// counted.
+bool IsMetalRichChalcogenide(const Formula& formula) {
+  Rational metal(0), chalcogen(0);
+  for (const ElementAmount& a : formula.amounts) {
+    const Element& e = *a.element;
+    const int z = e.atomic_number;
+    if (z == 16 || z == 34 || z == 52) {
+      chalcogen = chalcogen + a.count;
+    } else if (e.block == Block::kD && e.group >= 3 && e.group <= 10) {
+      metal = metal + a.count;
+    } else if (!IsMetal(e)) {
+      return false;
+    }
+  }
+  return !chalcogen.IsZero() && chalcogen < metal;
+}
+
 // The Zintl line: the electronegativity difference from which an alkali
 // or alkaline-earth metal gives up its electrons to a p-block metal
 // (NaTl 0.69, LiAl 0.63; Mg17Al12 at 0.30 stays metallic). Common
@@ -172,6 +196,13 @@ BondingClass ClassifyBonding(const Formula& formula) {
     }
     c.kind = CompositionKind::kMetallic;
     c.rule = "metals only";
+    return c;
+  }
+  if (IsMetalRichChalcogenide(formula)) {
+    c.kind = CompositionKind::kIntermetallic;
+    c.rule =
+        "metal-rich: a transition-metal chalcogenide with metal-metal "
+        "bonds";
     return c;
   }
   if (anion_former) {

@@ -90,6 +90,19 @@ TEST(Bonding, ClassOfRealCompositions) {
       {"Ca5Ge3", K::kZintl, "Schäfer et al. 1973, from memory"},
       {"Mg2Si", K::kZintl, "Schäfer et al. 1973, from memory"},
       {"Na3Sb", K::kZintl, "Schäfer et al. 1973, from memory"},
+      // Metal-rich transition-metal chalcogenides hold metal-metal bonds
+      // and are metallic; copper sulfides and the monosulfides stay ionic
+      // (Vaughan and Craig, Mineral Chemistry of Metal Sulfides, 1978, from
+      // memory).
+      {"Ni3S2", K::kIntermetallic, "Vaughan and Craig 1978, from memory"},
+      {"Co9S8", K::kIntermetallic, "Vaughan and Craig 1978, from memory"},
+      {"Fe4.5Ni4.5S8", K::kIntermetallic,
+       "Vaughan and Craig 1978, from memory"},
+      {"Pd4S", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      {"Cu2S", K::kIonic, "Vaughan and Craig 1978, from memory"},
+      {"Cu5FeS4", K::kIonic, "Vaughan and Craig 1978, from memory"},
+      {"Fe7S8", K::kIonic, "Vaughan and Craig 1978, from memory"},
+      {"NiS", K::kIonic, "Vaughan and Craig 1978, from memory"},
       // Aurides and platinides of the heavy alkali metals, against the
       // intermetallics of the lighter ones (Jansen, Chem. Soc. Rev. 37,
       // 1826 (2008); Karpov, Jansen et al., Angew. Chem. 2003; from
