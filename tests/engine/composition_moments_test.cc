@@ -6,6 +6,7 @@
 #include <string>
 
 #include "engine/composition.h"
+#include "gmock/gmock.h"
 #include "gtest/gtest.h"
 
 namespace shellwright {
@@ -243,6 +244,38 @@ TEST(CompositionMoments, PublishedFerriteSaturationMomentsAreAccepted) {
           << ferromagnetic;
     }
   }
+}
+
+TEST(CompositionMoments, OrderedDoublePerovskites) {
+  // Saturation moments, μB per formula unit (from memory): Ba2FeReO6 about
+  // 3.0 and Sr2CrReO6 about 0.9, ferrimagnets (Serrate, De Teresa and
+  // Ibarra, J. Phys.: Condens. Matter 19 (2007) 023201); La2NiMnO6 about
+  // 4.9, a ferromagnet (Rogado et al., Adv. Mater. 17 (2005) 2225).
+  const struct {
+    const char* formula;
+    double published;
+    double nominal;  // The rule's figure with the engine's states.
+  } kCases[] = {
+      {"Ba2FeReO6", 3.0, 3},  // |Fe2+ 4 - Re6+ 1|.
+      {"Sr2CrReO6", 0.9, 1},  // |Cr4+ 2 - Re4+ 3|.
+      {"La2NiMnO6", 4.9, 5},  // Ni2+ 2 + Mn4+ 3.
+  };
+  for (const auto& c : kCases) {
+    SCOPED_TRACE(c.formula);
+    CompositionReport r = Saturation(c.formula, c.published);
+    EXPECT_TRUE(r.valid) << Diagnostics(r);
+    ASSERT_TRUE(r.saturation_moment_per_formula_unit.has_value());
+    EXPECT_NEAR(*r.saturation_moment_per_formula_unit, c.nominal, 1e-9);
+    EXPECT_EQ(r.saturation_model, MomentModel::kSublatticeNeel);
+    EXPECT_THAT(r.structure_note,
+                ::testing::HasSubstr("ordered double perovskite"));
+  }
+  // A 3d ion beside a d0 one orders antiferromagnetically: Sr2FeWO6 is an
+  // antiferromagnet (same review).
+  CompositionReport w = Saturation("Sr2FeWO6", 0);
+  EXPECT_TRUE(w.valid) << Diagnostics(w);
+  ASSERT_TRUE(w.saturation_moment_per_formula_unit.has_value());
+  EXPECT_NEAR(*w.saturation_moment_per_formula_unit, 0, 1e-9);
 }
 
 TEST(CompositionMoments, MagnetiteIsAnInverseSpinelOfFourBohrMagnetons) {

@@ -458,11 +458,22 @@ TEST(Sites, PerovskiteMoments) {
   EXPECT_EQ(Moment("SrTiO3"), 0);
 }
 
-TEST(Sites, DoublePerovskiteIsNotDetermined) {
-  // La2NiMnO6 holds Ni2+ and Mn4+ on B (a ferromagnet, Goodenough,
-  // Magnetism and the Chemical Bond, 1963, from memory): two magnetic
-  // elements, for which the rules give no estimate.
-  const SublatticeMoment m = Saturation("La2NiMnO6");
+TEST(Sites, OrderedDoublePerovskites) {
+  // La2NiMnO6 holds Ni2+ and Mn4+ on B, a ferromagnet (Goodenough,
+  // Magnetism and the Chemical Bond, 1963, from memory): 2 + 3.
+  SublatticeMoment m = Saturation("La2NiMnO6");
+  EXPECT_TRUE(m.determined);
+  EXPECT_NEAR(m.saturation, 5, 1e-9);
+  EXPECT_THAT(m.note, HasSubstr("Goodenough–Kanamori"));
+  // Ba2FeReO6: 3d Fe2+ 4 against 5d Re6+ 1, a ferrimagnet (Serrate, De
+  // Teresa and Ibarra, J. Phys.: Condens. Matter 19 (2007) 023201, from
+  // memory).
+  m = Saturation("Ba2FeReO6");
+  EXPECT_TRUE(m.determined);
+  EXPECT_NEAR(m.saturation, 3, 1e-9);
+  EXPECT_THAT(m.note, HasSubstr("antiparallel"));
+  // Two magnetic B elements of no listed pair: not determined.
+  m = Saturation("La2FeCrO6");
   EXPECT_FALSE(m.determined);
   EXPECT_THAT(m.note, HasSubstr("several magnetic elements"));
 }
