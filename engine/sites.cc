@@ -14,6 +14,7 @@
 #include "absl/container/inlined_vector.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
+#include "engine/coordination.h"
 #include "engine/internal/data_tables.h"
 #include "engine/internal/lazy_element_rows.h"
 
@@ -89,12 +90,6 @@ struct Preference {
   bool from_d_count = false;  // Read from a "dN" row.
 };
 
-int DCount(const Element& e, int state) {
-  if (e.block != Block::kD || e.group < 3) return -1;
-  const int d = e.group - state;
-  return d >= 0 && d <= 10 ? d : -1;
-}
-
 Preference FromRow(const internal::SitePreferenceRow& row) {
   Preference p;
   p.strong = row.preference == 't' ? 0 : row.preference == 'o' ? 2 : 1;
@@ -115,7 +110,7 @@ Preference LookupPreference(const Element& e, int state, bool spinel) {
       return FromRow(row);
     }
   }
-  const int d = DCount(e, state);
+  const int d = CoordinationDCount(e, state);
   if (d >= 0) {
     for (const internal::SitePreferenceRow& row : rows) {
       if (row.d_electrons == d) {
@@ -985,15 +980,6 @@ SublatticeMoment Garnet(const SitePlacement& p,
   return r;
 }
 
-// The d electrons of `o` counted as coordination chemistry does (group -
-// state), or -1 outside the d block.
-int DCount(const SiteOccupant& o) {
-  const Element& e = *o.element;
-  if (e.block != Block::kD || e.group < 3 || e.group > 12) return -1;
-  const int d = e.group - o.state;
-  return d >= 0 && d <= 10 ? d : -1;
-}
-
 // An ordered double perovskite A2BB'X6: two magnetic B ions of different
 // elements in equal numbers, each in one state. Rock-salt order puts every
 // B beside six B', so the B-O-B' superexchange decides:
@@ -1036,12 +1022,13 @@ std::optional<SublatticeMoment> DoublePerovskite(
     return r;
   }
   auto half_filled_eg = [&moments](const SiteOccupant& o, int i) {
-    const int d = DCount(o);
+    const int d = CoordinationDCount(*o.element, o.state);
     return d == 8 || (d == 7 && moments[i] > 2.5);  // High-spin d7: 3 uB.
   };
   if (is_3d_x && is_3d_y &&
-      ((half_filled_eg(x, 0) && DCount(y) == 3) ||
-       (half_filled_eg(y, 1) && DCount(x) == 3))) {
+      ((half_filled_eg(x, 0) && CoordinationDCount(*y.element, y.state) == 3) ||
+       (half_filled_eg(y, 1) &&
+        CoordinationDCount(*x.element, x.state) == 3))) {
     r.saturation = mx + my;
     if (describe) {
       r.note = absl::StrCat(
