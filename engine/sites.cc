@@ -111,6 +111,17 @@ Preference LookupPreference(const Element& e, int state, bool spinel) {
     }
   }
   const int d = CoordinationDCount(e, state);
+  if (d >= 1 && d <= 9 && e.block == Block::kD && e.period >= 5) {
+    // A 4d or 5d ion with d electrons is low spin, and its octahedral
+    // stabilisation (up to 2.4 Delta_o, Delta_o about half as large again
+    // as for 3d) outweighs any 3d ion's: Rh3+ is octahedral in the normal
+    // spinels CoRh2O4, CuRh2O4 and ZnRh2O4, and Ir in CuIr2S4 (Greenwood and
+    // Earnshaw, Chemistry of the Elements, 2nd ed., from memory).
+    Preference p;
+    p.strong = 2;
+    p.low_spin = true;
+    return p;
+  }
   if (d >= 0) {
     for (const internal::SitePreferenceRow& row : rows) {
       if (row.d_electrons == d) {

@@ -280,6 +280,22 @@ TEST(Sites, NormalSpinels) {
   EXPECT_EQ(SiteOf("Co3O4", 1), "Co+3:2");
 }
 
+TEST(Sites, HeavyTransitionMetalsAreOctahedral) {
+  // The rhodates CoRh2O4, CuRh2O4, NiRh2O4 and ZnRh2O4 and the thiospinel
+  // CuIr2S4 are normal: low-spin Rh3+ and Ir on the octahedral sites, the
+  // 3d ion tetrahedral (Greenwood and Earnshaw, Chemistry of the Elements,
+  // 2nd ed., from memory; CoRh2O4 and NiRh2O4 as tetrahedral-site magnets,
+  // from memory). The d6 row alone (Fe2+, 17 kJ/mol) ranked Rh3+ below
+  // Co2+ and Cu2+.
+  for (const char* normal :
+       {"CoRh2O4", "CuRh2O4", "NiRh2O4", "ZnRh2O4", "CuIr2S4"}) {
+    EXPECT_EQ(Inversion(normal), 0.0) << normal;
+  }
+  EXPECT_EQ(SiteOf("CoRh2O4", 0), "Co+2:1");
+  EXPECT_EQ(SiteOf("CoRh2O4", 1), "Rh+3:2");
+  EXPECT_EQ(SiteOf("CuRh2O4", 0), "Cu+2:1");
+}
+
 TEST(Sites, FourTwoSpinels) {
   // Fe2TiO4 (ulvöspinel), Mg2TiO4 and Zn2TiO4 are inverse: Ti4+
   // octahedral; GeNi2O4 is normal: Ge4+ tetrahedral (Greenwood and
