@@ -160,6 +160,63 @@ Weight OptionWeight(const Element& e, const StateOption& o,
 // with Fe(II), not NO with Fe(III) (common practice, no source).
 constexpr int64_t kRadicalStep = 3;
 
+// Whether `formula` is an ordered double perovskite A2BB'O6 whose B' is a
+// 4d or 5d metal of groups 4 to 11 (Sr2FeMoO6, Ba2YMoO6, La2CoIrO6): per 6
+// oxygen, 2 A-site cations and 2 B-site metals of at least two elements,
+// one such 4d/5d metal among them, nothing else. The A sites take large
+// cations (Na, K, Ca, Sr, Ba, Pb, Bi, La to Lu); some of these sit on B
+// sites too (Na in Ba2NaOsO6, Ca in Ba2CaOsO6, Ho in Ba2HoRuO6), so every
+// subset of them present is tried as the A-site set.
+bool IsOrderedDoublePerovskite(const Formula& formula) {
+  Rational oxygen(0);
+  for (const ElementAmount& a : formula.amounts) {
+    if (a.element->atomic_number == 8) oxygen = a.count;
+  }
+  if (oxygen.IsZero() || formula.amounts.size() < 4 ||
+      formula.amounts.size() > 8) {
+    return false;
+  }
+  const auto a_site = [](const Element& e) {
+    const int z = e.atomic_number;
+    return z == 11 || z == 19 || z == 20 || z == 38 || z == 56 || z == 82 ||
+           z == 83 || (z >= 57 && z <= 71);
+  };
+  const auto heavy_partner = [](const Element& e) {
+    return e.block == Block::kD && e.period >= 5 && e.group >= 4 &&
+           e.group <= 11;
+  };
+  // Bit k: the k-th metal of the formula could sit on an A site.
+  uint32_t candidates = 0;
+  for (size_t k = 0; k < formula.amounts.size(); ++k) {
+    const Element& e = *formula.amounts[k].element;
+    if (e.atomic_number == 8) continue;
+    if (!IsMetal(e)) return false;
+    if (a_site(e)) candidates |= 1u << k;
+  }
+  for (uint32_t a_set = candidates; a_set != 0;
+       a_set = (a_set - 1) & candidates) {
+    Rational a_sum(0), b_sum(0);
+    int b_elements = 0, heavy = 0;
+    for (size_t k = 0; k < formula.amounts.size(); ++k) {
+      const ElementAmount& a = formula.amounts[k];
+      if (a.element->atomic_number == 8) continue;
+      if (a_set & (1u << k)) {
+        a_sum = a_sum + a.count;
+      } else {
+        b_sum = b_sum + a.count;
+        ++b_elements;
+        if (heavy_partner(*a.element)) ++heavy;
+      }
+    }
+    // A : B : O = 2 : 2 : 6.
+    if (a_sum * Rational(3) == oxygen && b_sum * Rational(3) == oxygen &&
+        b_elements >= 2 && heavy >= 1) {
+      return true;
+    }
+  }
+  return false;
+}
+
 // Builds the plan of every element. Declared elements take exactly their
 // declared states.
 // A reading of the formula: the unit matches read as units.
@@ -233,11 +290,19 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   const bool soft_only = chalcogen && !hard_anion;
   bool oxide = false;
   for (const ElementPlan& p : plans) oxide |= p.element->atomic_number == 8;
+  // The B sites of an ordered double perovskite read their own state
+  // preferences, and the states listed there count as common (Mo+5 in
+  // Sr2FeMoO6 and Ba2YMoO6, Os+6 in Ca2NiOsO6).
+  const internal::AnionClass anions =
+      soft_only ? internal::AnionClass::kSoft
+      : reading.empty() && oxide && options.net_charge == 0 &&
+              IsOrderedDoublePerovskite(formula)
+          ? internal::AnionClass::kDoublePerovskite
+          : internal::AnionClass::kHard;
   for (ElementPlan& p : plans) {
     p.no_hydride = carbon_or_nitrogen;
     p.oxide = oxide;
-    p.anions =
-        soft_only ? internal::AnionClass::kSoft : internal::AnionClass::kHard;
+    p.anions = anions;
     if (p.declared) continue;
     const bool zero = pi_acceptor && p.element->block == Block::kD;
     const int limit =
@@ -245,14 +310,23 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     // In a Zintl phase the polyanion atoms take -(8 - N) to -1, all
     // common (N valence electrons: Si-1 in CaSi2, Tl-1 in NaTl).
     const bool polyanion = zintl && IsZintlAnionFormer(*p.element);
-    if (!zero && limit < 0 && !polyanion) continue;
+    const bool listed =
+        anions == internal::AnionClass::kDoublePerovskite &&
+        internal::HasPreferenceRows(*p.element,
+                                    internal::AnionClass::kDoublePerovskite);
+    if (!zero && limit < 0 && !polyanion && !listed) continue;
     p.custom = true;
     bool zero_added = !zero;
-    auto add = [&p, limit](int low, int high, bool low_common, bool high_common,
-                           bool needs_oxide = false) {
+    auto add = [&p, limit, listed](int low, int high, bool low_common,
+                                   bool high_common, bool needs_oxide = false) {
       if (limit >= 0) {
         low_common &= low <= limit;
         high_common &= high <= limit;
+      }
+      if (listed) {
+        constexpr auto kListed = internal::AnionClass::kDoublePerovskite;
+        low_common |= internal::ListedPreference(*p.element, low, kListed);
+        high_common |= internal::ListedPreference(*p.element, high, kListed);
       }
       StateOption o = internal::MakeStateOption(
           *p.element, static_cast<int>(p.fixed_options.size()), low, high,
@@ -532,7 +606,7 @@ OxidationAssignment ToAssignment(const Formula& formula, const Plans& plans,
     }
   }
   a.spread = PerFormulaUnit(spread, scale);
-  if (plans.empty() || plans.front().anions == internal::AnionClass::kHard) {
+  if (plans.empty() || plans.front().anions != internal::AnionClass::kSoft) {
     a.redox_incompatible = FindRedoxIncompatible(a);
   }
   a.score = PrintedScore(s.weight, a.redox_incompatible.has_value(), scale);

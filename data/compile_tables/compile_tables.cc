@@ -718,17 +718,21 @@ int main(int argc, char** argv) {
   std::set<std::tuple<int, std::string, long>> preference_keys;
   for (const Row& r : preferences.rows) {
     const int z = symbol_to_z(preferences, r, 0);
-    if (r.fields[1] != "hard" && r.fields[1] != "soft") {
-      Fail(preferences.path, r.line, "column 'anions': expected hard or soft");
+    if (r.fields[1] != "hard" && r.fields[1] != "soft" &&
+        r.fields[1] != "double_perovskite") {
+      Fail(preferences.path, r.line,
+           "column 'anions': expected hard, soft or double_perovskite");
     }
     const long state = known_state(preferences, r, 2, z);
     if (!preference_keys.insert({z, r.fields[1], state}).second) {
       Fail(preferences.path, r.line, "duplicate row");
     }
     const long rank = ParseInt(preferences, r, 3, 1, 6);
-    out << "    {" << z << ", " << (r.fields[1] == "soft" ? "true" : "false")
-        << ", " << state << ", " << rank << ", " << Literal(r.fields[4])
-        << "},\n";
+    const int context = r.fields[1] == "hard"   ? 0
+                        : r.fields[1] == "soft" ? 1
+                                                : 2;
+    out << "    {" << z << ", " << context << ", " << state << ", " << rank
+        << ", " << Literal(r.fields[4]) << "},\n";
   }
   out << "};\n\n";
 

@@ -126,7 +126,9 @@ struct BoundOnlyStateRow {
 // data/state_preferences.tsv
 struct StatePreferenceRow {
   int atomic_number;
-  bool soft;  // Chalcogenide anions only; otherwise hard.
+  // The internal::AnionClass the row is for: 0 hard, 1 soft (chalcogenide
+  // anions only), 2 the B sites of an ordered double perovskite.
+  int anion_class;
   int state;
   int rank;  // 1 is the most natural.
   const char* source;

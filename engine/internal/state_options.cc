@@ -12,10 +12,10 @@ namespace {
 
 struct PreferenceTable {
   // Per element and class: (state, rank) rows, and the largest rank.
-  std::array<std::array<std::vector<std::pair<int, int>>, 2>,
+  std::array<std::array<std::vector<std::pair<int, int>>, kAnionClasses>,
              kMaxAtomicNumber + 1>
       rows;
-  std::array<std::array<int, 2>, kMaxAtomicNumber + 1> max_rank{};
+  std::array<std::array<int, kAnionClasses>, kMaxAtomicNumber + 1> max_rank{};
   std::array<std::vector<double>, kMaxAtomicNumber + 1> state_en_values;
   std::array<std::vector<std::pair<int, double>>, kMaxAtomicNumber + 1>
       state_en;
@@ -25,7 +25,7 @@ const PreferenceTable& Preferences() {
   static const PreferenceTable* const kTable = [] {
     auto* t = new PreferenceTable;
     for (const StatePreferenceRow& row : StatePreferenceRows()) {
-      const int c = row.soft ? 1 : 0;
+      const int c = row.anion_class;
       t->rows[row.atomic_number][c].push_back({row.state, row.rank});
       t->max_rank[row.atomic_number][c] =
           std::max(t->max_rank[row.atomic_number][c], row.rank);
@@ -137,13 +137,26 @@ constexpr int kPreferenceStep = 2;
 int PreferencePenalty(const Element& e, int state, bool common, AnionClass c) {
   const PreferenceTable& t = Preferences();
   int k = static_cast<int>(c);
-  if (t.rows[e.atomic_number][k].empty()) k = 0;  // Soft falls back to hard.
+  // Soft and double-perovskite fall back to hard.
+  if (t.rows[e.atomic_number][k].empty()) k = 0;
   const std::vector<std::pair<int, int>>& rows = t.rows[e.atomic_number][k];
   if (rows.empty()) return common ? 0 : 2 * kPreferenceStep;
   for (const auto& [s, rank] : rows) {
     if (s == state) return kPreferenceStep * (rank - 1);
   }
   return kPreferenceStep * t.max_rank[e.atomic_number][k];
+}
+
+bool HasPreferenceRows(const Element& e, AnionClass c) {
+  return !Preferences().rows[e.atomic_number][static_cast<int>(c)].empty();
+}
+
+bool ListedPreference(const Element& e, int state, AnionClass c) {
+  for (const auto& [s, rank] :
+       Preferences().rows[e.atomic_number][static_cast<int>(c)]) {
+    if (s == state) return true;
+  }
+  return false;
 }
 
 namespace {
@@ -213,7 +226,8 @@ StateOption MakeStateOption(const Element& e, int index, int low, int high,
   };
   o.uncommon = uncommon(low, low_common) +
                (low != high ? uncommon(high, high_common) : 0);
-  for (const AnionClass c : {AnionClass::kHard, AnionClass::kSoft}) {
+  for (const AnionClass c :
+       {AnionClass::kHard, AnionClass::kSoft, AnionClass::kDoublePerovskite}) {
     const int k = static_cast<int>(c);
     o.high_natural[k] =
         GroupGap(e, high) + PreferencePenalty(e, high, high_common, c);

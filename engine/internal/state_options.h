@@ -30,8 +30,12 @@
 
 namespace shellwright::internal {
 
-// The anion classes of data/state_preferences.tsv.
-enum class AnionClass { kHard = 0, kSoft = 1 };
+// The anion classes of data/state_preferences.tsv: hard anions, soft
+// (chalcogenide) anions only, and the B sites of an ordered double
+// perovskite A2BB'O6 whose B' is a 4d or 5d metal (oxide anions; an
+// element without rows of its own there reads its hard rows).
+enum class AnionClass { kHard = 0, kSoft = 1, kDoublePerovskite = 2 };
+inline constexpr int kAnionClasses = 3;
 
 struct StateOption {
   int low = 0;   // Lower state (== high for single valence).
@@ -42,8 +46,8 @@ struct StateOption {
   int uncommon = 0;  // Uncommon states among low and high (bound-only: 2).
   // Naturalness per atom in the upper state, by AnionClass, and what an
   // atom in the lower state adds to it (may be negative).
-  int high_natural[2] = {0, 0};
-  int low_extra_natural[2] = {0, 0};
+  int high_natural[kAnionClasses] = {0, 0, 0};
+  int low_extra_natural[kAnionClasses] = {0, 0, 0};
   // Naturalness per atom of the mixed valence itself: 1 when mixed, 0 for
   // single valence.
   int spread = 0;
@@ -73,6 +77,11 @@ int GroupGap(const Element& e, int state);
 // element with no rows, 0 for a `common` state and 4 for an uncommon one.
 // An element with no soft rows uses its hard rows.
 int PreferencePenalty(const Element& e, int state, bool common, AnionClass c);
+
+// Whether data/state_preferences.tsv has rows for `e` in class `c`, and
+// whether it lists `state` among them.
+bool HasPreferenceRows(const Element& e, AnionClass c);
+bool ListedPreference(const Element& e, int state, AnionClass c);
 
 // The electronegativity of `e` in a positive `state`: the value of
 // data/state_electronegativities.tsv, else the element's, else 0.

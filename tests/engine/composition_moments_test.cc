@@ -256,9 +256,12 @@ TEST(CompositionMoments, OrderedDoublePerovskites) {
     double published;
     double nominal;  // The rule's figure with the engine's states.
   } kCases[] = {
-      {"Ba2FeReO6", 3.0, 3},  // |Fe2+ 4 - Re6+ 1|.
-      {"Sr2CrReO6", 0.9, 1},  // |Cr4+ 2 - Re4+ 3|.
+      {"Ba2FeReO6", 3.0, 3},  // |Fe3+ 5 - Re5+ 2|.
+      {"Sr2CrReO6", 0.9, 1},  // |Cr3+ 3 - Re5+ 2|.
       {"La2NiMnO6", 4.9, 5},  // Ni2+ 2 + Mn4+ 3.
+      // |Fe3+ 5 - Mo5+ 1|; measured about 3.5-4 (Kobayashi et al.,
+      // Nature 395 (1998) 677, from memory).
+      {"Sr2FeMoO6", 3.7, 4},
   };
   for (const auto& c : kCases) {
     SCOPED_TRACE(c.formula);

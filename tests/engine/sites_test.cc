@@ -481,7 +481,7 @@ TEST(Sites, OrderedDoublePerovskites) {
   EXPECT_TRUE(m.determined);
   EXPECT_NEAR(m.saturation, 5, 1e-9);
   EXPECT_THAT(m.note, HasSubstr("Goodenough–Kanamori"));
-  // Ba2FeReO6: 3d Fe2+ 4 against 5d Re6+ 1, a ferrimagnet (Serrate, De
+  // Ba2FeReO6: 3d Fe3+ 5 against 5d Re5+ 2, a ferrimagnet (Serrate, De
   // Teresa and Ibarra, J. Phys.: Condens. Matter 19 (2007) 023201, from
   // memory).
   m = Saturation("Ba2FeReO6");
