@@ -20,6 +20,9 @@ namespace {
 struct WrittenForm {
   std::vector<std::pair<const Element*, int>> terms;
   int unit_class = 0;
+  // The unit's atoms are `parts` times the form's: 2 for PS3, half of the
+  // P2S6 unit, as MPS3 formulas write it (data/units.tsv).
+  int parts = 1;
 };
 
 // The atomic numbers of a unit's cation list (Unit::cations): "-" for
@@ -150,6 +153,16 @@ const Tables& GetTables() {
             form.terms.emplace_back(e, d == j ? 1 : n);
             i = d;
           }
+          // The first element's atoms in the unit over those written.
+          const Element* first = form.terms.front().first;
+          int in_unit = 0, written = 0;
+          for (const UnitAtom& a : u->atoms) {
+            if (a.element == first) in_unit += a.count;
+          }
+          for (const auto& [e, n] : form.terms) {
+            if (e == first) written += n;
+          }
+          form.parts = in_unit / written;
           std::vector<WrittenForm>& list =
               t->forms_by_first[form.terms.front().first->atomic_number];
           const bool known = std::any_of(
@@ -381,9 +394,12 @@ UnitMatches FindUnitMatches(const Formula& formula) {
       if (!same) continue;
       // A run that is a whole group was found as the group.
       if (matches.size() >= kMaxUnitMatches) break;
-      matches.push_back(MakeMatch(t, form.unit_class, static_cast<int>(i),
-                                  static_cast<int>(i + n), -1, first.group,
-                                  first.multiplier));
+      matches.push_back(MakeMatch(
+          t, form.unit_class, static_cast<int>(i), static_cast<int>(i + n), -1,
+          first.group,
+          form.parts == 1 ? first.multiplier
+                          : Rational(first.multiplier.num(),
+                                     first.multiplier.den() * form.parts)));
     }
   }
   // Longer runs first, runs of one length in written order. No two runs of

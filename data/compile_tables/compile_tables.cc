@@ -449,7 +449,8 @@ int main(int argc, char** argv) {
                         ", not to the unit's charge ", charge));
     }
     const long unpaired = ParseInt(units, r, 3, 0, 4);
-    // Every written form holds exactly the unit's atoms.
+    // Every written form holds exactly the unit's atoms, or an integral
+    // fraction of them: PS3, half of P2S6 as MPS3 formulas write it.
     for (absl::string_view form : absl::StrSplit(r.fields[4], '|')) {
       std::map<int, long> written;
       size_t i = 0;
@@ -478,9 +479,19 @@ int main(int argc, char** argv) {
         written[z->second] += k == j ? 1 : n;
         i = k;
       }
-      if (written != composition) {
-        Fail(units.path, r.line,
-             "column 'written': '" + f + "' does not hold the unit's atoms");
+      bool proportional = written.size() == composition.size();
+      long parts = 0;
+      for (auto w = written.begin(), c = composition.begin();
+           proportional && w != written.end(); ++w, ++c) {
+        proportional = w->first == c->first && c->second % w->second == 0 &&
+                       (parts == 0 || c->second / w->second == parts);
+        parts = c->second / w->second;
+      }
+      if (!proportional) {
+        Fail(
+            units.path, r.line,
+            "column 'written': '" + f +
+                "' does not hold the unit's atoms or a whole fraction of them");
       }
     }
     // Allowed cations: '-', or blocks and element symbols.

@@ -1,0 +1,75 @@
+// Tests for engine/units.h: the units table and where a written formula
+// shows a unit.
+
+#include "engine/units.h"
+
+#include <string>
+
+#include "absl/status/statusor.h"
+#include "engine/formula.h"
+#include "gtest/gtest.h"
+
+namespace shellwright {
+namespace {
+
+// The first match of a unit named `name` in `text`, or null.
+struct Found {
+  bool ok = false;
+  Rational count;
+};
+
+Found FindNamed(const std::string& text, const std::string& name) {
+  absl::StatusOr<Formula> f = ParseFormula(text);
+  EXPECT_TRUE(f.ok()) << f.status();
+  Found out;
+  if (!f.ok()) return out;
+  for (const UnitMatch& m : FindUnitMatches(*f)) {
+    for (const Unit* u : m.units) {
+      if (u->name == name && !out.ok) {
+        out.ok = true;
+        out.count = m.count;
+      }
+    }
+  }
+  return out;
+}
+
+TEST(Units, HalfFormsCountHalfAUnit) {
+  // MPS3 is M2P2S6 written per P: PS3 is half a P2S6 4- anion (Brec,
+  // Solid State Ionics 22 (1986) 3, from memory).
+  Found half = FindNamed("NiPS3", "hexathiohypodiphosphate");
+  ASSERT_TRUE(half.ok);
+  EXPECT_EQ(half.count, Rational(1, 2));
+  Found whole = FindNamed("Ni2P2S6", "hexathiohypodiphosphate");
+  ASSERT_TRUE(whole.ok);
+  EXPECT_EQ(whole.count, Rational(1));
+  // A multiplier applies to the half: (PS3)2 is one unit.
+  Found twice = FindNamed("Fe2(PS3)2", "hexathiohypodiphosphate");
+  ASSERT_TRUE(twice.ok);
+  EXPECT_EQ(twice.count, Rational(1));
+}
+
+TEST(Units, WholeFormsWithRepeatedElementsCountOne) {
+  // CH3COO holds both of acetate's carbons: one unit, not two halves.
+  Found acetate = FindNamed("CH3COONa", "acetate");
+  ASSERT_TRUE(acetate.ok);
+  EXPECT_EQ(acetate.count, Rational(1));
+}
+
+TEST(Units, HalfUnitsHoldTheirBondedPairStates) {
+  // P-P, Ge-Ge bonds split equally: P+4 in P2S6 4-, Ge+3 in Ge2Te6 6-
+  // (Karen, McArdle and Takats, Pure Appl. Chem. 88 (2016) 831, the ionic
+  // approximation).
+  const Unit* p2s6 = FindUnit("hexathiohypodiphosphate");
+  ASSERT_NE(p2s6, nullptr);
+  EXPECT_EQ(p2s6->charge, -4);
+  const Unit* ge2te6 = FindUnit("hexatellurodigermanate");
+  ASSERT_NE(ge2te6, nullptr);
+  EXPECT_EQ(ge2te6->charge, -6);
+  for (const UnitAtom& a : ge2te6->atoms) {
+    if (a.element->symbol == std::string("Ge")) EXPECT_EQ(a.state, 3);
+  }
+}
+
+}  // namespace
+}  // namespace shellwright
