@@ -27,7 +27,8 @@ constexpr GeometryPair kGeometries[] = {
     {v1::GEOMETRY_TETRAHEDRAL, Geometry::kTetrahedral},
     {v1::GEOMETRY_SQUARE_PLANAR, Geometry::kSquarePlanar},
     {v1::GEOMETRY_TRIGONAL_PRISMATIC, Geometry::kTrigonalPrismatic},
-    {v1::GEOMETRY_TRIGONAL_BIPYRAMIDAL, Geometry::kTrigonalBipyramidal}};
+    {v1::GEOMETRY_TRIGONAL_BIPYRAMIDAL, Geometry::kTrigonalBipyramidal},
+    {v1::GEOMETRY_SQUARE_ANTIPRISMATIC, Geometry::kSquareAntiprismatic}};
 
 struct SpinPair {
   v1::SpinStatePreference proto;

@@ -170,8 +170,8 @@ IonEnvironment FindEnvironment(const Formula& formula,
   const int complex = ComplexOf(formula, &e, side);
   double metal = 0;       // This element's atoms where the ligands are counted.
   bool molecular = true;  // Only unit ligands (no monatomic anions).
+  double unlisted = 0;    // Sites of units in the complex outside the series.
   for (const AssignedUnit& u : assignment.units) {
-    if (u.unit->ligand == nullptr) continue;
     const bool in_complex =
         complex >= 0 &&
         (Inside(formula, u.enclosing, complex) || u.group == complex);
@@ -182,6 +182,15 @@ IonEnvironment FindEnvironment(const Formula& formula,
       in_a_complex |= formula.groups[g].bracket == '[';
     }
     if (complex >= 0 ? !in_complex : in_a_complex) continue;
+    if (u.unit->ligand == nullptr) {
+      // A neutral unit written in the complex is a ligand the series does
+      // not rank (ethylene in Zeise's salt, K[PtCl3(C2H4)]): it takes a
+      // site but no part in f.
+      if (complex >= 0 && u.unit->charge == 0) {
+        unlisted += u.count.ToDouble();
+      }
+      continue;
+    }
     sites.push_back(
         {u.unit->ligand, u.count.ToDouble() * u.unit->ligand->denticity});
   }
@@ -213,6 +222,7 @@ IonEnvironment FindEnvironment(const Formula& formula,
     }
   }
   if (total > 0) env.f = weighted / total;
+  total += unlisted;
   // Donor sites per metal atom, where the formula shows them: in a
   // complex, or with molecular ligands only (Ni(CO)4).
   const double cn = (complex >= 0 || (molecular && total > 0)) && metal > 0
@@ -247,16 +257,23 @@ IonEnvironment FindEnvironment(const Formula& formula,
     env.geometry = *geometry_set;
   } else if (std::abs(cn - 5) < 0.01 && std::abs(metal - 1) < 0.01) {
     env.geometry = Geometry::kTrigonalBipyramidal;
+  } else if (std::abs(cn - 8) < 0.01) {
+    // Eight donor sites: the octacyanometallates [Mo(CN)8]4- and
+    // [W(CN)8]4- (square antiprism or dodecahedron, one low orbital either
+    // way).
+    env.geometry = Geometry::kSquareAntiprismatic;
   } else if (std::abs(cn - 4) < 0.01) {
     env.geometry = (d == 8 && (n >= 4 || env.f >= kStrongFieldF)) || d == 9
                        ? Geometry::kSquarePlanar
                        : Geometry::kTetrahedral;
-  } else if (cn == 0 && complex < 0 && d == 8 &&
+  } else if ((cn == 0 ? complex < 0 : cn < 3.99) && d == 8 &&
              (n >= 4 || e.atomic_number == 29) &&
              !(env.ligand != nullptr && env.ligand->anion != nullptr &&
                env.ligand->anion->atomic_number == 9)) {
     // 4d and 5d d8 ions are square planar and diamagnetic whatever the
-    // formula shows: PdCl2, PdO, PtS, AuCl3 (Au2Cl6), but PdF2 is
+    // formula shows, fewer than four donor sites per metal included (the
+    // halide bridges of [PdCl2(C2H4)]2): PdCl2, PdO, PtS, AuCl3 (Au2Cl6),
+    // but PdF2 is
     // octahedral and paramagnetic (Greenwood and Earnshaw, Chemistry of
     // the Elements, 2nd ed., chs. 27 and 28, from memory). So is Cu(III)
     // in oxides (KCuO2, NaCuO2: CuO4 chains, diamagnetic), while K3CuF6 is
@@ -310,6 +327,7 @@ IonEnvironment FindEnvironment(const Formula& formula,
       set(SpinState::kLow, SpinBasis::kNoChoice);
       return env;
     case Geometry::kTrigonalBipyramidal:
+    case Geometry::kSquareAntiprismatic:
       // Low spin as square planar d8 is: 4d/5d, or strong-field ligands.
       if (!HasSpinChoice(d, env.geometry)) {
         set(SpinState::kLow, SpinBasis::kNoChoice);

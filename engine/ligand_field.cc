@@ -29,6 +29,13 @@ std::vector<LevelSpec> LevelsFor(Geometry g) {
       // highest (Huheey, Keiter and Keiter, Inorganic Chemistry, 4th ed.,
       // from memory).
       return {{"e''", 2}, {"e'", 2}, {"a1'", 1}};
+    case Geometry::kSquareAntiprismatic:
+      // D4d, eight-coordinate: z2 lowest, then (xy, x2-y2), (xz, yz)
+      // highest. The dodecahedron (D2d) also has a single lowest orbital
+      // (x2-y2), so d1 and d2 fill alike: [Mo(CN)8]4- is diamagnetic d2
+      // (Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed.,
+      // ch. 23, from memory).
+      return {{"a1", 1}, {"e2", 2}, {"e3", 2}};
     case Geometry::kFree:
       break;
   }
@@ -49,6 +56,7 @@ SpinState ResolveSpinState(Geometry geometry, SpinStatePreference preference,
     case Geometry::kSquarePlanar:
     case Geometry::kTrigonalPrismatic:
     case Geometry::kTrigonalBipyramidal:
+    case Geometry::kSquareAntiprismatic:
       return SpinState::kLow;
     case Geometry::kFree:
       break;

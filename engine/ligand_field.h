@@ -48,11 +48,12 @@ enum class Geometry {
   kTetrahedral,
   kSquarePlanar,
   kTrigonalPrismatic,
-  kTrigonalBipyramidal
+  kTrigonalBipyramidal,
+  kSquareAntiprismatic
 };
 // Geometries, kFree included: arrays indexed by Geometry have this size.
 inline constexpr int kGeometryCount =
-    static_cast<int>(Geometry::kTrigonalBipyramidal) + 1;
+    static_cast<int>(Geometry::kSquareAntiprismatic) + 1;
 enum class SpinStatePreference { kAuto, kHigh, kLow };
 enum class SpinState { kHigh, kLow };
 
@@ -66,11 +67,13 @@ struct EnumNames<Geometry> {
       {Geometry::kTetrahedral, "tetrahedral"},
       {Geometry::kSquarePlanar, "square_planar"},
       {Geometry::kTrigonalPrismatic, "trigonal_prismatic"},
-      {Geometry::kTrigonalBipyramidal, "trigonal_bipyramidal"}};
+      {Geometry::kTrigonalBipyramidal, "trigonal_bipyramidal"},
+      {Geometry::kSquareAntiprismatic, "square_antiprismatic"}};
   static constexpr NamedValue<Geometry> kAliases[] = {
       {Geometry::kSquarePlanar, "square-planar"},
       {Geometry::kTrigonalPrismatic, "trigonal-prismatic"},
-      {Geometry::kTrigonalBipyramidal, "trigonal-bipyramidal"}};
+      {Geometry::kTrigonalBipyramidal, "trigonal-bipyramidal"},
+      {Geometry::kSquareAntiprismatic, "square-antiprismatic"}};
 };
 template <>
 struct EnumNames<SpinStatePreference> {

@@ -203,6 +203,26 @@ TEST(SplitD, SquarePlanarD8IsDiamagnetic) {
   EXPECT_EQ(d8.unpaired, 0);
 }
 
+TEST(SplitD, SquareAntiprismaticD2IsDiamagneticWhenLowSpin) {
+  // Eight-coordinate d2: both electrons pair in the single low a1 (z2)
+  // orbital, so [Mo(CN)8]4- is diamagnetic; d1 ([Mo(CN)8]3-) keeps one
+  // (Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed., ch. 23,
+  // from memory).
+  const LigandFieldSplitting d2 =
+      SplitD(2, Geometry::kSquareAntiprismatic, SpinState::kLow);
+  ASSERT_EQ(d2.levels.size(), 3u);
+  EXPECT_EQ(d2.levels.front().name, "a1");
+  EXPECT_EQ(d2.levels.front().electrons, 2);
+  EXPECT_EQ(d2.unpaired, 0);
+  EXPECT_EQ(
+      SplitD(2, Geometry::kSquareAntiprismatic, SpinState::kHigh).unpaired, 2);
+  EXPECT_EQ(SplitD(1, Geometry::kSquareAntiprismatic, SpinState::kLow).unpaired,
+            1);
+  EXPECT_EQ(ResolveSpinState(Geometry::kSquareAntiprismatic,
+                             SpinStatePreference::kAuto, 5),
+            SpinState::kLow);
+}
+
 TEST(LigandField, SquarePlanarD8IonsAreDiamagneticWithAuto) {
   // Square-planar Ni(II), Pd(II), Pt(II), Au(III) d8 complexes are
   // diamagnetic (Cotton & Wilkinson, Advanced Inorganic Chemistry, from

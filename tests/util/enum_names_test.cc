@@ -51,8 +51,8 @@ TEST(EnumNames, ParseIsExactAndSaysWhatItExpected) {
             "unknown shade 'grey' (expected light or dark)");
   EXPECT_THAT(std::string(ParseName<Geometry>("cubic").status().message()),
               HasSubstr("(expected free, octahedral, tetrahedral, "
-                        "square_planar, trigonal_prismatic or "
-                        "trigonal_bipyramidal)"));
+                        "square_planar, trigonal_prismatic, "
+                        "trigonal_bipyramidal or square_antiprismatic)"));
 }
 
 // Every enumerator from first to last has one distinct name, and the name
