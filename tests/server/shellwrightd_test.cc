@@ -135,26 +135,41 @@ TEST(Shellwrightd, HealthAnsweredWithin100MsWhileEightStreamsSendWorstCases) {
   }
   auto health = grpc::health::v1::Health::NewStub(grpc::CreateChannel(
       server->address(), grpc::InsecureChannelCredentials()));
+  // Each probe has 100 ms. A shared host can stall any process for longer
+  // now and then (the fresh-clone CI once saw 1 of 20 probes miss at load
+  // average 4.7 on 2 cores), so up to kLateProbes may miss it, but each of
+  // those must still be answered within a second; a starved health
+  // service misses every probe.
   const auto deadline = std::chrono::milliseconds(100 * kSanitizerSlowdown);
-  int healthy = 0;
+  const auto late_deadline =
+      std::chrono::milliseconds(1000 * kSanitizerSlowdown);
   constexpr int kProbes = 20;
-  for (int probe = 0; probe < kProbes; ++probe) {
+  constexpr int kLateProbes = 2;
+  auto check = [&health](std::chrono::milliseconds within) {
     grpc::ClientContext context;
-    context.set_deadline(std::chrono::system_clock::now() + deadline);
+    context.set_deadline(std::chrono::system_clock::now() + within);
     grpc::health::v1::HealthCheckRequest request;
     grpc::health::v1::HealthCheckResponse response;
     const grpc::Status status = health->Check(&context, request, &response);
-    EXPECT_TRUE(status.ok())
-        << "probe " << probe << ": " << status.error_message();
-    healthy +=
-        status.ok() &&
-        response.status() == grpc::health::v1::HealthCheckResponse::SERVING;
+    return status.ok() &&
+           response.status() == grpc::health::v1::HealthCheckResponse::SERVING;
+  };
+  int healthy = 0, late = 0;
+  for (int probe = 0; probe < kProbes; ++probe) {
+    if (check(deadline)) {
+      ++healthy;
+    } else {
+      ++late;
+      EXPECT_TRUE(check(late_deadline))
+          << "probe " << probe << " not answered within a second either";
+    }
     std::this_thread::sleep_for(std::chrono::milliseconds(100));
   }
+  EXPECT_LE(late, kLateProbes);
   const int64_t answered_while_probing = answered.load();
   stop = true;
   for (std::thread& t : senders) t.join();
-  EXPECT_EQ(healthy, kProbes);
+  EXPECT_GE(healthy, kProbes - kLateProbes);
   EXPECT_EQ(stream_failures.load(), 0);
   EXPECT_GE(answered_while_probing, kStreams * worst.records_size());
   EXPECT_EQ(server->Terminate(kShutdownTimeout), 0);
