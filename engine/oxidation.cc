@@ -975,21 +975,27 @@ absl::Span<const KnownOxidationState> KnownOxidationStates(
   return internal::KnownStates(element);
 }
 
+namespace {
+
+// The non-metals by atomic number: H, He, B, C, N, O, F, Ne, Si, P, S, Cl,
+// Ar, Ge, As, Se, Br, Kr, Sb, Te, I, Xe, At, Rn, Ts, Og. A constant table:
+// IsMetal runs several times a record.
+constexpr std::array<bool, kMaxAtomicNumber + 1> MetalTable() {
+  std::array<bool, kMaxAtomicNumber + 1> metal{};
+  for (bool& m : metal) m = true;
+  for (const int z : {1,  2,  5,  6,  7,  8,  9,  10, 14, 15, 16, 17, 18,
+                      32, 33, 34, 35, 36, 51, 52, 53, 54, 85, 86, 117, 118}) {
+    metal[z] = false;
+  }
+  return metal;
+}
+
+}  // namespace
+
 bool IsMetal(const Element& e) {
-  static const std::array<bool, kMaxAtomicNumber + 1>* const kMetal = [] {
-    auto* metal = new std::array<bool, kMaxAtomicNumber + 1>;
-    metal->fill(true);
-    for (absl::string_view symbol :
-         {"H",  "He", "B",  "C",  "N",  "O",  "F",  "Ne", "Si",
-          "P",  "S",  "Cl", "Ar", "Ge", "As", "Se", "Br", "Kr",
-          "Sb", "Te", "I",  "Xe", "At", "Rn", "Ts", "Og"}) {
-      if (const Element* n = FindElementBySymbol(symbol)) {
-        (*metal)[n->atomic_number] = false;
-      }
-    }
-    return metal;
-  }();
-  return (*kMetal)[e.atomic_number];
+  static constexpr std::array<bool, kMaxAtomicNumber + 1> kMetal =
+      MetalTable();
+  return kMetal[e.atomic_number];
 }
 
 namespace {
@@ -1107,6 +1113,7 @@ absl::StatusOr<OxidationResult> AssignStates(const Formula& formula,
   // Scale counts to integers: L, the least common denominator.
   int64_t lcd = 1;
   for (const ElementAmount& a : formula.amounts) {
+    if (lcd % a.count.den() == 0) continue;  // Integer counts, mostly.
     lcd = std::lcm(lcd, a.count.den());
     if (lcd > kMaxStoichiometryDenominator) {
       return absl::InvalidArgumentError(absl::StrCat(
@@ -1137,10 +1144,13 @@ absl::StatusOr<OxidationResult> AssignStates(const Formula& formula,
   // split over two states (BaBiO3 as Ba2Bi2O6, Bi3+ with Bi5+). The scale
   // is then L x m / g, with m = 1 or 2.
   int64_t g = std::abs(static_cast<int64_t>(options.net_charge) * lcd);
+  // (Once g is 1 it stays 1.)
   for (const ElementAmount& a : formula.amounts) {
+    if (g == 1) break;
     g = std::gcd(g, a.count.num() * (lcd / a.count.den()));
   }
   for (const UnitMatch& m : search.all_matches) {
+    if (g == 1) break;
     if ((m.count * Rational(lcd)).IsInteger()) {
       g = std::gcd(g, (m.count * Rational(lcd)).num());
     }
