@@ -494,7 +494,11 @@ absl::StatusOr<AtomDescriptionPtr> DescribeAtom(const AtomQuery& query) {
   }
   const Element& e = *query.element;
   const int z = e.atomic_number;
-  if (absl::Status s = CheckIonCharge(e, query.charge); !s.ok()) return s;
+  // CheckIonCharge's bounds, tested here first: most queries pass them,
+  // and only a failing one needs its status.
+  if (query.charge > z || query.charge < -kMaxAnionCharge) {
+    return CheckIonCharge(e, query.charge);
+  }
   if (query.configuration.has_value()) {
     const int want = z - query.charge;
     const int have = query.configuration->electrons();

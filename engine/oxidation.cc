@@ -79,10 +79,9 @@ using ChargeItems = absl::InlinedVector<ChargeItem, 8>;
 
 // The search's view of the plans: one layer per element.
 ChargeItems ItemsOf(const Plans& plans) {
-  ChargeItems items;
-  items.reserve(plans.size());
-  for (const ElementPlan& p : plans) {
-    items.push_back(ChargeItem{p.scaled_count, p.options()});
+  ChargeItems items(plans.size());
+  for (size_t i = 0; i < plans.size(); ++i) {
+    items[i] = ChargeItem{plans[i].scaled_count, plans[i].options()};
   }
   return items;
 }
@@ -197,8 +196,9 @@ bool MakePlans(const Formula& formula, const Rational& scale,
         a.element->atomic_number == 6 || a.element->atomic_number == 7;
     ElementPlan& p = plans.emplace_back();
     p.element = a.element;
-    p.table_options = internal::StateOptions(*a.element);
-    p.table_common_options = internal::CommonStateOptions(*a.element);
+    const internal::OptionTables tables = internal::StateOptionTables(*a.element);
+    p.table_options = tables.all;
+    p.table_common_options = tables.common;
     p.count = count;
     p.scaled_count = in_unit ? (count * scale).num() : scaled_counts[i];
     for (const DeclaredState& d : options.declared) {
