@@ -308,9 +308,8 @@ class DescriptionCache {
   // REQUIRES: -kMaxAnionCharge <= charge <= e.atomic_number.
   const AtomDescriptionPtr& Get(const Element& e, int charge) {
     const int z = e.atomic_number;
-    element_once_[z].Run([&] {
-      rows_[z] = std::make_unique<Entry[]>(z + kMaxAnionCharge + 1);
-    });
+    element_once_[z].Run(
+        [&] { rows_[z] = std::make_unique<Entry[]>(z + kMaxAnionCharge + 1); });
     Entry& entry = rows_[z][charge + kMaxAnionCharge];
     // Each slot is written once, by the call_once that guards it.
     entry.built.Run([&] {

@@ -196,7 +196,8 @@ bool MakePlans(const Formula& formula, const Rational& scale,
         a.element->atomic_number == 6 || a.element->atomic_number == 7;
     ElementPlan& p = plans.emplace_back();
     p.element = a.element;
-    const internal::OptionTables tables = internal::StateOptionTables(*a.element);
+    const internal::OptionTables tables =
+        internal::StateOptionTables(*a.element);
     p.table_options = tables.all;
     p.table_common_options = tables.common;
     p.count = count;
@@ -983,7 +984,7 @@ namespace {
 constexpr std::array<bool, kMaxAtomicNumber + 1> MetalTable() {
   std::array<bool, kMaxAtomicNumber + 1> metal{};
   for (bool& m : metal) m = true;
-  for (const int z : {1,  2,  5,  6,  7,  8,  9,  10, 14, 15, 16, 17, 18,
+  for (const int z : {1,  2,  5,  6,  7,  8,  9,  10, 14, 15, 16, 17,  18,
                       32, 33, 34, 35, 36, 51, 52, 53, 54, 85, 86, 117, 118}) {
     metal[z] = false;
   }
@@ -993,8 +994,7 @@ constexpr std::array<bool, kMaxAtomicNumber + 1> MetalTable() {
 }  // namespace
 
 bool IsMetal(const Element& e) {
-  static constexpr std::array<bool, kMaxAtomicNumber + 1> kMetal =
-      MetalTable();
+  static constexpr std::array<bool, kMaxAtomicNumber + 1> kMetal = MetalTable();
   return kMetal[e.atomic_number];
 }
 
