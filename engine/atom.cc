@@ -12,6 +12,7 @@
 #include "absl/strings/strip.h"
 #include "engine/aufbau.h"
 #include "engine/internal/data_tables.h"
+#include "engine/internal/lazy_element_rows.h"
 #include "engine/internal/text.h"
 #include "engine/magnetism.h"
 #include "engine/oxidation.h"
@@ -297,7 +298,8 @@ AtomDescriptionPtr Build(const Element& element, int charge,
 // table is some 150 KB, which a one-record process would zero page by
 // page.
 //
-// The slots are guarded by std::call_once, not absl::call_once: the
+// The slots are guarded by std::call_once (internal::OnceSlot, which
+// skips it once a slot is built), not absl::call_once: the
 // latter is cheaper once a slot is built, but its waiting path runs in
 // the uninstrumented Abseil library, so ThreadSanitizer cannot see the
 // ordering and reports the first reads of a slot as races.
@@ -306,12 +308,11 @@ class DescriptionCache {
   // REQUIRES: -kMaxAnionCharge <= charge <= e.atomic_number.
   const AtomDescriptionPtr& Get(const Element& e, int charge) {
     const int z = e.atomic_number;
-    std::call_once(element_once_[z], [&] {
-      rows_[z] = std::make_unique<Entry[]>(z + kMaxAnionCharge + 1);
-    });
+    element_once_[z].Run(
+        [&] { rows_[z] = std::make_unique<Entry[]>(z + kMaxAnionCharge + 1); });
     Entry& entry = rows_[z][charge + kMaxAnionCharge];
     // Each slot is written once, by the call_once that guards it.
-    std::call_once(entry.built, [&] {
+    entry.built.Run([&] {
       absl::StatusOr<Configuration> c = IonConfiguration(z, charge);
       if (!c.ok()) return;
       entry.description = Build(e, charge, *c, /*user_supplied=*/false,
@@ -322,10 +323,10 @@ class DescriptionCache {
 
  private:
   struct Entry {
-    std::once_flag built;
+    internal::OnceSlot built;
     AtomDescriptionPtr description;
   };
-  std::array<std::once_flag, kMaxAtomicNumber + 1> element_once_;
+  std::array<internal::OnceSlot, kMaxAtomicNumber + 1> element_once_;
   std::array<std::unique_ptr<Entry[]>, kMaxAtomicNumber + 1> rows_;
 };
 
@@ -355,7 +356,7 @@ class LigandFieldCache {
     }
     PerElement& slot = Element(e.atomic_number);
     const int i = Index(charge, g, s);
-    std::call_once(slot.built[i], [&] {
+    slot.built[i].Run([&] {
       absl::StatusOr<Configuration> c =
           IonConfiguration(e.atomic_number, charge);
       if (c.ok()) {
@@ -376,7 +377,7 @@ class LigandFieldCache {
   static constexpr int kEntries = kCharges * kGeometries * kSpins;
   // Each entry is built on first use, under its own flag.
   struct PerElement {
-    std::array<std::once_flag, kEntries> built;
+    std::array<internal::OnceSlot, kEntries> built;
     std::array<AtomDescriptionPtr, kEntries> entries;
   };
 
@@ -390,12 +391,11 @@ class LigandFieldCache {
   // them take some 0.4 MB, which a one-record process would spend most of
   // its start zeroing (docs/performance.md).
   PerElement& Element(int z) {
-    std::call_once(made_[z],
-                   [&] { elements_[z] = std::make_unique<PerElement>(); });
+    made_[z].Run([&] { elements_[z] = std::make_unique<PerElement>(); });
     return *elements_[z];
   }
 
-  std::array<std::once_flag, kMaxAtomicNumber + 1> made_;
+  std::array<internal::OnceSlot, kMaxAtomicNumber + 1> made_;
   std::array<std::unique_ptr<PerElement>, kMaxAtomicNumber + 1> elements_;
 };
 
@@ -493,7 +493,11 @@ absl::StatusOr<AtomDescriptionPtr> DescribeAtom(const AtomQuery& query) {
   }
   const Element& e = *query.element;
   const int z = e.atomic_number;
-  if (absl::Status s = CheckIonCharge(e, query.charge); !s.ok()) return s;
+  // CheckIonCharge's bounds, tested here first: most queries pass them,
+  // and only a failing one needs its status.
+  if (query.charge > z || query.charge < -kMaxAnionCharge) {
+    return CheckIonCharge(e, query.charge);
+  }
   if (query.configuration.has_value()) {
     const int want = z - query.charge;
     const int have = query.configuration->electrons();

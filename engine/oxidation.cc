@@ -79,10 +79,9 @@ using ChargeItems = absl::InlinedVector<ChargeItem, 8>;
 
 // The search's view of the plans: one layer per element.
 ChargeItems ItemsOf(const Plans& plans) {
-  ChargeItems items;
-  items.reserve(plans.size());
-  for (const ElementPlan& p : plans) {
-    items.push_back(ChargeItem{p.scaled_count, p.options()});
+  ChargeItems items(plans.size());
+  for (size_t i = 0; i < plans.size(); ++i) {
+    items[i] = ChargeItem{plans[i].scaled_count, plans[i].options()};
   }
   return items;
 }
@@ -254,8 +253,10 @@ bool MakePlans(const Formula& formula, const Rational& scale,
         a.element->atomic_number == 6 || a.element->atomic_number == 7;
     ElementPlan& p = plans.emplace_back();
     p.element = a.element;
-    p.table_options = internal::StateOptions(*a.element);
-    p.table_common_options = internal::CommonStateOptions(*a.element);
+    const internal::OptionTables tables =
+        internal::StateOptionTables(*a.element);
+    p.table_options = tables.all;
+    p.table_common_options = tables.common;
     p.count = count;
     p.scaled_count = in_unit ? (count * scale).num() : scaled_counts[i];
     for (const DeclaredState& d : options.declared) {
@@ -1049,21 +1050,26 @@ absl::Span<const KnownOxidationState> KnownOxidationStates(
   return internal::KnownStates(element);
 }
 
+namespace {
+
+// The non-metals by atomic number: H, He, B, C, N, O, F, Ne, Si, P, S, Cl,
+// Ar, Ge, As, Se, Br, Kr, Sb, Te, I, Xe, At, Rn, Ts, Og. A constant table:
+// IsMetal runs several times a record.
+constexpr std::array<bool, kMaxAtomicNumber + 1> MetalTable() {
+  std::array<bool, kMaxAtomicNumber + 1> metal{};
+  for (bool& m : metal) m = true;
+  for (const int z : {1,  2,  5,  6,  7,  8,  9,  10, 14, 15, 16, 17,  18,
+                      32, 33, 34, 35, 36, 51, 52, 53, 54, 85, 86, 117, 118}) {
+    metal[z] = false;
+  }
+  return metal;
+}
+
+}  // namespace
+
 bool IsMetal(const Element& e) {
-  static const std::array<bool, kMaxAtomicNumber + 1>* const kMetal = [] {
-    auto* metal = new std::array<bool, kMaxAtomicNumber + 1>;
-    metal->fill(true);
-    for (absl::string_view symbol :
-         {"H",  "He", "B",  "C",  "N",  "O",  "F",  "Ne", "Si",
-          "P",  "S",  "Cl", "Ar", "Ge", "As", "Se", "Br", "Kr",
-          "Sb", "Te", "I",  "Xe", "At", "Rn", "Ts", "Og"}) {
-      if (const Element* n = FindElementBySymbol(symbol)) {
-        (*metal)[n->atomic_number] = false;
-      }
-    }
-    return metal;
-  }();
-  return (*kMetal)[e.atomic_number];
+  static constexpr std::array<bool, kMaxAtomicNumber + 1> kMetal = MetalTable();
+  return kMetal[e.atomic_number];
 }
 
 namespace {
@@ -1181,6 +1187,7 @@ absl::StatusOr<OxidationResult> AssignStates(const Formula& formula,
   // Scale counts to integers: L, the least common denominator.
   int64_t lcd = 1;
   for (const ElementAmount& a : formula.amounts) {
+    if (lcd % a.count.den() == 0) continue;  // Integer counts, mostly.
     lcd = std::lcm(lcd, a.count.den());
     if (lcd > kMaxStoichiometryDenominator) {
       return absl::InvalidArgumentError(absl::StrCat(
@@ -1211,10 +1218,13 @@ absl::StatusOr<OxidationResult> AssignStates(const Formula& formula,
   // split over two states (BaBiO3 as Ba2Bi2O6, Bi3+ with Bi5+). The scale
   // is then L x m / g, with m = 1 or 2.
   int64_t g = std::abs(static_cast<int64_t>(options.net_charge) * lcd);
+  // (Once g is 1 it stays 1.)
   for (const ElementAmount& a : formula.amounts) {
+    if (g == 1) break;
     g = std::gcd(g, a.count.num() * (lcd / a.count.den()));
   }
   for (const UnitMatch& m : search.all_matches) {
+    if (g == 1) break;
     if ((m.count * Rational(lcd)).IsInteger()) {
       g = std::gcd(g, (m.count * Rational(lcd)).num());
     }

@@ -16,12 +16,33 @@
 #define SHELLWRIGHT_ENGINE_INTERNAL_LAZY_ELEMENT_ROWS_H_
 
 #include <array>
+#include <atomic>
 #include <memory>
 #include <mutex>
 
 #include "engine/element.h"
 
 namespace shellwright::internal {
+
+// A std::once_flag with a flag of its own that says the work is done, read
+// before std::call_once: once a slot is built, a lookup costs one acquire
+// load instead of a call into pthread_once.
+class OnceSlot {
+ public:
+  // Runs `make()` on the first call, once, however many threads call.
+  template <typename Make>
+  void Run(Make make) {
+    if (done_.load(std::memory_order_acquire)) return;
+    std::call_once(flag_, [&] {
+      make();
+      done_.store(true, std::memory_order_release);
+    });
+  }
+
+ private:
+  std::once_flag flag_;
+  std::atomic<bool> done_{false};
+};
 
 template <typename Row>
 class LazyElementRows {
@@ -30,12 +51,12 @@ class LazyElementRows {
   // first call for `z`. REQUIRES: 0 <= z <= kMaxAtomicNumber.
   template <typename Make>
   const Row& Get(int z, Make make) {
-    std::call_once(once_[z], [&] { rows_[z] = std::make_unique<Row>(make()); });
+    once_[z].Run([&] { rows_[z] = std::make_unique<Row>(make()); });
     return *rows_[z];
   }
 
  private:
-  std::array<std::once_flag, kMaxAtomicNumber + 1> once_;
+  std::array<OnceSlot, kMaxAtomicNumber + 1> once_;
   std::array<std::unique_ptr<Row>, kMaxAtomicNumber + 1> rows_;
 };
 

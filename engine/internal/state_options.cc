@@ -254,4 +254,10 @@ absl::Span<const StateOption> CommonStateOptions(const Element& e) {
   return States().common_options_by_z[e.atomic_number];
 }
 
+OptionTables StateOptionTables(const Element& e) {
+  const StateTable& t = States();
+  return {t.options_by_z[e.atomic_number],
+          t.common_options_by_z[e.atomic_number]};
+}
+
 }  // namespace shellwright::internal

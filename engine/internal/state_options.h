@@ -144,6 +144,14 @@ absl::Span<const StateOption> StateOptions(const Element& e);
 // with their index in StateOptions(): what the narrow stage filters.
 absl::Span<const StateOption> CommonStateOptions(const Element& e);
 
+// StateOptions(e) and CommonStateOptions(e) from one lookup, for the
+// search's plans.
+struct OptionTables {
+  absl::Span<const StateOption> all;
+  absl::Span<const StateOption> common;
+};
+OptionTables StateOptionTables(const Element& e);
+
 }  // namespace shellwright::internal
 
 #endif  // SHELLWRIGHT_ENGINE_INTERNAL_STATE_OPTIONS_H_

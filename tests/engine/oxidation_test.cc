@@ -17,6 +17,7 @@
 
 #include "absl/status/status.h"
 #include "absl/status/statusor.h"
+#include "absl/strings/string_view.h"
 #include "absl/types/span.h"
 #include "engine/element.h"
 #include "engine/formula.h"
@@ -88,6 +89,25 @@ TEST(Oxidation, MetalsAndElements) {
   EXPECT_EQ(Solve("AlCoCrFeNi").kind, CompositionKind::kMetallic);
   EXPECT_EQ(Solve("O2").kind, CompositionKind::kElemental);
   EXPECT_EQ(Best("O2"), "O:0x2");
+}
+
+// IsMetal reads a table by atomic number: it must say non-metal for
+// exactly these symbols (the engine's own classification, with the
+// metalloids B, Si, Ge, As, Sb and Te as non-metals; common practice, no
+// source).
+TEST(Oxidation, IsMetalTableMatchesTheNonMetalSymbols) {
+  const std::vector<absl::string_view> non_metals = {
+      "H",  "He", "B",  "C",  "N",  "O",  "F",  "Ne", "Si",
+      "P",  "S",  "Cl", "Ar", "Ge", "As", "Se", "Br", "Kr",
+      "Sb", "Te", "I",  "Xe", "At", "Rn", "Ts", "Og"};
+  int metals = 0;
+  for (const Element& e : AllElements()) {
+    const bool listed = std::find(non_metals.begin(), non_metals.end(),
+                                  e.symbol) != non_metals.end();
+    EXPECT_EQ(IsMetal(e), !listed) << e.symbol;
+    metals += IsMetal(e) ? 1 : 0;
+  }
+  EXPECT_EQ(metals, static_cast<int>(AllElements().size()) - 26);
 }
 
 TEST(Oxidation, UnbalanceableHasNoAssignment) {
