@@ -223,6 +223,10 @@ IonEnvironment FindEnvironment(const Formula& formula,
   }
   if (total > 0) env.f = weighted / total;
   total += unlisted;
+  bool pi_acceptors_only = !sites.empty();
+  for (const Site& s : sites) {
+    pi_acceptors_only &= s.ligand->f >= kPiAcceptorF;
+  }
   // Donor sites per metal atom, where the formula shows them: in a
   // complex, or with molecular ligands only (Ni(CO)4).
   const double cn = (complex >= 0 || (molecular && total > 0)) && metal > 0
@@ -255,9 +259,13 @@ IonEnvironment FindEnvironment(const Formula& formula,
   // Geometry.
   if (geometry_set != nullptr) {
     env.geometry = *geometry_set;
-  } else if (std::abs(cn - 5) < 0.01 && std::abs(metal - 1) < 0.01) {
+  } else if (std::abs(cn - 5) < 0.01 && std::abs(metal - 1) < 0.01 &&
+             (complex >= 0 || pi_acceptors_only)) {
+    // Five sites on one metal, in a written complex ([CuCl5]3-) or from
+    // pi acceptors (Fe(CO)5); a salt hydrate's ligand count
+    // (Mn(CH3COO)3·2H2O) does not show its coordination.
     env.geometry = Geometry::kTrigonalBipyramidal;
-  } else if (std::abs(cn - 8) < 0.01) {
+  } else if (std::abs(cn - 8) < 0.01 && complex >= 0) {
     // Eight donor sites: the octacyanometallates [Mo(CN)8]4- and
     // [W(CN)8]4- (square antiprism or dodecahedron, one low orbital either
     // way).

@@ -906,3 +906,39 @@ TEST(CompositionAbbreviations, UnknownAbbreviationIsAMalformedFormula) {
 
 }  // namespace
 }  // namespace shellwright
+
+namespace shellwright {
+namespace {
+
+TEST(Composition, SaltHydratesStayOctahedral) {
+  // A salt hydrate's ligand count per metal (FeSO4·7H2O: seven waters and
+  // a sulfate) does not show its coordination: FeSO4·7H2O and
+  // Co(NO3)2·6H2O hold the hexaaqua ions [M(H2O)6]2+ (Greenwood and
+  // Earnshaw, Chemistry of the Elements, 2nd ed., from memory). Five or
+  // eight sites count only in a written complex or from pi acceptors.
+  for (const char* formula :
+       {"FeSO4·7H2O", "Co(NO3)2·6H2O", "Mn(CH3COO)3·2H2O"}) {
+    SCOPED_TRACE(formula);
+    const CompositionReport r = Analyze(formula);
+    bool seen = false;
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->block != Block::kD) continue;
+      seen = true;
+      EXPECT_EQ(ion.description->ligand_field->splitting.geometry,
+                Geometry::kOctahedral);
+    }
+    EXPECT_TRUE(seen);
+  }
+  // Eight sites in a written complex: square antiprismatic, diamagnetic
+  // d2 (same source, ch. 23).
+  const CompositionReport mo = Analyze("K4[Mo(CN)8]");
+  for (const IonAnnotation& ion : mo.ions) {
+    if (ion.element->symbol != std::string("Mo")) continue;
+    EXPECT_EQ(ion.description->ligand_field->splitting.geometry,
+              Geometry::kSquareAntiprismatic);
+    EXPECT_EQ(ion.unpaired(), 0);
+  }
+}
+
+}  // namespace
+}  // namespace shellwright
