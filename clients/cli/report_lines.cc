@@ -49,20 +49,15 @@ class LineWriter {
     p_ += N - 1;
   }
   void Raw(absl::string_view text) {
-    const size_t n = text.size();
-    Reserve(n);
-    // Keys and short values are most of a line: copy 8 to 32 bytes with
-    // two overlapping fixed-size moves instead of a call.
-    if (n >= 8 && n <= 16) {
-      std::memcpy(p_, text.data(), 8);
-      std::memcpy(p_ + n - 8, text.data() + n - 8, 8);
-    } else if (n > 16 && n <= 32) {
-      std::memcpy(p_, text.data(), 16);
-      std::memcpy(p_ + n - 16, text.data() + n - 16, 16);
-    } else {
-      std::memcpy(p_, text.data(), n);
-    }
-    p_ += n;
+    Reserve(text.size());
+    Copy(text);
+  }
+  // A member's key ("\"name\":"), after a comma unless it is the first.
+  void Key(absl::string_view json_key, bool first) {
+    Reserve(json_key.size() + 1);
+    *p_ = ',';
+    p_ += first ? 0 : 1;
+    Copy(json_key);
   }
   void Char(char c) {
     Reserve(1);
@@ -89,6 +84,25 @@ class LineWriter {
  private:
   void Reserve(size_t n) {
     if (static_cast<size_t>(end_ - p_) < n) Grow(n);
+  }
+  // REQUIRES: room for `text`.
+  void Copy(absl::string_view text) {
+    const size_t n = text.size();
+    // Keys and short values are most of a line: copy 8 to 64 bytes with
+    // two overlapping fixed-size moves instead of a call.
+    if (n >= 8 && n <= 16) {
+      std::memcpy(p_, text.data(), 8);
+      std::memcpy(p_ + n - 8, text.data() + n - 8, 8);
+    } else if (n > 16 && n <= 32) {
+      std::memcpy(p_, text.data(), 16);
+      std::memcpy(p_ + n - 16, text.data() + n - 16, 16);
+    } else if (n > 32 && n <= 64) {
+      std::memcpy(p_, text.data(), 32);
+      std::memcpy(p_ + n - 32, text.data() + n - 32, 32);
+    } else {
+      std::memcpy(p_, text.data(), n);
+    }
+    p_ += n;
   }
   void Grow(size_t n) {
     out_->Commit(p_);
@@ -239,9 +253,8 @@ class JsonWriter {
  private:
   // `json_key` is "\"name\":".
   void Key(absl::string_view json_key) {
-    if (!first_) out_->Char(',');
+    out_->Key(json_key, first_);
     first_ = false;
-    out_->Raw(json_key);
   }
   void Gap(absl::string_view json_key) {
     Key(json_key);
