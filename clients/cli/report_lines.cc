@@ -315,6 +315,14 @@ void CsvField(absl::string_view field, ReportText* out) {
   out->push_back('"');
 }
 
+// Appends the pieces one by one: absl::StrAppend makes its room with
+// std::string::resize, which writes it full of zeros first.
+void AppendPieces(std::string* out,
+                  std::initializer_list<absl::string_view> pieces) {
+  for (absl::string_view piece : pieces)
+    out->append(piece.data(), piece.size());
+}
+
 // Appends `separator` to a joined list, except before its first item.
 void Separate(absl::string_view separator, bool* first, std::string* list) {
   if (!*first) list->append(separator.data(), separator.size());
@@ -471,9 +479,9 @@ class CsvGatherer : public TopLevelVisitor {
         Member d;
         visit(item, d);
         Separate(";", &first_code, &codes);
-        absl::StrAppend(&codes, d.severity, ":", d.code);
+        AppendPieces(&codes, {d.severity, ":", d.code});
         Separate(" | ", &first_message, &messages);
-        absl::StrAppend(&messages, d.severity, " ", d.code, ": ", d.message);
+        AppendPieces(&messages, {d.severity, " ", d.code, ": ", d.message});
       }
     }
   }
@@ -659,10 +667,12 @@ class CsvGatherer : public TopLevelVisitor {
       // Rational::ToString writes it), an ion's number.
       if (kind_ == kState) {
         const Rational& exact = varying.begin()[1].exact;
-        absl::StrAppend(out_, exact.num());
-        if (exact.den() != 1) absl::StrAppend(out_, "/", exact.den());
+        AppendPieces(out_, {absl::AlphaNum(exact.num()).Piece()});
+        if (exact.den() != 1) {
+          AppendPieces(out_, {"/", absl::AlphaNum(exact.den()).Piece()});
+        }
       } else {
-        absl::StrAppend(out_, varying.begin()[0].number);
+        AppendPieces(out_, {absl::AlphaNum(varying.begin()[0].number).Piece()});
       }
       out_->append(kept.after);
       done_ = true;
