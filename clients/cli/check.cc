@@ -121,9 +121,18 @@ class DuplicateIds {
 
   void Check(const std::vector<ReportRow>& rows, ReportCounts* summary) {
     constexpr int64_t kShown = 20;
-    for (const ReportRow& r : rows) {
+    // The set soon outgrows the caches: each id's slot is fetched a few
+    // rows ahead of its insertion, so that the waits for memory overlap.
+    constexpr size_t kAhead = 8;
+    hashes_.resize(rows.size());
+    for (size_t i = 0; i < rows.size(); ++i) {
+      hashes_[i] = absl::HashOf(rows[i].id);
+    }
+    for (size_t i = 0; i < rows.size(); ++i) {
+      if (i + kAhead < rows.size()) seen_.prefetch(hashes_[i + kAhead]);
+      const ReportRow& r = rows[i];
       if (r.id.empty()) continue;  // Already an error (malformed_record).
-      const uint64_t hash = absl::HashOf(r.id);
+      const uint64_t hash = hashes_[i];
       if (seen_.insert(hash).second) {
         if (first_row_.size() < kRememberedRows) first_row_[hash] = r.row;
         continue;
@@ -153,6 +162,7 @@ class DuplicateIds {
   static constexpr size_t kRememberedRows = 1 << 16;
   std::ostream* const log_;
   absl::flat_hash_set<uint64_t> seen_;
+  std::vector<uint64_t> hashes_;  // The batch's, reused.
   absl::flat_hash_map<uint64_t, int32_t> first_row_;
   int64_t repeats_ = 0;
 };
