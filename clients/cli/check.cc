@@ -292,6 +292,7 @@ absl::StatusOr<CheckResult> RunCheck(const CheckOptions& options,
     // written) and 520 B per CSV line: room for the whole batch, so that
     // its text is never copied to grow.
     batch.out.text = texts.Take();
+    batch.out.rows.reserve(batch.refs.size());
     batch.out.text.reserve((batch.refs.size() + 1) *
                            (format == ReportLineFormat::kCsv ? 640 : 4096));
     absl::Status status = processors[worker]->Process(lines, &batch.out);
