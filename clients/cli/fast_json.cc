@@ -350,7 +350,14 @@ int FormatShortDecimal(double v, char* buf) {
   std::memcpy(p + 2, &pairs[2 * (fraction / 100 % 100)], 2);
   std::memcpy(p + 4, &pairs[2 * (fraction % 100)], 2);
   p += 6;
-  while (p[-1] == '0') --p;
+  // The fraction is not 0, so a pair of it is not "00": cut whole pairs
+  // of zeros by arithmetic, then at most one zero more.
+  if (fraction % 10000 == 0) {
+    p -= 4;
+  } else if (fraction % 100 == 0) {
+    p -= 2;
+  }
+  if (p[-1] == '0') --p;
   return static_cast<int>(p - buf);
 }
 
