@@ -350,14 +350,18 @@ int FormatShortDecimal(double v, char* buf) {
   std::memcpy(p + 2, &pairs[2 * (fraction / 100 % 100)], 2);
   std::memcpy(p + 4, &pairs[2 * (fraction % 100)], 2);
   p += 6;
-  // The fraction is not 0, so a pair of it is not "00": cut whole pairs
-  // of zeros by arithmetic, then at most one zero more.
-  if (fraction % 10000 == 0) {
+  // The fraction is not 0, so a pair of it is not "00": whole pairs of
+  // zeros, then at most one zero more, are cut by arithmetic on the
+  // fraction (reading the digits back would wait for their stores).
+  uint32_t kept = fraction;  // The fraction's digits that stay.
+  if (kept % 10000 == 0) {
+    kept /= 10000;
     p -= 4;
-  } else if (fraction % 100 == 0) {
+  } else if (kept % 100 == 0) {
+    kept /= 100;
     p -= 2;
   }
-  if (p[-1] == '0') --p;
+  p -= kept % 10 == 0;
   return static_cast<int>(p - buf);
 }
 
