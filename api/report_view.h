@@ -184,20 +184,33 @@ struct StateKey {
   // hundred distinct states make up most reports).
   static constexpr size_t kCacheSlots = 256;
 
+  static StateKey Of(const Element* element, int state, bool common,
+                     bool declared, const Unit* unit) {
+    return {element,
+            static_cast<uint32_t>(state) | (uint64_t{common} << 32) |
+                (uint64_t{declared} << 33),
+            unit};
+  }
+
   const Element* element;
-  int state;
-  bool common, declared;
+  // The state (low 32 bits), common (bit 32) and declared (bit 33) in one
+  // word, stored at once: as three narrow fields they were stored one by
+  // one and compared as one wide word, a load that waits until the
+  // stores reach the cache (a key is compared right after it is built).
+  uint64_t state_flags;
   const Unit* unit;  // Null for a free ion.
 
   void Keep() {}  // Nothing to hold: units live as long as the program.
   bool operator==(const StateKey& o) const {
-    return element == o.element && state == o.state && common == o.common &&
-           declared == o.declared && unit == o.unit;
+    return element == o.element && state_flags == o.state_flags &&
+           unit == o.unit;
   }
   uint64_t Hash() const {
+    const int state = static_cast<int32_t>(static_cast<uint32_t>(state_flags));
+    const uint64_t common = (state_flags >> 32) & 1;
+    const uint64_t declared = (state_flags >> 33) & 1;
     return (static_cast<uint64_t>(element->atomic_number) * 31u +
-            static_cast<uint64_t>(state + 16) * 4u + (common ? 2u : 0u) +
-            (declared ? 1u : 0u)) ^
+            static_cast<uint64_t>(state + 16) * 4u + common * 2u + declared) ^
            (reinterpret_cast<uintptr_t>(unit) * 0x9E3779B97F4A7C15ull);
   }
 };
@@ -219,9 +232,12 @@ struct IonKey {
   // The environment: ligand (static), its f, the basis and flags.
   const Ligand* ligand;
   uint64_t f;
-  int environment;  // basis x 4 + near x 2 + bonded.
+  // 64-bit, as Hash reads them: Hash's shifts let the compiler load 8
+  // bytes, and a load wider than the store just made (a key is hashed
+  // right after it is built) waits for the store to reach the cache.
+  uint64_t environment;  // basis x 4 + near x 2 + bonded.
   // The moment model and range basis, the ordered moment and the site.
-  int model;
+  uint64_t model;
   uint64_t ordered;
   const char* site;
 
@@ -240,9 +256,7 @@ struct IonKey {
     return (reinterpret_cast<uintptr_t>(description) ^
             (moment * 0x9E3779B97F4A7C15ull) ^ (low * 0xC2B2AE3D27D4EB4Full) ^
             (high * 0x165667B19E3779F9ull) ^ static_cast<uint64_t>(state) ^
-            (f * 0x27D4EB2F165667C5ull) ^
-            (static_cast<uint64_t>(environment) << 40) ^
-            (static_cast<uint64_t>(model) << 52) ^
+            (f * 0x27D4EB2F165667C5ull) ^ (environment << 40) ^ (model << 52) ^
             (ordered * 0x94D049BB133111EBull) ^
             reinterpret_cast<uintptr_t>(site) ^
             reinterpret_cast<uintptr_t>(ligand)) *
@@ -255,7 +269,7 @@ void VisitState(const AssignedState& s, const std::vector<AssignedUnit>& units,
                 Visitor& v) {
   const Unit* unit = s.unit >= 0 ? units[s.unit].unit : nullptr;
   v.Cached(
-      StateKey{s.element, s.state, s.common, s.declared, unit},
+      StateKey::Of(s.element, s.state, s.common, s.declared, unit),
       {VaryingValue::Number(s.count.ToDouble()), VaryingValue::Exact(s.count)},
       [&](auto& v) {
         v.String(SHELLWRIGHT_REPORT_FIELD(element), s.element->symbol);
@@ -274,14 +288,15 @@ template <typename Visitor>
 void VisitIon(const IonAnnotation& ion, Visitor& v) {
   const AtomDescription& d = *ion.description;
   v.Cached(
-      IonKey{
-          &ion.description, nullptr, ion.description.get(), ion.element,
-          ion.state, Bits(ion.moment), Bits(ion.moment_low),
-          Bits(ion.moment_high), ion.ligand, Bits(ion.ligand_f),
-          static_cast<int>(ion.spin_basis) * 4 +
-              (ion.near_spin_crossover ? 2 : 0) + (ion.bonded ? 1 : 0),
-          static_cast<int>(ion.model) * 16 + static_cast<int>(ion.range_basis),
-          Bits(ion.ordered_moment), ion.site.data()},
+      IonKey{&ion.description, nullptr, ion.description.get(), ion.element,
+             ion.state, Bits(ion.moment), Bits(ion.moment_low),
+             Bits(ion.moment_high), ion.ligand, Bits(ion.ligand_f),
+             static_cast<uint64_t>(static_cast<int>(ion.spin_basis) * 4 +
+                                   (ion.near_spin_crossover ? 2 : 0) +
+                                   (ion.bonded ? 1 : 0)),
+             static_cast<uint64_t>(static_cast<int>(ion.model) * 16 +
+                                   static_cast<int>(ion.range_basis)),
+             Bits(ion.ordered_moment), ion.site.data()},
       {VaryingValue::Number(ion.count.ToDouble())}, [&](auto& v) {
         const LigandFieldSplitting* lf =
             d.ligand_field.has_value() ? &d.ligand_field->splitting : nullptr;

@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <atomic>
 #include <memory>
+#include <mutex>
 #include <thread>
 #include <utility>
 #include <vector>
@@ -44,6 +45,32 @@ ReportLineFormat LineFormat(RecordFormat f) {
   return f == RecordFormat::kCsv ? ReportLineFormat::kCsv
                                  : ReportLineFormat::kJsonl;
 }
+
+// Report texts already written out, kept for the batches to come: a
+// batch's text is about 1 MB of JSONL, and a block written a moment ago
+// is still in the caches (and mapped), where a new one would be fetched
+// from memory, page by page, as its lines are written. The most recent
+// goes first. Holds at most as many texts as batches are in flight.
+class TextPool {
+ public:
+  // A text with no lines, with the room of one given back, if any.
+  ReportText Take() {
+    std::lock_guard<std::mutex> lock(mu_);
+    if (free_.empty()) return ReportText();
+    ReportText text = std::move(free_.back());
+    free_.pop_back();
+    return text;
+  }
+  void Give(ReportText text) {
+    text.clear();
+    std::lock_guard<std::mutex> lock(mu_);
+    free_.push_back(std::move(text));
+  }
+
+ private:
+  std::mutex mu_;
+  std::vector<ReportText> free_;  // Guarded by mu_.
+};
 
 // The progress line: rows, rate and, for a file, a bar and an ETA.
 class Progress {
@@ -94,9 +121,18 @@ class DuplicateIds {
 
   void Check(const std::vector<ReportRow>& rows, ReportCounts* summary) {
     constexpr int64_t kShown = 20;
-    for (const ReportRow& r : rows) {
+    // The set soon outgrows the caches: each id's slot is fetched a few
+    // rows ahead of its insertion, so that the waits for memory overlap.
+    constexpr size_t kAhead = 8;
+    hashes_.resize(rows.size());
+    for (size_t i = 0; i < rows.size(); ++i) {
+      hashes_[i] = absl::HashOf(rows[i].id);
+    }
+    for (size_t i = 0; i < rows.size(); ++i) {
+      if (i + kAhead < rows.size()) seen_.prefetch(hashes_[i + kAhead]);
+      const ReportRow& r = rows[i];
       if (r.id.empty()) continue;  // Already an error (malformed_record).
-      const uint64_t hash = absl::HashOf(r.id);
+      const uint64_t hash = hashes_[i];
       if (seen_.insert(hash).second) {
         if (first_row_.size() < kRememberedRows) first_row_[hash] = r.row;
         continue;
@@ -126,6 +162,7 @@ class DuplicateIds {
   static constexpr size_t kRememberedRows = 1 << 16;
   std::ostream* const log_;
   absl::flat_hash_set<uint64_t> seen_;
+  std::vector<uint64_t> hashes_;  // The batch's, reused.
   absl::flat_hash_map<uint64_t, int32_t> first_row_;
   int64_t repeats_ = 0;
 };
@@ -212,6 +249,7 @@ absl::StatusOr<CheckResult> RunCheck(const CheckOptions& options,
     parsers.emplace_back(**input, options.default_alternatives);
   }
 
+  TextPool texts;
   std::atomic<int64_t> bytes_read{0};
   bool stopped = false;  // The source's own.
   auto read = [&](CheckBatch* batch) -> absl::StatusOr<bool> {
@@ -253,6 +291,8 @@ absl::StatusOr<CheckResult> RunCheck(const CheckOptions& options,
     // About 3.8 KB per JSONL report (and 4 KB of room while one is
     // written) and 520 B per CSV line: room for the whole batch, so that
     // its text is never copied to grow.
+    batch.out.text = texts.Take();
+    batch.out.rows.reserve(batch.refs.size());
     batch.out.text.reserve((batch.refs.size() + 1) *
                            (format == ReportLineFormat::kCsv ? 640 : 4096));
     absl::Status status = processors[worker]->Process(lines, &batch.out);
@@ -273,7 +313,8 @@ absl::StatusOr<CheckResult> RunCheck(const CheckOptions& options,
   DuplicateIds duplicates(&log);
   Progress progress(&log, (*input)->size());
   auto write = [&](CheckBatch& batch) {
-    absl::Status status = (*output)->Write(batch.out.text);
+    absl::Status status = (*output)->Write(batch.out.text.view());
+    texts.Give(std::move(batch.out.text));
     summary.Add(batch.out.counts);
     duplicates.Check(batch.out.rows, &summary);
     if (options.progress) {

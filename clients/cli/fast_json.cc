@@ -270,24 +270,31 @@ int FormatDoubleInRange(double v, char* buf) {
   const int n = fifteen ? 15 : 17;
   if (fifteen) exponent = exponent15;
   if (exponent < -4 || exponent >= n) return 0;
-  char digits[24];
+  // Room for fixed-size copies past the digits (see below).
+  char digits[40];
   WriteDigits(fifteen ? q15 : q17, n, digits);
   int used = n;
   while (used > 1 && digits[used - 1] == '0') --used;
   char* p = buf;
   if (v < 0) *p++ = '-';
-  if (exponent >= 0) {
-    for (int i = 0; i <= exponent; ++i) *p++ = i < used ? digits[i] : '0';
+  // The digits go in with fixed-size copies, which write past the text's
+  // end but within buf's kJsonDoubleMax bytes (at most 1 + 16 + 1 + 16 or
+  // 1 + 5 + 24), the same bytes as byte-sized ones.
+  if (exponent >= 0 && used > exponent) {  // 1 <= |v|, digits past the point.
+    // exponent <= 14 (|v| < 10^15): 16 bytes hold the whole part.
+    std::memcpy(p, digits, 16);
+    p += exponent + 1;
     if (used > exponent + 1) {
       *p++ = '.';
-      std::memcpy(p, digits + exponent + 1, used - exponent - 1);
+      std::memcpy(p, digits + exponent + 1, 16);
       p += used - exponent - 1;
     }
+  } else if (exponent >= 0) {  // Whole, with zeros the digits leave out.
+    for (int i = 0; i <= exponent; ++i) *p++ = i < used ? digits[i] : '0';
   } else {
-    *p++ = '0';
-    *p++ = '.';
-    for (int i = 0; i < -exponent - 1; ++i) *p++ = '0';
-    std::memcpy(p, digits, used);
+    std::memcpy(p, "0.000", 5);  // exponent >= -4.
+    p += 1 - exponent;
+    std::memcpy(p, digits, 24);
     p += used;
   }
   return static_cast<int>(p - buf);
@@ -343,7 +350,18 @@ int FormatShortDecimal(double v, char* buf) {
   std::memcpy(p + 2, &pairs[2 * (fraction / 100 % 100)], 2);
   std::memcpy(p + 4, &pairs[2 * (fraction % 100)], 2);
   p += 6;
-  while (p[-1] == '0') --p;
+  // The fraction is not 0, so a pair of it is not "00": whole pairs of
+  // zeros, then at most one zero more, are cut by arithmetic on the
+  // fraction (reading the digits back would wait for their stores).
+  uint32_t kept = fraction;  // The fraction's digits that stay.
+  if (kept % 10000 == 0) {
+    kept /= 10000;
+    p -= 4;
+  } else if (kept % 100 == 0) {
+    kept /= 100;
+    p -= 2;
+  }
+  p -= kept % 10 == 0;
   return static_cast<int>(p - buf);
 }
 

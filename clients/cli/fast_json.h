@@ -27,7 +27,8 @@
 namespace shellwright::cli {
 
 // Write `s` quoted and escaped, or `v`, at `out`, which must have room for
-// JsonStringBound(s.size()) or kJsonDoubleMax bytes; return the end.
+// JsonStringBound(s.size()) or kJsonDoubleMax bytes; return the end. The
+// bytes past the end, within that room, may be overwritten.
 constexpr size_t JsonStringBound(size_t size) { return 6 * size + 2; }
 inline constexpr size_t kJsonDoubleMax = 40;
 char* WriteJsonString(absl::string_view s, char* out);

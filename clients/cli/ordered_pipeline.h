@@ -9,7 +9,8 @@
 //     once, in the source's order, whatever order the workers finish in;
 //   - back-pressure: at most `max_in_flight` batches exist between the
 //     source and the sink (read and not yet sunk), so memory stays bounded
-//     however fast the source is; the source waits for room;
+//     however fast the source is; once full, the source waits until half
+//     of them have been sunk;
 //   - cancellation: the first error from any stage, or Cancel(), stops
 //     every stage at its next batch; Run then joins its threads and
 //     returns that error;
@@ -78,7 +79,8 @@ class OrderedPipeline {
 
   explicit OrderedPipeline(Options options)
       : workers_(std::max(1, options.workers)),
-        max_in_flight_(std::max(1, options.max_in_flight)) {}
+        max_in_flight_(std::max(1, options.max_in_flight)),
+        refill_at_(max_in_flight_ / 2) {}
   OrderedPipeline(const OrderedPipeline&) = delete;
   OrderedPipeline& operator=(const OrderedPipeline&) = delete;
 
@@ -119,9 +121,14 @@ class OrderedPipeline {
   void ReadAll(Source& source) {
     while (true) {
       {
+        // Once full, the source waits until half the batches in flight
+        // have been sunk, then reads until full again: one wake-up per
+        // half a window of batches, not one per batch.
         std::unique_lock<std::mutex> lock(mu_);
-        room_.wait(lock,
-                   [&] { return read_ - sunk_ < max_in_flight_ || stopped_; });
+        if (read_ - sunk_ >= max_in_flight_) {
+          room_.wait(lock,
+                     [&] { return read_ - sunk_ <= refill_at_ || stopped_; });
+        }
         if (stopped_) return;
       }
       Batch batch;
@@ -187,12 +194,14 @@ class OrderedPipeline {
       }
       std::lock_guard<std::mutex> lock(mu_);
       ++sunk_;
-      room_.notify_one();  // Only the source waits for room.
+      // Only the source waits for room, and only for this much.
+      if (read_ - sunk_ <= refill_at_) room_.notify_one();
     }
   }
 
   const int workers_;
   const int64_t max_in_flight_;
+  const int64_t refill_at_;  // In flight when a full source reads again.
 
   // One lock, and one condition per kind of waiter, signalled by exactly
   // the changes it waits for (a stop signals all), so that a batch wakes

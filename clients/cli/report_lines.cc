@@ -10,6 +10,7 @@
 #include <memory>
 #include <optional>
 #include <string>
+#include <type_traits>
 #include <vector>
 
 #include "absl/strings/str_cat.h"
@@ -26,16 +27,18 @@
 namespace shellwright::cli {
 namespace {
 
-// Writes one JSON line through a raw pointer into reused storage, so that
-// the many short pieces of a report cost no bounds-checked appends; the
-// finished line goes to its destination in one copy.
+// Writes one JSON line through a raw pointer straight into the text it
+// belongs to (a batch's, reused between batches), so that the many short
+// pieces of a report cost no bounds-checked appends and the line is never
+// copied. What is written is kept when the writer goes.
 class LineWriter {
  public:
-  explicit LineWriter(std::string* storage) : storage_(storage) {
-    if (storage_->size() < 4096) storage_->resize(4096);
-    p_ = &(*storage_)[0];
-    end_ = p_ + storage_->size();
+  explicit LineWriter(ReportText* out) : out_(out) {
+    p_ = out_->Room(4096);
+    start_ = out_->size();
+    end_ = out_->room_end();
   }
+  ~LineWriter() { out_->Commit(p_); }
   LineWriter(const LineWriter&) = delete;
   LineWriter& operator=(const LineWriter&) = delete;
 
@@ -46,20 +49,15 @@ class LineWriter {
     p_ += N - 1;
   }
   void Raw(absl::string_view text) {
-    const size_t n = text.size();
-    Reserve(n);
-    // Keys and short values are most of a line: copy 8 to 32 bytes with
-    // two overlapping fixed-size moves instead of a call.
-    if (n >= 8 && n <= 16) {
-      std::memcpy(p_, text.data(), 8);
-      std::memcpy(p_ + n - 8, text.data() + n - 8, 8);
-    } else if (n > 16 && n <= 32) {
-      std::memcpy(p_, text.data(), 16);
-      std::memcpy(p_ + n - 16, text.data() + n - 16, 16);
-    } else {
-      std::memcpy(p_, text.data(), n);
-    }
-    p_ += n;
+    Reserve(text.size());
+    Copy(text);
+  }
+  // A member's key ("\"name\":"), after a comma unless it is the first.
+  void Key(absl::string_view json_key, bool first) {
+    Reserve(json_key.size() + 1);
+    *p_ = ',';
+    p_ += first ? 0 : 1;
+    Copy(json_key);
   }
   void Char(char c) {
     Reserve(1);
@@ -77,22 +75,43 @@ class LineWriter {
     Reserve(24);
     p_ = std::to_chars(p_, p_ + 24, v).ptr;
   }
+  // The line so far.
   absl::string_view text() const {
-    return absl::string_view(storage_->data(), p_ - storage_->data());
+    return absl::string_view(out_->data() + start_,
+                             p_ - (out_->data() + start_));
   }
 
  private:
   void Reserve(size_t n) {
     if (static_cast<size_t>(end_ - p_) < n) Grow(n);
   }
+  // REQUIRES: room for `text`.
+  void Copy(absl::string_view text) {
+    const size_t n = text.size();
+    // Keys and short values are most of a line: copy 8 to 64 bytes with
+    // two overlapping fixed-size moves instead of a call.
+    if (n >= 8 && n <= 16) {
+      std::memcpy(p_, text.data(), 8);
+      std::memcpy(p_ + n - 8, text.data() + n - 8, 8);
+    } else if (n > 16 && n <= 32) {
+      std::memcpy(p_, text.data(), 16);
+      std::memcpy(p_ + n - 16, text.data() + n - 16, 16);
+    } else if (n > 32 && n <= 64) {
+      std::memcpy(p_, text.data(), 32);
+      std::memcpy(p_ + n - 32, text.data() + n - 32, 32);
+    } else {
+      std::memcpy(p_, text.data(), n);
+    }
+    p_ += n;
+  }
   void Grow(size_t n) {
-    const size_t used = p_ - storage_->data();
-    storage_->resize(std::max(2 * storage_->size(), used + n));
-    p_ = &(*storage_)[0] + used;
-    end_ = &(*storage_)[0] + storage_->size();
+    out_->Commit(p_);
+    p_ = out_->Room(n);
+    end_ = out_->room_end();
   }
 
-  std::string* storage_;
+  ReportText* const out_;
+  size_t start_;  // Where the line starts in out_.
   char* p_;
   char* end_;
 };
@@ -192,13 +211,16 @@ class JsonWriter {
               Visit visit) {
     Fragment<Key>& fragment = CachedFragment(key);
     if (!fragment.key.has_value() || !(*fragment.key == key)) {
-      thread_local std::string storage;
-      LineWriter scratch(&storage);
-      JsonWriter recorder(&scratch);
-      recorder.gaps_ = fragment.gaps;
-      visit(recorder);
-      fragment.text.assign(scratch.text().data(), scratch.text().size());
-      fragment.gap_count = recorder.gap_count_;
+      thread_local ReportText storage;
+      storage.clear();
+      {
+        LineWriter scratch(&storage);
+        JsonWriter recorder(&scratch);
+        recorder.gaps_ = fragment.gaps;
+        visit(recorder);
+        fragment.gap_count = recorder.gap_count_;
+      }
+      fragment.text.assign(storage.data(), storage.size());
       fragment.key = key;
       fragment.key->Keep();
     }
@@ -231,9 +253,8 @@ class JsonWriter {
  private:
   // `json_key` is "\"name\":".
   void Key(absl::string_view json_key) {
-    if (!first_) out_->Char(',');
+    out_->Key(json_key, first_);
     first_ = false;
-    out_->Raw(json_key);
   }
   void Gap(absl::string_view json_key) {
     Key(json_key);
@@ -275,7 +296,7 @@ bool NeedsCsvQuotes(absl::string_view field) {
 }
 
 // Appends `field`, quoted when it holds a comma, a quote or a line break.
-void CsvField(absl::string_view field, std::string* out) {
+void CsvField(absl::string_view field, ReportText* out) {
   if (!NeedsCsvQuotes(field)) {
     out->append(field.data(), field.size());
     return;
@@ -292,6 +313,14 @@ void CsvField(absl::string_view field, std::string* out) {
   }
   out->append(field.data() + from, field.size() - from);
   out->push_back('"');
+}
+
+// Appends the pieces one by one: absl::StrAppend makes its room with
+// std::string::resize, which writes it full of zeros first.
+void AppendPieces(std::string* out,
+                  std::initializer_list<absl::string_view> pieces) {
+  for (absl::string_view piece : pieces)
+    out->append(piece.data(), piece.size());
 }
 
 // Appends `separator` to a joined list, except before its first item.
@@ -388,6 +417,15 @@ const std::array<int, kCsvColumnCount>& CsvColumnFields() {
 // Alternatives have no column.
 class CsvGatherer : public TopLevelVisitor {
  public:
+  CsvGatherer() : cells_(Cells()) {
+    states.clear();
+    ions.clear();
+    codes.clear();
+    messages.clear();
+  }
+  CsvGatherer(const CsvGatherer&) = delete;
+  CsvGatherer& operator=(const CsvGatherer&) = delete;
+
   template <typename F>
   void String(const F& f, absl::string_view v) {
     if (f.name == "id") {
@@ -410,9 +448,7 @@ class CsvGatherer : public TopLevelVisitor {
   }
   template <typename F>
   void Double(const F& f, double v) {
-    for (size_t c = 0; c < kCsvColumnCount; ++c) {
-      if (f.name == kCsvColumns[c].field) numbers[c] = v;
-    }
+    if (const int c = NumberColumn(f); c >= 0) numbers[c] = v;
   }
   template <typename F>
   void Bool(const F& f, bool v) {
@@ -443,15 +479,15 @@ class CsvGatherer : public TopLevelVisitor {
         Member d;
         visit(item, d);
         Separate(";", &first_code, &codes);
-        absl::StrAppend(&codes, d.severity, ":", d.code);
+        AppendPieces(&codes, {d.severity, ":", d.code});
         Separate(" | ", &first_message, &messages);
-        absl::StrAppend(&messages, d.severity, " ", d.code, ": ", d.message);
+        AppendPieces(&messages, {d.severity, " ", d.code, ": ", d.message});
       }
     }
   }
 
   // The line of the columns `mask` wants, line break included.
-  void Write(const ReportMask& mask, std::string* out) const {
+  void Write(const ReportMask& mask, ReportText* out) const {
     const std::array<int, kCsvColumnCount>& fields = CsvColumnFields();
     bool first = true;
     for (size_t c = 0; c < kCsvColumnCount; ++c) {
@@ -465,21 +501,23 @@ class CsvGatherer : public TopLevelVisitor {
 
  private:
   // Column c's cell.
-  void WriteCell(size_t c, std::string* out) const {
+  void WriteCell(size_t c, ReportText* out) const {
     switch (kCsvColumns[c].cell) {
       case Cell::kFigure:
       case Cell::kTotalValence:
         // StrAppend prints doubles as %.6g does (but for the sign of a
         // NaN, which reports never hold). An invalid record's figures are
         // blank, not 0: it has none.
-        if (valid) absl::StrAppend(out, numbers[c]);
+        if (valid) out->append(absl::AlphaNum(numbers[c]).Piece());
         break;
       case Cell::kSaturation:
         // No estimate is a blank, not 0 (Fe2VAl's estimate is 0).
-        if (valid && estimated) absl::StrAppend(out, numbers[c]);
+        if (valid && estimated) {
+          out->append(absl::AlphaNum(numbers[c]).Piece());
+        }
         break;
       case Cell::kRow:
-        absl::StrAppend(out, row);
+        out->append(absl::AlphaNum(row).Piece());
         break;
       case Cell::kId:
         CsvField(id, out);
@@ -629,10 +667,12 @@ class CsvGatherer : public TopLevelVisitor {
       // Rational::ToString writes it), an ion's number.
       if (kind_ == kState) {
         const Rational& exact = varying.begin()[1].exact;
-        absl::StrAppend(out_, exact.num());
-        if (exact.den() != 1) absl::StrAppend(out_, "/", exact.den());
+        AppendPieces(out_, {absl::AlphaNum(exact.num()).Piece()});
+        if (exact.den() != 1) {
+          AppendPieces(out_, {"/", absl::AlphaNum(exact.den()).Piece()});
+        }
       } else {
-        absl::StrAppend(out_, varying.begin()[0].number);
+        AppendPieces(out_, {absl::AlphaNum(varying.begin()[0].number).Piece()});
       }
       out_->append(kept.after);
       done_ = true;
@@ -678,10 +718,43 @@ class CsvGatherer : public TopLevelVisitor {
     bool done_ = false;
   };
 
+  // The joined cells, in storage kept per thread: their room is made
+  // once, not for every line.
+  struct JoinedCells {
+    std::string states, ions, codes, messages;
+  };
+  static JoinedCells& Cells() {
+    thread_local JoinedCells cells;
+    return cells;
+  }
+
+  // The column of a number field, or -1: looked up once per field of the
+  // engine walk, each of whose fields has a type of its own (a macro's
+  // lambda), and by name for the message walk's NamedField.
+  template <typename F>
+  static int NumberColumn(const F& f) {
+    if constexpr (std::is_same_v<F, NamedField>) {
+      return FindNumberColumn(f.name);
+    } else {
+      static const int column = FindNumberColumn(f.name);
+      return column;
+    }
+  }
+  static int FindNumberColumn(absl::string_view name) {
+    for (size_t c = 0; c < kCsvColumnCount; ++c) {
+      if (name == kCsvColumns[c].field) return static_cast<int>(c);
+    }
+    return -1;
+  }
+
+  JoinedCells& cells_;
   int32_t row = 0;
   // Views into the report being walked, which outlives the gatherer.
   absl::string_view id, formula, kind, model, saturation_model, family;
-  std::string states, ions, codes, messages;
+  std::string& states = cells_.states;
+  std::string& ions = cells_.ions;
+  std::string& codes = cells_.codes;
+  std::string& messages = cells_.messages;
   bool valid = false;
   double numbers[kCsvColumnCount] = {};  // By column.
   bool estimated = false;
@@ -698,20 +771,28 @@ ReportMask CsvCellFields(const ReportMask& mask) {
 // visitor)` walks.
 template <typename Walk>
 void WriteLine(ReportLineFormat format, const ReportMask& mask, Walk walk,
-               std::string* out) {
+               ReportText* out) {
   if (format == ReportLineFormat::kCsv) {
     CsvGatherer csv;
     walk(CsvCellFields(mask), csv);
     csv.Write(mask, out);
     return;
   }
-  thread_local std::string storage;
-  LineWriter line(&storage);
+  LineWriter line(out);
   line.Char('{');
   JsonWriter json(&line);
   walk(mask, json);
   line.Lit("}\n");
-  out->append(line.text().data(), line.text().size());
+}
+
+// WriteLine, appended to a string (through storage kept per thread).
+template <typename Walk>
+void WriteLine(ReportLineFormat format, const ReportMask& mask, Walk walk,
+               std::string* out) {
+  thread_local ReportText storage;
+  storage.clear();
+  WriteLine(format, mask, walk, &storage);
+  out->append(storage.data(), storage.size());
 }
 
 }  // namespace
@@ -787,7 +868,12 @@ void ReportCounts::Add(const ReportCounts& other) {
 
 void AddReport(ReportLineFormat format, const v1::RecordReport& report,
                ReportLines* out, const ReportMask& mask) {
-  AppendReportLine(format, report, &out->text, mask);
+  WriteLine(
+      format, mask,
+      [&](const ReportMask& m, auto& visitor) {
+        VisitRecordReport(report, m, visitor);
+      },
+      &out->text);
   ReportCounts& c = out->counts;
   ++c.rows;
   ++(report.valid() ? c.valid : c.invalid);
@@ -807,7 +893,12 @@ void AddReport(ReportLineFormat format, const v1::RecordReport& report,
 void AddReport(ReportLineFormat format, const CompositionReport& report,
                const v1::CompositionRecord& record, ReportLines* out,
                const ReportMask& mask) {
-  AppendReportLine(format, report, record, &out->text, mask);
+  WriteLine(
+      format, mask,
+      [&](const ReportMask& m, auto& visitor) {
+        VisitRecordReport(report, record, m, visitor);
+      },
+      &out->text);
   ReportCounts& c = out->counts;
   ++c.rows;
   ++(report.valid ? c.valid : c.invalid);

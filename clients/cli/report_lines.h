@@ -19,12 +19,18 @@
 #ifndef SHELLWRIGHT_CLIENTS_CLI_REPORT_LINES_H_
 #define SHELLWRIGHT_CLIENTS_CLI_REPORT_LINES_H_
 
+#include <algorithm>
+#include <cstddef>
 #include <cstdint>
+#include <cstring>
 #include <map>
+#include <memory>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "absl/status/status.h"
+#include "absl/strings/string_view.h"
 #include "api/report_mask.h"
 #include "engine/composition.h"
 #include "shellwright/v1/electron_structure.pb.h"
@@ -56,9 +62,74 @@ struct ReportRow {
   bool warned;
 };
 
+// Text that grows without filling its new room first: a batch's report
+// lines are written straight into it (AddReport), and `check` writes it
+// out as it is. Unlike std::string::resize, making room writes nothing,
+// so a line costs one pass over its bytes. Movable, not copyable.
+class ReportText {
+ public:
+  ReportText() = default;
+  ReportText(ReportText&& other) noexcept { *this = std::move(other); }
+  ReportText& operator=(ReportText&& other) noexcept {
+    data_ = std::move(other.data_);
+    size_ = other.size_;
+    capacity_ = other.capacity_;
+    other.size_ = other.capacity_ = 0;
+    return *this;
+  }
+
+  const char* data() const { return data_.get(); }
+  size_t size() const { return size_; }
+  size_t capacity() const { return capacity_; }
+  bool empty() const { return size_ == 0; }
+  absl::string_view view() const { return absl::string_view(data(), size_); }
+  // Keeps the room.
+  void clear() { size_ = 0; }
+
+  // Room for `n` bytes in all, kept text included.
+  void reserve(size_t n) {
+    if (n > capacity_) Regrow(n);
+  }
+  // Room for `n` more bytes: returns where they go, to be written and
+  // then kept with Commit(end).
+  char* Room(size_t n) {
+    if (capacity_ - size_ < n) Regrow(std::max(2 * capacity_, size_ + n));
+    return data_.get() + size_;
+  }
+  // Keeps the text written up to `end`, a pointer into the room that
+  // the last Room() call returned.
+  void Commit(const char* end) { size_ = end - data_.get(); }
+  // The end of the room: Room()'s pointer may write up to here.
+  char* room_end() { return data_.get() + capacity_; }
+
+  void append(const char* text, size_t n) {
+    char* at = Room(n);
+    if (n > 0) std::memcpy(at, text, n);
+    size_ += n;
+  }
+  void append(absl::string_view text) { append(text.data(), text.size()); }
+  void push_back(char c) {
+    *Room(1) = c;
+    ++size_;
+  }
+
+ private:
+  // Moves the text to a new block of `capacity` bytes.
+  void Regrow(size_t capacity) {
+    std::unique_ptr<char[]> grown(new char[capacity]);
+    if (size_ > 0) std::memcpy(grown.get(), data_.get(), size_);
+    data_ = std::move(grown);
+    capacity_ = capacity;
+  }
+
+  std::unique_ptr<char[]> data_;
+  size_t size_ = 0;
+  size_t capacity_ = 0;
+};
+
 // The lines of a batch of reports, their counts, and their rows in order.
 struct ReportLines {
-  std::string text;
+  ReportText text;
   ReportCounts counts;
   std::vector<ReportRow> rows;
 };

@@ -6,12 +6,15 @@
 #include "clients/cli/report_lines.h"
 
 #include <algorithm>
+#include <cstring>
 #include <fstream>
 #include <random>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "absl/strings/str_cat.h"
+#include "absl/strings/string_view.h"
 #include "api/records.h"
 #include "clients/cli/atom_format.h"
 #include "clients/cli/record_io.h"
@@ -177,6 +180,65 @@ TEST(ReportLines, EngineLinesEqualTheProtoPathsLines) {
     }
   }
   EXPECT_GT(longest, 3 * 4096u);  // The writer's storage had to grow.
+}
+
+// AddReport writes a batch's lines straight into its text, which grows in
+// the middle of lines (its room starts small): the text is the lines
+// AppendReportLine writes one by one, in order, and the message form's
+// lines go in the same way.
+TEST(ReportLines, AddReportWritesTheSameLinesAsAppendReportLine) {
+  const std::vector<v1::CompositionRecord> records = Records();
+  for (ReportLineFormat format :
+       {ReportLineFormat::kJsonl, ReportLineFormat::kCsv}) {
+    ReportLines lines;
+    lines.text.reserve(16);
+    ReportLines from_messages;
+    std::string expected;
+    for (const v1::CompositionRecord& record : records) {
+      const CompositionReport report =
+          AnalyzeComposition(CompositionInputFromProto(record));
+      v1::RecordReport proto;
+      RecordReportToProto(report, record, &proto);
+      AddReport(format, report, record, &lines);
+      AddReport(format, proto, &from_messages);
+      AppendReportLine(format, report, record, &expected);
+    }
+    EXPECT_EQ(lines.text.view(), expected);
+    EXPECT_EQ(from_messages.text.view(), expected);
+    EXPECT_EQ(lines.counts.rows, static_cast<int64_t>(records.size()));
+    ASSERT_EQ(lines.rows.size(), records.size());
+    EXPECT_EQ(lines.rows.back().id, records.back().id());
+  }
+}
+
+TEST(ReportText, KeepsItsTextAcrossGrowthMovesAndClears) {
+  ReportText text;
+  EXPECT_TRUE(text.empty());
+  text.append("ab");
+  text.push_back('c');
+  // Written through Room and kept with Commit, past the first room.
+  char* at = text.Room(5000);
+  ASSERT_GE(text.room_end() - at, 5000);
+  std::memset(at, 'x', 5000);
+  text.Commit(at + 5000);
+  text.append(absl::string_view("yz"));
+  ASSERT_EQ(text.size(), 5005u);
+  EXPECT_EQ(text.view().substr(0, 4), "abcx");
+  EXPECT_EQ(text.view().substr(5001), "xxyz");
+  EXPECT_EQ(std::count(text.data(), text.data() + text.size(), 'x'), 5000);
+
+  const size_t capacity = text.capacity();
+  ReportText moved = std::move(text);
+  EXPECT_EQ(moved.size(), 5005u);
+  EXPECT_EQ(moved.view().substr(0, 3), "abc");
+  EXPECT_EQ(text.size(), 0u);  // NOLINT: a moved-from text is empty.
+  EXPECT_EQ(text.capacity(), 0u);
+
+  moved.clear();  // Keeps the room, so that a reused text need not grow.
+  EXPECT_TRUE(moved.empty());
+  EXPECT_EQ(moved.capacity(), capacity);
+  moved.append("again");
+  EXPECT_EQ(moved.view(), "again");
 }
 
 // check --fields: in process, a line is the engine walk's with the mask;
