@@ -368,8 +368,14 @@ IonEnvironment FindEnvironment(const Formula& formula,
     return env;
   }
   const SpinCrossover* c = FindSpinCrossover(e, ion.state);
-  const double crossover =
-      c != nullptr ? c->f_crossover : DefaultCrossover(ion.state);
+  const bool chalcogenide = env.ligand != nullptr &&
+                            env.ligand->anion != nullptr &&
+                            (env.ligand->anion->atomic_number == 16 ||
+                             env.ligand->anion->atomic_number == 34 ||
+                             env.ligand->anion->atomic_number == 52);
+  const double crossover = c == nullptr   ? DefaultCrossover(ion.state)
+                           : chalcogenide ? c->f_crossover_chalcogenide
+                                          : c->f_crossover;
   set(env.f > crossover ? SpinState::kLow : SpinState::kHigh,
       SpinBasis::kLigandField);
   env.near_crossover = std::abs(env.f - crossover) < kNearCrossover;

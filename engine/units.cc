@@ -205,7 +205,8 @@ const Tables& GetTables() {
     for (const internal::SpinCrossoverRow& row :
          internal::SpinCrossoverRows()) {
       t->crossover.push_back({&AllElements()[row.atomic_number - 1], row.state,
-                              row.g, row.f_crossover, row.pairing_cm1,
+                              row.g, row.f_crossover,
+                              row.f_crossover_chalcogenide, row.pairing_cm1,
                               row.source});
     }
     for (const SpinCrossover& c : t->crossover) {

@@ -107,7 +107,9 @@ struct SpinCrossover {
   int state;
   double g;            // Jørgensen g factor, 1000 cm-1; 0 if not tabulated.
   double f_crossover;  // Low spin above this ligand f.
-  int pairing_cm1;     // Free-ion mean pairing energy; 0 if not tabulated.
+  // The same among sulfide, selenide and telluride ligands.
+  double f_crossover_chalcogenide;
+  int pairing_cm1;  // Free-ion mean pairing energy; 0 if not tabulated.
   std::string source;
 };
 

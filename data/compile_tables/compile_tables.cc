@@ -601,7 +601,8 @@ int main(int argc, char** argv) {
   // --- spin_crossover.tsv ---------------------------------------------------
   const Table crossover =
       ReadTable(args.at("crossover"),
-                {"ion", "g", "f_crossover", "pairing_cm1", "source"});
+                {"ion", "g", "f_crossover", "f_crossover_chalcogenide",
+                 "pairing_cm1", "source"});
   out << "constexpr SpinCrossoverRow kCrossover[] = {\n";
   std::set<std::pair<int, long>> crossover_ions;
   for (const Row& r : crossover.rows) {
@@ -615,11 +616,15 @@ int main(int argc, char** argv) {
                          ? 0.0
                          : ParseDecimal(crossover, r, 1, r.fields[1], 1, 60);
     const double fc = ParseDecimal(crossover, r, 2, r.fields[2], 0.3, 3.0);
+    const double fc_soft =
+        r.fields[3] == "-"
+            ? fc
+            : ParseDecimal(crossover, r, 3, r.fields[3], 0.3, 3.0);
     const long pairing =
-        r.fields[3] == "-" ? 0 : ParseInt(crossover, r, 3, 1000, 60000);
+        r.fields[4] == "-" ? 0 : ParseInt(crossover, r, 4, 1000, 60000);
     out << "    {" << z_ion << ", " << state << ", " << Double(g) << ", "
-        << Double(fc) << ", " << pairing << ", " << Literal(r.fields[4])
-        << "},\n";
+        << Double(fc) << ", " << Double(fc_soft) << ", " << pairing << ", "
+        << Literal(r.fields[5]) << "},\n";
   }
   out << "};\n\n";
 

@@ -105,6 +105,7 @@ struct SpinCrossoverRow {
   int state;
   double g;  // Jørgensen g factor, 1000 cm-1; 0 when not tabulated.
   double f_crossover;
+  double f_crossover_chalcogenide;  // Among S, Se, Te anions.
   int pairing_cm1;  // Free-ion mean pairing energy; 0 when not tabulated.
   const char* source;
 };

@@ -67,7 +67,9 @@ TEST(Units, HalfUnitsHoldTheirBondedPairStates) {
   ASSERT_NE(ge2te6, nullptr);
   EXPECT_EQ(ge2te6->charge, -6);
   for (const UnitAtom& a : ge2te6->atoms) {
-    if (a.element->symbol == std::string("Ge")) EXPECT_EQ(a.state, 3);
+    if (a.element->symbol == std::string("Ge")) {
+      EXPECT_EQ(a.state, 3);
+    }
   }
 }
 
