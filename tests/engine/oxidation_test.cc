@@ -1259,7 +1259,7 @@ TEST(Oxidation, BestMatchesExhaustiveReferenceOnReducedOxides) {
   const char* const kMultivalent[] = {"Ti", "V",  "Cr", "Mn", "Fe", "Co",
                                       "Ni", "Cu", "Nb", "Mo", "W",  "Ru"};
   int many_uncommon = 0;
-  EXPECT_GE(CompareWithReference(kMultivalent, 240, 9001,
+  EXPECT_GE(CompareWithReference(kMultivalent, 300, 9001,
                                  /*max_oxygen_tenths=*/3, &many_uncommon),
             100);
   EXPECT_GE(many_uncommon, 20);
