@@ -1,5 +1,6 @@
 #include "engine/atom.h"
 
+#include <algorithm>
 #include <array>
 #include <cmath>
 #include <memory>
@@ -308,8 +309,12 @@ class DescriptionCache {
   // REQUIRES: -kMaxAnionCharge <= charge <= e.atomic_number.
   const AtomDescriptionPtr& Get(const Element& e, int charge) {
     const int z = e.atomic_number;
-    element_once_[z].Run(
-        [&] { rows_[z] = std::make_unique<Entry[]>(z + kMaxAnionCharge + 1); });
+    // std::max: z is at least 1, which GCC cannot see when it inlines this
+    // into a link-time optimised caller (it warns of a huge allocation).
+    element_once_[z].Run([&] {
+      rows_[z] =
+          std::make_unique<Entry[]>(std::max(z, 0) + kMaxAnionCharge + 1);
+    });
     Entry& entry = rows_[z][charge + kMaxAnionCharge];
     // Each slot is written once, by the call_once that guards it.
     entry.built.Run([&] {
