@@ -233,6 +233,33 @@ IonEnvironment FindEnvironment(const Formula& formula,
                         ? total / metal
                         : 0;
 
+  // The Pd(I) and Pt(I) layers of the delafossites PdCoO2, PdCrO2 and
+  // PtCoO2 are metallic, their d electrons shared in Pd-Pd bonds (Shannon,
+  // Rogers and Prewitt, Inorg. Chem. 10 (1971) 713, from memory): no local
+  // moment.
+  if (geometry_set == nullptr && spin_set == nullptr && complex < 0 &&
+      ion.state == 1 && (e.atomic_number == 46 || e.atomic_number == 78) &&
+      assignment.units.empty()) {
+    Rational oxygen(0), self(0), other(0);
+    int others = 0;
+    for (const AssignedState& s : assignment.states) {
+      if (s.element->atomic_number == 8) {
+        oxygen = oxygen + s.count;
+      } else if (s.element == &e) {
+        self = self + s.count;
+      } else {
+        other = other + s.count;
+        ++others;
+      }
+    }
+    if (others == 1 && other == self && oxygen == self * Rational(2)) {
+      env.geometry = Geometry::kFree;
+      env.basis = SpinBasis::kMetalMetalBond;
+      env.metal_metal_bonded = true;
+      return env;
+    }
+  }
+
   // Polynuclear carbonyls: the 18-electron rule's metal-metal bonds.
   if (geometry_set == nullptr && spin_set == nullptr && complex < 0 &&
       molecular && total > 0 && d >= 0 && ion.state <= 0) {

@@ -65,7 +65,8 @@ enum class SpinBasis {
   // brownmillerite kind (A2B2O5, SrCoO2.5): high spin.
   kOxygenDeficientPerovskite,
   // A metal of a polynuclear carbonyl short of 18 valence electrons
-  // (Mn2(CO)10): paired in metal-metal bonds.
+  // (Mn2(CO)10), or of the metallic Pd(I) layers of PdCoO2: paired in
+  // metal-metal bonds.
   kMetalMetalBond,
 };
 

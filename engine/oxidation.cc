@@ -216,6 +216,29 @@ bool IsOrderedDoublePerovskite(const Formula& formula) {
   return false;
 }
 
+// Whether `formula` is a delafossite ABO2 whose A is Cu, Ag, Pd or Pt
+// (CuFeO2, CuCrO2, AgCrO2, PdCoO2): one A and one other metal per two
+// oxygen, nothing else. A is monovalent there, linear between two O
+// (Shannon, Rogers and Prewitt, Inorg. Chem. 10 (1971) 713, from memory).
+bool IsDelafossite(const Formula& formula) {
+  if (formula.amounts.size() != 3) return false;
+  Rational oxygen(0), a(0), b(0);
+  for (const ElementAmount& x : formula.amounts) {
+    const int z = x.element->atomic_number;
+    if (z == 8) {
+      oxygen = x.count;
+    } else if (z == 29 || z == 47 || z == 46 || z == 78) {
+      if (!a.IsZero()) return false;
+      a = x.count;
+    } else if (IsMetal(*x.element)) {
+      b = x.count;
+    } else {
+      return false;
+    }
+  }
+  return !a.IsZero() && a == b && oxygen == a * Rational(2);
+}
+
 // Builds the plan of every element. Declared elements take exactly their
 // declared states.
 // A reading of the formula: the unit matches read as units.
@@ -291,15 +314,21 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   const bool soft_only = chalcogen && !hard_anion;
   bool oxide = false;
   for (const ElementPlan& p : plans) oxide |= p.element->atomic_number == 8;
-  // The B sites of an ordered double perovskite read their own state
-  // preferences, and the states listed there count as common (Mo+5 in
-  // Sr2FeMoO6 and Ba2YMoO6, Os+6 in Ca2NiOsO6).
-  const internal::AnionClass anions =
-      soft_only ? internal::AnionClass::kSoft
-      : reading.empty() && oxide && options.net_charge == 0 &&
-              IsOrderedDoublePerovskite(formula)
-          ? internal::AnionClass::kDoublePerovskite
-          : internal::AnionClass::kHard;
+  // The B sites of an ordered double perovskite, and delafossites, read
+  // their own state preferences, and the states listed there count as
+  // common (Mo+5 in Sr2FeMoO6 and Ba2YMoO6, Os+6 in Ca2NiOsO6, Pd+1 in
+  // PdCoO2).
+  internal::AnionClass anions =
+      soft_only ? internal::AnionClass::kSoft : internal::AnionClass::kHard;
+  if (!soft_only && reading.empty() && oxide && options.net_charge == 0) {
+    if (IsOrderedDoublePerovskite(formula)) {
+      anions = internal::AnionClass::kDoublePerovskite;
+    } else if (IsDelafossite(formula)) {
+      anions = internal::AnionClass::kDelafossite;
+    }
+  }
+  const bool own_rows = anions == internal::AnionClass::kDoublePerovskite ||
+                        anions == internal::AnionClass::kDelafossite;
   for (ElementPlan& p : plans) {
     p.no_hydride = carbon_or_nitrogen;
     p.oxide = oxide;
@@ -312,22 +341,20 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     // common (N valence electrons: Si-1 in CaSi2, Tl-1 in NaTl).
     const bool polyanion = zintl && IsZintlAnionFormer(*p.element);
     const bool listed =
-        anions == internal::AnionClass::kDoublePerovskite &&
-        internal::HasPreferenceRows(*p.element,
-                                    internal::AnionClass::kDoublePerovskite);
+        own_rows && internal::HasPreferenceRows(*p.element, anions);
     if (!zero && limit < 0 && !polyanion && !listed) continue;
     p.custom = true;
     bool zero_added = !zero;
-    auto add = [&p, limit, listed](int low, int high, bool low_common,
-                                   bool high_common, bool needs_oxide = false) {
+    auto add = [&p, limit, listed, anions](int low, int high, bool low_common,
+                                           bool high_common,
+                                           bool needs_oxide = false) {
       if (limit >= 0) {
         low_common &= low <= limit;
         high_common &= high <= limit;
       }
       if (listed) {
-        constexpr auto kListed = internal::AnionClass::kDoublePerovskite;
-        low_common |= internal::ListedPreference(*p.element, low, kListed);
-        high_common |= internal::ListedPreference(*p.element, high, kListed);
+        low_common |= internal::ListedPreference(*p.element, low, anions);
+        high_common |= internal::ListedPreference(*p.element, high, anions);
       }
       StateOption o = internal::MakeStateOption(
           *p.element, static_cast<int>(p.fixed_options.size()), low, high,
@@ -607,7 +634,11 @@ OxidationAssignment ToAssignment(const Formula& formula, const Plans& plans,
     }
   }
   a.spread = PerFormulaUnit(spread, scale);
-  if (plans.empty() || plans.front().anions != internal::AnionClass::kSoft) {
+  // Not for soft anions, nor for delafossites, whose A(I) is structural
+  // (CuFeO2 is Cu(I) with Fe(III), 0.62 V apart).
+  if (plans.empty() ||
+      (plans.front().anions != internal::AnionClass::kSoft &&
+       plans.front().anions != internal::AnionClass::kDelafossite)) {
     a.redox_incompatible = FindRedoxIncompatible(a);
   }
   a.score = PrintedScore(s.weight, a.redox_incompatible.has_value(), scale);

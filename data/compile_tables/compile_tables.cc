@@ -735,18 +735,20 @@ int main(int argc, char** argv) {
   for (const Row& r : preferences.rows) {
     const int z = symbol_to_z(preferences, r, 0);
     if (r.fields[1] != "hard" && r.fields[1] != "soft" &&
-        r.fields[1] != "double_perovskite") {
+        r.fields[1] != "double_perovskite" && r.fields[1] != "delafossite") {
       Fail(preferences.path, r.line,
-           "column 'anions': expected hard, soft or double_perovskite");
+           "column 'anions': expected hard, soft, double_perovskite or "
+           "delafossite");
     }
     const long state = known_state(preferences, r, 2, z);
     if (!preference_keys.insert({z, r.fields[1], state}).second) {
       Fail(preferences.path, r.line, "duplicate row");
     }
     const long rank = ParseInt(preferences, r, 3, 1, 6);
-    const int context = r.fields[1] == "hard"   ? 0
-                        : r.fields[1] == "soft" ? 1
-                                                : 2;
+    const int context = r.fields[1] == "hard"                ? 0
+                        : r.fields[1] == "soft"              ? 1
+                        : r.fields[1] == "double_perovskite" ? 2
+                                                             : 3;
     out << "    {" << z << ", " << context << ", " << state << ", " << rank
         << ", " << Literal(r.fields[4]) << "},\n";
   }

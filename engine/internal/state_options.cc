@@ -227,7 +227,8 @@ StateOption MakeStateOption(const Element& e, int index, int low, int high,
   o.uncommon = uncommon(low, low_common) +
                (low != high ? uncommon(high, high_common) : 0);
   for (const AnionClass c :
-       {AnionClass::kHard, AnionClass::kSoft, AnionClass::kDoublePerovskite}) {
+       {AnionClass::kHard, AnionClass::kSoft, AnionClass::kDoublePerovskite,
+        AnionClass::kDelafossite}) {
     const int k = static_cast<int>(c);
     o.high_natural[k] =
         GroupGap(e, high) + PreferencePenalty(e, high, high_common, c);

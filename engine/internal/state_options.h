@@ -34,8 +34,15 @@ namespace shellwright::internal {
 // (chalcogenide) anions only, and the B sites of an ordered double
 // perovskite A2BB'O6 whose B' is a 4d or 5d metal (oxide anions; an
 // element without rows of its own there reads its hard rows).
-enum class AnionClass { kHard = 0, kSoft = 1, kDoublePerovskite = 2 };
-inline constexpr int kAnionClasses = 3;
+// The delafossites ABO2 with A = Cu, Ag, Pd or Pt (CuFeO2, PdCoO2) are a
+// fourth class.
+enum class AnionClass {
+  kHard = 0,
+  kSoft = 1,
+  kDoublePerovskite = 2,
+  kDelafossite = 3
+};
+inline constexpr int kAnionClasses = 4;
 
 struct StateOption {
   int low = 0;   // Lower state (== high for single valence).
@@ -46,8 +53,8 @@ struct StateOption {
   int uncommon = 0;  // Uncommon states among low and high (bound-only: 2).
   // Naturalness per atom in the upper state, by AnionClass, and what an
   // atom in the lower state adds to it (may be negative).
-  int high_natural[kAnionClasses] = {0, 0, 0};
-  int low_extra_natural[kAnionClasses] = {0, 0, 0};
+  int high_natural[kAnionClasses] = {0, 0, 0, 0};
+  int low_extra_natural[kAnionClasses] = {0, 0, 0, 0};
   // Naturalness per atom of the mixed valence itself: 1 when mixed, 0 for
   // single valence.
   int spread = 0;
