@@ -264,17 +264,15 @@ IonEnvironment FindEnvironment(const Formula& formula,
   if (geometry_set == nullptr && spin_set == nullptr && complex < 0 &&
       molecular && total > 0 && d >= 0 && ion.state <= 0) {
     double metals = 0;  // Atoms of every free d-block metal.
-    bool acceptors = true;
     for (const AssignedState& s : assignment.states) {
       if (s.unit < 0 && s.element->block == Block::kD) {
         metals += s.count.ToDouble();
       }
     }
-    for (const Site& s : sites) acceptors &= s.ligand->f >= kPiAcceptorF;
     // Valence electrons per metal atom: its d electrons and two from each
     // donor site (Greenwood and Earnshaw, Chemistry of the Elements, 2nd
     // ed., ch. 8, metal carbonyls, from memory).
-    if (acceptors && metals > 1.5 && d + 2 * total / metals < 17.99) {
+    if (pi_acceptors_only && metals > 1.5 && d + 2 * total / metals < 17.99) {
       env.geometry = Geometry::kOctahedral;
       env.spin_state = SpinStatePreference::kLow;
       env.basis = SpinBasis::kMetalMetalBond;
