@@ -349,8 +349,12 @@ bool MakePlans(const Formula& formula, const Rational& scale,
                                            bool high_common,
                                            bool needs_oxide = false) {
       if (limit >= 0) {
+        // Mixed valence one step above the chalcogenide maximum stays
+        // common where the state is: the thiospinels CuCr2S4 (Cr(III)/
+        // Cr(IV)) and CuIr2S4 (Ir(III)/Ir(IV)) beside Cu(I).
+        const bool step_above = low == limit && high == limit + 1;
         low_common &= low <= limit;
-        high_common &= high <= limit;
+        high_common &= high <= limit || step_above;
       }
       if (listed) {
         low_common |= internal::ListedPreference(*p.element, low, anions);

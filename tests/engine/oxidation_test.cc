@@ -434,7 +434,30 @@ const NaturalCase kNaturalCases[] = {
     {"CuFeS2", "Cu:1x1 Fe:3x1 S:-2x2", "Vaughan and Craig, from memory"},
     {"Cu2ZnSnS4", "Cu:1x2 Zn:2x1 Sn:4x1 S:-2x4",
      "Vaughan and Craig, from memory"},
-    {"Cu3AsS4", "Cu:1x3 As:5x1 S:-2x4", "Vaughan and Craig, from memory"},
+    // Enargite and famatinite hold As(V) and Sb(V) in the tetrahedral
+    // thioanion; sulvanite V(V) in tetrathiovanadate (Vaughan and Craig,
+    // from memory).
+    {"Cu3AsS4", "Cu:1x3 As:5x1[tetrathioarsenate] S:-2x4[tetrathioarsenate]",
+     "Vaughan and Craig, from memory"},
+    {"Cu3SbS4", "Cu:1x3 Sb:5x1[tetrathioantimonate] S:-2x4[tetrathioantimonate]",
+     "Vaughan and Craig, from memory"},
+    {"Cu3VS4", "Cu:1x3 V:5x1[tetrathiovanadate] S:-2x4[tetrathiovanadate]",
+     "Vaughan and Craig, from memory"},
+    // Tetrahedrite and tennantite: Cu(I)10 Cu(II)2 with trivalent Sb or As,
+    // not Sb(III)/Sb(V) (Pauling and Neuman, Z. Kristallogr. 88 (1934) 54;
+    // Vaughan and Craig; both from memory).
+    {"Cu12Sb4S13", "Cu:1x10 Cu:2x2 Sb:3x4 S:-2x13",
+     "Pauling and Neuman 1934, from memory"},
+    {"Cu12As4S13", "Cu:1x10 Cu:2x2 As:3x4 S:-2x13",
+     "Vaughan and Craig, from memory"},
+    // Cubanite: Cu(I) with Fe(II)/Fe(III), not Cu(II) with Fe(II) (Vaughan
+    // and Craig, from memory).
+    {"CuFe2S3", "Cu:1x1 Fe:2x1 Fe:3x1 S:-2x3", "Vaughan and Craig, from memory"},
+    // Thiospinels with Cu(I) and a mixed-valence B site: CuIr2S4 Ir(III)/
+    // Ir(IV) (Radaelli et al., Nature 416 (2002) 155, from memory), CuV2S4
+    // (Vaughan and Craig, from memory).
+    {"CuIr2S4", "Cu:1x1 Ir:3x1 Ir:4x1 S:-2x4", "Radaelli et al. 2002"},
+    {"CuV2S4", "Cu:1x1 V:3x1 V:4x1 S:-2x4", "Vaughan and Craig, from memory"},
     {"CuInSe2", "Cu:1x1 In:3x1 Se:-2x2",
      "Greenwood and Earnshaw, ch. 28, from memory"},
     // Spinel and ilmenite ferrites and titanates (Greenwood and Earnshaw,
