@@ -439,7 +439,8 @@ const NaturalCase kNaturalCases[] = {
     // from memory).
     {"Cu3AsS4", "Cu:1x3 As:5x1[tetrathioarsenate] S:-2x4[tetrathioarsenate]",
      "Vaughan and Craig, from memory"},
-    {"Cu3SbS4", "Cu:1x3 Sb:5x1[tetrathioantimonate] S:-2x4[tetrathioantimonate]",
+    {"Cu3SbS4",
+     "Cu:1x3 Sb:5x1[tetrathioantimonate] S:-2x4[tetrathioantimonate]",
      "Vaughan and Craig, from memory"},
     {"Cu3VS4", "Cu:1x3 V:5x1[tetrathiovanadate] S:-2x4[tetrathiovanadate]",
      "Vaughan and Craig, from memory"},
@@ -452,7 +453,8 @@ const NaturalCase kNaturalCases[] = {
      "Vaughan and Craig, from memory"},
     // Cubanite: Cu(I) with Fe(II)/Fe(III), not Cu(II) with Fe(II) (Vaughan
     // and Craig, from memory).
-    {"CuFe2S3", "Cu:1x1 Fe:2x1 Fe:3x1 S:-2x3", "Vaughan and Craig, from memory"},
+    {"CuFe2S3", "Cu:1x1 Fe:2x1 Fe:3x1 S:-2x3",
+     "Vaughan and Craig, from memory"},
     // Thiospinels with Cu(I) and a mixed-valence B site: CuIr2S4 Ir(III)/
     // Ir(IV) (Radaelli et al., Nature 416 (2002) 155, from memory), CuV2S4
     // (Vaughan and Craig, from memory).
