@@ -26,8 +26,11 @@ constexpr int kZOxygen = 8;
 constexpr int kZFluorine = 9;
 constexpr int kZSilicon = 14;
 constexpr int kZSulfur = 16;
+constexpr int kZChromium = 24;
 constexpr int kZGermanium = 32;
 constexpr int kZSelenium = 34;
+constexpr int kZCadmium = 48;
+constexpr int kZMercury = 80;
 
 // Counts are rationals; placements stop (no family) rather than risk
 // overflow when a formula is too finely divided for them.
@@ -767,19 +770,25 @@ std::optional<SitePlacement> TryFamily(const FamilySpec& spec,
   const Rational unscale = RecordUnitsPerFamilyUnit(spec, shape);
   Ions ions;
   if (!ReadIons(a, spec, shape, unscale, &ions, why)) return std::nullopt;
+  std::optional<SitePlacement> p;
   switch (spec.family) {
     case StructureFamily::kSpinel:
-      return PlaceSpinel(std::move(ions), unscale, why);
+      p = PlaceSpinel(std::move(ions), unscale, why);
+      break;
     case StructureFamily::kGarnet:
-      return PlaceGarnet(std::move(ions), unscale, why);
+      p = PlaceGarnet(std::move(ions), unscale, why);
+      break;
     case StructureFamily::kHexaferrite:
-      return PlaceHexaferrite(std::move(ions), unscale, why);
+      p = PlaceHexaferrite(std::move(ions), unscale, why);
+      break;
     case StructureFamily::kPerovskite:
-      return PlacePerovskite(ions, unscale, why);
+      p = PlacePerovskite(ions, unscale, why);
+      break;
     case StructureFamily::kNone:
       break;
   }
-  return std::nullopt;
+  if (p.has_value()) p->anion_z = shape.anion_z;
+  return p;
 }
 
 const FamilySpec* SpecOf(FamilyChoice choice) {
@@ -884,6 +893,35 @@ void AppendSiteNames(const SitePlacement& p, int direction, std::string* out) {
   }
 }
 
+// A sulfide or selenide spinel ACr2X4 with A = Cd or Hg (no moment) and
+// Cr3+ alone on B: CdCr2S4, CdCr2Se4 and HgCr2Se4 are ferromagnets, 3 μB
+// per Cr (Baltzer, Wojtowicz, Robbins and Lopatin, Phys. Rev. 151 (1966)
+// 367, from memory); HgCr2S4 reaches that in a small field. ZnCr2S4 and
+// ZnCr2Se4, with a smaller cell, order as antiferromagnetic spirals, and the
+// oxide spinels antiferromagnetically.
+bool FerromagneticChromiumSpinel(const SitePlacement& p,
+                                 absl::Span<const double> moments) {
+  if (p.family != StructureFamily::kSpinel ||
+      (p.anion_z != kZSulfur && p.anion_z != kZSelenium)) {
+    return false;
+  }
+  size_t next = 0;
+  bool chromium = false;
+  for (const Site& s : p.sites) {
+    for (const SiteOccupant& o : s.occupants) {
+      const int z = o.element->atomic_number;
+      const bool magnetic = moments[next++] >= kNoMoment;
+      if (s.direction < 0) {  // The tetrahedral A site.
+        if (magnetic || (z != kZCadmium && z != kZMercury)) return false;
+      } else {
+        if (z != kZChromium || o.state != 3) return false;
+        chromium = true;
+      }
+    }
+  }
+  return chromium;
+}
+
 // The family rules below fill the note only when `describe` is true: the
 // corners of a range need the number alone.
 SublatticeMoment TwoSided(const SitePlacement& p,
@@ -900,6 +938,19 @@ SublatticeMoment TwoSided(const SitePlacement& p,
   }
   SublatticeMoment r;
   const bool one_side_empty = up < kNoMoment || down < kNoMoment;
+  if (one_side_empty && FerromagneticChromiumSpinel(p, moments)) {
+    r.saturation = up + down;
+    if (!describe) return r;
+    r.note = absl::StrCat(
+        "chalcogenide spinel with Cr3+ alone on the octahedral site and Cd "
+        "or Hg on the tetrahedral one: the 90° Cr–X–Cr superexchange is "
+        "ferromagnetic and wins (Baltzer et al., Phys. Rev. 151 (1966) 367, "
+        "from memory): ",
+        Mu(r.saturation),
+        " μB per formula unit at 0 K; the Zn compounds and the oxides order "
+        "antiferromagnetically");
+    return r;
+  }
   r.saturation = one_side_empty ? 0 : std::abs(up - down);
   if (!describe) return r;
   r.note.reserve(256);  // Room for the usual note, filled piece by piece.

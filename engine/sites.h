@@ -144,6 +144,8 @@ struct SitePlacement {
   // such charge when several do, as Li+ in LiMn2O4), else the
   // lowest-charge ions (Li+ in Li0.5Fe2.5O4).
   std::optional<double> inversion;
+  // The anion's atomic number (8 for an oxide, 16 for a sulfide).
+  int anion_z = 0;
   // How the placement was decided, for the report: "inverse spinel:
   // octahedral site preference Ni2+ 86 kJ/mol > Fe3+ 0 (Dunitz and Orgel
   // 1957, McClure 1957)".

@@ -435,6 +435,24 @@ TEST(Sites, ZincFerriteAndCobaltOxideOrderAntiferromagnetically) {
   EXPECT_EQ(Moment("MgAl2O4"), 0);
 }
 
+TEST(Sites, CadmiumAndMercuryChromiumChalcogenideSpinelsAreFerromagnets) {
+  // CdCr2S4, CdCr2Se4 and HgCr2Se4: ferromagnetic, about 3 uB per Cr3+, so
+  // 6 uB per formula unit at 0 K (Baltzer, Wojtowicz, Robbins and Lopatin,
+  // Phys. Rev. 151 (1966) 367, from memory).
+  for (const char* f : {"CdCr2S4", "CdCr2Se4", "HgCr2Se4"}) {
+    SCOPED_TRACE(f);
+    const SublatticeMoment m = Saturation(f);
+    EXPECT_NEAR(m.saturation, 6.0, 0.3);
+    EXPECT_THAT(m.note, HasSubstr("ferromagnetic"));
+  }
+  // ZnCr2S4 and ZnCr2Se4 order as antiferromagnetic spirals (same source),
+  // and the oxide CdCr2O4 antiferromagnetically (from memory).
+  for (const char* f : {"ZnCr2S4", "ZnCr2Se4", "CdCr2O4"}) {
+    SCOPED_TRACE(f);
+    EXPECT_EQ(Moment(f), 0);
+  }
+}
+
 TEST(Sites, GarnetMoments) {
   // YIG 5.0 μB and GdIG 16 μB per formula unit at 0 K (Pauthenet, Ann.
   // Phys. 3 (1958) 424; Kittel, ferrimagnetism; from memory).
