@@ -104,6 +104,9 @@ constexpr int kBoronRichRatio = 4;
 // Atoms per formula unit by kind, for the rules that weigh them.
 struct AtomCounts {
   Rational metal, nonmetal, boride, boron;
+  // Alkali, alkaline-earth and divalent rare-earth atoms, and the other
+  // transition and rare-earth atoms.
+  Rational electropositive, transition;
 };
 
 AtomCounts CountAtoms(const Formula& formula) {
@@ -112,6 +115,11 @@ AtomCounts CountAtoms(const Formula& formula) {
     const Element& e = *a.element;
     if (IsMetal(e)) {
       n.metal = n.metal + a.count;
+      if (IsAlkaliOrAlkalineEarth(e) || IsDivalentRareEarth(e)) {
+        n.electropositive = n.electropositive + a.count;
+      } else if (IsTransitionOrRareEarth(e)) {
+        n.transition = n.transition + a.count;
+      }
       continue;
     }
     n.nonmetal = n.nonmetal + a.count;
@@ -212,6 +220,21 @@ BondingClass ClassifyBonding(const Formula& formula) {
   }
   if (other_transition) {
     const AtomCounts n = CountAtoms(formula);
+    // A transition metal held in the polyanion of a Zintl phase, the
+    // electropositive atoms at least twice its count and the non-metal
+    // atoms more than it: Ca14MnSb11 is
+    // 14 Ca2+ with [MnSb4]9-, [Sb3]7- and four Sb3- (Kauzlarich, in
+    // Chemistry, Structure, and Bonding of Zintl Phases and Ions, VCH
+    // (1996), from memory); CaMn2Sb2 and BaFe2As2 are not.
+    if (all_nonmetals_zintl && n.boron.IsZero() &&
+        !(n.electropositive < Rational(2) * n.transition) &&
+        n.transition < n.nonmetal) {
+      c.kind = CompositionKind::kZintl;
+      c.rule =
+          "an electropositive metal with p-block polyanions that hold a "
+          "minority transition metal";
+      return c;
+    }
     // Borides, silicides and germanides, unless boron sits in a
     // borohydride or the like (more other non-metal atoms than B, Si, Ge).
     if (!n.boride.IsZero() && !(n.boride < n.nonmetal - n.boride)) {

@@ -498,8 +498,12 @@ void AnnotateIon(const AssignedState& s, const Rational& count,
   ion.spin_basis =
       description.ligand_field.has_value() ? env.basis : SpinBasis::kNone;
   ion.near_spin_crossover = env.near_crossover;
-  ion.bonded =
-      internal::OpenShellState(*s.element, s.state) || env.metal_metal_bonded;
+  // A Zintl polyanion atom at 0 holds its full 8 - N bonds (Sn0 of the
+  // Sn9 4- cluster in Na4Sn9), though a free Sn atom has two p electrons.
+  const bool cluster_atom = r->kind == CompositionKind::kZintl &&
+                            s.state == 0 && IsZintlAnionFormer(*s.element);
+  ion.bonded = internal::OpenShellState(*s.element, s.state) ||
+               env.metal_metal_bonded || cluster_atom;
   if (site != nullptr) ion.site = site->name;
   if (!ion.bonded) {  // Bonded: no moment, all zero.
     const bool fixed =

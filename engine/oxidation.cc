@@ -312,14 +312,22 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     hard_anion |= z == 7 || z == 8 || z == 9 || z == 17;
   }
   const bool soft_only = chalcogen && !hard_anion;
+  // Every cation an alkali metal (for the Zintl clusters below).
+  bool alkali_only = zintl;
+  for (const ElementPlan& p : plans) {
+    if (zintl && !IsZintlAnionFormer(*p.element)) {
+      alkali_only &= p.element->group == 1 && p.element->atomic_number != 1;
+    }
+  }
   bool oxide = false;
   for (const ElementPlan& p : plans) oxide |= p.element->atomic_number == 8;
-  // The B sites of an ordered double perovskite, and delafossites, read
-  // their own state preferences, and the states listed there count as
-  // common (Mo+5 in Sr2FeMoO6 and Ba2YMoO6, Os+6 in Ca2NiOsO6, Pd+1 in
-  // PdCoO2).
-  internal::AnionClass anions =
-      soft_only ? internal::AnionClass::kSoft : internal::AnionClass::kHard;
+  // The B sites of an ordered double perovskite, delafossites and the
+  // cations of Zintl phases read their own state preferences, and the
+  // states listed there count as common (Mo+5 in Sr2FeMoO6 and Ba2YMoO6,
+  // Os+6 in Ca2NiOsO6, Pd+1 in PdCoO2, Yb+2 in YbZn2Sb2).
+  internal::AnionClass anions = soft_only ? internal::AnionClass::kSoft
+                                : zintl   ? internal::AnionClass::kZintl
+                                          : internal::AnionClass::kHard;
   if (!soft_only && reading.empty() && oxide && options.net_charge == 0) {
     if (IsOrderedDoublePerovskite(formula)) {
       anions = internal::AnionClass::kDoublePerovskite;
@@ -328,7 +336,8 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     }
   }
   const bool own_rows = anions == internal::AnionClass::kDoublePerovskite ||
-                        anions == internal::AnionClass::kDelafossite;
+                        anions == internal::AnionClass::kDelafossite ||
+                        anions == internal::AnionClass::kZintl;
   for (ElementPlan& p : plans) {
     p.no_hydride = carbon_or_nitrogen;
     p.oxide = oxide;
@@ -370,6 +379,19 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       for (int q = p.element->group - 18; q <= -1; ++q) {
         add(q, q, true, true);
         if (q < -1) add(q, q + 1, true, true);
+      }
+      // Cages and clusters: atoms with their full 8 - N homonuclear bonds
+      // are neutral, so -1 mixes with 0 there: the group 15 cages P7 3-,
+      // P11 3-, As7 3- and Sb7 3- (three P-1, four P0 in Na3P7), and the
+      // group 14 clusters and clathrate frameworks of the alkali metals
+      // (K4Ge9, Na4Sn9, K8Ge44) (Corbett, Chem. Rev. 85 (1985) 383, from
+      // memory). Not beside alkaline-earth metals in group 14, whose
+      // BaSn3 is a polar intermetallic.
+      // A group 15 atom with three such bonds is neutral alone too (As0
+      // of [In2As2]2- in EuIn2As2, the middle As of [As3]2- in CaAs3).
+      if (p.element->group == 15) add(0, 0, true, true);
+      if (p.element->group == 15 || (p.element->group == 14 && alkali_only)) {
+        add(-1, 0, true, true);
       }
     }
     for (const StateOption& o : internal::StateOptions(*p.element)) {

@@ -735,10 +735,11 @@ int main(int argc, char** argv) {
   for (const Row& r : preferences.rows) {
     const int z = symbol_to_z(preferences, r, 0);
     if (r.fields[1] != "hard" && r.fields[1] != "soft" &&
-        r.fields[1] != "double_perovskite" && r.fields[1] != "delafossite") {
+        r.fields[1] != "double_perovskite" && r.fields[1] != "delafossite" &&
+        r.fields[1] != "zintl") {
       Fail(preferences.path, r.line,
-           "column 'anions': expected hard, soft, double_perovskite or "
-           "delafossite");
+           "column 'anions': expected hard, soft, double_perovskite, "
+           "delafossite or zintl");
     }
     const long state = known_state(preferences, r, 2, z);
     if (!preference_keys.insert({z, r.fields[1], state}).second) {
@@ -748,7 +749,8 @@ int main(int argc, char** argv) {
     const int context = r.fields[1] == "hard"                ? 0
                         : r.fields[1] == "soft"              ? 1
                         : r.fields[1] == "double_perovskite" ? 2
-                                                             : 3;
+                        : r.fields[1] == "delafossite"       ? 3
+                                                             : 4;
     out << "    {" << z << ", " << context << ", " << state << ", " << rank
         << ", " << Literal(r.fields[4]) << "},\n";
   }

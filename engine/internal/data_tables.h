@@ -129,7 +129,7 @@ struct StatePreferenceRow {
   int atomic_number;
   // The internal::AnionClass the row is for: 0 hard, 1 soft (chalcogenide
   // anions only), 2 the B sites of an ordered double perovskite, 3 a
-  // delafossite.
+  // delafossite, 4 a Zintl phase.
   int anion_class;
   int state;
   int rank;  // 1 is the most natural.

@@ -137,7 +137,7 @@ constexpr int kPreferenceStep = 2;
 int PreferencePenalty(const Element& e, int state, bool common, AnionClass c) {
   const PreferenceTable& t = Preferences();
   int k = static_cast<int>(c);
-  // Soft and double-perovskite fall back to hard.
+  // The other classes fall back to hard.
   if (t.rows[e.atomic_number][k].empty()) k = 0;
   const std::vector<std::pair<int, int>>& rows = t.rows[e.atomic_number][k];
   if (rows.empty()) return common ? 0 : 2 * kPreferenceStep;
@@ -228,7 +228,7 @@ StateOption MakeStateOption(const Element& e, int index, int low, int high,
                (low != high ? uncommon(high, high_common) : 0);
   for (const AnionClass c :
        {AnionClass::kHard, AnionClass::kSoft, AnionClass::kDoublePerovskite,
-        AnionClass::kDelafossite}) {
+        AnionClass::kDelafossite, AnionClass::kZintl}) {
     const int k = static_cast<int>(c);
     o.high_natural[k] =
         GroupGap(e, high) + PreferencePenalty(e, high, high_common, c);

@@ -35,14 +35,16 @@ namespace shellwright::internal {
 // perovskite A2BB'O6 whose B' is a 4d or 5d metal (oxide anions; an
 // element without rows of its own there reads its hard rows).
 // The delafossites ABO2 with A = Cu, Ag, Pd or Pt (CuFeO2, PdCoO2) are a
-// fourth class.
+// fourth class, and the cations of Zintl phases (Eu(II) in EuIn2As2) a
+// fifth.
 enum class AnionClass {
   kHard = 0,
   kSoft = 1,
   kDoublePerovskite = 2,
-  kDelafossite = 3
+  kDelafossite = 3,
+  kZintl = 4
 };
-inline constexpr int kAnionClasses = 4;
+inline constexpr int kAnionClasses = 5;
 
 struct StateOption {
   int low = 0;   // Lower state (== high for single valence).
@@ -53,8 +55,8 @@ struct StateOption {
   int uncommon = 0;  // Uncommon states among low and high (bound-only: 2).
   // Naturalness per atom in the upper state, by AnionClass, and what an
   // atom in the lower state adds to it (may be negative).
-  int high_natural[kAnionClasses] = {0, 0, 0, 0};
-  int low_extra_natural[kAnionClasses] = {0, 0, 0, 0};
+  int high_natural[kAnionClasses] = {};
+  int low_extra_natural[kAnionClasses] = {};
   // Naturalness per atom of the mixed valence itself: 1 when mixed, 0 for
   // single valence.
   int spread = 0;

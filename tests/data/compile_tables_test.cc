@@ -129,7 +129,7 @@ TEST(CompileTables, PreferenceNeedsAKnownAnionClass) {
   t += "Fe\tmedium\t2\t1\tnowhere\n";
   CommandResult r = RunWith("state_preferences", t);
   EXPECT_EQ(r.exit_code, 1);
-  EXPECT_THAT(r.err, HasSubstr("expected hard, soft, double_perovskite or"));
+  EXPECT_THAT(r.err, HasSubstr("expected hard, soft, double_perovskite, "));
 }
 
 TEST(CompileTables, DuplicatePreferenceIsRejected) {

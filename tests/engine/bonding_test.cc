@@ -90,6 +90,16 @@ TEST(Bonding, ClassOfRealCompositions) {
       {"Ca5Ge3", K::kZintl, "Schäfer et al. 1973, from memory"},
       {"Mg2Si", K::kZintl, "Schäfer et al. 1973, from memory"},
       {"Na3Sb", K::kZintl, "Schäfer et al. 1973, from memory"},
+      // Cluster and cage anions (Corbett, Chem. Rev. 85, 383 (1985), from
+      // memory) and the 14-1-11 phases (Kauzlarich (ed.), Chemistry,
+      // Structure, and Bonding of Zintl Phases and Ions, VCH 1996, from
+      // memory).
+      {"K4Ge9", K::kZintl, "Corbett 1985, from memory"},
+      {"Na4Sn9", K::kZintl, "Corbett 1985, from memory"},
+      {"Na3P7", K::kZintl, "Corbett 1985, from memory"},
+      {"K3Sb7", K::kZintl, "Corbett 1985, from memory"},
+      {"Ca14MnSb11", K::kZintl, "Kauzlarich 1996, from memory"},
+      {"Yb14MnSb11", K::kZintl, "Kauzlarich 1996, from memory"},
       // Metal-rich transition-metal chalcogenides hold metal-metal bonds
       // and are metallic; copper sulfides and the monosulfides stay ionic
       // (Vaughan and Craig, Mineral Chemistry of Metal Sulfides, 1978, from
@@ -152,6 +162,29 @@ TEST(Bonding, ZintlPhasesBalanceByTheEightMinusNRule) {
   EXPECT_EQ(Best("CaSi2"), "Ca:2x1 Si:-1x2");
   EXPECT_EQ(Best("KGe"), "K:1x1 Ge:-1x1");
   EXPECT_EQ(Best("Ca5Ge3"), "Ca:2x5 Ge:-4x1 Ge:-3x2");
+}
+
+TEST(Bonding, ZintlCagesAndClustersHoldNeutralAtoms) {
+  // Corbett, Chem. Rev. 85, 383 (1985), from memory: P7 3- holds three
+  // two-bonded P- and four three-bonded P0; the deltahedral Ge9 4- and
+  // Sn9 4- carry four electrons over nine atoms; CaAs3 holds [As3]2- with
+  // one three-bonded As0 (Schäfer et al. 1973, from memory).
+  EXPECT_EQ(Best("Na3P7"), "Na:1x3 P:-1x3 P:0x4");
+  EXPECT_EQ(Best("K3Sb7"), "K:1x3 Sb:-1x3 Sb:0x4");
+  EXPECT_EQ(Best("K4Ge9"), "K:1x4 Ge:-1x4 Ge:0x5");
+  EXPECT_EQ(Best("CaAs3"), "Ca:2x1 As:-1x2 As:0x1");
+}
+
+TEST(Bonding, EuropiumAndYtterbiumAreDivalentInZintlPhases) {
+  // Kauzlarich (ed.), Chemistry, Structure, and Bonding of Zintl Phases and
+  // Ions, VCH 1996, from memory: Eu(II) in EuIn2As2, EuAs3 and Eu5In2Sb6
+  // (magnetisation: 7 uB Eu2+ moments), Yb(II) in YbZn2Sb2, and Mn(III) of
+  // [MnSb4]9- in Ca14MnSb11.
+  EXPECT_EQ(Best("EuIn2As2"), "Eu:2x1 In:-1x2 As:0x2");
+  EXPECT_EQ(Best("EuAs3"), "Eu:2x1 As:-1x2 As:0x1");
+  EXPECT_EQ(Best("Eu5In2Sb6"), "Eu:2x5 In:3x2 Sb:-3x4 Sb:-2x2");
+  EXPECT_EQ(Best("YbZn2Sb2"), "Yb:2x1 Zn:2x2 Sb:-3x2");
+  EXPECT_EQ(Best("Ca14MnSb11"), "Ca:2x14 Mn:3x1 Sb:-3x9 Sb:-2x2");
 }
 
 TEST(Bonding, UnbalancedZintlCompositionsArePolarIntermetallics) {
