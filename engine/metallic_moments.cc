@@ -52,6 +52,11 @@ constexpr double kCobaltMomentWithRareEarth = 1.6;
 // "3d rich" (RCo5, R2Fe17, R2Fe14B, R2Co17, RFe11Ti); in RFe2, RCo2, RFe3
 // the 3d moment is reduced or only induced (common practice, no source).
 constexpr double kMin3dShareWithRareEarth = 0.8;
+// The Fe moment of the cubic Laves phases RFe2: YFe2 holds 2.9 μB per
+// formula unit at 4.2 K (Buschow, Rep. Prog. Phys. 40, 1179 (1977), from
+// memory), 1.45 per Fe; the heavy rare earths order against it (GdFe2
+// about 3.7 μB, TbFe2 about 5.8 μB per formula unit, ibid.).
+constexpr double kIronMomentInLavesPhase = 1.45;
 // Largest moments the Heusler rules allow (Galanakis, Dederichs and
 // Papanikolaou, Phys. Rev. B 66, 174429 and 134428 (2002), from memory):
 // beyond them the minority gap that the rules count on cannot hold.
@@ -156,8 +161,9 @@ std::optional<MetallicMomentEstimate> EstimateRareEarth(
     return std::nullopt;
   }
   double light = 0, heavy = 0, mu2 = 0, unpaired = 0, fe = 0, co = 0;
-  double metal_atoms = 0;
+  double metal_atoms = 0, rare = 0;
   bool sm = false, eu = false, ce_or_yb = false;
+  double cerium_moment = 0;  // The Ce3+ moments counted in `light`.
   for (const ElementAmount& amount : a) {
     const Element& el = *amount.element;
     const double c = amount.count.ToDouble();
@@ -181,6 +187,7 @@ std::optional<MetallicMomentEstimate> EstimateRareEarth(
       continue;
     }
     metal_atoms += c;
+    rare += c;
     // Eu is divalent in most intermetallics and in the metal (4f7; Eu3+
     // would have J = 0): counted so (Buschow 1977, from memory).
     const int n4f = el.atomic_number == 39 ? 0
@@ -198,6 +205,7 @@ std::optional<MetallicMomentEstimate> EstimateRareEarth(
     // L47 (1972), from memory); J = L - S below half filling, so a light
     // rare earth's moment lies along the 3d moment, a heavy one's against.
     (n4f < 7 ? light : heavy) += c * saturation;
+    if (el.symbol == "Ce") cerium_moment += c * saturation;
   }
   std::string cautions;
   if (sm) {
@@ -229,10 +237,36 @@ std::optional<MetallicMomentEstimate> EstimateRareEarth(
         cautions);
     return e;
   }
+  // RFe2 with nothing else: the Laves phases, Fe at its reduced moment.
+  // Beside Fe and Co, Ce is close to tetravalent and carries no 4f moment
+  // (CeFe2, CeCo5, Ce2Fe14B: Buschow, Rep. Prog. Phys. 40, 1179 (1977);
+  // Herbst 1991; from memory).
+  if (cerium_moment > 0) {
+    light -= cerium_moment;
+    cautions +=
+        "; Ce beside Fe or Co is taken as tetravalent, without a 4f moment";
+  }
+  const double tolerance = 1e-9 * std::max(1.0, metal_atoms);
+  const bool laves = co == 0 && std::abs(fe - 2 * rare) < tolerance &&
+                     std::abs(metal_atoms - fe - rare) < tolerance;
+  if (laves) {
+    const double m3d = kIronMomentInLavesPhase * fe;
+    const double m = m3d + light - heavy;
+    e.model = MomentModel::kRareEarth4fWith3d;
+    e.saturation = std::abs(m);
+    e.note = absl::StrFormat(
+        "cubic Laves phase RFe2: Fe sublattice %.4g μB (1.45 μB per Fe, as "
+        "in YFe2) with the trivalent 4f sublattice (light rare earths %.4g "
+        "μB parallel, heavy %.4g μB antiparallel)%s; no paramagnetic "
+        "effective moment from composition%s",
+        m3d, light, heavy, m < 0 ? "; the 4f sublattice dominates" : "",
+        cautions);
+    return e;
+  }
   if ((fe + co) < kMin3dShareWithRareEarth * metal_atoms) {
     return None(
         e, absl::StrFormat("rare earth with Fe or Co below %g%% of the metal "
-                           "atoms (RFe2, RCo2, RFe3 types): the 3d moment is "
+                           "atoms (RCo2, RFe3 types): the 3d moment is "
                            "reduced or induced there; no estimate",
                            100 * kMin3dShareWithRareEarth));
   }

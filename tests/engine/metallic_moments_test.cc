@@ -304,8 +304,28 @@ TEST(MetallicMoments, SamariumCobaltAndNitride) {
   EXPECT_FALSE(Estimate("SmCo5").effective.has_value());
 }
 
+TEST(MetallicMoments, LavesPhasesRFe2) {
+  // Measured at 4.2 K (Buschow, Rep. Prog. Phys. 40, 1179 (1977), from
+  // memory): YFe2 2.9, GdFe2 about 3.7, TbFe2 about 5.8 uB per formula
+  // unit; the heavy rare earth orders against the Fe sublattice.
+  ExpectMoment("YFe2", MomentModel::kRareEarth4fWith3d, 2.9, 0.1);
+  ExpectMoment("GdFe2", MomentModel::kRareEarth4fWith3d, 3.7, 0.6);
+  ExpectMoment("TbFe2", MomentModel::kRareEarth4fWith3d, 5.8, 0.6);
+  EXPECT_THAT(Estimate("GdFe2").note, HasSubstr("Laves"));
+}
+
+TEST(MetallicMoments, CeriumBesideIronIsTetravalent) {
+  // Ce2Fe14B 29.4 uB per formula unit at 4.2 K (Herbst, Rev. Mod. Phys. 63,
+  // 819 (1991), from memory), below Y2Fe14B's 31.4; CeFe2 about 2.4
+  // (Buschow, Rep. Prog. Phys. 40, 1179 (1977), from memory).
+  ExpectMoment("Ce2Fe14B", MomentModel::kRareEarth4fWith3d, 29.4, 1.5);
+  ExpectMoment("CeFe2", MomentModel::kRareEarth4fWith3d, 2.4, 0.6);
+  EXPECT_THAT(Estimate("CeFe2").note, HasSubstr("tetravalent"));
+}
+
 TEST(MetallicMoments, RareEarthCompoundsOutsideTheDomain) {
-  ExpectNone("NdFe2", "below 80%");
+  ExpectNone("NdFe3", "below 80%");
+  ExpectNone("YCo2", "below 80%");
   ExpectNone("NdMn2", "Mn");
 }
 
