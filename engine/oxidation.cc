@@ -186,12 +186,17 @@ bool IsOrderedDoublePerovskite(const Formula& formula) {
   };
   // Bit k: the k-th metal of the formula could sit on an A site.
   uint32_t candidates = 0;
+  bool any_heavy = false;
   for (size_t k = 0; k < formula.amounts.size(); ++k) {
     const Element& e = *formula.amounts[k].element;
     if (e.atomic_number == 8) continue;
     if (!IsMetal(e)) return false;
     if (a_site(e)) candidates |= 1u << k;
+    any_heavy |= heavy_partner(e);
   }
+  // Every A-site set below needs a heavy partner on the B sites: without
+  // one in the formula, none qualifies (the usual perovskite, La1-xSrxMnO3).
+  if (!any_heavy) return false;
   for (uint32_t a_set = candidates; a_set != 0;
        a_set = (a_set - 1) & candidates) {
     Rational a_sum(0), b_sum(0);
@@ -239,8 +244,18 @@ bool IsDelafossite(const Formula& formula) {
   return !a.IsZero() && a == b && oxygen == a * Rational(2);
 }
 
-// Builds the plan of every element. Declared elements take exactly their
-// declared states.
+// The structure class of `formula` that sets its B sites' state
+// preferences: kDoublePerovskite, kDelafossite, or kHard for neither. It
+// belongs to the formula, so AssignStates finds it once for every reading
+// and search pass.
+internal::AnionClass StructureClassOf(const Formula& formula) {
+  if (IsOrderedDoublePerovskite(formula)) {
+    return internal::AnionClass::kDoublePerovskite;
+  }
+  if (IsDelafossite(formula)) return internal::AnionClass::kDelafossite;
+  return internal::AnionClass::kHard;
+}
+
 // A reading of the formula: the unit matches read as units.
 using Reading = absl::InlinedVector<const UnitMatch*, 4>;
 
@@ -248,11 +263,12 @@ using Reading = absl::InlinedVector<const UnitMatch*, 4>;
 // false when the reading's units need more atoms than the formula holds.
 // Declared elements take exactly their declared states.
 //
-// `scaled_counts` holds each formula element's count times `scale`.
+// `scaled_counts` holds each formula element's count times `scale`;
+// `structure` is the formula's StructureClassOf.
 bool MakePlans(const Formula& formula, const Rational& scale,
                absl::Span<const int64_t> scaled_counts,
                const OxidationOptions& options, const Reading& reading,
-               bool zintl, Plans* out) {
+               bool zintl, internal::AnionClass structure, Plans* out) {
   Plans& plans = *out;
   plans.clear();
   plans.reserve(formula.amounts.size() + reading.size());
@@ -321,11 +337,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   internal::AnionClass anions =
       soft_only ? internal::AnionClass::kSoft : internal::AnionClass::kHard;
   if (!soft_only && reading.empty() && oxide && options.net_charge == 0) {
-    if (IsOrderedDoublePerovskite(formula)) {
-      anions = internal::AnionClass::kDoublePerovskite;
-    } else if (IsDelafossite(formula)) {
-      anions = internal::AnionClass::kDelafossite;
-    }
+    anions = structure;
   }
   const bool own_rows = anions == internal::AnionClass::kDoublePerovskite ||
                         anions == internal::AnionClass::kDelafossite;
@@ -653,6 +665,8 @@ struct Search {
   bool one_mixed = false;
   bool strict = true;  // See Allowed.
   bool zintl = false;  // Polyanion states by the 8-N rule (MakePlans).
+  // The formula's StructureClassOf (AssignStates finds it once).
+  internal::AnionClass structure = internal::AnionClass::kHard;
   // Each formula element's count times the scale (AssignStates).
   absl::InlinedVector<int64_t, 8> scaled_counts;
   UnitMatches all_matches;  // Of the formula (AssignStates finds them).
@@ -862,7 +876,7 @@ BestReading SearchReadings(const Formula& formula,
       }
       Plans& plans = search->plan_buffers[work];
       if (!MakePlans(formula, scale, search->scaled_counts, options, reading,
-                     search->zintl, &plans)) {
+                     search->zintl, search->structure, &plans)) {
         continue;
       }
       const Weight bound =
@@ -1241,6 +1255,7 @@ absl::StatusOr<OxidationResult> AssignStates(const Formula& formula,
   } release;
   Search search;
   search.zintl = zintl;
+  search.structure = StructureClassOf(formula);
   search.all_matches = FindUnitMatches(formula);
   // The same answer however the formula unit is written: the search runs
   // on the formula divided by the greatest common divisor g of its scaled
