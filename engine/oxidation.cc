@@ -1038,6 +1038,22 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
     rank_bound = std::min(rank_bound, rank_key(s.weight, a));
     found.emplace_back(s.weight, std::move(a));
   }
+  if (options.max_alternatives <= 0) {
+    // Nothing to report but the best: the first of the lightest, which is
+    // what the stable sort below would put first, without sorting.
+    size_t first = found.size();  // found.size() for the best itself.
+    for (size_t k = 0; k < found.size(); ++k) {
+      const bool before =
+          first == found.size()
+              ? RanksBefore(found[k].first, found[k].second,
+                            best.solution.weight, *result->best)
+              : RanksBefore(found[k].first, found[k].second, found[first].first,
+                            found[first].second);
+      if (before) first = k;
+    }
+    if (first < found.size()) result->best = std::move(found[first].second);
+    return;
+  }
   found.emplace(found.begin(), best.solution.weight, *std::move(result->best));
   std::stable_sort(found.begin(), found.end(),
                    [](const auto& x, const auto& y) {
