@@ -993,6 +993,25 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
                     search->strict, &candidates);
     narrow_end = candidates.all.size();
   }
+  // The best is the lightest assignment of these plans, so a search that
+  // forbids one of its options finds nothing below it: one bounded by the
+  // best's weight (a compatible alternative as light as the best set
+  // rank_bound there) finds nothing at all, and may be skipped where that
+  // changes no one's share of the budget. That holds when every search
+  // stops at its narrow stage (a bound of at most one uncommon state) and
+  // even all of them at their most could not exhaust the budget or hit
+  // the cell limit (NarrowSearchWorkBound: forbidding shrinks the work).
+  bool skip_hopeless = false;
+  if (reuse_narrow && options.max_alternatives <= 0 &&
+      rank_bound <= Weight::Uncommon(1)) {
+    int64_t searches = 0;
+    for (const ElementPlan& p : plans) searches += p.declared ? 0 : 1;
+    int64_t cells = 0;
+    const int64_t visits = internal::NarrowSearchWorkBound(
+        items, candidates, search->target, &cells);
+    skip_hopeless = cells <= internal::kMaxSearchCells &&
+                    visits * searches <= search->budget.cell_visits;
+  }
   for (size_t i = 0; i < plans.size(); ++i) {
     if (plans[i].declared) continue;
     Weight bound =
@@ -1004,6 +1023,7 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
                        weights.end());
       bound = std::min(bound, weights[wanted - 1]);
     }
+    if (skip_hopeless && bound <= best.solution.weight) continue;
     const StateOption& chosen =
         plans[i].options()[best.solution.choices[i].option];
     const Forbidden forbidden{static_cast<int>(i), chosen.low, chosen.high};
