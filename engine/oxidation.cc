@@ -186,12 +186,17 @@ bool IsOrderedDoublePerovskite(const Formula& formula) {
   };
   // Bit k: the k-th metal of the formula could sit on an A site.
   uint32_t candidates = 0;
+  bool any_heavy = false;
   for (size_t k = 0; k < formula.amounts.size(); ++k) {
     const Element& e = *formula.amounts[k].element;
     if (e.atomic_number == 8) continue;
     if (!IsMetal(e)) return false;
     if (a_site(e)) candidates |= 1u << k;
+    any_heavy |= heavy_partner(e);
   }
+  // Every A-site set below needs a heavy partner on the B sites: without
+  // one in the formula, none qualifies (the usual perovskite, La1-xSrxMnO3).
+  if (!any_heavy) return false;
   for (uint32_t a_set = candidates; a_set != 0;
        a_set = (a_set - 1) & candidates) {
     Rational a_sum(0), b_sum(0);
@@ -239,8 +244,18 @@ bool IsDelafossite(const Formula& formula) {
   return !a.IsZero() && a == b && oxygen == a * Rational(2);
 }
 
-// Builds the plan of every element. Declared elements take exactly their
-// declared states.
+// The structure class of `formula` that sets its B sites' state
+// preferences: kDoublePerovskite, kDelafossite, or kHard for neither. It
+// belongs to the formula, so AssignStates finds it once for every reading
+// and search pass.
+internal::AnionClass StructureClassOf(const Formula& formula) {
+  if (IsOrderedDoublePerovskite(formula)) {
+    return internal::AnionClass::kDoublePerovskite;
+  }
+  if (IsDelafossite(formula)) return internal::AnionClass::kDelafossite;
+  return internal::AnionClass::kHard;
+}
+
 // A reading of the formula: the unit matches read as units.
 using Reading = absl::InlinedVector<const UnitMatch*, 4>;
 
@@ -248,11 +263,12 @@ using Reading = absl::InlinedVector<const UnitMatch*, 4>;
 // false when the reading's units need more atoms than the formula holds.
 // Declared elements take exactly their declared states.
 //
-// `scaled_counts` holds each formula element's count times `scale`.
+// `scaled_counts` holds each formula element's count times `scale`;
+// `structure` is the formula's StructureClassOf.
 bool MakePlans(const Formula& formula, const Rational& scale,
                absl::Span<const int64_t> scaled_counts,
                const OxidationOptions& options, const Reading& reading,
-               bool zintl, Plans* out) {
+               bool zintl, internal::AnionClass structure, Plans* out) {
   Plans& plans = *out;
   plans.clear();
   plans.reserve(formula.amounts.size() + reading.size());
@@ -329,11 +345,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
                                 : zintl   ? internal::AnionClass::kZintl
                                           : internal::AnionClass::kHard;
   if (!soft_only && reading.empty() && oxide && options.net_charge == 0) {
-    if (IsOrderedDoublePerovskite(formula)) {
-      anions = internal::AnionClass::kDoublePerovskite;
-    } else if (IsDelafossite(formula)) {
-      anions = internal::AnionClass::kDelafossite;
-    }
+    anions = structure;
   }
   const bool own_rows = anions == internal::AnionClass::kDoublePerovskite ||
                         anions == internal::AnionClass::kDelafossite ||
@@ -679,6 +691,8 @@ struct Search {
   bool one_mixed = false;
   bool strict = true;  // See Allowed.
   bool zintl = false;  // Polyanion states by the 8-N rule (MakePlans).
+  // The formula's StructureClassOf (AssignStates finds it once).
+  internal::AnionClass structure = internal::AnionClass::kHard;
   // Each formula element's count times the scale (AssignStates).
   absl::InlinedVector<int64_t, 8> scaled_counts;
   UnitMatches all_matches;  // Of the formula (AssignStates finds them).
@@ -888,7 +902,7 @@ BestReading SearchReadings(const Formula& formula,
       }
       Plans& plans = search->plan_buffers[work];
       if (!MakePlans(formula, scale, search->scaled_counts, options, reading,
-                     search->zintl, &plans)) {
+                     search->zintl, search->structure, &plans)) {
         continue;
       }
       const Weight bound =
@@ -1005,6 +1019,25 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
                     search->strict, &candidates);
     narrow_end = candidates.all.size();
   }
+  // The best is the lightest assignment of these plans, so a search that
+  // forbids one of its options finds nothing below it: one bounded by the
+  // best's weight (a compatible alternative as light as the best set
+  // rank_bound there) finds nothing at all, and may be skipped where that
+  // changes no one's share of the budget. That holds when every search
+  // stops at its narrow stage (a bound of at most one uncommon state) and
+  // even all of them at their most could not exhaust the budget or hit
+  // the cell limit (NarrowSearchWorkBound: forbidding shrinks the work).
+  bool skip_hopeless = false;
+  if (reuse_narrow && options.max_alternatives <= 0 &&
+      rank_bound <= Weight::Uncommon(1)) {
+    int64_t searches = 0;
+    for (const ElementPlan& p : plans) searches += p.declared ? 0 : 1;
+    int64_t cells = 0;
+    const int64_t visits = internal::NarrowSearchWorkBound(
+        items, candidates, search->target, &cells);
+    skip_hopeless = cells <= internal::kMaxSearchCells &&
+                    visits * searches <= search->budget.cell_visits;
+  }
   for (size_t i = 0; i < plans.size(); ++i) {
     if (plans[i].declared) continue;
     Weight bound =
@@ -1016,6 +1049,7 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
                        weights.end());
       bound = std::min(bound, weights[wanted - 1]);
     }
+    if (skip_hopeless && bound <= best.solution.weight) continue;
     const StateOption& chosen =
         plans[i].options()[best.solution.choices[i].option];
     const Forbidden forbidden{static_cast<int>(i), chosen.low, chosen.high};
@@ -1049,6 +1083,22 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
     if (duplicate) continue;
     rank_bound = std::min(rank_bound, rank_key(s.weight, a));
     found.emplace_back(s.weight, std::move(a));
+  }
+  if (options.max_alternatives <= 0) {
+    // Nothing to report but the best: the first of the lightest, which is
+    // what the stable sort below would put first, without sorting.
+    size_t first = found.size();  // found.size() for the best itself.
+    for (size_t k = 0; k < found.size(); ++k) {
+      const bool before =
+          first == found.size()
+              ? RanksBefore(found[k].first, found[k].second,
+                            best.solution.weight, *result->best)
+              : RanksBefore(found[k].first, found[k].second, found[first].first,
+                            found[first].second);
+      if (before) first = k;
+    }
+    if (first < found.size()) result->best = std::move(found[first].second);
+    return;
   }
   found.emplace(found.begin(), best.solution.weight, *std::move(result->best));
   std::stable_sort(found.begin(), found.end(),
@@ -1267,6 +1317,7 @@ absl::StatusOr<OxidationResult> AssignStates(const Formula& formula,
   } release;
   Search search;
   search.zintl = zintl;
+  search.structure = StructureClassOf(formula);
   search.all_matches = FindUnitMatches(formula);
   // The same answer however the formula unit is written: the search runs
   // on the formula divided by the greatest common divisor g of its scaled

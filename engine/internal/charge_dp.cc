@@ -606,6 +606,43 @@ void Trace(const SparseRun& run, absl::Span<const size_t> order,
 
 }  // namespace
 
+int64_t NarrowSearchWorkBound(absl::Span<const ChargeItem> items,
+                              const Candidates& candidates, int64_t target,
+                              int64_t* cells) {
+  // SolveCharge's charge windows, taken over every item: folding an item
+  // with a single candidate into the target removes its layer and leaves
+  // the other windows as wide as they are here, and fewer candidates only
+  // narrow them. Each layer's visits are its window times its candidates'
+  // per-cell cost, as SolveCharge charges them before narrowing a window
+  // to the reachable cells.
+  const size_t n = items.size();
+  std::array<int64_t, kMaxDistinctElements + 1> rest_min, rest_max;
+  rest_min[n] = rest_max[n] = 0;
+  for (size_t i = n; i-- > 0;) {
+    rest_min[i] = rest_min[i + 1] + candidates.narrow[i].min_contribution;
+    rest_max[i] = rest_max[i + 1] + candidates.narrow[i].max_contribution;
+  }
+  int64_t visits = 0, prefix_min = 0, prefix_max = 0;
+  *cells = 1;
+  for (size_t i = 0; i < n; ++i) {
+    const CandidateList& list = candidates.narrow[i];
+    prefix_min += list.min_contribution;
+    prefix_max += list.max_contribution;
+    const int64_t lo = std::max(prefix_min, target - rest_max[i + 1]);
+    const int64_t hi = std::min(prefix_max, target - rest_min[i + 1]);
+    if (hi < lo) continue;
+    int64_t per_cell = 0;
+    for (size_t ci = list.begin; ci < list.end; ++ci) {
+      per_cell += candidates.all[ci].low == candidates.all[ci].high
+                      ? 1
+                      : kMixedVisitCost;
+    }
+    *cells += hi - lo + 1;
+    visits += (hi - lo + 1) * per_cell;
+  }
+  return visits;
+}
+
 Solution SolveChargeOneMixed(absl::Span<const ChargeItem> items,
                              const Candidates& candidates, Widening widening,
                              int64_t target, const SearchLimits& limits) {

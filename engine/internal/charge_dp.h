@@ -162,6 +162,15 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
                      int64_t target, const SearchLimits& limits,
                      Pruning* pruning = nullptr);
 
+// The most work SolveCharge could do with every item on its narrow
+// candidates (Widening::None()), for these candidates or for any subset of
+// them (an option forbidden): cell visits as the budget counts them, and
+// the cells it would hold, in `*cells`. Both are upper bounds, whatever the
+// search's bound. REQUIRES: candidates were built for `items`.
+int64_t NarrowSearchWorkBound(absl::Span<const ChargeItem> items,
+                              const Candidates& candidates, int64_t target,
+                              int64_t* cells);
+
 // Gives back this thread's search buffers when a search made them large;
 // call it when a record is done, so that one wide record does not hold
 // its memory for the life of the thread.

@@ -139,5 +139,58 @@ TEST(ChargeDp, UnreachableTargetHasNoSolution) {
           .weight.IsInfinite());
 }
 
+// A layered oxide in scaled units (LiNi0.70Co0.15Mn0.15O2 times 20): Li,
+// three transition metals with single and mixed options, O. Invented
+// layers for the search's mechanics, no chemistry checked.
+std::vector<Layer> LayeredOxide(bool without_ni3) {
+  std::vector<StateOption> ni = {Single(2, 0), Mixed(2, 3, 1), Mixed(3, 4, 3),
+                                 Single(4, 4)};
+  if (!without_ni3) ni.push_back(Single(3, 2));
+  return {
+      {20, {Single(1, 0)}},
+      {14, ni},
+      {3, {Single(2, 0), Mixed(2, 3, 1), Single(3, 2)}},
+      {3,
+       {Single(2, 0), Mixed(2, 3, 1), Single(3, 2), Mixed(3, 4, 3),
+        Single(4, 4)}},
+      {40, {Single(-2, 0)}},
+  };
+}
+
+// Cell visits a narrow search of `layers` charges to a budget.
+int64_t VisitsOf(const std::vector<Layer>& layers, Weight bound) {
+  WorkBudget budget{kRecordCellVisits, false};
+  SolveCharge(Items(layers), Build(layers), Widening::None(), 0,
+              SearchLimits{bound, false, &budget});
+  EXPECT_FALSE(budget.exhausted);
+  return kRecordCellVisits - budget.cell_visits;
+}
+
+TEST(ChargeDp, NarrowWorkBoundCoversTheSearchAndItsForbiddenSubsets) {
+  const std::vector<Layer> layers = LayeredOxide(/*without_ni3=*/false);
+  int64_t cells = 0;
+  const int64_t bound =
+      NarrowSearchWorkBound(Items(layers), Build(layers), 0, &cells);
+  EXPECT_GT(cells, 1);
+  EXPECT_LE(cells, kMaxSearchCells);
+  const int64_t full = VisitsOf(layers, Weight::Infinite());
+  EXPECT_GT(full, 0);
+  EXPECT_LE(full, bound);
+  // An option forbidden, and a search bounded tightly: less work still.
+  const std::vector<Layer> fewer = LayeredOxide(/*without_ni3=*/true);
+  EXPECT_LE(VisitsOf(fewer, Weight::Infinite()), bound);
+  EXPECT_LE(VisitsOf(fewer, Weight::Of(0, 0, 1)), bound);
+  // A budget of exactly the bound is never exhausted; one visit short of
+  // what the search spends is.
+  WorkBudget exact{bound, false};
+  SolveCharge(Items(layers), Build(layers), Widening::None(), 0,
+              SearchLimits{Weight::Infinite(), false, &exact});
+  EXPECT_FALSE(exact.exhausted);
+  WorkBudget short_one{full - 1, false};
+  SolveCharge(Items(layers), Build(layers), Widening::None(), 0,
+              SearchLimits{Weight::Infinite(), false, &short_one});
+  EXPECT_TRUE(short_one.exhausted);
+}
+
 }  // namespace
 }  // namespace shellwright::internal
