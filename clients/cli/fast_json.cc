@@ -32,6 +32,23 @@ constexpr EscapeTable kEscape;
 
 inline bool NeedsEscape(unsigned char c) { return kEscape.needs[c]; }
 
+#if defined(__SSE2__)
+// The bytes of x that NeedsEscape, as a bit mask (bit i for byte i).
+inline int EscapeMask(__m128i x) {
+  const __m128i last_control = _mm_set1_epi8(0x1f);
+  // A control character: x <= 0x1f unsigned, i.e. max(x, 0x1f) == 0x1f.
+  __m128i hit = _mm_cmpeq_epi8(_mm_max_epu8(x, last_control), last_control);
+  hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, _mm_set1_epi8('"')));
+  hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, _mm_set1_epi8('\\')));
+  hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, _mm_set1_epi8(0x7f)));
+  hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, _mm_set1_epi8('<')));
+  hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, _mm_set1_epi8('>')));
+  hit = _mm_or_si128(hit,
+                     _mm_cmpeq_epi8(x, _mm_set1_epi8(static_cast<char>(0xE2))));
+  return _mm_movemask_epi8(hit);
+}
+#endif
+
 // The length of the longest prefix of [p, p + n) made of whole 16-byte
 // blocks with no byte that NeedsEscape: most text has none, and SSE2
 // (part of every x86-64) tests 16 bytes in a few instructions. Elsewhere
@@ -39,33 +56,76 @@ inline bool NeedsEscape(unsigned char c) { return kEscape.needs[c]; }
 size_t PlainBlocks(const char* p, size_t n) {
   size_t i = 0;
 #if defined(__SSE2__)
-  const __m128i last_control = _mm_set1_epi8(0x1f);
-  const __m128i quote = _mm_set1_epi8('"');
-  const __m128i backslash = _mm_set1_epi8('\\');
-  const __m128i del = _mm_set1_epi8(0x7f);
-  const __m128i less = _mm_set1_epi8('<');
-  const __m128i greater = _mm_set1_epi8('>');
-  const __m128i e2 = _mm_set1_epi8(static_cast<char>(0xE2));
   for (; i + 16 <= n; i += 16) {
     const __m128i x = _mm_loadu_si128(reinterpret_cast<const __m128i*>(p + i));
-    // A control character: x <= 0x1f unsigned, i.e. max(x, 0x1f) == 0x1f.
-    __m128i hit = _mm_cmpeq_epi8(_mm_max_epu8(x, last_control), last_control);
-    hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, quote));
-    hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, backslash));
-    hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, del));
-    hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, less));
-    hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, greater));
-    hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, e2));
-    if (_mm_movemask_epi8(hit) != 0) break;
+    if (EscapeMask(x) != 0) break;
   }
 #endif
   return i;
+}
+
+// Copies n <= 16 bytes with at most two fixed-size moves each way
+// (overlapping where n is not a power of two), writing no byte past
+// to + n.
+inline void CopyShort(const char* from, size_t n, char* to) {
+  if (n >= 8) {
+    uint64_t head, tail;
+    std::memcpy(&head, from, 8);
+    std::memcpy(&tail, from + n - 8, 8);
+    std::memcpy(to, &head, 8);
+    std::memcpy(to + n - 8, &tail, 8);
+  } else if (n >= 4) {
+    uint32_t head, tail;
+    std::memcpy(&head, from, 4);
+    std::memcpy(&tail, from + n - 4, 4);
+    std::memcpy(to, &head, 4);
+    std::memcpy(to + n - 4, &tail, 4);
+  } else if (n > 0) {
+    // 1 to 3 bytes: the first, the middle and the last.
+    to[0] = from[0];
+    to[n / 2] = from[n / 2];
+    to[n - 1] = from[n - 1];
+  }
+}
+
+// Whether no byte of `s` NeedsEscape (the common case: ids, formulas,
+// names, notes), tested 16 bytes at a time without reading outside `s`:
+// a short string is first copied into a zeroed block, and a longer one's
+// last block overlaps the one before it. False when SSE2 is missing.
+inline bool AllPlain(absl::string_view s) {
+#if defined(__SSE2__)
+  const size_t n = s.size();
+  if (n < 16) {
+    alignas(16) char block[16] = {};
+    CopyShort(s.data(), n, block);
+    const __m128i x = _mm_load_si128(reinterpret_cast<const __m128i*>(block));
+    return (EscapeMask(x) & ((1 << n) - 1)) == 0;
+  }
+  const size_t whole = PlainBlocks(s.data(), n);
+  if (whole + 16 <= n) return false;  // A block with an escape.
+  if (whole == n) return true;
+  const __m128i x =
+      _mm_loadu_si128(reinterpret_cast<const __m128i*>(s.data() + n - 16));
+  return EscapeMask(x) == 0;
+#else
+  return false;
+#endif
 }
 
 }  // namespace
 
 char* WriteJsonString(absl::string_view s, char* out) {
   *out++ = '"';
+  if (AllPlain(s)) {
+    if (s.size() <= 16) {
+      CopyShort(s.data(), s.size(), out);
+    } else {
+      std::memcpy(out, s.data(), s.size());
+    }
+    out += s.size();
+    *out++ = '"';
+    return out;
+  }
   size_t run = 0;  // Start of the pending run of plain bytes.
   auto flush = [&](size_t i) {
     if (i == run) return;  // Also keeps a null empty view out of memcpy.
