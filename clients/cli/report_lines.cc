@@ -28,6 +28,19 @@
 namespace shellwright::cli {
 namespace {
 
+// Writes "7/20" or "2", quoted, as Rational::ToString writes it, at `p`,
+// which has room for 2 x 20 + 3 bytes; returns the end.
+char* WriteExactText(const Rational& r, char* p) {
+  *p++ = '"';
+  p = std::to_chars(p, p + 20, r.num()).ptr;
+  if (r.den() != 1) {
+    *p++ = '/';
+    p = std::to_chars(p, p + 20, r.den()).ptr;
+  }
+  *p++ = '"';
+  return p;
+}
+
 // Writes one JSON line through a raw pointer straight into the text it
 // belongs to (a batch's, reused between batches), so that the many short
 // pieces of a report cost no bounds-checked appends and the line is never
@@ -80,6 +93,17 @@ class LineWriter {
     Reserve(24);
     p_ = std::to_chars(p_, p_ + 24, v).ptr;
   }
+  void Exact(const Rational& r) {
+    Reserve(2 * 20 + 3);
+    p_ = WriteExactText(r, p_);
+  }
+  // The first n <= N bytes of `block`, copied whole.
+  template <size_t N>
+  ABSL_ATTRIBUTE_ALWAYS_INLINE void Block(const char (&block)[N], size_t n) {
+    Reserve(N);
+    std::memcpy(p_, block, N);
+    p_ += n;
+  }
   // The line so far.
   absl::string_view text() const {
     return absl::string_view(out_->data() + start_,
@@ -121,17 +145,57 @@ class LineWriter {
   char* end_;
 };
 
-// Appends "7/20" or "2", quoted, as Rational::ToString writes it, without
-// a temporary.
-void WriteExact(const Rational& r, LineWriter* out) {
-  out->Char('"');
-  out->Int(r.num());
-  if (r.den() != 1) {
-    out->Char('/');
-    out->Int(r.den());
+// The text of a fragment's varying values (the counts of states and
+// ions: "0.16", "\"4/25\""), kept per thread under the value it stands
+// for: a few hundred counts make up most reports, and finding one's text
+// costs less than formatting it. Direct-mapped; each slot holds the
+// text of one value, in a block that is copied whole.
+class VaryingTexts {
+ public:
+  struct Slot {
+    // The value: a number's bits and kNumber, or an exact count's
+    // numerator and denominator.
+    uint64_t a = 0, b = 0;
+    char text[32];
+    uint32_t size = 0;  // 0: empty.
+  };
+
+  // The slot for `v`, its text made if another value had it. Null when
+  // the text is longer than a slot holds (then it is written directly).
+  static const Slot* Find(const VaryingValue& v) {
+    uint64_t a, b;
+    if (v.kind == VaryingValue::Kind::kNumber) {
+      std::memcpy(&a, &v.number, sizeof(a));
+      b = kNumber;
+    } else {
+      a = static_cast<uint64_t>(v.exact.num());
+      b = static_cast<uint64_t>(v.exact.den());
+    }
+    thread_local std::unique_ptr<std::array<Slot, kSlots>> slots;
+    if (slots == nullptr) slots = std::make_unique<std::array<Slot, kSlots>>();
+    const uint64_t hash =
+        (a * 0x9E3779B97F4A7C15ull) ^ (b * 0xC2B2AE3D27D4EB4Full);
+    Slot& slot = (*slots)[hash >> (64 - kSlotBits)];
+    if (slot.size != 0 && slot.a == a && slot.b == b) return &slot;
+    char text[kJsonDoubleMax + 48];
+    const char* const end = v.kind == VaryingValue::Kind::kNumber
+                                ? WriteJsonDouble(v.number, text)
+                                : WriteExactText(v.exact, text);
+    const size_t size = end - text;
+    if (size > sizeof(slot.text)) return nullptr;
+    std::memcpy(slot.text, text, size);
+    slot.size = static_cast<uint32_t>(size);
+    slot.a = a;
+    slot.b = b;
+    return &slot;
   }
-  out->Char('"');
-}
+
+ private:
+  // A denominator is positive: this one marks a number.
+  static constexpr uint64_t kNumber = ~uint64_t{0};
+  static constexpr int kSlotBits = 10;
+  static constexpr size_t kSlots = size_t{1} << kSlotBits;
+};
 
 // A fragment of JSON kept per thread under its key (see Cached): the text
 // of a message's members with gaps where the varying values go.
@@ -234,10 +298,12 @@ class JsonWriter {
     for (int i = 0; i < fragment.gap_count; ++i) {
       out_->Raw(text.substr(from, fragment.gaps[i] - from));
       const VaryingValue& v = varying.begin()[i];
-      if (v.kind == VaryingValue::Kind::kNumber) {
+      if (const VaryingTexts::Slot* kept = VaryingTexts::Find(v)) {
+        out_->Block(kept->text, kept->size);
+      } else if (v.kind == VaryingValue::Kind::kNumber) {
         out_->Double(v.number);
       } else {
-        WriteExact(v.exact, out_);
+        out_->Exact(v.exact);
       }
       from = fragment.gaps[i];
     }
