@@ -146,10 +146,13 @@ class LineWriter {
 };
 
 // The text of a fragment's varying values (the counts of states and
-// ions: "0.16", "\"4/25\""), kept per thread under the value it stands
-// for: a few hundred counts make up most reports, and finding one's text
-// costs less than formatting it. Direct-mapped; each slot holds the
-// text of one value, in a block that is copied whole.
+// ions: "0.16", "\"4/25\"" in JSON), kept per thread under the value it
+// stands for: a few hundred counts make up most reports, and finding a
+// count's text costs less than formatting it. Direct-mapped; each slot
+// holds the text of one value, in a block that is copied whole.
+// `Format::Write(v, p)` writes v's text at p (room for 88 bytes) and
+// returns its end; each Format has a table of its own.
+template <typename Format>
 class VaryingTexts {
  public:
   struct Slot {
@@ -161,7 +164,7 @@ class VaryingTexts {
   };
 
   // The slot for `v`, its text made if another value had it. Null when
-  // the text is longer than a slot holds (then it is written directly).
+  // the text is longer than a slot holds (then the caller writes it).
   static const Slot* Find(const VaryingValue& v) {
     uint64_t a, b;
     if (v.kind == VaryingValue::Kind::kNumber) {
@@ -178,10 +181,7 @@ class VaryingTexts {
     Slot& slot = (*slots)[hash >> (64 - kSlotBits)];
     if (slot.size != 0 && slot.a == a && slot.b == b) return &slot;
     char text[kJsonDoubleMax + 48];
-    const char* const end = v.kind == VaryingValue::Kind::kNumber
-                                ? WriteJsonDouble(v.number, text)
-                                : WriteExactText(v.exact, text);
-    const size_t size = end - text;
+    const size_t size = Format::Write(v, text) - text;
     if (size > sizeof(slot.text)) return nullptr;
     std::memcpy(slot.text, text, size);
     slot.size = static_cast<uint32_t>(size);
@@ -195,6 +195,15 @@ class VaryingTexts {
   static constexpr uint64_t kNumber = ~uint64_t{0};
   static constexpr int kSlotBits = 10;
   static constexpr size_t kSlots = size_t{1} << kSlotBits;
+};
+
+// A count as the JSON line writes it: a number as the protobuf printer
+// does, an exact count quoted.
+struct JsonCount {
+  static char* Write(const VaryingValue& v, char* p) {
+    return v.kind == VaryingValue::Kind::kNumber ? WriteJsonDouble(v.number, p)
+                                                 : WriteExactText(v.exact, p);
+  }
 };
 
 // A fragment of JSON kept per thread under its key (see Cached): the text
@@ -298,7 +307,7 @@ class JsonWriter {
     for (int i = 0; i < fragment.gap_count; ++i) {
       out_->Raw(text.substr(from, fragment.gaps[i] - from));
       const VaryingValue& v = varying.begin()[i];
-      if (const VaryingTexts::Slot* kept = VaryingTexts::Find(v)) {
+      if (const auto* kept = VaryingTexts<JsonCount>::Find(v)) {
         out_->Block(kept->text, kept->size);
       } else if (v.kind == VaryingValue::Kind::kNumber) {
         out_->Double(v.number);
@@ -336,6 +345,24 @@ class JsonWriter {
   bool first_ = true;
   size_t* gaps_ = nullptr;  // Where a recorder notes its gaps.
   int gap_count_ = 0;
+};
+
+// A count as a CSV cell writes it: a number as absl::StrAppend does
+// (%.6g), an exact count as Rational::ToString does ("4/25"), unquoted.
+struct CsvCount {
+  static char* Write(const VaryingValue& v, char* p) {
+    if (v.kind == VaryingValue::Kind::kNumber) {
+      const absl::AlphaNum text(v.number);
+      std::memcpy(p, text.data(), text.size());
+      return p + text.size();
+    }
+    p = std::to_chars(p, p + 20, v.exact.num()).ptr;
+    if (v.exact.den() != 1) {
+      *p++ = '/';
+      p = std::to_chars(p, p + 20, v.exact.den()).ptr;
+    }
+    return p;
+  }
 };
 
 // Whether `field` holds a comma, a quote or a line break: 16 bytes at a
@@ -736,14 +763,12 @@ class CsvGatherer : public TopLevelVisitor {
       out_->append(kept.before);
       // The count as the walk gives it: a state's exact one (as
       // Rational::ToString writes it), an ion's number.
-      if (kind_ == kState) {
-        const Rational& exact = varying.begin()[1].exact;
-        AppendPieces(out_, {absl::AlphaNum(exact.num()).Piece()});
-        if (exact.den() != 1) {
-          AppendPieces(out_, {"/", absl::AlphaNum(exact.den()).Piece()});
-        }
+      const VaryingValue& count = varying.begin()[kind_ == kState ? 1 : 0];
+      if (const auto* text = VaryingTexts<CsvCount>::Find(count)) {
+        out_->append(text->text, text->size);
       } else {
-        AppendPieces(out_, {absl::AlphaNum(varying.begin()[0].number).Piece()});
+        char buffer[kJsonDoubleMax + 48];
+        out_->append(buffer, CsvCount::Write(count, buffer) - buffer);
       }
       out_->append(kept.after);
       done_ = true;
