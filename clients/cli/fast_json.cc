@@ -88,25 +88,51 @@ inline void CopyShort(const char* from, size_t n, char* to) {
   }
 }
 
-// Whether no byte of `s` NeedsEscape (the common case: ids, formulas,
-// names, notes), tested 16 bytes at a time without reading outside `s`:
-// a short string is first copied into a zeroed block, and a longer one's
-// last block overlaps the one before it. False when SSE2 is missing.
+#if defined(__SSE2__)
+// Whether the bytes that `mask` marks in the 16 bytes of `s` from `at`
+// are all lead bytes 0xE2 of characters other than U+2028 and U+2029,
+// the only multi-byte characters that are escaped ("–" is E2 80 93).
+bool OnlyPlainE2(absl::string_view s, size_t at, int mask) {
+  for (; mask != 0; mask &= mask - 1) {
+    const size_t i = at + __builtin_ctz(mask);
+    if (static_cast<unsigned char>(s[i]) != 0xE2) return false;
+    if (i + 2 < s.size() && static_cast<unsigned char>(s[i + 1]) == 0x80 &&
+        (static_cast<unsigned char>(s[i + 2]) == 0xA8 ||
+         static_cast<unsigned char>(s[i + 2]) == 0xA9)) {
+      return false;
+    }
+  }
+  return true;
+}
+#endif
+
+// Whether `s` is written as it is, quoted (the common case: ids,
+// formulas, names, notes), tested 16 bytes at a time without reading
+// outside `s`: a short string is first copied into a zeroed block, and a
+// longer one's last block overlaps the one before it. False when SSE2 is
+// missing.
 inline bool AllPlain(absl::string_view s) {
 #if defined(__SSE2__)
   const size_t n = s.size();
   if (n < 16) {
     alignas(16) char block[16] = {};
     CopyShort(s.data(), n, block);
-    const __m128i x = _mm_load_si128(reinterpret_cast<const __m128i*>(block));
-    return (EscapeMask(x) & ((1 << n) - 1)) == 0;
+    const int mask =
+        EscapeMask(_mm_load_si128(reinterpret_cast<const __m128i*>(block))) &
+        ((1 << n) - 1);
+    return mask == 0 || OnlyPlainE2(s, 0, mask);
   }
-  const size_t whole = PlainBlocks(s.data(), n);
-  if (whole + 16 <= n) return false;  // A block with an escape.
-  if (whole == n) return true;
-  const __m128i x =
-      _mm_loadu_si128(reinterpret_cast<const __m128i*>(s.data() + n - 16));
-  return EscapeMask(x) == 0;
+  size_t i = 0;
+  for (; i + 16 <= n; i += 16) {
+    const int mask = EscapeMask(
+        _mm_loadu_si128(reinterpret_cast<const __m128i*>(s.data() + i)));
+    if (mask != 0 && !OnlyPlainE2(s, i, mask)) return false;
+  }
+  if (i == n) return true;
+  // The last block overlaps bytes already tested: they pass again.
+  const int mask = EscapeMask(
+      _mm_loadu_si128(reinterpret_cast<const __m128i*>(s.data() + n - 16)));
+  return mask == 0 || OnlyPlainE2(s, n - 16, mask);
 #else
   return false;
 #endif
