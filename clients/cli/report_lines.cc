@@ -414,25 +414,29 @@ void CsvField(absl::string_view field, ReportText* out) {
 }
 
 // Appends the pieces one by one: absl::StrAppend makes its room with
-// std::string::resize, which writes it full of zeros first.
-void AppendPieces(std::string* out,
-                  std::initializer_list<absl::string_view> pieces) {
+// std::string::resize, which writes it full of zeros first. (Text is a
+// std::string or a ReportText, here and below.)
+template <typename Text>
+void AppendPieces(Text* out, std::initializer_list<absl::string_view> pieces) {
   for (absl::string_view piece : pieces)
     out->append(piece.data(), piece.size());
 }
 
 // Appends `separator` to a joined list, except before its first item.
-void Separate(absl::string_view separator, bool* first, std::string* list) {
+template <typename Text>
+void Separate(absl::string_view separator, bool* first, Text* list) {
   if (!*first) list->append(separator.data(), separator.size());
   *first = false;
 }
 
 // Appends a signed oxidation state, the one spelling of human output, CSV
 // and messages: "Fe+2", "O-2", "Xe0".
-void AppendState(absl::string_view element, int32_t state, std::string* out) {
+template <typename Text>
+void AppendState(absl::string_view element, int32_t state, Text* out) {
   out->append(element.data(), element.size());
   if (state > 0) out->push_back('+');
-  absl::StrAppend(out, state);
+  const absl::AlphaNum number(state);
+  out->append(number.data(), number.size());
 }
 
 // What a CSV cell holds.
@@ -630,7 +634,7 @@ class CsvGatherer : public TopLevelVisitor {
         CsvField(kind, out);
         break;
       case Cell::kStates:
-        CsvField(states, out);
+        CsvField(states.view(), out);
         break;
       case Cell::kModel:
         CsvField(model, out);
@@ -642,13 +646,13 @@ class CsvGatherer : public TopLevelVisitor {
         CsvField(family, out);
         break;
       case Cell::kIons:
-        CsvField(ions, out);
+        CsvField(ions.view(), out);
         break;
       case Cell::kCodes:
-        CsvField(codes, out);
+        CsvField(codes.view(), out);
         break;
       case Cell::kMessages:
-        CsvField(messages, out);
+        CsvField(messages.view(), out);
         break;
     }
   }
@@ -723,7 +727,7 @@ class CsvGatherer : public TopLevelVisitor {
   class ItemCell {
    public:
     enum Kind { kState, kIon };
-    ItemCell(Kind kind, std::string* out) : kind_(kind), out_(out) {}
+    ItemCell(Kind kind, ReportText* out) : kind_(kind), out_(out) {}
 
     template <typename F>
     void String(const F& f, absl::string_view v) {
@@ -783,7 +787,7 @@ class CsvGatherer : public TopLevelVisitor {
       if (kind_ == kState) {
         out_->append(fields_.exact.data(), fields_.exact.size());
       } else {
-        absl::StrAppend(out_, fields_.count);
+        out_->append(absl::AlphaNum(fields_.count).Piece());
       }
       out_->append(after);
     }
@@ -809,15 +813,16 @@ class CsvGatherer : public TopLevelVisitor {
     }
 
     const Kind kind_;
-    std::string* const out_;
+    ReportText* const out_;
     Member fields_;  // The fields, when they come one by one.
     bool done_ = false;
   };
 
   // The joined cells, in storage kept per thread: their room is made
-  // once, not for every line.
+  // once, not for every line. ReportText: their many short pieces are
+  // appended without a call each.
   struct JoinedCells {
-    std::string states, ions, codes, messages;
+    ReportText states, ions, codes, messages;
   };
   static JoinedCells& Cells() {
     thread_local JoinedCells cells;
@@ -847,10 +852,10 @@ class CsvGatherer : public TopLevelVisitor {
   int32_t row = 0;
   // Views into the report being walked, which outlives the gatherer.
   absl::string_view id, formula, kind, model, saturation_model, family;
-  std::string& states = cells_.states;
-  std::string& ions = cells_.ions;
-  std::string& codes = cells_.codes;
-  std::string& messages = cells_.messages;
+  ReportText& states = cells_.states;
+  ReportText& ions = cells_.ions;
+  ReportText& codes = cells_.codes;
+  ReportText& messages = cells_.messages;
   bool valid = false;
   double numbers[kCsvColumnCount] = {};  // By column.
   bool estimated = false;
