@@ -269,25 +269,35 @@ struct DigitPairs {
 };
 constexpr DigitPairs kDigitPairs;
 
+// Writes the 8 decimal digits of v < 10^8, leading zeros included, at
+// `out`: two independent halves of four, each two pairs.
+inline void WriteEightDigits(uint32_t v, char* out) {
+  const char* const pairs = kDigitPairs.pairs;
+  const uint32_t high = v / 10000;
+  const uint32_t low = v % 10000;
+  std::memcpy(out, &pairs[2 * (high / 100)], 2);
+  std::memcpy(out + 2, &pairs[2 * (high % 100)], 2);
+  std::memcpy(out + 4, &pairs[2 * (low / 100)], 2);
+  std::memcpy(out + 6, &pairs[2 * (low % 100)], 2);
+}
+
 // Writes the `count` decimal digits of q < 10^count, leading zeros
 // included, at `out`: eight at a time from 64 bits, then pairs from 32.
 inline void WriteDigits(uint64_t q, int count, char* out) {
   char* p = out + count;
-  auto put_pairs = [&p](uint32_t value, int pairs) {
-    for (int i = 0; i < pairs; ++i) {
-      p -= 2;
-      std::memcpy(p, &kDigitPairs.pairs[2 * (value % 100)], 2);
-      value /= 100;
-    }
-    return value;
-  };
-  while (count > 8) {
-    put_pairs(static_cast<uint32_t>(q % 100000000), 4);
+  while (count >= 8) {
+    p -= 8;
+    WriteEightDigits(static_cast<uint32_t>(q % 100000000), p);
     q /= 100000000;
     count -= 8;
   }
-  const uint32_t rest = put_pairs(static_cast<uint32_t>(q), count / 2);
-  if (count % 2 == 1) *--p = static_cast<char>('0' + rest);
+  uint32_t rest = static_cast<uint32_t>(q);
+  for (; count >= 2; count -= 2) {
+    p -= 2;
+    std::memcpy(p, &kDigitPairs.pairs[2 * (rest % 100)], 2);
+    rest /= 100;
+  }
+  if (count == 1) *--p = static_cast<char>('0' + rest);
 }
 
 // The protobuf printer's text (%.15g if it round-trips, else %.17g) for
@@ -304,8 +314,11 @@ int FormatDoubleInRange(double v, char* buf) {
   const int biased = static_cast<int>(bits >> 52);  // Normal: a >= 1e-4.
   const uint64_t m = (bits & ((uint64_t{1} << 52) - 1)) | (uint64_t{1} << 52);
   const int s = 1075 - biased;  // a = m x 2^-s; 3 <= s <= 66 here.
-  // Decimal exponent: 10^d <= a < 10^(d+1), settled exactly below.
-  int d = -4;
+  // Decimal exponent: 10^d <= a < 10^(d+1), settled exactly below,
+  // from just under floor(log10(2^e)) for a's binary exponent e
+  // (78913 / 2^18 is just under log10(2)), so at most two steps up.
+  const int binary_exponent = biased - 1023;
+  int d = std::max(-4, ((binary_exponent * 78913) >> 18) - 1);
   const double shifted = a * 1e4;  // Compared with 10^(d + 5).
   while (d < 14 && shifted >= kPow10Double[d + 5]) ++d;
   // `precision` digits of a; adjusts the exponent when the guess or the
