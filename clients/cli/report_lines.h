@@ -93,7 +93,7 @@ class ReportText {
   }
   // Room for `n` more bytes: returns where they go, to be written and
   // then kept with Commit(end).
-  char* Room(size_t n) {
+  ABSL_ATTRIBUTE_ALWAYS_INLINE char* Room(size_t n) {
     if (capacity_ - size_ < n) Regrow(std::max(2 * capacity_, size_ + n));
     return data_.get() + size_;
   }
@@ -103,7 +103,7 @@ class ReportText {
   // The end of the room: Room()'s pointer may write up to here.
   char* room_end() { return data_.get() + capacity_; }
 
-  void append(const char* text, size_t n) {
+  ABSL_ATTRIBUTE_ALWAYS_INLINE void append(const char* text, size_t n) {
     if (n > 32) {
       AppendLong(text, n);
       return;
@@ -127,15 +127,17 @@ class ReportText {
     }
     size_ += n;
   }
-  void append(absl::string_view text) { append(text.data(), text.size()); }
-  void push_back(char c) {
+  ABSL_ATTRIBUTE_ALWAYS_INLINE void append(absl::string_view text) {
+    append(text.data(), text.size());
+  }
+  ABSL_ATTRIBUTE_ALWAYS_INLINE void push_back(char c) {
     *Room(1) = c;
     ++size_;
   }
 
  private:
   // Moves the text to a new block of `capacity` bytes.
-  void Regrow(size_t capacity) {
+  ABSL_ATTRIBUTE_NOINLINE void Regrow(size_t capacity) {
     std::unique_ptr<char[]> grown(new char[capacity]);
     if (size_ > 0) std::memcpy(grown.get(), data_.get(), size_);
     data_ = std::move(grown);
