@@ -64,30 +64,6 @@ size_t PlainBlocks(const char* p, size_t n) {
   return i;
 }
 
-// Copies n <= 16 bytes with at most two fixed-size moves each way
-// (overlapping where n is not a power of two), writing no byte past
-// to + n.
-inline void CopyShort(const char* from, size_t n, char* to) {
-  if (n >= 8) {
-    uint64_t head, tail;
-    std::memcpy(&head, from, 8);
-    std::memcpy(&tail, from + n - 8, 8);
-    std::memcpy(to, &head, 8);
-    std::memcpy(to + n - 8, &tail, 8);
-  } else if (n >= 4) {
-    uint32_t head, tail;
-    std::memcpy(&head, from, 4);
-    std::memcpy(&tail, from + n - 4, 4);
-    std::memcpy(to, &head, 4);
-    std::memcpy(to + n - 4, &tail, 4);
-  } else if (n > 0) {
-    // 1 to 3 bytes: the first, the middle and the last.
-    to[0] = from[0];
-    to[n / 2] = from[n / 2];
-    to[n - 1] = from[n - 1];
-  }
-}
-
 #if defined(__SSE2__)
 // Whether the bytes that `mask` marks in the 16 bytes of `s` from `at`
 // are all lead bytes 0xE2 of characters other than U+2028 and U+2029,
@@ -116,7 +92,7 @@ inline bool AllPlain(absl::string_view s) {
   const size_t n = s.size();
   if (n < 16) {
     alignas(16) char block[16] = {};
-    CopyShort(s.data(), n, block);
+    CopyShortText(s.data(), n, block);
     const int mask =
         EscapeMask(_mm_load_si128(reinterpret_cast<const __m128i*>(block))) &
         ((1 << n) - 1);
@@ -144,7 +120,7 @@ char* WriteJsonString(absl::string_view s, char* out) {
   *out++ = '"';
   if (AllPlain(s)) {
     if (s.size() <= 16) {
-      CopyShort(s.data(), s.size(), out);
+      CopyShortText(s.data(), s.size(), out);
     } else {
       std::memcpy(out, s.data(), s.size());
     }

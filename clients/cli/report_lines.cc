@@ -367,30 +367,42 @@ struct CsvCount {
 
 // Whether `field` holds a comma, a quote or a line break: 16 bytes at a
 // time with SSE2 (part of every x86-64; cells of ions and messages are a
-// few hundred bytes), the rest byte by byte.
+// few hundred bytes), without reading outside the field: a short one is
+// first copied into a zeroed block (a zero byte is none of the four),
+// and a longer one's last block overlaps the one before it. Elsewhere
+// byte by byte.
 bool NeedsCsvQuotes(absl::string_view field) {
-  size_t i = 0;
 #if defined(__SSE2__)
-  const __m128i comma = _mm_set1_epi8(',');
-  const __m128i quote = _mm_set1_epi8('"');
-  const __m128i newline = _mm_set1_epi8('\n');
-  const __m128i carriage_return = _mm_set1_epi8('\r');
-  for (; i + 16 <= field.size(); i += 16) {
-    const __m128i x =
-        _mm_loadu_si128(reinterpret_cast<const __m128i*>(field.data() + i));
-    const __m128i hit = _mm_or_si128(
-        _mm_or_si128(_mm_cmpeq_epi8(x, comma), _mm_cmpeq_epi8(x, quote)),
-        _mm_or_si128(_mm_cmpeq_epi8(x, newline),
-                     _mm_cmpeq_epi8(x, carriage_return)));
-    if (_mm_movemask_epi8(hit) != 0) return true;
+  const auto special = [](__m128i x) {
+    const __m128i hit =
+        _mm_or_si128(_mm_or_si128(_mm_cmpeq_epi8(x, _mm_set1_epi8(',')),
+                                  _mm_cmpeq_epi8(x, _mm_set1_epi8('"'))),
+                     _mm_or_si128(_mm_cmpeq_epi8(x, _mm_set1_epi8('\n')),
+                                  _mm_cmpeq_epi8(x, _mm_set1_epi8('\r'))));
+    return _mm_movemask_epi8(hit) != 0;
+  };
+  const size_t n = field.size();
+  if (n < 16) {
+    alignas(16) char block[16] = {};
+    CopyShortText(field.data(), n, block);
+    return special(_mm_load_si128(reinterpret_cast<const __m128i*>(block)));
   }
-#endif
+  size_t i = 0;
+  for (; i + 16 <= n; i += 16) {
+    if (special(_mm_loadu_si128(
+            reinterpret_cast<const __m128i*>(field.data() + i)))) {
+      return true;
+    }
+  }
+  return i < n && special(_mm_loadu_si128(
+                      reinterpret_cast<const __m128i*>(field.data() + n - 16)));
+#else
   // A plain scan: find_first_of builds a 256-entry table on every call.
-  for (; i < field.size(); ++i) {
-    const char c = field[i];
+  for (const char c : field) {
     if (c == ',' || c == '"' || c == '\n' || c == '\r') return true;
   }
   return false;
+#endif
 }
 
 // Appends `field`, quoted when it holds a comma, a quote or a line break.
