@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <array>
 #include <cmath>
+#include <cstdint>
 #include <memory>
 #include <mutex>
 #include <utility>
@@ -371,10 +372,9 @@ class LigandFieldCache {
     return slot.entries[i].get();
   }
 
-  // Shared ownership for callers that keep the description.
-  AtomDescriptionPtr Get(const Element& e, int charge, Geometry g,
-                         SpinStatePreference s) {
-    if (Find(e, charge, g, s) == nullptr) return nullptr;
+  // The cache's handle of an entry that Find has found.
+  const AtomDescriptionPtr& Handle(const Element& e, int charge, Geometry g,
+                                   SpinStatePreference s) {
     return Element(e.atomic_number).entries[Index(charge, g, s)];
   }
 
@@ -407,6 +407,38 @@ class LigandFieldCache {
 LigandFieldCache& FieldCache() {
   static LigandFieldCache* const kCache = new LigandFieldCache;
   return *kCache;
+}
+
+// The calling thread's own handle on a cached description. Every copy of
+// a shared_ptr counts in its control block: had every thread copied the
+// cache's handle, the two workers of `check` would pass that block's
+// cache line back and forth on every ion they describe and every report
+// they free (some 7% of a two-worker run's samples sat on the one
+// `lock add`, docs/performance.md). Each thread instead keeps, per
+// description, a handle with a control block of its own, which holds the
+// cache's handle until the slot is taken by another description.
+const AtomDescriptionPtr& ThreadHandle(const AtomDescriptionPtr& shared) {
+  if (shared == nullptr) return shared;
+  struct Slot {
+    const AtomDescription* raw = nullptr;
+    AtomDescriptionPtr own;
+  };
+  // A few hundred descriptions make up most records; made on first use
+  // (as thread_local storage it would be zeroed at every thread start).
+  static constexpr int kSlotBits = 10;
+  static constexpr size_t kSlots = size_t{1} << kSlotBits;
+  thread_local std::unique_ptr<std::array<Slot, kSlots>> slots;
+  if (slots == nullptr) slots = std::make_unique<std::array<Slot, kSlots>>();
+  const AtomDescription* const raw = shared.get();
+  const uint64_t hash =
+      (reinterpret_cast<uintptr_t>(raw) >> 4) * 0x9E3779B97F4A7C15ull;
+  Slot& slot = (*slots)[hash >> (64 - kSlotBits)];
+  if (slot.raw != raw) {
+    slot.own =
+        AtomDescriptionPtr(raw, [keep = shared](const AtomDescription*) {});
+    slot.raw = raw;
+  }
+  return slot.own;
 }
 
 }  // namespace
@@ -515,11 +547,12 @@ absl::StatusOr<AtomDescriptionPtr> DescribeAtom(const AtomQuery& query) {
                  /*user_supplied=*/true, query.geometry, query.spin_state);
   }
   if (query.geometry == Geometry::kFree) {
-    return Cache().Get(e, query.charge);
+    return ThreadHandle(Cache().Get(e, query.charge));
   }
-  if (AtomDescriptionPtr cached =
-          FieldCache().Get(e, query.charge, query.geometry, query.spin_state)) {
-    return cached;
+  if (LigandFieldCache& fields = FieldCache();
+      fields.Find(e, query.charge, query.geometry, query.spin_state)) {
+    return ThreadHandle(
+        fields.Handle(e, query.charge, query.geometry, query.spin_state));
   }
   absl::StatusOr<Configuration> c = IonConfiguration(z, query.charge);
   if (!c.ok()) return c.status();

@@ -32,6 +32,23 @@ constexpr EscapeTable kEscape;
 
 inline bool NeedsEscape(unsigned char c) { return kEscape.needs[c]; }
 
+#if defined(__SSE2__)
+// The bytes of x that NeedsEscape, as a bit mask (bit i for byte i).
+inline int EscapeMask(__m128i x) {
+  const __m128i last_control = _mm_set1_epi8(0x1f);
+  // A control character: x <= 0x1f unsigned, i.e. max(x, 0x1f) == 0x1f.
+  __m128i hit = _mm_cmpeq_epi8(_mm_max_epu8(x, last_control), last_control);
+  hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, _mm_set1_epi8('"')));
+  hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, _mm_set1_epi8('\\')));
+  hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, _mm_set1_epi8(0x7f)));
+  hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, _mm_set1_epi8('<')));
+  hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, _mm_set1_epi8('>')));
+  hit = _mm_or_si128(hit,
+                     _mm_cmpeq_epi8(x, _mm_set1_epi8(static_cast<char>(0xE2))));
+  return _mm_movemask_epi8(hit);
+}
+#endif
+
 // The length of the longest prefix of [p, p + n) made of whole 16-byte
 // blocks with no byte that NeedsEscape: most text has none, and SSE2
 // (part of every x86-64) tests 16 bytes in a few instructions. Elsewhere
@@ -39,33 +56,78 @@ inline bool NeedsEscape(unsigned char c) { return kEscape.needs[c]; }
 size_t PlainBlocks(const char* p, size_t n) {
   size_t i = 0;
 #if defined(__SSE2__)
-  const __m128i last_control = _mm_set1_epi8(0x1f);
-  const __m128i quote = _mm_set1_epi8('"');
-  const __m128i backslash = _mm_set1_epi8('\\');
-  const __m128i del = _mm_set1_epi8(0x7f);
-  const __m128i less = _mm_set1_epi8('<');
-  const __m128i greater = _mm_set1_epi8('>');
-  const __m128i e2 = _mm_set1_epi8(static_cast<char>(0xE2));
   for (; i + 16 <= n; i += 16) {
     const __m128i x = _mm_loadu_si128(reinterpret_cast<const __m128i*>(p + i));
-    // A control character: x <= 0x1f unsigned, i.e. max(x, 0x1f) == 0x1f.
-    __m128i hit = _mm_cmpeq_epi8(_mm_max_epu8(x, last_control), last_control);
-    hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, quote));
-    hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, backslash));
-    hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, del));
-    hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, less));
-    hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, greater));
-    hit = _mm_or_si128(hit, _mm_cmpeq_epi8(x, e2));
-    if (_mm_movemask_epi8(hit) != 0) break;
+    if (EscapeMask(x) != 0) break;
   }
 #endif
   return i;
+}
+
+#if defined(__SSE2__)
+// Whether the bytes that `mask` marks in the 16 bytes of `s` from `at`
+// are all lead bytes 0xE2 of characters other than U+2028 and U+2029,
+// the only multi-byte characters that are escaped ("–" is E2 80 93).
+bool OnlyPlainE2(absl::string_view s, size_t at, int mask) {
+  for (; mask != 0; mask &= mask - 1) {
+    const size_t i = at + __builtin_ctz(mask);
+    if (static_cast<unsigned char>(s[i]) != 0xE2) return false;
+    if (i + 2 < s.size() && static_cast<unsigned char>(s[i + 1]) == 0x80 &&
+        (static_cast<unsigned char>(s[i + 2]) == 0xA8 ||
+         static_cast<unsigned char>(s[i + 2]) == 0xA9)) {
+      return false;
+    }
+  }
+  return true;
+}
+#endif
+
+// Whether `s` is written as it is, quoted (the common case: ids,
+// formulas, names, notes), tested 16 bytes at a time without reading
+// outside `s`: a short string is first copied into a zeroed block, and a
+// longer one's last block overlaps the one before it. False when SSE2 is
+// missing.
+inline bool AllPlain(absl::string_view s) {
+#if defined(__SSE2__)
+  const size_t n = s.size();
+  if (n < 16) {
+    alignas(16) char block[16] = {};
+    CopyShortText(s.data(), n, block);
+    const int mask =
+        EscapeMask(_mm_load_si128(reinterpret_cast<const __m128i*>(block))) &
+        ((1 << n) - 1);
+    return mask == 0 || OnlyPlainE2(s, 0, mask);
+  }
+  size_t i = 0;
+  for (; i + 16 <= n; i += 16) {
+    const int mask = EscapeMask(
+        _mm_loadu_si128(reinterpret_cast<const __m128i*>(s.data() + i)));
+    if (mask != 0 && !OnlyPlainE2(s, i, mask)) return false;
+  }
+  if (i == n) return true;
+  // The last block overlaps bytes already tested: they pass again.
+  const int mask = EscapeMask(
+      _mm_loadu_si128(reinterpret_cast<const __m128i*>(s.data() + n - 16)));
+  return mask == 0 || OnlyPlainE2(s, n - 16, mask);
+#else
+  return false;
+#endif
 }
 
 }  // namespace
 
 char* WriteJsonString(absl::string_view s, char* out) {
   *out++ = '"';
+  if (AllPlain(s)) {
+    if (s.size() <= 16) {
+      CopyShortText(s.data(), s.size(), out);
+    } else {
+      std::memcpy(out, s.data(), s.size());
+    }
+    out += s.size();
+    *out++ = '"';
+    return out;
+  }
   size_t run = 0;  // Start of the pending run of plain bytes.
   auto flush = [&](size_t i) {
     if (i == run) return;  // Also keeps a null empty view out of memcpy.
@@ -183,25 +245,35 @@ struct DigitPairs {
 };
 constexpr DigitPairs kDigitPairs;
 
+// Writes the 8 decimal digits of v < 10^8, leading zeros included, at
+// `out`: two independent halves of four, each two pairs.
+inline void WriteEightDigits(uint32_t v, char* out) {
+  const char* const pairs = kDigitPairs.pairs;
+  const uint32_t high = v / 10000;
+  const uint32_t low = v % 10000;
+  std::memcpy(out, &pairs[2 * (high / 100)], 2);
+  std::memcpy(out + 2, &pairs[2 * (high % 100)], 2);
+  std::memcpy(out + 4, &pairs[2 * (low / 100)], 2);
+  std::memcpy(out + 6, &pairs[2 * (low % 100)], 2);
+}
+
 // Writes the `count` decimal digits of q < 10^count, leading zeros
 // included, at `out`: eight at a time from 64 bits, then pairs from 32.
 inline void WriteDigits(uint64_t q, int count, char* out) {
   char* p = out + count;
-  auto put_pairs = [&p](uint32_t value, int pairs) {
-    for (int i = 0; i < pairs; ++i) {
-      p -= 2;
-      std::memcpy(p, &kDigitPairs.pairs[2 * (value % 100)], 2);
-      value /= 100;
-    }
-    return value;
-  };
-  while (count > 8) {
-    put_pairs(static_cast<uint32_t>(q % 100000000), 4);
+  while (count >= 8) {
+    p -= 8;
+    WriteEightDigits(static_cast<uint32_t>(q % 100000000), p);
     q /= 100000000;
     count -= 8;
   }
-  const uint32_t rest = put_pairs(static_cast<uint32_t>(q), count / 2);
-  if (count % 2 == 1) *--p = static_cast<char>('0' + rest);
+  uint32_t rest = static_cast<uint32_t>(q);
+  for (; count >= 2; count -= 2) {
+    p -= 2;
+    std::memcpy(p, &kDigitPairs.pairs[2 * (rest % 100)], 2);
+    rest /= 100;
+  }
+  if (count == 1) *--p = static_cast<char>('0' + rest);
 }
 
 // The protobuf printer's text (%.15g if it round-trips, else %.17g) for
@@ -218,8 +290,11 @@ int FormatDoubleInRange(double v, char* buf) {
   const int biased = static_cast<int>(bits >> 52);  // Normal: a >= 1e-4.
   const uint64_t m = (bits & ((uint64_t{1} << 52) - 1)) | (uint64_t{1} << 52);
   const int s = 1075 - biased;  // a = m x 2^-s; 3 <= s <= 66 here.
-  // Decimal exponent: 10^d <= a < 10^(d+1), settled exactly below.
-  int d = -4;
+  // Decimal exponent: 10^d <= a < 10^(d+1), settled exactly below,
+  // from just under floor(log10(2^e)) for a's binary exponent e
+  // (78913 / 2^18 is just under log10(2)), so at most two steps up.
+  const int binary_exponent = biased - 1023;
+  int d = std::max(-4, ((binary_exponent * 78913) >> 18) - 1);
   const double shifted = a * 1e4;  // Compared with 10^(d + 5).
   while (d < 14 && shifted >= kPow10Double[d + 5]) ++d;
   // `precision` digits of a; adjusts the exponent when the guess or the

@@ -20,6 +20,8 @@
 #define SHELLWRIGHT_CLIENTS_CLI_FAST_JSON_H_
 
 #include <cstddef>
+#include <cstdint>
+#include <cstring>
 #include <string>
 
 #include "absl/strings/string_view.h"
@@ -33,6 +35,30 @@ constexpr size_t JsonStringBound(size_t size) { return 6 * size + 2; }
 inline constexpr size_t kJsonDoubleMax = 40;
 char* WriteJsonString(absl::string_view s, char* out);
 char* WriteJsonDouble(double v, char* out);
+
+// Copies n <= 16 bytes from `from` to `to` with at most two fixed-size
+// moves each way (overlapping where n is not a power of two) instead of a
+// call, reading and writing no byte past from + n and to + n.
+inline void CopyShortText(const char* from, size_t n, char* to) {
+  if (n >= 8) {
+    uint64_t head, tail;
+    std::memcpy(&head, from, 8);
+    std::memcpy(&tail, from + n - 8, 8);
+    std::memcpy(to, &head, 8);
+    std::memcpy(to + n - 8, &tail, 8);
+  } else if (n >= 4) {
+    uint32_t head, tail;
+    std::memcpy(&head, from, 4);
+    std::memcpy(&tail, from + n - 4, 4);
+    std::memcpy(to, &head, 4);
+    std::memcpy(to + n - 4, &tail, 4);
+  } else if (n > 0) {
+    // 1 to 3 bytes: the first, the middle and the last.
+    to[0] = from[0];
+    to[n / 2] = from[n / 2];
+    to[n - 1] = from[n - 1];
+  }
+}
 
 }  // namespace shellwright::cli
 

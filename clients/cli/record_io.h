@@ -167,12 +167,17 @@ class CsvRecordReader {
     kColumns
   };
   // The field of column k in the last split line, or "" when absent.
-  const std::string& Field(Column k) const;
+  const std::string& Field(Column k) const {
+    const int i = column_[k];
+    return i >= 0 && static_cast<size_t>(i) < fields_.size() ? fields_[i]
+                                                             : empty_;
+  }
 
   size_t header_size_ = 0;
   int column_[kColumns];
   std::vector<std::string> unknown_columns_;
   std::vector<std::string> fields_;  // Reused for every line.
+  std::string empty_;  // Field() of an absent column; stays empty.
 };
 
 ParsedLine ParseJsonLine(absl::string_view line, int row);

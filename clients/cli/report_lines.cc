@@ -13,6 +13,7 @@
 #include <type_traits>
 #include <vector>
 
+#include "absl/base/attributes.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_join.h"
 #include "absl/strings/string_view.h"
@@ -26,6 +27,19 @@
 
 namespace shellwright::cli {
 namespace {
+
+// Writes "7/20" or "2", quoted, as Rational::ToString writes it, at `p`,
+// which has room for 2 x 20 + 3 bytes; returns the end.
+char* WriteExactText(const Rational& r, char* p) {
+  *p++ = '"';
+  p = std::to_chars(p, p + 20, r.num()).ptr;
+  if (r.den() != 1) {
+    *p++ = '/';
+    p = std::to_chars(p, p + 20, r.den()).ptr;
+  }
+  *p++ = '"';
+  return p;
+}
 
 // Writes one JSON line through a raw pointer straight into the text it
 // belongs to (a batch's, reused between batches), so that the many short
@@ -42,24 +56,28 @@ class LineWriter {
   LineWriter(const LineWriter&) = delete;
   LineWriter& operator=(const LineWriter&) = delete;
 
+  // The small writes are inlined where they are made (the keys and
+  // literals are constants there, so their copies become fixed-size
+  // moves): called, they cost some 45 instructions a key.
   template <size_t N>
-  void Lit(const char (&text)[N]) {
+  ABSL_ATTRIBUTE_ALWAYS_INLINE void Lit(const char (&text)[N]) {
     Reserve(N - 1);
     std::memcpy(p_, text, N - 1);
     p_ += N - 1;
   }
-  void Raw(absl::string_view text) {
+  ABSL_ATTRIBUTE_ALWAYS_INLINE void Raw(absl::string_view text) {
     Reserve(text.size());
     Copy(text);
   }
   // A member's key ("\"name\":"), after a comma unless it is the first.
-  void Key(absl::string_view json_key, bool first) {
+  ABSL_ATTRIBUTE_ALWAYS_INLINE void Key(absl::string_view json_key,
+                                        bool first) {
     Reserve(json_key.size() + 1);
     *p_ = ',';
     p_ += first ? 0 : 1;
     Copy(json_key);
   }
-  void Char(char c) {
+  ABSL_ATTRIBUTE_ALWAYS_INLINE void Char(char c) {
     Reserve(1);
     *p_++ = c;
   }
@@ -75,6 +93,17 @@ class LineWriter {
     Reserve(24);
     p_ = std::to_chars(p_, p_ + 24, v).ptr;
   }
+  void Exact(const Rational& r) {
+    Reserve(2 * 20 + 3);
+    p_ = WriteExactText(r, p_);
+  }
+  // The first n <= N bytes of `block`, copied whole.
+  template <size_t N>
+  ABSL_ATTRIBUTE_ALWAYS_INLINE void Block(const char (&block)[N], size_t n) {
+    Reserve(N);
+    std::memcpy(p_, block, N);
+    p_ += n;
+  }
   // The line so far.
   absl::string_view text() const {
     return absl::string_view(out_->data() + start_,
@@ -82,11 +111,11 @@ class LineWriter {
   }
 
  private:
-  void Reserve(size_t n) {
+  ABSL_ATTRIBUTE_ALWAYS_INLINE void Reserve(size_t n) {
     if (static_cast<size_t>(end_ - p_) < n) Grow(n);
   }
   // REQUIRES: room for `text`.
-  void Copy(absl::string_view text) {
+  ABSL_ATTRIBUTE_ALWAYS_INLINE void Copy(absl::string_view text) {
     const size_t n = text.size();
     // Keys and short values are most of a line: copy 8 to 64 bytes with
     // two overlapping fixed-size moves instead of a call.
@@ -116,17 +145,66 @@ class LineWriter {
   char* end_;
 };
 
-// Appends "7/20" or "2", quoted, as Rational::ToString writes it, without
-// a temporary.
-void WriteExact(const Rational& r, LineWriter* out) {
-  out->Char('"');
-  out->Int(r.num());
-  if (r.den() != 1) {
-    out->Char('/');
-    out->Int(r.den());
+// The text of a fragment's varying values (the counts of states and
+// ions: "0.16", "\"4/25\"" in JSON), kept per thread under the value it
+// stands for: a few hundred counts make up most reports, and finding a
+// count's text costs less than formatting it. Direct-mapped; each slot
+// holds the text of one value, in a block that is copied whole.
+// `Format::Write(v, p)` writes v's text at p (room for 88 bytes) and
+// returns its end; each Format has a table of its own.
+template <typename Format>
+class VaryingTexts {
+ public:
+  struct Slot {
+    // The value: a number's bits and kNumber, or an exact count's
+    // numerator and denominator.
+    uint64_t a = 0, b = 0;
+    char text[32];
+    uint32_t size = 0;  // 0: empty.
+  };
+
+  // The slot for `v`, its text made if another value had it. Null when
+  // the text is longer than a slot holds (then the caller writes it).
+  static const Slot* Find(const VaryingValue& v) {
+    uint64_t a, b;
+    if (v.kind == VaryingValue::Kind::kNumber) {
+      std::memcpy(&a, &v.number, sizeof(a));
+      b = kNumber;
+    } else {
+      a = static_cast<uint64_t>(v.exact.num());
+      b = static_cast<uint64_t>(v.exact.den());
+    }
+    thread_local std::unique_ptr<std::array<Slot, kSlots>> slots;
+    if (slots == nullptr) slots = std::make_unique<std::array<Slot, kSlots>>();
+    const uint64_t hash =
+        (a * 0x9E3779B97F4A7C15ull) ^ (b * 0xC2B2AE3D27D4EB4Full);
+    Slot& slot = (*slots)[hash >> (64 - kSlotBits)];
+    if (slot.size != 0 && slot.a == a && slot.b == b) return &slot;
+    char text[kJsonDoubleMax + 48];
+    const size_t size = Format::Write(v, text) - text;
+    if (size > sizeof(slot.text)) return nullptr;
+    std::memcpy(slot.text, text, size);
+    slot.size = static_cast<uint32_t>(size);
+    slot.a = a;
+    slot.b = b;
+    return &slot;
   }
-  out->Char('"');
-}
+
+ private:
+  // A denominator is positive: this one marks a number.
+  static constexpr uint64_t kNumber = ~uint64_t{0};
+  static constexpr int kSlotBits = 10;
+  static constexpr size_t kSlots = size_t{1} << kSlotBits;
+};
+
+// A count as the JSON line writes it: a number as the protobuf printer
+// does, an exact count quoted.
+struct JsonCount {
+  static char* Write(const VaryingValue& v, char* p) {
+    return v.kind == VaryingValue::Kind::kNumber ? WriteJsonDouble(v.number, p)
+                                                 : WriteExactText(v.exact, p);
+  }
+};
 
 // A fragment of JSON kept per thread under its key (see Cached): the text
 // of a message's members with gaps where the varying values go.
@@ -229,10 +307,12 @@ class JsonWriter {
     for (int i = 0; i < fragment.gap_count; ++i) {
       out_->Raw(text.substr(from, fragment.gaps[i] - from));
       const VaryingValue& v = varying.begin()[i];
-      if (v.kind == VaryingValue::Kind::kNumber) {
+      if (const auto* kept = VaryingTexts<JsonCount>::Find(v)) {
+        out_->Block(kept->text, kept->size);
+      } else if (v.kind == VaryingValue::Kind::kNumber) {
         out_->Double(v.number);
       } else {
-        WriteExact(v.exact, out_);
+        out_->Exact(v.exact);
       }
       from = fragment.gaps[i];
     }
@@ -252,7 +332,7 @@ class JsonWriter {
 
  private:
   // `json_key` is "\"name\":".
-  void Key(absl::string_view json_key) {
+  ABSL_ATTRIBUTE_ALWAYS_INLINE void Key(absl::string_view json_key) {
     out_->Key(json_key, first_);
     first_ = false;
   }
@@ -267,32 +347,62 @@ class JsonWriter {
   int gap_count_ = 0;
 };
 
+// A count as a CSV cell writes it: a number as absl::StrAppend does
+// (%.6g), an exact count as Rational::ToString does ("4/25"), unquoted.
+struct CsvCount {
+  static char* Write(const VaryingValue& v, char* p) {
+    if (v.kind == VaryingValue::Kind::kNumber) {
+      const absl::AlphaNum text(v.number);
+      std::memcpy(p, text.data(), text.size());
+      return p + text.size();
+    }
+    p = std::to_chars(p, p + 20, v.exact.num()).ptr;
+    if (v.exact.den() != 1) {
+      *p++ = '/';
+      p = std::to_chars(p, p + 20, v.exact.den()).ptr;
+    }
+    return p;
+  }
+};
+
 // Whether `field` holds a comma, a quote or a line break: 16 bytes at a
 // time with SSE2 (part of every x86-64; cells of ions and messages are a
-// few hundred bytes), the rest byte by byte.
+// few hundred bytes), without reading outside the field: a short one is
+// first copied into a zeroed block (a zero byte is none of the four),
+// and a longer one's last block overlaps the one before it. Elsewhere
+// byte by byte.
 bool NeedsCsvQuotes(absl::string_view field) {
-  size_t i = 0;
 #if defined(__SSE2__)
-  const __m128i comma = _mm_set1_epi8(',');
-  const __m128i quote = _mm_set1_epi8('"');
-  const __m128i newline = _mm_set1_epi8('\n');
-  const __m128i carriage_return = _mm_set1_epi8('\r');
-  for (; i + 16 <= field.size(); i += 16) {
-    const __m128i x =
-        _mm_loadu_si128(reinterpret_cast<const __m128i*>(field.data() + i));
-    const __m128i hit = _mm_or_si128(
-        _mm_or_si128(_mm_cmpeq_epi8(x, comma), _mm_cmpeq_epi8(x, quote)),
-        _mm_or_si128(_mm_cmpeq_epi8(x, newline),
-                     _mm_cmpeq_epi8(x, carriage_return)));
-    if (_mm_movemask_epi8(hit) != 0) return true;
+  const auto special = [](__m128i x) {
+    const __m128i hit =
+        _mm_or_si128(_mm_or_si128(_mm_cmpeq_epi8(x, _mm_set1_epi8(',')),
+                                  _mm_cmpeq_epi8(x, _mm_set1_epi8('"'))),
+                     _mm_or_si128(_mm_cmpeq_epi8(x, _mm_set1_epi8('\n')),
+                                  _mm_cmpeq_epi8(x, _mm_set1_epi8('\r'))));
+    return _mm_movemask_epi8(hit) != 0;
+  };
+  const size_t n = field.size();
+  if (n < 16) {
+    alignas(16) char block[16] = {};
+    CopyShortText(field.data(), n, block);
+    return special(_mm_load_si128(reinterpret_cast<const __m128i*>(block)));
   }
-#endif
+  size_t i = 0;
+  for (; i + 16 <= n; i += 16) {
+    if (special(_mm_loadu_si128(
+            reinterpret_cast<const __m128i*>(field.data() + i)))) {
+      return true;
+    }
+  }
+  return i < n && special(_mm_loadu_si128(
+                      reinterpret_cast<const __m128i*>(field.data() + n - 16)));
+#else
   // A plain scan: find_first_of builds a 256-entry table on every call.
-  for (; i < field.size(); ++i) {
-    const char c = field[i];
+  for (const char c : field) {
     if (c == ',' || c == '"' || c == '\n' || c == '\r') return true;
   }
   return false;
+#endif
 }
 
 // Appends `field`, quoted when it holds a comma, a quote or a line break.
@@ -316,25 +426,29 @@ void CsvField(absl::string_view field, ReportText* out) {
 }
 
 // Appends the pieces one by one: absl::StrAppend makes its room with
-// std::string::resize, which writes it full of zeros first.
-void AppendPieces(std::string* out,
-                  std::initializer_list<absl::string_view> pieces) {
+// std::string::resize, which writes it full of zeros first. (Text is a
+// std::string or a ReportText, here and below.)
+template <typename Text>
+void AppendPieces(Text* out, std::initializer_list<absl::string_view> pieces) {
   for (absl::string_view piece : pieces)
     out->append(piece.data(), piece.size());
 }
 
 // Appends `separator` to a joined list, except before its first item.
-void Separate(absl::string_view separator, bool* first, std::string* list) {
+template <typename Text>
+void Separate(absl::string_view separator, bool* first, Text* list) {
   if (!*first) list->append(separator.data(), separator.size());
   *first = false;
 }
 
 // Appends a signed oxidation state, the one spelling of human output, CSV
 // and messages: "Fe+2", "O-2", "Xe0".
-void AppendState(absl::string_view element, int32_t state, std::string* out) {
+template <typename Text>
+void AppendState(absl::string_view element, int32_t state, Text* out) {
   out->append(element.data(), element.size());
   if (state > 0) out->push_back('+');
-  absl::StrAppend(out, state);
+  const absl::AlphaNum number(state);
+  out->append(number.data(), number.size());
 }
 
 // What a CSV cell holds.
@@ -532,7 +646,7 @@ class CsvGatherer : public TopLevelVisitor {
         CsvField(kind, out);
         break;
       case Cell::kStates:
-        CsvField(states, out);
+        CsvField(states.view(), out);
         break;
       case Cell::kModel:
         CsvField(model, out);
@@ -544,13 +658,13 @@ class CsvGatherer : public TopLevelVisitor {
         CsvField(family, out);
         break;
       case Cell::kIons:
-        CsvField(ions, out);
+        CsvField(ions.view(), out);
         break;
       case Cell::kCodes:
-        CsvField(codes, out);
+        CsvField(codes.view(), out);
         break;
       case Cell::kMessages:
-        CsvField(messages, out);
+        CsvField(messages.view(), out);
         break;
     }
   }
@@ -625,7 +739,7 @@ class CsvGatherer : public TopLevelVisitor {
   class ItemCell {
    public:
     enum Kind { kState, kIon };
-    ItemCell(Kind kind, std::string* out) : kind_(kind), out_(out) {}
+    ItemCell(Kind kind, ReportText* out) : kind_(kind), out_(out) {}
 
     template <typename F>
     void String(const F& f, absl::string_view v) {
@@ -665,14 +779,12 @@ class CsvGatherer : public TopLevelVisitor {
       out_->append(kept.before);
       // The count as the walk gives it: a state's exact one (as
       // Rational::ToString writes it), an ion's number.
-      if (kind_ == kState) {
-        const Rational& exact = varying.begin()[1].exact;
-        AppendPieces(out_, {absl::AlphaNum(exact.num()).Piece()});
-        if (exact.den() != 1) {
-          AppendPieces(out_, {"/", absl::AlphaNum(exact.den()).Piece()});
-        }
+      const VaryingValue& count = varying.begin()[kind_ == kState ? 1 : 0];
+      if (const auto* text = VaryingTexts<CsvCount>::Find(count)) {
+        out_->append(text->text, text->size);
       } else {
-        AppendPieces(out_, {absl::AlphaNum(varying.begin()[0].number).Piece()});
+        char buffer[kJsonDoubleMax + 48];
+        out_->append(buffer, CsvCount::Write(count, buffer) - buffer);
       }
       out_->append(kept.after);
       done_ = true;
@@ -687,7 +799,7 @@ class CsvGatherer : public TopLevelVisitor {
       if (kind_ == kState) {
         out_->append(fields_.exact.data(), fields_.exact.size());
       } else {
-        absl::StrAppend(out_, fields_.count);
+        out_->append(absl::AlphaNum(fields_.count).Piece());
       }
       out_->append(after);
     }
@@ -713,15 +825,16 @@ class CsvGatherer : public TopLevelVisitor {
     }
 
     const Kind kind_;
-    std::string* const out_;
+    ReportText* const out_;
     Member fields_;  // The fields, when they come one by one.
     bool done_ = false;
   };
 
   // The joined cells, in storage kept per thread: their room is made
-  // once, not for every line.
+  // once, not for every line. ReportText: their many short pieces are
+  // appended without a call each.
   struct JoinedCells {
-    std::string states, ions, codes, messages;
+    ReportText states, ions, codes, messages;
   };
   static JoinedCells& Cells() {
     thread_local JoinedCells cells;
@@ -751,10 +864,10 @@ class CsvGatherer : public TopLevelVisitor {
   int32_t row = 0;
   // Views into the report being walked, which outlives the gatherer.
   absl::string_view id, formula, kind, model, saturation_model, family;
-  std::string& states = cells_.states;
-  std::string& ions = cells_.ions;
-  std::string& codes = cells_.codes;
-  std::string& messages = cells_.messages;
+  ReportText& states = cells_.states;
+  ReportText& ions = cells_.ions;
+  ReportText& codes = cells_.codes;
+  ReportText& messages = cells_.messages;
   bool valid = false;
   double numbers[kCsvColumnCount] = {};  // By column.
   bool estimated = false;

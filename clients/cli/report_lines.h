@@ -29,6 +29,7 @@
 #include <utility>
 #include <vector>
 
+#include "absl/base/attributes.h"
 #include "absl/status/status.h"
 #include "absl/strings/string_view.h"
 #include "api/report_mask.h"
@@ -92,7 +93,7 @@ class ReportText {
   }
   // Room for `n` more bytes: returns where they go, to be written and
   // then kept with Commit(end).
-  char* Room(size_t n) {
+  ABSL_ATTRIBUTE_ALWAYS_INLINE char* Room(size_t n) {
     if (capacity_ - size_ < n) Regrow(std::max(2 * capacity_, size_ + n));
     return data_.get() + size_;
   }
@@ -102,24 +103,59 @@ class ReportText {
   // The end of the room: Room()'s pointer may write up to here.
   char* room_end() { return data_.get() + capacity_; }
 
-  void append(const char* text, size_t n) {
+  ABSL_ATTRIBUTE_ALWAYS_INLINE void append(const char* text, size_t n) {
+    if (n > 32) {
+      AppendLong(text, n);
+      return;
+    }
     char* at = Room(n);
-    if (n > 0) std::memcpy(at, text, n);
+    // Most pieces are short (keys, counts, names): up to 32 bytes go in
+    // with two fixed-size moves, which may overlap, instead of a call.
+    if (n >= 16) {
+      Move<16>(text, at);
+      Move<16>(text + n - 16, at + n - 16);
+    } else if (n >= 8) {
+      Move<8>(text, at);
+      Move<8>(text + n - 8, at + n - 8);
+    } else if (n >= 4) {
+      Move<4>(text, at);
+      Move<4>(text + n - 4, at + n - 4);
+    } else if (n > 0) {
+      at[0] = text[0];
+      at[n / 2] = text[n / 2];
+      at[n - 1] = text[n - 1];
+    }
     size_ += n;
   }
-  void append(absl::string_view text) { append(text.data(), text.size()); }
-  void push_back(char c) {
+  ABSL_ATTRIBUTE_ALWAYS_INLINE void append(absl::string_view text) {
+    append(text.data(), text.size());
+  }
+  ABSL_ATTRIBUTE_ALWAYS_INLINE void push_back(char c) {
     *Room(1) = c;
     ++size_;
   }
 
  private:
   // Moves the text to a new block of `capacity` bytes.
-  void Regrow(size_t capacity) {
+  ABSL_ATTRIBUTE_NOINLINE void Regrow(size_t capacity) {
     std::unique_ptr<char[]> grown(new char[capacity]);
     if (size_ > 0) std::memcpy(grown.get(), data_.get(), size_);
     data_ = std::move(grown);
     capacity_ = capacity;
+  }
+
+  // Not inlined: the compiler, seeing a short source where it would be,
+  // would warn of this copy's reading past it.
+  ABSL_ATTRIBUTE_NOINLINE void AppendLong(const char* text, size_t n) {
+    std::memcpy(Room(n), text, n);
+    size_ += n;
+  }
+  // Copies N bytes through a register-sized value.
+  template <size_t N>
+  static void Move(const char* from, char* to) {
+    char block[N];
+    std::memcpy(block, from, N);
+    std::memcpy(to, block, N);
   }
 
   std::unique_ptr<char[]> data_;
