@@ -129,6 +129,20 @@ AtomCounts CountAtoms(const Formula& formula) {
   return n;
 }
 
+// Cu, Ag or Au with N as the only other element (Cu3N, Ag3N).
+bool CoinageMetalNitride(const Formula& formula) {
+  bool nitrogen = false;
+  for (const ElementAmount& a : formula.amounts) {
+    const Element& e = *a.element;
+    if (e.atomic_number == 7) {
+      nitrogen = true;
+    } else if (!(e.block == Block::kD && e.group == 11)) {
+      return false;
+    }
+  }
+  return nitrogen;
+}
+
 }  // namespace
 
 bool IsZintlAnionFormer(const Element& e) {
@@ -260,7 +274,14 @@ BondingClass ClassifyBonding(const Formula& formula) {
     // or metallic (Fe3C, TiN, LaNi5H6, NiAs). Rare-earth and group 3
     // monopnictides and mononitrides (GdN, LaSb, ScN) are ionic rock-salt
     // compounds: with those metals alone the composition must be strictly
-    // metal-rich.
+    // metal-rich. The coinage-metal nitrides Cu3N and Ag3N are M(I) salts
+    // (anti-ReO3 Cu3N is a semiconductor; Greenwood and Earnshaw,
+    // Chemistry of the Elements, 2nd ed., ch. 11, from memory).
+    if (CoinageMetalNitride(formula)) {
+      c.kind = CompositionKind::kIonic;
+      c.rule = "a coinage-metal nitride: M(I) salt";
+      return c;
+    }
     if (group3_f_only ? n.nonmetal < n.metal : !(n.metal < n.nonmetal)) {
       c.kind = CompositionKind::kIntermetallic;
       c.rule =

@@ -78,6 +78,9 @@ TEST(Bonding, ClassOfRealCompositions) {
       {"LaNi5H6", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
       {"PdH0.7", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
       {"NiAs", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      // Cu3N is a Cu(I) salt, a semiconductor (Greenwood and Earnshaw,
+      // ch. 11, from memory).
+      {"Cu3N", K::kIonic, "Greenwood and Earnshaw, from memory"},
       // Heusler compounds (Graf, Felser and Parkin, Prog. Solid State
       // Chem. 39, 1 (2011), from memory).
       {"Co2MnSi", K::kIntermetallic, "Graf et al. 2011, from memory"},
