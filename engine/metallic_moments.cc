@@ -237,7 +237,6 @@ std::optional<MetallicMomentEstimate> EstimateRareEarth(
         cautions);
     return e;
   }
-  // RFe2 with nothing else: the Laves phases, Fe at its reduced moment.
   // Beside Fe and Co, Ce is close to tetravalent and carries no 4f moment
   // (CeFe2, CeCo5, Ce2Fe14B: Buschow, Rep. Prog. Phys. 40, 1179 (1977);
   // Herbst 1991; from memory).
@@ -246,24 +245,12 @@ std::optional<MetallicMomentEstimate> EstimateRareEarth(
     cautions +=
         "; Ce beside Fe or Co is taken as tetravalent, without a 4f moment";
   }
+  // RFe2 with nothing else: the cubic Laves phases, Fe at its reduced
+  // moment.
   const double tolerance = 1e-9 * std::max(1.0, metal_atoms);
   const bool laves = co == 0 && std::abs(fe - 2 * rare) < tolerance &&
                      std::abs(metal_atoms - fe - rare) < tolerance;
-  if (laves) {
-    const double m3d = kIronMomentInLavesPhase * fe;
-    const double m = m3d + light - heavy;
-    e.model = MomentModel::kRareEarth4fWith3d;
-    e.saturation = std::abs(m);
-    e.note = absl::StrFormat(
-        "cubic Laves phase RFe2: Fe sublattice %.4g μB (1.45 μB per Fe, as "
-        "in YFe2) with the trivalent 4f sublattice (light rare earths %.4g "
-        "μB parallel, heavy %.4g μB antiparallel)%s; no paramagnetic "
-        "effective moment from composition%s",
-        m3d, light, heavy, m < 0 ? "; the 4f sublattice dominates" : "",
-        cautions);
-    return e;
-  }
-  if ((fe + co) < kMin3dShareWithRareEarth * metal_atoms) {
+  if (!laves && (fe + co) < kMin3dShareWithRareEarth * metal_atoms) {
     return None(
         e, absl::StrFormat("rare earth with Fe or Co below %g%% of the metal "
                            "atoms (RCo2, RFe3 types): the 3d moment is "
@@ -271,17 +258,18 @@ std::optional<MetallicMomentEstimate> EstimateRareEarth(
                            100 * kMin3dShareWithRareEarth));
   }
   const double m3d =
-      kIronMomentWithRareEarth * fe + kCobaltMomentWithRareEarth * co;
+      laves ? kIronMomentInLavesPhase * fe
+            : kIronMomentWithRareEarth * fe + kCobaltMomentWithRareEarth * co;
   const double m = m3d + light - heavy;
   e.model = MomentModel::kRareEarth4fWith3d;
   e.saturation = std::abs(m);
   e.note = absl::StrFormat(
-      "3d sublattice %.4g μB (Fe 2.2, Co 1.6 μB per atom) with the trivalent "
-      "4f sublattice "
+      "%s %.4g μB (%s) with the trivalent 4f sublattice "
       "(light rare earths %.4g μB parallel, heavy %.4g μB antiparallel)%s; "
       "no paramagnetic effective moment from composition%s",
-      m3d, light, heavy, m < 0 ? "; the 4f sublattice dominates" : "",
-      cautions);
+      laves ? "cubic Laves phase RFe2: Fe sublattice" : "3d sublattice", m3d,
+      laves ? "1.45 μB per Fe, as in YFe2" : "Fe 2.2, Co 1.6 μB per atom",
+      light, heavy, m < 0 ? "; the 4f sublattice dominates" : "", cautions);
   return e;
 }
 
