@@ -10,6 +10,7 @@
 #include "absl/strings/str_format.h"
 #include "absl/strings/str_split.h"
 #include "absl/strings/strip.h"
+#include "engine/aufbau.h"
 #include "engine/formula.h"
 #include "engine/internal/lazy_element_rows.h"
 #include "engine/internal/state_options.h"
@@ -107,6 +108,26 @@ const T* FindSetting(const std::vector<std::pair<const Element*, T>>& list,
   return nullptr;
 }
 
+// Whether the +1 ion of d-block element `e` keeps an ns electron in its
+// free-ion ground configuration (Mn+ 3d5 4s1, Fe+ 3d6 4s1, Re+ 5d5 6s1).
+// Built once for every element.
+bool MonocationKeepsS(const Element& e) {
+  static const std::array<bool, kMaxAtomicNumber + 1>* const kTable = [] {
+    auto* t = new std::array<bool, kMaxAtomicNumber + 1>{};
+    for (int z = 1; z <= kMaxAtomicNumber; ++z) {
+      absl::StatusOr<const Element*> el = ElementByAtomicNumber(z);
+      if (!el.ok()) continue;
+      const int d = CoordinationDCount(**el, 1);
+      if (d < 0) continue;
+      absl::StatusOr<Configuration> ground = IonConfiguration(z, 1);
+      (*t)[z] =
+          ground.ok() && ground->occupancy(Subshell{(*el)->period - 1, 2}) != d;
+    }
+    return t;
+  }();
+  return (*kTable)[e.atomic_number];
+}
+
 absl::StatusOr<AtomDescriptionPtr> DescribeIon(const Element* e, int charge,
                                                Geometry g,
                                                SpinStatePreference s) {
@@ -115,8 +136,11 @@ absl::StatusOr<AtomDescriptionPtr> DescribeIon(const Element* e, int charge,
   q.charge = charge;
   q.geometry = g;
   q.spin_state = s;
-  if (charge <= 0 && g != Geometry::kFree) {
-    // A d-block atom in state 0 or below (Ni(CO)4, [Fe(CO)4]2-) counts
+  if (g != Geometry::kFree &&
+      (charge <= 0 || (charge == 1 && MonocationKeepsS(*e)))) {
+    // A d-block atom in state 0 or below (Ni(CO)4, [Fe(CO)4]2-), or a +1
+    // ion whose free ground configuration keeps an s electron (Mn(I) of
+    // Mn(CO)5Br, Re(I) of Re(CO)5Cl: d6, low spin, diamagnetic), counts
     // its d electrons as coordination chemistry does: group - state.
     const int d = CoordinationDCount(*e, charge);
     if (d >= 0) {
