@@ -366,9 +366,17 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     if (!zero && limit < 0 && !polyanion && !listed) continue;
     p.custom = true;
     bool zero_added = !zero;
-    auto add = [&p, limit, listed, anions](int low, int high, bool low_common,
-                                           bool high_common,
-                                           bool needs_oxide = false) {
+    auto add = [&p, limit, listed, anions, zero](
+                   int low, int high, bool low_common, bool high_common,
+                   bool needs_oxide = false) {
+      // Beside pi-acceptor ligands the low states are the usual ones: the
+      // carbonylmetallates [Fe(CO)4]2- and [V(CO)6]-, Mn(I) in Mn(CO)5Br
+      // (Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed., ch.
+      // 19, from memory).
+      if (zero) {
+        low_common |= low <= 1;
+        high_common |= high <= 1;
+      }
       if (limit >= 0) {
         // Mixed valence one step above the chalcogenide maximum stays
         // common where the state is: the thiospinels CuCr2S4 (Cr(III)/

@@ -556,6 +556,31 @@ const NaturalCase kNaturalCases[] = {
     {"Tb4O7", "Tb:3x2 Tb:4x2 O:-2x7", "Greenwood and Earnshaw, from memory"},
 };
 
+TEST(NaturalStates, LowStatesAreUsualBesidePiAcceptors) {
+  // Carbonylmetallates and the Mn(I) and Re(I) carbonyl halides: their
+  // metal states are the usual ones there (Greenwood and Earnshaw,
+  // Chemistry of the Elements, 2nd ed., ch. 19, from memory), though the
+  // table marks Fe-2, V-1 and Mn+1 uncommon as free ions.
+  const struct {
+    const char* formula;
+    const char* expected;
+  } kCases[] = {
+      {"Na2[Fe(CO)4]",
+       "Na:1x2 Fe:-2x1 C:2x4[carbon monoxide] O:-2x4[carbon monoxide]"},
+      {"Mn(CO)5Br",
+       "Mn:1x1 C:2x5[carbon monoxide] O:-2x5[carbon monoxide] Br:-1x1"},
+      {"Re(CO)5Cl",
+       "Re:1x1 C:2x5[carbon monoxide] O:-2x5[carbon monoxide] Cl:-1x1"},
+  };
+  for (const auto& c : kCases) {
+    SCOPED_TRACE(c.formula);
+    OxidationResult r = Solve(c.formula);
+    ASSERT_TRUE(r.best.has_value());
+    EXPECT_EQ(Describe(*r.best), c.expected);
+    EXPECT_EQ(r.best->uncommon_states, 0);
+  }
+}
+
 TEST(NaturalStates, CompoundsTakeTheirSourcesStates) {
   for (const NaturalCase& c : kNaturalCases) {
     SCOPED_TRACE(std::string(c.formula) + " (" + c.source + ")");
