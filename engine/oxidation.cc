@@ -328,11 +328,14 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     hard_anion |= z == 7 || z == 8 || z == 9 || z == 17;
   }
   const bool soft_only = chalcogen && !hard_anion;
-  // Every cation an alkali metal (for the Zintl clusters below).
+  // Every cation an alkali metal (for the Zintl clusters below); only a
+  // Zintl reading asks, so other records skip the loop.
   bool alkali_only = zintl;
-  for (const ElementPlan& p : plans) {
-    if (zintl && !IsZintlAnionFormer(*p.element)) {
-      alkali_only &= p.element->group == 1 && p.element->atomic_number != 1;
+  if (zintl) {
+    for (const ElementPlan& p : plans) {
+      if (!IsZintlAnionFormer(*p.element)) {
+        alkali_only &= p.element->group == 1 && p.element->atomic_number != 1;
+      }
     }
   }
   bool oxide = false;
