@@ -129,6 +129,42 @@ AtomCounts CountAtoms(const Formula& formula) {
   return n;
 }
 
+// Layered transition-metal pnictides of the ThCr2Si2, CaAl2Si2 and
+// anti-PbFCl types: alkali, alkaline-earth or divalent rare-earth cations
+// with Cr, Mn, Fe, Co or Ni and P, As, Sb or Bi only, no more metal atoms
+// of those than pnictogen atoms, and a count that leaves the metal between
+// +1.5 and +3 with every pnictogen at -3. BaFe2As2 is Ba2+ with
+// [Fe2As2]2- layers (Fe(II)), KFe2As2 Fe(II)/Fe(III), LiFeAs Fe(II),
+// CaMn2Sb2 and BaMn2As2 Mn(II) (Rotter, Tegel and Johrendt, Phys. Rev.
+// Lett. 101 (2008) 107006; Johrendt, J. Mater. Chem. 21 (2011) 13726;
+// Kauzlarich (ed.), Chemistry, Structure, and Bonding of Zintl Phases and
+// Ions, VCH (1996); all from memory). With a trivalent rare earth
+// (LaFe2P2, CeCu2Si2) the layers hold pnictogen pairs and the phases stay
+// intermetallic.
+bool IsLayeredTransitionMetalPnictide(const Formula& formula) {
+  Rational cation_charge(0), metal(0), pnictogen(0);
+  for (const ElementAmount& a : formula.amounts) {
+    const Element& e = *a.element;
+    const int z = e.atomic_number;
+    if (z == 15 || z == 33 || z == 51 || z == 83) {
+      pnictogen = pnictogen + a.count;
+    } else if (z >= 24 && z <= 28) {
+      metal = metal + a.count;
+    } else if (IsAlkaliOrAlkalineEarth(e)) {
+      cation_charge = cation_charge + a.count * Rational(e.group);
+    } else if (IsDivalentRareEarth(e)) {
+      cation_charge = cation_charge + a.count * Rational(2);
+    } else {
+      return false;
+    }
+  }
+  if (cation_charge.IsZero() || metal.IsZero() || pnictogen < metal) {
+    return false;
+  }
+  const Rational left = pnictogen * Rational(3) - cation_charge;
+  return !(left < metal * Rational(3, 2)) && !(metal * Rational(3) < left);
+}
+
 // Cu, Ag or Au with N as the only other element (Cu3N, Ag3N).
 bool CoinageMetalNitride(const Formula& formula) {
   bool nitrogen = false;
@@ -198,6 +234,13 @@ BondingClass ClassifyBonding(const Formula& formula) {
     c.rule = "a single element";
     return c;
   }
+  if (IsLayeredTransitionMetalPnictide(formula)) {
+    c.kind = CompositionKind::kZintl;
+    c.rule =
+        "an electropositive metal with transition-metal pnictide layers "
+        "([Fe2As2]2- in BaFe2As2)";
+    return c;
+  }
   if (all_metal && IsAurideOrPlatinide(formula)) {
     c.kind = CompositionKind::kIonic;
     c.rule = "a heavy alkali metal with gold or platinum: auride or platinide";
@@ -239,7 +282,8 @@ BondingClass ClassifyBonding(const Formula& formula) {
     // atoms more than it: Ca14MnSb11 is
     // 14 Ca2+ with [MnSb4]9-, [Sb3]7- and four Sb3- (Kauzlarich, in
     // Chemistry, Structure, and Bonding of Zintl Phases and Ions, VCH
-    // (1996), from memory); CaMn2Sb2 and BaFe2As2 are not.
+    // (1996), from memory); CaMn2Sb2 and BaFe2As2 are not (their layers
+    // are the rule above).
     if (all_nonmetals_zintl && n.boron.IsZero() &&
         !(n.electropositive < Rational(2) * n.transition) &&
         n.transition < n.nonmetal) {

@@ -482,7 +482,7 @@ IonEnvironment EnvironmentOf(const Formula& formula, const AssignedState& s,
 IonEnvironment OnSite(IonEnvironment env, const AssignedState& s,
                       const Site& site) {
   if (env.basis == SpinBasis::kRecord || s.element->block != Block::kD ||
-      site.geometry == env.geometry) {
+      site.geometry == env.geometry || env.metal_metal_bonded) {
     return env;
   }
   env.geometry = site.geometry;

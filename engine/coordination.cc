@@ -154,6 +154,120 @@ std::optional<Rational> AtomsInComplex(const Formula& formula,
   return Rational(0);
 }
 
+// A 3d metal from Cr to Ni at +1 to +3 beside at least as many free
+// pnictide anions (P, As, Sb or Bi at -3) as its own atoms, and at least
+// as many as other anion atoms (the oxide of LaFeAsO), with no unit:
+// the edge-sharing MX4 tetrahedra of the layered pnictides (BaFe2As2,
+// LiFeAs, LaFeAsO, CaMn2Sb2) and of the [MnSb4]9- tetrahedra of
+// Ca14MnSb11 (Johrendt, J. Mater. Chem. 21 (2011) 13726; Kauzlarich (ed.),
+// Chemistry, Structure, and Bonding of Zintl Phases and Ions, VCH (1996);
+// from memory).
+bool InPnictideTetrahedra(const OxidationAssignment& assignment,
+                          const AssignedState& ion) {
+  const int z = ion.element->atomic_number;
+  if (z < 24 || z > 28 || ion.state < 1 || ion.state > 3 ||
+      !assignment.units.empty()) {
+    return false;
+  }
+  Rational pnictide(0), other_anion(0), metal(0);
+  for (const AssignedState& s : assignment.states) {
+    const int sz = s.element->atomic_number;
+    if (s.state == -3 && (sz == 15 || sz == 33 || sz == 51 || sz == 83)) {
+      pnictide = pnictide + s.count;
+    } else if (s.state < 0) {
+      other_anion = other_anion + s.count;
+    } else if (s.element == ion.element) {
+      metal = metal + s.count;
+    }
+  }
+  return !metal.IsZero() && !(pnictide < metal) && !(pnictide < other_anion);
+}
+
+// A 4d or 5d metal of groups 4 to 7 in a low state among halide,
+// oxide or chalcogenide anions only, with no unit and few anions per metal
+// atom: its d electrons pair in metal-metal bonds. The octahedral clusters
+// [Mo6Cl8]4+ of MoCl2, [Nb6Cl12]2+ of Nb6Cl14, the Mo6S8 clusters of the
+// Chevrel phases (PbMo6S8), the Re3Cl9 triangles of ReCl3, the Zr6
+// clusters, NbO, and the metal pairs of NbCl4, NbO2, MoO2 and WO2 are
+// diamagnetic or Pauli paramagnetic (Greenwood and Earnshaw, Chemistry of
+// the Elements, 2nd ed., chs. 21-24; Cotton, Murillo and Walton, Multiple
+// Bonds between Metal Atoms, 3rd ed.; Chevrel, Sergent and Prigent, J.
+// Solid State Chem. 3 (1971) 515; all from memory). Up to +3 with at most
+// 4.5 anions per metal atom (K3W2Cl9, Cs3Re3Cl12; the isolated [MoCl6]3-
+// of K3MoCl6 keeps its three unpaired electrons); at +4 with d1 to d3,
+// oxide anions only, at most two per metal atom (rutile-derived NbO2,
+// MoO2, WO2, ReO2) or halides only, at most four, d1 (NbCl4, NbI4). No
+// other transition metal of groups 3 to 10 may be present.
+bool PairsInMetalClusters(const OxidationAssignment& assignment,
+                          const AssignedState& ion, int d) {
+  const Element& e = *ion.element;
+  if (e.block != Block::kD || e.period < 5 || e.group < 4 || e.group > 7 ||
+      d < 1 || ion.state < 1 || ion.state > 4 || !assignment.units.empty()) {
+    return false;
+  }
+  Rational anions(0), metal(0);
+  bool oxide = false, chalcogen = false, halide = false;
+  for (const AssignedState& s : assignment.states) {
+    const int z = s.element->atomic_number;
+    if (s.element == &e) {
+      metal = metal + s.count;
+      continue;
+    }
+    const bool o = z == 8, ch = z == 16 || z == 34 || z == 52;
+    const bool x = z == 9 || z == 17 || z == 35 || z == 53;
+    if (!o && !ch && !x) {
+      // Another anion, or another transition metal that could hold the
+      // electrons (MnCrCoWO3.91).
+      if (s.state < 0 || (s.element->block == Block::kD &&
+                          s.element->group >= 3 && s.element->group <= 10)) {
+        return false;
+      }
+      continue;
+    }
+    oxide |= o;
+    chalcogen |= ch;
+    halide |= x;
+    anions = anions + s.count;
+  }
+  if (metal.IsZero() || anions.IsZero()) return false;
+  if (ion.state <= 3) return !(metal * Rational(9, 2) < anions);
+  if (d > 3 || chalcogen) return false;
+  if (oxide && !halide) return !(metal * Rational(2) < anions);
+  return halide && !oxide && d == 1 && !(metal * Rational(4) < anions);
+}
+
+// A low-spin d4 or d5 metal, the only cation, with one pnictogen pair
+// unit (P2 4-, As2 4-, Sb2 4-, AsS 3-, SbS 3-) per metal atom: the
+// loellingite-type d4 FeP2, FeAs2, FeSb2, RuP2 and OsP2 and the
+// arsenopyrite-type d5 FeAsS, CoAs2 and CoSb2 are diamagnetic
+// semiconductors, their remaining d electrons paired in metal-metal bonds
+// along the chains of edge-sharing octahedra (Hulliger and Mooser, J.
+// Phys. Chem. Solids 26 (1965) 429, from memory).
+bool PairsAlongPnictideChains(const OxidationAssignment& assignment,
+                              const AssignedState& ion, int d) {
+  if (ion.element->block != Block::kD || (d != 4 && d != 5) ||
+      assignment.units.empty()) {
+    return false;
+  }
+  Rational pairs(0), metal(0);
+  for (const AssignedUnit& u : assignment.units) {
+    const std::vector<UnitAtom>& atoms = u.unit->atoms;
+    int pnictogen = 0, atoms_in_unit = 0;
+    for (const UnitAtom& a : atoms) {
+      atoms_in_unit += a.count;
+      pnictogen += a.element->group == 15 ? a.count : 0;
+    }
+    if (atoms_in_unit != 2 || pnictogen == 0) return false;
+    pairs = pairs + u.count;
+  }
+  for (const AssignedState& s : assignment.states) {
+    if (s.unit >= 0) continue;
+    if (s.element != ion.element) return false;
+    metal = metal + s.count;
+  }
+  return pairs == metal;
+}
+
 IonEnvironment FindEnvironment(const Formula& formula,
                                const OxidationAssignment& assignment,
                                const AssignedState& ion,
@@ -260,6 +374,36 @@ IonEnvironment FindEnvironment(const Formula& formula,
     }
   }
 
+  // The layered pnictides: tetrahedral; the Cr, Fe, Co and Ni layers are
+  // metallic, their d electrons itinerant (BaFe2As2 orders with about 0.9
+  // uB per Fe, LaFeAsO with about 0.4; BaNi2As2 and LaNiAsO are Pauli
+  // paramagnets; Johrendt, J. Mater. Chem. 21 (2011) 13726, from memory):
+  // no local moment. Mn(II) keeps its local high-spin moment (BaMn2As2
+  // orders with 3.9 uB; Singh et al., Phys. Rev. B 79 (2009) 094519, from
+  // memory).
+  if (geometry_set == nullptr && spin_set == nullptr && complex < 0 &&
+      InPnictideTetrahedra(assignment, ion)) {
+    env.geometry = Geometry::kTetrahedral;
+    if (e.atomic_number != 25) {
+      env.spin_state = SpinStatePreference::kHigh;
+      env.basis = SpinBasis::kItinerant;
+      env.metal_metal_bonded = true;
+      return env;
+    }
+  }
+
+  // Low-valent 4d and 5d clusters and metal pairs, and the pnictide
+  // chains of loellingite and arsenopyrite: no local moment.
+  if (geometry_set == nullptr && spin_set == nullptr && complex < 0 &&
+      (PairsInMetalClusters(assignment, ion, d) ||
+       PairsAlongPnictideChains(assignment, ion, d))) {
+    env.geometry = Geometry::kOctahedral;
+    env.spin_state = SpinStatePreference::kLow;
+    env.basis = SpinBasis::kMetalMetalBond;
+    env.metal_metal_bonded = true;
+    return env;
+  }
+
   // Polynuclear carbonyls: the 18-electron rule's metal-metal bonds.
   if (geometry_set == nullptr && spin_set == nullptr && complex < 0 &&
       molecular && total > 0 && d >= 0 && ion.state <= 0) {
@@ -284,6 +428,8 @@ IonEnvironment FindEnvironment(const Formula& formula,
   // Geometry.
   if (geometry_set != nullptr) {
     env.geometry = *geometry_set;
+  } else if (env.geometry == Geometry::kTetrahedral) {
+    // Set above (the layered pnictides).
   } else if (std::abs(cn - 5) < 0.01 && std::abs(metal - 1) < 0.01 &&
              (complex >= 0 || pi_acceptors_only)) {
     // Five sites on one metal, in a written complex ([CuCl5]3-) or from

@@ -68,6 +68,9 @@ enum class SpinBasis {
   // (Mn2(CO)10), or of the metallic Pd(I) layers of PdCoO2: paired in
   // metal-metal bonds.
   kMetalMetalBond,
+  // A 3d metal of the metallic layers of the layered pnictides (BaFe2As2,
+  // LaFeAsO): its d electrons itinerant, no local moment.
+  kItinerant,
 };
 
 template <>
@@ -82,7 +85,8 @@ struct EnumNames<SpinBasis> {
       {SpinBasis::kTetrahedral, "tetrahedral_high_spin"},
       {SpinBasis::kDefaultHigh, "default_high_spin"},
       {SpinBasis::kOxygenDeficientPerovskite, "oxygen_deficient_perovskite"},
-      {SpinBasis::kMetalMetalBond, "metal_metal_bond"}};
+      {SpinBasis::kMetalMetalBond, "metal_metal_bond"},
+      {SpinBasis::kItinerant, "itinerant"}};
 };
 
 // Which of an element's atoms an environment is for, where the formula
@@ -104,8 +108,8 @@ struct IonEnvironment {
   double f = 0;
   SpinBasis basis = SpinBasis::kNone;
   bool near_crossover = false;
-  // Its d electrons pair in metal-metal bonds (kMetalMetalBond): no
-  // unpaired electrons.
+  // Its d electrons pair in metal-metal bonds (kMetalMetalBond) or are
+  // itinerant (kItinerant): no local moment.
   bool metal_metal_bonded = false;
 };
 

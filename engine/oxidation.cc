@@ -257,6 +257,12 @@ internal::AnionClass StructureClassOf(const Formula& formula) {
 }
 
 // A reading of the formula: the unit matches read as units.
+// The 4d and 5d metals of groups 4 to 7 (Zr to Re), which form metal
+// clusters in their low states.
+bool IsClusterFormer(const Element& e) {
+  return e.block == Block::kD && e.period >= 5 && e.group >= 4 && e.group <= 7;
+}
+
 using Reading = absl::InlinedVector<const UnitMatch*, 4>;
 
 // Builds the plan of every free element and unit of `reading`, or returns
@@ -322,12 +328,35 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   // Chalcogenide anions only (no free O, F, Cl or N): metals keep to their
   // chalcogenide maximum (MnS2 is Mn(II) disulfide, not Mn(IV) sulfide).
   bool chalcogen = false, hard_anion = false;
+  // Atoms of 4d and 5d metals of groups 4 to 7, and of halide and
+  // chalcogen atoms, for the cluster compounds below.
+  Rational cluster_metal(0), cluster_anion(0);
+  bool other_nonmetal = false;
   for (const ElementPlan& p : plans) {
-    const int z = p.element->atomic_number;
+    const Element& e = *p.element;
+    const int z = e.atomic_number;
     chalcogen |= z == 16 || z == 34 || z == 52;
     hard_anion |= z == 7 || z == 8 || z == 9 || z == 17;
+    if (IsClusterFormer(e)) {
+      cluster_metal = cluster_metal + p.count;
+    } else if (z == 16 || z == 34 || z == 52 || z == 9 || z == 17 || z == 35 ||
+               z == 53) {
+      cluster_anion = cluster_anion + p.count;
+    } else if (!IsMetal(e)) {
+      other_nonmetal = true;
+    }
   }
   const bool soft_only = chalcogen && !hard_anion;
+  // Metal-rich halides and chalcogenides of those metals, at most three
+  // anions per metal atom, hold metal clusters whose +2 and +3 states are
+  // the usual ones: [Mo6Cl8]4+ in MoCl2, [Nb6Cl12]2+ in Nb6Cl14, Ta6Cl15,
+  // the Re3Cl9 triangles of ReCl3, the Chevrel phases PbMo6S8 and
+  // SnMo6S8 (Pb(II), Sn(II)) and LaMo6Se8 (Greenwood and
+  // Earnshaw, Chemistry of the Elements, 2nd ed., chs. 22 and 23; Chevrel,
+  // Sergent and Prigent, J. Solid State Chem. 3 (1971) 515; from memory).
+  const bool clusters = !cluster_metal.IsZero() && !other_nonmetal &&
+                        reading.empty() &&
+                        !(cluster_metal * Rational(3) < cluster_anion);
   // Every cation an alkali metal (for the Zintl clusters below); only a
   // Zintl reading asks, so other records skip the loop.
   bool alkali_only = zintl;
@@ -366,12 +395,17 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     const bool polyanion = zintl && IsZintlAnionFormer(*p.element);
     const bool listed =
         own_rows && internal::HasPreferenceRows(*p.element, anions);
-    if (!zero && limit < 0 && !polyanion && !listed) continue;
+    const bool cluster = clusters && IsClusterFormer(*p.element);
+    if (!zero && limit < 0 && !polyanion && !listed && !cluster) continue;
     p.custom = true;
     bool zero_added = !zero;
-    auto add = [&p, limit, listed, anions, zero](
+    auto add = [&p, limit, listed, anions, zero, cluster](
                    int low, int high, bool low_common, bool high_common,
                    bool needs_oxide = false) {
+      if (cluster) {
+        low_common |= low == 2 || low == 3;
+        high_common |= high == 2 || high == 3;
+      }
       // Beside pi-acceptor ligands the low states are the usual ones: the
       // carbonylmetallates [Fe(CO)4]2- and [V(CO)6]-, Mn(I) in Mn(CO)5Br
       // (Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed., ch.
@@ -395,6 +429,18 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       StateOption o = internal::MakeStateOption(
           *p.element, static_cast<int>(p.fixed_options.size()), low, high,
           low_common, high_common, needs_oxide);
+      // The cluster's electrons are shared by all its atoms: +2/+3 is its
+      // usual mean, no mixed valence to weigh. The cluster takes the
+      // electrons the other cations give, those staying in their lowest
+      // usual states (Sn(II) and Eu(II) in SnMo6S8 and EuMo6S8): each atom
+      // at +2 weighs a rank step (2), at +3 nothing.
+      if (cluster && low >= 2 && high <= 3) {
+        o.spread = 0;
+        for (int c = 0; c < internal::kAnionClasses; ++c) {
+          o.high_natural[c] = high == 2 ? 2 : 0;
+          o.low_extra_natural[c] = low == 2 && high == 3 ? 2 : 0;
+        }
+      }
       p.fixed_options.push_back(o);
       if (o.low_common && o.high_common) p.fixed_common_options.push_back(o);
     };

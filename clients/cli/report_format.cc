@@ -112,6 +112,15 @@ std::string FormatReportHuman(const v1::RecordReport& r) {
         spin = absl::StrCat(ion.spin_state(), " (", ion.geometry(), ")");
         split = ion.ligand_field_occupancy();
       }
+      // No local moment: d electrons paired in metal-metal bonds or
+      // itinerant in a metallic layer; no spin state or split to show.
+      if (ion.bonded() && ion.spin_state_basis() == "itinerant") {
+        spin = absl::StrCat("itinerant (", ion.geometry(), ")");
+        split = "-";
+      } else if (ion.bonded() && ion.spin_state_basis() == "metal_metal_bond") {
+        spin = "paired (metal-metal bonds)";
+        split = "-";
+      }
       // Pad by characters: the superscripts take several bytes each.
       absl::StrAppendFormat(
           &out, "  %-8s %-8g %-24s %-9d %s %s %.2f  [%.2f-%.2f] %s%s\n",

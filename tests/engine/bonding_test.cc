@@ -103,6 +103,18 @@ TEST(Bonding, ClassOfRealCompositions) {
       {"K3Sb7", K::kZintl, "Corbett 1985, from memory"},
       {"Ca14MnSb11", K::kZintl, "Kauzlarich 1996, from memory"},
       {"Yb14MnSb11", K::kZintl, "Kauzlarich 1996, from memory"},
+      // Layered transition-metal pnictides with electropositive cations
+      // (Johrendt, J. Mater. Chem. 21 (2011) 13726; Kauzlarich 1996; from
+      // memory); with a trivalent rare earth the layers hold P-P pairs and
+      // stay intermetallic.
+      {"BaFe2As2", K::kZintl, "Johrendt 2011, from memory"},
+      {"Ba0.6K0.4Fe2As2", K::kZintl, "Johrendt 2011, from memory"},
+      {"LiFeAs", K::kZintl, "Johrendt 2011, from memory"},
+      {"EuFe2As2", K::kZintl, "Johrendt 2011, from memory"},
+      {"CaMn2Sb2", K::kZintl, "Kauzlarich 1996, from memory"},
+      {"BaMn2Bi2", K::kZintl, "Kauzlarich 1996, from memory"},
+      {"LaFe2P2", K::kIntermetallic, "Johrendt 2011, from memory"},
+      {"CaCu2As2", K::kIntermetallic, "common practice, no source"},
       // Metal-rich transition-metal chalcogenides hold metal-metal bonds
       // and are metallic; copper sulfides and the monosulfides stay ionic
       // (Vaughan and Craig, Mineral Chemistry of Metal Sulfides, 1978, from
@@ -188,6 +200,24 @@ TEST(Bonding, EuropiumAndYtterbiumAreDivalentInZintlPhases) {
   EXPECT_EQ(Best("Eu5In2Sb6"), "Eu:2x5 In:3x2 Sb:-3x4 Sb:-2x2");
   EXPECT_EQ(Best("YbZn2Sb2"), "Yb:2x1 Zn:2x2 Sb:-3x2");
   EXPECT_EQ(Best("Ca14MnSb11"), "Ca:2x14 Mn:3x1 Sb:-3x9 Sb:-2x2");
+}
+
+TEST(Bonding, LayeredPnictidesHoldDivalentTransitionMetals) {
+  // Rotter, Tegel and Johrendt, Phys. Rev. Lett. 101 (2008) 107006, and
+  // Johrendt, J. Mater. Chem. 21 (2011) 13726, from memory: BaFe2As2 is
+  // Ba2+ with [Fe2As2]2- (Fe(II)), KFe2As2 Fe(II)/Fe(III) (Fe +2.5), the
+  // 111 phase LiFeAs Fe(II); CaMn2Sb2 and BaMn2As2 Mn(II) (Kauzlarich (ed.),
+  // Chemistry, Structure, and Bonding of Zintl Phases and Ions, VCH 1996,
+  // from memory).
+  CompositionKind kind = CompositionKind::kIonic;
+  EXPECT_EQ(Best("BaFe2As2", &kind), "Ba:2x1 Fe:2x2 As:-3x2");
+  EXPECT_EQ(kind, CompositionKind::kZintl);
+  EXPECT_EQ(Best("KFe2As2"), "K:1x1 Fe:2x1 Fe:3x1 As:-3x2");
+  EXPECT_EQ(Best("LiFeAs"), "Li:1x1 Fe:2x1 As:-3x1");
+  EXPECT_EQ(Best("CaMn2Sb2"), "Ca:2x1 Mn:2x2 Sb:-3x2");
+  EXPECT_EQ(Best("BaMn2As2"), "Ba:2x1 Mn:2x2 As:-3x2");
+  EXPECT_EQ(Best("EuFe2As2"), "Eu:2x1 Fe:2x2 As:-3x2");
+  EXPECT_EQ(Best("BaNi2As2"), "Ba:2x1 Ni:2x2 As:-3x2");
 }
 
 TEST(Bonding, UnbalancedZintlCompositionsArePolarIntermetallics) {

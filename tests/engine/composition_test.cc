@@ -607,6 +607,74 @@ TEST(Composition, OxygenDeficientPerovskitesAreHighSpin) {
   }
 }
 
+// The layered pnictides: Fe, Co, Ni and Cr in FeAs4-type tetrahedra are
+// itinerant (BaFe2As2 orders with about 0.9 uB per Fe, LaFeAsO about 0.4;
+// BaNi2As2 is a Pauli paramagnet), while Mn(II) keeps its high-spin local
+// moment (BaMn2As2, 3.9 uB ordered) (Johrendt, J. Mater. Chem. 21 (2011)
+// 13726; Singh et al., Phys. Rev. B 79 (2009) 094519; from memory).
+TEST(Composition, LayeredPnictideMetalsAreItinerantExceptManganese) {
+  for (const char* formula :
+       {"BaFe2As2", "LaFeAsO", "LiFeAs", "BaNi2As2", "BaCo2As2"}) {
+    CompositionReport r = Analyze(formula);
+    EXPECT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+    bool metal = false;
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->block != Block::kD) continue;
+      metal = true;
+      EXPECT_EQ(ion.spin_basis, SpinBasis::kItinerant) << formula;
+      EXPECT_TRUE(ion.bonded) << formula;
+      EXPECT_EQ(ion.moment, 0) << formula;
+      EXPECT_EQ(ion.description->ligand_field->splitting.geometry,
+                Geometry::kTetrahedral)
+          << formula;
+    }
+    EXPECT_TRUE(metal) << formula;
+  }
+  CompositionReport r = Analyze("BaMn2As2");
+  ASSERT_TRUE(r.valid) << DiagnosticsText(r);
+  bool manganese = false;
+  for (const IonAnnotation& ion : r.ions) {
+    if (ion.element->symbol != "Mn") continue;
+    manganese = true;
+    EXPECT_FALSE(ion.bonded);
+    EXPECT_EQ(ion.description->ligand_field->splitting.geometry,
+              Geometry::kTetrahedral);
+    EXPECT_EQ(ion.description->unpaired_electrons, 5);
+  }
+  EXPECT_TRUE(manganese);
+}
+
+// Low-valent 4d and 5d halides and chalcogenides hold metal clusters or
+// pairs; their d electrons are in metal-metal bonds (Greenwood and
+// Earnshaw, Chemistry of the Elements, 2nd ed., chs. 22-24; Chevrel,
+// Sergent and Prigent, J. Solid State Chem. 3 (1971) 515; from memory).
+// The isolated [MoCl6]3- of K3MoCl6 keeps three unpaired electrons
+// (Figgis and Lewis, magnetochemistry tables, from memory).
+TEST(Composition, LowValentHeavyMetalClustersPairTheirElectrons) {
+  for (const char* formula : {"MoCl2", "Nb6Cl14", "Ta6Cl15", "ReCl3", "NbCl4",
+                              "NbO2", "MoO2", "PbMo6S8", "LaMo6Se8"}) {
+    CompositionReport r = Analyze(formula);
+    EXPECT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->block != Block::kD) continue;
+      EXPECT_EQ(ion.spin_basis, SpinBasis::kMetalMetalBond)
+          << formula << " " << ion.element->symbol << ion.state;
+      EXPECT_EQ(ion.moment, 0) << formula;
+    }
+    // The clusters' +2 and +3 are their usual states: no warning (Nb(IV)
+    // of NbCl4 and NbO2 stays uncommon).
+    const std::string f = formula;
+    if (f == "NbCl4" || f == "NbO2") continue;
+    for (const Diagnostic& d : r.diagnostics) {
+      EXPECT_NE(d.code, "uncommon_oxidation_state")
+          << formula << ": " << d.message;
+    }
+  }
+  CompositionReport r = Analyze("K3MoCl6");
+  ASSERT_TRUE(r.valid) << DiagnosticsText(r);
+  EXPECT_EQ(r.unpaired_per_formula_unit, 3);
+}
+
 // ---------------------------------------------------------------------------
 // Record id.
 
