@@ -142,6 +142,14 @@ AtomCounts CountAtoms(const Formula& formula) {
 // (LaFe2P2, CeCu2Si2) the layers hold pnictogen pairs and the phases stay
 // intermetallic.
 bool IsLayeredTransitionMetalPnictide(const Formula& formula) {
+  for (const ElementAmount& a : formula.amounts) {  // Elements first.
+    const Element& e = *a.element;
+    const int z = e.atomic_number;
+    if (!(z == 15 || z == 33 || z == 51 || z == 83 || (z >= 24 && z <= 28) ||
+          IsAlkaliOrAlkalineEarth(e) || IsDivalentRareEarth(e))) {
+      return false;
+    }
+  }
   Rational cation_charge(0), metal(0), pnictogen(0);
   for (const ElementAmount& a : formula.amounts) {
     const Element& e = *a.element;

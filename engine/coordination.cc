@@ -169,6 +169,12 @@ bool InPnictideTetrahedra(const OxidationAssignment& assignment,
       !assignment.units.empty()) {
     return false;
   }
+  bool any = false;  // Most records hold no pnictide: no sums for them.
+  for (const AssignedState& s : assignment.states) {
+    const int sz = s.element->atomic_number;
+    any |= s.state == -3 && (sz == 15 || sz == 33 || sz == 51 || sz == 83);
+  }
+  if (!any) return false;
   Rational pnictide(0), other_anion(0), metal(0);
   for (const AssignedState& s : assignment.states) {
     const int sz = s.element->atomic_number;

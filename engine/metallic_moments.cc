@@ -279,13 +279,18 @@ MetallicMomentEstimate EstimateAlloy(absl::Span<const ElementAmount> a,
   double total = 0;
   for (const ElementAmount& amount : a) total += amount.count.ToDouble();
   double n = 0, strong = kSpPolarisation, main_group = 0, fe = 0, ferro = 0,
-         mn = 0, early = 0, ni = 0;
+         mn = 0, early = 0, ni = 0, heavy = 0;
   for (const ElementAmount& amount : a) {
     const Element& el = *amount.element;
     const double x = amount.count.ToDouble() / total;
     const int z = MetallicValenceElectrons(el);
+    // Pd and Pt beside a Fe and Co majority are polarised by it and
+    // count as late metals, N_d↑ = 5 (L1_0 FePt, CoPt, FePd).
+    const bool pd_pt = el.atomic_number == 46 || el.atomic_number == 78;
     if (IsMainGroup(el)) {
       main_group += x;
+    } else if (pd_pt) {
+      heavy += x;
     } else if (!Is3d(el)) {
       return None(
           e, absl::StrCat(el.symbol,
@@ -299,7 +304,7 @@ MetallicMomentEstimate EstimateAlloy(absl::Span<const ElementAmount> a,
     }
     n += x * z;
     // Magnetic valence: N_d↑ = 5 from Mn on, 0 before and for sp atoms.
-    const bool late = Is3d(el) && el.atomic_number >= 25;
+    const bool late = (Is3d(el) && el.atomic_number >= 25) || pd_pt;
     strong += x * ((late ? 10 : 0) - z);
     if (el.symbol == "Fe") fe = x;
     if (el.symbol == "Ni") ni = x;
@@ -316,6 +321,13 @@ MetallicMomentEstimate EstimateAlloy(absl::Span<const ElementAmount> a,
                        "compounds such as Fe3Al, Fe3C lie off it); no "
                        "estimate",
                        100 * main_group, 100 * kMaxMainGroupFraction));
+  }
+  if (heavy > 0 && ferro - ni < 0.5) {
+    return None(e,
+                "Pd and Pt are exchange-enhanced paramagnets, not ordered, "
+                "unless Fe and Co make at least half the atoms (FePt, "
+                "CoPt; Ni-Pt loses its moment near equal parts); no "
+                "estimate");
   }
   if (ferro < 0.5) {
     return None(e,
@@ -359,6 +371,11 @@ MetallicMomentEstimate EstimateAlloy(absl::Span<const ElementAmount> a,
       "%.3g μB per atom%s",
       branch, n, m,
       m == 0 ? "; the curve has reached zero: no ferromagnetic moment" : "");
+  if (heavy > 0) {
+    e.note +=
+        "; Pd and Pt carry only a moment induced by their Fe, Co or Ni "
+        "neighbours (about 0.3 μB)";
+  }
   if (fe > 0.5 && ni >= 0.25 && ni <= 0.45) {
     e.note +=
         "; Fe-Ni Invar region: measured moments fall below the curve near "

@@ -9,6 +9,7 @@
 #include <optional>
 #include <tuple>
 
+#include "absl/base/attributes.h"
 #include "absl/container/inlined_vector.h"
 #include "absl/strings/str_cat.h"
 #include "engine/internal/charge_dp.h"
@@ -265,6 +266,31 @@ bool IsClusterFormer(const Element& e) {
 
 using Reading = absl::InlinedVector<const UnitMatch*, 4>;
 
+// Metal-rich halides and chalcogenides of the cluster formers, at most
+// three anions per metal atom and no other non-metal, hold metal clusters
+// whose +2 and +3 states are the usual ones: [Mo6Cl8]4+ in MoCl2,
+// [Nb6Cl12]2+ in Nb6Cl14, Ta6Cl15, the Re3Cl9 triangles of ReCl3, the
+// Chevrel phases PbMo6S8 and SnMo6S8 (Pb(II), Sn(II)) and LaMo6Se8
+// (Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed., chs. 22 and
+// 23; Chevrel, Sergent and Prigent, J. Solid State Chem. 3 (1971) 515;
+// from memory). Kept out of line: few records hold a cluster former.
+ABSL_ATTRIBUTE_NOINLINE bool HoldsMetalClusters(const Plans& plans) {
+  Rational metal(0), anion(0);
+  for (const ElementPlan& p : plans) {
+    const Element& e = *p.element;
+    const int z = e.atomic_number;
+    if (IsClusterFormer(e)) {
+      metal = metal + p.count;
+    } else if (z == 16 || z == 34 || z == 52 || z == 9 || z == 17 || z == 35 ||
+               z == 53) {
+      anion = anion + p.count;
+    } else if (!IsMetal(e)) {
+      return false;
+    }
+  }
+  return !(metal * Rational(3) < anion);
+}
+
 // Builds the plan of every free element and unit of `reading`, or returns
 // false when the reading's units need more atoms than the formula holds.
 // Declared elements take exactly their declared states.
@@ -327,36 +353,16 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   }
   // Chalcogenide anions only (no free O, F, Cl or N): metals keep to their
   // chalcogenide maximum (MnS2 is Mn(II) disulfide, not Mn(IV) sulfide).
-  bool chalcogen = false, hard_anion = false;
-  // Atoms of 4d and 5d metals of groups 4 to 7, and of halide and
-  // chalcogen atoms, for the cluster compounds below.
-  Rational cluster_metal(0), cluster_anion(0);
-  bool other_nonmetal = false;
+  bool chalcogen = false, hard_anion = false, cluster_former = false;
   for (const ElementPlan& p : plans) {
-    const Element& e = *p.element;
-    const int z = e.atomic_number;
+    const int z = p.element->atomic_number;
     chalcogen |= z == 16 || z == 34 || z == 52;
     hard_anion |= z == 7 || z == 8 || z == 9 || z == 17;
-    if (IsClusterFormer(e)) {
-      cluster_metal = cluster_metal + p.count;
-    } else if (z == 16 || z == 34 || z == 52 || z == 9 || z == 17 || z == 35 ||
-               z == 53) {
-      cluster_anion = cluster_anion + p.count;
-    } else if (!IsMetal(e)) {
-      other_nonmetal = true;
-    }
+    cluster_former |= IsClusterFormer(*p.element);
   }
   const bool soft_only = chalcogen && !hard_anion;
-  // Metal-rich halides and chalcogenides of those metals, at most three
-  // anions per metal atom, hold metal clusters whose +2 and +3 states are
-  // the usual ones: [Mo6Cl8]4+ in MoCl2, [Nb6Cl12]2+ in Nb6Cl14, Ta6Cl15,
-  // the Re3Cl9 triangles of ReCl3, the Chevrel phases PbMo6S8 and
-  // SnMo6S8 (Pb(II), Sn(II)) and LaMo6Se8 (Greenwood and
-  // Earnshaw, Chemistry of the Elements, 2nd ed., chs. 22 and 23; Chevrel,
-  // Sergent and Prigent, J. Solid State Chem. 3 (1971) 515; from memory).
-  const bool clusters = !cluster_metal.IsZero() && !other_nonmetal &&
-                        reading.empty() &&
-                        !(cluster_metal * Rational(3) < cluster_anion);
+  const bool clusters =
+      cluster_former && reading.empty() && HoldsMetalClusters(plans);
   // Every cation an alkali metal (for the Zintl clusters below); only a
   // Zintl reading asks, so other records skip the loop.
   bool alkali_only = zintl;
