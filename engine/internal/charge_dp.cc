@@ -485,9 +485,33 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
       }
     }
     if (bound < kInfinity) {
-      // Drop cells that cannot lead below `bound`.
+      // Drop cells that cannot lead below `bound`. A cell passes
+      // `promising` when its cost is below `limit` and the rest of the
+      // target lies in the span its spare uncommon states allow. The spare
+      // only grows as the cost falls, so when the span at the least spare
+      // a passing cost can have, and every wider one, holds the rest of
+      // every total of this layer, the cost alone decides (the usual case:
+      // a bound below one uncommon state leaves no spare to count).
+      const UncommonNeed& need = needs[i + 1];
+      bool cost_decides = true;
+      int64_t limit = std::numeric_limits<int64_t>::min();  // None passes.
+      if (rest_weight[i + 1] < bound) {
+        limit = bound - rest_weight[i + 1];
+        // The spare of the costliest passing cell, limit - 1.
+        const int64_t spare =
+            rest_weight[i + 1] / kUncommonWeight - need.forced;
+        cost_decides = spare >= 0;
+        for (int64_t m = std::min<int64_t>(std::max<int64_t>(spare, 0),
+                                           need.extensible);
+             cost_decides && m <= need.extensible; ++m) {
+          cost_decides = target - next_hi >= need.lo[m] &&
+                         target - next_lo <= need.hi[m];
+        }
+      }
       for (int64_t j = 0; j <= next_hi - next_lo; ++j) {
-        if (next[j] < kInfinity && !promising(i + 1, next[j], next_lo + j)) {
+        if (next[j] < kInfinity &&
+            (cost_decides ? next[j] >= limit
+                          : !promising(i + 1, next[j], next_lo + j))) {
           next[j] = kInfinity;
           if (pruning != nullptr) *pruning = Pruning::kInSearch;
         }
