@@ -259,6 +259,50 @@ internal::AnionClass StructureClassOf(const Formula& formula) {
 // A reading of the formula: the unit matches read as units.
 using Reading = absl::InlinedVector<const UnitMatch*, 4>;
 
+// Whether MakePlans could plan `reading` as far as its units go: they
+// need no more atoms than the formula holds, their counts are whole at
+// `scale`, and each match keeps a unit that its free elements accept (a
+// unit read from a bare run keeps to the cations it is met with, and needs
+// one of them). MakePlans asks this before it builds the element plans,
+// which most such readings would build for nothing: the bare O2 of
+// LiCoO2 and O3 of LaMnO3, which no transition metal keeps as peroxide or
+// ozonide.
+bool MayPlan(const Formula& formula, const Rational& scale,
+             const Reading& reading) {
+  absl::InlinedVector<const Element*, 8> free_elements;
+  for (const ElementAmount& a : formula.amounts) {
+    Rational count = a.count;
+    for (const UnitMatch* m : reading) {
+      for (const UnitAtom& u : m->units.front()->atoms) {
+        if (u.element == a.element) {
+          count = count - m->count * Rational(u.count);
+        }
+      }
+    }
+    if (count < Rational(0)) return false;
+    if (!count.IsZero()) free_elements.push_back(a.element);
+  }
+  for (const UnitMatch* m : reading) {
+    if (!(m->count * scale).IsInteger()) return false;
+    bool any = false;
+    for (const Unit* u : m->units) {
+      bool accepted = !m->weak;
+      for (size_t k = 0; k < free_elements.size() && m->weak; ++k) {
+        const Element& e = *free_elements[k];
+        const bool cation = u->AcceptsCation(e);
+        if (IsMetal(e) && !cation) {
+          accepted = false;
+          break;
+        }
+        accepted |= cation;
+      }
+      any |= accepted;
+    }
+    if (!any) return false;
+  }
+  return true;
+}
+
 // Builds the plan of every free element and unit of `reading`, or returns
 // false when the reading's units need more atoms than the formula holds.
 // Declared elements take exactly their declared states.
@@ -271,6 +315,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
                bool zintl, internal::AnionClass structure, Plans* out) {
   Plans& plans = *out;
   plans.clear();
+  if (!reading.empty() && !MayPlan(formula, scale, reading)) return false;
   plans.reserve(formula.amounts.size() + reading.size());
   bool carbon_or_nitrogen = false;
   for (size_t i = 0; i < formula.amounts.size(); ++i) {
