@@ -954,6 +954,14 @@ CompositionReport Analyze(const CompositionInput& input) {
   FormulaIssue issue;
   absl::StatusOr<Formula> formula =
       ParseFormula(input.formula, formula_options, &issue);
+  // The formula's storage goes back to this thread's parser when the
+  // record is done, whichever way Analyze returns.
+  struct Recycle {
+    absl::StatusOr<Formula>* formula;
+    ~Recycle() {
+      if (formula->ok()) RecycleFormula(std::move(**formula));
+    }
+  } recycle{&formula};
   if (!formula.ok()) {
     Add(&r, Severity::kError, issue.code,
         absl::StrCat("formula ", QuoteForMessage(input.formula), ": ",
