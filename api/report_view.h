@@ -265,8 +265,7 @@ struct IonKey {
          (moment * 0x9E3779B97F4A7C15ull) ^ (low * 0xC2B2AE3D27D4EB4Full) ^
          (high * 0x165667B19E3779F9ull) ^ static_cast<uint64_t>(state) ^
          (f * 0x27D4EB2F165667C5ull) ^ (environment << 40) ^ (model << 52) ^
-         (ordered * 0x94D049BB133111EBull) ^
-         reinterpret_cast<uintptr_t>(site) ^
+         (ordered * 0x94D049BB133111EBull) ^ reinterpret_cast<uintptr_t>(site) ^
          reinterpret_cast<uintptr_t>(ligand)) *
         0xFF51AFD7ED558CCDull;
     return h ^ (h >> 32);

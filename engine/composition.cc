@@ -523,9 +523,8 @@ struct IonAnnotationKey {
   bool set = false;  // The record sets the element's geometry or spin.
 
   bool operator==(const IonAnnotationKey& o) const {
-    return element == o.element && state == o.state &&
-           anion_z == o.anion_z && ligand == o.ligand &&
-           f_bits == o.f_bits && geometry == o.geometry &&
+    return element == o.element && state == o.state && anion_z == o.anion_z &&
+           ligand == o.ligand && f_bits == o.f_bits && geometry == o.geometry &&
            spin_state == o.spin_state && basis == o.basis &&
            near_crossover == o.near_crossover &&
            metal_metal_bonded == o.metal_metal_bonded && zintl == o.zintl &&
@@ -560,12 +559,12 @@ struct IonAnnotationSlot {
 };
 
 IonAnnotationSlot& IonAnnotationSlotFor(const IonAnnotationKey& key) {
-  thread_local std::unique_ptr<std::array<IonAnnotationSlot,
-                                          kIonAnnotationSlots>>
+  thread_local std::unique_ptr<
+      std::array<IonAnnotationSlot, kIonAnnotationSlots>>
       slots;
   if (slots == nullptr) {
-    slots = std::make_unique<
-        std::array<IonAnnotationSlot, kIonAnnotationSlots>>();
+    slots =
+        std::make_unique<std::array<IonAnnotationSlot, kIonAnnotationSlots>>();
   }
   return (*slots)[key.Hash()];
 }

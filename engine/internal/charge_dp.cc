@@ -514,8 +514,8 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
         for (int64_t m = std::min<int64_t>(std::max<int64_t>(spare, 0),
                                            need.extensible);
              cost_decides && m <= need.extensible; ++m) {
-          cost_decides = target - next_hi >= need.lo[m] &&
-                         target - next_lo <= need.hi[m];
+          cost_decides =
+              target - next_hi >= need.lo[m] && target - next_lo <= need.hi[m];
         }
       }
       for (int64_t j = 0; j <= next_hi - next_lo; ++j) {
