@@ -343,7 +343,8 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   for (size_t i = 0; i < formula.amounts.size(); ++i) {
     const ElementAmount& a = formula.amounts[i];
     bool in_unit = false;
-    const Rational count = FreeCount(a, reading, &in_unit);
+    const Rational count =
+        reading.empty() ? a.count : FreeCount(a, reading, &in_unit);
     if (count < Rational(0)) return false;
     if (count.IsZero()) continue;
 
