@@ -252,15 +252,23 @@ struct IonKey {
            environment == o.environment && model == o.model &&
            ordered == o.ordered && site == o.site;
   }
+  // The caches take the hash modulo their slot count, so its low bits
+  // must depend on every field: the product's low bits depend only on the
+  // low bits of what it multiplies (the environment and model, shifted
+  // high, and the heap addresses of descriptions, which differ in high
+  // bits, would not count), so its high half is folded in. Without that,
+  // the A- and B-site Fe3+ of a spinel, alike but for the description and
+  // the site, could share a slot and take turns in it.
   uint64_t Hash() const {
-    return (reinterpret_cast<uintptr_t>(description) ^
-            (moment * 0x9E3779B97F4A7C15ull) ^ (low * 0xC2B2AE3D27D4EB4Full) ^
-            (high * 0x165667B19E3779F9ull) ^ static_cast<uint64_t>(state) ^
-            (f * 0x27D4EB2F165667C5ull) ^ (environment << 40) ^ (model << 52) ^
-            (ordered * 0x94D049BB133111EBull) ^
-            reinterpret_cast<uintptr_t>(site) ^
-            reinterpret_cast<uintptr_t>(ligand)) *
-           0xFF51AFD7ED558CCDull;
+    const uint64_t h =
+        (reinterpret_cast<uintptr_t>(description) ^
+         (moment * 0x9E3779B97F4A7C15ull) ^ (low * 0xC2B2AE3D27D4EB4Full) ^
+         (high * 0x165667B19E3779F9ull) ^ static_cast<uint64_t>(state) ^
+         (f * 0x27D4EB2F165667C5ull) ^ (environment << 40) ^ (model << 52) ^
+         (ordered * 0x94D049BB133111EBull) ^ reinterpret_cast<uintptr_t>(site) ^
+         reinterpret_cast<uintptr_t>(ligand)) *
+        0xFF51AFD7ED558CCDull;
+    return h ^ (h >> 32);
   }
 };
 

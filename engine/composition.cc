@@ -2,6 +2,8 @@
 
 #include <array>
 #include <cmath>
+#include <cstring>
+#include <memory>
 #include <numeric>
 
 #include "absl/container/inlined_vector.h"
@@ -29,6 +31,9 @@ using internal::QuoteForMessage;
 
 void Add(CompositionReport* r, Severity severity, std::string code,
          std::string message, int column = 0) {
+  // Room for most records' diagnostics at the first; a record without
+  // any (a third of typical input) allocates none.
+  if (r->diagnostics.capacity() == 0) r->diagnostics.reserve(4);
   r->diagnostics.push_back(
       Diagnostic{severity, std::move(code), std::move(message), column});
 }
@@ -499,12 +504,104 @@ IonEnvironment OnSite(IonEnvironment env, const AssignedState& s,
   return env;
 }
 
+// What an ion's annotation depends on besides its count and site, at the
+// default temperature: its element and state, its environment, whether
+// the record's settings fix its geometry or spin state, whether the record
+// is a Zintl phase, and the main anion.
+struct IonAnnotationKey {
+  const Element* element = nullptr;
+  int state = 0;
+  int anion_z = 0;
+  const Ligand* ligand = nullptr;
+  uint64_t f_bits = 0;  // IonEnvironment::f, bit for bit.
+  Geometry geometry = Geometry::kFree;
+  SpinStatePreference spin_state = SpinStatePreference::kAuto;
+  SpinBasis basis = SpinBasis::kNone;
+  bool near_crossover = false;
+  bool metal_metal_bonded = false;
+  bool zintl = false;
+  bool set = false;  // The record sets the element's geometry or spin.
+
+  bool operator==(const IonAnnotationKey& o) const {
+    return element == o.element && state == o.state && anion_z == o.anion_z &&
+           ligand == o.ligand && f_bits == o.f_bits && geometry == o.geometry &&
+           spin_state == o.spin_state && basis == o.basis &&
+           near_crossover == o.near_crossover &&
+           metal_metal_bonded == o.metal_metal_bonded && zintl == o.zintl &&
+           set == o.set;
+  }
+  size_t Hash() const {
+    uint64_t h = reinterpret_cast<uintptr_t>(element) ^
+                 (static_cast<uint64_t>(state + 16) << 3) ^
+                 (static_cast<uint64_t>(anion_z) << 9) ^
+                 reinterpret_cast<uintptr_t>(ligand) ^ f_bits ^
+                 (static_cast<uint64_t>(geometry) << 17) ^
+                 (static_cast<uint64_t>(spin_state) << 21) ^
+                 (static_cast<uint64_t>(basis) << 25) ^
+                 (uint64_t{near_crossover} << 29) ^
+                 (uint64_t{metal_metal_bonded} << 30) ^
+                 (uint64_t{zintl} << 31) ^ (uint64_t{set} << 32);
+    h *= 0x9E3779B97F4A7C15ull;
+    return static_cast<size_t>(h >> 56);  // kIonAnnotationSlots = 256.
+  }
+};
+
+// Annotations already made on this thread, by key: a record's ions are
+// mostly ions of earlier records (Mn3+ among oxides), and describing one
+// and setting its moments costs several times a lookup. Direct-mapped,
+// made on first use (about 60 KB a thread); the descriptions are this
+// thread's handles (DescribeAtom), so a copy touches no shared count.
+constexpr size_t kIonAnnotationSlots = 256;
+struct IonAnnotationSlot {
+  bool used = false;
+  IonAnnotationKey key;
+  IonAnnotation ion{};
+};
+
+IonAnnotationSlot& IonAnnotationSlotFor(const IonAnnotationKey& key) {
+  thread_local std::unique_ptr<
+      std::array<IonAnnotationSlot, kIonAnnotationSlots>>
+      slots;
+  if (slots == nullptr) {
+    slots =
+        std::make_unique<std::array<IonAnnotationSlot, kIonAnnotationSlots>>();
+  }
+  return (*slots)[key.Hash()];
+}
+
 // Annotates the free ion `s` (`count` of it, in `env`, on `site` when a
 // structure family placed it there) with its description and moments.
+// At the default temperature the annotation is taken from this thread's
+// earlier ones where their key matches (IonAnnotationKey).
 void AnnotateIon(const AssignedState& s, const Rational& count,
                  const IonEnvironment& env, const Site* site,
                  const ElementSettings& settings, double temperature,
                  int anion_z, CompositionReport* r) {
+  IonAnnotationSlot* slot = nullptr;
+  IonAnnotationKey key;
+  if (temperature == kDefaultTemperature) {
+    key.element = s.element;
+    key.state = s.state;
+    key.anion_z = anion_z;
+    key.ligand = env.ligand;
+    static_assert(sizeof(env.f) == sizeof(key.f_bits));
+    std::memcpy(&key.f_bits, &env.f, sizeof(key.f_bits));
+    key.geometry = env.geometry;
+    key.spin_state = env.spin_state;
+    key.basis = env.basis;
+    key.near_crossover = env.near_crossover;
+    key.metal_metal_bonded = env.metal_metal_bonded;
+    key.zintl = r->kind == CompositionKind::kZintl;
+    key.set = FindSetting(settings.geometry, s.element) != nullptr ||
+              FindSetting(settings.spin, s.element) != nullptr;
+    slot = &IonAnnotationSlotFor(key);
+    if (slot->used && slot->key == key) {
+      IonAnnotation& ion = r->ions.emplace_back(slot->ion);
+      ion.count = count;
+      if (site != nullptr) ion.site = site->name;
+      return;
+    }
+  }
   absl::StatusOr<AtomDescriptionPtr> d =
       DescribeIon(s.element, s.state, env.geometry, env.spin_state);
   if (!d.ok()) {
@@ -535,6 +632,13 @@ void AnnotateIon(const AssignedState& s, const Rational& count,
         FindSetting(settings.spin, s.element) != nullptr ||
         (s.state <= 0 && description.configuration_user_supplied);
     SetMomentRange(description, env, s, fixed, temperature, anion_z, &ion);
+  }
+  if (slot != nullptr) {
+    slot->used = true;
+    slot->key = key;
+    slot->ion = ion;
+    slot->ion.count = Rational();
+    slot->ion.site = {};
   }
 }
 
@@ -829,7 +933,6 @@ namespace {
 // compiler then builds in the caller's place (no move of the report).
 CompositionReport Analyze(const CompositionInput& input) {
   CompositionReport r;
-  r.diagnostics.reserve(4);  // Enough for most records.
   r.id = input.id;
   if (r.id.size() > kMaxRecordIdLength) {
     r.id.resize(Utf8Prefix(r.id, kMaxRecordIdLength).size());
@@ -852,6 +955,14 @@ CompositionReport Analyze(const CompositionInput& input) {
   FormulaIssue issue;
   absl::StatusOr<Formula> formula =
       ParseFormula(input.formula, formula_options, &issue);
+  // The formula's storage goes back to this thread's parser when the
+  // record is done, whichever way Analyze returns.
+  struct Recycle {
+    absl::StatusOr<Formula>* formula;
+    ~Recycle() {
+      if (formula->ok()) RecycleFormula(std::move(**formula));
+    }
+  } recycle{&formula};
   if (!formula.ok()) {
     Add(&r, Severity::kError, issue.code,
         absl::StrCat("formula ", QuoteForMessage(input.formula), ": ",

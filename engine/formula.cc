@@ -239,6 +239,19 @@ const std::string& KnownAbbreviations() {
   return *kText;
 }
 
+// The lists of the last formula handed back on this thread
+// (RecycleFormula), emptied, keeping their storage for the next parse.
+struct FormulaStorage {
+  std::vector<ElementAmount> amounts;
+  std::vector<WrittenTerm> terms;
+  std::vector<WrittenGroup> groups;
+};
+
+FormulaStorage& ThreadFormulaStorage() {
+  thread_local FormulaStorage storage;
+  return storage;
+}
+
 class FormulaParser {
  public:
   FormulaParser(absl::string_view text, const FormulaOptions& options)
@@ -251,7 +264,12 @@ class FormulaParser {
       text_.remove_suffix(suffix);
       formula.charge = charge;
     }
-    // One allocation each for most formulas' terms and amounts.
+    // The storage of this thread's last formula, where it was handed back;
+    // else one allocation each for most formulas' terms and amounts.
+    FormulaStorage& storage = ThreadFormulaStorage();
+    formula.amounts.swap(storage.amounts);
+    terms_.swap(storage.terms);
+    groups_.swap(storage.groups);
     terms_.reserve(kTypicalTerms);
     formula.amounts.reserve(kTypicalTerms);
     // Each element's place in formula.amounts plus one; 0 before it has one.
@@ -879,6 +897,16 @@ class FormulaParser {
 };
 
 }  // namespace
+
+void RecycleFormula(Formula&& formula) {
+  FormulaStorage& storage = ThreadFormulaStorage();
+  formula.amounts.clear();
+  formula.terms.clear();
+  formula.groups.clear();
+  storage.amounts.swap(formula.amounts);
+  storage.terms.swap(formula.terms);
+  storage.groups.swap(formula.groups);
+}
 
 Rational Formula::TotalAtoms() const {
   Rational total(0);

@@ -179,6 +179,16 @@ absl::StatusOr<Formula> ParseFormula(absl::string_view text,
                                      const FormulaOptions& options,
                                      FormulaIssue* error = nullptr);
 
+// Hands the storage of a formula that is no longer needed back to this
+// thread, for its next ParseFormula to fill: a long run of records then
+// allocates no term, amount or group list per formula. Optional; each
+// thread keeps the storage of one formula.
+//
+//   absl::StatusOr<Formula> f = ParseFormula("LiCoO2");
+//   ...
+//   if (f.ok()) RecycleFormula(*std::move(f));
+void RecycleFormula(Formula&& formula);
+
 }  // namespace shellwright
 
 #endif  // SHELLWRIGHT_ENGINE_FORMULA_H_

@@ -257,13 +257,13 @@ internal::AnionClass StructureClassOf(const Formula& formula) {
   return internal::AnionClass::kHard;
 }
 
-// A reading of the formula: the unit matches read as units.
 // The 4d and 5d metals of groups 4 to 7 (Zr to Re), which form metal
 // clusters in their low states.
 bool IsClusterFormer(const Element& e) {
   return e.block == Block::kD && e.period >= 5 && e.group >= 4 && e.group <= 7;
 }
 
+// A reading of the formula: the unit matches read as units.
 using Reading = absl::InlinedVector<const UnitMatch*, 4>;
 
 // Metal-rich halides and chalcogenides of the cluster formers, at most
@@ -291,6 +291,72 @@ ABSL_ATTRIBUTE_NOINLINE bool HoldsMetalClusters(const Plans& plans) {
   return !(metal * Rational(3) < anion);
 }
 
+// The atoms of `a`'s element left free by the units of `reading` (may be
+// negative: the units need more than the formula holds); `*in_unit` says
+// whether a unit holds any.
+Rational FreeCount(const ElementAmount& a, const Reading& reading,
+                   bool* in_unit) {
+  Rational count = a.count;
+  *in_unit = false;
+  for (const UnitMatch* m : reading) {
+    for (const UnitAtom& u : m->units.front()->atoms) {
+      if (u.element == a.element) {
+        count = count - m->count * Rational(u.count);
+        *in_unit = true;
+      }
+    }
+  }
+  return count;
+}
+
+// Whether unit `u` of match `m` may be read beside the free elements
+// `element(0..n-1)`. A unit read from a bare run keeps to the cations it
+// is met with (EuO2 is no superoxide), and needs one of them (ClO2 is no
+// superoxide of Cl+1; H2O2 is a peroxide, H being in the s block).
+template <typename ElementAt>
+bool UnitAccepted(const Unit& u, const UnitMatch& m, size_t n,
+                  const ElementAt& element) {
+  bool accepted = !m.weak;
+  for (size_t k = 0; k < n && m.weak; ++k) {
+    const Element& e = element(k);
+    const bool cation = u.AcceptsCation(e);
+    if (IsMetal(e) && !cation) return false;
+    accepted |= cation;
+  }
+  return accepted;
+}
+
+// Whether MakePlans could plan `reading` as far as its units go: they
+// need no more atoms than the formula holds, their counts are whole at
+// `scale`, and each match keeps a unit that its free elements accept (a
+// unit read from a bare run keeps to the cations it is met with, and needs
+// one of them). MakePlans asks this before it builds the element plans,
+// which most such readings would build for nothing: the bare O2 of
+// LiCoO2 and O3 of LaMnO3, which no transition metal keeps as peroxide or
+// ozonide.
+bool MayPlan(const Formula& formula, const Rational& scale,
+             const Reading& reading) {
+  absl::InlinedVector<const Element*, 8> free_elements;
+  for (const ElementAmount& a : formula.amounts) {
+    bool in_unit = false;
+    const Rational count = FreeCount(a, reading, &in_unit);
+    if (count < Rational(0)) return false;
+    if (!count.IsZero()) free_elements.push_back(a.element);
+  }
+  const auto element = [&](size_t k) -> const Element& {
+    return *free_elements[k];
+  };
+  for (const UnitMatch* m : reading) {
+    if (!(m->count * scale).IsInteger()) return false;
+    bool any = false;
+    for (const Unit* u : m->units) {
+      any |= UnitAccepted(*u, *m, free_elements.size(), element);
+    }
+    if (!any) return false;
+  }
+  return true;
+}
+
 // Builds the plan of every free element and unit of `reading`, or returns
 // false when the reading's units need more atoms than the formula holds.
 // Declared elements take exactly their declared states.
@@ -303,20 +369,14 @@ bool MakePlans(const Formula& formula, const Rational& scale,
                bool zintl, internal::AnionClass structure, Plans* out) {
   Plans& plans = *out;
   plans.clear();
+  if (!reading.empty() && !MayPlan(formula, scale, reading)) return false;
   plans.reserve(formula.amounts.size() + reading.size());
   bool carbon_or_nitrogen = false;
   for (size_t i = 0; i < formula.amounts.size(); ++i) {
     const ElementAmount& a = formula.amounts[i];
-    Rational count = a.count;
     bool in_unit = false;
-    for (const UnitMatch* m : reading) {
-      for (const UnitAtom& u : m->units.front()->atoms) {
-        if (u.element == a.element) {
-          count = count - m->count * Rational(u.count);
-          in_unit = true;
-        }
-      }
-    }
+    const Rational count =
+        reading.empty() ? a.count : FreeCount(a, reading, &in_unit);
     if (count < Rational(0)) return false;
     if (count.IsZero()) continue;
 
@@ -487,20 +547,11 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     p.count = m->count;
     p.scaled_count = (m->count * scale).num();
     for (const Unit* u : m->units) {
-      // A unit read from a bare run keeps to the cations it is met with
-      // (EuO2 is no superoxide), and needs one of them (ClO2 is no
-      // superoxide of Cl+1; H2O2 is a peroxide, H being in the s block).
-      bool accepted = !m->weak;
-      for (size_t k = 0; k < free_elements && m->weak; ++k) {
-        const Element& e = *plans[k].element;
-        const bool cation = u->AcceptsCation(e);
-        if (IsMetal(e) && !cation) {
-          accepted = false;
-          break;
-        }
-        accepted |= cation;
+      if (!UnitAccepted(*u, *m, free_elements, [&](size_t k) -> const Element& {
+            return *plans[k].element;
+          })) {
+        continue;
       }
-      if (!accepted) continue;
       p.units.push_back(u);
       StateOption o;
       o.low = o.high = u->charge;

@@ -57,6 +57,9 @@ struct Tables {
   // Indices into `classes` by the atomic number of their signature's
   // first (lightest) atom, in increasing order.
   std::array<std::vector<int>, kMaxAtomicNumber + 1> classes_by_first;
+  // Whether some class's signature holds the element (by atomic number):
+  // a written group with any other element matches no class.
+  std::array<bool, kMaxAtomicNumber + 1> in_a_class{};
   // Written forms by the atomic number of their first element.
   std::array<std::vector<WrittenForm>, kMaxAtomicNumber + 1> forms_by_first;
   std::vector<Ligand> ligands;
@@ -126,6 +129,9 @@ const Tables& GetTables() {
     for (size_t k = 0; k < t->classes.size(); ++k) {
       t->classes_by_first[t->classes[k].signature.front().first].push_back(
           static_cast<int>(k));
+      for (const auto& [z, unused] : t->classes[k].signature) {
+        t->in_a_class[z] = true;
+      }
     }
     for (Tables::UnitClass& c : t->classes) {
       std::sort(
@@ -312,13 +318,31 @@ const SpinCrossover* FindSpinCrossover(const Element& element, int state) {
   return nullptr;
 }
 
+// Whether every element written in `group` belongs to some unit class:
+// otherwise neither the group nor a span ending with it is a unit (the
+// rock-salt group of (Mg0.2Co0.2Ni0.2Cu0.2Zn0.2)O), and its signature
+// need not be built.
+bool MayBeUnit(const Tables& t, const Formula& formula,
+               const WrittenGroup& group) {
+  for (int i = group.first_term; i < group.end_term; ++i) {
+    if (!t.in_a_class[formula.terms[i].element->atomic_number]) return false;
+  }
+  return true;
+}
+
 UnitMatches FindUnitMatches(const Formula& formula) {
   const Tables& t = GetTables();
   UnitMatches matches;
+  // Groups that may be units (MayBeUnit), by index.
+  absl::InlinedVector<bool, 8> may_be_unit(formula.groups.size(), false);
+  for (size_t g = 0; g < formula.groups.size(); ++g) {
+    may_be_unit[g] = MayBeUnit(t, formula, formula.groups[g]);
+  }
   // Written groups whose contents are a unit's atoms.
   absl::InlinedVector<bool, 8> whole(formula.groups.size(), false);
   for (size_t g = 0; g < formula.groups.size(); ++g) {
     const WrittenGroup& group = formula.groups[g];
+    if (!may_be_unit[g]) continue;
     absl::InlinedVector<std::pair<int, Rational>, 8> signature;
     for (int i = group.first_term; i < group.end_term; ++i) {
       const WrittenTerm& term = formula.terms[i];
@@ -341,7 +365,7 @@ UnitMatches FindUnitMatches(const Formula& formula) {
   UnitMatches spans;
   for (size_t g = 0; g < formula.groups.size(); ++g) {
     const WrittenGroup& group = formula.groups[g];
-    if (group.bracket == '*') continue;
+    if (group.bracket == '*' || !may_be_unit[g]) continue;
     const int level = group.parent;
     absl::InlinedVector<std::pair<int, Rational>, 8> signature;
     for (int i = group.first_term; i < group.end_term; ++i) {

@@ -141,6 +141,9 @@ struct Scratch {
   TotalIndex slot;
   SparseRun forward, backward;
   std::vector<size_t> by_total;
+  // Set where a buffer that ReleaseSearchScratch weighs may have grown
+  // since it last weighed them: only then can they hold more than it keeps.
+  bool grown = false;
 };
 
 Scratch& ThreadScratch() {
@@ -153,6 +156,8 @@ Scratch& ThreadScratch() {
 void ReleaseSearchScratch() {
   constexpr size_t kKeepCells = 1 << 15;
   Scratch& s = ThreadScratch();
+  if (!s.grown) return;
+  s.grown = false;
   size_t held = s.window.capacity() + s.slot.capacity() + s.by_total.capacity();
   for (const std::vector<int64_t>& layer : s.cost) held += layer.capacity();
   for (const SparseRun* run : {&s.forward, &s.backward}) {
@@ -314,6 +319,7 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
   }
 
   if (cost.size() < n + 1) {
+    scratch.grown = true;
     cost.resize(n + 1);
     back.resize(n + 1);
   }
@@ -349,7 +355,10 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
     // narrower than the last one held reuses its storage as it is.
     const size_t width = static_cast<size_t>(next_hi - next_lo + 1);
     std::vector<int64_t>& next_layer = cost[i + 1];
-    if (next_layer.size() < width) next_layer.resize(width);
+    if (next_layer.size() < width) {
+      scratch.grown = true;
+      next_layer.resize(width);
+    }
     std::fill_n(next_layer.data(), width, kInfinity);
     // Only cells with a finite cost are ever read back, and each of those
     // is written below: no need to clear.
@@ -457,6 +466,7 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
         // class of every option of every layer. It holds at most one
         // entry per reachable cell of the class.
         if (window.size() < static_cast<size_t>(j_max - j_next + 1)) {
+          scratch.grown = true;
           window.resize(j_max - j_next + 1);
         }
         std::pair<int64_t, int64_t>* const queue = window.data();
@@ -485,9 +495,33 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
       }
     }
     if (bound < kInfinity) {
-      // Drop cells that cannot lead below `bound`.
+      // Drop cells that cannot lead below `bound`. A cell passes
+      // `promising` when its cost is below `limit` and the rest of the
+      // target lies in the span its spare uncommon states allow. The spare
+      // only grows as the cost falls, so when the span at the least spare
+      // a passing cost can have, and every wider one, holds the rest of
+      // every total of this layer, the cost alone decides (the usual case:
+      // a bound below one uncommon state leaves no spare to count).
+      const UncommonNeed& need = needs[i + 1];
+      bool cost_decides = true;
+      int64_t limit = std::numeric_limits<int64_t>::min();  // None passes.
+      if (rest_weight[i + 1] < bound) {
+        limit = bound - rest_weight[i + 1];
+        // The spare of the costliest passing cell, limit - 1.
+        const int64_t spare =
+            rest_weight[i + 1] / kUncommonWeight - need.forced;
+        cost_decides = spare >= 0;
+        for (int64_t m = std::min<int64_t>(std::max<int64_t>(spare, 0),
+                                           need.extensible);
+             cost_decides && m <= need.extensible; ++m) {
+          cost_decides =
+              target - next_hi >= need.lo[m] && target - next_lo <= need.hi[m];
+        }
+      }
       for (int64_t j = 0; j <= next_hi - next_lo; ++j) {
-        if (next[j] < kInfinity && !promising(i + 1, next[j], next_lo + j)) {
+        if (next[j] < kInfinity &&
+            (cost_decides ? next[j] >= limit
+                          : !promising(i + 1, next[j], next_lo + j))) {
           next[j] = kInfinity;
           if (pruning != nullptr) *pruning = Pruning::kInSearch;
         }
@@ -646,6 +680,8 @@ int64_t NarrowSearchWorkBound(absl::Span<const ChargeItem> items,
 Solution SolveChargeOneMixed(absl::Span<const ChargeItem> items,
                              const Candidates& candidates, Widening widening,
                              int64_t target, const SearchLimits& limits) {
+  // Its maps, index and join order grow as they need.
+  ThreadScratch().grown = true;
   const size_t n = items.size();
   std::array<const CandidateList*, kMaxDistinctElements> lists;
   for (size_t e = 0; e < n; ++e) {

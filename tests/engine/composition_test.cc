@@ -4,7 +4,9 @@
 #include "engine/composition.h"
 
 #include <cmath>
+#include <optional>
 #include <string>
+#include <thread>
 #include <utility>
 #include <vector>
 
@@ -1009,6 +1011,75 @@ TEST(Composition, SaltHydratesStayOctahedral) {
     EXPECT_EQ(ion.description->ligand_field->splitting.geometry,
               Geometry::kSquareAntiprismatic);
     EXPECT_EQ(ion.unpaired(), 0);
+  }
+}
+
+// Ion annotations are kept per thread (engine/composition.cc): records
+// analysed one after another on one thread, whose settings, temperatures
+// and environments change an ion, get what a thread that has kept none
+// gets for each of them alone.
+TEST(Composition, KeptIonAnnotationsMatchThoseOfAFreshThread) {
+  struct Case {
+    std::string formula, geometry, spin;
+    std::optional<double> temperature;
+  };
+  const std::vector<Case> cases = {
+      {"LaCoO3", "", "", std::nullopt},
+      {"LaCoO3", "", "Co:high", std::nullopt},
+      {"LaCoO3", "Co:tetrahedral", "", std::nullopt},
+      {"LaCoO3", "", "", 10.0},
+      {"LaCoO3", "", "", std::nullopt},
+      {"NiFe2O4", "", "", std::nullopt},
+      {"NiFe2O4", "Fe:octahedral", "", std::nullopt},
+      {"K3[Fe(CN)6]", "", "", std::nullopt},
+      {"K4[Fe(CN)6]", "", "", std::nullopt},
+      {"FeCl3", "", "", std::nullopt},
+      {"UO2", "", "", std::nullopt},
+      {"UCl4", "", "", std::nullopt},
+      {"Nd2O3", "", "", 100.0},
+      {"Nd2O3", "", "", std::nullopt},
+  };
+  const auto analyse = [](const Case& c) {
+    CompositionInput in;
+    in.formula = c.formula;
+    in.geometry = c.geometry;
+    in.spin_state = c.spin;
+    in.temperature = c.temperature;
+    return AnalyzeComposition(in);
+  };
+  for (int pass = 0; pass < 2; ++pass) {
+    for (const Case& c : cases) {
+      const CompositionReport kept = analyse(c);
+      CompositionReport fresh;
+      std::thread([&] { fresh = analyse(c); }).join();
+      SCOPED_TRACE(absl::StrCat(c.formula, " ", c.geometry, " ", c.spin, " ",
+                                c.temperature.value_or(0), " pass ", pass));
+      ASSERT_FALSE(kept.ions.empty());
+      ASSERT_EQ(kept.ions.size(), fresh.ions.size());
+      for (size_t i = 0; i < kept.ions.size(); ++i) {
+        const IonAnnotation& a = kept.ions[i];
+        const IonAnnotation& b = fresh.ions[i];
+        EXPECT_EQ(a.element, b.element);
+        EXPECT_EQ(a.state, b.state);
+        EXPECT_EQ(a.count, b.count);
+        EXPECT_EQ(a.description->unpaired_electrons,
+                  b.description->unpaired_electrons);
+        EXPECT_EQ(a.moment, b.moment);
+        EXPECT_EQ(a.moment_low, b.moment_low);
+        EXPECT_EQ(a.moment_high, b.moment_high);
+        EXPECT_EQ(a.model, b.model);
+        EXPECT_EQ(a.range_basis, b.range_basis);
+        EXPECT_EQ(a.ordered_moment, b.ordered_moment);
+        EXPECT_EQ(a.ordered_low, b.ordered_low);
+        EXPECT_EQ(a.ordered_high, b.ordered_high);
+        EXPECT_EQ(a.site, b.site);
+        EXPECT_EQ(a.ligand, b.ligand);
+        EXPECT_EQ(a.ligand_f, b.ligand_f);
+        EXPECT_EQ(a.spin_basis, b.spin_basis);
+        EXPECT_EQ(a.near_spin_crossover, b.near_spin_crossover);
+        EXPECT_EQ(a.bonded, b.bonded);
+      }
+    }
   }
 }
 

@@ -82,6 +82,36 @@ TEST(Formula, SodiumChloride) {
               ElementsAre(Pair("Na", Rational(1)), Pair("Cl", Rational(1))));
 }
 
+// A formula parsed into the storage of one handed back (RecycleFormula)
+// holds only its own terms, amounts and groups: nothing of the last one.
+TEST(Formula, RecycledStorageHoldsNothingOfTheLastFormula) {
+  absl::StatusOr<Formula> first = ParseFormula("K4[Fe(CN)6]·3H2O");
+  ASSERT_TRUE(first.ok());
+  ASSERT_EQ(first->groups.size(), 3u);
+  RecycleFormula(*std::move(first));
+  absl::StatusOr<Formula> second = ParseFormula("NaCl");
+  ASSERT_TRUE(second.ok());
+  EXPECT_EQ(second->amounts.size(), 2u);
+  EXPECT_EQ(second->terms.size(), 2u);
+  EXPECT_TRUE(second->groups.empty());
+  RecycleFormula(*std::move(second));
+  absl::StatusOr<Formula> third = ParseFormula("K4[Fe(CN)6]");
+  ASSERT_TRUE(third.ok());
+  absl::StatusOr<Formula> fresh = ParseFormula("K4[Fe(CN)6]");
+  ASSERT_TRUE(fresh.ok());
+  ASSERT_EQ(third->amounts.size(), fresh->amounts.size());
+  for (size_t i = 0; i < fresh->amounts.size(); ++i) {
+    EXPECT_EQ(third->amounts[i].element, fresh->amounts[i].element);
+    EXPECT_EQ(third->amounts[i].count, fresh->amounts[i].count);
+  }
+  ASSERT_EQ(third->terms.size(), fresh->terms.size());
+  ASSERT_EQ(third->groups.size(), fresh->groups.size());
+  for (size_t i = 0; i < fresh->groups.size(); ++i) {
+    EXPECT_EQ(third->groups[i].first_term, fresh->groups[i].first_term);
+    EXPECT_EQ(third->groups[i].end_term, fresh->groups[i].end_term);
+  }
+}
+
 TEST(Formula, IronOxideCountsInOrderOfAppearance) {
   EXPECT_THAT(Parse("Fe2O3"),
               ElementsAre(Pair("Fe", Rational(2)), Pair("O", Rational(3))));
