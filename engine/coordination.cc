@@ -213,8 +213,10 @@ IonEnvironment FindEnvironment(const Formula& formula,
     }
   }
   double total = 0, weighted = 0, most = 0;
+  double strong = 0;  // Sites held by strong-field ligands.
   for (const Site& s : sites) {
     total += s.sites;
+    if (s.ligand->f >= kStrongFieldF) strong += s.sites;
     weighted += s.sites * s.ligand->f;
     if (s.sites > most) {
       most = s.sites;
@@ -224,14 +226,19 @@ IonEnvironment FindEnvironment(const Formula& formula,
   if (total > 0) env.f = weighted / total;
   total += unlisted;
   bool pi_acceptors_only = !sites.empty();
+  bool pi_acceptor = false;
   for (const Site& s : sites) {
-    pi_acceptors_only &= s.ligand->f >= kPiAcceptorF;
+    pi_acceptors_only &= IsPiAcceptor(*s.ligand);
+    pi_acceptor |= IsPiAcceptor(*s.ligand);
   }
   // Donor sites per metal atom, where the formula shows them: in a
-  // complex, or with molecular ligands only (Ni(CO)4).
-  const double cn = (complex >= 0 || (molecular && total > 0)) && metal > 0
-                        ? total / metal
-                        : 0;
+  // complex, with molecular ligands only (Ni(CO)4), or beside a
+  // pi-acceptor ligand, which makes a molecular complex of the halides
+  // written with it (RhCl(PPh3)3, Mn(CO)5Br, NiCl2(PEt3)2).
+  const double cn =
+      (complex >= 0 || ((molecular || pi_acceptor) && total > 0)) && metal > 0
+          ? total / metal
+          : 0;
 
   // The Pd(I) and Pt(I) layers of the delafossites PdCoO2, PdCrO2 and
   // PtCoO2 are metallic, their d electrons shared in Pd-Pd bonds (Shannon,
@@ -295,10 +302,20 @@ IonEnvironment FindEnvironment(const Formula& formula,
     // [W(CN)8]4- (square antiprism or dodecahedron, one low orbital either
     // way).
     env.geometry = Geometry::kSquareAntiprismatic;
+  } else if (std::abs(cn - 2) < 0.01 && d == 10) {
+    // Two donor sites on a d10 ion: linear, as in [Ag(NH3)2]+,
+    // [Au(CN)2]- and Au(PPh3)Cl (Greenwood and Earnshaw, Chemistry of the
+    // Elements, 2nd ed., ch. 28, from memory).
+    env.geometry = Geometry::kLinear;
   } else if (std::abs(cn - 4) < 0.01) {
-    env.geometry = (d == 8 && (n >= 4 || env.f >= kStrongFieldF)) || d == 9
-                       ? Geometry::kSquarePlanar
-                       : Geometry::kTetrahedral;
+    // A 3d d8 ion is square planar when strong-field ligands hold at least
+    // half its sites: [Ni(CN)4]2-, and NiCl2(PEt3)2 and NiCl2(PMe3)2 beside
+    // tetrahedral NiCl2(PPh3)2 and [NiCl4]2- (Greenwood and Earnshaw,
+    // Chemistry of the Elements, 2nd ed., ch. 27, from memory).
+    const bool planar_d8 =
+        n >= 4 || env.f >= kStrongFieldF || 2 * strong >= total - 0.01;
+    env.geometry = (d == 8 && planar_d8) || d == 9 ? Geometry::kSquarePlanar
+                                                   : Geometry::kTetrahedral;
   } else if ((cn == 0 ? complex < 0 : cn < 3.99) && d == 8 &&
              (n >= 4 || e.atomic_number == 29) &&
              !(env.ligand != nullptr && env.ligand->anion != nullptr &&
@@ -357,6 +374,7 @@ IonEnvironment FindEnvironment(const Formula& formula,
                  : SpinBasis::kNoChoice);
       return env;
     case Geometry::kTrigonalPrismatic:
+    case Geometry::kLinear:
       set(SpinState::kLow, SpinBasis::kNoChoice);
       return env;
     case Geometry::kTrigonalBipyramidal:

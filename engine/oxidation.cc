@@ -89,13 +89,19 @@ ChargeItems ItemsOf(const Plans& plans) {
 // Candidate electronegativity thresholds: elements above a threshold
 // should be negative, those below positive. The first is the default
 // (only the most electronegative element(s) above); the others are tried
-// when it leaves an inconsistency (NH4Cl: N and Cl both negative).
+// when it leaves an inconsistency (NH4Cl: N and Cl both negative). A
+// complex cation of neutral ligands holds no anion at all: with
+// `positive_net`, a reading with neutral units (water, ammonia) gets a
+// last candidate that puts every element below it, so that [Cu(NH3)4]2+
+// and [Fe(H2O)6]2+ read their ligands as units without an inconsistency.
 using ThresholdList = absl::InlinedVector<double, 8>;
 
-ThresholdList Thresholds(const Plans& plans) {
+ThresholdList Thresholds(const Plans& plans, bool positive_net) {
   ThresholdList values;
+  bool neutral_unit = false;
   for (const ElementPlan& p : plans) {
     if (p.match != nullptr) {
+      neutral_unit |= p.match->units.front()->charge == 0;
       // An anion counts as its most electronegative atom, a cation
       // (ammonium) as its least; a neutral unit not at all.
       int charge = 0;
@@ -125,9 +131,15 @@ ThresholdList Thresholds(const Plans& plans) {
   values.erase(std::unique(values.begin(), values.end()), values.end());
   ThresholdList out;
   if (values.empty()) return {std::numeric_limits<double>::infinity()};
-  if (values.size() == 1) return {values[0] - 0.01};
-  for (size_t j = 0; j + 1 < values.size(); ++j) {
-    out.push_back((values[j] + values[j + 1]) / 2);
+  if (values.size() == 1) {
+    out.push_back(values[0] - 0.01);
+  } else {
+    for (size_t j = 0; j + 1 < values.size(); ++j) {
+      out.push_back((values[j] + values[j + 1]) / 2);
+    }
+  }
+  if (positive_net && neutral_unit) {
+    out.push_back(std::numeric_limits<double>::infinity());
   }
   return out;
 }
@@ -310,13 +322,12 @@ bool MakePlans(const Formula& formula, const Rational& scale,
           d.state, common, common));
     }
   }
-  // A pi-acceptor ligand (carbon monoxide: f of at least
-  // kPiAcceptorF) lets d-block metals take state 0, as in metal carbonyls.
+  // A pi-acceptor ligand (carbon monoxide, phosphines: IsPiAcceptor)
+  // lets d-block metals take state 0, as in metal carbonyls.
   bool pi_acceptor = false;
   for (const UnitMatch* m : reading) {
     for (const Unit* u : m->units) {
-      pi_acceptor |= u->charge == 0 && u->ligand != nullptr &&
-                     u->ligand->f >= kPiAcceptorF;
+      pi_acceptor |= u->ligand != nullptr && IsPiAcceptor(*u->ligand);
     }
   }
   // Chalcogenide anions only (no free O, F, Cl or N): metals keep to their
@@ -804,7 +815,7 @@ Solution SolveStaged(const Plans& plans, const ChargeItems& items,
 // with.
 Solution SolveReading(const Plans& plans, const Forbidden& forbidden,
                       Search* search, Weight bound, double* chosen) {
-  const ThresholdList thresholds = Thresholds(plans);
+  const ThresholdList thresholds = Thresholds(plans, search->target > 0);
   const ChargeItems items = ItemsOf(plans);
   Solution best =
       SolveStaged(plans, items, forbidden, thresholds[0], search, bound);

@@ -52,6 +52,8 @@ struct Tables {
     int total_atoms = 0;
     std::vector<const Unit*> units;
     bool weak = false;  // Every unit has open-shell atoms.
+    // Every unit is read from written groups only (Unit::cations "none").
+    bool groups_only = true;
   };
   std::vector<UnitClass> classes;
   // Indices into `classes` by the atomic number of their signature's
@@ -122,6 +124,7 @@ const Tables& GetTables() {
       }
       it->units.push_back(&u);
       it->weak &= u.open_shell_atoms > 0;
+      it->groups_only &= u.cations == "none";
     }
     for (size_t k = 0; k < t->classes.size(); ++k) {
       t->classes_by_first[t->classes[k].signature.front().first].push_back(
@@ -287,6 +290,11 @@ std::string Ligand::Name() const {
   return absl::StrCat(anion->symbol, " anion");
 }
 
+bool IsPiAcceptor(const Ligand& l) {
+  return l.unit != nullptr && l.unit->charge == 0 &&
+         (l.f >= kPiAcceptorF || l.donor->atomic_number == 15);
+}
+
 bool Unit::AcceptsCation(const Element& cation) const {
   return accepted_cations[cation.atomic_number];
 }
@@ -358,7 +366,8 @@ UnitMatches FindUnitMatches(const Formula& formula) {
       std::sort(sorted.begin(), sorted.end(),
                 [](const auto& a, const auto& b) { return a.first < b.first; });
       const int c = FindClass(t, sorted, term.multiplier);
-      if (c >= 0 && spans.size() < kMaxUnitMatches) {
+      if (c >= 0 && !t.classes[c].groups_only &&
+          spans.size() < kMaxUnitMatches) {
         spans.push_back(
             MakeMatch(t, c, k, group.end_term, -1, level, term.multiplier));
       }
@@ -384,6 +393,7 @@ UnitMatches FindUnitMatches(const Formula& formula) {
              [left](const WrittenForm& f) { return f.terms.size() > left; });
          form_it != forms.end(); ++form_it) {
       const WrittenForm& form = *form_it;
+      if (t.classes[form.unit_class].groups_only) continue;
       const size_t n = form.terms.size();
       bool same = true;
       for (size_t k = 0; k < n && same; ++k) {
