@@ -52,6 +52,16 @@ int ComplexOf(const Formula& formula, const Element* e, ComplexSide side) {
   return -1;
 }
 
+// The number of free states `e` is listed with in `assignment` (the
+// atoms of a mixed-valence element appear once per state).
+double CountStates(const OxidationAssignment& assignment, const Element* e) {
+  double n = 0;
+  for (const AssignedState& s : assignment.states) {
+    if (s.unit < 0 && s.element == e) ++n;
+  }
+  return n;
+}
+
 // Atoms of `e` written inside group `g`, per formula unit.
 Rational AtomsInside(const Formula& formula, const Element* e, int g) {
   Rational n(0);
@@ -267,19 +277,59 @@ IonEnvironment FindEnvironment(const Formula& formula,
     }
   }
 
-  // Polynuclear carbonyls: the 18-electron rule's metal-metal bonds.
-  if (geometry_set == nullptr && spin_set == nullptr && complex < 0 &&
-      molecular && total > 0 && d >= 0 && ion.state <= 0) {
-    double metals = 0;  // Atoms of every free d-block metal.
-    for (const AssignedState& s : assignment.states) {
-      if (s.unit < 0 && s.element->block == Block::kD) {
-        metals += s.count.ToDouble();
+  // Atoms of every d-block metal where the ligands are counted: in the
+  // complex, or the formula's free ones.
+  double metals = 0;
+  bool other_metal = false;  // A d-block metal other than this one.
+  for (const AssignedState& s : assignment.states) {
+    if (s.unit >= 0 || s.element->block != Block::kD) continue;
+    other_metal |= s.element != &e;
+    metals += complex >= 0
+                  ? AtomsInside(formula, s.element, complex).ToDouble() /
+                        std::max(1.0, CountStates(assignment, s.element))
+                  : s.count.ToDouble();
+  }
+
+  // Polynuclear carbonyls and organometallic dimers: the 18-electron
+  // rule's metal-metal bonds. Valence electrons per metal atom: its d
+  // electrons and two from each donor site (Greenwood and Earnshaw,
+  // Chemistry of the Elements, 2nd ed., ch. 8, metal carbonyls, from
+  // memory). Mn2(CO)10, Co2(CO)8 and Fe2(CO)9 at 17; [CpFe(CO)2]2,
+  // [CpMo(CO)3]2 and [CpNi(CO)]2, 17 with a Cp- and M(I), likewise.
+  if (geometry_set == nullptr && spin_set == nullptr && cn > 0 && d >= 0 &&
+      pi_acceptor && metals > 1.5 && d + 2 * total / metals < 17.99) {
+    env.geometry = Geometry::kOctahedral;
+    env.spin_state = SpinStatePreference::kLow;
+    env.basis = SpinBasis::kMetalMetalBond;
+    env.metal_metal_bonded = true;
+    return env;
+  }
+
+  // Dinuclear multiply bonded cores: two d4 ions of group 6 or 4d/5d
+  // (Cr(II), Mo(II), W(II), Re(III)) or two Rh(II) d7 ions, bridged by
+  // four carboxylates or holding four halides each in a complex, pair
+  // their d electrons in the metal-metal bond (quadruple for d4: Cr2(OAc)4
+  // (H2O)2, Mo2(OAc)4, [Re2Cl8]2-; single for Rh2(OAc)4), diamagnetic
+  // (Cotton, Murillo and Walton, Multiple Bonds between Metal Atoms, 3rd
+  // ed., 2005, from memory). Copper(II) acetate's Cu d9 pair couples only
+  // weakly and keeps its moment at room temperature.
+  if (geometry_set == nullptr && spin_set == nullptr && !other_metal &&
+      std::abs(metals - 2) < 0.01 &&
+      ((d == 4 && (n >= 4 || e.group == 6)) ||
+       (d == 7 && e.atomic_number == 45))) {
+    double carboxylates = 0, halides = 0;
+    for (const AssignedUnit& u : assignment.units) {
+      if (u.unit->name == "acetate" || u.unit->name == "formate") {
+        carboxylates += u.count.ToDouble();
       }
     }
-    // Valence electrons per metal atom: its d electrons and two from each
-    // donor site (Greenwood and Earnshaw, Chemistry of the Elements, 2nd
-    // ed., ch. 8, metal carbonyls, from memory).
-    if (pi_acceptors_only && metals > 1.5 && d + 2 * total / metals < 17.99) {
+    for (const Site& s : sites) {
+      if (s.ligand->anion != nullptr && s.ligand->anion->group == 17) {
+        halides += s.sites;
+      }
+    }
+    if (std::abs(carboxylates - 4) < 0.01 ||
+        (complex >= 0 && std::abs(halides - 8) < 0.01)) {
       env.geometry = Geometry::kOctahedral;
       env.spin_state = SpinStatePreference::kLow;
       env.basis = SpinBasis::kMetalMetalBond;
@@ -292,7 +342,7 @@ IonEnvironment FindEnvironment(const Formula& formula,
   if (geometry_set != nullptr) {
     env.geometry = *geometry_set;
   } else if (std::abs(cn - 5) < 0.01 && std::abs(metal - 1) < 0.01 &&
-             (complex >= 0 || pi_acceptors_only)) {
+             (complex >= 0 || pi_acceptor)) {
     // Five sites on one metal, in a written complex ([CuCl5]3-) or from
     // pi acceptors (Fe(CO)5); a salt hydrate's ligand count
     // (Mn(CH3COO)3·2H2O) does not show its coordination.
@@ -349,6 +399,26 @@ IonEnvironment FindEnvironment(const Formula& formula,
                        : Geometry::kOctahedral;
   } else {
     env.geometry = Geometry::kOctahedral;
+  }
+
+  // An 18-electron complex of pi acceptors (two electrons per donor
+  // site) fills every nonbonding d orbital, where the idealised geometry
+  // would leave some unpaired: CpV(CO)4, seven sites, is diamagnetic
+  // (Elschenbroich, Organometallics, 3rd ed., from memory). So does a
+  // 16-electron complex of a 4d or 5d metal: the five-coordinate d6
+  // RuCl2(PPh3)3 and RuHCl(PPh3)3 are square pyramidal and diamagnetic,
+  // not trigonal bipyramidal with two unpaired electrons (Greenwood and
+  // Earnshaw, Chemistry of the Elements, 2nd ed., ch. 25, from memory).
+  const double electrons = d + 2 * cn;
+  if (geometry_set == nullptr && spin_set == nullptr && pi_acceptor && d >= 0 &&
+      std::abs(metal - 1) < 0.01 &&
+      (std::abs(electrons - 18) < 0.01 ||
+       (n >= 4 && std::abs(electrons - 16) < 0.01)) &&
+      SplitD(d, env.geometry, SpinState::kLow).unpaired > 0) {
+    env.spin_state = SpinStatePreference::kLow;
+    env.basis = SpinBasis::kElectronCount;
+    env.metal_metal_bonded = true;
+    return env;
   }
 
   // Spin state.

@@ -68,6 +68,10 @@ enum class SpinBasis {
   // (Mn2(CO)10), or of the metallic Pd(I) layers of PdCoO2: paired in
   // metal-metal bonds.
   kMetalMetalBond,
+  // An 18-electron complex of pi acceptors, or a 16-electron one of a 4d
+  // or 5d metal, whose idealised geometry would leave d electrons
+  // unpaired (CpV(CO)4, RuCl2(PPh3)3): all paired.
+  kElectronCount,
 };
 
 template <>
@@ -82,7 +86,8 @@ struct EnumNames<SpinBasis> {
       {SpinBasis::kTetrahedral, "tetrahedral_high_spin"},
       {SpinBasis::kDefaultHigh, "default_high_spin"},
       {SpinBasis::kOxygenDeficientPerovskite, "oxygen_deficient_perovskite"},
-      {SpinBasis::kMetalMetalBond, "metal_metal_bond"}};
+      {SpinBasis::kMetalMetalBond, "metal_metal_bond"},
+      {SpinBasis::kElectronCount, "electron_count"}};
 };
 
 // Which of an element's atoms an environment is for, where the formula
@@ -104,8 +109,9 @@ struct IonEnvironment {
   double f = 0;
   SpinBasis basis = SpinBasis::kNone;
   bool near_crossover = false;
-  // Its d electrons pair in metal-metal bonds (kMetalMetalBond): no
-  // unpaired electrons.
+  // Its d electrons all pair, in metal-metal bonds (kMetalMetalBond) or
+  // in a closed 18- or 16-electron shell (kElectronCount): no unpaired
+  // electrons.
   bool metal_metal_bonded = false;
 };
 

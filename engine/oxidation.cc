@@ -330,6 +330,22 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       pi_acceptor |= u->ligand != nullptr && IsPiAcceptor(*u->ligand);
     }
   }
+  // Hydrogen beside a free d-block metal and pi-acceptor ligands, with no
+  // free C, N, O, P or S to bond to, is bound to the metal: a hydride
+  // ligand, H-1 (HCo(CO)4 is Co(I), HRh(CO)(PPh3)3 Rh(I), IrHCl2(PPh3)3
+  // Ir(III); Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed.,
+  // chs. 8 and 26, from memory).
+  bool hydride_ligand = false;
+  if (pi_acceptor) {
+    bool metal = false, host = false, hydrogen = false;
+    for (const ElementPlan& p : plans) {
+      const int z = p.element->atomic_number;
+      metal |= p.element->block == Block::kD;
+      host |= z == 6 || z == 7 || z == 8 || z == 15 || z == 16;
+      hydrogen |= z == 1;
+    }
+    hydride_ligand = metal && hydrogen && !host;
+  }
   // Chalcogenide anions only (no free O, F, Cl or N): metals keep to their
   // chalcogenide maximum (MnS2 is Mn(II) disulfide, not Mn(IV) sulfide).
   bool chalcogen = false, hard_anion = false;
@@ -369,6 +385,14 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     p.oxide = oxide;
     p.anions = anions;
     if (p.declared) continue;
+    if (hydride_ligand && p.element->atomic_number == 1) {
+      p.custom = true;
+      const StateOption o =
+          internal::MakeStateOption(*p.element, 0, -1, -1, true, true);
+      p.fixed_options.push_back(o);
+      p.fixed_common_options.push_back(o);
+      continue;
+    }
     const bool zero = pi_acceptor && p.element->block == Block::kD;
     const int limit =
         soft_only ? internal::ChalcogenideMaxState(*p.element) : -1;

@@ -4,12 +4,13 @@
 // fragment abbreviations, isomer prefixes, hydrides, metal-metal bonded
 // dimers), each against its published description.
 
+#include "engine/coordination.h"
+
 #include <string>
 #include <vector>
 
 #include "absl/strings/str_cat.h"
 #include "engine/composition.h"
-#include "engine/coordination.h"
 #include "engine/ligand_field.h"
 #include "engine/units.h"
 #include "gtest/gtest.h"
@@ -128,6 +129,90 @@ TEST(Coordination, AcetatesAndCpStar) {
        "Elschenbroich, Organometallics, 3rd ed., from memory"},
       {"Mn(C5H5)2", "Mn", 2, Geometry::kOctahedral, 5,
        "Elschenbroich, Organometallics, 3rd ed., from memory"},
+  });
+}
+
+TEST(Coordination, HydrideLigandsTakeASite) {
+  CheckAll({
+      // Regression: HCo(CO)4 read Co(I) d8 octahedral with 2 unpaired.
+      {"HCo(CO)4", "Co", 1, Geometry::kTrigonalBipyramidal, 0,
+       "Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed., ch. 26, "
+       "from memory (18 electrons, diamagnetic)"},
+      {"HMn(CO)5", "Mn", 1, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      {"H2Fe(CO)4", "Fe", 2, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      // Regression: read Rh(-I) with H+.
+      {"HRh(CO)(PPh3)3", "Rh", 1, Geometry::kTrigonalBipyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      {"IrHCl2(PPh3)3", "Ir", 3, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      // Five-coordinate 16-electron Ru(II): square pyramidal, diamagnetic.
+      {"RuHCl(PPh3)3", "Ru", 2, kAny, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      {"RuCl2(PPh3)3", "Ru", 2, kAny, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      {"[ReH9]2-", "Re", 7, kAny, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      {"K2ReH9", "Re", 7, kAny, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      {"Mg2FeH6", "Fe", 2, Geometry::kOctahedral, 0,
+       "Yvon, Chimia 52 (1998) 613, from memory (low-spin [FeH6]4-)"},
+  });
+  // Salt-like and interstitial hydrides keep their readings: Na+ H-,
+  // Li+ [AlH4]-, and metallic PdH0.6 and LaNi5H6 (no local moments).
+  for (const char* formula : {"NaH", "LiAlH4", "PdH0.6", "LaNi5H6"}) {
+    SCOPED_TRACE(formula);
+    CompositionInput in;
+    in.formula = formula;
+    const CompositionReport r = AnalyzeComposition(in);
+    ASSERT_TRUE(r.valid);
+    EXPECT_EQ(r.unpaired_per_formula_unit, 0);
+  }
+}
+
+TEST(Coordination, OrganometallicDimersPairInMetalMetalBonds) {
+  CheckAll({
+      // 17 electrons per metal: one metal-metal bond, diamagnetic.
+      {"[CpFe(CO)2]2", "Fe", 1, kAny, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"[Cp*Fe(CO)2]2", "Fe", 1, kAny, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"[CpMo(CO)3]2", "Mo", 1, kAny, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"[CpNi(CO)]2", "Ni", 1, kAny, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      // The solid dimer; it dissociates in part to the 17-electron radical
+      // CpCr(CO)3 in solution.
+      {"[CpCr(CO)3]2", "Cr", 1, kAny, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"CpCr(CO)3", "Cr", 1, Geometry::kOctahedral, 1,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      // 18-electron monomers.
+      {"CpV(CO)4", "V", 1, kAny, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"CpCo(CO)2", "Co", 1, Geometry::kTrigonalBipyramidal, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"CpMn(CO)3", "Mn", 1, Geometry::kOctahedral, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      // V(CO)6 stays a 17-electron monomer with one unpaired electron.
+      {"V(CO)6", "V", 0, Geometry::kOctahedral, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 8, from memory"},
+      // Quadruple bonds (d4) and the Rh-Rh single bond (d7): diamagnetic.
+      {"Cr2(OAc)4(H2O)2", "Cr", 2, kAny, 0,
+       "Cotton, Murillo and Walton, Multiple Bonds between Metal Atoms, "
+       "3rd ed., 2005, from memory"},
+      {"Mo2(OAc)4", "Mo", 2, kAny, 0,
+       "Cotton, Murillo and Walton, 3rd ed., from memory"},
+      {"Rh2(OAc)4", "Rh", 2, kAny, 0,
+       "Cotton, Murillo and Walton, 3rd ed., from memory"},
+      {"K2[Re2Cl8]", "Re", 3, kAny, 0,
+       "Cotton, Murillo and Walton, 3rd ed., from memory"},
+      // Copper(II) acetate: weakly coupled d9 pair, one unpaired electron
+      // per Cu in this estimate (about 1.4 muB per Cu measured at room
+      // temperature).
+      {"[Cu2(OAc)4(H2O)2]", "Cu", 2, kAny, 2,
+       "Figgis and Lewis, magnetochemistry tables, from memory"},
   });
 }
 
