@@ -235,6 +235,24 @@ IonEnvironment FindEnvironment(const Formula& formula,
   }
   if (total > 0) env.f = weighted / total;
   total += unlisted;
+  // An oxo-anion written in a complex one site short of six chelates,
+  // taking two sites: [Co(NH3)4(CO3)]+ is octahedral, low-spin and
+  // diamagnetic Co(III) (Greenwood and Earnshaw, Chemistry of the
+  // Elements, 2nd ed., ch. 26, from memory).
+  if (complex >= 0) {
+    const double in_complex = AtomsInside(formula, &e, complex).ToDouble();
+    if (in_complex > 0 && std::abs(total / in_complex - 5) < 0.01) {
+      for (const AssignedUnit& u : assignment.units) {
+        const absl::string_view name = u.unit->name;
+        if ((Inside(formula, u.enclosing, complex) || u.group == complex) &&
+            (name == "carbonate" || name == "nitrate" || name == "acetate" ||
+             name == "sulfate")) {
+          total += in_complex;
+          break;
+        }
+      }
+    }
+  }
   bool pi_acceptors_only = !sites.empty();
   bool pi_acceptor = false;
   for (const Site& s : sites) {

@@ -216,6 +216,31 @@ TEST(Coordination, OrganometallicDimersPairInMetalMetalBonds) {
   });
 }
 
+TEST(Coordination, WernerComplexesAndSandwiches) {
+  CheckAll({
+      // Regression: the chelating carbonate counted one site, leaving a
+      // five-coordinate high-spin Co(III) with 4 unpaired electrons.
+      {"[Co(NH3)4(CO3)]+", "Co", 3, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      {"[Co(NH3)4CO3]NO3", "Co", 3, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      {"cis-[PtCl2(NH3)2]", "Pt", 2, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory (cisplatin)"},
+      {"trans-[CoCl2(en)2]Cl", "Co", 3, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      {"fac-[Co(NH3)3(NO2)3]", "Co", 3, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      {"[CuCl5]3-", "Cu", 2, Geometry::kTrigonalBipyramidal, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
+      // Uranocene: U(IV) between two C8H8 2- rings, 5f2.
+      {"U(C8H8)2", "U", 4, kAny, 2,
+       "Greenwood and Earnshaw, 2nd ed., ch. 31, from memory"},
+      {"[Fe(C5H5)2]+", "Fe", 3, Geometry::kOctahedral, 1,
+       "Elschenbroich, Organometallics, 3rd ed., from memory "
+       "(ferrocenium)"},
+  });
+}
+
 TEST(Coordination, ChargedComplexesReadTheirNeutralLigands) {
   // Regression: a charged complex of neutral ligands read its ligands as
   // loose atoms ([Fe(H2O)6]2+ listed no water unit).
