@@ -95,6 +95,11 @@ TEST(Coordination, PhosphineComplexes) {
        "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
       {"Ni(P(OPh)3)4", "Ni", 0, Geometry::kTetrahedral, 0,
        "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      // PF3, a pi acceptor like CO: Ni(PF3)4 read Ni(II) with fluoride.
+      {"Ni(PF3)4", "Ni", 0, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      {"HCo(PF3)4", "Co", 1, Geometry::kTrigonalBipyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
   });
 }
 
