@@ -296,16 +296,21 @@ IonEnvironment FindEnvironment(const Formula& formula,
   }
 
   // Atoms of every d-block metal where the ligands are counted: in the
-  // complex, or the formula's free ones.
+  // complex, or the formula's free ones; counted only for the two rules
+  // below that ask (pi acceptors, or a d4 or d7 ion that may pair with
+  // its twin).
   double metals = 0;
   bool other_metal = false;  // A d-block metal other than this one.
-  for (const AssignedState& s : assignment.states) {
-    if (s.unit >= 0 || s.element->block != Block::kD) continue;
-    other_metal |= s.element != &e;
-    metals += complex >= 0
-                  ? AtomsInside(formula, s.element, complex).ToDouble() /
-                        std::max(1.0, CountStates(assignment, s.element))
-                  : s.count.ToDouble();
+  if (geometry_set == nullptr && spin_set == nullptr &&
+      (pi_acceptor || d == 4 || d == 7)) {
+    for (const AssignedState& s : assignment.states) {
+      if (s.unit >= 0 || s.element->block != Block::kD) continue;
+      other_metal |= s.element != &e;
+      metals += complex >= 0
+                    ? AtomsInside(formula, s.element, complex).ToDouble() /
+                          std::max(1.0, CountStates(assignment, s.element))
+                    : s.count.ToDouble();
+    }
   }
 
   // Polynuclear carbonyls and organometallic dimers: the 18-electron

@@ -135,8 +135,10 @@ const Tables& GetTables() {
           c.units.begin(), c.units.end(),
           [](const Unit* a, const Unit* b) { return a->charge < b->charge; });
     }
-    // Written forms.
+    // Written forms, for runs: a class read from written groups only has
+    // none.
     for (size_t k = 0; k < t->classes.size(); ++k) {
+      if (t->classes[k].groups_only) continue;
       for (const Unit* u : t->classes[k].units) {
         const internal::UnitRow& row = internal::UnitRows()[u - &t->units[0]];
         for (absl::string_view text : absl::StrSplit(row.written, '|')) {
@@ -393,7 +395,6 @@ UnitMatches FindUnitMatches(const Formula& formula) {
              [left](const WrittenForm& f) { return f.terms.size() > left; });
          form_it != forms.end(); ++form_it) {
       const WrittenForm& form = *form_it;
-      if (t.classes[form.unit_class].groups_only) continue;
       const size_t n = form.terms.size();
       bool same = true;
       for (size_t k = 0; k < n && same; ++k) {
