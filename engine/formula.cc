@@ -230,11 +230,12 @@ const std::vector<LigandAbbreviation>& AbbreviationTable() {
 
 // The joined abbreviations ("OAc", "Cp*"): those with a capital after the
 // first letter or a closing '*', which the parser reads before element
-// symbols. `first` marks their first letters, so that other symbols skip
-// the comparison.
+// symbols. `first` and `second` mark their first and second letters, so
+// that other symbols skip the comparison.
 struct JoinedAbbreviations {
   std::vector<const LigandAbbreviation*> list;
   std::array<bool, 128> first{};
+  std::array<bool, 128> second{};
 };
 
 const JoinedAbbreviations& JoinedAbbreviationTable() {
@@ -249,6 +250,7 @@ const JoinedAbbreviations& JoinedAbbreviationTable() {
       if (!star && !capital) continue;
       joined->list.push_back(&a);
       joined->first[static_cast<unsigned char>(name[0]) & 127] = true;
+      joined->second[static_cast<unsigned char>(name[1]) & 127] = true;
     }
     return joined;
   }();
@@ -748,7 +750,10 @@ class FormulaParser {
       if (IsUpper(c)) {
         const size_t start = pos_;
         // "OAc", "Cp*": joined abbreviations go before symbols.
-        if (joined_.first[static_cast<unsigned char>(c) & 127]) {
+        if (joined_.first[static_cast<unsigned char>(c) & 127] &&
+            start + 1 < text_.size() &&
+            joined_
+                .second[static_cast<unsigned char>(text_[start + 1]) & 127]) {
           const LigandAbbreviation* found = nullptr;
           for (const LigandAbbreviation* a : joined_.list) {
             if (absl::StartsWith(text_.substr(start), a->abbreviation)) {

@@ -359,6 +359,24 @@ UnitMatches FindUnitMatches(const Formula& formula) {
                      formula.terms[i].count * formula.terms[i].multiplier,
                      &signature);
     }
+    // A phosphine written with its substituents first: Ph3P (the group
+    // (C6H5)3, then P) in Ph3PAuCl, as chemists often write it.
+    const int after = group.end_term;
+    if (after < static_cast<int>(formula.terms.size()) &&
+        formula.terms[after].group == level &&
+        formula.terms[after].element->atomic_number == 15) {
+      const WrittenTerm& term = formula.terms[after];
+      absl::InlinedVector<std::pair<int, Rational>, 8> with_p = signature;
+      AddToSignature(term.element, term.count * term.multiplier, &with_p);
+      std::sort(with_p.begin(), with_p.end(),
+                [](const auto& a, const auto& b) { return a.first < b.first; });
+      const int c = FindClass(t, with_p, term.multiplier);
+      if (c >= 0 && !t.classes[c].groups_only &&
+          spans.size() < kMaxUnitMatches) {
+        spans.push_back(MakeMatch(t, c, group.first_term, after + 1, -1, level,
+                                  term.multiplier));
+      }
+    }
     for (int k = group.first_term - 1;
          k >= 0 && k >= group.first_term - 3 && formula.terms[k].group == level;
          --k) {

@@ -107,6 +107,9 @@ TEST(Coordination, TwoCoordinateD10IsLinear) {
   CheckAll({
       {"Au(PPh3)Cl", "Au", 1, Geometry::kLinear, 0,
        "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
+      // The phosphine written with its substituents first, as often.
+      {"Ph3PAuCl", "Au", 1, Geometry::kLinear, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
       {"K[Au(CN)2]", "Au", 1, Geometry::kLinear, 0,
        "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
       {"[Ag(NH3)2]+", "Ag", 1, Geometry::kLinear, 0,
