@@ -28,7 +28,8 @@ constexpr GeometryPair kGeometries[] = {
     {v1::GEOMETRY_SQUARE_PLANAR, Geometry::kSquarePlanar},
     {v1::GEOMETRY_TRIGONAL_PRISMATIC, Geometry::kTrigonalPrismatic},
     {v1::GEOMETRY_TRIGONAL_BIPYRAMIDAL, Geometry::kTrigonalBipyramidal},
-    {v1::GEOMETRY_SQUARE_ANTIPRISMATIC, Geometry::kSquareAntiprismatic}};
+    {v1::GEOMETRY_SQUARE_ANTIPRISMATIC, Geometry::kSquareAntiprismatic},
+    {v1::GEOMETRY_LINEAR, Geometry::kLinear}};
 
 struct SpinPair {
   v1::SpinStatePreference proto;

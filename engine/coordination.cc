@@ -52,6 +52,16 @@ int ComplexOf(const Formula& formula, const Element* e, ComplexSide side) {
   return -1;
 }
 
+// The number of free states `e` is listed with in `assignment` (the
+// atoms of a mixed-valence element appear once per state).
+double CountStates(const OxidationAssignment& assignment, const Element* e) {
+  double n = 0;
+  for (const AssignedState& s : assignment.states) {
+    if (s.unit < 0 && s.element == e) ++n;
+  }
+  return n;
+}
+
 // Atoms of `e` written inside group `g`, per formula unit.
 Rational AtomsInside(const Formula& formula, const Element* e, int g) {
   Rational n(0);
@@ -333,8 +343,10 @@ IonEnvironment FindEnvironment(const Formula& formula,
     }
   }
   double total = 0, weighted = 0, most = 0;
+  double strong = 0;  // Sites held by strong-field ligands.
   for (const Site& s : sites) {
     total += s.sites;
+    if (s.ligand->f >= kStrongFieldF) strong += s.sites;
     weighted += s.sites * s.ligand->f;
     if (s.sites > most) {
       most = s.sites;
@@ -343,15 +355,38 @@ IonEnvironment FindEnvironment(const Formula& formula,
   }
   if (total > 0) env.f = weighted / total;
   total += unlisted;
+  // An oxo-anion written in a complex one site short of six chelates,
+  // taking two sites: [Co(NH3)4(CO3)]+ is octahedral, low-spin and
+  // diamagnetic Co(III) (Greenwood and Earnshaw, Chemistry of the
+  // Elements, 2nd ed., ch. 26, from memory).
+  if (complex >= 0) {
+    const double in_complex = AtomsInside(formula, &e, complex).ToDouble();
+    if (in_complex > 0 && std::abs(total / in_complex - 5) < 0.01) {
+      for (const AssignedUnit& u : assignment.units) {
+        const absl::string_view name = u.unit->name;
+        if ((Inside(formula, u.enclosing, complex) || u.group == complex) &&
+            (name == "carbonate" || name == "nitrate" || name == "acetate" ||
+             name == "sulfate")) {
+          total += in_complex;
+          break;
+        }
+      }
+    }
+  }
   bool pi_acceptors_only = !sites.empty();
+  bool pi_acceptor = false;
   for (const Site& s : sites) {
-    pi_acceptors_only &= s.ligand->f >= kPiAcceptorF;
+    pi_acceptors_only &= IsPiAcceptor(*s.ligand);
+    pi_acceptor |= IsPiAcceptor(*s.ligand);
   }
   // Donor sites per metal atom, where the formula shows them: in a
-  // complex, or with molecular ligands only (Ni(CO)4).
-  const double cn = (complex >= 0 || (molecular && total > 0)) && metal > 0
-                        ? total / metal
-                        : 0;
+  // complex, with molecular ligands only (Ni(CO)4), or beside a
+  // pi-acceptor ligand, which makes a molecular complex of the halides
+  // written with it (RhCl(PPh3)3, Mn(CO)5Br, NiCl2(PEt3)2).
+  const double cn =
+      (complex >= 0 || ((molecular || pi_acceptor) && total > 0)) && metal > 0
+          ? total / metal
+          : 0;
 
   // The Pd(I) and Pt(I) layers of the delafossites PdCoO2, PdCrO2 and
   // PtCoO2 are metallic, their d electrons shared in Pd-Pd bonds (Shannon,
@@ -410,19 +445,64 @@ IonEnvironment FindEnvironment(const Formula& formula,
     return env;
   }
 
-  // Polynuclear carbonyls: the 18-electron rule's metal-metal bonds.
-  if (geometry_set == nullptr && spin_set == nullptr && complex < 0 &&
-      molecular && total > 0 && d >= 0 && ion.state <= 0) {
-    double metals = 0;  // Atoms of every free d-block metal.
+  // Atoms of every d-block metal where the ligands are counted: in the
+  // complex, or the formula's free ones; counted only for the two rules
+  // below that ask (pi acceptors, or a d4 or d7 ion that may pair with
+  // its twin).
+  double metals = 0;
+  bool other_metal = false;  // A d-block metal other than this one.
+  if (geometry_set == nullptr && spin_set == nullptr &&
+      (pi_acceptor || d == 4 || d == 7)) {
     for (const AssignedState& s : assignment.states) {
-      if (s.unit < 0 && s.element->block == Block::kD) {
-        metals += s.count.ToDouble();
+      if (s.unit >= 0 || s.element->block != Block::kD) continue;
+      other_metal |= s.element != &e;
+      metals += complex >= 0
+                    ? AtomsInside(formula, s.element, complex).ToDouble() /
+                          std::max(1.0, CountStates(assignment, s.element))
+                    : s.count.ToDouble();
+    }
+  }
+
+  // Polynuclear carbonyls and organometallic dimers: the 18-electron
+  // rule's metal-metal bonds. Valence electrons per metal atom: its d
+  // electrons and two from each donor site (Greenwood and Earnshaw,
+  // Chemistry of the Elements, 2nd ed., ch. 8, metal carbonyls, from
+  // memory). Mn2(CO)10, Co2(CO)8 and Fe2(CO)9 at 17; [CpFe(CO)2]2,
+  // [CpMo(CO)3]2 and [CpNi(CO)]2, 17 with a Cp- and M(I), likewise.
+  if (geometry_set == nullptr && spin_set == nullptr && cn > 0 && d >= 0 &&
+      pi_acceptor && metals > 1.5 && d + 2 * total / metals < 17.99) {
+    env.geometry = Geometry::kOctahedral;
+    env.spin_state = SpinStatePreference::kLow;
+    env.basis = SpinBasis::kMetalMetalBond;
+    env.metal_metal_bonded = true;
+    return env;
+  }
+
+  // Dinuclear multiply bonded cores: two d4 ions of group 6 or 4d/5d
+  // (Cr(II), Mo(II), W(II), Re(III)) or two Rh(II) d7 ions, bridged by
+  // four carboxylates or holding four halides each in a complex, pair
+  // their d electrons in the metal-metal bond (quadruple for d4: Cr2(OAc)4
+  // (H2O)2, Mo2(OAc)4, [Re2Cl8]2-; single for Rh2(OAc)4), diamagnetic
+  // (Cotton, Murillo and Walton, Multiple Bonds between Metal Atoms, 3rd
+  // ed., 2005, from memory). Copper(II) acetate's Cu d9 pair couples only
+  // weakly and keeps its moment at room temperature.
+  if (geometry_set == nullptr && spin_set == nullptr && !other_metal &&
+      std::abs(metals - 2) < 0.01 &&
+      ((d == 4 && (n >= 4 || e.group == 6)) ||
+       (d == 7 && e.atomic_number == 45))) {
+    double carboxylates = 0, halides = 0;
+    for (const AssignedUnit& u : assignment.units) {
+      if (u.unit->name == "acetate" || u.unit->name == "formate") {
+        carboxylates += u.count.ToDouble();
       }
     }
-    // Valence electrons per metal atom: its d electrons and two from each
-    // donor site (Greenwood and Earnshaw, Chemistry of the Elements, 2nd
-    // ed., ch. 8, metal carbonyls, from memory).
-    if (pi_acceptors_only && metals > 1.5 && d + 2 * total / metals < 17.99) {
+    for (const Site& s : sites) {
+      if (s.ligand->anion != nullptr && s.ligand->anion->group == 17) {
+        halides += s.sites;
+      }
+    }
+    if (std::abs(carboxylates - 4) < 0.01 ||
+        (complex >= 0 && std::abs(halides - 8) < 0.01)) {
       env.geometry = Geometry::kOctahedral;
       env.spin_state = SpinStatePreference::kLow;
       env.basis = SpinBasis::kMetalMetalBond;
@@ -437,7 +517,7 @@ IonEnvironment FindEnvironment(const Formula& formula,
   } else if (env.geometry == Geometry::kTetrahedral) {
     // Set above (the layered pnictides).
   } else if (std::abs(cn - 5) < 0.01 && std::abs(metal - 1) < 0.01 &&
-             (complex >= 0 || pi_acceptors_only)) {
+             (complex >= 0 || pi_acceptor)) {
     // Five sites on one metal, in a written complex ([CuCl5]3-) or from
     // pi acceptors (Fe(CO)5); a salt hydrate's ligand count
     // (Mn(CH3COO)3·2H2O) does not show its coordination.
@@ -447,10 +527,20 @@ IonEnvironment FindEnvironment(const Formula& formula,
     // [W(CN)8]4- (square antiprism or dodecahedron, one low orbital either
     // way).
     env.geometry = Geometry::kSquareAntiprismatic;
+  } else if (std::abs(cn - 2) < 0.01 && d == 10) {
+    // Two donor sites on a d10 ion: linear, as in [Ag(NH3)2]+,
+    // [Au(CN)2]- and Au(PPh3)Cl (Greenwood and Earnshaw, Chemistry of the
+    // Elements, 2nd ed., ch. 28, from memory).
+    env.geometry = Geometry::kLinear;
   } else if (std::abs(cn - 4) < 0.01) {
-    env.geometry = (d == 8 && (n >= 4 || env.f >= kStrongFieldF)) || d == 9
-                       ? Geometry::kSquarePlanar
-                       : Geometry::kTetrahedral;
+    // A 3d d8 ion is square planar when strong-field ligands hold at least
+    // half its sites: [Ni(CN)4]2-, and NiCl2(PEt3)2 and NiCl2(PMe3)2 beside
+    // tetrahedral NiCl2(PPh3)2 and [NiCl4]2- (Greenwood and Earnshaw,
+    // Chemistry of the Elements, 2nd ed., ch. 27, from memory).
+    const bool planar_d8 =
+        n >= 4 || env.f >= kStrongFieldF || 2 * strong >= total - 0.01;
+    env.geometry = (d == 8 && planar_d8) || d == 9 ? Geometry::kSquarePlanar
+                                                   : Geometry::kTetrahedral;
   } else if ((cn == 0 ? complex < 0 : cn < 3.99) && d == 8 &&
              (n >= 4 || e.atomic_number == 29) &&
              !(env.ligand != nullptr && env.ligand->anion != nullptr &&
@@ -486,6 +576,26 @@ IonEnvironment FindEnvironment(const Formula& formula,
     env.geometry = Geometry::kOctahedral;
   }
 
+  // An 18-electron complex of pi acceptors (two electrons per donor
+  // site) fills every nonbonding d orbital, where the idealised geometry
+  // would leave some unpaired: CpV(CO)4, seven sites, is diamagnetic
+  // (Elschenbroich, Organometallics, 3rd ed., from memory). So does a
+  // 16-electron complex of a 4d or 5d metal: the five-coordinate d6
+  // RuCl2(PPh3)3 and RuHCl(PPh3)3 are square pyramidal and diamagnetic,
+  // not trigonal bipyramidal with two unpaired electrons (Greenwood and
+  // Earnshaw, Chemistry of the Elements, 2nd ed., ch. 25, from memory).
+  const double electrons = d + 2 * cn;
+  if (geometry_set == nullptr && spin_set == nullptr && pi_acceptor && d >= 0 &&
+      std::abs(metal - 1) < 0.01 &&
+      (std::abs(electrons - 18) < 0.01 ||
+       (n >= 4 && std::abs(electrons - 16) < 0.01)) &&
+      SplitD(d, env.geometry, SpinState::kLow).unpaired > 0) {
+    env.spin_state = SpinStatePreference::kLow;
+    env.basis = SpinBasis::kElectronCount;
+    env.metal_metal_bonded = true;
+    return env;
+  }
+
   // Spin state.
   if (spin_set != nullptr || geometry_set != nullptr) {
     env.spin_state =
@@ -509,6 +619,7 @@ IonEnvironment FindEnvironment(const Formula& formula,
                  : SpinBasis::kNoChoice);
       return env;
     case Geometry::kTrigonalPrismatic:
+    case Geometry::kLinear:
       set(SpinState::kLow, SpinBasis::kNoChoice);
       return env;
     case Geometry::kTrigonalBipyramidal:

@@ -71,6 +71,10 @@ enum class SpinBasis {
   // A 3d metal of the metallic layers of the layered pnictides (BaFe2As2,
   // LaFeAsO): its d electrons itinerant, no local moment.
   kItinerant,
+  // An 18-electron complex of pi acceptors, or a 16-electron one of a 4d
+  // or 5d metal, whose idealised geometry would leave d electrons
+  // unpaired (CpV(CO)4, RuCl2(PPh3)3): all paired.
+  kElectronCount,
 };
 
 template <>
@@ -86,7 +90,8 @@ struct EnumNames<SpinBasis> {
       {SpinBasis::kDefaultHigh, "default_high_spin"},
       {SpinBasis::kOxygenDeficientPerovskite, "oxygen_deficient_perovskite"},
       {SpinBasis::kMetalMetalBond, "metal_metal_bond"},
-      {SpinBasis::kItinerant, "itinerant"}};
+      {SpinBasis::kItinerant, "itinerant"},
+      {SpinBasis::kElectronCount, "electron_count"}};
 };
 
 // Which of an element's atoms an environment is for, where the formula
@@ -108,8 +113,9 @@ struct IonEnvironment {
   double f = 0;
   SpinBasis basis = SpinBasis::kNone;
   bool near_crossover = false;
-  // Its d electrons pair in metal-metal bonds (kMetalMetalBond) or are
-  // itinerant (kItinerant): no local moment.
+  // Its d electrons pair in metal-metal bonds (kMetalMetalBond) or in a
+  // closed 18- or 16-electron shell (kElectronCount), or are itinerant
+  // (kItinerant): no local moment.
   bool metal_metal_bonded = false;
 };
 

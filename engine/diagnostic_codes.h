@@ -84,6 +84,9 @@ inline constexpr char kAlternativesLimited[] = "alternatives_limited";
 // "·nH2O" of unknown hydration left out.
 inline constexpr char kNonstoichiometryAssumed[] = "nonstoichiometry_assumed";
 inline constexpr char kUnknownHydration[] = "unknown_hydration";
+// A leading geometric-isomer prefix ("cis-", "trans-", "fac-", "mer-")
+// was read and set aside: it names an arrangement, not a composition.
+inline constexpr char kIsomerPrefix[] = "isomer_prefix";
 
 }  // namespace shellwright::codes
 

@@ -1,5 +1,6 @@
 #include "engine/formula.h"
 
+#include <algorithm>
 #include <array>
 #include <cstdint>
 #include <utility>
@@ -227,6 +228,35 @@ const std::vector<LigandAbbreviation>& AbbreviationTable() {
   return *kTable;
 }
 
+// The joined abbreviations ("OAc", "Cp*"): those with a capital after the
+// first letter or a closing '*', which the parser reads before element
+// symbols. `first` and `second` mark their first and second letters, so
+// that other symbols skip the comparison.
+struct JoinedAbbreviations {
+  std::vector<const LigandAbbreviation*> list;
+  std::array<bool, 128> first{};
+  std::array<bool, 128> second{};
+};
+
+const JoinedAbbreviations& JoinedAbbreviationTable() {
+  static const JoinedAbbreviations* const kJoined = [] {
+    auto* joined = new JoinedAbbreviations;
+    for (const LigandAbbreviation& a : AbbreviationTable()) {
+      const absl::string_view name = a.abbreviation;
+      const bool star = absl::EndsWith(name, "*");
+      const bool capital =
+          std::any_of(name.begin() + 1, name.end(),
+                      [](char c) { return c >= 'A' && c <= 'Z'; });
+      if (!star && !capital) continue;
+      joined->list.push_back(&a);
+      joined->first[static_cast<unsigned char>(name[0]) & 127] = true;
+      joined->second[static_cast<unsigned char>(name[1]) & 127] = true;
+    }
+    return joined;
+  }();
+  return *kJoined;
+}
+
 // "acac, bipy, bpy, ...": the known abbreviations, for messages.
 const std::string& KnownAbbreviations() {
   static const std::string* const kText = [] {
@@ -264,6 +294,9 @@ class FormulaParser {
       text_.remove_suffix(suffix);
       formula.charge = charge;
     }
+    // "cis-[PtCl2(NH3)2]": geometric-isomer prefixes name an arrangement,
+    // not a composition; they are noted and skipped.
+    if (!text_.empty() && IsLower(text_[0])) SkipIsomerPrefixes();
     // The storage of this thread's last formula, where it was handed back;
     // else one allocation each for most formulas' terms and amounts.
     FormulaStorage& storage = ThreadFormulaStorage();
@@ -516,6 +549,32 @@ class FormulaParser {
     return true;
   }
 
+  // Skips the leading isomer prefixes at pos_ ("cis-", "trans-", "fac-",
+  // "mer-", one or more), with an info naming them.
+  void SkipIsomerPrefixes() {
+    static constexpr absl::string_view kPrefixes[] = {"cis-", "trans-", "fac-",
+                                                      "mer-"};
+    std::string seen;
+    bool found = true;
+    while (found) {
+      found = false;
+      for (absl::string_view p : kPrefixes) {
+        if (absl::StartsWith(text_.substr(pos_), p) &&
+            pos_ + p.size() < text_.size()) {
+          absl::StrAppend(&seen, p);
+          pos_ += p.size();
+          found = true;
+        }
+      }
+    }
+    if (seen.empty()) return;
+    infos_.push_back(FormulaIssue{
+        codes::kIsomerPrefix, 1,
+        absl::StrCat("the prefix '", seen,
+                     "' names a geometric isomer; the composition, states "
+                     "and estimates do not depend on it")});
+  }
+
   absl::Status Failed(FormulaIssue* error) {
     if (error != nullptr) *error = issue_;
     return absl::InvalidArgumentError(absl::StrCat(
@@ -708,6 +767,27 @@ class FormulaParser {
       const char c = text_[pos_];
       if (IsUpper(c)) {
         const size_t start = pos_;
+        // "OAc", "Cp*": joined abbreviations go before symbols.
+        if (joined_.first[static_cast<unsigned char>(c) & 127] &&
+            start + 1 < text_.size() &&
+            joined_
+                .second[static_cast<unsigned char>(text_[start + 1]) & 127]) {
+          const LigandAbbreviation* found = nullptr;
+          for (const LigandAbbreviation* a : joined_.list) {
+            if (absl::StartsWith(text_.substr(start), a->abbreviation)) {
+              found = a;
+              break;
+            }
+          }
+          if (found != nullptr) {
+            if (!ParseAbbreviation(*found, start,
+                                   start + found->abbreviation.size(), depth,
+                                   items)) {
+              return false;
+            }
+            continue;
+          }
+        }
         size_t end = pos_ + 1;
         while (end < text_.size() && IsLower(text_[end]) && end - start < 3) {
           ++end;
@@ -717,7 +797,9 @@ class FormulaParser {
         }
         absl::string_view symbol = text_.substr(start, end - start);
         const Element* element = FindElementBySymbol(symbol);
-        if (element == nullptr && symbol.size() >= 2) {
+        // "Cy" is cyclohexyl, not C with count y.
+        if (element == nullptr && symbol.size() >= 2 &&
+            FindLigandAbbreviation(symbol) == nullptr) {
           std::string variable;
           if (VariableAt(symbol.substr(symbol.size() - 1), &variable) == 1 &&
               FindElementBySymbol(symbol.substr(0, symbol.size() - 1)) !=
@@ -886,6 +968,7 @@ class FormulaParser {
   absl::string_view text_;       // Without the charge suffix.
   absl::string_view full_text_;  // As given, for messages.
   const FormulaOptions& options_;
+  const JoinedAbbreviations& joined_ = JoinedAbbreviationTable();
   std::vector<FormulaIssue> infos_;
   size_t pos_ = 0;
   int part_ = 0;            // Adduct part being parsed.

@@ -36,6 +36,11 @@ std::vector<LevelSpec> LevelsFor(Geometry g) {
       // (Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed.,
       // ch. 23, from memory).
       return {{"a1", 1}, {"e2", 2}, {"e3", 2}};
+    case Geometry::kLinear:
+      // D-infinity-h, two-coordinate along z: (xy, x2-y2) lowest, then
+      // (xz, yz), z2 highest (Huheey, Keiter and Keiter, Inorganic
+      // Chemistry, 4th ed., from memory).
+      return {{"δg", 2}, {"πg", 2}, {"σg", 1}};
     case Geometry::kFree:
       break;
   }
@@ -57,6 +62,7 @@ SpinState ResolveSpinState(Geometry geometry, SpinStatePreference preference,
     case Geometry::kTrigonalPrismatic:
     case Geometry::kTrigonalBipyramidal:
     case Geometry::kSquareAntiprismatic:
+    case Geometry::kLinear:
       return SpinState::kLow;
     case Geometry::kFree:
       break;

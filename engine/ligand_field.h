@@ -49,11 +49,11 @@ enum class Geometry {
   kSquarePlanar,
   kTrigonalPrismatic,
   kTrigonalBipyramidal,
-  kSquareAntiprismatic
+  kSquareAntiprismatic,
+  kLinear
 };
 // Geometries, kFree included: arrays indexed by Geometry have this size.
-inline constexpr int kGeometryCount =
-    static_cast<int>(Geometry::kSquareAntiprismatic) + 1;
+inline constexpr int kGeometryCount = static_cast<int>(Geometry::kLinear) + 1;
 enum class SpinStatePreference { kAuto, kHigh, kLow };
 enum class SpinState { kHigh, kLow };
 
@@ -68,7 +68,8 @@ struct EnumNames<Geometry> {
       {Geometry::kSquarePlanar, "square_planar"},
       {Geometry::kTrigonalPrismatic, "trigonal_prismatic"},
       {Geometry::kTrigonalBipyramidal, "trigonal_bipyramidal"},
-      {Geometry::kSquareAntiprismatic, "square_antiprismatic"}};
+      {Geometry::kSquareAntiprismatic, "square_antiprismatic"},
+      {Geometry::kLinear, "linear"}};
   static constexpr NamedValue<Geometry> kAliases[] = {
       {Geometry::kSquarePlanar, "square-planar"},
       {Geometry::kTrigonalPrismatic, "trigonal-prismatic"},

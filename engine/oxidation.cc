@@ -90,13 +90,19 @@ ChargeItems ItemsOf(const Plans& plans) {
 // Candidate electronegativity thresholds: elements above a threshold
 // should be negative, those below positive. The first is the default
 // (only the most electronegative element(s) above); the others are tried
-// when it leaves an inconsistency (NH4Cl: N and Cl both negative).
+// when it leaves an inconsistency (NH4Cl: N and Cl both negative). A
+// complex cation of neutral ligands holds no anion at all: with
+// `positive_net`, a reading with neutral units (water, ammonia) gets a
+// last candidate that puts every element below it, so that [Cu(NH3)4]2+
+// and [Fe(H2O)6]2+ read their ligands as units without an inconsistency.
 using ThresholdList = absl::InlinedVector<double, 8>;
 
-ThresholdList Thresholds(const Plans& plans) {
+ThresholdList Thresholds(const Plans& plans, bool positive_net) {
   ThresholdList values;
+  bool neutral_unit = false;
   for (const ElementPlan& p : plans) {
     if (p.match != nullptr) {
+      neutral_unit |= p.match->units.front()->charge == 0;
       // An anion counts as its most electronegative atom, a cation
       // (ammonium) as its least; a neutral unit not at all.
       int charge = 0;
@@ -126,9 +132,15 @@ ThresholdList Thresholds(const Plans& plans) {
   values.erase(std::unique(values.begin(), values.end()), values.end());
   ThresholdList out;
   if (values.empty()) return {std::numeric_limits<double>::infinity()};
-  if (values.size() == 1) return {values[0] - 0.01};
-  for (size_t j = 0; j + 1 < values.size(); ++j) {
-    out.push_back((values[j] + values[j + 1]) / 2);
+  if (values.size() == 1) {
+    out.push_back(values[0] - 0.01);
+  } else {
+    for (size_t j = 0; j + 1 < values.size(); ++j) {
+      out.push_back((values[j] + values[j + 1]) / 2);
+    }
+  }
+  if (positive_net && neutral_unit) {
+    out.push_back(std::numeric_limits<double>::infinity());
   }
   return out;
 }
@@ -402,14 +414,29 @@ bool MakePlans(const Formula& formula, const Rational& scale,
           d.state, common, common));
     }
   }
-  // A pi-acceptor ligand (carbon monoxide: f of at least
-  // kPiAcceptorF) lets d-block metals take state 0, as in metal carbonyls.
+  // A pi-acceptor ligand (carbon monoxide, phosphines: IsPiAcceptor)
+  // lets d-block metals take state 0, as in metal carbonyls.
   bool pi_acceptor = false;
   for (const UnitMatch* m : reading) {
     for (const Unit* u : m->units) {
-      pi_acceptor |= u->charge == 0 && u->ligand != nullptr &&
-                     u->ligand->f >= kPiAcceptorF;
+      pi_acceptor |= u->ligand != nullptr && IsPiAcceptor(*u->ligand);
     }
+  }
+  // Hydrogen beside a free d-block metal and pi-acceptor ligands, with no
+  // free C, N, O, P or S to bond to, is bound to the metal: a hydride
+  // ligand, H-1 (HCo(CO)4 is Co(I), HRh(CO)(PPh3)3 Rh(I), IrHCl2(PPh3)3
+  // Ir(III); Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed.,
+  // chs. 8 and 26, from memory).
+  bool hydride_ligand = false;
+  if (pi_acceptor) {
+    bool metal = false, host = false, hydrogen = false;
+    for (const ElementPlan& p : plans) {
+      const int z = p.element->atomic_number;
+      metal |= p.element->block == Block::kD;
+      host |= z == 6 || z == 7 || z == 8 || z == 15 || z == 16;
+      hydrogen |= z == 1;
+    }
+    hydride_ligand = metal && hydrogen && !host;
   }
   // Chalcogenide anions only (no free O, F, Cl or N): metals keep to their
   // chalcogenide maximum (MnS2 is Mn(II) disulfide, not Mn(IV) sulfide).
@@ -453,6 +480,14 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     p.oxide = oxide;
     p.anions = anions;
     if (p.declared) continue;
+    if (hydride_ligand && p.element->atomic_number == 1) {
+      p.custom = true;
+      const StateOption o =
+          internal::MakeStateOption(*p.element, 0, -1, -1, true, true);
+      p.fixed_options.push_back(o);
+      p.fixed_common_options.push_back(o);
+      continue;
+    }
     const bool zero = pi_acceptor && p.element->block == Block::kD;
     const int limit =
         soft_only ? internal::ChalcogenideMaxState(*p.element) : -1;
@@ -907,7 +942,7 @@ Solution SolveStaged(const Plans& plans, const ChargeItems& items,
 // with.
 Solution SolveReading(const Plans& plans, const Forbidden& forbidden,
                       Search* search, Weight bound, double* chosen) {
-  const ThresholdList thresholds = Thresholds(plans);
+  const ThresholdList thresholds = Thresholds(plans, search->target > 0);
   const ChargeItems items = ItemsOf(plans);
   Solution best =
       SolveStaged(plans, items, forbidden, thresholds[0], search, bound);

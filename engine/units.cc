@@ -52,6 +52,8 @@ struct Tables {
     int total_atoms = 0;
     std::vector<const Unit*> units;
     bool weak = false;  // Every unit has open-shell atoms.
+    // Every unit is read from written groups only (Unit::cations "none").
+    bool groups_only = true;
   };
   std::vector<UnitClass> classes;
   // Indices into `classes` by the atomic number of their signature's
@@ -125,6 +127,7 @@ const Tables& GetTables() {
       }
       it->units.push_back(&u);
       it->weak &= u.open_shell_atoms > 0;
+      it->groups_only &= u.cations == "none";
     }
     for (size_t k = 0; k < t->classes.size(); ++k) {
       t->classes_by_first[t->classes[k].signature.front().first].push_back(
@@ -138,8 +141,10 @@ const Tables& GetTables() {
           c.units.begin(), c.units.end(),
           [](const Unit* a, const Unit* b) { return a->charge < b->charge; });
     }
-    // Written forms.
+    // Written forms, for runs: a class read from written groups only has
+    // none.
     for (size_t k = 0; k < t->classes.size(); ++k) {
+      if (t->classes[k].groups_only) continue;
       for (const Unit* u : t->classes[k].units) {
         const internal::UnitRow& row = internal::UnitRows()[u - &t->units[0]];
         for (absl::string_view text : absl::StrSplit(row.written, '|')) {
@@ -293,6 +298,11 @@ std::string Ligand::Name() const {
   return absl::StrCat(anion->symbol, " anion");
 }
 
+bool IsPiAcceptor(const Ligand& l) {
+  return l.unit != nullptr && l.unit->charge == 0 &&
+         (l.f >= kPiAcceptorF || l.donor->atomic_number == 15);
+}
+
 bool Unit::AcceptsCation(const Element& cation) const {
   return accepted_cations[cation.atomic_number];
 }
@@ -373,6 +383,24 @@ UnitMatches FindUnitMatches(const Formula& formula) {
                      formula.terms[i].count * formula.terms[i].multiplier,
                      &signature);
     }
+    // A phosphine written with its substituents first: Ph3P (the group
+    // (C6H5)3, then P) in Ph3PAuCl, as chemists often write it.
+    const int after = group.end_term;
+    if (after < static_cast<int>(formula.terms.size()) &&
+        formula.terms[after].group == level &&
+        formula.terms[after].element->atomic_number == 15) {
+      const WrittenTerm& term = formula.terms[after];
+      absl::InlinedVector<std::pair<int, Rational>, 8> with_p = signature;
+      AddToSignature(term.element, term.count * term.multiplier, &with_p);
+      std::sort(with_p.begin(), with_p.end(),
+                [](const auto& a, const auto& b) { return a.first < b.first; });
+      const int c = FindClass(t, with_p, term.multiplier);
+      if (c >= 0 && !t.classes[c].groups_only &&
+          spans.size() < kMaxUnitMatches) {
+        spans.push_back(MakeMatch(t, c, group.first_term, after + 1, -1, level,
+                                  term.multiplier));
+      }
+    }
     for (int k = group.first_term - 1;
          k >= 0 && k >= group.first_term - 3 && formula.terms[k].group == level;
          --k) {
@@ -382,7 +410,8 @@ UnitMatches FindUnitMatches(const Formula& formula) {
       std::sort(sorted.begin(), sorted.end(),
                 [](const auto& a, const auto& b) { return a.first < b.first; });
       const int c = FindClass(t, sorted, term.multiplier);
-      if (c >= 0 && spans.size() < kMaxUnitMatches) {
+      if (c >= 0 && !t.classes[c].groups_only &&
+          spans.size() < kMaxUnitMatches) {
         spans.push_back(
             MakeMatch(t, c, k, group.end_term, -1, level, term.multiplier));
       }

@@ -76,7 +76,9 @@ struct Unit {
   // For a unit read from a bare run: whether `cation` is among the free
   // cations it is met with (data/units.tsv, column 'cations').
   bool AcceptsCation(const Element& cation) const;
-  std::string cations;  // "-" for any.
+  // "-" for any; "none" for a unit read from written groups only (the
+  // organic fragments: (CH3)2 in Zn(CH3)2, never the run CH3 of CH3Cl).
+  std::string cations;
   // `cations` as atomic numbers, read with the tables: every element for
   // "-", every s-block element for "s".
   std::bitset<kMaxAtomicNumber + 1> accepted_cations;
@@ -100,6 +102,13 @@ struct Ligand {
 // stabilises metals in state 0 (carbon monoxide 1.9; common practice, no
 // source).
 inline constexpr double kPiAcceptorF = 1.8;
+
+// Whether `l` is a neutral pi-acceptor ligand that stabilises low metal
+// states: a unit with f of at least kPiAcceptorF (carbon monoxide,
+// benzene) or a neutral phosphorus donor (phosphines and phosphites, soft
+// sigma donors and pi acceptors: Pd(PPh3)4 is Pd(0); Greenwood and
+// Earnshaw, Chemistry of the Elements, 2nd ed., ch. 27, from memory).
+bool IsPiAcceptor(const Ligand& l);
 
 // Where a 3d ion turns low spin in an octahedral field.
 struct SpinCrossover {

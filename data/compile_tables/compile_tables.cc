@@ -432,7 +432,7 @@ int main(int argc, char** argv) {
                             state >= -5 && state <= 9;
       const long count = std::strtol(parts[2].c_str(), &end, 10);
       if (!state_ok || parts[2].empty() || *end != '\0' || count < 1 ||
-          count > 24) {
+          count > 48) {
         Fail(units.path, r.line,
              "column 'atoms': bad state or count in '" + std::string(item) +
                  "'");
@@ -494,8 +494,9 @@ int main(int argc, char** argv) {
                 "' does not hold the unit's atoms or a whole fraction of them");
       }
     }
-    // Allowed cations: '-', or blocks and element symbols.
-    if (r.fields[5] != "-") {
+    // Allowed cations: '-', 'none' (written groups only), or blocks and
+    // element symbols.
+    if (r.fields[5] != "-" && r.fields[5] != "none") {
       for (absl::string_view c : absl::StrSplit(r.fields[5], ',')) {
         if (c != "s" && c != "p" && c != "d" && c != "f" &&
             z_by_symbol.count(std::string(c)) == 0) {
@@ -526,15 +527,24 @@ int main(int argc, char** argv) {
     if (!abbreviation_names.insert(a).second) {
       Fail(abbreviations.path, r.line, "duplicate abbreviation '" + a + "'");
     }
-    bool letters = a.size() >= 2 && a.size() <= 8;
-    for (size_t i = 0; i < a.size() && letters; ++i) {
+    // Lower case ("bpy"), a capital and lower case ("Cp"), or a joined
+    // form whose later capitals start parts ("OAc"), with an optional
+    // closing '*' ("Cp*"); the parser reads joined forms before symbols.
+    const size_t letters_end =
+        !a.empty() && a.back() == '*' ? a.size() - 1 : a.size();
+    bool letters = letters_end >= 2 && a.size() <= 8;
+    const bool capital_first =
+        !a.empty() && std::isupper(static_cast<unsigned char>(a[0]));
+    for (size_t i = 0; i < letters_end && letters; ++i) {
       const unsigned char c = static_cast<unsigned char>(a[i]);
-      letters = std::islower(c) || (i == 0 && std::isupper(c));
+      letters =
+          std::islower(c) || (std::isupper(c) && (i == 0 || capital_first));
     }
     if (!letters) {
       Fail(abbreviations.path, r.line,
            "abbreviation '" + a +
-               "' must be 2 to 8 ASCII letters, lower case after the first");
+               "' must be 2 to 8 ASCII letters (lower case, or capitals "
+               "starting its parts) with an optional closing '*'");
     }
     if (z_by_symbol.count(a) > 0) {
       Fail(abbreviations.path, r.line,

@@ -706,11 +706,29 @@ struct AbbreviationCase {
   const char* written_out;
 };
 constexpr AbbreviationCase kAbbreviations[] = {
-    {"acac", "C5H7O2"},    {"bpy", "C10H8N2"},  {"bipy", "C10H8N2"},
-    {"Cp", "C5H5"},        {"dien", "C4H13N3"}, {"edta", "C10H12N2O8"},
-    {"en", "C2H8N2"},      {"gly", "C2H4NO2"},  {"ox", "C2O4"},
-    {"phen", "C12H8N2"},   {"py", "C5H5N"},     {"pz", "C4H4N2"},
-    {"terpy", "C15H11N3"}, {"tpy", "C15H11N3"},
+    {"acac", "C5H7O2"},
+    {"bpy", "C10H8N2"},
+    {"bipy", "C10H8N2"},
+    {"Cp", "C5H5"},
+    {"dien", "C4H13N3"},
+    {"edta", "C10H12N2O8"},
+    {"en", "C2H8N2"},
+    {"gly", "C2H4NO2"},
+    {"ox", "C2O4"},
+    {"phen", "C12H8N2"},
+    {"py", "C5H5N"},
+    {"pz", "C4H4N2"},
+    {"terpy", "C15H11N3"},
+    {"tpy", "C15H11N3"},
+    // Organic fragments and joined forms (Elschenbroich, Organometallics,
+    // 3rd ed., from memory; formulas worked out from the structures).
+    {"Me", "CH3"},
+    {"Et", "C2H5"},
+    {"Ph", "C6H5"},
+    {"Cy", "C6H11"},
+    {"dppe", "C26H24P2"},
+    {"OAc", "CH3COO"},
+    {"Cp*", "C10H15"},
 };
 
 // The amounts of `text` as "Sym=count" in formula order.
@@ -840,6 +858,47 @@ TEST(FormulaAbbreviations, ElementSymbolsKeepTheirMeaning) {
   absl::StatusOr<Formula> v = ParseFormula("Fe(py)x", options);
   ASSERT_TRUE(v.ok()) << v.status();
   EXPECT_EQ(v->amounts[1].count, Rational(5, 2));
+}
+
+TEST(FormulaAbbreviations, FragmentsMakePhosphinesAndJoinedFormsComeFirst) {
+  // PPh3 is P(C6H5)3: one group holding P and the phenyl groups.
+  EXPECT_EQ(AmountsText("RhCl(PPh3)3"), AmountsText("RhCl(P(C6H5)3)3"));
+  EXPECT_EQ(AmountsText("NiCl2(PMe3)2"), AmountsText("NiCl2(P(CH3)3)2"));
+  EXPECT_EQ(AmountsText("Ni(PEt3)2Cl2"), AmountsText("Ni(P(C2H5)3)2Cl2"));
+  // "Cy" is cyclohexyl, not C with the variable y.
+  EXPECT_EQ(AmountsText("Ni(PCy3)2Cl2"), AmountsText("Ni(P(C6H11)3)2Cl2"));
+  EXPECT_EQ(AmountsText("Ni(P(OMe)3)4"), AmountsText("Ni(P(OCH3)3)4"));
+  // "OAc" is acetate, not O with actinium; Ac alone stays actinium.
+  EXPECT_EQ(AmountsText("Cu(OAc)2"), AmountsText("Cu(CH3COO)2"));
+  EXPECT_EQ(AmountsText("NaOAc"), AmountsText("Na(CH3COO)"));
+  EXPECT_THAT(CountsOf(ParseOrFail("Ac2O3")),
+              ElementsAre(Pair("Ac", Rational(2)), Pair("O", Rational(3))));
+  // "Cp*" is C5Me5, not Cp followed by an adduct part.
+  EXPECT_EQ(AmountsText("Cp*2Fe"), AmountsText("(C10H15)2Fe"));
+  EXPECT_EQ(AmountsText("[Cp*Fe(CO)2]2"), AmountsText("[(C10H15)Fe(CO)2]2"));
+  EXPECT_EQ(AmountsText("FeCp2*2H2O"), AmountsText("Fe(C5H5)2·2H2O"));
+}
+
+TEST(FormulaNotations, IsomerPrefixesAreSetAsideWithAnInfo) {
+  for (const char* pair : {"cis-[PtCl2(NH3)2]|[PtCl2(NH3)2]",
+                           "trans-[CoCl2(en)2]Cl|[CoCl2(en)2]Cl",
+                           "fac-[Co(NH3)3(NO2)3]|[Co(NH3)3(NO2)3]",
+                           "mer-[RhCl3(py)3]|[RhCl3(py)3]"}) {
+    const std::vector<std::string> texts = absl::StrSplit(pair, '|');
+    SCOPED_TRACE(pair);
+    const Formula f = ParseOrFail(texts[0]);
+    EXPECT_EQ(AmountsText(texts[0]), AmountsText(texts[1]));
+    ASSERT_EQ(f.infos.size(), 1u);
+    EXPECT_EQ(f.infos[0].code, "isomer_prefix");
+    EXPECT_THAT(f.infos[0].message,
+                HasSubstr(texts[0].substr(0, texts[0].find('-') + 1)));
+  }
+  // Errors after a prefix keep their columns in the text as written.
+  FormulaIssue issue;
+  EXPECT_FALSE(ParseFormula("cis-[PtCl2(NH3)2", &issue).ok());
+  EXPECT_EQ(issue.column, 5);
+  // A prefix alone is no formula.
+  EXPECT_FALSE(ParseFormula("cis-", &issue).ok());
 }
 
 TEST(FormulaAbbreviations, UnknownAbbreviationNamesItsTextAndColumn) {

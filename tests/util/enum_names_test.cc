@@ -52,7 +52,8 @@ TEST(EnumNames, ParseIsExactAndSaysWhatItExpected) {
   EXPECT_THAT(std::string(ParseName<Geometry>("cubic").status().message()),
               HasSubstr("(expected free, octahedral, tetrahedral, "
                         "square_planar, trigonal_prismatic, "
-                        "trigonal_bipyramidal or square_antiprismatic)"));
+                        "trigonal_bipyramidal, square_antiprismatic or "
+                        "linear)"));
 }
 
 // Every enumerator from first to last has one distinct name, and the name

@@ -11,8 +11,8 @@ def describe(spec, *, charge=None, geometry=None, spin_state=None,
     spec: "Fe", "Fe3+", "Fe(III)", "iron", or an atomic number (int).
     charge: net charge (int); must agree with a charge in `spec`.
     geometry: "free", "octahedral", "tetrahedral", "square_planar",
-        "trigonal_prismatic", "trigonal_bipyramidal" or
-        "square_antiprismatic".
+        "trigonal_prismatic", "trigonal_bipyramidal",
+        "square_antiprismatic" or "linear".
     spin_state: "auto", "high" or "low".
     configuration: an explicit configuration ("[Ar] 3d5 4s1").
 

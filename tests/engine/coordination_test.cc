@@ -1,0 +1,286 @@
+// Tests for engine/coordination.cc through whole records: the oxidation
+// state, geometry and unpaired electrons of the metal in coordination and
+// organometallic compounds written as chemists write them (ligand and
+// fragment abbreviations, isomer prefixes, hydrides, metal-metal bonded
+// dimers), each against its published description.
+
+#include "engine/coordination.h"
+
+#include <string>
+#include <vector>
+
+#include "absl/strings/str_cat.h"
+#include "engine/composition.h"
+#include "engine/ligand_field.h"
+#include "engine/units.h"
+#include "gtest/gtest.h"
+
+namespace shellwright {
+namespace {
+
+// One compound: the metal's state and geometry (kFree: not checked) and
+// the unpaired electrons per formula unit.
+struct Expected {
+  const char* formula;
+  const char* metal;
+  int state;
+  Geometry geometry;
+  double unpaired;
+  const char* source;
+};
+
+constexpr Geometry kAny = Geometry::kFree;
+
+// The d- or f-block ion of `metal` in `r`, or null.
+const IonAnnotation* MetalIon(const CompositionReport& r,
+                              const std::string& metal) {
+  for (const IonAnnotation& ion : r.ions) {
+    if (ion.element->symbol == metal) return &ion;
+  }
+  return nullptr;
+}
+
+void CheckAll(const std::vector<Expected>& table) {
+  for (const Expected& e : table) {
+    SCOPED_TRACE(absl::StrCat(e.formula, " (", e.source, ")"));
+    CompositionInput in;
+    in.formula = e.formula;
+    const CompositionReport r = AnalyzeComposition(in);
+    ASSERT_TRUE(r.valid);
+    const IonAnnotation* ion = MetalIon(r, e.metal);
+    ASSERT_NE(ion, nullptr);
+    EXPECT_EQ(ion->state, e.state);
+    if (e.geometry != kAny) {
+      ASSERT_TRUE(ion->description->ligand_field.has_value());
+      EXPECT_EQ(Name(ion->description->ligand_field->splitting.geometry),
+                Name(e.geometry));
+    }
+    EXPECT_DOUBLE_EQ(r.unpaired_per_formula_unit, e.unpaired);
+  }
+}
+
+TEST(Coordination, PhosphineComplexes) {
+  CheckAll({
+      // Wilkinson's catalyst: Rh(I), d8 square planar, diamagnetic.
+      {"RhCl(PPh3)3", "Rh", 1, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed., ch. 26, "
+       "from memory"},
+      // Vaska's complex: Ir(I), d8 square planar, diamagnetic.
+      {"IrCl(CO)(PPh3)2", "Ir", 1, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      {"Pd(PPh3)4", "Pd", 0, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      {"Pt(PPh3)4", "Pt", 0, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      // cis-[PtCl2(PPh3)2]: Pt(II), d8 square planar.
+      {"Pt(PPh3)2Cl2", "Pt", 2, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      // NiX2(PR3)2: tetrahedral and paramagnetic with PPh3, square planar
+      // and diamagnetic with trialkylphosphines and dppe.
+      {"Ni(PPh3)2Cl2", "Ni", 2, Geometry::kTetrahedral, 2,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      {"NiCl2(PMe3)2", "Ni", 2, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      {"Ni(PEt3)2Cl2", "Ni", 2, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      {"NiCl2(dppe)", "Ni", 2, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      {"Ni(PCy3)2Cl2", "Ni", 2, Geometry::kSquarePlanar, 0,
+       "common practice, no source (a trialkylphosphine, as PEt3)"},
+      {"Fe(CO)3(PPh3)2", "Fe", 0, Geometry::kTrigonalBipyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 8, from memory (18 electrons)"},
+      {"Cr(CO)5(PPh3)", "Cr", 0, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 8, from memory (18 electrons)"},
+      {"[Cu(PPh3)4]+", "Cu", 1, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
+      {"Ni(P(OPh)3)4", "Ni", 0, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      // PF3, a pi acceptor like CO: Ni(PF3)4 read Ni(II) with fluoride.
+      {"Ni(PF3)4", "Ni", 0, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      {"HCo(PF3)4", "Co", 1, Geometry::kTrigonalBipyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+  });
+}
+
+TEST(Coordination, TwoCoordinateD10IsLinear) {
+  CheckAll({
+      {"Au(PPh3)Cl", "Au", 1, Geometry::kLinear, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
+      // The phosphine written with its substituents first, as often.
+      {"Ph3PAuCl", "Au", 1, Geometry::kLinear, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
+      {"K[Au(CN)2]", "Au", 1, Geometry::kLinear, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
+      {"[Ag(NH3)2]+", "Ag", 1, Geometry::kLinear, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
+      {"[CuCl2]-", "Cu", 1, Geometry::kLinear, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
+  });
+}
+
+TEST(Coordination, AcetatesAndCpStar) {
+  CheckAll({
+      {"Cu(OAc)2", "Cu", 2, kAny, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
+      {"Mn(OAc)3", "Mn", 3, Geometry::kOctahedral, 4,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory (high-spin "
+       "Mn(III))"},
+      // Decamethylferrocene: low-spin Fe(II), diamagnetic.
+      {"Cp*2Fe", "Fe", 2, Geometry::kOctahedral, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"Fe(C5Me5)2", "Fe", 2, Geometry::kOctahedral, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      // Decamethylmanganocene is low spin (S = 1/2) where manganocene is
+      // high spin (S = 5/2).
+      {"Cp*2Mn", "Mn", 2, Geometry::kOctahedral, 1,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"Mn(C5H5)2", "Mn", 2, Geometry::kOctahedral, 5,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+  });
+}
+
+TEST(Coordination, HydrideLigandsTakeASite) {
+  CheckAll({
+      // Regression: HCo(CO)4 read Co(I) d8 octahedral with 2 unpaired.
+      {"HCo(CO)4", "Co", 1, Geometry::kTrigonalBipyramidal, 0,
+       "Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed., ch. 26, "
+       "from memory (18 electrons, diamagnetic)"},
+      {"HMn(CO)5", "Mn", 1, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      {"H2Fe(CO)4", "Fe", 2, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      // Regression: read Rh(-I) with H+.
+      {"HRh(CO)(PPh3)3", "Rh", 1, Geometry::kTrigonalBipyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      {"IrHCl2(PPh3)3", "Ir", 3, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      // Five-coordinate 16-electron Ru(II): square pyramidal, diamagnetic.
+      {"RuHCl(PPh3)3", "Ru", 2, kAny, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      {"RuCl2(PPh3)3", "Ru", 2, kAny, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      {"[ReH9]2-", "Re", 7, kAny, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      {"K2ReH9", "Re", 7, kAny, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      {"Mg2FeH6", "Fe", 2, Geometry::kOctahedral, 0,
+       "Yvon, Chimia 52 (1998) 613, from memory (low-spin [FeH6]4-)"},
+  });
+  // Salt-like and interstitial hydrides keep their readings: Na+ H-,
+  // Li+ [AlH4]-, and metallic PdH0.6 and LaNi5H6 (no local moments).
+  for (const char* formula : {"NaH", "LiAlH4", "PdH0.6", "LaNi5H6"}) {
+    SCOPED_TRACE(formula);
+    CompositionInput in;
+    in.formula = formula;
+    const CompositionReport r = AnalyzeComposition(in);
+    ASSERT_TRUE(r.valid);
+    EXPECT_EQ(r.unpaired_per_formula_unit, 0);
+  }
+}
+
+TEST(Coordination, OrganometallicDimersPairInMetalMetalBonds) {
+  CheckAll({
+      // 17 electrons per metal: one metal-metal bond, diamagnetic.
+      {"[CpFe(CO)2]2", "Fe", 1, kAny, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"[Cp*Fe(CO)2]2", "Fe", 1, kAny, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"[CpMo(CO)3]2", "Mo", 1, kAny, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"[CpNi(CO)]2", "Ni", 1, kAny, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      // The solid dimer; it dissociates in part to the 17-electron radical
+      // CpCr(CO)3 in solution.
+      {"[CpCr(CO)3]2", "Cr", 1, kAny, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"CpCr(CO)3", "Cr", 1, Geometry::kOctahedral, 1,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      // 18-electron monomers.
+      {"CpV(CO)4", "V", 1, kAny, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"CpCo(CO)2", "Co", 1, Geometry::kTrigonalBipyramidal, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"CpMn(CO)3", "Mn", 1, Geometry::kOctahedral, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      // V(CO)6 stays a 17-electron monomer with one unpaired electron.
+      {"V(CO)6", "V", 0, Geometry::kOctahedral, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 8, from memory"},
+      // Quadruple bonds (d4) and the Rh-Rh single bond (d7): diamagnetic.
+      {"Cr2(OAc)4(H2O)2", "Cr", 2, kAny, 0,
+       "Cotton, Murillo and Walton, Multiple Bonds between Metal Atoms, "
+       "3rd ed., 2005, from memory"},
+      {"Mo2(OAc)4", "Mo", 2, kAny, 0,
+       "Cotton, Murillo and Walton, 3rd ed., from memory"},
+      {"Rh2(OAc)4", "Rh", 2, kAny, 0,
+       "Cotton, Murillo and Walton, 3rd ed., from memory"},
+      {"K2[Re2Cl8]", "Re", 3, kAny, 0,
+       "Cotton, Murillo and Walton, 3rd ed., from memory"},
+      // Copper(II) acetate: weakly coupled d9 pair, one unpaired electron
+      // per Cu in this estimate (about 1.4 muB per Cu measured at room
+      // temperature).
+      {"[Cu2(OAc)4(H2O)2]", "Cu", 2, kAny, 2,
+       "Figgis and Lewis, magnetochemistry tables, from memory"},
+  });
+}
+
+TEST(Coordination, WernerComplexesAndSandwiches) {
+  CheckAll({
+      // Regression: the chelating carbonate counted one site, leaving a
+      // five-coordinate high-spin Co(III) with 4 unpaired electrons.
+      {"[Co(NH3)4(CO3)]+", "Co", 3, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      {"[Co(NH3)4CO3]NO3", "Co", 3, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      {"cis-[PtCl2(NH3)2]", "Pt", 2, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory (cisplatin)"},
+      {"trans-[CoCl2(en)2]Cl", "Co", 3, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      {"fac-[Co(NH3)3(NO2)3]", "Co", 3, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      {"[CuCl5]3-", "Cu", 2, Geometry::kTrigonalBipyramidal, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
+      // Uranocene: U(IV) between two C8H8 2- rings, 5f2.
+      {"U(C8H8)2", "U", 4, kAny, 2,
+       "Greenwood and Earnshaw, 2nd ed., ch. 31, from memory"},
+      {"[Fe(C5H5)2]+", "Fe", 3, Geometry::kOctahedral, 1,
+       "Elschenbroich, Organometallics, 3rd ed., from memory "
+       "(ferrocenium)"},
+  });
+}
+
+TEST(Coordination, ChargedComplexesReadTheirNeutralLigands) {
+  // Regression: a charged complex of neutral ligands read its ligands as
+  // loose atoms ([Fe(H2O)6]2+ listed no water unit).
+  for (const char* formula :
+       {"[Fe(H2O)6]2+", "[Ti(H2O)6]3+", "[Cu(NH3)4]2+", "[Co(NH3)6]3+"}) {
+    SCOPED_TRACE(formula);
+    CompositionInput in;
+    in.formula = formula;
+    const CompositionReport r = AnalyzeComposition(in);
+    ASSERT_TRUE(r.valid);
+    ASSERT_EQ(r.units.size(), 1u);
+    EXPECT_EQ(r.units[0].unit->charge, 0);
+    EXPECT_TRUE(r.units[0].unit->name == "water" ||
+                r.units[0].unit->name == "ammonia");
+  }
+}
+
+TEST(Coordination, FragmentsAreReadFromWrittenGroupsOnly) {
+  // Me, Et, Ph and Cy are carbanions where a formula writes them as
+  // groups (ZnMe2 = Zn(CH3)2, Zn(II)); a bare CH3 run (CH3Cl) is not
+  // read as methyl.
+  CompositionInput in;
+  in.formula = "ZnMe2";
+  const CompositionReport zn = AnalyzeComposition(in);
+  ASSERT_TRUE(zn.valid);
+  ASSERT_EQ(zn.units.size(), 1u);
+  EXPECT_EQ(zn.units[0].unit->name, "methyl");
+  in.formula = "CH3Cl";
+  const CompositionReport mecl = AnalyzeComposition(in);
+  ASSERT_TRUE(mecl.valid);
+  EXPECT_TRUE(mecl.units.empty());
+}
+
+}  // namespace
+}  // namespace shellwright
