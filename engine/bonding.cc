@@ -79,7 +79,7 @@ bool IsMetalRichChalcogenide(const Formula& formula) {
   for (const ElementAmount& a : formula.amounts) {
     const Element& e = *a.element;
     const int z = e.atomic_number;
-    if (z == 16 || z == 34 || z == 52) {
+    if (IsHeavyChalcogen(z)) {
       chalcogen = chalcogen + a.count;
     } else if (e.block == Block::kD && e.group >= 3 && e.group <= 10) {
       metal = metal + a.count;
@@ -145,7 +145,7 @@ bool IsLayeredTransitionMetalPnictide(const Formula& formula) {
   for (const ElementAmount& a : formula.amounts) {  // Elements first.
     const Element& e = *a.element;
     const int z = e.atomic_number;
-    if (!(z == 15 || z == 33 || z == 51 || z == 83 || (z >= 24 && z <= 28) ||
+    if (!(IsHeavyPnictogen(z) || (z >= 24 && z <= 28) ||
           IsAlkaliOrAlkalineEarth(e) || IsDivalentRareEarth(e))) {
       return false;
     }
@@ -154,7 +154,7 @@ bool IsLayeredTransitionMetalPnictide(const Formula& formula) {
   for (const ElementAmount& a : formula.amounts) {
     const Element& e = *a.element;
     const int z = e.atomic_number;
-    if (z == 15 || z == 33 || z == 51 || z == 83) {
+    if (IsHeavyPnictogen(z)) {
       pnictogen = pnictogen + a.count;
     } else if (z >= 24 && z <= 28) {
       metal = metal + a.count;
@@ -194,6 +194,10 @@ bool IsZintlAnionFormer(const Element& e) {
   const int z = e.atomic_number;
   if (z == 6 || z == 7) return false;
   return (e.group >= 13 && e.group <= 15) && z <= 83;
+}
+
+bool IsClusterFormer(const Element& e) {
+  return e.block == Block::kD && e.period >= 5 && e.group >= 4 && e.group <= 7;
 }
 
 BondingClass ClassifyBonding(const Formula& formula) {

@@ -86,6 +86,11 @@ BondingClass ClassifyBonding(const Formula& formula);
 // electrons (the Zintl-Klemm concept).
 bool IsZintlAnionFormer(const Element& e);
 
+// True for the 4d and 5d metals of groups 4 to 7 (Zr to Re), which form
+// metal clusters and metal-metal bonded pairs in their low states (MoCl2,
+// Nb6Cl14, ReCl3, NbO2).
+bool IsClusterFormer(const Element& e);
+
 }  // namespace shellwright
 
 #endif  // SHELLWRIGHT_ENGINE_BONDING_H_

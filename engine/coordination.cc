@@ -182,13 +182,13 @@ bool InPnictideTetrahedra(const OxidationAssignment& assignment,
   bool any = false;  // Most records hold no pnictide: no sums for them.
   for (const AssignedState& s : assignment.states) {
     const int sz = s.element->atomic_number;
-    any |= s.state == -3 && (sz == 15 || sz == 33 || sz == 51 || sz == 83);
+    any |= s.state == -3 && IsHeavyPnictogen(sz);
   }
   if (!any) return false;
   Rational pnictide(0), other_anion(0), metal(0);
   for (const AssignedState& s : assignment.states) {
     const int sz = s.element->atomic_number;
-    if (s.state == -3 && (sz == 15 || sz == 33 || sz == 51 || sz == 83)) {
+    if (s.state == -3 && IsHeavyPnictogen(sz)) {
       pnictide = pnictide + s.count;
     } else if (s.state < 0) {
       other_anion = other_anion + s.count;
@@ -217,8 +217,8 @@ bool InPnictideTetrahedra(const OxidationAssignment& assignment,
 bool PairsInMetalClusters(const OxidationAssignment& assignment,
                           const AssignedState& ion, int d) {
   const Element& e = *ion.element;
-  if (e.block != Block::kD || e.period < 5 || e.group < 4 || e.group > 7 ||
-      d < 1 || ion.state < 1 || ion.state > 4 || !assignment.units.empty()) {
+  if (!IsClusterFormer(e) || d < 1 || ion.state < 1 || ion.state > 4 ||
+      !assignment.units.empty()) {
     return false;
   }
   Rational anions(0), metal(0);
@@ -229,8 +229,7 @@ bool PairsInMetalClusters(const OxidationAssignment& assignment,
       metal = metal + s.count;
       continue;
     }
-    const bool o = z == 8, ch = z == 16 || z == 34 || z == 52;
-    const bool x = z == 9 || z == 17 || z == 35 || z == 53;
+    const bool o = z == 8, ch = IsHeavyChalcogen(z), x = IsHalogen(z);
     if (!o && !ch && !x) {
       // Another anion, or another transition metal that could hold the
       // electrons (MnCrCoWO3.91).
@@ -561,7 +560,7 @@ IonEnvironment FindEnvironment(const Formula& formula,
     bool other = false;
     for (const AssignedState& s : assignment.states) {
       const int z = s.element->atomic_number;
-      if (z == 16 || z == 34 || z == 52) {
+      if (IsHeavyChalcogen(z)) {
         chalcogen = chalcogen + s.count;
       } else if (s.element == &e) {
         metals = metals + s.count;

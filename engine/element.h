@@ -87,6 +87,21 @@ const Element* FindElementBySymbol(absl::string_view symbol);
 // INVALID_ARGUMENT names the input and, for a miscased symbol, the fix.
 absl::StatusOr<const Element*> LookupElement(absl::string_view spec);
 
+// Families of anion formers, by atomic number, as the chemistry rules name
+// them. Astatine and the superheavy members are left out: no rule here
+// knows their chemistry.
+//
+// P, As, Sb and Bi: group 15 without nitrogen.
+constexpr bool IsHeavyPnictogen(int z) {
+  return z == 15 || z == 33 || z == 51 || z == 83;
+}
+// S, Se and Te: group 16 without oxygen (and polonium).
+constexpr bool IsHeavyChalcogen(int z) { return z == 16 || z == 34 || z == 52; }
+// F, Cl, Br and I.
+constexpr bool IsHalogen(int z) {
+  return z == 9 || z == 17 || z == 35 || z == 53;
+}
+
 }  // namespace shellwright
 
 #endif  // SHELLWRIGHT_ENGINE_ELEMENT_H_

@@ -269,12 +269,6 @@ internal::AnionClass StructureClassOf(const Formula& formula) {
   return internal::AnionClass::kHard;
 }
 
-// The 4d and 5d metals of groups 4 to 7 (Zr to Re), which form metal
-// clusters in their low states.
-bool IsClusterFormer(const Element& e) {
-  return e.block == Block::kD && e.period >= 5 && e.group >= 4 && e.group <= 7;
-}
-
 // A reading of the formula: the unit matches read as units.
 using Reading = absl::InlinedVector<const UnitMatch*, 4>;
 
@@ -293,8 +287,7 @@ ABSL_ATTRIBUTE_NOINLINE bool HoldsMetalClusters(const Plans& plans) {
     const int z = e.atomic_number;
     if (IsClusterFormer(e)) {
       metal = metal + p.count;
-    } else if (z == 16 || z == 34 || z == 52 || z == 9 || z == 17 || z == 35 ||
-               z == 53) {
+    } else if (IsHeavyChalcogen(z) || IsHalogen(z)) {
       anion = anion + p.count;
     } else if (!IsMetal(e)) {
       return false;
@@ -443,7 +436,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   bool chalcogen = false, hard_anion = false, cluster_former = false;
   for (const ElementPlan& p : plans) {
     const int z = p.element->atomic_number;
-    chalcogen |= z == 16 || z == 34 || z == 52;
+    chalcogen |= IsHeavyChalcogen(z);
     hard_anion |= z == 7 || z == 8 || z == 9 || z == 17;
     cluster_former |= IsClusterFormer(*p.element);
   }
