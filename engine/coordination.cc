@@ -568,9 +568,19 @@ IonEnvironment FindEnvironment(const Formula& formula,
         other = true;
       }
     }
-    env.geometry = !other && chalcogen == metals * Rational(2)
-                       ? Geometry::kTrigonalPrismatic
-                       : Geometry::kOctahedral;
+    const bool layer = !other && chalcogen == metals * Rational(2);
+    env.geometry = layer ? Geometry::kTrigonalPrismatic : Geometry::kOctahedral;
+    if (layer && d == 1 && e.group == 5 && geometry_set == nullptr &&
+        spin_set == nullptr) {
+      // The d1 layers of group 5 (NbS2, NbSe2, TaS2, TaSe2, VSe2) are
+      // metals: their half-filled d band gives Pauli paramagnetism, not a
+      // local moment (Wilson and Yoffe, Adv. Phys. 18 (1969) 193, from
+      // memory).
+      env.spin_state = SpinStatePreference::kLow;
+      env.basis = SpinBasis::kItinerant;
+      env.metal_metal_bonded = true;
+      return env;
+    }
   } else {
     env.geometry = Geometry::kOctahedral;
   }

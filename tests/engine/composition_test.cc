@@ -646,6 +646,46 @@ TEST(Composition, LayeredPnictideMetalsAreItinerantExceptManganese) {
   EXPECT_TRUE(manganese);
 }
 
+// The d1 dichalcogenide layers of group 5 are metals, Pauli paramagnetic
+// with no local moment (2H-NbSe2 and 2H-TaS2 superconduct; Wilson and
+// Yoffe, Adv. Phys. 18 (1969) 193, from memory); the d2 layers of group 6
+// (MoS2, WSe2) are diamagnetic semiconductors (same source). A group 5
+// metal that is not alone in the layer (Fe1/3NbS2, the Fe between the
+// layers) keeps the local-moment rule for the Fe.
+TEST(Composition, GroupFiveDichalcogenideLayersAreItinerant) {
+  for (const char* formula : {"NbSe2", "NbS2", "TaS2", "TaSe2", "VSe2"}) {
+    CompositionReport r = Analyze(formula);
+    EXPECT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+    bool metal = false;
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->block != Block::kD) continue;
+      metal = true;
+      EXPECT_EQ(ion.state, 4) << formula;
+      EXPECT_EQ(ion.spin_basis, SpinBasis::kItinerant) << formula;
+      EXPECT_EQ(ion.moment, 0) << formula;
+    }
+    EXPECT_TRUE(metal) << formula;
+  }
+  for (const char* formula : {"MoS2", "WSe2"}) {
+    CompositionReport r = Analyze(formula);
+    ASSERT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+    for (const IonAnnotation& ion : r.ions) {
+      EXPECT_NE(ion.spin_basis, SpinBasis::kItinerant) << formula;
+      EXPECT_EQ(ion.description->unpaired_electrons, 0) << formula;
+    }
+  }
+  CompositionReport r = Analyze("Fe0.33NbS2");
+  ASSERT_TRUE(r.valid) << DiagnosticsText(r);
+  bool iron = false;
+  for (const IonAnnotation& ion : r.ions) {
+    if (ion.element->symbol != "Fe") continue;
+    iron = true;
+    EXPECT_NE(ion.spin_basis, SpinBasis::kItinerant);
+    EXPECT_GT(ion.description->unpaired_electrons, 0);
+  }
+  EXPECT_TRUE(iron);
+}
+
 // Low-valent 4d and 5d halides and chalcogenides hold metal clusters or
 // pairs; their d electrons are in metal-metal bonds (Greenwood and
 // Earnshaw, Chemistry of the Elements, 2nd ed., chs. 22-24; Chevrel,
