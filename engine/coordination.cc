@@ -257,10 +257,14 @@ bool PairsInMetalClusters(const OxidationAssignment& assignment,
 // arsenopyrite-type d5 FeAsS, CoAs2 and CoSb2 are diamagnetic
 // semiconductors, their remaining d electrons paired in metal-metal bonds
 // along the chains of edge-sharing octahedra (Hulliger and Mooser, J.
-// Phys. Chem. Solids 26 (1965) 429, from memory).
+// Phys. Chem. Solids 26 (1965) 429, from memory). So are the d2 Mo and W
+// of MoP2, WP2 and MoAs2, semimetals with no local moment (Ruehl and
+// Jeitschko, Monatsh. Chem. 114 (1983) 817, from memory); the d2 Cr of
+// CrSb2 is not paired (it orders antiferromagnetically with about 2 uB).
 bool PairsAlongPnictideChains(const OxidationAssignment& assignment,
                               const AssignedState& ion, int d) {
-  if (ion.element->block != Block::kD || (d != 4 && d != 5) ||
+  if (ion.element->block != Block::kD ||
+      !(d == 4 || d == 5 || (d == 2 && IsClusterFormer(*ion.element))) ||
       assignment.units.empty()) {
     return false;
   }

@@ -433,14 +433,26 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   }
   // Chalcogenide anions only (no free O, F, Cl or N): metals keep to their
   // chalcogenide maximum (MnS2 is Mn(II) disulfide, not Mn(IV) sulfide).
+  // Heavy pnictides with no other non-metal: transition metals keep to +4,
+  // the highest formal state of their pnictides, reached with pnictogen
+  // pairs (loellingite FeAs2, sperrylite PtAs2, marcasite-type CrSb2 with
+  // Sb2 4-; Hulliger, Struct. Bonding 4 (1968) 83, from memory): CrSb2 is
+  // not Cr(VI) antimonide.
   bool chalcogen = false, hard_anion = false, cluster_former = false;
+  bool pnictogen = false, other_nonmetal = false;
   for (const ElementPlan& p : plans) {
     const int z = p.element->atomic_number;
     chalcogen |= IsHeavyChalcogen(z);
     hard_anion |= z == 7 || z == 8 || z == 9 || z == 17;
     cluster_former |= IsClusterFormer(*p.element);
+    if (IsHeavyPnictogen(z)) {
+      pnictogen = true;
+    } else {
+      other_nonmetal |= !IsMetal(*p.element);
+    }
   }
   const bool soft_only = chalcogen && !hard_anion;
+  const bool pnictide_only = pnictogen && !other_nonmetal && !zintl;
   const bool clusters =
       cluster_former && reading.empty() && HoldsMetalClusters(plans);
   // Every cation an alkali metal (for the Zintl clusters below); only a
@@ -482,8 +494,9 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       continue;
     }
     const bool zero = pi_acceptor && p.element->block == Block::kD;
-    const int limit =
-        soft_only ? internal::ChalcogenideMaxState(*p.element) : -1;
+    const int limit = soft_only ? internal::ChalcogenideMaxState(*p.element)
+                      : pnictide_only && p.element->block == Block::kD ? 4
+                                                                       : -1;
     // In a Zintl phase the polyanion atoms take -(8 - N) to -1, all
     // common (N valence electrons: Si-1 in CaSi2, Tl-1 in NaTl).
     const bool polyanion = zintl && IsZintlAnionFormer(*p.element);
