@@ -211,9 +211,12 @@ bool InPnictideTetrahedra(const OxidationAssignment& assignment,
 // Solid State Chem. 3 (1971) 515; all from memory). Up to +3 with at most
 // 4.5 anions per metal atom (K3W2Cl9, Cs3Re3Cl12; the isolated [MoCl6]3-
 // of K3MoCl6 keeps its three unpaired electrons); at +4 with d1 to d3,
-// oxide anions only, at most two per metal atom (rutile-derived NbO2,
-// MoO2, WO2, ReO2) or halides only, at most four, d1 (NbCl4, NbI4). No
-// other transition metal of groups 3 to 10 may be present.
+// oxide anions only, at most 8/3 per metal atom (rutile-derived NbO2,
+// MoO2, WO2, ReO2, and the Mo3O13 triangles of Zn2Mo3O8 and Mg2Mo3O8,
+// diamagnetic with six electrons in Mo-Mo bonds: McCarroll, Katz and Ward,
+// J. Am. Chem. Soc. 79 (1957) 5410; Cotton, Inorg. Chem. 3 (1964) 1217;
+// from memory) or halides only, at most four, d1 (NbCl4, NbI4). No other
+// transition metal of groups 3 to 10 may be present.
 bool PairsInMetalClusters(const OxidationAssignment& assignment,
                           const AssignedState& ion, int d) {
   const Element& e = *ion.element;
@@ -247,7 +250,7 @@ bool PairsInMetalClusters(const OxidationAssignment& assignment,
   if (metal.IsZero() || anions.IsZero()) return false;
   if (ion.state <= 3) return !(metal * Rational(9, 2) < anions);
   if (d > 3 || chalcogen) return false;
-  if (oxide && !halide) return !(metal * Rational(2) < anions);
+  if (oxide && !halide) return !(metal * Rational(8, 3) < anions);
   return halide && !oxide && d == 1 && !(metal * Rational(4) < anions);
 }
 
