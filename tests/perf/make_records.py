@@ -4,9 +4,12 @@
 Families: perovskites with A-site doping, layered Li oxides, substituted
 spinels, hydrates, high-entropy rock-salt oxides and high-entropy alloys,
 all with random two-decimal fractions, so nearly every row is a different
-composition. Deterministic (fixed seed). Synthetic benchmark input only.
+composition. Deterministic (fixed seed; a second argument sets another,
+as .ci/pgo-train does, so that training and timing inputs differ).
+Synthetic benchmark input only.
 
     python3 tests/perf/make_records.py 1000000 > /tmp/records.csv
+    python3 tests/perf/make_records.py 200000 7 > /tmp/training.csv
 """
 import random
 import sys
@@ -14,7 +17,8 @@ import sys
 
 def main():
     n = int(sys.argv[1]) if len(sys.argv) > 1 else 1000000
-    rng = random.Random(20261202)
+    seed = int(sys.argv[2]) if len(sys.argv) > 2 else 20261202
+    rng = random.Random(seed)
     a_site = ["La", "Pr", "Nd", "Sm", "Gd", "Y"]
     dopant = ["Sr", "Ca", "Ba"]
     b_site = ["Mn", "Fe", "Co", "Ni", "Cr", "Ti"]
