@@ -435,7 +435,7 @@ TEST(Sites, ZincFerriteAndCobaltOxideOrderAntiferromagnetically) {
   EXPECT_EQ(Moment("MgAl2O4"), 0);
 }
 
-TEST(Sites, CadmiumAndMercuryChromiumChalcogenideSpinelsAreFerromagnets) {
+TEST(Sites, ChromiumChalcogenideSpinelsWithNoAMomentAreFerromagnets) {
   // CdCr2S4, CdCr2Se4 and HgCr2Se4: ferromagnetic, about 3 uB per Cr3+, so
   // 6 uB per formula unit at 0 K (Baltzer, Wojtowicz, Robbins and Lopatin,
   // Phys. Rev. 151 (1966) 367, from memory).
@@ -443,6 +443,15 @@ TEST(Sites, CadmiumAndMercuryChromiumChalcogenideSpinelsAreFerromagnets) {
     SCOPED_TRACE(f);
     const SublatticeMoment m = Saturation(f);
     EXPECT_NEAR(m.saturation, 6.0, 0.3);
+    EXPECT_THAT(m.note, HasSubstr("ferromagnetic"));
+  }
+  // The Cu(I) thiospinels CuCr2S4 and CuCr2Se4, Cr(III)/Cr(IV) on B, are
+  // ferromagnets of 4.6-5 uB per formula unit (Lotgering, Solid State
+  // Commun. 2 (1964) 55, from memory): 3 + 2 uB.
+  for (const char* f : {"CuCr2S4", "CuCr2Se4"}) {
+    SCOPED_TRACE(f);
+    const SublatticeMoment m = Saturation(f);
+    EXPECT_NEAR(m.saturation, 4.8, 0.3);
     EXPECT_THAT(m.note, HasSubstr("ferromagnetic"));
   }
   // ZnCr2S4 and ZnCr2Se4 order as antiferromagnetic spirals (same source),
