@@ -278,6 +278,11 @@ TEST(Sites, NormalSpinels) {
   EXPECT_EQ(SiteOf("ZnFe2O4", 0), "Zn+2:1");
   EXPECT_EQ(SiteOf("Co3O4", 0), "Co+2:1");
   EXPECT_EQ(SiteOf("Co3O4", 1), "Co+3:2");
+  // Polydymite Ni3S4 is normal like linnaeite Co3S4: low-spin Ni3+ d7 on
+  // the octahedral site, Ni2+ tetrahedral (Vaughan and Craig, Mineral
+  // Chemistry of Metal Sulfides (1978), from memory).
+  EXPECT_EQ(SiteOf("Ni3S4", 0), "Ni+2:1");
+  EXPECT_EQ(SiteOf("Ni3S4", 1), "Ni+3:2");
 }
 
 TEST(Sites, HeavyTransitionMetalsAreOctahedral) {
