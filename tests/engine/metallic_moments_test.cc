@@ -16,6 +16,7 @@ namespace shellwright {
 namespace {
 
 using ::testing::HasSubstr;
+using ::testing::Not;
 
 MetallicMomentEstimate Estimate(const std::string& formula) {
   absl::StatusOr<Formula> f = ParseFormula(formula);
@@ -337,6 +338,21 @@ TEST(MetallicMoments, LavesPhasesRFe2) {
   ExpectMoment("GdFe2", MomentModel::kRareEarth4fWith3d, 3.7, 0.6);
   ExpectMoment("TbFe2", MomentModel::kRareEarth4fWith3d, 5.8, 0.6);
   EXPECT_THAT(Estimate("GdFe2").note, HasSubstr("Laves"));
+}
+
+TEST(MetallicMoments, ThMn12TypeRFe11Ti) {
+  // YFe11Ti about 19-20 uB per formula unit at 4.2 K, about 1.8 per Fe
+  // (Buschow, Rep. Prog. Phys. 54, 1123 (1991); Coey, Magnetism and
+  // Magnetic Materials (2010); from memory): well below the 2.2 per Fe of
+  // R2Fe14B, which read 24.2 before.
+  ExpectMoment("YFe11Ti", MomentModel::kRareEarth4fWith3d, 19.5, 1.0);
+  EXPECT_THAT(Estimate("YFe11Ti").note, HasSubstr("ThMn12"));
+  // The light rare earth adds its g_J J along the Fe moment (rule
+  // arithmetic: 11 x 1.8 + 3.27 for Nd3+).
+  ExpectMoment("NdFe11Ti", MomentModel::kRareEarth4fWith3d,
+               11 * 1.8 + 36.0 / 11.0, 1e-9);
+  // Without a stabilising atom the 1:12 rule does not apply.
+  EXPECT_THAT(Estimate("SmFe12").note, Not(HasSubstr("ThMn12")));
 }
 
 TEST(MetallicMoments, CeriumBesideIronIsTetravalent) {
