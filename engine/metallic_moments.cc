@@ -76,6 +76,13 @@ constexpr double kIronMomentInThMn12Phase = 1.8;
 // beyond them the minority gap that the rules count on cannot hold.
 constexpr double kMaxFullHeuslerMoment = 7;
 constexpr double kMaxHalfHeuslerMoment = 5;
+// Full Heuslers below 24 valence electrons keep the rule with the spin
+// roles swapped, |M| = 24 - Z_t, down to Z_t = 21: the half-metallic
+// ferrimagnets Mn2VAl and Mn2VGa, -2 μB by the rule, measure about 1.9 μB
+// per formula unit (Galanakis et al., Phys. Rev. B 75, 092407 (2007);
+// Jiang, Venkatesan and Coey, Solid State Commun. 118, 513 (2001); from
+// memory).
+constexpr double kMinFullHeuslerMoment = -3;
 
 bool IsRareEarth(const Element& e) {
   return e.atomic_number == 39 ||
@@ -125,19 +132,22 @@ std::optional<MetallicMomentEstimate> EstimateHeusler(
   const Rational& cz = a[z].count;
   // M = Z_t - offset per formula unit of the rule's, within 0..max.
   auto apply = [&e, &cz](MomentModel model, absl::string_view kind, int offset,
-                         double max) {
+                         double max, double min = 0) {
     const double zt = e.total_valence_electrons / cz.ToDouble();
     const double m = zt - offset;
-    if (m < 0 || m > max) {
+    if (m < min || m > max) {
       return None(e, absl::StrFormat("%s: Z_t - %d = %g lies outside the "
-                                     "rule's 0 to %g μB; no estimate",
-                                     kind, offset, m, max));
+                                     "rule's %g to %g μB; no estimate",
+                                     kind, offset, m, min, max));
     }
     e.model = model;
-    e.saturation = m * cz.ToDouble();
+    e.saturation = std::abs(m) * cz.ToDouble();
     e.note = absl::StrFormat(
-        "%s (Slater-Pauling rule): M = Z_t - %d = %g - %d = %g μB per %s", kind,
-        offset, zt, offset, m, kind.substr(kind.rfind(' ') + 1));
+        "%s (Slater-Pauling rule): M = Z_t - %d = %g - %d = %g μB per %s%s",
+        kind, offset, zt, offset, m, kind.substr(kind.rfind(' ') + 1),
+        m < 0 ? "; below 24 electrons the minority spin holds the moment: "
+                "a half-metallic ferrimagnet of |M| (Mn2VAl)"
+              : "");
     return e;
   };
   if (a[p].count == cz && a[q].count == cz) {
@@ -162,7 +172,7 @@ std::optional<MetallicMomentEstimate> EstimateHeusler(
   }
   // Galanakis et al., Phys. Rev. B 66, 174429 (2002), from memory.
   return apply(MomentModel::kFullHeusler, "full Heusler X2YZ", 24,
-               kMaxFullHeuslerMoment);
+               kMaxFullHeuslerMoment, kMinFullHeuslerMoment);
 }
 
 // Rare earths (Y, La-Lu) with no magnetic partner, or with a 3d-rich
