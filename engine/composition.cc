@@ -757,6 +757,34 @@ void ApplySublattices(const SitePlacement& placement, CompositionReport* r) {
   r->saturation_model = MomentModel::kSublatticeNeel;
 }
 
+// Ionic and Zintl compositions whose only magnetic ions are 4f7 S-state
+// ions (Eu2+, Gd3+, Tb4+) and that no structure family placed: L = 0, so
+// the crystal field cannot reduce the moment, and each ion saturates at
+// g_J J = 7 μB, ordered in EuO, EuS and GdN (ferromagnets: 6.8-7 μB per
+// formula unit; Coey, Magnetism and Magnetic Materials (2010), from
+// memory) and reached in a field in the antiferromagnets EuTe and Gd2O3.
+// Other magnetic ions: no estimate, as before.
+void ApplyFourFSevenSaturation(CompositionReport* r) {
+  double saturation = 0;
+  for (const IonAnnotation& ion : r->ions) {
+    if (ion.ordered_moment == 0) continue;
+    const Element& e = *ion.element;
+    const bool lanthanide = e.block == Block::kF && e.period == 6;
+    if (!lanthanide || e.atomic_number - 54 - ion.state != 7) return;
+    saturation += ion.count.ToDouble() * ion.ordered_moment;
+  }
+  if (saturation == 0) return;
+  r->saturation_moment_per_formula_unit = saturation;
+  r->saturation_moment_low = r->saturation_moment_high = saturation;
+  r->saturation_model = MomentModel::kRareEarth4f;
+  if (r->moment_note.empty()) {
+    r->moment_note =
+        "saturation: 4f7 S-state ions (L = 0) at g_J J = 7 μB each, "
+        "ordered in the ferromagnets EuO, EuS and GdN and reached in a "
+        "field in antiferromagnets";
+  }
+}
+
 // Unpaired electrons per formula unit, exactly: 0.7 x 4 + 0.3 x 3 is 3.7,
 // not 3.6999999999999997.
 double UnpairedPerFormulaUnit(const std::vector<IonAnnotation>& ions,
@@ -1197,6 +1225,11 @@ CompositionReport Analyze(const CompositionInput& input) {
   if (placement.has_value()) {
     r.structure_family = Name(placement->family);
     ApplySublattices(*placement, &r);
+  }
+  if (!r.saturation_moment_per_formula_unit.has_value() &&
+      (r.kind == CompositionKind::kIonic ||
+       r.kind == CompositionKind::kZintl)) {
+    ApplyFourFSevenSaturation(&r);
   }
 
   CheckMeasuredMoments(input, &r);

@@ -27,6 +27,7 @@ constexpr int kZFluorine = 9;
 constexpr int kZSilicon = 14;
 constexpr int kZSulfur = 16;
 constexpr int kZChromium = 24;
+constexpr int kZCopper = 29;
 constexpr int kZGermanium = 32;
 constexpr int kZSelenium = 34;
 constexpr int kZCadmium = 48;
@@ -898,7 +899,9 @@ void AppendSiteNames(const SitePlacement& p, int direction, std::string* out) {
 // per Cr (Baltzer, Wojtowicz, Robbins and Lopatin, Phys. Rev. 151 (1966)
 // 367, from memory); HgCr2S4 reaches that in a small field. ZnCr2S4 and
 // ZnCr2Se4, with a smaller cell, order as antiferromagnetic spirals, and the
-// oxide spinels antiferromagnetically.
+// oxide spinels antiferromagnetically. With Cu(I) on A the B site holds
+// Cr3+ and Cr4+: CuCr2S4 and CuCr2Se4 are ferromagnets of about 5 μB per
+// formula unit (Lotgering, Solid State Commun. 2 (1964) 55, from memory).
 bool FerromagneticChromiumSpinel(const SitePlacement& p,
                                  absl::Span<const double> moments) {
   if (p.family != StructureFamily::kSpinel ||
@@ -912,9 +915,12 @@ bool FerromagneticChromiumSpinel(const SitePlacement& p,
       const int z = o.element->atomic_number;
       const bool magnetic = moments[next++] >= kNoMoment;
       if (s.direction < 0) {  // The tetrahedral A site.
-        if (magnetic || (z != kZCadmium && z != kZMercury)) return false;
+        if (magnetic || (z != kZCadmium && z != kZMercury &&
+                         (z != kZCopper || o.state != 1))) {
+          return false;
+        }
       } else {
-        if (z != kZChromium || o.state != 3) return false;
+        if (z != kZChromium || (o.state != 3 && o.state != 4)) return false;
         chromium = true;
       }
     }
@@ -942,10 +948,10 @@ SublatticeMoment TwoSided(const SitePlacement& p,
     r.saturation = up + down;
     if (!describe) return r;
     r.note = absl::StrCat(
-        "chalcogenide spinel with Cr3+ alone on the octahedral site and Cd "
-        "or Hg on the tetrahedral one: the 90° Cr–X–Cr superexchange is "
-        "ferromagnetic and wins (Baltzer et al., Phys. Rev. 151 (1966) 367, "
-        "from memory): ",
+        "chalcogenide spinel with Cr alone on the octahedral site and Cd, "
+        "Hg or Cu(I) on the tetrahedral one: the 90° Cr–X–Cr superexchange "
+        "is ferromagnetic and wins (Baltzer et al., Phys. Rev. 151 (1966) "
+        "367; Lotgering, Solid State Commun. 2 (1964) 55; from memory): ",
         Mu(r.saturation),
         " μB per formula unit at 0 K; the Zn compounds and the oxides order "
         "antiferromagnetically");

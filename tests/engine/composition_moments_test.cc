@@ -213,6 +213,24 @@ CompositionReport Saturation(const std::string& formula, double measured,
   return AnalyzeComposition(in);
 }
 
+TEST(CompositionMoments, FourFSevenFerromagnetsSaturateAtSevenBohrMagnetons) {
+  // EuO, EuS and GdN are ferromagnets of about 6.8-7 μB per formula unit
+  // at low temperature (Coey, Magnetism and Magnetic Materials (2010),
+  // from memory): 4f7 S-state ions, g_J J = 7.
+  for (const char* f : {"EuO", "EuS", "GdN"}) {
+    SCOPED_TRACE(f);
+    CompositionReport r = Analyze(f);
+    ASSERT_TRUE(r.saturation_moment_per_formula_unit.has_value());
+    EXPECT_NEAR(*r.saturation_moment_per_formula_unit, 6.9, 0.15);
+    EXPECT_EQ(r.saturation_model, MomentModel::kRareEarth4f);
+  }
+  // A measured saturation moment of EuO is accepted (6.9 μB).
+  EXPECT_FALSE(OutOfRange(Saturation("EuO", 6.9)));
+  // Other magnetic ions beside them: no estimate (MnO, Eu2O3's Eu3+).
+  EXPECT_FALSE(Analyze("MnO").saturation_moment_per_formula_unit.has_value());
+  EXPECT_FALSE(Analyze("Eu2O3").saturation_moment_per_formula_unit.has_value());
+}
+
 TEST(CompositionMoments, PublishedFerriteSaturationMomentsAreAccepted) {
   // Saturation moments at 0 K, μB per formula unit (Smit and Wijn,
   // Ferrites (1959), and Kittel, Introduction to Solid State Physics,

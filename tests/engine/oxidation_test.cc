@@ -460,6 +460,11 @@ const NaturalCase kNaturalCases[] = {
     // (Vaughan and Craig, from memory).
     {"CuIr2S4", "Cu:1x1 Ir:3x1 Ir:4x1 S:-2x4", "Radaelli et al. 2002"},
     {"CuV2S4", "Cu:1x1 V:3x1 V:4x1 S:-2x4", "Vaughan and Craig, from memory"},
+    // The ferromagnetic chromium thiospinels: Cu(I) with Cr(III)/Cr(IV)
+    // (Lotgering, Solid State Commun. 2 (1964) 55, from memory; later
+    // spectroscopy keeps Cu(I) and moves the hole to the chalcogen).
+    {"CuCr2S4", "Cu:1x1 Cr:3x1 Cr:4x1 S:-2x4", "Lotgering 1964"},
+    {"CuCr2Se4", "Cu:1x1 Cr:3x1 Cr:4x1 Se:-2x4", "Lotgering 1964"},
     {"CuInSe2", "Cu:1x1 In:3x1 Se:-2x2",
      "Greenwood and Earnshaw, ch. 28, from memory"},
     // Spinel and ilmenite ferrites and titanates (Greenwood and Earnshaw,

@@ -278,6 +278,11 @@ TEST(Sites, NormalSpinels) {
   EXPECT_EQ(SiteOf("ZnFe2O4", 0), "Zn+2:1");
   EXPECT_EQ(SiteOf("Co3O4", 0), "Co+2:1");
   EXPECT_EQ(SiteOf("Co3O4", 1), "Co+3:2");
+  // Polydymite Ni3S4 is normal like linnaeite Co3S4: low-spin Ni3+ d7 on
+  // the octahedral site, Ni2+ tetrahedral (Vaughan and Craig, Mineral
+  // Chemistry of Metal Sulfides (1978), from memory).
+  EXPECT_EQ(SiteOf("Ni3S4", 0), "Ni+2:1");
+  EXPECT_EQ(SiteOf("Ni3S4", 1), "Ni+3:2");
 }
 
 TEST(Sites, HeavyTransitionMetalsAreOctahedral) {
@@ -435,7 +440,7 @@ TEST(Sites, ZincFerriteAndCobaltOxideOrderAntiferromagnetically) {
   EXPECT_EQ(Moment("MgAl2O4"), 0);
 }
 
-TEST(Sites, CadmiumAndMercuryChromiumChalcogenideSpinelsAreFerromagnets) {
+TEST(Sites, ChromiumChalcogenideSpinelsWithNoAMomentAreFerromagnets) {
   // CdCr2S4, CdCr2Se4 and HgCr2Se4: ferromagnetic, about 3 uB per Cr3+, so
   // 6 uB per formula unit at 0 K (Baltzer, Wojtowicz, Robbins and Lopatin,
   // Phys. Rev. 151 (1966) 367, from memory).
@@ -443,6 +448,15 @@ TEST(Sites, CadmiumAndMercuryChromiumChalcogenideSpinelsAreFerromagnets) {
     SCOPED_TRACE(f);
     const SublatticeMoment m = Saturation(f);
     EXPECT_NEAR(m.saturation, 6.0, 0.3);
+    EXPECT_THAT(m.note, HasSubstr("ferromagnetic"));
+  }
+  // The Cu(I) thiospinels CuCr2S4 and CuCr2Se4, Cr(III)/Cr(IV) on B, are
+  // ferromagnets of 4.6-5 uB per formula unit (Lotgering, Solid State
+  // Commun. 2 (1964) 55, from memory): 3 + 2 uB.
+  for (const char* f : {"CuCr2S4", "CuCr2Se4"}) {
+    SCOPED_TRACE(f);
+    const SublatticeMoment m = Saturation(f);
+    EXPECT_NEAR(m.saturation, 4.8, 0.3);
     EXPECT_THAT(m.note, HasSubstr("ferromagnetic"));
   }
   // ZnCr2S4 and ZnCr2Se4 order as antiferromagnetic spirals (same source),
