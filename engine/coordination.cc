@@ -375,9 +375,11 @@ IonEnvironment FindEnvironment(const Formula& formula,
   }
   bool pi_acceptors_only = !sites.empty();
   bool pi_acceptor = false;
+  bool nitrosyl = false;  // NO+, the one cationic pi acceptor.
   for (const Site& s : sites) {
     pi_acceptors_only &= IsPiAcceptor(*s.ligand);
     pi_acceptor |= IsPiAcceptor(*s.ligand);
+    nitrosyl |= IsPiAcceptor(*s.ligand) && s.ligand->unit->charge > 0;
   }
   // Donor sites per metal atom, where the formula shows them: in a
   // complex, with molecular ligands only (Ni(CO)4), or beside a
@@ -584,10 +586,19 @@ IonEnvironment FindEnvironment(const Formula& formula,
   // RuCl2(PPh3)3 and RuHCl(PPh3)3 are square pyramidal and diamagnetic,
   // not trigonal bipyramidal with two unpaired electrons (Greenwood and
   // Earnshaw, Chemistry of the Elements, 2nd ed., ch. 25, from memory).
+  // A six-coordinate nitrosyl of 20 electrons counting NO+ ({MNO}8 of
+  // Enemark and Feltham, Coord. Chem. Rev. 13 (1974) 339, from memory)
+  // bends its NO: two electrons go to a lone pair on N, as NO- beside a
+  // low-spin d6 metal, and the complex is diamagnetic: the black
+  // [Co(NH3)5(NO)]2+ (Greenwood and Earnshaw, Chemistry of the Elements,
+  // 2nd ed., ch. 26, from memory).
   const double electrons = d + 2 * cn;
+  const bool bent_nitrosyl = nitrosyl &&
+                             env.geometry == Geometry::kOctahedral &&
+                             std::abs(electrons - 20) < 0.01;
   if (geometry_set == nullptr && spin_set == nullptr && pi_acceptor && d >= 0 &&
       std::abs(metal - 1) < 0.01 &&
-      (std::abs(electrons - 18) < 0.01 ||
+      (std::abs(electrons - 18) < 0.01 || bent_nitrosyl ||
        (n >= 4 && std::abs(electrons - 16) < 0.01)) &&
       SplitD(d, env.geometry, SpinState::kLow).unpaired > 0) {
     env.spin_state = SpinStatePreference::kLow;

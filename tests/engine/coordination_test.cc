@@ -249,6 +249,57 @@ TEST(Coordination, WernerComplexesAndSandwiches) {
   });
 }
 
+// Nitrosyls: NO bound to a metal counts as NO+ (nitrosonium), the linear
+// three-electron donor of the {MNO}n notation; the metal takes the formal
+// state that leaves.
+TEST(Coordination, NitrosylsCountNoAsNitrosonium) {
+  CheckAll({
+      // {CoNO}10 and {Fe(NO)2}10: 18 electrons, tetrahedral, diamagnetic.
+      {"Co(CO)3NO", "Co", -1, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      {"Fe(CO)2(NO)2", "Fe", -2, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      {"Cr(NO)4", "Cr", -4, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 23, from memory"},
+      // {MnNO}8, five-coordinate: 18 electrons, diamagnetic.
+      {"Mn(CO)4NO", "Mn", -1, kAny, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      // Sodium nitroprusside, {FeNO}6: low-spin Fe(II), diamagnetic.
+      {"Na2[Fe(CN)5NO]", "Fe", 2, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      // Its one-electron reduction product, {FeNO}7: S = 1/2.
+      {"K3[Fe(CN)5NO]", "Fe", 1, Geometry::kOctahedral, 1,
+       "Enemark and Feltham, Coord. Chem. Rev. 13 (1974) 339, from memory"},
+      {"K3[Cr(CN)5NO]", "Cr", 1, Geometry::kOctahedral, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 23, from memory (S = 1/2)"},
+      // The brown-ring ion, {FeNO}7 among water: high-spin, S = 3/2
+      // (about 3.9 uB measured).
+      {"[Fe(H2O)5(NO)]SO4", "Fe", 1, Geometry::kOctahedral, 3,
+       "Greenwood and Earnshaw, 2nd ed., ch. 11, from memory"},
+      {"[Fe(H2O)5NO]2+", "Fe", 1, Geometry::kOctahedral, 3,
+       "Greenwood and Earnshaw, 2nd ed., ch. 11, from memory"},
+      // {CoNO}8, six-coordinate: the NO bends (Co(III) with NO- in the
+      // other convention), diamagnetic.
+      {"[Co(NH3)5(NO)]Cl2", "Co", 1, Geometry::kOctahedral, 0,
+       "Enemark and Feltham, Coord. Chem. Rev. 13 (1974) 339, from memory; "
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      {"[Ru(NH3)5NO]Cl3", "Ru", 2, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+  });
+  // Without a metal, NO stays the radical nitric oxide.
+  CompositionInput in;
+  in.formula = "NO";
+  const CompositionReport r = AnalyzeComposition(in);
+  ASSERT_TRUE(r.valid);
+  ASSERT_EQ(r.units.size(), 1u);
+  EXPECT_EQ(r.units[0].unit->name, "nitric oxide");
+  EXPECT_EQ(r.unpaired_per_formula_unit, 1);
+  in.formula = "Co(CO)3NO";
+  const CompositionReport co = AnalyzeComposition(in);
+  ASSERT_TRUE(co.valid);
+  for (const auto& u : co.units) EXPECT_NE(u.unit->name, "nitric oxide");
+}
+
 TEST(Coordination, ChargedComplexesReadTheirNeutralLigands) {
   // Regression: a charged complex of neutral ligands read its ligands as
   // loose atoms ([Fe(H2O)6]2+ listed no water unit).
