@@ -1002,9 +1002,14 @@ Solution SolveReading(const Plans& plans, const Forbidden& forbidden,
 // The readings to try: none, the greedy maximal set of non-overlapping
 // matches (groups first, then longer runs), and that set without each of
 // its runs in turn (refilled greedily): at most 2 + kMaxUnitMatches.
+// Where `bracketed` (the formula writes a complex in square brackets),
+// a run outside every bracket is the complex's counter-ion as written and
+// is not left out: [V(H2O)6]SO4 is V(II) sulfate, not V(IV) beside
+// sulfur(IV) (Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed.,
+// ch. 22, from memory).
 using ReadingList = absl::InlinedVector<Reading, 4>;
 
-ReadingList Readings(const UnitMatches& matches) {
+ReadingList Readings(const UnitMatches& matches, bool bracketed) {
   ReadingList readings(1);
   if (matches.empty()) return readings;
   auto greedy = [&](const UnitMatch* skip) {
@@ -1020,7 +1025,7 @@ ReadingList Readings(const UnitMatches& matches) {
   const Reading all = greedy(nullptr);
   readings.push_back(all);
   for (const UnitMatch* m : all) {
-    if (m->group >= 0) continue;
+    if (m->group >= 0 || (bracketed && m->enclosing < 0)) continue;
     Reading r = greedy(m);
     if (std::find(readings.begin(), readings.end(), r) == readings.end()) {
       readings.push_back(std::move(r));
@@ -1073,12 +1078,19 @@ BestReading SearchReadings(const Formula& formula,
                            const OxidationOptions& options,
                            const Rational& scale, Search* search) {
   BestReading best;
-  const ReadingList readings = Readings(search->matches);
+  bool bracketed = false;
+  for (const WrittenGroup& g : formula.groups) bracketed |= g.bracket == '[';
+  const ReadingList readings = Readings(search->matches, bracketed);
   // The buffer the next reading's plans go to; the other holds the best's.
   int work = 0;
   for (const bool strict : {true, false}) {
     search->strict = strict;
     for (const Reading& reading : readings) {
+      // A formula that writes its complex in square brackets shows its
+      // units: the reading without any is the lenient fallback only.
+      if (bracketed && strict && reading.empty() && readings.size() > 1) {
+        continue;
+      }
       bool weak = false;
       for (const UnitMatch* m : reading) weak |= m->weak;
       // A reading with open-shell units from bare runs cannot beat a

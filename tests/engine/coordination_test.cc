@@ -300,6 +300,105 @@ TEST(Coordination, NitrosylsCountNoAsNitrosonium) {
   for (const auto& u : co.units) EXPECT_NE(u.unit->name, "nitric oxide");
 }
 
+TEST(Coordination, FiveCoordinateSquarePyramidal) {
+  CheckAll({
+      // Oxo complexes: the apical oxo; low-spin d2 pairs in dxy.
+      {"K[ReOCl4]", "Re", 5, Geometry::kSquarePyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      {"VO(acac)2", "V", 4, Geometry::kSquarePyramidal, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 22, from memory (vanadyl "
+       "acetylacetonate, 1.73 uB)"},
+      {"TiO(acac)2", "Ti", 4, Geometry::kSquarePyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 21, from memory"},
+      // d8 without a neutral pi acceptor, and low-spin d7.
+      {"K3[Ni(CN)5]", "Ni", 2, Geometry::kSquarePyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      {"K3[Co(CN)5]", "Co", 2, Geometry::kSquarePyramidal, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      // The 16-electron d6 RuCl2(PPh3)3.
+      {"RuCl2(PPh3)3", "Ru", 2, Geometry::kSquarePyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      // With neutral pi acceptors and for d9: trigonal bipyramidal.
+      {"Fe(CO)5", "Fe", 0, Geometry::kTrigonalBipyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 8, from memory"},
+      {"Mn(CO)4NO", "Mn", -1, Geometry::kTrigonalBipyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+  });
+}
+
+TEST(Coordination, ThreeSevenAndNineCoordinate) {
+  CheckAll({
+      {"Pt(PPh3)3", "Pt", 0, Geometry::kTrigonalPlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      {"K2[Cu(CN)3]", "Cu", 1, Geometry::kTrigonalPlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
+      {"K[HgI3]", "Hg", 2, Geometry::kTrigonalPlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 29, from memory"},
+      {"K3[ZrF7]", "Zr", 4, Geometry::kPentagonalBipyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 21, from memory"},
+      {"K2[ReH9]", "Re", 7, Geometry::kTricappedTrigonalPrismatic, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+  });
+}
+
+TEST(Coordination, BisAcetylacetonatesOligomeriseOctahedral) {
+  // M(acac)2 of Mn to Ni share O atoms in oligomers: octahedral, high
+  // spin; Cu(acac)2 stays a square-planar monomer.
+  CheckAll({
+      {"Ni(acac)2", "Ni", 2, Geometry::kOctahedral, 2,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory (trimer "
+       "[Ni(acac)2]3)"},
+      {"[Ni(acac)2]3", "Ni", 2, Geometry::kOctahedral, 6,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      {"Co(acac)2", "Co", 2, Geometry::kOctahedral, 3,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory (tetramer "
+       "[Co(acac)2]4)"},
+      {"[Co(acac)2]4", "Co", 2, Geometry::kOctahedral, 12,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      {"Cu(acac)2", "Cu", 2, Geometry::kSquarePlanar, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
+  });
+}
+
+TEST(Coordination, TetroxidesAndTetrahalidesAreTetrahedral) {
+  CheckAll({
+      {"RuO4", "Ru", 8, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      {"OsO4", "Os", 8, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      {"KReO4", "Re", 7, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      // Perruthenate, d1.
+      {"KRuO4", "Ru", 7, Geometry::kTetrahedral, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      {"TiCl4", "Ti", 4, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 21, from memory"},
+      {"VCl4", "V", 4, Geometry::kTetrahedral, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 22, from memory"},
+      // TiF4 is a fluoride-bridged polymer, TiO2 and SrTiO3 octahedral.
+      {"TiF4", "Ti", 4, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 21, from memory"},
+      {"SrTiO3", "Ti", 4, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 21, from memory"},
+  });
+}
+
+TEST(Coordination, BracketedComplexKeepsItsCounterIon) {
+  // Regression: the sulfate run after the complex was left out, giving
+  // V(IV) beside S(IV).
+  CheckAll({
+      {"[V(H2O)6]SO4", "V", 2, Geometry::kOctahedral, 3,
+       "Greenwood and Earnshaw, 2nd ed., ch. 22, from memory (d3)"},
+  });
+  CompositionInput in;
+  in.formula = "[V(H2O)6]SO4";
+  const CompositionReport r = AnalyzeComposition(in);
+  ASSERT_TRUE(r.valid);
+  bool sulfate = false;
+  for (const auto& u : r.units) sulfate |= u.unit->name == "sulfate";
+  EXPECT_TRUE(sulfate);
+}
+
 TEST(Coordination, ChargedComplexesReadTheirNeutralLigands) {
   // Regression: a charged complex of neutral ligands read its ligands as
   // loose atoms ([Fe(H2O)6]2+ listed no water unit).
