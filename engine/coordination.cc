@@ -524,8 +524,12 @@ IonEnvironment FindEnvironment(const Formula& formula,
   // Chemistry of the Elements, 2nd ed., ch. 8, metal carbonyls, from
   // memory). Mn2(CO)10, Co2(CO)8 and Fe2(CO)9 at 17; [CpFe(CO)2]2,
   // [CpMo(CO)3]2 and [CpNi(CO)]2, 17 with a Cp- and M(I), likewise.
+  // A 4d or 5d d8 metal keeps 16 electrons, square planar, with no
+  // metal-metal bond: the chloride-bridged [Rh(CO)2Cl]2 (Greenwood and
+  // Earnshaw, Chemistry of the Elements, 2nd ed., ch. 26, from memory).
   if (geometry_set == nullptr && spin_set == nullptr && cn > 0 && d >= 0 &&
-      pi_acceptor && metals > 1.5 && d + 2 * total / metals < 17.99) {
+      !(d == 8 && n >= 4) && pi_acceptor && metals > 1.5 &&
+      d + 2 * total / metals < 17.99) {
     env.geometry = Geometry::kOctahedral;
     env.spin_state = SpinStatePreference::kLow;
     env.basis = SpinBasis::kMetalMetalBond;

@@ -383,6 +383,17 @@ TEST(Coordination, TetroxidesAndTetrahalidesAreTetrahedral) {
   });
 }
 
+TEST(Coordination, HeavyD8CarbonylDimersStaySquarePlanar) {
+  // Regression: the chloride-bridged Rh(I) dimer was read as a metal-metal
+  // bonded carbonyl, octahedral.
+  CheckAll({
+      {"[Rh(CO)2Cl]2", "Rh", 1, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      {"Mn2(CO)10", "Mn", 0, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 8, from memory"},
+  });
+}
+
 TEST(Coordination, BracketedComplexKeepsItsCounterIon) {
   // Regression: the sulfate run after the complex was left out, giving
   // V(IV) beside S(IV).
