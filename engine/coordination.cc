@@ -120,6 +120,18 @@ struct Site {
 };
 using Sites = absl::InlinedVector<Site, 4>;
 
+// Whether every site is held by an anionic O,O-chelate (acac).
+bool OxygenChelatesOnly(const Sites& sites) {
+  for (const Site& s : sites) {
+    const Ligand& l = *s.ligand;
+    if (l.unit == nullptr || l.denticity != 2 || l.unit->charge >= 0 ||
+        l.donor->atomic_number != 8) {
+      return false;
+    }
+  }
+  return !sites.empty();
+}
+
 }  // namespace
 
 int CoordinationDCount(const Element& e, int state) {
@@ -409,27 +421,27 @@ IonEnvironment FindEnvironment(const Formula& formula,
   }
   bool pi_acceptors_only = !sites.empty();
   bool pi_acceptor = false;
-  bool neutral_pi_acceptor = false;
   bool nitrosyl = false;  // NO+, the one cationic pi acceptor.
   double oxo = 0;         // Sites of monatomic oxide.
   double chelate = 0;     // Sites of unit ligands with two or more.
-  bool o_chelates_only = !sites.empty();  // Anionic O,O-chelates (acac).
   for (const Site& s : sites) {
     const Ligand& l = *s.ligand;
-    pi_acceptors_only &= IsPiAcceptor(l);
-    pi_acceptor |= IsPiAcceptor(l);
-    neutral_pi_acceptor |= IsPiAcceptor(l) && l.unit->charge == 0;
-    nitrosyl |= IsPiAcceptor(l) && l.unit->charge > 0;
-    if (l.anion != nullptr && l.anion->atomic_number == 8) oxo += s.sites;
-    if (l.unit != nullptr && l.denticity >= 2) chelate += s.sites;
-    o_chelates_only &= l.unit != nullptr && l.denticity == 2 &&
-                       l.unit->charge < 0 && l.donor->atomic_number == 8;
+    if (l.unit != nullptr) {
+      const bool acceptor = IsPiAcceptor(l);
+      pi_acceptor |= acceptor;
+      pi_acceptors_only &= acceptor;
+      nitrosyl |= acceptor && l.unit->charge > 0;
+      if (l.denticity >= 2) chelate += s.sites;
+    } else {
+      pi_acceptors_only = false;
+      if (l.anion->atomic_number == 8) oxo += s.sites;
+    }
   }
   // A metal-oxo ("yl") group written with chelating ligands only, and no
   // other anion, is a molecule: VO(acac)2, TiO(acac)2, MoO2(acac)2
   // (Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed., chs. 21
   // and 22, from memory).
-  const bool oxo_chelate = complex < 0 && oxo > 0 && chelate > 0 &&
+  const bool oxo_chelate = chelate > 0 && oxo > 0 && complex < 0 &&
                            std::abs(oxo + chelate - total) < 0.01 &&
                            oxo <= 2 * metal + 0.01;
   // Donor sites per metal atom, where the formula shows them: in a
@@ -586,6 +598,12 @@ IonEnvironment FindEnvironment(const Formula& formula,
     // without a neutral pi acceptor ([Ni(CN)5]3-); trigonal bipyramidal
     // otherwise (Fe(CO)5, HCo(CO)4, [CuCl5]3-) (Greenwood and Earnshaw,
     // Chemistry of the Elements, 2nd ed., chs. 22-28, from memory).
+    bool neutral_pi_acceptor = false;
+    for (const Site& s : sites) {
+      neutral_pi_acceptor |= s.ligand->unit != nullptr &&
+                             s.ligand->unit->charge == 0 &&
+                             IsPiAcceptor(*s.ligand);
+    }
     const bool pyramid =
         oxo > 0 || (d >= 4 && d <= 7) || (d == 8 && !neutral_pi_acceptor);
     env.geometry =
@@ -595,13 +613,13 @@ IonEnvironment FindEnvironment(const Formula& formula,
     // [W(CN)8]4- (square antiprism or dodecahedron, one low orbital either
     // way).
     env.geometry = Geometry::kSquareAntiprismatic;
-  } else if (std::abs(cn - 7) < 0.01 && complex >= 0) {
+  } else if (complex >= 0 && std::abs(cn - 7) < 0.01) {
     // Seven donor sites in a written complex: pentagonal bipyramidal, as
     // [ZrF7]3- and [UO2F5]3- (the heptafluoro complexes of Nb and Ta are
     // capped trigonal prisms, close in energy; Greenwood and Earnshaw,
     // Chemistry of the Elements, 2nd ed., chs. 21 and 22, from memory).
     env.geometry = Geometry::kPentagonalBipyramidal;
-  } else if (std::abs(cn - 9) < 0.01 && complex >= 0) {
+  } else if (complex >= 0 && std::abs(cn - 9) < 0.01) {
     // Nine donor sites: tricapped trigonal prismatic, [ReH9]2- and
     // [TcH9]2- (same source, ch. 24, from memory).
     env.geometry = Geometry::kTricappedTrigonalPrismatic;
@@ -610,12 +628,12 @@ IonEnvironment FindEnvironment(const Formula& formula,
     // [Au(CN)2]- and Au(PPh3)Cl (Greenwood and Earnshaw, Chemistry of the
     // Elements, 2nd ed., ch. 28, from memory).
     env.geometry = Geometry::kLinear;
-  } else if (std::abs(cn - 3) < 0.01 && d == 10) {
+  } else if (d == 10 && std::abs(cn - 3) < 0.01) {
     // Three on a d10 ion: trigonal planar, as Pt(PPh3)3, [Cu(CN)3]2- and
     // [HgI3]- (same source, chs. 27-29, from memory).
     env.geometry = Geometry::kTrigonalPlanar;
-  } else if (std::abs(cn - 4) < 0.01 && o_chelates_only && n == 3 &&
-             ion.state == 2 && d >= 5 && d <= 8) {
+  } else if (std::abs(cn - 4) < 0.01 && n == 3 && ion.state == 2 && d >= 5 &&
+             d <= 8 && OxygenChelatesOnly(sites)) {
     // Bis(O,O-chelates) of 3d M(II), Mn to Ni, with no other ligand
     // share their oxygen atoms in oligomers and are octahedral: the trimer
     // [Ni(acac)2]3 and the tetramer [Co(acac)2]4, high spin (Greenwood and
@@ -644,8 +662,8 @@ IonEnvironment FindEnvironment(const Formula& formula,
     // in oxides (KCuO2, NaCuO2: CuO4 chains, diamagnetic), while K3CuF6 is
     // high-spin octahedral and paramagnetic (same source, ch. 28).
     env.geometry = Geometry::kSquarePlanar;
-  } else if (complex < 0 && d >= 0 && d <= 2 &&
-             (ion.state >= 5 || (ion.state == 4 && n == 3)) &&
+  } else if (ion.state >= 4 && d >= 0 && d <= 2 && complex < 0 &&
+             (ion.state >= 5 || n == 3) && std::abs(total - 4 * metal) < 0.01 &&
              FourAnionTetrahedra(assignment, ion)) {
     env.geometry = Geometry::kTetrahedral;
   } else if (complex < 0 && (e.group == 5 || e.group == 6) &&

@@ -621,7 +621,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
           })) {
         continue;
       }
-      if (u->unpaired > 0 && m->units.size() > 1 &&
+      if (pi_acceptor && u->unpaired > 0 &&
           RadicalBoundAsAcceptor(*m, plans, free_elements)) {
         continue;
       }
@@ -1079,7 +1079,9 @@ BestReading SearchReadings(const Formula& formula,
                            const Rational& scale, Search* search) {
   BestReading best;
   bool bracketed = false;
-  for (const WrittenGroup& g : formula.groups) bracketed |= g.bracket == '[';
+  if (!search->matches.empty()) {
+    for (const WrittenGroup& g : formula.groups) bracketed |= g.bracket == '[';
+  }
   const ReadingList readings = Readings(search->matches, bracketed);
   // The buffer the next reading's plans go to; the other holds the best's.
   int work = 0;
