@@ -29,7 +29,12 @@ constexpr GeometryPair kGeometries[] = {
     {v1::GEOMETRY_TRIGONAL_PRISMATIC, Geometry::kTrigonalPrismatic},
     {v1::GEOMETRY_TRIGONAL_BIPYRAMIDAL, Geometry::kTrigonalBipyramidal},
     {v1::GEOMETRY_SQUARE_ANTIPRISMATIC, Geometry::kSquareAntiprismatic},
-    {v1::GEOMETRY_LINEAR, Geometry::kLinear}};
+    {v1::GEOMETRY_LINEAR, Geometry::kLinear},
+    {v1::GEOMETRY_SQUARE_PYRAMIDAL, Geometry::kSquarePyramidal},
+    {v1::GEOMETRY_TRIGONAL_PLANAR, Geometry::kTrigonalPlanar},
+    {v1::GEOMETRY_PENTAGONAL_BIPYRAMIDAL, Geometry::kPentagonalBipyramidal},
+    {v1::GEOMETRY_TRICAPPED_TRIGONAL_PRISMATIC,
+     Geometry::kTricappedTrigonalPrismatic}};
 
 struct SpinPair {
   v1::SpinStatePreference proto;

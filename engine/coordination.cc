@@ -120,6 +120,18 @@ struct Site {
 };
 using Sites = absl::InlinedVector<Site, 4>;
 
+// Whether every site is held by an anionic O,O-chelate (acac).
+bool OxygenChelatesOnly(const Sites& sites) {
+  for (const Site& s : sites) {
+    const Ligand& l = *s.ligand;
+    if (l.unit == nullptr || l.denticity != 2 || l.unit->charge >= 0 ||
+        l.donor->atomic_number != 8) {
+      return false;
+    }
+  }
+  return !sites.empty();
+}
+
 }  // namespace
 
 int CoordinationDCount(const Element& e, int state) {
@@ -290,6 +302,40 @@ bool PairsAlongPnictideChains(const OxidationAssignment& assignment,
   return pairs == metal;
 }
 
+// A d0-d2 metal in a high state holding four anions per d-block metal
+// atom, with no unit: the tetrahedral oxo-anions and tetroxides of M(V) to
+// M(VIII) written without a unit of the table (KReO4, KRuO4, RuO4, OsO4;
+// wolframite-type FeWO4, whose second d-block metal leaves two oxygen atoms
+// per metal, is octahedral) and the molecular tetrahalides of 3d M(IV)
+// (TiCl4, TiBr4, VCl4; the fluorides are polymers) (Greenwood and
+// Earnshaw, Chemistry of the Elements, 2nd ed., chs. 21-25, from memory).
+bool FourAnionTetrahedra(const OxidationAssignment& assignment,
+                         const AssignedState& ion) {
+  if (!assignment.units.empty()) return false;
+  Rational metals(0), oxide(0), halide(0), other(0);
+  for (const AssignedState& s : assignment.states) {
+    const int z = s.element->atomic_number;
+    if (s.state < 0) {
+      if (z == 8) {
+        oxide = oxide + s.count;
+      } else if (z == 17 || z == 35 || z == 53) {
+        halide = halide + s.count;
+      } else {
+        return false;
+      }
+    } else if (s.element->block == Block::kD && s.element->group >= 3 &&
+               s.element->group <= 12) {
+      metals = metals + s.count;
+    } else {
+      other = other + s.count;
+    }
+  }
+  if (ion.state >= 5) {
+    return halide.IsZero() && oxide == metals * Rational(4);
+  }
+  return oxide.IsZero() && other.IsZero() && halide == metals * Rational(4);
+}
+
 IonEnvironment FindEnvironment(const Formula& formula,
                                const OxidationAssignment& assignment,
                                const AssignedState& ion,
@@ -381,16 +427,37 @@ IonEnvironment FindEnvironment(const Formula& formula,
   }
   bool pi_acceptors_only = !sites.empty();
   bool pi_acceptor = false;
+  bool nitrosyl = false;  // NO+, the one cationic pi acceptor.
+  double oxo = 0;         // Sites of monatomic oxide.
+  double chelate = 0;     // Sites of unit ligands with two or more.
   for (const Site& s : sites) {
-    pi_acceptors_only &= IsPiAcceptor(*s.ligand);
-    pi_acceptor |= IsPiAcceptor(*s.ligand);
+    const Ligand& l = *s.ligand;
+    if (l.unit != nullptr) {
+      const bool acceptor = IsPiAcceptor(l);
+      pi_acceptor |= acceptor;
+      pi_acceptors_only &= acceptor;
+      nitrosyl |= acceptor && l.unit->charge > 0;
+      if (l.denticity >= 2) chelate += s.sites;
+    } else {
+      pi_acceptors_only = false;
+      if (l.anion->atomic_number == 8) oxo += s.sites;
+    }
   }
+  // A metal-oxo ("yl") group written with chelating ligands only, and no
+  // other anion, is a molecule: VO(acac)2, TiO(acac)2, MoO2(acac)2
+  // (Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed., chs. 21
+  // and 22, from memory).
+  const bool oxo_chelate = chelate > 0 && oxo > 0 && complex < 0 &&
+                           std::abs(oxo + chelate - total) < 0.01 &&
+                           oxo <= 2 * metal + 0.01;
   // Donor sites per metal atom, where the formula shows them: in a
-  // complex, with molecular ligands only (Ni(CO)4), or beside a
-  // pi-acceptor ligand, which makes a molecular complex of the halides
-  // written with it (RhCl(PPh3)3, Mn(CO)5Br, NiCl2(PEt3)2).
+  // complex, with molecular ligands only (Ni(CO)4), beside a pi-acceptor
+  // ligand, which makes a molecular complex of the halides written with
+  // it (RhCl(PPh3)3, Mn(CO)5Br, NiCl2(PEt3)2), or in an oxo chelate.
   const double cn =
-      (complex >= 0 || ((molecular || pi_acceptor) && total > 0)) && metal > 0
+      (complex >= 0 ||
+       ((molecular || pi_acceptor || oxo_chelate) && total > 0)) &&
+              metal > 0
           ? total / metal
           : 0;
 
@@ -475,8 +542,12 @@ IonEnvironment FindEnvironment(const Formula& formula,
   // Chemistry of the Elements, 2nd ed., ch. 8, metal carbonyls, from
   // memory). Mn2(CO)10, Co2(CO)8 and Fe2(CO)9 at 17; [CpFe(CO)2]2,
   // [CpMo(CO)3]2 and [CpNi(CO)]2, 17 with a Cp- and M(I), likewise.
+  // A 4d or 5d d8 metal keeps 16 electrons, square planar, with no
+  // metal-metal bond: the chloride-bridged [Rh(CO)2Cl]2 (Greenwood and
+  // Earnshaw, Chemistry of the Elements, 2nd ed., ch. 26, from memory).
   if (geometry_set == nullptr && spin_set == nullptr && cn > 0 && d >= 0 &&
-      pi_acceptor && metals > 1.5 && d + 2 * total / metals < 17.99) {
+      !(d == 8 && n >= 4) && pi_acceptor && metals > 1.5 &&
+      d + 2 * total / metals < 17.99) {
     env.geometry = Geometry::kOctahedral;
     env.spin_state = SpinStatePreference::kLow;
     env.basis = SpinBasis::kMetalMetalBond;
@@ -523,21 +594,58 @@ IonEnvironment FindEnvironment(const Formula& formula,
   } else if (env.geometry == Geometry::kTetrahedral) {
     // Set above (the layered pnictides).
   } else if (std::abs(cn - 5) < 0.01 && std::abs(metal - 1) < 0.01 &&
-             (complex >= 0 || pi_acceptor)) {
-    // Five sites on one metal, in a written complex ([CuCl5]3-) or from
-    // pi acceptors (Fe(CO)5); a salt hydrate's ligand count
-    // (Mn(CH3COO)3·2H2O) does not show its coordination.
-    env.geometry = Geometry::kTrigonalBipyramidal;
+             (complex >= 0 || pi_acceptor || oxo_chelate)) {
+    // Five sites on one metal, in a written complex ([CuCl5]3-), from
+    // pi acceptors (Fe(CO)5) or in an oxo chelate (VO(acac)2); a salt
+    // hydrate's ligand count (Mn(CH3COO)3·2H2O) does not show its
+    // coordination. Square pyramidal with an apical oxo ([VO(acac)2],
+    // [ReOCl4]-, [CrOCl4]-), for d4 to d7 (the Jahn-Teller [MnCl5]3-,
+    // low-spin [Co(CN)5]3-, the 16-electron RuCl2(PPh3)3) and for d8
+    // without a neutral pi acceptor ([Ni(CN)5]3-); trigonal bipyramidal
+    // otherwise (Fe(CO)5, HCo(CO)4, [CuCl5]3-) (Greenwood and Earnshaw,
+    // Chemistry of the Elements, 2nd ed., chs. 22-28, from memory).
+    bool neutral_pi_acceptor = false;
+    for (const Site& s : sites) {
+      neutral_pi_acceptor |= s.ligand->unit != nullptr &&
+                             s.ligand->unit->charge == 0 &&
+                             IsPiAcceptor(*s.ligand);
+    }
+    const bool pyramid =
+        oxo > 0 || (d >= 4 && d <= 7) || (d == 8 && !neutral_pi_acceptor);
+    env.geometry =
+        pyramid ? Geometry::kSquarePyramidal : Geometry::kTrigonalBipyramidal;
   } else if (std::abs(cn - 8) < 0.01 && complex >= 0) {
     // Eight donor sites: the octacyanometallates [Mo(CN)8]4- and
     // [W(CN)8]4- (square antiprism or dodecahedron, one low orbital either
     // way).
     env.geometry = Geometry::kSquareAntiprismatic;
+  } else if (complex >= 0 && std::abs(cn - 7) < 0.01) {
+    // Seven donor sites in a written complex: pentagonal bipyramidal, as
+    // [ZrF7]3- and [UO2F5]3- (the heptafluoro complexes of Nb and Ta are
+    // capped trigonal prisms, close in energy; Greenwood and Earnshaw,
+    // Chemistry of the Elements, 2nd ed., chs. 21 and 22, from memory).
+    env.geometry = Geometry::kPentagonalBipyramidal;
+  } else if (complex >= 0 && std::abs(cn - 9) < 0.01) {
+    // Nine donor sites: tricapped trigonal prismatic, [ReH9]2- and
+    // [TcH9]2- (same source, ch. 24, from memory).
+    env.geometry = Geometry::kTricappedTrigonalPrismatic;
   } else if (std::abs(cn - 2) < 0.01 && d == 10) {
     // Two donor sites on a d10 ion: linear, as in [Ag(NH3)2]+,
     // [Au(CN)2]- and Au(PPh3)Cl (Greenwood and Earnshaw, Chemistry of the
     // Elements, 2nd ed., ch. 28, from memory).
     env.geometry = Geometry::kLinear;
+  } else if (d == 10 && std::abs(cn - 3) < 0.01) {
+    // Three on a d10 ion: trigonal planar, as Pt(PPh3)3, [Cu(CN)3]2- and
+    // [HgI3]- (same source, chs. 27-29, from memory).
+    env.geometry = Geometry::kTrigonalPlanar;
+  } else if (std::abs(cn - 4) < 0.01 && n == 3 && ion.state == 2 && d >= 5 &&
+             d <= 8 && OxygenChelatesOnly(sites)) {
+    // Bis(O,O-chelates) of 3d M(II), Mn to Ni, with no other ligand
+    // share their oxygen atoms in oligomers and are octahedral: the trimer
+    // [Ni(acac)2]3 and the tetramer [Co(acac)2]4, high spin (Greenwood and
+    // Earnshaw, Chemistry of the Elements, 2nd ed., chs. 26 and 27, from
+    // memory). Cu(acac)2 (d9) is a square-planar monomer.
+    env.geometry = Geometry::kOctahedral;
   } else if (std::abs(cn - 4) < 0.01) {
     // A 3d d8 ion is square planar when strong-field ligands hold at least
     // half its sites: [Ni(CN)4]2-, and NiCl2(PEt3)2 and NiCl2(PMe3)2 beside
@@ -560,6 +668,10 @@ IonEnvironment FindEnvironment(const Formula& formula,
     // in oxides (KCuO2, NaCuO2: CuO4 chains, diamagnetic), while K3CuF6 is
     // high-spin octahedral and paramagnetic (same source, ch. 28).
     env.geometry = Geometry::kSquarePlanar;
+  } else if (ion.state >= 4 && d >= 0 && d <= 2 && complex < 0 &&
+             (ion.state >= 5 || n == 3) && std::abs(total - 4 * metal) < 0.01 &&
+             FourAnionTetrahedra(assignment, ion)) {
+    env.geometry = Geometry::kTetrahedral;
   } else if (complex < 0 && (e.group == 5 || e.group == 6) &&
              (d == 1 || d == 2) && assignment.units.empty()) {
     // MX2 layers of group 5 and 6 chalcogenides (MoS2, NbSe2).
@@ -600,10 +712,19 @@ IonEnvironment FindEnvironment(const Formula& formula,
   // RuCl2(PPh3)3 and RuHCl(PPh3)3 are square pyramidal and diamagnetic,
   // not trigonal bipyramidal with two unpaired electrons (Greenwood and
   // Earnshaw, Chemistry of the Elements, 2nd ed., ch. 25, from memory).
+  // A six-coordinate nitrosyl of 20 electrons counting NO+ ({MNO}8 of
+  // Enemark and Feltham, Coord. Chem. Rev. 13 (1974) 339, from memory)
+  // bends its NO: two electrons go to a lone pair on N, as NO- beside a
+  // low-spin d6 metal, and the complex is diamagnetic: the black
+  // [Co(NH3)5(NO)]2+ (Greenwood and Earnshaw, Chemistry of the Elements,
+  // 2nd ed., ch. 26, from memory).
   const double electrons = d + 2 * cn;
+  const bool bent_nitrosyl = nitrosyl &&
+                             env.geometry == Geometry::kOctahedral &&
+                             std::abs(electrons - 20) < 0.01;
   if (geometry_set == nullptr && spin_set == nullptr && pi_acceptor && d >= 0 &&
       std::abs(metal - 1) < 0.01 &&
-      (std::abs(electrons - 18) < 0.01 ||
+      (std::abs(electrons - 18) < 0.01 || bent_nitrosyl ||
        (n >= 4 && std::abs(electrons - 16) < 0.01)) &&
       SplitD(d, env.geometry, SpinState::kLow).unpaired > 0) {
     env.spin_state = SpinStatePreference::kLow;
@@ -640,6 +761,10 @@ IonEnvironment FindEnvironment(const Formula& formula,
       return env;
     case Geometry::kTrigonalBipyramidal:
     case Geometry::kSquareAntiprismatic:
+    case Geometry::kSquarePyramidal:
+    case Geometry::kTrigonalPlanar:
+    case Geometry::kPentagonalBipyramidal:
+    case Geometry::kTricappedTrigonalPrismatic:
       // Low spin as square planar d8 is: 4d/5d, or strong-field ligands.
       if (!HasSpinChoice(d, env.geometry)) {
         set(SpinState::kLow, SpinBasis::kNoChoice);

@@ -11,13 +11,17 @@
 //      (data/spectrochemical_series.tsv).
 //   2. Geometry. A complex with 4 donor sites is square planar for a d8
 //      ion with 4d/5d character or strong-field ligands (f >= 1.5), else
-//      tetrahedral; with 5, on one metal atom, trigonal bipyramidal
-//      (Fe(CO)5); with 6 it is octahedral. The metals of a polynuclear
-//      carbonyl short of 18 valence electrons (Mn2(CO)10, Co2(CO)8) pair
-//      their odd electrons in metal-metal bonds and are octahedral
-//      counting them. A group 5 or 6 d1/d2 ion in a 1:2 chalcogenide
-//      (MoS2) is trigonal prismatic. A 4d/5d d8 ion, or Cu(III), whose
-//      formula shows no coordination is square planar (PdCl2, KCuO2),
+//      tetrahedral; with 5, on one metal atom, square pyramidal with an
+//      oxo ([ReOCl4]-, VO(acac)2), for d4-d7 and for d8 without a neutral
+//      pi acceptor ([Ni(CN)5]3-), else trigonal bipyramidal (Fe(CO)5);
+//      with 6 it is octahedral; 3 on a d10 ion trigonal planar, 7 and 9
+//      in a complex pentagonal bipyramidal and tricapped trigonal
+//      prismatic. Bis(acac) M(II) of Mn to Ni oligomerise: octahedral. The
+//      metals of a polynuclear carbonyl short of 18 valence electrons
+//      (Mn2(CO)10, Co2(CO)8) pair their odd electrons in metal-metal bonds and
+//      are octahedral counting them. A group 5 or 6 d1/d2 ion in a 1:2
+//      chalcogenide (MoS2) is trigonal prismatic. A 4d/5d d8 ion, or Cu(III),
+//      whose formula shows no coordination is square planar (PdCl2, KCuO2),
 //      except among fluorides (PdF2, K3CuF6). Otherwise octahedral.
 //   3. Spin state. 4d and 5d ions are low spin; tetrahedral 3d ions high
 //      spin. An octahedral 3d d4-d7 ion is low spin when the ligands' f

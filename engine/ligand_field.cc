@@ -41,6 +41,25 @@ std::vector<LevelSpec> LevelsFor(Geometry g) {
       // (xz, yz), z2 highest (Huheey, Keiter and Keiter, Inorganic
       // Chemistry, 4th ed., from memory).
       return {{"δg", 2}, {"πg", 2}, {"σg", 1}};
+    case Geometry::kSquarePyramidal:
+      // C4v, apical ligand along z. Sigma bonding leaves dxy and (dxz,
+      // dyz) nonbonding; an apical pi donor (oxo) raises (dxz, dyz), so
+      // dxy is lowest (Ballhausen and Gray, Inorg. Chem. 1 (1962) 111,
+      // vanadyl, from memory).
+      return {{"b2", 1}, {"e", 2}, {"a1", 1}, {"b1", 1}};
+    case Geometry::kTrigonalPlanar:
+      // D3h, three ligands in the xy plane: (xz, yz) nonbonding, z2 weakly
+      // and (xy, x2-y2) strongly antibonding (sigma angular overlap model,
+      // common practice, no source).
+      return {{"e''", 2}, {"a1'", 1}, {"e'", 2}};
+    case Geometry::kPentagonalBipyramidal:
+      // D5h, axis along z: (xz, yz) nonbonding, then (xy, x2-y2), z2
+      // highest (sigma angular overlap model, common practice, no source).
+      return {{"e1''", 2}, {"e2'", 2}, {"a1'", 1}};
+    case Geometry::kTricappedTrigonalPrismatic:
+      // D3h, nine-coordinate: z2 lowest, then (xy, x2-y2), (xz, yz)
+      // (sigma angular overlap model, common practice, no source).
+      return {{"a1'", 1}, {"e'", 2}, {"e''", 2}};
     case Geometry::kFree:
       break;
   }
@@ -63,6 +82,10 @@ SpinState ResolveSpinState(Geometry geometry, SpinStatePreference preference,
     case Geometry::kTrigonalBipyramidal:
     case Geometry::kSquareAntiprismatic:
     case Geometry::kLinear:
+    case Geometry::kSquarePyramidal:
+    case Geometry::kTrigonalPlanar:
+    case Geometry::kPentagonalBipyramidal:
+    case Geometry::kTricappedTrigonalPrismatic:
       return SpinState::kLow;
     case Geometry::kFree:
       break;

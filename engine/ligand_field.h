@@ -12,6 +12,15 @@
 //   trigonal prism a1' (dz2), e' (dxy, dx2-y2), e'' (dxz, dyz): the d1 and
 //                  d2 ions of MoS2-type layers fill a1' (Wilson and Yoffe,
 //                  Adv. Phys. 18 (1969) 193, from memory)
+//   square pyramid b2 (dxy), e (dxz, dyz), a1 (dz2), b1 (dx2-y2): the
+//                  apical oxo of VO(acac)2 and [ReOCl4]- raises e above b2
+//                  (Ballhausen and Gray, Inorg. Chem. 1 (1962) 111, from
+//                  memory), so low-spin d2 pairs in dxy
+//   trigonal plane e'' (dxz, dyz), a1' (dz2), e' (dxy, dx2-y2)
+//   pentagonal bipyramid e1'' (dxz, dyz), e2' (dxy, dx2-y2), a1' (dz2)
+//   tricapped trigonal prism a1' (dz2), e' (dxy, dx2-y2), e'' (dxz, dyz)
+//                  (these three from the sigma angular overlap model,
+//                  common practice, no source)
 // SpinStatePreference::kAuto picks high spin for 3d ions and low spin for
 // 4d and 5d ions in octahedral fields, high spin in tetrahedral fields,
 // and low spin in square-planar and trigonal-prismatic fields (common practice,
@@ -50,10 +59,15 @@ enum class Geometry {
   kTrigonalPrismatic,
   kTrigonalBipyramidal,
   kSquareAntiprismatic,
-  kLinear
+  kLinear,
+  kSquarePyramidal,
+  kTrigonalPlanar,
+  kPentagonalBipyramidal,
+  kTricappedTrigonalPrismatic
 };
 // Geometries, kFree included: arrays indexed by Geometry have this size.
-inline constexpr int kGeometryCount = static_cast<int>(Geometry::kLinear) + 1;
+inline constexpr int kGeometryCount =
+    static_cast<int>(Geometry::kTricappedTrigonalPrismatic) + 1;
 enum class SpinStatePreference { kAuto, kHigh, kLow };
 enum class SpinState { kHigh, kLow };
 
@@ -69,12 +83,20 @@ struct EnumNames<Geometry> {
       {Geometry::kTrigonalPrismatic, "trigonal_prismatic"},
       {Geometry::kTrigonalBipyramidal, "trigonal_bipyramidal"},
       {Geometry::kSquareAntiprismatic, "square_antiprismatic"},
-      {Geometry::kLinear, "linear"}};
+      {Geometry::kLinear, "linear"},
+      {Geometry::kSquarePyramidal, "square_pyramidal"},
+      {Geometry::kTrigonalPlanar, "trigonal_planar"},
+      {Geometry::kPentagonalBipyramidal, "pentagonal_bipyramidal"},
+      {Geometry::kTricappedTrigonalPrismatic, "tricapped_trigonal_prismatic"}};
   static constexpr NamedValue<Geometry> kAliases[] = {
       {Geometry::kSquarePlanar, "square-planar"},
       {Geometry::kTrigonalPrismatic, "trigonal-prismatic"},
       {Geometry::kTrigonalBipyramidal, "trigonal-bipyramidal"},
-      {Geometry::kSquareAntiprismatic, "square-antiprismatic"}};
+      {Geometry::kSquareAntiprismatic, "square-antiprismatic"},
+      {Geometry::kSquarePyramidal, "square-pyramidal"},
+      {Geometry::kTrigonalPlanar, "trigonal-planar"},
+      {Geometry::kPentagonalBipyramidal, "pentagonal-bipyramidal"},
+      {Geometry::kTricappedTrigonalPrismatic, "tricapped-trigonal-prismatic"}};
 };
 template <>
 struct EnumNames<SpinStatePreference> {

@@ -362,6 +362,28 @@ bool MayPlan(const Formula& formula, const Rational& scale,
   return true;
 }
 
+// Whether the radical units of `m` are bound to a metal as their
+// closed-shell pi-acceptor twin: a metal nitrosyl counts its NO as NO+
+// (nitrosonium, isoelectronic with CO), the linear three-electron donor of
+// the {MNO}n notation of Enemark and Feltham, Coord. Chem. Rev. 13 (1974)
+// 339 (from memory). So where one of the first `free_elements` plans is a
+// d-block metal, the radical reading of NO is not taken: Co(CO)3NO is
+// Co(-I), Fe(CO)2(NO)2 Fe(-II), 18-electron and diamagnetic, not Co(0) and
+// Fe(0) beside NO radicals.
+bool RadicalBoundAsAcceptor(const UnitMatch& m, const Plans& plans,
+                            size_t free_elements) {
+  bool acceptor = false;
+  for (const Unit* v : m.units) {
+    acceptor |=
+        v->unpaired == 0 && v->ligand != nullptr && IsPiAcceptor(*v->ligand);
+  }
+  if (!acceptor) return false;
+  for (size_t k = 0; k < free_elements; ++k) {
+    if (plans[k].element->block == Block::kD) return true;
+  }
+  return false;
+}
+
 // Builds the plan of every free element and unit of `reading`, or returns
 // false when the reading's units need more atoms than the formula holds.
 // Declared elements take exactly their declared states.
@@ -410,9 +432,12 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   // A pi-acceptor ligand (carbon monoxide, phosphines: IsPiAcceptor)
   // lets d-block metals take state 0, as in metal carbonyls.
   bool pi_acceptor = false;
+  bool nitrosyl = false;  // A cationic pi acceptor: NO+.
   for (const UnitMatch* m : reading) {
     for (const Unit* u : m->units) {
-      pi_acceptor |= u->ligand != nullptr && IsPiAcceptor(*u->ligand);
+      const bool acceptor = u->ligand != nullptr && IsPiAcceptor(*u->ligand);
+      pi_acceptor |= acceptor;
+      nitrosyl |= acceptor && u->charge > 0;
     }
   }
   // Hydrogen beside a free d-block metal and pi-acceptor ligands, with no
@@ -506,7 +531,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     if (!zero && limit < 0 && !polyanion && !listed && !cluster) continue;
     p.custom = true;
     bool zero_added = !zero;
-    auto add = [&p, limit, listed, anions, zero, cluster](
+    auto add = [&p, limit, listed, anions, zero, cluster, nitrosyl](
                    int low, int high, bool low_common, bool high_common,
                    bool needs_oxide = false) {
       if (cluster) {
@@ -546,6 +571,15 @@ bool MakePlans(const Formula& formula, const Rational& scale,
         for (int c = 0; c < internal::kAnionClasses; ++c) {
           o.high_natural[c] = high == 2 ? 2 : 0;
           o.low_extra_natural[c] = low == 2 && high == 3 ? 2 : 0;
+        }
+      }
+      // Beside NO+ the {MNO}n count sets the metal's formal state, low
+      // whatever its rank: the brown-ring ion [Fe(H2O)5(NO)]2+ is Fe(I)
+      // with NO+ (Greenwood and Earnshaw, Chemistry of the Elements, 2nd
+      // ed., ch. 11, from memory), not Fe(III) beside sulfur(IV).
+      if (zero && nitrosyl && high <= 1) {
+        for (int c = 0; c < internal::kAnionClasses; ++c) {
+          o.high_natural[c] = o.low_extra_natural[c] = 0;
         }
       }
       p.fixed_options.push_back(o);
@@ -591,6 +625,10 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       if (!UnitAccepted(*u, *m, free_elements, [&](size_t k) -> const Element& {
             return *plans[k].element;
           })) {
+        continue;
+      }
+      if (pi_acceptor && u->unpaired > 0 &&
+          RadicalBoundAsAcceptor(*m, plans, free_elements)) {
         continue;
       }
       p.units.push_back(u);
@@ -970,9 +1008,14 @@ Solution SolveReading(const Plans& plans, const Forbidden& forbidden,
 // The readings to try: none, the greedy maximal set of non-overlapping
 // matches (groups first, then longer runs), and that set without each of
 // its runs in turn (refilled greedily): at most 2 + kMaxUnitMatches.
+// Where `bracketed` (the formula writes a complex in square brackets),
+// a run outside every bracket is the complex's counter-ion as written and
+// is not left out: [V(H2O)6]SO4 is V(II) sulfate, not V(IV) beside
+// sulfur(IV) (Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed.,
+// ch. 22, from memory).
 using ReadingList = absl::InlinedVector<Reading, 4>;
 
-ReadingList Readings(const UnitMatches& matches) {
+ReadingList Readings(const UnitMatches& matches, bool bracketed) {
   ReadingList readings(1);
   if (matches.empty()) return readings;
   auto greedy = [&](const UnitMatch* skip) {
@@ -988,7 +1031,7 @@ ReadingList Readings(const UnitMatches& matches) {
   const Reading all = greedy(nullptr);
   readings.push_back(all);
   for (const UnitMatch* m : all) {
-    if (m->group >= 0) continue;
+    if (m->group >= 0 || (bracketed && m->enclosing < 0)) continue;
     Reading r = greedy(m);
     if (std::find(readings.begin(), readings.end(), r) == readings.end()) {
       readings.push_back(std::move(r));
@@ -1041,12 +1084,21 @@ BestReading SearchReadings(const Formula& formula,
                            const OxidationOptions& options,
                            const Rational& scale, Search* search) {
   BestReading best;
-  const ReadingList readings = Readings(search->matches);
+  bool bracketed = false;
+  if (!search->matches.empty()) {
+    for (const WrittenGroup& g : formula.groups) bracketed |= g.bracket == '[';
+  }
+  const ReadingList readings = Readings(search->matches, bracketed);
   // The buffer the next reading's plans go to; the other holds the best's.
   int work = 0;
   for (const bool strict : {true, false}) {
     search->strict = strict;
     for (const Reading& reading : readings) {
+      // A formula that writes its complex in square brackets shows its
+      // units: the reading without any is the lenient fallback only.
+      if (bracketed && strict && reading.empty() && readings.size() > 1) {
+        continue;
+      }
       bool weak = false;
       for (const UnitMatch* m : reading) weak |= m->weak;
       // A reading with open-shell units from bare runs cannot beat a

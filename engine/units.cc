@@ -299,7 +299,7 @@ std::string Ligand::Name() const {
 }
 
 bool IsPiAcceptor(const Ligand& l) {
-  return l.unit != nullptr && l.unit->charge == 0 &&
+  return l.unit != nullptr && l.unit->charge >= 0 &&
          (l.f >= kPiAcceptorF || l.donor->atomic_number == 15);
 }
 

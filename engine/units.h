@@ -103,11 +103,12 @@ struct Ligand {
 // source).
 inline constexpr double kPiAcceptorF = 1.8;
 
-// Whether `l` is a neutral pi-acceptor ligand that stabilises low metal
-// states: a unit with f of at least kPiAcceptorF (carbon monoxide,
-// benzene) or a neutral phosphorus donor (phosphines and phosphites, soft
-// sigma donors and pi acceptors: Pd(PPh3)4 is Pd(0); Greenwood and
-// Earnshaw, Chemistry of the Elements, 2nd ed., ch. 27, from memory).
+// Whether `l` is a neutral or cationic pi-acceptor ligand that stabilises
+// low metal states: a unit with f of at least kPiAcceptorF (carbon
+// monoxide, benzene, and nitrosonium NO+, isoelectronic with CO) or a
+// neutral phosphorus donor (phosphines and phosphites, soft sigma donors
+// and pi acceptors: Pd(PPh3)4 is Pd(0); Greenwood and Earnshaw, Chemistry
+// of the Elements, 2nd ed., ch. 27, from memory).
 bool IsPiAcceptor(const Ligand& l);
 
 // Where a 3d ion turns low spin in an octahedral field.

@@ -249,6 +249,167 @@ TEST(Coordination, WernerComplexesAndSandwiches) {
   });
 }
 
+// Nitrosyls: NO bound to a metal counts as NO+ (nitrosonium), the linear
+// three-electron donor of the {MNO}n notation; the metal takes the formal
+// state that leaves.
+TEST(Coordination, NitrosylsCountNoAsNitrosonium) {
+  CheckAll({
+      // {CoNO}10 and {Fe(NO)2}10: 18 electrons, tetrahedral, diamagnetic.
+      {"Co(CO)3NO", "Co", -1, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      {"Fe(CO)2(NO)2", "Fe", -2, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      {"Cr(NO)4", "Cr", -4, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 23, from memory"},
+      // {MnNO}8, five-coordinate: 18 electrons, diamagnetic.
+      {"Mn(CO)4NO", "Mn", -1, kAny, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      // Sodium nitroprusside, {FeNO}6: low-spin Fe(II), diamagnetic.
+      {"Na2[Fe(CN)5NO]", "Fe", 2, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      // Its one-electron reduction product, {FeNO}7: S = 1/2.
+      {"K3[Fe(CN)5NO]", "Fe", 1, Geometry::kOctahedral, 1,
+       "Enemark and Feltham, Coord. Chem. Rev. 13 (1974) 339, from memory"},
+      {"K3[Cr(CN)5NO]", "Cr", 1, Geometry::kOctahedral, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 23, from memory (S = 1/2)"},
+      // The brown-ring ion, {FeNO}7 among water: high-spin, S = 3/2
+      // (about 3.9 uB measured).
+      {"[Fe(H2O)5(NO)]SO4", "Fe", 1, Geometry::kOctahedral, 3,
+       "Greenwood and Earnshaw, 2nd ed., ch. 11, from memory"},
+      {"[Fe(H2O)5NO]2+", "Fe", 1, Geometry::kOctahedral, 3,
+       "Greenwood and Earnshaw, 2nd ed., ch. 11, from memory"},
+      // {CoNO}8, six-coordinate: the NO bends (Co(III) with NO- in the
+      // other convention), diamagnetic.
+      {"[Co(NH3)5(NO)]Cl2", "Co", 1, Geometry::kOctahedral, 0,
+       "Enemark and Feltham, Coord. Chem. Rev. 13 (1974) 339, from memory; "
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      {"[Ru(NH3)5NO]Cl3", "Ru", 2, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+  });
+  // Without a metal, NO stays the radical nitric oxide.
+  CompositionInput in;
+  in.formula = "NO";
+  const CompositionReport r = AnalyzeComposition(in);
+  ASSERT_TRUE(r.valid);
+  ASSERT_EQ(r.units.size(), 1u);
+  EXPECT_EQ(r.units[0].unit->name, "nitric oxide");
+  EXPECT_EQ(r.unpaired_per_formula_unit, 1);
+  in.formula = "Co(CO)3NO";
+  const CompositionReport co = AnalyzeComposition(in);
+  ASSERT_TRUE(co.valid);
+  for (const auto& u : co.units) EXPECT_NE(u.unit->name, "nitric oxide");
+}
+
+TEST(Coordination, FiveCoordinateSquarePyramidal) {
+  CheckAll({
+      // Oxo complexes: the apical oxo; low-spin d2 pairs in dxy.
+      {"K[ReOCl4]", "Re", 5, Geometry::kSquarePyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      {"VO(acac)2", "V", 4, Geometry::kSquarePyramidal, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 22, from memory (vanadyl "
+       "acetylacetonate, 1.73 uB)"},
+      {"TiO(acac)2", "Ti", 4, Geometry::kSquarePyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 21, from memory"},
+      // d8 without a neutral pi acceptor, and low-spin d7.
+      {"K3[Ni(CN)5]", "Ni", 2, Geometry::kSquarePyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      {"K3[Co(CN)5]", "Co", 2, Geometry::kSquarePyramidal, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      // The 16-electron d6 RuCl2(PPh3)3.
+      {"RuCl2(PPh3)3", "Ru", 2, Geometry::kSquarePyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      // With neutral pi acceptors and for d9: trigonal bipyramidal.
+      {"Fe(CO)5", "Fe", 0, Geometry::kTrigonalBipyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 8, from memory"},
+      {"Mn(CO)4NO", "Mn", -1, Geometry::kTrigonalBipyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+  });
+}
+
+TEST(Coordination, ThreeSevenAndNineCoordinate) {
+  CheckAll({
+      {"Pt(PPh3)3", "Pt", 0, Geometry::kTrigonalPlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      {"K2[Cu(CN)3]", "Cu", 1, Geometry::kTrigonalPlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
+      {"K[HgI3]", "Hg", 2, Geometry::kTrigonalPlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 29, from memory"},
+      {"K3[ZrF7]", "Zr", 4, Geometry::kPentagonalBipyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 21, from memory"},
+      {"K2[ReH9]", "Re", 7, Geometry::kTricappedTrigonalPrismatic, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+  });
+}
+
+TEST(Coordination, BisAcetylacetonatesOligomeriseOctahedral) {
+  // M(acac)2 of Mn to Ni share O atoms in oligomers: octahedral, high
+  // spin; Cu(acac)2 stays a square-planar monomer.
+  CheckAll({
+      {"Ni(acac)2", "Ni", 2, Geometry::kOctahedral, 2,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory (trimer "
+       "[Ni(acac)2]3)"},
+      {"[Ni(acac)2]3", "Ni", 2, Geometry::kOctahedral, 6,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      {"Co(acac)2", "Co", 2, Geometry::kOctahedral, 3,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory (tetramer "
+       "[Co(acac)2]4)"},
+      {"[Co(acac)2]4", "Co", 2, Geometry::kOctahedral, 12,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      {"Cu(acac)2", "Cu", 2, Geometry::kSquarePlanar, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
+  });
+}
+
+TEST(Coordination, TetroxidesAndTetrahalidesAreTetrahedral) {
+  CheckAll({
+      {"RuO4", "Ru", 8, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      {"OsO4", "Os", 8, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      {"KReO4", "Re", 7, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      // Perruthenate, d1.
+      {"KRuO4", "Ru", 7, Geometry::kTetrahedral, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      {"TiCl4", "Ti", 4, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 21, from memory"},
+      {"VCl4", "V", 4, Geometry::kTetrahedral, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 22, from memory"},
+      // TiF4 is a fluoride-bridged polymer, TiO2 and SrTiO3 octahedral.
+      {"TiF4", "Ti", 4, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 21, from memory"},
+      {"SrTiO3", "Ti", 4, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 21, from memory"},
+  });
+}
+
+TEST(Coordination, HeavyD8CarbonylDimersStaySquarePlanar) {
+  // Regression: the chloride-bridged Rh(I) dimer was read as a metal-metal
+  // bonded carbonyl, octahedral.
+  CheckAll({
+      {"[Rh(CO)2Cl]2", "Rh", 1, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      {"Mn2(CO)10", "Mn", 0, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 8, from memory"},
+  });
+}
+
+TEST(Coordination, BracketedComplexKeepsItsCounterIon) {
+  // Regression: the sulfate run after the complex was left out, giving
+  // V(IV) beside S(IV).
+  CheckAll({
+      {"[V(H2O)6]SO4", "V", 2, Geometry::kOctahedral, 3,
+       "Greenwood and Earnshaw, 2nd ed., ch. 22, from memory (d3)"},
+  });
+  CompositionInput in;
+  in.formula = "[V(H2O)6]SO4";
+  const CompositionReport r = AnalyzeComposition(in);
+  ASSERT_TRUE(r.valid);
+  bool sulfate = false;
+  for (const auto& u : r.units) sulfate |= u.unit->name == "sulfate";
+  EXPECT_TRUE(sulfate);
+}
+
 TEST(Coordination, ChargedComplexesReadTheirNeutralLigands) {
   // Regression: a charged complex of neutral ligands read its ligands as
   // loose atoms ([Fe(H2O)6]2+ listed no water unit).

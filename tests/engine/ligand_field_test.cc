@@ -27,8 +27,13 @@ using ::shellwright::testing::kOctahedralSpinStates;
 using ::shellwright::testing::ReferenceOctahedralSpinState;
 using ::testing::HasSubstr;
 
-constexpr Geometry kSplitGeometries[] = {
-    Geometry::kOctahedral, Geometry::kTetrahedral, Geometry::kSquarePlanar};
+constexpr Geometry kSplitGeometries[] = {Geometry::kOctahedral,
+                                         Geometry::kTetrahedral,
+                                         Geometry::kSquarePlanar,
+                                         Geometry::kSquarePyramidal,
+                                         Geometry::kTrigonalPlanar,
+                                         Geometry::kPentagonalBipyramidal,
+                                         Geometry::kTricappedTrigonalPrismatic};
 
 TEST(LigandField, OctahedralReferenceSpinStates) {
   for (const ReferenceOctahedralSpinState& row : kOctahedralSpinStates) {
@@ -221,6 +226,54 @@ TEST(SplitD, SquareAntiprismaticD2IsDiamagneticWhenLowSpin) {
   EXPECT_EQ(ResolveSpinState(Geometry::kSquareAntiprismatic,
                              SpinStatePreference::kAuto, 5),
             SpinState::kLow);
+}
+
+TEST(SplitD, SquarePyramidalOxoD2PairsInDxy) {
+  // An apical oxo raises (dxz, dyz) above dxy: low-spin d2 [ReOCl4]- pairs
+  // both electrons in dxy and is diamagnetic, and vanadyl d1 keeps one
+  // (Ballhausen and Gray, Inorg. Chem. 1 (1962) 111, from memory).
+  const LigandFieldSplitting d2 =
+      SplitD(2, Geometry::kSquarePyramidal, SpinState::kLow);
+  ASSERT_EQ(d2.levels.size(), 4u);
+  EXPECT_EQ(d2.levels.front().name, "b2");
+  EXPECT_EQ(d2.levels.front().electrons, 2);
+  EXPECT_EQ(d2.unpaired, 0);
+  EXPECT_EQ(SplitD(2, Geometry::kSquarePyramidal, SpinState::kHigh).unpaired,
+            2);
+  // Low-spin d8 ([Ni(CN)5]3-) leaves dx2-y2 empty: diamagnetic.
+  const LigandFieldSplitting d8 =
+      SplitD(8, Geometry::kSquarePyramidal, SpinState::kLow);
+  EXPECT_EQ(d8.levels.back().name, "b1");
+  EXPECT_EQ(d8.levels.back().electrons, 0);
+  EXPECT_EQ(d8.unpaired, 0);
+}
+
+TEST(SplitD, SevenThreeAndNineCoordinateLevels) {
+  // Orbital counts per level sum to five, lowest level first as the
+  // sigma angular overlap model orders them (common practice, no source).
+  struct Row {
+    Geometry g;
+    const char* lowest;
+    size_t levels;
+  };
+  for (const Row& row :
+       {Row{Geometry::kTrigonalPlanar, "e''", 3},
+        Row{Geometry::kPentagonalBipyramidal, "e1''", 3},
+        Row{Geometry::kTricappedTrigonalPrismatic, "a1'", 3}}) {
+    SCOPED_TRACE(Name(row.g));
+    const LigandFieldSplitting d10 = SplitD(10, row.g, SpinState::kLow);
+    ASSERT_EQ(d10.levels.size(), row.levels);
+    EXPECT_EQ(d10.levels.front().name, row.lowest);
+    int orbitals = 0;
+    for (const SplitLevel& l : d10.levels) orbitals += l.orbitals;
+    EXPECT_EQ(orbitals, 5);
+    EXPECT_EQ(d10.unpaired, 0);
+    EXPECT_EQ(SplitD(0, row.g, SpinState::kHigh).unpaired, 0);
+  }
+  // High-spin d5 leaves every orbital singly occupied.
+  EXPECT_EQ(
+      SplitD(5, Geometry::kPentagonalBipyramidal, SpinState::kHigh).unpaired,
+      5);
 }
 
 TEST(LigandField, SquarePlanarD8IonsAreDiamagneticWithAuto) {

@@ -52,8 +52,10 @@ TEST(EnumNames, ParseIsExactAndSaysWhatItExpected) {
   EXPECT_THAT(std::string(ParseName<Geometry>("cubic").status().message()),
               HasSubstr("(expected free, octahedral, tetrahedral, "
                         "square_planar, trigonal_prismatic, "
-                        "trigonal_bipyramidal, square_antiprismatic or "
-                        "linear)"));
+                        "trigonal_bipyramidal, square_antiprismatic, "
+                        "linear, square_pyramidal, trigonal_planar, "
+                        "pentagonal_bipyramidal or "
+                        "tricapped_trigonal_prismatic)"));
 }
 
 // Every enumerator from first to last has one distinct name, and the name
@@ -73,7 +75,7 @@ void ExpectRoundTrip(E first, E last) {
 }
 
 TEST(EnumNames, EveryProjectTableRoundTrips) {
-  ExpectRoundTrip(Geometry::kFree, Geometry::kSquarePlanar);
+  ExpectRoundTrip(Geometry::kFree, Geometry::kTricappedTrigonalPrismatic);
   ExpectRoundTrip(SpinStatePreference::kAuto, SpinStatePreference::kLow);
   ExpectRoundTrip(SpinState::kHigh, SpinState::kLow);
   ExpectRoundTrip(Severity::kError, Severity::kInfo);

@@ -12,7 +12,9 @@ def describe(spec, *, charge=None, geometry=None, spin_state=None,
     charge: net charge (int); must agree with a charge in `spec`.
     geometry: "free", "octahedral", "tetrahedral", "square_planar",
         "trigonal_prismatic", "trigonal_bipyramidal",
-        "square_antiprismatic" or "linear".
+        "square_antiprismatic", "linear", "square_pyramidal",
+        "trigonal_planar", "pentagonal_bipyramidal" or
+        "tricapped_trigonal_prismatic".
     spin_state: "auto", "high" or "low".
     configuration: an explicit configuration ("[Ar] 3d5 4s1").
 
