@@ -461,17 +461,18 @@ struct ElementSettings {
 };
 
 // The environment of the free ion `s` as its ligands and the record's
-// settings set it (engine/coordination.h).
+// settings set it (engine/coordination.h); `cache` is the record's.
 IonEnvironment EnvironmentOf(const Formula& formula, const AssignedState& s,
                              const ElementSettings& settings,
                              const CompositionReport& r,
+                             EnvironmentCache* cache,
                              ComplexSide side = ComplexSide::kAsWritten) {
   const Geometry* g_set = FindSetting(settings.geometry, s.element);
   const SpinStatePreference* s_set = FindSetting(settings.spin, s.element);
   IonEnvironment env;
   if (s.element->block == Block::kD && (r.kind == CompositionKind::kIonic ||
                                         r.kind == CompositionKind::kZintl)) {
-    env = FindEnvironment(formula, *r.assignment, s, g_set, s_set, side);
+    env = FindEnvironment(formula, *r.assignment, s, g_set, s_set, side, cache);
   } else {
     env.geometry = g_set != nullptr ? *g_set : Geometry::kFree;
     env.spin_state = s_set != nullptr ? *s_set : SpinStatePreference::kAuto;
@@ -670,32 +671,35 @@ void Annotate(const Formula& formula, const ElementSettings& settings,
                         std::sqrt(static_cast<double>(
                             u.unit->unpaired * (u.unit->unpaired + 2)))});
   }
+  // What the ions' environments share, worked out once.
+  EnvironmentCache cache;
   for (const AssignedState& s : assignment.states) {
     if (s.unit >= 0) continue;  // Bonded in a unit: not an ion.
     // An element written both in a bracketed complex and outside it
     // (Prussian blue): one ion for each side, each in its own ligands.
     if (placement == nullptr && r->kind == CompositionKind::kIonic &&
+        WritesComplex(formula, &cache) &&
         FindSetting(settings.geometry, s.element) == nullptr &&
         FindSetting(settings.spin, s.element) == nullptr) {
       if (const std::optional<Rational> inside =
               AtomsInComplex(formula, assignment, s)) {
         const Rational outside = s.count - *inside;
         if (!inside->IsZero()) {
-          AnnotateIon(
-              s, *inside,
-              EnvironmentOf(formula, s, settings, *r, ComplexSide::kInside),
-              &InComplexSite(), settings, temperature, anion_z, r);
+          AnnotateIon(s, *inside,
+                      EnvironmentOf(formula, s, settings, *r, &cache,
+                                    ComplexSide::kInside),
+                      &InComplexSite(), settings, temperature, anion_z, r);
         }
         if (!outside.IsZero()) {
-          AnnotateIon(
-              s, outside,
-              EnvironmentOf(formula, s, settings, *r, ComplexSide::kOutside),
-              &OutsideComplexSite(), settings, temperature, anion_z, r);
+          AnnotateIon(s, outside,
+                      EnvironmentOf(formula, s, settings, *r, &cache,
+                                    ComplexSide::kOutside),
+                      &OutsideComplexSite(), settings, temperature, anion_z, r);
         }
         continue;
       }
     }
-    const IonEnvironment env = EnvironmentOf(formula, s, settings, *r);
+    const IonEnvironment env = EnvironmentOf(formula, s, settings, *r, &cache);
     bool placed = false;
     if (placement != nullptr) {
       for (const Site& site : placement->sites) {
