@@ -461,17 +461,18 @@ struct ElementSettings {
 };
 
 // The environment of the free ion `s` as its ligands and the record's
-// settings set it (engine/coordination.h).
+// settings set it (engine/coordination.h); `cache` is the record's.
 IonEnvironment EnvironmentOf(const Formula& formula, const AssignedState& s,
                              const ElementSettings& settings,
                              const CompositionReport& r,
+                             EnvironmentCache* cache,
                              ComplexSide side = ComplexSide::kAsWritten) {
   const Geometry* g_set = FindSetting(settings.geometry, s.element);
   const SpinStatePreference* s_set = FindSetting(settings.spin, s.element);
   IonEnvironment env;
   if (s.element->block == Block::kD && (r.kind == CompositionKind::kIonic ||
                                         r.kind == CompositionKind::kZintl)) {
-    env = FindEnvironment(formula, *r.assignment, s, g_set, s_set, side);
+    env = FindEnvironment(formula, *r.assignment, s, g_set, s_set, side, cache);
   } else {
     env.geometry = g_set != nullptr ? *g_set : Geometry::kFree;
     env.spin_state = s_set != nullptr ? *s_set : SpinStatePreference::kAuto;
@@ -510,63 +511,83 @@ IonEnvironment OnSite(IonEnvironment env, const AssignedState& s,
 // is a Zintl phase, and the main anion.
 struct IonAnnotationKey {
   const Element* element = nullptr;
-  int state = 0;
-  int anion_z = 0;
   const Ligand* ligand = nullptr;
   uint64_t f_bits = 0;  // IonEnvironment::f, bit for bit.
-  Geometry geometry = Geometry::kFree;
-  SpinStatePreference spin_state = SpinStatePreference::kAuto;
-  SpinBasis basis = SpinBasis::kNone;
-  bool near_crossover = false;
-  bool metal_metal_bonded = false;
-  bool zintl = false;
-  bool set = false;  // The record sets the element's geometry or spin.
+  // The rest in one word, compared at once: the state (bits 0-31), the
+  // main anion's atomic number (32-39), the geometry (40-47), the spin
+  // state preference (48-51), the spin basis (52-59), and whether the ion
+  // is near a crossover (60), bonded to other metal atoms (61), in a Zintl
+  // phase (62) and set by the record's settings (63).
+  uint64_t packed = 0;
+
+  IonAnnotationKey(const AssignedState& s, const IonEnvironment& env,
+                   int anion_z, bool zintl, bool set)
+      : element(s.element), ligand(env.ligand) {
+    static_assert(sizeof(env.f) == sizeof(f_bits));
+    static_assert(kMaxAtomicNumber < 256);
+    std::memcpy(&f_bits, &env.f, sizeof(f_bits));
+    packed = uint64_t{static_cast<uint32_t>(s.state)} |
+             (static_cast<uint64_t>(anion_z & 0xff) << 32) |
+             (static_cast<uint64_t>(env.geometry) << 40) |
+             (static_cast<uint64_t>(env.spin_state) << 48) |
+             (static_cast<uint64_t>(env.basis) << 52) |
+             (uint64_t{env.near_crossover} << 60) |
+             (uint64_t{env.metal_metal_bonded} << 61) |
+             (uint64_t{zintl} << 62) | (uint64_t{set} << 63);
+  }
+  IonAnnotationKey() = default;
 
   bool operator==(const IonAnnotationKey& o) const {
-    return element == o.element && state == o.state && anion_z == o.anion_z &&
-           ligand == o.ligand && f_bits == o.f_bits && geometry == o.geometry &&
-           spin_state == o.spin_state && basis == o.basis &&
-           near_crossover == o.near_crossover &&
-           metal_metal_bonded == o.metal_metal_bonded && zintl == o.zintl &&
-           set == o.set;
+    return element == o.element && ligand == o.ligand && f_bits == o.f_bits &&
+           packed == o.packed;
   }
   size_t Hash() const {
-    uint64_t h = reinterpret_cast<uintptr_t>(element) ^
-                 (static_cast<uint64_t>(state + 16) << 3) ^
-                 (static_cast<uint64_t>(anion_z) << 9) ^
-                 reinterpret_cast<uintptr_t>(ligand) ^ f_bits ^
-                 (static_cast<uint64_t>(geometry) << 17) ^
-                 (static_cast<uint64_t>(spin_state) << 21) ^
-                 (static_cast<uint64_t>(basis) << 25) ^
-                 (uint64_t{near_crossover} << 29) ^
-                 (uint64_t{metal_metal_bonded} << 30) ^
-                 (uint64_t{zintl} << 31) ^ (uint64_t{set} << 32);
+    uint64_t h = (reinterpret_cast<uintptr_t>(element) ^ f_bits ^ packed) *
+                     0x9E3779B97F4A7C15ull ^
+                 reinterpret_cast<uintptr_t>(ligand);
     h *= 0x9E3779B97F4A7C15ull;
-    return static_cast<size_t>(h >> 56);  // kIonAnnotationSlots = 256.
+    return static_cast<size_t>(h >> 56);  // kIonAnnotationSets = 256.
   }
 };
 
 // Annotations already made on this thread, by key: a record's ions are
 // mostly ions of earlier records (Mn3+ among oxides), and describing one
-// and setting its moments costs several times a lookup. Direct-mapped,
-// made on first use (about 60 KB a thread); the descriptions are this
-// thread's handles (DescribeAtom), so a copy touches no shared count.
-constexpr size_t kIonAnnotationSlots = 256;
+// and setting its moments costs several times a lookup. Two ways per set,
+// the less recently used one refilled: in a direct-mapped table two
+// frequent keys of one slot (Y3+ and O2- of a perovskite, say) took turns
+// in it and were described again at nearly every record. Made on first
+// use (about 120 KB a thread); the descriptions are this thread's handles
+// (DescribeAtom), so a copy touches no shared count.
+constexpr size_t kIonAnnotationSets = 256;
 struct IonAnnotationSlot {
   bool used = false;
   IonAnnotationKey key;
   IonAnnotation ion{};
 };
+struct IonAnnotationSet {
+  std::array<IonAnnotationSlot, 2> ways;
+  int recent = 0;  // The way last found or filled.
+};
 
-IonAnnotationSlot& IonAnnotationSlotFor(const IonAnnotationKey& key) {
-  thread_local std::unique_ptr<
-      std::array<IonAnnotationSlot, kIonAnnotationSlots>>
-      slots;
-  if (slots == nullptr) {
-    slots =
-        std::make_unique<std::array<IonAnnotationSlot, kIonAnnotationSlots>>();
+// The slot holding `key` (`*hit`), else the one to fill with it.
+IonAnnotationSlot& IonAnnotationSlotFor(const IonAnnotationKey& key,
+                                        bool* hit) {
+  thread_local std::unique_ptr<std::array<IonAnnotationSet, kIonAnnotationSets>>
+      sets;
+  if (sets == nullptr) {
+    sets = std::make_unique<std::array<IonAnnotationSet, kIonAnnotationSets>>();
   }
-  return (*slots)[key.Hash()];
+  IonAnnotationSet& set = (*sets)[key.Hash()];
+  for (int w = 0; w < 2; ++w) {
+    if (set.ways[w].used && set.ways[w].key == key) {
+      set.recent = w;
+      *hit = true;
+      return set.ways[w];
+    }
+  }
+  set.recent = 1 - set.recent;
+  *hit = false;
+  return set.ways[set.recent];
 }
 
 // Annotates the free ion `s` (`count` of it, in `env`, on `site` when a
@@ -580,22 +601,13 @@ void AnnotateIon(const AssignedState& s, const Rational& count,
   IonAnnotationSlot* slot = nullptr;
   IonAnnotationKey key;
   if (temperature == kDefaultTemperature) {
-    key.element = s.element;
-    key.state = s.state;
-    key.anion_z = anion_z;
-    key.ligand = env.ligand;
-    static_assert(sizeof(env.f) == sizeof(key.f_bits));
-    std::memcpy(&key.f_bits, &env.f, sizeof(key.f_bits));
-    key.geometry = env.geometry;
-    key.spin_state = env.spin_state;
-    key.basis = env.basis;
-    key.near_crossover = env.near_crossover;
-    key.metal_metal_bonded = env.metal_metal_bonded;
-    key.zintl = r->kind == CompositionKind::kZintl;
-    key.set = FindSetting(settings.geometry, s.element) != nullptr ||
-              FindSetting(settings.spin, s.element) != nullptr;
-    slot = &IonAnnotationSlotFor(key);
-    if (slot->used && slot->key == key) {
+    key =
+        IonAnnotationKey(s, env, anion_z, r->kind == CompositionKind::kZintl,
+                         FindSetting(settings.geometry, s.element) != nullptr ||
+                             FindSetting(settings.spin, s.element) != nullptr);
+    bool hit = false;
+    slot = &IonAnnotationSlotFor(key, &hit);
+    if (hit) {
       IonAnnotation& ion = r->ions.emplace_back(slot->ion);
       ion.count = count;
       if (site != nullptr) ion.site = site->name;
@@ -670,32 +682,35 @@ void Annotate(const Formula& formula, const ElementSettings& settings,
                         std::sqrt(static_cast<double>(
                             u.unit->unpaired * (u.unit->unpaired + 2)))});
   }
+  // What the ions' environments share, worked out once.
+  EnvironmentCache cache;
   for (const AssignedState& s : assignment.states) {
     if (s.unit >= 0) continue;  // Bonded in a unit: not an ion.
     // An element written both in a bracketed complex and outside it
     // (Prussian blue): one ion for each side, each in its own ligands.
     if (placement == nullptr && r->kind == CompositionKind::kIonic &&
+        WritesComplex(formula, &cache) &&
         FindSetting(settings.geometry, s.element) == nullptr &&
         FindSetting(settings.spin, s.element) == nullptr) {
       if (const std::optional<Rational> inside =
               AtomsInComplex(formula, assignment, s)) {
         const Rational outside = s.count - *inside;
         if (!inside->IsZero()) {
-          AnnotateIon(
-              s, *inside,
-              EnvironmentOf(formula, s, settings, *r, ComplexSide::kInside),
-              &InComplexSite(), settings, temperature, anion_z, r);
+          AnnotateIon(s, *inside,
+                      EnvironmentOf(formula, s, settings, *r, &cache,
+                                    ComplexSide::kInside),
+                      &InComplexSite(), settings, temperature, anion_z, r);
         }
         if (!outside.IsZero()) {
-          AnnotateIon(
-              s, outside,
-              EnvironmentOf(formula, s, settings, *r, ComplexSide::kOutside),
-              &OutsideComplexSite(), settings, temperature, anion_z, r);
+          AnnotateIon(s, outside,
+                      EnvironmentOf(formula, s, settings, *r, &cache,
+                                    ComplexSide::kOutside),
+                      &OutsideComplexSite(), settings, temperature, anion_z, r);
         }
         continue;
       }
     }
-    const IonEnvironment env = EnvironmentOf(formula, s, settings, *r);
+    const IonEnvironment env = EnvironmentOf(formula, s, settings, *r, &cache);
     bool placed = false;
     if (placement != nullptr) {
       for (const Site& site : placement->sites) {

@@ -96,29 +96,87 @@ bool PerovskiteASite(const Element& e) {
 // than in the perovskite and their field weaker (docs/method.md).
 bool OxygenDeficientPerovskite(const OxidationAssignment& assignment) {
   if (!assignment.units.empty()) return false;
-  Rational a(0), b(0), o(0);
+  // The counts in floating point first: a few positive terms, each within
+  // a relative 2^-53 of its value, so a margin of 1e-9 leaves to the exact
+  // sums only the records at a bound (and those that pass).
+  double ad = 0, bd = 0, od = 0;
   for (const AssignedState& s : assignment.states) {
     const int z = s.element->atomic_number;
     if (s.state < 0) {
       if (z != 8 || s.state != -2) return false;
+      od += s.count.ToDouble();
+    } else if (z >= 21 && z <= 30) {
+      bd += s.count.ToDouble();
+    } else if (PerovskiteASite(*s.element) && s.state > 0) {
+      ad += s.count.ToDouble();
+    } else {
+      return false;  // Another cation, or O in a state other than -2.
+    }
+  }
+  constexpr double kMargin = 1e-9;
+  if (bd <= 0 || std::abs(ad - bd) > kMargin * bd ||
+      od < 2.5 * bd * (1 - kMargin) || od >= 2.75 * bd * (1 + kMargin)) {
+    return false;
+  }
+  Rational a(0), b(0), o(0);
+  for (const AssignedState& s : assignment.states) {
+    const int z = s.element->atomic_number;
+    if (s.state < 0) {
       o = o + s.count;
     } else if (z >= 21 && z <= 30) {
       b = b + s.count;
-    } else if (PerovskiteASite(*s.element) && s.state > 0) {
-      a = a + s.count;
     } else {
-      return false;  // Another cation, or O in a state other than -2.
+      a = a + s.count;
     }
   }
   return !b.IsZero() && a == b && !BelowMultiple(o, b, 5, 2) &&
          BelowMultiple(o, b, 11, 4);
 }
 
-struct Site {
-  const Ligand* ligand;
-  double sites;  // Ligands times denticity, per formula unit.
-};
+using Site = EnvironmentCache::LigandSites;
 using Sites = absl::InlinedVector<Site, 4>;
+
+// The ligands of `complex` (-1: of the ions outside every complex) into
+// `out`: the units and monatomic anions there, with their sites.
+void GatherLigands(const Formula& formula,
+                   const OxidationAssignment& assignment, int complex,
+                   EnvironmentCache* out) {
+  for (const AssignedUnit& u : assignment.units) {
+    const bool in_complex =
+        complex >= 0 &&
+        (Inside(formula, u.enclosing, complex) || u.group == complex);
+    // An ion outside any complex does not take another complex's ligands.
+    bool in_a_complex = false;
+    for (int g = u.group >= 0 ? u.group : u.enclosing; g >= 0;
+         g = formula.groups[g].parent) {
+      in_a_complex |= formula.groups[g].bracket == '[';
+    }
+    if (complex >= 0 ? !in_complex : in_a_complex) continue;
+    if (u.unit->ligand == nullptr) {
+      // A neutral unit written in the complex is a ligand the series does
+      // not rank (ethylene in Zeise's salt, K[PtCl3(C2H4)]): it takes a
+      // site but no part in f.
+      if (complex >= 0 && u.unit->charge == 0) {
+        out->unlisted += u.count.ToDouble();
+      }
+      continue;
+    }
+    out->sites.push_back(
+        {u.unit->ligand, u.count.ToDouble() * u.unit->ligand->denticity});
+  }
+  for (const AssignedState& s : assignment.states) {
+    if (s.unit >= 0 || s.state >= 0) continue;
+    const Ligand* l = FindAnionLigand(*s.element);
+    if (l == nullptr) continue;
+    const double count =
+        complex >= 0 ? AtomsInside(formula, s.element, complex).ToDouble()
+                     : s.count.ToDouble();
+    if (count <= 0) continue;
+    out->sites.push_back({l, count * l->denticity});
+    out->molecular = false;
+  }
+  out->ligands_ready = true;
+}
 
 // Whether every site is held by an anionic O,O-chelate (acac).
 bool OxygenChelatesOnly(const Sites& sites) {
@@ -133,6 +191,16 @@ bool OxygenChelatesOnly(const Sites& sites) {
 }
 
 }  // namespace
+
+bool WritesComplex(const Formula& formula, EnvironmentCache* cache) {
+  if (cache->has_complex < 0) {
+    cache->has_complex = 0;
+    for (const WrittenGroup& g : formula.groups) {
+      if (g.bracket == '[') cache->has_complex = 1;
+    }
+  }
+  return cache->has_complex != 0;
+}
 
 int CoordinationDCount(const Element& e, int state) {
   if (e.block != Block::kD || e.group < 3 || e.group > 12) return -1;
@@ -184,19 +252,27 @@ std::optional<Rational> AtomsInComplex(const Formula& formula,
 // Ca14MnSb11 (Johrendt, J. Mater. Chem. 21 (2011) 13726; Kauzlarich (ed.),
 // Chemistry, Structure, and Bonding of Zintl Phases and Ions, VCH (1996);
 // from memory).
+// `*any_pnictide` (when not null) keeps whether the assignment holds a
+// free pnictide anion at all, for the next ion: -1 until known.
 bool InPnictideTetrahedra(const OxidationAssignment& assignment,
-                          const AssignedState& ion) {
+                          const AssignedState& ion, int* any_pnictide) {
   const int z = ion.element->atomic_number;
   if (z < 24 || z > 28 || ion.state < 1 || ion.state > 3 ||
       !assignment.units.empty()) {
     return false;
   }
-  bool any = false;  // Most records hold no pnictide: no sums for them.
-  for (const AssignedState& s : assignment.states) {
-    const int sz = s.element->atomic_number;
-    any |= s.state == -3 && IsHeavyPnictogen(sz);
+  // Most records hold no pnictide: no sums for them.
+  if (any_pnictide == nullptr || *any_pnictide < 0) {
+    bool any = false;
+    for (const AssignedState& s : assignment.states) {
+      const int sz = s.element->atomic_number;
+      any |= s.state == -3 && IsHeavyPnictogen(sz);
+    }
+    if (any_pnictide != nullptr) *any_pnictide = any ? 1 : 0;
+    if (!any) return false;
+  } else if (*any_pnictide == 0) {
+    return false;
   }
-  if (!any) return false;
   Rational pnictide(0), other_anion(0), metal(0);
   for (const AssignedState& s : assignment.states) {
     const int sz = s.element->atomic_number;
@@ -342,51 +418,35 @@ IonEnvironment FindEnvironment(const Formula& formula,
                                const Geometry* geometry_set,
                                const SpinStatePreference* spin_set,
                                ComplexSide side) {
+  return FindEnvironment(formula, assignment, ion, geometry_set, spin_set, side,
+                         nullptr);
+}
+
+IonEnvironment FindEnvironment(const Formula& formula,
+                               const OxidationAssignment& assignment,
+                               const AssignedState& ion,
+                               const Geometry* geometry_set,
+                               const SpinStatePreference* spin_set,
+                               ComplexSide side, EnvironmentCache* cache) {
   IonEnvironment env;
   const Element& e = *ion.element;
   const int d = CoordinationDCount(e, ion.state);
   const int n = e.period - 1;  // 3 for 3d.
 
-  // Ligands.
-  Sites sites;
-  const int complex = ComplexOf(formula, &e, side);
-  double metal = 0;       // This element's atoms where the ligands are counted.
-  bool molecular = true;  // Only unit ligands (no monatomic anions).
-  double unlisted = 0;    // Sites of units in the complex outside the series.
-  for (const AssignedUnit& u : assignment.units) {
-    const bool in_complex =
-        complex >= 0 &&
-        (Inside(formula, u.enclosing, complex) || u.group == complex);
-    // An ion outside any complex does not take another complex's ligands.
-    bool in_a_complex = false;
-    for (int g = u.group >= 0 ? u.group : u.enclosing; g >= 0;
-         g = formula.groups[g].parent) {
-      in_a_complex |= formula.groups[g].bracket == '[';
-    }
-    if (complex >= 0 ? !in_complex : in_a_complex) continue;
-    if (u.unit->ligand == nullptr) {
-      // A neutral unit written in the complex is a ligand the series does
-      // not rank (ethylene in Zeise's salt, K[PtCl3(C2H4)]): it takes a
-      // site but no part in f.
-      if (complex >= 0 && u.unit->charge == 0) {
-        unlisted += u.count.ToDouble();
-      }
-      continue;
-    }
-    sites.push_back(
-        {u.unit->ligand, u.count.ToDouble() * u.unit->ligand->denticity});
+  // Ligands: those outside every complex from the cache, when there is
+  // one; a complex's gathered here.
+  const int complex = cache != nullptr && !WritesComplex(formula, cache)
+                          ? -1
+                          : ComplexOf(formula, &e, side);
+  EnvironmentCache local;
+  EnvironmentCache& gathered = complex < 0 && cache != nullptr ? *cache : local;
+  if (!gathered.ligands_ready) {
+    GatherLigands(formula, assignment, complex, &gathered);
   }
-  for (const AssignedState& s : assignment.states) {
-    if (s.unit >= 0 || s.state >= 0) continue;
-    const Ligand* l = FindAnionLigand(*s.element);
-    if (l == nullptr) continue;
-    const double count =
-        complex >= 0 ? AtomsInside(formula, s.element, complex).ToDouble()
-                     : s.count.ToDouble();
-    if (count <= 0) continue;
-    sites.push_back({l, count * l->denticity});
-    molecular = false;
-  }
+  const Sites& sites = gathered.sites;
+  const bool molecular = gathered.molecular;
+  const double unlisted = gathered.unlisted;
+  double metal = 0;  // This element's atoms where the ligands are counted.
   if (complex >= 0) {
     metal = AtomsInside(formula, &e, complex).ToDouble();
   } else {
@@ -496,7 +556,8 @@ IonEnvironment FindEnvironment(const Formula& formula,
   // orders with 3.9 uB; Singh et al., Phys. Rev. B 79 (2009) 094519, from
   // memory).
   if (geometry_set == nullptr && spin_set == nullptr && complex < 0 &&
-      InPnictideTetrahedra(assignment, ion)) {
+      InPnictideTetrahedra(assignment, ion,
+                           cache != nullptr ? &cache->pnictide : nullptr)) {
     env.geometry = Geometry::kTetrahedral;
     if (e.atomic_number != 25) {
       env.spin_state = SpinStatePreference::kHigh;
@@ -792,7 +853,17 @@ IonEnvironment FindEnvironment(const Formula& formula,
     set(SpinState::kHigh, SpinBasis::kDefaultHigh);
     return env;
   }
-  if (OxygenDeficientPerovskite(assignment)) {
+  bool oxygen_deficient;
+  if (cache == nullptr) {
+    oxygen_deficient = OxygenDeficientPerovskite(assignment);
+  } else {
+    if (cache->oxygen_deficient_perovskite < 0) {
+      cache->oxygen_deficient_perovskite =
+          OxygenDeficientPerovskite(assignment) ? 1 : 0;
+    }
+    oxygen_deficient = cache->oxygen_deficient_perovskite != 0;
+  }
+  if (oxygen_deficient) {
     set(SpinState::kHigh, SpinBasis::kOxygenDeficientPerovskite);
     return env;
   }

@@ -48,6 +48,7 @@
 
 #include <optional>
 
+#include "absl/container/inlined_vector.h"
 #include "engine/formula.h"
 #include "engine/ligand_field.h"
 #include "engine/oxidation.h"
@@ -132,6 +133,40 @@ IonEnvironment FindEnvironment(const Formula& formula,
                                const Geometry* geometry_set,
                                const SpinStatePreference* spin_set,
                                ComplexSide side = ComplexSide::kAsWritten);
+
+// What FindEnvironment reads from the whole formula and assignment, the
+// same for every ion outside a bracketed complex: the ligands outside
+// complexes, whether the formula writes a complex, and two tests of the
+// anions. A record with several d ions works these out once with a cache
+// that it passes to FindEnvironment for each of them; the answers are the
+// same as without it. A cache belongs to one formula and assignment.
+struct EnvironmentCache {
+  struct LigandSites {
+    const Ligand* ligand;
+    double sites;  // Ligands times denticity, per formula unit.
+  };
+  // The formula writes a '[' group; -1 until asked.
+  int has_complex = -1;
+  // The ligands outside every complex, once `ligands_ready`.
+  bool ligands_ready = false;
+  absl::InlinedVector<LigandSites, 4> sites;
+  bool molecular = true;  // Only unit ligands (no monatomic anions).
+  double unlisted = 0;    // Neutral unranked units (inside complexes only).
+  // A free pnictide anion (P, As, Sb or Bi at -3); -1 until asked.
+  int pnictide = -1;
+  // The brownmillerite test of the assignment; -1 until asked.
+  int oxygen_deficient_perovskite = -1;
+};
+IonEnvironment FindEnvironment(const Formula& formula,
+                               const OxidationAssignment& assignment,
+                               const AssignedState& ion,
+                               const Geometry* geometry_set,
+                               const SpinStatePreference* spin_set,
+                               ComplexSide side, EnvironmentCache* cache);
+
+// Whether `formula` writes a bracketed complex ('['), asked once per
+// cache.
+bool WritesComplex(const Formula& formula, EnvironmentCache* cache);
 
 // How many of the `ion.count` atoms of `ion` (a free d-block ion of
 // `assignment`) sit inside a bracketed complex, where its element is

@@ -11,7 +11,9 @@
 
 #include "absl/strings/str_cat.h"
 #include "engine/composition.h"
+#include "engine/formula.h"
 #include "engine/ligand_field.h"
+#include "engine/oxidation.h"
 #include "engine/units.h"
 #include "gtest/gtest.h"
 
@@ -441,6 +443,71 @@ TEST(Coordination, FragmentsAreReadFromWrittenGroupsOnly) {
   const CompositionReport mecl = AnalyzeComposition(in);
   ASSERT_TRUE(mecl.valid);
   EXPECT_TRUE(mecl.units.empty());
+}
+
+// A record's EnvironmentCache, shared by all its ions and both sides of
+// its complexes in turn, gives every ion the environment a call without
+// it gives: formulas with and without complexes, Prussian blue (an
+// element on both sides), layered pnictides, a brownmillerite, carbonyl
+// dimers, spinels and oxides of several d metals.
+TEST(Coordination, EnvironmentCacheChangesNoEnvironment) {
+  const char* formulas[] = {"Fe4[Fe(CN)6]3",
+                            "KFe[Fe(CN)6]",
+                            "K3[Fe(CN)6]",
+                            "[Co(NH3)6]Cl3",
+                            "[Co(NH3)4(CO3)]NO3",
+                            "Mn2(CO)10",
+                            "Co2(CO)8",
+                            "BaFe2As2",
+                            "LaFeAsO",
+                            "BaMn2As2",
+                            "Ca2Fe2O5",
+                            "Sr2Co2O5",
+                            "NiFe2O4",
+                            "MnFe1.5Al0.5O4",
+                            "LiNi0.5Co0.2Mn0.3O2",
+                            "La0.7Sr0.3MnO3",
+                            "(Mg0.2Co0.2Ni0.2Cu0.2Zn0.2)O",
+                            "CuSO4·5H2O",
+                            "NiCl2(PEt3)2",
+                            "Cr2(OAc)4(H2O)2",
+                            "MoS2",
+                            "PdCoO2",
+                            "FeAsS",
+                            "K[PtCl3(C2H4)]",
+                            "Ni(CO)4",
+                            "MoCl2"};
+  for (const char* text : formulas) {
+    SCOPED_TRACE(text);
+    const absl::StatusOr<Formula> f = ParseFormula(text);
+    ASSERT_TRUE(f.ok());
+    const absl::StatusOr<OxidationResult> r =
+        AssignOxidationStates(*f, OxidationOptions());
+    ASSERT_TRUE(r.ok());
+    ASSERT_TRUE(r->best.has_value());
+    EnvironmentCache cache;
+    int d_ions = 0;
+    for (const AssignedState& s : r->best->states) {
+      if (s.unit >= 0 || s.element->block != Block::kD) continue;
+      ++d_ions;
+      for (const ComplexSide side :
+           {ComplexSide::kAsWritten, ComplexSide::kInside,
+            ComplexSide::kOutside}) {
+        const IonEnvironment plain =
+            FindEnvironment(*f, *r->best, s, nullptr, nullptr, side);
+        const IonEnvironment cached =
+            FindEnvironment(*f, *r->best, s, nullptr, nullptr, side, &cache);
+        EXPECT_EQ(cached.geometry, plain.geometry);
+        EXPECT_EQ(cached.spin_state, plain.spin_state);
+        EXPECT_EQ(cached.ligand, plain.ligand);
+        EXPECT_EQ(cached.f, plain.f);
+        EXPECT_EQ(cached.basis, plain.basis);
+        EXPECT_EQ(cached.near_crossover, plain.near_crossover);
+        EXPECT_EQ(cached.metal_metal_bonded, plain.metal_metal_bonded);
+      }
+    }
+    EXPECT_GT(d_ions, 0);
+  }
 }
 
 }  // namespace
