@@ -774,6 +774,36 @@ TEST(Composition, GroupSevenDichalcogenidesHoldPairedClusters) {
   }
 }
 
+// The Mo6Se6 chain compounds M2Mo6X6 hold monovalent M: Na, K, Cs, In and
+// Tl alike (Potel, Chevrel, Sergent et al., J. Solid State Chem. 35 (1980)
+// 286, from memory); In keeps its inert pair beside the cluster as Sn and
+// Pb do in the Chevrel phases SnMo6S8 and PbMo6S8 (Chevrel, Sergent and
+// Prigent, J. Solid State Chem. 3 (1971) 515, from memory).
+TEST(Composition, ClusterChalcogenidesKeepTheInertPair) {
+  const struct {
+    const char* formula;
+    const char* cation;
+    int state;
+  } kCases[] = {{"In2Mo6Se6", "In", 1}, {"Tl2Mo6Se6", "Tl", 1},
+                {"Cs2Mo6Se6", "Cs", 1}, {"In2Mo6Te6", "In", 1},
+                {"K2Mo6S6", "K", 1},    {"SnMo6S8", "Sn", 2},
+                {"PbMo6S8", "Pb", 2}};
+  for (const auto& c : kCases) {
+    CompositionReport r = Analyze(c.formula);
+    ASSERT_TRUE(r.valid) << c.formula << ": " << DiagnosticsText(r);
+    bool found = false;
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->symbol == c.cation) {
+        found = true;
+        EXPECT_EQ(ion.state, c.state) << c.formula;
+      } else if (ion.element->symbol == "Mo") {
+        EXPECT_EQ(ion.spin_basis, SpinBasis::kMetalMetalBond) << c.formula;
+      }
+    }
+    EXPECT_TRUE(found) << c.formula;
+  }
+}
+
 // The M2Mo3O8 oxides of the 3d M(II) hold the same diamagnetic Mo3O13
 // triangles as Zn2Mo3O8, and high-spin M(II) (McCarroll, Katz and Ward,
 // J. Am. Chem. Soc. 79 (1957) 5410, from memory): Fe2Mo3O8 (kamiokite),
