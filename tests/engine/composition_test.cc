@@ -855,6 +855,31 @@ TEST(Composition, DivalentThreeDMetalsBesideMo3Triangles) {
   }
 }
 
+// Copper is monovalent in its sulfides and selenides (X-ray photoelectron
+// spectra, Folmer and Jellinek, J. Less-Common Met. 76 (1980) 153, from
+// memory): covellite CuS and klockmannite CuSe hold Cu(I) with S-S and
+// Se-Se pairs and holes in the chalcogen band, metallic and Pauli
+// paramagnetic (Greenwood and Earnshaw, Chemistry of the Elements, 2nd
+// ed., ch. 28, from memory). The formal reading is Cu(I) with the
+// chalcogen at -1 on average, no local moment. Chalcopyrite stays
+// Cu(I) Fe(III) and digenite Cu9S5 keeps its Cu(I)/Cu(II) mix.
+TEST(Composition, CopperMonochalcogenidesHoldCopperOne) {
+  for (const char* formula : {"CuS", "CuSe"}) {
+    CompositionReport r = Analyze(formula);
+    ASSERT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->symbol == "Cu") EXPECT_EQ(ion.state, 1) << formula;
+    }
+    EXPECT_EQ(r.unpaired_per_formula_unit, 0) << formula;
+  }
+  CompositionReport r = Analyze("CuFeS2");
+  ASSERT_TRUE(r.valid) << DiagnosticsText(r);
+  for (const IonAnnotation& ion : r.ions) {
+    if (ion.element->symbol == "Cu") EXPECT_EQ(ion.state, 1);
+    if (ion.element->symbol == "Fe") EXPECT_EQ(ion.state, 3);
+  }
+}
+
 // ---------------------------------------------------------------------------
 // Record id.
 
