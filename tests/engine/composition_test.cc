@@ -880,6 +880,28 @@ TEST(Composition, CopperMonochalcogenidesHoldCopperOne) {
   }
 }
 
+// The diselenide and ditelluride pairs sit with disulfide on the
+// spectrochemical series: ferroselite FeSe2 and frohbergite FeTe2 are
+// diamagnetic low-spin Fe(II), as pyrite is, and MnSe2 stays high spin
+// (Hulliger and Mooser, J. Phys. Chem. Solids 26 (1965) 429, from memory).
+TEST(Composition, DichalcogenidePairsPutIronTwoLowSpin) {
+  for (const char* formula : {"FeS2", "FeSe2", "FeTe2"}) {
+    CompositionReport r = Analyze(formula);
+    ASSERT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+    bool iron = false;
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->symbol != "Fe") continue;
+      iron = true;
+      EXPECT_EQ(ion.state, 2) << formula;
+      EXPECT_EQ(ion.unpaired(), 0) << formula;
+    }
+    EXPECT_TRUE(iron) << formula;
+  }
+  CompositionReport r = Analyze("MnSe2");
+  ASSERT_TRUE(r.valid) << DiagnosticsText(r);
+  EXPECT_EQ(r.unpaired_per_formula_unit, 5);
+}
+
 // ---------------------------------------------------------------------------
 // Record id.
 
