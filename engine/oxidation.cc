@@ -634,6 +634,13 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     }
     for (const StateOption& o : internal::StateOptions(*p.element)) {
       if (polyanion && o.low < 0) continue;
+      // Among heavy pnictides a transition-metal state wholly above +4 is
+      // not met at all (not merely uncommon): the skutterudite IrSb3 is
+      // Ir(III) with Sb4 4- rings, as CoSb3 and RhSb3 are (Hulliger,
+      // Struct. Bonding 4 (1968) 83, from memory), not Ir(IX).
+      if (pnictide_only && p.element->block == Block::kD && o.low > limit) {
+        continue;
+      }
       if (!zero_added && o.low > 0) {
         add(0, 0, true, true);
         zero_added = true;

@@ -902,6 +902,17 @@ TEST(Composition, DichalcogenidePairsPutIronTwoLowSpin) {
   EXPECT_EQ(r.unpaired_per_formula_unit, 5);
 }
 
+// The skutterudites MX3 hold M(III), low-spin d6, beside X4 4- rings:
+// CoSb3, RhSb3, IrSb3 and CoAs3 are diamagnetic semiconductors (Hulliger,
+// Struct. Bonding 4 (1968) 83, from memory). A state above +4 is not met
+// among heavy pnictides (IrSb3 had been Ir(IX)).
+TEST(Composition, SkutteruditesHoldTrivalentLowSpinMetals) {
+  for (const char* formula : {"CoSb3", "RhSb3", "IrSb3", "CoAs3"}) {
+    const CompositionReport r = ExpectOnlyDBlockIon(formula, 3);
+    EXPECT_EQ(r.unpaired_per_formula_unit, 0) << formula;
+  }
+}
+
 // ---------------------------------------------------------------------------
 // Record id.
 
