@@ -187,6 +187,29 @@ bool CoinageMetalNitride(const Formula& formula) {
   return nitrogen;
 }
 
+// Main-group metals with boron only, two B per metal atom: the AlB2-type
+// diborides MgB2 and AlB2, whose graphite-like boron layers hold the
+// metal's electrons in a partly filled band shared with the metal layers;
+// both are metals (MgB2 superconducts at 39 K), as the transition-metal
+// diborides TiB2 and ZrB2 of the same structure are (Greenwood and
+// Earnshaw, Chemistry of the Elements, 2nd ed., ch. 6; Nagamatsu et al.,
+// Nature 410 (2001) 63; from memory), and their solid solution
+// Mg1-xAlxB2.
+bool IsMainGroupDiboride(const Formula& formula) {
+  Rational metal(0), boron(0);
+  for (const ElementAmount& a : formula.amounts) {
+    const Element& e = *a.element;
+    if (e.atomic_number == 5) {
+      boron = a.count;
+    } else if (IsMetal(e) && (e.block == Block::kS || e.block == Block::kP)) {
+      metal = metal + a.count;
+    } else {
+      return false;
+    }
+  }
+  return !metal.IsZero() && boron == metal * Rational(2);
+}
+
 }  // namespace
 
 bool IsZintlAnionFormer(const Element& e) {
@@ -347,6 +370,13 @@ BondingClass ClassifyBonding(const Formula& formula) {
     }
     c.kind = CompositionKind::kIonic;
     c.rule = "non-metal-rich";
+    return c;
+  }
+  if (IsMainGroupDiboride(formula)) {
+    c.kind = CompositionKind::kIntermetallic;
+    c.rule =
+        "an AlB2-type diboride: graphite-like boron layers between metal "
+        "layers, metallic";
     return c;
   }
   if ((s_block || divalent_rare_earth) && all_nonmetals_zintl) {

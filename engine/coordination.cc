@@ -303,8 +303,11 @@ bool InPnictideTetrahedra(const OxidationAssignment& assignment,
 // MoO2, WO2, ReO2, and the Mo3O13 triangles of Zn2Mo3O8 and Mg2Mo3O8,
 // diamagnetic with six electrons in Mo-Mo bonds: McCarroll, Katz and Ward,
 // J. Am. Chem. Soc. 79 (1957) 5410; Cotton, Inorg. Chem. 3 (1964) 1217;
-// from memory) or halides only, at most four, d1 (NbCl4, NbI4). No other
-// transition metal of groups 3 to 10 may be present.
+// from memory), halides only, at most four, d1 (NbCl4, NbI4), or, d3,
+// two chalcogenide anions per metal atom (the Re4 clusters of ReS2, ReSe2
+// and TcS2). No other transition metal of groups 3 to 10 may be present,
+// but for the 3d M(II) of the M2Mo3O8 oxides (Fe2Mo3O8) and of the
+// Chevrel phases (Ni2Mo6S8).
 bool PairsInMetalClusters(const OxidationAssignment& assignment,
                           const AssignedState& ion, int d) {
   const Element& e = *ion.element;
@@ -314,6 +317,9 @@ bool PairsInMetalClusters(const OxidationAssignment& assignment,
   }
   Rational anions(0), metal(0);
   bool oxide = false, chalcogen = false, halide = false;
+  // Another transition metal, and whether each is a 3d M(II) or a d0
+  // group 3 M(III), which hold no electrons for the cluster.
+  bool other_metal = false, other_closed = true;
   for (const AssignedState& s : assignment.states) {
     const int z = s.element->atomic_number;
     if (s.element == &e) {
@@ -322,11 +328,12 @@ bool PairsInMetalClusters(const OxidationAssignment& assignment,
     }
     const bool o = z == 8, ch = IsHeavyChalcogen(z), x = IsHalogen(z);
     if (!o && !ch && !x) {
-      // Another anion, or another transition metal that could hold the
-      // electrons (MnCrCoWO3.91).
-      if (s.state < 0 || (s.element->block == Block::kD &&
-                          s.element->group >= 3 && s.element->group <= 10)) {
-        return false;
+      if (s.state < 0) return false;  // Another anion.
+      if (s.element->block == Block::kD && s.element->group >= 3 &&
+          s.element->group <= 10) {
+        other_metal = true;
+        other_closed &= (s.element->period == 4 && s.state == 2) ||
+                        (s.element->group == 3 && s.state == 3);
       }
       continue;
     }
@@ -336,8 +343,37 @@ bool PairsInMetalClusters(const OxidationAssignment& assignment,
     anions = anions + s.count;
   }
   if (metal.IsZero() || anions.IsZero()) return false;
+  if (other_metal) {
+    // Another transition metal could hold the electrons (MnCrCoWO3.91),
+    // but for the 3d M(II) and Sc(III) cations of the M2Mo3O8 oxides,
+    // eight oxygen per three cluster atoms at +4: Fe2Mo3O8 (kamiokite),
+    // Co2Mo3O8, Mn2Mo3O8 and Ni2Mo3O8 hold high-spin M(II) beside the
+    // same diamagnetic Mo3O13 triangles as Zn2Mo3O8 (McCarroll, Katz and
+    // Ward, J. Am. Chem. Soc. 79 (1957) 5410, from memory); their moment
+    // is the M(II) one.
+    // So do the 3d M(II) in the channels of the Chevrel phases, at most
+    // 4/3 chalcogen per cluster atom at +2 or +3: Ni2Mo6S8, Co2Mo6S8 and
+    // Fe2Mo6S8 hold the same Mo6S8 clusters as PbMo6S8 (Chevrel, Sergent
+    // and Prigent, J. Solid State Chem. 3 (1971) 515, from memory).
+    if (!other_closed) return false;
+    if (ion.state <= 3) {
+      return chalcogen && !oxide && !halide &&
+             !(metal * Rational(4, 3) < anions);
+    }
+    return oxide && !halide && !chalcogen && anions == metal * Rational(8, 3);
+  }
   if (ion.state <= 3) return !(metal * Rational(9, 2) < anions);
-  if (d > 3 || chalcogen) return false;
+  if (d > 3) return false;
+  // The d3 dichalcogenides of group 7, two S or Se per metal atom, no
+  // other anion: the distorted CdI2-type layers of ReS2, ReSe2 and TcS2
+  // hold Re4 (Tc4) parallelogram clusters, Re-Re bonded, and are
+  // diamagnetic semiconductors (Wildervanck and Jellinek, J. Less-Common
+  // Met. 24 (1971) 73; Greenwood and Earnshaw, Chemistry of the Elements,
+  // 2nd ed., ch. 24; from memory). The d1 and d2 layers of groups 5 and 6
+  // (NbSe2, MoS2) are band metals and semiconductors, not clusters.
+  if (chalcogen) {
+    return d == 3 && !oxide && !halide && anions == metal * Rational(2);
+  }
   if (oxide && !halide) return !(metal * Rational(8, 3) < anions);
   return halide && !oxide && d == 1 && !(metal * Rational(4) < anions);
 }

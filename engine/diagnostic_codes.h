@@ -87,6 +87,9 @@ inline constexpr char kUnknownHydration[] = "unknown_hydration";
 // A leading geometric-isomer prefix ("cis-", "trans-", "fac-", "mer-")
 // was read and set aside: it names an arrangement, not a composition.
 inline constexpr char kIsomerPrefix[] = "isomer_prefix";
+// A mineral site mixture "(Fe,Ni)9S8" was read as an equal split of the
+// site among its members.
+inline constexpr char kSiteMixtureEqualSplit[] = "site_mixture_equal_split";
 
 }  // namespace shellwright::codes
 

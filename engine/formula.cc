@@ -462,6 +462,61 @@ class FormulaParser {
     return p;
   }
 
+  // A comma met inside a '(' group: where it is, and the terms and the
+  // group's items before it.
+  struct Comma {
+    size_t pos;
+    size_t terms;
+    size_t items;
+  };
+
+  // Checks the site mixture "(A,B,...)" of `group` (opened at byte
+  // `open`, its commas from commas_[first_comma] on) and splits its site
+  // equally among the members: each member is one element symbol with no
+  // count, written once, and nothing else is in the group. The info
+  // "site_mixture_equal_split" says so. False on error.
+  bool CloseSiteMixture(size_t open, int group, size_t first_comma,
+                        Items* inner) {
+    const size_t members = commas_.size() - first_comma + 1;
+    const size_t first_term = groups_[group].first_term;
+    bool simple = static_cast<size_t>(group) + 1 == groups_.size() &&
+                  terms_.size() - first_term == members &&
+                  inner->size() == members;
+    for (size_t k = 0; simple && k + first_comma < commas_.size(); ++k) {
+      const Comma& comma = commas_[first_comma + k];
+      simple = comma.terms - first_term == k + 1 && comma.items == k + 1;
+    }
+    for (size_t k = 0; simple && k < members; ++k) {
+      const WrittenTerm& t = terms_[first_term + k];
+      simple = t.count == Rational(1) && t.group == group;
+      for (size_t j = 0; simple && j < k; ++j) {
+        simple = terms_[first_term + j].element != t.element;
+      }
+    }
+    commas_.resize(first_comma);
+    if (!simple) {
+      Fail(codes::kMalformedFormula, open,
+           absl::StrCat("malformed site mixture at column ", Column(open),
+                        ": write distinct element symbols without counts "
+                        "between commas, as in (Fe,Ni)9S8"));
+      return false;
+    }
+    const Rational share(1, static_cast<int64_t>(members));
+    std::string names;
+    for (size_t k = 0; k < members; ++k) {
+      terms_[first_term + k].count = share;
+      (*inner)[k].second = share;
+      absl::StrAppend(&names, k == 0 ? "" : ", ",
+                      terms_[first_term + k].element->symbol);
+    }
+    infos_.push_back(FormulaIssue{
+        codes::kSiteMixtureEqualSplit, Column(open),
+        absl::StrCat("the site mixture at column ", Column(open), " (", names,
+                     ") is analysed as an equal split, ", share.ToString(),
+                     " each; write the counts (Fe4.5Ni4.5S8) for another")});
+    return true;
+  }
+
   // After the closing bracket of `group` (opened at byte `open`, holding
   // `inner`): parses the count written after it and adds the group's
   // amounts to `items`. False on error.
@@ -871,9 +926,14 @@ class FormulaParser {
         groups_.push_back(WrittenGroup{c, current_group_, first_term,
                                        first_term, Rational(1), Rational(1)});
         current_group_ = group;
+        const size_t first_comma = commas_.size();
         if (!ParseSequence(depth + 1, want, &inner)) return false;
         current_group_ = groups_[group].parent;
         groups_[group].end_term = static_cast<int>(terms_.size());
+        if (commas_.size() > first_comma &&
+            !CloseSiteMixture(open, group, first_comma, &inner)) {
+          return false;
+        }
         if (pos_ >= text_.size() || text_[pos_] != want) {
           Fail(codes::kMalformedFormula, open,
                absl::StrCat("'", std::string(1, c), "' at column ",
@@ -899,6 +959,21 @@ class FormulaParser {
           return false;
         }
         return true;  // Unmatched at top level: the caller reports it.
+      }
+      if (c == ',') {
+        // "(Fe,Ni)9S8": members of a site mixture, checked when the group
+        // closes (CloseSiteMixture).
+        if (closer != ')') {
+          Fail(codes::kMalformedFormula, pos_,
+               absl::StrCat("',' at column ", Column(pos_),
+                            " outside a site mixture; a comma separates the "
+                            "elements sharing a site inside parentheses, "
+                            "as in (Fe,Ni)9S8"));
+          return false;
+        }
+        commas_.push_back({pos_, terms_.size(), items->size()});
+        ++pos_;
+        continue;
       }
       if (SeparatorLength(pos_) > 0) {
         if (closer != '\0') {
@@ -970,6 +1045,7 @@ class FormulaParser {
   const FormulaOptions& options_;
   const JoinedAbbreviations& joined_ = JoinedAbbreviationTable();
   std::vector<FormulaIssue> infos_;
+  std::vector<Comma> commas_;  // Of the site mixtures being parsed.
   size_t pos_ = 0;
   int part_ = 0;            // Adduct part being parsed.
   int current_group_ = -1;  // Innermost open group, or -1.

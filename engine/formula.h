@@ -28,6 +28,10 @@
 //     error "variable_without_value";
 //   - a part whose multiplier is 'n' ("CuSO4·nH2O": unknown hydration) is
 //     left out of the amounts, with the info "unknown_hydration";
+//   - a mineral site mixture "(Fe,Ni)9S8", "(Mg,Fe)2SiO4": distinct
+//     element symbols without counts between commas, alone in '(' ')',
+//     share the site equally (Fe 9/2, Ni 9/2), with the info
+//     "site_mixture_equal_split"; any other comma is "malformed_formula";
 //   - D and T (deuterium, tritium) count as hydrogen;
 //   - ligand abbreviations (data/ligand_abbreviations.tsv, case-sensitive:
 //     "bpy", "en", "acac", "Cp", ...) stand for their unit's atoms:

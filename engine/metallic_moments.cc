@@ -170,6 +170,20 @@ std::optional<MetallicMomentEstimate> EstimateHeusler(
                                 "group fall outside M = Z_t - 24 (their "
                                 "moment sits on Y); no estimate"));
   }
+  if (xe.period >= 5) {
+    // The rule's domain is X from the 3d series (Co2, Fe2, Mn2; Galanakis
+    // et al., Phys. Rev. B 66, 174429 (2002), from memory). With a 4d or
+    // 5d X the Mn moment stays local and the Ru2 compounds order
+    // antiferromagnetically: Ru2MnSi, Ru2MnGe and Ru2MnSn have Neel
+    // points of about 300 K (Kanomata et al., J. Alloys Compd. 393, 26
+    // (2005), from memory), where the rule says 3 uB.
+    return None(e, absl::StrCat("full Heusler ", xe.symbol,
+                                "2YZ: the Slater-Pauling rule holds for X "
+                                "from the 3d series; with a 4d or 5d X the "
+                                "moment sits on Y and orders "
+                                "antiferromagnetically in Ru2MnZ; no "
+                                "estimate"));
+  }
   // Galanakis et al., Phys. Rev. B 66, 174429 (2002), from memory.
   return apply(MomentModel::kFullHeusler, "full Heusler X2YZ", 24,
                kMaxFullHeuslerMoment, kMinFullHeuslerMoment);

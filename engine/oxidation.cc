@@ -296,6 +296,13 @@ ABSL_ATTRIBUTE_NOINLINE bool HoldsMetalClusters(const Plans& plans) {
   return !(metal * Rational(3) < anion);
 }
 
+// The heavy p-block metals of groups 13 and 14 with a stable inert-pair
+// state (In, Tl, Sn, Pb).
+bool IsInertPairMetal(const Element& e) {
+  return e.block == Block::kP && (e.group == 13 || e.group == 14) &&
+         e.period >= 5 && IsMetal(e);
+}
+
 // The atoms of `a`'s element left free by the units of `reading` (may be
 // negative: the units need more than the formula holds); `*in_unit` says
 // whether a unit holds any.
@@ -528,16 +535,28 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     const bool listed =
         own_rows && internal::HasPreferenceRows(*p.element, anions);
     const bool cluster = clusters && IsClusterFormer(*p.element);
-    if (!zero && limit < 0 && !polyanion && !listed && !cluster) continue;
+    // Beside the clusters, In, Tl, Sn and Pb keep their inert pair
+    // (group - 12: In(I), Sn(II)), the cluster taking their electrons
+    // (docs/method.md).
+    const int inert_pair =
+        clusters && IsInertPairMetal(*p.element) ? p.element->group - 12 : 0;
+    if (!zero && limit < 0 && !polyanion && !listed && !cluster &&
+        inert_pair == 0) {
+      continue;
+    }
     p.custom = true;
     bool zero_added = !zero;
-    auto add = [&p, limit, listed, anions, zero, cluster, nitrosyl](
+    auto add = [&p, limit, listed, anions, zero, cluster, nitrosyl, inert_pair](
                    int low, int high, bool low_common, bool high_common,
                    bool needs_oxide = false) {
       if (cluster) {
-        low_common |= low == 2 || low == 3;
+        // +1 in a mix with +2 only: the mean of a reduced cluster (a lone
+        // Mo(I) or W(I) halide is unknown).
+        low_common |= (low >= 2 && low <= 3) || (low == 1 && high == 2);
         high_common |= high == 2 || high == 3;
       }
+      low_common |= inert_pair != 0 && low == inert_pair;
+      high_common |= inert_pair != 0 && high == inert_pair;
       // Beside pi-acceptor ligands the low states are the usual ones: the
       // carbonylmetallates [Fe(CO)4]2- and [V(CO)6]-, Mn(I) in Mn(CO)5Br
       // (Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed., ch.
@@ -561,16 +580,25 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       StateOption o = internal::MakeStateOption(
           *p.element, static_cast<int>(p.fixed_options.size()), low, high,
           low_common, high_common, needs_oxide);
-      // The cluster's electrons are shared by all its atoms: +2/+3 is its
-      // usual mean, no mixed valence to weigh. The cluster takes the
-      // electrons the other cations give, those staying in their lowest
-      // usual states (Sn(II) and Eu(II) in SnMo6S8 and EuMo6S8): each atom
-      // at +2 weighs a rank step (2), at +3 nothing.
-      if (cluster && low >= 2 && high <= 3) {
+      // The cluster's electrons are shared by all its atoms: +1 to +3 is
+      // its usual mean (+2.33 in the Chevrel phases' [Mo6S8]2-, +1.67 in
+      // the [Mo6Se6]2- chains of Cs2Mo6Se6, +1.83 in Nb6I11), no mixed
+      // valence to weigh. The cluster takes the electrons the other
+      // cations give, those staying in their lowest usual states (Sn(II)
+      // and Eu(II) in SnMo6S8 and EuMo6S8, In(I) in In2Mo6Se6): each atom
+      // weighs a rank step (2) per state below +3.
+      if (cluster && low >= 1 && high <= 3) {
         o.spread = 0;
         for (int c = 0; c < internal::kAnionClasses; ++c) {
-          o.high_natural[c] = high == 2 ? 2 : 0;
-          o.low_extra_natural[c] = low == 2 && high == 3 ? 2 : 0;
+          o.high_natural[c] = 2 * (3 - high);
+          o.low_extra_natural[c] = low != high ? 2 : 0;
+        }
+      }
+      // The inert pair is the natural state beside the cluster: no group
+      // gap or rank step for In(I) in In2Mo6Se6.
+      if (inert_pair != 0 && low == inert_pair && high == inert_pair) {
+        for (int c = 0; c < internal::kAnionClasses; ++c) {
+          o.high_natural[c] = 0;
         }
       }
       // Beside NO+ the {MNO}n count sets the metal's formal state, low
@@ -606,6 +634,13 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     }
     for (const StateOption& o : internal::StateOptions(*p.element)) {
       if (polyanion && o.low < 0) continue;
+      // Among heavy pnictides a transition-metal state wholly above +4 is
+      // not met at all (not merely uncommon): the skutterudite IrSb3 is
+      // Ir(III) with Sb4 4- rings, as CoSb3 and RhSb3 are (Hulliger,
+      // Struct. Bonding 4 (1968) 83, from memory), not Ir(IX).
+      if (pnictide_only && p.element->block == Block::kD && o.low > limit) {
+        continue;
+      }
       if (!zero_added && o.low > 0) {
         add(0, 0, true, true);
         zero_added = true;

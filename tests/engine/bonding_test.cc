@@ -64,6 +64,16 @@ TEST(Bonding, ClassOfRealCompositions) {
       // Borides, silicides, germanides (Greenwood and Earnshaw, Chemistry
       // of the Elements, 2nd ed., from memory).
       {"LaB6", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      // AlB2-type diborides, graphite-like boron layers, all metals:
+      // TiB2 and ZrB2, and the main-group MgB2 (a 39 K superconductor,
+      // Nagamatsu et al., Nature 410, 63 (2001)) and AlB2 (Greenwood and
+      // Earnshaw, ch. 6; all from memory).
+      {"TiB2", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      {"ZrB2", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      {"MgB2", K::kIntermetallic, "Nagamatsu et al. 2001, from memory"},
+      {"AlB2", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
+      {"Mg0.5Al0.5B2", K::kIntermetallic,
+       "Greenwood and Earnshaw, from memory"},
       {"MoSi2", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
       {"MnSi", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},
       {"CoSi", K::kIntermetallic, "Greenwood and Earnshaw, from memory"},

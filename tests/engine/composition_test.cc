@@ -720,6 +720,199 @@ TEST(Composition, LowValentHeavyMetalClustersPairTheirElectrons) {
   EXPECT_EQ(r.unpaired_per_formula_unit, 3);
 }
 
+// The report of `formula`, valid, whose d-block ions (at least one) are
+// all in `state`.
+CompositionReport ExpectOnlyDBlockIon(const char* formula, int state) {
+  CompositionReport r = Analyze(formula);
+  EXPECT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+  bool metal = false;
+  for (const IonAnnotation& ion : r.ions) {
+    if (ion.element->block != Block::kD) continue;
+    metal = true;
+    EXPECT_EQ(ion.state, state) << formula;
+  }
+  EXPECT_TRUE(metal) << formula;
+  return r;
+}
+
+// The d3 dichalcogenides of group 7 hold Re4 (Tc4) clusters, Re-Re
+// bonded, and are diamagnetic semiconductors (Wildervanck and Jellinek,
+// J. Less-Common Met. 24 (1971) 73; Greenwood and Earnshaw, Chemistry of
+// the Elements, 2nd ed., ch. 24; from memory). The group 5 and 6 layers
+// beside them keep their own rules: MoS2, MoSe2 and WSe2 d2 trigonal
+// prismatic and diamagnetic, NbS2 and TaS2 itinerant (Wilson and Yoffe,
+// Adv. Phys. 18 (1969) 193, from memory).
+TEST(Composition, GroupSevenDichalcogenidesHoldPairedClusters) {
+  for (const char* formula : {"ReS2", "ReSe2", "TcS2"}) {
+    const CompositionReport r = ExpectOnlyDBlockIon(formula, 4);
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->block != Block::kD) continue;
+      EXPECT_EQ(ion.spin_basis, SpinBasis::kMetalMetalBond) << formula;
+      EXPECT_EQ(ion.moment, 0) << formula;
+    }
+    EXPECT_EQ(r.unpaired_per_formula_unit, 0) << formula;
+  }
+  for (const char* formula : {"MoS2", "MoSe2", "WSe2"}) {
+    CompositionReport r = Analyze(formula);
+    ASSERT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->block != Block::kD) continue;
+      EXPECT_NE(ion.spin_basis, SpinBasis::kMetalMetalBond) << formula;
+      EXPECT_EQ(ion.description->ligand_field->splitting.geometry,
+                Geometry::kTrigonalPrismatic)
+          << formula;
+    }
+    EXPECT_EQ(r.unpaired_per_formula_unit, 0) << formula;
+  }
+  for (const char* formula : {"NbS2", "TaS2"}) {
+    CompositionReport r = Analyze(formula);
+    ASSERT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->block != Block::kD) continue;
+      EXPECT_EQ(ion.spin_basis, SpinBasis::kItinerant) << formula;
+    }
+  }
+}
+
+// The Mo6Se6 chain compounds M2Mo6X6 hold monovalent M: Na, K, Cs, In and
+// Tl alike (Potel, Chevrel, Sergent et al., J. Solid State Chem. 35 (1980)
+// 286, from memory); In keeps its inert pair beside the cluster as Sn and
+// Pb do in the Chevrel phases SnMo6S8 and PbMo6S8 (Chevrel, Sergent and
+// Prigent, J. Solid State Chem. 3 (1971) 515, from memory).
+TEST(Composition, ClusterChalcogenidesKeepTheInertPair) {
+  const struct {
+    const char* formula;
+    const char* cation;
+    int state;
+  } kCases[] = {{"In2Mo6Se6", "In", 1}, {"Tl2Mo6Se6", "Tl", 1},
+                {"Cs2Mo6Se6", "Cs", 1}, {"In2Mo6Te6", "In", 1},
+                {"K2Mo6S6", "K", 1},    {"SnMo6S8", "Sn", 2},
+                {"PbMo6S8", "Pb", 2}};
+  for (const auto& c : kCases) {
+    CompositionReport r = Analyze(c.formula);
+    ASSERT_TRUE(r.valid) << c.formula << ": " << DiagnosticsText(r);
+    bool found = false;
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->symbol == c.cation) {
+        found = true;
+        EXPECT_EQ(ion.state, c.state) << c.formula;
+      } else if (ion.element->symbol == "Mo") {
+        EXPECT_EQ(ion.spin_basis, SpinBasis::kMetalMetalBond) << c.formula;
+      }
+    }
+    EXPECT_TRUE(found) << c.formula;
+  }
+}
+
+// The M2Mo3O8 oxides of the 3d M(II) hold the same diamagnetic Mo3O13
+// triangles as Zn2Mo3O8, and high-spin M(II) (McCarroll, Katz and Ward,
+// J. Am. Chem. Soc. 79 (1957) 5410, from memory): Fe2Mo3O8 (kamiokite),
+// Co2Mo3O8, Mn2Mo3O8 and Ni2Mo3O8 carry the M(II) moment only.
+TEST(Composition, DivalentThreeDMetalsBesideMo3Triangles) {
+  const struct {
+    const char* formula;
+    const char* metal;
+    int unpaired;  // Per M(II), high spin (Hund's rules).
+  } kCases[] = {{"Fe2Mo3O8", "Fe", 4},
+                {"Co2Mo3O8", "Co", 3},
+                {"Mn2Mo3O8", "Mn", 5},
+                {"Ni2Mo3O8", "Ni", 2}};
+  for (const auto& c : kCases) {
+    CompositionReport r = Analyze(c.formula);
+    ASSERT_TRUE(r.valid) << c.formula << ": " << DiagnosticsText(r);
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->symbol == "Mo") {
+        EXPECT_EQ(ion.state, 4) << c.formula;
+        EXPECT_EQ(ion.spin_basis, SpinBasis::kMetalMetalBond) << c.formula;
+        EXPECT_EQ(ion.moment, 0) << c.formula;
+      } else if (ion.element->symbol == c.metal) {
+        EXPECT_EQ(ion.state, 2) << c.formula;
+        EXPECT_EQ(ion.unpaired(), c.unpaired) << c.formula;
+      }
+    }
+    EXPECT_EQ(r.unpaired_per_formula_unit, 2 * c.unpaired) << c.formula;
+  }
+  // The 3d M(II) of the Chevrel phases likewise sit beside paired Mo6S8
+  // clusters (Chevrel, Sergent and Prigent, J. Solid State Chem. 3 (1971)
+  // 515, from memory).
+  for (const char* formula : {"Ni2Mo6S8", "Co2Mo6S8"}) {
+    CompositionReport chevrel = Analyze(formula);
+    ASSERT_TRUE(chevrel.valid) << formula << ": " << DiagnosticsText(chevrel);
+    for (const IonAnnotation& ion : chevrel.ions) {
+      if (ion.element->symbol != "Mo") continue;
+      EXPECT_EQ(ion.spin_basis, SpinBasis::kMetalMetalBond) << formula;
+      EXPECT_EQ(ion.moment, 0) << formula;
+    }
+  }
+  // Another transition metal off the M2Mo3O8 count still keeps the
+  // cluster rule out (W(I) of MnCrCoWO3.91 is no cluster; common
+  // practice, no source).
+  CompositionReport r = Analyze("MnCrCoWO3.91");
+  ASSERT_TRUE(r.valid) << DiagnosticsText(r);
+  for (const IonAnnotation& ion : r.ions) {
+    EXPECT_NE(ion.spin_basis, SpinBasis::kMetalMetalBond)
+        << ion.element->symbol;
+  }
+}
+
+// Copper is monovalent in its sulfides and selenides (X-ray photoelectron
+// spectra, Folmer and Jellinek, J. Less-Common Met. 76 (1980) 153, from
+// memory): covellite CuS and klockmannite CuSe hold Cu(I) with S-S and
+// Se-Se pairs and holes in the chalcogen band, metallic and Pauli
+// paramagnetic (Greenwood and Earnshaw, Chemistry of the Elements, 2nd
+// ed., ch. 28, from memory). The formal reading is Cu(I) with the
+// chalcogen at -1 on average, no local moment. Chalcopyrite stays
+// Cu(I) Fe(III) and digenite Cu9S5 keeps its Cu(I)/Cu(II) mix.
+TEST(Composition, CopperMonochalcogenidesHoldCopperOne) {
+  for (const char* formula : {"CuS", "CuSe"}) {
+    CompositionReport r = Analyze(formula);
+    ASSERT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->symbol == "Cu") EXPECT_EQ(ion.state, 1) << formula;
+    }
+    EXPECT_EQ(r.unpaired_per_formula_unit, 0) << formula;
+  }
+  CompositionReport r = Analyze("CuFeS2");
+  ASSERT_TRUE(r.valid) << DiagnosticsText(r);
+  for (const IonAnnotation& ion : r.ions) {
+    if (ion.element->symbol == "Cu") EXPECT_EQ(ion.state, 1);
+    if (ion.element->symbol == "Fe") EXPECT_EQ(ion.state, 3);
+  }
+}
+
+// The diselenide and ditelluride pairs sit with disulfide on the
+// spectrochemical series: ferroselite FeSe2 and frohbergite FeTe2 are
+// diamagnetic low-spin Fe(II), as pyrite is, and MnSe2 stays high spin
+// (Hulliger and Mooser, J. Phys. Chem. Solids 26 (1965) 429, from memory).
+TEST(Composition, DichalcogenidePairsPutIronTwoLowSpin) {
+  for (const char* formula : {"FeS2", "FeSe2", "FeTe2"}) {
+    CompositionReport r = Analyze(formula);
+    ASSERT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+    bool iron = false;
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->symbol != "Fe") continue;
+      iron = true;
+      EXPECT_EQ(ion.state, 2) << formula;
+      EXPECT_EQ(ion.unpaired(), 0) << formula;
+    }
+    EXPECT_TRUE(iron) << formula;
+  }
+  CompositionReport r = Analyze("MnSe2");
+  ASSERT_TRUE(r.valid) << DiagnosticsText(r);
+  EXPECT_EQ(r.unpaired_per_formula_unit, 5);
+}
+
+// The skutterudites MX3 hold M(III), low-spin d6, beside X4 4- rings:
+// CoSb3, RhSb3, IrSb3 and CoAs3 are diamagnetic semiconductors (Hulliger,
+// Struct. Bonding 4 (1968) 83, from memory). A state above +4 is not met
+// among heavy pnictides (IrSb3 had been Ir(IX)).
+TEST(Composition, SkutteruditesHoldTrivalentLowSpinMetals) {
+  for (const char* formula : {"CoSb3", "RhSb3", "IrSb3", "CoAs3"}) {
+    const CompositionReport r = ExpectOnlyDBlockIon(formula, 3);
+    EXPECT_EQ(r.unpaired_per_formula_unit, 0) << formula;
+  }
+}
+
 // ---------------------------------------------------------------------------
 // Record id.
 

@@ -636,6 +636,48 @@ TEST(FormulaNotations, NonstoichiometryTakesDeltaAsZeroWithAnInfo) {
   EXPECT_EQ(ParseFormula("Fe1-dO")->amounts[0].count, Rational(1));
 }
 
+// Mineral formulas write a shared site as "(Fe,Ni)": pentlandite
+// (Fe,Ni)9S8 and olivine (Mg,Fe)2SiO4 (Vaughan and Craig, Mineral
+// Chemistry of Metal Sulfides (1978); Deer, Howie and Zussman, Rock-Forming
+// Minerals; from memory). The parser reads an equal split of the site and
+// says so; anything else with a comma stays malformed.
+TEST(FormulaNotations, SiteMixturesSplitTheSiteEquallyWithAnInfo) {
+  const struct {
+    const char* text;
+    const char* amounts;
+  } kCases[] = {
+      {"(Fe,Ni)9S8", "Fe:9/2 Ni:9/2 S:8"},
+      {"(Mg,Fe)2SiO4", "Mg:1 Fe:1 Si:1 O:4"},
+      {"(Zn,Fe)S", "Zn:1/2 Fe:1/2 S:1"},
+      {"Ca(Mg,Fe,Mn)Si2O6", "Ca:1 Mg:1/3 Fe:1/3 Mn:1/3 Si:2 O:6"},
+      {"(Fe,Ni)8FeS8", "Fe:5 Ni:4 S:8"},
+  };
+  for (const auto& c : kCases) {
+    SCOPED_TRACE(c.text);
+    absl::StatusOr<Formula> f = ParseFormula(c.text);
+    ASSERT_TRUE(f.ok()) << f.status();
+    std::string amounts;
+    for (const ElementAmount& a : f->amounts) {
+      absl::StrAppend(&amounts, amounts.empty() ? "" : " ", a.element->symbol,
+                      ":", a.count.ToString());
+    }
+    EXPECT_EQ(amounts, c.amounts);
+    ASSERT_EQ(f->infos.size(), 1u);
+    EXPECT_EQ(f->infos[0].code, "site_mixture_equal_split");
+    EXPECT_THAT(f->infos[0].message, HasSubstr("equal split"));
+  }
+  for (const char* bad :
+       {"(Fe,Fe)S", "(Fe2,Ni)S", "Fe,NiS", "(Fe,)S", "(,Fe)S", "(FeNi,Co)S",
+        "[Fe,Ni]S", "(Fe,(Ni)2)S", "(Fe,Ni),S"}) {
+    SCOPED_TRACE(bad);
+    FormulaIssue issue;
+    absl::StatusOr<Formula> f = ParseFormula(bad, &issue);
+    EXPECT_FALSE(f.ok());
+    EXPECT_EQ(issue.code, "malformed_formula");
+    EXPECT_THAT(issue.message, HasSubstr("(Fe,Ni)9S8"));
+  }
+}
+
 TEST(FormulaNotations, NamedVariablesNeedValues) {
   FormulaIssue issue;
   EXPECT_FALSE(ParseFormula("La1-xSrxMnO3", &issue).ok());

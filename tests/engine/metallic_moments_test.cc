@@ -137,6 +137,19 @@ TEST(MetallicMoments, NiAndCuBasedFullHeuslersAreTheRulesExceptions) {
   ExpectNone("Cu2MnAl", "Ni or Cu group");
 }
 
+TEST(MetallicMoments, FullHeuslersWithFourDOrFiveDXAreOutsideTheRule) {
+  // Ru2MnSi, Ru2MnGe and Ru2MnSn order antiferromagnetically (Neel points
+  // near 300 K; Kanomata et al., J. Alloys Compd. 393, 26 (2005), from
+  // memory), where Z_t - 24 says 3 uB.
+  for (const char* formula : {"Ru2MnSi", "Ru2MnGe", "Ru2MnSn", "Rh2MnGe"}) {
+    SCOPED_TRACE(formula);
+    ExpectNone(formula, "3d series");
+  }
+  // The 3d X compounds keep it: Co2MnGe 5.11 uB (Webster, J. Phys. Chem.
+  // Solids 32, 1221 (1971), from memory).
+  ExpectMoment("Co2MnGe", MomentModel::kFullHeusler, 5.11, 0.15);
+}
+
 TEST(MetallicMoments, FullHeuslersBelowTwentyFourAreFerrimagnets) {
   // Z_t = 22: the rule gives -2, a half-metallic ferrimagnet of 2 uB;
   // Mn2VAl measures about 1.9 uB per formula unit (Jiang, Venkatesan and
