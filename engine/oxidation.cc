@@ -87,6 +87,15 @@ ChargeItems ItemsOf(const Plans& plans) {
   return items;
 }
 
+// The leading options of `options` (an element's table, in search order:
+// negative states first) with no positive state.
+absl::Span<const StateOption> NonPositivePrefix(
+    absl::Span<const StateOption> options) {
+  size_t n = 0;
+  while (n < options.size() && options[n].high <= 0) ++n;
+  return options.first(n);
+}
+
 // Candidate electronegativity thresholds: elements above a threshold
 // should be negative, those below positive. The first is the default
 // (only the most electronegative element(s) above); the others are tried
@@ -471,10 +480,11 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   // Sb2 4-; Hulliger, Struct. Bonding 4 (1968) 83, from memory): CrSb2 is
   // not Cr(VI) antimonide.
   bool chalcogen = false, hard_anion = false, cluster_former = false;
-  bool pnictogen = false, other_nonmetal = false;
+  bool pnictogen = false, other_nonmetal = false, fluorine = false;
   for (const ElementPlan& p : plans) {
     const int z = p.element->atomic_number;
     chalcogen |= IsHeavyChalcogen(z);
+    fluorine |= z == 9;
     hard_anion |= z == 7 || z == 8 || z == 9 || z == 17;
     cluster_former |= IsClusterFormer(*p.element);
     if (IsHeavyPnictogen(z)) {
@@ -517,6 +527,14 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     p.oxide = oxide;
     p.anions = anions;
     if (p.declared) continue;
+    // Oxygen is positive only bonded to fluorine, the one element more
+    // electronegative (OF2, O2F2; Greenwood and Earnshaw, Chemistry of the
+    // Elements, 2nd ed., ch. 14, from memory): without fluorine its
+    // options stop at the negative ones, which come first in the tables.
+    if (p.element->atomic_number == 8 && !fluorine) {
+      p.table_options = NonPositivePrefix(p.table_options);
+      p.table_common_options = NonPositivePrefix(p.table_common_options);
+    }
     if (hydride_ligand && p.element->atomic_number == 1) {
       p.custom = true;
       const StateOption o =
@@ -632,7 +650,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
         add(-1, 0, true, true);
       }
     }
-    for (const StateOption& o : internal::StateOptions(*p.element)) {
+    for (const StateOption& o : p.table_options) {
       if (polyanion && o.low < 0) continue;
       // Among heavy pnictides a transition-metal state wholly above +4 is
       // not met at all (not merely uncommon): the skutterudite IrSb3 is

@@ -52,7 +52,8 @@
 // A state met only bound in a unit (data/bound_only_states.tsv: Fe+6 of
 // ferrate, O-1 of peroxide) counts as two uncommon states as a free ion,
 // so that two merely uncommon states win over it: SrFe0.5Co0.5O3 is
-// Fe(IV) with Co(IV), not Fe(VI) with Co(II).
+// Fe(IV) with Co(IV), not Fe(VI) with Co(II). Oxygen's positive states
+// are candidates only beside fluorine (OF2, O2F2).
 // `score` is 100 x uncommon + 10 x faults + naturalness per formula unit,
 // each lower term capped below the unit of the one above, so that it
 // never orders candidates against the ranking; 0 is a perfect assignment.

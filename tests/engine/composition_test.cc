@@ -502,6 +502,14 @@ TEST(Composition, BondedMainGroupCationsCarryNoMoment) {
     ASSERT_FALSE(r.ions.empty()) << DiagnosticsText(r);
     EXPECT_DOUBLE_EQ(r.unpaired_per_formula_unit, 0);
   }
+  // Dioxygen difluoride FO-OF and the dimer O2N-NO2 are diamagnetic units
+  // (same source, chs. 11 and 14), not O+ or NO2 radicals.
+  for (const char* formula : {"O2F2", "N2O4"}) {
+    SCOPED_TRACE(formula);
+    CompositionReport r = Analyze(Record(formula));
+    ASSERT_EQ(r.units.size(), 1u) << DiagnosticsText(r);
+    EXPECT_DOUBLE_EQ(r.unpaired_per_formula_unit, 0);
+  }
   for (const char* formula : {"NO2", "ClO2"}) {
     SCOPED_TRACE(formula);
     CompositionReport r = Analyze(Record(formula));

@@ -411,6 +411,67 @@ TEST(Oxidation, PeroxideIsAUnitNotAnUncommonFreeOxygen) {
   EXPECT_EQ(r.best->states[1].unit, 0);
 }
 
+TEST(Oxidation, SulfurOxoanionsWithSulfurSulfurBondsAreUnits) {
+  // Polythionates O3S-Sn-SO3 2- hold two sulfur(V) ends and sulfur(0)
+  // inside; dithionite S2O4 2- is sulfur(III), disulfite S2O5 2-
+  // O3S-SO2 sulfur(V) with sulfur(III), dithionate S2O6 2- sulfur(V)
+  // (Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed., ch. 15,
+  // from memory; states by the ionic approximation of Karen, McArdle and
+  // Takats, Pure Appl. Chem. 88 (2016) 831).
+  struct Case {
+    const char* formula;
+    const char* expected;
+  };
+  for (const Case& c : {
+           Case{"Na2S4O6",
+                "Na:1x2 S:5x2[tetrathionate] S:0x2[tetrathionate] "
+                "O:-2x6[tetrathionate]"},
+           Case{"K2S3O6",
+                "K:1x2 S:5x2[trithionate] S:0x1[trithionate] "
+                "O:-2x6[trithionate]"},
+           Case{"K2S5O6",
+                "K:1x2 S:5x2[pentathionate] S:0x3[pentathionate] "
+                "O:-2x6[pentathionate]"},
+           Case{"Na2S2O4", "Na:1x2 S:3x2[dithionite] O:-2x4[dithionite]"},
+           Case{"Na2S2O5",
+                "Na:1x2 S:5x1[disulfite] S:3x1[disulfite] "
+                "O:-2x5[disulfite]"},
+           Case{"BaS2O6", "Ba:2x1 S:5x2[dithionate] O:-2x6[dithionate]"},
+       }) {
+    SCOPED_TRACE(c.formula);
+    OxidationResult r = Solve(c.formula);
+    ASSERT_TRUE(r.best.has_value());
+    EXPECT_EQ(Describe(*r.best), c.expected);
+    EXPECT_EQ(r.best->uncommon_states, 0);
+  }
+}
+
+TEST(Oxidation, OxygenIsPositiveOnlyBesideFluorine) {
+  // Oxygen takes positive states only bonded to fluorine, in OF2 and
+  // O2F2 (Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed., ch.
+  // 14, from memory). Without fluorine no reading or alternative holds
+  // positive oxygen: a composition no state balances otherwise is
+  // reported unbalanced.
+  for (const char* formula : {"CoO", "Na2S4O6", "MnO2", "POCl3", "Fe3O4"}) {
+    SCOPED_TRACE(formula);
+    OxidationResult r = Solve(formula);
+    ASSERT_TRUE(r.best.has_value());
+    std::vector<OxidationAssignment> all = r.alternatives;
+    all.push_back(*r.best);
+    for (const OxidationAssignment& a : all) {
+      for (const AssignedState& s : a.states) {
+        if (s.element->atomic_number == 8) {
+          EXPECT_LE(s.state, 0) << Describe(a);
+        }
+      }
+    }
+  }
+  EXPECT_EQ(Best("Sn2O3", -3), "none");
+  EXPECT_EQ(Best("OF2"), "O:2x1 F:-1x2");
+  EXPECT_EQ(Best("O2F2"),
+            "O:1x2[dioxygen difluoride] F:-1x2[dioxygen difluoride]");
+}
+
 // ---------------------------------------------------------------------------
 // Natural oxidation states: preferences by anion class, redox
 // compatibility, the inert pair, non-neighbour mixed valence and the scale
@@ -1114,6 +1175,10 @@ std::optional<ScaledRank> ReferenceBestRankAt(const Formula& f, int charge,
   *scale_out = scale;
   constexpr internal::AnionClass kHard = internal::AnionClass::kHard;
   std::map<int64_t, ScaledRank> totals = {{0, ScaledRank()}};
+  bool fluorine = false;
+  for (const ElementAmount& a : f.amounts) {
+    fluorine |= a.element->atomic_number == 9;
+  }
   for (const ElementAmount& a : f.amounts) {
     const Element& e = *a.element;
     const int64_t c = (a.count * scale).num();
@@ -1132,6 +1197,12 @@ std::optional<ScaledRank> ReferenceBestRankAt(const Formula& f, int charge,
                                   *e.pauling_electronegativity > threshold);
     };
     absl::Span<const KnownOxidationState> known = KnownOxidationStates(e);
+    // Oxygen is positive only beside fluorine (oxidation.h).
+    if (e.atomic_number == 8 && !fluorine) {
+      size_t negative = 0;
+      while (negative < known.size() && known[negative].state < 0) ++negative;
+      known = known.first(negative);
+    }
     // Uncommon states, a bound-only one counting two (oxidation.h).
     auto weight_of = [&e](const KnownOxidationState& k) {
       return (k.common ? 0 : 1) +
