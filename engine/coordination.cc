@@ -487,6 +487,7 @@ IonEnvironment FindEnvironment(const Formula& formula,
   }
   bool pi_acceptors_only = !sites.empty();
   bool pi_acceptor = false;
+  bool cyanide = false;   // An anionic pi acceptor (IsAnionicPiAcceptor).
   bool nitrosyl = false;  // NO+, the one cationic pi acceptor.
   double oxo = 0;         // Sites of monatomic oxide.
   double chelate = 0;     // Sites of unit ligands with two or more.
@@ -497,6 +498,7 @@ IonEnvironment FindEnvironment(const Formula& formula,
       pi_acceptor |= acceptor;
       pi_acceptors_only &= acceptor;
       nitrosyl |= acceptor && l.unit->charge > 0;
+      cyanide |= !acceptor && IsAnionicPiAcceptor(l);
       if (l.denticity >= 2) chelate += s.sites;
     } else {
       pi_acceptors_only = false;
@@ -586,7 +588,7 @@ IonEnvironment FindEnvironment(const Formula& formula,
   double metals = 0;
   bool other_metal = false;  // A d-block metal other than this one.
   if (geometry_set == nullptr && spin_set == nullptr &&
-      (pi_acceptor || d == 4 || d == 7)) {
+      (pi_acceptor || cyanide || d == 4 || d == 7)) {
     for (const AssignedState& s : assignment.states) {
       if (s.unit >= 0 || s.element->block != Block::kD) continue;
       other_metal |= s.element != &e;
@@ -606,10 +608,20 @@ IonEnvironment FindEnvironment(const Formula& formula,
   // A 4d or 5d d8 metal keeps 16 electrons, square planar, with no
   // metal-metal bond: the chloride-bridged [Rh(CO)2Cl]2 (Greenwood and
   // Earnshaw, Chemistry of the Elements, 2nd ed., ch. 26, from memory).
+  // The dinuclear cyanometallates bond likewise, two metal atoms written
+  // in one complex ([Fe(CN)6]2 is two complexes): [Co2(CN)10]6-, two
+  // 17-electron [Co(CN)5]3- joined as Mn2(CO)10 is, and [Ni2(CN)6]4-,
+  // Ni(I) d9 with three cyanides each and a Ni-Ni bond, each Ni square
+  // planar, both diamagnetic (same source, chs. 26 and 27, from memory).
+  const bool cyanide_dimer =
+      cyanide && !pi_acceptor && complex >= 0 &&
+      metals > 1.5 * formula.groups[complex].multiplier.ToDouble();
   if (geometry_set == nullptr && spin_set == nullptr && cn > 0 && d >= 0 &&
-      !(d == 8 && n >= 4) && pi_acceptor && metals > 1.5 &&
+      !(d == 8 && n >= 4) && (pi_acceptor || cyanide_dimer) && metals > 1.5 &&
       d + 2 * total / metals < 17.99) {
-    env.geometry = Geometry::kOctahedral;
+    env.geometry = cyanide_dimer && d == 9 && std::abs(cn - 3) < 0.01
+                       ? Geometry::kSquarePlanar
+                       : Geometry::kOctahedral;
     env.spin_state = SpinStatePreference::kLow;
     env.basis = SpinBasis::kMetalMetalBond;
     env.metal_metal_bonded = true;

@@ -431,12 +431,18 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   }
   // A pi-acceptor ligand (carbon monoxide, phosphines: IsPiAcceptor)
   // lets d-block metals take state 0, as in metal carbonyls.
+  // Cyanide (IsAnionicPiAcceptor) does so for the transition metals of
+  // groups 3 to 10: K4[Ni(CN)4] is Ni(0). The metals of groups 11 and 12
+  // keep their own states beside it (no Zn(I) in K2Zn3[Fe(CN)6]2).
   bool pi_acceptor = false;
+  bool cyanide = false;   // An anionic pi acceptor.
   bool nitrosyl = false;  // A cationic pi acceptor: NO+.
   for (const UnitMatch* m : reading) {
     for (const Unit* u : m->units) {
-      const bool acceptor = u->ligand != nullptr && IsPiAcceptor(*u->ligand);
+      if (u->ligand == nullptr) continue;
+      const bool acceptor = IsPiAcceptor(*u->ligand);
       pi_acceptor |= acceptor;
+      cyanide |= !acceptor && IsAnionicPiAcceptor(*u->ligand);
       nitrosyl |= acceptor && u->charge > 0;
     }
   }
@@ -518,7 +524,8 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       p.fixed_common_options.push_back(o);
       continue;
     }
-    const bool zero = pi_acceptor && p.element->block == Block::kD;
+    const bool zero = p.element->block == Block::kD &&
+                      (pi_acceptor || (cyanide && p.element->group <= 10));
     const int limit = soft_only ? internal::ChalcogenideMaxState(*p.element)
                       : pnictide_only && p.element->block == Block::kD ? 4
                                                                        : -1;

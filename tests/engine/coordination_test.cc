@@ -251,6 +251,37 @@ TEST(Coordination, WernerComplexesAndSandwiches) {
   });
 }
 
+// Cyanide is an anionic pi acceptor: the cyanometallates hold their
+// metals in low states, and two metal atoms written in one complex bond.
+TEST(Coordination, LowValentAndDinuclearCyanometallates) {
+  CheckAll({
+      // Ni(0), isoelectronic with Ni(CO)4: tetrahedral, diamagnetic.
+      {"K4[Ni(CN)4]", "Ni", 0, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      // Mn(I), low-spin d6.
+      {"K5[Mn(CN)6]", "Mn", 1, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      // Ni(I) pairs with a Ni-Ni bond, each Ni square planar.
+      {"K4[Ni2(CN)6]", "Ni", 1, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      // Two 17-electron [Co(CN)5]3- joined by a Co-Co bond.
+      {"Ba3[Co2(CN)10]", "Co", 2, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      // The monomer keeps its one unpaired electron.
+      {"K3[Co(CN)5]", "Co", 2, Geometry::kSquarePyramidal, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      // Neighbours that keep their states: two complexes, not a dimer, and
+      // the Zn(II) and Ni(II) outside them.
+      {"K2[Ni(CN)4]", "Ni", 2, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      {"K2Zn3[Fe(CN)6]2", "Fe", 2, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      {"Ni3[Fe(CN)6]2", "Fe", 3, Geometry::kOctahedral, 8,
+       "common practice, no source (Prussian blue analogue: low-spin "
+       "Fe(III) with 1 unpaired each, Ni(II) with 2)"},
+  });
+}
+
 // Nitrosyls: NO bound to a metal counts as NO+ (nitrosonium), the linear
 // three-electron donor of the {MNO}n notation; the metal takes the formal
 // state that leaves.
