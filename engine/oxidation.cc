@@ -471,8 +471,13 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   // not Cr(VI) antimonide.
   bool chalcogen = false, hard_anion = false, cluster_former = false;
   bool pnictogen = false, other_nonmetal = false;
+  bool heavy_halogen = false, fluorine = false, transition_metal = false;
   for (const ElementPlan& p : plans) {
     const int z = p.element->atomic_number;
+    heavy_halogen |= z == 17 || z == 35 || z == 53;
+    fluorine |= z == 9;
+    transition_metal |= p.element->block == Block::kD &&
+                        p.element->group >= 3 && p.element->group <= 12;
     chalcogen |= IsHeavyChalcogen(z);
     hard_anion |= z == 7 || z == 8 || z == 9 || z == 17;
     cluster_former |= IsClusterFormer(*p.element);
@@ -498,6 +503,24 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   }
   bool oxide = false;
   for (const ElementPlan& p : plans) oxide |= p.element->atomic_number == 8;
+  // Free Cl, Br and I beside a free transition metal and free oxygen, with
+  // no fluorine and fewer than three oxygen atoms per halogen atom, are
+  // halide (metal-rich records with no oxygen keep their readings): a
+  // positive halogen is bonded to O or F, in an oxo-anion (a unit) or an
+  // interhalogen, never beside a metal it could take electrons from.
+  // ReOCl3(PPh3)2 is Re(V) with chloride, not Re(-I) with Cl(I);
+  // [ReO2(py)4]Cl is Re(V), not Re(III) with Cl(I) (Greenwood and
+  // Earnshaw, Chemistry of the Elements, 2nd ed., ch. 24, from memory).
+  bool halide_only = false;
+  if (heavy_halogen && transition_metal && !fluorine) {
+    Rational halogen(0), oxygen(0);
+    for (const ElementPlan& p : plans) {
+      const int z = p.element->atomic_number;
+      if (z == 17 || z == 35 || z == 53) halogen = halogen + p.count;
+      if (z == 8) oxygen = oxygen + p.count;
+    }
+    halide_only = !oxygen.IsZero() && oxygen < halogen * Rational(3);
+  }
   // The B sites of an ordered double perovskite, delafossites and the
   // cations of Zintl phases read their own state preferences, and the
   // states listed there count as common (Mo+5 in Sr2FeMoO6 and Ba2YMoO6,
@@ -516,7 +539,9 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     p.oxide = oxide;
     p.anions = anions;
     if (p.declared) continue;
-    if (hydride_ligand && p.element->atomic_number == 1) {
+    const int z = p.element->atomic_number;
+    if ((hydride_ligand && z == 1) ||
+        (halide_only && (z == 17 || z == 35 || z == 53))) {
       p.custom = true;
       const StateOption o =
           internal::MakeStateOption(*p.element, 0, -1, -1, true, true);

@@ -347,6 +347,36 @@ TEST(Coordination, AllylAndDieneLigands) {
   });
 }
 
+// 4d and 5d d2 oxo complexes pair both d electrons in dxy; their halide
+// stays halide beside oxygen.
+TEST(Coordination, HeavyD2OxoComplexesAreDiamagnetic) {
+  CheckAll({
+      {"ReOCl3(PPh3)2", "Re", 5, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      {"[ReO2(py)4]Cl", "Re", 5, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      {"Cs2[ReOCl5]", "Re", 5, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      {"K2[OsO2(OH)4]", "Os", 6, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      // Potassium osmate as records write it.
+      {"K2OsO4", "Os", 6, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      {"K4[MoO2(CN)4]", "Mo", 4, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 23, from memory"},
+      // Neighbours: the tetrahedral d2 ferrate and ruthenate keep two
+      // unpaired electrons, as does the d2 Os(VI) of an oxide; the
+      // square-pyramidal [ReOCl4]- was diamagnetic already.
+      {"K2RuO4", "Ru", 6, Geometry::kTetrahedral, 2,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      {"Ba2CaOsO6", "Os", 6, Geometry::kOctahedral, 2,
+       "common practice, no source (d2 Os(VI) with a local moment in the "
+       "ordered double perovskite)"},
+      {"K[ReOCl4]", "Re", 5, Geometry::kSquarePyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+  });
+}
+
 // Nitrosyls: NO bound to a metal counts as NO+ (nitrosonium), the linear
 // three-electron donor of the {MNO}n notation; the metal takes the formal
 // state that leaves.
