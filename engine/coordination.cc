@@ -523,16 +523,20 @@ IonEnvironment FindEnvironment(const Formula& formula,
   }
   bool pi_acceptors_only = !sites.empty();
   bool pi_acceptor = false;
+  bool cyanide = false;   // An anionic pi acceptor (IsAnionicPiAcceptor).
   bool nitrosyl = false;  // NO+, the one cationic pi acceptor.
   double oxo = 0;         // Sites of monatomic oxide.
   double chelate = 0;     // Sites of unit ligands with two or more.
+  bool unit_ligand = false;
   for (const Site& s : sites) {
     const Ligand& l = *s.ligand;
     if (l.unit != nullptr) {
+      unit_ligand = true;
       const bool acceptor = IsPiAcceptor(l);
       pi_acceptor |= acceptor;
       pi_acceptors_only &= acceptor;
       nitrosyl |= acceptor && l.unit->charge > 0;
+      cyanide |= !acceptor && IsAnionicPiAcceptor(l);
       if (l.denticity >= 2) chelate += s.sites;
     } else {
       pi_acceptors_only = false;
@@ -622,7 +626,7 @@ IonEnvironment FindEnvironment(const Formula& formula,
   double metals = 0;
   bool other_metal = false;  // A d-block metal other than this one.
   if (geometry_set == nullptr && spin_set == nullptr &&
-      (pi_acceptor || d == 4 || d == 7)) {
+      (pi_acceptor || cyanide || d == 4 || d == 7)) {
     for (const AssignedState& s : assignment.states) {
       if (s.unit >= 0 || s.element->block != Block::kD) continue;
       other_metal |= s.element != &e;
@@ -642,10 +646,20 @@ IonEnvironment FindEnvironment(const Formula& formula,
   // A 4d or 5d d8 metal keeps 16 electrons, square planar, with no
   // metal-metal bond: the chloride-bridged [Rh(CO)2Cl]2 (Greenwood and
   // Earnshaw, Chemistry of the Elements, 2nd ed., ch. 26, from memory).
+  // The dinuclear cyanometallates bond likewise, two metal atoms written
+  // in one complex ([Fe(CN)6]2 is two complexes): [Co2(CN)10]6-, two
+  // 17-electron [Co(CN)5]3- joined as Mn2(CO)10 is, and [Ni2(CN)6]4-,
+  // Ni(I) d9 with three cyanides each and a Ni-Ni bond, each Ni square
+  // planar, both diamagnetic (same source, chs. 26 and 27, from memory).
+  const bool cyanide_dimer =
+      cyanide && !pi_acceptor && complex >= 0 &&
+      metals > 1.5 * formula.groups[complex].multiplier.ToDouble();
   if (geometry_set == nullptr && spin_set == nullptr && cn > 0 && d >= 0 &&
-      !(d == 8 && n >= 4) && pi_acceptor && metals > 1.5 &&
+      !(d == 8 && n >= 4) && (pi_acceptor || cyanide_dimer) && metals > 1.5 &&
       d + 2 * total / metals < 17.99) {
-    env.geometry = Geometry::kOctahedral;
+    env.geometry = cyanide_dimer && d == 9 && std::abs(cn - 3) < 0.01
+                       ? Geometry::kSquarePlanar
+                       : Geometry::kOctahedral;
     env.spin_state = SpinStatePreference::kLow;
     env.basis = SpinBasis::kMetalMetalBond;
     env.metal_metal_bonded = true;
@@ -766,7 +780,8 @@ IonEnvironment FindEnvironment(const Formula& formula,
     // high-spin octahedral and paramagnetic (same source, ch. 28).
     env.geometry = Geometry::kSquarePlanar;
   } else if (ion.state >= 4 && d >= 0 && d <= 2 && complex < 0 &&
-             (ion.state >= 5 || n == 3) && std::abs(total - 4 * metal) < 0.01 &&
+             (ion.state >= 5 || n == 3) && !(d == 2 && n == 5) &&
+             std::abs(total - 4 * metal) < 0.01 &&
              FourAnionTetrahedra(assignment, ion)) {
     env.geometry = Geometry::kTetrahedral;
   } else if (complex < 0 && (e.group == 5 || e.group == 6) &&
@@ -826,6 +841,28 @@ IonEnvironment FindEnvironment(const Formula& formula,
       SplitD(d, env.geometry, SpinState::kLow).unpaired > 0) {
     env.spin_state = SpinStatePreference::kLow;
     env.basis = SpinBasis::kElectronCount;
+    env.metal_metal_bonded = true;
+    return env;
+  }
+
+  // A d2 ion of the 4d or 5d series with oxo ligands in an octahedral
+  // complex: the short M=O bonds raise dxz and dyz well above dxy, and the
+  // two d electrons pair there. The Re(V) oxo complexes [ReOCl5]2-,
+  // ReOCl3(PPh3)2 and trans-[ReO2(py)4]+, the osmates(VI)
+  // trans-[OsO2(OH)4]2- (K2OsO4 as records write it: osmium(VI) forms no
+  // tetrahedral OsO4 2-, unlike ruthenate and ferrate) and
+  // trans-[MoO2(CN)4]4- are diamagnetic (Greenwood and Earnshaw, Chemistry
+  // of the Elements, 2nd ed., chs. 23-25; Winkler and Gray, Inorg. Chem.
+  // 24 (1985) 346, trans-dioxo d2 ions; from memory). Written in a
+  // complex, beside a unit ligand (a molecule), or as the osmate's four
+  // oxygen atoms; not in an oxide (the d2 Os(VI) of the double perovskite
+  // Ba2CaOsO6 keeps its moment).
+  if (geometry_set == nullptr && spin_set == nullptr && d == 2 && n >= 4 &&
+      oxo > 0 && env.geometry == Geometry::kOctahedral &&
+      (complex >= 0 || (unit_ligand && oxo < total - 0.01) ||
+       (n == 5 && ion.state >= 6 && std::abs(total - 4 * metal) < 0.01))) {
+    env.spin_state = SpinStatePreference::kLow;
+    env.basis = SpinBasis::kMetalOxo;
     env.metal_metal_bonded = true;
     return env;
   }

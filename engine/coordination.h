@@ -80,6 +80,10 @@ enum class SpinBasis {
   // or 5d metal, whose idealised geometry would leave d electrons
   // unpaired (CpV(CO)4, RuCl2(PPh3)3): all paired.
   kElectronCount,
+  // A 4d or 5d d2 ion with multiply bonded oxo ligands in an octahedral
+  // complex (trans-[OsO2(OH)4]2-, [ReOCl5]2-, [ReO2(py)4]+): the M=O bonds
+  // raise dxz and dyz, and both d electrons pair in dxy.
+  kMetalOxo,
 };
 
 template <>
@@ -96,7 +100,8 @@ struct EnumNames<SpinBasis> {
       {SpinBasis::kOxygenDeficientPerovskite, "oxygen_deficient_perovskite"},
       {SpinBasis::kMetalMetalBond, "metal_metal_bond"},
       {SpinBasis::kItinerant, "itinerant"},
-      {SpinBasis::kElectronCount, "electron_count"}};
+      {SpinBasis::kElectronCount, "electron_count"},
+      {SpinBasis::kMetalOxo, "metal_oxo"}};
 };
 
 // Which of an element's atoms an environment is for, where the formula
@@ -118,9 +123,9 @@ struct IonEnvironment {
   double f = 0;
   SpinBasis basis = SpinBasis::kNone;
   bool near_crossover = false;
-  // Its d electrons pair in metal-metal bonds (kMetalMetalBond) or in a
-  // closed 18- or 16-electron shell (kElectronCount), or are itinerant
-  // (kItinerant): no local moment.
+  // Its d electrons pair in metal-metal bonds (kMetalMetalBond), in a
+  // closed 18- or 16-electron shell (kElectronCount) or below the M=O pi
+  // bonds (kMetalOxo), or are itinerant (kItinerant): no local moment.
   bool metal_metal_bonded = false;
 };
 

@@ -447,12 +447,18 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   }
   // A pi-acceptor ligand (carbon monoxide, phosphines: IsPiAcceptor)
   // lets d-block metals take state 0, as in metal carbonyls.
+  // Cyanide (IsAnionicPiAcceptor) does so for the transition metals of
+  // groups 3 to 10: K4[Ni(CN)4] is Ni(0). The metals of groups 11 and 12
+  // keep their own states beside it (no Zn(I) in K2Zn3[Fe(CN)6]2).
   bool pi_acceptor = false;
+  bool cyanide = false;   // An anionic pi acceptor.
   bool nitrosyl = false;  // A cationic pi acceptor: NO+.
   for (const UnitMatch* m : reading) {
     for (const Unit* u : m->units) {
-      const bool acceptor = u->ligand != nullptr && IsPiAcceptor(*u->ligand);
+      if (u->ligand == nullptr) continue;
+      const bool acceptor = IsPiAcceptor(*u->ligand);
       pi_acceptor |= acceptor;
+      cyanide |= !acceptor && IsAnionicPiAcceptor(*u->ligand);
       nitrosyl |= acceptor && u->charge > 0;
     }
   }
@@ -480,11 +486,15 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   // Sb2 4-; Hulliger, Struct. Bonding 4 (1968) 83, from memory): CrSb2 is
   // not Cr(VI) antimonide.
   bool chalcogen = false, hard_anion = false, cluster_former = false;
-  bool pnictogen = false, other_nonmetal = false, fluorine = false;
+  bool pnictogen = false, other_nonmetal = false;
+  bool heavy_halogen = false, fluorine = false, transition_metal = false;
   for (const ElementPlan& p : plans) {
     const int z = p.element->atomic_number;
-    chalcogen |= IsHeavyChalcogen(z);
+    heavy_halogen |= z == 17 || z == 35 || z == 53;
     fluorine |= z == 9;
+    transition_metal |= p.element->block == Block::kD &&
+                        p.element->group >= 3 && p.element->group <= 12;
+    chalcogen |= IsHeavyChalcogen(z);
     hard_anion |= z == 7 || z == 8 || z == 9 || z == 17;
     cluster_former |= IsClusterFormer(*p.element);
     if (IsHeavyPnictogen(z)) {
@@ -509,6 +519,24 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   }
   bool oxide = false;
   for (const ElementPlan& p : plans) oxide |= p.element->atomic_number == 8;
+  // Free Cl, Br and I beside a free transition metal and free oxygen, with
+  // no fluorine and fewer than three oxygen atoms per halogen atom, are
+  // halide (metal-rich records with no oxygen keep their readings): a
+  // positive halogen is bonded to O or F, in an oxo-anion (a unit) or an
+  // interhalogen, never beside a metal it could take electrons from.
+  // ReOCl3(PPh3)2 is Re(V) with chloride, not Re(-I) with Cl(I);
+  // [ReO2(py)4]Cl is Re(V), not Re(III) with Cl(I) (Greenwood and
+  // Earnshaw, Chemistry of the Elements, 2nd ed., ch. 24, from memory).
+  bool halide_only = false;
+  if (heavy_halogen && transition_metal && !fluorine) {
+    Rational halogen(0), oxygen(0);
+    for (const ElementPlan& p : plans) {
+      const int z = p.element->atomic_number;
+      if (z == 17 || z == 35 || z == 53) halogen = halogen + p.count;
+      if (z == 8) oxygen = oxygen + p.count;
+    }
+    halide_only = !oxygen.IsZero() && oxygen < halogen * Rational(3);
+  }
   // The B sites of an ordered double perovskite, delafossites and the
   // cations of Zintl phases read their own state preferences, and the
   // states listed there count as common (Mo+5 in Sr2FeMoO6 and Ba2YMoO6,
@@ -527,15 +555,17 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     p.oxide = oxide;
     p.anions = anions;
     if (p.declared) continue;
+    const int z = p.element->atomic_number;
     // Oxygen is positive only bonded to fluorine, the one element more
     // electronegative (OF2, O2F2; Greenwood and Earnshaw, Chemistry of the
     // Elements, 2nd ed., ch. 14, from memory): without fluorine its
     // options stop at the negative ones, which come first in the tables.
-    if (p.element->atomic_number == 8 && !fluorine) {
+    if (z == 8 && !fluorine) {
       p.table_options = NonPositivePrefix(p.table_options);
       p.table_common_options = NonPositivePrefix(p.table_common_options);
     }
-    if (hydride_ligand && p.element->atomic_number == 1) {
+    if ((hydride_ligand && z == 1) ||
+        (halide_only && (z == 17 || z == 35 || z == 53))) {
       p.custom = true;
       const StateOption o =
           internal::MakeStateOption(*p.element, 0, -1, -1, true, true);
@@ -543,7 +573,8 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       p.fixed_common_options.push_back(o);
       continue;
     }
-    const bool zero = pi_acceptor && p.element->block == Block::kD;
+    const bool zero = p.element->block == Block::kD &&
+                      (pi_acceptor || (cyanide && p.element->group <= 10));
     const int limit = soft_only ? internal::ChalcogenideMaxState(*p.element)
                       : pnictide_only && p.element->block == Block::kD ? 4
                                                                        : -1;

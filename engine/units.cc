@@ -303,6 +303,11 @@ bool IsPiAcceptor(const Ligand& l) {
          (l.f >= kPiAcceptorF || l.donor->atomic_number == 15);
 }
 
+bool IsAnionicPiAcceptor(const Ligand& l) {
+  return l.unit != nullptr && l.unit->charge < 0 && l.denticity == 1 &&
+         l.donor->atomic_number == 6 && l.f >= 1.5;
+}
+
 bool Unit::AcceptsCation(const Element& cation) const {
   return accepted_cations[cation.atomic_number];
 }

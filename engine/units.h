@@ -111,6 +111,14 @@ inline constexpr double kPiAcceptorF = 1.8;
 // of the Elements, 2nd ed., ch. 27, from memory).
 bool IsPiAcceptor(const Ligand& l);
 
+// Whether `l` is an anionic pi acceptor: a monodentate carbon donor of the
+// strong field, cyanide (f 1.70), isoelectronic with carbon monoxide. The
+// cyanometallates hold their metals in states as low as the carbonyls do:
+// K4[Ni(CN)4], Ni(0), tetrahedral and diamagnetic like Ni(CO)4, and
+// K5[Mn(CN)6], Mn(I) (Greenwood and Earnshaw, Chemistry of the Elements,
+// 2nd ed., chs. 24 and 27, from memory).
+bool IsAnionicPiAcceptor(const Ligand& l);
+
 // Where a 3d ion turns low spin in an octahedral field.
 struct SpinCrossover {
   const Element* element;

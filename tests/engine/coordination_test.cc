@@ -251,6 +251,132 @@ TEST(Coordination, WernerComplexesAndSandwiches) {
   });
 }
 
+// Cyanide is an anionic pi acceptor: the cyanometallates hold their
+// metals in low states, and two metal atoms written in one complex bond.
+TEST(Coordination, LowValentAndDinuclearCyanometallates) {
+  CheckAll({
+      // Ni(0), isoelectronic with Ni(CO)4: tetrahedral, diamagnetic.
+      {"K4[Ni(CN)4]", "Ni", 0, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      // Mn(I), low-spin d6.
+      {"K5[Mn(CN)6]", "Mn", 1, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      // Ni(I) pairs with a Ni-Ni bond, each Ni square planar.
+      {"K4[Ni2(CN)6]", "Ni", 1, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      // Two 17-electron [Co(CN)5]3- joined by a Co-Co bond.
+      {"Ba3[Co2(CN)10]", "Co", 2, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      // The monomer keeps its one unpaired electron.
+      {"K3[Co(CN)5]", "Co", 2, Geometry::kSquarePyramidal, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      // Neighbours that keep their states: two complexes, not a dimer, and
+      // the Zn(II) and Ni(II) outside them.
+      {"K2[Ni(CN)4]", "Ni", 2, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      {"K2Zn3[Fe(CN)6]2", "Fe", 2, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      {"Ni3[Fe(CN)6]2", "Fe", 3, Geometry::kOctahedral, 8,
+       "common practice, no source (Prussian blue analogue: low-spin "
+       "Fe(III) with 1 unpaired each, Ni(II) with 2)"},
+  });
+}
+
+// Solvent ligands, tren, dimethylglyoximate and 2-phenylpyridinate from
+// the tables, written out and abbreviated.
+TEST(Coordination, SolventAndChelateLigands) {
+  CheckAll({
+      // Cu(I) d10 with four acetonitriles: tetrahedral.
+      {"[Cu(CH3CN)4]PF6", "Cu", 1, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
+      {"[Cu(MeCN)4]BF4", "Cu", 1, Geometry::kTetrahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
+      // Acetonitrile is too weak to pair Fe(II): high spin.
+      {"[Fe(MeCN)6](BF4)2", "Fe", 2, Geometry::kOctahedral, 4,
+       "Huheey, Keiter and Keiter, 4th ed., f of MeCN near 1.22, from "
+       "memory"},
+      {"[Fe(dmso)6](ClO4)3", "Fe", 3, Geometry::kOctahedral, 5,
+       "Huheey, Keiter and Keiter, 4th ed., f of dmso near 0.91, from "
+       "memory"},
+      {"TiCl3(thf)3", "Ti", 3, Geometry::kOctahedral, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 21, from memory"},
+      {"[Ni(tren)(H2O)2]Cl2", "Ni", 2, Geometry::kOctahedral, 2,
+       "Housecroft and Sharpe, Inorganic Chemistry, from memory"},
+      // Bis(dimethylglyoximato)nickel(II): square planar, diamagnetic.
+      {"Ni(dmg)2", "Ni", 2, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      {"Ni(Hdmg)2", "Ni", 2, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      {"[Co(dmg)2(py)Cl]", "Co", 3, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory (a "
+       "cobaloxime, low-spin Co(III))"},
+      {"[Ir(ppy)3]", "Ir", 3, Geometry::kOctahedral, 0,
+       "Housecroft and Sharpe, Inorganic Chemistry, from memory"},
+      {"[Ir(ppy)2(bpy)]PF6", "Ir", 3, Geometry::kOctahedral, 0,
+       "Housecroft and Sharpe, Inorganic Chemistry, from memory"},
+  });
+}
+
+// Hydrocarbon pi ligands: allyl anion, butadiene, cyclooctadiene.
+TEST(Coordination, AllylAndDieneLigands) {
+  CheckAll({
+      {"Ni(C3H5)2", "Ni", 2, Geometry::kSquarePlanar, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"Co(C3H5)3", "Co", 3, Geometry::kOctahedral, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"[Pd(C3H5)Cl]2", "Pd", 2, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      {"Fe(CO)3(C4H6)", "Fe", 0, kAny, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"Ni(cod)2", "Ni", 0, Geometry::kTetrahedral, 0,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"[Rh(cod)Cl]2", "Rh", 1, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
+      // The sandwiches keep their counts: ferrocene 0, cobaltocene 1,
+      // nickelocene 2, chromocene 2, dibenzenechromium 0.
+      {"Fe(C5H5)2", "Fe", 2, kAny, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      {"Co(C5H5)2", "Co", 2, kAny, 1,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"Ni(C5H5)2", "Ni", 2, kAny, 2,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"Cr(C5H5)2", "Cr", 2, kAny, 2,
+       "Elschenbroich, Organometallics, 3rd ed., from memory"},
+      {"Cr(C6H6)2", "Cr", 0, kAny, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 23, from memory"},
+  });
+}
+
+// 4d and 5d d2 oxo complexes pair both d electrons in dxy; their halide
+// stays halide beside oxygen.
+TEST(Coordination, HeavyD2OxoComplexesAreDiamagnetic) {
+  CheckAll({
+      {"ReOCl3(PPh3)2", "Re", 5, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      {"[ReO2(py)4]Cl", "Re", 5, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      {"Cs2[ReOCl5]", "Re", 5, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+      {"K2[OsO2(OH)4]", "Os", 6, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      // Potassium osmate as records write it.
+      {"K2OsO4", "Os", 6, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      {"K4[MoO2(CN)4]", "Mo", 4, Geometry::kOctahedral, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 23, from memory"},
+      // Neighbours: the tetrahedral d2 ferrate and ruthenate keep two
+      // unpaired electrons, as does the d2 Os(VI) of an oxide; the
+      // square-pyramidal [ReOCl4]- was diamagnetic already.
+      {"K2RuO4", "Ru", 6, Geometry::kTetrahedral, 2,
+       "Greenwood and Earnshaw, 2nd ed., ch. 25, from memory"},
+      {"Ba2CaOsO6", "Os", 6, Geometry::kOctahedral, 2,
+       "common practice, no source (d2 Os(VI) with a local moment in the "
+       "ordered double perovskite)"},
+      {"K[ReOCl4]", "Re", 5, Geometry::kSquarePyramidal, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
+  });
+}
+
 // Nitrosyls: NO bound to a metal counts as NO+ (nitrosonium), the linear
 // three-electron donor of the {MNO}n notation; the metal takes the formal
 // state that leaves.

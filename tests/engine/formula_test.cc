@@ -771,6 +771,19 @@ constexpr AbbreviationCase kAbbreviations[] = {
     {"dppe", "C26H24P2"},
     {"OAc", "CH3COO"},
     {"Cp*", "C10H15"},
+    // Solvent ligands, tren, cod, dimethylglyoximate(1-) and
+    // 2-phenylpyridinate(1-) (IUPAC Red Book 2005, Table VII, from memory;
+    // formulas worked out from the structures: dmso (CH3)2SO,
+    // dmf HCON(CH3)2, thf (CH2)4O, tren N(CH2CH2NH2)3, cod C8H12, dmg
+    // CH3C(NOH)C(NO)CH3, ppy C6H4-C5H4N).
+    {"dmso", "C2H6SO"},
+    {"dmf", "C3H7NO"},
+    {"thf", "C4H8O"},
+    {"tren", "C6H18N4"},
+    {"cod", "C8H12"},
+    {"dmg", "C4H7N2O2"},
+    {"Hdmg", "C4H7N2O2"},
+    {"ppy", "C11H8N"},
 };
 
 // The amounts of `text` as "Sym=count" in formula order.
