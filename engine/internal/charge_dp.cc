@@ -687,6 +687,10 @@ Solution SolveChargeOneMixed(absl::Span<const ChargeItem> items,
   for (size_t e = 0; e < n; ++e) {
     lists[e] = widening.Includes(static_cast<int>(e)) ? &candidates.wide[e]
                                                       : &candidates.narrow[e];
+    // An item with no candidate leaves nothing to search (and its list's
+    // contribution bounds are the empty sentinels, which must not be
+    // summed).
+    if (lists[e]->begin == lists[e]->end) return Solution();
   }
   const absl::Span<const CandidateList* const> list_span(lists.data(), n);
   auto exhaust = [&]() {
