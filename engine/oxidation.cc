@@ -488,8 +488,10 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   bool chalcogen = false, hard_anion = false, cluster_former = false;
   bool pnictogen = false, other_nonmetal = false;
   bool heavy_halogen = false, fluorine = false, transition_metal = false;
+  bool oxide = false;
   for (const ElementPlan& p : plans) {
     const int z = p.element->atomic_number;
+    oxide |= z == 8;
     heavy_halogen |= z == 17 || z == 35 || z == 53;
     fluorine |= z == 9;
     transition_metal |= p.element->block == Block::kD &&
@@ -517,8 +519,6 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       }
     }
   }
-  bool oxide = false;
-  for (const ElementPlan& p : plans) oxide |= p.element->atomic_number == 8;
   // Free Cl, Br and I beside a free transition metal and free oxygen, with
   // no fluorine and fewer than three oxygen atoms per halogen atom, are
   // halide (metal-rich records with no oxygen keep their readings): a
@@ -550,6 +550,12 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   const bool own_rows = anions == internal::AnionClass::kDoublePerovskite ||
                         anions == internal::AnionClass::kDelafossite ||
                         anions == internal::AnionClass::kZintl;
+  // Whether any element may get options of its own below (zero beside
+  // pi acceptors, a state limit, Zintl polyanion states, listed
+  // preferences, clusters): most records have none, and their elements
+  // keep their tables.
+  const bool any_custom = pi_acceptor || cyanide || soft_only ||
+                          pnictide_only || zintl || own_rows || clusters;
   for (ElementPlan& p : plans) {
     p.no_hydride = carbon_or_nitrogen;
     p.oxide = oxide;
@@ -573,6 +579,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       p.fixed_common_options.push_back(o);
       continue;
     }
+    if (!any_custom) continue;
     const bool zero = p.element->block == Block::kD &&
                       (pi_acceptor || (cyanide && p.element->group <= 10));
     const int limit = soft_only ? internal::ChalcogenideMaxState(*p.element)
