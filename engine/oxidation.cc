@@ -106,8 +106,10 @@ absl::Span<const StateOption> NonPositivePrefix(
 // and [Fe(H2O)6]2+ read their ligands as units without an inconsistency.
 using ThresholdList = absl::InlinedVector<double, 8>;
 
-ThresholdList Thresholds(const Plans& plans, bool positive_net) {
-  ThresholdList values;
+// Passes every electronegativity the thresholds lie between to `take`
+// (with repeats, in plan order); true when the plans hold a neutral unit.
+template <typename Take>
+bool ThresholdValues(const Plans& plans, Take take) {
   bool neutral_unit = false;
   for (const ElementPlan& p : plans) {
     if (p.match != nullptr) {
@@ -124,19 +126,26 @@ ThresholdList Thresholds(const Plans& plans, bool positive_net) {
         most = std::max(most, en);
         least = std::min(least, en);
       }
-      if (charge < 0 && most > 0) values.push_back(most);
-      if (charge > 0 && least > 0) values.push_back(least);
+      if (charge < 0 && most > 0) take(most);
+      if (charge > 0 && least > 0) take(least);
       continue;
     }
     if (p.element->pauling_electronegativity.has_value()) {
-      values.push_back(*p.element->pauling_electronegativity);
+      take(*p.element->pauling_electronegativity);
     }
     // Pb(II) at 1.87 is less electronegative than Te: PbTe needs a
     // threshold between them.
     for (const double en : internal::StateElectronegativities(*p.element)) {
-      values.push_back(en);
+      take(en);
     }
   }
+  return neutral_unit;
+}
+
+ThresholdList Thresholds(const Plans& plans, bool positive_net) {
+  ThresholdList values;
+  const bool neutral_unit =
+      ThresholdValues(plans, [&values](double v) { values.push_back(v); });
   std::sort(values.begin(), values.end(), std::greater<double>());
   values.erase(std::unique(values.begin(), values.end()), values.end());
   ThresholdList out;
@@ -152,6 +161,31 @@ ThresholdList Thresholds(const Plans& plans, bool positive_net) {
     out.push_back(std::numeric_limits<double>::infinity());
   }
   return out;
+}
+
+// Thresholds(plans, ...)[0], without sorting or listing the others: the
+// search tries the rest only when the first leaves an inconsistency (or no
+// balance), which few records do.
+double FirstThreshold(const Plans& plans) {
+  // The largest and second largest distinct values; `distinct` counts
+  // distinct values up to 2 (a repeat of a dropped third may count again).
+  double first = -std::numeric_limits<double>::infinity();
+  double second = first;
+  int distinct = 0;
+  ThresholdValues(plans, [&](double v) {
+    if (distinct > 0 && v == first) return;
+    if (distinct > 1 && v == second) return;
+    if (distinct == 0 || v > first) {
+      second = first;
+      first = v;
+    } else if (distinct == 1 || v > second) {
+      second = v;
+    }
+    ++distinct;
+  });
+  if (distinct == 0) return std::numeric_limits<double>::infinity();
+  if (distinct == 1) return first - 0.01;
+  return (first + second) / 2;
 }
 
 bool AboveThreshold(const Element& e, double threshold) {
@@ -1077,14 +1111,14 @@ Solution SolveStaged(const Plans& plans, const ChargeItems& items,
 // with.
 Solution SolveReading(const Plans& plans, const Forbidden& forbidden,
                       Search* search, Weight bound, double* chosen) {
-  const ThresholdList thresholds = Thresholds(plans, search->target > 0);
   const ChargeItems items = ItemsOf(plans);
-  Solution best =
-      SolveStaged(plans, items, forbidden, thresholds[0], search, bound);
-  *chosen = thresholds[0];
+  const double first = FirstThreshold(plans);
+  Solution best = SolveStaged(plans, items, forbidden, first, search, bound);
+  *chosen = first;
   if (!best.weight.IsInfinite() && !best.weight.HasInconsistency()) {
     return best;
   }
+  const ThresholdList thresholds = Thresholds(plans, search->target > 0);
   for (size_t j = 1; j < thresholds.size(); ++j) {
     Solution s = SolveStaged(plans, items, forbidden, thresholds[j], search,
                              std::min(bound, best.weight));
