@@ -864,6 +864,8 @@ Candidates& SearchCandidates() {
 
 // Atoms per formula unit of `scaled` scaled atoms.
 Rational PerFormulaUnit(int64_t scaled, const Rational& scale) {
+  // None (most records' spread) needs no reduction.
+  if (scaled == 0) return Rational(0);
   // One reduction: scaled x den stays far inside int64 (kMaxScaledAtoms).
   return Rational(scaled * scale.den(), scale.num());
 }
@@ -874,8 +876,17 @@ Rational PerFormulaUnit(int64_t scaled, const Rational& scale) {
 // it (naturalness at 9.99, the terms below uncommon at 99.99), so the
 // score never orders two assignments against the ranking.
 double PrintedScore(Weight w, bool redox_incompatible, const Rational& scale) {
-  const double natural =
-      std::min(9.99, PerFormulaUnit(w.naturalness(), scale).ToDouble());
+  // The quotient of two integers that a double holds exactly is the
+  // correctly rounded value of their fraction, whatever its terms: so the
+  // unreduced one gives PerFormulaUnit(...).ToDouble() without a gcd.
+  constexpr int64_t kExact = int64_t{1} << 53;
+  const __int128 scaled = static_cast<__int128>(w.naturalness()) * scale.den();
+  const double per_unit =
+      scaled > -kExact && scaled < kExact && scale.num() < kExact
+          ? static_cast<double>(static_cast<int64_t>(scaled)) /
+                static_cast<double>(scale.num())
+          : PerFormulaUnit(w.naturalness(), scale).ToDouble();
+  const double natural = std::min(9.99, per_unit);
   const int64_t faults = w.inconsistencies() + (redox_incompatible ? 1 : 0);
   const double lower =
       faults >= 9 ? 99.99 : 10.0 * static_cast<double>(faults) + natural;
