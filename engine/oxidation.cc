@@ -80,9 +80,10 @@ using ChargeItems = absl::InlinedVector<ChargeItem, 8>;
 
 // The search's view of the plans: one layer per element.
 ChargeItems ItemsOf(const Plans& plans) {
-  ChargeItems items(plans.size());
-  for (size_t i = 0; i < plans.size(); ++i) {
-    items[i] = ChargeItem{plans[i].scaled_count, plans[i].options()};
+  // Appended, not made with room and assigned: no zeroing first.
+  ChargeItems items;
+  for (const ElementPlan& p : plans) {
+    items.push_back(ChargeItem{p.scaled_count, p.options()});
   }
   return items;
 }
