@@ -1465,6 +1465,25 @@ void SearchAssignments(const Formula& formula, const OxidationOptions& options,
 // whose window is too wide for kMaxSearchCells goes straight to the
 // restricted search instead of spending its budget on the stages that
 // come before the widest one.
+// The widest span of an element's known states, 0 included (as
+// WideSearchCells takes them), over the periodic table. A layer of the
+// all-states search is no wider than its prefix's span plus one, so
+// n x (scaled atoms x this + 1) bounds WideSearchCells from above.
+int64_t WidestStateSpan() {
+  static const int64_t kSpan = [] {
+    int64_t widest = 0;
+    for (const Element& e : AllElements()) {
+      const absl::Span<const KnownOxidationState> known =
+          internal::KnownStates(e);
+      if (known.empty()) continue;
+      widest = std::max<int64_t>(widest, std::max(0, known.back().state) -
+                                             std::min(0, known.front().state));
+    }
+    return widest;
+  }();
+  return kSpan;
+}
+
 int64_t WideSearchCells(const Formula& formula,
                         absl::Span<const int64_t> scaled_counts,
                         int64_t target) {
@@ -1691,12 +1710,19 @@ absl::StatusOr<OxidationResult> AssignStates(const Formula& formula,
   const Rational scale(lcd * twice, g);
   search.target = (Rational(options.net_charge) * scale).num();
   // g divides every count times lcd, so these are exact.
+  int64_t search_atoms = 0;
   for (const ElementAmount& a : formula.amounts) {
     search.scaled_counts.push_back(a.count.num() * (lcd / a.count.den()) / g *
                                    twice);
+    search_atoms += search.scaled_counts.back();
   }
-  if (WideSearchCells(formula, search.scaled_counts, search.target) <=
-      internal::kMaxSearchCells) {
+  // Most records are far inside the limit by the quick bound (at most
+  // 48 x (10^6 x the span + 1): no overflow).
+  const int64_t quick_cells = static_cast<int64_t>(formula.amounts.size()) *
+                              (search_atoms * WidestStateSpan() + 1);
+  if (quick_cells <= internal::kMaxSearchCells ||
+      WideSearchCells(formula, search.scaled_counts, search.target) <=
+          internal::kMaxSearchCells) {
     SearchAssignments(formula, options, scale, &search, &result);
     if (!search.budget.exhausted || result.alternatives_cut) return result;
   }
