@@ -1266,7 +1266,11 @@ BestReading SearchReadings(const Formula& formula,
       // the other one.
       best.plans = &plans;
       work = 1 - work;
-      best.solution = std::move(s);
+      // Only the reading's items have choices (Solution): the rest of the
+      // fixed array is not copied.
+      best.solution.weight = s.weight;
+      std::copy_n(s.choices.begin(), plans.size(),
+                  best.solution.choices.begin());
       best.terms = terms;
       best.threshold = threshold;
       best.strict = strict;
