@@ -922,6 +922,30 @@ TEST(Composition, SkutteruditesHoldTrivalentLowSpinMetals) {
   }
 }
 
+// The phosphide skutterudites read like the arsenides and antimonides:
+// CoP3, RhP3 and IrP3 are diamagnetic semiconductors, M(III) low-spin d6
+// beside P4 4- rings (Jeitschko and Braun, Acta Cryst. B33 (1977) 3401;
+// Hulliger, Struct. Bonding 4 (1968) 83; from memory). CoP3 had been high
+// spin, with four unpaired electrons, for want of a phosphide ligand.
+// RhAs3 and IrAs3 as well (same sources). NiP3 is a metal (Jeitschko and
+// Braun 1977, from memory): its Ni(III) carries at most the one electron
+// of low-spin d7, no large local moment.
+TEST(Composition, PhosphideSkutteruditesAreLowSpinLikeTheArsenides) {
+  for (const char* formula :
+       {"CoP3", "RhP3", "IrP3", "RhAs3", "IrAs3", "CoAs3", "RhSb3"}) {
+    const CompositionReport r = ExpectOnlyDBlockIon(formula, 3);
+    EXPECT_EQ(r.unpaired_per_formula_unit, 0) << formula;
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->block != Block::kD) continue;
+      EXPECT_EQ(ion.description->ligand_field->splitting.geometry,
+                Geometry::kOctahedral)
+          << formula;
+    }
+  }
+  const CompositionReport nickel = ExpectOnlyDBlockIon("NiP3", 3);
+  EXPECT_LE(nickel.unpaired_per_formula_unit, 1);
+}
+
 // The pyrite- and marcasite-type dichalcogenides of Os hold X2 2- pairs
 // beside Os(II), low-spin d6, diamagnetic like laurite RuS2 (Hulliger,
 // Struct. Bonding 4 (1968) 83; Vaughan and Craig, Mineral Chemistry of
