@@ -975,6 +975,49 @@ TEST(Composition, OsmiumDichalcogenidesAreOsmiumTwoPairs) {
   }
 }
 
+// The Cr3S4 type, monoclinic defect NiAs, is no spinel: its metals are all
+// octahedral, so no Néel sublattice estimate applies (Hulliger, Structural
+// Chemistry of Layer-Type Phases (1976); Jellinek, Acta Cryst. 10 (1957)
+// 620; Wells, Structural Inorganic Chemistry, 5th ed.; all from memory).
+// Fe3Se4 had been a spinel of 4 uB.
+TEST(Composition, CrThreeSFourTypeChalcogenidesAreNoSpinels) {
+  for (const char* formula :
+       {"Cr3S4", "Cr3Se4", "Cr3Te4", "V3S4", "V3Se4", "Ti3S4", "Fe3Se4",
+        "Fe3Te4", "Co3Se4", "Ni3Se4", "NiCr2S4", "FeV2S4", "FeCr2Se4"}) {
+    CompositionReport r = Analyze(formula);
+    ASSERT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+    EXPECT_EQ(r.structure_family, "") << formula;
+    EXPECT_FALSE(r.saturation_moment_per_formula_unit.has_value()) << formula;
+    EXPECT_NE(r.structure_note.find("Cr3S4 type"), std::string::npos)
+        << formula << ": " << r.structure_note;
+    EXPECT_NE(r.moment_note.find("Cr3S4"), std::string::npos) << formula;
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->block != Block::kD) continue;
+      EXPECT_EQ(ion.description->ligand_field->splitting.geometry,
+                Geometry::kOctahedral)
+          << formula;
+    }
+  }
+  // The real thio- and selenospinels keep their family (Vaughan and
+  // Craig, Mineral Chemistry of Metal Sulfides (1978); Hulliger 1976;
+  // from memory): greigite, linnaeite, polydymite, violarite, carrollite,
+  // daubreelite and the chromium spinels.
+  for (const char* formula :
+       {"Fe3S4", "Co3S4", "Ni3S4", "FeNi2S4", "CuCo2S4", "CuCr2S4", "CdCr2S4",
+        "FeCr2S4", "MnCr2S4", "CoCr2S4", "ZnCr2Se4", "CdCr2Se4", "CuCr2Se4",
+        "CuIr2S4", "CuV2S4", "MnIn2S4"}) {
+    CompositionReport r = Analyze(formula);
+    ASSERT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+    EXPECT_EQ(r.structure_family, "spinel") << formula;
+    EXPECT_TRUE(r.saturation_moment_per_formula_unit.has_value()) << formula;
+  }
+  // A record that forces the family still gets the spinel reading.
+  CompositionInput forced = Record("Fe3Se4");
+  forced.structure_family = "spinel";
+  CompositionReport r = Analyze(forced);
+  EXPECT_EQ(r.structure_family, "spinel");
+}
+
 // ---------------------------------------------------------------------------
 // Record id.
 
