@@ -975,6 +975,60 @@ TEST(Composition, OsmiumDichalcogenidesAreOsmiumTwoPairs) {
   }
 }
 
+// The layered MX2 of the early 3d metals are CdI2 (1T) type, M(IV) with
+// X2- and no X-X pairs: TiS2 and TiSe2 d0, VS2 and VSe2 itinerant d1, and
+// CrS2, CrSe2 and CrTe2 Cr(IV), d2 octahedral with two unpaired electrons
+// (CrTe2 a ferromagnet) (Hulliger, Structural Chemistry of Layer-Type
+// Phases (1976); Wilson and Yoffe, Adv. Phys. 18 (1969) 193; from
+// memory). CrSe2 had read Cr(II) with Se2 pairs. ZrS2, HfS2 and SnS2 are
+// M(IV) d0 (or d10) too (Greenwood and Earnshaw, chs. 13 and 21, from
+// memory).
+TEST(Composition, EarlyThreeDDichalcogenideLayersAreTetravalent) {
+  for (const char* formula : {"TiS2", "TiSe2", "VS2", "VSe2", "CrS2", "CrSe2",
+                              "CrTe2", "ZrS2", "HfS2", "SnS2"}) {
+    CompositionReport r = Analyze(formula);
+    ASSERT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+    ASSERT_TRUE(r.assignment.has_value()) << formula;
+    EXPECT_TRUE(r.assignment->units.empty()) << formula;
+    for (const AssignedState& s : r.assignment->states) {
+      EXPECT_EQ(s.state, IsHeavyChalcogen(s.element->atomic_number) ? -2 : 4)
+          << formula;
+    }
+  }
+  for (const char* formula : {"CrS2", "CrSe2", "CrTe2"}) {
+    const CompositionReport r = ExpectOnlyDBlockIon(formula, 4);
+    EXPECT_EQ(r.unpaired_per_formula_unit, 2) << formula;
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->block != Block::kD) continue;
+      EXPECT_EQ(ion.description->ligand_field->splitting.geometry,
+                Geometry::kOctahedral)
+          << formula;
+    }
+  }
+}
+
+// The CdI2-type tellurides of groups 9 and 10 are metals with no local
+// moment: NiTe2 and PdTe2 Pauli paramagnets, IrTe2 a nonmagnetic metal
+// whose Ir-Ir dimers form below about 270 K, CoTe2 and PtTe2 metallic
+// (Hulliger, Structural Chemistry of Layer-Type Phases (1976), from
+// memory). NiTe2 had two unpaired electrons and IrTe2 one.
+TEST(Composition, GroupNineAndTenDitelluridesAreItinerant) {
+  for (const char* formula :
+       {"NiTe2", "IrTe2", "CoTe2", "RhTe2", "PdTe2", "PtTe2"}) {
+    CompositionReport r = Analyze(formula);
+    ASSERT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+    EXPECT_EQ(r.unpaired_per_formula_unit, 0) << formula;
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->block != Block::kD) continue;
+      EXPECT_EQ(ion.spin_basis, SpinBasis::kItinerant) << formula;
+      EXPECT_EQ(ion.moment, 0) << formula;
+    }
+  }
+  // The pyrite-type disulfide keeps its moment: NiS2 is an
+  // antiferromagnetic insulator, Ni(II) d8 (Hulliger 1968, from memory).
+  EXPECT_EQ(ExpectOnlyDBlockIon("NiS2", 2).unpaired_per_formula_unit, 2);
+}
+
 // The Cr3S4 type, monoclinic defect NiAs, is no spinel: its metals are all
 // octahedral, so no Néel sublattice estimate applies (Hulliger, Structural
 // Chemistry of Layer-Type Phases (1976); Jellinek, Acta Cryst. 10 (1957)
