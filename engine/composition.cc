@@ -1248,8 +1248,8 @@ CompositionReport Analyze(const CompositionInput& input) {
       r.structure_note = std::move(*note);
       if (r.moment_note.empty()) {
         r.moment_note =
-            "saturation: none (a Cr3S4-type chalcogenide, outside the "
-            "spinel sublattice model)";
+            "saturation: none (spinel counts but no spinel, as the Cr3S4 "
+            "type: outside the spinel sublattice model)";
       }
     }
   }

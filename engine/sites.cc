@@ -869,10 +869,11 @@ bool IsDefectNiAsChalcogenide(const OxidationAssignment& a, std::string* note) {
   if (!(fit * Rational(4) < anions)) return false;
   if (note != nullptr) {
     *note =
-        "Cr3S4 type (monoclinic defect NiAs), not a spinel: no cation fit "
-        "for a tetrahedral site among these anions (Hulliger, Structural "
-        "Chemistry of Layer-Type Phases, 1976, from memory); every metal "
-        "is octahedral, and no sublattice saturation moment is estimated";
+        "not a spinel: no cation fit for a tetrahedral site among these "
+        "anions, so every metal is octahedral, as in the monoclinic Cr3S4 "
+        "type (defect NiAs) of the 3d metals (Hulliger, Structural "
+        "Chemistry of Layer-Type Phases, 1976, from memory); no sublattice "
+        "saturation moment is estimated";
   }
   return true;
 }
