@@ -642,7 +642,10 @@ bool MakePlans(const Formula& formula, const Rational& scale,
         high_common &= high <= limit || step_above;
       }
       if (attested >= 0) {
-        low_common |= low == attested && high <= attested + 1;
+        // The state alone, or as the upper state of a mix one step below
+        // (Nb(III)/Nb(IV) in Fe1/3NbS2); a mix reaching above it keeps
+        // its flags.
+        low_common |= low == attested && high == attested;
         high_common |= high == attested && low >= attested - 1;
       }
       if (listed) {

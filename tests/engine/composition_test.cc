@@ -975,6 +975,22 @@ TEST(Composition, OsmiumDichalcogenidesAreOsmiumTwoPairs) {
   }
 }
 
+// The chalcogenide maximum counts alone and as the upper state of a mix
+// one step below: the intercalate Fe1/3NbS2 holds high-spin Fe(II) beside
+// Nb(III)/Nb(IV) (Parkin and Friend, Phil. Mag. B 41 (1980) 65, from
+// memory), and TaSe3 Ta(IV) beside selenide and Se2 pairs (Hulliger,
+// Structural Chemistry of Layer-Type Phases (1976), from memory).
+TEST(Composition, ChalcogenideMaximumIsCommonAloneAndFromBelow) {
+  CompositionReport r = Analyze("Fe0.33NbS2");
+  ASSERT_TRUE(r.valid) << DiagnosticsText(r);
+  for (const AssignedState& s : r.assignment->states) {
+    if (s.element->symbol == "Fe") EXPECT_EQ(s.state, 2);
+    if (s.element->symbol == "Nb") EXPECT_TRUE(s.state == 3 || s.state == 4);
+  }
+  const CompositionReport ta = ExpectOnlyDBlockIon("TaSe3", 4);
+  EXPECT_NE(Find(ta, "mixed_valence"), nullptr);  // Se -2 and -1.
+}
+
 // The layered MX2 of the early 3d metals are CdI2 (1T) type, M(IV) with
 // X2- and no X-X pairs: TiS2 and TiSe2 d0, VS2 and VSe2 itinerant d1, and
 // CrS2, CrSe2 and CrTe2 Cr(IV), d2 octahedral with two unpaired electrons
