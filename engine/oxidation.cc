@@ -614,9 +614,13 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     }
     p.custom = true;
     bool zero_added = !zero;
+    const bool platinum_metal = p.element->block == Block::kD &&
+                                p.element->period >= 5 &&
+                                p.element->group >= 8 && p.element->group <= 10;
     auto add = [&p, limit, listed, anions, zero, cluster, nitrosyl, inert_pair,
-                attested](int low, int high, bool low_common, bool high_common,
-                          bool needs_oxide = false) {
+                attested, platinum_metal](int low, int high, bool low_common,
+                                          bool high_common,
+                                          bool needs_oxide = false) {
       if (cluster) {
         // +1 in a mix with +2 only: the mean of a reduced cluster (a lone
         // Mo(I) or W(I) halide is unknown).
@@ -640,6 +644,12 @@ bool MakePlans(const Formula& formula, const Rational& scale,
         const bool step_above = low == limit && high == limit + 1;
         low_common &= low <= limit;
         high_common &= high <= limit || step_above;
+        // For the platinum metals the step above is common even where the
+        // state alone is not: the thiospinels CuRh2S4 and CuRh2Se4 hold
+        // Cu(I) beside Rh(III)/Rh(IV), as CuIr2S4 holds Ir(III)/Ir(IV)
+        // (Hulliger, Struct. Bonding 4 (1968) 83; Radaelli et al., Nature
+        // 416 (2002) 155; from memory), not Cu(II) with Rh(III).
+        high_common |= step_above && platinum_metal;
       }
       if (attested >= 0) {
         // The state alone, or as the upper state of a mix one step below

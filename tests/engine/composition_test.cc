@@ -1097,6 +1097,31 @@ TEST(Composition, CrThreeSFourTypeChalcogenidesAreNoSpinels) {
   EXPECT_EQ(r.structure_family, "spinel");
 }
 
+// The platinum-metal thiospinels hold Cu(I) beside M(III)/M(IV), as
+// carrollite CuCo2S4 does: CuRh2S4, CuRh2Se4, CuIr2S4 and CuIr2Se4
+// (Hulliger, Struct. Bonding 4 (1968) 83; Radaelli et al., Nature 416
+// (2002) 155, for CuIr2S4; from memory). CuRh2S4 had read Cu(II) with
+// Rh(III).
+TEST(Composition, PlatinumMetalThiospinelsHoldMonovalentCopper) {
+  for (const char* formula :
+       {"CuRh2S4", "CuRh2Se4", "CuIr2S4", "CuIr2Se4", "CuCo2S4"}) {
+    CompositionReport r = Analyze(formula);
+    ASSERT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+    ASSERT_TRUE(r.assignment.has_value()) << formula;
+    int metal_states = 0;
+    for (const AssignedState& s : r.assignment->states) {
+      if (s.element->symbol == "Cu") {
+        EXPECT_EQ(s.state, 1) << formula;
+      } else if (s.element->block == Block::kD) {
+        EXPECT_TRUE(s.state == 3 || s.state == 4) << formula;
+        ++metal_states;
+      }
+    }
+    EXPECT_EQ(metal_states, 2) << formula;  // M(III) and M(IV).
+    EXPECT_EQ(r.structure_family, "spinel") << formula;
+  }
+}
+
 // ---------------------------------------------------------------------------
 // Record id.
 
