@@ -1240,6 +1240,18 @@ CompositionReport Analyze(const CompositionInput& input) {
   if (placement.has_value()) {
     r.structure_family = Name(placement->family);
     ApplySublattices(*placement, &r);
+  } else if (r.kind == CompositionKind::kIonic &&
+             family == FamilyChoice::kAuto) {
+    // The Cr3S4 type: spinel counts, no spinel (engine/sites.h), so no
+    // sublattice saturation moment; the report says why.
+    if (std::optional<std::string> note = DefectNiAsNote(*r.assignment)) {
+      r.structure_note = std::move(*note);
+      if (r.moment_note.empty()) {
+        r.moment_note =
+            "saturation: none (spinel counts but no spinel, as the Cr3S4 "
+            "type: outside the spinel sublattice model)";
+      }
+    }
   }
   if (!r.saturation_moment_per_formula_unit.has_value() &&
       (r.kind == CompositionKind::kIonic ||

@@ -414,6 +414,31 @@ bool PairsAlongPnictideChains(const OxidationAssignment& assignment,
   return pairs == metal;
 }
 
+// The CdI2-type tellurides of groups 9 and 10, MTe2 with M the only metal
+// (CoTe2, NiTe2, RhTe2, IrTe2, PdTe2, PtTe2): Te-Te contacts between the
+// layers make them metals, Pauli paramagnetic with no local moment
+// (Hulliger, Structural Chemistry of Layer-Type Phases (1976); Wilson and
+// Yoffe, Adv. Phys. 18 (1969) 193; IrTe2's Ir-Ir dimers below 270 K stay
+// nonmagnetic; all from memory). Their formal reading (ditelluride beside
+// M(II), or telluride beside M(IV)) leaves d electrons that form no moment.
+bool InMetallicTellurideLayers(const OxidationAssignment& assignment,
+                               const AssignedState& ion) {
+  const Element& e = *ion.element;
+  if (e.block != Block::kD || (e.group != 9 && e.group != 10)) return false;
+  Rational tellurium(0), metal(0);
+  for (const AssignedState& s : assignment.states) {
+    // Te free or in ditelluride units, each atom counted once.
+    if (s.element->atomic_number == 52 && (s.unit >= 0 || s.state < 0)) {
+      tellurium = tellurium + s.count;
+    } else if (s.element == &e) {
+      metal = metal + s.count;
+    } else {
+      return false;
+    }
+  }
+  return !metal.IsZero() && tellurium == metal * Rational(2);
+}
+
 // A d0-d2 metal in a high state holding four anions per d-block metal
 // atom, with no unit: the tetrahedral oxo-anions and tetroxides of M(V) to
 // M(VIII) written without a unit of the table (KReO4, KRuO4, RuO4, OsO4;
@@ -605,6 +630,16 @@ IonEnvironment FindEnvironment(const Formula& formula,
       env.metal_metal_bonded = true;
       return env;
     }
+  }
+
+  // The metallic CdI2-type tellurides of groups 9 and 10: itinerant.
+  if (geometry_set == nullptr && spin_set == nullptr && complex < 0 &&
+      InMetallicTellurideLayers(assignment, ion)) {
+    env.geometry = Geometry::kOctahedral;
+    env.spin_state = SpinStatePreference::kLow;
+    env.basis = SpinBasis::kItinerant;
+    env.metal_metal_bonded = true;
+    return env;
   }
 
   // Low-valent 4d and 5d clusters and metal pairs, and the pnictide
@@ -800,7 +835,13 @@ IonEnvironment FindEnvironment(const Formula& formula,
       }
     }
     const bool layer = !other && chalcogen == metals * Rational(2);
-    env.geometry = layer ? Geometry::kTrigonalPrismatic : Geometry::kOctahedral;
+    // The 3d layers are octahedral, CdI2 (1T) type: VS2, VSe2 and the
+    // Cr(IV) of CrS2, CrSe2 and CrTe2, d2 with two unpaired electrons
+    // (CrTe2 is a ferromagnet; Hulliger, Structural Chemistry of
+    // Layer-Type Phases (1976), from memory). The 4d and 5d ones are
+    // trigonal prismatic (2H-MoS2, NbSe2).
+    env.geometry =
+        layer && n >= 4 ? Geometry::kTrigonalPrismatic : Geometry::kOctahedral;
     if (layer && d == 1 && e.group == 5 && geometry_set == nullptr &&
         spin_set == nullptr) {
       // The d1 layers of group 5 (NbS2, NbSe2, TaS2, TaSe2, VSe2) are

@@ -541,6 +541,14 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     }
   }
   const bool soft_only = chalcogen && !hard_anion;
+  // Every unit of the reading a pair of S, Se or Te atoms (pyrite-type
+  // disulfides, diselenides, ditellurides), with no free hard anion.
+  bool chalcogen_pairs = !reading.empty() && !hard_anion;
+  for (const UnitMatch* m : reading) {
+    for (const UnitAtom& a : m->units.front()->atoms) {
+      chalcogen_pairs &= IsHeavyChalcogen(a.element->atomic_number);
+    }
+  }
   const bool pnictide_only = pnictogen && !other_nonmetal && !zintl;
   const bool clusters =
       cluster_former && reading.empty() && HoldsMetalClusters(plans);
@@ -631,15 +639,30 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     // (docs/method.md).
     const int inert_pair =
         clusters && IsInertPairMetal(*p.element) ? p.element->group - 12 : 0;
-    if (!zero && limit < 0 && !polyanion && !listed && !cluster &&
-        inert_pair == 0) {
+    // Among chalcogenides, free or in X2 pairs, the chalcogenide maximum
+    // itself is attested (the table names the compound that shows it) and
+    // counts as common whatever the element's general flag: erlichmanite
+    // OsS2, OsSe2 and OsTe2 are Os(II) with X2 2- pairs, low-spin d6 and
+    // diamagnetic like laurite RuS2 (Hulliger, Struct. Bonding 4 (1968)
+    // 83; Vaughan and Craig, Mineral Chemistry of Metal Sulfides (1978);
+    // from memory), not Os(IV) with two unpaired electrons.
+    const int attested =
+        (soft_only || chalcogen_pairs) && p.element->block == Block::kD
+            ? internal::ChalcogenideMaxState(*p.element)
+            : -1;
+    if (!zero && limit < 0 && attested < 0 && !polyanion && !listed &&
+        !cluster && inert_pair == 0) {
       continue;
     }
     p.custom = true;
     bool zero_added = !zero;
-    auto add = [&p, limit, listed, anions, zero, cluster, nitrosyl, inert_pair](
-                   int low, int high, bool low_common, bool high_common,
-                   bool needs_oxide = false) {
+    const bool platinum_metal = p.element->block == Block::kD &&
+                                p.element->period >= 5 &&
+                                p.element->group >= 8 && p.element->group <= 10;
+    auto add = [&p, limit, listed, anions, zero, cluster, nitrosyl, inert_pair,
+                attested, platinum_metal](int low, int high, bool low_common,
+                                          bool high_common,
+                                          bool needs_oxide = false) {
       if (cluster) {
         // +1 in a mix with +2 only: the mean of a reduced cluster (a lone
         // Mo(I) or W(I) halide is unknown).
@@ -663,6 +686,19 @@ bool MakePlans(const Formula& formula, const Rational& scale,
         const bool step_above = low == limit && high == limit + 1;
         low_common &= low <= limit;
         high_common &= high <= limit || step_above;
+        // For the platinum metals the step above is common even where the
+        // state alone is not: the thiospinels CuRh2S4 and CuRh2Se4 hold
+        // Cu(I) beside Rh(III)/Rh(IV), as CuIr2S4 holds Ir(III)/Ir(IV)
+        // (Hulliger, Struct. Bonding 4 (1968) 83; Radaelli et al., Nature
+        // 416 (2002) 155; from memory), not Cu(II) with Rh(III).
+        high_common |= step_above && platinum_metal;
+      }
+      if (attested >= 0) {
+        // The state alone, or as the upper state of a mix one step below
+        // (Nb(III)/Nb(IV) in Fe1/3NbS2); a mix reaching above it keeps
+        // its flags.
+        low_common |= low == attested && high == attested;
+        high_common |= high == attested && low >= attested - 1;
       }
       if (listed) {
         low_common |= internal::ListedPreference(*p.element, low, anions);

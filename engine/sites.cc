@@ -26,10 +26,16 @@ constexpr int kZOxygen = 8;
 constexpr int kZFluorine = 9;
 constexpr int kZSilicon = 14;
 constexpr int kZSulfur = 16;
+constexpr int kZTitanium = 22;
+constexpr int kZVanadium = 23;
 constexpr int kZChromium = 24;
+constexpr int kZManganese = 25;
+constexpr int kZCobalt = 27;
+constexpr int kZNickel = 28;
 constexpr int kZCopper = 29;
 constexpr int kZGermanium = 32;
 constexpr int kZSelenium = 34;
+constexpr int kZTellurium = 52;
 constexpr int kZCadmium = 48;
 constexpr int kZMercury = 80;
 
@@ -809,6 +815,69 @@ const FamilySpec* SpecOf(FamilyChoice choice) {
   return nullptr;
 }
 
+// The Cr3S4 type (docs/method.md, "Sites and sublattices"). A sulfide,
+// selenide or telluride with 3 metal cations per 4 anions is a spinel only
+// when, per AB2X4, one cation is fit for the tetrahedral A site among
+// these soft anions: a closed-shell cation (d0, d10 or main group: Cu+,
+// Zn2+, Cd2+, Hg2+, Ga3+, In3+, Mg2+), or, in sulfides only, Mn, Fe or Co
+// (high-spin d5 to d7: FeCr2S4, MnCr2S4, CoCr2S4, greigite Fe3S4,
+// linnaeite Co3S4) unless Ti or V sits beside it, and Ni unless Ti, V or
+// Cr does (polydymite Ni3S4 and violarite FeNi2S4 are spinels, NiCr2S4 is
+// not). Otherwise the compound takes the monoclinic Cr3S4 type, a NiAs
+// derivative with every metal octahedral and every other metal layer
+// half empty: Cr3S4, Cr3Se4, Cr3Te4, V3S4, V3Se4, Ti3S4, Fe3Se4, Fe3Te4,
+// Co3Se4, Ni3Se4, FeV2S4, NiCr2S4, FeCr2Se4 (Hulliger, Structural
+// Chemistry of Layer-Type Phases (1976); Jellinek, Acta Cryst. 10 (1957)
+// 620; Wells, Structural Inorganic Chemistry, 5th ed.; all from memory).
+// Returns false, touching nothing, for any other composition.
+bool IsDefectNiAsChalcogenide(const OxidationAssignment& a, std::string* note) {
+  int anion_z = 0;
+  Rational anions, cations, fit;
+  bool early = false;  // Ti or V among the cations.
+  bool chromium = false;
+  for (const AssignedState& s : a.states) {
+    const int z = s.element->atomic_number;
+    if (s.unit >= 0) return false;
+    if (z == kZSulfur || z == kZSelenium || z == kZTellurium) {
+      if ((anion_z != 0 && anion_z != z) || s.state != -2) return false;
+      anion_z = z;
+      anions = anions + s.count;
+      continue;
+    }
+    if (s.state <= 0 || !IsSmallCation(*s.element, s.state)) return false;
+    cations = cations + s.count;
+    early |= z == kZTitanium || z == kZVanadium;
+    chromium |= z == kZChromium;
+  }
+  if (anion_z == 0 || cations.IsZero() ||
+      !(cations * Rational(4) == anions * Rational(3))) {
+    return false;
+  }
+  for (const AssignedState& s : a.states) {
+    if (s.state <= 0) continue;
+    const Element& e = *s.element;
+    const int z = e.atomic_number;
+    const int d = e.group - s.state;
+    const bool closed =
+        e.block != Block::kD || d == 0 || (e.group >= 11 && d == 10);
+    const bool sulfide = anion_z == kZSulfur;
+    const bool mid = sulfide && !early && z >= kZManganese && z <= kZCobalt;
+    const bool nickel = sulfide && !early && !chromium && z == kZNickel;
+    if (closed || mid || nickel) fit = fit + s.count;
+  }
+  // One fit cation per 4 anions at least.
+  if (!(fit * Rational(4) < anions)) return false;
+  if (note != nullptr) {
+    *note =
+        "not a spinel: no cation fit for a tetrahedral site among these "
+        "anions, so every metal is octahedral, as in the monoclinic Cr3S4 "
+        "type (defect NiAs) of the 3d metals (Hulliger, Structural "
+        "Chemistry of Layer-Type Phases, 1976, from memory); no sublattice "
+        "saturation moment is estimated";
+  }
+  return true;
+}
+
 }  // namespace
 
 std::optional<SitePlacement> PlaceIons(const Formula& formula,
@@ -843,6 +912,10 @@ std::optional<SitePlacement> PlaceIons(const Formula& formula,
   for (const FamilySpec* spec :
        {&kSpinel, &kPerovskite, &kHexaferrite, &kGarnet}) {
     if (!Candidate(*spec, shape)) continue;
+    if (spec == &kSpinel && shape.anion_z != kZOxygen &&
+        IsDefectNiAsChalcogenide(a, nullptr)) {
+      continue;
+    }
     if (!counted) {
       CountExactly(formula, &shape);
       counted = true;
@@ -852,6 +925,12 @@ std::optional<SitePlacement> PlaceIons(const Formula& formula,
     }
   }
   return std::nullopt;
+}
+
+std::optional<std::string> DefectNiAsNote(const OxidationAssignment& a) {
+  std::string note;
+  if (!IsDefectNiAsChalcogenide(a, &note)) return std::nullopt;
+  return note;
 }
 
 double OrderedIonMoment(const AtomDescription& ion) {

@@ -165,6 +165,13 @@ std::optional<SitePlacement> PlaceIons(const Formula& formula,
                                        FamilyChoice choice,
                                        std::string* why_not = nullptr);
 
+// A sulfide, selenide or telluride of 3 metal cations per 4 anions that
+// holds no cation fit for a spinel's tetrahedral site among these anions
+// (Cr3S4, V3S4, Fe3Se4, Cr3Te4): the monoclinic Cr3S4 type, which
+// PlaceIons does not read as a spinel unless the family is forced. Returns
+// the report's note for such an assignment, nullopt otherwise.
+std::optional<std::string> DefectNiAsNote(const OxidationAssignment& a);
+
 // The ordered moment of one ion in Néel's model, in μB: g_J·J when an f
 // subshell is open (AtomDescription::moments.saturation), else the spin
 // moment 2S with g = 2 (quenched orbital moment).

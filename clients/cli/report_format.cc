@@ -171,6 +171,10 @@ std::string FormatReportHuman(const v1::RecordReport& r) {
     if (!r.structure_family().empty()) {
       absl::StrAppend(&out, "  Sites: ", r.structure_family(), ": ",
                       r.structure_note(), "\n");
+    } else if (!r.structure_note().empty()) {
+      // No family, with the reason (the Cr3S4 type: spinel counts, no
+      // spinel).
+      absl::StrAppend(&out, "  Sites: ", r.structure_note(), "\n");
     }
     if (r.saturation_moment_estimated()) {
       absl::StrAppendFormat(

@@ -218,6 +218,12 @@ TEST(Cli, CompoundGivesTheInverseSpinelOfMagnetite) {
   CommandResult human = Cli({"compound", "Fe3O4"});
   EXPECT_THAT(human.out, HasSubstr("Sites: spinel"));
   EXPECT_THAT(human.out, HasSubstr("Ordered moment: 4 μB per formula unit"));
+  // Spinel counts without a spinel say why there is no estimate: Fe3Se4
+  // is the monoclinic Cr3S4 type (Hulliger, Structural Chemistry of
+  // Layer-Type Phases (1976), from memory).
+  CommandResult cr3s4 = Cli({"compound", "Fe3Se4"});
+  EXPECT_THAT(cr3s4.out, HasSubstr("Sites: not a spinel"));
+  EXPECT_THAT(cr3s4.out, Not(HasSubstr("Ordered moment")));
   // A bad family name is a clear error in the report.
   CommandResult bad =
       Cli({"compound", "Fe3O4", "--structure-family", "wurtzite"});
