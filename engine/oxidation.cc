@@ -490,10 +490,9 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   bool heavy_halogen = false, fluorine = false, transition_metal = false;
   for (const ElementPlan& p : plans) {
     const int z = p.element->atomic_number;
-    heavy_halogen |= z == 17 || z == 35 || z == 53;
+    heavy_halogen |= IsHeavyHalogen(z);
     fluorine |= z == 9;
-    transition_metal |= p.element->block == Block::kD &&
-                        p.element->group >= 3 && p.element->group <= 12;
+    transition_metal |= IsTransitionMetal(*p.element);
     chalcogen |= IsHeavyChalcogen(z);
     hard_anion |= z == 7 || z == 8 || z == 9 || z == 17;
     cluster_former |= IsClusterFormer(*p.element);
@@ -532,7 +531,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     Rational halogen(0), oxygen(0);
     for (const ElementPlan& p : plans) {
       const int z = p.element->atomic_number;
-      if (z == 17 || z == 35 || z == 53) halogen = halogen + p.count;
+      if (IsHeavyHalogen(z)) halogen = halogen + p.count;
       if (z == 8) oxygen = oxygen + p.count;
     }
     halide_only = !oxygen.IsZero() && oxygen < halogen * Rational(3);
@@ -564,8 +563,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       p.table_options = NonPositivePrefix(p.table_options);
       p.table_common_options = NonPositivePrefix(p.table_common_options);
     }
-    if ((hydride_ligand && z == 1) ||
-        (halide_only && (z == 17 || z == 35 || z == 53))) {
+    if ((hydride_ligand && z == 1) || (halide_only && IsHeavyHalogen(z))) {
       p.custom = true;
       const StateOption o =
           internal::MakeStateOption(*p.element, 0, -1, -1, true, true);
