@@ -516,8 +516,37 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       }
     }
   }
-  bool oxide = false;
-  for (const ElementPlan& p : plans) oxide |= p.element->atomic_number == 8;
+  bool oxide = false, lithium = false, nickel = false;
+  for (const ElementPlan& p : plans) {
+    const int z = p.element->atomic_number;
+    oxide |= z == 8;
+    lithium |= z == 3;
+    nickel |= z == 28;
+  }
+  // Lithium nickel oxides with as many cations as oxygen atoms, the layered
+  // LiMO2 cathodes (LiNi0.8Co0.1Mn0.1O2, Li1.2Ni0.2Mn0.6O2) and rock-salt
+  // LixNi1-xO: Ni(II)/Ni(III) is their native mixed valence, beside Co(III)
+  // and Mn(IV) (Ohzuku and Makimura, Chem. Lett. 30 (2001) 642; Noh et al.,
+  // J. Power Sources 233 (2013) 121; Verwey et al., Philips Res. Rep. 5
+  // (1950) 173 for LixNi1-xO; from memory). The Ni mix costs no spread
+  // there, so that a minor Co does not become Co(II) beside Ni(III) to
+  // spare the Ni mix: NMC811 is Ni(II)/Ni(III) with Co(III), not Ni(III)
+  // with Co(II).
+  bool nickel_mix_free = false;
+  if (oxide && lithium && nickel && !fluorine) {
+    Rational cations(0), oxygen(0);
+    bool metals_only = true;
+    for (const ElementPlan& p : plans) {
+      if (p.element->atomic_number == 8) {
+        oxygen = p.count;
+      } else if (IsMetal(*p.element)) {
+        cations = cations + p.count;
+      } else {
+        metals_only = false;
+      }
+    }
+    nickel_mix_free = metals_only && cations == oxygen;
+  }
   // Free Cl, Br and I beside a free transition metal and free oxygen, with
   // no fluorine and fewer than three oxygen atoms per halogen atom, are
   // halide (metal-rich records with no oxygen keep their readings): a
@@ -587,15 +616,16 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     // (docs/method.md).
     const int inert_pair =
         clusters && IsInertPairMetal(*p.element) ? p.element->group - 12 : 0;
+    const bool nickel_mix = nickel_mix_free && z == 28;
     if (!zero && limit < 0 && !polyanion && !listed && !cluster &&
-        inert_pair == 0) {
+        inert_pair == 0 && !nickel_mix) {
       continue;
     }
     p.custom = true;
     bool zero_added = !zero;
-    auto add = [&p, limit, listed, anions, zero, cluster, nitrosyl, inert_pair](
-                   int low, int high, bool low_common, bool high_common,
-                   bool needs_oxide = false) {
+    auto add = [&p, limit, listed, anions, zero, cluster, nitrosyl, inert_pair,
+                nickel_mix](int low, int high, bool low_common,
+                            bool high_common, bool needs_oxide = false) {
       if (cluster) {
         // +1 in a mix with +2 only: the mean of a reduced cluster (a lone
         // Mo(I) or W(I) halide is unknown).
@@ -657,6 +687,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
           o.high_natural[c] = o.low_extra_natural[c] = 0;
         }
       }
+      if (nickel_mix && low == 2 && high == 3) o.spread = 0;
       p.fixed_options.push_back(o);
       if (o.low_common && o.high_common) p.fixed_common_options.push_back(o);
     };
