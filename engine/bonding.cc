@@ -10,8 +10,7 @@ namespace {
 // Halogens and chalcogens: with any of them, formal states apply.
 bool IsAnionFormer(const Element& e) {
   const int z = e.atomic_number;
-  return z == 8 || z == 9 || z == 16 || z == 17 || z == 34 || z == 35 ||
-         z == 52 || z == 53;
+  return z == 8 || IsHeavyChalcogen(z) || IsHalogen(z);
 }
 
 bool IsAlkaliOrAlkalineEarth(const Element& e) {

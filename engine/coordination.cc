@@ -455,13 +455,12 @@ bool FourAnionTetrahedra(const OxidationAssignment& assignment,
     if (s.state < 0) {
       if (z == 8) {
         oxide = oxide + s.count;
-      } else if (z == 17 || z == 35 || z == 53) {
+      } else if (IsHeavyHalogen(z)) {
         halide = halide + s.count;
       } else {
         return false;
       }
-    } else if (s.element->block == Block::kD && s.element->group >= 3 &&
-               s.element->group <= 12) {
+    } else if (IsTransitionMetal(*s.element)) {
       metals = metals + s.count;
     } else {
       other = other + s.count;

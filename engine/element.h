@@ -101,6 +101,12 @@ constexpr bool IsHeavyChalcogen(int z) { return z == 16 || z == 34 || z == 52; }
 constexpr bool IsHalogen(int z) {
   return z == 9 || z == 17 || z == 35 || z == 53;
 }
+// Cl, Br and I: the halogens without fluorine.
+constexpr bool IsHeavyHalogen(int z) { return z == 17 || z == 35 || z == 53; }
+// Groups 3 to 12 of the d block (the transition metals with zinc's group).
+constexpr bool IsTransitionMetal(const Element& e) {
+  return e.block == Block::kD && e.group >= 3 && e.group <= 12;
+}
 
 }  // namespace shellwright
 

@@ -100,9 +100,6 @@ bool IsHeuslerZ(const Element& e) {
   return e.block == Block::kP && e.group >= 13 && e.group <= 15 &&
          e.period >= 3;
 }
-bool IsTransitionMetal(const Element& e) {
-  return e.block == Block::kD && e.group >= 3 && e.group <= 12;
-}
 
 MetallicMomentEstimate None(MetallicMomentEstimate e, std::string reason) {
   e.model = MomentModel::kNone;

@@ -523,14 +523,15 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   bool chalcogen = false, hard_anion = false, cluster_former = false;
   bool pnictogen = false, other_nonmetal = false;
   bool heavy_halogen = false, fluorine = false, transition_metal = false;
-  bool oxide = false;
+  bool oxide = false, lithium = false, nickel = false;
   for (const ElementPlan& p : plans) {
     const int z = p.element->atomic_number;
     oxide |= z == 8;
-    heavy_halogen |= z == 17 || z == 35 || z == 53;
+    lithium |= z == 3;
+    nickel |= z == 28;
+    heavy_halogen |= IsHeavyHalogen(z);
     fluorine |= z == 9;
-    transition_metal |= p.element->block == Block::kD &&
-                        p.element->group >= 3 && p.element->group <= 12;
+    transition_metal |= IsTransitionMetal(*p.element);
     chalcogen |= IsHeavyChalcogen(z);
     hard_anion |= z == 7 || z == 8 || z == 9 || z == 17;
     cluster_former |= IsClusterFormer(*p.element);
@@ -562,6 +563,30 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       }
     }
   }
+  // Lithium nickel oxides with as many cations as oxygen atoms, the layered
+  // LiMO2 cathodes (LiNi0.8Co0.1Mn0.1O2, Li1.2Ni0.2Mn0.6O2) and rock-salt
+  // LixNi1-xO: Ni(II)/Ni(III) is their native mixed valence, beside Co(III)
+  // and Mn(IV) (Ohzuku and Makimura, Chem. Lett. 30 (2001) 642; Noh et al.,
+  // J. Power Sources 233 (2013) 121; Verwey et al., Philips Res. Rep. 5
+  // (1950) 173 for LixNi1-xO; from memory). The Ni mix costs no spread
+  // there, so that a minor Co does not become Co(II) beside Ni(III) to
+  // spare the Ni mix: NMC811 is Ni(II)/Ni(III) with Co(III), not Ni(III)
+  // with Co(II).
+  bool nickel_mix_free = false;
+  if (oxide && lithium && nickel && !fluorine) {
+    Rational cations(0), oxygen(0);
+    bool metals_only = true;
+    for (const ElementPlan& p : plans) {
+      if (p.element->atomic_number == 8) {
+        oxygen = p.count;
+      } else if (IsMetal(*p.element)) {
+        cations = cations + p.count;
+      } else {
+        metals_only = false;
+      }
+    }
+    nickel_mix_free = metals_only && cations == oxygen;
+  }
   // Free Cl, Br and I beside a free transition metal and free oxygen, with
   // no fluorine and fewer than three oxygen atoms per halogen atom, are
   // halide (metal-rich records with no oxygen keep their readings): a
@@ -575,7 +600,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     Rational halogen(0), oxygen(0);
     for (const ElementPlan& p : plans) {
       const int z = p.element->atomic_number;
-      if (z == 17 || z == 35 || z == 53) halogen = halogen + p.count;
+      if (IsHeavyHalogen(z)) halogen = halogen + p.count;
       if (z == 8) oxygen = oxygen + p.count;
     }
     halide_only = !oxygen.IsZero() && oxygen < halogen * Rational(3);
@@ -598,7 +623,8 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   // preferences, clusters): most records have none, and their elements
   // keep their tables.
   const bool any_custom = pi_acceptor || cyanide || soft_only ||
-                          pnictide_only || zintl || own_rows || clusters;
+                          chalcogen_pairs || pnictide_only || zintl ||
+                          own_rows || clusters || nickel_mix_free;
   for (ElementPlan& p : plans) {
     p.no_hydride = carbon_or_nitrogen;
     p.oxide = oxide;
@@ -613,8 +639,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       p.table_options = NonPositivePrefix(p.table_options);
       p.table_common_options = NonPositivePrefix(p.table_common_options);
     }
-    if ((hydride_ligand && z == 1) ||
-        (halide_only && (z == 17 || z == 35 || z == 53))) {
+    if ((hydride_ligand && z == 1) || (halide_only && IsHeavyHalogen(z))) {
       p.custom = true;
       const StateOption o =
           internal::MakeStateOption(*p.element, 0, -1, -1, true, true);
@@ -650,8 +675,9 @@ bool MakePlans(const Formula& formula, const Rational& scale,
         (soft_only || chalcogen_pairs) && p.element->block == Block::kD
             ? internal::ChalcogenideMaxState(*p.element)
             : -1;
+    const bool nickel_mix = nickel_mix_free && z == 28;
     if (!zero && limit < 0 && attested < 0 && !polyanion && !listed &&
-        !cluster && inert_pair == 0) {
+        !cluster && inert_pair == 0 && !nickel_mix) {
       continue;
     }
     p.custom = true;
@@ -660,9 +686,9 @@ bool MakePlans(const Formula& formula, const Rational& scale,
                                 p.element->period >= 5 &&
                                 p.element->group >= 8 && p.element->group <= 10;
     auto add = [&p, limit, listed, anions, zero, cluster, nitrosyl, inert_pair,
-                attested, platinum_metal](int low, int high, bool low_common,
-                                          bool high_common,
-                                          bool needs_oxide = false) {
+                attested, platinum_metal,
+                nickel_mix](int low, int high, bool low_common,
+                            bool high_common, bool needs_oxide = false) {
       if (cluster) {
         // +1 in a mix with +2 only: the mean of a reduced cluster (a lone
         // Mo(I) or W(I) halide is unknown).
@@ -737,6 +763,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
           o.high_natural[c] = o.low_extra_natural[c] = 0;
         }
       }
+      if (nickel_mix && low == 2 && high == 3) o.spread = 0;
       p.fixed_options.push_back(o);
       if (o.low_common && o.high_common) p.fixed_common_options.push_back(o);
     };

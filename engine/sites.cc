@@ -35,9 +35,15 @@ constexpr int kZNickel = 28;
 constexpr int kZCopper = 29;
 constexpr int kZGermanium = 32;
 constexpr int kZSelenium = 34;
-constexpr int kZTellurium = 52;
+constexpr int kZStrontium = 38;
+constexpr int kZYttrium = 39;
+constexpr int kZRuthenium = 44;
 constexpr int kZCadmium = 48;
+constexpr int kZTellurium = 52;
+constexpr int kZGadolinium = 64;
+constexpr int kZLutetium = 71;
 constexpr int kZMercury = 80;
+constexpr int kZBismuth = 83;
 
 // Counts are rationals; placements stop (no family) rather than risk
 // overflow when a formula is too finely divided for them.
@@ -1007,6 +1013,37 @@ bool FerromagneticChromiumSpinel(const SitePlacement& p,
   return chromium;
 }
 
+// An oxide spinel with no moment on the tetrahedral A site and Ni2+ beside
+// Mn4+ on B, as the 1:3 ordered LiNi0.5Mn1.5O4 (Li2NiMn3O8): Ni and Mn
+// order antiparallel, a ferrimagnet below about 130 K (Blasse, J. Phys.
+// Chem. Solids 27 (1966) 383, and the cathode literature since, from
+// memory). Returns the B-site moments of Mn and of Ni, or nullopt.
+std::optional<std::pair<double, double>> NickelManganeseSpinel(
+    const SitePlacement& p, absl::Span<const double> moments) {
+  if (p.family != StructureFamily::kSpinel || p.anion_z != kZOxygen) {
+    return std::nullopt;
+  }
+  size_t next = 0;
+  double manganese = 0, nickel = 0;
+  for (const Site& s : p.sites) {
+    for (const SiteOccupant& o : s.occupants) {
+      const double m = o.count.ToDouble() * moments[next++];
+      if (m < kNoMoment) continue;
+      const int z = o.element->atomic_number;
+      if (s.direction < 0) return std::nullopt;  // A moment on A.
+      if (z == kZManganese && o.state == 4) {
+        manganese += m;
+      } else if (z == kZNickel && o.state == 2) {
+        nickel += m;
+      } else {
+        return std::nullopt;
+      }
+    }
+  }
+  if (manganese < kNoMoment || nickel < kNoMoment) return std::nullopt;
+  return std::make_pair(manganese, nickel);
+}
+
 // The family rules below fill the note only when `describe` is true: the
 // corners of a range need the number alone.
 SublatticeMoment TwoSided(const SitePlacement& p,
@@ -1035,6 +1072,21 @@ SublatticeMoment TwoSided(const SitePlacement& p,
         " μB per formula unit at 0 K; the Zn compounds and the oxides order "
         "antiferromagnetically");
     return r;
+  }
+  if (one_side_empty) {
+    if (const auto ni_mn = NickelManganeseSpinel(p, moments)) {
+      r.saturation = std::abs(ni_mn->first - ni_mn->second);
+      if (!describe) return r;
+      r.note = absl::StrCat(
+          "oxide spinel with Ni2+ and Mn4+ on the octahedral site and no "
+          "moment on the tetrahedral one (LiNi0.5Mn1.5O4): Ni orders "
+          "antiparallel to Mn, a ferrimagnet (Blasse, J. Phys. Chem. Solids "
+          "27 (1966) 383, from memory): |",
+          Mu(ni_mn->first), " − ", Mu(ni_mn->second), "| = ", Mu(r.saturation),
+          " μB per formula unit at 0 K; Ni/Mn disorder and Mn3+ lower real "
+          "samples' moments");
+      return r;
+    }
   }
   r.saturation = one_side_empty ? 0 : std::abs(up - down);
   if (!describe) return r;
@@ -1191,6 +1243,51 @@ std::optional<SublatticeMoment> DoublePerovskite(
   return std::nullopt;
 }
 
+// Perovskites with one magnetic B ion in one state that order
+// ferromagnetically, against the antiferromagnetic 180° superexchange
+// rule; every A-site occupant must be one of the listed A cations:
+//   - Ti3+ with the small A cations Y and Gd to Lu: the Ti sublattice
+//     orders ferromagnetically by orbital order (YTiO3 0.84 μB per Ti,
+//     Tc 30 K), while LaTiO3 to SmTiO3 are antiferromagnets (Greedan,
+//     J. Less-Common Met. 111 (1985) 335, from memory);
+//   - Mn3+ with Bi: BiMnO3, 3.6 μB per Mn, Tc 105 K (Sugawara et al.,
+//     J. Phys. Soc. Jpn. 25 (1968) 1553, from memory), while LaMnO3 is an
+//     A-type antiferromagnet;
+//   - Ru4+ with Sr: SrRuO3, an itinerant ferromagnet of about 1.1-1.6 μB
+//     per Ru, Tc 160 K (Callaghan, Moeller and Ward, Inorg. Chem. 5 (1966)
+//     1572, from memory), while CaRuO3 does not order;
+//   - Co4+ with Sr: SrCoO3, about 2.5 μB per Co, Tc 305 K (Long et al.,
+//     J. Phys.: Condens. Matter 23 (2011) 245601, from memory).
+// Returns the reference compound's name, or nullptr.
+const char* FerromagneticPerovskite(const Site& a_site, const Element& b,
+                                    int state) {
+  const int z = b.atomic_number;
+  const auto every_a = [&a_site](auto fits) {
+    for (const SiteOccupant& o : a_site.occupants) {
+      if (!fits(o.element->atomic_number)) return false;
+    }
+    return !a_site.occupants.empty();
+  };
+  if (z == kZTitanium && state == 3 && every_a([](int a) {
+        return a == kZYttrium || (a >= kZGadolinium && a <= kZLutetium);
+      })) {
+    return "YTiO3";
+  }
+  if (z == kZManganese && state == 3 &&
+      every_a([](int a) { return a == kZBismuth; })) {
+    return "BiMnO3";
+  }
+  if (z == kZRuthenium && state == 4 &&
+      every_a([](int a) { return a == kZStrontium; })) {
+    return "SrRuO3";
+  }
+  if (z == kZCobalt && state == 4 &&
+      every_a([](int a) { return a == kZStrontium; })) {
+    return "SrCoO3";
+  }
+  return nullptr;
+}
+
 SublatticeMoment Perovskite(const SitePlacement& p,
                             absl::Span<const double> moments, bool describe) {
   const Site& a_site = p.sites[0];
@@ -1227,14 +1324,31 @@ SublatticeMoment Perovskite(const SitePlacement& p,
     return r;
   }
   if (states == 1) {
+    for (const SiteOccupant& o : b.occupants) {
+      if (o.element != magnetic) continue;
+      if (const char* like =
+              FerromagneticPerovskite(a_site, *magnetic, o.state)) {
+        r.saturation = total;
+        if (!describe) return r;
+        r.note = absl::StrCat(
+            "perovskite: ", magnetic->symbol, o.state, "+ on the B site with ",
+            "these A cations orders ferromagnetically, as ", like,
+            ", against the 180° superexchange rule (see docs/method.md for "
+            "the sources): ",
+            Mu(total),
+            " μB per formula unit at 0 K from the ion's spin-only moment; "
+            "measured moments are smaller (YTiO3 0.84, SrRuO3 about 1.1-1.6 "
+            "μB per B ion) or follow another spin state (SrCoO3 about 2.5); "
+            "A-site moments are left out");
+        return r;
+      }
+    }
     if (!describe) return r;
     r.note = absl::StrCat(
         "perovskite: one magnetic B ion (", magnetic->symbol,
         " in one state) orders antiferromagnetically by 180° superexchange "
         "(Goodenough–Kanamori rules): net 0; canting gives the orthoferrites "
-        "a weak moment (about 0.05 μB), and BiMnO3, YTiO3, SrRuO3 and SrCoO3 "
-        "are ferromagnets that this rule misses; A-site moments are left "
-        "out");
+        "a weak moment (about 0.05 μB); A-site moments are left out");
     return r;
   }
   r.saturation = total;

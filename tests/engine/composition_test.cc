@@ -618,6 +618,22 @@ TEST(Composition, OxygenDeficientPerovskitesAreHighSpin) {
   }
 }
 
+// Expects a valid report whose d-block ions are all itinerant with no
+// moment, and at least one of them; returns them for further checks.
+std::vector<const IonAnnotation*> ExpectItinerantDIons(
+    const std::string& formula, const CompositionReport& r) {
+  EXPECT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+  std::vector<const IonAnnotation*> metals;
+  for (const IonAnnotation& ion : r.ions) {
+    if (ion.element->block != Block::kD) continue;
+    metals.push_back(&ion);
+    EXPECT_EQ(ion.spin_basis, SpinBasis::kItinerant) << formula;
+    EXPECT_EQ(ion.moment, 0) << formula;
+  }
+  EXPECT_FALSE(metals.empty()) << formula;
+  return metals;
+}
+
 // The layered pnictides: Fe, Co, Ni and Cr in FeAs4-type tetrahedra are
 // itinerant (BaFe2As2 orders with about 0.9 uB per Fe, LaFeAsO about 0.4;
 // BaNi2As2 is a Pauli paramagnet), while Mn(II) keeps its high-spin local
@@ -627,19 +643,12 @@ TEST(Composition, LayeredPnictideMetalsAreItinerantExceptManganese) {
   for (const char* formula :
        {"BaFe2As2", "LaFeAsO", "LiFeAs", "BaNi2As2", "BaCo2As2"}) {
     CompositionReport r = Analyze(formula);
-    EXPECT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
-    bool metal = false;
-    for (const IonAnnotation& ion : r.ions) {
-      if (ion.element->block != Block::kD) continue;
-      metal = true;
-      EXPECT_EQ(ion.spin_basis, SpinBasis::kItinerant) << formula;
-      EXPECT_TRUE(ion.bonded) << formula;
-      EXPECT_EQ(ion.moment, 0) << formula;
-      EXPECT_EQ(ion.description->ligand_field->splitting.geometry,
+    for (const IonAnnotation* ion : ExpectItinerantDIons(formula, r)) {
+      EXPECT_TRUE(ion->bonded) << formula;
+      EXPECT_EQ(ion->description->ligand_field->splitting.geometry,
                 Geometry::kTetrahedral)
           << formula;
     }
-    EXPECT_TRUE(metal) << formula;
   }
   CompositionReport r = Analyze("BaMn2As2");
   ASSERT_TRUE(r.valid) << DiagnosticsText(r);
@@ -664,16 +673,9 @@ TEST(Composition, LayeredPnictideMetalsAreItinerantExceptManganese) {
 TEST(Composition, GroupFiveDichalcogenideLayersAreItinerant) {
   for (const char* formula : {"NbSe2", "NbS2", "TaS2", "TaSe2", "VSe2"}) {
     CompositionReport r = Analyze(formula);
-    EXPECT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
-    bool metal = false;
-    for (const IonAnnotation& ion : r.ions) {
-      if (ion.element->block != Block::kD) continue;
-      metal = true;
-      EXPECT_EQ(ion.state, 4) << formula;
-      EXPECT_EQ(ion.spin_basis, SpinBasis::kItinerant) << formula;
-      EXPECT_EQ(ion.moment, 0) << formula;
+    for (const IonAnnotation* ion : ExpectItinerantDIons(formula, r)) {
+      EXPECT_EQ(ion->state, 4) << formula;
     }
-    EXPECT_TRUE(metal) << formula;
   }
   for (const char* formula : {"MoS2", "WSe2"}) {
     CompositionReport r = Analyze(formula);

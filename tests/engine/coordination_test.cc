@@ -571,6 +571,47 @@ TEST(Coordination, FragmentsAreReadFromWrittenGroupsOnly) {
   EXPECT_TRUE(mecl.units.empty());
 }
 
+TEST(Coordination, QuaternaryAmmoniumCountersHoldNitrogenMinusThree) {
+  // NMe4+, NEt4+ and NBu4+: N takes the N-C bond electrons, N-3 as in
+  // NH4+, the carbon bonded to N one step up from the alkyl's (ionic
+  // approximation: Karen, McArdle and Takats, Pure Appl. Chem. 88 (2016)
+  // 831, applied by hand); without the units the alkyl groups read as
+  // carbanions and N as N+5. The anion's metal is untouched:
+  // (NEt4)2[NiCl4] holds tetrahedral Ni(II), 2 unpaired (Greenwood and
+  // Earnshaw, Chemistry of the Elements, 2nd ed., ch. 27, from memory).
+  const struct {
+    const char* formula;
+    const char* unit;
+  } kCases[] = {{"[N(CH3)4]Cl", "tetramethylammonium"},
+                {"(NMe4)Cl", "tetramethylammonium"},
+                {"(NEt4)2[NiCl4]", "tetraethylammonium"},
+                {"(NBu4)PF6", "tetrabutylammonium"}};
+  for (const auto& c : kCases) {
+    SCOPED_TRACE(c.formula);
+    CompositionInput in;
+    in.formula = c.formula;
+    const CompositionReport r = AnalyzeComposition(in);
+    ASSERT_TRUE(r.valid);
+    bool found = false;
+    for (const auto& u : r.units) found |= u.unit->name == c.unit;
+    EXPECT_TRUE(found);
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->symbol == "N") EXPECT_EQ(ion.state, -3);
+      if (ion.element->symbol == "Ni") {
+        EXPECT_EQ(ion.state, 2);
+        EXPECT_EQ(ion.description->unpaired_electrons, 2);
+      }
+    }
+  }
+  // n-Butyllithium: Bu is the n-butyl carbanion beside Li(I).
+  CompositionInput in;
+  in.formula = "BuLi";
+  const CompositionReport r = AnalyzeComposition(in);
+  ASSERT_TRUE(r.valid);
+  ASSERT_EQ(r.units.size(), 1u);
+  EXPECT_EQ(r.units[0].unit->name, "butyl");
+}
+
 // A record's EnvironmentCache, shared by all its ions and both sides of
 // its complexes in turn, gives every ion the environment a call without
 // it gives: formulas with and without complexes, Prussian blue (an

@@ -766,6 +766,7 @@ constexpr AbbreviationCase kAbbreviations[] = {
     // 3rd ed., from memory; formulas worked out from the structures).
     {"Me", "CH3"},
     {"Et", "C2H5"},
+    {"Bu", "C4H9"},
     {"Ph", "C6H5"},
     {"Cy", "C6H11"},
     {"dppe", "C26H24P2"},
