@@ -837,6 +837,13 @@ const FamilySpec* SpecOf(FamilyChoice choice) {
 // 620; Wells, Structural Inorganic Chemistry, 5th ed.; all from memory).
 // Returns false, touching nothing, for any other composition.
 bool IsDefectNiAsChalcogenide(const OxidationAssignment& a, std::string* note) {
+  // Most records hold no S, Se or Te: they leave before any count is summed.
+  bool chalcogen = false;
+  for (const AssignedState& s : a.states) {
+    const int z = s.element->atomic_number;
+    chalcogen |= z == kZSulfur || z == kZSelenium || z == kZTellurium;
+  }
+  if (!chalcogen) return false;
   int anion_z = 0;
   Rational anions, cations, fit;
   bool early = false;  // Ti or V among the cations.
