@@ -732,7 +732,9 @@ void Annotate(const Formula& formula, const ElementSettings& settings,
 // Néel's collinear model (engine/sites.h): each occupant's ordered moment
 // at its nominal value and at the ends of its range, the range taken over
 // the corners that raise one sublattice and lower the other.
-void ApplySublattices(const SitePlacement& placement, CompositionReport* r) {
+// Takes the placement's note into the report (it is not needed again).
+void ApplySublattices(SitePlacement* placed, CompositionReport* r) {
+  const SitePlacement& placement = *placed;
   // Inline room for the usual few occupants: no allocation per record.
   using Moments = absl::InlinedVector<double, 8>;
   Moments nominal, up_high, up_low;
@@ -752,10 +754,15 @@ void ApplySublattices(const SitePlacement& placement, CompositionReport* r) {
       up_low.push_back(up ? found->ordered_low : found->ordered_high);
     }
   }
-  const SublatticeMoment m = NeelSaturation(placement, nominal);
-  r->structure_note = m.note.empty()
-                          ? placement.note
-                          : absl::StrCat(placement.note, "; ", m.note);
+  SublatticeMoment m = NeelSaturation(placement, nominal);
+  if (m.note.empty()) {
+    r->structure_note = std::move(placed->note);
+  } else {
+    // The model's note has room for the placement's before it (it reserves
+    // 256 bytes): no allocation for the usual pair.
+    m.note.insert(0, "; ").insert(0, placement.note);
+    r->structure_note = std::move(m.note);
+  }
   if (!m.determined) return;
   double low = m.saturation, high = m.saturation;
   // Where every ordered moment is exact (S-state ions), so is the sum.
@@ -1239,7 +1246,7 @@ CompositionReport Analyze(const CompositionInput& input) {
   Summarise(*formula, &r);
   if (placement.has_value()) {
     r.structure_family = Name(placement->family);
-    ApplySublattices(*placement, &r);
+    ApplySublattices(&*placement, &r);
   } else if (r.kind == CompositionKind::kIonic &&
              family == FamilyChoice::kAuto) {
     // The Cr3S4 type: spinel counts, no spinel (engine/sites.h), so no
