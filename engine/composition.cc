@@ -1227,10 +1227,13 @@ CompositionReport Analyze(const CompositionInput& input) {
     }
   }
 
-  std::optional<SitePlacement> placement;
+  // Made in place, not moved from a temporary.
+  std::string why_not;
+  std::optional<SitePlacement> placement =
+      r.kind == CompositionKind::kIonic
+          ? PlaceIons(*formula, *r.assignment, family, &why_not)
+          : std::nullopt;
   if (r.kind == CompositionKind::kIonic) {
-    std::string why_not;
-    placement = PlaceIons(*formula, *r.assignment, family, &why_not);
     if (!why_not.empty()) {
       Add(&r, Severity::kWarning, codes::kStructureFamilyNotMatched,
           absl::StrCat("structure_family ", Name(family),
