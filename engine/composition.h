@@ -235,7 +235,10 @@ struct CompositionReport {
   // none, and how the placement was decided.
   absl::string_view structure_family;
   std::string structure_note;
-  // How the metallic model reached its figure, or why there is none.
+  // How the metallic model reached its figure, or why there is none. A
+  // local-moment report leaves it empty, except for a note on a saturation
+  // moment outside the sublattice model (4f7 ions: rare_earth_4f) or on
+  // why no sublattice model applies (the Cr3S4 type).
   std::string moment_note;
   // Z_t: total valence electrons per formula unit.
   double total_valence_electrons = 0;
