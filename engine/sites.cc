@@ -26,6 +26,7 @@ constexpr int kZOxygen = 8;
 constexpr int kZFluorine = 9;
 constexpr int kZSilicon = 14;
 constexpr int kZSulfur = 16;
+constexpr int kZCalcium = 20;
 constexpr int kZTitanium = 22;
 constexpr int kZVanadium = 23;
 constexpr int kZChromium = 24;
@@ -1260,9 +1261,12 @@ std::optional<SublatticeMoment> DoublePerovskite(
 //   - Mn3+ with Bi: BiMnO3, 3.6 μB per Mn, Tc 105 K (Sugawara et al.,
 //     J. Phys. Soc. Jpn. 25 (1968) 1553, from memory), while LaMnO3 is an
 //     A-type antiferromagnet;
-//   - Ru4+ with Sr: SrRuO3, an itinerant ferromagnet of about 1.1-1.6 μB
-//     per Ru, Tc 160 K (Callaghan, Moeller and Ward, Inorg. Chem. 5 (1966)
-//     1572, from memory), while CaRuO3 does not order;
+//   - Ru4+ with Sr, or with Sr and Ca while Sr is at least 3/10 of the A
+//     site: SrRuO3, an itinerant ferromagnet of about 1.1-1.6 μB per Ru,
+//     Tc 160 K (Callaghan, Moeller and Ward, Inorg. Chem. 5 (1966) 1572,
+//     from memory), while CaRuO3 does not order; in Sr1-xCaxRuO3 the Curie
+//     temperature falls with x and the order is gone near x = 0.7 (Cao et
+//     al., Phys. Rev. B 56 (1997) 321, from memory);
 //   - Co4+ with Sr: SrCoO3, about 2.5 μB per Co, Tc 305 K (Long et al.,
 //     J. Phys.: Condens. Matter 23 (2011) 245601, from memory).
 // Returns the reference compound's name, or nullptr.
@@ -1285,8 +1289,14 @@ const char* FerromagneticPerovskite(const Site& a_site, const Element& b,
     return "BiMnO3";
   }
   if (z == kZRuthenium && state == 4 &&
-      every_a([](int a) { return a == kZStrontium; })) {
-    return "SrRuO3";
+      every_a([](int a) { return a == kZStrontium || a == kZCalcium; })) {
+    Rational sr(0), all(0);
+    for (const SiteOccupant& o : a_site.occupants) {
+      all = all + o.count;
+      if (o.element->atomic_number == kZStrontium) sr = sr + o.count;
+    }
+    // Sr / all >= 3/10.
+    if (!(sr * Rational(10) < all * Rational(3))) return "SrRuO3";
   }
   if (z == kZCobalt && state == 4 &&
       every_a([](int a) { return a == kZStrontium; })) {

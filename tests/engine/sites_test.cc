@@ -547,6 +547,12 @@ TEST(Sites, PerovskiteFerromagnetsWithOneBIon) {
   // Low-spin d4 gives 2 (tolerance 0.5, an itinerant moment).
   EXPECT_NEAR(Moment("SrRuO3"), 1.6, 0.5);
   EXPECT_EQ(Moment("CaRuO3"), 0);
+  // Sr1-xCaxRuO3: the Curie temperature falls with x and ferromagnetism is
+  // gone near x = 0.7 (Cao et al., Phys. Rev. B 56 (1997) 321, from
+  // memory).
+  EXPECT_NEAR(Moment("Sr0.5Ca0.5RuO3"), 1.6, 0.5);
+  EXPECT_NEAR(Moment("Sr0.7Ca0.3RuO3"), 1.6, 0.5);
+  EXPECT_EQ(Moment("Sr0.2Ca0.8RuO3"), 0);
   // SrCoO3 is a ferromagnet (Long et al., J. Phys.: Condens. Matter 23
   // (2011) 245601, from memory); its moment follows a spin state the tool
   // does not know, so only the sign of the order is checked.
