@@ -307,13 +307,18 @@ bool InPnictideTetrahedra(const OxidationAssignment& assignment,
 // two chalcogenide anions per metal atom (the Re4 clusters of ReS2, ReSe2
 // and TcS2). No other transition metal of groups 3 to 10 may be present,
 // but for the 3d M(II) of the M2Mo3O8 oxides (Fe2Mo3O8) and of the
-// Chevrel phases (Ni2Mo6S8).
+// Chevrel phases (Ni2Mo6S8). Cationic units are counter-ions and are
+// left out: (NH4)2[Mo6Cl14] and (NBu4)2[Mo6Cl14] hold the diamagnetic
+// [Mo6Cl14]2- cluster anion of K2Mo6Cl14 (Greenwood and Earnshaw,
+// Chemistry of the Elements, 2nd ed., ch. 23, from memory).
 bool PairsInMetalClusters(const OxidationAssignment& assignment,
                           const AssignedState& ion, int d) {
   const Element& e = *ion.element;
-  if (!IsClusterFormer(e) || d < 1 || ion.state < 1 || ion.state > 4 ||
-      !assignment.units.empty()) {
+  if (!IsClusterFormer(e) || d < 1 || ion.state < 1 || ion.state > 4) {
     return false;
+  }
+  for (const AssignedUnit& u : assignment.units) {
+    if (u.unit->charge <= 0) return false;
   }
   Rational anions(0), metal(0);
   bool oxide = false, chalcogen = false, halide = false;
@@ -321,6 +326,7 @@ bool PairsInMetalClusters(const OxidationAssignment& assignment,
   // group 3 M(III), which hold no electrons for the cluster.
   bool other_metal = false, other_closed = true;
   for (const AssignedState& s : assignment.states) {
+    if (s.unit >= 0) continue;  // A counter-ion's atoms.
     const int z = s.element->atomic_number;
     if (s.element == &e) {
       metal = metal + s.count;
@@ -642,10 +648,13 @@ IonEnvironment FindEnvironment(const Formula& formula,
   }
 
   // Low-valent 4d and 5d clusters and metal pairs, and the pnictide
-  // chains of loellingite and arsenopyrite: no local moment.
-  if (geometry_set == nullptr && spin_set == nullptr && complex < 0 &&
+  // chains of loellingite and arsenopyrite: no local moment. A written
+  // complex that holds more than one atom of the metal is a cluster anion
+  // ([Mo6Cl14]2-, [Re3Cl12]3-), not a mononuclear complex.
+  if (geometry_set == nullptr && spin_set == nullptr &&
+      (complex < 0 || Rational(1) < AtomsInside(formula, &e, complex)) &&
       (PairsInMetalClusters(assignment, ion, d) ||
-       PairsAlongPnictideChains(assignment, ion, d))) {
+       (complex < 0 && PairsAlongPnictideChains(assignment, ion, d)))) {
     env.geometry = Geometry::kOctahedral;
     env.spin_state = SpinStatePreference::kLow;
     env.basis = SpinBasis::kMetalMetalBond;

@@ -340,6 +340,19 @@ ABSL_ATTRIBUTE_NOINLINE bool HoldsMetalClusters(const Plans& plans) {
   return !(metal * Rational(3) < anion);
 }
 
+// Whether every unit of `reading` is a cation (ammonium, the
+// tetraalkylammonium ions): counter-ions of a cluster anion, which leave
+// the cluster's states alone ((NH4)2[Mo6Cl14] holds the same [Mo6Cl8]4+
+// core as K2Mo6Cl14). True for no unit.
+bool OnlyCationicUnits(const Reading& reading) {
+  for (const UnitMatch* m : reading) {
+    for (const Unit* u : m->units) {
+      if (u->charge <= 0) return false;
+    }
+  }
+  return true;
+}
+
 // The heavy p-block metals of groups 13 and 14 with a stable inert-pair
 // state (In, Tl, Sn, Pb).
 bool IsInertPairMetal(const Element& e) {
@@ -552,7 +565,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   }
   const bool pnictide_only = pnictogen && !other_nonmetal && !zintl;
   const bool clusters =
-      cluster_former && reading.empty() && HoldsMetalClusters(plans);
+      cluster_former && OnlyCationicUnits(reading) && HoldsMetalClusters(plans);
   // Every cation an alkali metal (for the Zintl clusters below); only a
   // Zintl reading asks, so other records skip the loop.
   bool alkali_only = zintl;

@@ -731,6 +731,48 @@ TEST(Composition, LowValentHeavyMetalClustersPairTheirElectrons) {
   EXPECT_EQ(r.unpaired_per_formula_unit, 3);
 }
 
+// A cluster written as a complex anion, with metal or cationic-unit
+// counter-ions, is the same cluster: K2[Mo6Cl14], (NH4)2[Mo6Cl14] and
+// (NBu4)2[Mo6Cl14] hold the diamagnetic [Mo6Cl8]4+ core of MoCl2,
+// Cs3[Re3Cl12] the Re3 triangle of ReCl3, and K4[Mo2Cl8] the quadruply
+// bonded Mo2 pair (Greenwood and Earnshaw, Chemistry of the Elements, 2nd
+// ed., chs. 23 and 24; Cotton, Murillo and Walton, Multiple Bonds between
+// Metal Atoms, 3rd ed.; from memory). A mononuclear complex is not a
+// cluster: [MoCl6]3- keeps three unpaired electrons, whatever its
+// counter-ion (Figgis and Lewis, magnetochemistry tables, from memory).
+TEST(Composition, ClusterAnionsWithCounterIonsPairTheirElectrons) {
+  for (const char* formula :
+       {"K2[Mo6Cl14]", "(NH4)2[Mo6Cl14]", "(NBu4)2[Mo6Cl14]", "Cs3[Re3Cl12]",
+        "K4[Mo2Cl8]"}) {
+    SCOPED_TRACE(formula);
+    const CompositionReport r = Analyze(formula);
+    ASSERT_TRUE(r.valid) << DiagnosticsText(r);
+    int cluster_ions = 0;
+    for (const IonAnnotation& ion : r.ions) {
+      if (ion.element->block != Block::kD) continue;
+      ++cluster_ions;
+      EXPECT_EQ(ion.spin_basis, SpinBasis::kMetalMetalBond)
+          << ion.element->symbol << ion.state;
+      EXPECT_EQ(ion.moment, 0);
+    }
+    EXPECT_GT(cluster_ions, 0);
+    EXPECT_EQ(r.unpaired_per_formula_unit, 0);
+  }
+  // The +2 of the [Mo6Cl8]4+ core is its usual state beside ammonium as
+  // beside potassium: no warning.
+  for (const char* formula : {"(NH4)2[Mo6Cl14]", "(NBu4)2[Mo6Cl14]"}) {
+    for (const Diagnostic& d : Analyze(formula).diagnostics) {
+      EXPECT_NE(d.code, "uncommon_oxidation_state")
+          << formula << ": " << d.message;
+    }
+  }
+  for (const char* formula : {"K3[MoCl6]", "(NH4)3[MoCl6]"}) {
+    const CompositionReport r = Analyze(formula);
+    ASSERT_TRUE(r.valid) << formula << ": " << DiagnosticsText(r);
+    EXPECT_EQ(r.unpaired_per_formula_unit, 3) << formula;
+  }
+}
+
 // The report of `formula`, valid, whose d-block ions (at least one) are
 // all in `state`.
 CompositionReport ExpectOnlyDBlockIon(const char* formula, int state) {
