@@ -128,6 +128,34 @@ AtomCounts CountAtoms(const Formula& formula) {
   return n;
 }
 
+// Polyphosphides and polyarsenides of the d-block metals: P or As the
+// only non-metal, beside d-block metals only, with at least four pnictogen
+// atoms per metal atom of groups 3 to 10 (FeP4, OsP4, MnP4, CrP4) or two
+// per metal atom of groups 11 and 12 (CuP2, ZnP4, CdP4, Ag3P11). Their
+// pnictogen atoms bond to each other in chains, layers and cages, each
+// charged by the generalised 8 - N rule: FeP4 is low-spin Fe(II) with two
+// three-bonded P0 and two two-bonded P-1 per formula unit, CdP4 is Cd(II)
+// with the same (P4)2- framework, CuP2 is Cu(I) (von Schnering and Hoenle,
+// Chem. Rev. 88 (1988) 243; Jeitschko and Braun, Acta Crystallogr. B 34
+// (1978) 3196; from memory). The pyrite- and marcasite-type diphosphides
+// of groups 8 to 10 (FeP2, PtP2) and the skutterudites (CoP3) keep their
+// pair and ring anions.
+bool IsPolypnictide(const Formula& formula) {
+  Rational pnictogen(0), needed(0);
+  for (const ElementAmount& a : formula.amounts) {
+    const Element& e = *a.element;
+    const int z = e.atomic_number;
+    if (z == 15 || z == 33) {
+      pnictogen = pnictogen + a.count;
+    } else if (e.block == Block::kD && e.group >= 3 && e.group <= 12) {
+      needed = needed + a.count * Rational(e.group >= 11 ? 2 : 4);
+    } else {
+      return false;
+    }
+  }
+  return !pnictogen.IsZero() && !needed.IsZero() && !(pnictogen < needed);
+}
+
 // Layered transition-metal pnictides of the ThCr2Si2, CaAl2Si2 and
 // anti-PbFCl types: alkali, alkaline-earth or divalent rare-earth cations
 // with Cr, Mn, Fe, Co or Ni and P, As, Sb or Bi only, no more metal atoms
@@ -273,6 +301,13 @@ BondingClass ClassifyBonding(const Formula& formula) {
     c.rule =
         "an electropositive metal with transition-metal pnictide layers "
         "([Fe2As2]2- in BaFe2As2)";
+    return c;
+  }
+  if (IsPolypnictide(formula)) {
+    c.kind = CompositionKind::kZintl;
+    c.rule =
+        "a d-block metal with a pnictogen-rich polyanion (FeP4, CdP4): the "
+        "generalised 8-N rule";
     return c;
   }
   if (all_metal && IsAurideOrPlatinide(formula)) {

@@ -125,6 +125,18 @@ TEST(Bonding, ClassOfRealCompositions) {
       {"BaMn2Bi2", K::kZintl, "Kauzlarich 1996, from memory"},
       {"LaFe2P2", K::kIntermetallic, "Johrendt 2011, from memory"},
       {"CaCu2As2", K::kIntermetallic, "common practice, no source"},
+      // Polyphosphides of the d-block metals: P-P bonded frameworks
+      // charged by the generalised 8-N rule (von Schnering and Hoenle,
+      // Chem. Rev. 88 (1988) 243, from memory); the pyrite-type
+      // diphosphides and the skutterudites keep their pair and ring
+      // anions, read formally.
+      {"FeP4", K::kZintl, "von Schnering and Hoenle 1988, from memory"},
+      {"OsP4", K::kZintl, "von Schnering and Hoenle 1988, from memory"},
+      {"CdP4", K::kZintl, "von Schnering and Hoenle 1988, from memory"},
+      {"CuP2", K::kZintl, "von Schnering and Hoenle 1988, from memory"},
+      {"Ag3P11", K::kZintl, "von Schnering and Hoenle 1988, from memory"},
+      {"PtP2", K::kIonic, "Hulliger 1968, from memory"},
+      {"CoP3", K::kIonic, "common practice, no source"},
       // Metal-rich transition-metal chalcogenides hold metal-metal bonds
       // and are metallic; copper sulfides and the monosulfides stay ionic
       // (Vaughan and Craig, Mineral Chemistry of Metal Sulfides, 1978, from
