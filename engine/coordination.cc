@@ -805,10 +805,18 @@ IonEnvironment FindEnvironment(const Formula& formula,
     // half its sites: [Ni(CN)4]2-, and NiCl2(PEt3)2 and NiCl2(PMe3)2 beside
     // tetrahedral NiCl2(PPh3)2 and [NiCl4]2- (Greenwood and Earnshaw,
     // Chemistry of the Elements, 2nd ed., ch. 27, from memory).
+    // A 3d d7 ion, Co(II), is square planar and low spin among
+    // strong-field chelates: the cobaloximes Co(dmgH)2, Co(salen) and the
+    // cobalt(II) porphyrins and phthalocyanines, one unpaired electron
+    // (Figgis and Lewis, magnetochemistry tables; Greenwood and Earnshaw,
+    // Chemistry of the Elements, 2nd ed., ch. 26; from memory), while
+    // [CoCl4]2- and CoCl2(PPh3)2 are tetrahedral with three.
     const bool planar_d8 =
         n >= 4 || env.f >= kStrongFieldF || 2 * strong >= total - 0.01;
-    env.geometry = (d == 8 && planar_d8) || d == 9 ? Geometry::kSquarePlanar
-                                                   : Geometry::kTetrahedral;
+    const bool planar_d7 = n == 3 && env.f >= kStrongFieldF;
+    env.geometry = (d == 8 && planar_d8) || (d == 7 && planar_d7) || d == 9
+                       ? Geometry::kSquarePlanar
+                       : Geometry::kTetrahedral;
   } else if ((cn == 0 ? complex < 0 : cn < 3.99) && d == 8 &&
              (n >= 4 || e.atomic_number == 29) &&
              !(env.ligand != nullptr && env.ligand->anion != nullptr &&

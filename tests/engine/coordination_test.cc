@@ -307,6 +307,13 @@ TEST(Coordination, SolventAndChelateLigands) {
        "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
       {"Ni(Hdmg)2", "Ni", 2, Geometry::kSquarePlanar, 0,
        "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      // Bis(dimethylglyoximato)cobalt(II): square planar, low-spin d7,
+      // one unpaired electron, as the cobalt(II) porphyrins.
+      {"Co(dmg)2", "Co", 2, Geometry::kSquarePlanar, 1,
+       "Figgis and Lewis, magnetochemistry tables, from memory"},
+      // Beside weak-field chloride Co(II) stays tetrahedral with three.
+      {"CoCl2(PPh3)2", "Co", 2, Geometry::kTetrahedral, 3,
+       "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory"},
       {"[Co(dmg)2(py)Cl]", "Co", 3, Geometry::kOctahedral, 0,
        "Greenwood and Earnshaw, 2nd ed., ch. 26, from memory (a "
        "cobaloxime, low-spin Co(III))"},
