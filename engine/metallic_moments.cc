@@ -110,10 +110,77 @@ MetallicMomentEstimate None(MetallicMomentEstimate e, std::string reason) {
   return e;
 }
 
+// M = Z_t - offset per formula unit of the rule's, within min..max; `cz`
+// counts the formula's formula units of the Heusler compound (its Z atoms).
+MetallicMomentEstimate ApplyHeuslerRule(MetallicMomentEstimate e,
+                                        const Rational& cz, MomentModel model,
+                                        absl::string_view kind, int offset,
+                                        double max, double min = 0) {
+  const double zt = e.total_valence_electrons / cz.ToDouble();
+  const double m = zt - offset;
+  if (m < min || m > max) {
+    return None(e, absl::StrFormat("%s: Z_t - %d = %g lies outside the "
+                                   "rule's %g to %g μB; no estimate",
+                                   kind, offset, m, min, max));
+  }
+  e.model = model;
+  e.saturation = std::abs(m) * cz.ToDouble();
+  e.note = absl::StrFormat(
+      "%s (Slater-Pauling rule): M = Z_t - %d = %g - %d = %g μB per %s%s", kind,
+      offset, zt, offset, m, kind.substr(kind.rfind(' ') + 1),
+      m < 0 ? "; below 24 electrons the minority spin holds the moment: "
+              "a half-metallic ferrimagnet of |M| (Mn2VAl)"
+            : "");
+  return e;
+}
+
+// Quaternary and substituted Heusler compounds: four or more elements,
+// transition metals and Z atoms (groups 13 to 15) only, two or three
+// transition-metal atoms per Z atom. The rules hold with Z_t counted over
+// the whole formula unit: the LiMgPdSn-type quaternary XX'YZ (CoFeMnSi,
+// 4 μB by the rule, about 3.7 measured: Bainsla et al., Phys. Rev. B 91,
+// 104408 (2015); Oezdogan, Sasioglu and Galanakis, J. Appl. Phys. 113,
+// 193903 (2013); from memory) and the substitution series Co2Mn1-xFexSi,
+// from 5 to 6 μB with x (Balke et al., Phys. Rev. B 74, 104405 (2006), from
+// memory). The exceptions of the ternary rule stay out: a full site of the
+// Ni or Cu group, or of 4d and 5d metals beyond one site (Y).
+std::optional<MetallicMomentEstimate> EstimateMixedHeusler(
+    absl::Span<const ElementAmount> a, MetallicMomentEstimate e) {
+  Rational z(0), tm(0), late(0), heavy(0);
+  for (const ElementAmount& amount : a) {
+    const Element& el = *amount.element;
+    if (IsHeuslerZ(el)) {
+      z = z + amount.count;
+    } else if (IsTransitionMetal(el)) {
+      tm = tm + amount.count;
+      if (el.group == 10 || el.group == 11) late = late + amount.count;
+      if (el.period >= 5) heavy = heavy + amount.count;
+    } else {
+      return std::nullopt;
+    }
+  }
+  if (z.IsZero() || tm.IsZero()) return std::nullopt;
+  if (tm == z * Rational(2)) {
+    return ApplyHeuslerRule(std::move(e), z, MomentModel::kHalfHeusler,
+                            "half-Heusler XYZ", 18, kMaxHalfHeuslerMoment);
+  }
+  if (tm != z * Rational(3)) return std::nullopt;
+  if (!(late < z) || z < heavy) {
+    return None(e,
+                "full Heusler with a full site of the Ni or Cu group, or "
+                "4d and 5d metals beyond the Y site: outside M = Z_t - 24; "
+                "no estimate");
+  }
+  return ApplyHeuslerRule(std::move(e), z, MomentModel::kFullHeusler,
+                          "full Heusler XX'YZ", 24, kMaxFullHeuslerMoment,
+                          kMinFullHeuslerMoment);
+}
+
 // Heusler X2YZ (counts 2:1:1) or XYZ (1:1:1) with Z from groups 13 to 15
 // and X, Y transition metals; empty when the amounts are neither.
 std::optional<MetallicMomentEstimate> EstimateHeusler(
     absl::Span<const ElementAmount> a, MetallicMomentEstimate e) {
+  if (a.size() > 3) return EstimateMixedHeusler(a, std::move(e));
   if (a.size() != 3) return std::nullopt;
   int z = -1;
   for (int i = 0; i < 3; ++i) {
@@ -127,25 +194,9 @@ std::optional<MetallicMomentEstimate> EstimateHeusler(
   if (z < 0) return std::nullopt;
   const int p = (z + 1) % 3, q = (z + 2) % 3;
   const Rational& cz = a[z].count;
-  // M = Z_t - offset per formula unit of the rule's, within 0..max.
   auto apply = [&e, &cz](MomentModel model, absl::string_view kind, int offset,
                          double max, double min = 0) {
-    const double zt = e.total_valence_electrons / cz.ToDouble();
-    const double m = zt - offset;
-    if (m < min || m > max) {
-      return None(e, absl::StrFormat("%s: Z_t - %d = %g lies outside the "
-                                     "rule's %g to %g μB; no estimate",
-                                     kind, offset, m, min, max));
-    }
-    e.model = model;
-    e.saturation = std::abs(m) * cz.ToDouble();
-    e.note = absl::StrFormat(
-        "%s (Slater-Pauling rule): M = Z_t - %d = %g - %d = %g μB per %s%s",
-        kind, offset, zt, offset, m, kind.substr(kind.rfind(' ') + 1),
-        m < 0 ? "; below 24 electrons the minority spin holds the moment: "
-                "a half-metallic ferrimagnet of |M| (Mn2VAl)"
-              : "");
-    return e;
+    return ApplyHeuslerRule(e, cz, model, kind, offset, max, min);
   };
   if (a[p].count == cz && a[q].count == cz) {
     // Galanakis et al., Phys. Rev. B 66, 134428 (2002), from memory.

@@ -150,6 +150,27 @@ TEST(MetallicMoments, FullHeuslersWithFourDOrFiveDXAreOutsideTheRule) {
   ExpectMoment("Co2MnGe", MomentModel::kFullHeusler, 5.11, 0.15);
 }
 
+TEST(MetallicMoments, QuaternaryAndSubstitutedHeuslersKeepTheRule) {
+  // The LiMgPdSn-type quaternary CoFeMnSi: Z_t = 28, rule 4 uB, measured
+  // about 3.7 uB per formula unit (Bainsla et al., Phys. Rev. B 91, 104408
+  // (2015), from memory).
+  ExpectMoment("CoFeMnSi", MomentModel::kFullHeusler, 3.7, 0.35);
+  // Co2Mn1-xFexSi follows Z_t - 24 from 5 to 6 uB (Balke et al., Phys.
+  // Rev. B 74, 104405 (2006), from memory): x = 0.5, about 5.5.
+  ExpectMoment("Co2Mn0.5Fe0.5Si", MomentModel::kFullHeusler, 5.5, 0.15);
+  // Substitution on Z: Co2MnAl0.5Si0.5 between Co2MnAl (4.01) and Co2MnSi
+  // (5.07) (Webster, J. Phys. Chem. Solids 32, 1221 (1971), from memory,
+  // for the end members; the midpoint is the rule's).
+  ExpectMoment("Co2MnAl0.5Si0.5", MomentModel::kFullHeusler, 4.54, 0.15);
+  // Half-Heusler Ti0.5Zr0.5NiSn, 18 electrons, non-magnetic like TiNiSn
+  // (Graf, Felser and Parkin, Prog. Solid State Chem. 39, 1 (2011), from
+  // memory).
+  ExpectMoment("Ti0.5Zr0.5NiSn", MomentModel::kHalfHeusler, 0, 1e-12);
+  // A full site of Ni stays outside the rule, as Ni2MnGa does.
+  ExpectNone("NiCoMnSn", "Ni or Cu group");
+  ExpectNone("Ni1.5Co0.5MnGa", "Ni or Cu group");
+}
+
 TEST(MetallicMoments, FullHeuslersBelowTwentyFourAreFerrimagnets) {
   // Z_t = 22: the rule gives -2, a half-metallic ferrimagnet of 2 uB;
   // Mn2VAl measures about 1.9 uB per formula unit (Jiang, Venkatesan and
