@@ -807,6 +807,84 @@ void ApplyFourFSevenSaturation(CompositionReport* r) {
   }
 }
 
+// Chromium compounds that no structure family placed and whose exchange is
+// ferromagnetic, saturating at the spin-only ordered moment 2S per Cr:
+//   - the layered trihalides CrX3 (X = Cl, Br, I) and the tellurides
+//     CrSiTe3 and CrGeTe3 ((Si2Te6)6- and (Ge2Te6)6- units): edge-sharing
+//     Cr(III)X6 octahedra, whose 90° Cr-X-Cr superexchange between
+//     half-filled t2g shells orders each layer ferromagnetically
+//     (Goodenough-Kanamori rules; Goodenough, Magnetism and the Chemical
+//     Bond, 1963, from memory). CrBr3 (3.0 μB per Cr: Dillon and Olson,
+//     J. Appl. Phys. 36 (1965) 1259), CrI3 (3.1: McGuire et al., Chem.
+//     Mater. 27 (2015) 612), Cr2Ge2Te6 (Carteaux et al., J. Phys.: Condens.
+//     Matter 7 (1995) 69) and CrSiTe3 are ferromagnets; CrCl3 stacks its
+//     layers antiferromagnetically and reaches 3 μB in a field of about
+//     0.2 T (all from memory);
+//   - rutile CrO2, a half-metallic ferromagnet of 2 μB per Cr (Schwarz,
+//     J. Phys. F 16 (1986) L211; Coey, Magnetism and Magnetic Materials
+//     (2010); from memory).
+// Cr must be the only cation and in one state; other compositions: no
+// estimate, as before.
+void ApplyChromiumFerromagnetSaturation(const OxidationAssignment& a,
+                                        CompositionReport* r) {
+  constexpr int kChromium = 24;
+  int state = 0;
+  Rational chromium(0), halide(0), oxide(0), other_anion(0);
+  for (const AssignedState& s : a.states) {
+    const int z = s.element->atomic_number;
+    if (s.unit >= 0) continue;
+    if (z == kChromium) {
+      if (state != 0 && s.state != state) return;
+      state = s.state;
+      chromium = chromium + s.count;
+    } else if (s.state > 0) {
+      return;
+    } else if (z == 17 || z == 35 || z == 53) {
+      halide = halide + s.count;
+    } else if (z == 8) {
+      oxide = oxide + s.count;
+    } else {
+      other_anion = other_anion + s.count;
+    }
+  }
+  if (chromium.IsZero()) return;
+  // Units: only the (Si2Te6)6- and (Ge2Te6)6- of the tellurides.
+  bool telluride_units = false;
+  for (const AssignedUnit& u : a.units) {
+    for (const UnitAtom& atom : u.unit->atoms) {
+      const int z = atom.element->atomic_number;
+      if (z != 14 && z != 32 && z != 52) return;
+    }
+    telluride_units = true;
+  }
+  const char* note = nullptr;
+  if (state == 3 && oxide.IsZero() && other_anion.IsZero() &&
+      ((telluride_units && halide.IsZero()) ||
+       (!telluride_units && halide == chromium * Rational(3)))) {
+    note =
+        "saturation: ferromagnetic Cr(III) layers (CrI3, CrBr3, Cr2Ge2Te6: "
+        "90° Cr-X-Cr superexchange between half-filled t2g shells, "
+        "Goodenough-Kanamori rules), 2S = 3 μB per Cr; CrCl3 stacks its "
+        "layers antiferromagnetically and reaches it in a small field";
+  } else if (state == 4 && !telluride_units && halide.IsZero() &&
+             other_anion.IsZero() && oxide == chromium * Rational(2)) {
+    note =
+        "saturation: rutile CrO2, a half-metallic ferromagnet: 2S = 2 μB "
+        "per Cr";
+  } else {
+    return;
+  }
+  double saturation = 0;
+  for (const IonAnnotation& ion : r->ions) {
+    saturation += ion.count.ToDouble() * ion.ordered_moment;
+  }
+  if (saturation == 0) return;
+  r->saturation_moment_per_formula_unit = saturation;
+  r->saturation_moment_low = r->saturation_moment_high = saturation;
+  r->saturation_model = MomentModel::kSpinOnlyFerromagnet;
+  if (r->moment_note.empty()) r->moment_note = note;
+}
+
 // Unpaired electrons per formula unit, exactly: 0.7 x 4 + 0.3 x 3 is 3.7,
 // not 3.6999999999999997.
 double UnpairedPerFormulaUnit(const std::vector<IonAnnotation>& ions,
@@ -1267,6 +1345,9 @@ CompositionReport Analyze(const CompositionInput& input) {
       (r.kind == CompositionKind::kIonic ||
        r.kind == CompositionKind::kZintl)) {
     ApplyFourFSevenSaturation(&r);
+    if (!r.saturation_moment_per_formula_unit.has_value()) {
+      ApplyChromiumFerromagnetSaturation(*r.assignment, &r);
+    }
   }
 
   CheckMeasuredMoments(input, &r);

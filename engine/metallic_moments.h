@@ -56,14 +56,15 @@ namespace shellwright {
 
 // How a report's moments were estimated.
 enum class MomentModel {
-  kLocalMoment,         // Free-ion and ligand-field moments of ions.
-  kFullHeusler,         // M = Z_t - 24.
-  kHalfHeusler,         // M = Z_t - 18.
-  kSlaterPaulingAlloy,  // Slater-Pauling curve of 3d alloys.
-  kRareEarth4f,         // Trivalent 4f moments only.
-  kRareEarth4fWith3d,   // 4f sublattice plus Fe/Co sublattice.
-  kNone,                // No estimate: outside every rule's domain.
-  kSublatticeNeel,      // Néel's collinear sublattices (engine/sites.h).
+  kLocalMoment,          // Free-ion and ligand-field moments of ions.
+  kFullHeusler,          // M = Z_t - 24.
+  kHalfHeusler,          // M = Z_t - 18.
+  kSlaterPaulingAlloy,   // Slater-Pauling curve of 3d alloys.
+  kRareEarth4f,          // Trivalent 4f moments only.
+  kRareEarth4fWith3d,    // 4f sublattice plus Fe/Co sublattice.
+  kNone,                 // No estimate: outside every rule's domain.
+  kSublatticeNeel,       // Néel's collinear sublattices (engine/sites.h).
+  kSpinOnlyFerromagnet,  // 2S per ion of a known ferromagnetic class.
 };
 
 template <>
@@ -77,7 +78,8 @@ struct EnumNames<MomentModel> {
       {MomentModel::kRareEarth4f, "rare_earth_4f"},
       {MomentModel::kRareEarth4fWith3d, "rare_earth_4f_with_3d"},
       {MomentModel::kNone, "none"},
-      {MomentModel::kSublatticeNeel, "sublattice_neel"}};
+      {MomentModel::kSublatticeNeel, "sublattice_neel"},
+      {MomentModel::kSpinOnlyFerromagnet, "spin_only_ferromagnet"}};
 };
 
 struct MetallicMomentEstimate {

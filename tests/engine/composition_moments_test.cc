@@ -231,6 +231,38 @@ TEST(CompositionMoments, FourFSevenFerromagnetsSaturateAtSevenBohrMagnetons) {
   EXPECT_FALSE(Analyze("Eu2O3").saturation_moment_per_formula_unit.has_value());
 }
 
+TEST(CompositionMoments, ChromiumFerromagnetsSaturateAtTheirSpinOnlyMoment) {
+  // Layered Cr(III) ferromagnets: CrBr3 3.0 uB per Cr (Dillon and Olson,
+  // J. Appl. Phys. 36 (1965) 1259), CrI3 3.1 (McGuire et al., Chem. Mater.
+  // 27 (2015) 612), Cr2Ge2Te6 about 3 per Cr (Carteaux et al., J. Phys.:
+  // Condens. Matter 7 (1995) 69); CrCl3 reaches 3 in a small field; rutile
+  // CrO2 2.0 per Cr (Coey, Magnetism and Magnetic Materials (2010)); all
+  // from memory.
+  const struct {
+    const char* formula;
+    double measured;
+  } kCases[] = {{"CrBr3", 3.0}, {"CrI3", 3.1},      {"CrCl3", 3.0},
+                {"CrO2", 2.0},  {"Cr2Ge2Te6", 6.0}, {"CrSiTe3", 3.0}};
+  for (const auto& c : kCases) {
+    SCOPED_TRACE(c.formula);
+    const CompositionReport r = Analyze(c.formula);
+    ASSERT_TRUE(r.saturation_moment_per_formula_unit.has_value())
+        << Diagnostics(r);
+    EXPECT_NEAR(*r.saturation_moment_per_formula_unit, c.measured, 0.15);
+    EXPECT_EQ(r.saturation_model, MomentModel::kSpinOnlyFerromagnet);
+    EXPECT_FALSE(r.moment_note.empty());
+    EXPECT_FALSE(OutOfRange(Saturation(c.formula, c.measured)));
+  }
+  // Other Cr(III) compounds order antiferromagnetically or hold other
+  // cations and units: no estimate (Cr2O3 is an antiferromagnet; Greenwood
+  // and Earnshaw, Chemistry of the Elements, 2nd ed., ch. 23, from memory).
+  for (const char* f :
+       {"Cr2O3", "KCrF4", "CrCl3·6H2O", "[Cr(H2O)6]Cl3", "CrCl2", "VI3"}) {
+    SCOPED_TRACE(f);
+    EXPECT_FALSE(Analyze(f).saturation_moment_per_formula_unit.has_value());
+  }
+}
+
 TEST(CompositionMoments, PublishedFerriteSaturationMomentsAreAccepted) {
   // Saturation moments at 0 K, μB per formula unit (Smit and Wijn,
   // Ferrites (1959), and Kittel, Introduction to Solid State Physics,

@@ -87,7 +87,8 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
   // Only metallic phases take a metallic moment model, which always says
   // how it reached its figure or why there is none (engine/composition.h).
   // A local-moment report may carry a note too, on a saturation estimate
-  // outside the sublattice model (4f7 ions) or on why none applies.
+  // outside the sublattice model (4f7 ions, Cr ferromagnets) or on why
+  // none applies.
   const bool local =
       report.moment_model == shellwright::MomentModel::kLocalMoment;
   FUZZ_CHECK(local || report.kind == shellwright::CompositionKind::kMetallic ||
@@ -98,6 +99,8 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
   FUZZ_CHECK(
       !local || report.moment_note.empty() ||
           report.saturation_model == shellwright::MomentModel::kRareEarth4f ||
+          report.saturation_model ==
+              shellwright::MomentModel::kSpinOnlyFerromagnet ||
           !report.saturation_moment_per_formula_unit.has_value(),
       formula);
   FUZZ_CHECK(local || !report.saturation_moment_per_formula_unit.has_value() ||
