@@ -28,7 +28,10 @@
 //
 // Within a reading, candidates rank by, in order:
 //   1. fewest uncommon states (a state flagged "no" in the table, or a
-//      declared state missing from it);
+//      declared state missing from it; in a compound of non-metals alone,
+//      without hydrogen, also the most electronegative element's positive
+//      states and the least electronegative one's negative states, which
+//      invert the electronegativity order: S2Cl2 is S+1 with Cl-1);
 //   2. fewest faults: electronegativity inconsistencies (elements above an
 //      electronegativity threshold take negative states and those below
 //      positive ones; a positive state is judged by its own value where
