@@ -499,6 +499,35 @@ NonMetalOrder NonMetalOrderOf(const Formula& formula) {
   return order;
 }
 
+// Whether the plans are a tetrahedral framework of group 13 atoms B (Al,
+// Ga, In) and a majority of group 14 atoms C (Si, Ge, Sn) around alkali
+// or alkaline-earth guests A, whose charge (their group number each)
+// equals the number of B atoms: the type-I clathrates A8B16C30
+// (Ba8Ga16Ge30, Sr8Ga16Ge30, Ba8Al16Si30) and their relatives (K8Ga8Si38).
+// Each framework atom then has four valence electrons and makes four
+// bonds, so by the Zintl-Klemm concept B is B-1 and C is C0 (Eisenmann,
+// Schaefer and Zagler, J. Less-Common Met. 118 (1986) 43; Nolas et al.,
+// Appl. Phys. Lett. 73 (1998) 178; from memory). The group 14 majority
+// leaves out the CaAl2Si2 type (one Si per Al), read with Al+3 and Si-4.
+bool IsTetrahedralFramework(const Plans& plans) {
+  Rational guest_charge(0), group13(0), group14(0);
+  for (const ElementPlan& p : plans) {
+    const Element& e = *p.element;
+    const bool framework_period = e.period >= 3 && e.period <= 5;
+    if (e.block == Block::kS && e.atomic_number != 1 &&
+        (e.group == 1 || e.group == 2)) {
+      guest_charge = guest_charge + p.count * Rational(e.group);
+    } else if (e.group == 13 && framework_period) {
+      group13 = group13 + p.count;
+    } else if (e.group == 14 && framework_period) {
+      group14 = group14 + p.count;
+    } else {
+      return false;
+    }
+  }
+  return !group13.IsZero() && guest_charge == group13 && group13 < group14;
+}
+
 // Builds the plan of every free element and unit of `reading`, or returns
 // false when the reading's units need more atoms than the formula holds.
 // Declared elements take exactly their declared states.
@@ -629,6 +658,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       }
     }
   }
+  const bool framework = zintl && IsTetrahedralFramework(plans);
   // Lithium nickel oxides with as many cations as oxygen atoms, the layered
   // LiMO2 cathodes (LiNi0.8Co0.1Mn0.1O2, Li1.2Ni0.2Mn0.6O2) and rock-salt
   // LixNi1-xO: Ni(II)/Ni(III) is their native mixed valence, beside Co(III)
@@ -849,6 +879,12 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       p.fixed_options.push_back(o);
       if (o.low_common && o.high_common) p.fixed_common_options.push_back(o);
     };
+    if (framework && polyanion) {
+      // Four-bonded framework atoms (IsTetrahedralFramework): B-1, C0.
+      const int q = p.element->group == 13 ? -1 : 0;
+      add(q, q, true, true);
+      continue;
+    }
     if (polyanion) {
       for (int q = p.element->group - 18; q <= -1; ++q) {
         add(q, q, true, true);

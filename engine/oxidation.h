@@ -195,7 +195,9 @@ struct OxidationResult {
   // metallic or elemental composition (neutral, with no declared non-zero
   // state) has every state 0, and an intermetallic one its best ionic
   // reading, where one balances, as the first alternative; a Zintl phase
-  // balances with its polyanions' 8-N states. `bonding` says why.
+  // balances with its polyanions' 8-N states (a clathrate framework of
+  // group 13 and 14 atoms by the four-bonded count: Ga-1 and Ge0 in
+  // Ba8Ga16Ge30). `bonding` says why.
   CompositionKind kind = CompositionKind::kIonic;
   BondingClass bonding;
   // Empty when no assignment balances the charge.

@@ -515,6 +515,27 @@ TEST(Composition, NonMetalHalidesReadInElectronegativityOrder) {
   }
 }
 
+TEST(Composition, ClathratesAreDiamagneticZintlPhases) {
+  // Ba8Ga16Ge30, Sr8Ga16Ge30 and Ba8Al16Si30 are Zintl phases whose
+  // four-bonded framework atoms are Ga-1 (Al-1) and Ge0 (Si0): bonded,
+  // no local moment; the compounds are diamagnetic semiconductors or
+  // poor metals (Eisenmann, Schaefer and Zagler, J. Less-Common Met. 118
+  // (1986) 43; Nolas et al., Appl. Phys. Lett. 73 (1998) 178; from
+  // memory).
+  for (const char* formula : {"Ba8Ga16Ge30", "Sr8Ga16Ge30", "Ba8Al16Si30"}) {
+    SCOPED_TRACE(formula);
+    CompositionReport r = Analyze(Record(formula));
+    EXPECT_TRUE(r.valid) << DiagnosticsText(r);
+    EXPECT_EQ(r.kind, CompositionKind::kZintl);
+    EXPECT_DOUBLE_EQ(r.unpaired_per_formula_unit, 0);
+    ASSERT_TRUE(r.assignment.has_value());
+    for (const AssignedState& s : r.assignment->states) {
+      if (s.element->group == 13) EXPECT_EQ(s.state, -1);
+      if (s.element->group == 14) EXPECT_EQ(s.state, 0);
+    }
+  }
+}
+
 TEST(Composition, BondedMainGroupCationsCarryNoMoment) {
   // Realgar As4S4 holds As-As bonds, GaS and InS Ga-Ga and In-In pairs,
   // OF2, Cl2O, ICl3, XeF2 and XeF4 are closed-shell molecules: all

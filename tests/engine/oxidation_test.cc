@@ -502,7 +502,8 @@ TEST(Oxidation, OxygenIsPositiveOnlyBesideFluorine) {
 }
 
 // ---------------------------------------------------------------------------
-// Compounds of non-metals follow the electronegativity order.
+// Compounds of non-metals follow the electronegativity order, and the
+// framework atoms of the clathrates the Zintl-Klemm count.
 
 struct OrderedCase {
   const char* formula;
@@ -645,6 +646,40 @@ TEST(Oxidation, InvertedNonMetalStatesAreUncommon) {
   // A metal takes no part: FeS2 is still Fe(II) disulfide (G&E ch. 25,
   // from memory).
   EXPECT_EQ(Best("FeS2"), "Fe:2x1 S:-1x2[disulfide]");
+}
+
+TEST(Oxidation, ClathrateFrameworksFollowTheZintlKlemmCount) {
+  // Type-I clathrates A8B16C30: the guests give one electron per group 13
+  // atom, so every framework atom is four-bonded, B-1 and C0 (Eisenmann,
+  // Schaefer and Zagler, J. Less-Common Met. 118 (1986) 43, for the Sr
+  // and Ba compounds of Al, Ga with Si, Ge, Sn; Nolas et al., Appl. Phys.
+  // Lett. 73 (1998) 178, for Sr8Ga16Ge30; from memory). K8Ga8Si38 is the
+  // same framework with monovalent guests (from memory).
+  const OrderedCase kCases[] = {
+      {"Ba8Ga16Ge30", "Ba:2x8 Ga:-1x16 Ge:0x30", "Eisenmann et al. 1986"},
+      {"Sr8Ga16Ge30", "Sr:2x8 Ga:-1x16 Ge:0x30", "Nolas et al. 1998"},
+      {"Ba8Al16Si30", "Ba:2x8 Al:-1x16 Si:0x30", "Eisenmann et al. 1986"},
+      {"Ba8Ga16Si30", "Ba:2x8 Ga:-1x16 Si:0x30", "Eisenmann et al. 1986"},
+      {"Ba8Ga16Sn30", "Ba:2x8 Ga:-1x16 Sn:0x30", "Eisenmann et al. 1986"},
+      {"Ba8Al16Ge30", "Ba:2x8 Al:-1x16 Ge:0x30", "Eisenmann et al. 1986"},
+      {"K8Ga8Si38", "K:1x8 Ga:-1x8 Si:0x38", "from memory"},
+  };
+  for (const OrderedCase& c : kCases) {
+    SCOPED_TRACE(c.formula);
+    const OxidationResult r = Solve(c.formula);
+    EXPECT_EQ(r.kind, CompositionKind::kZintl);
+    ASSERT_TRUE(r.best.has_value());
+    EXPECT_EQ(Describe(*r.best), c.expected) << c.source;
+  }
+  // Other Zintl phases keep their 8-N readings: Si4 4- tetrahedra in NaSi
+  // and BaSi2, Ge chains (Ge2-) in CaGe (Schaefer, Eisenmann and Mueller,
+  // Angew. Chem. Int. Ed. Engl. 12 (1973) 694, from memory); the alkali
+  // clathrate K8Ge44 without group 13 atoms (Corbett, Chem. Rev. 85 (1985)
+  // 383, from memory) has eight Ge-1 for its eight K.
+  EXPECT_EQ(Best("NaSi"), "Na:1x1 Si:-1x1");
+  EXPECT_EQ(Best("BaSi2"), "Ba:2x1 Si:-1x2");
+  EXPECT_EQ(Best("CaGe"), "Ca:2x1 Ge:-2x1");
+  EXPECT_EQ(Best("K8Ge44"), "K:1x8 Ge:-1x8 Ge:0x36");
 }
 
 // ---------------------------------------------------------------------------
