@@ -448,16 +448,98 @@ bool RadicalBoundAsAcceptor(const UnitMatch& m, const Plans& plans,
   return false;
 }
 
+// The two ends of the electronegativity order of a compound of non-metals
+// alone (IsMetal false for every element: B, Si, Ge, As, Sb and Te count
+// as non-metals), without hydrogen: the element whose Pauling value is
+// above every other element's, and the one whose value is below. Null
+// where no element is strictly first (last), and both null for a formula
+// that holds a metal, hydrogen, an element without a value, or a single
+// element.
+//
+// Oxidation states follow electronegativity: the bonding electrons go to
+// the more electronegative partner (IUPAC, Nomenclature of Inorganic
+// Chemistry, Recommendations 2005, the Red Book, from memory; Greenwood
+// and Earnshaw, Chemistry of the Elements, 2nd ed., ch. 15 for S2Cl2,
+// SCl2 and P4S3, from memory). So, in a neutral compound of non-metals,
+// the most electronegative element positive, or the least negative,
+// inverts the order: something else must take the opposite sign, and it
+// is less (more) electronegative. MakePlans makes those states uncommon
+// there (docs/method.md). Hydrogen is left out: beside P, As, Sb and Te
+// its Pauling value is within 0.15 of theirs, and the usual convention
+// for their hydrides (H2Te with Te-2) does not follow the order.
+struct NonMetalOrder {
+  const Element* most = nullptr;
+  const Element* least = nullptr;
+};
+
+NonMetalOrder NonMetalOrderOf(const Formula& formula) {
+  NonMetalOrder order;
+  if (formula.amounts.size() < 2) return order;
+  double most = -1, least = 100;
+  for (const ElementAmount& a : formula.amounts) {
+    const Element& e = *a.element;
+    if (IsMetal(e) || e.atomic_number == 1 ||
+        !e.pauling_electronegativity.has_value()) {
+      return NonMetalOrder();
+    }
+    const double x = *e.pauling_electronegativity;
+    if (x > most) {
+      most = x;
+      order.most = &e;
+    } else if (x == most) {
+      order.most = nullptr;  // A tie: no element is first.
+    }
+    if (x < least) {
+      least = x;
+      order.least = &e;
+    } else if (x == least) {
+      order.least = nullptr;
+    }
+  }
+  return order;
+}
+
+// Whether the plans are a tetrahedral framework of group 13 atoms B (Al,
+// Ga, In) and a majority of group 14 atoms C (Si, Ge, Sn) around alkali
+// or alkaline-earth guests A, whose charge (their group number each)
+// equals the number of B atoms: the type-I clathrates A8B16C30
+// (Ba8Ga16Ge30, Sr8Ga16Ge30, Ba8Al16Si30) and their relatives (K8Ga8Si38).
+// Each framework atom then has four valence electrons and makes four
+// bonds, so by the Zintl-Klemm concept B is B-1 and C is C0 (Eisenmann,
+// Schaefer and Zagler, J. Less-Common Met. 118 (1986) 43; Nolas et al.,
+// Appl. Phys. Lett. 73 (1998) 178; from memory). The group 14 majority
+// leaves out the CaAl2Si2 type (one Si per Al), read with Al+3 and Si-4.
+bool IsTetrahedralFramework(const Plans& plans) {
+  Rational guest_charge(0), group13(0), group14(0);
+  for (const ElementPlan& p : plans) {
+    const Element& e = *p.element;
+    const bool framework_period = e.period >= 3 && e.period <= 5;
+    if (e.block == Block::kS && e.atomic_number != 1 &&
+        (e.group == 1 || e.group == 2)) {
+      guest_charge = guest_charge + p.count * Rational(e.group);
+    } else if (e.group == 13 && framework_period) {
+      group13 = group13 + p.count;
+    } else if (e.group == 14 && framework_period) {
+      group14 = group14 + p.count;
+    } else {
+      return false;
+    }
+  }
+  return !group13.IsZero() && guest_charge == group13 && group13 < group14;
+}
+
 // Builds the plan of every free element and unit of `reading`, or returns
 // false when the reading's units need more atoms than the formula holds.
 // Declared elements take exactly their declared states.
 //
 // `scaled_counts` holds each formula element's count times `scale`;
-// `structure` is the formula's StructureClassOf.
+// `structure` is the formula's StructureClassOf; `order` its
+// NonMetalOrderOf.
 bool MakePlans(const Formula& formula, const Rational& scale,
                absl::Span<const int64_t> scaled_counts,
                const OxidationOptions& options, const Reading& reading,
-               bool zintl, internal::AnionClass structure, Plans* out) {
+               bool zintl, internal::AnionClass structure,
+               const NonMetalOrder& order, Plans* out) {
   Plans& plans = *out;
   plans.clear();
   if (!reading.empty() && !MayPlan(formula, scale, reading)) return false;
@@ -576,6 +658,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       }
     }
   }
+  const bool framework = zintl && IsTetrahedralFramework(plans);
   // Lithium nickel oxides with as many cations as oxygen atoms, the layered
   // LiMO2 cathodes (LiNi0.8Co0.1Mn0.1O2, Li1.2Ni0.2Mn0.6O2) and rock-salt
   // LixNi1-xO: Ni(II)/Ni(III) is their native mixed valence, beside Co(III)
@@ -633,11 +716,12 @@ bool MakePlans(const Formula& formula, const Rational& scale,
                         anions == internal::AnionClass::kZintl;
   // Whether any element may get options of its own below (zero beside
   // pi acceptors, a state limit, Zintl polyanion states, listed
-  // preferences, clusters): most records have none, and their elements
-  // keep their tables.
+  // preferences, clusters, the order of non-metals): most records have
+  // none, and their elements keep their tables.
+  const bool inversion = order.most != nullptr || order.least != nullptr;
   const bool any_custom = pi_acceptor || cyanide || soft_only ||
                           chalcogen_pairs || pnictide_only || zintl ||
-                          own_rows || clusters || nickel_mix_free;
+                          own_rows || clusters || nickel_mix_free || inversion;
   for (ElementPlan& p : plans) {
     p.no_hydride = carbon_or_nitrogen;
     p.oxide = oxide;
@@ -689,8 +773,19 @@ bool MakePlans(const Formula& formula, const Rational& scale,
             ? internal::ChalcogenideMaxState(*p.element)
             : -1;
     const bool nickel_mix = nickel_mix_free && z == 28;
+    // Among non-metals alone, the most electronegative element's positive
+    // states and the least electronegative one's negative states invert
+    // the order (NonMetalOrder): uncommon, whatever the table says, so
+    // that the ordered reading wins (S2Cl2 is S+1 with Cl-1, not a
+    // disulfide with Cl+1). With a net charge only the sign that forces
+    // an opposite one counts.
+    const bool inverts_positive =
+        p.element == order.most && options.net_charge <= 0;
+    const bool inverts_negative =
+        p.element == order.least && options.net_charge >= 0;
     if (!zero && limit < 0 && attested < 0 && !polyanion && !listed &&
-        !cluster && inert_pair == 0 && !nickel_mix) {
+        !cluster && inert_pair == 0 && !nickel_mix && !inverts_positive &&
+        !inverts_negative) {
       continue;
     }
     p.custom = true;
@@ -699,9 +794,9 @@ bool MakePlans(const Formula& formula, const Rational& scale,
                                 p.element->period >= 5 &&
                                 p.element->group >= 8 && p.element->group <= 10;
     auto add = [&p, limit, listed, anions, zero, cluster, nitrosyl, inert_pair,
-                attested, platinum_metal,
-                nickel_mix](int low, int high, bool low_common,
-                            bool high_common, bool needs_oxide = false) {
+                attested, platinum_metal, nickel_mix, inverts_positive,
+                inverts_negative](int low, int high, bool low_common,
+                                  bool high_common, bool needs_oxide = false) {
       if (cluster) {
         // +1 in a mix with +2 only: the mean of a reduced cluster (a lone
         // Mo(I) or W(I) halide is unknown).
@@ -743,6 +838,10 @@ bool MakePlans(const Formula& formula, const Rational& scale,
         low_common |= internal::ListedPreference(*p.element, low, anions);
         high_common |= internal::ListedPreference(*p.element, high, anions);
       }
+      // A mix never straddles zero: both states have the sign.
+      if ((inverts_positive && high > 0) || (inverts_negative && low < 0)) {
+        low_common = high_common = false;
+      }
       StateOption o = internal::MakeStateOption(
           *p.element, static_cast<int>(p.fixed_options.size()), low, high,
           low_common, high_common, needs_oxide);
@@ -780,6 +879,12 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       p.fixed_options.push_back(o);
       if (o.low_common && o.high_common) p.fixed_common_options.push_back(o);
     };
+    if (framework && polyanion) {
+      // Four-bonded framework atoms (IsTetrahedralFramework): B-1, C0.
+      const int q = p.element->group == 13 ? -1 : 0;
+      add(q, q, true, true);
+      continue;
+    }
     if (polyanion) {
       for (int q = p.element->group - 18; q <= -1; ++q) {
         add(q, q, true, true);
@@ -1097,8 +1202,10 @@ struct Search {
   bool one_mixed = false;
   bool strict = true;  // See Allowed.
   bool zintl = false;  // Polyanion states by the 8-N rule (MakePlans).
-  // The formula's StructureClassOf (AssignStates finds it once).
+  // The formula's StructureClassOf and NonMetalOrderOf (AssignStates
+  // finds them once).
   internal::AnionClass structure = internal::AnionClass::kHard;
+  NonMetalOrder order;
   // Each formula element's count times the scale (AssignStates).
   absl::InlinedVector<int64_t, 8> scaled_counts;
   UnitMatches all_matches;  // Of the formula (AssignStates finds them).
@@ -1322,7 +1429,7 @@ BestReading SearchReadings(const Formula& formula,
       }
       Plans& plans = search->plan_buffers[work];
       if (!MakePlans(formula, scale, search->scaled_counts, options, reading,
-                     search->zintl, search->structure, &plans)) {
+                     search->zintl, search->structure, search->order, &plans)) {
         continue;
       }
       const Weight bound =
@@ -1761,6 +1868,7 @@ absl::StatusOr<OxidationResult> AssignStates(const Formula& formula,
   Search search;
   search.zintl = zintl;
   search.structure = StructureClassOf(formula);
+  search.order = NonMetalOrderOf(formula);
   search.all_matches = FindUnitMatches(formula);
   // The same answer however the formula unit is written: the search runs
   // on the formula divided by the greatest common divisor g of its scaled

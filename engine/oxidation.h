@@ -28,7 +28,10 @@
 //
 // Within a reading, candidates rank by, in order:
 //   1. fewest uncommon states (a state flagged "no" in the table, or a
-//      declared state missing from it);
+//      declared state missing from it; in a compound of non-metals alone,
+//      without hydrogen, also the most electronegative element's positive
+//      states and the least electronegative one's negative states, which
+//      invert the electronegativity order: S2Cl2 is S+1 with Cl-1);
 //   2. fewest faults: electronegativity inconsistencies (elements above an
 //      electronegativity threshold take negative states and those below
 //      positive ones; a positive state is judged by its own value where
@@ -192,7 +195,9 @@ struct OxidationResult {
   // metallic or elemental composition (neutral, with no declared non-zero
   // state) has every state 0, and an intermetallic one its best ionic
   // reading, where one balances, as the first alternative; a Zintl phase
-  // balances with its polyanions' 8-N states. `bonding` says why.
+  // balances with its polyanions' 8-N states (a clathrate framework of
+  // group 13 and 14 atoms by the four-bonded count: Ga-1 and Ge0 in
+  // Ba8Ga16Ge30). `bonding` says why.
   CompositionKind kind = CompositionKind::kIonic;
   BondingClass bonding;
   // Empty when no assignment balances the charge.
