@@ -694,6 +694,10 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       continue;
     }
     p.custom = true;
+    // Room for the table's options and state 0 at once, rather than
+    // growing one option at a time.
+    p.fixed_options.reserve(p.table_options.size() + 1);
+    p.fixed_common_options.reserve(p.table_common_options.size() + 1);
     bool zero_added = !zero;
     const bool platinum_metal = p.element->block == Block::kD &&
                                 p.element->period >= 5 &&
