@@ -789,6 +789,10 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       continue;
     }
     p.custom = true;
+    // Room for the table's options and state 0 at once, rather than
+    // growing one option at a time.
+    p.fixed_options.reserve(p.table_options.size() + 1);
+    p.fixed_common_options.reserve(p.table_common_options.size() + 1);
     bool zero_added = !zero;
     const bool platinum_metal = p.element->block == Block::kD &&
                                 p.element->period >= 5 &&
@@ -796,7 +800,8 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     auto add = [&p, limit, listed, anions, zero, cluster, nitrosyl, inert_pair,
                 attested, platinum_metal, nickel_mix, inverts_positive,
                 inverts_negative](int low, int high, bool low_common,
-                                  bool high_common, bool needs_oxide = false) {
+                                  bool high_common, bool needs_oxide = false,
+                                  const StateOption* table = nullptr) {
       if (cluster) {
         // +1 in a mix with +2 only: the mean of a reduced cluster (a lone
         // Mo(I) or W(I) halide is unknown).
@@ -842,9 +847,19 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       if ((inverts_positive && high > 0) || (inverts_negative && low < 0)) {
         low_common = high_common = false;
       }
-      StateOption o = internal::MakeStateOption(
-          *p.element, static_cast<int>(p.fixed_options.size()), low, high,
-          low_common, high_common, needs_oxide);
+      // An option of the element's table whose flags stay as they are
+      // is the table's, but for its place in this list: copied, not
+      // built again.
+      const int index = static_cast<int>(p.fixed_options.size());
+      StateOption o;
+      if (table != nullptr && low_common == table->low_common &&
+          high_common == table->high_common) {
+        o = *table;
+        o.index = index;
+      } else {
+        o = internal::MakeStateOption(*p.element, index, low, high, low_common,
+                                      high_common, needs_oxide);
+      }
       // The cluster's electrons are shared by all its atoms: +1 to +3 is
       // its usual mean (+2.33 in the Chevrel phases' [Mo6S8]2-, +1.67 in
       // the [Mo6Se6]2- chains of Cs2Mo6Se6, +1.83 in Nb6I11), no mixed
@@ -917,7 +932,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
         add(0, 0, true, true);
         zero_added = true;
       }
-      add(o.low, o.high, o.low_common, o.high_common, o.needs_oxide);
+      add(o.low, o.high, o.low_common, o.high_common, o.needs_oxide, &o);
     }
     if (!zero_added) add(0, 0, true, true);
   }
