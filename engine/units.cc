@@ -368,7 +368,9 @@ UnitMatches FindUnitMatches(const Formula& formula) {
     const int k = FindClass(t, signature, group.multiplier);
     if (k < 0) continue;
     whole[g] = true;
-    if (matches.size() < kMaxUnitMatches) {
+    // A group written zero times ("(C5H5)δ" read as no atoms) holds no
+    // unit.
+    if (matches.size() < kMaxUnitMatches && !group.multiplier.IsZero()) {
       matches.push_back(MakeMatch(t, k, group.first_term, group.end_term,
                                   static_cast<int>(g), group.parent,
                                   group.multiplier));
@@ -401,7 +403,7 @@ UnitMatches FindUnitMatches(const Formula& formula) {
                 [](const auto& a, const auto& b) { return a.first < b.first; });
       const int c = FindClass(t, with_p, term.multiplier);
       if (c >= 0 && !t.classes[c].groups_only &&
-          spans.size() < kMaxUnitMatches) {
+          spans.size() < kMaxUnitMatches && !term.multiplier.IsZero()) {
         spans.push_back(MakeMatch(t, c, group.first_term, after + 1, -1, level,
                                   term.multiplier));
       }
@@ -416,7 +418,7 @@ UnitMatches FindUnitMatches(const Formula& formula) {
                 [](const auto& a, const auto& b) { return a.first < b.first; });
       const int c = FindClass(t, sorted, term.multiplier);
       if (c >= 0 && !t.classes[c].groups_only &&
-          spans.size() < kMaxUnitMatches) {
+          spans.size() < kMaxUnitMatches && !term.multiplier.IsZero()) {
         spans.push_back(
             MakeMatch(t, c, k, group.end_term, -1, level, term.multiplier));
       }
@@ -432,6 +434,7 @@ UnitMatches FindUnitMatches(const Formula& formula) {
   for (size_t i = 0; i < terms.size(); ++i) {
     const WrittenTerm& first = terms[i];
     if (first.group >= 0 && whole[first.group]) continue;
+    if (first.multiplier.IsZero()) continue;  // Written zero times.
     // The forms run from the longest: skip those longer than the terms
     // left.
     const std::vector<WrittenForm>& forms =

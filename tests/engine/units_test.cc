@@ -49,6 +49,22 @@ TEST(Units, HalfFormsCountHalfAUnit) {
   EXPECT_EQ(twice.count, Rational(1));
 }
 
+TEST(Units, GroupsWrittenZeroTimesHoldNoUnit) {
+  // A group or run multiplied by a small nonstoichiometry (δ, read as 0)
+  // holds no atoms, so no unit: a zero-count unit reached the assignment
+  // in a wide search (fuzz input unit_group_written_zero_times). Written
+  // once, the same group is a unit (common practice, no source).
+  for (const char* text : {"KCl(C5H5)δ", "NaClCpδ", "KCl(NH4)δ"}) {
+    SCOPED_TRACE(text);
+    absl::StatusOr<Formula> f = ParseFormula(text);
+    ASSERT_TRUE(f.ok()) << f.status();
+    for (const UnitMatch& m : FindUnitMatches(*f)) {
+      EXPECT_FALSE(m.count.IsZero()) << m.units.front()->name;
+    }
+  }
+  EXPECT_TRUE(FindNamed("KCl(C5H5)", "cyclopentadienide").ok);
+}
+
 TEST(Units, WholeFormsWithRepeatedElementsCountOne) {
   // CH3COO holds both of acetate's carbons: one unit, not two halves.
   Found acetate = FindNamed("CH3COONa", "acetate");
