@@ -141,19 +141,31 @@ AtomCounts CountAtoms(const Formula& formula) {
 // of groups 8 to 10 (FeP2, PtP2) and the skutterudites (CoP3) keep their
 // pair and ring anions.
 bool IsPolypnictide(const Formula& formula) {
+  // The elements first, with no arithmetic: most formulas leave here.
+  bool any_pnictogen = false, any_metal = false;
+  for (const ElementAmount& a : formula.amounts) {
+    const Element& e = *a.element;
+    const int z = e.atomic_number;
+    if (z == 15 || z == 33) {
+      any_pnictogen = true;
+    } else if (e.block == Block::kD && e.group >= 3 && e.group <= 12) {
+      any_metal = true;
+    } else {
+      return false;
+    }
+  }
+  if (!any_pnictogen || !any_metal) return false;
   Rational pnictogen(0), needed(0);
   for (const ElementAmount& a : formula.amounts) {
     const Element& e = *a.element;
     const int z = e.atomic_number;
     if (z == 15 || z == 33) {
       pnictogen = pnictogen + a.count;
-    } else if (e.block == Block::kD && e.group >= 3 && e.group <= 12) {
-      needed = needed + a.count * Rational(e.group >= 11 ? 2 : 4);
     } else {
-      return false;
+      needed = needed + a.count * Rational(e.group >= 11 ? 2 : 4);
     }
   }
-  return !pnictogen.IsZero() && !needed.IsZero() && !(pnictogen < needed);
+  return !(pnictogen < needed);
 }
 
 // Layered transition-metal pnictides of the ThCr2Si2, CaAl2Si2 and

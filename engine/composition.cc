@@ -828,6 +828,14 @@ void ApplyFourFSevenSaturation(CompositionReport* r) {
 void ApplyChromiumFerromagnetSaturation(const OxidationAssignment& a,
                                         CompositionReport* r) {
   constexpr int kChromium = 24;
+  // Most records leave here: a magnetic ion that is not Cr.
+  bool any_chromium = false;
+  for (const IonAnnotation& ion : r->ions) {
+    if (ion.ordered_moment == 0) continue;
+    if (ion.element->atomic_number != kChromium) return;
+    any_chromium = true;
+  }
+  if (!any_chromium) return;
   int state = 0;
   Rational chromium(0), halide(0), oxide(0), other_anion(0);
   for (const AssignedState& s : a.states) {

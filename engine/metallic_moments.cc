@@ -146,17 +146,21 @@ MetallicMomentEstimate ApplyHeuslerRule(MetallicMomentEstimate e,
 // Ni or Cu group, or of 4d and 5d metals beyond one site (Y).
 std::optional<MetallicMomentEstimate> EstimateMixedHeusler(
     absl::Span<const ElementAmount> a, MetallicMomentEstimate e) {
+  // The elements first, with no arithmetic: most alloys leave here.
+  for (const ElementAmount& amount : a) {
+    if (!IsHeuslerZ(*amount.element) && !IsTransitionMetal(*amount.element)) {
+      return std::nullopt;
+    }
+  }
   Rational z(0), tm(0), late(0), heavy(0);
   for (const ElementAmount& amount : a) {
     const Element& el = *amount.element;
     if (IsHeuslerZ(el)) {
       z = z + amount.count;
-    } else if (IsTransitionMetal(el)) {
+    } else {
       tm = tm + amount.count;
       if (el.group == 10 || el.group == 11) late = late + amount.count;
       if (el.period >= 5) heavy = heavy + amount.count;
-    } else {
-      return std::nullopt;
     }
   }
   if (z.IsZero() || tm.IsZero()) return std::nullopt;
