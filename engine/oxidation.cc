@@ -501,7 +501,8 @@ NonMetalOrder NonMetalOrderOf(const Formula& formula) {
 
 // Whether the plans are a tetrahedral framework of group 13 atoms B (Al,
 // Ga, In) and a majority of group 14 atoms C (Si, Ge, Sn) around alkali
-// or alkaline-earth guests A, whose charge (their group number each)
+// or alkaline-earth guests A (or Eu, divalent), whose charge (their group
+// number each, 2 for Eu)
 // equals the number of B atoms: the type-I clathrates A8B16C30
 // (Ba8Ga16Ge30, Sr8Ga16Ge30, Ba8Al16Si30) and their relatives (K8Ga8Si38).
 // Each framework atom then has four valence electrons and makes four
@@ -517,6 +518,10 @@ bool IsTetrahedralFramework(const Plans& plans) {
     if (e.block == Block::kS && e.atomic_number != 1 &&
         (e.group == 1 || e.group == 2)) {
       guest_charge = guest_charge + p.count * Rational(e.group);
+    } else if (e.atomic_number == 63) {
+      // Eu(II) guests, as Ba(II) ones: Eu8Ga16Ge30 (Paschen et al., Phys.
+      // Rev. B 64 (2001) 214404, from memory).
+      guest_charge = guest_charge + p.count * Rational(2);
     } else if (e.group == 13 && framework_period) {
       group13 = group13 + p.count;
     } else if (e.group == 14 && framework_period) {

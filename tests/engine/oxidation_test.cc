@@ -663,6 +663,9 @@ TEST(Oxidation, ClathrateFrameworksFollowTheZintlKlemmCount) {
       {"Ba8Ga16Sn30", "Ba:2x8 Ga:-1x16 Sn:0x30", "Eisenmann et al. 1986"},
       {"Ba8Al16Ge30", "Ba:2x8 Al:-1x16 Ge:0x30", "Eisenmann et al. 1986"},
       {"K8Ga8Si38", "K:1x8 Ga:-1x8 Si:0x38", "from memory"},
+      // Divalent Eu guests, as Ba: Eu8Ga16Ge30 (Paschen et al., Phys. Rev.
+      // B 64 (2001) 214404, from memory).
+      {"Eu8Ga16Ge30", "Eu:2x8 Ga:-1x16 Ge:0x30", "Paschen et al. 2001"},
   };
   for (const OrderedCase& c : kCases) {
     SCOPED_TRACE(c.formula);
