@@ -729,7 +729,8 @@ class FormulaParser {
     return 0;
   }
 
-  // Parses a count at pos_ (ASCII integer or decimal, or subscript digits).
+  // Parses a count at pos_ (ASCII integer, decimal or fraction, or subscript
+  // digits).
   // Returns false on error. Leaves `count` untouched if there is none.
   // `warn_hydrate` is false for the leading multiplier of a part, where a
   // separator has already been written.
@@ -797,13 +798,41 @@ class FormulaParser {
                          "hydrate was meant, write '·' or '*' instead")});
       }
     }
+    // "Ni1/3": a fraction, as battery and alloy records write their site
+    // shares (LiNi1/3Mn1/3Co1/3O2).
+    int64_t fraction_den = 1;
+    if (!subscript && decimals == 0 && pos_ + 1 < text_.size() &&
+        text_[pos_] == '/' && IsAsciiDigit(text_[pos_ + 1])) {
+      const size_t slash = pos_;
+      ++pos_;
+      int64_t den = 0;
+      while (pos_ < text_.size() && IsAsciiDigit(text_[pos_])) {
+        if (den <= kMaxFractionDenominator)
+          den = den * 10 + (text_[pos_] - '0');
+        ++pos_;
+      }
+      if (den == 0) {
+        Fail(codes::kMalformedFormula, slash,
+             absl::StrCat("fraction bar at column ", Column(slash),
+                          " divides by zero"));
+        return false;
+      }
+      if (den > kMaxFractionDenominator) {
+        Fail(
+            codes::kCountTooLarge, slash,
+            absl::StrCat("fraction bar at column ", Column(slash),
+                         " has a denominator above ", kMaxFractionDenominator));
+        return false;
+      }
+      fraction_den = den;
+    }
     if (integer > kMaxFormulaCount) {
       Fail(codes::kCountTooLarge, start,
            absl::StrCat("count at column ", Column(start), " exceeds ",
                         kMaxFormulaCount));
       return false;
     }
-    *count = Rational(integer * frac_den + frac_num, frac_den);
+    *count = Rational(integer * frac_den + frac_num, frac_den * fraction_den);
     if (count->IsZero()) {
       Fail(codes::kMalformedFormula, start,
            absl::StrCat("count at column ", Column(start), " is zero"));

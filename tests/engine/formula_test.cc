@@ -218,6 +218,22 @@ TEST(Formula, HydrateSeparators) {
                           Pair("O", Rational(10)), Pair("H", Rational(12))));
 }
 
+TEST(Formula, FractionalCounts) {
+  // The layered cathode NMC111 as battery records write it: thirds.
+  const Counts nmc = {{"Li", Rational(1)},
+                      {"Ni", Rational(1, 3)},
+                      {"Mn", Rational(1, 3)},
+                      {"Co", Rational(1, 3)},
+                      {"O", Rational(2)}};
+  EXPECT_THAT(Parse("LiNi1/3Mn1/3Co1/3O2"), ElementsAreArray(nmc));
+  EXPECT_THAT(Parse("Li(Ni1/3Mn1/3Co1/3)O2"), ElementsAreArray(nmc));
+  // A fraction above one, and one on a group.
+  EXPECT_THAT(Parse("Fe8/3O4"),
+              ElementsAre(Pair("Fe", Rational(8, 3)), Pair("O", Rational(4))));
+  EXPECT_THAT(Parse("(Fe2O3)1/2"),
+              ElementsAre(Pair("Fe", Rational(1)), Pair("O", Rational(3, 2))));
+}
+
 TEST(Formula, LeadingMultipliersOnLaterParts) {
   // Washing soda Na2CO3·10H2O: a multi-digit multiplier.
   EXPECT_THAT(Parse("Na2CO3·10H2O"),
@@ -368,7 +384,11 @@ std::vector<BadCase> BadCases() {
       {"Ee", "unknown_element", 1},
       {"Uuo", "unknown_element", 1},  // Not accepted (formula.h).
       {"NaClXx", "unknown_element", 5},
-      {"Fe1.1234567", "count_too_large", 3},  // 7 decimals.
+      {"Fe1.1234567", "count_too_large", 3},   // 7 decimals.
+      {"Fe1/0O", "malformed_formula", 4},      // Divides by zero.
+      {"Fe0/3O", "malformed_formula", 3},      // Zero fraction.
+      {"Fe1/3000000O", "count_too_large", 4},  // Denominator too large.
+      {"Fe1/O", "malformed_formula", 4},       // No denominator.
       {"Fe10000000", "count_too_large", 3},
       {"Fe1000001", "count_too_large", 3},
       {"CuSO4·10000000H2O", "count_too_large", 7},
