@@ -837,7 +837,7 @@ void ApplyChromiumFerromagnetSaturation(const OxidationAssignment& a,
   }
   if (!any_chromium) return;
   int state = 0;
-  Rational chromium(0), halide(0), oxide(0), other_anion(0);
+  Rational chromium(0), halide(0), oxide(0), sulfide(0), other_anion(0);
   for (const AssignedState& s : a.states) {
     const int z = s.element->atomic_number;
     if (s.unit >= 0) continue;
@@ -851,6 +851,8 @@ void ApplyChromiumFerromagnetSaturation(const OxidationAssignment& a,
       halide = halide + s.count;
     } else if (z == 8) {
       oxide = oxide + s.count;
+    } else if (z == 16 && s.state == -2) {
+      sulfide = sulfide + s.count;
     } else {
       other_anion = other_anion + s.count;
     }
@@ -866,7 +868,8 @@ void ApplyChromiumFerromagnetSaturation(const OxidationAssignment& a,
     telluride_units = true;
   }
   const char* note = nullptr;
-  if (state == 3 && oxide.IsZero() && other_anion.IsZero() &&
+  if (state == 3 && oxide.IsZero() && sulfide.IsZero() &&
+      other_anion.IsZero() &&
       ((telluride_units && halide.IsZero()) ||
        (!telluride_units && halide == chromium * Rational(3)))) {
     note =
@@ -874,8 +877,15 @@ void ApplyChromiumFerromagnetSaturation(const OxidationAssignment& a,
         "90° Cr-X-Cr superexchange between half-filled t2g shells, "
         "Goodenough-Kanamori rules), 2S = 3 μB per Cr; CrCl3 stacks its "
         "layers antiferromagnetically and reaches it in a small field";
+  } else if (state == 3 && oxide.IsZero() && other_anion.IsZero() &&
+             !telluride_units && halide == chromium && sulfide == chromium) {
+    note =
+        "saturation: CrSBr-type layers, ferromagnetic within the layer "
+        "(Cr(III), half-filled t2g) and stacked antiferromagnetically; a "
+        "field of about 1 T aligns them: 2S = 3 μB per Cr";
   } else if (state == 4 && !telluride_units && halide.IsZero() &&
-             other_anion.IsZero() && oxide == chromium * Rational(2)) {
+             sulfide.IsZero() && other_anion.IsZero() &&
+             oxide == chromium * Rational(2)) {
     note =
         "saturation: rutile CrO2, a half-metallic ferromagnet: 2S = 2 μB "
         "per Cr";
