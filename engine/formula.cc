@@ -296,7 +296,10 @@ class FormulaParser {
     }
     // "cis-[PtCl2(NH3)2]": geometric-isomer prefixes name an arrangement,
     // not a composition; they are noted and skipped.
-    if (!text_.empty() && IsLower(text_[0])) SkipIsomerPrefixes();
+    if (!text_.empty() &&
+        (IsLower(text_[0]) || static_cast<unsigned char>(text_[0]) >= 0x80)) {
+      SkipPrefixes();
+    }
     // The storage of this thread's last formula, where it was handed back;
     // else one allocation each for most formulas' terms and amounts.
     FormulaStorage& storage = ThreadFormulaStorage();
@@ -605,29 +608,48 @@ class FormulaParser {
   }
 
   // Skips the leading isomer prefixes at pos_ ("cis-", "trans-", "fac-",
-  // "mer-", one or more), with an info naming them.
-  void SkipIsomerPrefixes() {
-    static constexpr absl::string_view kPrefixes[] = {"cis-", "trans-", "fac-",
-                                                      "mer-"};
-    std::string seen;
-    bool found = true;
-    while (found) {
-      found = false;
-      for (absl::string_view p : kPrefixes) {
+  // "mer-", one or more) and polymorph prefixes ("γ-", "gamma-", "α-"),
+  // with an info naming each kind.
+  void SkipPrefixes() {
+    static constexpr absl::string_view kIsomers[] = {"cis-", "trans-", "fac-",
+                                                     "mer-"};
+    // Greek letters, written or spelled, as phase names use them (γ-Fe2O3
+    // maghemite, α-Al2O3 corundum, β-Ga2O3, κ-Al2O3).
+    static constexpr absl::string_view kPolymorphs[] = {
+        "α-",     "β-",       "γ-",    "δ-",     "ε-",     "ζ-",
+        "η-",     "θ-",       "κ-",    "alpha-", "beta-",  "gamma-",
+        "delta-", "epsilon-", "zeta-", "eta-",   "theta-", "kappa-"};
+    const auto skip = [this](absl::Span<const absl::string_view> prefixes,
+                             std::string* seen) {
+      for (absl::string_view p : prefixes) {
         if (absl::StartsWith(text_.substr(pos_), p) &&
             pos_ + p.size() < text_.size()) {
-          absl::StrAppend(&seen, p);
+          absl::StrAppend(seen, p);
           pos_ += p.size();
-          found = true;
+          return true;
         }
       }
+      return false;
+    };
+    std::string isomer, polymorph;
+    while (skip(kIsomers, &isomer) || skip(kPolymorphs, &polymorph)) {
     }
-    if (seen.empty()) return;
-    infos_.push_back(FormulaIssue{
-        codes::kIsomerPrefix, 1,
-        absl::StrCat("the prefix '", seen,
-                     "' names a geometric isomer; the composition, states "
-                     "and estimates do not depend on it")});
+    if (!isomer.empty()) {
+      infos_.push_back(FormulaIssue{
+          codes::kIsomerPrefix, 1,
+          absl::StrCat("the prefix '", isomer,
+                       "' names a geometric isomer; the composition, states "
+                       "and estimates do not depend on it")});
+    }
+    if (!polymorph.empty()) {
+      infos_.push_back(FormulaIssue{
+          codes::kPolymorphPrefix, 1,
+          absl::StrCat("the prefix '", polymorph,
+                       "' names a polymorph; the composition and states do "
+                       "not depend on it, but magnetic order does, and the "
+                       "estimates assume the usual structure of the "
+                       "composition")});
+    }
   }
 
   absl::Status Failed(FormulaIssue* error) {

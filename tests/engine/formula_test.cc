@@ -977,6 +977,35 @@ TEST(FormulaNotations, IsomerPrefixesAreSetAsideWithAnInfo) {
   EXPECT_FALSE(ParseFormula("cis-", &issue).ok());
 }
 
+TEST(FormulaNotations, PolymorphPrefixesAreSetAsideWithAnInfo) {
+  // Phase names: maghemite γ-Fe2O3, corundum α-Al2O3, β-Ga2O3 (Greenwood
+  // and Earnshaw, Chemistry of the Elements, 2nd ed., from memory).
+  for (const char* pair :
+       {"γ-Fe2O3|Fe2O3", "gamma-Fe2O3|Fe2O3", "α-Al2O3|Al2O3",
+        "beta-Ga2O3|Ga2O3", "κ-Al2O3|Al2O3", "δ-Bi2O3|Bi2O3"}) {
+    const std::vector<std::string> texts = absl::StrSplit(pair, '|');
+    SCOPED_TRACE(pair);
+    const Formula f = ParseOrFail(texts[0]);
+    EXPECT_EQ(AmountsText(texts[0]), AmountsText(texts[1]));
+    ASSERT_EQ(f.infos.size(), 1u);
+    EXPECT_EQ(f.infos[0].code, "polymorph_prefix");
+    EXPECT_THAT(f.infos[0].message,
+                HasSubstr(texts[0].substr(0, texts[0].find('-') + 1)));
+  }
+  // Both kinds of prefix, each named once.
+  const Formula both = ParseOrFail("trans-β-[CoCl2(en)2]Cl");
+  ASSERT_EQ(both.infos.size(), 2u);
+  EXPECT_EQ(both.infos[0].code, "isomer_prefix");
+  EXPECT_EQ(both.infos[1].code, "polymorph_prefix");
+  // A prefix alone is no formula; an unknown Greek letter is an error that
+  // names its column; δ elsewhere is still the nonstoichiometry variable.
+  FormulaIssue issue;
+  EXPECT_FALSE(ParseFormula("γ-", &issue).ok());
+  EXPECT_FALSE(ParseFormula("ω-Fe2O3", &issue).ok());
+  EXPECT_EQ(issue.column, 1);
+  EXPECT_EQ(AmountsText("YBa2Cu3O7-δ"), AmountsText("YBa2Cu3O7"));
+}
+
 TEST(FormulaAbbreviations, UnknownAbbreviationNamesItsTextAndColumn) {
   FormulaIssue issue;
   absl::StatusOr<Formula> f = ParseFormula("[Fe(bpz)3]Cl2", &issue);
