@@ -673,15 +673,17 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   // there, so that a minor Co does not become Co(II) beside Ni(III) to
   // spare the Ni mix: NMC811 is Ni(II)/Ni(III) with Co(III), not Ni(III)
   // with Co(II).
+  // The counts are compared scaled: each plan's scaled count is its count
+  // times the one positive scale, an exact integer.
   bool nickel_mix_free = false;
   if (oxide && lithium && nickel && !fluorine) {
-    Rational cations(0), oxygen(0);
+    int64_t cations = 0, oxygen = 0;
     bool metals_only = true;
     for (const ElementPlan& p : plans) {
       if (p.element->atomic_number == 8) {
-        oxygen = p.count;
+        oxygen = p.scaled_count;
       } else if (IsMetal(*p.element)) {
-        cations = cations + p.count;
+        cations += p.scaled_count;
       } else {
         metals_only = false;
       }
@@ -698,13 +700,13 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   // Earnshaw, Chemistry of the Elements, 2nd ed., ch. 24, from memory).
   bool halide_only = false;
   if (heavy_halogen && transition_metal && !fluorine) {
-    Rational halogen(0), oxygen(0);
+    int64_t halogen = 0, oxygen = 0;  // Scaled, as above.
     for (const ElementPlan& p : plans) {
       const int z = p.element->atomic_number;
-      if (IsHeavyHalogen(z)) halogen = halogen + p.count;
-      if (z == 8) oxygen = oxygen + p.count;
+      if (IsHeavyHalogen(z)) halogen += p.scaled_count;
+      if (z == 8) oxygen += p.scaled_count;
     }
-    halide_only = !oxygen.IsZero() && oxygen < halogen * Rational(3);
+    halide_only = oxygen != 0 && oxygen < halogen * 3;
   }
   // The B sites of an ordered double perovskite, delafossites and the
   // cations of Zintl phases read their own state preferences, and the
