@@ -803,7 +803,8 @@ class FormulaParser {
                         kMaxFormulaCount));
       return false;
     }
-    *count = Rational(integer * frac_den + frac_num, frac_den);
+    // At most kMaxCountDecimals decimals here (more failed above).
+    *count = Rational::Decimal(integer * frac_den + frac_num, decimals);
     if (count->IsZero()) {
       Fail(codes::kMalformedFormula, start,
            absl::StrCat("count at column ", Column(start), " is zero"));
