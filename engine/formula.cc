@@ -5,6 +5,7 @@
 #include <cstdint>
 #include <utility>
 
+#include "absl/base/attributes.h"
 #include "absl/container/inlined_vector.h"
 #include "absl/strings/match.h"
 #include "absl/strings/str_cat.h"
@@ -31,12 +32,11 @@ constexpr size_t kTypicalTerms = 8;
 using Items =
     absl::InlinedVector<std::pair<const Element*, Rational>, kTypicalTerms>;
 
-bool CheckedMultiply(const Rational& a, const Rational& b, Rational* out) {
-  // Fast paths: most counts are multiplied by 1 or are small integers.
-  if (b.num() == 1 && b.den() == 1) {
-    *out = a;
-    return true;
-  }
+// CheckedMultiply for a factor other than 1, out of line: its 128-bit
+// arithmetic needs a long prologue, which the usual factor 1 skips.
+ABSL_ATTRIBUTE_NOINLINE bool CheckedMultiplyOther(const Rational& a,
+                                                  const Rational& b,
+                                                  Rational* out) {
   if (a.den() == 1 && b.den() == 1 && a.num() <= kMaxExactMagnitude &&
       b.num() <= kMaxExactMagnitude) {
     const __int128 p = static_cast<__int128>(a.num()) * b.num();
@@ -58,6 +58,15 @@ bool CheckedMultiply(const Rational& a, const Rational& b, Rational* out) {
   if (rn > kMaxExactMagnitude || rd > kMaxExactMagnitude) return false;
   *out = Rational(static_cast<int64_t>(rn), static_cast<int64_t>(rd));
   return true;
+}
+
+bool CheckedMultiply(const Rational& a, const Rational& b, Rational* out) {
+  // Fast paths: most counts are multiplied by 1 or are small integers.
+  if (b.num() == 1 && b.den() == 1) {
+    *out = a;
+    return true;
+  }
+  return CheckedMultiplyOther(a, b, out);
 }
 
 // Superscript digits 0-9 and signs, as UTF-8.
