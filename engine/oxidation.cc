@@ -50,7 +50,8 @@ struct ElementPlan {
   internal::AnionClass anions = internal::AnionClass::kHard;
   bool oxide = false;  // The formula holds free oxygen.
   bool declared = false;
-  // No free hydride: the reading holds free carbon or nitrogen.
+  // No free hydride: the element is hydrogen and the reading holds free
+  // carbon or nitrogen.
   bool no_hydride = false;
   // Options of its own (PlanStore), with common ones listed apart.
   bool custom = false;
@@ -767,7 +768,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
                           chalcogen_pairs || pnictide_only || zintl ||
                           own_rows || clusters || nickel_mix_free || inversion;
   for (ElementPlan& p : plans) {
-    p.no_hydride = carbon_or_nitrogen;
+    p.no_hydride = carbon_or_nitrogen && p.element->atomic_number == 1;
     p.oxide = oxide;
     p.anions = anions;
     if (p.declared) continue;
@@ -1031,21 +1032,17 @@ struct Forbidden {
   int high = 0;
 };
 
-// Whether element `i` may take option `o`. Undeclared elements keep to
-// common states when `common_only`, and mix valence only with two scaled
-// atoms; declared states are always kept. The forbidden option is dropped.
-// In a strict search, free hydrogen is not a hydride beside free carbon or
-// nitrogen.
-bool Allowed(const ElementPlan& p, int i, bool common_only, bool strict,
+// Whether element `i` may take option `o`, one of its options() or
+// common_options() (which keep undeclared elements to common states).
+// Undeclared elements mix valence only with two scaled atoms; declared
+// states are always kept. The forbidden option is dropped. In a strict
+// search, free hydrogen is not a hydride beside free carbon or nitrogen.
+bool Allowed(const ElementPlan& p, int i, bool strict,
              const Forbidden& forbidden, const StateOption& o) {
   if (!p.declared) {
     if (o.mixed() && p.scaled_count < 2) return false;
     if (o.needs_oxide && !p.oxide) return false;
-    if (common_only && !(o.low_common && o.high_common)) return false;
-    if (strict && p.no_hydride && o.low < 0 && p.element != nullptr &&
-        p.element->atomic_number == 1) {
-      return false;
-    }
+    if (strict && p.no_hydride && o.low < 0) return false;
   }
   return forbidden.element != i || o.low != forbidden.low ||
          o.high != forbidden.high;
@@ -1067,7 +1064,7 @@ void BuildList(const Plans& plans, size_t i, const Forbidden& forbidden,
     list.min_weight = list.min_uncommon_weight = Weight::Infinite();
     for (const StateOption& o :
          common_only ? p.common_options() : p.options()) {
-      if (!Allowed(p, static_cast<int>(i), common_only, strict, forbidden, o)) {
+      if (!Allowed(p, static_cast<int>(i), strict, forbidden, o)) {
         continue;
       }
       // A radical unit (nitric oxide, superoxide) ranks after a
