@@ -1059,6 +1059,7 @@ void BuildList(const Plans& plans, size_t i, const Forbidden& forbidden,
     CandidateList& list =
         common_only ? candidates->narrow[i] : candidates->wide[i];
     list.begin = candidates->all.size();
+    list.mixed = 0;
     list.min_contribution = std::numeric_limits<int64_t>::max();
     list.max_contribution = std::numeric_limits<int64_t>::min();
     list.min_weight = list.min_uncommon_weight = Weight::Infinite();
@@ -1079,6 +1080,7 @@ void BuildList(const Plans& plans, size_t i, const Forbidden& forbidden,
           unit ? Weight() : Weight::Of(0, 0, o.LowExtraNatural(p.anions));
       candidates->all.push_back(
           Candidate{o.index, o.low, o.high, weight, per_low_atom});
+      if (o.mixed()) ++list.mixed;
       // The least this candidate adds: with as many atoms as may be in
       // the lower state when that lowers the weight.
       const Weight least =
