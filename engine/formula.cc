@@ -743,6 +743,52 @@ class FormulaParser {
   // `warn_hydrate` is false for the leading multiplier of a part, where a
   // separator has already been written.
   bool ParseCount(Rational* count, bool warn_hydrate = true) {
+    return ParsePlainCount(count, warn_hydrate) ||
+           ParseAnyCount(count, warn_hydrate);
+  }
+
+  // The usual count, small and inline: ASCII digits, perhaps a '.' and up
+  // to kMaxCountDecimals decimals, non-zero, within kMaxFormulaCount, with
+  // no subscript digit, sign or hydrate warning after it. Parses it and
+  // returns true, or leaves pos_ as it was and returns false, for
+  // ParseAnyCount (which reads the same counts the same way).
+  bool ParsePlainCount(Rational* count, bool warn_hydrate) {
+    size_t pos = pos_;
+    int64_t integer = 0;
+    while (pos < text_.size() && IsAsciiDigit(text_[pos])) {
+      if (pos - pos_ >= 7) return false;  // Maybe above kMaxFormulaCount.
+      integer = integer * 10 + (text_[pos] - '0');
+      ++pos;
+    }
+    if (pos == pos_ || integer > kMaxFormulaCount) return false;
+    int64_t frac_num = 0, frac_den = 1;
+    int decimals = 0;
+    if (pos < text_.size()) {
+      if (static_cast<unsigned char>(text_[pos]) >= 0x80) return false;
+      if (text_[pos] == '.' && pos + 1 < text_.size() &&
+          IsAsciiDigit(text_[pos + 1])) {
+        ++pos;
+        while (pos < text_.size() && IsAsciiDigit(text_[pos])) {
+          if (decimals == kMaxCountDecimals) return false;
+          frac_num = frac_num * 10 + (text_[pos] - '0');
+          frac_den *= 10;
+          ++decimals;
+          ++pos;
+        }
+        if (warn_hydrate && text_.substr(pos, 3) == "H2O") return false;
+      }
+    }
+    if (pos < text_.size() && (text_[pos] == '+' || text_[pos] == '-')) {
+      return false;
+    }
+    const int64_t units = integer * frac_den + frac_num;
+    if (units == 0) return false;
+    *count = Rational::Decimal(units, decimals);
+    pos_ = pos;
+    return true;
+  }
+
+  bool ParseAnyCount(Rational* count, bool warn_hydrate) {
     const size_t start = pos_;
     int64_t integer = 0;
     int digits = 0;
