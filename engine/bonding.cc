@@ -74,19 +74,28 @@ bool IsAurideOrPlatinide(const Formula& formula) {
 // silver sulfides (Cu2S, Cu5FeS4) stay ionic: their metals are not
 // counted.
 bool IsMetalRichChalcogenide(const Formula& formula) {
-  Rational metal(0), chalcogen(0);
+  // The elements first, with no sums: most formulas hold another non-metal
+  // (an oxide) or no chalcogen, and leave here.
+  bool chalcogen_present = false;
   for (const ElementAmount& a : formula.amounts) {
     const Element& e = *a.element;
-    const int z = e.atomic_number;
-    if (IsHeavyChalcogen(z)) {
-      chalcogen = chalcogen + a.count;
-    } else if (e.block == Block::kD && e.group >= 3 && e.group <= 10) {
-      metal = metal + a.count;
+    if (IsHeavyChalcogen(e.atomic_number)) {
+      chalcogen_present = true;
     } else if (!IsMetal(e)) {
       return false;
     }
   }
-  return !chalcogen.IsZero() && chalcogen < metal;
+  if (!chalcogen_present) return false;
+  Rational metal(0), chalcogen(0);
+  for (const ElementAmount& a : formula.amounts) {
+    const Element& e = *a.element;
+    if (IsHeavyChalcogen(e.atomic_number)) {
+      chalcogen = chalcogen + a.count;
+    } else if (e.block == Block::kD && e.group >= 3 && e.group <= 10) {
+      metal = metal + a.count;
+    }
+  }
+  return chalcogen < metal;
 }
 
 // The Zintl line: the electronegativity difference from which an alkali

@@ -3,6 +3,7 @@
 #include <array>
 #include <cmath>
 #include <cstring>
+#include <initializer_list>
 #include <memory>
 #include <numeric>
 
@@ -10,6 +11,7 @@
 #include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
+#include "absl/strings/str_join.h"
 #include "absl/strings/str_split.h"
 #include "absl/strings/strip.h"
 #include "engine/aufbau.h"
@@ -40,6 +42,21 @@ void Add(CompositionReport* r, Severity severity, std::string code,
 
 std::string SignedState(int state) {
   return state > 0 ? absl::StrCat("+", state) : absl::StrCat(state);
+}
+
+// The pieces of a short message joined, as absl::StrCat joins them, in a
+// buffer on the stack and copied out once: StrCat sizes its result with
+// resize, which fills it before the pieces are copied in (libstdc++ has no
+// uninitialised resize), and its result allocates anyway past 15 bytes.
+std::string ShortMessage(std::initializer_list<absl::string_view> pieces) {
+  char buffer[128];
+  size_t n = 0;
+  for (absl::string_view piece : pieces) {
+    if (piece.size() > sizeof(buffer) - n) return absl::StrJoin(pieces, "");
+    std::memcpy(buffer + n, piece.data(), piece.size());
+    n += piece.size();
+  }
+  return std::string(buffer, n);
 }
 
 std::string AssignmentText(const OxidationAssignment& a) {
@@ -1314,12 +1331,14 @@ CompositionReport Analyze(const CompositionInput& input) {
   for (const AssignedState& s : r.assignment->states) {
     if (s.unit < 0 && ++free_states[s.element->atomic_number] == 2) {
       Add(&r, Severity::kInfo, codes::kMixedValence,
-          absl::StrCat(s.element->symbol, " is mixed valence"));
+          ShortMessage({s.element->symbol, " is mixed valence"}));
     }
     if (!s.common) {
+      // The state signed as SignedState signs it.
       Add(&r, Severity::kWarning, codes::kUncommonOxidationState,
-          absl::StrCat(s.element->symbol, SignedState(s.state),
-                       " is not a common oxidation state"));
+          ShortMessage({s.element->symbol, s.state > 0 ? "+" : "",
+                        absl::AlphaNum(s.state).Piece(),
+                        " is not a common oxidation state"}));
     }
   }
 

@@ -5,6 +5,7 @@
 #include <cstdint>
 #include <utility>
 
+#include "absl/base/attributes.h"
 #include "absl/container/inlined_vector.h"
 #include "absl/strings/match.h"
 #include "absl/strings/str_cat.h"
@@ -31,12 +32,11 @@ constexpr size_t kTypicalTerms = 8;
 using Items =
     absl::InlinedVector<std::pair<const Element*, Rational>, kTypicalTerms>;
 
-bool CheckedMultiply(const Rational& a, const Rational& b, Rational* out) {
-  // Fast paths: most counts are multiplied by 1 or are small integers.
-  if (b.num() == 1 && b.den() == 1) {
-    *out = a;
-    return true;
-  }
+// CheckedMultiply for a factor other than 1, out of line: its 128-bit
+// arithmetic needs a long prologue, which the usual factor 1 skips.
+ABSL_ATTRIBUTE_NOINLINE bool CheckedMultiplyOther(const Rational& a,
+                                                  const Rational& b,
+                                                  Rational* out) {
   if (a.den() == 1 && b.den() == 1 && a.num() <= kMaxExactMagnitude &&
       b.num() <= kMaxExactMagnitude) {
     const __int128 p = static_cast<__int128>(a.num()) * b.num();
@@ -58,6 +58,15 @@ bool CheckedMultiply(const Rational& a, const Rational& b, Rational* out) {
   if (rn > kMaxExactMagnitude || rd > kMaxExactMagnitude) return false;
   *out = Rational(static_cast<int64_t>(rn), static_cast<int64_t>(rd));
   return true;
+}
+
+bool CheckedMultiply(const Rational& a, const Rational& b, Rational* out) {
+  // Fast paths: most counts are multiplied by 1 or are small integers.
+  if (b.num() == 1 && b.den() == 1) {
+    *out = a;
+    return true;
+  }
+  return CheckedMultiplyOther(a, b, out);
 }
 
 // Superscript digits 0-9 and signs, as UTF-8.
@@ -757,6 +766,54 @@ class FormulaParser {
   // `warn_hydrate` is false for the leading multiplier of a part, where a
   // separator has already been written.
   bool ParseCount(Rational* count, bool warn_hydrate = true) {
+    return ParsePlainCount(count, warn_hydrate) ||
+           ParseAnyCount(count, warn_hydrate);
+  }
+
+  // The usual count, small and inline: ASCII digits, perhaps a '.' and up
+  // to kMaxCountDecimals decimals, non-zero, within kMaxFormulaCount, with
+  // no subscript digit, sign or hydrate warning after it. Parses it and
+  // returns true, or leaves pos_ as it was and returns false, for
+  // ParseAnyCount (which reads the same counts the same way).
+  bool ParsePlainCount(Rational* count, bool warn_hydrate) {
+    size_t pos = pos_;
+    int64_t integer = 0;
+    while (pos < text_.size() && IsAsciiDigit(text_[pos])) {
+      if (pos - pos_ >= 7) return false;  // Maybe above kMaxFormulaCount.
+      integer = integer * 10 + (text_[pos] - '0');
+      ++pos;
+    }
+    if (pos == pos_ || integer > kMaxFormulaCount) return false;
+    int64_t frac_num = 0, frac_den = 1;
+    int decimals = 0;
+    if (pos < text_.size()) {
+      if (static_cast<unsigned char>(text_[pos]) >= 0x80) return false;
+      if (text_[pos] == '.' && pos + 1 < text_.size() &&
+          IsAsciiDigit(text_[pos + 1])) {
+        ++pos;
+        while (pos < text_.size() && IsAsciiDigit(text_[pos])) {
+          if (decimals == kMaxCountDecimals) return false;
+          frac_num = frac_num * 10 + (text_[pos] - '0');
+          frac_den *= 10;
+          ++decimals;
+          ++pos;
+        }
+        if (warn_hydrate && text_.substr(pos, 3) == "H2O") return false;
+      }
+    }
+    // A sign ("1-x") or a fraction bar ("1/3") is ParseAnyCount's.
+    if (pos < text_.size() &&
+        (text_[pos] == '+' || text_[pos] == '-' || text_[pos] == '/')) {
+      return false;
+    }
+    const int64_t units = integer * frac_den + frac_num;
+    if (units == 0) return false;
+    *count = Rational::Decimal(units, decimals);
+    pos_ = pos;
+    return true;
+  }
+
+  bool ParseAnyCount(Rational* count, bool warn_hydrate) {
     const size_t start = pos_;
     int64_t integer = 0;
     int digits = 0;
@@ -854,7 +911,11 @@ class FormulaParser {
                         kMaxFormulaCount));
       return false;
     }
-    *count = Rational(integer * frac_den + frac_num, frac_den * fraction_den);
+    // At most kMaxCountDecimals decimals here (more failed above); a
+    // fraction has none.
+    *count = fraction_den > 1
+                 ? Rational(integer, fraction_den)
+                 : Rational::Decimal(integer * frac_den + frac_num, decimals);
     if (count->IsZero()) {
       Fail(codes::kMalformedFormula, start,
            absl::StrCat("count at column ", Column(start), " is zero"));

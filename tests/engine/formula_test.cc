@@ -166,6 +166,37 @@ TEST(Formula, DecimalLimitsAreInclusive) {
   EXPECT_THAT(Parse("Fe1.125"), ElementsAre(Pair("Fe", Rational(9, 8))));
 }
 
+TEST(Formula, CountsAreExactDecimalsWhateverTheirDigits) {
+  // Integer parts up to kMaxFormulaCount with up to kMaxCountDecimals
+  // decimals, leading zeros included (the parser reads the usual count on
+  // a short path and the rest on the general one: both must agree).
+  std::mt19937 rng(11);
+  std::uniform_int_distribution<int64_t> integer(0, 1000000);
+  std::uniform_int_distribution<int> decimals(0, 6), zeros(0, 2);
+  for (int i = 0; i < 3000; ++i) {
+    const int64_t whole = i < 20 ? i : integer(rng);
+    const int d = decimals(rng);
+    int64_t power = 1;
+    for (int k = 0; k < d; ++k) power *= 10;
+    const int64_t fraction =
+        std::uniform_int_distribution<int64_t>(0, power - 1)(rng);
+    if (whole == 0 && fraction == 0) continue;  // A zero count: an error.
+    std::string digits = d > 0 ? std::to_string(fraction) : "";
+    digits.insert(0, static_cast<size_t>(d) - digits.size(), '0');
+    const std::string text =
+        absl::StrCat("Fe", std::string(zeros(rng), '0'), whole,
+                     d > 0 ? "." : "", d > 0 ? digits : "", "O");
+    EXPECT_THAT(
+        Parse(text),
+        ElementsAre(Pair("Fe", Rational(whole * power + fraction, power)),
+                    Pair("O", Rational(1))))
+        << text;
+  }
+  // An ASCII digit followed by a subscript one reads on: Fe12.
+  EXPECT_THAT(Parse("Fe1₂O"),
+              ElementsAre(Pair("Fe", Rational(12)), Pair("O", Rational(1))));
+}
+
 TEST(Formula, UnicodeSubscriptsMatchAsciiDigits) {
   EXPECT_THAT(Parse("Fe₂O₃"),
               ElementsAre(Pair("Fe", Rational(2)), Pair("O", Rational(3))));
