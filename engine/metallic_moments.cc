@@ -64,6 +64,14 @@ constexpr double kMin3dShareWithRareEarth = 0.8;
 // memory), 1.45 per Fe; the heavy rare earths order against it (GdFe2
 // about 3.7 μB, TbFe2 about 5.8 μB per formula unit, ibid.).
 constexpr double kIronMomentInLavesPhase = 1.45;
+// The Co moment of the cubic Laves phases RCo2 with a heavy rare earth:
+// Co is an exchange-enhanced Pauli paramagnet in YCo2 and LuCo2, and the
+// heavy rare earth's exchange field induces about 1 μB per Co, antiparallel
+// to the 4f moment (GdCo2 about 4.8 μB per formula unit at 4.2 K, ErCo2
+// about 6.9; Gratz and Markosyan, J. Phys.: Condens. Matter 13, R385
+// (2001), and Duc and Goto, Handbook on the Physics and Chemistry of Rare
+// Earths 26 (1999), from memory).
+constexpr double kInducedCobaltMomentInLavesPhase = 1.0;
 // The Fe moment of the tetragonal ThMn12-type phases RFe11M, whose
 // stabilising atom M (Ti, V, Si) lowers it (RFe10M2 falls below the 3d
 // share that the rule asks, and gets none): YFe11Ti holds about
@@ -340,10 +348,25 @@ std::optional<MetallicMomentEstimate> EstimateRareEarth(
   const double tolerance = 1e-9 * std::max(1.0, metal_atoms);
   const bool laves = co == 0 && std::abs(fe - 2 * rare) < tolerance &&
                      std::abs(metal_atoms - fe - rare) < tolerance;
-  if (!laves && (fe + co) < kMin3dShareWithRareEarth * metal_atoms) {
+  // RCo2 with nothing else: the induced Co moment needs a heavy rare
+  // earth's exchange field alone; light ones (their Co moment is smaller
+  // and less settled) and Y or Lu (no 4f moment) get none.
+  const bool cobalt_laves = fe == 0 && std::abs(co - 2 * rare) < tolerance &&
+                            std::abs(metal_atoms - co - rare) < tolerance;
+  if (cobalt_laves && (light > 0 || heavy == 0)) {
+    return None(e, heavy == 0 && light == 0
+                       ? "cubic Laves phase RCo2 without a 4f moment: Co is "
+                         "an exchange-enhanced Pauli paramagnet there (YCo2, "
+                         "LuCo2); no estimate"
+                       : "cubic Laves phase RCo2 with a light rare earth: "
+                         "the induced Co moment is not settled there; no "
+                         "estimate");
+  }
+  if (!laves && !cobalt_laves &&
+      (fe + co) < kMin3dShareWithRareEarth * metal_atoms) {
     return None(
         e, absl::StrFormat("rare earth with Fe or Co below %g%% of the metal "
-                           "atoms (RCo2, RFe3 types): the 3d moment is "
+                           "atoms (RFe3, RCo3 types): the 3d moment is "
                            "reduced or induced there; no estimate",
                            100 * kMin3dShareWithRareEarth));
   }
@@ -353,9 +376,10 @@ std::optional<MetallicMomentEstimate> EstimateRareEarth(
   const bool thmn12 = !laves && co == 0 && fe + tolerance < partners &&
                       fe + tolerance >= 8 * rare &&
                       std::abs(partners - 12 * rare) < tolerance;
-  const double m3d = laves    ? kIronMomentInLavesPhase * fe
-                     : thmn12 ? kIronMomentInThMn12Phase * fe
-                              : kIronMomentWithRareEarth * fe +
+  const double m3d = laves          ? kIronMomentInLavesPhase * fe
+                     : cobalt_laves ? kInducedCobaltMomentInLavesPhase * co
+                     : thmn12       ? kIronMomentInThMn12Phase * fe
+                                    : kIronMomentWithRareEarth * fe +
                                     kCobaltMomentWithRareEarth * co;
   const double m = m3d + light - heavy;
   e.model = MomentModel::kRareEarth4fWith3d;
@@ -364,11 +388,15 @@ std::optional<MetallicMomentEstimate> EstimateRareEarth(
       "%s %.4g μB (%s) with the trivalent 4f sublattice "
       "(light rare earths %.4g μB parallel, heavy %.4g μB antiparallel)%s; "
       "no paramagnetic effective moment from composition%s",
-      laves    ? "cubic Laves phase RFe2: Fe sublattice"
-      : thmn12 ? "ThMn12-type RFe12-xMx: Fe sublattice"
-               : "3d sublattice",
+      laves          ? "cubic Laves phase RFe2: Fe sublattice"
+      : cobalt_laves ? "cubic Laves phase RCo2: induced Co sublattice"
+      : thmn12       ? "ThMn12-type RFe12-xMx: Fe sublattice"
+                     : "3d sublattice",
       m3d,
-      laves    ? "1.45 μB per Fe, as in YFe2"
+      laves ? "1.45 μB per Fe, as in YFe2"
+      : cobalt_laves
+          ? "about 1 μB per Co, induced by the heavy rare earth's exchange "
+            "field"
       : thmn12 ? "1.8 μB per Fe, as in YFe11Ti; the stabilising atoms 0"
                : "Fe 2.2, Co 1.6 μB per atom",
       light, heavy, m < 0 ? "; the 4f sublattice dominates" : "", cautions);

@@ -383,6 +383,24 @@ TEST(MetallicMoments, LavesPhasesRFe2) {
   EXPECT_THAT(Estimate("GdFe2").note, HasSubstr("Laves"));
 }
 
+TEST(MetallicMoments, LavesPhasesRCo2WithAHeavyRareEarth) {
+  // Measured at 4.2 K (Gratz and Markosyan, J. Phys.: Condens. Matter 13,
+  // R385 (2001); Duc and Goto, Handbook on the Physics and Chemistry of
+  // Rare Earths 26 (1999); from memory): GdCo2 about 4.8, TbCo2 about 7.0,
+  // HoCo2 about 8.0, ErCo2 about 6.9 uB per formula unit; the Co moment,
+  // about 1 uB, is induced by the rare earth and opposes its moment.
+  ExpectMoment("GdCo2", MomentModel::kRareEarth4fWith3d, 4.8, 0.5);
+  ExpectMoment("TbCo2", MomentModel::kRareEarth4fWith3d, 7.0, 0.6);
+  ExpectMoment("HoCo2", MomentModel::kRareEarth4fWith3d, 8.0, 0.6);
+  ExpectMoment("ErCo2", MomentModel::kRareEarth4fWith3d, 6.9, 0.6);
+  EXPECT_THAT(Estimate("ErCo2").note, HasSubstr("induced Co"));
+  // YCo2 and LuCo2 are exchange-enhanced Pauli paramagnets (same sources):
+  // no ordered moment to estimate. The light RCo2 are left alone.
+  ExpectNone("YCo2", "Pauli paramagnet");
+  ExpectNone("LuCo2", "Pauli paramagnet");
+  ExpectNone("NdCo2", "light rare earth");
+}
+
 TEST(MetallicMoments, ThMn12TypeRFe11Ti) {
   // YFe11Ti about 19-20 uB per formula unit at 4.2 K, about 1.8 per Fe
   // (Buschow, Rep. Prog. Phys. 54, 1123 (1991); Coey, Magnetism and
@@ -409,7 +427,7 @@ TEST(MetallicMoments, CeriumBesideIronIsTetravalent) {
 
 TEST(MetallicMoments, RareEarthCompoundsOutsideTheDomain) {
   ExpectNone("NdFe3", "below 80%");
-  ExpectNone("YCo2", "below 80%");
+  ExpectNone("GdCo3", "below 80%");
   ExpectNone("NdMn2", "Mn");
 }
 
