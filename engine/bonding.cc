@@ -137,25 +137,30 @@ AtomCounts CountAtoms(const Formula& formula) {
   return n;
 }
 
-// Polyphosphides and polyarsenides of the d-block metals: P or As the
-// only non-metal, beside d-block metals only, with at least four pnictogen
-// atoms per metal atom of groups 3 to 10 (FeP4, OsP4, MnP4, CrP4) or two
-// per metal atom of groups 11 and 12 (CuP2, ZnP4, CdP4, Ag3P11). Their
-// pnictogen atoms bond to each other in chains, layers and cages, each
-// charged by the generalised 8 - N rule: FeP4 is low-spin Fe(II) with two
-// three-bonded P0 and two two-bonded P-1 per formula unit, CdP4 is Cd(II)
-// with the same (P4)2- framework, CuP2 is Cu(I) (von Schnering and Hoenle,
-// Chem. Rev. 88 (1988) 243; Jeitschko and Braun, Acta Crystallogr. B 34
-// (1978) 3196; from memory). The pyrite- and marcasite-type diphosphides
-// of groups 8 to 10 (FeP2, PtP2) and the skutterudites (CoP3) keep their
-// pair and ring anions.
+// Polypnictides of the d-block metals: P, As or Sb the only non-metal,
+// beside d-block metals only, with more pnictogen than isolated anions
+// could take. Groups 3 to 10 need at least four pnictogen atoms per metal
+// atom (FeP4, OsP4, MnP4, CrP4), group 11 two (CuP2, Ag3P11), and group
+// 12, whose two electrons fill two thirds of an isolated pnictide, more
+// than two thirds (ZnSb, CdP4, ZnAs2, Zn4Sb3). Their pnictogen atoms bond
+// to each other in pairs, chains, layers and cages, each charged by the
+// generalised 8 - N rule: FeP4 is low-spin Fe(II) with two three-bonded P0
+// and two two-bonded P-1 per formula unit, CdP4 is Cd(II) with the same
+// (P4)2- framework, CuP2 is Cu(I) (von Schnering and Hoenle, Chem. Rev. 88
+// (1988) 243; Jeitschko and Braun, Acta Crystallogr. B 34 (1978) 3196;
+// from memory); ZnSb and CdSb hold Sb2 4- dumbbells, beta-Zn4Sb3 and
+// Cd4Sb3 isolated Sb3- beside them (Mozharivskyj et al., Chem. Mater. 16
+// (2004) 1580; Snyder et al., Nature Mater. 3 (2004) 458; from memory).
+// Zn3P2, Zn3As2 and Cd3As2 balance with isolated anions and stay ionic;
+// the pyrite- and marcasite-type diphosphides of groups 8 to 10 (FeP2,
+// PtP2) and the skutterudites (CoP3) keep their pair and ring anions.
 bool IsPolypnictide(const Formula& formula) {
   // The elements first, with no arithmetic: most formulas leave here.
   bool any_pnictogen = false, any_metal = false;
   for (const ElementAmount& a : formula.amounts) {
     const Element& e = *a.element;
     const int z = e.atomic_number;
-    if (z == 15 || z == 33) {
+    if (z == 15 || z == 33 || z == 51) {
       any_pnictogen = true;
     } else if (e.block == Block::kD && e.group >= 3 && e.group <= 12) {
       any_metal = true;
@@ -164,39 +169,23 @@ bool IsPolypnictide(const Formula& formula) {
     }
   }
   if (!any_pnictogen || !any_metal) return false;
+  // Counted three times over, so that group 12's two thirds stay whole;
+  // with group 12 the pnictogen must exceed the need.
   Rational pnictogen(0), needed(0);
+  bool group12 = false;
   for (const ElementAmount& a : formula.amounts) {
     const Element& e = *a.element;
     const int z = e.atomic_number;
-    if (z == 15 || z == 33) {
-      pnictogen = pnictogen + a.count;
+    if (z == 15 || z == 33 || z == 51) {
+      pnictogen = pnictogen + a.count * Rational(3);
     } else {
-      needed = needed + a.count * Rational(e.group >= 11 ? 2 : 4);
+      group12 |= e.group == 12;
+      needed = needed + a.count * Rational(e.group == 12   ? 2
+                                           : e.group == 11 ? 6
+                                                           : 12);
     }
   }
-  return !(pnictogen < needed);
-}
-
-// Arsenides and antimonides of zinc and cadmium with more pnictogen than
-// the metal's two electrons can fill as isolated anions (3 x pnictogen > 2
-// x metal): ZnSb and CdSb hold Sb2 4- dumbbells, beta-Zn4Sb3 and Cd4Sb3
-// isolated Sb3- beside Sb2 4- dumbbells, and they are Zintl phases
-// (Mozharivskyj et al., Chem. Mater. 16 (2004) 1580; Snyder et al.,
-// Nature Mater. 3 (2004) 458; from memory). Zn3As2 and Cd3As2 balance
-// with isolated anions and stay ionic; ZnAs2 and CdP4 are polypnictides.
-bool IsGroup12PnictogenRich(const Formula& formula) {
-  Rational metal(0), pnictogen(0);
-  for (const ElementAmount& a : formula.amounts) {
-    const int z = a.element->atomic_number;
-    if (z == 30 || z == 48) {
-      metal = metal + a.count;
-    } else if (z == 33 || z == 51) {
-      pnictogen = pnictogen + a.count;
-    } else {
-      return false;
-    }
-  }
-  return !metal.IsZero() && Rational(2) * metal < Rational(3) * pnictogen;
+  return group12 ? needed < pnictogen : !(pnictogen < needed);
 }
 
 // Layered transition-metal pnictides of the ThCr2Si2, CaAl2Si2 and
@@ -349,8 +338,8 @@ BondingClass ClassifyBonding(const Formula& formula) {
   if (IsPolypnictide(formula)) {
     c.kind = CompositionKind::kZintl;
     c.rule =
-        "a d-block metal with a pnictogen-rich polyanion (FeP4, CdP4): the "
-        "generalised 8-N rule";
+        "a d-block metal with a pnictogen-rich polyanion (FeP4, CdP4, "
+        "ZnSb): the generalised 8-N rule";
     return c;
   }
   if (all_metal && IsAurideOrPlatinide(formula)) {
@@ -465,13 +454,6 @@ BondingClass ClassifyBonding(const Formula& formula) {
     }
     c.kind = CompositionKind::kZintl;
     c.rule = "an electropositive metal with p-block polyanions";
-    return c;
-  }
-  if (IsGroup12PnictogenRich(formula)) {
-    c.kind = CompositionKind::kZintl;
-    c.rule =
-        "zinc or cadmium with more arsenic or antimony than isolated "
-        "anions take: pnictogen pairs (ZnSb)";
     return c;
   }
   c.kind = CompositionKind::kIonic;
