@@ -395,6 +395,24 @@ const CompoundCase kCompounds[] = {
     // Peroxide: BaO2 is Ba(II) O2(2-) (G&E), read as the peroxide unit
     // (data/units.tsv), whose O-1 is its fixed state, not an uncommon one.
     {"BaO2", 0, "Ba:2x1 O:-1x2[peroxide]", 0, 0, 0, 0, 1},
+    // Polysulfide, polyselenide and polytelluride chains Xn 2-: the two
+    // ends X-1, the inner atoms X0 (Greenwood and Earnshaw, Chemistry of
+    // the Elements, 2nd ed., ch. 15, from memory); Li2S8, Li2S6 and Li2S4
+    // are the dissolved intermediates of the lithium-sulfur cell
+    // (Manthiram et al., Chem. Rev. 114 (2014) 11751, from memory). They
+    // did not balance before.
+    {"Li2S8", 0, "Li:1x2 S:0x6[octasulfide] S:-1x2[octasulfide]", 0, 0, 0, 0,
+     1},
+    {"Li2S6", 0, "Li:1x2 S:0x4[hexasulfide] S:-1x2[hexasulfide]", 0, 0, 0, 0,
+     1},
+    {"Na2S4", 0, "Na:1x2 S:0x2[tetrasulfide] S:-1x2[tetrasulfide]", 0, 0, 0, 0,
+     1},
+    {"K2S5", 0, "K:1x2 S:0x3[pentasulfide] S:-1x2[pentasulfide]", 0, 0, 0, 0,
+     1},
+    {"K2Se5", 0, "K:1x2 Se:0x3[pentaselenide] Se:-1x2[pentaselenide]", 0, 0, 0,
+     0, 1},
+    {"K2Te3", 0, "K:1x2 Te:0x1[tritelluride] Te:-1x2[tritelluride]", 0, 0, 0, 0,
+     1},
 };
 
 TEST(Oxidation, CompoundTableBestAssignments) {
