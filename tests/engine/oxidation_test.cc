@@ -413,6 +413,10 @@ const CompoundCase kCompounds[] = {
      0, 1},
     {"K2Te3", 0, "K:1x2 Te:0x1[tritelluride] Te:-1x2[tritelluride]", 0, 0, 0, 0,
      1},
+    // The subvalent bismuth iodide Bi4I4, Bi-Bi bonded chains with Bi(I)
+    // formally (G&E, ch. 13): Bi+1 is uncommon, but it balances without
+    // an inverted pair (it read Bi-3 with I+3 before Bi+1 was listed).
+    {"Bi4I4", 0, "Bi:1x4 I:-1x4", 1, 0, 8, 0, 1},
 };
 
 TEST(Oxidation, CompoundTableBestAssignments) {
