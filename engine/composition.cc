@@ -223,27 +223,26 @@ int SplitElectrons(const LigandFieldSplitting& split) {
 // first use (SplitD allocates; every record's d ions ask).
 int SplitUnpaired(int d, Geometry g, SpinState spin) {
   constexpr int kGeometries = kGeometryCount;
-  using Table = std::array<int, 11 * kGeometries * 2>;
+  constexpr int kSpins = 3;  // SpinState values.
+  using Table = std::array<int, 11 * kGeometries * kSpins>;
   static const Table* const kTable = [] {
     auto* t = new Table;
     for (int n = 0; n <= 10; ++n) {
       for (int k = 0; k < kGeometries; ++k) {
-        for (int low = 0; low < 2; ++low) {
+        for (int spin = 0; spin < kSpins; ++spin) {
           const Geometry geometry = static_cast<Geometry>(k);
-          (*t)[(n * kGeometries + k) * 2 + low] =
+          (*t)[(n * kGeometries + k) * kSpins + spin] =
               geometry == Geometry::kFree
                   ? 0
-                  : SplitD(n, geometry,
-                           low ? SpinState::kLow : SpinState::kHigh)
-                        .unpaired;
+                  : SplitD(n, geometry, static_cast<SpinState>(spin)).unpaired;
         }
       }
     }
     return t;
   }();
   if (d < 0 || d > 10) return 0;
-  return (*kTable)[(d * kGeometries + static_cast<int>(g)) * 2 +
-                   (spin == SpinState::kLow ? 1 : 0)];
+  return (*kTable)[(d * kGeometries + static_cast<int>(g)) * kSpins +
+                   static_cast<int>(spin)];
 }
 
 // The effective range of a 3d ion in one spin state: spin-only widened

@@ -785,6 +785,19 @@ constexpr AbbreviationCase kAbbreviations[] = {
     {"dmg", "C4H7N2O2"},
     {"Hdmg", "C4H7N2O2"},
     {"ppy", "C11H8N"},
+    // Macrocycles and cot (IUPAC Red Book 2005, Table VII, from memory;
+    // the capitalised TPP, OEP and Pc are common practice).
+    {"tpp", "C44H28N4"},
+    {"TPP", "C44H28N4"},
+    {"oep", "C36H44N4"},
+    {"OEP", "C36H44N4"},
+    {"pc", "C32H16N8"},
+    {"Pc", "C32H16N8"},
+    {"salen", "C16H14N2O2"},
+    {"cyclam", "C10H24N4"},
+    {"cyclen", "C8H20N4"},
+    {"tacn", "C6H15N3"},
+    {"cot", "C8H8"},
 };
 
 // The amounts of `text` as "Sym=count" in formula order.
