@@ -74,19 +74,28 @@ bool IsAurideOrPlatinide(const Formula& formula) {
 // silver sulfides (Cu2S, Cu5FeS4) stay ionic: their metals are not
 // counted.
 bool IsMetalRichChalcogenide(const Formula& formula) {
-  Rational metal(0), chalcogen(0);
+  // The elements first, with no sums: most formulas hold another non-metal
+  // (an oxide) or no chalcogen, and leave here.
+  bool chalcogen_present = false;
   for (const ElementAmount& a : formula.amounts) {
     const Element& e = *a.element;
-    const int z = e.atomic_number;
-    if (IsHeavyChalcogen(z)) {
-      chalcogen = chalcogen + a.count;
-    } else if (e.block == Block::kD && e.group >= 3 && e.group <= 10) {
-      metal = metal + a.count;
+    if (IsHeavyChalcogen(e.atomic_number)) {
+      chalcogen_present = true;
     } else if (!IsMetal(e)) {
       return false;
     }
   }
-  return !chalcogen.IsZero() && chalcogen < metal;
+  if (!chalcogen_present) return false;
+  Rational metal(0), chalcogen(0);
+  for (const ElementAmount& a : formula.amounts) {
+    const Element& e = *a.element;
+    if (IsHeavyChalcogen(e.atomic_number)) {
+      chalcogen = chalcogen + a.count;
+    } else if (e.block == Block::kD && e.group >= 3 && e.group <= 10) {
+      metal = metal + a.count;
+    }
+  }
+  return chalcogen < metal;
 }
 
 // The Zintl line: the electronegativity difference from which an alkali
@@ -166,6 +175,28 @@ bool IsPolypnictide(const Formula& formula) {
     }
   }
   return !(pnictogen < needed);
+}
+
+// Arsenides and antimonides of zinc and cadmium with more pnictogen than
+// the metal's two electrons can fill as isolated anions (3 x pnictogen > 2
+// x metal): ZnSb and CdSb hold Sb2 4- dumbbells, beta-Zn4Sb3 and Cd4Sb3
+// isolated Sb3- beside Sb2 4- dumbbells, and they are Zintl phases
+// (Mozharivskyj et al., Chem. Mater. 16 (2004) 1580; Snyder et al.,
+// Nature Mater. 3 (2004) 458; from memory). Zn3As2 and Cd3As2 balance
+// with isolated anions and stay ionic; ZnAs2 and CdP4 are polypnictides.
+bool IsGroup12PnictogenRich(const Formula& formula) {
+  Rational metal(0), pnictogen(0);
+  for (const ElementAmount& a : formula.amounts) {
+    const int z = a.element->atomic_number;
+    if (z == 30 || z == 48) {
+      metal = metal + a.count;
+    } else if (z == 33 || z == 51) {
+      pnictogen = pnictogen + a.count;
+    } else {
+      return false;
+    }
+  }
+  return !metal.IsZero() && Rational(2) * metal < Rational(3) * pnictogen;
 }
 
 // Layered transition-metal pnictides of the ThCr2Si2, CaAl2Si2 and
@@ -434,6 +465,13 @@ BondingClass ClassifyBonding(const Formula& formula) {
     }
     c.kind = CompositionKind::kZintl;
     c.rule = "an electropositive metal with p-block polyanions";
+    return c;
+  }
+  if (IsGroup12PnictogenRich(formula)) {
+    c.kind = CompositionKind::kZintl;
+    c.rule =
+        "zinc or cadmium with more arsenic or antimony than isolated "
+        "anions take: pnictogen pairs (ZnSb)";
     return c;
   }
   c.kind = CompositionKind::kIonic;

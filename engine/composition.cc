@@ -3,6 +3,7 @@
 #include <array>
 #include <cmath>
 #include <cstring>
+#include <initializer_list>
 #include <memory>
 #include <numeric>
 
@@ -10,6 +11,7 @@
 #include "absl/strings/numbers.h"
 #include "absl/strings/str_cat.h"
 #include "absl/strings/str_format.h"
+#include "absl/strings/str_join.h"
 #include "absl/strings/str_split.h"
 #include "absl/strings/strip.h"
 #include "engine/aufbau.h"
@@ -40,6 +42,21 @@ void Add(CompositionReport* r, Severity severity, std::string code,
 
 std::string SignedState(int state) {
   return state > 0 ? absl::StrCat("+", state) : absl::StrCat(state);
+}
+
+// The pieces of a short message joined, as absl::StrCat joins them, in a
+// buffer on the stack and copied out once: StrCat sizes its result with
+// resize, which fills it before the pieces are copied in (libstdc++ has no
+// uninitialised resize), and its result allocates anyway past 15 bytes.
+std::string ShortMessage(std::initializer_list<absl::string_view> pieces) {
+  char buffer[128];
+  size_t n = 0;
+  for (absl::string_view piece : pieces) {
+    if (piece.size() > sizeof(buffer) - n) return absl::StrJoin(pieces, "");
+    std::memcpy(buffer + n, piece.data(), piece.size());
+    n += piece.size();
+  }
+  return std::string(buffer, n);
 }
 
 std::string AssignmentText(const OxidationAssignment& a) {
@@ -836,7 +853,7 @@ void ApplyChromiumFerromagnetSaturation(const OxidationAssignment& a,
   }
   if (!any_chromium) return;
   int state = 0;
-  Rational chromium(0), halide(0), oxide(0), other_anion(0);
+  Rational chromium(0), halide(0), oxide(0), sulfide(0), other_anion(0);
   for (const AssignedState& s : a.states) {
     const int z = s.element->atomic_number;
     if (s.unit >= 0) continue;
@@ -850,6 +867,8 @@ void ApplyChromiumFerromagnetSaturation(const OxidationAssignment& a,
       halide = halide + s.count;
     } else if (z == 8) {
       oxide = oxide + s.count;
+    } else if (z == 16 && s.state == -2) {
+      sulfide = sulfide + s.count;
     } else {
       other_anion = other_anion + s.count;
     }
@@ -865,7 +884,8 @@ void ApplyChromiumFerromagnetSaturation(const OxidationAssignment& a,
     telluride_units = true;
   }
   const char* note = nullptr;
-  if (state == 3 && oxide.IsZero() && other_anion.IsZero() &&
+  if (state == 3 && oxide.IsZero() && sulfide.IsZero() &&
+      other_anion.IsZero() &&
       ((telluride_units && halide.IsZero()) ||
        (!telluride_units && halide == chromium * Rational(3)))) {
     note =
@@ -873,8 +893,15 @@ void ApplyChromiumFerromagnetSaturation(const OxidationAssignment& a,
         "90° Cr-X-Cr superexchange between half-filled t2g shells, "
         "Goodenough-Kanamori rules), 2S = 3 μB per Cr; CrCl3 stacks its "
         "layers antiferromagnetically and reaches it in a small field";
+  } else if (state == 3 && oxide.IsZero() && other_anion.IsZero() &&
+             !telluride_units && halide == chromium && sulfide == chromium) {
+    note =
+        "saturation: CrSBr-type layers, ferromagnetic within the layer "
+        "(Cr(III), half-filled t2g) and stacked antiferromagnetically; a "
+        "field of about 1 T aligns them: 2S = 3 μB per Cr";
   } else if (state == 4 && !telluride_units && halide.IsZero() &&
-             other_anion.IsZero() && oxide == chromium * Rational(2)) {
+             sulfide.IsZero() && other_anion.IsZero() &&
+             oxide == chromium * Rational(2)) {
     note =
         "saturation: rutile CrO2, a half-metallic ferromagnet: 2S = 2 μB "
         "per Cr";
@@ -1303,12 +1330,14 @@ CompositionReport Analyze(const CompositionInput& input) {
   for (const AssignedState& s : r.assignment->states) {
     if (s.unit < 0 && ++free_states[s.element->atomic_number] == 2) {
       Add(&r, Severity::kInfo, codes::kMixedValence,
-          absl::StrCat(s.element->symbol, " is mixed valence"));
+          ShortMessage({s.element->symbol, " is mixed valence"}));
     }
     if (!s.common) {
+      // The state signed as SignedState signs it.
       Add(&r, Severity::kWarning, codes::kUncommonOxidationState,
-          absl::StrCat(s.element->symbol, SignedState(s.state),
-                       " is not a common oxidation state"));
+          ShortMessage({s.element->symbol, s.state > 0 ? "+" : "",
+                        absl::AlphaNum(s.state).Piece(),
+                        " is not a common oxidation state"}));
     }
   }
 

@@ -87,6 +87,8 @@ inline constexpr char kUnknownHydration[] = "unknown_hydration";
 // A leading geometric-isomer prefix ("cis-", "trans-", "fac-", "mer-")
 // was read and set aside: it names an arrangement, not a composition.
 inline constexpr char kIsomerPrefix[] = "isomer_prefix";
+// A leading polymorph prefix ("γ-", "gamma-") was read and set aside.
+inline constexpr char kPolymorphPrefix[] = "polymorph_prefix";
 // A mineral site mixture "(Fe,Ni)9S8" was read as an equal split of the
 // site among its members.
 inline constexpr char kSiteMixtureEqualSplit[] = "site_mixture_equal_split";

@@ -5,6 +5,7 @@
 #include <cstdint>
 #include <utility>
 
+#include "absl/base/attributes.h"
 #include "absl/container/inlined_vector.h"
 #include "absl/strings/match.h"
 #include "absl/strings/str_cat.h"
@@ -31,12 +32,11 @@ constexpr size_t kTypicalTerms = 8;
 using Items =
     absl::InlinedVector<std::pair<const Element*, Rational>, kTypicalTerms>;
 
-bool CheckedMultiply(const Rational& a, const Rational& b, Rational* out) {
-  // Fast paths: most counts are multiplied by 1 or are small integers.
-  if (b.num() == 1 && b.den() == 1) {
-    *out = a;
-    return true;
-  }
+// CheckedMultiply for a factor other than 1, out of line: its 128-bit
+// arithmetic needs a long prologue, which the usual factor 1 skips.
+ABSL_ATTRIBUTE_NOINLINE bool CheckedMultiplyOther(const Rational& a,
+                                                  const Rational& b,
+                                                  Rational* out) {
   if (a.den() == 1 && b.den() == 1 && a.num() <= kMaxExactMagnitude &&
       b.num() <= kMaxExactMagnitude) {
     const __int128 p = static_cast<__int128>(a.num()) * b.num();
@@ -58,6 +58,15 @@ bool CheckedMultiply(const Rational& a, const Rational& b, Rational* out) {
   if (rn > kMaxExactMagnitude || rd > kMaxExactMagnitude) return false;
   *out = Rational(static_cast<int64_t>(rn), static_cast<int64_t>(rd));
   return true;
+}
+
+bool CheckedMultiply(const Rational& a, const Rational& b, Rational* out) {
+  // Fast paths: most counts are multiplied by 1 or are small integers.
+  if (b.num() == 1 && b.den() == 1) {
+    *out = a;
+    return true;
+  }
+  return CheckedMultiplyOther(a, b, out);
 }
 
 // Superscript digits 0-9 and signs, as UTF-8.
@@ -296,7 +305,10 @@ class FormulaParser {
     }
     // "cis-[PtCl2(NH3)2]": geometric-isomer prefixes name an arrangement,
     // not a composition; they are noted and skipped.
-    if (!text_.empty() && IsLower(text_[0])) SkipIsomerPrefixes();
+    if (!text_.empty() &&
+        (IsLower(text_[0]) || static_cast<unsigned char>(text_[0]) >= 0x80)) {
+      SkipPrefixes();
+    }
     // The storage of this thread's last formula, where it was handed back;
     // else one allocation each for most formulas' terms and amounts.
     FormulaStorage& storage = ThreadFormulaStorage();
@@ -605,29 +617,48 @@ class FormulaParser {
   }
 
   // Skips the leading isomer prefixes at pos_ ("cis-", "trans-", "fac-",
-  // "mer-", one or more), with an info naming them.
-  void SkipIsomerPrefixes() {
-    static constexpr absl::string_view kPrefixes[] = {"cis-", "trans-", "fac-",
-                                                      "mer-"};
-    std::string seen;
-    bool found = true;
-    while (found) {
-      found = false;
-      for (absl::string_view p : kPrefixes) {
+  // "mer-", one or more) and polymorph prefixes ("γ-", "gamma-", "α-"),
+  // with an info naming each kind.
+  void SkipPrefixes() {
+    static constexpr absl::string_view kIsomers[] = {"cis-", "trans-", "fac-",
+                                                     "mer-"};
+    // Greek letters, written or spelled, as phase names use them (γ-Fe2O3
+    // maghemite, α-Al2O3 corundum, β-Ga2O3, κ-Al2O3).
+    static constexpr absl::string_view kPolymorphs[] = {
+        "α-",     "β-",       "γ-",    "δ-",     "ε-",     "ζ-",
+        "η-",     "θ-",       "κ-",    "alpha-", "beta-",  "gamma-",
+        "delta-", "epsilon-", "zeta-", "eta-",   "theta-", "kappa-"};
+    const auto skip = [this](absl::Span<const absl::string_view> prefixes,
+                             std::string* seen) {
+      for (absl::string_view p : prefixes) {
         if (absl::StartsWith(text_.substr(pos_), p) &&
             pos_ + p.size() < text_.size()) {
-          absl::StrAppend(&seen, p);
+          absl::StrAppend(seen, p);
           pos_ += p.size();
-          found = true;
+          return true;
         }
       }
+      return false;
+    };
+    std::string isomer, polymorph;
+    while (skip(kIsomers, &isomer) || skip(kPolymorphs, &polymorph)) {
     }
-    if (seen.empty()) return;
-    infos_.push_back(FormulaIssue{
-        codes::kIsomerPrefix, 1,
-        absl::StrCat("the prefix '", seen,
-                     "' names a geometric isomer; the composition, states "
-                     "and estimates do not depend on it")});
+    if (!isomer.empty()) {
+      infos_.push_back(FormulaIssue{
+          codes::kIsomerPrefix, 1,
+          absl::StrCat("the prefix '", isomer,
+                       "' names a geometric isomer; the composition, states "
+                       "and estimates do not depend on it")});
+    }
+    if (!polymorph.empty()) {
+      infos_.push_back(FormulaIssue{
+          codes::kPolymorphPrefix, 1,
+          absl::StrCat("the prefix '", polymorph,
+                       "' names a polymorph; the composition and states do "
+                       "not depend on it, but magnetic order does, and the "
+                       "estimates assume the usual structure of the "
+                       "composition")});
+    }
   }
 
   absl::Status Failed(FormulaIssue* error) {
@@ -729,11 +760,60 @@ class FormulaParser {
     return 0;
   }
 
-  // Parses a count at pos_ (ASCII integer or decimal, or subscript digits).
+  // Parses a count at pos_ (ASCII integer, decimal or fraction, or subscript
+  // digits).
   // Returns false on error. Leaves `count` untouched if there is none.
   // `warn_hydrate` is false for the leading multiplier of a part, where a
   // separator has already been written.
   bool ParseCount(Rational* count, bool warn_hydrate = true) {
+    return ParsePlainCount(count, warn_hydrate) ||
+           ParseAnyCount(count, warn_hydrate);
+  }
+
+  // The usual count, small and inline: ASCII digits, perhaps a '.' and up
+  // to kMaxCountDecimals decimals, non-zero, within kMaxFormulaCount, with
+  // no subscript digit, sign or hydrate warning after it. Parses it and
+  // returns true, or leaves pos_ as it was and returns false, for
+  // ParseAnyCount (which reads the same counts the same way).
+  bool ParsePlainCount(Rational* count, bool warn_hydrate) {
+    size_t pos = pos_;
+    int64_t integer = 0;
+    while (pos < text_.size() && IsAsciiDigit(text_[pos])) {
+      if (pos - pos_ >= 7) return false;  // Maybe above kMaxFormulaCount.
+      integer = integer * 10 + (text_[pos] - '0');
+      ++pos;
+    }
+    if (pos == pos_ || integer > kMaxFormulaCount) return false;
+    int64_t frac_num = 0, frac_den = 1;
+    int decimals = 0;
+    if (pos < text_.size()) {
+      if (static_cast<unsigned char>(text_[pos]) >= 0x80) return false;
+      if (text_[pos] == '.' && pos + 1 < text_.size() &&
+          IsAsciiDigit(text_[pos + 1])) {
+        ++pos;
+        while (pos < text_.size() && IsAsciiDigit(text_[pos])) {
+          if (decimals == kMaxCountDecimals) return false;
+          frac_num = frac_num * 10 + (text_[pos] - '0');
+          frac_den *= 10;
+          ++decimals;
+          ++pos;
+        }
+        if (warn_hydrate && text_.substr(pos, 3) == "H2O") return false;
+      }
+    }
+    // A sign ("1-x") or a fraction bar ("1/3") is ParseAnyCount's.
+    if (pos < text_.size() &&
+        (text_[pos] == '+' || text_[pos] == '-' || text_[pos] == '/')) {
+      return false;
+    }
+    const int64_t units = integer * frac_den + frac_num;
+    if (units == 0) return false;
+    *count = Rational::Decimal(units, decimals);
+    pos_ = pos;
+    return true;
+  }
+
+  bool ParseAnyCount(Rational* count, bool warn_hydrate) {
     const size_t start = pos_;
     int64_t integer = 0;
     int digits = 0;
@@ -797,13 +877,45 @@ class FormulaParser {
                          "hydrate was meant, write '·' or '*' instead")});
       }
     }
+    // "Ni1/3": a fraction, as battery and alloy records write their site
+    // shares (LiNi1/3Mn1/3Co1/3O2).
+    int64_t fraction_den = 1;
+    if (!subscript && decimals == 0 && pos_ + 1 < text_.size() &&
+        text_[pos_] == '/' && IsAsciiDigit(text_[pos_ + 1])) {
+      const size_t slash = pos_;
+      ++pos_;
+      int64_t den = 0;
+      while (pos_ < text_.size() && IsAsciiDigit(text_[pos_])) {
+        if (den <= kMaxFractionDenominator)
+          den = den * 10 + (text_[pos_] - '0');
+        ++pos_;
+      }
+      if (den == 0) {
+        Fail(codes::kMalformedFormula, slash,
+             absl::StrCat("fraction bar at column ", Column(slash),
+                          " divides by zero"));
+        return false;
+      }
+      if (den > kMaxFractionDenominator) {
+        Fail(
+            codes::kCountTooLarge, slash,
+            absl::StrCat("fraction bar at column ", Column(slash),
+                         " has a denominator above ", kMaxFractionDenominator));
+        return false;
+      }
+      fraction_den = den;
+    }
     if (integer > kMaxFormulaCount) {
       Fail(codes::kCountTooLarge, start,
            absl::StrCat("count at column ", Column(start), " exceeds ",
                         kMaxFormulaCount));
       return false;
     }
-    *count = Rational(integer * frac_den + frac_num, frac_den);
+    // At most kMaxCountDecimals decimals here (more failed above); a
+    // fraction has none.
+    *count = fraction_den > 1
+                 ? Rational(integer, fraction_den)
+                 : Rational::Decimal(integer * frac_den + frac_num, decimals);
     if (count->IsZero()) {
       Fail(codes::kMalformedFormula, start,
            absl::StrCat("count at column ", Column(start), " is zero"));

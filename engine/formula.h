@@ -82,6 +82,8 @@ inline constexpr size_t kMaxFormulaLength = 1024;
 inline constexpr int kMaxFormulaDepth = 16;
 inline constexpr int64_t kMaxFormulaCount = 1000000;
 inline constexpr int kMaxCountDecimals = 6;
+// The largest denominator of a fractional count ("Ni1/3").
+inline constexpr int64_t kMaxFractionDenominator = 1000000;
 
 // How much of one element a formula unit holds.
 struct ElementAmount {

@@ -37,6 +37,11 @@ using internal::Widening;
 // and shared by every stage.
 // One layer of the search: a free element, or a unit read from a match
 // (element null), whose options are the charges of the match's units.
+//
+// A plan holds no storage of its own (so that the plans of a reading are
+// cleared and rebuilt cheaply): its options are a free element's table
+// (StateOptions() and CommonStateOptions(), which outlive every plan), or
+// options of its own kept in its buffer's PlanStore.
 struct ElementPlan {
   const Element* element = nullptr;
   Rational count;        // Atoms (or units) per formula unit.
@@ -45,37 +50,65 @@ struct ElementPlan {
   internal::AnionClass anions = internal::AnionClass::kHard;
   bool oxide = false;  // The formula holds free oxygen.
   bool declared = false;
-  // No free hydride: the reading holds free carbon or nitrogen.
+  // No free hydride: the element is hydrogen and the reading holds free
+  // carbon or nitrogen.
   bool no_hydride = false;
-  const UnitMatch* match = nullptr;           // For a unit layer,
-  absl::InlinedVector<const Unit*, 2> units;  // the unit of each option.
-  // The declared states, the only options of a declared element; the
-  // unit charges of a unit layer; or, for a d-block metal beside a
-  // pi-acceptor ligand (Ni(CO)4), its options with state 0 added, or for
-  // a metal among chalcogenide anions only, its options with the states
-  // above its chalcogenide maximum made uncommon (custom).
-  absl::InlinedVector<StateOption, 1> fixed_options;
+  // Options of its own (PlanStore), with common ones listed apart.
   bool custom = false;
-  absl::InlinedVector<StateOption, 1> fixed_common_options;  // custom.
-  // A free element's StateOptions() and CommonStateOptions(), looked up
-  // once (the tables outlive every plan).
-  absl::Span<const StateOption> table_options;
-  absl::Span<const StateOption> table_common_options;
+  const UnitMatch* match = nullptr;     // For a unit layer,
+  absl::Span<const Unit* const> units;  // the unit of each option.
+  // The options in search order, and those whose states are all common,
+  // with their index in all (every option of a declared element or a
+  // unit).
+  absl::Span<const StateOption> all;
+  absl::Span<const StateOption> common;
+  // While MakePlans builds the plan: where its own options (declared
+  // states, unit charges or a custom list), its own common options and
+  // its units lie in the PlanStore; own_begin < 0 while it has none.
+  int own_begin = -1, own_end = 0;
+  int own_common_begin = 0, own_common_end = 0;
+  int units_begin = 0, units_end = 0;
 
-  absl::Span<const StateOption> options() const {
-    if (declared || match != nullptr || custom) return fixed_options;
-    return table_options;
-  }
-  // The options whose states are all common, with their index in
-  // options(); all of them for a declared element or a unit.
-  absl::Span<const StateOption> common_options() const {
-    if (custom && !declared) return fixed_common_options;
-    if (declared || match != nullptr) return fixed_options;
-    return table_common_options;
-  }
+  absl::Span<const StateOption> options() const { return all; }
+  absl::Span<const StateOption> common_options() const { return common; }
 };
 
 using Plans = absl::InlinedVector<ElementPlan, 8>;
+
+// The options and units that the plans of one buffer hold of their own:
+// the declared states, the unit charges of a unit layer, or a custom list
+// (a d-block metal beside a pi-acceptor ligand (Ni(CO)4) with state 0
+// added, a metal among chalcogenide anions only with the states above its
+// chalcogenide maximum made uncommon, and the like). Inline room for the
+// usual few, reused from reading to reading.
+struct PlanStore {
+  absl::InlinedVector<StateOption, 16> options;
+  absl::InlinedVector<StateOption, 16> common_options;
+  absl::InlinedVector<const Unit*, 8> units;
+
+  void Clear() {
+    options.clear();
+    common_options.clear();
+    units.clear();
+  }
+  // Points each plan's spans at what it holds here, once nothing more is
+  // added (the vectors may have moved while they grew).
+  void Resolve(Plans* plans) const {
+    for (ElementPlan& p : *plans) {
+      if (p.match != nullptr) {
+        p.units = absl::MakeConstSpan(units).subspan(
+            p.units_begin, p.units_end - p.units_begin);
+      }
+      if (p.own_begin < 0) continue;
+      p.all = absl::MakeConstSpan(options).subspan(p.own_begin,
+                                                   p.own_end - p.own_begin);
+      p.common = p.custom ? absl::MakeConstSpan(common_options)
+                                .subspan(p.own_common_begin,
+                                         p.own_common_end - p.own_common_begin)
+                          : p.all;
+    }
+  }
+};
 using ChargeItems = absl::InlinedVector<ChargeItem, 8>;
 
 // The search's view of the plans: one layer per element.
@@ -539,14 +572,17 @@ bool IsTetrahedralFramework(const Plans& plans) {
 //
 // `scaled_counts` holds each formula element's count times `scale`;
 // `structure` is the formula's StructureClassOf; `order` its
-// NonMetalOrderOf.
+// NonMetalOrderOf. The options and units the plans hold of their own go
+// to `*own`, which must outlive them.
 bool MakePlans(const Formula& formula, const Rational& scale,
                absl::Span<const int64_t> scaled_counts,
                const OxidationOptions& options, const Reading& reading,
                bool zintl, internal::AnionClass structure,
-               const NonMetalOrder& order, Plans* out) {
+               const NonMetalOrder& order, Plans* out, PlanStore* own) {
   Plans& plans = *out;
+  PlanStore& store = *own;
   plans.clear();
+  store.Clear();
   if (!reading.empty() && !MayPlan(formula, scale, reading)) return false;
   plans.reserve(formula.amounts.size() + reading.size());
   bool carbon_or_nitrogen = false;
@@ -564,20 +600,22 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     p.element = a.element;
     const internal::OptionTables tables =
         internal::StateOptionTables(*a.element);
-    p.table_options = tables.all;
-    p.table_common_options = tables.common;
+    p.all = tables.all;
+    p.common = tables.common;
     p.count = count;
     p.scaled_count = in_unit ? (count * scale).num() : scaled_counts[i];
     for (const DeclaredState& d : options.declared) {
       if (d.element != p.element) continue;
+      if (!p.declared) p.own_begin = static_cast<int>(store.options.size());
       p.declared = true;
       bool common = d.state == 0;  // The elemental state is always known.
       for (const KnownOxidationState& k : internal::KnownStates(*p.element)) {
         if (k.state == d.state) common = k.common;
       }
-      p.fixed_options.push_back(internal::MakeStateOption(
-          *p.element, static_cast<int>(p.fixed_options.size()), d.state,
-          d.state, common, common));
+      store.options.push_back(internal::MakeStateOption(
+          *p.element, static_cast<int>(store.options.size()) - p.own_begin,
+          d.state, d.state, common, common));
+      p.own_end = static_cast<int>(store.options.size());
     }
   }
   // A pi-acceptor ligand (carbon monoxide, phosphines: IsPiAcceptor)
@@ -673,15 +711,17 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   // there, so that a minor Co does not become Co(II) beside Ni(III) to
   // spare the Ni mix: NMC811 is Ni(II)/Ni(III) with Co(III), not Ni(III)
   // with Co(II).
+  // The counts are compared scaled: each plan's scaled count is its count
+  // times the one positive scale, an exact integer.
   bool nickel_mix_free = false;
   if (oxide && lithium && nickel && !fluorine) {
-    Rational cations(0), oxygen(0);
+    int64_t cations = 0, oxygen = 0;
     bool metals_only = true;
     for (const ElementPlan& p : plans) {
       if (p.element->atomic_number == 8) {
-        oxygen = p.count;
+        oxygen = p.scaled_count;
       } else if (IsMetal(*p.element)) {
-        cations = cations + p.count;
+        cations += p.scaled_count;
       } else {
         metals_only = false;
       }
@@ -698,13 +738,13 @@ bool MakePlans(const Formula& formula, const Rational& scale,
   // Earnshaw, Chemistry of the Elements, 2nd ed., ch. 24, from memory).
   bool halide_only = false;
   if (heavy_halogen && transition_metal && !fluorine) {
-    Rational halogen(0), oxygen(0);
+    int64_t halogen = 0, oxygen = 0;  // Scaled, as above.
     for (const ElementPlan& p : plans) {
       const int z = p.element->atomic_number;
-      if (IsHeavyHalogen(z)) halogen = halogen + p.count;
-      if (z == 8) oxygen = oxygen + p.count;
+      if (IsHeavyHalogen(z)) halogen += p.scaled_count;
+      if (z == 8) oxygen += p.scaled_count;
     }
-    halide_only = !oxygen.IsZero() && oxygen < halogen * Rational(3);
+    halide_only = oxygen != 0 && oxygen < halogen * 3;
   }
   // The B sites of an ordered double perovskite, delafossites and the
   // cations of Zintl phases read their own state preferences, and the
@@ -728,7 +768,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
                           chalcogen_pairs || pnictide_only || zintl ||
                           own_rows || clusters || nickel_mix_free || inversion;
   for (ElementPlan& p : plans) {
-    p.no_hydride = carbon_or_nitrogen;
+    p.no_hydride = carbon_or_nitrogen && p.element->atomic_number == 1;
     p.oxide = oxide;
     p.anions = anions;
     if (p.declared) continue;
@@ -738,15 +778,19 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     // Elements, 2nd ed., ch. 14, from memory): without fluorine its
     // options stop at the negative ones, which come first in the tables.
     if (z == 8 && !fluorine) {
-      p.table_options = NonPositivePrefix(p.table_options);
-      p.table_common_options = NonPositivePrefix(p.table_common_options);
+      p.all = NonPositivePrefix(p.all);
+      p.common = NonPositivePrefix(p.common);
     }
     if ((hydride_ligand && z == 1) || (halide_only && IsHeavyHalogen(z))) {
       p.custom = true;
       const StateOption o =
           internal::MakeStateOption(*p.element, 0, -1, -1, true, true);
-      p.fixed_options.push_back(o);
-      p.fixed_common_options.push_back(o);
+      p.own_begin = static_cast<int>(store.options.size());
+      p.own_common_begin = static_cast<int>(store.common_options.size());
+      store.options.push_back(o);
+      store.common_options.push_back(o);
+      p.own_end = static_cast<int>(store.options.size());
+      p.own_common_end = static_cast<int>(store.common_options.size());
       continue;
     }
     if (!any_custom) continue;
@@ -794,16 +838,20 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       continue;
     }
     p.custom = true;
+    p.own_begin = static_cast<int>(store.options.size());
+    p.own_common_begin = static_cast<int>(store.common_options.size());
     // Room for the table's options and state 0 at once, rather than
     // growing one option at a time.
-    p.fixed_options.reserve(p.table_options.size() + 1);
-    p.fixed_common_options.reserve(p.table_common_options.size() + 1);
+    store.options.reserve(store.options.size() + p.all.size() + 1);
+    store.common_options.reserve(store.common_options.size() + p.common.size() +
+                                 1);
     bool zero_added = !zero;
     const bool platinum_metal = p.element->block == Block::kD &&
                                 p.element->period >= 5 &&
                                 p.element->group >= 8 && p.element->group <= 10;
-    auto add = [&p, limit, listed, anions, zero, cluster, nitrosyl, inert_pair,
-                attested, platinum_metal, nickel_mix, inverts_positive,
+    auto add = [&p, &store, limit, listed, anions, zero, cluster, nitrosyl,
+                inert_pair, attested, platinum_metal, nickel_mix,
+                inverts_positive,
                 inverts_negative](int low, int high, bool low_common,
                                   bool high_common, bool needs_oxide = false,
                                   const StateOption* table = nullptr) {
@@ -855,7 +903,7 @@ bool MakePlans(const Formula& formula, const Rational& scale,
       // An option of the element's table whose flags stay as they are
       // is the table's, but for its place in this list: copied, not
       // built again.
-      const int index = static_cast<int>(p.fixed_options.size());
+      const int index = static_cast<int>(store.options.size()) - p.own_begin;
       StateOption o;
       if (table != nullptr && low_common == table->low_common &&
           high_common == table->high_common) {
@@ -896,8 +944,10 @@ bool MakePlans(const Formula& formula, const Rational& scale,
         }
       }
       if (nickel_mix && low == 2 && high == 3) o.spread = 0;
-      p.fixed_options.push_back(o);
-      if (o.low_common && o.high_common) p.fixed_common_options.push_back(o);
+      store.options.push_back(o);
+      if (o.low_common && o.high_common) store.common_options.push_back(o);
+      p.own_end = static_cast<int>(store.options.size());
+      p.own_common_end = static_cast<int>(store.common_options.size());
     };
     if (framework && polyanion) {
       // Four-bonded framework atoms (IsTetrahedralFramework): B-1, C0.
@@ -924,7 +974,8 @@ bool MakePlans(const Formula& formula, const Rational& scale,
         add(-1, 0, true, true);
       }
     }
-    for (const StateOption& o : p.table_options) {
+    // p.all is still the table's here (PlanStore::Resolve sets it last).
+    for (const StateOption& o : p.all) {
       if (polyanion && o.low < 0) continue;
       // Among heavy pnictides a transition-metal state wholly above +4 is
       // not met at all (not merely uncommon): the skutterudite IrSb3 is
@@ -948,6 +999,8 @@ bool MakePlans(const Formula& formula, const Rational& scale,
     p.match = m;
     p.count = m->count;
     p.scaled_count = (m->count * scale).num();
+    p.own_begin = p.own_end = static_cast<int>(store.options.size());
+    p.units_begin = p.units_end = static_cast<int>(store.units.size());
     for (const Unit* u : m->units) {
       if (!UnitAccepted(*u, *m, free_elements, [&](size_t k) -> const Element& {
             return *plans[k].element;
@@ -958,14 +1011,17 @@ bool MakePlans(const Formula& formula, const Rational& scale,
           RadicalBoundAsAcceptor(*m, plans, free_elements)) {
         continue;
       }
-      p.units.push_back(u);
+      store.units.push_back(u);
       StateOption o;
       o.low = o.high = u->charge;
-      o.index = static_cast<int>(p.fixed_options.size());
-      p.fixed_options.push_back(o);
+      o.index = p.units_end - p.units_begin;
+      store.options.push_back(o);
+      p.own_end = static_cast<int>(store.options.size());
+      p.units_end = static_cast<int>(store.units.size());
     }
-    if (p.units.empty()) return false;
+    if (p.units_end == p.units_begin) return false;
   }
+  store.Resolve(&plans);
   return !plans.empty();
 }
 
@@ -976,43 +1032,41 @@ struct Forbidden {
   int high = 0;
 };
 
-// Whether element `i` may take option `o`. Undeclared elements keep to
-// common states when `common_only`, and mix valence only with two scaled
-// atoms; declared states are always kept. The forbidden option is dropped.
-// In a strict search, free hydrogen is not a hydride beside free carbon or
-// nitrogen.
-bool Allowed(const ElementPlan& p, int i, bool common_only, bool strict,
+// Whether element `i` may take option `o`, one of its options() or
+// common_options() (which keep undeclared elements to common states).
+// Undeclared elements mix valence only with two scaled atoms; declared
+// states are always kept. The forbidden option is dropped. In a strict
+// search, free hydrogen is not a hydride beside free carbon or nitrogen.
+bool Allowed(const ElementPlan& p, int i, bool strict,
              const Forbidden& forbidden, const StateOption& o) {
   if (!p.declared) {
     if (o.mixed() && p.scaled_count < 2) return false;
     if (o.needs_oxide && !p.oxide) return false;
-    if (common_only && !(o.low_common && o.high_common)) return false;
-    if (strict && p.no_hydride && o.low < 0 && p.element != nullptr &&
-        p.element->atomic_number == 1) {
-      return false;
-    }
+    if (strict && p.no_hydride && o.low < 0) return false;
   }
   return forbidden.element != i || o.low != forbidden.low ||
          o.high != forbidden.high;
 }
 
 // Fills the narrow (`common_only`) or wide candidate list of element `i`,
-// appending to candidates->all.
-void BuildList(const Plans& plans, size_t i, const Forbidden& forbidden,
-               double threshold, bool common_only, bool strict,
-               Candidates* candidates) {
+// appending to candidates->all. Inlined into its callers' loops over the
+// elements: as a call it paid a long prologue per list.
+ABSL_ATTRIBUTE_ALWAYS_INLINE inline void BuildList(
+    const Plans& plans, size_t i, const Forbidden& forbidden, double threshold,
+    bool common_only, bool strict, Candidates* candidates) {
   {
     const ElementPlan& p = plans[i];
     const bool unit = p.match != nullptr;
     CandidateList& list =
         common_only ? candidates->narrow[i] : candidates->wide[i];
     list.begin = candidates->all.size();
+    list.mixed = 0;
     list.min_contribution = std::numeric_limits<int64_t>::max();
     list.max_contribution = std::numeric_limits<int64_t>::min();
     list.min_weight = list.min_uncommon_weight = Weight::Infinite();
     for (const StateOption& o :
          common_only ? p.common_options() : p.options()) {
-      if (!Allowed(p, static_cast<int>(i), common_only, strict, forbidden, o)) {
+      if (!Allowed(p, static_cast<int>(i), strict, forbidden, o)) {
         continue;
       }
       // A radical unit (nitric oxide, superoxide) ranks after a
@@ -1027,6 +1081,7 @@ void BuildList(const Plans& plans, size_t i, const Forbidden& forbidden,
           unit ? Weight() : Weight::Of(0, 0, o.LowExtraNatural(p.anions));
       candidates->all.push_back(
           Candidate{o.index, o.low, o.high, weight, per_low_atom});
+      if (o.mixed()) ++list.mixed;
       // The least this candidate adds: with as many atoms as may be in
       // the lower state when that lowers the weight.
       const Weight least =
@@ -1234,6 +1289,7 @@ struct Search {
   // The plans of the reading being tried and of the best one so far
   // (SearchReadings): they trade places instead of being moved.
   std::array<Plans, 2> plan_buffers;
+  std::array<PlanStore, 2> plan_stores;  // What each buffer's plans hold.
 };
 
 // Finds the best assignment. Exhaustively, it widens the search in stages,
@@ -1449,7 +1505,8 @@ BestReading SearchReadings(const Formula& formula,
       }
       Plans& plans = search->plan_buffers[work];
       if (!MakePlans(formula, scale, search->scaled_counts, options, reading,
-                     search->zintl, search->structure, search->order, &plans)) {
+                     search->zintl, search->structure, search->order, &plans,
+                     &search->plan_stores[work])) {
         continue;
       }
       const Weight bound =

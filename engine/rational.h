@@ -28,6 +28,27 @@ class Rational {
   // REQUIRES: den != 0.
   Rational(int64_t num, int64_t den = 1) : num_(num), den_(den) { Reduce(); }
 
+  // num / 10^decimals, in lowest terms. A power of ten has no prime
+  // factors but 2 and 5, so those are all there is to take out: no gcd
+  // (decimal counts such as 0.67 or 0.25).
+  // REQUIRES: 0 <= decimals <= 18.
+  static Rational Decimal(int64_t num, int decimals) {
+    if (num == 0) return Rational();
+    int twos = 0, fives = 0;
+    while (twos < decimals && num % 2 == 0) {
+      num /= 2;
+      ++twos;
+    }
+    while (fives < decimals && num % 5 == 0) {
+      num /= 5;
+      ++fives;
+    }
+    int64_t den = 1;
+    for (int i = twos; i < decimals; ++i) den *= 2;
+    for (int i = fives; i < decimals; ++i) den *= 5;
+    return Lowest(num, den);
+  }
+
   int64_t num() const { return num_; }
   int64_t den() const { return den_; }
   double ToDouble() const { return static_cast<double>(num_) / den_; }
@@ -48,22 +69,31 @@ class Rational {
       return a.den_ == 1 ? Integer(a.num_ + b.num_)
                          : Rational(a.num_ + b.num_, a.den_);
     }
+    // Both in lowest terms, with g = gcd(a.den, b.den): the sum's
+    // numerator t over a.den / g * b.den shares no factor with the
+    // denominator but what it shares with g (Knuth, The Art of Computer
+    // Programming, vol. 2, 4.5.1, from memory), so the second gcd is
+    // taken with g, and skipped when g is 1.
     const int64_t g = std::gcd(a.den_, b.den_);
-    return Rational(a.num_ * (b.den_ / g) + b.num_ * (a.den_ / g),
-                    a.den_ / g * b.den_);
+    const int64_t t = a.num_ * (b.den_ / g) + b.num_ * (a.den_ / g);
+    if (g == 1) return Lowest(t, a.den_ * b.den_);
+    const int64_t g2 = std::gcd(t < 0 ? -t : t, g);
+    return Lowest(t / g2, a.den_ / g * (b.den_ / g2));
   }
   friend Rational operator-(const Rational& a, const Rational& b) {
-    return a + Rational(-b.num_, b.den_);
+    return a + Lowest(-b.num_, b.den_);
   }
   friend Rational operator*(const Rational& a, const Rational& b) {
     // Fast paths: integers, and a factor 1 (most multipliers).
     if (a.den_ == 1 && b.den_ == 1) return Integer(a.num_ * b.num_);
     if (b.num_ == 1 && b.den_ == 1) return a;
     if (a.num_ == 1 && a.den_ == 1) return b;
+    // Both in lowest terms: with the cross factors taken out, so is the
+    // product.
     const int64_t g1 = std::gcd(a.num_, b.den_);
     const int64_t g2 = std::gcd(b.num_, a.den_);
-    return Rational((a.num_ / (g1 ? g1 : 1)) * (b.num_ / (g2 ? g2 : 1)),
-                    (a.den_ / (g2 ? g2 : 1)) * (b.den_ / (g1 ? g1 : 1)));
+    return Lowest((a.num_ / (g1 ? g1 : 1)) * (b.num_ / (g2 ? g2 : 1)),
+                  (a.den_ / (g2 ? g2 : 1)) * (b.den_ / (g1 ? g1 : 1)));
   }
   friend bool operator==(const Rational& a, const Rational& b) {
     return a.num_ == b.num_ && a.den_ == b.den_;
@@ -81,6 +111,14 @@ class Rational {
   static Rational Integer(int64_t n) {
     Rational r;
     r.num_ = n;
+    return r;
+  }
+
+  // num / den known to be in lowest terms, den > 0 (and 1 when num is 0).
+  static Rational Lowest(int64_t num, int64_t den) {
+    Rational r;
+    r.num_ = num;
+    r.den_ = den;
     return r;
   }
 

@@ -55,14 +55,16 @@ bool Small(const Rational& r) {
   return r.den() <= kMaxDenominator && std::llabs(r.num()) <= kMaxNumerator;
 }
 
-// `v` to three decimals, without trailing zeros: "0.5", "16", "3.7".
-std::string Rounded(double v) {
+// `v` to three decimals, without trailing zeros: "0.5", "16", "3.7". A
+// piece for absl::StrCat and StrAppend, its digits held in the AlphaNum
+// itself: no string is made for it.
+absl::AlphaNum Rounded(double v) {
   const double r = std::round(v * 1000) / 1000;
   // Whole numbers, the usual case, without the floating-point formatter.
   if (r == std::trunc(r) && std::abs(r) < 1e9) {
-    return absl::StrCat(static_cast<int64_t>(r));
+    return absl::AlphaNum(static_cast<int64_t>(r));
   }
-  return absl::StrCat(r);
+  return absl::AlphaNum(r);
 }
 
 // Large cations: the A site of perovskites and hexaferrites and the c site
@@ -957,7 +959,7 @@ namespace {
 
 constexpr double kNoMoment = 1e-9;
 
-std::string Mu(double v) { return Rounded(v); }
+absl::AlphaNum Mu(double v) { return Rounded(v); }
 
 // Σ count × moment of site `s`, from `m` at `*next`.
 double SiteMoment(const Site& s, absl::Span<const double> m, size_t* next) {

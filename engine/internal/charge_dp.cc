@@ -130,6 +130,13 @@ int64_t CeilDiv(int64_t a, int64_t b) { return -FloorDiv(-a, b); }
 // monotone queue), measured on the reference machine.
 constexpr int64_t kMixedVisitCost = 4;
 
+// The visits the work budget charges per cell of a layer with `list`'s
+// candidates.
+int64_t VisitsPerCell(const CandidateList& list) {
+  return static_cast<int64_t>(list.end - list.begin) +
+         (kMixedVisitCost - 1) * static_cast<int64_t>(list.mixed);
+}
+
 // Per-thread buffers of the searches. A search holds at most
 // kMaxSearchCells cells; ReleaseSearchScratch() gives large buffers back.
 struct Scratch {
@@ -338,13 +345,7 @@ Solution SolveCharge(absl::Span<const ChargeItem> items,
     const size_t list_begin = lists[i]->begin, list_end = lists[i]->end;
     if (limits.budget != nullptr) {
       // A mixed candidate's queue costs about four single visits a cell.
-      int64_t per_cell = 0;
-      for (size_t ci = list_begin; ci < list_end; ++ci) {
-        per_cell += candidates.all[ci].low == candidates.all[ci].high
-                        ? 1
-                        : kMixedVisitCost;
-      }
-      const int64_t visits = (next_hi - next_lo + 1) * per_cell;
+      const int64_t visits = (next_hi - next_lo + 1) * VisitsPerCell(*lists[i]);
       if (visits > limits.budget->cell_visits) {
         exhaust();
         return s;
@@ -665,14 +666,8 @@ int64_t NarrowSearchWorkBound(absl::Span<const ChargeItem> items,
     const int64_t lo = std::max(prefix_min, target - rest_max[i + 1]);
     const int64_t hi = std::min(prefix_max, target - rest_min[i + 1]);
     if (hi < lo) continue;
-    int64_t per_cell = 0;
-    for (size_t ci = list.begin; ci < list.end; ++ci) {
-      per_cell += candidates.all[ci].low == candidates.all[ci].high
-                      ? 1
-                      : kMixedVisitCost;
-    }
     *cells += hi - lo + 1;
-    visits += (hi - lo + 1) * per_cell;
+    visits += (hi - lo + 1) * VisitsPerCell(list);
   }
   return visits;
 }

@@ -60,6 +60,9 @@ struct Candidate {
 struct CandidateList {
   size_t begin = 0;
   size_t end = 0;
+  // How many of them mix two states (low != high): the work budget counts
+  // a mixed candidate's cell as several (charge_dp.cc).
+  size_t mixed = 0;
   int64_t min_contribution = 0;
   int64_t max_contribution = 0;
   // Least weight any candidate adds, and least of those with an uncommon

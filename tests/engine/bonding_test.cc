@@ -224,6 +224,27 @@ TEST(Bonding, EuropiumAndYtterbiumAreDivalentInZintlPhases) {
   EXPECT_EQ(Best("Ca14MnSb11"), "Ca:2x14 Mn:3x1 Sb:-3x9 Sb:-2x2");
 }
 
+TEST(Bonding, ZincAndCadmiumAntimonidesHoldSbPairs) {
+  // Mozharivskyj et al., Chem. Mater. 16 (2004) 1580, and Snyder et al.,
+  // Nature Mater. 3 (2004) 458, from memory: ZnSb and CdSb are Zn2+/Cd2+
+  // with Sb2 4- dumbbells; beta-Zn4Sb3 (Zn13Sb10) holds isolated Sb3-
+  // beside Sb2 4- dumbbells.
+  CompositionKind kind = CompositionKind::kIonic;
+  EXPECT_EQ(Best("ZnSb", &kind), "Zn:2x1 Sb:-2x1");
+  EXPECT_EQ(kind, CompositionKind::kZintl);
+  EXPECT_EQ(Best("CdSb", &kind), "Cd:2x1 Sb:-2x1");
+  EXPECT_EQ(kind, CompositionKind::kZintl);
+  EXPECT_EQ(Best("Zn4Sb3", &kind), "Zn:2x4 Sb:-3x2 Sb:-2x1");
+  EXPECT_EQ(kind, CompositionKind::kZintl);
+  EXPECT_EQ(Best("Zn13Sb10"), "Zn:2x13 Sb:-3x6 Sb:-2x4");
+  // Normal-valence Zn3As2 and Cd3As2 balance with isolated As3- and stay
+  // ionic (Greenwood and Earnshaw, Chemistry of the Elements, 2nd ed.,
+  // ch. 13, from memory).
+  EXPECT_EQ(Best("Cd3As2", &kind), "Cd:2x3 As:-3x2");
+  EXPECT_EQ(kind, CompositionKind::kIonic);
+  EXPECT_EQ(Classify("Zn3As2").kind, CompositionKind::kIonic);
+}
+
 TEST(Bonding, LayeredPnictidesHoldDivalentTransitionMetals) {
   // Rotter, Tegel and Johrendt, Phys. Rev. Lett. 101 (2008) 107006, and
   // Johrendt, J. Mater. Chem. 21 (2011) 13726, from memory: BaFe2As2 is

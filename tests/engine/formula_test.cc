@@ -166,6 +166,37 @@ TEST(Formula, DecimalLimitsAreInclusive) {
   EXPECT_THAT(Parse("Fe1.125"), ElementsAre(Pair("Fe", Rational(9, 8))));
 }
 
+TEST(Formula, CountsAreExactDecimalsWhateverTheirDigits) {
+  // Integer parts up to kMaxFormulaCount with up to kMaxCountDecimals
+  // decimals, leading zeros included (the parser reads the usual count on
+  // a short path and the rest on the general one: both must agree).
+  std::mt19937 rng(11);
+  std::uniform_int_distribution<int64_t> integer(0, 1000000);
+  std::uniform_int_distribution<int> decimals(0, 6), zeros(0, 2);
+  for (int i = 0; i < 3000; ++i) {
+    const int64_t whole = i < 20 ? i : integer(rng);
+    const int d = decimals(rng);
+    int64_t power = 1;
+    for (int k = 0; k < d; ++k) power *= 10;
+    const int64_t fraction =
+        std::uniform_int_distribution<int64_t>(0, power - 1)(rng);
+    if (whole == 0 && fraction == 0) continue;  // A zero count: an error.
+    std::string digits = d > 0 ? std::to_string(fraction) : "";
+    digits.insert(0, static_cast<size_t>(d) - digits.size(), '0');
+    const std::string text =
+        absl::StrCat("Fe", std::string(zeros(rng), '0'), whole,
+                     d > 0 ? "." : "", d > 0 ? digits : "", "O");
+    EXPECT_THAT(
+        Parse(text),
+        ElementsAre(Pair("Fe", Rational(whole * power + fraction, power)),
+                    Pair("O", Rational(1))))
+        << text;
+  }
+  // An ASCII digit followed by a subscript one reads on: Fe12.
+  EXPECT_THAT(Parse("Fe1₂O"),
+              ElementsAre(Pair("Fe", Rational(12)), Pair("O", Rational(1))));
+}
+
 TEST(Formula, UnicodeSubscriptsMatchAsciiDigits) {
   EXPECT_THAT(Parse("Fe₂O₃"),
               ElementsAre(Pair("Fe", Rational(2)), Pair("O", Rational(3))));
@@ -216,6 +247,22 @@ TEST(Formula, HydrateSeparators) {
   EXPECT_THAT(Parse("NiSO4*6H2O"),
               ElementsAre(Pair("Ni", Rational(1)), Pair("S", Rational(1)),
                           Pair("O", Rational(10)), Pair("H", Rational(12))));
+}
+
+TEST(Formula, FractionalCounts) {
+  // The layered cathode NMC111 as battery records write it: thirds.
+  const Counts nmc = {{"Li", Rational(1)},
+                      {"Ni", Rational(1, 3)},
+                      {"Mn", Rational(1, 3)},
+                      {"Co", Rational(1, 3)},
+                      {"O", Rational(2)}};
+  EXPECT_THAT(Parse("LiNi1/3Mn1/3Co1/3O2"), ElementsAreArray(nmc));
+  EXPECT_THAT(Parse("Li(Ni1/3Mn1/3Co1/3)O2"), ElementsAreArray(nmc));
+  // A fraction above one, and one on a group.
+  EXPECT_THAT(Parse("Fe8/3O4"),
+              ElementsAre(Pair("Fe", Rational(8, 3)), Pair("O", Rational(4))));
+  EXPECT_THAT(Parse("(Fe2O3)1/2"),
+              ElementsAre(Pair("Fe", Rational(1)), Pair("O", Rational(3, 2))));
 }
 
 TEST(Formula, LeadingMultipliersOnLaterParts) {
@@ -368,7 +415,11 @@ std::vector<BadCase> BadCases() {
       {"Ee", "unknown_element", 1},
       {"Uuo", "unknown_element", 1},  // Not accepted (formula.h).
       {"NaClXx", "unknown_element", 5},
-      {"Fe1.1234567", "count_too_large", 3},  // 7 decimals.
+      {"Fe1.1234567", "count_too_large", 3},   // 7 decimals.
+      {"Fe1/0O", "malformed_formula", 4},      // Divides by zero.
+      {"Fe0/3O", "malformed_formula", 3},      // Zero fraction.
+      {"Fe1/3000000O", "count_too_large", 4},  // Denominator too large.
+      {"Fe1/O", "malformed_formula", 4},       // No denominator.
       {"Fe10000000", "count_too_large", 3},
       {"Fe1000001", "count_too_large", 3},
       {"CuSO4·10000000H2O", "count_too_large", 7},
@@ -968,6 +1019,35 @@ TEST(FormulaNotations, IsomerPrefixesAreSetAsideWithAnInfo) {
   EXPECT_EQ(issue.column, 5);
   // A prefix alone is no formula.
   EXPECT_FALSE(ParseFormula("cis-", &issue).ok());
+}
+
+TEST(FormulaNotations, PolymorphPrefixesAreSetAsideWithAnInfo) {
+  // Phase names: maghemite γ-Fe2O3, corundum α-Al2O3, β-Ga2O3 (Greenwood
+  // and Earnshaw, Chemistry of the Elements, 2nd ed., from memory).
+  for (const char* pair :
+       {"γ-Fe2O3|Fe2O3", "gamma-Fe2O3|Fe2O3", "α-Al2O3|Al2O3",
+        "beta-Ga2O3|Ga2O3", "κ-Al2O3|Al2O3", "δ-Bi2O3|Bi2O3"}) {
+    const std::vector<std::string> texts = absl::StrSplit(pair, '|');
+    SCOPED_TRACE(pair);
+    const Formula f = ParseOrFail(texts[0]);
+    EXPECT_EQ(AmountsText(texts[0]), AmountsText(texts[1]));
+    ASSERT_EQ(f.infos.size(), 1u);
+    EXPECT_EQ(f.infos[0].code, "polymorph_prefix");
+    EXPECT_THAT(f.infos[0].message,
+                HasSubstr(texts[0].substr(0, texts[0].find('-') + 1)));
+  }
+  // Both kinds of prefix, each named once.
+  const Formula both = ParseOrFail("trans-β-[CoCl2(en)2]Cl");
+  ASSERT_EQ(both.infos.size(), 2u);
+  EXPECT_EQ(both.infos[0].code, "isomer_prefix");
+  EXPECT_EQ(both.infos[1].code, "polymorph_prefix");
+  // A prefix alone is no formula; an unknown Greek letter is an error that
+  // names its column; δ elsewhere is still the nonstoichiometry variable.
+  FormulaIssue issue;
+  EXPECT_FALSE(ParseFormula("γ-", &issue).ok());
+  EXPECT_FALSE(ParseFormula("ω-Fe2O3", &issue).ok());
+  EXPECT_EQ(issue.column, 1);
+  EXPECT_EQ(AmountsText("YBa2Cu3O7-δ"), AmountsText("YBa2Cu3O7"));
 }
 
 TEST(FormulaAbbreviations, UnknownAbbreviationNamesItsTextAndColumn) {

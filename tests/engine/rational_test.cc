@@ -98,7 +98,37 @@ TEST(Rational, AgreesWithIntegerArithmeticOnRandomFractions) {
     EXPECT_GT(sum.den(), 0);
     EXPECT_GT(product.den(), 0);
     EXPECT_EQ(Rational(a, b) < Rational(c, d), a * d < c * b);
+    // Sums, differences and products come out in lowest terms (zero as
+    // 0/1) without a final reduction: the equality operator compares
+    // terms, so a result left unreduced would not equal its value.
+    const Rational difference = Rational(a, b) - Rational(c, d);
+    EXPECT_EQ(difference.num() * (b * d), (a * d - c * b) * difference.den());
+    for (const Rational& r : {sum, difference, product}) {
+      EXPECT_EQ(std::gcd(r.num() < 0 ? -r.num() : r.num(), r.den()), 1)
+          << r.ToString();
+      EXPECT_EQ(r, Rational(r.num(), r.den()));
+    }
   }
+}
+
+TEST(Rational, DecimalIsTheReducedFraction) {
+  // Every numerator of up to six decimals against the general constructor
+  // (a gcd): 0.5 is 1/2, 0.25 is 1/4, 1.20 is 6/5, 0.000 is 0.
+  std::mt19937 rng(7);
+  std::uniform_int_distribution<int64_t> num(-2000000, 2000000);
+  int64_t power = 1;
+  for (int decimals = 0; decimals <= 6; ++decimals, power *= 10) {
+    for (int i = 0; i < 2000; ++i) {
+      const int64_t n = i < 100 ? i * power / 100 : num(rng);
+      const Rational d = Rational::Decimal(n, decimals);
+      EXPECT_EQ(d, Rational(n, power)) << n << " / 10^" << decimals;
+      EXPECT_GT(d.den(), 0);
+    }
+  }
+  EXPECT_EQ(Rational::Decimal(50, 2), Rational(1, 2));
+  EXPECT_EQ(Rational::Decimal(120, 2), Rational(6, 5));
+  EXPECT_EQ(Rational::Decimal(67, 2).den(), 100);
+  EXPECT_EQ(Rational::Decimal(0, 3).den(), 1);
 }
 
 }  // namespace

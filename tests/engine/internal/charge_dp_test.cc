@@ -47,6 +47,7 @@ Candidates Build(const std::vector<Layer>& layers) {
         const Weight w = Weight::Of(o.uncommon, 0,
                                     layers[i].scaled_count * (o.high - o.low));
         c.all.push_back(Candidate{o.index, o.low, o.high, w, Weight()});
+        if (o.low != o.high) ++list.mixed;
         list.min_weight = std::min(list.min_weight, w);
         if (o.uncommon > 0) {
           list.min_uncommon_weight = std::min(list.min_uncommon_weight, w);
