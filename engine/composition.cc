@@ -1193,6 +1193,20 @@ CompositionReport Analyze(const CompositionInput& input) {
           &spin, &error)) {
     Add(&r, Severity::kError, codes::kMalformedElementSettings, error);
   }
+  // The intermediate spin state needs the geometry it is defined in
+  // (IntermediateSpinApplies), set in the same record.
+  for (const auto& [e, preference] : spin) {
+    if (preference != SpinStatePreference::kIntermediate) continue;
+    const Geometry* g = FindSetting(geometry, e);
+    if (g == nullptr || !IntermediateSpinApplies(*g)) {
+      Add(&r, Severity::kError, codes::kMalformedElementSettings,
+          absl::StrCat("spin_state ", e->symbol,
+                       ":intermediate needs geometry ", e->symbol,
+                       ":square_planar or ", e->symbol,
+                       ":square_pyramidal (the intermediate state leaves "
+                       "dx2-y2 empty, a level of those geometries only)"));
+    }
+  }
   FamilyChoice family = FamilyChoice::kAuto;
   if (!input.structure_family.empty()) {
     absl::StatusOr<FamilyChoice> parsed = ParseName<FamilyChoice>(

@@ -980,11 +980,16 @@ IonEnvironment FindEnvironment(const Formula& formula,
         // ion's crossover f: Fe(TPP) and FePc S = 1, MnPc S = 3/2. Below
         // it, high spin: the Mn(II) porphyrins, S = 5/2 (Scheidt and
         // Reed, Chem. Rev. 81 (1981) 543; Barraclough, Martin, Mitra and
-        // Sherwood, J. Chem. Phys. 53 (1970) 1638; from memory).
+        // Sherwood, J. Chem. Phys. 53 (1970) 1638; from memory). A d4 ion
+        // fills the four lower orbitals singly either way and is called
+        // high spin, as Cr(TPP), S = 2 (Scheidt and Reed, from memory).
         const double crossover = crossover_f();
-        set(env.f > crossover ? SpinState::kIntermediate : SpinState::kHigh,
+        const bool choice = d >= 5;
+        set(choice && env.f > crossover ? SpinState::kIntermediate
+                                        : SpinState::kHigh,
             SpinBasis::kLigandField);
-        env.near_crossover = std::abs(env.f - crossover) < kNearCrossover;
+        env.near_crossover =
+            choice && std::abs(env.f - crossover) < kNearCrossover;
         return env;
       }
       set(SpinState::kLow,

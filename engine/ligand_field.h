@@ -77,7 +77,9 @@ enum class SpinStatePreference { kAuto, kHigh, kLow, kIntermediate };
 // Fe(TPP) and FePc and the S = 3/2 of MnPc, whose dx2-y2 lies far above
 // the other four d orbitals (Scheidt and Reed, Chem. Rev. 81 (1981) 543;
 // Barraclough, Martin, Mitra and Sherwood, J. Chem. Phys. 53 (1970) 1638;
-// from memory). In an octahedral field it is low spin.
+// from memory). Defined for the square plane and pyramid only
+// (IntermediateSpinApplies): in an octahedral field the same filling is
+// low spin.
 enum class SpinState { kHigh, kLow, kIntermediate };
 
 // Names for Name() / ParseName() (util/enum_names.h).
@@ -147,6 +149,19 @@ struct LigandFieldSplitting {
 // quantum number `n` (3 for 3d) in `geometry`.
 SpinState ResolveSpinState(Geometry geometry, SpinStatePreference preference,
                            int n);
+
+// True for the geometries whose highest level is the lone dx2-y2 that
+// the intermediate spin state leaves empty: square planar and square
+// pyramidal. Elsewhere kIntermediate would fill as low spin, which is not
+// what "intermediate spin" means for an octahedral ion (LaCoO3's debated
+// t2g5 eg1), so requests and records may not ask for it there.
+//
+//   IntermediateSpinApplies(Geometry::kSquarePlanar);  // true: Fe(TPP)
+//   IntermediateSpinApplies(Geometry::kOctahedral);    // false
+constexpr bool IntermediateSpinApplies(Geometry geometry) {
+  return geometry == Geometry::kSquarePlanar ||
+         geometry == Geometry::kSquarePyramidal;
+}
 
 // Distributes `d_electrons` (0..10) over the levels of `geometry`.
 // REQUIRES: geometry != kFree, 0 <= d_electrons <= 10.

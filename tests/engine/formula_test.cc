@@ -997,6 +997,21 @@ TEST(FormulaAbbreviations, FragmentsMakePhosphinesAndJoinedFormsComeFirst) {
   EXPECT_EQ(AmountsText("Cp*2Fe"), AmountsText("(C10H15)2Fe"));
   EXPECT_EQ(AmountsText("[Cp*Fe(CO)2]2"), AmountsText("[(C10H15)Fe(CO)2]2"));
   EXPECT_EQ(AmountsText("FeCp2*2H2O"), AmountsText("Fe(C5H5)2·2H2O"));
+  // "TPP" and "OEP" are the porphyrinates, not tritium (T, read as H)
+  // with two P, or O before an unknown "EP"; T still reads as tritium
+  // elsewhere.
+  EXPECT_EQ(AmountsText("Fe(TPP)Cl"), AmountsText("Fe(C44H28N4)Cl"));
+  EXPECT_EQ(AmountsText("Fe(tpp)Cl"), AmountsText("Fe(C44H28N4)Cl"));
+  EXPECT_EQ(AmountsText("Ni(OEP)"), AmountsText("Ni(C36H44N4)"));
+  EXPECT_THAT(CountsOf(ParseOrFail("P2T")),
+              ElementsAre(Pair("P", Rational(2)), Pair("H", Rational(1))));
+  // "Pc" after a metal symbol (CuPc) and in brackets are one group.
+  EXPECT_EQ(AmountsText("CuPc"), AmountsText("Cu(C32H16N8)"));
+  EXPECT_EQ(AmountsText("Cu(Pc)"), AmountsText("Cu(C32H16N8)"));
+  EXPECT_EQ(AmountsText("H2Pc"), AmountsText("H2(C32H16N8)"));
+  EXPECT_EQ(AmountsText("[Ni(cyclam)](ClO4)2"),
+            AmountsText("[Ni(C10H24N4)](ClO4)2"));
+  EXPECT_EQ(AmountsText("U(cot)2"), AmountsText("U(C8H8)2"));
 }
 
 TEST(FormulaNotations, IsomerPrefixesAreSetAsideWithAnInfo) {
