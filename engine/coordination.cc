@@ -1012,11 +1012,15 @@ IonEnvironment FindEnvironment(const Formula& formula,
       } else if (n >= 4) {
         set(SpinState::kLow, SpinBasis::kHeavyMetal);
       } else if (macrocycle && env.geometry == Geometry::kSquarePyramidal) {
-        // A planar macrocycle with one axial ligand: the ion's own
-        // crossover, as in an octahedron. Fe(TPP)Cl and Mn(TPP)Cl are
-        // high spin, Co(TPP)Cl low-spin Co(III) (Scheidt and Reed, Chem.
-        // Rev. 81 (1981) 543, from memory).
-        set(env.f > crossover_f() ? SpinState::kLow : SpinState::kHigh,
+        // A planar macrocycle with one axial ligand: for d4-d6 the ion's
+        // own crossover, as in an octahedron: Fe(TPP)Cl and Mn(TPP)Cl are
+        // high spin, Co(TPP)Cl low-spin Co(III). A d7 ion stays low spin
+        // as in the square plane, dx2-y2 empty, its one electron above
+        // the paired ones in dz2: Co(TPP)(py) and Co(salen)(py) are
+        // low-spin Co(II), S = 1/2 (Scheidt and Reed, Chem. Rev. 81
+        // (1981) 543, from memory).
+        set(d == 7 || env.f > crossover_f() ? SpinState::kLow
+                                            : SpinState::kHigh,
             SpinBasis::kLigandField);
       } else {
         set(env.f >= kStrongFieldF ? SpinState::kLow : SpinState::kHigh,

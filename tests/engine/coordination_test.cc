@@ -527,6 +527,12 @@ TEST(Coordination, PlanarMacrocycles) {
        kHousecroftSharpe},
       // Low-spin Co(III).
       {"Co(TPP)Cl", "Co", 3, Geometry::kSquarePyramidal, 0, kScheidtReed},
+      // Low-spin Co(II), S = 1/2: one axial ligand does not open dx2-y2.
+      {"Co(TPP)(py)", "Co", 2, Geometry::kSquarePyramidal, 1, kScheidtReed},
+      {"Co(salen)(py)", "Co", 2, Geometry::kSquarePyramidal, 1, kScheidtReed},
+      // {FeNO}7, S = 1/2; Fe(I) by this engine's nitrosonium convention
+      // (common practice, no source).
+      {"Fe(TPP)(NO)", "Fe", 1, Geometry::kSquarePyramidal, 1, kScheidtReed},
       {"VO(TPP)", "V", 4, Geometry::kSquarePyramidal, 1,
        "Greenwood and Earnshaw, 2nd ed., ch. 22, from memory (vanadyl, "
        "d1)"},
