@@ -43,7 +43,8 @@ struct SpinPair {
 constexpr SpinPair kSpinStates[] = {
     {v1::SPIN_STATE_AUTO, SpinStatePreference::kAuto},
     {v1::SPIN_STATE_HIGH, SpinStatePreference::kHigh},
-    {v1::SPIN_STATE_LOW, SpinStatePreference::kLow}};
+    {v1::SPIN_STATE_LOW, SpinStatePreference::kLow},
+    {v1::SPIN_STATE_INTERMEDIATE, SpinStatePreference::kIntermediate}};
 
 absl::StatusOr<Geometry> GeometryFromProto(v1::Geometry g) {
   if (g == v1::GEOMETRY_UNSPECIFIED) return Geometry::kFree;

@@ -535,6 +535,14 @@ absl::StatusOr<AtomDescriptionPtr> DescribeAtom(const AtomQuery& query) {
   if (query.charge > z || query.charge < -kMaxAnionCharge) {
     return CheckIonCharge(e, query.charge);
   }
+  if (query.spin_state == SpinStatePreference::kIntermediate &&
+      query.geometry != Geometry::kFree &&
+      !IntermediateSpinApplies(query.geometry)) {
+    return absl::InvalidArgumentError(
+        absl::StrCat("spin state intermediate applies to square_planar and "
+                     "square_pyramidal only, not ",
+                     Name(query.geometry)));
+  }
   if (query.configuration.has_value()) {
     const int want = z - query.charge;
     const int have = query.configuration->electrons();

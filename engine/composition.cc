@@ -240,27 +240,26 @@ int SplitElectrons(const LigandFieldSplitting& split) {
 // first use (SplitD allocates; every record's d ions ask).
 int SplitUnpaired(int d, Geometry g, SpinState spin) {
   constexpr int kGeometries = kGeometryCount;
-  using Table = std::array<int, 11 * kGeometries * 2>;
+  constexpr int kSpins = 3;  // SpinState values.
+  using Table = std::array<int, 11 * kGeometries * kSpins>;
   static const Table* const kTable = [] {
     auto* t = new Table;
     for (int n = 0; n <= 10; ++n) {
       for (int k = 0; k < kGeometries; ++k) {
-        for (int low = 0; low < 2; ++low) {
+        for (int spin = 0; spin < kSpins; ++spin) {
           const Geometry geometry = static_cast<Geometry>(k);
-          (*t)[(n * kGeometries + k) * 2 + low] =
+          (*t)[(n * kGeometries + k) * kSpins + spin] =
               geometry == Geometry::kFree
                   ? 0
-                  : SplitD(n, geometry,
-                           low ? SpinState::kLow : SpinState::kHigh)
-                        .unpaired;
+                  : SplitD(n, geometry, static_cast<SpinState>(spin)).unpaired;
         }
       }
     }
     return t;
   }();
   if (d < 0 || d > 10) return 0;
-  return (*kTable)[(d * kGeometries + static_cast<int>(g)) * 2 +
-                   (spin == SpinState::kLow ? 1 : 0)];
+  return (*kTable)[(d * kGeometries + static_cast<int>(g)) * kSpins +
+                   static_cast<int>(spin)];
 }
 
 // The effective range of a 3d ion in one spin state: spin-only widened
@@ -1193,6 +1192,20 @@ CompositionReport Analyze(const CompositionInput& input) {
           },
           &spin, &error)) {
     Add(&r, Severity::kError, codes::kMalformedElementSettings, error);
+  }
+  // The intermediate spin state needs the geometry it is defined in
+  // (IntermediateSpinApplies), set in the same record.
+  for (const auto& [e, preference] : spin) {
+    if (preference != SpinStatePreference::kIntermediate) continue;
+    const Geometry* g = FindSetting(geometry, e);
+    if (g == nullptr || !IntermediateSpinApplies(*g)) {
+      Add(&r, Severity::kError, codes::kMalformedElementSettings,
+          absl::StrCat("spin_state ", e->symbol,
+                       ":intermediate needs geometry ", e->symbol,
+                       ":square_planar or ", e->symbol,
+                       ":square_pyramidal (the intermediate state leaves "
+                       "dx2-y2 empty, a level of those geometries only)"));
+    }
   }
   FamilyChoice family = FamilyChoice::kAuto;
   if (!input.structure_family.empty()) {

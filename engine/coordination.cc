@@ -557,6 +557,7 @@ IonEnvironment FindEnvironment(const Formula& formula,
   bool nitrosyl = false;  // NO+, the one cationic pi acceptor.
   double oxo = 0;         // Sites of monatomic oxide.
   double chelate = 0;     // Sites of unit ligands with two or more.
+  double planar = 0;      // Sites of planar tetradentate ligands.
   bool unit_ligand = false;
   for (const Site& s : sites) {
     const Ligand& l = *s.ligand;
@@ -568,6 +569,7 @@ IonEnvironment FindEnvironment(const Formula& formula,
       nitrosyl |= acceptor && l.unit->charge > 0;
       cyanide |= !acceptor && IsAnionicPiAcceptor(l);
       if (l.denticity >= 2) chelate += s.sites;
+      if (l.planar) planar += s.sites;
     } else {
       pi_acceptors_only = false;
       if (l.anion->atomic_number == 8) oxo += s.sites;
@@ -580,16 +582,25 @@ IonEnvironment FindEnvironment(const Formula& formula,
   const bool oxo_chelate = chelate > 0 && oxo > 0 && complex < 0 &&
                            std::abs(oxo + chelate - total) < 0.01 &&
                            oxo <= 2 * metal + 0.01;
+  // One planar tetradentate ligand per metal atom (a porphyrinate,
+  // phthalocyaninate, salen or cyclam) holds its four equatorial sites:
+  // Fe(TPP)Cl and Mn(salen)Cl are five-coordinate molecules, CuPc and
+  // Co(salen) square planar (Greenwood and Earnshaw, Chemistry of the
+  // Elements, 2nd ed., chs. 25-29; Scheidt and Reed, Chem. Rev. 81 (1981)
+  // 543; from memory).
+  const bool macrocycle =
+      metal > 0 && std::abs(planar - 4 * metal) < 0.01 && total > 0;
   // Donor sites per metal atom, where the formula shows them: in a
   // complex, with molecular ligands only (Ni(CO)4), beside a pi-acceptor
   // ligand, which makes a molecular complex of the halides written with
-  // it (RhCl(PPh3)3, Mn(CO)5Br, NiCl2(PEt3)2), or in an oxo chelate.
-  const double cn =
-      (complex >= 0 ||
-       ((molecular || pi_acceptor || oxo_chelate) && total > 0)) &&
-              metal > 0
-          ? total / metal
-          : 0;
+  // it (RhCl(PPh3)3, Mn(CO)5Br, NiCl2(PEt3)2), in an oxo chelate, or
+  // around a planar macrocycle (Fe(TPP)Cl).
+  const double cn = (complex >= 0 ||
+                     ((molecular || pi_acceptor || oxo_chelate || macrocycle) &&
+                      total > 0)) &&
+                            metal > 0
+                        ? total / metal
+                        : 0;
 
   // The Pd(I) and Pt(I) layers of the delafossites PdCoO2, PdCrO2 and
   // PtCoO2 are metallic, their d electrons shared in Pd-Pd bonds (Shannon,
@@ -748,7 +759,7 @@ IonEnvironment FindEnvironment(const Formula& formula,
   } else if (env.geometry == Geometry::kTetrahedral) {
     // Set above (the layered pnictides).
   } else if (std::abs(cn - 5) < 0.01 && std::abs(metal - 1) < 0.01 &&
-             (complex >= 0 || pi_acceptor || oxo_chelate)) {
+             (complex >= 0 || pi_acceptor || oxo_chelate || macrocycle)) {
     // Five sites on one metal, in a written complex ([CuCl5]3-), from
     // pi acceptors (Fe(CO)5) or in an oxo chelate (VO(acac)2); a salt
     // hydrate's ligand count (Mn(CH3COO)3·2H2O) does not show its
@@ -764,8 +775,10 @@ IonEnvironment FindEnvironment(const Formula& formula,
                              s.ligand->unit->charge == 0 &&
                              IsPiAcceptor(*s.ligand);
     }
-    const bool pyramid =
-        oxo > 0 || (d >= 4 && d <= 7) || (d == 8 && !neutral_pi_acceptor);
+    // A planar macrocycle with one axial ligand is a square pyramid
+    // whatever the d count (Fe(TPP)Cl, Cu(TPP)(py)).
+    const bool pyramid = oxo > 0 || macrocycle || (d >= 4 && d <= 7) ||
+                         (d == 8 && !neutral_pi_acceptor);
     env.geometry =
         pyramid ? Geometry::kSquarePyramidal : Geometry::kTrigonalBipyramidal;
   } else if (std::abs(cn - 8) < 0.01 && complex >= 0) {
@@ -792,6 +805,10 @@ IonEnvironment FindEnvironment(const Formula& formula,
     // Three on a d10 ion: trigonal planar, as Pt(PPh3)3, [Cu(CN)3]2- and
     // [HgI3]- (same source, chs. 27-29, from memory).
     env.geometry = Geometry::kTrigonalPlanar;
+  } else if (std::abs(cn - 4) < 0.01 && macrocycle) {
+    // A planar macrocycle alone: square planar for every d count (CuPc,
+    // Co(TPP), Fe(TPP), Ni(salen), [Ni(cyclam)]2+; same sources).
+    env.geometry = Geometry::kSquarePlanar;
   } else if (std::abs(cn - 4) < 0.01 && n == 3 && ion.state == 2 && d >= 5 &&
              d <= 8 && OxygenChelatesOnly(sites)) {
     // Bis(O,O-chelates) of 3d M(II), Mn to Ni, with no other ligand
@@ -933,8 +950,23 @@ IonEnvironment FindEnvironment(const Formula& formula,
   }
   auto set = [&env](SpinState s, SpinBasis basis) {
     env.spin_state = s == SpinState::kLow ? SpinStatePreference::kLow
-                                          : SpinStatePreference::kHigh;
+                     : s == SpinState::kHigh
+                         ? SpinStatePreference::kHigh
+                         : SpinStatePreference::kIntermediate;
     env.basis = basis;
+  };
+  // The ion's octahedral crossover f (spin_crossover.tsv, or the default
+  // by charge), the soft anions' where they hold most sites.
+  auto crossover_f = [&env, &e, &ion]() {
+    const SpinCrossover* c = FindSpinCrossover(e, ion.state);
+    const bool chalcogenide = env.ligand != nullptr &&
+                              env.ligand->anion != nullptr &&
+                              (env.ligand->anion->atomic_number == 16 ||
+                               env.ligand->anion->atomic_number == 34 ||
+                               env.ligand->anion->atomic_number == 52);
+    return c == nullptr   ? DefaultCrossover(ion.state)
+           : chalcogenide ? c->f_crossover_chalcogenide
+                          : c->f_crossover;
   };
   switch (env.geometry) {
     case Geometry::kTetrahedral:
@@ -942,6 +974,24 @@ IonEnvironment FindEnvironment(const Formula& formula,
           d >= 3 && d <= 6 ? SpinBasis::kTetrahedral : SpinBasis::kNoChoice);
       return env;
     case Geometry::kSquarePlanar:
+      if (macrocycle && n == 3 && d >= 4 && d <= 6) {
+        // A planar macrocycle's 3d d4-d6 ion keeps dx2-y2 empty; the
+        // other four orbitals, close together, fill high spin above the
+        // ion's crossover f: Fe(TPP) and FePc S = 1, MnPc S = 3/2. Below
+        // it, high spin: the Mn(II) porphyrins, S = 5/2 (Scheidt and
+        // Reed, Chem. Rev. 81 (1981) 543; Barraclough, Martin, Mitra and
+        // Sherwood, J. Chem. Phys. 53 (1970) 1638; from memory). A d4 ion
+        // fills the four lower orbitals singly either way and is called
+        // high spin, as Cr(TPP), S = 2 (Scheidt and Reed, from memory).
+        const double crossover = crossover_f();
+        const bool choice = d >= 5;
+        set(choice && env.f > crossover ? SpinState::kIntermediate
+                                        : SpinState::kHigh,
+            SpinBasis::kLigandField);
+        env.near_crossover =
+            choice && std::abs(env.f - crossover) < kNearCrossover;
+        return env;
+      }
       set(SpinState::kLow,
           d == 8 ? (n >= 4 ? SpinBasis::kHeavyMetal : SpinBasis::kLigandField)
                  : SpinBasis::kNoChoice);
@@ -961,6 +1011,17 @@ IonEnvironment FindEnvironment(const Formula& formula,
         set(SpinState::kLow, SpinBasis::kNoChoice);
       } else if (n >= 4) {
         set(SpinState::kLow, SpinBasis::kHeavyMetal);
+      } else if (macrocycle && env.geometry == Geometry::kSquarePyramidal) {
+        // A planar macrocycle with one axial ligand: for d4-d6 the ion's
+        // own crossover, as in an octahedron: Fe(TPP)Cl and Mn(TPP)Cl are
+        // high spin, Co(TPP)Cl low-spin Co(III). A d7 ion stays low spin
+        // as in the square plane, dx2-y2 empty, its one electron above
+        // the paired ones in dz2: Co(TPP)(py) and Co(salen)(py) are
+        // low-spin Co(II), S = 1/2 (Scheidt and Reed, Chem. Rev. 81
+        // (1981) 543, from memory).
+        set(d == 7 || env.f > crossover_f() ? SpinState::kLow
+                                            : SpinState::kHigh,
+            SpinBasis::kLigandField);
       } else {
         set(env.f >= kStrongFieldF ? SpinState::kLow : SpinState::kHigh,
             SpinBasis::kLigandField);
@@ -997,15 +1058,7 @@ IonEnvironment FindEnvironment(const Formula& formula,
     set(SpinState::kHigh, SpinBasis::kOxygenDeficientPerovskite);
     return env;
   }
-  const SpinCrossover* c = FindSpinCrossover(e, ion.state);
-  const bool chalcogenide = env.ligand != nullptr &&
-                            env.ligand->anion != nullptr &&
-                            (env.ligand->anion->atomic_number == 16 ||
-                             env.ligand->anion->atomic_number == 34 ||
-                             env.ligand->anion->atomic_number == 52);
-  const double crossover = c == nullptr   ? DefaultCrossover(ion.state)
-                           : chalcogenide ? c->f_crossover_chalcogenide
-                                          : c->f_crossover;
+  const double crossover = crossover_f();
   set(env.f > crossover ? SpinState::kLow : SpinState::kHigh,
       SpinBasis::kLigandField);
   env.near_crossover = std::abs(env.f - crossover) < kNearCrossover;

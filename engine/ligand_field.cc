@@ -72,6 +72,9 @@ SpinState ResolveSpinState(Geometry geometry, SpinStatePreference preference,
                            int n) {
   if (preference == SpinStatePreference::kHigh) return SpinState::kHigh;
   if (preference == SpinStatePreference::kLow) return SpinState::kLow;
+  if (preference == SpinStatePreference::kIntermediate) {
+    return SpinState::kIntermediate;
+  }
   switch (geometry) {
     case Geometry::kOctahedral:
       return n <= 3 ? SpinState::kHigh : SpinState::kLow;
@@ -116,13 +119,21 @@ LigandFieldSplitting SplitD(int d_electrons, Geometry geometry,
       left -= filled[i];
     }
   } else {
-    // Singly occupy every orbital, lowest level first, then pair.
+    // Singly occupy every orbital, lowest level first, then pair; the
+    // intermediate state leaves the highest level for last.
+    const size_t open = spin_state == SpinState::kIntermediate
+                            ? specs.size() - 1
+                            : specs.size();
     for (int pass = 0; pass < 2; ++pass) {
-      for (size_t i = 0; i < specs.size() && left > 0; ++i) {
+      for (size_t i = 0; i < open && left > 0; ++i) {
         const int add = std::min(left, specs[i].orbitals);
         filled[i] += add;
         left -= add;
       }
+    }
+    for (size_t i = open; i < specs.size() && left > 0; ++i) {
+      filled[i] = std::min(left, 2 * specs[i].orbitals);
+      left -= filled[i];
     }
   }
   for (size_t i = 0; i < specs.size(); ++i) {

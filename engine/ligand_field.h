@@ -4,7 +4,10 @@
 // coordination geometry. Electrons fill the levels lowest first:
 //   - high spin: one electron in every orbital, lowest level first, before
 //     any pairing (Hund's first rule across the split levels);
-//   - low spin: each level fills completely before the next one opens.
+//   - low spin: each level fills completely before the next one opens;
+//   - intermediate spin: high spin across every level but the highest,
+//     which opens only when the others are full (square-planar Fe(TPP),
+//     S = 1, with dx2-y2 empty).
 // Levels, lowest first:
 //   octahedral     t2g (3 orbitals), eg (2)
 //   tetrahedral    e (2), t2 (3)
@@ -68,8 +71,16 @@ enum class Geometry {
 // Geometries, kFree included: arrays indexed by Geometry have this size.
 inline constexpr int kGeometryCount =
     static_cast<int>(Geometry::kTricappedTrigonalPrismatic) + 1;
-enum class SpinStatePreference { kAuto, kHigh, kLow };
-enum class SpinState { kHigh, kLow };
+enum class SpinStatePreference { kAuto, kHigh, kLow, kIntermediate };
+// kIntermediate: high spin across every level but the highest, which
+// stays empty until the others are full: the S = 1 of square-planar
+// Fe(TPP) and FePc and the S = 3/2 of MnPc, whose dx2-y2 lies far above
+// the other four d orbitals (Scheidt and Reed, Chem. Rev. 81 (1981) 543;
+// Barraclough, Martin, Mitra and Sherwood, J. Chem. Phys. 53 (1970) 1638;
+// from memory). Defined for the square plane and pyramid only
+// (IntermediateSpinApplies): in an octahedral field the same filling is
+// low spin.
+enum class SpinState { kHigh, kLow, kIntermediate };
 
 // Names for Name() / ParseName() (util/enum_names.h).
 template <>
@@ -104,13 +115,16 @@ struct EnumNames<SpinStatePreference> {
   static constexpr NamedValue<SpinStatePreference> kNames[] = {
       {SpinStatePreference::kAuto, "auto"},
       {SpinStatePreference::kHigh, "high"},
-      {SpinStatePreference::kLow, "low"}};
+      {SpinStatePreference::kLow, "low"},
+      {SpinStatePreference::kIntermediate, "intermediate"}};
 };
 template <>
 struct EnumNames<SpinState> {
   static constexpr absl::string_view kWhat = "spin state";
-  static constexpr NamedValue<SpinState> kNames[] = {{SpinState::kHigh, "high"},
-                                                     {SpinState::kLow, "low"}};
+  static constexpr NamedValue<SpinState> kNames[] = {
+      {SpinState::kHigh, "high"},
+      {SpinState::kLow, "low"},
+      {SpinState::kIntermediate, "intermediate"}};
 };
 
 // One split level of the d subshell.
@@ -135,6 +149,19 @@ struct LigandFieldSplitting {
 // quantum number `n` (3 for 3d) in `geometry`.
 SpinState ResolveSpinState(Geometry geometry, SpinStatePreference preference,
                            int n);
+
+// True for the geometries whose highest level is the lone dx2-y2 that
+// the intermediate spin state leaves empty: square planar and square
+// pyramidal. Elsewhere kIntermediate would fill as low spin, which is not
+// what "intermediate spin" means for an octahedral ion (LaCoO3's debated
+// t2g5 eg1), so requests and records may not ask for it there.
+//
+//   IntermediateSpinApplies(Geometry::kSquarePlanar);  // true: Fe(TPP)
+//   IntermediateSpinApplies(Geometry::kOctahedral);    // false
+constexpr bool IntermediateSpinApplies(Geometry geometry) {
+  return geometry == Geometry::kSquarePlanar ||
+         geometry == Geometry::kSquarePyramidal;
+}
 
 // Distributes `d_electrons` (0..10) over the levels of `geometry`.
 // REQUIRES: geometry != kFree, 0 <= d_electrons <= 10.

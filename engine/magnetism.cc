@@ -55,7 +55,20 @@ std::optional<MomentRange> LookUpOrbitalRange(int d_electrons,
   const bool either =
       SplitD(d_electrons, geometry, SpinState::kHigh).unpaired ==
       SplitD(d_electrons, geometry, SpinState::kLow).unpaired;
-  const bool low_spin = spin_state == SpinState::kLow;
+  // The table lists no intermediate-spin ion: one that fills as a low-
+  // or high-spin one does (square-planar d7 to d9) takes that row, others
+  // none (spin-only).
+  bool low_spin = spin_state == SpinState::kLow;
+  if (spin_state == SpinState::kIntermediate) {
+    const int unpaired =
+        SplitD(d_electrons, geometry, SpinState::kIntermediate).unpaired;
+    low_spin =
+        unpaired == SplitD(d_electrons, geometry, SpinState::kLow).unpaired;
+    if (!low_spin &&
+        unpaired != SplitD(d_electrons, geometry, SpinState::kHigh).unpaired) {
+      return std::nullopt;
+    }
+  }
   for (const internal::OrbitalRangeRow& row : internal::OrbitalRangeRows()) {
     if (row.d_electrons == d_electrons &&
         (either || row.low_spin == low_spin) && geometry_name == row.geometry) {
@@ -73,23 +86,24 @@ std::optional<MomentRange> FindOrbitalRange(int d_electrons, Geometry geometry,
     return std::nullopt;
   }
   // Every record's d ions ask: look each key up once.
-  using Table = std::array<std::optional<MomentRange>, 11 * kGeometries * 2>;
+  constexpr int kSpins = 3;  // SpinState values.
+  using Table =
+      std::array<std::optional<MomentRange>, 11 * kGeometries * kSpins>;
   static const Table* const kTable = [] {
     auto* t = new Table;
     for (int d = 0; d <= 10; ++d) {
       for (int g = 1; g < kGeometries; ++g) {
-        for (int low = 0; low < 2; ++low) {
-          (*t)[(d * kGeometries + g) * 2 + low] =
-              LookUpOrbitalRange(d, static_cast<Geometry>(g),
-                                 low ? SpinState::kLow : SpinState::kHigh);
+        for (int spin = 0; spin < kSpins; ++spin) {
+          (*t)[(d * kGeometries + g) * kSpins + spin] = LookUpOrbitalRange(
+              d, static_cast<Geometry>(g), static_cast<SpinState>(spin));
         }
       }
     }
     return t;
   }();
-  return (
-      *kTable)[(d_electrons * kGeometries + static_cast<int>(geometry)) * 2 +
-               (spin_state == SpinState::kLow ? 1 : 0)];
+  return (*kTable)[(d_electrons * kGeometries + static_cast<int>(geometry)) *
+                       kSpins +
+                   static_cast<int>(spin_state)];
 }
 
 }  // namespace shellwright

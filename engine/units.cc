@@ -197,6 +197,7 @@ const Tables& GetTables() {
       l.f = row.f;
       l.donor = &AllElements()[row.donor_atomic_number - 1];
       l.denticity = row.denticity;
+      l.planar = row.planar;
       l.source = row.source;
       if (row.anion_atomic_number != 0) {
         l.anion = &AllElements()[row.anion_atomic_number - 1];

@@ -92,6 +92,10 @@ struct Ligand {
   double f = 1.0;                  // Jørgensen f factor (water 1.00).
   const Element* donor = nullptr;  // Donor atom.
   int denticity = 1;
+  // A tetradentate ligand holding its four donors in one plane (a
+  // porphyrinate, phthalocyaninate, salen, cyclam): the metal is square
+  // planar with it alone, whatever its d count.
+  bool planar = false;
   std::string source;
 
   // "cyanide", "oxide", "fluoride", ...

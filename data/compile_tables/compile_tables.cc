@@ -564,8 +564,9 @@ int main(int argc, char** argv) {
   out << "};\n\n";
 
   // --- spectrochemical_series.tsv -------------------------------------------
-  const Table ligands = ReadTable(
-      args.at("ligands"), {"ligand", "f", "donor", "denticity", "source"});
+  const Table ligands =
+      ReadTable(args.at("ligands"),
+                {"ligand", "f", "donor", "denticity", "plane", "source"});
   out << "constexpr LigandRow kLigands[] = {\n";
   std::set<std::string> ligand_names;
   for (const Row& r : ligands.rows) {
@@ -583,9 +584,19 @@ int main(int argc, char** argv) {
     const double f = ParseDecimal(ligands, r, 1, r.fields[1], 0.3, 3.0);
     const int donor = symbol_to_z(ligands, r, 2);
     const long denticity = ParseInt(ligands, r, 3, 1, 6);
+    // 'planar': a tetradentate ligand holding its donors in one plane.
+    if (r.fields[4] != "planar" && r.fields[4] != "-") {
+      Fail(ligands.path, r.line,
+           "plane '" + r.fields[4] + "' must be 'planar' or '-'");
+    }
+    const bool planar = r.fields[4] == "planar";
+    if (planar && denticity != 4) {
+      Fail(ligands.path, r.line, "a planar ligand must be tetradentate");
+    }
     out << "    {" << Literal(is_unit ? ligand : "") << ", "
         << (is_unit ? 0 : anion->second) << ", " << Double(f) << ", " << donor
-        << ", " << denticity << ", " << Literal(r.fields[4]) << "},\n";
+        << ", " << denticity << ", " << (planar ? "true" : "false") << ", "
+        << Literal(r.fields[5]) << "},\n";
   }
   out << "};\n\n";
 

@@ -96,6 +96,7 @@ struct LigandRow {
   double f;                 // Jørgensen f factor (water 1.00) or estimate.
   int donor_atomic_number;
   int denticity;
+  bool planar;  // A tetradentate ligand with its donors in one plane.
   const char* source;
 };
 

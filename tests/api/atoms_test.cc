@@ -32,7 +32,7 @@ TEST(Atoms, EngineEnumsMapOntoProtoEnumsBothWays) {
   }
   for (SpinStatePreference s :
        {SpinStatePreference::kAuto, SpinStatePreference::kHigh,
-        SpinStatePreference::kLow}) {
+        SpinStatePreference::kLow, SpinStatePreference::kIntermediate}) {
     v1::DescribeAtomRequest request = Spec("Fe");
     request.set_spin_state(SpinStatePreferenceToProto(s));
     absl::StatusOr<AtomQuery> q = AtomQueryFromProto(request);
@@ -111,6 +111,24 @@ TEST(Atoms, LigandFieldFollowsTheRequest) {
   EXPECT_EQ(d.spin_state(), "low");
   EXPECT_EQ(d.ligand_field().occupancy(), "t2g6 eg0");
   EXPECT_EQ(d.ligand_field().unpaired_electrons(), 0);
+
+  // Intermediate spin: square-planar d6 leaves dx2-y2 empty, two unpaired
+  // (four-coordinate Fe(TPP), S = 1; Scheidt and Reed, Chem. Rev. 81
+  // (1981) 543, from memory). Not defined in an octahedron.
+  v1::DescribeAtomRequest planar = Spec("Fe2+");
+  planar.set_geometry(v1::GEOMETRY_SQUARE_PLANAR);
+  planar.set_spin_state(v1::SPIN_STATE_INTERMEDIATE);
+  v1::AtomDescription p;
+  ASSERT_TRUE(DescribeAtomMessage(planar, &p).ok());
+  EXPECT_EQ(p.spin_state(), "intermediate");
+  EXPECT_EQ(p.ligand_field().spin_state(), "intermediate");
+  EXPECT_EQ(p.ligand_field().occupancy(), "eg4 a1g1 b2g1 b1g0");
+  EXPECT_EQ(p.ligand_field().unpaired_electrons(), 2);
+  v1::DescribeAtomRequest octahedral = planar;
+  octahedral.set_geometry(v1::GEOMETRY_OCTAHEDRAL);
+  const absl::Status bad = DescribeAtomMessage(octahedral, &p);
+  EXPECT_EQ(bad.code(), absl::StatusCode::kInvalidArgument);
+  EXPECT_THAT(bad.message(), HasSubstr("square_planar"));
 }
 
 TEST(Atoms, ItemsCarryTheirOwnResultOrError) {

@@ -189,6 +189,45 @@ TEST(Cli, CompoundTakesSettingsPerElement) {
   }
 }
 
+TEST(Cli, IntermediateSpinOnAPlanarMacrocycle) {
+  // Four-coordinate FePc is S = 1 with dx2-y2 empty (Barraclough, Martin,
+  // Mitra and Sherwood, J. Chem. Phys. 53 (1970) 1638, from memory).
+  CommandResult r = Cli({"compound", "FePc", "--json"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  v1::RecordReport report;
+  ASSERT_TRUE(google::protobuf::util::JsonStringToMessage(r.out, &report).ok())
+      << r.out;
+  bool seen = false;
+  for (const v1::IonReport& ion : report.ions()) {
+    if (ion.element() != "Fe") continue;
+    seen = true;
+    EXPECT_EQ(ion.state(), 2);
+    EXPECT_EQ(ion.geometry(), "square_planar");
+    EXPECT_EQ(ion.spin_state(), "intermediate");
+    EXPECT_EQ(ion.ligand(), "phthalocyaninate");
+    EXPECT_EQ(ion.unpaired_electrons(), 2);
+  }
+  EXPECT_TRUE(seen);
+  // The human table labels it and ends with the caution.
+  CommandResult human = Cli({"compound", "FePc"});
+  ASSERT_EQ(human.exit_code, 0) << human.err;
+  EXPECT_THAT(human.out, HasSubstr("intermediate (square_planar"));
+  EXPECT_THAT(human.out, HasSubstr("idealised estimates"));
+  // The atom command takes it in a square plane only.
+  CommandResult atom = Cli({"atom", "Fe2+", "--geometry", "square_planar",
+                            "--spin-state", "intermediate", "--json"});
+  ASSERT_EQ(atom.exit_code, 0) << atom.err;
+  EXPECT_EQ(ParseJson(atom.out).unpaired_electrons(), 2);
+  CommandResult octahedral = Cli({"atom", "Fe2+", "--geometry", "octahedral",
+                                  "--spin-state", "intermediate"});
+  EXPECT_NE(octahedral.exit_code, 0);
+  EXPECT_THAT(octahedral.err, HasSubstr("square_planar"));
+  // A record asks for it beside the geometry only.
+  CommandResult record = Cli({"compound", "FeCl2", "--element-spin-state",
+                              "Fe:intermediate", "--json"});
+  EXPECT_THAT(record.out, HasSubstr("Fe:intermediate needs geometry"));
+}
+
 TEST(Cli, CompoundGivesTheInverseSpinelOfMagnetite) {
   // Issue 11's check: Fe3O4 is an inverse spinel with 4 μB per formula
   // unit (Smit and Wijn, Ferrites, about 4.1 measured, from memory).

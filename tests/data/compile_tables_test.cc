@@ -225,10 +225,19 @@ TEST(CompileTables, UnitWrittenFormMustHoldItsAtoms) {
 
 TEST(CompileTables, LigandMustBeAUnitOrAnElement) {
   std::string t = RealTable("spectrochemical_series");
-  t += "no such ligand\t1.0\tO\t1\tinvented for this test\n";
+  t += "no such ligand\t1.0\tO\t1\t-\tinvented for this test\n";
   CommandResult r = RunWith("spectrochemical_series", t);
   EXPECT_EQ(r.exit_code, 1);
   EXPECT_THAT(r.err, HasSubstr("neither a unit in units.tsv nor an element"));
+}
+
+// Only a tetradentate ligand can hold four donors in a plane.
+TEST(CompileTables, PlanarLigandMustBeTetradentate) {
+  std::string t = RealTable("spectrochemical_series");
+  t += "hydrogensulfide\t0.8\tS\t1\tplanar\tinvented for this test\n";
+  CommandResult r = RunWith("spectrochemical_series", t);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("a planar ligand must be tetradentate"));
 }
 
 // A capitalised abbreviation that is an element symbol would change the

@@ -9,8 +9,10 @@
 #include <string>
 #include <vector>
 
+#include "absl/strings/match.h"
 #include "absl/strings/str_cat.h"
 #include "engine/composition.h"
+#include "engine/diagnostic_codes.h"
 #include "engine/formula.h"
 #include "engine/ligand_field.h"
 #include "engine/oxidation.h"
@@ -459,6 +461,156 @@ TEST(Coordination, FiveCoordinateSquarePyramidal) {
       {"Mn(CO)4NO", "Mn", -1, Geometry::kTrigonalBipyramidal, 0,
        "Greenwood and Earnshaw, 2nd ed., ch. 24, from memory"},
   });
+}
+
+// The sources of PlanarMacrocycles, all recalled.
+constexpr char kScheidtReed[] =
+    "Scheidt and Reed, Chem. Rev. 81 (1981) 543, from memory";
+constexpr char kBarraclough[] =
+    "Barraclough, Martin, Mitra and Sherwood, J. Chem. Phys. 53 (1970) 1638, "
+    "from memory";
+constexpr char kHousecroftSharpe[] =
+    "Housecroft and Sharpe, Inorganic Chemistry, from memory";
+constexpr char kWieghardt[] = "Wieghardt, Chaudhuri and coworkers, from memory";
+
+// Planar tetradentate macrocycles (porphyrinates, phthalocyaninate,
+// salen, cyclam) hold four equatorial sites: square planar alone, square
+// pyramidal with one axial ligand, octahedral with two; tacn and cyclen
+// bind facially or cis.
+TEST(Coordination, PlanarMacrocycles) {
+  CheckAll({
+      // Four-coordinate 3d d5 and d6 on a strong macrocycle: intermediate
+      // spin, dx2-y2 empty.
+      // S = 1.
+      {"FePc", "Fe", 2, Geometry::kSquarePlanar, 2, kBarraclough},
+      // S = 1.
+      {"Fe(TPP)", "Fe", 2, Geometry::kSquarePlanar, 2, kScheidtReed},
+      // S = 1.
+      {"Fe(OEP)", "Fe", 2, Geometry::kSquarePlanar, 2, kScheidtReed},
+      // S = 3/2.
+      {"MnPc", "Mn", 2, Geometry::kSquarePlanar, 3, kBarraclough},
+      // Below the ion's crossover, and d4 either way: high spin.
+      // Mn(II) porphyrins, S = 5/2.
+      {"Mn(TPP)", "Mn", 2, Geometry::kSquarePlanar, 5, kScheidtReed},
+      // S = 2.
+      {"Cr(TPP)", "Cr", 2, Geometry::kSquarePlanar, 4, kScheidtReed},
+      // d7 to d10: as any square plane.
+      // Low-spin Co(II), S = 1/2.
+      {"Co(TPP)", "Co", 2, Geometry::kSquarePlanar, 1, kScheidtReed},
+      // S = 1/2.
+      {"Co(Pc)", "Co", 2, Geometry::kSquarePlanar, 1, kBarraclough},
+      // Low-spin Co(II).
+      {"Co(salen)", "Co", 2, Geometry::kSquarePlanar, 1, kHousecroftSharpe},
+      {"Ni(salen)", "Ni", 2, Geometry::kSquarePlanar, 0, kHousecroftSharpe},
+      {"Ni(TPP)", "Ni", 2, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      {"Ni(OEP)", "Ni", 2, Geometry::kSquarePlanar, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 27, from memory"},
+      // Yellow, diamagnetic.
+      {"[Ni(cyclam)](ClO4)2", "Ni", 2, Geometry::kSquarePlanar, 0,
+       kHousecroftSharpe},
+      {"Cu(Pc)", "Cu", 2, Geometry::kSquarePlanar, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
+      {"CuPc", "Cu", 2, Geometry::kSquarePlanar, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 28, from memory"},
+      {"Cu(salen)", "Cu", 2, Geometry::kSquarePlanar, 1, kHousecroftSharpe},
+      {"Zn(TPP)", "Zn", 2, kAny, 0,
+       "Greenwood and Earnshaw, 2nd ed., ch. 29, from memory (d10)"},
+      // One axial ligand: square pyramidal, the ion's own crossover.
+      // S = 5/2.
+      {"Fe(TPP)Cl", "Fe", 3, Geometry::kSquarePyramidal, 5, kScheidtReed},
+      {"Fe(salen)Cl", "Fe", 3, Geometry::kSquarePyramidal, 5,
+       kHousecroftSharpe},
+      // High-spin Mn(III), S = 2.
+      {"Mn(TPP)Cl", "Mn", 3, Geometry::kSquarePyramidal, 4, kScheidtReed},
+      {"Mn(salen)Cl", "Mn", 3, Geometry::kSquarePyramidal, 4,
+       kHousecroftSharpe},
+      // Low-spin Co(III).
+      {"Co(TPP)Cl", "Co", 3, Geometry::kSquarePyramidal, 0, kScheidtReed},
+      // Low-spin Co(II), S = 1/2: one axial ligand does not open dx2-y2.
+      {"Co(TPP)(py)", "Co", 2, Geometry::kSquarePyramidal, 1, kScheidtReed},
+      {"Co(salen)(py)", "Co", 2, Geometry::kSquarePyramidal, 1, kScheidtReed},
+      // {FeNO}7, S = 1/2; Fe(I) by this engine's nitrosonium convention
+      // (common practice, no source).
+      {"Fe(TPP)(NO)", "Fe", 1, Geometry::kSquarePyramidal, 1, kScheidtReed},
+      {"VO(TPP)", "V", 4, Geometry::kSquarePyramidal, 1,
+       "Greenwood and Earnshaw, 2nd ed., ch. 22, from memory (vanadyl, "
+       "d1)"},
+      // Two axial ligands: octahedral.
+      // A low-spin hemochrome.
+      {"Fe(TPP)(py)2", "Fe", 2, Geometry::kOctahedral, 0, kScheidtReed},
+      // S = 2.
+      {"Fe(TPP)(thf)2", "Fe", 2, Geometry::kOctahedral, 4, kScheidtReed},
+      // trans.
+      {"[Ni(cyclam)Cl2]", "Ni", 2, Geometry::kOctahedral, 2, kHousecroftSharpe},
+      // Facial and cis macrocycles: octahedral.
+      {"[Cr(tacn)2]Cl3", "Cr", 3, Geometry::kOctahedral, 3, kWieghardt},
+      // Low spin.
+      {"[Co(tacn)2]Cl3", "Co", 3, Geometry::kOctahedral, 0, kWieghardt},
+      {"[Ni(tacn)2]Cl2", "Ni", 2, Geometry::kOctahedral, 2, kWieghardt},
+      // cis, low-spin Co(III).
+      {"[Co(cyclen)Cl2]Cl", "Co", 3, Geometry::kOctahedral, 0,
+       kHousecroftSharpe},
+      // The cot sandwich of uranium(IV), 5f2.
+      {"U(cot)2", "U", 4, kAny, 2,
+       "Greenwood and Earnshaw, 2nd ed., ch. 31, from memory (uranocene, "
+       "U(IV) 5f2)"},
+  });
+}
+
+// The spin state labels of the macrocycle rule.
+TEST(Coordination, MacrocycleSpinStateLabels) {
+  const struct {
+    const char* formula;
+    const char* metal;
+    SpinState spin;
+  } kCases[] = {
+      // Same sources as PlanarMacrocycles.
+      {"FePc", "Fe", SpinState::kIntermediate},
+      {"MnPc", "Mn", SpinState::kIntermediate},
+      {"Mn(TPP)", "Mn", SpinState::kHigh},
+      {"Cr(TPP)", "Cr", SpinState::kHigh},
+      {"Co(TPP)", "Co", SpinState::kLow},
+      {"Fe(TPP)Cl", "Fe", SpinState::kHigh},
+      {"Co(TPP)Cl", "Co", SpinState::kLow},
+  };
+  for (const auto& c : kCases) {
+    SCOPED_TRACE(c.formula);
+    CompositionInput in;
+    in.formula = c.formula;
+    const CompositionReport r = AnalyzeComposition(in);
+    ASSERT_TRUE(r.valid);
+    const IonAnnotation* ion = MetalIon(r, c.metal);
+    ASSERT_NE(ion, nullptr);
+    ASSERT_TRUE(ion->description->ligand_field.has_value());
+    EXPECT_EQ(Name(ion->description->ligand_field->splitting.spin_state),
+              Name(c.spin));
+  }
+}
+
+// A record may ask for intermediate spin only beside the square-planar or
+// square-pyramidal geometry it is defined in.
+TEST(Coordination, RecordIntermediateSpinNeedsItsGeometry) {
+  CompositionInput planar;
+  planar.formula = "FeCl2";
+  planar.geometry = "Fe:square_planar";
+  planar.spin_state = "Fe:intermediate";
+  const CompositionReport ok = AnalyzeComposition(planar);
+  ASSERT_TRUE(ok.valid);
+  EXPECT_DOUBLE_EQ(ok.unpaired_per_formula_unit, 2);
+  for (const char* geometry : {"", "Fe:octahedral"}) {
+    SCOPED_TRACE(geometry);
+    CompositionInput in = planar;
+    in.geometry = geometry;
+    const CompositionReport r = AnalyzeComposition(in);
+    EXPECT_FALSE(r.valid);
+    bool seen = false;
+    for (const Diagnostic& d : r.diagnostics) {
+      seen |= d.code == codes::kMalformedElementSettings &&
+              absl::StrContains(d.message, "Fe:intermediate needs geometry");
+    }
+    EXPECT_TRUE(seen);
+  }
 }
 
 TEST(Coordination, ThreeSevenAndNineCoordinate) {

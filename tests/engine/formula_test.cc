@@ -836,6 +836,19 @@ constexpr AbbreviationCase kAbbreviations[] = {
     {"dmg", "C4H7N2O2"},
     {"Hdmg", "C4H7N2O2"},
     {"ppy", "C11H8N"},
+    // Macrocycles and cot (IUPAC Red Book 2005, Table VII, from memory;
+    // the capitalised TPP, OEP and Pc are common practice).
+    {"tpp", "C44H28N4"},
+    {"TPP", "C44H28N4"},
+    {"oep", "C36H44N4"},
+    {"OEP", "C36H44N4"},
+    {"pc", "C32H16N8"},
+    {"Pc", "C32H16N8"},
+    {"salen", "C16H14N2O2"},
+    {"cyclam", "C10H24N4"},
+    {"cyclen", "C8H20N4"},
+    {"tacn", "C6H15N3"},
+    {"cot", "C8H8"},
 };
 
 // The amounts of `text` as "Sym=count" in formula order.
@@ -984,6 +997,21 @@ TEST(FormulaAbbreviations, FragmentsMakePhosphinesAndJoinedFormsComeFirst) {
   EXPECT_EQ(AmountsText("Cp*2Fe"), AmountsText("(C10H15)2Fe"));
   EXPECT_EQ(AmountsText("[Cp*Fe(CO)2]2"), AmountsText("[(C10H15)Fe(CO)2]2"));
   EXPECT_EQ(AmountsText("FeCp2*2H2O"), AmountsText("Fe(C5H5)2·2H2O"));
+  // "TPP" and "OEP" are the porphyrinates, not tritium (T, read as H)
+  // with two P, or O before an unknown "EP"; T still reads as tritium
+  // elsewhere.
+  EXPECT_EQ(AmountsText("Fe(TPP)Cl"), AmountsText("Fe(C44H28N4)Cl"));
+  EXPECT_EQ(AmountsText("Fe(tpp)Cl"), AmountsText("Fe(C44H28N4)Cl"));
+  EXPECT_EQ(AmountsText("Ni(OEP)"), AmountsText("Ni(C36H44N4)"));
+  EXPECT_THAT(CountsOf(ParseOrFail("P2T")),
+              ElementsAre(Pair("P", Rational(2)), Pair("H", Rational(1))));
+  // "Pc" after a metal symbol (CuPc) and in brackets are one group.
+  EXPECT_EQ(AmountsText("CuPc"), AmountsText("Cu(C32H16N8)"));
+  EXPECT_EQ(AmountsText("Cu(Pc)"), AmountsText("Cu(C32H16N8)"));
+  EXPECT_EQ(AmountsText("H2Pc"), AmountsText("H2(C32H16N8)"));
+  EXPECT_EQ(AmountsText("[Ni(cyclam)](ClO4)2"),
+            AmountsText("[Ni(C10H24N4)](ClO4)2"));
+  EXPECT_EQ(AmountsText("U(cot)2"), AmountsText("U(C8H8)2"));
 }
 
 TEST(FormulaNotations, IsomerPrefixesAreSetAsideWithAnInfo) {

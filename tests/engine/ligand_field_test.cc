@@ -208,6 +208,66 @@ TEST(SplitD, SquarePlanarD8IsDiamagnetic) {
   EXPECT_EQ(d8.unpaired, 0);
 }
 
+// Intermediate spin leaves the square plane's b1g (dx2-y2) empty and
+// fills the four lower orbitals high spin: d6 has two unpaired electrons
+// (four-coordinate Fe(TPP) and FePc, S = 1), d5 three (MnPc, S = 3/2)
+// (Scheidt and Reed, Chem. Rev. 81 (1981) 543; Barraclough, Martin, Mitra
+// and Sherwood, J. Chem. Phys. 53 (1970) 1638; both from memory).
+TEST(SplitD, SquarePlanarIntermediateSpinLeavesDx2y2Empty) {
+  const LigandFieldSplitting d6 =
+      SplitD(6, Geometry::kSquarePlanar, SpinState::kIntermediate);
+  EXPECT_EQ(d6.Notation(), "eg4 a1g1 b2g1 b1g0");
+  EXPECT_EQ(d6.unpaired, 2);
+  EXPECT_EQ(
+      SplitD(5, Geometry::kSquarePlanar, SpinState::kIntermediate).unpaired, 3);
+  // Against high and low spin, d count by d count: the same count as high
+  // spin up to d4 (nothing reaches dx2-y2), between the two for d5 and d6,
+  // and low spin's from d7 (dx2-y2 opens only when the rest is full).
+  for (int d = 0; d <= 10; ++d) {
+    SCOPED_TRACE(d);
+    const LigandFieldSplitting mid =
+        SplitD(d, Geometry::kSquarePlanar, SpinState::kIntermediate);
+    const int high =
+        SplitD(d, Geometry::kSquarePlanar, SpinState::kHigh).unpaired;
+    const int low =
+        SplitD(d, Geometry::kSquarePlanar, SpinState::kLow).unpaired;
+    int electrons = 0;
+    for (const SplitLevel& level : mid.levels) electrons += level.electrons;
+    EXPECT_EQ(electrons, d);
+    EXPECT_EQ(mid.levels.back().electrons, d <= 8 ? 0 : d - 8);
+    if (d <= 4) EXPECT_EQ(mid.unpaired, high);
+    if (d == 5 || d == 6) {
+      EXPECT_LT(mid.unpaired, high);
+      EXPECT_GT(mid.unpaired, low);
+    }
+    if (d >= 7) EXPECT_EQ(mid.unpaired, low);
+  }
+  // The square pyramid's b1 is its dx2-y2 too: d6 keeps two.
+  const LigandFieldSplitting pyramid =
+      SplitD(6, Geometry::kSquarePyramidal, SpinState::kIntermediate);
+  EXPECT_EQ(pyramid.levels.back().electrons, 0);
+  EXPECT_EQ(pyramid.unpaired, 2);
+}
+
+// Intermediate spin is asked for only where it is defined.
+TEST(LigandField, IntermediateSpinOnlyInTheSquarePlaneAndPyramid) {
+  EXPECT_TRUE(IntermediateSpinApplies(Geometry::kSquarePlanar));
+  EXPECT_TRUE(IntermediateSpinApplies(Geometry::kSquarePyramidal));
+  EXPECT_FALSE(IntermediateSpinApplies(Geometry::kOctahedral));
+  EXPECT_FALSE(IntermediateSpinApplies(Geometry::kTetrahedral));
+  AtomQuery q = *ParseAtomQuery("Fe2+", std::nullopt);
+  q.spin_state = SpinStatePreference::kIntermediate;
+  q.geometry = Geometry::kSquarePlanar;
+  absl::StatusOr<AtomDescriptionPtr> planar = DescribeAtom(q);
+  ASSERT_TRUE(planar.ok()) << planar.status();
+  ASSERT_TRUE((*planar)->ligand_field.has_value());
+  EXPECT_EQ((*planar)->ligand_field->splitting.unpaired, 2);
+  q.geometry = Geometry::kOctahedral;
+  absl::StatusOr<AtomDescriptionPtr> octahedral = DescribeAtom(q);
+  EXPECT_EQ(octahedral.status().code(), absl::StatusCode::kInvalidArgument);
+  EXPECT_THAT(octahedral.status().message(), HasSubstr("square_planar"));
+}
+
 TEST(SplitD, SquareAntiprismaticD2IsDiamagneticWhenLowSpin) {
   // Eight-coordinate d2: both electrons pair in the single low a1 (z2)
   // orbital, so [Mo(CN)8]4- is diamagnetic; d1 ([Mo(CN)8]3-) keeps one
@@ -372,6 +432,8 @@ TEST(ResolveSpinState, FollowsDocumentedRule) {
                 SpinState::kHigh);
       EXPECT_EQ(ResolveSpinState(g, SpinStatePreference::kLow, n),
                 SpinState::kLow);
+      EXPECT_EQ(ResolveSpinState(g, SpinStatePreference::kIntermediate, n),
+                SpinState::kIntermediate);
     }
   }
 }
@@ -427,7 +489,7 @@ TEST(LigandFieldNames, ParseAndPrint) {
 
   for (SpinStatePreference s :
        {SpinStatePreference::kAuto, SpinStatePreference::kHigh,
-        SpinStatePreference::kLow}) {
+        SpinStatePreference::kLow, SpinStatePreference::kIntermediate}) {
     absl::StatusOr<SpinStatePreference> parsed =
         ParseName<SpinStatePreference>(Name(s));
     ASSERT_TRUE(parsed.ok()) << parsed.status();

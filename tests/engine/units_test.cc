@@ -89,5 +89,55 @@ TEST(Units, HalfUnitsHoldTheirBondedPairStates) {
   }
 }
 
+// The macrocycles are units with their place in the series: the planar
+// tetradentate ones (porphyrinates, phthalocyaninate, salen, cyclam) are
+// marked planar, cyclen (too small a ring, it binds cis) and tacn
+// (tridentate, facial) are not (Greenwood and Earnshaw, Chemistry of the
+// Elements, 2nd ed., chs. 25-29; Housecroft and Sharpe, Inorganic
+// Chemistry; both from memory). Charges: the porphyrinates, Pc and salen
+// bind as dianions, the aza macrocycles neutral.
+TEST(Units, MacrocyclesAreLigandsAndThePlanarOnesSaySo) {
+  const struct {
+    const char* name;
+    int charge;
+    int denticity;
+    bool planar;
+  } kCases[] = {
+      {"5,10,15,20-tetraphenylporphyrinate", -2, 4, true},
+      {"2,3,7,8,12,13,17,18-octaethylporphyrinate", -2, 4, true},
+      {"phthalocyaninate", -2, 4, true},
+      {"N,N'-bis(salicylidene)ethylenediaminate", -2, 4, true},
+      {"1,4,8,11-tetraazacyclotetradecane", 0, 4, true},
+      {"1,4,7,10-tetraazacyclododecane", 0, 4, false},
+      {"1,4,7-triazacyclononane", 0, 3, false},
+  };
+  for (const auto& c : kCases) {
+    SCOPED_TRACE(c.name);
+    const Unit* u = FindUnit(c.name);
+    ASSERT_NE(u, nullptr);
+    EXPECT_EQ(u->charge, c.charge);
+    ASSERT_NE(u->ligand, nullptr);
+    EXPECT_EQ(u->ligand->denticity, c.denticity);
+    EXPECT_EQ(u->ligand->planar, c.planar);
+    EXPECT_EQ(u->ligand->donor->symbol, std::string("N"));
+  }
+  // Read from the formulas that write them, once per metal.
+  const struct {
+    const char* formula;
+    const char* unit;
+    int count;
+  } kFormulas[] = {
+      {"Fe(TPP)Cl", "5,10,15,20-tetraphenylporphyrinate", 1},
+      {"CuPc", "phthalocyaninate", 1},
+      {"[Cr(tacn)2]Cl3", "1,4,7-triazacyclononane", 2},
+  };
+  for (const auto& c : kFormulas) {
+    SCOPED_TRACE(c.formula);
+    Found found = FindNamed(c.formula, c.unit);
+    ASSERT_TRUE(found.ok);
+    EXPECT_EQ(found.count, Rational(c.count));
+  }
+}
+
 }  // namespace
 }  // namespace shellwright

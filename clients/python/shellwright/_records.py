@@ -15,7 +15,8 @@ def describe(spec, *, charge=None, geometry=None, spin_state=None,
         "square_antiprismatic", "linear", "square_pyramidal",
         "trigonal_planar", "pentagonal_bipyramidal" or
         "tricapped_trigonal_prismatic".
-    spin_state: "auto", "high" or "low".
+    spin_state: "auto", "high", "low" or "intermediate" (square_planar
+        or square_pyramidal geometry only).
     configuration: an explicit configuration ("[Ar] 3d5 4s1").
 
     Raises TypeError for an argument of the wrong type and ValueError, with

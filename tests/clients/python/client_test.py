@@ -82,9 +82,18 @@ class ClientTest(unittest.TestCase):
         with shellwright.Client(self.server.address, timeout=60) as client:
             for spec, kwargs in [("Fe3+", {}), (26, {"charge": 2}),
                                  ("Co3+", {"geometry": "octahedral",
-                                           "spin_state": "low"})]:
+                                           "spin_state": "low"}),
+                                 ("Fe2+", {"geometry": "square_planar",
+                                           "spin_state": "intermediate"})]:
                 self.assertEqual(client.describe(spec, **kwargs),
                                  shellwright.describe(spec, **kwargs))
+            # Square-planar d6, intermediate spin: dx2-y2 empty, two
+            # unpaired (four-coordinate Fe(TPP), S = 1; Scheidt and Reed,
+            # Chem. Rev. 81 (1981) 543, from memory).
+            remote = client.describe("Fe2+", geometry="square_planar",
+                                     spin_state="intermediate")
+            self.assertEqual(remote["spin_state"], "intermediate")
+            self.assertEqual(remote["ligand_field"]["unpaired_electrons"], 2)
             for formula in ["La0.7Sr0.3MnO3", "Xx2O3", ""]:
                 self.assertEqual(client.analyze(formula, id="a", row=3),
                                  shellwright.analyze(formula, id="a", row=3))
