@@ -941,7 +941,11 @@ class FormulaParser {
                 .second[static_cast<unsigned char>(text_[start + 1]) & 127]) {
           const LigandAbbreviation* found = nullptr;
           for (const LigandAbbreviation* a : joined_.list) {
-            if (absl::StartsWith(text_.substr(start), a->abbreviation)) {
+            // Not when a lower-case letter follows: its capital starts an
+            // element symbol there (BAs is boron arsenide, not BA and s).
+            const size_t next = start + a->abbreviation.size();
+            if (absl::StartsWith(text_.substr(start), a->abbreviation) &&
+                !(next < text_.size() && IsLower(text_[next]))) {
               found = a;
               break;
             }

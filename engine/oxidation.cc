@@ -1485,6 +1485,25 @@ BestReading SearchReadings(const Formula& formula,
     for (const WrittenGroup& g : formula.groups) bracketed |= g.bracket == '[';
   }
   const ReadingList readings = Readings(search->matches, bracketed);
+  // An organic unit written out in the formula (CH3NH3 in CH3NH3SnI3, an
+  // abbreviation's expansion in MASnI3, C2O4 in an oxalate), its carbon
+  // bonded to hydrogen: a reading that leaves every such unit's atoms free
+  // is the lenient fallback only, as the unbracketed reading of a bracketed
+  // complex is. Free, that carbon reads as a carbide beside protons, and
+  // CH3NH3SnI3 read Sn(IV) with C-4 and N-3 where the compound is
+  // methylammonium tin(II) iodide (Saparov and Mitzi, Chem. Rev. 116
+  // (2016) 4558, from memory).
+  const auto organic = [](const UnitMatch* m) {
+    if (m->weak) return false;
+    bool carbon = false, hydrogen = false;
+    for (const UnitAtom& a : m->units.front()->atoms) {
+      carbon |= a.element->atomic_number == 6;
+      hydrogen |= a.element->atomic_number == 1;
+    }
+    return carbon && hydrogen;
+  };
+  bool organic_written = false;
+  for (const UnitMatch& m : search->matches) organic_written |= organic(&m);
   // The buffer the next reading's plans go to; the other holds the best's.
   int work = 0;
   for (const bool strict : {true, false}) {
@@ -1493,6 +1512,10 @@ BestReading SearchReadings(const Formula& formula,
       // A formula that writes its complex in square brackets shows its
       // units: the reading without any is the lenient fallback only.
       if (bracketed && strict && reading.empty() && readings.size() > 1) {
+        continue;
+      }
+      if (organic_written && strict && readings.size() > 1 &&
+          std::none_of(reading.begin(), reading.end(), organic)) {
         continue;
       }
       bool weak = false;

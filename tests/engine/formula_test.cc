@@ -849,6 +849,16 @@ constexpr AbbreviationCase kAbbreviations[] = {
     {"cyclen", "C8H20N4"},
     {"tacn", "C6H15N3"},
     {"cot", "C8H8"},
+    // Halide-perovskite cations (Saparov and Mitzi, Chem. Rev. 116 (2016)
+    // 4558, from memory) and electrolyte anions (Xu, Chem. Rev. 104 (2004)
+    // 4303, from memory): common practice.
+    {"MA", "CH3NH3"},
+    {"FA", "NH2CHNH2"},
+    {"PEA", "C6H5C2H4NH3"},
+    {"TFSI", "C2F6NO4S2"},
+    {"TFSA", "C2F6NO4S2"},
+    {"FSI", "F2NO4S2"},
+    {"OTf", "CF3SO3"},
 };
 
 // The amounts of `text` as "Sym=count" in formula order.
@@ -1012,6 +1022,19 @@ TEST(FormulaAbbreviations, FragmentsMakePhosphinesAndJoinedFormsComeFirst) {
   EXPECT_EQ(AmountsText("[Ni(cyclam)](ClO4)2"),
             AmountsText("[Ni(C10H24N4)](ClO4)2"));
   EXPECT_EQ(AmountsText("U(cot)2"), AmountsText("U(C8H8)2"));
+  // The perovskite cations and electrolyte anions; a joined form followed
+  // by a lower-case letter is not read, so BAs stays boron arsenide and
+  // miscased BA and GA stay errors.
+  EXPECT_EQ(AmountsText("MAPbI3"), AmountsText("(CH3NH3)PbI3"));
+  EXPECT_EQ(AmountsText("MA0.5FA0.5PbI3"),
+            AmountsText("(CH3NH3)0.5(NH2CHNH2)0.5PbI3"));
+  EXPECT_EQ(AmountsText("(PEA)2PbI4"), AmountsText("(C6H5C2H4NH3)2PbI4"));
+  EXPECT_EQ(AmountsText("LiTFSI"), AmountsText("Li(C2F6NO4S2)"));
+  EXPECT_EQ(AmountsText("Sc(OTf)3"), AmountsText("Sc(CF3SO3)3"));
+  EXPECT_THAT(CountsOf(ParseOrFail("BAs")),
+              ElementsAre(Pair("B", Rational(1)), Pair("As", Rational(1))));
+  EXPECT_FALSE(ParseFormula("BATiO3").ok());
+  EXPECT_FALSE(ParseFormula("GAAs").ok());
 }
 
 TEST(FormulaNotations, IsomerPrefixesAreSetAsideWithAnInfo) {

@@ -417,6 +417,31 @@ const CompoundCase kCompounds[] = {
     // formally (G&E, ch. 13): Bi+1 is uncommon, but it balances without
     // an inverted pair (it read Bi-3 with I+3 before Bi+1 was listed).
     {"Bi4I4", 0, "Bi:1x4 I:-1x4", 1, 0, 8, 0, 1},
+    // Methylammonium tin(II) and germanium(II) iodides, the lead-free halide
+    // perovskites (Saparov and Mitzi, Chem. Rev. 116 (2016) 4558, from
+    // memory): they read Sn(IV) and Ge(IV) beside a free C-4 before the
+    // written organic cation counted.
+    {"CH3NH3SnI3", 0,
+     "C:-2x1[methylammonium] H:1x6[methylammonium] N:-3x1[methylammonium] "
+     "Sn:2x1 I:-1x3",
+     0, 0, 2, 0, 1},
+    {"MASnI3", 0,
+     "C:-2x1[methylammonium] H:1x6[methylammonium] N:-3x1[methylammonium] "
+     "Sn:2x1 I:-1x3",
+     0, 0, 2, 0, 1},
+    {"CH3NH3GeI3", 0,
+     "C:-2x1[methylammonium] H:1x6[methylammonium] N:-3x1[methylammonium] "
+     "Ge:2x1 I:-1x3",
+     0, 0, 2, 0, 1},
+    // The electrolyte salt LiTFSI (Xu, Chem. Rev. 104 (2004) 4303, from
+    // memory), states by the ionic approximation (data/units.tsv).
+    {"LiTFSI", 0,
+     "Li:1x1 C:4x2[bis(trifluoromethanesulfonyl)imide] "
+     "F:-1x6[bis(trifluoromethanesulfonyl)imide] "
+     "N:-3x1[bis(trifluoromethanesulfonyl)imide] "
+     "O:-2x4[bis(trifluoromethanesulfonyl)imide] "
+     "S:4x2[bis(trifluoromethanesulfonyl)imide]",
+     0, 0, 0, 0, 1},
 };
 
 TEST(Oxidation, CompoundTableBestAssignments) {
