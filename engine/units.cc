@@ -391,12 +391,15 @@ UnitMatches FindUnitMatches(const Formula& formula) {
                      formula.terms[i].count * formula.terms[i].multiplier,
                      &signature);
     }
-    // A phosphine written with its substituents first: Ph3P (the group
-    // (C6H5)3, then P) in Ph3PAuCl, as chemists often write it.
+    // A phosphine or a quaternary ammonium written with its substituents
+    // first: Ph3P (the group (C6H5)3, then P) in Ph3PAuCl, (CH3)4N in
+    // (CH3)4NCl, as chemists often write them (the ammonium read N+5 beside
+    // four methyl anions before).
     const int after = group.end_term;
     if (after < static_cast<int>(formula.terms.size()) &&
         formula.terms[after].group == level &&
-        formula.terms[after].element->atomic_number == 15) {
+        (formula.terms[after].element->atomic_number == 15 ||
+         formula.terms[after].element->atomic_number == 7)) {
       const WrittenTerm& term = formula.terms[after];
       absl::InlinedVector<std::pair<int, Rational>, 8> with_p = signature;
       AddToSignature(term.element, term.count * term.multiplier, &with_p);

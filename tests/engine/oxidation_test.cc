@@ -433,6 +433,14 @@ const CompoundCase kCompounds[] = {
      "C:-2x1[methylammonium] H:1x6[methylammonium] N:-3x1[methylammonium] "
      "Ge:2x1 I:-1x3",
      0, 0, 2, 0, 1},
+    // Quaternary ammonium salts written with the alkyl groups first are
+    // N(-III) with the cation, as NMe4Cl is (Greenwood and Earnshaw,
+    // Chemistry of the Elements, 2nd ed., ch. 11, from memory); they read
+    // N+5 beside four methyl anions before.
+    {"(CH3)4NCl", 0,
+     "C:-2x4[tetramethylammonium] H:1x12[tetramethylammonium] "
+     "N:-3x1[tetramethylammonium] Cl:-1x1",
+     0, 0, 0, 0, 1},
     // The electrolyte salt LiTFSI (Xu, Chem. Rev. 104 (2004) 4303, from
     // memory), states by the ionic approximation (data/units.tsv).
     {"LiTFSI", 0,
