@@ -441,6 +441,10 @@ const CompoundCase kCompounds[] = {
      "C:-2x4[tetramethylammonium] H:1x12[tetramethylammonium] "
      "N:-3x1[tetramethylammonium] Cl:-1x1",
      0, 0, 0, 0, 1},
+    // U(III) in its ordinary salts and nuclear-fuel pnictides, UCl3, UH3
+    // and UN, is a common state (G&E, ch. 31): no uncommon flag.
+    {"UCl3", 0, "U:3x1 Cl:-1x3", 0, 0, 0, 0, 1},
+    {"UN", 0, "U:3x1 N:-3x1", 0, 0, 0, 0, 1},
     // The electrolyte salt LiTFSI (Xu, Chem. Rev. 104 (2004) 4303, from
     // memory), states by the ionic approximation (data/units.tsv).
     {"LiTFSI", 0,
