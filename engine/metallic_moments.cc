@@ -346,13 +346,17 @@ std::optional<MetallicMomentEstimate> EstimateRareEarth(
   // RFe2 with nothing else: the cubic Laves phases, Fe at its reduced
   // moment.
   const double tolerance = 1e-9 * std::max(1.0, metal_atoms);
-  const bool laves = co == 0 && std::abs(fe - 2 * rare) < tolerance &&
-                     std::abs(metal_atoms - fe - rare) < tolerance;
+  // R with two atoms of `partner` and nothing else (`other` absent): the
+  // cubic Laves phases RFe2 and RCo2.
+  const auto laves_with = [&](double partner, double other) {
+    return other == 0 && std::abs(partner - 2 * rare) < tolerance &&
+           std::abs(metal_atoms - partner - rare) < tolerance;
+  };
+  const bool laves = laves_with(fe, co);
   // RCo2 with nothing else: the induced Co moment needs a heavy rare
   // earth's exchange field alone; light ones (their Co moment is smaller
   // and less settled) and Y or Lu (no 4f moment) get none.
-  const bool cobalt_laves = fe == 0 && std::abs(co - 2 * rare) < tolerance &&
-                            std::abs(metal_atoms - co - rare) < tolerance;
+  const bool cobalt_laves = laves_with(co, fe);
   if (cobalt_laves && (light > 0 || heavy == 0)) {
     return None(e, heavy == 0 && light == 0
                        ? "cubic Laves phase RCo2 without a 4f moment: Co is "
